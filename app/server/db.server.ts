@@ -1,0 +1,25 @@
+/**
+ * The one database client of this process. Everything that reads or writes PostgreSQL goes through `db`.
+ */
+import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
+import pg from "pg";
+import * as schema from "~/db/schema";
+import { developmentDatabaseUrl } from "../../scripts/lib/database-url";
+
+export type Database = NodePgDatabase<typeof schema>;
+/** A transaction handle: business changes and the e-mails or jobs they cause share one. */
+export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
+export type Executor = Database | Transaction;
+
+export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
+  return new pg.Pool({ connectionString, max: Number(process.env.DATABASE_POOL_SIZE ?? 10) });
+}
+
+export function createDatabase(pool: pg.Pool): Database {
+  return drizzle(pool, { schema });
+}
+
+// Kept on globalThis so that hot reload in development does not open a new pool per edit.
+const globalForDb = globalThis as unknown as { benchpostPool?: pg.Pool };
+export const pool = (globalForDb.benchpostPool ??= createPool());
+export const db = createDatabase(pool);

@@ -1,0 +1,13 @@
+import type { Config } from "@react-router/dev/config";
+
+export default {
+  ssr: true,
+  // Every v8 flag that 7.18 offers: adopting them now keeps the move to v8 small.
+  future: {
+    v8_middleware: true,
+    v8_splitRouteModules: true,
+    v8_viteEnvironmentApi: true,
+    v8_passThroughRequests: true,
+    v8_trailingSlashAwareDataRequests: true,
+  },
+} satisfies Config;

@@ -1,0 +1,28 @@
+/**
+ * `npm test`: every check the project has, in the order that fails fastest. Prepares what the suites
+ * need (the test database with its migrations, Debian's Chromium) when it is missing.
+ */
+import { migrateDatabase } from "~/server/migrate.server";
+import { ensureChromium } from "./lib/chromium";
+import { testDatabaseUrl } from "./lib/database-url";
+import { SetupError, ensureDatabases } from "./lib/postgres";
+import { bin, runStep } from "./lib/processes";
+
+// With DATABASE_URL the cluster is someone else's: the suite must not try to manage it.
+const env = { ...process.env, ...(process.env.DATABASE_URL ? { BENCHPOST_EXTERNAL_DATABASE: "1" } : {}) };
+
+try {
+  await ensureDatabases();
+  await migrateDatabase(testDatabaseUrl());
+  ensureChromium();
+} catch (error) {
+  console.error(error instanceof SetupError ? error.message : error);
+  process.exit(1);
+}
+
+runStep("Type-checking (react-router typegen && tsc)", bin.reactRouter, ["typegen"], env);
+runStep("Type-checking", bin.tsc, [], env);
+runStep("Unit and integration tests", bin.vitest, ["run", "--project", "unit", "--project", "integration"], env);
+runStep("Building the app for the browser tests", bin.reactRouter, ["build"], env);
+runStep("Browser tests (Chromium)", bin.vitest, ["run", "--project", "browser"], env);
+console.log("\nAll checks passed.");

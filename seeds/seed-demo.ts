@@ -1,0 +1,58 @@
+/**
+ * Writes the demo scenario into a database once. Idempotent: when the demo course is already there,
+ * nothing is touched, so a second `npm start` keeps every change made through the app.
+ */
+import { and, eq } from "drizzle-orm";
+import { cohorts, courseMemberships, courses, taCohortAssignments, users } from "~/db/schema";
+import { hashPassword } from "~/server/auth/password.server";
+import type { Database } from "~/server/db.server";
+import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "./demo-scenario";
+
+export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
+  const existing = await db
+    .select({ id: courses.id })
+    .from(courses)
+    .where(and(eq(courses.code, demoCourse.code), eq(courses.term, demoCourse.term)));
+  if (existing.length > 0) return "already there";
+
+  const scenario = buildDemoScenario();
+  // One hash for everyone: argon2id is slow by design, and the demo password is public anyway.
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+
+  await db.transaction(async (tx) => {
+    const [course] = await tx.insert(courses).values(demoCourse).returning();
+    const cohortRows = await tx
+      .insert(cohorts)
+      .values(demoCohortNames.map((name) => ({ courseId: course.id, name })))
+      .returning();
+    const cohortIdAt = (index: number) => cohortRows.find((row) => row.name === demoCohortNames[index])!.id;
+
+    const people = [scenario.instructor, ...scenario.tas, ...scenario.students];
+    const userRows = await tx
+      .insert(users)
+      .values(people.map((p) => ({ name: p.name, email: p.email, studentNumber: p.studentNumber ?? null, passwordHash })))
+      .onConflictDoNothing()
+      .returning();
+    const userIdOf = (email: string) => userRows.find((row) => row.email === email)!.id;
+
+    const memberships = await tx
+      .insert(courseMemberships)
+      .values([
+        { courseId: course.id, userId: userIdOf(scenario.instructor.email), role: "instructor" as const },
+        ...scenario.tas.map((ta) => ({ courseId: course.id, userId: userIdOf(ta.email), role: "ta" as const })),
+        ...scenario.students.map((student) => ({
+          courseId: course.id,
+          userId: userIdOf(student.email),
+          role: "student" as const,
+          cohortId: cohortIdAt(student.cohort),
+        })),
+      ])
+      .returning();
+    const membershipOf = (email: string) => memberships.find((row) => row.userId === userIdOf(email))!.id;
+
+    await tx.insert(taCohortAssignments).values(
+      scenario.tas.flatMap((ta) => ta.cohorts.map((cohort) => ({ membershipId: membershipOf(ta.email), cohortId: cohortIdAt(cohort) }))),
+    );
+  });
+  return "seeded";
+}

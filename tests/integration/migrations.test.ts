@@ -1,0 +1,40 @@
+import { readFileSync } from "node:fs";
+import pg from "pg";
+import { afterAll, describe, expect, it } from "vitest";
+import { migrateDatabase, migrationsFolder } from "~/server/migrate.server";
+import { maintenanceUrl, withDatabaseName } from "../../scripts/lib/database-url";
+import { dropTestDatabase } from "../support/test-database";
+
+const emptyUrl = withDatabaseName(process.env.DATABASE_URL!, `benchpost_empty_${process.pid}`);
+
+async function query<T extends pg.QueryResultRow>(url: string, sql: string): Promise<T[]> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    return (await client.query<T>(sql)).rows;
+  } finally {
+    await client.end();
+  }
+}
+
+describe("migrations", () => {
+  afterAll(() => dropTestDatabase(emptyUrl));
+
+  it("apply to an empty database, every one of them, and a second run changes nothing", async () => {
+    await query(maintenanceUrl(emptyUrl), `create database "${new URL(emptyUrl).pathname.slice(1)}" template template0`);
+    await migrateDatabase(emptyUrl);
+
+    const journal = JSON.parse(readFileSync(`${migrationsFolder}/meta/_journal.json`, "utf8")) as { entries: unknown[] };
+    const applied = await query<{ count: string }>(emptyUrl, "select count(*) from drizzle.__drizzle_migrations");
+    expect(Number(applied[0].count)).toBe(journal.entries.length);
+
+    const tables = (await query<{ table_name: string }>(emptyUrl, "select table_name from information_schema.tables where table_schema = 'public'")).map(
+      (row) => row.table_name,
+    );
+    expect(tables).toEqual(expect.arrayContaining(["users", "sessions", "courses", "cohorts", "course_memberships", "ta_cohort_assignments", "audit_events"]));
+
+    await migrateDatabase(emptyUrl);
+    const again = await query<{ count: string }>(emptyUrl, "select count(*) from drizzle.__drizzle_migrations");
+    expect(again[0].count).toBe(applied[0].count);
+  });
+});

@@ -1,0 +1,71 @@
+/**
+ * Before the browser suite: a fresh database with the demo scenario, and the built app served from
+ * it on a free loopback port. The suite reads the address with `inject("baseUrl")`.
+ */
+import { spawn, type ChildProcess } from "node:child_process";
+import { existsSync } from "node:fs";
+import { createServer } from "node:net";
+import type { TestProject } from "vitest/node";
+import { createDatabase, createPool } from "~/server/db.server";
+import { migrateDatabase } from "~/server/migrate.server";
+import { seedDemo } from "../../seeds/seed-demo";
+import { ensureChromium } from "../../scripts/lib/chromium";
+import { bin } from "../../scripts/lib/processes";
+import { createTestDatabase, dropTestDatabase } from "./test-database";
+
+declare module "vitest" {
+  export interface ProvidedContext {
+    baseUrl: string;
+    databaseUrl: string;
+  }
+}
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer().listen(0, "127.0.0.1", () => {
+      const address = probe.address();
+      probe.close(() => (typeof address === "object" && address ? resolve(address.port) : reject(new Error("no port"))));
+    });
+  });
+}
+
+async function waitForHealth(baseUrl: string, server: ChildProcess): Promise<void> {
+  const deadline = Date.now() + 30_000;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error(`The app server exited with code ${server.exitCode}`);
+    try {
+      if ((await fetch(`${baseUrl}/healthz`)).ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((resolve) => setTimeout(resolve, 200));
+  }
+  throw new Error(`The app server did not answer at ${baseUrl} within 30 s`);
+}
+
+export default async function setup(project: TestProject): Promise<() => Promise<void>> {
+  if (!existsSync("build/server/index.js")) throw new Error("Build the app first (npm test does): build/server/index.js is missing.");
+  ensureChromium();
+  const databaseUrl = await createTestDatabase("browser");
+  await migrateDatabase(databaseUrl);
+  const pool = createPool(databaseUrl);
+  await seedDemo(createDatabase(pool));
+  await pool.end();
+
+  const port = await freePort();
+  const baseUrl = `http://localhost:${port}`;
+  // The node binary itself, not npx, so that the PID we hold is the server's and we can stop it.
+  const server = spawn(process.execPath, [bin.reactRouterServe, "build/server/index.js"], {
+    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: databaseUrl },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
+  await waitForHealth(baseUrl, server);
+  project.provide("baseUrl", baseUrl);
+  project.provide("databaseUrl", databaseUrl);
+
+  return async () => {
+    server.kill("SIGTERM");
+    await new Promise((resolve) => (server.exitCode !== null ? resolve(null) : server.once("exit", resolve)));
+    await dropTestDatabase(databaseUrl);
+  };
+}
