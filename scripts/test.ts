@@ -22,7 +22,8 @@ try {
 
 runStep("Type-checking (react-router typegen && tsc)", bin.reactRouter, ["typegen"], env);
 runStep("Type-checking", bin.tsc, [], env);
+// Built before the suites: the HTTP-level integration tests and the browser tests both serve it.
+runStep("Building the app", bin.reactRouter, ["build"], env);
 runStep("Unit and integration tests", bin.vitest, ["run", "--project", "unit", "--project", "integration"], env);
-runStep("Building the app for the browser tests", bin.reactRouter, ["build"], env);
 runStep("Browser tests (Chromium)", bin.vitest, ["run", "--project", "browser"], env);
 console.log("\nAll checks passed.");
