@@ -1,6 +1,7 @@
 /**
  * `npm start`: everything a newcomer needs to see Benchpost with its demo data. Ensures the database,
  * migrates, seeds when empty, builds, and runs the web server (and the other processes) until Ctrl-C.
+ * `npm run dev` is the same with the Vite dev server (hot reload) in place of the build.
  */
 import type { ChildProcess } from "node:child_process";
 import { createDatabase, createPool } from "~/server/db.server";
@@ -12,6 +13,7 @@ import { SetupError, ensureDatabases } from "./lib/postgres";
 import { bin, portIsFree, runStep, startService } from "./lib/processes";
 
 const port = Number(process.env.PORT ?? 3000);
+const development = process.argv.includes("--dev");
 
 async function prepare(): Promise<void> {
   if (!(await portIsFree(port))) throw new SetupError(`Port ${port} is already in use: stop what is running there, or set PORT.`);
@@ -23,7 +25,7 @@ async function prepare(): Promise<void> {
   } finally {
     await pool.end();
   }
-  runStep("Building the app", bin.reactRouter, ["build"]);
+  if (!development) runStep("Building the app", bin.reactRouter, ["build"]);
 }
 
 function printWelcome(): void {
@@ -42,8 +44,16 @@ function printWelcome(): void {
 }
 
 function run(): void {
-  const env = { ...process.env, NODE_ENV: "production", PORT: String(port), DATABASE_URL: developmentDatabaseUrl() };
-  const services: ChildProcess[] = [startService("web", bin.reactRouterServe, ["build/server/index.js"], env)];
+  const env = {
+    ...process.env,
+    NODE_ENV: development ? "development" : "production",
+    PORT: String(port),
+    DATABASE_URL: developmentDatabaseUrl(),
+  };
+  const web = development
+    ? startService("web", bin.reactRouter, ["dev", "--port", String(port), "--strictPort"], env)
+    : startService("web", bin.reactRouterServe, ["build/server/index.js"], env);
+  const services: ChildProcess[] = [web];
   const stop = () => {
     for (const service of services) service.kill("SIGTERM");
   };
