@@ -1,0 +1,702 @@
+import { DRAG_MODEL_RANGES, referenceDragCoefficient, referenceDragLogSlope, type DragModel } from "./drag";
+import { IssueList } from "./errors";
+import { grubbsIterativeSteps } from "./grubbs";
+import { describeDrops, type DropStatistics } from "./statistics";
+import { WALL_MODEL_RANGES, wallFactor, type WallCorrectionMethod } from "./wall";
+
+export type ReductionMode = "drag" | "viscometry";
+
+/** Standard uncertainties (SI, absolute) of the measured inputs. */
+export interface StandardUncertainties {
+  /** Sphere diameter (m). */
+  diameter?: number;
+  /** Sphere mass (kg). */
+  mass?: number;
+  /** Sphere material density (kg/m³), used when the density is given instead of the mass. */
+  sphereDensity?: number;
+  /** Fluid density (kg/m³). */
+  fluidDensity?: number;
+  /** Fluid viscosity (Pa·s), drag mode. */
+  fluidViscosity?: number;
+  /** Timed distance between the bands (m). */
+  distance?: number;
+  /** Type B standard uncertainty of one timing (s), e.g. the stopwatch resolution / √12. */
+  time?: number;
+  /** Fluid temperature (K). */
+  temperature?: number;
+}
+
+/**
+ * Defaults when the lab settings give no instrument figures: a resolution r read as a rectangular
+ * distribution, u = r/√12 (GUM, JCGM 100:2008, §4.3.7 and F.2.2.1). Resolutions assumed: micrometer
+ * 0.01 mm, balance 1 mg, ruler 1 mm, stopwatch 0.01 s, thermometer 1 K. Kit records of densities and
+ * viscosity are taken as exact unless an uncertainty is given.
+ */
+export const DEFAULT_STANDARD_UNCERTAINTIES: Required<StandardUncertainties> = {
+  diameter: 0.01e-3 / Math.sqrt(12),
+  mass: 1e-6 / Math.sqrt(12),
+  sphereDensity: 0,
+  fluidDensity: 0,
+  fluidViscosity: 0,
+  distance: 1e-3 / Math.sqrt(12),
+  time: 0.01 / Math.sqrt(12),
+  temperature: 1 / Math.sqrt(12),
+};
+
+/** Everything in SI units: m, kg, kg/m³, Pa·s, s, m/s²; temperature in °C. */
+export interface FallingSphereInput {
+  mode: ReductionMode;
+  sphere: {
+    diameter: number;
+    /** Measured mass; gives ρs = 6m/(πd³). Takes precedence over `density` when both are given. */
+    mass?: number;
+    /** Material density from the kit record. */
+    density?: number;
+  };
+  fluid: {
+    density: number;
+    /** Required in drag mode. */
+    viscosity?: number;
+    temperature?: number;
+    /** d ln μ/dT (1/K) of the fluid at the drop temperature, e.g. from `viscosityTemperatureCoefficient(fit, T)`. */
+    viscosityTemperatureCoefficient?: number;
+  };
+  column: {
+    timedDistance: number;
+    innerDiameter?: number;
+    /** Fall above the top band, from release to the start of timing. */
+    runIn?: number;
+  };
+  /** Drop times over the timed distance (s). */
+  drops: readonly number[];
+  /** Local gravity, 9.80665 m/s² (standard gravity) unless the course sets its own. */
+  g?: number;
+  wallCorrection?: WallCorrectionMethod;
+  dragModel?: DragModel;
+  uncertainties?: StandardUncertainties;
+  /** Stray-drop test (two-sided iterative Grubbs): α, 0.05 by default; at most ⌊n/5⌋ drops (≥ 1) flagged. */
+  strayDropTest?: { alpha?: number; maxStrayDrops?: number };
+  /** The lab's required number of drops; fewer gives a warning. Default 5. */
+  requiredDrops?: number;
+}
+
+export interface ReductionCheck {
+  code: ReductionCheckCode;
+  level: "info" | "warn" | "error";
+  message: string;
+}
+
+export type ReductionCheckCode =
+  | "too-few-drops"
+  | "single-drop"
+  | "stray-drop-test-not-applicable"
+  | "stray-drops"
+  | "sphere-lighter-than-fluid"
+  | "sphere-density-disagrees-with-kit"
+  | "run-in-too-short"
+  | "run-in-unknown"
+  | "diameter-ratio-outside-wall-model"
+  | "wall-correction-not-applied"
+  | "wall-factor-outside-creeping-flow"
+  | "reynolds-outside-drag-model-range"
+  | "reynolds-too-large-for-stokes"
+  | "oseen-correction-not-applicable"
+  | "fluid-temperature-unknown";
+
+export interface DropResults extends DropStatistics {
+  /** Indices of drops flagged by Grubbs' test (in order of removal). */
+  strayDrops: number[];
+  /** Each drop's own velocity L/tᵢ (m/s). */
+  velocities: number[];
+}
+
+export interface VelocityResults {
+  /** L / t̄ (m/s). */
+  measured: number;
+  /** K(d/D) = v/v∞ from the chosen wall model (1 without a column diameter or with `none`). */
+  wallFactor: number;
+  /** v∞ = v/K (m/s). */
+  corrected: number;
+}
+
+interface KeyResultsBase {
+  drops: DropStatistics;
+  velocity: VelocityResults;
+  /** C_D = F / (½ρf v∞² · πd²/4). */
+  dragCoefficient: number;
+  /** Re = ρf v∞ d / μ. */
+  reynolds: number;
+}
+
+export interface DragKeyResults extends KeyResultsBase {
+  referenceDragCoefficient: number;
+  /** C_D / C_D,ref − 1. */
+  deviation: number;
+}
+
+export interface ViscometryKeyResults extends KeyResultsBase {
+  /** Stokes: μ = (ρs − ρf) g d² / (18 v∞) (Pa·s). */
+  viscosity: number;
+  /** Oseen: μ = μ_Stokes − 3ρf v∞ d/16; null when that is not positive (Re_Stokes ≥ 16/3). */
+  viscosityOseen: number | null;
+}
+
+/** Relative standard uncertainties (GUM first order), dimensionless. */
+export interface ReductionUncertainty {
+  inputs: {
+    diameter: number;
+    /** Of the mass, or of the material density when that was used. */
+    sphereMassOrDensity: number;
+    fluidDensity: number;
+    distance: number;
+    meanTime: number;
+    /** Drag mode: the fluid viscosity including u(T)·|d ln μ/dT|; 0 in viscometry. */
+    fluidViscosity: number;
+  };
+  /** Absolute standard uncertainties of the mean time (s): Type A s/√n, Type B, combined. */
+  meanTime: { typeA: number; typeB: number; combined: number };
+  /** Standard uncertainty of the fluid temperature (K), listed as given (or the default). */
+  temperature: number;
+  sphereDensity: number;
+  velocity: number;
+  dragForce: number;
+  dragCoefficient: number;
+  reynolds: number;
+  /** Drag mode: of C_D/C_D,ref. */
+  dragRatio?: number;
+  viscosity?: number;
+  viscosityOseen?: number;
+}
+
+interface ReductionBase {
+  sphereDensity: number;
+  sphereDensitySource: "mass" | "material";
+  method: { wallCorrection: WallCorrectionMethod; dragModel: DragModel; g: number };
+  /** d/D, or null without a column diameter. */
+  diameterRatio: number | null;
+  drops: DropResults;
+  /** F = |ρs − ρf| g πd³/6 (N). */
+  dragForce: number;
+  /** Stokes relaxation time τ = ρs d²/(18μ) (s) and length v∞τ (m). */
+  relaxationTime: number;
+  relaxationLength: number;
+  uncertainty: ReductionUncertainty;
+  checks: ReductionCheck[];
+}
+
+export interface DragReduction extends ReductionBase, DragKeyResults {
+  mode: "drag";
+  drops: DropResults;
+  fluidViscosity: number;
+  /** The same key results without the stray drops; null when none was flagged. */
+  withoutStrayDrops: DragKeyResults | null;
+}
+
+export interface ViscometryReduction extends ReductionBase, ViscometryKeyResults {
+  mode: "viscometry";
+  drops: DropResults;
+  withoutStrayDrops: ViscometryKeyResults | null;
+}
+
+export type Reduction = DragReduction | ViscometryReduction;
+
+const STANDARD_GRAVITY = 9.80665;
+// Common practice: after five relaxation lengths the exponential approach is within e⁻⁵ ≈ 0.7 % of v∞.
+const RUN_IN_RELAXATION_LENGTHS = 5;
+const MODES: readonly string[] = ["drag", "viscometry"];
+const WALL_METHODS: readonly string[] = ["faxen", "haberman-sayre", "francis", "none"];
+const DRAG_MODELS: readonly string[] = ["stokes", "oseen", "schiller-naumann"];
+
+/**
+ * Reduces one drop log of the falling-sphere experiments (product brief, "The data reduction"): drop
+ * statistics and stray drops, velocity with a wall correction, drag force, C_D and Re, and either the
+ * comparison with a reference drag law (drag mode) or the Stokes and Oseen viscosities (viscometry),
+ * with GUM first-order uncertainties and the checks. Throws `ReductionInputError` listing every problem
+ * when the input cannot be reduced.
+ */
+export function reduceFallingSphere(input: FallingSphereInput): Reduction {
+  validate(input);
+  const { sphere, fluid, column, drops: times } = input;
+  const mode = input.mode;
+  const g = input.g ?? STANDARD_GRAVITY;
+  const wallMethod = input.wallCorrection ?? "faxen";
+  const dragModel = input.dragModel ?? "schiller-naumann";
+  const given = input.uncertainties;
+  const checks: ReductionCheck[] = [];
+
+  const d = sphere.diameter;
+  const L = column.timedDistance;
+  const ρf = fluid.density;
+  const sphereDensitySource = sphere.mass !== undefined ? "mass" : "material";
+  const ρs = sphere.mass !== undefined ? (6 * sphere.mass) / (Math.PI * d * d * d) : (sphere.density as number);
+  const densityExcess = Math.abs(ρs - ρf);
+  const volume = (Math.PI * d * d * d) / 6;
+  // At terminal velocity the drag balances the net weight, whichever way the sphere moves.
+  const dragForce = densityExcess * g * volume;
+
+  const diameterRatio = column.innerDiameter !== undefined ? d / column.innerDiameter : null;
+  const K = diameterRatio !== null ? wallFactor(diameterRatio, wallMethod) : 1;
+
+  // --- drops and stray drops
+  const n = times.length;
+  const stats = describeDrops(times);
+  const alpha = input.strayDropTest?.alpha ?? 0.05;
+  const maxStrayDrops = input.strayDropTest?.maxStrayDrops ?? Math.max(1, Math.floor(n / 5));
+  const straySteps = n >= 3 ? grubbsIterativeSteps(times, { alpha, maxOutliers: maxStrayDrops }) : [];
+  const strayDrops = straySteps.map((step) => step.index);
+  const velocities = new Array<number>(n);
+  for (let i = 0; i < n; i++) velocities[i] = L / times[i];
+
+  const physics: PhysicsContext = {
+    timedDistance: L,
+    wallFactor: K,
+    diameter: d,
+    fluidDensity: ρf,
+    densityExcess,
+    dragForce,
+    g,
+    fluidViscosity: fluid.viscosity ?? 0,
+    dragModel,
+  };
+  const excluded = strayDrops.length > 0 ? new Uint8Array(n) : null;
+  if (excluded) for (const index of strayDrops) excluded[index] = 1;
+  const main = mode === "drag" ? dragKeyResults(stats, physics) : viscometryKeyResults(stats, physics);
+  const withoutStrayDrops = excluded
+    ? mode === "drag"
+      ? dragKeyResults(describeDrops(times, excluded), physics)
+      : viscometryKeyResults(describeDrops(times, excluded), physics)
+    : null;
+  const fluidViscosity = fluid.viscosity;
+
+  const μ = mode === "drag" ? (fluidViscosity as number) : (main as ViscometryKeyResults).viscosity;
+  const relaxationTime = (ρs * d * d) / (18 * μ);
+  const relaxationLength = main.velocity.corrected * relaxationTime;
+
+  // --- uncertainty (GUM first order: relative uncertainties in quadrature, weighted by exponents)
+  const uDiameter = (given?.diameter ?? DEFAULT_STANDARD_UNCERTAINTIES.diameter) / d;
+  const uSphere =
+    sphereDensitySource === "mass"
+      ? (given?.mass ?? DEFAULT_STANDARD_UNCERTAINTIES.mass) / (sphere.mass as number)
+      : (given?.sphereDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.sphereDensity) / ρs;
+  const uFluidDensity = (given?.fluidDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidDensity) / ρf;
+  const uDistance = (given?.distance ?? DEFAULT_STANDARD_UNCERTAINTIES.distance) / L;
+  const typeA = stats.se ?? 0;
+  const typeB = given?.time ?? DEFAULT_STANDARD_UNCERTAINTIES.time;
+  const meanTimeCombined = Math.sqrt(typeA * typeA + typeB * typeB);
+  const uTime = meanTimeCombined / stats.mean;
+  const uTemperature = given?.temperature ?? DEFAULT_STANDARD_UNCERTAINTIES.temperature;
+  let uFluidViscosity = 0;
+  if (mode === "drag") {
+    const fromRecord = (given?.fluidViscosity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidViscosity) / (fluidViscosity as number);
+    const fromTemperature = (fluid.viscosityTemperatureCoefficient ?? 0) * uTemperature;
+    uFluidViscosity = Math.sqrt(fromRecord * fromRecord + fromTemperature * fromTemperature);
+  }
+  // Log-sensitivities of ρs (to its own inputs) and of Δρ = |ρs − ρf| to ρs and ρf.
+  const sign = ρs >= ρf ? 1 : -1;
+  const excessBySphere = (sign * ρs) / densityExcess;
+  const excessByFluid = (-sign * ρf) / densityExcess;
+  const sphereByDiameter = sphereDensitySource === "mass" ? -3 : 0;
+  const relativeInputs: RelativeInputs = {
+    diameter: uDiameter,
+    sphereMassOrDensity: uSphere,
+    fluidDensity: uFluidDensity,
+    distance: uDistance,
+    meanTime: uTime,
+    fluidViscosity: uFluidViscosity,
+  };
+  // Exponents of each result in (d, m or ρs, ρf, L, t̄, μf); ρs's own dependence on d enters through excessBySphere.
+  const uncertainty: ReductionUncertainty = {
+    inputs: relativeInputs,
+    meanTime: { typeA, typeB, combined: meanTimeCombined },
+    temperature: uTemperature,
+    sphereDensity: combineRelative(relativeInputs, sphereByDiameter, 1, 0, 0, 0, 0),
+    velocity: combineRelative(relativeInputs, 0, 0, 0, 1, -1, 0),
+    // F ∝ Δρ d³
+    dragForce: combineRelative(relativeInputs, 3 + excessBySphere * sphereByDiameter, excessBySphere, excessByFluid, 0, 0, 0),
+    // C_D ∝ Δρ ρf⁻¹ d v⁻² = Δρ ρf⁻¹ d L⁻² t̄²
+    dragCoefficient: combineRelative(relativeInputs, 1 + excessBySphere * sphereByDiameter, excessBySphere, excessByFluid - 1, -2, 2, 0),
+    reynolds: 0,
+  };
+  if (mode === "drag") {
+    // Re ∝ ρf v d / μf; C_D/C_D,ref has exponents e(C_D) − s·e(Re), s = d ln C_D,ref / d ln Re.
+    uncertainty.reynolds = combineRelative(relativeInputs, 1, 0, 1, 1, -1, -1);
+    const slope = referenceDragLogSlope(main.reynolds, dragModel);
+    uncertainty.dragRatio = combineRelative(
+      relativeInputs,
+      1 + excessBySphere * sphereByDiameter - slope,
+      excessBySphere,
+      excessByFluid - 1 - slope,
+      -2 - slope,
+      2 + slope,
+      slope,
+    );
+  } else {
+    const viscometry = main as ViscometryKeyResults;
+    // μ ∝ Δρ d² t̄ / L (the brief's example); Re ∝ ρf v²/(Δρ d) = ρf L² t̄⁻² Δρ⁻¹ d⁻¹.
+    const diameterInViscosity = 2 + excessBySphere * sphereByDiameter;
+    uncertainty.viscosity = combineRelative(relativeInputs, diameterInViscosity, excessBySphere, excessByFluid, -1, 1, 0);
+    uncertainty.reynolds = combineRelative(relativeInputs, -1 - excessBySphere * sphereByDiameter, -excessBySphere, 1 - excessByFluid, 2, -2, 0);
+    if (viscometry.viscosityOseen !== null) {
+      // μ_O = μ_S − c with c = 3ρf v d/16 ∝ ρf L t̄⁻¹ d: exponents are the weighted difference.
+      const stokesShare = viscometry.viscosity / viscometry.viscosityOseen;
+      const correctionShare = stokesShare - 1;
+      uncertainty.viscosityOseen = combineRelative(
+      relativeInputs,
+        stokesShare * diameterInViscosity - correctionShare,
+        stokesShare * excessBySphere,
+        stokesShare * excessByFluid - correctionShare,
+        -stokesShare - correctionShare,
+        stokesShare + correctionShare,
+        0,
+      );
+    }
+  }
+
+  // --- checks
+  const requiredDrops = input.requiredDrops ?? 5;
+  if (n < requiredDrops) {
+    checks.push({
+      code: "too-few-drops",
+      level: "warn",
+      message: `${n} drop${n === 1 ? "" : "s"} timed; the lab asks for at least ${requiredDrops}.`,
+    });
+  }
+  if (n === 1) {
+    checks.push({
+      code: "single-drop",
+      level: "warn",
+      message: "A single drop gives no scatter: no standard deviation, interval or Type A uncertainty.",
+    });
+  }
+  if (n < 3) {
+    checks.push({
+      code: "stray-drop-test-not-applicable",
+      level: "info",
+      message: "Grubbs' test needs at least 3 drops; no stray-drop test was made.",
+    });
+  }
+  if (straySteps.length > 0) {
+    const listed = straySteps
+      .map((step) => `drop ${step.index + 1} (${format(times[step.index])} s; G = ${format(step.statistic)} > ${format(step.critical)}, n = ${step.n})`)
+      .join(", ");
+    checks.push({
+      code: "stray-drops",
+      level: "warn",
+      message: `Grubbs' test at α = ${alpha} flags ${listed} as stray. Results are given with all drops and without the stray ones.`,
+    });
+  }
+  if (ρs < ρf) {
+    checks.push({
+      code: "sphere-lighter-than-fluid",
+      level: "error",
+      message: `The sphere (ρs = ${format(ρs)} kg/m³) is lighter than the fluid (ρf = ${format(ρf)} kg/m³): it would rise, not fall. The figures use |ρs − ρf| and hold only for a sphere timed rising; check the sphere's mass and diameter.`,
+    });
+  }
+  if (sphereDensitySource === "mass" && sphere.density !== undefined) {
+    const disagreement = ρs / sphere.density - 1;
+    // Our threshold: three combined standard uncertainties of ρs from m and d, but never below 1 %.
+    const tolerance = Math.max(0.01, 3 * uncertainty.sphereDensity);
+    if (Math.abs(disagreement) > tolerance) {
+      checks.push({
+        code: "sphere-density-disagrees-with-kit",
+        level: "warn",
+        message: `The measured mass and diameter give ρs = ${format(ρs)} kg/m³, ${formatPercent(disagreement)} from the kit's ${format(sphere.density)} kg/m³ (more than ${formatPercent(tolerance, false)}).`,
+      });
+    }
+  }
+  if (column.runIn === undefined) {
+    checks.push({
+      code: "run-in-unknown",
+      level: "info",
+      message: `No run-in distance given; terminal velocity needs about ${format(RUN_IN_RELAXATION_LENGTHS * relaxationLength)} m of fall above the top band.`,
+    });
+  } else if (column.runIn < RUN_IN_RELAXATION_LENGTHS * relaxationLength) {
+    checks.push({
+      code: "run-in-too-short",
+      level: "warn",
+      message: `The run-in (${format(column.runIn)} m) is shorter than ${RUN_IN_RELAXATION_LENGTHS} relaxation lengths (${format(RUN_IN_RELAXATION_LENGTHS * relaxationLength)} m, with τ = ρs d²/(18μ) = ${format(relaxationTime)} s): the sphere may not have reached terminal velocity.`,
+    });
+  }
+  if (wallMethod !== "none" && diameterRatio === null) {
+    checks.push({
+      code: "wall-correction-not-applied",
+      level: "info",
+      message: "No column inner diameter given: no wall correction was applied (K = 1).",
+    });
+  }
+  if (wallMethod !== "none" && diameterRatio !== null) {
+    const range = WALL_MODEL_RANGES[wallMethod];
+    if (diameterRatio > range.maxDiameterRatio) {
+      checks.push({
+        code: "diameter-ratio-outside-wall-model",
+        level: "warn",
+        message: `d/D = ${format(diameterRatio)} is beyond the usual range of the ${wallMethod} wall factor (d/D ≤ ${range.maxDiameterRatio}; ${range.source}).`,
+      });
+    }
+    if (main.reynolds > 1) {
+      checks.push({
+        code: "wall-factor-outside-creeping-flow",
+        level: "info",
+        message: `Re = ${format(main.reynolds)}: the ${wallMethod} wall factor is a creeping-flow (Re ≪ 1) result and overstates the wall effect here.`,
+      });
+    }
+  }
+  if (mode === "drag") {
+    const range = DRAG_MODEL_RANGES[dragModel];
+    if (main.reynolds > range.infoAbove) {
+      checks.push({
+        code: "reynolds-outside-drag-model-range",
+        level: main.reynolds > range.warnAbove ? "warn" : "info",
+        message: `Re = ${format(main.reynolds)} is above the ${main.reynolds > range.warnAbove ? "range" : "most accurate range"} of the ${dragModel} drag law (Re ≤ ${main.reynolds > range.warnAbove ? range.warnAbove : range.infoAbove}; ${range.source}).`,
+      });
+    }
+  } else {
+    const viscometry = main as ViscometryKeyResults;
+    if (main.reynolds > 0.1) {
+      checks.push({
+        code: "reynolds-too-large-for-stokes",
+        level: main.reynolds > 1 ? "warn" : "info",
+        message: `Re = ${format(main.reynolds)}: Stokes' law underestimates the drag by about 3Re/16 = ${formatPercent((3 * main.reynolds) / 16, false)} (Oseen), so the Stokes viscosity is high; compare the Oseen-corrected value.`,
+      });
+    }
+    if (viscometry.viscosityOseen === null) {
+      checks.push({
+        code: "oseen-correction-not-applicable",
+        level: "warn",
+        message: `Re = ${format(main.reynolds)} ≥ 16/3: the Oseen correction would give a viscosity ≤ 0; this is no longer a creeping flow.`,
+      });
+    }
+  }
+  if (fluid.temperature === undefined) {
+    checks.push({
+      code: "fluid-temperature-unknown",
+      level: "info",
+      message: "No fluid temperature given: the viscosity cannot be matched to the drop temperature.",
+    });
+  }
+
+  // Built as literals, not with object spread: spreading a dozen fields per log was the bench's hot spot.
+  const dropResults: DropResults = {
+    n: stats.n,
+    mean: stats.mean,
+    sd: stats.sd,
+    se: stats.se,
+    ci95: stats.ci95,
+    strayDrops,
+    velocities,
+  };
+  const method = { wallCorrection: wallMethod, dragModel, g };
+  if (mode === "drag") {
+    const drag = main as DragKeyResults;
+    return {
+      mode,
+      sphereDensity: ρs,
+      sphereDensitySource,
+      method,
+      diameterRatio,
+      drops: dropResults,
+      velocity: drag.velocity,
+      dragForce,
+      dragCoefficient: drag.dragCoefficient,
+      reynolds: drag.reynolds,
+      fluidViscosity: fluidViscosity as number,
+      referenceDragCoefficient: drag.referenceDragCoefficient,
+      deviation: drag.deviation,
+      relaxationTime,
+      relaxationLength,
+      withoutStrayDrops: withoutStrayDrops as DragKeyResults | null,
+      uncertainty,
+      checks,
+    };
+  }
+  const viscometry = main as ViscometryKeyResults;
+  return {
+    mode,
+    sphereDensity: ρs,
+    sphereDensitySource,
+    method,
+    diameterRatio,
+    drops: dropResults,
+    velocity: viscometry.velocity,
+    dragForce,
+    dragCoefficient: viscometry.dragCoefficient,
+    reynolds: viscometry.reynolds,
+    viscosity: viscometry.viscosity,
+    viscosityOseen: viscometry.viscosityOseen,
+    relaxationTime,
+    relaxationLength,
+    withoutStrayDrops: withoutStrayDrops as ViscometryKeyResults | null,
+    uncertainty,
+    checks,
+  };
+}
+
+interface PhysicsContext {
+  timedDistance: number;
+  wallFactor: number;
+  diameter: number;
+  fluidDensity: number;
+  densityExcess: number;
+  dragForce: number;
+  g: number;
+  fluidViscosity: number;
+  dragModel: DragModel;
+}
+
+function velocityResults(drops: DropStatistics, physics: PhysicsContext): VelocityResults {
+  const measured = physics.timedDistance / drops.mean;
+  return { measured, wallFactor: physics.wallFactor, corrected: measured / physics.wallFactor };
+}
+
+/** C_D = F / (½ρf v∞² · πd²/4). */
+function dragCoefficientAt(corrected: number, physics: PhysicsContext): number {
+  const { diameter: d, fluidDensity: ρf } = physics;
+  return physics.dragForce / (0.5 * ρf * corrected * corrected * ((Math.PI * d * d) / 4));
+}
+
+function dragKeyResults(drops: DropStatistics, physics: PhysicsContext): DragKeyResults {
+  const velocity = velocityResults(drops, physics);
+  const dragCoefficient = dragCoefficientAt(velocity.corrected, physics);
+  const reynolds = (physics.fluidDensity * velocity.corrected * physics.diameter) / physics.fluidViscosity;
+  const reference = referenceDragCoefficient(reynolds, physics.dragModel);
+  return {
+    drops,
+    velocity,
+    dragCoefficient,
+    reynolds,
+    referenceDragCoefficient: reference,
+    deviation: dragCoefficient / reference - 1,
+  };
+}
+
+function viscometryKeyResults(drops: DropStatistics, physics: PhysicsContext): ViscometryKeyResults {
+  const velocity = velocityResults(drops, physics);
+  const { diameter: d, fluidDensity: ρf } = physics;
+  const viscosity = (physics.densityExcess * physics.g * d * d) / (18 * velocity.corrected);
+  const oseen = viscosity - (3 * ρf * velocity.corrected * d) / 16;
+  return {
+    drops,
+    velocity,
+    dragCoefficient: dragCoefficientAt(velocity.corrected, physics),
+    reynolds: (ρf * velocity.corrected * d) / viscosity,
+    viscosity,
+    viscosityOseen: oseen > 0 ? oseen : null,
+  };
+}
+
+/** Relative standard uncertainties of the six inputs, in the order of {@link combineRelative}'s exponents. */
+interface RelativeInputs {
+  diameter: number;
+  sphereMassOrDensity: number;
+  fluidDensity: number;
+  distance: number;
+  meanTime: number;
+  fluidViscosity: number;
+}
+
+/** GUM first order for a product of powers: u_r(y) = √Σ (eᵢ·u_r(xᵢ))² with exponents eᵢ. */
+function combineRelative(
+  u: RelativeInputs,
+  diameter: number,
+  sphereMassOrDensity: number,
+  fluidDensity: number,
+  distance: number,
+  meanTime: number,
+  fluidViscosity: number,
+): number {
+  return Math.sqrt(
+    (diameter * u.diameter) ** 2 +
+      (sphereMassOrDensity * u.sphereMassOrDensity) ** 2 +
+      (fluidDensity * u.fluidDensity) ** 2 +
+      (distance * u.distance) ** 2 +
+      (meanTime * u.meanTime) ** 2 +
+      (fluidViscosity * u.fluidViscosity) ** 2,
+  );
+}
+
+function validate(input: FallingSphereInput): void {
+  const issues = new IssueList();
+  if (typeof input !== "object" || input === null) {
+    issues.add("", "must be an object");
+    issues.throwIfAny();
+  }
+  if (!MODES.includes(input.mode)) issues.add("mode", 'must be "drag" or "viscometry"');
+  const sphere = input.sphere ?? ({} as FallingSphereInput["sphere"]);
+  const fluid = input.fluid ?? ({} as FallingSphereInput["fluid"]);
+  const column = input.column ?? ({} as FallingSphereInput["column"]);
+  issues.positive("sphere.diameter", sphere.diameter);
+  if (sphere.mass === undefined && sphere.density === undefined) {
+    issues.add("sphere", "give the sphere's mass or its material density");
+  }
+  issues.optionalPositive("sphere.mass", sphere.mass);
+  issues.optionalPositive("sphere.density", sphere.density);
+  issues.positive("fluid.density", fluid.density);
+  if (input.mode === "drag" && fluid.viscosity === undefined) {
+    issues.add("fluid.viscosity", "is required in drag mode");
+  } else {
+    issues.optionalPositive("fluid.viscosity", fluid.viscosity);
+  }
+  issues.optionalFinite("fluid.temperature", fluid.temperature);
+  if (typeof fluid.temperature === "number" && fluid.temperature <= -273.15) {
+    issues.add("fluid.temperature", "must be above absolute zero");
+  }
+  issues.optionalFinite("fluid.viscosityTemperatureCoefficient", fluid.viscosityTemperatureCoefficient);
+  issues.positive("column.timedDistance", column.timedDistance);
+  issues.optionalPositive("column.innerDiameter", column.innerDiameter);
+  issues.optionalNonNegative("column.runIn", column.runIn);
+  if (!Array.isArray(input.drops) || input.drops.length === 0) {
+    issues.add("drops", "at least one drop time is needed");
+  } else {
+    for (let i = 0; i < input.drops.length; i++) issues.positive(`drops.${i}`, input.drops[i]);
+  }
+  issues.optionalPositive("g", input.g);
+  if (input.wallCorrection !== undefined && !WALL_METHODS.includes(input.wallCorrection)) {
+    issues.add("wallCorrection", `must be one of ${WALL_METHODS.join(", ")}`);
+  }
+  if (input.dragModel !== undefined && !DRAG_MODELS.includes(input.dragModel)) {
+    issues.add("dragModel", `must be one of ${DRAG_MODELS.join(", ")}`);
+  }
+  if (input.uncertainties !== undefined) {
+    for (const [name, value] of Object.entries(input.uncertainties)) {
+      issues.optionalNonNegative(`uncertainties.${name}`, value);
+    }
+  }
+  const alpha = input.strayDropTest?.alpha;
+  if (alpha !== undefined && !(alpha > 0 && alpha < 1)) issues.add("strayDropTest.alpha", "must be between 0 and 1");
+  const maxStrayDrops = input.strayDropTest?.maxStrayDrops;
+  if (maxStrayDrops !== undefined && !(Number.isInteger(maxStrayDrops) && maxStrayDrops >= 0)) {
+    issues.add("strayDropTest.maxStrayDrops", "must be a whole number ≥ 0");
+  }
+  if (input.requiredDrops !== undefined && !(Number.isInteger(input.requiredDrops) && input.requiredDrops >= 1)) {
+    issues.add("requiredDrops", "must be a whole number ≥ 1");
+  }
+  issues.throwIfAny();
+
+  // Relations between fields, checked once each field is known to be a positive number.
+  const ρs = sphere.mass !== undefined ? (6 * sphere.mass) / (Math.PI * sphere.diameter ** 3) : (sphere.density as number);
+  if (ρs === fluid.density) {
+    issues.add("sphere", "the sphere has the fluid's density: a neutrally buoyant sphere does not settle");
+  }
+  if (column.innerDiameter !== undefined) {
+    const ratio = sphere.diameter / column.innerDiameter;
+    if (ratio >= 1) {
+      issues.add("column.innerDiameter", "must be larger than the sphere diameter");
+    } else if (wallFactor(ratio, input.wallCorrection ?? "faxen") <= 0) {
+      issues.add(
+        "wallCorrection",
+        `the ${input.wallCorrection ?? "faxen"} wall factor is not positive at d/D = ${format(ratio)}; use haberman-sayre or francis`,
+      );
+    }
+  }
+  issues.throwIfAny();
+}
+
+/** Three significant figures, as a check message needs. */
+function format(value: number): string {
+  return Number(value.toPrecision(3)).toString();
+}
+
+function formatPercent(fraction: number, signed = true): string {
+  const percent = Number((fraction * 100).toPrecision(2));
+  return `${signed && percent > 0 ? "+" : ""}${percent} %`;
+}

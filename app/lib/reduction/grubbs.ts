@@ -1,0 +1,194 @@
+import { ReductionInputError } from "./errors";
+import { studentTQuantile } from "./statistics";
+
+export type GrubbsSides = 1 | 2;
+
+// One array of critical values per (α, sides), indexed by n: a class comparison or a batch of drop logs
+// asks for the same few sizes thousands of times, and the t quantile is the expensive part.
+const criticalValueCache = new Map<number, number[]>();
+
+/**
+ * Critical value of Grubbs' statistic G = max|xᵢ − x̄|/s for n values at significance α, after Grubbs
+ * (1969, Technometrics 11, 1–21) as given in the NIST/SEMATECH e-Handbook of Statistical Methods,
+ * §1.3.5.17.1:
+ *
+ *   G_crit = ((n − 1)/√n) · √( t² / (n − 2 + t²) ),  t = t(1 − α/(2n), n − 2) two-sided, t(1 − α/n, n − 2) one-sided.
+ *
+ * Cached by n, α and sides. Needs n ≥ 3.
+ */
+export function grubbsCriticalValue(n: number, alpha = 0.05, sides: GrubbsSides = 2): number {
+  if (!Number.isInteger(n) || n < 3) {
+    throw new ReductionInputError([{ path: "n", message: "Grubbs' test needs at least 3 values" }]);
+  }
+  if (!(alpha > 0 && alpha < 1)) {
+    throw new ReductionInputError([{ path: "alpha", message: "must be between 0 and 1" }]);
+  }
+  const cacheKey = sides === 1 ? -alpha : alpha;
+  let bySize = criticalValueCache.get(cacheKey);
+  if (!bySize) {
+    bySize = [];
+    criticalValueCache.set(cacheKey, bySize);
+  }
+  let critical = bySize[n];
+  if (critical === undefined) {
+    const t = studentTQuantile(1 - alpha / (sides * n), n - 2);
+    critical = ((n - 1) / Math.sqrt(n)) * Math.sqrt((t * t) / (n - 2 + t * t));
+    bySize[n] = critical;
+  }
+  return critical;
+}
+
+export interface GrubbsTestOptions {
+  alpha?: number;
+  sides?: GrubbsSides;
+  /** For a one-sided test: is the largest (`upper`, default) or the smallest (`lower`) value suspected? */
+  tail?: "upper" | "lower";
+}
+
+export interface GrubbsTestResult {
+  n: number;
+  mean: number;
+  sd: number;
+  /** G = |x_index − x̄| / s (0 when all values are equal). */
+  statistic: number;
+  critical: number;
+  /** Index of the tested (most extreme) value; −1 when all values are equal. */
+  index: number;
+  isOutlier: boolean;
+}
+
+/** Grubbs' test for one outlier (NIST/SEMATECH e-Handbook §1.3.5.17.1). Needs n ≥ 3. */
+export function grubbsTest(values: readonly number[], options: GrubbsTestOptions = {}): GrubbsTestResult {
+  const { alpha = 0.05, sides = 2, tail = "upper" } = options;
+  const n = values.length;
+  const critical = grubbsCriticalValue(n, alpha, sides);
+  let sum = 0;
+  let smallest = values[0];
+  let largest = values[0];
+  for (let i = 0; i < n; i++) {
+    sum += values[i];
+    if (values[i] < smallest) smallest = values[i];
+    if (values[i] > largest) largest = values[i];
+  }
+  const mean = sum / n;
+  // Equal values have no spread, even when the mean is off by a rounding error: nothing can stand out.
+  if (smallest === largest) return { n, mean, sd: 0, statistic: 0, critical, index: -1, isOutlier: false };
+  let index = -1;
+  let largestDeviation = 0;
+  let scale = 0;
+  for (let i = 0; i < n; i++) {
+    const deviation = values[i] - mean;
+    scale = Math.max(scale, Math.abs(deviation));
+    const tested = sides === 2 ? Math.abs(deviation) : tail === "upper" ? deviation : -deviation;
+    if (tested > largestDeviation) {
+      largestDeviation = tested;
+      index = i;
+    }
+  }
+  // Deviations are scaled before squaring so that tiny (or huge) magnitudes neither underflow nor overflow.
+  let scaledSumOfSquares = 0;
+  for (let i = 0; i < n; i++) {
+    const scaled = (values[i] - mean) / scale;
+    scaledSumOfSquares += scaled * scaled;
+  }
+  const scaledSd = Math.sqrt(scaledSumOfSquares / (n - 1));
+  const sd = scale * scaledSd;
+  const statistic = index >= 0 ? largestDeviation / scale / scaledSd : 0;
+  if (statistic === 0) index = -1;
+  return { n, mean, sd, statistic, critical, index, isOutlier: statistic > critical };
+}
+
+export interface GrubbsIterativeOptions {
+  alpha?: number;
+  /** Stop after this many removals; by default the test runs until nothing is flagged or n < 3. */
+  maxOutliers?: number;
+  sides?: GrubbsSides;
+}
+
+/** One removal of the iterative test, with the figures that justified it. */
+export interface GrubbsStep {
+  index: number;
+  statistic: number;
+  critical: number;
+  /** Number of values still in the set when this one was tested. */
+  n: number;
+}
+
+/**
+ * Iterative two-sided Grubbs' test: remove the most extreme value while it is significant at α, then
+ * test the rest again (the repeated use the NIST e-Handbook §1.3.5.17.1 describes). Returns the steps
+ * in the order of removal, each with its G, critical value and n, so a report can quote them.
+ *
+ * Values are sorted once; the extreme value is then always at one end of the remaining range, and the
+ * mean and deviation are updated from running sums, so a class of thousands costs O(n log n), not O(n²).
+ */
+export function grubbsIterativeSteps(
+  values: readonly number[],
+  options: GrubbsIterativeOptions = {},
+): GrubbsStep[] {
+  const { alpha = 0.05, sides = 2 } = options;
+  const maxOutliers = options.maxOutliers ?? Number.POSITIVE_INFINITY;
+  const n = values.length;
+  const steps: GrubbsStep[] = [];
+  if (n < 3 || maxOutliers < 1) return steps;
+
+  const order = sortedIndices(values);
+  const shift = values[order[n >> 1]];
+  // Shifted by the median and scaled by the range, so the running sums stay well conditioned.
+  const scale = values[order[n - 1]] - values[order[0]];
+  if (!(scale > 0)) return steps;
+  let sum = 0;
+  let sumOfSquares = 0;
+  for (let i = 0; i < n; i++) {
+    const shifted = (values[i] - shift) / scale;
+    sum += shifted;
+    sumOfSquares += shifted * shifted;
+  }
+
+  let low = 0;
+  let high = n - 1;
+  while (high - low + 1 >= 3 && steps.length < maxOutliers) {
+    const remaining = high - low + 1;
+    const lowValue = (values[order[low]] - shift) / scale;
+    const highValue = (values[order[high]] - shift) / scale;
+    if (highValue === lowValue) break;
+    const mean = sum / remaining;
+    const variance = (sumOfSquares - sum * mean) / (remaining - 1);
+    if (!(variance > 0)) break;
+    const sd = Math.sqrt(variance);
+    const highSide = highValue - mean >= mean - lowValue;
+    const statistic = (highSide ? highValue - mean : mean - lowValue) / sd;
+    const critical = grubbsCriticalValue(remaining, alpha, sides);
+    if (!(statistic > critical)) break;
+    const removed = highSide ? highValue : lowValue;
+    steps.push({ index: order[highSide ? high : low], statistic, critical, n: remaining });
+    sum -= removed;
+    sumOfSquares -= removed * removed;
+    if (highSide) high--;
+    else low++;
+  }
+  return steps;
+}
+
+/** Iterative Grubbs' test: the indices removed, in the order they were removed. */
+export function grubbsIterative(values: readonly number[], options: GrubbsIterativeOptions = {}): number[] {
+  return grubbsIterativeSteps(values, options).map((step) => step.index);
+}
+
+// Insertion sort for drop-log sizes (a dozen values), where it beats Array.prototype.sort with a comparator.
+function sortedIndices(values: readonly number[]): number[] {
+  const n = values.length;
+  const order = new Array<number>(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  if (n > 32) return order.sort((a, b) => values[a] - values[b]);
+  for (let i = 1; i < n; i++) {
+    const index = order[i];
+    let j = i - 1;
+    while (j >= 0 && values[order[j]] > values[index]) {
+      order[j + 1] = order[j];
+      j--;
+    }
+    order[j + 1] = index;
+  }
+  return order;
+}

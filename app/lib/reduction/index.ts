@@ -1,0 +1,38 @@
+export { classComparison, normalisedFigure } from "./class-comparison";
+export type {
+  ClassComparisonEntry,
+  ClassComparisonLabel,
+  ClassComparisonOptions,
+  ClassComparisonResult,
+  NormalisedFigureOptions,
+} from "./class-comparison";
+export { DRAG_MODEL_RANGES, referenceDragCoefficient } from "./drag";
+export type { DragModel, DragModelRange } from "./drag";
+export { ReductionInputError } from "./errors";
+export type { ReductionIssue } from "./errors";
+export { DEFAULT_STANDARD_UNCERTAINTIES, reduceFallingSphere } from "./falling-sphere";
+export type {
+  DragKeyResults,
+  DragReduction,
+  DropResults,
+  FallingSphereInput,
+  Reduction,
+  ReductionCheck,
+  ReductionCheckCode,
+  ReductionMode,
+  ReductionUncertainty,
+  StandardUncertainties,
+  VelocityResults,
+  ViscometryKeyResults,
+  ViscometryReduction,
+} from "./falling-sphere";
+export { grubbsCriticalValue, grubbsIterative, grubbsIterativeSteps, grubbsTest } from "./grubbs";
+export type { GrubbsIterativeOptions, GrubbsSides, GrubbsStep, GrubbsTestOptions, GrubbsTestResult } from "./grubbs";
+export { describeDrops, studentTQuantile } from "./statistics";
+export type { DropStatistics } from "./statistics";
+export { quantileType7, tukeyFences } from "./tukey";
+export type { TukeyFences } from "./tukey";
+export { fitFluidViscosity, viscosityAt, viscosityTemperatureCoefficient } from "./viscosity-model";
+export type { FluidViscosityFit, ViscosityCalibrationPoint } from "./viscosity-model";
+export { WALL_MODEL_RANGES, wallFactor } from "./wall";
+export type { WallCorrectionMethod, WallModelRange } from "./wall";
