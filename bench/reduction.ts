@@ -1,5 +1,9 @@
 // Benchmark of the reduction engine: 10,000 drop logs of 12 drops, then one class comparison over them,
 // against a floor loop that only sums the same drop times. Run with `npm run bench:reduction`.
+//
+// Each measurement runs warm-up rounds first (JIT, the t-quantile and Grubbs caches), then timed rounds;
+// it reports the median (the figure the budget is judged on) and the best round. The budget verdict is
+// printed, never turned into an exit code: this is a benchmark, not a test, and shared machines are noisy.
 import { performance } from "node:perf_hooks";
 import {
   classComparison,
@@ -11,7 +15,9 @@ import {
 
 const LOG_COUNT = 10_000;
 const DROPS_PER_LOG = 12;
-const ROUNDS = 7;
+const WARM_UP_ROUNDS = 5;
+const TIMED_ROUNDS = 21;
+const BUDGET_MS = 50;
 
 // mulberry32: a small seeded PRNG, so every run reduces the same invented data.
 function mulberry32(seed: number) {
@@ -45,47 +51,68 @@ function makeLogs(): FallingSphereInput[] {
   return logs;
 }
 
-function runBatch(logs: FallingSphereInput[]): number {
+function figuresOf(logs: readonly FallingSphereInput[]): ClassComparisonEntry[] {
   const entries: ClassComparisonEntry[] = new Array(logs.length);
   for (let i = 0; i < logs.length; i++) {
-    const reduction = reduceFallingSphere(logs[i]);
-    entries[i] = { id: String(i), figure: normalisedFigure(reduction, { referenceViscosity: 1.2 }) };
+    entries[i] = { id: String(i), figure: normalisedFigure(reduceFallingSphere(logs[i]), { referenceViscosity: 1.2 }) };
   }
-  return classComparison(entries, { method: "grubbs" }).length;
+  return entries;
 }
 
-function figuresOf(logs: FallingSphereInput[]): ClassComparisonEntry[] {
-  return logs.map((log, i) => ({ id: String(i), figure: normalisedFigure(reduceFallingSphere(log), { referenceViscosity: 1.2 }) }));
+/** What a class page does: reduce every hand-in, then compare the class. */
+function runBatch(logs: readonly FallingSphereInput[]): number {
+  return classComparison(figuresOf(logs), { method: "grubbs" }).length;
 }
 
-function runFloor(logs: FallingSphereInput[]): number {
+function runFloor(logs: readonly FallingSphereInput[]): number {
   let total = 0;
-  for (const log of logs) for (const time of log.drops) total += time;
+  for (let i = 0; i < logs.length; i++) {
+    const drops = logs[i].drops;
+    for (let j = 0; j < drops.length; j++) total += drops[j];
+  }
   return total;
 }
 
-function bestOf(rounds: number, work: () => unknown): number {
-  let best = Number.POSITIVE_INFINITY;
-  for (let round = 0; round < rounds; round++) {
+interface Timing {
+  median: number;
+  best: number;
+}
+
+// Results are summed into a sink that is printed, so no round can be optimised away as dead code.
+let sink = 0;
+
+function measure(work: () => number): Timing {
+  for (let round = 0; round < WARM_UP_ROUNDS; round++) sink += work();
+  const times = new Float64Array(TIMED_ROUNDS);
+  for (let round = 0; round < TIMED_ROUNDS; round++) {
     const start = performance.now();
-    work();
-    best = Math.min(best, performance.now() - start);
+    sink += work();
+    times[round] = performance.now() - start;
   }
-  return best;
+  times.sort();
+  const middle = TIMED_ROUNDS >> 1;
+  const median = TIMED_ROUNDS % 2 === 1 ? times[middle] : (times[middle - 1] + times[middle]) / 2;
+  return { median, best: times[0] };
 }
 
 const logs = makeLogs();
-runBatch(logs); // warm-up: JIT and the t-quantile caches
-runFloor(logs);
-const batchMs = bestOf(ROUNDS, () => runBatch(logs));
 const entries = figuresOf(logs);
-const comparisonMs = bestOf(ROUNDS, () => classComparison(entries, { method: "grubbs" }));
-const floorMs = bestOf(ROUNDS, () => runFloor(logs));
-const perLogMicroseconds = (batchMs * 1000) / LOG_COUNT;
-const floorPerLogMicroseconds = (floorMs * 1000) / LOG_COUNT;
+const batch = measure(() => runBatch(logs));
+const comparison = measure(() => classComparison(entries, { method: "grubbs" }).length);
+const floor = measure(() => runFloor(logs));
 
-console.log(`${LOG_COUNT} drop logs × ${DROPS_PER_LOG} drops, best of ${ROUNDS} rounds`);
-console.log(`reduction + class comparison: ${batchMs.toFixed(2)} ms (${perLogMicroseconds.toFixed(2)} µs per log)`);
-console.log(`  of which class comparison:   ${comparisonMs.toFixed(2)} ms`);
-console.log(`floor (sum of drop times):    ${floorMs.toFixed(3)} ms (${floorPerLogMicroseconds.toFixed(3)} µs per log)`);
-console.log(`ratio: ${(batchMs / floorMs).toFixed(0)}× the floor; budget 50 ms → ${batchMs < 50 ? "within" : "OVER"} budget`);
+const milliseconds = (value: number) => `${value.toFixed(2).padStart(7)} ms`;
+const perLog = (value: number) => `${((value * 1000) / LOG_COUNT).toFixed(3)} µs per log`;
+const row = (name: string, timing: Timing) =>
+  `${name.padEnd(30)} median ${milliseconds(timing.median)}   best ${milliseconds(timing.best)}   (median ${perLog(timing.median)})`;
+
+console.log(`${LOG_COUNT} drop logs × ${DROPS_PER_LOG} drops; ${WARM_UP_ROUNDS} warm-up rounds, then ${TIMED_ROUNDS} timed rounds each`);
+console.log(row("reduction + class comparison", batch));
+console.log(row("  class comparison alone", comparison));
+console.log(row("floor (sum of drop times)", floor));
+console.log(`ratio: ${(batch.median / floor.median).toFixed(0)}× the floor (medians)`);
+console.log(
+  `budget ${BUDGET_MS} ms for the whole batch on one core: ${batch.median < BUDGET_MS ? "PASS" : "OVER"} ` +
+    `(median ${batch.median.toFixed(2)} ms, best ${batch.best.toFixed(2)} ms)`,
+);
+if (Number.isNaN(sink)) console.log("(sink)"); // keeps `sink` observable without printing noise

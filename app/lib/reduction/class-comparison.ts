@@ -1,6 +1,6 @@
 import { IssueList } from "./errors";
 import type { Reduction } from "./falling-sphere";
-import { grubbsIterativeSteps, type GrubbsStep } from "./grubbs";
+import { grubbsIterativeStepsOfSorted, type GrubbsStep } from "./grubbs";
 import { quantileType7 } from "./tukey";
 
 export interface ClassComparisonEntry {
@@ -53,77 +53,134 @@ export function classComparison(
 ): ClassComparisonResult[] {
   const issues = new IssueList();
   if (options.method !== "grubbs" && options.method !== "iqr") issues.add("method", 'must be "grubbs" or "iqr"');
-  entries.forEach((entry, i) => issues.positive(`entries.${i}.figure`, entry.figure));
+  const n = entries.length;
+  // Each figure is checked inline; its path string is only built for one that fails.
+  for (let i = 0; i < n; i++) {
+    const figure = entries[i].figure;
+    if (!(typeof figure === "number" && figure > 0 && figure < Number.POSITIVE_INFINITY)) {
+      issues.positive(`entries.${i}.figure`, figure);
+    }
+  }
   const { alpha = 0.05, k = 1.5, quantity = "result" } = options;
   if (!(alpha > 0 && alpha < 0.5)) issues.add("alpha", "must be between 0 and 0.5");
   if (!(k > 0)) issues.add("k", "must be greater than zero");
   issues.throwIfAny();
 
-  const n = entries.length;
-  const logs = new Array<number>(n);
+  const logs = new Float64Array(n);
   for (let i = 0; i < n; i++) logs[i] = Math.log(entries[i].figure);
-  const sortedLogs = Float64Array.from(logs).sort();
+  // Sorted once: the median, the quartiles and both Grubbs runs all read this copy.
+  const sortedLogs = logs.slice().sort();
   const medianLog = n > 0 ? quantileType7(sortedLogs, 0.5) : 0;
-  const relative = (i: number) => Math.exp(logs[i] - medianLog) - 1;
-  const describe = (i: number) => {
-    const percent = Math.round(relative(i) * 100);
-    if (percent === 0) return `${quantity} at the class median`;
-    return `${quantity} ${Math.abs(percent)} % ${percent > 0 ? "above" : "below"} the class median`;
-  };
   const result = (i: number, label: ClassComparisonLabel, reason: string): ClassComparisonResult => ({
     id: entries[i].id,
     figure: entries[i].figure,
-    relativeToClass: relative(i),
+    relativeToClass: Math.exp(logs[i] - medianLog) - 1,
     label,
     reason,
   });
+  const results: ClassComparisonResult[] = new Array(n);
 
   if (n < MINIMUM_CLASS_SIZE) {
-    return entries.map((_, i) => result(i, "consistent", `${describe(i)}; too few hand-ins to compare (n = ${n})`));
+    const describer = new MedianDistanceDescriber(quantity, `; too few hand-ins to compare (n = ${n})`);
+    for (let i = 0; i < n; i++) results[i] = result(i, "consistent", describer.consistentReason(logs[i] - medianLog));
+    return results;
   }
 
   if (options.method === "iqr") {
     const q1 = quantileType7(sortedLogs, 0.25);
     const q3 = quantileType7(sortedLogs, 0.75);
     const iqr = q3 - q1;
-    const fence = (factor: number, side: "lower" | "upper") =>
-      Math.exp(side === "lower" ? q1 - factor * iqr : q3 + factor * iqr);
-    return entries.map((entry, i) => {
+    const fenceText = (figure: number, factor: number, side: "lower" | "upper") => {
+      const fence = Math.exp(side === "lower" ? q1 - factor * iqr : q3 + factor * iqr);
+      return `${format(figure)} is ${side === "lower" ? "below" : "above"} the ${side} fence ${format(fence)} (${side === "lower" ? "Q1 −" : "Q3 +"} ${factor}·IQR of ln figure, type-7 quartiles, n = ${n})`;
+    };
+    const describer = new MedianDistanceDescriber(quantity, `; within Tukey's fences (k = ${k}, n = ${n})`);
+    for (let i = 0; i < n; i++) {
       const x = logs[i];
       const side = x < q1 ? "lower" : "upper";
-      const beyond = (factor: number) => (side === "lower" ? x < q1 - factor * iqr : x > q3 + factor * iqr);
-      const fenceText = (factor: number) =>
-        `${format(entry.figure)} is ${side === "lower" ? "below" : "above"} the ${side} fence ${format(fence(factor, side))} (${side === "lower" ? "Q1 −" : "Q3 +"} ${factor}·IQR of ln figure, type-7 quartiles, n = ${n})`;
-      if (beyond(2 * k)) return result(i, "outlier", `${describe(i)}; ${fenceText(2 * k)}`);
-      if (beyond(k)) return result(i, "suspect", `${describe(i)}; ${fenceText(k)}`);
-      return result(i, "consistent", `${describe(i)}; within Tukey's fences (k = ${k}, n = ${n})`);
-    });
+      const beyondOuter = side === "lower" ? x < q1 - 2 * k * iqr : x > q3 + 2 * k * iqr;
+      const beyondInner = side === "lower" ? x < q1 - k * iqr : x > q3 + k * iqr;
+      const distance = x - medianLog;
+      if (beyondOuter) {
+        results[i] = result(i, "outlier", `${describer.describe(distance)}; ${fenceText(entries[i].figure, 2 * k, side)}`);
+      } else if (beyondInner) {
+        results[i] = result(i, "suspect", `${describer.describe(distance)}; ${fenceText(entries[i].figure, k, side)}`);
+      } else {
+        results[i] = result(i, "consistent", describer.consistentReason(distance));
+      }
+    }
+    return results;
   }
 
   const maxOutliers = options.maxOutliers ?? Math.max(1, Math.floor(n / 10));
-  const outlierSteps = grubbsIterativeSteps(logs, { alpha, maxOutliers });
+  const outlierSteps = grubbsIterativeStepsOfSorted(logs, sortedLogs, { alpha, maxOutliers });
   const looseAlpha = Math.min(2 * alpha, 0.5);
-  const looseSteps = grubbsIterativeSteps(logs, { alpha: looseAlpha, maxOutliers: 2 * maxOutliers });
+  const looseSteps = grubbsIterativeStepsOfSorted(logs, sortedLogs, { alpha: looseAlpha, maxOutliers: 2 * maxOutliers });
   const outlierStepByIndex = new Map<number, GrubbsStep>();
   for (const step of outlierSteps) outlierStepByIndex.set(step.index, step);
   const suspectStepByIndex = new Map<number, GrubbsStep>();
   for (const step of looseSteps) if (!outlierStepByIndex.has(step.index)) suspectStepByIndex.set(step.index, step);
   const grubbsText = (step: GrubbsStep, level: number) =>
     `Grubbs G = ${format(step.statistic)} > ${format(step.critical)} at α = ${level}, n = ${step.n}`;
+  const budgetText = ` (not removed at α = ${alpha} within ${maxOutliers} removal${maxOutliers === 1 ? "" : "s"})`;
+  const describer = new MedianDistanceDescriber(quantity, `; not flagged by Grubbs' test at α = ${looseAlpha} (n = ${n})`);
 
-  return entries.map((_, i) => {
-    const outlierStep = outlierStepByIndex.get(i);
-    if (outlierStep) return result(i, "outlier", `${describe(i)}; ${grubbsText(outlierStep, alpha)}`);
-    const suspectStep = suspectStepByIndex.get(i);
-    if (suspectStep) {
-      return result(
-        i,
-        "suspect",
-        `${describe(i)}; ${grubbsText(suspectStep, looseAlpha)} (not removed at α = ${alpha} within ${maxOutliers} removal${maxOutliers === 1 ? "" : "s"})`,
-      );
+  for (let i = 0; i < n; i++) {
+    const distance = logs[i] - medianLog;
+    const outlierStep = outlierSteps.length > 0 ? outlierStepByIndex.get(i) : undefined;
+    const suspectStep = looseSteps.length > 0 && !outlierStep ? suspectStepByIndex.get(i) : undefined;
+    if (outlierStep) {
+      results[i] = result(i, "outlier", `${describer.describe(distance)}; ${grubbsText(outlierStep, alpha)}`);
+    } else if (suspectStep) {
+      results[i] = result(i, "suspect", `${describer.describe(distance)}; ${grubbsText(suspectStep, looseAlpha)}${budgetText}`);
+    } else {
+      results[i] = result(i, "consistent", describer.consistentReason(distance));
     }
-    return result(i, "consistent", `${describe(i)}; not flagged by Grubbs' test at α = ${looseAlpha} (n = ${n})`);
-  });
+  }
+  return results;
+}
+
+/**
+ * "viscosity 3 % above the class median", from a distance in log space. A class of thousands has only
+ * a few dozen distinct whole percentages, so each phrase, and each full reason of the common consistent
+ * label, is built once per comparison and shared instead of once per hand-in.
+ */
+class MedianDistanceDescriber {
+  private readonly phraseByPercent = new Map<number, string>();
+  private readonly consistentReasonByPercent = new Map<number, string>();
+
+  constructor(
+    private readonly quantity: string,
+    /** What follows the phrase in a consistent entry's reason, e.g. "; within Tukey's fences (…)". */
+    private readonly consistentSuffix: string,
+  ) {}
+
+  describe(logDistance: number): string {
+    const percent = percentFromMedian(logDistance);
+    let phrase = this.phraseByPercent.get(percent);
+    if (phrase === undefined) {
+      phrase =
+        percent === 0
+          ? `${this.quantity} at the class median`
+          : `${this.quantity} ${Math.abs(percent)} % ${percent > 0 ? "above" : "below"} the class median`;
+      this.phraseByPercent.set(percent, phrase);
+    }
+    return phrase;
+  }
+
+  consistentReason(logDistance: number): string {
+    const percent = percentFromMedian(logDistance);
+    let reason = this.consistentReasonByPercent.get(percent);
+    if (reason === undefined) {
+      reason = this.describe(logDistance) + this.consistentSuffix;
+      this.consistentReasonByPercent.set(percent, reason);
+    }
+    return reason;
+  }
+}
+
+function percentFromMedian(logDistance: number): number {
+  return Math.round((Math.exp(logDistance) - 1) * 100);
 }
 
 export interface NormalisedFigureOptions {
@@ -143,11 +200,15 @@ export function normalisedFigure(reduction: Reduction, options: NormalisedFigure
     const results = (options.withoutStrayDrops && reduction.withoutStrayDrops) || reduction;
     return results.dragCoefficient / results.referenceDragCoefficient;
   }
-  const issues = new IssueList();
-  issues.positive("referenceViscosity", options.referenceViscosity);
-  issues.throwIfAny();
+  const referenceViscosity = options.referenceViscosity;
+  // The issue list is only built for a bad reference: this runs once per hand-in of a class.
+  if (!(typeof referenceViscosity === "number" && referenceViscosity > 0 && referenceViscosity < Number.POSITIVE_INFINITY)) {
+    const issues = new IssueList();
+    issues.positive("referenceViscosity", referenceViscosity);
+    issues.throwIfAny();
+  }
   const results = (options.withoutStrayDrops && reduction.withoutStrayDrops) || reduction;
-  return results.viscosity / (options.referenceViscosity as number);
+  return results.viscosity / (referenceViscosity as number);
 }
 
 function format(value: number): string {

@@ -126,16 +126,29 @@ export function grubbsIterativeSteps(
   values: readonly number[],
   options: GrubbsIterativeOptions = {},
 ): GrubbsStep[] {
+  if (values.length < 3 || (options.maxOutliers ?? Number.POSITIVE_INFINITY) < 1) return [];
+  return grubbsIterativeStepsOfSorted(values, sortedCopy(values), options);
+}
+
+/**
+ * {@link grubbsIterativeSteps} for a caller that already holds the values sorted ascending (the class
+ * comparison sorts once for its median and runs the test twice), so nothing is sorted again here.
+ * Not part of the public exports.
+ */
+export function grubbsIterativeStepsOfSorted(
+  values: ArrayLike<number>,
+  sorted: ArrayLike<number>,
+  options: GrubbsIterativeOptions = {},
+): GrubbsStep[] {
   const { alpha = 0.05, sides = 2 } = options;
   const maxOutliers = options.maxOutliers ?? Number.POSITIVE_INFINITY;
   const n = values.length;
   const steps: GrubbsStep[] = [];
   if (n < 3 || maxOutliers < 1) return steps;
 
-  const order = sortedIndices(values);
-  const shift = values[order[n >> 1]];
+  const shift = sorted[n >> 1];
   // Shifted by the median and scaled by the range, so the running sums stay well conditioned.
-  const scale = values[order[n - 1]] - values[order[0]];
+  const scale = sorted[n - 1] - sorted[0];
   if (!(scale > 0)) return steps;
   let sum = 0;
   let sumOfSquares = 0;
@@ -149,8 +162,8 @@ export function grubbsIterativeSteps(
   let high = n - 1;
   while (high - low + 1 >= 3 && steps.length < maxOutliers) {
     const remaining = high - low + 1;
-    const lowValue = (values[order[low]] - shift) / scale;
-    const highValue = (values[order[high]] - shift) / scale;
+    const lowValue = (sorted[low] - shift) / scale;
+    const highValue = (sorted[high] - shift) / scale;
     if (highValue === lowValue) break;
     const mean = sum / remaining;
     const variance = (sumOfSquares - sum * mean) / (remaining - 1);
@@ -161,13 +174,63 @@ export function grubbsIterativeSteps(
     const critical = grubbsCriticalValue(remaining, alpha, sides);
     if (!(statistic > critical)) break;
     const removed = highSide ? highValue : lowValue;
-    steps.push({ index: order[highSide ? high : low], statistic, critical, n: remaining });
+    // For now `index` holds the position in sorted order; it is turned into the input index below.
+    steps.push({ index: highSide ? high : low, statistic, critical, n: remaining });
     sum -= removed;
     sumOfSquares -= removed * removed;
     if (highSide) high--;
     else low++;
   }
+  if (steps.length > 0) replacePositionsByIndices(values, sorted, steps, low, n - 1 - high);
   return steps;
+}
+
+/**
+ * The removed values are the `lowCount` smallest and the `highCount` largest. One pass finds their input
+ * indices; equal values are ordered by index, as a stable sort of the indices would order them.
+ */
+function replacePositionsByIndices(
+  values: ArrayLike<number>,
+  sorted: ArrayLike<number>,
+  steps: GrubbsStep[],
+  lowCount: number,
+  highCount: number,
+): void {
+  const n = values.length;
+  const lowLimit = lowCount > 0 ? sorted[lowCount - 1] : Number.NEGATIVE_INFINITY;
+  const highLimit = highCount > 0 ? sorted[n - highCount] : Number.POSITIVE_INFINITY;
+  const lowIndices: number[] = [];
+  const highIndices: number[] = [];
+  for (let i = 0; i < n; i++) {
+    if (lowCount > 0 && values[i] <= lowLimit) lowIndices.push(i);
+    else if (highCount > 0 && values[i] >= highLimit) highIndices.push(i);
+  }
+  sortIndicesByValue(lowIndices, values);
+  sortIndicesByValue(highIndices, values);
+  for (const step of steps) {
+    const position = step.index;
+    step.index = position < lowCount ? lowIndices[position] : highIndices[highIndices.length - (n - position)];
+  }
+}
+
+/**
+ * Sorts indices (collected in ascending order) by their values, keeping equal values in index order.
+ * A handful is the usual case, so insertion sort; Array.prototype.sort (also stable) beyond that.
+ */
+function sortIndicesByValue(indices: number[], values: ArrayLike<number>): void {
+  if (indices.length > 32) {
+    indices.sort((a, b) => values[a] - values[b]);
+    return;
+  }
+  for (let i = 1; i < indices.length; i++) {
+    const index = indices[i];
+    let j = i - 1;
+    while (j >= 0 && values[indices[j]] > values[index]) {
+      indices[j + 1] = indices[j];
+      j--;
+    }
+    indices[j + 1] = index;
+  }
 }
 
 /** Iterative Grubbs' test: the indices removed, in the order they were removed. */
@@ -175,20 +238,26 @@ export function grubbsIterative(values: readonly number[], options: GrubbsIterat
   return grubbsIterativeSteps(values, options).map((step) => step.index);
 }
 
-// Insertion sort for drop-log sizes (a dozen values), where it beats Array.prototype.sort with a comparator.
-function sortedIndices(values: readonly number[]): number[] {
+// Reused for drop-log sizes, so reducing a batch of logs does not allocate a sorted copy per log.
+// Safe because nothing here calls back into user code while the copy is in use.
+const smallSortScratch = new Float64Array(32);
+
+/**
+ * The values sorted ascending. Up to 32 values (a drop log) go by insertion sort into a reused buffer,
+ * which beats a typed-array sort at that size; larger sets get their own copy and the native sort.
+ */
+function sortedCopy(values: readonly number[]): Float64Array {
   const n = values.length;
-  const order = new Array<number>(n);
-  for (let i = 0; i < n; i++) order[i] = i;
-  if (n > 32) return order.sort((a, b) => values[a] - values[b]);
-  for (let i = 1; i < n; i++) {
-    const index = order[i];
+  if (n > smallSortScratch.length) return Float64Array.from(values).sort();
+  const sorted = smallSortScratch;
+  for (let i = 0; i < n; i++) {
+    const value = values[i];
     let j = i - 1;
-    while (j >= 0 && values[order[j]] > values[index]) {
-      order[j + 1] = order[j];
+    while (j >= 0 && sorted[j] > value) {
+      sorted[j + 1] = sorted[j];
       j--;
     }
-    order[j + 1] = index;
+    sorted[j + 1] = value;
   }
-  return order;
+  return sorted;
 }
