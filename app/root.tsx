@@ -2,8 +2,13 @@ import type { ReactNode } from "react";
 import { Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { AppShell } from "~/components/app-shell";
+import { useNonce } from "~/components/nonce";
+import { requestGuard } from "~/server/auth/request-guard.server";
 import { getShellViewer } from "~/server/shell.server";
 import "./app.css";
+
+// Runs before every loader and action, resource routes included: CSRF check and session cookie upkeep.
+export const middleware: Route.MiddlewareFunction[] = [requestGuard];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
@@ -12,6 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export function Layout({ children }: { children: ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -22,8 +28,8 @@ export function Layout({ children }: { children: ReactNode }) {
       </head>
       <body>
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );

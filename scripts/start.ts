@@ -14,9 +14,15 @@ import { bin, portIsFree, runStep, startService } from "./lib/processes";
 
 const port = Number(process.env.PORT ?? 3000);
 const development = process.argv.includes("--dev");
+const mailCatcherPort = Number(process.env.MAIL_CATCHER_PORT ?? 1025);
+// Without a Resend key, mail goes to the local catcher and can be read at /dev/inbox.
+const catchesMail = !process.env.RESEND_API_KEY;
 
 async function prepare(): Promise<void> {
   if (!(await portIsFree(port))) throw new SetupError(`Port ${port} is already in use: stop what is running there, or set PORT.`);
+  if (catchesMail && !(await portIsFree(mailCatcherPort, "127.0.0.1"))) {
+    throw new SetupError(`Port ${mailCatcherPort} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`);
+  }
   await ensureDatabases();
   await migrateDatabase(developmentDatabaseUrl());
   const pool = createPool();
@@ -38,6 +44,8 @@ function printWelcome(): void {
     ...scenario.tas.map((ta) => `  TA          ${ta.email}`),
     `  student     ${scenario.students[0].email} (and ${scenario.students.length - 1} more)`,
     "",
+    catchesMail ? `E-mail is caught locally: read it at http://localhost:${port}/dev/inbox` : "E-mail goes out through Resend.",
+    "",
     "Press Ctrl-C to stop.",
   ];
   console.log(`\n${lines.join("\n")}\n`);
@@ -49,11 +57,15 @@ function run(): void {
     NODE_ENV: development ? "development" : "production",
     PORT: String(port),
     DATABASE_URL: developmentDatabaseUrl(),
+    SMTP_URL: process.env.SMTP_URL ?? `smtp://127.0.0.1:${mailCatcherPort}`,
+    MAIL_CATCHER_PORT: String(mailCatcherPort),
+    BENCHPOST_DEV_INBOX: process.env.BENCHPOST_DEV_INBOX ?? "1",
   };
   const web = development
     ? startService("web", bin.reactRouter, ["dev", "--port", String(port), "--strictPort"], env)
     : startService("web", bin.reactRouterServe, ["build/server/index.js"], env);
-  const services: ChildProcess[] = [web];
+  const services: ChildProcess[] = [web, startService("worker", bin.tsx, ["scripts/worker.ts"], env)];
+  if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], env));
   const stop = () => {
     for (const service of services) service.kill("SIGTERM");
   };

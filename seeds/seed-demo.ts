@@ -2,11 +2,13 @@
  * Writes the demo scenario into a database once. Idempotent: when the demo course is already there,
  * nothing is touched, so a second `npm start` keeps every change made through the app.
  */
+import { Faker, en } from "@faker-js/faker";
 import { and, eq } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import type { Database } from "~/server/db.server";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "./demo-scenario";
+import { seedKits } from "./seed-kits";
 
 export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
   const existing = await db
@@ -30,7 +32,15 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
     const people = [scenario.instructor, ...scenario.tas, ...scenario.students];
     const userRows = await tx
       .insert(users)
-      .values(people.map((p) => ({ name: p.name, email: p.email, studentNumber: p.studentNumber ?? null, passwordHash })))
+      .values(
+        people.map((p) => ({
+          name: p.name,
+          email: p.email,
+          studentNumber: p.studentNumber ?? null,
+          passwordHash,
+          mayCreateCourses: p === scenario.instructor,
+        })),
+      )
       .onConflictDoNothing()
       .returning();
     const userIdOf = (email: string) => userRows.find((row) => row.email === email)!.id;
@@ -53,6 +63,15 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
     await tx.insert(taCohortAssignments).values(
       scenario.tas.flatMap((ta) => ta.cohorts.map((cohort) => ({ membershipId: membershipOf(ta.email), cohortId: cohortIdAt(cohort) }))),
     );
+
+    // Its own seeded generator, so that growing the kit inventory never changes who the people are.
+    const kitFaker = new Faker({ locale: [en] });
+    kitFaker.seed(2141);
+    await seedKits(tx, kitFaker, {
+      courseId: course.id,
+      instructorId: userIdOf(scenario.instructor.email),
+      studentMembershipIds: scenario.students.map((student) => membershipOf(student.email)),
+    });
   });
   return "seeded";
 }

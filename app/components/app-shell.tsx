@@ -8,6 +8,8 @@ export type ViewerRole = "instructor" | "ta" | "student";
 export type ShellViewer = {
   name: string;
   email: string;
+  /** An instructor account, which may open new courses. */
+  mayCreateCourses: boolean;
   courses: { id: string; code: string; title: string; role: ViewerRole }[];
 };
 

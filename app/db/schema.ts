@@ -5,9 +5,11 @@
  */
 import { relations, sql } from "drizzle-orm";
 import {
+  bigint,
   boolean,
   index,
   inet,
+  integer,
   jsonb,
   pgEnum,
   pgTable,
@@ -17,7 +19,9 @@ import {
   timestamp,
   uniqueIndex,
   uuid,
+  varchar,
 } from "drizzle-orm/pg-core";
+import { kitStates } from "../lib/kits/kit-states";
 
 const createdAt = () => timestamp("created_at", { withTimezone: true }).notNull().defaultNow();
 
@@ -35,6 +39,8 @@ export const users = pgTable(
     passwordHash: text("password_hash"),
     /** The institution's own number, for mark export; optional. */
     studentNumber: text("student_number"),
+    /** May open new courses (open sign-up or `npm run user:create-instructor`); roles inside a course live in memberships. */
+    mayCreateCourses: boolean("may_create_courses").notNull().default(false),
     createdAt: createdAt(),
   },
   (table) => [uniqueIndex("users_email_unique").on(table.email)],
@@ -49,10 +55,59 @@ export const sessions = pgTable(
       .notNull()
       .references(() => users.id, { onDelete: "cascade" }),
     expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    /** Shown in account settings so that people can recognise, and end, a session they do not know. */
+    userAgent: text("user_agent"),
+    ip: inet("ip"),
     createdAt: createdAt(),
   },
   (table) => [index("sessions_user_idx").on(table.userId)],
 );
+
+export const emailLinkPurpose = pgEnum("email_link_purpose", ["sign_in", "password_reset"]);
+
+/** Single-use links sent by e-mail (sign-in, password reset). Only the SHA-256 of the token is kept. */
+export const emailLinks = pgTable(
+  "email_links",
+  {
+    /** SHA-256 of the token in the link, hex. */
+    id: text("id").primaryKey(),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    purpose: emailLinkPurpose("purpose").notNull(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    createdAt: createdAt(),
+  },
+  (table) => [index("email_links_user_idx").on(table.userId)],
+);
+
+/** Personal API tokens for `Authorization: Bearer …` on /api/v1; shown once, stored as SHA-256. */
+export const apiTokens = pgTable(
+  "api_tokens",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** SHA-256 of the token, hex. */
+    tokenHash: text("token_hash").notNull(),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("api_tokens_token_hash_unique").on(table.tokenHash), index("api_tokens_user_idx").on(table.userId)],
+);
+
+/**
+ * Counters of rate-limiter-flexible's RateLimiterPostgres, created here rather than by the library at
+ * run time so that every app instance and test copy finds it ready. Its column layout is the library's.
+ */
+export const rateLimits = pgTable("rate_limits", {
+  key: varchar("key", { length: 255 }).primaryKey(),
+  points: integer("points").notNull().default(0),
+  /** Milliseconds since the epoch, as the library writes it. */
+  expire: bigint("expire", { mode: "number" }),
+});
 
 // ---------------------------------------------------------------------------------------------
 // Courses, cohorts and who belongs where
@@ -153,6 +208,36 @@ export const auditEvents = pgTable(
   ],
 );
 
+/**
+ * An instructor's invitation to a course. The e-mailed link carries a token whose SHA-256 is kept here;
+ * accepting creates the account (or attaches the course to an existing one) with the chosen role and cohort.
+ */
+export const invitations = pgTable(
+  "invitations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    /** Lower-cased, like `users.email`. */
+    email: text("email").notNull(),
+    name: text("name"),
+    role: courseRole("role").notNull(),
+    cohortId: uuid("cohort_id").references(() => cohorts.id, { onDelete: "set null" }),
+    invitedById: uuid("invited_by_id").references(() => users.id, { onDelete: "set null" }),
+    /** SHA-256 of the token in the link, hex. */
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    acceptedAt: timestamp("accepted_at", { withTimezone: true }),
+    acceptedById: uuid("accepted_by_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [
+    uniqueIndex("invitations_token_hash_unique").on(table.tokenHash),
+    index("invitations_course_email_idx").on(table.courseId, table.email),
+  ],
+);
+
 // ---------------------------------------------------------------------------------------------
 // Relations
 
@@ -186,4 +271,235 @@ export const courseMembershipsRelations = relations(courseMemberships, ({ one, m
 export const taCohortAssignmentsRelations = relations(taCohortAssignments, ({ one }) => ({
   membership: one(courseMemberships, { fields: [taCohortAssignments.membershipId], references: [courseMemberships.id] }),
   cohort: one(cohorts, { fields: [taCohortAssignments.cohortId], references: [cohorts.id] }),
+}));
+
+// ---------------------------------------------------------------------------------------------
+// Kit inventory: measured parts, kits made of them, and the history of both.
+// Lengths are in mm and masses in g, as measured at the bench; the reduction converts to SI.
+
+export const partKind = pgEnum("part_kind", ["sphere", "fluid_lot", "column", "accessory"]);
+export const partStatus = pgEnum("part_status", ["in_service", "remeasure", "retired"]);
+export const kitState = pgEnum("kit_state", kitStates);
+
+/** A calibration point of a fluid lot: viscosity measured at one temperature. */
+export type CalibrationPoint = { temperatureC: number; viscosityPaS: number };
+
+/**
+ * Every part in one table, told apart by `kind`: the inventory, history, kit contents and imports
+ * then treat parts alike, and a new experiment's part kind adds columns rather than tables.
+ */
+export const parts = pgTable(
+  "parts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    kind: partKind("kind").notNull(),
+    /** The course's own label, e.g. "S-12" or "GLY-2", unique within the course. */
+    label: text("label").notNull(),
+    status: partStatus("status").notNull().default("in_service"),
+    notes: text("notes"),
+    // sphere
+    material: text("material"),
+    diameterMm: real("diameter_mm"),
+    diameterResolutionMm: real("diameter_resolution_mm"),
+    massG: real("mass_g"),
+    massResolutionG: real("mass_resolution_g"),
+    // fluid lot
+    fluidName: text("fluid_name"),
+    densityKgM3: real("density_kg_m3"),
+    calibration: jsonb("calibration").$type<CalibrationPoint[]>(),
+    // column
+    innerDiameterMm: real("inner_diameter_mm"),
+    timedDistanceMm: real("timed_distance_mm"),
+    runInMm: real("run_in_mm"),
+    marginBelowMm: real("margin_below_mm"),
+    // accessory
+    accessoryType: text("accessory_type"),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [
+    uniqueIndex("parts_course_label_unique").on(table.courseId, table.label),
+    index("parts_course_kind_idx").on(table.courseId, table.kind),
+  ],
+);
+
+/** What happened to a part: created, re-measured (old and new values), sent for re-measurement, retired. */
+export const partEvents = pgTable(
+  "part_events",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    partId: uuid("part_id")
+      .notNull()
+      .references(() => parts.id, { onDelete: "cascade" }),
+    actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
+    action: text("action").notNull(),
+    note: text("note"),
+    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    createdAt: createdAt(),
+  },
+  (table) => [index("part_events_part_created_idx").on(table.partId, table.createdAt)],
+);
+
+export const kits = pgTable(
+  "kits",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    /** The number written on the box, unique within the course. */
+    number: text("number").notNull(),
+    state: kitState("state").notNull().default("on_shelf"),
+    /** The student the kit is packed for or held by; cleared when it is checked in. */
+    holderMembershipId: uuid("holder_membership_id").references(() => courseMemberships.id, { onDelete: "set null" }),
+    carrier: text("carrier"),
+    trackingNumber: text("tracking_number"),
+    shippedOn: text("shipped_on"),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [
+    uniqueIndex("kits_course_number_unique").on(table.courseId, table.number),
+    // One active kit per student per course: a membership belongs to exactly one course.
+    uniqueIndex("kits_holder_unique").on(table.holderMembershipId).where(sql`${table.holderMembershipId} is not null`),
+    index("kits_course_state_idx").on(table.courseId, table.state),
+  ],
+);
+
+/**
+ * Which parts a kit holds. A sphere, column or accessory sits in at most one kit at a time; a fluid lot
+ * fills the bottles of many kits, so its rows are not `exclusive`.
+ */
+export const kitParts = pgTable(
+  "kit_parts",
+  {
+    kitId: uuid("kit_id")
+      .notNull()
+      .references(() => kits.id, { onDelete: "cascade" }),
+    partId: uuid("part_id")
+      .notNull()
+      .references(() => parts.id, { onDelete: "restrict" }),
+    exclusive: boolean("exclusive").notNull().default(true),
+  },
+  (table) => [
+    primaryKey({ columns: [table.kitId, table.partId] }),
+    uniqueIndex("kit_parts_exclusive_part_unique").on(table.partId).where(sql`${table.exclusive}`),
+    index("kit_parts_part_idx").on(table.partId),
+  ],
+);
+
+/** Every change of a kit's state (and every report about it), with who, when and why. */
+export const kitEvents = pgTable(
+  "kit_events",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    kitId: uuid("kit_id")
+      .notNull()
+      .references(() => kits.id, { onDelete: "cascade" }),
+    actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
+    fromState: kitState("from_state"),
+    toState: kitState("to_state"),
+    /** `moved`, `assigned`, `reported` (a student's missing or damaged part), `checked_in`. */
+    action: text("action").notNull(),
+    note: text("note"),
+    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    createdAt: createdAt(),
+  },
+  (table) => [index("kit_events_kit_created_idx").on(table.kitId, table.createdAt)],
+);
+
+export const partsRelations = relations(parts, ({ one, many }) => ({
+  course: one(courses, { fields: [parts.courseId], references: [courses.id] }),
+  events: many(partEvents),
+  kitParts: many(kitParts),
+}));
+
+export const partEventsRelations = relations(partEvents, ({ one }) => ({
+  part: one(parts, { fields: [partEvents.partId], references: [parts.id] }),
+  actor: one(users, { fields: [partEvents.actorId], references: [users.id] }),
+}));
+
+export const kitsRelations = relations(kits, ({ one, many }) => ({
+  course: one(courses, { fields: [kits.courseId], references: [courses.id] }),
+  holder: one(courseMemberships, { fields: [kits.holderMembershipId], references: [courseMemberships.id] }),
+  parts: many(kitParts),
+  events: many(kitEvents),
+}));
+
+export const kitPartsRelations = relations(kitParts, ({ one }) => ({
+  kit: one(kits, { fields: [kitParts.kitId], references: [kits.id] }),
+  part: one(parts, { fields: [kitParts.partId], references: [parts.id] }),
+}));
+
+export const kitEventsRelations = relations(kitEvents, ({ one }) => ({
+  kit: one(kits, { fields: [kitEvents.kitId], references: [kits.id] }),
+  actor: one(users, { fields: [kitEvents.actorId], references: [users.id] }),
+}));
+
+// ---------------------------------------------------------------------------------------------
+// E-mail: the outbox every message passes through, and the development mail catcher's inbox.
+
+export const emailStatus = pgEnum("email_status", ["queued", "sent", "failed"]);
+
+/**
+ * One row per message the product decided to send, written in the same transaction as the change that
+ * caused it. The delivery job reads it; the row's id is the provider's idempotency key.
+ */
+export const emailOutbox = pgTable(
+  "email_outbox",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    /** Lower-cased, like users.email. */
+    toAddress: text("to_address").notNull(),
+    toName: text("to_name"),
+    template: text("template").notNull(),
+    /** The template's props as JSON; dates are ISO strings and are revived by the template's schema. */
+    props: jsonb("props").$type<Record<string, unknown>>().notNull(),
+    subject: text("subject").notNull(),
+    /** Set when the message belongs to a course, so that its instructors see it if delivery fails. */
+    courseId: uuid("course_id").references(() => courses.id, { onDelete: "cascade" }),
+    /** Chosen by the caller (e.g. `deadline-reminder:<lab>:<user>:24h`); a repeat returns the first row. */
+    dedupeKey: text("dedupe_key"),
+    status: emailStatus("status").notNull().default("queued"),
+    attempts: integer("attempts").notNull().default(0),
+    lastError: text("last_error"),
+    /** `resend` or `smtp`: which transport accepted the message. */
+    transport: text("transport"),
+    providerMessageId: text("provider_message_id"),
+    createdAt: createdAt(),
+    sentAt: timestamp("sent_at", { withTimezone: true }),
+    failedAt: timestamp("failed_at", { withTimezone: true }),
+  },
+  (table) => [
+    uniqueIndex("email_outbox_dedupe_key_unique").on(table.dedupeKey),
+    index("email_outbox_course_status_idx").on(table.courseId, table.status),
+  ],
+);
+
+/** What the development mail catcher received over SMTP; kept in PostgreSQL so it survives restarts. */
+export const caughtEmails = pgTable(
+  "caught_emails",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    messageId: text("message_id"),
+    fromAddress: text("from_address").notNull(),
+    /** Lower-cased envelope recipients. */
+    toAddresses: text("to_addresses").array().notNull(),
+    subject: text("subject").notNull(),
+    html: text("html"),
+    text: text("text"),
+    headers: jsonb("headers").$type<Record<string, string>>().notNull(),
+    receivedAt: timestamp("received_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [
+    index("caught_emails_received_idx").on(table.receivedAt),
+    index("caught_emails_to_idx").using("gin", table.toAddresses),
+  ],
+);
+
+export const emailOutboxRelations = relations(emailOutbox, ({ one }) => ({
+  course: one(courses, { fields: [emailOutbox.courseId], references: [courses.id] }),
 }));

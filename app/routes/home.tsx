@@ -8,9 +8,16 @@ export default function Home() {
   if (!viewer) return <Welcome />;
   return (
     <section aria-labelledby="courses-title">
-      <h1 id="courses-title" className="text-2xl font-semibold">
-        Your courses
-      </h1>
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h1 id="courses-title" className="text-2xl font-semibold">
+          Your courses
+        </h1>
+        {viewer.mayCreateCourses ? (
+          <Link to="/courses/new" className="rounded-md bg-ink-800 px-4 py-2 text-sm text-paper-50">
+            Open a new course
+          </Link>
+        ) : null}
+      </div>
       {viewer.courses.length === 0 ? (
         <p className="mt-4 text-ink-700">You do not belong to any course yet. Your instructor's invitation adds you to one.</p>
       ) : (

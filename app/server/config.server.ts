@@ -7,3 +7,10 @@ export const isProduction = process.env.NODE_ENV === "production";
 export function appUrl(): string {
   return (process.env.APP_URL ?? `http://localhost:${process.env.PORT ?? 3000}`).replace(/\/$/, "");
 }
+
+/** Open sign-up for instructor accounts: ALLOW_SIGN_UP=true|false, on by default outside production. */
+export function allowSignUp(): boolean {
+  const setting = process.env.ALLOW_SIGN_UP?.trim().toLowerCase();
+  if (setting === undefined || setting === "") return !isProduction;
+  return setting === "true" || setting === "1";
+}

@@ -1,9 +1,18 @@
+import { and, asc, eq, isNull } from "drizzle-orm";
 import type { ShellViewer } from "~/components/app-shell";
+import { courseMemberships, courses } from "~/db/schema";
+import { getOptionalUser } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
 
-/**
- * The signed-in person and their courses, for the navigation. Sessions arrive with accounts and
- * sign-in; until then every visitor is anonymous.
- */
-export async function getShellViewer(_request: Request): Promise<ShellViewer | null> {
-  return null;
+/** The signed-in person and the courses they belong to (with their role in each), for the navigation. */
+export async function getShellViewer(request: Request): Promise<ShellViewer | null> {
+  const user = await getOptionalUser(request);
+  if (!user) return null;
+  const memberships = await db
+    .select({ id: courses.id, code: courses.code, title: courses.title, role: courseMemberships.role })
+    .from(courseMemberships)
+    .innerJoin(courses, eq(courses.id, courseMemberships.courseId))
+    .where(and(eq(courseMemberships.userId, user.id), isNull(courseMemberships.removedAt)))
+    .orderBy(asc(courses.code));
+  return { name: user.name, email: user.email, mayCreateCourses: user.mayCreateCourses, courses: memberships };
 }

@@ -1,12 +1,14 @@
 /**
  * Before the browser suite: a fresh database with the demo scenario, and the built app served from
- * it on a free loopback port. The suite reads the address with `inject("baseUrl")`.
+ * it on a free loopback port, with the mail catcher and the worker beside it. The suite reads the
+ * address with `inject("baseUrl")`, and the mail the app sent at `/api/dev/emails?to=…`.
  */
 import { spawn, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { createServer } from "node:net";
 import type { TestProject } from "vitest/node";
 import { createDatabase, createPool } from "~/server/db.server";
+import { startMailCatcher } from "~/server/email/mail-catcher.server";
 import { migrateDatabase } from "~/server/migrate.server";
 import { seedDemo } from "../../seeds/seed-demo";
 import { ensureChromium } from "../../scripts/lib/chromium";
@@ -52,11 +54,18 @@ export default async function setup(project: TestProject): Promise<() => Promise
   await seedDemo(createDatabase(pool));
   await pool.end();
 
+  const catcher = await startMailCatcher({ connectionString: databaseUrl, port: 0, log: () => undefined });
+  const mailEnv = { SMTP_URL: `smtp://127.0.0.1:${catcher.port}`, BENCHPOST_DEV_INBOX: "1", RESEND_API_KEY: "" };
+  const worker = spawn(process.execPath, [bin.tsx, "scripts/worker.ts"], {
+    env: { ...process.env, ...mailEnv, NODE_ENV: "production", DATABASE_URL: databaseUrl },
+    stdio: ["ignore", "ignore", "inherit"],
+  });
+
   const port = await freePort();
   const baseUrl = `http://localhost:${port}`;
   // The node binary itself, not npx, so that the PID we hold is the server's and we can stop it.
   const server = spawn(process.execPath, [bin.reactRouterServe, "build/server/index.js"], {
-    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: databaseUrl },
+    env: { ...process.env, ...mailEnv, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: databaseUrl },
     stdio: ["ignore", "ignore", "inherit"],
   });
   await waitForHealth(baseUrl, server);
@@ -64,8 +73,11 @@ export default async function setup(project: TestProject): Promise<() => Promise
   project.provide("databaseUrl", databaseUrl);
 
   return async () => {
-    server.kill("SIGTERM");
-    await new Promise((resolve) => (server.exitCode !== null ? resolve(null) : server.once("exit", resolve)));
+    for (const child of [server, worker]) {
+      child.kill("SIGTERM");
+      await new Promise((resolve) => (child.exitCode !== null ? resolve(null) : child.once("exit", resolve)));
+    }
+    await catcher.close();
     await dropTestDatabase(databaseUrl);
   };
 }

@@ -1,0 +1,70 @@
+/**
+ * React Router's Node entry, with a fresh CSP nonce per response for the router's inline scripts and
+ * Benchpost's security headers on every HTML page.
+ */
+import { PassThrough } from "node:stream";
+import { createReadableStreamFromReadable } from "@react-router/node";
+import { encodeBase64 } from "@oslojs/encoding";
+import { isbot } from "isbot";
+import type { RenderToPipeableStreamOptions } from "react-dom/server";
+import { renderToPipeableStream } from "react-dom/server";
+import { type EntryContext, ServerRouter } from "react-router";
+import { NonceContext } from "~/components/nonce";
+import { setDocumentSecurityHeaders } from "~/server/security-headers.server";
+
+export const streamTimeout = 5_000;
+
+function createNonce(): string {
+  const bytes = new Uint8Array(16);
+  crypto.getRandomValues(bytes);
+  return encodeBase64(bytes);
+}
+
+export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
+  const nonce = createNonce();
+  setDocumentSecurityHeaders(responseHeaders, nonce);
+
+  // https://httpwg.org/specs/rfc9110.html#HEAD
+  if (request.method.toUpperCase() === "HEAD") {
+    return new Response(null, { status: responseStatusCode, headers: responseHeaders });
+  }
+
+  return new Promise<Response>((resolve, reject) => {
+    let shellRendered = false;
+    const userAgent = request.headers.get("user-agent");
+    // Bots and SPA-mode renders wait for all content, so that they get complete HTML.
+    const readyOption: keyof RenderToPipeableStreamOptions = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+
+    let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
+
+    const { pipe, abort } = renderToPipeableStream(
+      <NonceContext.Provider value={nonce}>
+        <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
+      </NonceContext.Provider>,
+      {
+        nonce,
+        [readyOption]() {
+          shellRendered = true;
+          const body = new PassThrough({
+            final(callback) {
+              clearTimeout(timeoutId);
+              timeoutId = undefined;
+              callback();
+            },
+          });
+          responseHeaders.set("Content-Type", "text/html");
+          pipe(body);
+          resolve(new Response(createReadableStreamFromReadable(body), { headers: responseHeaders, status: responseStatusCode }));
+        },
+        onShellError(error: unknown) {
+          reject(error);
+        },
+        onError(error: unknown) {
+          responseStatusCode = 500;
+          // Errors before the shell is out are logged by React Router's document handler.
+          if (shellRendered) console.error(error);
+        },
+      },
+    );
+  });
+}

@@ -1,0 +1,30 @@
+/** What an instructor types to create or edit a course and its cohorts; shared by form and server. */
+import { z } from "zod";
+
+/** IANA names the runtime knows (Node and browsers share the ICU list), so a typo is caught. */
+export function isTimeZone(value: string): boolean {
+  try {
+    new Intl.DateTimeFormat("en", { timeZone: value });
+    return value.includes("/") || value === "UTC";
+  } catch {
+    return false;
+  }
+}
+
+export const courseInput = z.object({
+  title: z.string().trim().min(3, "Give the course a title of at least 3 characters.").max(120),
+  code: z.string().trim().min(2, "Enter the course code, e.g. ME 2140.").max(30),
+  term: z.string().trim().min(2, "Enter the term, e.g. 2027 Spring.").max(40),
+  timeZone: z.string().trim().refine(isTimeZone, "Choose a time zone by its IANA name, e.g. Europe/Dublin."),
+  localGravity: z.preprocess(
+    (value) => (value === "" || value === null || value === undefined ? null : value),
+    z.coerce
+      .number({ error: "Enter local gravity in m/s², or leave it empty for 9.80665." })
+      .min(9.76, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
+      .max(9.84, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
+      .nullable(),
+  ),
+});
+export type CourseInput = z.infer<typeof courseInput>;
+
+export const cohortName = z.string().trim().min(1, "Name the cohort.").max(60, "Keep cohort names under 60 characters.");

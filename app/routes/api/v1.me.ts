@@ -1,0 +1,13 @@
+import type { Route } from "./+types/v1.me";
+import { requireApiUser } from "~/server/auth/access.server";
+import { getShellViewer } from "~/server/shell.server";
+
+/** Who the caller is and their courses: the smallest useful check that a token or session works. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const viewer = await getShellViewer(request);
+  return Response.json(
+    { user: { id: user.id, name: user.name, email: user.email }, courses: viewer?.courses ?? [], authenticatedWith: user.via },
+    { headers: { "Cache-Control": "no-store" } },
+  );
+}

@@ -1,0 +1,68 @@
+import type { Route } from "./+types/courses.$courseId.audit";
+import { PageHeading } from "~/components/ui/page-heading";
+import { requireCourseRole } from "~/server/auth/access.server";
+import { listCourseAudit } from "~/server/audit.server";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  return { course: access.course, events: await listCourseAudit(access.course.id) };
+}
+
+/** Plain words for the trail's dotted action names; unknown ones are shown as they are. */
+const actionWords: Record<string, string> = {
+  "access.denied": "was refused access",
+  "course.invitation_sent": "sent an invitation",
+  "course.invitation_accepted": "accepted an invitation",
+  "course.member_role_changed": "changed a member's role",
+  "course.member_moved": "moved a student to another cohort",
+  "course.member_removed": "removed a member",
+  "course.created": "created the course",
+  "course.settings_changed": "changed the course settings",
+};
+
+export default function CourseAudit({ loaderData }: Route.ComponentProps) {
+  const { course, events } = loaderData;
+  return (
+    <div className="space-y-6">
+      <PageHeading id="audit-title" lead={`${course.code} ${course.title}: the latest ${events.length} events, newest first. Times in ${course.timeZone}.`}>
+        Audit log
+      </PageHeading>
+      <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
+        <table className="w-full text-left text-sm">
+          <thead className="bg-paper-100 text-ink-700">
+            <tr>
+              <th className="px-3 py-2 font-medium">When</th>
+              <th className="px-3 py-2 font-medium">Who</th>
+              <th className="px-3 py-2 font-medium">What</th>
+              <th className="px-3 py-2 font-medium">Details</th>
+              <th className="px-3 py-2 font-medium">From</th>
+            </tr>
+          </thead>
+          <tbody className="divide-y divide-ink-900/10">
+            {events.map((event) => (
+              <tr key={event.id} className="align-top">
+                <td className="whitespace-nowrap px-3 py-2">
+                  <time dateTime={new Date(event.createdAt).toISOString()}>{formatInZone(event.createdAt, course.timeZone)}</time>
+                </td>
+                <td className="px-3 py-2">{event.actorName ?? "—"}</td>
+                <td className="px-3 py-2">{actionWords[event.action] ?? event.action}</td>
+                <td className="px-3 py-2 font-mono text-xs break-all text-ink-700">
+                  {[event.subject, Object.keys(event.detail).length ? JSON.stringify(event.detail) : null].filter(Boolean).join(" ")}
+                </td>
+                <td className="px-3 py-2 text-ink-700">{event.ip ?? "—"}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}
+
+function formatInZone(value: Date | string, timeZone: string): string {
+  return new Date(value).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone });
+}
+
+export function meta({ data }: Route.MetaArgs) {
+  return [{ title: data ? `Audit log · ${data.course.code} · Benchpost` : "Audit log · Benchpost" }];
+}

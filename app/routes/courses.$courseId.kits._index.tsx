@@ -1,0 +1,163 @@
+import type { ColumnDef } from "@tanstack/react-table";
+import { data, Form, Link, useFetcher, useSearchParams } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.kits._index";
+import { DataTable, readPaging } from "~/components/ui/data-table";
+import { Button, Notice } from "~/components/ui/form";
+import { PageHeader } from "~/components/ui/page-header";
+import { KitStateBadge } from "~/components/kit-state-badge";
+import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
+import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { KitRuleError, listKits, moveKits } from "~/server/kits/kits.server";
+
+/** Moves that need nothing more than a note can be applied to many kits at once. */
+const bulkTargets = ["at_home", "coming_back", "checked_in", "on_shelf", "retired"] as const;
+
+const bulkMove = z.object({
+  intent: z.literal("bulk-move"),
+  to: z.enum(bulkTargets, { error: "Choose the state to move the kits to." }),
+  kitIds: z.array(z.uuid()).min(1, "Select at least one kit."),
+  note: z.string().trim().max(500).optional(),
+});
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole(request, params.courseId, staffRoles);
+  const url = new URL(request.url);
+  const state = z.enum(kitStates).safeParse(url.searchParams.get("state"));
+  const search = url.searchParams.get("q")?.trim() || undefined;
+  const paging = readPaging(url);
+  // A TA sees the kits held by students of their cohorts, and reads them only.
+  const cohortIds = access.membership.role === "ta" ? access.cohortIds : undefined;
+  const { rows, total } = await listKits(db, access.course.id, { state: state.success ? state.data : undefined, search, cohortIds, ...paging });
+  return { kits: rows, pageInfo: { ...paging, total }, canChange: access.membership.role === "instructor", courseId: access.course.id };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  const form = await request.formData();
+  const parsed = bulkMove.safeParse({ intent: form.get("intent"), to: form.get("to"), note: form.get("note") ?? undefined, kitIds: form.getAll("kitIds") });
+  if (!parsed.success) return data({ ok: false as const, message: parsed.error.issues[0].message }, { status: 400 });
+  try {
+    const { moved } = await moveKits(db, {
+      courseId: access.course.id,
+      actorId: access.user.id,
+      kitIds: parsed.data.kitIds,
+      move: { to: parsed.data.to, note: parsed.data.note },
+    });
+    return { ok: true as const, message: `${moved} kits moved to ${kitStateLabels[parsed.data.to].toLowerCase()}.` };
+  } catch (error) {
+    if (error instanceof KitRuleError) return data({ ok: false as const, message: `Nothing was changed: ${error.message}` }, { status: 400 });
+    throw error;
+  }
+}
+
+type KitRow = Route.ComponentProps["loaderData"]["kits"][number];
+
+const columns: ColumnDef<KitRow, unknown>[] = [
+  { header: "Kit", cell: ({ row }) => <Link to={row.original.id} className="font-medium underline">{row.original.number}</Link> },
+  { header: "State", cell: ({ row }) => <KitStateBadge state={row.original.state} /> },
+  {
+    header: "Student",
+    cell: ({ row }) =>
+      row.original.holderName ? (
+        <span>
+          {row.original.holderName}
+          <span className="block text-xs text-ink-600">{row.original.cohortName}</span>
+        </span>
+      ) : (
+        <span className="text-ink-600">—</span>
+      ),
+  },
+  { header: "Parts", cell: ({ row }) => row.original.partCount },
+  {
+    header: "Shipping",
+    cell: ({ row }) => (row.original.trackingNumber ? `${row.original.carrier} ${row.original.trackingNumber} (${row.original.shippedOn})` : ""),
+  },
+  {
+    header: "Reports",
+    cell: ({ row }) => (row.original.openReports ? <span className="font-medium text-outlier">{row.original.openReports} open</span> : ""),
+  },
+];
+
+export default function Kits({ loaderData }: Route.ComponentProps) {
+  const { kits, pageInfo, canChange, courseId } = loaderData;
+  const [search] = useSearchParams();
+  const fetcher = useFetcher<typeof action>();
+  return (
+    <div className="flex flex-col gap-4">
+      <PageHeader
+        title="Kits"
+        actions={
+          canChange ? (
+            <>
+              <Link to="new" className="rounded-md bg-ink-800 px-4 py-2 text-sm text-paper-50">
+                Make up a kit
+              </Link>
+              <a href={`/courses/${courseId}/inventory.csv`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+                Export inventory (CSV)
+              </a>
+            </>
+          ) : undefined
+        }
+      >
+        {canChange ? null : "You see the kits of your cohorts' students; only instructors change them."}
+      </PageHeader>
+      <Form method="get" className="no-print flex flex-wrap items-end gap-3" role="search">
+        <label className="flex flex-col text-sm">
+          State
+          <select name="state" defaultValue={search.get("state") ?? ""} className="rounded-md border border-ink-900/20 bg-white px-2 py-1.5">
+            <option value="">Any state</option>
+            {kitStates.map((state) => (
+              <option key={state} value={state}>
+                {kitStateLabels[state]}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="flex flex-col text-sm">
+          Search
+          <input name="q" type="search" defaultValue={search.get("q") ?? ""} placeholder="Kit number or student" className="rounded-md border border-ink-900/20 bg-white px-2 py-1.5" />
+        </label>
+        <Button type="submit" variant="secondary">
+          Show
+        </Button>
+      </Form>
+      {fetcher.data ? <Notice tone={fetcher.data.ok ? "success" : "error"}>{fetcher.data.message}</Notice> : null}
+      <DataTable
+        caption="Kits of the course"
+        columns={columns}
+        rows={kits}
+        pageInfo={pageInfo}
+        selectable={canChange}
+        empty="No kits match. Make up a kit from parts on the shelf."
+        renderSelectionActions={(kitIds, clear) => (
+          <fetcher.Form method="post" className="flex flex-wrap items-center gap-2" onSubmit={() => clear()}>
+            <input type="hidden" name="intent" value="bulk-move" />
+            {kitIds.map((id) => (
+              <input key={id} type="hidden" name="kitIds" value={id} />
+            ))}
+            <label className="flex items-center gap-2">
+              Move to
+              <select name="to" required className="rounded-md border border-ink-900/20 bg-white px-2 py-1">
+                {bulkTargets.map((state) => (
+                  <option key={state} value={state}>
+                    {kitStateLabels[state]}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <input name="note" placeholder="Note (optional)" aria-label="Note" className="rounded-md border border-ink-900/20 bg-white px-2 py-1" />
+            <Button type="submit" disabled={fetcher.state !== "idle"}>
+              {fetcher.state !== "idle" ? "Moving…" : "Apply"}
+            </Button>
+          </fetcher.Form>
+        )}
+      />
+    </div>
+  );
+}
+
+export function meta() {
+  return [{ title: "Kits · Benchpost" }];
+}

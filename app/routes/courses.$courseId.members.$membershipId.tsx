@@ -1,0 +1,114 @@
+import { Form, Link, data, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.members.$membershipId";
+import { Button } from "~/components/ui/button";
+import { SelectField } from "~/components/ui/field";
+import { Notice } from "~/components/ui/notice";
+import { PageHeading } from "~/components/ui/page-heading";
+import { parseForm } from "~/lib/forms/parse-form";
+import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
+import { MemberRuleError, changeMemberRole, getMember, listCohorts } from "~/server/members/members.server";
+
+const changeRoleSchema = z.object({
+  intent: z.literal("change-role"),
+  role: z.enum(["student", "ta", "instructor"], "Choose a role."),
+  cohortId: z.union([z.literal(""), z.uuid()]).optional(),
+});
+
+const roleWords = { instructor: "Instructor", ta: "Teaching assistant", student: "Student" } as const;
+
+/** The member page: the member themselves, the course's instructors, and the TAs of the member's cohort. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireUser(request);
+  const member = await getMember(params.courseId, params.membershipId);
+  if (!member) throw data("Not found", { status: 404 });
+  const access = await requireStudentAccess(request, params.courseId, member);
+  const canEdit = access.membership.role === "instructor" && member.userId !== access.user.id;
+  return { course: access.course, member, canEdit, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  const form = parseForm(changeRoleSchema, await request.formData());
+  if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
+  try {
+    await changeMemberRole(
+      { courseId: access.course.id, actorId: access.user.id, membershipId: params.membershipId, role: form.data.role, cohortId: form.data.cohortId || null },
+      request,
+    );
+  } catch (error) {
+    if (error instanceof MemberRuleError) return data({ errors: { role: error.message } }, { status: 400 });
+    throw error;
+  }
+  return { saved: true };
+}
+
+export default function CourseMember({ loaderData, actionData }: Route.ComponentProps) {
+  const { course, member, canEdit, cohorts } = loaderData;
+  const busy = useNavigation().state !== "idle";
+  const errors = actionData && "errors" in actionData ? (actionData.errors as Record<string, string | undefined>) : {};
+  return (
+    <div className="mx-auto max-w-2xl space-y-6">
+      <PageHeading id="member-title" lead={`${roleWords[member.role]} in ${course.code} ${course.title}`}>
+        {member.name}
+      </PageHeading>
+      <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-2 rounded-lg bg-white p-5 text-sm shadow-sm ring-1 ring-ink-900/10">
+        <dt className="text-ink-600">E-mail</dt>
+        <dd className="break-all">{member.email}</dd>
+        <dt className="text-ink-600">Cohort</dt>
+        <dd>{member.cohortName ?? "—"}</dd>
+        {member.studentNumber ? (
+          <>
+            <dt className="text-ink-600">Student number</dt>
+            <dd>{member.studentNumber}</dd>
+          </>
+        ) : null}
+      </dl>
+
+      {canEdit ? (
+        <section aria-labelledby="role-title" className="rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
+          <h2 id="role-title" className="mb-3 text-lg font-medium">
+            Role and cohort
+          </h2>
+          {actionData && "saved" in actionData ? (
+            <div className="mb-3">
+              <Notice tone="success">Saved.</Notice>
+            </div>
+          ) : null}
+          <Form method="post" className="grid gap-3 sm:grid-cols-2 sm:items-end">
+            <input type="hidden" name="intent" value="change-role" />
+            <SelectField label="Role" name="role" defaultValue={member.role} error={errors.role}>
+              <option value="student">Student</option>
+              <option value="ta">Teaching assistant</option>
+              <option value="instructor">Instructor</option>
+            </SelectField>
+            <SelectField label="Cohort (students only)" name="cohortId" defaultValue={member.cohortId ?? ""} error={errors.cohortId}>
+              <option value="">No cohort</option>
+              {cohorts.map((cohort) => (
+                <option key={cohort.id} value={cohort.id}>
+                  {cohort.name}
+                </option>
+              ))}
+            </SelectField>
+            <div className="sm:col-span-2">
+              <Button type="submit" disabled={busy}>
+                Save
+              </Button>
+            </div>
+          </Form>
+        </section>
+      ) : null}
+      {canEdit ? (
+        <p className="text-sm">
+          <Link to={`/courses/${course.id}/members`} className="underline">
+            All members
+          </Link>
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+export function meta({ data }: Route.MetaArgs) {
+  return [{ title: data ? `${data.member.name} · ${data.course.code} · Benchpost` : "Member · Benchpost" }];
+}

@@ -1,0 +1,153 @@
+import { data, Form, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.my-kit";
+import { KitStateBadge } from "~/components/kit-state-badge";
+import { SafetyCautions } from "~/components/safety-cautions";
+import { Button, Notice, SelectField, TextAreaField } from "~/components/ui/form";
+import { PageHeader } from "~/components/ui/page-header";
+import { describePart } from "~/lib/kits/describe-part";
+import { fieldErrors, formFailure, formValues } from "~/lib/form-data";
+import { requireCourseRole } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { KitRuleError, confirmArrival, findKitOfMember, getKit, reportKitProblem } from "~/server/kits/kits.server";
+
+const myKitAction = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("arrived"), complete: z.enum(["yes", "no"]), note: z.string().trim().max(1000).optional() }),
+  z.object({
+    intent: z.literal("report"),
+    partId: z.preprocess((value) => value || null, z.uuid().nullable()),
+    problem: z.enum(["missing", "damaged"], { error: "Say whether the part is missing or damaged." }),
+    note: z.string().trim().min(3, "Describe what is wrong in a few words.").max(1000),
+  }),
+]);
+
+async function loadMyKit(request: Request, courseId: string | undefined) {
+  const access = await requireCourseRole(request, courseId, ["student"]);
+  const held = await findKitOfMember(db, access.membership.id);
+  return { access, kit: held ? await getKit(db, access.course.id, held.id) : null };
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { kit } = await loadMyKit(request, params.courseId);
+  if (!kit) return { kit: null };
+  // The student sees their kit's parts and its journey, not the staff's notes on it.
+  const { events: _events, holder: _holder, ...mine } = kit;
+  return { kit: mine };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { access, kit } = await loadMyKit(request, params.courseId);
+  if (!kit) throw data("You hold no kit in this course.", { status: 404 });
+  const form = await request.formData();
+  const values = formValues(form);
+  const parsed = myKitAction.safeParse(values);
+  if (!parsed.success) return formFailure(values, fieldErrors(parsed.error), { intent: values.intent });
+  const input = parsed.data;
+  const partIds = kit.parts.map(({ part }) => part.id);
+  try {
+    if (input.intent === "arrived") {
+      await confirmArrival(db, { courseId: access.course.id, actorId: access.user.id, kitId: kit.id, complete: input.complete === "yes", note: input.note });
+      return { intent: input.intent, saved: "Thank you: your kit is marked as at home." };
+    }
+    if (input.partId && !partIds.includes(input.partId)) return formFailure(values, { partId: ["That part is not in your kit."] }, { intent: input.intent });
+    await reportKitProblem(db, { kitId: kit.id, actorId: access.user.id, partId: input.partId, problem: input.problem, note: input.note });
+    return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
+  } catch (error) {
+    if (error instanceof KitRuleError) return formFailure(values, { form: [error.message] }, { intent: values.intent });
+    throw error;
+  }
+}
+
+export default function MyKit({ loaderData, actionData }: Route.ComponentProps) {
+  const { kit } = loaderData;
+  const navigation = useNavigation();
+  const failure = actionData && "errors" in actionData ? actionData : null;
+  if (!kit) {
+    return (
+      <div className="flex flex-col gap-4">
+        <PageHeader title="My kit" />
+        <p>No kit has been packed for you yet. You will get an e-mail with its tracking number when it ships.</p>
+        <SafetyCautions />
+      </div>
+    );
+  }
+  const parts = kit.parts.map(({ part }) => part);
+  return (
+    <div className="flex flex-col gap-6">
+      <PageHeader title={`My kit: ${kit.number}`}>
+        <KitStateBadge state={kit.state} />
+        {kit.trackingNumber ? <span className="ml-2 text-sm">Sent {kit.shippedOn} with {kit.carrier}, tracking number {kit.trackingNumber}</span> : null}
+      </PageHeader>
+      {actionData && "saved" in actionData ? <Notice tone="success">{actionData.saved}</Notice> : null}
+      {failure?.errors.form ? <Notice tone="error">{failure.errors.form.join(" ")}</Notice> : null}
+
+      {kit.state === "in_transit" ? (
+        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+          <input type="hidden" name="intent" value="arrived" />
+          <h2 className="font-semibold">Has your kit arrived?</h2>
+          <fieldset className="flex flex-col gap-1 text-sm">
+            <legend className="sr-only">Was it complete?</legend>
+            <label className="flex items-center gap-2">
+              <input type="radio" name="complete" value="yes" defaultChecked /> Yes, and everything on the list below is there
+            </label>
+            <label className="flex items-center gap-2">
+              <input type="radio" name="complete" value="no" /> Yes, but something is missing or broken
+            </label>
+          </fieldset>
+          <TextAreaField label="Anything to add (optional)" name="note" rows={2} />
+          <Button type="submit" disabled={navigation.state === "submitting"}>
+            Confirm arrival
+          </Button>
+        </Form>
+      ) : null}
+
+      <section aria-labelledby="my-parts">
+        <h2 id="my-parts" className="mb-2 text-lg font-semibold">
+          What is in it
+        </h2>
+        <p className="mb-2 text-sm text-ink-700">These are the measurements Benchpost uses for your results unless you enter your own.</p>
+        <ul className="divide-y divide-ink-900/5 rounded-lg bg-white ring-1 ring-ink-900/10">
+          {parts.map((part) => {
+            const { kind, values } = describePart(part);
+            return (
+              <li key={part.id} className="flex flex-wrap gap-x-3 px-3 py-2 text-sm">
+                <strong className="min-w-20">{part.label}</strong>
+                <span className="min-w-24 text-ink-600">{kind}</span>
+                <span>{values}</span>
+              </li>
+            );
+          })}
+        </ul>
+      </section>
+
+      {["in_transit", "at_home"].includes(kit.state) ? (
+        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+          <input type="hidden" name="intent" value="report" />
+          <h2 className="font-semibold">Report a missing or damaged part</h2>
+          <SelectField label="Which part" name="partId" defaultValue={failure?.values.partId ?? ""} error={failure?.errors.partId}>
+            <option value="">Not sure / the whole kit</option>
+            {parts.map((part) => (
+              <option key={part.id} value={part.id}>
+                {part.label} ({describePart(part).kind})
+              </option>
+            ))}
+          </SelectField>
+          <SelectField label="What happened" name="problem" defaultValue={failure?.values.problem ?? "damaged"} error={failure?.errors.problem}>
+            <option value="damaged">It is damaged</option>
+            <option value="missing">It is missing</option>
+          </SelectField>
+          <TextAreaField label="Describe it" name="note" rows={3} required defaultValue={failure?.values.note ?? ""} error={failure?.errors.note} />
+          <Button type="submit" variant="secondary">
+            Send the report
+          </Button>
+        </Form>
+      ) : null}
+
+      <SafetyCautions />
+    </div>
+  );
+}
+
+export function meta() {
+  return [{ title: "My kit · Benchpost" }];
+}

@@ -1,0 +1,157 @@
+import { data, Form, useNavigation, useSearchParams } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.settings";
+import { CourseFields } from "~/components/course-fields";
+import { Button, Notice, TextField } from "~/components/ui/form";
+import { PageHeader } from "~/components/ui/page-header";
+import { cohortName, courseInput } from "~/lib/courses/course-input";
+import { fieldErrors, formFailure, formValues } from "~/lib/form-data";
+import { requireCourseRole } from "~/server/auth/access.server";
+import { CourseRuleError, addCohort, getCourseWithCohorts, renameCohort, setTaCohorts, updateCourse } from "~/server/courses/courses.server";
+import { db } from "~/server/db.server";
+
+const settingsIntent = z.discriminatedUnion("intent", [
+  courseInput.extend({ intent: z.literal("course") }),
+  z.object({ intent: z.literal("add-cohort"), name: cohortName }),
+  z.object({ intent: z.literal("rename-cohort"), cohortId: z.uuid(), name: cohortName }),
+  z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: z.array(z.uuid()) }),
+]);
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  const details = await getCourseWithCohorts(db, access.course.id);
+  if (!details) throw data("Not found", { status: 404 });
+  return { ...details, timeZones: Intl.supportedValuesOf("timeZone") };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  const form = await request.formData();
+  const values = formValues(form);
+  const parsed = settingsIntent.safeParse({ ...values, cohortIds: form.getAll("cohortIds") });
+  if (!parsed.success) return formFailure(values, fieldErrors(parsed.error), { intent: values.intent });
+  const courseId = access.course.id;
+  const actorId = access.user.id;
+  try {
+    const input = parsed.data;
+    if (input.intent === "course") {
+      const { intent: _intent, ...course } = input;
+      await updateCourse(db, { courseId, actorId, input: course });
+    } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
+    else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
+    else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
+    return { intent: input.intent, saved: true as const };
+  } catch (error) {
+    if (error instanceof CourseRuleError) return formFailure(values, { form: [error.message] }, { intent: values.intent });
+    throw error;
+  }
+}
+
+export default function CourseSettings({ loaderData, actionData }: Route.ComponentProps) {
+  const { course, cohorts, tas, timeZones } = loaderData;
+  const [search] = useSearchParams();
+  const navigation = useNavigation();
+  const failed = actionData && "errors" in actionData ? actionData : null;
+  const failedFor = (intent: string) => (failed?.intent === intent ? failed : null);
+  const courseFailure = failedFor("course");
+  return (
+    <div className="flex flex-col gap-10">
+      <PageHeader title="Course settings" />
+      {search.get("created") ? (
+        <Notice tone="success">The course is open. Add its cohorts below, then import the roster.</Notice>
+      ) : null}
+      {actionData && "saved" in actionData ? <Notice tone="success">Saved.</Notice> : null}
+
+      <section aria-labelledby="course-heading" className="max-w-xl">
+        <h2 id="course-heading" className="mb-3 text-lg font-semibold">
+          The course
+        </h2>
+        <Form method="post" className="flex flex-col gap-4">
+          <input type="hidden" name="intent" value="course" />
+          {courseFailure?.errors.form ? <Notice tone="error">{courseFailure.errors.form.join(" ")}</Notice> : null}
+          <CourseFields values={courseFailure?.values ?? { ...course, createdAt: null }} errors={courseFailure?.errors ?? {}} timeZones={timeZones} />
+          <Button type="submit" disabled={navigation.state === "submitting"}>
+            Save the course
+          </Button>
+        </Form>
+      </section>
+
+      <section aria-labelledby="cohorts-heading" className="max-w-xl">
+        <h2 id="cohorts-heading" className="mb-3 text-lg font-semibold">
+          Cohorts
+        </h2>
+        {failedFor("rename-cohort")?.errors.form || failedFor("rename-cohort")?.errors.name ? (
+          <Notice tone="error">{[...(failedFor("rename-cohort")?.errors.form ?? []), ...(failedFor("rename-cohort")?.errors.name ?? [])].join(" ")}</Notice>
+        ) : null}
+        <ul className="flex flex-col gap-2">
+          {cohorts.map((cohort) => (
+            <li key={cohort.id}>
+              <Form method="post" className="flex items-end gap-2">
+                <input type="hidden" name="intent" value="rename-cohort" />
+                <input type="hidden" name="cohortId" value={cohort.id} />
+                <div className="flex-1">
+                  <TextField label={`Cohort (${cohort.students} students)`} name="name" defaultValue={cohort.name} required />
+                </div>
+                <Button type="submit" variant="secondary">
+                  Rename
+                </Button>
+              </Form>
+            </li>
+          ))}
+        </ul>
+        <Form method="post" className="mt-4 flex items-end gap-2">
+          <input type="hidden" name="intent" value="add-cohort" />
+          <div className="flex-1">
+            <TextField
+              label="New cohort"
+              name="name"
+              placeholder="e.g. Friday bench"
+              required
+              defaultValue={failedFor("add-cohort")?.values.name ?? ""}
+              error={[...(failedFor("add-cohort")?.errors.name ?? []), ...(failedFor("add-cohort")?.errors.form ?? [])]}
+            />
+          </div>
+          <Button type="submit">Add cohort</Button>
+        </Form>
+      </section>
+
+      <section aria-labelledby="tas-heading">
+        <h2 id="tas-heading" className="mb-1 text-lg font-semibold">
+          Teaching assistants and their cohorts
+        </h2>
+        <p className="mb-3 text-sm text-ink-700">A TA sees and marks only the students of the cohorts ticked here.</p>
+        {tas.length === 0 ? <p className="text-ink-600">No TAs yet: invite them from Members.</p> : null}
+        <ul className="flex flex-col gap-3">
+          {tas.map((ta) => (
+            <li key={ta.membershipId} className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+              <Form method="post" className="flex flex-wrap items-center gap-4">
+                <input type="hidden" name="intent" value="ta-cohorts" />
+                <input type="hidden" name="membershipId" value={ta.membershipId} />
+                <span className="min-w-48 font-medium">
+                  {ta.name}
+                  <span className="block text-xs font-normal text-ink-600">{ta.email}</span>
+                </span>
+                <fieldset className="flex flex-wrap gap-3">
+                  <legend className="sr-only">Cohorts {ta.name} marks</legend>
+                  {cohorts.map((cohort) => (
+                    <label key={cohort.id} className="flex items-center gap-1.5 text-sm">
+                      <input type="checkbox" name="cohortIds" value={cohort.id} defaultChecked={ta.cohortIds.includes(cohort.id)} />
+                      {cohort.name}
+                    </label>
+                  ))}
+                </fieldset>
+                <Button type="submit" variant="secondary" className="ml-auto">
+                  Save
+                </Button>
+              </Form>
+            </li>
+          ))}
+        </ul>
+      </section>
+    </div>
+  );
+}
+
+export function meta() {
+  return [{ title: "Course settings · Benchpost" }];
+}

@@ -1,0 +1,24 @@
+import { Outlet } from "react-router";
+import type { Route } from "./+types/courses.$courseId";
+import { CourseNav } from "~/components/course-nav";
+import { anyRole, requireCourseRole } from "~/server/auth/access.server";
+
+/** The frame of every course page: its name and the rooms the viewer's role opens. Children check access themselves. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole(request, params.courseId, anyRole);
+  return { course: access.course, role: access.membership.role };
+}
+
+export default function CourseFrame({ loaderData }: Route.ComponentProps) {
+  const { course, role } = loaderData;
+  return (
+    <>
+      <p className="no-print text-sm text-ink-600">
+        {course.code} · {course.term}
+      </p>
+      <p className="no-print mb-2 text-lg font-medium">{course.title}</p>
+      <CourseNav courseId={course.id} role={role} />
+      <Outlet />
+    </>
+  );
+}

@@ -1,0 +1,119 @@
+import { Form, Link, data, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/invitations.$token";
+import { Button } from "~/components/ui/button";
+import { TextField } from "~/components/ui/field";
+import { Notice } from "~/components/ui/notice";
+import { PageHeading } from "~/components/ui/page-heading";
+import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
+import { parseForm } from "~/lib/forms/parse-form";
+import { getOptionalUser } from "~/server/auth/access.server";
+import { redirectWithNewSession } from "~/server/auth/session-responses.server";
+import { acceptInvitation, findInvitation } from "~/server/members/invitations.server";
+
+const acceptInvitationSchema = z
+  .object({
+    name: z.string().trim().max(120).optional(),
+    // Optional: students may sign in by e-mailed link and never choose a password.
+    password: z.union([z.literal(""), newPasswordField]).optional(),
+    confirmPassword: z.string().optional(),
+  })
+  .refine((form) => !form.password || form.password === form.confirmPassword, { path: ["confirmPassword"], message: "The two passwords are not the same." });
+
+const roleWords = { instructor: "an instructor", ta: "a teaching assistant", student: "a student" } as const;
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const [invitation, user] = await Promise.all([findInvitation(params.token), getOptionalUser(request)]);
+  if (!invitation) throw data("Not found", { status: 404 });
+  return { invitation, signedInAs: user ? { email: user.email } : null };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const form = parseForm(acceptInvitationSchema, await request.formData());
+  if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
+  const user = await getOptionalUser(request);
+  const result = await acceptInvitation(params.token, { name: form.data.name, password: form.data.password || null }, user?.id ?? null, request);
+  if (result.outcome === "invalid") return data({ formError: "This invitation has been used already or has expired. Ask your instructor for a new one." }, { status: 410 });
+  if (result.outcome === "other-account") {
+    return data({ formError: `This invitation is for ${result.invitedEmail}. Sign out first, then open the link again.` }, { status: 409 });
+  }
+  return redirectWithNewSession(request, "/", result);
+}
+
+// The token is in the address: other sites must not see it in a Referer header.
+export const headers: Route.HeadersFunction = () => ({ "Referrer-Policy": "strict-origin" });
+
+export default function AcceptInvitation({ loaderData, actionData }: Route.ComponentProps) {
+  const { invitation, signedInAs } = loaderData;
+  const busy = useNavigation().state !== "idle";
+  const errors = actionData && "errors" in actionData ? actionData.errors : undefined;
+  const heading = `Join ${invitation.courseCode} ${invitation.courseTitle}`;
+  if (invitation.state !== "open") {
+    return (
+      <section className="mx-auto max-w-md space-y-4" aria-labelledby="invitation-title">
+        <PageHeading id="invitation-title">{heading}</PageHeading>
+        <Notice tone="warning">
+          {invitation.state === "accepted" ? "This invitation has been accepted already." : "This invitation has expired."} If you still need access, ask
+          your instructor for a new one.
+        </Notice>
+        <p>
+          <Link to="/sign-in" className="underline">
+            Sign in
+          </Link>
+        </p>
+      </section>
+    );
+  }
+  const wrongAccount = signedInAs && signedInAs.email !== invitation.email;
+  return (
+    <section className="mx-auto max-w-md" aria-labelledby="invitation-title">
+      <PageHeading
+        id="invitation-title"
+        lead={`${invitation.inviterName ?? "Your instructor"} invited ${invitation.email} to join as ${roleWords[invitation.role]}${invitation.cohortName ? `, in ${invitation.cohortName}` : ""}.`}
+      >
+        {heading}
+      </PageHeading>
+      {actionData && "formError" in actionData ? (
+        <div className="mb-4">
+          <Notice tone="error">{actionData.formError}</Notice>
+        </div>
+      ) : null}
+      {wrongAccount ? (
+        <Notice tone="warning">
+          You are signed in as {signedInAs.email}, but this invitation is for {invitation.email}.{" "}
+          <Link to="/sign-out" className="underline">
+            Sign out
+          </Link>{" "}
+          first, then open the link again.
+        </Notice>
+      ) : (
+        <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
+          {invitation.hasAccount ? (
+            <p className="text-ink-700">You already have a Benchpost account with this address: accepting adds the course to it and signs you in.</p>
+          ) : (
+            <>
+              <TextField label="Your name" name="name" autoComplete="name" required defaultValue={actionData && "values" in actionData ? actionData.values.name : (invitation.name ?? "")} error={errors?.name} />
+              <TextField
+                label="Choose a password (optional)"
+                name="password"
+                type="password"
+                autoComplete="new-password"
+                minLength={PASSWORD_MIN_LENGTH}
+                hint="Leave it empty to sign in with a link e-mailed to you each time."
+                error={errors?.password}
+              />
+              <TextField label="The same password again" name="confirmPassword" type="password" autoComplete="new-password" error={errors?.confirmPassword} />
+            </>
+          )}
+          <Button type="submit" disabled={busy}>
+            Accept and join the course
+          </Button>
+        </Form>
+      )}
+    </section>
+  );
+}
+
+export function meta({ data }: Route.MetaArgs) {
+  return [{ title: data ? `Join ${data.invitation.courseCode} · Benchpost` : "Invitation · Benchpost" }];
+}

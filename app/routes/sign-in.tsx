@@ -1,0 +1,149 @@
+import { Form, Link, data, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/sign-in";
+import { Button } from "~/components/ui/button";
+import { TextField } from "~/components/ui/field";
+import { Notice } from "~/components/ui/notice";
+import { PageHeading } from "~/components/ui/page-heading";
+import { parseForm } from "~/lib/forms/parse-form";
+import { getOptionalUser } from "~/server/auth/access.server";
+import { describeWait, redirectWithNewSession, retryAfterHeaders } from "~/server/auth/session-responses.server";
+import { requestEmailLink, signInWithPassword } from "~/server/auth/sign-in.server";
+import { allowSignUp } from "~/server/config.server";
+import { safeRedirectPath } from "~/server/http.server";
+
+const email = z.email("Enter the e-mail address your course uses, like name@example.org.").max(254);
+const passwordSignInSchema = z.object({
+  intent: z.literal("password"),
+  email,
+  password: z.string().min(1, "Enter your password."),
+  redirectTo: z.string().optional(),
+});
+const linkSignInSchema = z.object({ intent: z.literal("link"), email });
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const redirectTo = safeRedirectPath(new URL(request.url).searchParams.get("redirectTo"));
+  if (await getOptionalUser(request)) throw redirect(redirectTo);
+  return { redirectTo, allowSignUp: allowSignUp() };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const formData = await request.formData();
+  if (formData.get("intent") === "link") {
+    const form = parseForm(linkSignInSchema, formData);
+    if (!form.ok) return data({ intent: "link" as const, errors: form.errors, values: form.values }, { status: 400 });
+    const result = await requestEmailLink("sign_in", form.data.email, request);
+    if (result.outcome === "limited") {
+      return data(
+        { intent: "link" as const, formError: `Too many links were asked for. Try again in ${describeWait(result.retryAfterSeconds)}.`, values: { email: form.data.email } },
+        { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
+      );
+    }
+    return { intent: "link" as const, sentTo: form.data.email };
+  }
+
+  const form = parseForm(passwordSignInSchema, formData);
+  if (!form.ok) return data({ intent: "password" as const, errors: form.errors, values: form.values }, { status: 400 });
+  const result = await signInWithPassword(form.data, request);
+  const values = { email: form.data.email };
+  if (result.outcome === "limited") {
+    return data(
+      { intent: "password" as const, formError: `Too many attempts. For your account's safety, wait ${describeWait(result.retryAfterSeconds)} and try again, or sign in with an e-mailed link.`, values },
+      { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
+    );
+  }
+  if (result.outcome === "refused") {
+    return data(
+      { intent: "password" as const, formError: "That e-mail address and password do not match. Check both, or sign in with an e-mailed link instead.", values },
+      { status: 401 },
+    );
+  }
+  return redirectWithNewSession(request, safeRedirectPath(form.data.redirectTo), result);
+}
+
+// Passes Retry-After from a limited attempt on to the page.
+export const headers: Route.HeadersFunction = ({ actionHeaders }) => actionHeaders;
+
+export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {
+  const navigation = useNavigation();
+  const busy = navigation.state !== "idle";
+  const password = actionData?.intent === "password" ? actionData : undefined;
+  const link = actionData?.intent === "link" ? actionData : undefined;
+  return (
+    <section className="mx-auto max-w-md" aria-labelledby="sign-in-title">
+      <PageHeading id="sign-in-title">Sign in to Benchpost</PageHeading>
+
+      <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10" aria-labelledby="password-title">
+        <h2 id="password-title" className="font-medium">
+          With your password
+        </h2>
+        {password && "formError" in password ? <Notice tone="error">{password.formError}</Notice> : null}
+        <input type="hidden" name="intent" value="password" />
+        <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+        <TextField
+          label="E-mail address"
+          name="email"
+          type="email"
+          autoComplete="username"
+          required
+          defaultValue={password?.values?.email}
+          error={password && "errors" in password ? password.errors.email : undefined}
+        />
+        <TextField
+          label="Password"
+          name="password"
+          type="password"
+          autoComplete="current-password"
+          required
+          error={password && "errors" in password ? password.errors.password : undefined}
+        />
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <Button type="submit" disabled={busy}>
+            Sign in
+          </Button>
+          <Link to="/forgot-password" className="text-sm text-ink-700 underline">
+            Forgot your password?
+          </Link>
+        </div>
+      </Form>
+
+      <Form method="post" className="mt-6 space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10" aria-labelledby="link-title">
+        <h2 id="link-title" className="font-medium">
+          Or with a link sent to your e-mail
+        </h2>
+        <p className="text-sm text-ink-700">No password needed: we e-mail you a link that signs you in once, within 15 minutes.</p>
+        {link && "sentTo" in link ? (
+          <Notice tone="success">If {link.sentTo} belongs to a Benchpost account, a sign-in link is on its way. Check your inbox (and spam folder).</Notice>
+        ) : null}
+        {link && "formError" in link ? <Notice tone="error">{link.formError}</Notice> : null}
+        <input type="hidden" name="intent" value="link" />
+        <TextField
+          label="E-mail address"
+          name="email"
+          type="email"
+          autoComplete="email"
+          required
+          defaultValue={link && "values" in link ? link.values.email : undefined}
+          error={link && "errors" in link ? link.errors.email : undefined}
+        />
+        <Button type="submit" variant="secondary" disabled={busy}>
+          E-mail me a sign-in link
+        </Button>
+      </Form>
+
+      {loaderData.allowSignUp ? (
+        <p className="mt-6 text-sm text-ink-700">
+          Teaching a course?{" "}
+          <Link to="/sign-up" className="underline">
+            Create an instructor account
+          </Link>
+          . Students and teaching assistants join from their invitation e-mail.
+        </p>
+      ) : null}
+    </section>
+  );
+}
+
+export function meta() {
+  return [{ title: "Sign in · Benchpost" }];
+}

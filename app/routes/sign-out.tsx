@@ -1,0 +1,47 @@
+import { Form } from "react-router";
+import type { Route } from "./+types/sign-out";
+import { Button } from "~/components/ui/button";
+import { PageHeading } from "~/components/ui/page-heading";
+import { requireUser } from "~/server/auth/access.server";
+import { redirectSignedOut } from "~/server/auth/session-responses.server";
+import { signOut, signOutEverywhere } from "~/server/auth/sign-in.server";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  return { name: user.name };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const formData = await request.formData();
+  if (formData.get("intent") === "everywhere") await signOutEverywhere(user.id, request);
+  else if (user.sessionId) await signOut(user.id, user.sessionId, request);
+  return redirectSignedOut("/");
+}
+
+export default function SignOut({ loaderData }: Route.ComponentProps) {
+  return (
+    <section className="mx-auto max-w-md" aria-labelledby="sign-out-title">
+      <PageHeading id="sign-out-title" lead={`Signed in as ${loaderData.name}.`}>
+        Sign out
+      </PageHeading>
+      <div className="flex flex-wrap gap-3">
+        <Form method="post">
+          <Button type="submit" name="intent" value="this-device">
+            Sign out on this device
+          </Button>
+        </Form>
+        <Form method="post">
+          <Button type="submit" name="intent" value="everywhere" variant="secondary">
+            Sign out everywhere
+          </Button>
+        </Form>
+      </div>
+      <p className="mt-4 text-sm text-ink-700">"Everywhere" ends your sessions on every phone and computer, for example after using a shared one.</p>
+    </section>
+  );
+}
+
+export function meta() {
+  return [{ title: "Sign out · Benchpost" }];
+}

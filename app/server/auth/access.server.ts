@@ -1,0 +1,173 @@
+/**
+ * Who may do what. Every loader and action calls one of the `require…` helpers itself: loaders run
+ * in parallel, so a parent route never protects its children. The helpers throw a redirect to the
+ * sign-in page (anonymous), or a 403 (signed in without the right role), which the root error page
+ * explains. Under /api/ they throw JSON errors instead.
+ *
+ * Staff cannot act as a student: there is no "view as" mode.
+ */
+import { sql } from "drizzle-orm";
+import { data, redirect } from "react-router";
+import { recordAudit } from "~/server/audit.server";
+import { db } from "~/server/db.server";
+import { apiErrorResponse, isApiRequest } from "./api-errors.server";
+import { authenticateApiToken, readBearerToken } from "./api-tokens.server";
+import { getRequestSession, type SessionUser } from "./session.server";
+
+export type CourseRole = "instructor" | "ta" | "student";
+export const staffRoles = ["instructor", "ta"] as const satisfies readonly CourseRole[];
+export const anyRole = ["instructor", "ta", "student"] as const satisfies readonly CourseRole[];
+
+/** The person behind a request: from a session cookie, or from a personal API token on /api/. */
+export type SignedInUser = SessionUser & { sessionId: string | null; via: "session" | "api-token" };
+
+export type CourseAccess = {
+  user: SignedInUser;
+  course: { id: string; title: string; code: string; term: string; timeZone: string };
+  membership: { id: string; role: CourseRole; cohortId: string | null };
+  /** Cohorts whose students this member may see: all for instructors, the assigned ones for TAs, their own for students. */
+  cohortIds: string[];
+};
+
+/** The owner of a piece of student work (a membership, a drop log…), as the access check needs it. */
+export type StudentOwner = { userId: string; cohortId: string | null };
+
+const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+const requestUsers = new WeakMap<Request, Promise<SignedInUser | null>>();
+
+async function resolveUser(request: Request): Promise<SignedInUser | null> {
+  const bearer = isApiRequest(request) ? readBearerToken(request) : null;
+  if (bearer !== null) {
+    const user = await authenticateApiToken(bearer);
+    return user ? { ...user, sessionId: null, via: "api-token" } : null;
+  }
+  const validation = await getRequestSession(request);
+  return validation ? { ...validation.user, sessionId: validation.session.id, via: "session" } : null;
+}
+
+/** The signed-in user, or null. Looked up once per request. */
+export function getOptionalUser(request: Request): Promise<SignedInUser | null> {
+  let pending = requestUsers.get(request);
+  if (!pending) {
+    pending = resolveUser(request);
+    requestUsers.set(request, pending);
+  }
+  return pending;
+}
+
+/** The page to come back to after signing in, without React Router's `.data` suffix. */
+function returnPath(request: Request): string {
+  const url = new URL(request.url);
+  const path = url.pathname.replace(/\/_root\.data$/, "/").replace(/\.data$/, "");
+  url.searchParams.delete("_routes");
+  const search = url.searchParams.toString();
+  return search ? `${path}?${search}` : path;
+}
+
+export async function requireUser(request: Request): Promise<SignedInUser> {
+  const user = await getOptionalUser(request);
+  if (user) return user;
+  if (isApiRequest(request)) throw apiErrorResponse(401, "unauthenticated", "Sign in, or send a personal API token as `Authorization: Bearer …`.");
+  throw redirect(`/sign-in?${new URLSearchParams({ redirectTo: returnPath(request) })}`);
+}
+
+/** For /api/v1 routes: a session cookie or a personal API token; errors are JSON. */
+export const requireApiUser = requireUser;
+
+async function deny(request: Request, user: SignedInUser, courseId: string | null, reason: string): Promise<never> {
+  await recordAudit(db, {
+    action: "access.denied",
+    actorId: user.id,
+    courseId,
+    subject: `path:${new URL(request.url).pathname}`,
+    detail: { method: request.method, reason },
+    request,
+  });
+  if (isApiRequest(request)) throw apiErrorResponse(403, "forbidden", "You have no access to this.");
+  throw data("Forbidden", { status: 403 });
+}
+
+function notFound(request: Request): never {
+  if (isApiRequest(request)) throw apiErrorResponse(404, "not_found", "There is nothing at this address.");
+  throw data("Not found", { status: 404 });
+}
+
+type CourseAccessRow = {
+  id: string;
+  title: string;
+  code: string;
+  term: string;
+  time_zone: string;
+  membership_id: string | null;
+  role: CourseRole | null;
+  cohort_id: string | null;
+  cohort_ids: string[];
+};
+
+/** The course and the user's active membership in it, with the cohorts that membership opens, in one query. */
+async function loadCourseAccess(userId: string, courseId: string): Promise<CourseAccessRow | undefined> {
+  const result = await db.execute<CourseAccessRow>(sql`
+    select c.id, c.title, c.code, c.term, c.time_zone, m.id as membership_id, m.role, m.cohort_id,
+      case m.role
+        when 'instructor' then array(select h.id from cohorts h where h.course_id = c.id)
+        when 'ta' then array(select a.cohort_id from ta_cohort_assignments a where a.membership_id = m.id)
+        else array_remove(array[m.cohort_id], null)
+      end::text[] as cohort_ids
+    from courses c
+    left join course_memberships m on m.course_id = c.id and m.user_id = ${userId} and m.removed_at is null
+    where c.id = ${courseId}`);
+  return result.rows[0];
+}
+
+/** The user's membership in the course, if it has one of `roles`; otherwise a redirect or a 403. */
+export async function requireCourseRole(
+  request: Request,
+  courseId: string | undefined,
+  roles: readonly CourseRole[],
+): Promise<CourseAccess> {
+  const user = await requireUser(request);
+  if (!courseId || !uuidPattern.test(courseId)) notFound(request);
+  const row = await loadCourseAccess(user.id, courseId);
+  if (!row) notFound(request);
+  if (!row.membership_id || !row.role) return deny(request, user, courseId, "not a member");
+  if (!roles.includes(row.role)) return deny(request, user, courseId, `role ${row.role}`);
+  return {
+    user,
+    course: { id: row.id, title: row.title, code: row.code, term: row.term, timeZone: row.time_zone },
+    membership: { id: row.membership_id, role: row.role, cohortId: row.cohort_id },
+    cohortIds: row.cohort_ids,
+  };
+}
+
+/** Staff of the course who may see this cohort: its instructors, and the TAs assigned to it. */
+export async function requireCohortAccess(
+  request: Request,
+  courseId: string | undefined,
+  cohortId: string | undefined,
+  roles: readonly CourseRole[] = staffRoles,
+): Promise<CourseAccess> {
+  const access = await requireCourseRole(request, courseId, roles);
+  if (!cohortId || !access.cohortIds.includes(cohortId)) return deny(request, access.user, access.course.id, "cohort not assigned");
+  return access;
+}
+
+/** Whether a member may see a student's own work: the student, the course's instructors, the TAs of the student's cohort. */
+export function canSeeStudentWork(access: CourseAccess, owner: StudentOwner): boolean {
+  if (access.user.id === owner.userId || access.membership.role === "instructor") return true;
+  return access.membership.role === "ta" && owner.cohortId !== null && access.cohortIds.includes(owner.cohortId);
+}
+
+/** Access to one student's own object (a hand-in, their membership…); `viewingOwnWork` tells the student apart from staff. */
+export async function requireStudentAccess(
+  request: Request,
+  courseId: string | undefined,
+  owner: StudentOwner,
+): Promise<CourseAccess & { viewingOwnWork: boolean }> {
+  const access = await requireCourseRole(request, courseId, anyRole);
+  if (!canSeeStudentWork(access, owner)) return deny(request, access.user, access.course.id, "another student's work");
+  return { ...access, viewingOwnWork: access.user.id === owner.userId };
+}
+
+/** Instructors and TAs of the course. */
+export const isStaff = (access: CourseAccess) => access.membership.role !== "student";

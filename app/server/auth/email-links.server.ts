@@ -1,0 +1,43 @@
+/**
+ * E-mailed sign-in and password-reset links. The token lives only in the e-mail; the row holds its
+ * SHA-256. A link is used by deleting its row (`delete … returning`), so two clicks racing each other
+ * cannot both succeed.
+ */
+import { and, eq } from "drizzle-orm";
+import { emailLinks } from "~/db/schema";
+import type { Executor } from "~/server/db.server";
+import { generateToken, hashToken } from "./tokens.server";
+
+export type EmailLinkPurpose = "sign_in" | "password_reset";
+
+export const emailLinkLifetimeMinutes: Record<EmailLinkPurpose, number> = { sign_in: 15, password_reset: 60 };
+
+export async function createEmailLink(executor: Executor, userId: string, purpose: EmailLinkPurpose): Promise<string> {
+  const token = generateToken();
+  await executor.insert(emailLinks).values({
+    id: hashToken(token),
+    userId,
+    purpose,
+    expiresAt: new Date(Date.now() + emailLinkLifetimeMinutes[purpose] * 60_000),
+  });
+  return token;
+}
+
+/** Uses up the link and returns its user, or null when it is unknown, used, expired or for another purpose. */
+export async function consumeEmailLink(executor: Executor, token: string, purpose: EmailLinkPurpose): Promise<string | null> {
+  const [row] = await executor
+    .delete(emailLinks)
+    .where(and(eq(emailLinks.id, hashToken(token)), eq(emailLinks.purpose, purpose)))
+    .returning({ userId: emailLinks.userId, expiresAt: emailLinks.expiresAt });
+  if (!row || row.expiresAt.getTime() <= Date.now()) return null;
+  return row.userId;
+}
+
+/** Whether a link is still good, without using it: for the page that asks "continue?". */
+export async function peekEmailLink(executor: Executor, token: string, purpose: EmailLinkPurpose): Promise<boolean> {
+  const [row] = await executor
+    .select({ expiresAt: emailLinks.expiresAt })
+    .from(emailLinks)
+    .where(and(eq(emailLinks.id, hashToken(token)), eq(emailLinks.purpose, purpose)));
+  return Boolean(row && row.expiresAt.getTime() > Date.now());
+}

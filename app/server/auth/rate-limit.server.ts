@@ -1,0 +1,72 @@
+/**
+ * Attempt limits kept in PostgreSQL (rate-limiter-flexible's RateLimiterPostgres on the `rate_limits`
+ * table), so that they hold across every app instance.
+ */
+import { RateLimiterPostgres, RateLimiterRes } from "rate-limiter-flexible";
+import { pool } from "~/server/db.server";
+
+type LimitName = "sign-in-ip" | "sign-in-account" | "email-link-address" | "email-link-ip";
+
+/** Points per window. Sign-in counts failures only; e-mailed links count every request. */
+const settings: Record<LimitName, { points: number; durationSeconds: number }> = {
+  "sign-in-ip": { points: 10, durationSeconds: 15 * 60 },
+  "sign-in-account": { points: 10, durationSeconds: 60 * 60 },
+  "email-link-address": { points: 5, durationSeconds: 60 * 60 },
+  "email-link-ip": { points: 30, durationSeconds: 60 * 60 },
+};
+
+const limiters = new Map<LimitName, RateLimiterPostgres>();
+
+function limiter(name: LimitName): RateLimiterPostgres {
+  let existing = limiters.get(name);
+  if (!existing) {
+    const { points, durationSeconds } = settings[name];
+    existing = new RateLimiterPostgres({
+      storeClient: pool,
+      storeType: "pool",
+      tableName: "rate_limits",
+      // The table comes from our migrations; the library's timer-driven clean-up would keep the process alive.
+      tableCreated: true,
+      clearExpiredByTimeout: false,
+      keyPrefix: name,
+      points,
+      duration: durationSeconds,
+    });
+    limiters.set(name, existing);
+  }
+  return existing;
+}
+
+export type LimitCheck = { limited: false } | { limited: true; retryAfterSeconds: number };
+
+const retryAfter = (res: RateLimiterRes) => Math.max(1, Math.ceil(res.msBeforeNext / 1000));
+
+/** Whether the key has used up its points, without spending one. */
+export async function isLimited(name: LimitName, key: string): Promise<LimitCheck> {
+  const res = await limiter(name).get(key);
+  if (res && res.consumedPoints >= settings[name].points) return { limited: true, retryAfterSeconds: retryAfter(res) };
+  return { limited: false };
+}
+
+/** Spends one point; says whether the key was already over its limit. */
+export async function consume(name: LimitName, key: string): Promise<LimitCheck> {
+  try {
+    await limiter(name).consume(key);
+    return { limited: false };
+  } catch (error) {
+    if (error instanceof RateLimiterRes) return { limited: true, retryAfterSeconds: retryAfter(error) };
+    throw error;
+  }
+}
+
+export async function forget(name: LimitName, key: string): Promise<void> {
+  await limiter(name).delete(key);
+}
+
+/** The first limit that is reached among several checks, or `{ limited: false }`. */
+export function firstLimited(checks: LimitCheck[]): LimitCheck {
+  return checks.find((check) => check.limited) ?? { limited: false };
+}
+
+/** The key for per-address limits when no trusted client address is known (development). */
+export const ipKey = (ip: string | null) => ip ?? "unknown";

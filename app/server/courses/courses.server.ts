@@ -1,0 +1,163 @@
+/**
+ * Courses and their cohorts: creating them, their settings, which TA marks which cohort, and
+ * moving or removing members (a removed member keeps their rows, and so their hand-ins).
+ */
+import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
+import { auditEvents, cohorts, courseMemberships, courses, kitEvents, kits, taCohortAssignments, users } from "~/db/schema";
+import type { CourseInput } from "~/lib/courses/course-input";
+import type { KitState } from "~/lib/kits/kit-states";
+import type { Executor } from "~/server/db.server";
+
+export type Course = typeof courses.$inferSelect;
+
+export class CourseRuleError extends Error {}
+
+export async function createCourse(executor: Executor, { actorId, input }: { actorId: string; input: CourseInput }): Promise<Course> {
+  return executor.transaction(async (tx) => {
+    const clash = await tx.select({ id: courses.id }).from(courses).where(and(eq(courses.code, input.code), eq(courses.term, input.term)));
+    if (clash.length) throw new CourseRuleError(`A course ${input.code} already exists for ${input.term}.`);
+    const [course] = await tx.insert(courses).values(input).returning();
+    await tx.insert(courseMemberships).values({ courseId: course.id, userId: actorId, role: "instructor" });
+    await tx.insert(auditEvents).values({ courseId: course.id, actorId, action: "course.created", subject: `course:${course.id}` });
+    return course;
+  });
+}
+
+export async function updateCourse(executor: Executor, { courseId, actorId, input }: { courseId: string; actorId: string; input: CourseInput }): Promise<void> {
+  await executor.transaction(async (tx) => {
+    const clash = await tx
+      .select({ id: courses.id })
+      .from(courses)
+      .where(and(eq(courses.code, input.code), eq(courses.term, input.term), sql`${courses.id} <> ${courseId}`));
+    if (clash.length) throw new CourseRuleError(`Another course ${input.code} already exists for ${input.term}.`);
+    await tx.update(courses).set(input).where(eq(courses.id, courseId));
+    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
+  });
+}
+
+export async function addCohort(executor: Executor, { courseId, name }: { courseId: string; name: string }): Promise<void> {
+  const inserted = await executor.insert(cohorts).values({ courseId, name }).onConflictDoNothing().returning({ id: cohorts.id });
+  if (inserted.length === 0) throw new CourseRuleError(`There is already a cohort called ${name}.`);
+}
+
+export async function renameCohort(executor: Executor, { courseId, cohortId, name }: { courseId: string; cohortId: string; name: string }): Promise<void> {
+  try {
+    await executor.update(cohorts).set({ name }).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
+  } catch {
+    throw new CourseRuleError(`There is already a cohort called ${name}.`);
+  }
+}
+
+/** Replaces the set of cohorts a TA marks, in one transaction. */
+export async function setTaCohorts(
+  executor: Executor,
+  { courseId, actorId, membershipId, cohortIds }: { courseId: string; actorId: string; membershipId: string; cohortIds: string[] },
+): Promise<void> {
+  await executor.transaction(async (tx) => {
+    const [member] = await tx
+      .select({ role: courseMemberships.role })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)));
+    if (member?.role !== "ta") throw new CourseRuleError("Only teaching assistants are assigned to cohorts.");
+    const known = cohortIds.length
+      ? await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.courseId, courseId), inArray(cohorts.id, cohortIds)))
+      : [];
+    if (known.length !== cohortIds.length) throw new CourseRuleError("Some of the chosen cohorts are not in this course.");
+    await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
+    if (cohortIds.length) await tx.insert(taCohortAssignments).values(cohortIds.map((cohortId) => ({ membershipId, cohortId })));
+    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.ta_cohorts_changed", subject: `membership:${membershipId}`, detail: { cohortIds } });
+  });
+}
+
+/** Moves a student to another cohort. */
+export async function moveStudent(
+  executor: Executor,
+  { courseId, actorId, membershipId, cohortId }: { courseId: string; actorId: string; membershipId: string; cohortId: string },
+): Promise<void> {
+  await executor.transaction(async (tx) => {
+    const [cohort] = await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
+    if (!cohort) throw new CourseRuleError("That cohort is not in this course.");
+    const moved = await tx
+      .update(courseMemberships)
+      .set({ cohortId })
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "student")))
+      .returning({ id: courseMemberships.id });
+    if (!moved.length) throw new CourseRuleError("Only students move between cohorts.");
+    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.member_moved", subject: `membership:${membershipId}`, detail: { cohortId } });
+  });
+}
+
+/** Removes a member's access. Their membership row stays, so everything they handed in stays too. */
+export async function removeMember(executor: Executor, { courseId, actorId, membershipId }: { courseId: string; actorId: string; membershipId: string }): Promise<void> {
+  await executor.transaction(async (tx) => {
+    const [member] = await tx
+      .select({ role: courseMemberships.role, userId: courseMemberships.userId })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId)));
+    if (!member) throw new CourseRuleError("That person is not a member of this course.");
+    if (member.userId === actorId) throw new CourseRuleError("You cannot remove yourself; ask another instructor.");
+    const [holding] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderMembershipId, membershipId));
+    if (holding) throw new CourseRuleError(`This student still holds kit ${holding.number}; check it in first.`);
+    await tx.update(courseMemberships).set({ removedAt: new Date() }).where(eq(courseMemberships.id, membershipId));
+    await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
+    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.member_removed", subject: `membership:${membershipId}` });
+  });
+}
+
+/** The course with its cohorts, each cohort's student count and its TAs: three statements. */
+export async function getCourseWithCohorts(executor: Executor, courseId: string) {
+  const [course] = await executor.select().from(courses).where(eq(courses.id, courseId));
+  if (!course) return null;
+  const [cohortRows, taRows] = await Promise.all([
+    executor
+      .select({
+        id: cohorts.id,
+        name: cohorts.name,
+        students: sql<number>`(select count(*)::int from ${courseMemberships} where ${courseMemberships.cohortId} = ${cohorts.id} and ${courseMemberships.role} = 'student' and ${courseMemberships.removedAt} is null)`,
+      })
+      .from(cohorts)
+      .where(eq(cohorts.courseId, courseId))
+      .orderBy(asc(cohorts.name)),
+    executor
+      .select({
+        membershipId: courseMemberships.id,
+        name: users.name,
+        email: users.email,
+        cohortIds: sql<string[]>`coalesce(array_agg(${taCohortAssignments.cohortId}) filter (where ${taCohortAssignments.cohortId} is not null), '{}')`,
+      })
+      .from(courseMemberships)
+      .innerJoin(users, eq(users.id, courseMemberships.userId))
+      .leftJoin(taCohortAssignments, eq(taCohortAssignments.membershipId, courseMemberships.id))
+      .where(and(eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "ta"), isNull(courseMemberships.removedAt)))
+      .groupBy(courseMemberships.id, users.name, users.email)
+      .orderBy(asc(users.name)),
+  ]);
+  return { course, cohorts: cohortRows, tas: taRows };
+}
+
+/** Headline numbers for the course overview: three statements whatever the course's size. */
+export async function courseOverview(executor: Executor, access: { course: { id: string }; membership: { id: string } }) {
+  const courseId = access.course.id;
+  const [[counts], kitRows, [myKit]] = await Promise.all([
+    executor
+      .select({
+        students: sql<number>`count(*) filter (where ${courseMemberships.role} = 'student')::int`,
+        tas: sql<number>`count(*) filter (where ${courseMemberships.role} = 'ta')::int`,
+        instructors: sql<number>`count(*) filter (where ${courseMemberships.role} = 'instructor')::int`,
+        kits: sql<number>`(select count(*)::int from ${kits} where ${kits.courseId} = ${courseId})`,
+        // A student's report stays open until the kit next changes state.
+        openReports: sql<number>`(select count(*)::int from ${kitEvents} e join ${kits} k on k.id = e.kit_id where k.course_id = ${courseId} and e.action = 'reported' and e.created_at > k.updated_at)`,
+      })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt))),
+    executor.select({ state: kits.state, count: count() }).from(kits).where(eq(kits.courseId, courseId)).groupBy(kits.state),
+    executor.select({ number: kits.number, state: kits.state }).from(kits).where(eq(kits.holderMembershipId, access.membership.id)),
+  ]);
+  const { openReports, ...headline } = counts;
+  return {
+    counts: headline,
+    openReports,
+    kitsByState: Object.fromEntries(kitRows.map((row) => [row.state, row.count])) as Partial<Record<KitState, number>>,
+    myKit: myKit ?? null,
+  };
+}

@@ -1,0 +1,82 @@
+/**
+ * Where delivered mail goes: Resend when RESEND_API_KEY is set, otherwise SMTP to the local mail catcher.
+ * Each transport returns the provider's message id, which the outbox keeps.
+ */
+import nodemailer from "nodemailer";
+import { Resend } from "resend";
+import { z } from "zod";
+
+export type OutgoingEmail = { outboxId: string; to: string; toName: string | null; subject: string; html: string; text: string };
+export type EmailTransport = { name: "resend" | "smtp"; deliver(email: OutgoingEmail): Promise<{ providerMessageId: string }>; close?(): void };
+
+const DEFAULT_FROM = "Benchpost <no-reply@benchpost.localhost>";
+const DEFAULT_SMTP_URL = "smtp://127.0.0.1:1025";
+
+const environmentSchema = z.object({
+  // Empty counts as unset, so that `RESEND_API_KEY=` switches Resend off.
+  RESEND_API_KEY: z
+    .string()
+    .optional()
+    .transform((key) => key || undefined),
+  EMAIL_FROM: z
+    .string()
+    .min(3)
+    .refine((from) => !/[\r\n]/.test(from), "EMAIL_FROM must be one line")
+    .default(DEFAULT_FROM),
+  SMTP_URL: z.url({ protocol: /^smtps?$/ }).default(DEFAULT_SMTP_URL),
+});
+
+/** A failure worth retrying; its message goes into the outbox row's `last_error`. */
+export class EmailDeliveryError extends Error {
+  override name = "EmailDeliveryError";
+}
+
+function recipient(email: OutgoingEmail): string {
+  return email.toName ? `"${email.toName}" <${email.to}>` : email.to;
+}
+
+export function resendTransport(apiKey: string, from: string): EmailTransport {
+  const resend = new Resend(apiKey);
+  return {
+    name: "resend",
+    async deliver(email) {
+      // The outbox id as idempotency key: a retry after a lost response cannot send the message twice.
+      const { data, error } = await resend.emails.send(
+        { from, to: [recipient(email)], subject: email.subject, html: email.html, text: email.text },
+        { idempotencyKey: email.outboxId },
+      );
+      if (error || !data) throw new EmailDeliveryError(`Resend refused the message (${error?.statusCode ?? "no status"} ${error?.name}): ${error?.message}`);
+      return { providerMessageId: data.id };
+    },
+  };
+}
+
+export function smtpTransport(url: string, from: string): EmailTransport {
+  const transporter = nodemailer.createTransport(url);
+  return {
+    name: "smtp",
+    async deliver(email) {
+      const info = await transporter.sendMail({
+        from,
+        to: recipient(email),
+        subject: email.subject,
+        html: email.html,
+        text: email.text,
+        // Ties a caught message back to its outbox row, and makes an accidental duplicate visible.
+        headers: { "X-Benchpost-Outbox-Id": email.outboxId },
+      });
+      return { providerMessageId: info.messageId };
+    },
+    close: () => transporter.close(),
+  };
+}
+
+export function transportFromEnvironment(environment: NodeJS.ProcessEnv = process.env): EmailTransport {
+  const config = environmentSchema.parse(environment);
+  return config.RESEND_API_KEY ? resendTransport(config.RESEND_API_KEY, config.EMAIL_FROM) : smtpTransport(config.SMTP_URL, config.EMAIL_FROM);
+}
+
+/** True when mail really leaves the building; the development inbox is never offered then. */
+export function sendsRealMail(environment: NodeJS.ProcessEnv = process.env): boolean {
+  return Boolean(environment.RESEND_API_KEY);
+}

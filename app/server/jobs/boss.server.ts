@@ -1,0 +1,61 @@
+/**
+ * pg-boss, our job queue in PostgreSQL: the queue names, their retry policies and the one place that
+ * creates them. Later work (deadline reminders, class-comparison jobs) adds its queues here.
+ */
+import PgBoss from "pg-boss";
+import { developmentDatabaseUrl } from "../../../scripts/lib/database-url";
+
+export const queues = {
+  /** One job per outbox row: render the message and hand it to the transport. */
+  emailDelivery: "email-delivery",
+  /** Where pg-boss moves a delivery job after its last retry, so that the outbox row is marked failed. */
+  emailGaveUp: "email-gave-up",
+} as const;
+
+/**
+ * Six attempts over roughly half an hour: 30 s, then about 1, 2, 4 and 8 minutes later (pg-boss doubles
+ * the delay and adds jitter), which rides out a provider outage or a rate limit without flooding it.
+ */
+export const emailDeliveryPolicy = { retryLimit: 5, retryDelay: 30, retryBackoff: true, expireInSeconds: 120 } as const;
+
+export function createBoss(connectionString = developmentDatabaseUrl(), options: Partial<PgBoss.ConstructorOptions> = {}): PgBoss {
+  return new PgBoss({ connectionString, application_name: "benchpost-jobs", ...options });
+}
+
+const queueSettings: PgBoss.Queue[] = [
+  { name: queues.emailGaveUp },
+  { name: queues.emailDelivery, ...emailDeliveryPolicy, deadLetter: queues.emailGaveUp },
+];
+
+/**
+ * `send` to a queue that does not exist silently returns null, so every queue is created up front.
+ * createQueue leaves an existing queue alone; updateQueue brings its policy in line with the code.
+ */
+export async function createQueues(boss: PgBoss): Promise<void> {
+  for (const settings of queueSettings) {
+    await boss.createQueue(settings.name, settings);
+    await boss.updateQueue(settings.name, settings);
+  }
+}
+
+/**
+ * Installs (or upgrades) pg-boss's own schema and our queues. Run with the migrations, so that the web
+ * process can enqueue before any worker has ever started.
+ */
+export async function installJobQueues(connectionString: string): Promise<void> {
+  const boss = createBoss(connectionString, { max: 1, supervise: false, schedule: false });
+  boss.on("error", (error) => console.error("pg-boss (install):", error));
+  await boss.start();
+  try {
+    await createQueues(boss);
+  } finally {
+    await boss.stop({ graceful: false, wait: true });
+  }
+}
+
+// The web process only inserts jobs, always on a caller's transaction (`send(…, { db })`): this
+// instance is never started, so it opens no connections of its own.
+const globalForBoss = globalThis as unknown as { benchpostEnqueuer?: PgBoss };
+export function enqueuer(): PgBoss {
+  return (globalForBoss.benchpostEnqueuer ??= createBoss());
+}

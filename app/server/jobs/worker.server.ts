@@ -1,0 +1,117 @@
+/**
+ * The background worker: takes jobs from pg-boss and runs them. Several workers may run at once; pg-boss
+ * hands each job to one of them (SELECT … FOR UPDATE SKIP LOCKED), and a failed job is retried later.
+ */
+import type PgBoss from "pg-boss";
+import { createDatabase, createPool } from "~/server/db.server";
+import { deliverOutboxEmail, markEmailFailed } from "~/server/email/deliver-email.server";
+import type { EmailTransport } from "~/server/email/email-transport.server";
+import type { EmailDeliveryJob } from "~/server/email/send-email.server";
+import { createBoss, createQueues, queues } from "./boss.server";
+
+export type Worker = { stop(): Promise<void> };
+
+const describe = (error: unknown) => (error instanceof Error ? error.message : String(error));
+
+/**
+ * Fetches and runs one job at a time until stopped. We do not use pg-boss's `work()`: it does not await
+ * its complete/fail calls, so a database outage at that moment becomes an unhandled rejection that
+ * stops the process. Here such a failure is logged, the job stays active, and pg-boss retries it once
+ * it expires; the outbox row then tells the retry whether the message already went out.
+ */
+function runJobs<Data extends object>(
+  boss: PgBoss,
+  queue: string,
+  pollingIntervalMs: number,
+  handle: (job: PgBoss.Job<Data>) => Promise<void>,
+  log: (message: string) => void,
+): () => Promise<void> {
+  let stopping = false;
+  let wake = () => {};
+  const pause = () =>
+    new Promise<void>((resolve) => {
+      const timer = setTimeout(resolve, pollingIntervalMs);
+      wake = () => {
+        clearTimeout(timer);
+        resolve();
+      };
+    });
+  const loop = (async () => {
+    while (!stopping) {
+      try {
+        const [job] = await boss.fetch<Data>(queue);
+        if (!job) {
+          await pause();
+          continue;
+        }
+        try {
+          await handle(job);
+        } catch (error) {
+          await boss.fail(queue, job.id, { message: describe(error) });
+          continue;
+        }
+        await boss.complete(queue, job.id);
+      } catch (error) {
+        log(`job queue ${queue}: ${describe(error)}`);
+        await pause();
+      }
+    }
+  })();
+  return async () => {
+    stopping = true;
+    wake();
+    await loop;
+  };
+}
+
+export async function startWorker(options: {
+  connectionString: string;
+  transport: EmailTransport;
+  /** How often an idle worker asks for new jobs. */
+  pollingIntervalSeconds?: number;
+  log?: (message: string) => void;
+}): Promise<Worker> {
+  const log = options.log ?? ((message: string) => console.log(message));
+  const pool = createPool(options.connectionString);
+  // An idle connection dropped by a PostgreSQL restart must not crash the worker; the pool reconnects.
+  pool.on("error", (error) => log(`database connection lost: ${error.message}`));
+  const database = createDatabase(pool);
+  // pg-boss runs its maintenance (expiring stuck jobs, archiving) here; a failed round is reported, not fatal.
+  const boss = createBoss(options.connectionString, { max: 4 });
+  boss.on("error", (error) => log(`job queue maintenance: ${error.message}`));
+  await boss.start();
+  await createQueues(boss);
+
+  const pollingIntervalMs = (options.pollingIntervalSeconds ?? 2) * 1000;
+  const stoppers = [
+    runJobs<EmailDeliveryJob>(
+      boss,
+      queues.emailDelivery,
+      pollingIntervalMs,
+      async (job) => {
+        const outcome = await deliverOutboxEmail(database, options.transport, job.data.outboxId);
+        log(`e-mail ${job.data.outboxId}: ${outcome} via ${options.transport.name}`);
+      },
+      log,
+    ),
+    runJobs<EmailDeliveryJob>(
+      boss,
+      queues.emailGaveUp,
+      pollingIntervalMs,
+      async (job) => {
+        await markEmailFailed(database, job.data.outboxId, "The delivery job was given up without an error message.");
+        log(`e-mail ${job.data.outboxId}: failed after its last retry`);
+      },
+      log,
+    ),
+  ];
+
+  return {
+    async stop() {
+      await Promise.all(stoppers.map((stop) => stop()));
+      await boss.stop({ graceful: false, wait: true });
+      options.transport.close?.();
+      await pool.end();
+    },
+  };
+}

@@ -1,0 +1,315 @@
+/**
+ * Kits on their journey to a student's home and back. Every move goes through `moveKits`, which
+ * checks the state machine, keeps the history and sends the kit-shipped e-mail in the same transaction.
+ */
+import { and, asc, count, eq, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
+import { cohorts, courseMemberships, courses, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
+import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
+import { appUrl } from "~/server/config.server";
+import type { Executor, Transaction } from "~/server/db.server";
+import { sendEmail } from "~/server/email/send-email.server";
+
+export type Kit = typeof kits.$inferSelect;
+export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
+
+/** A refusal the person can act on; the message says what to do instead. */
+export class KitRuleError extends Error {}
+
+export async function createKit(
+  executor: Executor,
+  {
+    courseId,
+    actorId,
+    number,
+    partIds,
+    note,
+  }: { courseId: string; actorId: string; number: string; partIds: string[]; note?: string | null },
+): Promise<Kit> {
+  return executor.transaction(async (tx) => {
+    const taken = await tx.select({ number: kits.number }).from(kits).where(and(eq(kits.courseId, courseId), eq(kits.number, number)));
+    if (taken.length) throw new KitRuleError(`Kit ${number} already exists in this course; choose another number.`);
+    const [kit] = await tx.insert(kits).values({ courseId, number }).returning();
+    await putPartsInKit(tx, courseId, kit.id, partIds);
+    await tx.insert(kitEvents).values({ kitId: kit.id, actorId, toState: "on_shelf", action: "created", note: note ?? null, detail: { partIds } });
+    return kit;
+  });
+}
+
+
+/** Puts parts in a kit after checking they belong to the course, are in service and (but for fluid lots) sit in no other kit. */
+async function putPartsInKit(tx: Transaction, courseId: string, kitId: string, partIds: string[]): Promise<void> {
+  if (partIds.length === 0) return;
+  const found = await tx
+    .select({ id: parts.id, label: parts.label, kind: parts.kind, status: parts.status, diameterMm: parts.diameterMm, innerDiameterMm: parts.innerDiameterMm, inKit: kitParts.kitId })
+    .from(parts)
+    .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
+    .where(and(eq(parts.courseId, courseId), inArray(parts.id, partIds)));
+  if (found.length !== new Set(partIds).size) throw new KitRuleError("Some of the chosen parts are not in this course's inventory.");
+  const busy = found.filter((part) => part.inKit && part.inKit !== kitId);
+  if (busy.length) throw new KitRuleError(`${busy.map((p) => p.label).join(", ")} already sit in another kit; take them out of it first.`);
+  const unusable = found.filter((part) => part.status !== "in_service");
+  if (unusable.length) throw new KitRuleError(`${unusable.map((p) => p.label).join(", ")} are not in service (retired or waiting for re-measurement).`);
+  const bores = found.filter((part) => part.kind === "column").map((part) => part.innerDiameterMm!);
+  const tooWide = found.filter((part) => part.kind === "sphere" && bores.some((bore) => part.diameterMm! >= bore));
+  if (tooWide.length) throw new KitRuleError(`${tooWide.map((p) => p.label).join(", ")} are wider than the kit's column bore.`);
+  await tx
+    .insert(kitParts)
+    .values(found.map((part) => ({ kitId, partId: part.id, exclusive: part.kind !== "fluid_lot" })))
+    .onConflictDoNothing();
+}
+
+export type KitMove = {
+  to: KitState;
+  note?: string | null;
+  /** The student a kit is packed for (required when packing). */
+  holderMembershipId?: string;
+  /** Required when the kit goes into transit. */
+  shipping?: Shipping;
+};
+
+/**
+ * Moves one or many kits in one transaction: all move or none do, and each move is kept as history.
+ * Rows are locked in id order so that two bulk moves over overlapping kits cannot deadlock.
+ */
+export async function moveKits(
+  executor: Executor,
+  { courseId, actorId, kitIds, move }: { courseId: string; actorId: string; kitIds: string[]; move: KitMove },
+): Promise<{ moved: number }> {
+  if (kitIds.length === 0) return { moved: 0 };
+  return executor.transaction(async (tx) => {
+    const current = await tx
+      .select()
+      .from(kits)
+      .where(and(eq(kits.courseId, courseId), inArray(kits.id, kitIds)))
+      .orderBy(asc(kits.id))
+      .for("update");
+    if (current.length !== new Set(kitIds).size) throw new KitRuleError("Some of the chosen kits are not in this course.");
+    const refused = current.filter((kit) => !canMoveKit(kit.state, move.to));
+    if (refused.length) {
+      throw new KitRuleError(
+        `${refused.map((kit) => `Kit ${kit.number} (${kitStateLabels[kit.state].toLowerCase()})`).join(", ")} cannot go to ${kitStateLabels[move.to].toLowerCase()}.`,
+      );
+    }
+    if (move.to === "packed") await checkHolder(tx, courseId, current, move.holderMembershipId);
+    if (move.to === "in_transit" && !move.shipping) throw new KitRuleError("Give the carrier, tracking number and date before marking a kit in transit.");
+    if (move.to === "in_transit" && current.some((kit) => !kit.holderMembershipId)) {
+      throw new KitRuleError("Pack a kit for a student before shipping it.");
+    }
+
+    const holderAfter = (kit: Kit) =>
+      move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? kit.holderMembershipId : null;
+    // One UPDATE for all kits: the values that differ per kit (the holder) come from a CASE over the ids.
+    await tx
+      .update(kits)
+      .set({
+        state: move.to,
+        holderMembershipId:
+          move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? sql`${kits.holderMembershipId}` : null,
+        ...(move.shipping ? { carrier: move.shipping.carrier, trackingNumber: move.shipping.trackingNumber, shippedOn: move.shipping.shippedOn } : {}),
+        ...(move.to === "on_shelf" ? { carrier: null, trackingNumber: null, shippedOn: null } : {}),
+        updatedAt: new Date(),
+      })
+      .where(inArray(kits.id, current.map((kit) => kit.id)));
+    await tx.insert(kitEvents).values(
+      current.map((kit) => ({
+        kitId: kit.id,
+        actorId,
+        fromState: kit.state,
+        toState: move.to,
+        action: "moved",
+        note: move.note ?? null,
+        detail: { holderMembershipId: holderAfter(kit), ...(move.shipping ? { shipping: move.shipping } : {}) },
+      })),
+    );
+    if (move.to === "in_transit") await queueShippedEmails(tx, courseId, current, move.shipping!);
+    return { moved: current.length };
+  });
+}
+
+async function checkHolder(tx: Transaction, courseId: string, current: Kit[], holderMembershipId: string | undefined): Promise<void> {
+  if (!holderMembershipId) throw new KitRuleError("Choose the student the kit is packed for.");
+  if (current.length > 1) throw new KitRuleError("Pack kits one at a time: each goes to its own student.");
+  const [holder] = await tx
+    .select({ role: courseMemberships.role, removedAt: courseMemberships.removedAt, kitNumber: kits.number })
+    .from(courseMemberships)
+    .leftJoin(kits, eq(kits.holderMembershipId, courseMemberships.id))
+    .where(and(eq(courseMemberships.id, holderMembershipId), eq(courseMemberships.courseId, courseId)));
+  if (!holder || holder.role !== "student" || holder.removedAt) throw new KitRuleError("Kits are packed for students of this course only.");
+  if (holder.kitNumber) throw new KitRuleError(`This student already holds kit ${holder.kitNumber}; one kit per student.`);
+}
+
+async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Kit[], shipping: Shipping): Promise<void> {
+  const recipients = await tx
+    .select({ kitId: kits.id, kitNumber: kits.number, email: users.email, name: users.name, courseTitle: courses.title })
+    .from(kits)
+    .innerJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .innerJoin(courses, eq(courses.id, kits.courseId))
+    .where(inArray(kits.id, shipped.map((kit) => kit.id)));
+  for (const recipient of recipients) {
+    await sendEmail(tx, {
+      to: recipient.email,
+      toName: recipient.name,
+      template: "kit-shipped",
+      courseId,
+      props: {
+        courseTitle: recipient.courseTitle,
+        kitNumber: recipient.kitNumber,
+        carrier: shipping.carrier,
+        trackingNumber: shipping.trackingNumber,
+        shippedOn: shipping.shippedOn,
+        kitUrl: `${appUrl()}/courses/${courseId}/my-kit`,
+      },
+    });
+  }
+}
+
+/**
+ * Checking a kit in: the condition of each part is recorded; a damaged or missing part is taken out
+ * of service, and a part can be sent back for re-measurement. The holder is released.
+ */
+export async function checkInKit(
+  executor: Executor,
+  {
+    courseId,
+    actorId,
+    kitId,
+    conditions,
+    remeasure,
+    note,
+  }: { courseId: string; actorId: string; kitId: string; conditions: Record<string, PartCondition>; remeasure: string[]; note?: string | null },
+): Promise<void> {
+  await executor.transaction(async (tx) => {
+    await moveKits(tx, { courseId, actorId, kitIds: [kitId], move: { to: "checked_in", note } });
+    const inKit = await tx.select({ partId: kitParts.partId, exclusive: kitParts.exclusive }).from(kitParts).where(eq(kitParts.kitId, kitId));
+    const partIds = inKit.map((row) => row.partId);
+    const unknown = [...Object.keys(conditions), ...remeasure].filter((id) => !partIds.includes(id));
+    if (unknown.length) throw new KitRuleError("The check-in names parts that are not in this kit.");
+    const lost = inKit.filter((row) => conditions[row.partId] === "damaged" || conditions[row.partId] === "missing");
+    const toRemeasure = remeasure.filter((id) => !lost.some((row) => row.partId === id));
+    // A broken sphere or column is retired; a spilled bottle leaves the rest of its fluid lot in service.
+    const retired = lost.filter((row) => row.exclusive).map((row) => row.partId);
+    if (retired.length) await tx.update(parts).set({ status: "retired", updatedAt: new Date() }).where(inArray(parts.id, retired));
+    if (lost.length) {
+      await tx.delete(kitParts).where(and(eq(kitParts.kitId, kitId), inArray(kitParts.partId, lost.map((row) => row.partId))));
+    }
+    if (toRemeasure.length) await tx.update(parts).set({ status: "remeasure", updatedAt: new Date() }).where(inArray(parts.id, toRemeasure));
+    await tx.insert(partEvents).values(
+      partIds.map((partId) => ({
+        partId,
+        actorId,
+        action: "checked_in",
+        detail: { kitId, condition: conditions[partId] ?? "fine", remeasure: toRemeasure.includes(partId) },
+      })),
+    );
+    await tx.insert(kitEvents).values({ kitId, actorId, action: "checked_in", note: note ?? null, detail: { conditions, remeasure: toRemeasure } });
+  });
+}
+
+/** The student confirms the parcel arrived (and whether it was complete). */
+export async function confirmArrival(
+  executor: Executor,
+  { courseId, actorId, kitId, complete, note }: { courseId: string; actorId: string; kitId: string; complete: boolean; note?: string | null },
+): Promise<void> {
+  await executor.transaction(async (tx) => {
+    await moveKits(tx, { courseId, actorId, kitIds: [kitId], move: { to: "at_home", note } });
+    if (!complete) await tx.insert(kitEvents).values({ kitId, actorId, action: "reported", note: note ?? "Arrived incomplete", detail: { problem: "incomplete" } });
+  });
+}
+
+/** A student reports a missing or damaged part; the instructor sees it on the kit and in the inventory. */
+export async function reportKitProblem(
+  executor: Executor,
+  { kitId, actorId, partId, problem, note }: { kitId: string; actorId: string; partId: string | null; problem: "missing" | "damaged"; note: string },
+): Promise<void> {
+  await executor.insert(kitEvents).values({ kitId, actorId, action: "reported", note, detail: { partId, problem } });
+}
+
+export type KitListQuery = { state?: KitState; cohortIds?: string[]; search?: string; page: number; pageSize: number };
+
+/** One page of kits with their holder and cohort, and the total: two statements whatever the size. */
+export async function listKits(executor: Executor, courseId: string, query: KitListQuery) {
+  const filters: SQL[] = [eq(kits.courseId, courseId)];
+  if (query.state) filters.push(eq(kits.state, query.state));
+  if (query.cohortIds) filters.push(query.cohortIds.length ? inArray(courseMemberships.cohortId, query.cohortIds) : sql`false`);
+  if (query.search) {
+    const pattern = `%${query.search.replace(/[%_\\]/g, "\\$&")}%`;
+    filters.push(or(ilike(kits.number, pattern), ilike(users.name, pattern), ilike(users.email, pattern))!);
+  }
+  const where = and(...filters);
+  const base = () =>
+    executor
+      .select({
+        id: kits.id,
+        number: kits.number,
+        state: kits.state,
+        carrier: kits.carrier,
+        trackingNumber: kits.trackingNumber,
+        shippedOn: kits.shippedOn,
+        updatedAt: kits.updatedAt,
+        holderName: users.name,
+        holderEmail: users.email,
+        cohortName: cohorts.name,
+        partCount: sql<number>`(select count(*)::int from ${kitParts} where ${kitParts.kitId} = ${kits.id})`,
+        openReports: sql<number>`(select count(*)::int from ${kitEvents} where ${kitEvents.kitId} = ${kits.id} and ${kitEvents.action} = 'reported' and ${kitEvents.createdAt} > ${kits.updatedAt})`,
+      })
+      .from(kits)
+      .leftJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+      .leftJoin(users, eq(users.id, courseMemberships.userId))
+      .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId));
+  const [rows, [{ total }]] = await Promise.all([
+    base()
+      .where(where)
+      .orderBy(sql`length(${kits.number})`, asc(kits.number))
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize),
+    executor
+      .select({ total: count() })
+      .from(kits)
+      .leftJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+      .leftJoin(users, eq(users.id, courseMemberships.userId))
+      .where(where),
+  ]);
+  return { rows, total };
+}
+
+/** A kit with its parts, holder and history, for the kit page, the packing slip and "My kit". */
+export async function getKit(executor: Executor, courseId: string, kitId: string) {
+  const kit = await executor.query.kits.findFirst({
+    where: and(eq(kits.id, kitId), eq(kits.courseId, courseId)),
+    with: {
+      holder: { with: { user: { columns: { id: true, name: true, email: true, studentNumber: true } }, cohort: true } },
+      parts: { with: { part: true } },
+      events: { orderBy: (events, { desc }) => [desc(events.createdAt)], with: { actor: { columns: { name: true } } } },
+    },
+  });
+  return kit ?? null;
+}
+
+/** The kit a student holds in a course, if any. */
+export async function findKitOfMember(executor: Executor, membershipId: string): Promise<{ id: string; courseId: string } | null> {
+  const [kit] = await executor.select({ id: kits.id, courseId: kits.courseId }).from(kits).where(eq(kits.holderMembershipId, membershipId));
+  return kit ?? null;
+}
+
+/** Parts that can go into a new kit: in service and in no kit; fluid lots in service (they fill many kits). */
+export async function listAvailableParts(executor: Executor, courseId: string) {
+  return executor
+    .select({ id: parts.id, kind: parts.kind, label: parts.label, material: parts.material, diameterMm: parts.diameterMm, fluidName: parts.fluidName, accessoryType: parts.accessoryType, innerDiameterMm: parts.innerDiameterMm })
+    .from(parts)
+    .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
+    .where(and(eq(parts.courseId, courseId), eq(parts.status, "in_service"), isNull(kitParts.kitId)))
+    .orderBy(asc(parts.kind), asc(parts.label));
+}
+
+/** Students of the course who hold no kit: the people a kit can be packed for. */
+export async function listStudentsWithoutKit(executor: Executor, courseId: string) {
+  return executor
+    .select({ membershipId: courseMemberships.id, name: users.name, email: users.email, cohortName: cohorts.name })
+    .from(courseMemberships)
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+    .leftJoin(kits, eq(kits.holderMembershipId, courseMemberships.id))
+    .where(and(eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "student"), isNull(courseMemberships.removedAt), isNull(kits.id)))
+    .orderBy(asc(cohorts.name), asc(users.name));
+}

@@ -1,0 +1,291 @@
+/**
+ * The course's measured parts: recording them, re-measuring them (history keeps old and new values),
+ * and the checks that catch a mis-typed measurement before a student's reduction depends on it.
+ */
+import { and, asc, count, eq, ilike, inArray, sql, type SQL } from "drizzle-orm";
+import { kitParts, kits, partEvents, parts } from "~/db/schema";
+import { materialDensityRanges, sphereDensityKgM3, type PartInput, type PartKind } from "~/lib/kits/part-input";
+import { fluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
+import { checkImportRows, csvRowToPartInput, partToCsvRow, type ImportRowCheck, type PartCsvRow } from "~/lib/kits/parts-csv";
+import type { Executor } from "~/server/db.server";
+
+export type Part = typeof parts.$inferSelect;
+export type PartWarning = { field: string; message: string };
+
+const measurementColumns = [
+  "material",
+  "diameterMm",
+  "diameterResolutionMm",
+  "massG",
+  "massResolutionG",
+  "fluidName",
+  "densityKgM3",
+  "calibration",
+  "innerDiameterMm",
+  "timedDistanceMm",
+  "runInMm",
+  "marginBelowMm",
+  "accessoryType",
+] as const;
+
+/** The columns of one kind filled from the input, every other kind's column null. */
+function columnsFor(input: PartInput) {
+  const empty = Object.fromEntries(measurementColumns.map((column) => [column, null])) as Record<(typeof measurementColumns)[number], null>;
+  const { kind: _kind, label: _label, notes: _notes, ...measured } = input;
+  return { ...empty, ...measured };
+}
+
+/**
+ * Checks a part against its material and the rest of the inventory. They are warnings: the instructor
+ * may be about to add the fluid or column that makes the part usable.
+ */
+export function partWarnings(input: PartInput, inventory: Pick<Part, "kind" | "label" | "densityKgM3" | "innerDiameterMm">[]): PartWarning[] {
+  const warnings: PartWarning[] = [];
+  if (input.kind === "sphere") {
+    const density = sphereDensityKgM3(input.massG, input.diameterMm);
+    const range = materialDensityRanges[input.material.toLowerCase()];
+    if (range && (density < range[0] || density > range[1])) {
+      warnings.push({
+        field: "massG",
+        message: `Diameter and mass give ${Math.round(density)} kg/m³, outside the usual ${range[0]}–${range[1]} kg/m³ for ${input.material}: check both measurements.`,
+      });
+    }
+    const fluids = inventory.filter((part) => part.kind === "fluid_lot" && part.densityKgM3 !== null);
+    if (fluids.length > 0 && fluids.every((fluid) => fluid.densityKgM3! >= density)) {
+      warnings.push({ field: "massG", message: `At ${Math.round(density)} kg/m³ this sphere is lighter than every fluid lot: it would float instead of settling.` });
+    }
+    const columns = inventory.filter((part) => part.kind === "column" && part.innerDiameterMm !== null);
+    if (columns.length > 0 && columns.every((column) => column.innerDiameterMm! <= input.diameterMm)) {
+      warnings.push({ field: "diameterMm", message: "This sphere is wider than the bore of every column: it cannot be dropped in any of them." });
+    }
+  }
+  if (input.kind === "fluid_lot" && input.calibration.length === 1) {
+    warnings.push({
+      field: "calibration",
+      message: "One calibration point gives a constant viscosity; viscous fluids change by several per cent per kelvin, so add points at other temperatures.",
+    });
+  }
+  if (input.kind === "column" && input.runInMm < 3 * input.innerDiameterMm) {
+    warnings.push({ field: "runInMm", message: "The run-in above the top band is short for the bore; check the sphere reaches terminal velocity before the band." });
+  }
+  return warnings;
+}
+
+async function inventoryForChecks(executor: Executor, courseId: string) {
+  return executor
+    .select({ kind: parts.kind, label: parts.label, densityKgM3: parts.densityKgM3, innerDiameterMm: parts.innerDiameterMm })
+    .from(parts)
+    .where(and(eq(parts.courseId, courseId), inArray(parts.kind, ["fluid_lot", "column"]), sql`${parts.status} <> 'retired'`));
+}
+
+export class DuplicateLabelError extends Error {
+  constructor(readonly label: string) {
+    super(`The label ${label} is already used by another part in this course.`);
+  }
+}
+
+function isUniqueViolation(error: unknown): boolean {
+  const cause = (error as { cause?: { code?: string } })?.cause ?? error;
+  return (cause as { code?: string })?.code === "23505";
+}
+
+export async function createPart(
+  executor: Executor,
+  { courseId, actorId, input }: { courseId: string; actorId: string; input: PartInput },
+): Promise<{ part: Part; warnings: PartWarning[] }> {
+  const warnings = partWarnings(input, await inventoryForChecks(executor, courseId));
+  try {
+    return await executor.transaction(async (tx) => {
+      const [part] = await tx
+        .insert(parts)
+        .values({ courseId, kind: input.kind, label: input.label, notes: input.notes, ...columnsFor(input) })
+        .returning();
+      await tx.insert(partEvents).values({ partId: part.id, actorId, action: "created", detail: { warnings } });
+      return { part, warnings };
+    });
+  } catch (error) {
+    if (isUniqueViolation(error)) throw new DuplicateLabelError(input.label);
+    throw error;
+  }
+}
+
+/** A re-measurement: the new values replace the old, and the history keeps both. */
+export async function updatePart(
+  executor: Executor,
+  { courseId, partId, actorId, input, note }: { courseId: string; partId: string; actorId: string; input: PartInput; note?: string | null },
+): Promise<{ part: Part; warnings: PartWarning[] } | null> {
+  const warnings = partWarnings(input, await inventoryForChecks(executor, courseId));
+  try {
+    return await executor.transaction(async (tx) => {
+      const [before] = await tx
+        .select()
+        .from(parts)
+        .where(and(eq(parts.id, partId), eq(parts.courseId, courseId)))
+        .for("update");
+      if (!before || before.kind !== input.kind) return null;
+      const after = { label: input.label, notes: input.notes, ...columnsFor(input) };
+      const changed = Object.fromEntries(
+        Object.entries(after)
+          .filter(([key, value]) => JSON.stringify(before[key as keyof Part]) !== JSON.stringify(value))
+          .map(([key, value]) => [key, { from: before[key as keyof Part], to: value }]),
+      );
+      // A part waiting for re-measurement returns to service once its new values are in.
+      const status = before.status === "remeasure" ? "in_service" : before.status;
+      const [part] = await tx
+        .update(parts)
+        .set({ ...after, status, updatedAt: new Date() })
+        .where(eq(parts.id, partId))
+        .returning();
+      await tx.insert(partEvents).values({ partId, actorId, action: "remeasured", note: note ?? null, detail: { changed, warnings } });
+      return { part, warnings };
+    });
+  } catch (error) {
+    if (isUniqueViolation(error)) throw new DuplicateLabelError(input.label);
+    throw error;
+  }
+}
+
+export async function setPartStatus(
+  executor: Executor,
+  { courseId, partId, actorId, status, note }: { courseId: string; partId: string; actorId: string; status: Part["status"]; note?: string | null },
+): Promise<boolean> {
+  return executor.transaction(async (tx) => {
+    const updated = await tx
+      .update(parts)
+      .set({ status, updatedAt: new Date() })
+      .where(and(eq(parts.id, partId), eq(parts.courseId, courseId)))
+      .returning({ id: parts.id });
+    if (updated.length === 0) return false;
+    await tx.insert(partEvents).values({ partId, actorId, action: `status:${status}`, note: note ?? null });
+    return true;
+  });
+}
+
+export type PartListQuery = { kind?: PartKind; status?: Part["status"]; search?: string; page: number; pageSize: number };
+
+/** One page of the parts table plus its total, in two statements whatever the inventory's size. */
+export async function listParts(executor: Executor, courseId: string, query: PartListQuery) {
+  const filters: SQL[] = [eq(parts.courseId, courseId)];
+  if (query.kind) filters.push(eq(parts.kind, query.kind));
+  if (query.status) filters.push(eq(parts.status, query.status));
+  if (query.search) filters.push(ilike(parts.label, `%${query.search.replace(/[%_\\]/g, "\\$&")}%`));
+  const where = and(...filters);
+  const [rows, [{ total }]] = await Promise.all([
+    executor
+      .select({ part: parts, kitNumber: kits.number })
+      .from(parts)
+      // Fluid lots sit in many kits; only the exclusive parts name their one kit.
+      .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
+      .leftJoin(kits, eq(kits.id, kitParts.kitId))
+      .where(where)
+      .orderBy(asc(parts.kind), asc(parts.label))
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize),
+    executor.select({ total: count() }).from(parts).where(where),
+  ]);
+  return { rows: rows.map(({ part, kitNumber }) => ({ ...part, kitNumber })), total };
+}
+
+export async function getPart(executor: Executor, courseId: string, partId: string) {
+  const part = await executor.query.parts.findFirst({
+    where: and(eq(parts.id, partId), eq(parts.courseId, courseId)),
+    with: {
+      events: { orderBy: (events, { desc }) => [desc(events.createdAt)], with: { actor: { columns: { name: true } } } },
+      kitParts: { with: { kit: { columns: { id: true, number: true, state: true } } } },
+    },
+  });
+  return part ?? null;
+}
+
+/**
+ * What a part's page shows: the part with its history and kit, the checks it raises against today's
+ * inventory (which may have changed since it was saved), and for a fluid lot the calibration fit that
+ * the reductions use.
+ */
+export async function getPartPage(executor: Executor, courseId: string, partId: string) {
+  const part = await getPart(executor, courseId, partId);
+  if (!part) return null;
+  // Read back through the import mapping so the checks see exactly what a form or a file would give.
+  const stored = csvRowToPartInput(partToCsvRow(part));
+  const warnings = stored.ok ? partWarnings(stored.input, await inventoryForChecks(executor, courseId)) : [];
+  return { part, warnings, calibration: part.kind === "fluid_lot" ? fluidLotCalibration(part.calibration) : null };
+}
+
+/** Every label the course uses, for the import preview's "already used" check. */
+export async function listPartLabels(executor: Executor, courseId: string): Promise<string[]> {
+  const rows = await executor.select({ label: parts.label }).from(parts).where(eq(parts.courseId, courseId)).orderBy(asc(parts.label));
+  return rows.map((row) => row.label);
+}
+
+/** The whole inventory with each part's kit number, in one statement, for the CSV export. */
+export async function listInventory(executor: Executor, courseId: string) {
+  const rows = await executor
+    .select({ part: parts, kitNumber: kits.number })
+    .from(parts)
+    // Fluid lots sit in many kits; only the exclusive parts name their one kit.
+      .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
+    .leftJoin(kits, eq(kits.id, kitParts.kitId))
+    .where(eq(parts.courseId, courseId))
+    .orderBy(asc(parts.kind), asc(parts.label));
+  return rows.map(({ part, kitNumber }) => ({ ...part, kitNumber }));
+}
+
+/** An import refused as a whole; `rows` are the rows with problems, each with its line in the file. */
+export class ImportRejectedError extends Error {
+  constructor(readonly rows: ImportRowCheck[]) {
+    super(rows.length ? `${rows.length} rows have problems; nothing was imported.` : "The file has no parts in it.");
+  }
+}
+
+/**
+ * A CSV import, all or nothing: the rows are checked again here (the browser's preview is a
+ * convenience, not a guarantee), then go in as one multi-row insert of parts and one of their
+ * "created" events, in one transaction.
+ */
+export async function importParts(
+  executor: Executor,
+  { courseId, actorId, rows }: { courseId: string; actorId: string; rows: PartCsvRow[] },
+): Promise<{ created: number; warnings: { label: string; warnings: PartWarning[] }[] }> {
+  try {
+    return await executor.transaction(async (tx) => {
+      const labels = rows.map((row) => (row.label ?? "").trim()).filter(Boolean);
+      const taken = labels.length
+        ? await tx.select({ label: parts.label }).from(parts).where(and(eq(parts.courseId, courseId), inArray(parts.label, labels)))
+        : [];
+      const checks = checkImportRows(rows, taken.map((row) => row.label));
+      const rejected = checks.filter((check) => check.problems.length > 0);
+      if (rejected.length > 0 || checks.length === 0) throw new ImportRejectedError(rejected);
+      const inputs = checks.map((check) => check.input!);
+
+      // A sphere is checked against the fluids and columns already on the shelf and those arriving with it.
+      const inventory = [
+        ...(await inventoryForChecks(tx, courseId)),
+        ...inputs.flatMap((input) =>
+          input.kind === "fluid_lot" || input.kind === "column"
+            ? [{ kind: input.kind, label: input.label, densityKgM3: input.kind === "fluid_lot" ? input.densityKgM3 : null, innerDiameterMm: input.kind === "column" ? input.innerDiameterMm : null }]
+            : [],
+        ),
+      ];
+      const warningsByLabel = new Map(inputs.map((input) => [input.label, partWarnings(input, inventory)]));
+      const created = await tx
+        .insert(parts)
+        .values(inputs.map((input) => ({ courseId, kind: input.kind, label: input.label, notes: input.notes, ...columnsFor(input) })))
+        .returning({ id: parts.id, label: parts.label });
+      await tx.insert(partEvents).values(
+        created.map((part) => ({ partId: part.id, actorId, action: "created", detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] } })),
+      );
+      return {
+        created: created.length,
+        warnings: [...warningsByLabel].filter(([, warnings]) => warnings.length > 0).map(([label, warnings]) => ({ label, warnings })),
+      };
+    });
+  } catch (error) {
+    // Another instructor may have taken a label between the check and the insert.
+    if (isUniqueViolation(error)) {
+      // PostgreSQL names the clash as "Key (course_id, label)=(…, S-12) already exists."
+      const detail = (error as { cause?: { detail?: string } }).cause?.detail ?? "";
+      throw new DuplicateLabelError(/\)=\([^,]*, (.*)\) already exists/.exec(detail)?.[1] ?? "of one of these parts");
+    }
+    throw error;
+  }
+}

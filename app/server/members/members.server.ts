@@ -1,0 +1,99 @@
+/**
+ * A course's members as the members page shows them, and role changes. Moving students between cohorts
+ * and removing members live with the course rules (`~/server/courses/courses.server`).
+ */
+import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
+import { cohorts, courseMemberships, invitations, taCohortAssignments, users } from "~/db/schema";
+import { recordAudit } from "~/server/audit.server";
+import type { CourseRole } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+
+export class MemberRuleError extends Error {}
+
+/** Every active member with their cohort, or the cohorts a TA marks: one statement. */
+export function listMembers(courseId: string) {
+  return db
+    .select({
+      membershipId: courseMemberships.id,
+      userId: users.id,
+      name: users.name,
+      email: users.email,
+      role: courseMemberships.role,
+      cohortId: courseMemberships.cohortId,
+      cohortName: cohorts.name,
+      taCohortNames: sql<string[]>`array(select h.name from ${taCohortAssignments} a join ${cohorts} h on h.id = a.cohort_id where a.membership_id = ${courseMemberships.id} order by h.name)`,
+    })
+    .from(courseMemberships)
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+    .where(and(eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)))
+    .orderBy(sql`case ${courseMemberships.role} when 'instructor' then 0 when 'ta' then 1 else 2 end`, asc(users.name));
+}
+
+/** Invitations sent and not yet accepted, still within their lifetime. */
+export function listOpenInvitations(courseId: string) {
+  return db
+    .select({ id: invitations.id, email: invitations.email, name: invitations.name, role: invitations.role, cohortName: cohorts.name, expiresAt: invitations.expiresAt })
+    .from(invitations)
+    .leftJoin(cohorts, eq(cohorts.id, invitations.cohortId))
+    .where(and(eq(invitations.courseId, courseId), isNull(invitations.acceptedAt), gt(invitations.expiresAt, sql`now()`)))
+    .orderBy(asc(invitations.email));
+}
+
+export async function getMember(courseId: string, membershipId: string) {
+  if (!/^[0-9a-f-]{36}$/i.test(membershipId)) return null;
+  const [member] = await db
+    .select({
+      membershipId: courseMemberships.id,
+      userId: users.id,
+      name: users.name,
+      email: users.email,
+      studentNumber: users.studentNumber,
+      role: courseMemberships.role,
+      cohortId: courseMemberships.cohortId,
+      cohortName: cohorts.name,
+    })
+    .from(courseMemberships)
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+    .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)));
+  return member ?? null;
+}
+
+/**
+ * Gives a member another role. A student keeps no cohort as staff and a TA keeps no cohort assignments
+ * as anything else; an instructor cannot change their own role, so a course never loses its last one.
+ */
+export async function changeMemberRole(
+  { courseId, actorId, membershipId, role, cohortId }: { courseId: string; actorId: string; membershipId: string; role: CourseRole; cohortId: string | null },
+  request?: Request,
+): Promise<void> {
+  await db.transaction(async (tx) => {
+    const [member] = await tx
+      .select({ role: courseMemberships.role, userId: courseMemberships.userId, cohortId: courseMemberships.cohortId })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)))
+      .for("update");
+    if (!member) throw new MemberRuleError("That person is not a member of this course.");
+    if (member.userId === actorId) throw new MemberRuleError("You cannot change your own role; ask another instructor.");
+    if (cohortId) {
+      const [cohort] = await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
+      if (!cohort) throw new MemberRuleError("That cohort is not in this course.");
+    }
+    const newCohortId = role === "student" ? cohortId : null;
+    await tx.update(courseMemberships).set({ role, cohortId: newCohortId }).where(eq(courseMemberships.id, membershipId));
+    if (role !== "ta") await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
+    await recordAudit(tx, {
+      action: "course.member_role_changed",
+      actorId,
+      courseId,
+      subject: `membership:${membershipId}`,
+      detail: { from: member.role, to: role, fromCohortId: member.cohortId, toCohortId: newCohortId },
+      request,
+    });
+  });
+}
+
+export function listCohorts(courseId: string) {
+  return db.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name));
+}

@@ -1,0 +1,39 @@
+import { ActionButton, EmailLayout, FactList, Heading, Paragraph } from "./components/email-layout";
+import type { EmailTemplates } from "./template-props";
+
+type Props = EmailTemplates["deadline-reminder"];
+
+const describeTimeLeft = (hours: number) => (hours < 1 ? "less than an hour" : hours === 1 ? "1 hour" : `${Math.floor(hours)} hours`);
+
+export const subject = (props: Props) => `${props.labTitle} is due in ${describeTimeLeft(props.hoursLeft)}`;
+
+export default function DeadlineReminderEmail(props: Props) {
+  return (
+    <EmailLayout
+      preview={`Hand in your drop log for ${props.labTitle}`}
+      reason={`You got this e-mail because you are a student in ${props.courseTitle} and have not handed in a drop log for ${props.labTitle} yet.`}
+    >
+      <Heading>{props.labTitle} is due soon</Heading>
+      <Paragraph>
+        There is {describeTimeLeft(props.hoursLeft)} left to hand in your drop log. You can hand in from your phone; a later
+        hand-in replaces the earlier one until the deadline.
+      </Paragraph>
+      <FactList
+        facts={[
+          ["Course", props.courseTitle],
+          ["Lab", props.labTitle],
+          ["Due", props.dueAtText],
+        ]}
+      />
+      <ActionButton href={props.labUrl}>Open the lab</ActionButton>
+    </EmailLayout>
+  );
+}
+
+DeadlineReminderEmail.PreviewProps = {
+  courseTitle: "Demo: Fluids at the Kitchen Table",
+  labTitle: "Demo lab: Falling-ball viscometry",
+  dueAtText: "Friday 18 January 2030, 17:00 (Europe/Lisbon)",
+  hoursLeft: 24,
+  labUrl: "https://benchpost.example/courses/demo/labs/demo-lab",
+} satisfies Props;

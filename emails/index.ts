@@ -1,0 +1,20 @@
+/** Every e-mail template by name, with its subject line and the invented props its preview shows. */
+import type { ComponentType } from "react";
+import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
+import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
+import KitShippedEmail, { subject as kitShippedSubject } from "./kit-shipped";
+import MarksReleasedEmail, { subject as marksReleasedSubject } from "./marks-released";
+import PasswordResetEmail, { subject as passwordResetSubject } from "./password-reset";
+import SignInLinkEmail, { subject as signInLinkSubject } from "./sign-in-link";
+import type { EmailTemplateName, EmailTemplates } from "./template-props";
+
+export type EmailTemplate<Props> = { Component: ComponentType<Props>; subject: (props: Props) => string; previewProps: Props };
+
+export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailTemplates[Name]> } = {
+  "course-invitation": { Component: CourseInvitationEmail, subject: courseInvitationSubject, previewProps: CourseInvitationEmail.PreviewProps },
+  "sign-in-link": { Component: SignInLinkEmail, subject: signInLinkSubject, previewProps: SignInLinkEmail.PreviewProps },
+  "password-reset": { Component: PasswordResetEmail, subject: passwordResetSubject, previewProps: PasswordResetEmail.PreviewProps },
+  "deadline-reminder": { Component: DeadlineReminderEmail, subject: deadlineReminderSubject, previewProps: DeadlineReminderEmail.PreviewProps },
+  "kit-shipped": { Component: KitShippedEmail, subject: kitShippedSubject, previewProps: KitShippedEmail.PreviewProps },
+  "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
+};

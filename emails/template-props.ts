@@ -1,0 +1,69 @@
+/**
+ * What each e-mail template needs, as zod schemas: checked when a message is queued, and used again by
+ * the worker to revive the JSON stored in the outbox (dates come back as ISO strings).
+ */
+import { z } from "zod";
+
+// Props end up in a subject line or a header-adjacent place; a line break there could forge headers.
+const oneLine = z
+  .string()
+  .trim()
+  .min(1)
+  .max(200)
+  .refine((value) => !/[\r\n]/.test(value), "must be a single line (no CR or LF)");
+const link = z.url({ protocol: /^https?$/ });
+
+export const templatePropsSchemas = {
+  "course-invitation": z.object({
+    courseTitle: oneLine,
+    courseCode: oneLine,
+    inviterName: oneLine,
+    role: z.enum(["instructor", "ta", "student"]),
+    cohortName: oneLine.nullable(),
+    acceptUrl: link,
+    expiresAt: z.coerce.date(),
+  }),
+  "sign-in-link": z.object({ url: link, expiresInMinutes: z.number().int().positive() }),
+  "password-reset": z.object({ url: link, expiresInMinutes: z.number().int().positive() }),
+  "deadline-reminder": z.object({
+    courseTitle: oneLine,
+    labTitle: oneLine,
+    dueAtText: oneLine,
+    hoursLeft: z.number().nonnegative(),
+    labUrl: link,
+  }),
+  "kit-shipped": z.object({
+    courseTitle: oneLine,
+    kitNumber: oneLine,
+    carrier: oneLine,
+    trackingNumber: oneLine,
+    shippedOn: oneLine,
+    kitUrl: link,
+  }),
+  "marks-released": z.object({ courseTitle: oneLine, labTitle: oneLine, marksUrl: link }),
+} as const;
+
+export type EmailTemplates = {
+  "course-invitation": {
+    courseTitle: string;
+    courseCode: string;
+    inviterName: string;
+    role: "instructor" | "ta" | "student";
+    cohortName: string | null;
+    acceptUrl: string;
+    expiresAt: Date;
+  };
+  "sign-in-link": { url: string; expiresInMinutes: number };
+  "password-reset": { url: string; expiresInMinutes: number };
+  "deadline-reminder": { courseTitle: string; labTitle: string; dueAtText: string; hoursLeft: number; labUrl: string };
+  "kit-shipped": { courseTitle: string; kitNumber: string; carrier: string; trackingNumber: string; shippedOn: string; kitUrl: string };
+  "marks-released": { courseTitle: string; labTitle: string; marksUrl: string };
+};
+export type EmailTemplateName = keyof EmailTemplates;
+
+// The written-out types above are the contract other modules code against; this keeps the schemas in step.
+type SchemaOutputs = { [Name in EmailTemplateName]: z.output<(typeof templatePropsSchemas)[Name]> };
+type SameType<A, B> = [A, B] extends [B, A] ? true : false;
+true satisfies SameType<SchemaOutputs, EmailTemplates>;
+
+export const emailTemplateNames = Object.keys(templatePropsSchemas) as EmailTemplateName[];

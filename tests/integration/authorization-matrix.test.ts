@@ -1,0 +1,170 @@
+/**
+ * The authorization matrix: every route of the built app, for every kind of person, with the status
+ * each must get. Requests go through React Router's own request handler in process, with real session
+ * cookies. The test fails when the app has a route the matrix does not list: a new route adds its rows
+ * here, one line per path and method, usually with one of the presets below.
+ */
+import { beforeAll, describe, expect, it } from "vitest";
+import type { ServerBuild } from "react-router";
+import { appRequest, createAppHandler, loadBuild, sessionCookieFor, type AppHandler } from "../support/app-requests";
+import { type AccessFixture, type Actor, actors, createAccessFixture } from "../support/access-fixture";
+
+type Expectation = Record<Actor, number>;
+type Method = "GET" | "POST";
+type MatrixRow = { method: Method; path: string; expect: Expectation; query?: string; form?: Record<string, string> };
+
+const students = { ownStudent: 0, sameCohortStudent: 0, otherCohortStudent: 0 };
+const tas = { assignedTa: 0, unassignedTa: 0 };
+const fill = <T extends Record<string, number>>(keys: T, status: number) => Object.fromEntries(Object.keys(keys).map((key) => [key, status])) as Record<keyof T, number>;
+
+// Presets: the status for those who may, and what everybody else gets (302 to the sign-in page, or 403).
+const everyone = (status: number): Expectation => Object.fromEntries(actors.map((actor) => [actor, status])) as Expectation;
+const signedIn = (status: number): Expectation => ({ ...everyone(status), anonymous: 302 });
+/** Pages for people who are not signed in yet; signed-in people are sent on (302). */
+const signedOutOnly = (status: number): Expectation => ({ ...everyone(302), anonymous: status });
+const anyMember = (status: number): Expectation => ({ ...signedIn(status), otherInstructor: 403 });
+const staffOnly = (status: number): Expectation => ({ ...anyMember(status), ...fill(students, 403) });
+const instructorOnly = (status: number): Expectation => ({ ...signedIn(403), instructor: status });
+const studentsOnly = (status: number): Expectation => ({ ...signedIn(403), ...fill(students, status) });
+/** An object belonging to `ownStudent` (cohort one), for its owner and the staff of cohort one. */
+const ownWork = (status: number): Expectation => ({ ...signedIn(403), ownStudent: status, assignedTa: status, instructor: status });
+/** Like ownWork, but for staff only (a kit held by `ownStudent`). */
+const cohortStaff = (status: number): Expectation => ({ ...ownWork(status), ownStudent: 403 });
+/** Instructor accounts (may open courses), whichever course they teach. */
+const courseCreators = (status: number): Expectation => ({ ...signedIn(403), instructor: status, otherInstructor: status });
+/** The development inbox: a 404 where it is closed, open to signed-in staff outside production. */
+const devInbox = (status: number): Expectation => ({ ...everyone(404), ...fill(tas, status), instructor: status, otherInstructor: status });
+
+// A form no action accepts: allowed people get the action's 400 (nothing changes), others their 302/403.
+const probe = { intent: "authorization-matrix-probe" };
+const row = (method: Method, path: string, expect: Expectation, extra: Partial<MatrixRow> = {}): MatrixRow => ({ method, path, expect, ...extra });
+
+const matrix: MatrixRow[] = [
+  row("GET", "/", everyone(200)),
+  row("GET", "/healthz", everyone(200)),
+  row("GET", "/sign-in", signedOutOnly(200)),
+  // A failed form re-runs the loader, which sends signed-in people on.
+  row("POST", "/sign-in", signedOutOnly(400), { form: { intent: "password" } }),
+  row("GET", "/sign-in/link/:token", everyone(200)),
+  row("POST", "/sign-in/link/:token", everyone(410)),
+  row("GET", "/sign-up", signedOutOnly(200)),
+  row("POST", "/sign-up", signedOutOnly(400)),
+  row("GET", "/sign-out", signedIn(200)),
+  row("POST", "/sign-out", everyone(302)),
+  row("GET", "/forgot-password", everyone(200)),
+  row("POST", "/forgot-password", everyone(400)),
+  row("GET", "/reset-password/:token", everyone(200)),
+  row("POST", "/reset-password/:token", everyone(400)),
+  row("GET", "/invitations/:token", everyone(404)),
+  row("POST", "/invitations/:token", everyone(410)),
+  row("GET", "/account", signedIn(200)),
+  row("POST", "/account", signedIn(400)),
+  row("GET", "/courses/new", courseCreators(200)),
+  row("POST", "/courses/new", courseCreators(400)),
+  row("GET", "/courses/:courseId", anyMember(200)),
+  row("GET", "/courses/:courseId/settings", instructorOnly(200)),
+  row("POST", "/courses/:courseId/settings", instructorOnly(400)),
+  row("GET", "/courses/:courseId/members", instructorOnly(200)),
+  row("POST", "/courses/:courseId/members", instructorOnly(400)),
+  row("GET", "/courses/:courseId/members/:membershipId", ownWork(200)),
+  row("POST", "/courses/:courseId/members/:membershipId", instructorOnly(400)),
+  row("GET", "/courses/:courseId/roster", instructorOnly(200)),
+  row("POST", "/courses/:courseId/roster", instructorOnly(400)),
+  row("GET", "/courses/:courseId/audit", instructorOnly(200)),
+  row("GET", "/courses/:courseId/kits", staffOnly(200)),
+  row("POST", "/courses/:courseId/kits", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/new", instructorOnly(200)),
+  row("POST", "/courses/:courseId/kits/new", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/:kitId", cohortStaff(200)),
+  row("POST", "/courses/:courseId/kits/:kitId", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/:kitId/packing-slip", instructorOnly(200)),
+  row("GET", "/courses/:courseId/parts", staffOnly(200)),
+  row("GET", "/courses/:courseId/parts/new", instructorOnly(200)),
+  row("POST", "/courses/:courseId/parts/new", instructorOnly(400)),
+  row("GET", "/courses/:courseId/parts/import", instructorOnly(200)),
+  row("POST", "/courses/:courseId/parts/import", instructorOnly(400)),
+  row("GET", "/courses/:courseId/parts/:partId", staffOnly(200)),
+  row("POST", "/courses/:courseId/parts/:partId", instructorOnly(400)),
+  // Only ownStudent holds a kit; the other students have none to report on.
+  row("GET", "/courses/:courseId/my-kit", studentsOnly(200)),
+  row("POST", "/courses/:courseId/my-kit", { ...studentsOnly(404), ownStudent: 400 }),
+  row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
+  row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
+  row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
+  row("GET", "/api/v1/me", { ...everyone(200), anonymous: 401 }),
+  row("GET", "/dev/inbox", devInbox(200)),
+  row("GET", "/api/dev/emails", devInbox(200), { query: "?to=someone@matrix.example" }),
+  row("GET", "/*", everyone(404)),
+];
+
+/** Every path and method the built app answers, from its route table (`routes`: id → { path, parentId, module }). */
+function builtRoutes(build: ServerBuild): string[] {
+  const fullPath = (id: string): string => {
+    const route = build.routes[id]!;
+    const parent = route.parentId ? fullPath(route.parentId) : "";
+    return route.path ? `${parent.replace(/\/$/, "")}/${route.path}` : parent || "/";
+  };
+  const keys = new Set<string>();
+  for (const [id, route] of Object.entries(build.routes)) {
+    // The root's loader and layout run with every page and are checked by every row.
+    if (!route || id === "root") continue;
+    const module = route.module as { loader?: unknown; action?: unknown; default?: unknown };
+    if (module.loader || module.default) keys.add(`GET ${fullPath(id)}`);
+    if (module.action) keys.add(`POST ${fullPath(id)}`);
+  }
+  return [...keys].sort();
+}
+
+function concretePath(path: string, fixture: AccessFixture): string {
+  const values: Record<string, string> = {
+    courseId: fixture.courseId,
+    membershipId: fixture.membershipIds.ownStudent,
+    kitId: fixture.kitId,
+    partId: fixture.partId,
+    token: "not-a-real-token-aaaaaaaaaaaaaaaa",
+  };
+  return path
+    .replace(/:(\w+)/g, (_, name: string) => {
+      if (!(name in values)) throw new Error(`The matrix has no value for :${name}; add one to concretePath.`);
+      return values[name];
+    })
+    .replace(/\/\*$/, "/no-such-page-here");
+}
+
+describe("authorization matrix", () => {
+  let build: ServerBuild;
+  let handle: AppHandler;
+  let fixture: AccessFixture;
+
+  beforeAll(async () => {
+    // Pinned so that the rows do not depend on the machine: open sign-up, the dev inbox as in development.
+    process.env.ALLOW_SIGN_UP = "true";
+    delete process.env.BENCHPOST_DEV_INBOX;
+    build = await loadBuild();
+    handle = await createAppHandler();
+    fixture = await createAccessFixture();
+  });
+
+  it("lists every route of the built app, and no route that is gone", () => {
+    const listed = new Set(matrix.map((entry) => `${entry.method} ${entry.path}`));
+    const built = builtRoutes(build);
+    expect(built.filter((key) => !listed.has(key)), "routes missing from the matrix").toEqual([]);
+    expect([...listed].filter((key) => !built.includes(key)), "matrix rows for routes that do not exist").toEqual([]);
+  });
+
+  it.each(matrix.map((entry) => [`${entry.method} ${entry.path}`, entry] as const))("%s", async (_name, entry) => {
+    const path = concretePath(entry.path, fixture) + (entry.query ?? "");
+    const actual = {} as Expectation;
+    for (const actor of actors) {
+      // A fresh session per request: some rows (sign-out) end the session they are sent with.
+      const cookie = actor === "anonymous" ? null : await sessionCookieFor(fixture.userIds[actor]);
+      const response = await handle(appRequest(path, { method: entry.method, cookie, form: entry.method === "POST" ? (entry.form ?? probe) : undefined }));
+      actual[actor] = response.status;
+      if (response.status === 302 && actor === "anonymous" && entry.expect.anonymous === 302 && !["/sign-out", "/sign-in"].includes(entry.path)) {
+        expect(response.headers.get("location"), `${actor} is sent to sign in`).toMatch(/^\/sign-in\?redirectTo=/);
+      }
+      await response.body?.cancel();
+    }
+    expect(actual).toEqual(entry.expect);
+  });
+});

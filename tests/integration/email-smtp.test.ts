@@ -1,0 +1,132 @@
+import { sql } from "drizzle-orm";
+import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import { loader as emailsLoader } from "~/routes/api/dev.emails";
+import { caughtEmails } from "~/db/schema";
+import { db } from "~/server/db.server";
+import { smtpTransport } from "~/server/email/email-transport.server";
+import { type MailCatcher, startMailCatcher } from "~/server/email/mail-catcher.server";
+import { sendEmail } from "~/server/email/send-email.server";
+import { type Worker, startWorker } from "~/server/jobs/worker.server";
+import { outboxRow, signInMessage, waitFor } from "../support/email";
+
+const FROM = "Benchpost <no-reply@benchpost.example>";
+let catcher: MailCatcher;
+const workers: Worker[] = [];
+const firstWorkerDeliveries = { count: 0 };
+
+/** Starts a worker that counts the messages it sent itself. */
+const launchWorker = async (deliveries = { count: 0 }) => {
+  const worker = await startWorker({
+    connectionString: process.env.DATABASE_URL!,
+    transport: smtpTransport(`smtp://127.0.0.1:${catcher.port}`, FROM),
+    pollingIntervalSeconds: 0.5,
+    log: (message) => {
+      if (message.includes(": sent via")) deliveries.count++;
+    },
+  });
+  workers.push(worker);
+  return worker;
+};
+
+async function fetchCaught(to: string) {
+  const response = await emailsLoader({ request: new Request(`http://localhost/api/dev/emails?to=${encodeURIComponent(to)}`), params: {}, context: {} } as never);
+  return response as Exclude<typeof response, { data: unknown }>;
+}
+
+beforeAll(async () => {
+  catcher = await startMailCatcher({ connectionString: process.env.DATABASE_URL!, port: 0, log: () => undefined });
+  await launchWorker(firstWorkerDeliveries);
+});
+afterEach(() => {
+  delete process.env.BENCHPOST_DEV_INBOX;
+  delete process.env.RESEND_API_KEY;
+});
+afterAll(async () => {
+  await Promise.all(workers.map((worker) => worker.stop()));
+  await catcher.close();
+});
+
+describe("delivery through the local mail catcher", () => {
+  it("makes a real SMTP round trip and keeps the message, its parts and headers in the database", async () => {
+    const { outboxId } = await sendEmail(db, {
+      to: "Invitee@Example.org",
+      toName: "Ivy Invitee",
+      template: "course-invitation",
+      props: {
+        courseTitle: "Round-trip course",
+        courseCode: "RT 1",
+        inviterName: "Ona Owner",
+        role: "ta",
+        cohortName: null,
+        acceptUrl: "http://localhost:3000/invitations/round-trip",
+        expiresAt: new Date("2031-01-01T00:00:00Z"),
+      },
+    });
+    const row = await waitFor(async () => {
+      const current = await outboxRow(outboxId);
+      return current.status === "sent" && current;
+    }, "the message to reach the catcher");
+
+    process.env.BENCHPOST_DEV_INBOX = "1";
+    const { emails } = await fetchCaught("invitee@example.org");
+    expect(emails).toHaveLength(1);
+    const [email] = emails;
+    expect(email).toMatchObject({ to: ["invitee@example.org"], subject: "Ona Owner invited you to RT 1 Round-trip course", messageId: row.providerMessageId });
+    expect(email.from).toContain("no-reply@benchpost.example");
+    expect(email.headers["x-benchpost-outbox-id"]).toBe(outboxId);
+    expect(email.headers.to).toContain("Ivy Invitee");
+    expect(email.html).toContain('href="http://localhost:3000/invitations/round-trip"');
+    expect(email.text).toContain("a teaching assistant");
+    expect(email.links).toContain("http://localhost:3000/invitations/round-trip");
+    expect(row.transport).toBe("smtp");
+  });
+
+  it("keeps caught messages when the catcher restarts", async () => {
+    await sendEmail(db, signInMessage("restart.catcher@example.org"));
+    await waitFor(async () => (await db.select().from(caughtEmails).where(sql`'restart.catcher@example.org' = any(${caughtEmails.toAddresses})`)).length === 1, "the message");
+    const port = catcher.port;
+    await catcher.close();
+    catcher = await startMailCatcher({ connectionString: process.env.DATABASE_URL!, port, log: () => undefined });
+    process.env.BENCHPOST_DEV_INBOX = "1";
+    expect((await fetchCaught("restart.catcher@example.org")).emails).toHaveLength(1);
+  });
+
+  it("delivers each message exactly once with two workers running at once", async () => {
+    const secondWorkerDeliveries = { count: 0 };
+    await launchWorker(secondWorkerDeliveries);
+    const deliveredBefore = firstWorkerDeliveries.count;
+    const sent = await db.transaction(async (tx) => {
+      const ids: string[] = [];
+      for (let index = 0; index < 20; index++) ids.push((await sendEmail(tx, signInMessage(`pair.${index}@example.org`))).outboxId);
+      return ids;
+    });
+    await waitFor(async () => {
+      const rows = await db.execute<{ count: number }>(sql`select count(*)::int as count from email_outbox where id in ${sent} and status = 'sent'`);
+      return rows.rows[0].count === sent.length;
+    }, "all 20 messages to be sent");
+    const caught = await db.execute<{ outbox_id: string; copies: number }>(
+      sql`select headers->>'x-benchpost-outbox-id' as outbox_id, count(*)::int as copies from caught_emails where to_addresses[1] like 'pair.%' group by 1`,
+    );
+    expect(caught.rows).toHaveLength(20);
+    expect(caught.rows.every((row) => row.copies === 1)).toBe(true);
+    expect(new Set(caught.rows.map((row) => row.outbox_id))).toEqual(new Set(sent));
+    // Both really took part: each polls every 0.5 s, so neither can have taken all 20 alone.
+    expect(firstWorkerDeliveries.count - deliveredBefore).toBeGreaterThan(0);
+    expect(secondWorkerDeliveries.count).toBeGreaterThan(0);
+    expect(firstWorkerDeliveries.count - deliveredBefore + secondWorkerDeliveries.count).toBe(20);
+  });
+
+  it("keeps the inbox API closed without the development flag, and always when real mail goes out", async () => {
+    await expect(fetchCaught("invitee@example.org")).rejects.toMatchObject({ init: { status: 404 } });
+    process.env.BENCHPOST_DEV_INBOX = "1";
+    process.env.RESEND_API_KEY = "re_live_key";
+    await expect(fetchCaught("invitee@example.org")).rejects.toMatchObject({ init: { status: 404 } });
+  });
+
+  it("answers 400 to a request without a valid recipient", async () => {
+    process.env.BENCHPOST_DEV_INBOX = "1";
+    const response = await emailsLoader({ request: new Request("http://localhost/api/dev/emails?to=nobody"), params: {}, context: {} } as never);
+    expect(response).toMatchObject({ init: { status: 400 } });
+  });
+});
+
