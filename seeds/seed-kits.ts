@@ -43,6 +43,9 @@ const pathTo: Record<KitState, KitState[]> = {
   retired: ["packed", "in_transit", "at_home", "coming_back", "checked_in", "retired"],
 };
 
+/** Demo history is dated back from the day the demo is seeded, so "shipped last week" stays true. */
+const daysAgo = (days: number, minutes = 0) => new Date(Date.now() - days * 86_400_000 + minutes * 60_000);
+
 export async function seedKits(
   tx: Transaction,
   faker: Faker,
@@ -127,7 +130,7 @@ export async function seedKits(
           holderMembershipId: holding ? studentMembershipIds[index] : null,
           carrier: shipped ? "Parcelwise" : null,
           trackingNumber: shipped ? `PW${faker.string.numeric(10)}` : null,
-          shippedOn: shipped ? "2027-01-18" : null,
+          shippedOn: shipped ? daysAgo(14).toISOString().slice(0, 10) : null,
         };
       }),
     )
@@ -146,7 +149,7 @@ export async function seedKits(
     ]),
   );
 
-  let day = 0;
+  let minute = 0;
   await tx.insert(kitEvents).values(
     kitRows.flatMap((kit, index) => {
       const steps: KitState[] = ["on_shelf", ...pathTo[journey[index]]];
@@ -157,7 +160,8 @@ export async function seedKits(
         toState,
         action: step === 0 ? "created" : "moved",
         detail: { holderMembershipId: kit.holderMembershipId },
-        createdAt: new Date(Date.UTC(2027, 0, 10 + step * 3, 9, (day++ % 50) + 5)),
+        // Made up three weeks ago, one step every few days, the latest no later than yesterday.
+        createdAt: daysAgo(21 - step * 3, (minute++ % 50) + 5),
       }));
     }),
   );

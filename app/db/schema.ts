@@ -503,3 +503,182 @@ export const caughtEmails = pgTable(
 export const emailOutboxRelations = relations(emailOutbox, ({ one }) => ({
   course: one(courses, { fields: [emailOutbox.courseId], references: [courses.id] }),
 }));
+
+// ---------------------------------------------------------------------------------------------
+// Labs and drop logs. A lab is an experiment kind published to cohorts; a drop log is one student's
+// hand-in for it, kept as immutable versions. The latest version handed in counts.
+
+export const experimentKind = pgEnum("experiment_kind", ["drag", "viscometry"]);
+export const labStatus = pgEnum("lab_status", ["draft", "published", "closed"]);
+
+/** Instrument resolutions a lab assumes, in the units of the bench; they feed the uncertainty budget. */
+export type LabResolutions = { diameterMm: number; massG: number; distanceMm: number; timeS: number; temperatureC: number };
+
+export const labs = pgTable(
+  "labs",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    title: text("title").notNull(),
+    kind: experimentKind("kind").notNull(),
+    status: labStatus("status").notNull().default("draft"),
+    instructions: text("instructions").notNull().default(""),
+    opensAt: timestamp("opens_at", { withTimezone: true }).notNull(),
+    dueAt: timestamp("due_at", { withTimezone: true }).notNull(),
+    /** Late hand-ins are accepted (and labelled late) until this time; null means none after the due time. */
+    lateCutoffAt: timestamp("late_cutoff_at", { withTimezone: true }),
+    requiredDrops: integer("required_drops").notNull().default(10),
+    /** Parts students may use (empty: any part of their kit of the right kind). */
+    allowedPartIds: uuid("allowed_part_ids").array().notNull().default(sql`'{}'::uuid[]`),
+    wallCorrection: text("wall_correction").notNull().default("faxen"),
+    dragModel: text("drag_model").notNull().default("schiller-naumann"),
+    comparisonMethod: text("comparison_method").notNull().default("grubbs"),
+    comparisonAlpha: real("comparison_alpha").notNull().default(0.05),
+    comparisonMaxOutliers: integer("comparison_max_outliers").notNull().default(3),
+    comparisonK: real("comparison_k").notNull().default(1.5),
+    resolutions: jsonb("resolutions").$type<LabResolutions>().notNull(),
+    /** Hours before the due time at which students without a hand-in are reminded. */
+    reminderOffsetsHours: integer("reminder_offsets_hours").array().notNull().default(sql`'{48,6}'::integer[]`),
+    publishedAt: timestamp("published_at", { withTimezone: true }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [index("labs_course_idx").on(table.courseId)],
+);
+
+export const labCohorts = pgTable(
+  "lab_cohorts",
+  {
+    labId: uuid("lab_id")
+      .notNull()
+      .references(() => labs.id, { onDelete: "cascade" }),
+    cohortId: uuid("cohort_id")
+      .notNull()
+      .references(() => cohorts.id, { onDelete: "cascade" }),
+  },
+  (table) => [primaryKey({ columns: [table.labId, table.cohortId] })],
+);
+
+/** One student's hand-in for one lab: the container of its versions. Its row is the only one a hand-in locks. */
+export const dropLogs = pgTable(
+  "drop_logs",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    labId: uuid("lab_id")
+      .notNull()
+      .references(() => labs.id, { onDelete: "cascade" }),
+    membershipId: uuid("membership_id")
+      .notNull()
+      .references(() => courseMemberships.id, { onDelete: "restrict" }),
+    /** The version that counts: the latest handed in. */
+    latestVersionId: uuid("latest_version_id"),
+    /** The student's unsent form, saved as they type so that nothing is lost to a reload or a dropped connection. */
+    draft: jsonb("draft").$type<Record<string, unknown>>(),
+    draftSavedAt: timestamp("draft_saved_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("drop_logs_lab_member_unique").on(table.labId, table.membershipId), index("drop_logs_member_idx").on(table.membershipId)],
+);
+
+/**
+ * An immutable hand-in. `input` is what the student entered, `kitRecords` the kit values the server
+ * used, `reduction` the engine's output; the key figures are copied out for the class comparison.
+ */
+export const dropLogVersions = pgTable(
+  "drop_log_versions",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    dropLogId: uuid("drop_log_id")
+      .notNull()
+      .references(() => dropLogs.id, { onDelete: "restrict" }),
+    version: integer("version").notNull(),
+    /** The client's key for this submission: a repeat with the same key creates nothing new. */
+    idempotencyKey: text("idempotency_key").notNull(),
+    submittedById: uuid("submitted_by_id").references(() => users.id, { onDelete: "set null" }),
+    submittedAt: timestamp("submitted_at", { withTimezone: true }).notNull().defaultNow(),
+    late: boolean("late").notNull().default(false),
+    sphereId: uuid("sphere_id").references(() => parts.id, { onDelete: "restrict" }),
+    fluidLotId: uuid("fluid_lot_id").references(() => parts.id, { onDelete: "restrict" }),
+    columnId: uuid("column_id").references(() => parts.id, { onDelete: "restrict" }),
+    input: jsonb("input").$type<Record<string, unknown>>().notNull(),
+    kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
+    reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
+    /** measured/reference viscosity (viscometry) or C_D/C_D,ref (drag): comparable across kits and temperatures. */
+    normalisedFigure: real("normalised_figure"),
+    reynolds: real("reynolds"),
+    dragCoefficient: real("drag_coefficient"),
+    viscosityPaS: real("viscosity_pa_s"),
+    warningCount: integer("warning_count").notNull().default(0),
+  },
+  (table) => [
+    uniqueIndex("drop_log_versions_log_version_unique").on(table.dropLogId, table.version),
+    uniqueIndex("drop_log_versions_log_key_unique").on(table.dropLogId, table.idempotencyKey),
+    index("drop_log_versions_sphere_idx").on(table.sphereId),
+  ],
+);
+
+/** A photo of the set-up, stored outside the web root; attached to a version once it is handed in. */
+export const dropLogPhotos = pgTable(
+  "drop_log_photos",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    dropLogId: uuid("drop_log_id")
+      .notNull()
+      .references(() => dropLogs.id, { onDelete: "restrict" }),
+    versionId: uuid("version_id").references(() => dropLogVersions.id, { onDelete: "restrict" }),
+    storageKey: text("storage_key").notNull(),
+    contentType: text("content_type").notNull(),
+    bytes: integer("bytes").notNull(),
+    originalName: text("original_name"),
+    createdAt: createdAt(),
+  },
+  (table) => [index("drop_log_photos_log_idx").on(table.dropLogId)],
+);
+
+/** Each deadline reminder sent: the unique key makes "(lab, student, offset) at most once" hold under retries and races. */
+export const labReminders = pgTable(
+  "lab_reminders",
+  {
+    labId: uuid("lab_id")
+      .notNull()
+      .references(() => labs.id, { onDelete: "cascade" }),
+    membershipId: uuid("membership_id")
+      .notNull()
+      .references(() => courseMemberships.id, { onDelete: "cascade" }),
+    offsetHours: integer("offset_hours").notNull(),
+    outboxId: uuid("outbox_id"),
+    sentAt: timestamp("sent_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [primaryKey({ columns: [table.labId, table.membershipId, table.offsetHours] })],
+);
+
+export const labsRelations = relations(labs, ({ one, many }) => ({
+  course: one(courses, { fields: [labs.courseId], references: [courses.id] }),
+  cohorts: many(labCohorts),
+  dropLogs: many(dropLogs),
+}));
+
+export const labCohortsRelations = relations(labCohorts, ({ one }) => ({
+  lab: one(labs, { fields: [labCohorts.labId], references: [labs.id] }),
+  cohort: one(cohorts, { fields: [labCohorts.cohortId], references: [cohorts.id] }),
+}));
+
+export const dropLogsRelations = relations(dropLogs, ({ one, many }) => ({
+  lab: one(labs, { fields: [dropLogs.labId], references: [labs.id] }),
+  membership: one(courseMemberships, { fields: [dropLogs.membershipId], references: [courseMemberships.id] }),
+  versions: many(dropLogVersions),
+  photos: many(dropLogPhotos),
+}));
+
+export const dropLogVersionsRelations = relations(dropLogVersions, ({ one, many }) => ({
+  dropLog: one(dropLogs, { fields: [dropLogVersions.dropLogId], references: [dropLogs.id] }),
+  submittedBy: one(users, { fields: [dropLogVersions.submittedById], references: [users.id] }),
+  photos: many(dropLogPhotos),
+}));
+
+export const dropLogPhotosRelations = relations(dropLogPhotos, ({ one }) => ({
+  dropLog: one(dropLogs, { fields: [dropLogPhotos.dropLogId], references: [dropLogs.id] }),
+  version: one(dropLogVersions, { fields: [dropLogPhotos.versionId], references: [dropLogVersions.id] }),
+}));

@@ -3,6 +3,7 @@
  */
 import { desc, eq } from "drizzle-orm";
 import { auditEvents, users } from "~/db/schema";
+import { insertMany } from "~/server/bulk-insert.server";
 import { db, type Executor } from "~/server/db.server";
 import { clientIp } from "~/server/http.server";
 
@@ -45,7 +46,7 @@ function toRow(event: AuditInput) {
 
 export async function recordAudit(executor: Executor, event: AuditInput | AuditInput[]): Promise<void> {
   const rows = (Array.isArray(event) ? event : [event]).map(toRow);
-  if (rows.length > 0) await executor.insert(auditEvents).values(rows);
+  await insertMany(executor, auditEvents, rows);
 }
 
 /** The latest events of a course, newest first, with the actor's name. */

@@ -3,16 +3,24 @@
  * whether it was sent by our own pages.
  */
 import { isIP } from "node:net";
-import { appUrl } from "~/server/config.server";
+import { appUrl, isProduction } from "~/server/config.server";
 
 /**
  * The client's address. react-router-serve does not pass the socket address into the Request, so it
  * is read from X-Forwarded-For, and only when TRUST_PROXY=1 says a proxy of ours sets that header:
  * the right-most entry is the one our proxy appended, and the only one a client cannot forge.
- * Without a trusted proxy every client shares one bucket, which is fine on a developer's machine.
+ * Without a trusted proxy the address is unknown, and the per-address rate limits are skipped (the
+ * per-account ones still hold); production says so once in the log.
  */
+let warnedAboutProxy = false;
 export function clientIp(request: Request): string | null {
-  if (process.env.TRUST_PROXY !== "1") return null;
+  if (process.env.TRUST_PROXY !== "1") {
+    if (isProduction && !warnedAboutProxy) {
+      warnedAboutProxy = true;
+      console.warn("TRUST_PROXY is not set: client addresses are unknown, so sign-in is rate-limited per account only.");
+    }
+    return null;
+  }
   const forwarded = request.headers.get("x-forwarded-for")?.split(",").pop()?.trim();
   return forwarded && isIP(forwarded) ? forwarded : null;
 }

@@ -3,12 +3,14 @@
  * invitations, rate limits, CSRF refusal, personal API tokens and security headers.
  */
 import { desc, eq, sql } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
+import pg from "pg";
+import { beforeAll, describe, expect, it, vi } from "vitest";
 import { apiTokens, auditEvents, courseMemberships, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import { SESSION_COOKIE, SESSION_LIFETIME_MS, validateSessionToken } from "~/server/auth/session.server";
 import { hashToken } from "~/server/auth/tokens.server";
 import { db } from "~/server/db.server";
+import { createInvitations } from "~/server/members/invitations.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { type AppHandler, appRequest, createAppHandler, sessionCookieFor, sessionTokenFrom } from "../support/app-requests";
 
@@ -256,6 +258,22 @@ describe("invitations", () => {
     expect((await handle(appRequest(path, { form: {} }))).status).toBe(302);
     const [membership] = await db.select().from(courseMemberships).where(eq(courseMemberships.userId, existing.id));
     expect(membership).toMatchObject({ courseId: fixture.courseId, role: "student", cohortId: fixture.cohortId });
+  });
+
+  it("invites one person or forty with the same number of statements", async () => {
+    const statementsFor = async (count: number, prefix: string) => {
+      const spy = vi.spyOn(pg.Client.prototype, "query");
+      try {
+        const people = Array.from({ length: count }, (_, index) => ({ email: `${prefix}${index}@bulk.example`, role: "student" as const, cohortId: fixture.cohortId }));
+        const result = await db.transaction((tx) => createInvitations(tx, { id: fixture.userIds.instructor, name: "Test instructor" }, fixture.courseId, people));
+        expect(result.invited).toHaveLength(count);
+        return spy.mock.calls.length;
+      } finally {
+        spy.mockRestore();
+      }
+    };
+    const one = await statementsFor(1, "single");
+    expect(await statementsFor(40, "many")).toBe(one);
   });
 
   it("records the invitation, its acceptance and role changes in the course's audit log", async () => {

@@ -56,3 +56,24 @@ export async function axeViolations(page: Page): Promise<AxeViolation[]> {
 export function seriousOrCritical(violations: AxeViolation[]): AxeViolation[] {
   return violations.filter((violation) => violation.impact === "serious" || violation.impact === "critical");
 }
+
+/** Signs in through the sign-in page with a password, as a person would. */
+export async function signInWithPassword(page: Page, baseUrl: string, email: string, password: string): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  const form = page.locator("form", { has: page.getByRole("button", { name: "Sign in", exact: true }) });
+  await form.getByLabel("E-mail address").fill(email);
+  await form.getByLabel("Password").fill(password);
+  await Promise.all([page.waitForURL((url) => !url.pathname.startsWith("/sign-in")), form.getByRole("button", { name: "Sign in", exact: true }).click()]);
+}
+
+/** Waits for the worker to hand a message to the local mail catcher, and returns the newest one's subject and links. */
+export async function emailTo(baseUrl: string, to: string, subject?: RegExp): Promise<{ subject: string; links: string[] }> {
+  for (let tries = 0; tries < 80; tries++) {
+    const response = await fetch(`${baseUrl}/api/dev/emails?to=${encodeURIComponent(to)}`);
+    const { emails } = (await response.json()) as { emails: { subject: string; links: string[] }[] };
+    const match = emails.find((email) => !subject || subject.test(email.subject));
+    if (match) return match;
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  throw new Error(`No e-mail${subject ? ` matching ${subject}` : ""} reached the catcher for ${to}`);
+}

@@ -41,15 +41,20 @@ export type LimitCheck = { limited: false } | { limited: true; retryAfterSeconds
 
 const retryAfter = (res: RateLimiterRes) => Math.max(1, Math.ceil(res.msBeforeNext / 1000));
 
-/** Whether the key has used up its points, without spending one. */
-export async function isLimited(name: LimitName, key: string): Promise<LimitCheck> {
+/**
+ * Whether the key has used up its points, without spending one. A null key (no trusted client address,
+ * see `clientIp`) is never limited: one shared bucket would let anybody lock everybody out.
+ */
+export async function isLimited(name: LimitName, key: string | null): Promise<LimitCheck> {
+  if (key === null) return { limited: false };
   const res = await limiter(name).get(key);
   if (res && res.consumedPoints >= settings[name].points) return { limited: true, retryAfterSeconds: retryAfter(res) };
   return { limited: false };
 }
 
-/** Spends one point; says whether the key was already over its limit. */
-export async function consume(name: LimitName, key: string): Promise<LimitCheck> {
+/** Spends one point; says whether the key was already over its limit. A null key is never limited. */
+export async function consume(name: LimitName, key: string | null): Promise<LimitCheck> {
+  if (key === null) return { limited: false };
   try {
     await limiter(name).consume(key);
     return { limited: false };
@@ -67,6 +72,3 @@ export async function forget(name: LimitName, key: string): Promise<void> {
 export function firstLimited(checks: LimitCheck[]): LimitCheck {
   return checks.find((check) => check.limited) ?? { limited: false };
 }
-
-/** The key for per-address limits when no trusted client address is known (development). */
-export const ipKey = (ip: string | null) => ip ?? "unknown";

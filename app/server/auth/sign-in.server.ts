@@ -11,7 +11,7 @@ import { sendEmail } from "~/server/email/send-email.server";
 import { clientIp } from "~/server/http.server";
 import { consumeEmailLink, createEmailLink, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
 import { hashPassword, verifyAgainstDecoy, verifyPassword } from "./password.server";
-import { consume, firstLimited, forget, ipKey, isLimited, type LimitCheck } from "./rate-limit.server";
+import { consume, firstLimited, forget, isLimited, type LimitCheck } from "./rate-limit.server";
 import { createSession, invalidateSession, invalidateUserSessions, type Session } from "./session.server";
 
 export type NewSession = { token: string; session: Session; userId: string };
@@ -35,7 +35,7 @@ export async function signInWithPassword(
   request: Request,
 ): Promise<({ outcome: "signed-in" } & NewSession) | { outcome: "refused" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(input.email);
-  const ip = ipKey(clientIp(request));
+  const ip = clientIp(request);
   // Checked before the password is even looked at, so that a limited attacker learns nothing more.
   const limit = firstLimited(await Promise.all([isLimited("sign-in-ip", ip), isLimited("sign-in-account", email)]));
   if (limit.limited) return { outcome: "limited", ...limit };
@@ -66,7 +66,7 @@ const linkPaths = { sign_in: "/sign-in/link", password_reset: "/reset-password" 
  */
 export async function requestEmailLink(purpose: EmailLinkPurpose, rawEmail: string, request: Request): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(rawEmail);
-  const limit = firstLimited(await Promise.all([consume("email-link-address", email), consume("email-link-ip", ipKey(clientIp(request)))]));
+  const limit = firstLimited(await Promise.all([consume("email-link-address", email), consume("email-link-ip", clientIp(request))]));
   if (limit.limited) return { outcome: "limited", ...limit };
   const user = await findUserByEmail(db, email);
   if (!user) return { outcome: "sent" };
@@ -146,7 +146,7 @@ export async function signUp(
   input: { name: string; email: string; password: string },
   request: Request,
 ): Promise<({ outcome: "signed-up" } & NewSession) | { outcome: "taken" } | ({ outcome: "limited" } & Limited)> {
-  const limit = await consume("email-link-ip", ipKey(clientIp(request)));
+  const limit = await consume("email-link-ip", clientIp(request));
   if (limit.limited) return { outcome: "limited", ...limit };
   const passwordHash = await hashPassword(input.password);
   return db.transaction(async (tx) => {

@@ -4,6 +4,7 @@
  * person). The e-mailed link is single-use: accepting marks the row in one `update … returning`,
  * so two clicks racing each other cannot both succeed.
  */
+import { randomUUID } from "node:crypto";
 import { and, eq, gt, inArray, isNull, sql } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, invitations, taCohortAssignments, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
@@ -12,9 +13,10 @@ import { createSession } from "~/server/auth/session.server";
 import { hashPassword } from "~/server/auth/password.server";
 import { normaliseEmail, type NewSession } from "~/server/auth/sign-in.server";
 import { generateToken, hashToken } from "~/server/auth/tokens.server";
+import { insertMany } from "~/server/bulk-insert.server";
 import { appUrl } from "~/server/config.server";
 import { db, type Transaction } from "~/server/db.server";
-import { sendEmail } from "~/server/email/send-email.server";
+import { sendEmails } from "~/server/email/send-email.server";
 
 export const INVITATION_LIFETIME_DAYS = 14;
 
@@ -80,27 +82,30 @@ export async function createInvitations(
     );
   const expiresAt = new Date(Date.now() + INVITATION_LIFETIME_DAYS * 24 * 60 * 60 * 1000);
   const tokens = accepted.map(() => generateToken());
-  const inserted = await tx
-    .insert(invitations)
-    .values(
-      accepted.map((row, index) => ({
-        courseId,
-        email: row.email,
-        name: row.name?.trim() || null,
-        role: row.role,
-        cohortId: row.cohortId,
-        invitedById: inviter.id,
-        tokenHash: hashToken(tokens[index]),
-        expiresAt,
-      })),
-    )
-    .returning({ id: invitations.id, email: invitations.email });
+  const inserted = accepted.map((row) => ({ id: randomUUID(), email: row.email }));
+  await insertMany(
+    tx,
+    invitations,
+    accepted.map((row, index) => ({
+      id: inserted[index].id,
+      courseId,
+      email: row.email,
+      name: row.name?.trim() || null,
+      role: row.role,
+      cohortId: row.cohortId,
+      invitedById: inviter.id,
+      tokenHash: hashToken(tokens[index]),
+      expiresAt,
+    })),
+  );
 
-  for (const [index, row] of accepted.entries()) {
-    await sendEmail(tx, {
+  // One batch for all the e-mails: a roster of thousands costs the same few statements as one person.
+  await sendEmails(
+    tx,
+    accepted.map((row, index) => ({
       to: row.email,
       toName: row.name?.trim() || null,
-      template: "course-invitation",
+      template: "course-invitation" as const,
       courseId,
       dedupeKey: `invitation:${inserted[index].id}`,
       props: {
@@ -112,8 +117,8 @@ export async function createInvitations(
         acceptUrl: `${appUrl()}/invitations/${tokens[index]}`,
         expiresAt,
       },
-    });
-  }
+    })),
+  );
   await recordAudit(
     tx,
     inserted.map((invitation, index) => ({

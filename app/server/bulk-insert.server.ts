@@ -1,0 +1,36 @@
+/**
+ * Inserting thousands of rows at once (a roster import, a class relabel, bulk marking) in one
+ * statement with one parameter: the rows travel as a JSON array that PostgreSQL unpacks with
+ * `json_populate_recordset`. Drizzle's multi-row insert builds one placeholder per value, which costs
+ * seconds of CPU for a few thousand rows and hits the 65,535-parameter limit soon after.
+ */
+import { getTableColumns, getTableName, sql, type InferInsertModel } from "drizzle-orm";
+import type { PgTable } from "drizzle-orm/pg-core";
+import type { Executor } from "~/server/db.server";
+
+/**
+ * Inserts `rows` into `table` and returns the ids written. Only the columns the first row names are
+ * written; every other column takes its default. `onConflictDoNothing` skips rows that hit a unique
+ * index (their ids are then missing from the answer).
+ */
+export async function insertMany<Table extends PgTable>(
+  executor: Executor,
+  table: Table,
+  rows: InferInsertModel<Table>[],
+  options: { onConflictDoNothing?: boolean } = {},
+): Promise<string[]> {
+  if (rows.length === 0) return [];
+  const columns = getTableColumns(table);
+  const keys = Object.keys(rows[0]).filter((key) => key in columns);
+  const names = keys.map((key) => sql.identifier(columns[key].name));
+  const payload = rows.map((row) =>
+    Object.fromEntries(keys.map((key) => [columns[key].name, (row as Record<string, unknown>)[key] ?? null])),
+  );
+  const tableName = sql.identifier(getTableName(table));
+  const result = await executor.execute(sql`
+    insert into ${tableName} (${sql.join(names, sql`, `)})
+    select ${sql.join(names, sql`, `)} from json_populate_recordset(null::${tableName}, ${JSON.stringify(payload)}::json)
+    ${options.onConflictDoNothing ? sql`on conflict do nothing` : sql``}
+    ${"id" in columns ? sql`returning ${sql.identifier(columns.id.name)} as id` : sql``}`);
+  return result.rows.map((row) => String((row as { id: unknown }).id));
+}
