@@ -1,4 +1,4 @@
-import { Form, Link, data, useNavigation } from "react-router";
+import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members.$membershipId";
 import { Button } from "~/components/ui/button";
@@ -7,13 +7,16 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeading } from "~/components/ui/page-heading";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
-import { MemberRuleError, changeMemberRole, getMember, listCohorts } from "~/server/members/members.server";
+import { MemberRuleError, changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
 
-const changeRoleSchema = z.object({
-  intent: z.literal("change-role"),
-  role: z.enum(["student", "ta", "instructor"], "Choose a role."),
-  cohortId: z.union([z.literal(""), z.uuid()]).optional(),
-});
+const memberAction = z.discriminatedUnion("intent", [
+  z.object({
+    intent: z.literal("change-role"),
+    role: z.enum(["student", "ta", "instructor"], "Choose a role."),
+    cohortId: z.union([z.literal(""), z.uuid()]).optional(),
+  }),
+  z.object({ intent: z.literal("remove") }),
+]);
 
 const roleWords = { instructor: "Instructor", ta: "Teaching assistant", student: "Student" } as const;
 
@@ -29,15 +32,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
-  const form = parseForm(changeRoleSchema, await request.formData());
+  const form = parseForm(memberAction, await request.formData());
   if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
+  const target = { courseId: access.course.id, actorId: access.user.id, membershipId: params.membershipId };
   try {
-    await changeMemberRole(
-      { courseId: access.course.id, actorId: access.user.id, membershipId: params.membershipId, role: form.data.role, cohortId: form.data.cohortId || null },
-      request,
-    );
+    if (form.data.intent === "remove") {
+      await removeMember(target, request);
+      return redirect(`/courses/${access.course.id}/members?removed=1`);
+    }
+    await changeMemberRole({ ...target, role: form.data.role, cohortId: form.data.cohortId || null }, request);
   } catch (error) {
-    if (error instanceof MemberRuleError) return data({ errors: { role: error.message } }, { status: 400 });
+    if (error instanceof MemberRuleError) return data({ errors: { [form.data.intent === "remove" ? "remove" : "role"]: error.message } }, { status: 400 });
     throw error;
   }
   return { saved: true };
@@ -95,6 +100,25 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
                 Save
               </Button>
             </div>
+          </Form>
+        </section>
+      ) : null}
+      {canEdit ? (
+        <section aria-labelledby="remove-title" className="rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
+          <h2 id="remove-title" className="mb-1 text-lg font-medium">
+            Remove from the course
+          </h2>
+          <p className="mb-3 text-sm text-ink-700">They lose access at once. Everything they handed in, and its marks, is kept.</p>
+          {errors.remove ? (
+            <div className="mb-3">
+              <Notice tone="error">{errors.remove}</Notice>
+            </div>
+          ) : null}
+          <Form method="post">
+            <input type="hidden" name="intent" value="remove" />
+            <Button type="submit" disabled={busy}>
+              Remove {member.name}
+            </Button>
           </Form>
         </section>
       ) : null}

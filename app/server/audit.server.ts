@@ -22,7 +22,11 @@ export type AuditAction =
   | "access.denied"
   | "course.invitation_sent"
   | "course.invitation_accepted"
-  | "course.member_role_changed";
+  | "course.member_role_changed"
+  | "course.member_removed"
+  | "course.created"
+  | "course.settings_changed"
+  | "course.ta_cohorts_changed";
 
 export type AuditInput = {
   action: AuditAction;

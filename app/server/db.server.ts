@@ -12,7 +12,10 @@ export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
 export type Executor = Database | Transaction;
 
 export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
-  return new pg.Pool({ connectionString, max: Number(process.env.DATABASE_POOL_SIZE ?? 10) });
+  const pool = new pg.Pool({ connectionString, max: Number(process.env.DATABASE_POOL_SIZE ?? 10) });
+  // An idle connection dropped by a database restart must not take the process down; the pool reconnects.
+  pool.on("error", (error) => console.error("PostgreSQL connection lost:", error.message));
+  return pool;
 }
 
 export function createDatabase(pool: pg.Pool): Database {

@@ -1,11 +1,11 @@
 /**
- * Courses and their cohorts: creating them, their settings, which TA marks which cohort, and
- * moving or removing members (a removed member keeps their rows, and so their hand-ins).
+ * Courses and their cohorts: creating them, their settings, and which TA marks which cohort.
  */
 import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
-import { auditEvents, cohorts, courseMemberships, courses, kitEvents, kits, taCohortAssignments, users } from "~/db/schema";
+import { cohorts, courseMemberships, courses, kitEvents, kits, taCohortAssignments, users } from "~/db/schema";
 import type { CourseInput } from "~/lib/courses/course-input";
 import type { KitState } from "~/lib/kits/kit-states";
+import { recordAudit } from "~/server/audit.server";
 import type { Executor } from "~/server/db.server";
 
 export type Course = typeof courses.$inferSelect;
@@ -18,7 +18,7 @@ export async function createCourse(executor: Executor, { actorId, input }: { act
     if (clash.length) throw new CourseRuleError(`A course ${input.code} already exists for ${input.term}.`);
     const [course] = await tx.insert(courses).values(input).returning();
     await tx.insert(courseMemberships).values({ courseId: course.id, userId: actorId, role: "instructor" });
-    await tx.insert(auditEvents).values({ courseId: course.id, actorId, action: "course.created", subject: `course:${course.id}` });
+    await recordAudit(tx, { courseId: course.id, actorId, action: "course.created", subject: `course:${course.id}` });
     return course;
   });
 }
@@ -31,7 +31,7 @@ export async function updateCourse(executor: Executor, { courseId, actorId, inpu
       .where(and(eq(courses.code, input.code), eq(courses.term, input.term), sql`${courses.id} <> ${courseId}`));
     if (clash.length) throw new CourseRuleError(`Another course ${input.code} already exists for ${input.term}.`);
     await tx.update(courses).set(input).where(eq(courses.id, courseId));
-    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
+    await recordAudit(tx, { courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
   });
 }
 
@@ -65,42 +65,7 @@ export async function setTaCohorts(
     if (known.length !== cohortIds.length) throw new CourseRuleError("Some of the chosen cohorts are not in this course.");
     await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
     if (cohortIds.length) await tx.insert(taCohortAssignments).values(cohortIds.map((cohortId) => ({ membershipId, cohortId })));
-    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.ta_cohorts_changed", subject: `membership:${membershipId}`, detail: { cohortIds } });
-  });
-}
-
-/** Moves a student to another cohort. */
-export async function moveStudent(
-  executor: Executor,
-  { courseId, actorId, membershipId, cohortId }: { courseId: string; actorId: string; membershipId: string; cohortId: string },
-): Promise<void> {
-  await executor.transaction(async (tx) => {
-    const [cohort] = await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
-    if (!cohort) throw new CourseRuleError("That cohort is not in this course.");
-    const moved = await tx
-      .update(courseMemberships)
-      .set({ cohortId })
-      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "student")))
-      .returning({ id: courseMemberships.id });
-    if (!moved.length) throw new CourseRuleError("Only students move between cohorts.");
-    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.member_moved", subject: `membership:${membershipId}`, detail: { cohortId } });
-  });
-}
-
-/** Removes a member's access. Their membership row stays, so everything they handed in stays too. */
-export async function removeMember(executor: Executor, { courseId, actorId, membershipId }: { courseId: string; actorId: string; membershipId: string }): Promise<void> {
-  await executor.transaction(async (tx) => {
-    const [member] = await tx
-      .select({ role: courseMemberships.role, userId: courseMemberships.userId })
-      .from(courseMemberships)
-      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId)));
-    if (!member) throw new CourseRuleError("That person is not a member of this course.");
-    if (member.userId === actorId) throw new CourseRuleError("You cannot remove yourself; ask another instructor.");
-    const [holding] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderMembershipId, membershipId));
-    if (holding) throw new CourseRuleError(`This student still holds kit ${holding.number}; check it in first.`);
-    await tx.update(courseMemberships).set({ removedAt: new Date() }).where(eq(courseMemberships.id, membershipId));
-    await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
-    await tx.insert(auditEvents).values({ courseId, actorId, action: "course.member_removed", subject: `membership:${membershipId}` });
+    await recordAudit(tx, { courseId, actorId, action: "course.ta_cohorts_changed", subject: `membership:${membershipId}`, detail: { cohortIds } });
   });
 }
 

@@ -3,7 +3,7 @@
  * and removing members live with the course rules (`~/server/courses/courses.server`).
  */
 import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
-import { cohorts, courseMemberships, invitations, taCohortAssignments, users } from "~/db/schema";
+import { cohorts, courseMemberships, invitations, kits, taCohortAssignments, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
@@ -96,4 +96,24 @@ export async function changeMemberRole(
 
 export function listCohorts(courseId: string) {
   return db.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name));
+}
+
+/** Removes a member's access. Their membership row stays, so everything they handed in stays too. */
+export async function removeMember(
+  { courseId, actorId, membershipId }: { courseId: string; actorId: string; membershipId: string },
+  request?: Request,
+): Promise<void> {
+  await db.transaction(async (tx) => {
+    const [member] = await tx
+      .select({ role: courseMemberships.role, userId: courseMemberships.userId })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId)));
+    if (!member) throw new MemberRuleError("That person is not a member of this course.");
+    if (member.userId === actorId) throw new MemberRuleError("You cannot remove yourself; ask another instructor.");
+    const [holding] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderMembershipId, membershipId));
+    if (holding) throw new MemberRuleError(`This student still holds kit ${holding.number}; check it in first.`);
+    await tx.update(courseMemberships).set({ removedAt: new Date() }).where(eq(courseMemberships.id, membershipId));
+    await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
+    await recordAudit(tx, { action: "course.member_removed", actorId, courseId, subject: `membership:${membershipId}`, request });
+  });
 }
