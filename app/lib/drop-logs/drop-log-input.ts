@@ -1,0 +1,156 @@
+/**
+ * What a student hands in for a lab (a drop log), and the engine input the reduce API accepts.
+ * Shared by the browser form (instant messages), the hand-in action and POST /api/v1/reduce.
+ * Units at this edge are the bench's: mm, g, °C and seconds.
+ */
+import { z } from "zod";
+
+/** Drop times outside this range are typing slips, not measurements (a 20 cm fall in syrup takes seconds). */
+export const SHORTEST_DROP_S = 0.05;
+export const LONGEST_DROP_S = 600;
+export const MAX_DROPS = 200;
+
+/**
+ * Numbers as people type them: blank means "not given", a decimal comma (as spreadsheets in much of
+ * Europe copy it) counts as a point, anything else that is not a number stays NaN so zod names the row.
+ */
+export function parseTypedNumber(value: unknown): unknown {
+  if (typeof value !== "string") return value;
+  const trimmed = value.trim();
+  if (trimmed === "") return undefined;
+  const normalised = /^[-+]?\d+,\d+$/.test(trimmed) ? trimmed.replace(",", ".") : trimmed;
+  return /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(normalised) ? Number(normalised) : Number.NaN;
+}
+
+const typed = <T extends z.ZodType>(schema: T) => z.preprocess(parseTypedNumber, schema);
+
+const dropTime = typed(
+  z
+    .number({ error: (issue) => (issue.input === undefined ? "Enter the time in seconds, or remove this row." : "Enter the time as a number of seconds, e.g. 4.32.") })
+    .superRefine((seconds, context) => {
+      // One message per row, the most useful one: a negative time is a different slip from a huge one.
+      const message =
+        seconds < 0
+          ? "A time cannot be negative."
+          : seconds < SHORTEST_DROP_S
+            ? `Under ${SHORTEST_DROP_S} s is too short to time by hand; check the decimal point.`
+            : seconds > LONGEST_DROP_S
+              ? `Over ${LONGEST_DROP_S} s (10 minutes) is not a drop time; check the decimal point.`
+              : !Number.isFinite(seconds)
+                ? "Enter the time as a number of seconds, e.g. 4.32."
+                : null;
+      if (message) context.addIssue({ code: "custom", message });
+    }),
+);
+
+const optionalMeasurement = (what: string, unit: string, min: number, max: number) =>
+  typed(
+    z
+      .number({ error: `Enter your ${what} as a number in ${unit}, or leave it empty.` })
+      .gt(min, `Your ${what} must be more than ${min} ${unit}.`)
+      .lt(max, `Your ${what} must be less than ${max} ${unit}.`)
+      .optional(),
+  );
+
+export const dropLogInput = z.object({
+  sphereId: z.uuid({ error: "Choose the sphere you dropped." }),
+  /** The student's own measurements, kept beside the kit's records; the reduction uses the kit's. */
+  ownDiameterMm: optionalMeasurement("diameter", "mm", 0, 100),
+  ownMassG: optionalMeasurement("mass", "g", 0, 1000),
+  temperatureC: typed(
+    z
+      .number({ error: "Enter the fluid temperature in °C, e.g. 21.5." })
+      .min(-10, "A fluid below −10 °C is outside what the kit is calibrated for; check the reading.")
+      .max(60, "A fluid above 60 °C is outside what the kit is calibrated for; check the reading."),
+  ),
+  /** The fall between the bands; the column's recorded distance when not given. */
+  timedDistanceMm: typed(
+    z
+      .number({ error: "Enter the timed distance in mm, or leave it empty to use the column's." })
+      .gt(0, "The timed distance must be more than 0 mm.")
+      .max(3000, "The timed distance must be at most 3000 mm.")
+      .optional(),
+  ),
+  drops: z
+    .array(dropTime, { error: "Enter your drop times." })
+    .min(1, "Enter at least one drop time.")
+    .max(MAX_DROPS, `At most ${MAX_DROPS} drops fit in one drop log.`),
+  notes: z.preprocess((value) => (value === "" ? undefined : value), z.string().trim().max(4000, "Keep the notes under 4000 characters.").optional()),
+});
+export type DropLogInput = z.output<typeof dropLogInput>;
+
+/** The field a message belongs to, as the form names its inputs (`drops.3` for the fourth row). */
+export type DropLogField = "sphereId" | "ownDiameterMm" | "ownMassG" | "temperatureC" | "timedDistanceMm" | "drops" | "notes" | "form";
+
+/**
+ * The form as the student left it, saved as they type: strings exactly as typed, so a half-typed
+ * "4." survives a reload. Checked only for shape and size, never for sense.
+ */
+export const dropLogDraft = z.object({
+  sphereId: z.string().max(64).optional(),
+  useOwnMeasurements: z.boolean().optional(),
+  ownDiameterMm: z.string().max(40).optional(),
+  ownMassG: z.string().max(40).optional(),
+  temperatureC: z.string().max(40).optional(),
+  timedDistanceMm: z.string().max(40).optional(),
+  drops: z.array(z.string().max(40)).max(MAX_DROPS).optional(),
+  notes: z.string().max(4000).optional(),
+});
+export type DropLogDraft = z.output<typeof dropLogDraft>;
+
+/** The form's submission (FormData, drops as repeated `drops` fields) as the object `dropLogInput` checks. */
+export function dropLogInputFromForm(form: FormData): Record<string, unknown> {
+  const text = (name: string) => {
+    const value = form.get(name);
+    return typeof value === "string" ? value : undefined;
+  };
+  const useOwn = text("useOwnMeasurements") === "on";
+  return {
+    sphereId: text("sphereId"),
+    ownDiameterMm: useOwn ? text("ownDiameterMm") : undefined,
+    ownMassG: useOwn ? text("ownMassG") : undefined,
+    temperatureC: text("temperatureC"),
+    timedDistanceMm: text("timedDistanceMm"),
+    drops: form.getAll("drops").filter((value): value is string => typeof value === "string"),
+    notes: text("notes"),
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// POST /api/v1/reduce with the engine's own input (SI). The engine checks sense (positive sizes, …)
+// and lists every problem; this schema only checks shape, so its messages stay the engine's.
+
+const finite = z.number().refine(Number.isFinite, "must be a finite number");
+
+export const reduceInput = z.object({
+  mode: z.enum(["drag", "viscometry"]),
+  sphere: z.object({ diameter: finite, mass: finite.optional(), density: finite.optional() }),
+  fluid: z.object({
+    density: finite,
+    viscosity: finite.optional(),
+    temperature: finite.optional(),
+    viscosityTemperatureCoefficient: finite.optional(),
+  }),
+  column: z.object({ timedDistance: finite, innerDiameter: finite.optional(), runIn: finite.optional() }),
+  drops: z.array(finite).min(1).max(MAX_DROPS),
+  g: finite.optional(),
+  wallCorrection: z.enum(["faxen", "haberman-sayre", "francis", "none"]).optional(),
+  dragModel: z.enum(["stokes", "oseen", "schiller-naumann"]).optional(),
+  uncertainties: z
+    .object({
+      diameter: finite.optional(),
+      mass: finite.optional(),
+      sphereDensity: finite.optional(),
+      fluidDensity: finite.optional(),
+      fluidViscosity: finite.optional(),
+      distance: finite.optional(),
+      time: finite.optional(),
+      temperature: finite.optional(),
+    })
+    .optional(),
+  strayDropTest: z.object({ alpha: finite.optional(), maxStrayDrops: z.int().positive().optional() }).optional(),
+  requiredDrops: z.int().positive().optional(),
+});
+
+/** The reduce API's body: a drop log resolved against the caller's kit and the lab's settings. */
+export const labReduceInput = z.object({ labId: z.uuid(), input: z.unknown() });
