@@ -4,12 +4,10 @@
  * `npm run dev` is the same with the Vite dev server (hot reload) in place of the build.
  */
 import type { ChildProcess } from "node:child_process";
-import { createDatabase, createPool } from "~/server/db.server";
-import { migrateDatabase } from "~/server/migrate.server";
 import { DEMO_PASSWORD, buildDemoScenario } from "../seeds/demo-scenario";
-import { seedDemo } from "../seeds/seed-demo";
+import { prepareDevelopmentDatabase } from "../seeds/seed-demo";
 import { developmentDatabaseUrl } from "./lib/database-url";
-import { SetupError, ensureDatabases } from "./lib/postgres";
+import { SetupError } from "./lib/postgres";
 import { bin, portIsFree, runStep, startService } from "./lib/processes";
 
 const port = Number(process.env.PORT ?? 3000);
@@ -23,14 +21,7 @@ async function prepare(): Promise<void> {
   if (catchesMail && !(await portIsFree(mailCatcherPort, "127.0.0.1"))) {
     throw new SetupError(`Port ${mailCatcherPort} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`);
   }
-  await ensureDatabases();
-  await migrateDatabase(developmentDatabaseUrl());
-  const pool = createPool();
-  try {
-    console.log(`Demo scenario: ${await seedDemo(createDatabase(pool))}.`);
-  } finally {
-    await pool.end();
-  }
+  console.log(`Demo scenario: ${await prepareDevelopmentDatabase()}.`);
   if (!development) runStep("Building the app", bin.reactRouter, ["build"]);
 }
 

@@ -6,7 +6,10 @@ import { Faker, en } from "@faker-js/faker";
 import { and, eq } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
-import type { Database } from "~/server/db.server";
+import { createDatabase, createPool, type Database } from "~/server/db.server";
+import { migrateDatabase } from "~/server/migrate.server";
+import { developmentDatabaseUrl } from "../scripts/lib/database-url";
+import { ensureDatabases } from "../scripts/lib/postgres";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "./demo-scenario";
 import { seedKits } from "./seed-kits";
 
@@ -74,4 +77,16 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
     });
   });
   return "seeded";
+}
+
+/** Brings up the development database, migrates it and adds the demo scenario when it is missing. */
+export async function prepareDevelopmentDatabase(): Promise<"seeded" | "already there"> {
+  await ensureDatabases();
+  await migrateDatabase(developmentDatabaseUrl());
+  const pool = createPool();
+  try {
+    return await seedDemo(createDatabase(pool));
+  } finally {
+    await pool.end();
+  }
 }

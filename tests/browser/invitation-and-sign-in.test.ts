@@ -3,20 +3,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { courses } from "~/db/schema";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "../../seeds/demo-scenario";
-import { axeViolations, openBrowser, seriousOrCritical, type BrowserSession } from "../support/browser";
-
-type CaughtForTest = { subject: string; links: string[] };
-
-/** Waits for the worker to hand the message to the local mail catcher, and returns its links. */
-async function linksMailedTo(to: string): Promise<string[]> {
-  for (let tries = 0; tries < 80; tries++) {
-    const response = await fetch(`${inject("baseUrl")}/api/dev/emails?to=${encodeURIComponent(to)}`);
-    const { emails } = (await response.json()) as { emails: CaughtForTest[] };
-    if (emails.length > 0) return emails[0].links;
-    await new Promise((resolve) => setTimeout(resolve, 250));
-  }
-  throw new Error(`No e-mail reached the catcher for ${to}`);
-}
+import { axeViolations, emailTo, openBrowser, seriousOrCritical, type BrowserSession } from "../support/browser";
 
 describe("invitation and sign-in in Chromium", () => {
   let browser: BrowserSession;
@@ -62,7 +49,7 @@ describe("invitation and sign-in in Chromium", () => {
     await page.getByRole("heading", { level: 1, name: /Lab courses/ }).waitFor();
 
     // The student opens the link from the e-mail the catcher received.
-    const invitationLink = (await linksMailedTo(student)).find((link) => link.startsWith(`${base}/invitations/`));
+    const invitationLink = (await emailTo(base, student)).links.find((link) => link.startsWith(`${base}/invitations/`));
     expect(invitationLink).toBeTruthy();
     await page.goto(invitationLink!);
     await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toContain(demoCourse.code);
