@@ -1,4 +1,4 @@
-import { TextField } from "~/components/ui/form";
+import { TextField } from "~/components/ui/field";
 
 /** The course's own fields, shared by this page and the settings page. */
 export function CourseFields({

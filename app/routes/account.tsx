@@ -5,7 +5,7 @@ import type { Route } from "./+types/account";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireUser } from "~/server/auth/access.server";
@@ -91,9 +91,9 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
   const created = result("create-token")?.created as { name: string; token: string } | undefined;
   return (
     <div className="mx-auto max-w-3xl space-y-8">
-      <PageHeading id="account-title" lead={loaderData.user.email}>
-        Your account
-      </PageHeading>
+      <PageHeader id="account-title" title="Your account">
+        {loaderData.user.email}
+      </PageHeader>
       {loaderData.passwordNotice ? (
         <Notice tone="success">
           {loaderData.passwordNotice === "reset" ? "Your new password is saved." : "Your password is changed."} Every other session has been signed out.

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/courses.$courseId.audit";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { listCourseAudit } from "~/server/audit.server";
 
@@ -24,9 +24,9 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
   const { course, events } = loaderData;
   return (
     <div className="space-y-6">
-      <PageHeading id="audit-title" lead={`${course.code} ${course.title}: the latest ${events.length} events, newest first. Times in ${course.timeZone}.`}>
-        Audit log
-      </PageHeading>
+      <PageHeader id="audit-title" title="Audit log">
+        {`${course.code} ${course.title}: the latest ${events.length} events, newest first. Times in ${course.timeZone}.`}
+      </PageHeader>
       <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
         <table className="w-full text-left text-sm">
           <thead className="bg-paper-100 text-ink-700">

@@ -1,10 +1,12 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits.new";
-import { Button, Notice, TextField } from "~/components/ui/form";
+import { TextField } from "~/components/ui/field";
+import { Button } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { partKindLabels } from "~/lib/kits/part-input";
-import { fieldErrors, formFailure, formValues } from "~/lib/form-data";
+import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { KitRuleError, createKit, listAvailableParts } from "~/server/kits/kits.server";

@@ -4,7 +4,7 @@ import type { Route } from "./+types/courses.$courseId.members.$membershipId";
 import { Button } from "~/components/ui/button";
 import { SelectField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
 import { MemberRuleError, changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
@@ -54,9 +54,9 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
   const errors = actionData && "errors" in actionData ? (actionData.errors as Record<string, string | undefined>) : {};
   return (
     <div className="mx-auto max-w-2xl space-y-6">
-      <PageHeading id="member-title" lead={`${roleWords[member.role]} in ${course.code} ${course.title}`}>
-        {member.name}
-      </PageHeading>
+      <PageHeader id="member-title" title={member.name}>
+        {`${roleWords[member.role]} in ${course.code} ${course.title}`}
+      </PageHeader>
       <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-2 rounded-lg bg-white p-5 text-sm shadow-sm ring-1 ring-ink-900/10">
         <dt className="text-ink-600">E-mail</dt>
         <dd className="break-all">{member.email}</dd>

@@ -4,7 +4,7 @@ import type { Route } from "./+types/courses.$courseId.members";
 import { Button } from "~/components/ui/button";
 import { SelectField, TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
@@ -50,9 +50,9 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
   const values = actionData && "values" in actionData ? actionData.values : {};
   return (
     <div className="space-y-8">
-      <PageHeading id="members-title" lead={`${course.code} ${course.title} · ${course.term}`}>
-        Members
-      </PageHeading>
+      <PageHeader id="members-title" title="Members">
+        {`${course.code} ${course.title} · ${course.term}`}
+      </PageHeader>
 
       <section aria-labelledby="invite-title" className="rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
         <h2 id="invite-title" className="mb-3 text-lg font-medium">

@@ -3,7 +3,9 @@ import { useEffect, useMemo, useState } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.parts.import";
-import { Button, Notice, TextAreaField } from "~/components/ui/form";
+import { TextAreaField } from "~/components/ui/field";
+import { Button } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { partKindLabels, type PartKind } from "~/lib/kits/part-input";
 import {
@@ -178,7 +180,7 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
             readPasted(String(new FormData(event.currentTarget).get("pasted") ?? ""));
           }}
         >
-          <TextAreaField label="Or paste the rows, with the header line" name="pasted" rows={5} className="font-mono text-xs" />
+          <TextAreaField label="Or paste the rows, with the header line" name="pasted" rows={5} controlClassName="font-mono text-xs" />
           <Button type="submit" variant="secondary" className="self-start">
             Check the pasted rows
           </Button>

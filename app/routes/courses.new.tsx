@@ -1,10 +1,11 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/courses.new";
 import { CourseFields } from "~/components/course-fields";
-import { Button, Notice } from "~/components/ui/form";
+import { Button } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { courseInput } from "~/lib/courses/course-input";
-import { fieldErrors, formFailure, formValues } from "~/lib/form-data";
+import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { requireUser } from "~/server/auth/access.server";
 import { CourseRuleError, createCourse } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";

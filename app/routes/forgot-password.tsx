@@ -4,7 +4,7 @@ import type { Route } from "./+types/forgot-password";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { parseForm } from "~/lib/forms/parse-form";
 import { describeWait, retryAfterHeaders } from "~/server/auth/session-responses.server";
 import { requestEmailLink } from "~/server/auth/sign-in.server";
@@ -31,9 +31,9 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   return (
     <section className="mx-auto max-w-md" aria-labelledby="forgot-title">
-      <PageHeading id="forgot-title" lead="We e-mail you a link to choose a new password. It works once, within an hour.">
-        Forgot your password?
-      </PageHeading>
+      <PageHeader id="forgot-title" title="Forgot your password?">
+        We e-mail you a link to choose a new password. It works once, within an hour.
+      </PageHeader>
       {actionData && "sentTo" in actionData ? (
         <Notice tone="success">If {actionData.sentTo} belongs to a Benchpost account, a reset link is on its way. Check your inbox (and spam folder).</Notice>
       ) : (

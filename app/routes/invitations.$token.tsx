@@ -4,7 +4,7 @@ import type { Route } from "./+types/invitations.$token";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
 import { getOptionalUser } from "~/server/auth/access.server";
@@ -51,7 +51,7 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
   if (invitation.state !== "open") {
     return (
       <section className="mx-auto max-w-md space-y-4" aria-labelledby="invitation-title">
-        <PageHeading id="invitation-title">{heading}</PageHeading>
+        <PageHeader id="invitation-title" title={heading} />
         <Notice tone="warning">
           {invitation.state === "accepted" ? "This invitation has been accepted already." : "This invitation has expired."} If you still need access, ask
           your instructor for a new one.
@@ -67,12 +67,9 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
   const wrongAccount = signedInAs && signedInAs.email !== invitation.email;
   return (
     <section className="mx-auto max-w-md" aria-labelledby="invitation-title">
-      <PageHeading
-        id="invitation-title"
-        lead={`${invitation.inviterName ?? "Your instructor"} invited ${invitation.email} to join as ${roleWords[invitation.role]}${invitation.cohortName ? `, in ${invitation.cohortName}` : ""}.`}
-      >
-        {heading}
-      </PageHeading>
+      <PageHeader id="invitation-title" title={heading}>
+        {`${invitation.inviterName ?? "Your instructor"} invited ${invitation.email} to join as ${roleWords[invitation.role]}${invitation.cohortName ? `, in ${invitation.cohortName}` : ""}.`}
+      </PageHeader>
       {actionData && "formError" in actionData ? (
         <div className="mb-4">
           <Notice tone="error">{actionData.formError}</Notice>

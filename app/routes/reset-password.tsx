@@ -4,7 +4,7 @@ import type { Route } from "./+types/reset-password";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
 import { peekEmailLink } from "~/server/auth/email-links.server";
@@ -37,7 +37,7 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   if (!loaderData.valid || (actionData && "expired" in actionData)) {
     return (
       <section className="mx-auto max-w-md space-y-4" aria-labelledby="reset-title">
-        <PageHeading id="reset-title">Choose a new password</PageHeading>
+        <PageHeader id="reset-title" title="Choose a new password" />
         <Notice tone="warning">This reset link has been used already or is more than an hour old.</Notice>
         <p>
           <Link to="/forgot-password" className="underline">
@@ -49,9 +49,9 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   }
   return (
     <section className="mx-auto max-w-md" aria-labelledby="reset-title">
-      <PageHeading id="reset-title" lead="Saving it signs you out everywhere else.">
-        Choose a new password
-      </PageHeading>
+      <PageHeader id="reset-title" title="Choose a new password">
+        Saving it signs you out everywhere else.
+      </PageHeader>
       <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
         <TextField
           label="New password"

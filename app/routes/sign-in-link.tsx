@@ -2,7 +2,7 @@ import { Form, Link, data } from "react-router";
 import type { Route } from "./+types/sign-in-link";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { peekEmailLink } from "~/server/auth/email-links.server";
 import { redirectWithNewSession } from "~/server/auth/session-responses.server";
 import { signInWithEmailLink } from "~/server/auth/sign-in.server";
@@ -26,7 +26,7 @@ export default function SignInLink({ loaderData, actionData }: Route.ComponentPr
   const valid = loaderData.valid && !actionData?.failed;
   return (
     <section className="mx-auto max-w-md" aria-labelledby="link-title">
-      <PageHeading id="link-title">Sign in with your e-mailed link</PageHeading>
+      <PageHeader id="link-title" title="Sign in with your e-mailed link" />
       {valid ? (
         <Form method="post" className="space-y-4">
           <p className="text-ink-700">This link signs you in once. Continue on this device?</p>

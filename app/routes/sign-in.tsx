@@ -4,7 +4,7 @@ import type { Route } from "./+types/sign-in";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { parseForm } from "~/lib/forms/parse-form";
 import { getOptionalUser } from "~/server/auth/access.server";
 import { describeWait, redirectWithNewSession, retryAfterHeaders } from "~/server/auth/session-responses.server";
@@ -71,7 +71,7 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
   const link = actionData?.intent === "link" ? actionData : undefined;
   return (
     <section className="mx-auto max-w-md" aria-labelledby="sign-in-title">
-      <PageHeading id="sign-in-title">Sign in to Benchpost</PageHeading>
+      <PageHeader id="sign-in-title" title="Sign in to Benchpost" />
 
       <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10" aria-labelledby="password-title">
         <h2 id="password-title" className="font-medium">

@@ -1,7 +1,7 @@
 import { Form } from "react-router";
 import type { Route } from "./+types/sign-out";
 import { Button } from "~/components/ui/button";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { requireUser } from "~/server/auth/access.server";
 import { redirectSignedOut } from "~/server/auth/session-responses.server";
 import { signOut, signOutEverywhere } from "~/server/auth/sign-in.server";
@@ -22,9 +22,9 @@ export async function action({ request }: Route.ActionArgs) {
 export default function SignOut({ loaderData }: Route.ComponentProps) {
   return (
     <section className="mx-auto max-w-md" aria-labelledby="sign-out-title">
-      <PageHeading id="sign-out-title" lead={`Signed in as ${loaderData.name}.`}>
-        Sign out
-      </PageHeading>
+      <PageHeader id="sign-out-title" title="Sign out">
+        {`Signed in as ${loaderData.name}.`}
+      </PageHeader>
       <div className="flex flex-wrap gap-3">
         <Form method="post">
           <Button type="submit" name="intent" value="this-device">

@@ -4,7 +4,7 @@ import type { Route } from "./+types/sign-up";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
-import { PageHeading } from "~/components/ui/page-heading";
+import { PageHeader } from "~/components/ui/page-header";
 import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
 import { type FieldErrors, parseForm } from "~/lib/forms/parse-form";
 import { getOptionalUser } from "~/server/auth/access.server";
@@ -52,9 +52,9 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
   const errors = actionData && "errors" in actionData ? actionData.errors : undefined;
   return (
     <section className="mx-auto max-w-md" aria-labelledby="sign-up-title">
-      <PageHeading id="sign-up-title" lead="For instructors who run a course. Students and TAs join from their invitation e-mail.">
-        Create an instructor account
-      </PageHeading>
+      <PageHeader id="sign-up-title" title="Create an instructor account">
+        For instructors who run a course. Students and TAs join from their invitation e-mail.
+      </PageHeader>
       <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
         {actionData && "formError" in actionData ? <Notice tone="error">{actionData.formError}</Notice> : null}
         <TextField label="Your name" name="name" autoComplete="name" required defaultValue={actionData?.values?.name} error={errors?.name} />

@@ -2,8 +2,10 @@
  * The measurement fields of one part kind, each with its unit and its error beside it. Used by the
  * "Add a part" form and the re-measure form, so both ask for the same things in the same words.
  */
+import type { FieldErrorMap } from "~/lib/forms/parse-form";
 import { useState } from "react";
-import { Button, SelectField, TextAreaField, TextField, type FieldErrors } from "~/components/ui/form";
+import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
+import { Button } from "~/components/ui/button";
 import { accessoryInput, type PartKind } from "~/lib/kits/part-input";
 import type { CalibrationRow } from "~/lib/kits/part-form";
 
@@ -18,7 +20,7 @@ export function PartFields({
   kind: PartKind;
   values: PartFormValues;
   calibration: CalibrationRow[];
-  errors: FieldErrors;
+  errors: FieldErrorMap;
 }) {
   const field = (name: string) => ({ name, defaultValue: values[name] ?? "", error: errors[name] });
   const number = { type: "text", inputMode: "decimal" as const, autoComplete: "off" };
@@ -71,7 +73,7 @@ export function PartFields({
  * Calibration points as rows of two boxes. Without JavaScript the form arrives with spare empty rows
  * (left out when empty); with it, rows can be added and removed.
  */
-function CalibrationFields({ rows: initialRows, errors }: { rows: CalibrationRow[]; errors: FieldErrors }) {
+function CalibrationFields({ rows: initialRows, errors }: { rows: CalibrationRow[]; errors: FieldErrorMap }) {
   const [rows, setRows] = useState(() => initialRows.map((row, index) => ({ ...row, key: index })));
   const [nextKey, setNextKey] = useState(initialRows.length);
   const addRow = () => {

@@ -2,7 +2,20 @@ import type { ReactNode } from "react";
 import { Link } from "react-router";
 
 /** The title block of a page: where you are (breadcrumbs), what the page is, and its main actions. */
-export function PageHeader({ title, trail = [], actions, children }: { title: string; trail?: { to: string; label: string }[]; actions?: ReactNode; children?: ReactNode }) {
+export function PageHeader({
+  id,
+  title,
+  trail = [],
+  actions,
+  children,
+}: {
+  /** For sections that name the page with aria-labelledby. */
+  id?: string;
+  title: ReactNode;
+  trail?: { to: string; label: string }[];
+  actions?: ReactNode;
+  children?: ReactNode;
+}) {
   return (
     <header className="mb-6 flex flex-wrap items-end justify-between gap-4">
       <div>
@@ -18,7 +31,9 @@ export function PageHeader({ title, trail = [], actions, children }: { title: st
             ))}
           </nav>
         ) : null}
-        <h1 className="text-2xl font-semibold tracking-tight">{title}</h1>
+        <h1 id={id} className="text-2xl font-semibold tracking-tight">
+          {title}
+        </h1>
         {children ? <div className="mt-1 text-ink-700">{children}</div> : null}
       </div>
       {actions ? <div className="no-print flex flex-wrap gap-2">{actions}</div> : null}

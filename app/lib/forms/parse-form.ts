@@ -1,12 +1,22 @@
+/**
+ * Turning a form submission into what zod checks, and zod's verdict into errors shown next to the
+ * fields, with the values as typed so that the form can show them again (passwords never come back).
+ */
+import { data } from "react-router";
 import { z } from "zod";
 
 export type FieldErrors = Record<string, string | undefined>;
+export type FieldErrorMap = Record<string, string[] | undefined>;
 export type FormResult<T> = { ok: true; data: T } | { ok: false; errors: FieldErrors; values: Record<string, string> };
 
-/**
- * Checks submitted form data against the form's schema. On failure it gives the first message per
- * field, and the values as typed (passwords left out) so that the form can show them again.
- */
+/** The submission's text values as typed, minus anything that looks like a password. */
+export function formValues(form: FormData): Record<string, string> {
+  return Object.fromEntries(
+    [...form.entries()].filter((entry): entry is [string, string] => typeof entry[1] === "string" && !/password/i.test(entry[0])),
+  );
+}
+
+/** Checks a simple form against its schema; on failure, the first message per top-level field. */
 export function parseForm<Schema extends z.ZodType>(schema: Schema, formData: FormData): FormResult<z.output<Schema>> {
   const raw = Object.fromEntries([...formData.entries()].filter((entry): entry is [string, string] => typeof entry[1] === "string"));
   const parsed = schema.safeParse(raw);
@@ -16,10 +26,20 @@ export function parseForm<Schema extends z.ZodType>(schema: Schema, formData: Fo
     const field = String(issue.path[0] ?? "form");
     errors[field] ??= issue.message;
   }
-  return { ok: false, errors, values: typedValues(raw) };
+  return { ok: false, errors, values: formValues(formData) };
 }
 
-/** What the user typed, minus anything that looks like a password: those are never sent back. */
-export function typedValues(raw: Record<string, string>): Record<string, string> {
-  return Object.fromEntries(Object.entries(raw).filter(([name]) => !/password/i.test(name)));
+/** Every message, keyed by the dotted path of its field (e.g. `calibration.0.temperatureC`), for nested forms. */
+export function fieldErrors(error: z.ZodError): Record<string, string[]> {
+  const errors: Record<string, string[]> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".") || "form";
+    (errors[key] ??= []).push(issue.message);
+  }
+  return errors;
+}
+
+/** A failed submission: status 400 with the errors by field and what the person typed, to show it again. */
+export function formFailure<Extra extends Record<string, unknown>>(values: Record<string, string>, errors: FieldErrorMap, extra?: Extra) {
+  return data({ ...(extra as Extra), errors, values }, { status: 400 });
 }

@@ -3,7 +3,7 @@
  * `calibrationTemperatureC` / `calibrationViscosityPaS` fields, one pair per row, so the form works
  * without JavaScript; a row left empty is left out.
  */
-import { formValues } from "~/lib/form-data";
+import { formValues } from "~/lib/forms/parse-form";
 import { blankAsMissing } from "~/lib/kits/parts-csv";
 
 export type CalibrationRow = { temperatureC: string; viscosityPaS: string };

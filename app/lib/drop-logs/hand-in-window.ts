@@ -1,0 +1,32 @@
+/**
+ * When a lab takes hand-ins: from its opening time, on time up to and including the due instant, late
+ * up to and including the cut-off (when there is one), refused after. All comparisons are between
+ * instants, so a daylight-saving change in the course's time zone cannot shift them: the local wall
+ * times were turned into instants once, when the lab was saved.
+ */
+export type HandInWindow = { opensAt: Date; dueAt: Date; lateCutoffAt: Date | null };
+export type HandInTiming = "not-open" | "on-time" | "late" | "closed";
+
+export function handInTiming(window: HandInWindow, now: Date): HandInTiming {
+  const t = now.getTime();
+  if (t < window.opensAt.getTime()) return "not-open";
+  if (t <= window.dueAt.getTime()) return "on-time";
+  if (window.lateCutoffAt && t <= window.lateCutoffAt.getTime()) return "late";
+  return "closed";
+}
+
+/** A drop log's standing on the student's list of labs. */
+export type DropLogStatus = "not-started" | "draft" | "handed-in" | "late";
+
+export function dropLogStatus(dropLog: { hasDraft: boolean; latestLate: boolean | null } | null): DropLogStatus {
+  if (!dropLog) return "not-started";
+  if (dropLog.latestLate !== null) return dropLog.latestLate ? "late" : "handed-in";
+  return dropLog.hasDraft ? "draft" : "not-started";
+}
+
+export const dropLogStatusLabels: Record<DropLogStatus, string> = {
+  "not-started": "Not started",
+  draft: "Draft saved",
+  "handed-in": "Handed in",
+  late: "Handed in late",
+};

@@ -1,0 +1,298 @@
+/**
+ * A student's drop log for a lab: the draft saved as they type, the live preview, and the hand-in,
+ * which recomputes the reduction on the server and stores it as a new immutable version. A hand-in
+ * locks only the student's own drop_logs row, so a whole class handing in at the deadline does not
+ * queue behind one lock.
+ */
+import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
+import { z } from "zod";
+import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
+import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { handInTiming } from "~/lib/drop-logs/hand-in-window";
+import { reduceDropLog, type ColumnRecord, type DropLogReduction, type FluidLotRecord, type SphereRecord } from "~/lib/drop-logs/reduce-drop-log";
+import { ReductionInputError } from "~/lib/reduction";
+import type { CourseAccess } from "~/server/auth/access.server";
+import type { Executor } from "~/server/db.server";
+
+export type HandInRefusalCode =
+  | "invalid_input"
+  | "not_reducible"
+  | "not_a_student"
+  | "lab_not_found"
+  | "lab_not_published"
+  | "not_in_cohort"
+  | "no_kit"
+  | "sphere_not_in_kit"
+  | "kit_incomplete"
+  | "not_open"
+  | "past_cutoff";
+
+const refusalStatus: Record<HandInRefusalCode, number> = {
+  invalid_input: 400,
+  not_reducible: 400,
+  not_a_student: 403,
+  lab_not_found: 404,
+  lab_not_published: 404,
+  not_in_cohort: 403,
+  no_kit: 409,
+  sphere_not_in_kit: 400,
+  kit_incomplete: 409,
+  not_open: 409,
+  past_cutoff: 409,
+};
+
+/** A hand-in (or preview, or draft) the server will not take; the message tells the student what to do. */
+export class HandInRefusedError extends Error {
+  readonly status: number;
+  constructor(
+    readonly code: HandInRefusalCode,
+    message: string,
+    /** Per-field problems, keyed by the form's field names (`drops.3`). */
+    readonly issues: { path: (string | number)[]; message: string }[] = [],
+  ) {
+    super(message);
+    this.name = "HandInRefusedError";
+    this.status = refusalStatus[code];
+  }
+}
+
+export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
+export type KitPart = StudentLab["kitParts"][number];
+
+/**
+ * The lab as a student sees it, whether they may hand in to it, and the parts of the kit they hold:
+ * two statements, run side by side. Unpublished labs and labs of other cohorts are refused.
+ */
+export async function loadStudentLab(executor: Executor, access: CourseAccess, labId: string) {
+  if (access.membership.role !== "student") throw new HandInRefusedError("not_a_student", "Only students hand in drop logs.");
+  if (!z.uuid().safeParse(labId).success) throw new HandInRefusedError("lab_not_found", "There is no such lab in this course.");
+  const [labRows, kitPartRows] = await Promise.all([
+    executor
+      .select({
+        lab: labs,
+        gravity: courses.localGravity,
+        inCohort: sql<boolean>`exists (select 1 from lab_cohorts lc where lc.lab_id = ${labs.id} and lc.cohort_id = ${access.membership.cohortId})`,
+      })
+      .from(labs)
+      .innerJoin(courses, eq(courses.id, labs.courseId))
+      .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id))),
+    executor
+      .select({
+        id: parts.id,
+        kind: parts.kind,
+        label: parts.label,
+        material: parts.material,
+        diameterMm: parts.diameterMm,
+        diameterResolutionMm: parts.diameterResolutionMm,
+        massG: parts.massG,
+        massResolutionG: parts.massResolutionG,
+        fluidName: parts.fluidName,
+        densityKgM3: parts.densityKgM3,
+        calibration: parts.calibration,
+        innerDiameterMm: parts.innerDiameterMm,
+        timedDistanceMm: parts.timedDistanceMm,
+        runInMm: parts.runInMm,
+        kitNumber: kits.number,
+      })
+      .from(kits)
+      .innerJoin(kitParts, eq(kitParts.kitId, kits.id))
+      .innerJoin(parts, eq(parts.id, kitParts.partId))
+      .where(eq(kits.holderMembershipId, access.membership.id))
+      .orderBy(asc(parts.label)),
+  ]);
+  const row = labRows[0];
+  // A draft lab is invisible to students: it answers like a lab that does not exist.
+  if (!row || row.lab.status === "draft") throw new HandInRefusedError("lab_not_found", "There is no such lab in this course.");
+  if (!row.inCohort) throw new HandInRefusedError("not_in_cohort", "This lab is not set for your cohort.");
+  const allowed = row.lab.allowedPartIds;
+  const usable = allowed.length ? kitPartRows.filter((part) => allowed.includes(part.id)) : kitPartRows;
+  return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable };
+}
+
+/** The sphere the student chose and the kit's fluid lot and column the lab allows. */
+function resolveKit(context: StudentLab, sphereId: string): { sphere: SphereRecord; fluidLot: FluidLotRecord; column: ColumnRecord } {
+  if (context.kitParts.length === 0) throw new HandInRefusedError("no_kit", "You hold no kit in this course yet, so there is nothing to reduce against.");
+  const sphere = context.kitParts.find((part) => part.id === sphereId && part.kind === "sphere");
+  if (!sphere) {
+    throw new HandInRefusedError("sphere_not_in_kit", "Choose a sphere of your own kit.", [{ path: ["sphereId"], message: "That sphere is not in your kit." }]);
+  }
+  if (!context.usableParts.includes(sphere)) {
+    throw new HandInRefusedError("sphere_not_in_kit", `This lab does not use sphere ${sphere.label}.`, [
+      { path: ["sphereId"], message: `This lab does not use sphere ${sphere.label}; choose another.` },
+    ]);
+  }
+  const fluidLot = context.usableParts.find((part) => part.kind === "fluid_lot");
+  const column = context.usableParts.find((part) => part.kind === "column");
+  if (!fluidLot || !column) {
+    throw new HandInRefusedError("kit_incomplete", `Your kit has no ${fluidLot ? "column" : "fluid lot"} this lab can use; report it from “My kit”.`);
+  }
+  return { sphere, fluidLot, column };
+}
+
+function parseInput(raw: unknown): DropLogInput {
+  const parsed = dropLogInput.safeParse(raw);
+  if (parsed.success) return parsed.data;
+  throw new HandInRefusedError(
+    "invalid_input",
+    "Some of the drop log needs correcting.",
+    parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)), message: issue.message })),
+  );
+}
+
+function reduceFor(context: StudentLab, input: DropLogInput): DropLogReduction {
+  const kit = resolveKit(context, input.sphereId);
+  try {
+    return reduceDropLog({ lab: context.lab, kit, input, gravity: context.gravity });
+  } catch (error) {
+    if (!(error instanceof ReductionInputError)) throw error;
+    throw new HandInRefusedError(
+      "not_reducible",
+      "These values cannot be reduced.",
+      error.issues.map((issue) => ({ path: issue.path.split("."), message: issue.message })),
+    );
+  }
+}
+
+/** The live preview: the same reduction a hand-in stores, without storing anything. */
+export async function previewDropLog(executor: Executor, { access, labId, input }: { access: CourseAccess; labId: string; input: unknown }) {
+  const parsed = parseInput(input);
+  const context = await loadStudentLab(executor, access, labId);
+  return reduceFor(context, parsed);
+}
+
+export type HandInResult = { version: { id: string; version: number; late: boolean; submittedAt: Date }; duplicate: boolean };
+
+const idempotencyKey = z.string().trim().min(8, "The hand-in key is missing; reload the page.").max(200);
+
+/**
+ * Hands in a drop log: checks it, recomputes it, and stores it as the next version of the student's
+ * drop log, with the photos attached to the draft, in one transaction. The same idempotency key again
+ * (a double tap, a retry after a dropped connection) returns the version already stored.
+ */
+export async function handInDropLog(
+  executor: Executor,
+  { access, labId, input, idempotencyKey: key, now = new Date() }: { access: CourseAccess; labId: string; input: unknown; idempotencyKey: string; now?: Date },
+): Promise<HandInResult> {
+  const keyCheck = idempotencyKey.safeParse(key);
+  if (!keyCheck.success) throw new HandInRefusedError("invalid_input", keyCheck.error.issues[0].message);
+  const parsed = parseInput(input);
+  const context = await loadStudentLab(executor, access, labId);
+  const lab = context.lab;
+  if (lab.status !== "published") throw new HandInRefusedError("lab_not_published", "This lab is closed: it takes no more hand-ins.");
+  const { reduction, kitRecords, normalisedFigure, warnings } = reduceFor(context, parsed);
+  const warningCount = warnings.filter((warning) => warning.level !== "info").length;
+
+  return executor.transaction(async (tx) => {
+    await tx.insert(dropLogs).values({ labId, membershipId: access.membership.id }).onConflictDoNothing();
+    // The only lock a hand-in takes: this student's own drop log. Versions are numbered under it.
+    const [dropLog] = await tx
+      .select({ id: dropLogs.id })
+      .from(dropLogs)
+      .where(and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, access.membership.id)))
+      .for("update");
+    const [earlier] = await tx
+      .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
+      .from(dropLogVersions)
+      .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
+    // A repeat is answered before the clock is read: a retry arriving after the cut-off still gets its version.
+    if (earlier) return { version: earlier, duplicate: true };
+
+    const timing = handInTiming(lab, now);
+    if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${lab.opensAt.toISOString()}.`);
+    if (timing === "closed") {
+      throw new HandInRefusedError(
+        "past_cutoff",
+        lab.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
+      );
+    }
+    const [inserted] = await tx
+      .insert(dropLogVersions)
+      .values({
+        dropLogId: dropLog.id,
+        version: sql`(select coalesce(max(${dropLogVersions.version}), 0) + 1 from ${dropLogVersions} where ${dropLogVersions.dropLogId} = ${dropLog.id})`,
+        idempotencyKey: keyCheck.data,
+        submittedById: access.user.id,
+        submittedAt: now,
+        late: timing === "late",
+        sphereId: kitRecords.sphere.id,
+        fluidLotId: kitRecords.fluidLot.id,
+        columnId: kitRecords.column.id,
+        input: parsed,
+        kitRecords,
+        reduction: { ...reduction, warnings } as unknown as Record<string, unknown>,
+        normalisedFigure,
+        reynolds: reduction.reynolds,
+        dragCoefficient: reduction.dragCoefficient,
+        viscosityPaS: reduction.mode === "viscometry" ? reduction.viscosity : reduction.fluidViscosity,
+        warningCount,
+      })
+      .onConflictDoNothing({ target: [dropLogVersions.dropLogId, dropLogVersions.idempotencyKey] })
+      .returning({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt });
+    if (!inserted) {
+      // Only reachable if the lock was bypassed (another writer without it); the stored version still wins.
+      const [stored] = await tx
+        .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
+        .from(dropLogVersions)
+        .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
+      return { version: stored, duplicate: true };
+    }
+    await tx.update(dropLogs).set({ latestVersionId: inserted.id, draft: null, draftSavedAt: null }).where(eq(dropLogs.id, dropLog.id));
+    await tx.update(dropLogPhotos).set({ versionId: inserted.id }).where(and(eq(dropLogPhotos.dropLogId, dropLog.id), isNull(dropLogPhotos.versionId)));
+    return { version: inserted, duplicate: false };
+  });
+}
+
+/** Saves the form as typed; a later save replaces the draft, never a handed-in version. */
+export async function saveDraft(executor: Executor, { access, labId, draft }: { access: CourseAccess; labId: string; draft: unknown }) {
+  const parsed = dropLogDraft.safeParse(draft);
+  if (!parsed.success) throw new HandInRefusedError("invalid_input", "The draft could not be read; keep typing and it will be saved again.");
+  await loadStudentLab(executor, access, labId);
+  const savedAt = new Date();
+  const [row] = await executor
+    .insert(dropLogs)
+    .values({ labId, membershipId: access.membership.id, draft: parsed.data, draftSavedAt: savedAt })
+    .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { draft: parsed.data, draftSavedAt: savedAt } })
+    .returning({ id: dropLogs.id, draftSavedAt: dropLogs.draftSavedAt });
+  return { dropLogId: row.id, savedAt: row.draftSavedAt! };
+}
+
+/** The id of the student's drop log for a lab, created empty when there is none (photos attach to it before a hand-in). */
+export async function ensureDropLog(executor: Executor, { labId, membershipId }: { labId: string; membershipId: string }): Promise<string> {
+  const [row] = await executor
+    .insert(dropLogs)
+    .values({ labId, membershipId })
+    .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { labId: sql`excluded.lab_id` } })
+    .returning({ id: dropLogs.id });
+  return row.id;
+}
+
+export type StoredVersion = typeof dropLogVersions.$inferSelect;
+
+/**
+ * A student's drop log for one lab with every version (newest first) and its photos, in one statement.
+ * The caller has checked that the viewer may see this student's work.
+ */
+export async function getDropLogForStudent(executor: Executor, { labId, membershipId }: { labId: string; membershipId: string }) {
+  const dropLog = await executor.query.dropLogs.findFirst({
+    where: and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)),
+    with: {
+      versions: { orderBy: [desc(dropLogVersions.version)] },
+      photos: { orderBy: [asc(dropLogPhotos.createdAt)], columns: { id: true, versionId: true, contentType: true, bytes: true, originalName: true, createdAt: true } },
+    },
+  });
+  if (!dropLog) return null;
+  const draft = dropLogDraft.safeParse(dropLog.draft ?? {});
+  return { ...dropLog, draft: (draft.success ? draft.data : {}) as DropLogDraft };
+}
+
+/** Every version of a drop log, newest first. Versions are never changed or deleted. */
+export async function listVersions(executor: Executor, dropLogId: string): Promise<StoredVersion[]> {
+  return executor.select().from(dropLogVersions).where(eq(dropLogVersions.dropLogId, dropLogId)).orderBy(desc(dropLogVersions.version));
+}
+
+/** The course a lab belongs to, so an API call naming only the lab can check the caller's role in it. */
+export async function findLabCourseId(executor: Executor, labId: string): Promise<string | null> {
+  if (!z.uuid().safeParse(labId).success) return null;
+  const [row] = await executor.select({ courseId: labs.courseId }).from(labs).where(eq(labs.id, labId));
+  return row?.courseId ?? null;
+}
