@@ -2,6 +2,7 @@
 import type { ComponentType } from "react";
 import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
 import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
+import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
 import KitShippedEmail, { subject as kitShippedSubject } from "./kit-shipped";
 import MarksReleasedEmail, { subject as marksReleasedSubject } from "./marks-released";
 import PasswordResetEmail, { subject as passwordResetSubject } from "./password-reset";
@@ -16,5 +17,6 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
   "password-reset": { Component: PasswordResetEmail, subject: passwordResetSubject, previewProps: PasswordResetEmail.PreviewProps },
   "deadline-reminder": { Component: DeadlineReminderEmail, subject: deadlineReminderSubject, previewProps: DeadlineReminderEmail.PreviewProps },
   "kit-shipped": { Component: KitShippedEmail, subject: kitShippedSubject, previewProps: KitShippedEmail.PreviewProps },
+  "kit-problem": { Component: KitProblemEmail, subject: kitProblemSubject, previewProps: KitProblemEmail.PreviewProps },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
 };

@@ -41,6 +41,15 @@ export const templatePropsSchemas = {
     kitUrl: link,
   }),
   "marks-released": z.object({ courseTitle: oneLine, labTitle: oneLine, marksUrl: link }),
+  "kit-problem": z.object({
+    courseTitle: oneLine,
+    kitNumber: oneLine,
+    studentName: oneLine,
+    partLabel: oneLine.nullable(),
+    problem: z.enum(["missing", "damaged", "incomplete"]),
+    note: z.string().trim().min(1).max(1000),
+    kitUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -58,6 +67,15 @@ export type EmailTemplates = {
   "deadline-reminder": { courseTitle: string; labTitle: string; dueAtText: string; hoursLeft: number; labUrl: string };
   "kit-shipped": { courseTitle: string; kitNumber: string; carrier: string; trackingNumber: string; shippedOn: string; kitUrl: string };
   "marks-released": { courseTitle: string; labTitle: string; marksUrl: string };
+  "kit-problem": {
+    courseTitle: string;
+    kitNumber: string;
+    studentName: string;
+    partLabel: string | null;
+    problem: "missing" | "damaged" | "incomplete";
+    note: string;
+    kitUrl: string;
+  };
 };
 export type EmailTemplateName = keyof EmailTemplates;
 

@@ -52,7 +52,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return { intent: input.intent, saved: "Thank you: your kit is marked as at home." };
     }
     if (input.partId && !partIds.includes(input.partId)) return formFailure(values, { partId: ["That part is not in your kit."] }, { intent: input.intent });
-    await reportKitProblem(db, { kitId: kit.id, actorId: access.user.id, partId: input.partId, problem: input.problem, note: input.note });
+    await reportKitProblem(db, { courseId: access.course.id, kitId: kit.id, actorId: access.user.id, partId: input.partId, problem: input.problem, note: input.note });
     return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
   } catch (error) {
     if (error instanceof KitRuleError) return formFailure(values, { form: [error.message] }, { intent: values.intent });

@@ -2,7 +2,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { emailOutbox, kitEvents, kitParts, kits, partEvents, parts } from "~/db/schema";
 import { db } from "~/server/db.server";
-import { KitRuleError, checkInKit, confirmArrival, createKit, listKits, moveKits } from "~/server/kits/kits.server";
+import { KitRuleError, checkInKit, confirmArrival, createKit, listKits, moveKits, reportKitProblem } from "~/server/kits/kits.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { countStatements } from "../support/count-statements";
 
@@ -84,6 +84,23 @@ describe("a kit's journey", () => {
 
     await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "on_shelf" } });
     expect((await kitState(kit.id)).state).toBe("on_shelf");
+  });
+
+  it("tells the course's instructors when a student reports a problem, and keeps it on the kit", async () => {
+    const { sphereId } = await partsForKit("R1");
+    const kit = await createKit(db, { ...base(), number: "R-1", partIds: [sphereId] });
+    await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "packed", holderMembershipId: fixture.membershipIds.otherCohortStudent } });
+    await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "in_transit", shipping: { carrier: "Parcelwise", trackingNumber: "PW9", shippedOn: "2027-01-18" } } });
+    await confirmArrival(db, { ...base(), actorId: fixture.userIds.otherCohortStudent, kitId: kit.id, complete: false, note: "No thermometer in the box." });
+    await reportKitProblem(db, { courseId: fixture.courseId, kitId: kit.id, actorId: fixture.userIds.otherCohortStudent, partId: sphereId, problem: "damaged", note: "Chipped." });
+
+    const mail = await db.select().from(emailOutbox).where(and(eq(emailOutbox.template, "kit-problem"), eq(emailOutbox.courseId, fixture.courseId)));
+    expect(mail.map((m) => [m.toAddress, m.props.problem, m.props.partLabel])).toEqual([
+      ["instructor@kits.example", "incomplete", null],
+      ["instructor@kits.example", "damaged", "S-R1"],
+    ]);
+    const reports = await db.select().from(kitEvents).where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "reported")));
+    expect(reports.map((r) => r.note)).toEqual(["No thermometer in the box.", "Chipped."]);
   });
 
   it("refuses an illegal move and changes nothing", async () => {

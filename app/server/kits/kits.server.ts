@@ -7,7 +7,7 @@ import { cohorts, courseMemberships, courses, kitEvents, kitParts, kits, partEve
 import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
 import { appUrl } from "~/server/config.server";
 import type { Executor, Transaction } from "~/server/db.server";
-import { sendEmail } from "~/server/email/send-email.server";
+import { sendEmails } from "~/server/email/send-email.server";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -146,11 +146,12 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
     .innerJoin(users, eq(users.id, courseMemberships.userId))
     .innerJoin(courses, eq(courses.id, kits.courseId))
     .where(inArray(kits.id, shipped.map((kit) => kit.id)));
-  for (const recipient of recipients) {
-    await sendEmail(tx, {
+  await sendEmails(
+    tx,
+    recipients.map((recipient) => ({
       to: recipient.email,
       toName: recipient.name,
-      template: "kit-shipped",
+      template: "kit-shipped" as const,
       courseId,
       props: {
         courseTitle: recipient.courseTitle,
@@ -160,8 +161,8 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
         shippedOn: shipping.shippedOn,
         kitUrl: `${appUrl()}/courses/${courseId}/my-kit`,
       },
-    });
-  }
+    })),
+  );
 }
 
 /**
@@ -213,16 +214,50 @@ export async function confirmArrival(
 ): Promise<void> {
   await executor.transaction(async (tx) => {
     await moveKits(tx, { courseId, actorId, kitIds: [kitId], move: { to: "at_home", note } });
-    if (!complete) await tx.insert(kitEvents).values({ kitId, actorId, action: "reported", note: note ?? "Arrived incomplete", detail: { problem: "incomplete" } });
+    if (!complete) await reportKitProblem(tx, { courseId, kitId, actorId, partId: null, problem: "incomplete", note: note || "The parcel arrived incomplete." });
   });
 }
 
-/** A student reports a missing or damaged part; the instructor sees it on the kit and in the inventory. */
+/**
+ * A student reports a missing or damaged part (or an incomplete parcel): kept on the kit's history,
+ * counted on the kits table and the course overview, and e-mailed to the course's instructors.
+ */
 export async function reportKitProblem(
   executor: Executor,
-  { kitId, actorId, partId, problem, note }: { kitId: string; actorId: string; partId: string | null; problem: "missing" | "damaged"; note: string },
+  {
+    courseId,
+    kitId,
+    actorId,
+    partId,
+    problem,
+    note,
+  }: { courseId: string; kitId: string; actorId: string; partId: string | null; problem: "missing" | "damaged" | "incomplete"; note: string },
 ): Promise<void> {
-  await executor.insert(kitEvents).values({ kitId, actorId, action: "reported", note, detail: { partId, problem } });
+  await executor.transaction(async (tx) => {
+    await tx.insert(kitEvents).values({ kitId, actorId, action: "reported", note, detail: { partId, problem } });
+    const [context] = await tx
+      .select({ kitNumber: kits.number, courseTitle: courses.title, studentName: users.name, partLabel: parts.label })
+      .from(kits)
+      .innerJoin(courses, eq(courses.id, kits.courseId))
+      .innerJoin(users, eq(users.id, actorId))
+      .leftJoin(parts, partId ? eq(parts.id, partId) : sql`false`)
+      .where(eq(kits.id, kitId));
+    const instructors = await tx
+      .select({ email: users.email, name: users.name })
+      .from(courseMemberships)
+      .innerJoin(users, eq(users.id, courseMemberships.userId))
+      .where(and(eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "instructor"), isNull(courseMemberships.removedAt)));
+    await sendEmails(
+      tx,
+      instructors.map((instructor) => ({
+        to: instructor.email,
+        toName: instructor.name,
+        template: "kit-problem" as const,
+        courseId,
+        props: { ...context, problem, note, kitUrl: `${appUrl()}/courses/${courseId}/kits/${kitId}` },
+      })),
+    );
+  });
 }
 
 export type KitListQuery = { state?: KitState; cohortIds?: string[]; search?: string; page: number; pageSize: number };
