@@ -7,11 +7,13 @@ export function courseRooms(courseId: string, role: ViewerRole): { to: string; l
   if (role === "student") {
     return [
       { to: base, label: "Overview" },
+      { to: `${base}/labs`, label: "Labs" },
       { to: `${base}/my-kit`, label: "My kit" },
     ];
   }
   const staff = [
     { to: base, label: "Overview" },
+    { to: `${base}/labs`, label: "Labs" },
     { to: `${base}/kits`, label: "Kits" },
     { to: `${base}/parts`, label: "Parts" },
   ];

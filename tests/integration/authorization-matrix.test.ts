@@ -88,10 +88,19 @@ const matrix: MatrixRow[] = [
   // Only ownStudent holds a kit; the other students have none to report on.
   row("GET", "/courses/:courseId/my-kit", studentsOnly(200)),
   row("POST", "/courses/:courseId/my-kit", { ...studentsOnly(404), ownStudent: 400 }),
+  row("GET", "/courses/:courseId/labs", anyMember(200)),
+  // Students of the lab's cohort (with or without a kit); staff are sent on to the lab's dashboard.
+  row("GET", "/courses/:courseId/labs/:labId", { ...anyMember(302), ownStudent: 200, sameCohortStudent: 200, otherCohortStudent: 403 }),
+  row("POST", "/courses/:courseId/labs/:labId", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400 }),
+  // The probe is not multipart: those who may upload get 400.
+  row("POST", "/courses/:courseId/labs/:labId/photos", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400 }),
+  row("GET", "/courses/:courseId/photos/:photoId", ownWork(200)),
   row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
   row("GET", "/api/v1/me", { ...everyone(200), anonymous: 401 }),
+  // The probe is a form, not JSON: 400 for anyone signed in.
+  row("POST", "/api/v1/reduce", { ...everyone(400), anonymous: 401 }),
   row("GET", "/dev/inbox", devInbox(200)),
   row("GET", "/api/dev/emails", devInbox(200), { query: "?to=someone@matrix.example" }),
   row("GET", "/*", everyone(404)),
@@ -121,6 +130,8 @@ function concretePath(path: string, fixture: AccessFixture): string {
     membershipId: fixture.membershipIds.ownStudent,
     kitId: fixture.kitId,
     partId: fixture.partId,
+    labId: fixture.labId,
+    photoId: fixture.photoId,
     token: "not-a-real-token-aaaaaaaaaaaaaaaa",
   };
   return path

@@ -1,0 +1,40 @@
+import { describe, expect, it } from "vitest";
+import { dropLogInput, parseTypedNumber } from "./drop-log-input";
+import { handInTiming } from "./hand-in-window";
+
+describe("typed numbers", () => {
+  it("reads a decimal comma as a point, blank as not given, and words as not a number", () => {
+    expect(parseTypedNumber("4,32")).toBe(4.32);
+    expect(parseTypedNumber(" 7.5 ")).toBe(7.5);
+    expect(parseTypedNumber("")).toBeUndefined();
+    expect(parseTypedNumber("4.3.2")).toBeNaN();
+    expect(parseTypedNumber("1,234,5")).toBeNaN();
+  });
+});
+
+describe("dropLogInput", () => {
+  const base = { sphereId: "0b5f8b1e-7a51-4d2c-9a55-4f8a2a3c9d10", temperatureC: "21.5" };
+
+  it("gives one message per bad drop row, at that row", () => {
+    const result = dropLogInput.safeParse({ ...base, drops: ["4.1", "", "x", "-3", "0.01", "601"] });
+    expect(result.success).toBe(false);
+    const messages = Object.fromEntries(result.error!.issues.map((issue) => [issue.path.join("."), issue.message]));
+    expect(Object.keys(messages)).toEqual(["drops.1", "drops.2", "drops.3", "drops.4", "drops.5"]);
+    expect(messages["drops.1"]).toMatch(/remove this row/);
+    expect(messages["drops.3"]).toBe("A time cannot be negative.");
+  });
+
+  it("keeps the student's own measurements optional", () => {
+    const result = dropLogInput.parse({ ...base, ownDiameterMm: "", drops: ["4,1"] });
+    expect(result).toEqual({ sphereId: base.sphereId, temperatureC: 21.5, drops: [4.1] });
+  });
+});
+
+describe("handInTiming", () => {
+  const window = { opensAt: new Date("2027-03-21T09:00:00Z"), dueAt: new Date("2027-03-28T22:59:00Z"), lateCutoffAt: null };
+  it("counts the due instant itself as on time, and refuses after it without a cut-off", () => {
+    expect(handInTiming(window, new Date("2027-03-28T22:59:00Z"))).toBe("on-time");
+    expect(handInTiming(window, new Date("2027-03-28T22:59:01Z"))).toBe("closed");
+    expect(handInTiming(window, new Date("2027-03-21T08:59:59Z"))).toBe("not-open");
+  });
+});

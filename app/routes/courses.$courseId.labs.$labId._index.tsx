@@ -1,0 +1,267 @@
+import { data, redirect, useFetcher, type ShouldRevalidateFunctionArgs } from "react-router";
+import type { Route } from "./+types/courses.$courseId.labs.$labId._index";
+import { DropLogForm } from "~/components/drop-logs/drop-log-form";
+import { LabTime } from "~/components/drop-logs/lab-time";
+import { ReductionSummary, WarningList, figure } from "~/components/drop-logs/reduction-summary";
+import { SafetyCautions } from "~/components/safety-cautions";
+import { Button } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
+import { PageHeader } from "~/components/ui/page-header";
+import { dropLogInputFromForm, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { handInTiming } from "~/lib/drop-logs/hand-in-window";
+import type { DropLogWarning, KitRecords } from "~/lib/drop-logs/reduce-drop-log";
+import type { Reduction } from "~/lib/reduction";
+import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { HandInRefusedError, getDropLogForStudent, handInDropLog, loadStudentLab, saveDraft } from "~/server/drop-logs/hand-in.server";
+
+async function studentLab(access: CourseAccess, labId: string) {
+  try {
+    return await loadStudentLab(db, access, labId);
+  } catch (error) {
+    if (error instanceof HandInRefusedError) throw data(error.message, { status: error.status });
+    throw error;
+  }
+}
+
+/** The handed-in input as the form's strings, to start from when there is no draft. */
+function draftFromInput(input: DropLogInput): DropLogDraft {
+  const text = (value: number | undefined) => (value === undefined ? undefined : String(value));
+  return {
+    sphereId: input.sphereId,
+    useOwnMeasurements: input.ownDiameterMm !== undefined || input.ownMassG !== undefined,
+    ownDiameterMm: text(input.ownDiameterMm),
+    ownMassG: text(input.ownMassG),
+    temperatureC: text(input.temperatureC),
+    timedDistanceMm: text(input.timedDistanceMm),
+    drops: input.drops.map(String),
+    notes: input.notes,
+  };
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole(request, params.courseId, anyRole);
+  // Staff follow a lab on its dashboard; this page is the student's bench.
+  if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/dashboard`);
+  const [context, dropLog] = await Promise.all([studentLab(access, params.labId), getDropLogForStudent(db, { labId: params.labId, membershipId: access.membership.id })]);
+  const { lab } = context;
+  const column = context.usableParts.find((part) => part.kind === "column") ?? null;
+  const versions = dropLog?.versions ?? [];
+  const draft = dropLog && Object.keys(dropLog.draft).length ? dropLog.draft : versions[0] ? draftFromInput(versions[0].input as DropLogInput) : {};
+  return {
+    courseId: access.course.id,
+    timeZone: access.course.timeZone,
+    lab: {
+      id: lab.id,
+      title: lab.title,
+      kind: lab.kind,
+      status: lab.status,
+      instructions: lab.instructions,
+      requiredDrops: lab.requiredDrops,
+      opensAt: lab.opensAt.toISOString(),
+      dueAt: lab.dueAt.toISOString(),
+      lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null,
+    },
+    timing: lab.status === "published" ? handInTiming(lab, new Date()) : "closed",
+    hasKit: context.kitParts.length > 0,
+    spheres: context.usableParts
+      .filter((part) => part.kind === "sphere")
+      .map(({ id, label, material, diameterMm, massG }) => ({ id, label, material, diameterMm, massG })),
+    column: column ? { label: column.label, timedDistanceMm: column.timedDistanceMm } : null,
+    draft,
+    latestVersionId: dropLog?.latestVersionId ?? null,
+    versions: versions.map((version) => ({
+      id: version.id,
+      version: version.version,
+      late: version.late,
+      submittedAt: version.submittedAt.toISOString(),
+      input: version.input as DropLogInput,
+      kitRecords: version.kitRecords as KitRecords,
+      reduction: version.reduction as unknown as Reduction & { warnings: DropLogWarning[] },
+      normalisedFigure: version.normalisedFigure,
+    })),
+    photos: dropLog?.photos.map((photo) => ({ ...photo, createdAt: photo.createdAt.toISOString() })) ?? [],
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["student"]);
+  const form = await request.formData();
+  const intent = form.get("intent");
+  try {
+    if (intent === "save-draft") {
+      const raw = form.get("draft");
+      const draft = typeof raw === "string" ? JSON.parse(raw) : null;
+      const { savedAt } = await saveDraft(db, { access, labId: params.labId, draft });
+      return { draftSavedAt: savedAt.toISOString() };
+    }
+    if (intent === "hand-in") {
+      const { version, duplicate } = await handInDropLog(db, {
+        access,
+        labId: params.labId,
+        input: dropLogInputFromForm(form),
+        idempotencyKey: String(form.get("idempotencyKey") ?? ""),
+      });
+      return { handedIn: { version: version.version, late: version.late, submittedAt: version.submittedAt.toISOString(), duplicate } };
+    }
+    // An unknown form still answers only to those who may use this lab.
+    await loadStudentLab(db, access, params.labId);
+    return data({ errors: { form: ["This form is not one the lab page knows."] } as Record<string, string[]> }, { status: 400 });
+  } catch (error) {
+    if (error instanceof SyntaxError) return data({ errors: { form: ["The draft could not be read."] } as Record<string, string[]> }, { status: 400 });
+    if (!(error instanceof HandInRefusedError)) throw error;
+    const errors: Record<string, string[]> = { form: [error.message] };
+    for (const issue of error.issues) (errors[issue.path.join(".") || "form"] ??= []).push(issue.message);
+    return data({ errors }, { status: error.status });
+  }
+}
+
+/** A draft save changes nothing the page shows; skipping the reload keeps typing smooth on a phone. */
+export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  return formData?.get("intent") === "save-draft" ? false : defaultShouldRevalidate;
+}
+
+const timingNotes = {
+  "not-open": "This lab is not open for hand-ins yet; you can fill in your drop log and see the preview.",
+  "on-time": null,
+  late: "The due time has passed: a hand-in now is accepted but marked late.",
+  closed: "This lab takes no more hand-ins.",
+} as const;
+
+export default function LabPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { courseId, timeZone, lab, timing, hasKit, spheres, column, draft, versions, photos, latestVersionId } = loaderData;
+  const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
+  const errors = actionData && "errors" in actionData ? actionData.errors : null;
+  const draftPhotos = photos.filter((photo) => photo.versionId === null);
+  return (
+    <div className="flex flex-col gap-6">
+      <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}>
+        <p className="text-sm">
+          Due <LabTime at={lab.dueAt} courseTimeZone={timeZone} />
+        </p>
+        {lab.lateCutoffAt ? (
+          <p className="text-sm">
+            Late hand-ins until <LabTime at={lab.lateCutoffAt} courseTimeZone={timeZone} />
+          </p>
+        ) : (
+          <p className="text-sm">No late hand-ins after the due time.</p>
+        )}
+      </PageHeader>
+
+      {handedIn ? (
+        <Notice tone="success">
+          Version {handedIn.version} is handed in{handedIn.late ? " (late)" : ""}
+          {handedIn.duplicate ? " — it was already stored, nothing new was added" : ""}. The server's result is below.
+        </Notice>
+      ) : null}
+      {timingNotes[timing] ? <Notice tone={timing === "closed" ? "error" : "warning"}>{timingNotes[timing]}</Notice> : null}
+
+      {lab.instructions ? (
+        <section aria-labelledby="instructions-heading">
+          <h2 id="instructions-heading" className="mb-1 text-lg font-semibold">
+            Instructions
+          </h2>
+          <p className="whitespace-pre-line">{lab.instructions}</p>
+        </section>
+      ) : null}
+      <SafetyCautions compact />
+
+      {hasKit && spheres.length ? (
+        <div className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
+          <DropLogForm
+            key={latestVersionId ?? "new"}
+            labId={lab.id}
+            kind={lab.kind}
+            requiredDrops={lab.requiredDrops}
+            spheres={spheres}
+            columnLabel={column?.label ?? null}
+            columnDistanceMm={column?.timedDistanceMm ?? null}
+            draft={draft}
+            canHandIn={timing === "on-time" || timing === "late"}
+            serverErrors={errors}
+          />
+        </div>
+      ) : (
+        <Notice tone="warning">You need your kit for this lab. Once it is packed for you, its sphere, fluid and column appear here.</Notice>
+      )}
+
+      <PhotoUpload courseId={courseId} labId={lab.id} draftPhotos={draftPhotos} />
+
+      <section aria-labelledby="versions-heading">
+        <h2 id="versions-heading" className="mb-2 text-lg font-semibold">
+          What you handed in
+        </h2>
+        {versions.length === 0 ? <p className="text-ink-700">Nothing yet. Each hand-in is kept as a version; the latest one counts.</p> : null}
+        <ol className="flex flex-col gap-4">
+          {versions.map((version) => (
+            <li key={version.id} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10" aria-label={`Version ${version.version}`}>
+              <h3 className="font-semibold">
+                Version {version.version}
+                {version.id === latestVersionId ? <span className="ml-2 rounded px-2 py-0.5 text-sm font-normal ring-1 ring-consistent">counts</span> : null}
+                {version.late ? <span className="ml-2 rounded px-2 py-0.5 text-sm font-normal text-outlier ring-1 ring-outlier">late</span> : null}
+              </h3>
+              <p className="text-sm text-ink-700">
+                Handed in <LabTime at={version.submittedAt} courseTimeZone={timeZone} />
+              </p>
+              <p className="mt-1 text-sm">
+                Sphere {version.kitRecords.sphere.label}: d = {version.kitRecords.sphere.diameterMm} mm, m = {version.kitRecords.sphere.massG} g · {version.input.temperatureC} °C ·{" "}
+                {version.kitRecords.column.timedDistanceMm} mm · drops {version.input.drops.join(", ")} s
+              </p>
+              <div className="mt-2">
+                <ReductionSummary reduction={version.reduction} normalisedFigure={version.normalisedFigure} />
+                <WarningList warnings={version.reduction.warnings ?? []} />
+              </div>
+              {lab.kind === "drag" && version.kitRecords.fluidLot.viscosityPaS !== null ? (
+                <p className="mt-1 text-xs text-ink-600">
+                  Fluid {version.kitRecords.fluidLot.label}: {figure(version.kitRecords.fluidLot.viscosityPaS)} Pa·s at {version.input.temperatureC} °C from its calibration.
+                </p>
+              ) : null}
+              <PhotoList courseId={courseId} photos={photos.filter((photo) => photo.versionId === version.id)} />
+            </li>
+          ))}
+        </ol>
+      </section>
+    </div>
+  );
+}
+
+type PhotoSummary = { id: string; originalName: string | null; bytes: number };
+
+function PhotoList({ courseId, photos }: { courseId: string; photos: PhotoSummary[] }) {
+  if (!photos.length) return null;
+  return (
+    <ul className="mt-2 flex flex-wrap gap-2">
+      {photos.map((photo) => (
+        <li key={photo.id}>
+          <a href={`/courses/${courseId}/photos/${photo.id}`} target="_blank" rel="noreferrer">
+            <img src={`/courses/${courseId}/photos/${photo.id}`} alt={photo.originalName ?? "Set-up photo"} className="h-20 w-20 rounded object-cover ring-1 ring-ink-900/10" loading="lazy" />
+          </a>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId: string; draftPhotos: PhotoSummary[] }) {
+  const fetcher = useFetcher<{ error?: string; photos?: unknown[] }>();
+  return (
+    <section aria-labelledby="photos-heading" className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
+      <h2 id="photos-heading" className="text-lg font-semibold">
+        Photos of your set-up
+      </h2>
+      <p className="text-sm text-ink-700">JPEG, PNG or WebP, up to 10 MB each. They go with your next hand-in.</p>
+      <fetcher.Form method="post" encType="multipart/form-data" action={`/courses/${courseId}/labs/${labId}/photos`} className="mt-2 flex flex-wrap items-center gap-3">
+        <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" multiple aria-label="Photos to upload" className="text-sm" />
+        <Button type="submit" variant="secondary" disabled={fetcher.state !== "idle"}>
+          {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
+        </Button>
+      </fetcher.Form>
+      {fetcher.data?.error ? <p className="mt-1 text-sm font-medium text-outlier">{fetcher.data.error}</p> : null}
+      <PhotoList courseId={courseId} photos={draftPhotos} />
+    </section>
+  );
+}
+
+export function meta({ data: loaderData }: Route.MetaArgs) {
+  return [{ title: `${loaderData?.lab.title ?? "Lab"} · Benchpost` }];
+}

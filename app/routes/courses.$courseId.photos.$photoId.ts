@@ -1,0 +1,27 @@
+import { data } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.photos.$photoId";
+import { anyRole, requireCourseRole, requireStudentAccess } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { findPhoto, readPhoto } from "~/server/drop-logs/photos.server";
+
+/** A set-up photo, for its student, the course's instructors and the TAs of the student's cohort. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  // Membership first, so that people outside the course learn nothing about which photos exist.
+  const access = await requireCourseRole(request, params.courseId, anyRole);
+  const photo = z.uuid().safeParse(params.photoId).success ? await findPhoto(db, access.course.id, params.photoId) : null;
+  if (!photo) throw data("Not found", { status: 404 });
+  await requireStudentAccess(request, access.course.id, { userId: photo.ownerUserId, cohortId: photo.ownerCohortId });
+  const file = await readPhoto(photo.storageKey);
+  if (!file) throw data("Not found", { status: 404 });
+  return new Response(file.stream(), {
+    headers: {
+      // The type the bytes were checked to be, never the uploader's claim.
+      "Content-Type": photo.contentType,
+      "Content-Length": String(photo.bytes),
+      "Content-Disposition": "inline",
+      "X-Content-Type-Options": "nosniff",
+      "Cache-Control": "private, max-age=3600",
+    },
+  });
+}

@@ -1,0 +1,136 @@
+/**
+ * The drop log over HTTP, through the built app: photo uploads (type by content, 10 MB limit, who may
+ * download), the reduce API that feeds the live preview, and the lab page's hand-in form.
+ */
+import { mkdtemp } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { dropLogPhotos } from "~/db/schema";
+import { db } from "~/server/db.server";
+import { appOrigin, appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
+import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+
+let fixture: AccessFixture;
+let handle: AppHandler;
+const cookies: Record<string, string> = {};
+
+const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]);
+
+function upload(actor: keyof typeof cookies, files: File[]): Request {
+  const form = new FormData();
+  for (const file of files) form.append("photo", file);
+  return new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}/photos`, appOrigin()), {
+    method: "POST",
+    body: form,
+    headers: { Cookie: cookies[actor], Origin: appOrigin() },
+  });
+}
+
+function reduce(actor: keyof typeof cookies | null, body: unknown): Request {
+  return new Request(new URL("/api/v1/reduce", appOrigin()), {
+    method: "POST",
+    body: JSON.stringify(body),
+    headers: { "Content-Type": "application/json", Origin: appOrigin(), ...(actor ? { Cookie: cookies[actor] } : {}) },
+  });
+}
+
+beforeAll(async () => {
+  process.env.STORAGE_DIR = await mkdtemp(path.join(tmpdir(), "benchpost-photos-"));
+  handle = await createAppHandler();
+  fixture = await createAccessFixture("drop-log-routes");
+  for (const actor of ["ownStudent", "sameCohortStudent", "assignedTa", "unassignedTa", "instructor"] as const) cookies[actor] = await sessionCookieFor(fixture.userIds[actor]);
+});
+
+describe("photo uploads", () => {
+  it("stores a PNG on the student's draft and serves it to the student and the staff of their cohort only", async () => {
+    const response = await handle(upload("ownStudent", [new File([png], "column.png", { type: "image/png" })]));
+    expect(response.status).toBe(200);
+    const [stored] = await db.select().from(dropLogPhotos).where(eq(dropLogPhotos.originalName, "column.png"));
+    expect(stored).toMatchObject({ contentType: "image/png", bytes: png.length, versionId: null, dropLogId: fixture.dropLogId });
+
+    const photoPath = `/courses/${fixture.courseId}/photos/${stored.id}`;
+    const own = await handle(appRequest(photoPath, { cookie: cookies.ownStudent }));
+    expect(own.status).toBe(200);
+    expect(own.headers.get("content-type")).toBe("image/png");
+    expect(new Uint8Array(await own.arrayBuffer())).toEqual(png);
+    for (const actor of ["assignedTa", "instructor"]) expect((await handle(appRequest(photoPath, { cookie: cookies[actor] }))).status).toBe(200);
+    // Another student of the same cohort, and a TA of the other cohort: 403.
+    for (const actor of ["sameCohortStudent", "unassignedTa"]) expect((await handle(appRequest(photoPath, { cookie: cookies[actor] }))).status).toBe(403);
+  });
+
+  it("refuses a text file renamed to .jpg with 415, whatever type the browser claims", async () => {
+    const response = await handle(upload("ownStudent", [new File(["time,seconds\n1,7.4\n"], "photo.jpg", { type: "image/jpeg" })]));
+    expect(response.status).toBe(415);
+    expect(await db.select().from(dropLogPhotos).where(eq(dropLogPhotos.originalName, "photo.jpg"))).toEqual([]);
+  });
+
+  it("refuses a photo over 10 MB with 413", async () => {
+    const big = new Uint8Array(10 * 1024 * 1024 + 1);
+    big.set([0xff, 0xd8, 0xff, 0xe0]);
+    const response = await handle(upload("ownStudent", [new File([big], "huge.jpg", { type: "image/jpeg" })]));
+    expect(response.status).toBe(413);
+    expect(await db.select().from(dropLogPhotos).where(eq(dropLogPhotos.originalName, "huge.jpg"))).toEqual([]);
+  });
+
+  it("refuses uploads from staff with 403", async () => {
+    expect((await handle(upload("instructor", [new File([png], "staff.png", { type: "image/png" })]))).status).toBe(403);
+  });
+});
+
+describe("POST /api/v1/reduce", () => {
+  it("reduces a drop log against the caller's kit, with warnings placed on fields", async () => {
+    const response = await handle(reduce("ownStudent", { labId: fixture.labId, input: { sphereId: fixture.sphereId, temperatureC: "22", drops: ["7.4", "7.5", "7.45"] } }));
+    expect(response.status).toBe(200);
+    const body = await response.json();
+    expect(body.reduction.drops.n).toBe(3);
+    expect(body.kitRecords.sphere).toMatchObject({ diameterMm: 3, massG: 0.11 });
+    // Three drops against the lab's default ten required.
+    expect(body.warnings).toContainEqual(expect.objectContaining({ code: "too-few-drops", field: "drops" }));
+  });
+
+  it("answers per-row issues with 400 in the API's error shape", async () => {
+    const response = await handle(reduce("ownStudent", { labId: fixture.labId, input: { sphereId: fixture.sphereId, temperatureC: "22", drops: ["7.4", "x"] } }));
+    expect(response.status).toBe(400);
+    const body = await response.json();
+    expect(body.error.code).toBe("invalid_input");
+    expect(body.error.issues).toEqual([{ path: ["drops", 1], message: expect.stringMatching(/seconds/) }]);
+  });
+
+  it("refuses a student without a kit (409), staff (403), an unknown lab (404) and anonymous callers (401)", async () => {
+    const input = { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.4] };
+    expect((await handle(reduce("sameCohortStudent", { labId: fixture.labId, input }))).status).toBe(409);
+    expect((await handle(reduce("instructor", { labId: fixture.labId, input }))).status).toBe(403);
+    expect((await handle(reduce("ownStudent", { labId: "00000000-0000-4000-8000-000000000000", input }))).status).toBe(404);
+    expect((await handle(reduce(null, { labId: fixture.labId, input }))).status).toBe(401);
+  });
+
+  it("reduces the engine's own SI input for anyone signed in, and lists the engine's issues", async () => {
+    const engine = { mode: "viscometry", sphere: { diameter: 0.003, mass: 0.00011 }, fluid: { density: 1260 }, column: { timedDistance: 0.2 }, drops: [7.4, 7.5, 7.45] };
+    const ok = await handle(reduce("instructor", engine));
+    expect(ok.status).toBe(200);
+    expect((await ok.json()).reduction.mode).toBe("viscometry");
+    const bad = await handle(reduce("instructor", { ...engine, sphere: { diameter: -1, mass: 0.00011 } }));
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error).toMatchObject({ code: "not_reducible", issues: [expect.objectContaining({ path: ["sphere", "diameter"] })] });
+  });
+});
+
+describe("the lab page's hand-in form", () => {
+  it("answers a bad drop row with 400 and its message, and hands in a good log as the next version", async () => {
+    const labPath = `/courses/${fixture.courseId}/labs/${fixture.labId}`;
+    const form = (drops: string[], key: string) => {
+      const body = new URLSearchParams({ intent: "hand-in", idempotencyKey: key, sphereId: fixture.sphereId, temperatureC: "21.8", timedDistanceMm: "200" });
+      for (const drop of drops) body.append("drops", drop);
+      return new Request(new URL(`${labPath}.data`, appOrigin()), { method: "POST", body, headers: { Cookie: cookies.ownStudent, Origin: appOrigin() } });
+    };
+    const refused = await handle(form(["7.4", "-1"], "page-form-key-1"));
+    expect(refused.status).toBe(400);
+    expect(await refused.text()).toContain("A time cannot be negative.");
+    const accepted = await handle(form(["7.4", "7.5", "7.45"], "page-form-key-2"));
+    expect(accepted.status).toBe(200);
+    // The fixture's hand-in is version 1.
+    expect(await accepted.text()).toMatch(/handedIn.*version",2/);
+  });
+});
