@@ -126,6 +126,8 @@ export const courses = pgTable(
     timeZone: text("time_zone").notNull(),
     /** Local gravitational acceleration in m/s²; null means standard gravity 9.80665. */
     localGravity: real("local_gravity"),
+    /** Significance of the kit-part bias test (one-sample t on ln normalised figures); a part beyond it is flagged for re-measurement. */
+    partBiasAlpha: real("part_bias_alpha").notNull().default(0.05),
     createdAt: createdAt(),
   },
   (table) => [uniqueIndex("courses_code_term_unique").on(table.code, table.term)],
@@ -682,3 +684,61 @@ export const dropLogPhotosRelations = relations(dropLogPhotos, ({ one }) => ({
   dropLog: one(dropLogs, { fields: [dropLogPhotos.dropLogId], references: [dropLogs.id] }),
   version: one(dropLogVersions, { fields: [dropLogPhotos.versionId], references: [dropLogVersions.id] }),
 }));
+
+// ---------------------------------------------------------------------------------------------
+// Class comparison: the label each counted hand-in carries, written by the relabel job (never by a
+// hand-in, so that a hand-in locks no other student's rows), and every change of it.
+
+export const comparisonLabel = pgEnum("comparison_label", ["consistent", "suspect", "outlier"]);
+
+/** The method and parameters a label was computed with, as the lab had them then. */
+export type ComparisonMethodSettings = { method: "grubbs" | "iqr"; alpha: number; maxOutliers: number; k: number };
+
+export const comparisonLabels = pgTable(
+  "comparison_labels",
+  {
+    /** One current label per drop log: the one of its latest counted version. */
+    dropLogId: uuid("drop_log_id")
+      .primaryKey()
+      .references(() => dropLogs.id, { onDelete: "cascade" }),
+    labId: uuid("lab_id")
+      .notNull()
+      .references(() => labs.id, { onDelete: "cascade" }),
+    versionId: uuid("version_id")
+      .notNull()
+      .references(() => dropLogVersions.id, { onDelete: "cascade" }),
+    figure: real("figure").notNull(),
+    label: comparisonLabel("label").notNull(),
+    reason: text("reason").notNull(),
+    method: jsonb("method").$type<ComparisonMethodSettings>().notNull(),
+    computedAt: timestamp("computed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [index("comparison_labels_lab_idx").on(table.labId)],
+);
+
+/** A hand-in's label history: a row each time its label (or the version it labels) changes. */
+export const comparisonLabelChanges = pgTable(
+  "comparison_label_changes",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    labId: uuid("lab_id")
+      .notNull()
+      .references(() => labs.id, { onDelete: "cascade" }),
+    dropLogId: uuid("drop_log_id")
+      .notNull()
+      .references(() => dropLogs.id, { onDelete: "cascade" }),
+    versionId: uuid("version_id")
+      .notNull()
+      .references(() => dropLogVersions.id, { onDelete: "cascade" }),
+    /** Null for the first label a hand-in gets. */
+    fromLabel: comparisonLabel("from_label"),
+    toLabel: comparisonLabel("to_label").notNull(),
+    reason: text("reason").notNull(),
+    method: jsonb("method").$type<ComparisonMethodSettings>().notNull(),
+    changedAt: timestamp("changed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [
+    index("comparison_label_changes_log_idx").on(table.dropLogId, table.changedAt),
+    index("comparison_label_changes_lab_idx").on(table.labId),
+  ],
+);

@@ -34,7 +34,7 @@ export function PageHeader({
         <h1 id={id} className="text-2xl font-semibold tracking-tight">
           {title}
         </h1>
-        {children ? <div className="mt-1 text-ink-700">{children}</div> : null}
+        {children ? <p className="mt-1 text-ink-700">{children}</p> : null}
       </div>
       {actions ? <div className="no-print flex flex-wrap gap-2">{actions}</div> : null}
     </header>
