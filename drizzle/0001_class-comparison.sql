@@ -24,9 +24,7 @@ CREATE TABLE "comparison_labels" (
 --> statement-breakpoint
 ALTER TABLE "courses" ADD COLUMN "part_bias_alpha" real DEFAULT 0.05 NOT NULL;--> statement-breakpoint
 ALTER TABLE "comparison_label_changes" ADD CONSTRAINT "comparison_label_changes_lab_id_labs_id_fk" FOREIGN KEY ("lab_id") REFERENCES "public"."labs"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
-ALTER TABLE "comparison_label_changes" ADD CONSTRAINT "comparison_label_changes_drop_log_id_drop_logs_id_fk" FOREIGN KEY ("drop_log_id") REFERENCES "public"."drop_logs"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "comparison_label_changes" ADD CONSTRAINT "comparison_label_changes_version_id_drop_log_versions_id_fk" FOREIGN KEY ("version_id") REFERENCES "public"."drop_log_versions"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
-ALTER TABLE "comparison_labels" ADD CONSTRAINT "comparison_labels_drop_log_id_drop_logs_id_fk" FOREIGN KEY ("drop_log_id") REFERENCES "public"."drop_logs"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "comparison_labels" ADD CONSTRAINT "comparison_labels_lab_id_labs_id_fk" FOREIGN KEY ("lab_id") REFERENCES "public"."labs"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "comparison_labels" ADD CONSTRAINT "comparison_labels_version_id_drop_log_versions_id_fk" FOREIGN KEY ("version_id") REFERENCES "public"."drop_log_versions"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 CREATE INDEX "comparison_label_changes_log_idx" ON "comparison_label_changes" USING btree ("drop_log_id","changed_at");--> statement-breakpoint

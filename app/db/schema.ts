@@ -697,10 +697,12 @@ export type ComparisonMethodSettings = { method: "grubbs" | "iqr"; alpha: number
 export const comparisonLabels = pgTable(
   "comparison_labels",
   {
-    /** One current label per drop log: the one of its latest counted version. */
-    dropLogId: uuid("drop_log_id")
-      .primaryKey()
-      .references(() => dropLogs.id, { onDelete: "cascade" }),
+    /**
+     * One current label per drop log: the one of its latest counted version. No foreign key on purpose:
+     * its check would take a key-share lock on every drop_logs row of the lab while the job relabels,
+     * and a hand-in's `select … for update` of its own drop log would then wait for the job.
+     */
+    dropLogId: uuid("drop_log_id").primaryKey(),
     labId: uuid("lab_id")
       .notNull()
       .references(() => labs.id, { onDelete: "cascade" }),
@@ -724,9 +726,8 @@ export const comparisonLabelChanges = pgTable(
     labId: uuid("lab_id")
       .notNull()
       .references(() => labs.id, { onDelete: "cascade" }),
-    dropLogId: uuid("drop_log_id")
-      .notNull()
-      .references(() => dropLogs.id, { onDelete: "cascade" }),
+    /** No foreign key, for the reason given on `comparison_labels.drop_log_id`. */
+    dropLogId: uuid("drop_log_id").notNull(),
     versionId: uuid("version_id")
       .notNull()
       .references(() => dropLogVersions.id, { onDelete: "cascade" }),

@@ -4,6 +4,7 @@ import type { Route } from "./+types/courses.$courseId.parts.$partId";
 import { PartFields } from "~/components/kits/part-fields";
 import { StatusBadge } from "~/components/kits/status-badge";
 import { ViscosityChart } from "~/components/kits/viscosity-chart";
+import { PartBiasBadge, PartBiasEvidence } from "~/components/comparison/part-bias";
 import { TextAreaField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
@@ -16,6 +17,7 @@ import { partInput, partKindLabels, type PartKind } from "~/lib/kits/part-input"
 import { partToCsvRow } from "~/lib/kits/parts-csv";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { listPartBias } from "~/server/comparison/part-quality.server";
 import { DuplicateLabelError, getPartPage, setPartStatus, updatePart } from "~/server/kits/parts.server";
 
 const note = z.string().trim().max(500, "Keep the note under 500 characters.").optional().transform((value) => value || null);
@@ -33,9 +35,10 @@ function partIdFrom(params: { partId?: string }): string {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
-  const page = await getPartPage(db, access.course.id, partIdFrom(params));
+  const partId = partIdFrom(params);
+  const [page, bias] = await Promise.all([getPartPage(db, access.course.id, partId), listPartBias(db, access.course.id, partId)]);
   if (!page) throw data("Not found", { status: 404 });
-  return { ...page, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
+  return { ...page, bias: bias.get(partId) ?? null, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -73,7 +76,7 @@ const savedMessages: Record<string, string> = {
 };
 
 export default function PartPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { part, warnings, calibration, courseId, timeZone, mayEdit } = loaderData;
+  const { part, warnings, calibration, bias, courseId, timeZone, mayEdit } = loaderData;
   const [search] = useSearchParams();
   const saved = savedMessages[search.get("saved") ?? ""];
   const base = `/courses/${courseId}`;
@@ -83,6 +86,7 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
       <PageHeader title={`${partKindLabels[part.kind as PartKind]} ${part.label}`} trail={[{ to: `${base}/parts`, label: "Parts" }]}>
         <span className="flex flex-wrap items-center gap-2">
           <StatusBadge status={part.status} />
+          {bias?.flagged ? <PartBiasBadge /> : null}
           <span>{measurementSummary(part)}</span>
         </span>
       </PageHeader>
@@ -118,6 +122,8 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
         </div>
         {mayEdit ? <StatusActions status={part.status} failed={actionData?.intent === "status" ? actionData.errors : undefined} /> : null}
       </section>
+
+      {bias ? <PartBiasEvidence bias={bias} courseId={courseId} /> : null}
 
       {calibration ? <CalibrationSection calibration={calibration} label={part.label} /> : null}
 

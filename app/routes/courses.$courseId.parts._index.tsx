@@ -7,10 +7,12 @@ import { SelectField, TextField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
 import { PageHeader } from "~/components/ui/page-header";
 import { StatusBadge } from "~/components/kits/status-badge";
+import { PartBiasBadge } from "~/components/comparison/part-bias";
 import { measurementSummary, partStatusLabels } from "~/lib/kits/part-display";
 import { partKindLabels, type PartKind } from "~/lib/kits/part-input";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { listPartBias } from "~/server/comparison/part-quality.server";
 import { listParts } from "~/server/kits/parts.server";
 
 /** Filters from the URL; an unknown value is ignored rather than refused, so an old bookmark still opens. */
@@ -25,7 +27,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const filters = listFilters.parse(Object.fromEntries(url.searchParams));
   const paging = readPaging(url);
-  const { rows, total } = await listParts(db, access.course.id, { ...filters, search: filters.search || undefined, ...paging });
+  const [{ rows, total }, bias] = await Promise.all([
+    listParts(db, access.course.id, { ...filters, search: filters.search || undefined, ...paging }),
+    listPartBias(db, access.course.id),
+  ]);
   return {
     courseId: access.course.id,
     mayEdit: access.membership.role === "instructor",
@@ -38,6 +43,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       status: part.status,
       kitNumber: part.kitNumber,
       measurements: measurementSummary(part),
+      biased: bias.get(part.id)?.flagged ?? false,
     })),
   };
 }
@@ -51,9 +57,12 @@ export default function PartsList({ loaderData }: Route.ComponentProps) {
     {
       header: "Label",
       cell: ({ row }) => (
-        <Link to={`${base}/parts/${row.original.id}`} className="font-medium text-ink-800 underline underline-offset-2">
-          {row.original.label}
-        </Link>
+        <>
+          <Link to={`${base}/parts/${row.original.id}`} className="font-medium text-ink-800 underline underline-offset-2">
+            {row.original.label}
+          </Link>
+          {row.original.biased ? <PartBiasBadge /> : null}
+        </>
       ),
     },
     { header: "Kind", cell: ({ row }) => partKindLabels[row.original.kind as PartKind] },

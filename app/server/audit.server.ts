@@ -26,7 +26,8 @@ export type AuditAction =
   | "course.member_removed"
   | "course.created"
   | "course.settings_changed"
-  | "course.ta_cohorts_changed";
+  | "course.ta_cohorts_changed"
+  | "lab.comparison_method_changed";
 
 export type AuditInput = {
   action: AuditAction;

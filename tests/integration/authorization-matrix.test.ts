@@ -95,12 +95,18 @@ const matrix: MatrixRow[] = [
   // The probe is not multipart: those who may upload get 400.
   row("POST", "/courses/:courseId/labs/:labId/photos", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400 }),
   row("GET", "/courses/:courseId/photos/:photoId", ownWork(200)),
+  // The class comparison names students: instructors, and the TAs of a cohort the lab is set for.
+  row("GET", "/courses/:courseId/labs/:labId/comparison", cohortStaff(200)),
+  // The probe's intent is unknown: 400 for the staff who may preview (saving is the instructor's).
+  row("POST", "/courses/:courseId/labs/:labId/comparison", cohortStaff(400)),
+  row("GET", "/courses/:courseId/labs/:labId/comparison.csv", cohortStaff(200)),
   row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
   row("GET", "/api/v1/me", { ...everyone(200), anonymous: 401 }),
   // The probe is a form, not JSON: 400 for anyone signed in.
   row("POST", "/api/v1/reduce", { ...everyone(400), anonymous: 401 }),
+  row("GET", "/api/v1/labs/:labId/class-comparison", { ...cohortStaff(200), anonymous: 401 }),
   row("GET", "/dev/inbox", devInbox(200)),
   row("GET", "/api/dev/emails", devInbox(200), { query: "?to=someone@matrix.example" }),
   row("GET", "/*", everyone(404)),

@@ -12,6 +12,7 @@ import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { reduceDropLog, type ColumnRecord, type DropLogReduction, type FluidLotRecord, type SphereRecord } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
+import { queueClassComparison } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
 
 export type HandInRefusalCode =
@@ -238,6 +239,7 @@ export async function handInDropLog(
     }
     await tx.update(dropLogs).set({ latestVersionId: inserted.id, draft: null, draftSavedAt: null }).where(eq(dropLogs.id, dropLog.id));
     await tx.update(dropLogPhotos).set({ versionId: inserted.id }).where(and(eq(dropLogPhotos.dropLogId, dropLog.id), isNull(dropLogPhotos.versionId)));
+    await queueClassComparison(tx, labId);
     return { version: inserted, duplicate: false };
   });
 }

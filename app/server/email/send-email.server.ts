@@ -8,8 +8,8 @@ import { inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import { emailOutbox } from "~/db/schema";
 import { insertMany } from "~/server/bulk-insert.server";
-import type { Executor, Transaction } from "~/server/db.server";
-import { enqueuer, queues } from "~/server/jobs/boss.server";
+import type { Executor } from "~/server/db.server";
+import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
 import { type EmailTemplateName, type EmailTemplates, templatePropsSchemas } from "../../../emails/template-props";
 import { emailSubject } from "./email-templates.server";
 
@@ -43,22 +43,6 @@ const envelopeSchema = z.object({
   courseId: z.uuid().nullish(),
   dedupeKey: z.string().min(1).max(200).optional(),
 });
-
-/**
- * pg-boss accepts a caller's database adapter for `send`. This one runs pg-boss's numbered-parameter SQL
- * through Drizzle on the caller's transaction, so the job insert commits or rolls back with it.
- */
-function transactionAdapter(tx: Transaction) {
-  return {
-    async executeSql(text: string, values: unknown[] = []) {
-      // split() with a capture group alternates text and parameter numbers: "a $1 b" → ["a ", "1", " b"].
-      const pieces = text.split(/\$(\d+)/);
-      const query = sql.join(pieces.map((piece, index) => (index % 2 === 0 ? sql.raw(piece) : sql.param(values[Number(piece) - 1]))));
-      const result = await tx.execute<Record<string, unknown>>(query);
-      return { rows: result.rows };
-    },
-  };
-}
 
 export type EmailMessage<T extends EmailTemplateName = EmailTemplateName> = {
   to: string;

@@ -2,7 +2,9 @@
  * pg-boss, our job queue in PostgreSQL: the queue names, their retry policies and the one place that
  * creates them. Later work (deadline reminders, class-comparison jobs) adds its queues here.
  */
+import { sql } from "drizzle-orm";
 import PgBoss from "pg-boss";
+import type { Transaction } from "~/server/db.server";
 import { developmentDatabaseUrl } from "../../../scripts/lib/database-url";
 
 export const queues = {
@@ -10,6 +12,13 @@ export const queues = {
   emailDelivery: "email-delivery",
   /** Where pg-boss moves a delivery job after its last retry, so that the outbox row is marked failed. */
   emailGaveUp: "email-gave-up",
+  /**
+   * One job per hand-in or method change, inserted on its transaction. Plain jobs, never singletons:
+   * two hand-ins inserting the same singleton key would wait on each other's unique-index entry.
+   */
+  classComparisonRequested: "class-comparison-requested",
+  /** The debounced relabel of one lab (singletonKey = lab id), sent by the worker from the requests above. */
+  classComparison: "class-comparison",
 } as const;
 
 /**
@@ -25,6 +34,8 @@ export function createBoss(connectionString = developmentDatabaseUrl(), options:
 const queueSettings: PgBoss.Queue[] = [
   { name: queues.emailGaveUp },
   { name: queues.emailDelivery, ...emailDeliveryPolicy, deadLetter: queues.emailGaveUp },
+  { name: queues.classComparisonRequested, retryLimit: 5, retryDelay: 10, retryBackoff: true },
+  { name: queues.classComparison, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 300 },
 ];
 
 /**
@@ -58,4 +69,20 @@ export async function installJobQueues(connectionString: string): Promise<void> 
 const globalForBoss = globalThis as unknown as { benchpostEnqueuer?: PgBoss };
 export function enqueuer(): PgBoss {
   return (globalForBoss.benchpostEnqueuer ??= createBoss());
+}
+
+/**
+ * pg-boss accepts a caller's database adapter for `send`. This one runs pg-boss's numbered-parameter SQL
+ * through Drizzle on the caller's transaction, so the job insert commits or rolls back with it.
+ */
+export function transactionAdapter(tx: Transaction) {
+  return {
+    async executeSql(text: string, values: unknown[] = []) {
+      // split() with a capture group alternates text and parameter numbers: "a $1 b" → ["a ", "1", " b"].
+      const pieces = text.split(/\$(\d+)/);
+      const query = sql.join(pieces.map((piece, index) => (index % 2 === 0 ? sql.raw(piece) : sql.param(values[Number(piece) - 1]))));
+      const result = await tx.execute<Record<string, unknown>>(query);
+      return { rows: result.rows };
+    },
+  };
 }

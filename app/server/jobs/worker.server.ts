@@ -3,6 +3,7 @@
  * hands each job to one of them (SELECT … FOR UPDATE SKIP LOCKED), and a failed job is retried later.
  */
 import type PgBoss from "pg-boss";
+import { relabelLab, scheduleRelabel, type ClassComparisonJob } from "~/server/comparison/class-comparison.server";
 import { createDatabase, createPool } from "~/server/db.server";
 import { deliverOutboxEmail, markEmailFailed } from "~/server/email/deliver-email.server";
 import type { EmailTransport } from "~/server/email/email-transport.server";
@@ -101,6 +102,17 @@ export async function startWorker(options: {
       async (job) => {
         await markEmailFailed(database, job.data.outboxId, "The delivery job was given up without an error message.");
         log(`e-mail ${job.data.outboxId}: failed after its last retry`);
+      },
+      log,
+    ),
+    runJobs<ClassComparisonJob>(boss, queues.classComparisonRequested, pollingIntervalMs, (job) => scheduleRelabel(boss, job.data.labId), log),
+    runJobs<ClassComparisonJob>(
+      boss,
+      queues.classComparison,
+      pollingIntervalMs,
+      async (job) => {
+        const outcome = await relabelLab(database, job.data.labId);
+        log(`class comparison ${job.data.labId}: ${outcome.labelled} labelled, ${outcome.changed} changed`);
       },
       log,
     ),

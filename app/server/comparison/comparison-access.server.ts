@@ -1,0 +1,30 @@
+/**
+ * Who may read a lab's class comparison: its instructors (every cohort) and the TAs of a cohort the
+ * lab is set for (they see their cohorts' hand-ins, labelled against the whole class). Students never:
+ * the comparison names other students.
+ */
+import { data } from "react-router";
+import { z } from "zod";
+import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
+import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { loadComparisonLab, type ComparisonLab } from "./class-comparison.server";
+
+export async function requireComparisonAccess(
+  request: Request,
+  courseId: string | undefined,
+  labId: string | undefined,
+  roles: readonly ("instructor" | "ta")[] = staffRoles,
+): Promise<{ access: CourseAccess; lab: ComparisonLab }> {
+  const access = await requireCourseRole(request, courseId, roles);
+  const lab = z.uuid().safeParse(labId).success ? await loadComparisonLab(db, access.course.id, labId!) : null;
+  if (!lab) {
+    if (isApiRequest(request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
+    throw data("Not found", { status: 404 });
+  }
+  if (access.membership.role === "ta" && !lab.cohortIds.some((cohortId) => access.cohortIds.includes(cohortId))) {
+    // A TA of none of the lab's cohorts: the cohort check refuses (and records the refusal) as it does elsewhere.
+    await requireCohortAccess(request, access.course.id, lab.cohortIds[0] ?? "no-cohort");
+  }
+  return { access, lab };
+}
