@@ -1,3 +1,4 @@
+CREATE TYPE "public"."comparison_label" AS ENUM('consistent', 'suspect', 'outlier');--> statement-breakpoint
 CREATE TYPE "public"."course_role" AS ENUM('instructor', 'ta', 'student');--> statement-breakpoint
 CREATE TYPE "public"."email_link_purpose" AS ENUM('sign_in', 'password_reset');--> statement-breakpoint
 CREATE TYPE "public"."email_status" AS ENUM('queued', 'sent', 'failed');--> statement-breakpoint
@@ -46,6 +47,29 @@ CREATE TABLE "cohorts" (
 	"created_at" timestamp with time zone DEFAULT now() NOT NULL
 );
 --> statement-breakpoint
+CREATE TABLE "comparison_label_changes" (
+	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
+	"lab_id" uuid NOT NULL,
+	"drop_log_id" uuid NOT NULL,
+	"version_id" uuid NOT NULL,
+	"from_label" "comparison_label",
+	"to_label" "comparison_label" NOT NULL,
+	"reason" text NOT NULL,
+	"method" jsonb NOT NULL,
+	"changed_at" timestamp with time zone DEFAULT now() NOT NULL
+);
+--> statement-breakpoint
+CREATE TABLE "comparison_labels" (
+	"drop_log_id" uuid PRIMARY KEY NOT NULL,
+	"lab_id" uuid NOT NULL,
+	"version_id" uuid NOT NULL,
+	"figure" real NOT NULL,
+	"label" "comparison_label" NOT NULL,
+	"reason" text NOT NULL,
+	"method" jsonb NOT NULL,
+	"computed_at" timestamp with time zone DEFAULT now() NOT NULL
+);
+--> statement-breakpoint
 CREATE TABLE "course_memberships" (
 	"id" uuid PRIMARY KEY DEFAULT gen_random_uuid() NOT NULL,
 	"course_id" uuid NOT NULL,
@@ -63,6 +87,7 @@ CREATE TABLE "courses" (
 	"term" text NOT NULL,
 	"time_zone" text NOT NULL,
 	"local_gravity" real,
+	"part_bias_alpha" real DEFAULT 0.05 NOT NULL,
 	"created_at" timestamp with time zone DEFAULT now() NOT NULL
 );
 --> statement-breakpoint
@@ -292,6 +317,10 @@ ALTER TABLE "api_tokens" ADD CONSTRAINT "api_tokens_user_id_users_id_fk" FOREIGN
 ALTER TABLE "audit_events" ADD CONSTRAINT "audit_events_course_id_courses_id_fk" FOREIGN KEY ("course_id") REFERENCES "public"."courses"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "audit_events" ADD CONSTRAINT "audit_events_actor_id_users_id_fk" FOREIGN KEY ("actor_id") REFERENCES "public"."users"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "cohorts" ADD CONSTRAINT "cohorts_course_id_courses_id_fk" FOREIGN KEY ("course_id") REFERENCES "public"."courses"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "comparison_label_changes" ADD CONSTRAINT "comparison_label_changes_lab_id_labs_id_fk" FOREIGN KEY ("lab_id") REFERENCES "public"."labs"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "comparison_label_changes" ADD CONSTRAINT "comparison_label_changes_version_id_drop_log_versions_id_fk" FOREIGN KEY ("version_id") REFERENCES "public"."drop_log_versions"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "comparison_labels" ADD CONSTRAINT "comparison_labels_lab_id_labs_id_fk" FOREIGN KEY ("lab_id") REFERENCES "public"."labs"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "comparison_labels" ADD CONSTRAINT "comparison_labels_version_id_drop_log_versions_id_fk" FOREIGN KEY ("version_id") REFERENCES "public"."drop_log_versions"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "course_memberships" ADD CONSTRAINT "course_memberships_course_id_courses_id_fk" FOREIGN KEY ("course_id") REFERENCES "public"."courses"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "course_memberships" ADD CONSTRAINT "course_memberships_user_id_users_id_fk" FOREIGN KEY ("user_id") REFERENCES "public"."users"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "course_memberships" ADD CONSTRAINT "course_memberships_cohort_id_cohorts_id_fk" FOREIGN KEY ("cohort_id") REFERENCES "public"."cohorts"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint
@@ -334,6 +363,9 @@ CREATE INDEX "audit_events_actor_idx" ON "audit_events" USING btree ("actor_id")
 CREATE INDEX "caught_emails_received_idx" ON "caught_emails" USING btree ("received_at");--> statement-breakpoint
 CREATE INDEX "caught_emails_to_idx" ON "caught_emails" USING gin ("to_addresses");--> statement-breakpoint
 CREATE UNIQUE INDEX "cohorts_course_name_unique" ON "cohorts" USING btree ("course_id","name");--> statement-breakpoint
+CREATE INDEX "comparison_label_changes_log_idx" ON "comparison_label_changes" USING btree ("drop_log_id","changed_at");--> statement-breakpoint
+CREATE INDEX "comparison_label_changes_lab_idx" ON "comparison_label_changes" USING btree ("lab_id");--> statement-breakpoint
+CREATE INDEX "comparison_labels_lab_idx" ON "comparison_labels" USING btree ("lab_id");--> statement-breakpoint
 CREATE UNIQUE INDEX "course_memberships_course_user_unique" ON "course_memberships" USING btree ("course_id","user_id");--> statement-breakpoint
 CREATE INDEX "course_memberships_user_idx" ON "course_memberships" USING btree ("user_id");--> statement-breakpoint
 CREATE INDEX "course_memberships_cohort_idx" ON "course_memberships" USING btree ("cohort_id");--> statement-breakpoint

@@ -12,6 +12,7 @@ import { developmentDatabaseUrl } from "../scripts/lib/database-url";
 import { ensureDatabases } from "../scripts/lib/postgres";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "./demo-scenario";
 import { seedKits } from "./seed-kits";
+import { seedLabs } from "./seed-labs";
 
 export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
   const existing = await db
@@ -24,7 +25,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   // One hash for everyone: argon2id is slow by design, and the demo password is public anyway.
   const passwordHash = await hashPassword(DEMO_PASSWORD);
 
-  await db.transaction(async (tx) => {
+  const courseId = await db.transaction(async (tx) => {
     const [course] = await tx.insert(courses).values(demoCourse).returning();
     const cohortRows = await tx
       .insert(cohorts)
@@ -75,7 +76,12 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
       instructorId: userIdOf(scenario.instructor.email),
       studentMembershipIds: scenario.students.map((student) => membershipOf(student.email)),
     });
+    return course.id;
   });
+  // After the people and kits are committed: hand-ins go through the server's own hand-in path.
+  const labFaker = new Faker({ locale: [en] });
+  labFaker.seed(2142);
+  await seedLabs(db, labFaker, { courseId });
   return "seeded";
 }
 

@@ -41,8 +41,8 @@ function draftFromInput(input: DropLogInput): DropLogDraft {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, anyRole);
-  // Staff follow a lab on its dashboard; this page is the student's bench.
-  if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/dashboard`);
+  // Staff follow a lab through its class comparison; this page is the student's bench.
+  if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/comparison`);
   const [context, dropLog] = await Promise.all([studentLab(access, params.labId), getDropLogForStudent(db, { labId: params.labId, membershipId: access.membership.id })]);
   const { lab } = context;
   const column = context.usableParts.find((part) => part.kind === "column") ?? null;

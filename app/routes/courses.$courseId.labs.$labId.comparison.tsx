@@ -59,9 +59,6 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
         actions={
           <>
-            <Link to={`${base}/dashboard`} className="rounded px-3 py-2 text-sm underline">
-              Lab dashboard
-            </Link>
             <a href={`${base}/comparison.csv`} className="rounded px-3 py-2 text-sm underline" download>
               Download the table (CSV)
             </a>
@@ -174,7 +171,7 @@ function HandInTable({ handIns }: Pick<LoaderData, "handIns">) {
               </tr>
             ) : (
               handIns.map((handIn) => (
-                <tr key={handIn.dropLogId}>
+                <tr key={handIn.dropLogId} id={`drop-log-${handIn.dropLogId}`}>
                   <td className="px-3 py-2">
                     <Link to={handIn.href} className="underline underline-offset-2">
                       {handIn.student.name}

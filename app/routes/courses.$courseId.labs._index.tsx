@@ -29,7 +29,7 @@ export default function Labs({ loaderData }: Route.ComponentProps) {
       <ul className="flex flex-col gap-3">
         {labs.map((lab) => {
           const status = dropLogStatus({ hasDraft: lab.hasDraft, latestLate: lab.latestLate });
-          const to = staff ? `/courses/${courseId}/labs/${lab.id}/dashboard` : `/courses/${courseId}/labs/${lab.id}`;
+          const to = staff ? `/courses/${courseId}/labs/${lab.id}/comparison` : `/courses/${courseId}/labs/${lab.id}`;
           return (
             <li key={lab.id} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
               <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -51,7 +51,7 @@ export default function Labs({ loaderData }: Route.ComponentProps) {
               </p>
               {staff ? (
                 <Link to={to} className="text-sm underline">
-                  Open the dashboard
+                  Open the class comparison
                 </Link>
               ) : null}
             </li>

@@ -5,7 +5,7 @@ import { DropTimesChart } from "./drop-times-chart";
 
 const point = (index: number, overrides: Partial<ComparisonPoint> = {}): ComparisonPoint => ({
   id: `p${index}`,
-  href: `/courses/c/labs/l/dashboard#drop-log-p${index}`,
+  href: `/courses/c/labs/l/comparison#drop-log-p${index}`,
   studentName: `Student ${index}`,
   label: index % 7 === 0 ? "outlier" : index % 5 === 0 ? "suspect" : "consistent",
   figure: 1 + (index % 10) / 100,
@@ -35,7 +35,7 @@ describe("comparison plots", () => {
     const points = Array.from({ length: 23 }, (_, i) => point(i));
     const markup = renderToStaticMarkup(<DragCurveChart points={points} title="Drag" />);
     expect(count(markup, /data-point="/g)).toBe(23);
-    expect(count(markup, /href="\/courses\/c\/labs\/l\/dashboard#drop-log-p\d+"/g)).toBe(23 * 2); // point and table row
+    expect(count(markup, /href="\/courses\/c\/labs\/l\/comparison#drop-log-p\d+"/g)).toBe(23 * 2); // point and table row
     // 3 legend markers plus one per point, by label: circles (consistent), paths (suspect), rects (outlier).
     const outliers = points.filter((p) => p.label === "outlier").length;
     expect(count(markup, /<rect[^>]*data-label="outlier"/g)).toBe(outliers + 1);

@@ -2,6 +2,7 @@
  * Kit-part quality on the inventory screens: a badge for a part whose hand-ins are biased, and the
  * evidence behind it (the t-test and the hand-ins it read).
  */
+import { handInHref } from "~/lib/comparison/links";
 import { MINIMUM_HAND_INS_FOR_BIAS } from "~/lib/comparison/part-bias";
 import { formatNumber } from "~/lib/kits/part-display";
 
@@ -57,7 +58,7 @@ export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId:
                   </a>
                 </td>
                 <td>
-                  <a href={`/courses/${courseId}/labs/${handIn.labId}/dashboard#drop-log-${handIn.dropLogId}`} className="underline">
+                  <a href={handInHref(courseId, handIn.labId, handIn.dropLogId)} className="underline">
                     {handIn.studentName}
                   </a>
                 </td>

@@ -4,6 +4,7 @@
  * versions whenever it is read, so a page is never stale and never waits for a job; the relabel job
  * writes the same labels, with their history, for marking and exports.
  */
+import { handInHref } from "~/lib/comparison/links";
 import { and, eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { z } from "zod";
@@ -191,8 +192,6 @@ export function readComparisonFilters(url: URL): ComparisonFilters {
   return { cohortId: parsed.cohort, label: parsed.label };
 }
 
-/** Where a point or row of the comparison links: the hand-in on the lab's staff dashboard. */
-export const handInHref = (courseId: string, labId: string, dropLogId: string) => `/courses/${courseId}/labs/${labId}/dashboard#drop-log-${dropLogId}`;
 
 /** The comparison as the page, the API and the CSV give it: plain JSON, the same fields everywhere. */
 export function comparisonJson(comparison: LabComparison) {

@@ -1,0 +1,127 @@
+/**
+ * The demo labs and their drop logs. Timings are generated from the physics the server reduces with
+ * (force balance with the Schiller–Naumann drag and Faxén's wall factor, or Stokes' law for the
+ * viscometry lab), at a room temperature through the fluid lot's fitted viscosity, plus human
+ * stopwatch noise. A few are deliberately wrong. Invented demo data: never a test's expected value.
+ */
+import type { Faker } from "@faker-js/faker";
+import { eq } from "drizzle-orm";
+import { cohorts, courseMemberships, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
+import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { fitFluidViscosity, referenceDragCoefficient, viscosityAt, wallFactor } from "~/lib/reduction";
+import type { CourseAccess } from "~/server/auth/access.server";
+import type { Database } from "~/server/db.server";
+import { handInDropLog } from "~/server/drop-logs/hand-in.server";
+
+const DAY_MS = 86_400_000;
+const G = 9.80665;
+const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 };
+
+/** Terminal velocity in an unbounded fluid from the force balance, by fixed-point iteration on Re. */
+function terminalVelocity(diameter: number, sphereDensity: number, fluidDensity: number, viscosity: number, dragLaw: "schiller-naumann" | "stokes") {
+  const buoyantWeight = (sphereDensity - fluidDensity) * G * (Math.PI * diameter ** 3) / 6;
+  let velocity = buoyantWeight / (3 * Math.PI * viscosity * diameter);
+  for (let step = 0; step < 50; step++) {
+    const reynolds = (fluidDensity * velocity * diameter) / viscosity;
+    const dragCoefficient = referenceDragCoefficient(reynolds, dragLaw);
+    velocity = Math.sqrt(buoyantWeight / (0.5 * fluidDensity * dragCoefficient * (Math.PI * diameter ** 2) / 4));
+  }
+  return velocity;
+}
+
+type Mistake = "none" | "stopwatch-slip" | "warm-fluid" | "wrong-sphere";
+
+export async function seedLabs(db: Database, faker: Faker, { courseId }: { courseId: string }): Promise<void> {
+  const now = Date.now();
+  const courseParts = await db.select().from(parts).where(eq(parts.courseId, courseId));
+  const glycerol = courseParts.find((part) => part.label === "GLY-95A")!;
+  const syrup = courseParts.find((part) => part.label === "SYR-2B")!;
+  const cohortRows = await db.select({ id: cohorts.id }).from(cohorts).where(eq(cohorts.courseId, courseId));
+  const except = (lot: { id: string }) => courseParts.filter((part) => part.id !== lot.id).map((part) => part.id);
+
+  const [dragLab, viscometryLab] = await db
+    .insert(labs)
+    .values([
+      {
+        courseId,
+        title: "Drag on a settling sphere",
+        kind: "drag" as const,
+        status: "published" as const,
+        instructions: "Drop the 3 mm steel sphere ten times through the glycerol–water column and time it between the bands.",
+        opensAt: new Date(now - 16 * DAY_MS),
+        dueAt: new Date(now - 2 * DAY_MS),
+        lateCutoffAt: new Date(now + 5 * DAY_MS),
+        allowedPartIds: except(syrup),
+        resolutions,
+        publishedAt: new Date(now - 16 * DAY_MS),
+      },
+      {
+        courseId,
+        title: "Falling-ball viscometry of glucose syrup",
+        kind: "viscometry" as const,
+        status: "published" as const,
+        instructions: "Drop the 6 mm glass sphere ten times through the syrup and time it between the bands.",
+        opensAt: new Date(now - 3 * DAY_MS),
+        dueAt: new Date(now + 5 * DAY_MS),
+        lateCutoffAt: new Date(now + 8 * DAY_MS),
+        allowedPartIds: except(glycerol),
+        resolutions,
+        publishedAt: new Date(now - 3 * DAY_MS),
+      },
+    ])
+    .returning();
+  await db.insert(labCohorts).values([dragLab, viscometryLab].flatMap((lab) => cohortRows.map((cohort) => ({ labId: lab.id, cohortId: cohort.id }))));
+
+  // Students who hold a kit, with the parts of it, in one statement.
+  const holders = await db
+    .select({ membershipId: courseMemberships.id, cohortId: courseMemberships.cohortId, userId: users.id, email: users.email, name: users.name, part: parts })
+    .from(kits)
+    .innerJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .innerJoin(kitParts, eq(kitParts.kitId, kits.id))
+    .innerJoin(parts, eq(parts.id, kitParts.partId))
+    .where(eq(kits.courseId, courseId));
+  const byStudent = new Map<string, typeof holders>();
+  for (const row of holders) byStudent.set(row.membershipId, [...(byStudent.get(row.membershipId) ?? []), row]);
+
+  const [course] = await db.query.courses.findMany({ where: (c, { eq: equals }) => equals(c.id, courseId) });
+  const students = [...byStudent.values()];
+  for (const [index, rows] of students.entries()) {
+    const { membershipId, cohortId, userId, email, name } = rows[0];
+    const access: CourseAccess = {
+      user: { id: userId, email, name, mayCreateCourses: false, sessionId: null, via: "session" },
+      course: { id: courseId, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
+      membership: { id: membershipId, role: "student", cohortId },
+      cohortIds: cohortId ? [cohortId] : [],
+    };
+    const column = rows.find((row) => row.part.kind === "column")!.part;
+    const sphereOf = (prefix: string) => rows.find((row) => row.part.label.startsWith(prefix))!.part;
+    const mistake: Mistake = index === 3 ? "stopwatch-slip" : index === 7 ? "warm-fluid" : index === 11 ? "wrong-sphere" : "none";
+
+    const dropsFor = (sphere: typeof column, lot: typeof column, temperatureC: number, dragLaw: "schiller-naumann" | "stokes", jitter: number) => {
+      const diameter = sphere.diameterMm! / 1000;
+      const density = (6 * (sphere.massG! / 1000)) / (Math.PI * diameter ** 3);
+      const viscosity = viscosityAt(fitFluidViscosity(lot.calibration!.map((p) => ({ temperature: p.temperatureC, viscosity: p.viscosityPaS }))), temperatureC);
+      const velocity = terminalVelocity(diameter, density, lot.densityKgM3!, viscosity, dragLaw) * wallFactor(sphere.diameterMm! / column.innerDiameterMm!, "faxen");
+      const time = column.timedDistanceMm! / 1000 / velocity;
+      return Array.from({ length: 10 }, () => Number((time + faker.number.float({ min: -jitter, max: jitter })).toFixed(2)));
+    };
+
+    // Most of the class handed the drag lab in before its due time; a few are late; a few never did.
+    if (index % 9 !== 8) {
+      const temperatureC = Number(faker.number.float({ min: 19, max: 23 }).toFixed(1));
+      const timedSphere = mistake === "wrong-sphere" ? sphereOf("S4") : sphereOf("S3");
+      const drops = dropsFor(timedSphere, glycerol, mistake === "warm-fluid" ? temperatureC + 6 : temperatureC, "schiller-naumann", 0.12);
+      if (mistake === "stopwatch-slip") drops[4] = Number((drops[4] * 2).toFixed(2));
+      const input: DropLogInput = { sphereId: sphereOf("S3").id, temperatureC, drops, notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined };
+      const late = index % 6 === 5;
+      await handInDropLog(db, { access, labId: dragLab.id, input, idempotencyKey: `demo-drag-${membershipId}`, now: new Date(now - (late ? 1 : 3) * DAY_MS) });
+    }
+    // The viscometry lab is still open: about half have handed in.
+    if (index % 2 === 0) {
+      const temperatureC = Number(faker.number.float({ min: 18, max: 22 }).toFixed(1));
+      const input: DropLogInput = { sphereId: sphereOf("G6").id, temperatureC, drops: dropsFor(sphereOf("G6"), syrup, temperatureC, "stokes", 0.2) };
+      await handInDropLog(db, { access, labId: viscometryLab.id, input, idempotencyKey: `demo-visc-${membershipId}`, now: new Date(now - DAY_MS) });
+    }
+  }
+}
