@@ -2,7 +2,9 @@
  * The demo labs and their drop logs. Timings are generated from the physics the server reduces with
  * (force balance with the Schiller–Naumann drag and Faxén's wall factor, or Stokes' law for the
  * viscometry lab), at a room temperature through the fluid lot's fitted viscosity, plus human
- * stopwatch noise. A few are deliberately wrong. Invented demo data: never a test's expected value.
+ * stopwatch noise. A few are deliberately wrong, and the glycerol lot's record is off: the fluid in the
+ * bottles is 20 % more viscous than its calibration says (as if mixed with less water than recorded),
+ * so the kit-part check flags GLY-95A. Invented demo data: never a test's expected value.
  */
 import type { Faker } from "@faker-js/faker";
 import { eq } from "drizzle-orm";
@@ -16,6 +18,8 @@ import { handInDropLog } from "~/server/drop-logs/hand-in.server";
 const DAY_MS = 86_400_000;
 const G = 9.80665;
 const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 };
+/** How much more viscous each lot really is than its recorded calibration. */
+const trueViscosityFactor: Record<string, number> = { "GLY-95A": 1.2, "SYR-2B": 1 };
 
 /** Terminal velocity in an unbounded fluid from the force balance, by fixed-point iteration on Re. */
 function terminalVelocity(diameter: number, sphereDensity: number, fluidDensity: number, viscosity: number, dragLaw: "schiller-naumann" | "stokes") {
@@ -101,7 +105,8 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     const dropsFor = (sphere: typeof column, lot: typeof column, temperatureC: number, dragLaw: "schiller-naumann" | "stokes", jitter: number) => {
       const diameter = sphere.diameterMm! / 1000;
       const density = (6 * (sphere.massG! / 1000)) / (Math.PI * diameter ** 3);
-      const viscosity = viscosityAt(fitFluidViscosity(lot.calibration!.map((p) => ({ temperature: p.temperatureC, viscosity: p.viscosityPaS }))), temperatureC);
+      const recorded = viscosityAt(fitFluidViscosity(lot.calibration!.map((p) => ({ temperature: p.temperatureC, viscosity: p.viscosityPaS }))), temperatureC);
+      const viscosity = recorded * trueViscosityFactor[lot.label];
       const velocity = terminalVelocity(diameter, density, lot.densityKgM3!, viscosity, dragLaw) * wallFactor(sphere.diameterMm! / column.innerDiameterMm!, "faxen");
       const time = column.timedDistanceMm! / 1000 / velocity;
       return Array.from({ length: 10 }, () => Number((time + faker.number.float({ min: -jitter, max: jitter })).toFixed(2)));
