@@ -36,7 +36,7 @@ export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId:
         {bias.n} counted hand-in{bias.n === 1 ? "" : "s"} used this part; their normalised figures are {percent(bias.meanBias)} from the reference on
         average (geometric mean).{" "}
         {bias.t !== null && bias.criticalT !== null
-          ? `One-sample t-test on ln figure against 0: t = ${formatNumber(bias.t, 3)}, critical t = ${formatNumber(bias.criticalT, 3)} at α = ${bias.alpha} (two-sided, ${bias.n - 1} degrees of freedom): ${bias.flagged ? "biased — re-measure the part." : "no evidence of bias."}`
+          ? `One-sample t-test on ln figure against 0: t = ${formatNumber(bias.t, 3)}, critical t = ${formatNumber(bias.criticalT, 3)} at α = ${formatNumber(bias.alpha, 2)} (two-sided, ${bias.n - 1} degrees of freedom): ${bias.flagged ? "biased — re-measure the part." : "no evidence of bias."}`
           : `A bias test needs at least ${MINIMUM_HAND_INS_FOR_BIAS} hand-ins whose figures vary.`}
       </p>
       <div className="overflow-x-auto">

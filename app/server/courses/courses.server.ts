@@ -78,7 +78,8 @@ export async function getCourseWithCohorts(executor: Executor, courseId: string)
       .select({
         id: cohorts.id,
         name: cohorts.name,
-        students: sql<number>`(select count(*)::int from ${courseMemberships} where ${courseMemberships.cohortId} = ${cohorts.id} and ${courseMemberships.role} = 'student' and ${courseMemberships.removedAt} is null)`,
+        // Written out with an alias: interpolated columns lose their table name inside a subquery.
+        students: sql<number>`(select count(*)::int from course_memberships m where m.cohort_id = "cohorts"."id" and m.role = 'student' and m.removed_at is null)`,
       })
       .from(cohorts)
       .where(eq(cohorts.courseId, courseId))
