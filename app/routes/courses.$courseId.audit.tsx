@@ -25,17 +25,24 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-6">
       <PageHeader id="audit-title" title="Audit log">
-        {`${course.code} ${course.title}: the latest ${events.length} events, newest first. Times in ${course.timeZone}.`}
+        {`${course.code} ${course.title}: ${events.length === 1 ? "the latest event" : `the latest ${events.length} events, newest first`}. Times in ${course.timeZone}.`}
       </PageHeader>
-      <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
+      {/* Focusable so that a keyboard can scroll the table sideways on a phone. */}
+      <div
+        role="region"
+        aria-labelledby="audit-title"
+        tabIndex={0}
+        className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700"
+      >
         <table className="w-full text-left text-sm">
+          <caption className="sr-only">Audit events, newest first</caption>
           <thead className="bg-paper-100 text-ink-700">
             <tr>
-              <th className="px-3 py-2 font-medium">When</th>
-              <th className="px-3 py-2 font-medium">Who</th>
-              <th className="px-3 py-2 font-medium">What</th>
-              <th className="px-3 py-2 font-medium">Details</th>
-              <th className="px-3 py-2 font-medium">From</th>
+              <th scope="col" className="px-3 py-2 font-medium">When</th>
+              <th scope="col" className="px-3 py-2 font-medium">Who</th>
+              <th scope="col" className="px-3 py-2 font-medium">What</th>
+              <th scope="col" className="min-w-64 px-3 py-2 font-medium">Details</th>
+              <th scope="col" className="px-3 py-2 font-medium">From</th>
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-900/10">

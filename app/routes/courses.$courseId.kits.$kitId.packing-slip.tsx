@@ -39,10 +39,10 @@ export default function PackingSlip({ loaderData }: Route.ComponentProps) {
         <caption className="mb-1 text-left font-medium">Parts and their recorded measurements</caption>
         <thead>
           <tr className="border-b border-ink-900/20">
-            <th scope="col" className="py-1">Label</th>
-            <th scope="col">Part</th>
-            <th scope="col">Recorded values</th>
-            <th scope="col" className="w-16">Packed ✓</th>
+            <th scope="col" className="py-1 pr-3">Label</th>
+            <th scope="col" className="pr-3">Part</th>
+            <th scope="col" className="pr-3">Recorded values</th>
+            <th scope="col" className="w-16 text-center">Packed</th>
           </tr>
         </thead>
         <tbody>
@@ -50,10 +50,13 @@ export default function PackingSlip({ loaderData }: Route.ComponentProps) {
             const { kind, values } = describePart(part);
             return (
               <tr key={part.id} className="border-b border-ink-900/10">
-                <td className="py-1.5 font-medium">{part.label}</td>
-                <td>{kind}</td>
-                <td>{values}</td>
-                <td aria-label="tick when packed">☐</td>
+                <td className="whitespace-nowrap py-1.5 pr-3 align-top font-medium">{part.label}</td>
+                <td className="py-1.5 pr-3 align-top">{kind}</td>
+                <td className="py-1.5 pr-3 align-top">{values}</td>
+                <td className="py-1.5 text-center align-top">
+                  {/* A box to tick by hand on paper; nothing to announce on screen. */}
+                  <span aria-hidden="true">☐</span>
+                </td>
               </tr>
             );
           })}

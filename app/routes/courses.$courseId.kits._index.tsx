@@ -56,7 +56,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 type KitRow = Route.ComponentProps["loaderData"]["kits"][number];
 
 const columns: ColumnDef<KitRow, unknown>[] = [
-  { header: "Kit", cell: ({ row }) => <Link to={row.original.id} className="font-medium underline">{row.original.number}</Link> },
+  { header: "Kit", cell: ({ row }) => <Link to={row.original.id} className="whitespace-nowrap font-medium underline">{row.original.number}</Link> },
   { header: "State", cell: ({ row }) => <KitStateBadge state={row.original.state} /> },
   {
     header: "Student",
@@ -131,6 +131,7 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
         rows={kits}
         pageInfo={pageInfo}
         selectable={canChange}
+        rowLabel={(kit) => `kit ${kit.number}`}
         empty="No kits match. Make up a kit from parts on the shelf."
         renderSelectionActions={(kitIds, clear) => (
           <fetcher.Form method="post" className="flex flex-wrap items-center gap-2" onSubmit={() => clear()}>

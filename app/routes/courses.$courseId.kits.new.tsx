@@ -60,12 +60,12 @@ export default function NewKit({ loaderData, actionData }: Route.ComponentProps)
           <ul className="mt-2 grid gap-1 sm:grid-cols-2">
             {others.map((part) => (
               <li key={part.id}>
-                <label className="flex items-center gap-2 text-sm">
-                  <input type="checkbox" name="partIds" value={part.id} defaultChecked={chosen.has(part.id)} />
+                <label className="flex items-center gap-2 py-1 text-sm">
+                  <input type="checkbox" className="size-5 shrink-0" name="partIds" value={part.id} defaultChecked={chosen.has(part.id)} />
                   <span>
                     <strong>{part.label}</strong> · {partKindLabels[part.kind]}
                     {part.kind === "sphere" ? ` · ${part.material}, ${part.diameterMm} mm` : ""}
-                    {part.kind === "column" ? ` · bore ${part.innerDiameterMm} mm` : ""}
+                    {part.kind === "column" ? ` · inner diameter ${part.innerDiameterMm} mm` : ""}
                     {part.kind === "accessory" ? ` · ${part.accessoryType}` : ""}
                     {part.kind === "fluid_lot" ? ` · ${part.fluidName} (a bottle from this lot)` : ""}
                   </span>

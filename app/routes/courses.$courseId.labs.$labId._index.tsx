@@ -136,15 +136,16 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
   return (
     <div className="flex flex-col gap-6">
       <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}>
-        <p className="text-sm">
+        {/* Spans, not paragraphs: the page header already sets its lead in a <p>, and a <p> inside one breaks hydration. */}
+        <span className="block text-sm">
           Due <LabTime at={lab.dueAt} courseTimeZone={timeZone} />
-        </p>
+        </span>
         {lab.lateCutoffAt ? (
-          <p className="text-sm">
+          <span className="block text-sm">
             Late hand-ins until <LabTime at={lab.lateCutoffAt} courseTimeZone={timeZone} />
-          </p>
+          </span>
         ) : (
-          <p className="text-sm">No late hand-ins after the due time.</p>
+          <span className="block text-sm">No late hand-ins after the due time.</span>
         )}
       </PageHeader>
 
@@ -196,15 +197,15 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
           {versions.map((version) => (
             <li key={version.id} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10" aria-label={`Version ${version.version}`}>
               <h3 className="font-semibold">
-                Version {version.version}
-                {version.id === latestVersionId ? <span className="ml-2 rounded px-2 py-0.5 text-sm font-normal ring-1 ring-consistent">counts</span> : null}
-                {version.late ? <span className="ml-2 rounded px-2 py-0.5 text-sm font-normal text-outlier ring-1 ring-outlier">late</span> : null}
+                Version {version.version}{" "}
+                {version.id === latestVersionId ? <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal ring-1 ring-consistent">counts</span> : null}
+                {version.late ? <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal text-outlier ring-1 ring-outlier">late</span> : null}
               </h3>
               <p className="text-sm text-ink-700">
                 Handed in <LabTime at={version.submittedAt} courseTimeZone={timeZone} />
               </p>
               <p className="mt-1 text-sm">
-                Sphere {version.kitRecords.sphere.label}: d = {version.kitRecords.sphere.diameterMm} mm, m = {version.kitRecords.sphere.massG} g · {version.input.temperatureC} °C ·{" "}
+                Sphere {version.kitRecords.sphere.label}: d = {version.kitRecords.sphere.diameterMm} mm, m = {version.kitRecords.sphere.massG} g · {version.input.temperatureC} °C · timed over{" "}
                 {version.kitRecords.column.timedDistanceMm} mm · drops {version.input.drops.join(", ")} s
               </p>
               <div className="mt-2">
@@ -251,7 +252,9 @@ function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId
       </h2>
       <p className="text-sm text-ink-700">JPEG, PNG or WebP, up to 10 MB each. They go with your next hand-in.</p>
       <fetcher.Form method="post" encType="multipart/form-data" action={`/courses/${courseId}/labs/${labId}/photos`} className="mt-2 flex flex-wrap items-center gap-3">
-        <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" multiple aria-label="Photos to upload" className="text-sm" />
+        <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" multiple aria-label="Photos to upload"
+          className="text-sm file:mr-3 file:cursor-pointer file:rounded-md file:border-0 file:bg-white file:px-4 file:py-2 file:text-sm file:font-medium file:ring-1 file:ring-ink-900/20"
+        />
         <Button type="submit" variant="secondary" disabled={fetcher.state !== "idle"}>
           {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
         </Button>

@@ -92,25 +92,26 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
         <h2 id="roster-title" className="mb-3 text-lg font-medium">
           {members.length} {members.length === 1 ? "member" : "members"}
         </h2>
-        <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
+        <div role="region" aria-label="Members of the course" tabIndex={0} className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700">
           <table className="w-full text-left text-sm">
+            <caption className="sr-only">Members of the course</caption>
             <thead className="bg-paper-100 text-ink-700">
               <tr>
-                <th className="px-3 py-2 font-medium">Name</th>
-                <th className="px-3 py-2 font-medium">E-mail</th>
-                <th className="px-3 py-2 font-medium">Role</th>
-                <th className="px-3 py-2 font-medium">Cohort</th>
+                <th scope="col" className="px-3 py-2 font-medium">Name</th>
+                <th scope="col" className="px-3 py-2 font-medium">E-mail</th>
+                <th scope="col" className="px-3 py-2 font-medium">Role</th>
+                <th scope="col" className="px-3 py-2 font-medium">Cohort</th>
               </tr>
             </thead>
             <tbody className="divide-y divide-ink-900/10">
               {members.map((member) => (
                 <tr key={member.membershipId}>
-                  <td className="px-3 py-2">
+                  <td className="min-w-40 px-3 py-2">
                     <Link to={member.membershipId} className="underline">
                       {member.name}
                     </Link>
                   </td>
-                  <td className="px-3 py-2 break-all">{member.email}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">{member.email}</td>
                   <td className="px-3 py-2">{roleWords[member.role]}</td>
                   <td className="px-3 py-2">{member.role === "ta" ? member.taCohortNames.join(", ") || "none assigned" : (member.cohortName ?? "—")}</td>
                 </tr>

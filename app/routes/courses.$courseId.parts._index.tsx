@@ -58,7 +58,7 @@ export default function PartsList({ loaderData }: Route.ComponentProps) {
       header: "Label",
       cell: ({ row }) => (
         <>
-          <Link to={`${base}/parts/${row.original.id}`} className="font-medium text-ink-800 underline underline-offset-2">
+          <Link to={`${base}/parts/${row.original.id}`} className="whitespace-nowrap font-medium text-ink-800 underline underline-offset-2">
             {row.original.label}
           </Link>
           {row.original.biased ? <PartBiasBadge /> : null}

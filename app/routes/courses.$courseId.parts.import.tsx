@@ -228,7 +228,7 @@ function PreviewTable({ checks }: { checks: ImportRowCheck[] }) {
   // Rows with problems first: they are what the instructor has to act on.
   const ordered = [...checks.filter((check) => check.problems.length), ...checks.filter((check) => !check.problems.length)];
   return (
-    <div className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10">
+    <div role="region" aria-label="Every row of the file with its problems" tabIndex={0} className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700">
       <table className="min-w-full text-left text-sm">
         <caption className="sr-only">Every row of the file with its problems</caption>
         <thead className="bg-paper-100 text-xs uppercase tracking-wide text-ink-700">

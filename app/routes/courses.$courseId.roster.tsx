@@ -167,7 +167,7 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
 function PreviewTable({ checks }: { checks: ReturnType<typeof checkRosterRows> }) {
   const shown = checks.slice(0, 500);
   return (
-    <div className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10">
+    <div role="region" aria-label="Roster preview" tabIndex={0} className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700">
       <table className="min-w-full text-left text-sm">
         <caption className="sr-only">Roster preview</caption>
         <thead className="bg-paper-100 text-xs uppercase text-ink-700">

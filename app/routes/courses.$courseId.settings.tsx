@@ -136,14 +136,14 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
                 <fieldset className="flex flex-wrap gap-3">
                   <legend className="sr-only">Cohorts {ta.name} marks</legend>
                   {cohorts.map((cohort) => (
-                    <label key={cohort.id} className="flex items-center gap-1.5 text-sm">
-                      <input type="checkbox" name="cohortIds" value={cohort.id} defaultChecked={ta.cohortIds.includes(cohort.id)} />
+                    <label key={cohort.id} className="flex items-center gap-1.5 py-1 text-sm">
+                      <input type="checkbox" className="size-5 shrink-0" name="cohortIds" value={cohort.id} defaultChecked={ta.cohortIds.includes(cohort.id)} />
                       {cohort.name}
                     </label>
                   ))}
                 </fieldset>
                 <Button type="submit" variant="secondary" className="ml-auto">
-                  Save
+                  Save<span className="sr-only"> the cohorts of {ta.name}</span>
                 </Button>
               </Form>
             </li>

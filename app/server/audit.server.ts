@@ -27,7 +27,11 @@ export type AuditAction =
   | "course.created"
   | "course.settings_changed"
   | "course.ta_cohorts_changed"
-  | "lab.comparison_method_changed";
+  | "lab.comparison_method_changed"
+  | "lab.created"
+  | "lab.updated"
+  | "lab.published"
+  | "lab.closed";
 
 export type AuditInput = {
   action: AuditAction;

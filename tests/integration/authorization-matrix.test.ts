@@ -89,6 +89,12 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/my-kit", studentsOnly(200)),
   row("POST", "/courses/:courseId/my-kit", { ...studentsOnly(404), ownStudent: 400 }),
   row("GET", "/courses/:courseId/labs", anyMember(200)),
+  row("GET", "/courses/:courseId/labs/new", instructorOnly(200)),
+  row("POST", "/courses/:courseId/labs/new", instructorOnly(400)),
+  row("GET", "/courses/:courseId/labs/:labId/edit", instructorOnly(200)),
+  row("POST", "/courses/:courseId/labs/:labId/edit", instructorOnly(400)),
+  // Hand-in progress names students: instructors, and the TAs of a cohort the lab is set for.
+  row("GET", "/courses/:courseId/labs/:labId/dashboard", cohortStaff(200)),
   // Students of the lab's cohort (with or without a kit); staff are sent on to the lab's dashboard.
   row("GET", "/courses/:courseId/labs/:labId", { ...anyMember(302), ownStudent: 200, sameCohortStudent: 200, otherCohortStudent: 403 }),
   row("POST", "/courses/:courseId/labs/:labId", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400 }),
@@ -107,6 +113,13 @@ const matrix: MatrixRow[] = [
   // The probe is a form, not JSON: 400 for anyone signed in.
   row("POST", "/api/v1/reduce", { ...everyone(400), anonymous: 401 }),
   row("GET", "/api/v1/labs/:labId/class-comparison", { ...cohortStaff(200), anonymous: 401 }),
+  row("GET", "/api/v1/courses/:courseId/labs", { ...anyMember(200), anonymous: 401 }),
+  // The students of the lab's cohort (their own drop log, possibly none), its instructors and cohort TAs.
+  row("GET", "/api/v1/labs/:labId/drop-logs", { ...cohortStaff(200), ownStudent: 200, sameCohortStudent: 200, anonymous: 401 }),
+  // The probe has no Idempotency-Key: 400 for the students who may hand in; staff never hand in (403).
+  row("POST", "/api/v1/labs/:labId/drop-logs", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400, anonymous: 401 }),
+  row("GET", "/api/v1/labs/:labId/drop-logs/:dropLogId", { ...ownWork(200), anonymous: 401 }),
+  row("GET", "/api/v1/openapi.json", everyone(200)),
   row("GET", "/dev/inbox", devInbox(200)),
   row("GET", "/api/dev/emails", devInbox(200), { query: "?to=someone@matrix.example" }),
   row("GET", "/*", everyone(404)),
@@ -138,6 +151,7 @@ function concretePath(path: string, fixture: AccessFixture): string {
     partId: fixture.partId,
     labId: fixture.labId,
     photoId: fixture.photoId,
+    dropLogId: fixture.dropLogId,
     token: "not-a-real-token-aaaaaaaaaaaaaaaa",
   };
   return path

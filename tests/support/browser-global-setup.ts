@@ -3,9 +3,8 @@
  * it on a free loopback port, with the mail catcher and the worker beside it. The suite reads the
  * address with `inject("baseUrl")`, and the mail the app sent at `/api/dev/emails?to=…`.
  */
-import { spawn, type ChildProcess } from "node:child_process";
+import { spawn } from "node:child_process";
 import { existsSync } from "node:fs";
-import { createServer } from "node:net";
 import type { TestProject } from "vitest/node";
 import { createDatabase, createPool } from "~/server/db.server";
 import { startMailCatcher } from "~/server/email/mail-catcher.server";
@@ -13,6 +12,7 @@ import { migrateDatabase } from "~/server/migrate.server";
 import { seedDemo } from "../../seeds/seed-demo";
 import { ensureChromium } from "../../scripts/lib/chromium";
 import { bin } from "../../scripts/lib/processes";
+import { freePort, waitForHealth } from "./app-server";
 import { createTestDatabase, dropTestDatabase } from "./test-database";
 
 declare module "vitest" {
@@ -20,29 +20,6 @@ declare module "vitest" {
     baseUrl: string;
     databaseUrl: string;
   }
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = createServer().listen(0, "127.0.0.1", () => {
-      const address = probe.address();
-      probe.close(() => (typeof address === "object" && address ? resolve(address.port) : reject(new Error("no port"))));
-    });
-  });
-}
-
-async function waitForHealth(baseUrl: string, server: ChildProcess): Promise<void> {
-  const deadline = Date.now() + 30_000;
-  while (Date.now() < deadline) {
-    if (server.exitCode !== null) throw new Error(`The app server exited with code ${server.exitCode}`);
-    try {
-      if ((await fetch(`${baseUrl}/healthz`)).ok) return;
-    } catch {
-      // not listening yet
-    }
-    await new Promise((resolve) => setTimeout(resolve, 200));
-  }
-  throw new Error(`The app server did not answer at ${baseUrl} within 30 s`);
 }
 
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {

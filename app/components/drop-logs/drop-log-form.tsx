@@ -235,8 +235,8 @@ export function DropLogForm({
           </p>
         ) : null}
         <WarningList warnings={warningsFor("sphereId")} />
-        <label className="mt-2 flex items-center gap-2 text-sm">
-          <input type="checkbox" name="useOwnMeasurements" checked={state.useOwnMeasurements} onChange={(event) => update({ useOwnMeasurements: event.target.checked })} />
+        <label className="mt-2 flex items-center gap-2 py-1 text-sm">
+          <input type="checkbox" className="size-5 shrink-0" name="useOwnMeasurements" checked={state.useOwnMeasurements} onChange={(event) => update({ useOwnMeasurements: event.target.checked })} />
           Enter my own measurements of the sphere as well
         </label>
         {state.useOwnMeasurements ? (
@@ -294,7 +294,7 @@ export function DropLogForm({
               const stray = strayRows.has(index);
               return (
                 <tr key={index} className={stray ? "bg-amber-300/20" : undefined}>
-                  <td className="py-1 align-top tabular-nums">{index + 1}</td>
+                  <td className="pt-3.5 pb-1 align-top tabular-nums">{index + 1}</td>
                   <td className="py-1 align-top">
                     <input
                       ref={(element) => {
@@ -339,7 +339,8 @@ export function DropLogForm({
           <Button type="button" variant="secondary" onClick={() => addRow()}>
             Add a drop
           </Button>
-          <label className="text-sm">
+          {/* The file input is hidden; the label is what is seen, tapped and shows the keyboard focus. */}
+          <label className="cursor-pointer rounded px-2 py-2 text-sm focus-within:outline-2 focus-within:outline-offset-2 focus-within:outline-ink-700">
             <span className="underline">Read a CSV file</span>
             <input
               type="file"

@@ -1,4 +1,6 @@
+import type { ReactNode } from "react";
 import type { DropLogWarning } from "~/lib/drop-logs/reduce-drop-log";
+import { dragModelNames, wallCorrectionNames } from "~/lib/labs/lab-input";
 import type { Reduction } from "~/lib/reduction";
 
 /** Significant figures enough for a bench measurement, without pretending to more. */
@@ -11,25 +13,49 @@ function percent(value: number): string {
   return `${value >= 0 ? "+" : ""}${(value * 100).toFixed(1)} %`;
 }
 
+/** The method's name as the lab form shows it, without the range of validity in brackets. */
+function methodName(names: Record<string, string>, id: string): string {
+  return (names[id] ?? id).replace(/ \(.*\)$/, "");
+}
+
+const dragCoefficient = (
+  <>
+    C<sub>D</sub>
+  </>
+);
+
 /** The key results of a reduction, the same for the live preview and a stored version. */
 export function ReductionSummary({ reduction, normalisedFigure }: { reduction: Reduction; normalisedFigure: number | null }) {
-  const rows: [string, string, string?][] = [
-    ["Drops", String(reduction.drops.n)],
-    ["Mean time", `${figure(reduction.drops.mean)} s`, reduction.drops.ci95 ? `95 % interval ${figure(reduction.drops.ci95[0])}–${figure(reduction.drops.ci95[1])} s` : undefined],
-    ["Velocity", `${figure(reduction.velocity.measured * 1000)} mm/s`, `wall-corrected ${figure(reduction.velocity.corrected * 1000)} mm/s (${reduction.method.wallCorrection})`],
-    ["Reynolds number", figure(reduction.reynolds, 3)],
-    ["Drag coefficient C_D", figure(reduction.dragCoefficient)],
+  const wallCorrection = methodName(wallCorrectionNames, reduction.method.wallCorrection);
+  const rows: [key: string, label: ReactNode, value: string, detail?: string][] = [
+    ["drops", "Drops", String(reduction.drops.n)],
+    ["mean", "Mean time", `${figure(reduction.drops.mean)} s`, reduction.drops.ci95 ? `95 % interval ${figure(reduction.drops.ci95[0])}–${figure(reduction.drops.ci95[1])} s` : undefined],
+    [
+      "velocity",
+      "Velocity",
+      `${figure(reduction.velocity.measured * 1000)} mm/s`,
+      `wall-corrected ${figure(reduction.velocity.corrected * 1000)} mm/s (${reduction.method.wallCorrection === "none" ? "no wall correction" : wallCorrection})`,
+    ],
+    ["reynolds", "Reynolds number", figure(reduction.reynolds, 3)],
+    ["drag", <>Drag coefficient {dragCoefficient}</>, figure(reduction.dragCoefficient)],
   ];
   if (reduction.mode === "drag") {
-    rows.push([`Reference C_D (${reduction.method.dragModel})`, figure(reduction.referenceDragCoefficient), `deviation ${percent(reduction.deviation)}`]);
+    rows.push([
+      "reference",
+      <>
+        Reference {dragCoefficient} ({methodName(dragModelNames, reduction.method.dragModel)})
+      </>,
+      figure(reduction.referenceDragCoefficient),
+      `deviation ${percent(reduction.deviation)}`,
+    ]);
   } else {
-    rows.push(["Viscosity μ (Stokes)", `${figure(reduction.viscosity)} Pa·s`, reduction.viscosityOseen !== null ? `Oseen-corrected ${figure(reduction.viscosityOseen)} Pa·s` : undefined]);
-    if (normalisedFigure !== null) rows.push(["Measured / reference viscosity", figure(normalisedFigure, 3)]);
+    rows.push(["viscosity", "Viscosity μ (Stokes)", `${figure(reduction.viscosity)} Pa·s`, reduction.viscosityOseen !== null ? `Oseen-corrected ${figure(reduction.viscosityOseen)} Pa·s` : undefined]);
+    if (normalisedFigure !== null) rows.push(["normalised", "Measured / reference viscosity", figure(normalisedFigure, 3)]);
   }
   return (
     <dl className="grid grid-cols-1 gap-x-4 gap-y-1 text-sm sm:grid-cols-[auto_1fr]">
-      {rows.map(([label, value, detail]) => (
-        <div key={label} className="contents">
+      {rows.map(([key, label, value, detail]) => (
+        <div key={key} className="contents">
           <dt className="text-ink-700">{label}</dt>
           <dd className="font-medium tabular-nums">
             {value}

@@ -17,6 +17,7 @@ export function DataTable<Row extends { id: string }>({
   selectable = false,
   renderSelectionActions,
   empty = "Nothing here yet.",
+  rowLabel,
 }: {
   caption: string;
   columns: ColumnDef<Row, unknown>[];
@@ -26,11 +27,13 @@ export function DataTable<Row extends { id: string }>({
   /** Actions on the selected rows, e.g. a bulk state change; receives the selected ids. */
   renderSelectionActions?: (selectedIds: string[], clear: () => void) => React.ReactNode;
   empty?: string;
+  /** Names a row for its selection checkbox, e.g. "kit K-01"; without it the row's position is used. */
+  rowLabel?: (row: Row) => string;
 }) {
   const [rowSelection, setRowSelection] = useState<RowSelectionState>({});
   const table = useReactTable({
     data: rows,
-    columns: selectable ? [selectionColumn<Row>(), ...columns] : columns,
+    columns: selectable ? [selectionColumn<Row>(rowLabel), ...columns] : columns,
     getRowId: (row) => row.id,
     state: { rowSelection },
     onRowSelectionChange: setRowSelection,
@@ -50,7 +53,13 @@ export function DataTable<Row extends { id: string }>({
           {renderSelectionActions(selectedIds, () => setRowSelection({}))}
         </div>
       ) : null}
-      <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
+      {/* Focusable so that a keyboard can scroll a table wider than a phone's screen. */}
+      <div
+        role="region"
+        aria-label={caption}
+        tabIndex={0}
+        className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700"
+      >
         <table className="min-w-full text-left text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead className="bg-paper-100 text-xs uppercase tracking-wide text-ink-700">
@@ -90,19 +99,26 @@ export function DataTable<Row extends { id: string }>({
   );
 }
 
-function selectionColumn<Row>(): ColumnDef<Row, unknown> {
+function selectionColumn<Row>(rowLabel?: (row: Row) => string): ColumnDef<Row, unknown> {
   return {
     id: "select",
     header: ({ table }) => (
       <input
         type="checkbox"
+        className="size-5 align-middle"
         aria-label="Select all rows on this page"
         checked={table.getIsAllRowsSelected()}
         onChange={table.getToggleAllRowsSelectedHandler()}
       />
     ),
     cell: ({ row }) => (
-      <input type="checkbox" aria-label={`Select row ${row.index + 1}`} checked={row.getIsSelected()} onChange={row.getToggleSelectedHandler()} />
+      <input
+        type="checkbox"
+        className="size-5 align-middle"
+        aria-label={`Select ${rowLabel ? rowLabel(row.original) : `row ${row.index + 1}`}`}
+        checked={row.getIsSelected()}
+        onChange={row.getToggleSelectedHandler()}
+      />
     ),
   };
 }
@@ -125,12 +141,12 @@ export function Pager({ pageInfo }: { pageInfo: PageInfo }) {
       </span>
       <span className="flex gap-2">
         {pageInfo.page > 1 ? (
-          <Link to={linkTo(pageInfo.page - 1)} className="rounded px-3 py-1 ring-1 ring-ink-900/20">
+          <Link to={linkTo(pageInfo.page - 1)} className="rounded px-3 py-1.5 ring-1 ring-ink-900/20">
             Previous
           </Link>
         ) : null}
         {pageInfo.page < pages ? (
-          <Link to={linkTo(pageInfo.page + 1)} className="rounded px-3 py-1 ring-1 ring-ink-900/20">
+          <Link to={linkTo(pageInfo.page + 1)} className="rounded px-3 py-1.5 ring-1 ring-ink-900/20">
             Next
           </Link>
         ) : null}

@@ -38,7 +38,7 @@ export function describePart(part: PartRecord): { kind: string; values: string }
     case "column":
       return {
         kind,
-        values: `bore ${part.innerDiameterMm} mm, ${part.timedDistanceMm} mm between the bands, run-in ${part.runInMm} mm, ${part.marginBelowMm} mm below`,
+        values: `inner diameter ${part.innerDiameterMm} mm, ${part.timedDistanceMm} mm between the bands, run-in ${part.runInMm} mm, ${part.marginBelowMm} mm below`,
       };
     case "accessory":
       return { kind, values: part.accessoryType ?? "" };

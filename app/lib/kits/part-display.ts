@@ -72,7 +72,7 @@ export function measurementSummary(part: StoredPartFields): string {
       return `${part.fluidName ?? "—"} · ρ ${formatNumber(part.densityKgM3)} kg/m³ · ${part.calibration?.length ?? 0} calibration points · μ(20 °C) ${formatNumber(at20?.viscosityPaS)} Pa·s`;
     }
     case "column":
-      return `bore ${formatNumber(part.innerDiameterMm)} mm · timed ${formatNumber(part.timedDistanceMm)} mm · run-in ${formatNumber(part.runInMm)} mm · margin ${formatNumber(part.marginBelowMm)} mm`;
+      return `inner diameter ${formatNumber(part.innerDiameterMm)} mm · timed ${formatNumber(part.timedDistanceMm)} mm · run-in ${formatNumber(part.runInMm)} mm · margin ${formatNumber(part.marginBelowMm)} mm`;
     case "accessory":
       return part.accessoryType ?? "—";
   }

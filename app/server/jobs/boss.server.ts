@@ -19,6 +19,8 @@ export const queues = {
   classComparisonRequested: "class-comparison-requested",
   /** The debounced relabel of one lab (singletonKey = lab id), sent by the worker from the requests above. */
   classComparison: "class-comparison",
+  /** One job per lab and reminder offset, starting at due time − offset; a job for an old due time does nothing. */
+  labReminder: "lab-reminder",
 } as const;
 
 /**
@@ -36,6 +38,7 @@ const queueSettings: PgBoss.Queue[] = [
   { name: queues.emailDelivery, ...emailDeliveryPolicy, deadLetter: queues.emailGaveUp },
   { name: queues.classComparisonRequested, retryLimit: 5, retryDelay: 10, retryBackoff: true },
   { name: queues.classComparison, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 300 },
+  { name: queues.labReminder, retryLimit: 5, retryDelay: 60, retryBackoff: true, expireInSeconds: 300 },
 ];
 
 /**

@@ -8,6 +8,7 @@ import { createDatabase, createPool } from "~/server/db.server";
 import { deliverOutboxEmail, markEmailFailed } from "~/server/email/deliver-email.server";
 import type { EmailTransport } from "~/server/email/email-transport.server";
 import type { EmailDeliveryJob } from "~/server/email/send-email.server";
+import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
 import { createBoss, createQueues, queues } from "./boss.server";
 
 export type Worker = { stop(): Promise<void> };
@@ -113,6 +114,16 @@ export async function startWorker(options: {
       async (job) => {
         const outcome = await relabelLab(database, job.data.labId);
         log(`class comparison ${job.data.labId}: ${outcome.labelled} labelled, ${outcome.changed} changed`);
+      },
+      log,
+    ),
+    runJobs<LabReminderJob>(
+      boss,
+      queues.labReminder,
+      pollingIntervalMs,
+      async (job) => {
+        const outcome = await sendLabReminders(database, job.data);
+        log(`lab ${job.data.labId} reminder ${job.data.offsetHours} h: ${outcome.skipped ? `nothing sent (${outcome.skipped})` : `${outcome.sent} sent`}`);
       },
       log,
     ),

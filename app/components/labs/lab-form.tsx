@@ -1,0 +1,196 @@
+/**
+ * The fields of a lab, shared by the "new lab" and "edit lab" pages. Times are typed in the course's
+ * time zone; beside each, the instant it names is shown in the viewer's own zone too.
+ */
+import { useState, type ReactNode } from "react";
+import { LabTime } from "~/components/drop-logs/lab-time";
+import { SafetyCautions } from "~/components/safety-cautions";
+import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
+import {
+  dragModelNames,
+  dragModels,
+  experimentKindNames,
+  experimentKinds,
+  wallCorrectionNames,
+  wallCorrections,
+  type LabFormValues,
+} from "~/lib/labs/lab-input";
+import { wallClockToInstant } from "~/lib/labs/wall-clock";
+
+type Errors = Record<string, string[] | undefined>;
+type PartOption = { id: string; kind: "sphere" | "fluid_lot" | "column" | "accessory"; label: string; material: string | null; fluidName: string | null };
+
+const partKindHeadings = { sphere: "Spheres", fluid_lot: "Fluid lots", column: "Columns" } as const;
+
+/** Messages of a field and of its items (`cohortIds.0`), so an array field shows all of them. */
+function messagesFor(errors: Errors, name: string): string[] {
+  return Object.entries(errors).flatMap(([key, messages]) => (key === name || key.startsWith(`${name}.`) ? (messages ?? []) : []));
+}
+
+function WallClockField({ label, name, defaultValue, timeZone, errors, hint }: { label: string; name: string; defaultValue: string; timeZone: string; errors: Errors; hint?: string }) {
+  const [value, setValue] = useState(defaultValue);
+  const instant = value ? wallClockToInstant(value, timeZone) : null;
+  return (
+    <TextField
+      label={label}
+      name={name}
+      type="datetime-local"
+      defaultValue={defaultValue}
+      onChange={(event) => setValue(event.currentTarget.value)}
+      error={messagesFor(errors, name)}
+      hint={
+        <>
+          {hint ? <span className="block">{hint}</span> : null}
+          {instant?.ok ? <LabTime at={instant.instant.toISOString()} courseTimeZone={timeZone} /> : `In ${timeZone}.`}
+        </>
+      }
+    />
+  );
+}
+
+function CheckboxGroup({ legend, name, options, checked, errors, hint }: { legend: string; name: string; options: { id: string; label: string }[]; checked: string[]; errors: Errors; hint?: string }) {
+  const messages = messagesFor(errors, name);
+  return (
+    <fieldset aria-describedby={messages.length ? `${name}-error` : undefined}>
+      <legend className="text-sm font-medium text-ink-900">{legend}</legend>
+      {hint ? <p className="text-sm text-ink-600">{hint}</p> : null}
+      <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
+        {options.map((option) => (
+          <label key={option.id} className="flex items-center gap-1.5 text-sm">
+            <input type="checkbox" name={name} value={option.id} defaultChecked={checked.includes(option.id)} />
+            {option.label}
+          </label>
+        ))}
+      </div>
+      {messages.length ? (
+        <p id={`${name}-error`} className="mt-1 text-sm font-medium text-outlier">
+          {messages.join(" ")}
+        </p>
+      ) : null}
+    </fieldset>
+  );
+}
+
+function Section({ title, children }: { title: string; children: ReactNode }) {
+  return (
+    <fieldset className="flex flex-col gap-4 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+      <legend className="px-1 text-base font-semibold">{title}</legend>
+      {children}
+    </fieldset>
+  );
+}
+
+export function LabFields({
+  values,
+  errors,
+  timeZone,
+  cohorts,
+  parts,
+}: {
+  values: LabFormValues;
+  errors: Errors;
+  timeZone: string;
+  cohorts: { id: string; name: string }[];
+  parts: PartOption[];
+}) {
+  const text = (name: string) => values.fields[name] ?? "";
+  const field = (name: string) => ({ name, defaultValue: text(name), error: messagesFor(errors, name) });
+  return (
+    <>
+      <Section title="The lab">
+        <TextField label="Title" required {...field("title")} />
+        <SelectField label="Experiment" {...field("kind")}>
+          {experimentKinds.map((kind) => (
+            <option key={kind} value={kind}>
+              {experimentKindNames[kind]}
+            </option>
+          ))}
+        </SelectField>
+        <TextAreaField label="Instructions" rows={6} {...field("instructions")} hint="Students read these on the lab page, always with the safety cautions below." />
+        <SafetyCautions compact />
+      </Section>
+
+      <Section title={`Times (${timeZone})`}>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <WallClockField label="Opens" name="opensAt" defaultValue={text("opensAt")} timeZone={timeZone} errors={errors} />
+          <WallClockField label="Due" name="dueAt" defaultValue={text("dueAt")} timeZone={timeZone} errors={errors} />
+          <WallClockField
+            label="Late cut-off"
+            name="lateCutoffAt"
+            defaultValue={text("lateCutoffAt")}
+            timeZone={timeZone}
+            errors={errors}
+            hint="Hand-ins until then are accepted and labelled late. Empty: none after the due time."
+          />
+        </div>
+      </Section>
+
+      <Section title="Cohorts and parts">
+        <CheckboxGroup legend="Cohorts" name="cohortIds" options={cohorts.map((cohort) => ({ id: cohort.id, label: cohort.name }))} checked={values.cohortIds} errors={errors} hint="Publishing needs at least one." />
+        <TextField label="Required drops" inputMode="numeric" {...field("requiredDrops")} hint="Fewer drops are still taken, with a warning." />
+        {(["sphere", "fluid_lot", "column"] as const).map((kind) => (
+          <CheckboxGroup
+            key={kind}
+            legend={`Allowed ${partKindHeadings[kind].toLowerCase()}`}
+            name="allowedPartIds"
+            options={parts.filter((part) => part.kind === kind).map((part) => ({ id: part.id, label: [part.label, part.material ?? part.fluidName].filter(Boolean).join(" · ") }))}
+            checked={values.allowedPartIds}
+            errors={kind === "sphere" ? errors : {}}
+            hint={kind === "sphere" ? "Tick none of a kind to allow any part of that kind in the student's kit." : undefined}
+          />
+        ))}
+      </Section>
+
+      <Section title="Reduction">
+        <div className="grid gap-4 sm:grid-cols-2">
+          <SelectField label="Wall correction" {...field("wallCorrection")}>
+            {wallCorrections.map((method) => (
+              <option key={method} value={method}>
+                {wallCorrectionNames[method]}
+              </option>
+            ))}
+          </SelectField>
+          <SelectField label="Reference drag model" {...field("dragModel")}>
+            {dragModels.map((model) => (
+              <option key={model} value={model}>
+                {dragModelNames[model]}
+              </option>
+            ))}
+          </SelectField>
+        </div>
+        <p className="text-sm text-ink-700">
+          Instrument resolutions feed the uncertainty budget (each reading taken as rectangular, u = r/√12). The defaults are common practice for a home kit: micrometer, milligram
+          balance, ruler, hand stopwatch and thermometer.
+        </p>
+        <div className="grid gap-4 sm:grid-cols-5">
+          <TextField label="Diameter" unit="mm" inputMode="decimal" {...field("resolutions.diameterMm")} />
+          <TextField label="Mass" unit="g" inputMode="decimal" {...field("resolutions.massG")} />
+          <TextField label="Distance" unit="mm" inputMode="decimal" {...field("resolutions.distanceMm")} />
+          <TextField label="Time" unit="s" inputMode="decimal" {...field("resolutions.timeS")} />
+          <TextField label="Temperature" unit="°C" inputMode="decimal" {...field("resolutions.temperatureC")} />
+        </div>
+      </Section>
+
+      <Section title="Class comparison">
+        <div className="grid gap-4 sm:grid-cols-4">
+          <SelectField label="Method" {...field("comparisonMethod")}>
+            <option value="grubbs">Grubbs' test (iterative)</option>
+            <option value="iqr">Tukey's fences (interquartile range)</option>
+          </SelectField>
+          <TextField label="Grubbs α" inputMode="decimal" {...field("comparisonAlpha")} />
+          <TextField label="Grubbs: at most this many removals" inputMode="numeric" {...field("comparisonMaxOutliers")} />
+          <TextField label="Tukey k" inputMode="decimal" {...field("comparisonK")} hint="Suspect beyond k, outlier beyond 2k." />
+        </div>
+      </Section>
+
+      <Section title="Reminders">
+        <TextField
+          label="Remind students without a hand-in"
+          unit="hours before the due time"
+          {...field("reminderOffsetsHours")}
+          hint="Whole hours, separated by commas; empty for none. Each student gets each reminder at most once."
+        />
+      </Section>
+    </>
+  );
+}

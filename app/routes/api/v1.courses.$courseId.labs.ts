@@ -1,0 +1,18 @@
+import type { Route } from "./+types/v1.courses.$courseId.labs";
+import { dropLogStatus } from "~/lib/drop-logs/hand-in-window";
+import { anyRole, isStaff, requireApiUser, requireCourseRole } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
+
+/** The labs the caller sees in a course (the lab list page's, as JSON). Session or personal API token. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  await requireApiUser(request);
+  const access = await requireCourseRole(request, params.courseId, anyRole);
+  const rows = await listLabsForMember(db, access);
+  const staff = isStaff(access);
+  const labs = rows.map(({ hasDraft, latestLate, versionCount, ...lab }) => ({
+    ...lab,
+    dropLog: staff ? null : { status: dropLogStatus({ hasDraft, latestLate }), versionCount },
+  }));
+  return Response.json({ labs }, { headers: { "Cache-Control": "no-store" } });
+}

@@ -1,0 +1,33 @@
+import { z } from "zod";
+import type { Route } from "./+types/v1.labs.$labId.drop-logs.$dropLogId";
+import { requireStudentAccess } from "~/server/auth/access.server";
+import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { db } from "~/server/db.server";
+import { findDropLogOwner } from "~/server/drop-logs/drop-log-list.server";
+import { getDropLogForStudent } from "~/server/drop-logs/hand-in.server";
+import { requireLabApiAccess } from "~/server/labs/lab-access.server";
+
+const noSuchDropLog = () => apiErrorResponse(404, "not_found", "There is no such drop log in this lab.");
+
+/** One drop log with every version (newest first) and its photos: for its student, the instructors and the TAs of the student's cohort. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { lab } = await requireLabApiAccess(request, params.labId);
+  if (!z.uuid().safeParse(params.dropLogId).success) return noSuchDropLog();
+  const owner = await findDropLogOwner(db, lab.id, params.dropLogId);
+  if (!owner) return noSuchDropLog();
+  await requireStudentAccess(request, lab.courseId, owner);
+  const dropLog = await getDropLogForStudent(db, { labId: lab.id, membershipId: owner.membershipId });
+  if (!dropLog) return noSuchDropLog();
+  const iso = (at: Date) => at.toISOString();
+  return Response.json(
+    {
+      id: dropLog.id,
+      labId: lab.id,
+      membershipId: owner.membershipId,
+      studentName: owner.studentName,
+      versions: dropLog.versions.map(({ dropLogId: _dropLogId, idempotencyKey: _key, submittedById: _by, submittedAt, ...version }) => ({ ...version, submittedAt: iso(submittedAt) })),
+      photos: dropLog.photos.map((photo) => ({ ...photo, createdAt: iso(photo.createdAt) })),
+    },
+    { headers: { "Cache-Control": "no-store" } },
+  );
+}

@@ -1,0 +1,35 @@
+import type { Route } from "./+types/v1.labs.$labId.drop-logs";
+import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { db } from "~/server/db.server";
+import { listLabDropLogs } from "~/server/drop-logs/drop-log-list.server";
+import { HandInRefusedError, handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { requireLabApiAccess } from "~/server/labs/lab-access.server";
+
+const noStore = { "Cache-Control": "no-store" };
+
+/** A student's own drop log, or (staff) every handed-in drop log of the cohorts they see, with the counted reductions. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireLabApiAccess(request, params.labId);
+  return Response.json({ dropLogs: await listLabDropLogs(db, access, lab.id) }, { headers: noStore });
+}
+
+/**
+ * A student's hand-in. The `Idempotency-Key` header names the attempt: a retry with the same key
+ * answers 200 with the version first stored instead of storing a second one.
+ */
+export async function action({ request, params }: Route.ActionArgs) {
+  const { access, lab } = await requireLabApiAccess(request, params.labId);
+  if (request.method !== "POST") return apiErrorResponse(405, "method_not_allowed", "Hand in with POST.");
+  if (access.membership.role !== "student") return apiErrorResponse(403, "not_a_student", "Only students hand in drop logs.");
+  const idempotencyKey = request.headers.get("Idempotency-Key");
+  if (!idempotencyKey) return apiErrorResponse(400, "idempotency_key_missing", "Send an Idempotency-Key header, e.g. a UUID made once per hand-in attempt.");
+  const input = await request.json().catch(() => undefined);
+  if (input === undefined) return apiErrorResponse(400, "invalid_json", "The body must be JSON.");
+  try {
+    const result = await handInDropLog(db, { access, labId: lab.id, input, idempotencyKey });
+    return Response.json(result, { status: result.duplicate ? 200 : 201, headers: noStore });
+  } catch (error) {
+    if (error instanceof HandInRefusedError) return apiErrorResponse(error.status, error.code, error.message, error.issues.length ? error.issues : undefined);
+    throw error;
+  }
+}

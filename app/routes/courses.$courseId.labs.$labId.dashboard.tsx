@@ -1,0 +1,215 @@
+import { data, Link } from "react-router";
+import type { Route } from "./+types/courses.$courseId.labs.$labId.dashboard";
+import { LabTime } from "~/components/drop-logs/lab-time";
+import { PageHeader } from "~/components/ui/page-header";
+import { handInHref } from "~/lib/comparison/links";
+import { experimentKindNames } from "~/lib/labs/lab-input";
+import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
+import { db } from "~/server/db.server";
+import { getLabDashboard, type DashboardStudent } from "~/server/labs/lab-dashboard.server";
+import { getLab } from "~/server/labs/labs.server";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  // Instructors, and the TAs of a cohort the lab is set for: the same people as its class comparison.
+  const { access } = await requireComparisonAccess(request, params.courseId, params.labId);
+  const lab = await getLab(db, access.course.id, params.labId);
+  if (!lab) throw data("Not found", { status: 404 });
+  const dashboard = await getLabDashboard(db, access, lab);
+  return {
+    courseId: access.course.id,
+    timeZone: access.course.timeZone,
+    instructor: access.membership.role === "instructor",
+    lab: { id: lab.id, title: lab.title, kind: lab.kind, status: lab.status, opensAt: lab.opensAt.toISOString(), dueAt: lab.dueAt.toISOString(), lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null, requiredDrops: lab.requiredDrops },
+    ...dashboard,
+  };
+}
+
+export default function LabDashboard({ loaderData }: Route.ComponentProps) {
+  const { courseId, timeZone, instructor, lab, cohorts, students, sentReminders, scheduledReminders } = loaderData;
+  const base = `/courses/${courseId}/labs/${lab.id}`;
+  return (
+    <div className="flex flex-col gap-8">
+      <PageHeader
+        title={lab.title}
+        trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        actions={
+          <>
+            <Link to={`${base}/comparison`} className="px-4 py-2 text-sm underline">
+              Class comparison
+            </Link>
+            {instructor ? (
+              <Link to={`${base}/edit`} className="px-4 py-2 text-sm underline">
+                Edit the lab
+              </Link>
+            ) : null}
+          </>
+        }
+      >
+        {experimentKindNames[lab.kind]} · {lab.status === "draft" ? "draft, not published" : lab.status} · {lab.requiredDrops} drops
+      </PageHeader>
+
+      <dl className="grid gap-4 sm:grid-cols-3">
+        <TimeTerm label="Opens" at={lab.opensAt} timeZone={timeZone} />
+        <TimeTerm label="Due" at={lab.dueAt} timeZone={timeZone} />
+        {lab.lateCutoffAt ? <TimeTerm label="Late cut-off" at={lab.lateCutoffAt} timeZone={timeZone} /> : <div><dt className="text-sm text-ink-600">Late cut-off</dt><dd>None: nothing after the due time</dd></div>}
+      </dl>
+
+      <section aria-labelledby="progress-heading">
+        <h2 id="progress-heading" className="mb-2 text-lg font-semibold">
+          Hand-ins by cohort
+        </h2>
+        {cohorts.length === 0 ? <p className="text-ink-700">No students in the cohorts you see.</p> : null}
+        <table className="w-full max-w-2xl text-left text-sm">
+          <thead>
+            <tr className="border-b border-ink-900/20">
+              <th scope="col" className="py-1">Cohort</th>
+              <th scope="col" className="py-1 text-right">Students</th>
+              <th scope="col" className="py-1 text-right">On time</th>
+              <th scope="col" className="py-1 text-right">Late</th>
+              <th scope="col" className="py-1 text-right">Missing</th>
+            </tr>
+          </thead>
+          <tbody>
+            {cohorts.map((cohort) => (
+              <tr key={cohort.cohortId} className="border-b border-ink-900/10">
+                <th scope="row" className="py-1 font-medium">{cohort.name}</th>
+                <td className="py-1 text-right tabular-nums">{cohort.students}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.onTime}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.late}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.missing}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+
+      <section aria-labelledby="students-heading">
+        <h2 id="students-heading" className="mb-2 text-lg font-semibold">
+          Students and their counted version
+        </h2>
+        <div className="overflow-x-auto">
+          <table className="w-full text-left text-sm">
+            <thead>
+              <tr className="border-b border-ink-900/20">
+                <th scope="col" className="py-1 pr-3">Student</th>
+                <th scope="col" className="py-1 pr-3">Cohort</th>
+                <th scope="col" className="py-1 pr-3">Handed in</th>
+                <th scope="col" className="py-1 pr-3">Key result</th>
+                <th scope="col" className="py-1 pr-3 text-right">Warnings</th>
+                <th scope="col" className="py-1">Drop log</th>
+              </tr>
+            </thead>
+            <tbody>
+              {students.map((student) => (
+                <StudentRow key={student.membershipId} student={student} kind={lab.kind} timeZone={timeZone} courseId={courseId} labId={lab.id} />
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section aria-labelledby="reminders-heading">
+        <h2 id="reminders-heading" className="mb-2 text-lg font-semibold">
+          Deadline reminders
+        </h2>
+        {scheduledReminders.length ? (
+          <ul className="mb-3 text-sm">
+            {scheduledReminders.map((job) => (
+              <li key={`${job.offsetHours}-${job.startAfter}`}>
+                {job.offsetHours} h before the due time, to whoever has not handed in by then: <LabTime at={job.startAfter} courseTimeZone={timeZone} />
+              </li>
+            ))}
+          </ul>
+        ) : (
+          <p className="mb-3 text-sm text-ink-700">No reminders are waiting to go out.</p>
+        )}
+        {sentReminders.length === 0 ? (
+          <p className="text-sm text-ink-700">None sent yet.</p>
+        ) : (
+          <table className="w-full max-w-3xl text-left text-sm">
+            <thead>
+              <tr className="border-b border-ink-900/20">
+                <th scope="col" className="py-1 pr-3">To</th>
+                <th scope="col" className="py-1 pr-3">Reminder</th>
+                <th scope="col" className="py-1 pr-3">Sent</th>
+                <th scope="col" className="py-1">E-mail</th>
+              </tr>
+            </thead>
+            <tbody>
+              {sentReminders.map((reminder) => (
+                <tr key={`${reminder.membershipId}-${reminder.offsetHours}`} className="border-b border-ink-900/10">
+                  <td className="py-1 pr-3">
+                    {reminder.studentName} <span className="text-ink-600">({reminder.cohortName})</span>
+                  </td>
+                  <td className="py-1 pr-3">{reminder.offsetHours} h before</td>
+                  <td className="py-1 pr-3">
+                    <LabTime at={reminder.sentAt} courseTimeZone={timeZone} />
+                  </td>
+                  <td className="py-1">{reminder.emailStatus ?? "not queued"}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+      </section>
+    </div>
+  );
+}
+
+function TimeTerm({ label, at, timeZone }: { label: string; at: string; timeZone: string }) {
+  return (
+    <div>
+      <dt className="text-sm text-ink-600">{label}</dt>
+      <dd>
+        <LabTime at={at} courseTimeZone={timeZone} />
+      </dd>
+    </div>
+  );
+}
+
+const significant = (value: number) => value.toPrecision(3);
+
+/** The figure the experiment is about: C_D at its Re for drag, the measured viscosity for viscometry. */
+function keyResult(student: DashboardStudent, kind: "drag" | "viscometry"): string {
+  if (kind === "drag" && student.dragCoefficient !== null) {
+    return `C_D ${significant(student.dragCoefficient)} at Re ${student.reynolds === null ? "?" : significant(student.reynolds)}`;
+  }
+  if (kind === "viscometry" && student.viscosityPaS !== null) return `μ ${significant(student.viscosityPaS)} Pa·s`;
+  return "—";
+}
+
+function StudentRow({ student, kind, timeZone, courseId, labId }: { student: DashboardStudent; kind: "drag" | "viscometry"; timeZone: string; courseId: string; labId: string }) {
+  const handedIn = student.version !== null && student.submittedAt !== null;
+  return (
+    <tr className="border-b border-ink-900/10 align-top">
+      <th scope="row" className="py-1 pr-3 font-medium">
+        {student.name}
+      </th>
+      <td className="py-1 pr-3">{student.cohortName}</td>
+      <td className="py-1 pr-3">
+        {handedIn ? (
+          <>
+            <LabTime at={student.submittedAt!} courseTimeZone={timeZone} />
+            {student.late ? <span className="ml-2 rounded px-1.5 text-xs text-outlier ring-1 ring-outlier">late</span> : null}
+            {student.version! > 1 ? <span className="ml-2 text-xs text-ink-600">version {student.version}</span> : null}
+          </>
+        ) : (
+          <span className="text-outlier">Missing{student.hasDraft ? " (draft started)" : ""}</span>
+        )}
+      </td>
+      <td className="py-1 pr-3 tabular-nums">{handedIn ? keyResult(student, kind) : ""}</td>
+      <td className="py-1 pr-3 text-right tabular-nums">{handedIn ? student.warningCount : ""}</td>
+      <td className="py-1">
+        {handedIn && student.dropLogId ? (
+          <Link to={handInHref(courseId, labId, student.dropLogId)} className="underline">
+            In the class comparison
+          </Link>
+        ) : null}
+      </td>
+    </tr>
+  );
+}
+
+export function meta({ loaderData }: Route.MetaArgs) {
+  return [{ title: `${loaderData?.lab.title ?? "Lab"} · hand-ins · Benchpost` }];
+}

@@ -1,0 +1,119 @@
+import { data, Form, Link, useNavigation, useSearchParams } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.labs.$labId.edit";
+import { LabFields } from "~/components/labs/lab-form";
+import { Button } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
+import { PageHeader } from "~/components/ui/page-header";
+import { fieldErrors, formFailure } from "~/lib/forms/parse-form";
+import { labInputFor, labInputFromForm, storedLabFormValues, submittedLabFormValues } from "~/lib/labs/lab-input";
+import { requireCourseRole } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { LabRuleError, closeLab, getLab, getLabFormOptions, updateLab } from "~/server/labs/labs.server";
+
+const labIntent = z.enum(["save", "publish", "close"], { error: "Choose save, publish or close." });
+
+const statusNames = { draft: "Draft: students do not see it", published: "Published", closed: "Closed: no more hand-ins" } as const;
+
+async function loadOwnLab(courseId: string, labId: string) {
+  const lab = z.uuid().safeParse(labId).success ? await getLab(db, courseId, labId) : null;
+  if (!lab) throw data("Not found", { status: 404 });
+  return lab;
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  const [lab, options] = await Promise.all([loadOwnLab(access.course.id, params.labId), getLabFormOptions(db, access.course.id)]);
+  return {
+    courseId: access.course.id,
+    timeZone: access.course.timeZone,
+    lab: { id: lab.id, title: lab.title, status: lab.status },
+    values: storedLabFormValues(lab, access.course.timeZone),
+    ...options,
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+  const lab = await loadOwnLab(access.course.id, params.labId);
+  const form = await request.formData();
+  const values = submittedLabFormValues(form);
+  const intent = labIntent.safeParse(form.get("intent"));
+  if (!intent.success) return formFailure(values.fields, { form: [intent.error.issues[0].message] }, { submitted: values });
+  try {
+    if (intent.data === "close") {
+      await closeLab(db, { access, labId: lab.id, request });
+      return { done: "closed" as const };
+    }
+    const parsed = labInputFor(access.course.timeZone).safeParse(labInputFromForm(form));
+    if (!parsed.success) return formFailure(values.fields, fieldErrors(parsed.error), { submitted: values });
+    const saved = await updateLab(db, { access, labId: lab.id, input: parsed.data, intent: intent.data, request });
+    return { done: intent.data === "publish" ? ("published" as const) : ("saved" as const), status: saved.status };
+  } catch (error) {
+    if (error instanceof LabRuleError) return formFailure(values.fields, { [error.field]: [error.message] }, { submitted: values });
+    throw error;
+  }
+}
+
+const doneMessages = {
+  saved: "Saved.",
+  published: "Published: students of the chosen cohorts see the lab, and the reminders are scheduled.",
+  closed: "Closed: the lab takes no more hand-ins.",
+} as const;
+
+export default function EditLab({ loaderData, actionData }: Route.ComponentProps) {
+  const { courseId, timeZone, lab, cohorts, parts } = loaderData;
+  const navigation = useNavigation();
+  const [search] = useSearchParams();
+  const failed = actionData && "errors" in actionData ? actionData : null;
+  const errors = failed?.errors ?? {};
+  const base = `/courses/${courseId}/labs/${lab.id}`;
+  return (
+    <div className="flex max-w-4xl flex-col gap-6">
+      <PageHeader
+        title={`Edit: ${lab.title}`}
+        trail={[
+          { to: `/courses/${courseId}/labs`, label: "Labs" },
+          { to: `${base}/dashboard`, label: lab.title },
+        ]}
+        actions={
+          <Link to={`${base}/dashboard`} className="px-4 py-2 text-sm underline">
+            Hand-in dashboard
+          </Link>
+        }
+      >
+        {statusNames[lab.status]}
+      </PageHeader>
+      {search.get("saved") === "created" && !actionData ? <Notice tone="success">The draft is saved. Check it, then publish it to its cohorts.</Notice> : null}
+      {actionData && "done" in actionData ? <Notice tone="success">{doneMessages[actionData.done]}</Notice> : null}
+      {errors.form ? <Notice tone="error">{errors.form.join(" ")}</Notice> : null}
+      {Object.keys(errors).length && !errors.form ? <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice> : null}
+      {/* Keyed on the stored values so that a successful save shows what was stored. */}
+      <Form method="post" className="flex flex-col gap-6" key={failed ? "failed" : JSON.stringify(loaderData.values)}>
+        <LabFields values={failed?.submitted ?? loaderData.values} errors={errors} timeZone={timeZone} cohorts={cohorts} parts={parts} />
+        <div className="flex flex-wrap gap-3">
+          <Button type="submit" name="intent" value="save" variant={lab.status === "draft" ? "secondary" : "primary"} disabled={navigation.state === "submitting"}>
+            Save
+          </Button>
+          {lab.status !== "published" ? (
+            <Button type="submit" name="intent" value="publish" disabled={navigation.state === "submitting"}>
+              {lab.status === "closed" ? "Save and publish again" : "Save and publish"}
+            </Button>
+          ) : null}
+        </div>
+      </Form>
+      {lab.status === "published" ? (
+        <Form method="post" className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+          <p className="mb-2 text-sm">Closing stops hand-ins at once, late ones too, and cancels the reminders still to go.</p>
+          <Button type="submit" name="intent" value="close" variant="danger">
+            Close the lab
+          </Button>
+        </Form>
+      ) : null}
+    </div>
+  );
+}
+
+export function meta({ loaderData }: Route.MetaArgs) {
+  return [{ title: `${loaderData ? `Edit ${loaderData.lab.title}` : "Lab"} · Benchpost` }];
+}

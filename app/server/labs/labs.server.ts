@@ -1,0 +1,137 @@
+/**
+ * Labs as instructors set them: create a draft from an experiment kind, edit it, publish it to cohorts
+ * (which schedules its deadline reminders on the same transaction), and close it. The hand-in side is
+ * in `~/server/drop-logs/`; the reminders' job is in `./lab-reminders.server.ts`.
+ */
+import { and, asc, eq, inArray, ne, sql } from "drizzle-orm";
+import { cohorts, labCohorts, labs, parts } from "~/db/schema";
+import type { LabInput } from "~/lib/labs/lab-input";
+import { recordAudit } from "~/server/audit.server";
+import type { CourseAccess } from "~/server/auth/access.server";
+import type { Executor } from "~/server/db.server";
+import { scheduleLabReminders } from "./lab-reminders.server";
+
+export type LabRecord = typeof labs.$inferSelect;
+export type LabWithCohorts = LabRecord & { cohortIds: string[] };
+export type LabIntent = "save" | "publish" | "close";
+
+/** A change the lab's rules refuse; `field` is the form field the message belongs next to. */
+export class LabRuleError extends Error {
+  constructor(
+    message: string,
+    readonly field: string = "form",
+  ) {
+    super(message);
+    this.name = "LabRuleError";
+  }
+}
+
+/** The course's cohorts and the in-service parts a lab may be limited to, for the lab form: two statements side by side. */
+export async function getLabFormOptions(executor: Executor, courseId: string) {
+  const [cohortRows, partRows] = await Promise.all([
+    executor.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name)),
+    executor
+      .select({ id: parts.id, kind: parts.kind, label: parts.label, material: parts.material, fluidName: parts.fluidName })
+      .from(parts)
+      .where(and(eq(parts.courseId, courseId), inArray(parts.kind, ["sphere", "fluid_lot", "column"]), ne(parts.status, "retired")))
+      .orderBy(asc(parts.kind), asc(parts.label)),
+  ]);
+  return { cohorts: cohortRows, parts: partRows };
+}
+
+/** One lab of the course with the cohorts it is set for, in one statement; null when it is not the course's. */
+export async function getLab(executor: Executor, courseId: string, labId: string): Promise<LabWithCohorts | null> {
+  const [row] = await executor
+    .select({ lab: labs, cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]` })
+    .from(labs)
+    .where(and(eq(labs.id, labId), eq(labs.courseId, courseId)));
+  return row ? { ...row.lab, cohortIds: row.cohortIds } : null;
+}
+
+function columnsOf(input: LabInput) {
+  const { cohortIds: _cohortIds, ...settings } = input;
+  return { ...settings, lateCutoffAt: input.lateCutoffAt ?? null };
+}
+
+/** Cohorts and parts must be the course's own: a forged id is refused rather than silently dropped. */
+async function checkOwnership(executor: Executor, courseId: string, input: LabInput): Promise<void> {
+  const ids = (values: string[]) => sql`(select value::uuid from json_array_elements_text(${JSON.stringify([...new Set(values)])}::json))`;
+  const result = await executor.execute<{ cohorts: number; parts: number }>(sql`
+    select (select count(*)::int from cohorts where course_id = ${courseId} and id in ${ids(input.cohortIds)}) as cohorts,
+      (select count(*)::int from parts where course_id = ${courseId} and id in ${ids(input.allowedPartIds)}) as parts`);
+  const counts = result.rows[0];
+  if (counts.cohorts !== new Set(input.cohortIds).size) throw new LabRuleError("Choose cohorts of this course.", "cohortIds");
+  if (counts.parts !== new Set(input.allowedPartIds).size) throw new LabRuleError("Choose parts of this course's inventory.", "allowedPartIds");
+}
+
+async function setCohorts(executor: Executor, labId: string, cohortIds: string[]): Promise<void> {
+  await executor.delete(labCohorts).where(eq(labCohorts.labId, labId));
+  if (cohortIds.length) await executor.insert(labCohorts).values([...new Set(cohortIds)].map((cohortId) => ({ labId, cohortId })));
+}
+
+/** A new lab, always a draft: students see nothing until it is published. */
+export async function createLab(executor: Executor, { access, input, request }: { access: CourseAccess; input: LabInput; request?: Request }): Promise<LabRecord> {
+  return executor.transaction(async (tx) => {
+    await checkOwnership(tx, access.course.id, input);
+    const [lab] = await tx
+      .insert(labs)
+      .values({ ...columnsOf(input), courseId: access.course.id, status: "draft" })
+      .returning();
+    await setCohorts(tx, lab.id, input.cohortIds);
+    await recordAudit(tx, { action: "lab.created", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: { title: lab.title, kind: lab.kind }, request });
+    return lab;
+  });
+}
+
+const sameOffsets = (a: readonly number[], b: readonly number[]) => a.length === b.length && a.every((value, index) => value === b[index]);
+
+/**
+ * Saves the form, and publishes or closes the lab when `intent` says so. Publishing needs a cohort
+ * (the schema already demands due > opens). Reminders are scheduled when the lab becomes published,
+ * and again when a published lab's due time or offsets change: the jobs for the old due time find
+ * it changed and do nothing, and `lab_reminders` keeps any student from being reminded twice.
+ */
+export async function updateLab(
+  executor: Executor,
+  { access, labId, input, intent, request, now = new Date() }: { access: CourseAccess; labId: string; input: LabInput; intent: Exclude<LabIntent, "close">; request?: Request; now?: Date },
+): Promise<LabRecord> {
+  return executor.transaction(async (tx) => {
+    const [before] = await tx.select().from(labs).where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id))).for("update");
+    if (!before) throw new LabRuleError("There is no such lab in this course.");
+    await checkOwnership(tx, access.course.id, input);
+    const publishing = intent === "publish";
+    if (publishing && input.cohortIds.length === 0) throw new LabRuleError("Choose at least one cohort to publish the lab to.", "cohortIds");
+    const status = publishing ? "published" : before.status;
+    const [lab] = await tx
+      .update(labs)
+      .set({ ...columnsOf(input), status, publishedAt: publishing ? now : before.publishedAt, updatedAt: now })
+      .where(eq(labs.id, labId))
+      .returning();
+    await setCohorts(tx, labId, input.cohortIds);
+    const deadlineChanged = before.dueAt.getTime() !== lab.dueAt.getTime() || !sameOffsets(before.reminderOffsetsHours, lab.reminderOffsetsHours);
+    if (lab.status === "published" && (publishing || deadlineChanged)) await scheduleLabReminders(tx, lab, now);
+    await recordAudit(tx, {
+      action: publishing ? "lab.published" : "lab.updated",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject: `lab:${labId}`,
+      detail: { title: lab.title, status: lab.status, dueAt: lab.dueAt.toISOString(), cohorts: input.cohortIds.length },
+      request,
+    });
+    return lab;
+  });
+}
+
+/** Closes a published lab: it takes no more hand-ins, and its pending reminders do nothing. */
+export async function closeLab(executor: Executor, { access, labId, request, now = new Date() }: { access: CourseAccess; labId: string; request?: Request; now?: Date }): Promise<LabRecord> {
+  return executor.transaction(async (tx) => {
+    const [lab] = await tx
+      .update(labs)
+      .set({ status: "closed", updatedAt: now })
+      .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id), eq(labs.status, "published")))
+      .returning();
+    if (!lab) throw new LabRuleError("Only a published lab can be closed.");
+    await recordAudit(tx, { action: "lab.closed", actorId: access.user.id, courseId: access.course.id, subject: `lab:${labId}`, detail: { title: lab.title }, request });
+    return lab;
+  });
+}

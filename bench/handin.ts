@@ -1,0 +1,154 @@
+/**
+ * `npm run bench:handin`: the last minutes before a deadline. 200 students, each with a kit and a
+ * session, hand in through the running app server (the built app on loopback, on a bench copy of the
+ * database) at once: a hand-in, a retry of it with the same Idempotency-Key (a double tap or a lost
+ * answer), and a corrected second version. Prints hand-ins per second and latency percentiles, then
+ * checks that every accepted hand-in is stored exactly once. Bounded: 600 requests, 60 s.
+ */
+import { spawn, spawnSync } from "node:child_process";
+import { randomUUID } from "node:crypto";
+import { existsSync } from "node:fs";
+import { freePort, waitForHealth } from "../tests/support/app-server";
+import { bin } from "../scripts/lib/processes";
+import { useBenchDatabase } from "./support";
+
+const STUDENTS = 200;
+const REQUEST_TIMEOUT_MS = 30_000;
+const OVERALL_DEADLINE_MS = 60_000;
+const P99_BUDGET_MS = 2_000;
+
+if (!existsSync("build/server/index.js")) {
+  console.log("Building the app…");
+  if (spawnSync(process.execPath, [bin.reactRouter, "build"], { stdio: "inherit" }).status !== 0) throw new Error("The build failed.");
+}
+
+const bench = await useBenchDatabase();
+const { sql } = await import("drizzle-orm");
+const { db } = await import("~/server/db.server");
+const schema = await import("~/db/schema");
+const { insertMany } = await import("~/server/bulk-insert.server");
+const { createSession, SESSION_COOKIE } = await import("~/server/auth/session.server");
+
+// The class: one course, one cohort, a published lab due in ten minutes, a kit per student.
+const label = `bench-${randomUUID().slice(0, 8)}`;
+const [course] = await db.insert(schema.courses).values({ title: "Deadline rush", code: label, term: "Bench", timeZone: "UTC" }).returning();
+const [cohort] = await db.insert(schema.cohorts).values({ courseId: course.id, name: "Everyone" }).returning();
+const [lab] = await db
+  .insert(schema.labs)
+  .values({
+    courseId: course.id,
+    title: "Drag on a settling sphere",
+    kind: "drag",
+    status: "published",
+    opensAt: new Date(Date.now() - 86_400_000),
+    dueAt: new Date(Date.now() + 600_000),
+    resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 },
+    publishedAt: new Date(),
+  })
+  .returning();
+await db.insert(schema.labCohorts).values({ labId: lab.id, cohortId: cohort.id });
+const [fluidLot] = await db
+  .insert(schema.parts)
+  .values({ courseId: course.id, kind: "fluid_lot", label: "GLY-B", fluidName: "glycerol", densityKgM3: 1260, calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }, { temperatureC: 25, viscosityPaS: 0.94 }] })
+  .returning();
+const students = Array.from({ length: STUDENTS }, (_, index) => ({
+  index,
+  userId: randomUUID(),
+  membershipId: randomUUID(),
+  kitId: randomUUID(),
+  sphereId: randomUUID(),
+  columnId: randomUUID(),
+}));
+await insertMany(db, schema.users, students.map((s) => ({ id: s.userId, email: `student${s.index}@${label}.example`, name: `Student ${s.index}` })));
+await insertMany(db, schema.courseMemberships, students.map((s) => ({ id: s.membershipId, courseId: course.id, userId: s.userId, role: "student" as const, cohortId: cohort.id })));
+await insertMany(db, schema.parts, [
+  ...students.map((s) => ({ id: s.sphereId, courseId: course.id, kind: "sphere" as const, label: `S-${s.index}`, material: "steel", diameterMm: 3, massG: 0.11 })),
+  ...students.map((s) => ({ id: s.columnId, courseId: course.id, kind: "column" as const, label: `C-${s.index}`, innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 })),
+]);
+await insertMany(db, schema.kits, students.map((s) => ({ id: s.kitId, courseId: course.id, number: `K-${s.index}`, state: "at_home" as const, holderMembershipId: s.membershipId })));
+await insertMany(db, schema.kitParts, [
+  ...students.flatMap((s) => [
+    { kitId: s.kitId, partId: s.sphereId, exclusive: true },
+    { kitId: s.kitId, partId: s.columnId, exclusive: true },
+  ]),
+  ...students.map((s) => ({ kitId: s.kitId, partId: fluidLot.id, exclusive: false })),
+]);
+const cookies = new Map<number, string>();
+for (const s of students) {
+  const { token } = await createSession(db, s.userId, new Request("http://127.0.0.1/"));
+  cookies.set(s.index, `${SESSION_COOKIE}=${token}`);
+}
+
+// The server: the node binary itself (so the PID is the server's), loopback only.
+const port = await freePort();
+const baseUrl = `http://127.0.0.1:${port}`;
+const server = spawn(process.execPath, [bin.reactRouterServe, "build/server/index.js"], {
+  env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", APP_URL: baseUrl, DATABASE_URL: bench.url },
+  stdio: ["ignore", "ignore", "inherit"],
+});
+
+type Outcome = { student: number; key: string; status: number; versionId: string | null; duplicate: boolean | null; ms: number };
+const outcomes: Outcome[] = [];
+const deadline = Date.now() + OVERALL_DEADLINE_MS;
+
+async function handIn(student: (typeof students)[number], key: string, drops: number[]): Promise<void> {
+  if (Date.now() > deadline) throw new Error("The benchmark ran past its 60 s bound.");
+  const started = performance.now();
+  const response = await fetch(`${baseUrl}/api/v1/labs/${lab.id}/drop-logs`, {
+    method: "POST",
+    headers: { Cookie: cookies.get(student.index)!, Origin: baseUrl, "Content-Type": "application/json", "Idempotency-Key": key },
+    body: JSON.stringify({ sphereId: student.sphereId, temperatureC: 21.5, drops }),
+    signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS),
+  });
+  const body = (await response.json().catch(() => null)) as { version?: { id: string }; duplicate?: boolean } | null;
+  outcomes.push({ student: student.index, key, status: response.status, versionId: body?.version?.id ?? null, duplicate: body?.duplicate ?? null, ms: performance.now() - started });
+}
+
+const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
+let failed = false;
+try {
+  await waitForHealth(baseUrl, server);
+  const started = performance.now();
+  // Every student at once; each one's own requests in order, as one phone would send them.
+  await Promise.all(
+    students.map(async (student) => {
+      const drops = Array.from({ length: 10 }, (_, drop) => Number((7.45 + (((student.index * 7 + drop * 3) % 11) - 5) * 0.01).toFixed(2)));
+      const first = `${label}-${student.index}-a`;
+      await handIn(student, first, drops);
+      await handIn(student, first, drops);
+      await handIn(student, `${label}-${student.index}-b`, drops.map((time) => Number((time + 0.02).toFixed(2))));
+    }),
+  );
+  const seconds = (performance.now() - started) / 1000;
+
+  const accepted = outcomes.filter((outcome) => outcome.status === 201);
+  const repeats = outcomes.filter((outcome) => outcome.status === 200);
+  const others = outcomes.filter((outcome) => outcome.status !== 201 && outcome.status !== 200);
+  const latencies = outcomes.map((outcome) => outcome.ms).sort((a, b) => a - b);
+  console.log(`${outcomes.length} requests from ${STUDENTS} students in ${seconds.toFixed(2)} s: ${accepted.length} new versions (201), ${repeats.length} repeats (200), ${others.length} other`);
+  console.log(`hand-ins stored per second: ${(accepted.length / seconds).toFixed(0)}; requests per second: ${(outcomes.length / seconds).toFixed(0)}`);
+  console.log(`latency: p50 ${percentile(latencies, 50).toFixed(0)} ms, p95 ${percentile(latencies, 95).toFixed(0)} ms, p99 ${percentile(latencies, 99).toFixed(0)} ms, max ${latencies.at(-1)!.toFixed(0)} ms`);
+
+  // Exactly once: one stored version per accepted answer, each repeat answered with its first version.
+  const stored = await db.execute<{ versions: number; keys: number; logs: number }>(sql`
+    select count(*)::int as versions, count(distinct (v.drop_log_id, v.idempotency_key))::int as keys, count(distinct v.drop_log_id)::int as logs
+    from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${lab.id}`);
+  const { versions, keys, logs } = stored.rows[0];
+  const firstVersion = new Map(accepted.map((outcome) => [outcome.key, outcome.versionId]));
+  const repeatsMatch = repeats.every((outcome) => outcome.duplicate === true && firstVersion.get(outcome.key) === outcome.versionId);
+  const checks = [
+    [`no request failed (${others.map((o) => o.status).join(", ") || "none"})`, others.length === 0],
+    [`stored versions ${versions} = accepted hand-ins ${accepted.length}`, versions === accepted.length],
+    [`idempotency keys unique (${keys} keys for ${versions} versions)`, keys === versions],
+    [`one drop log per student (${logs})`, logs === STUDENTS],
+    ["every repeat answered with the version first stored", repeatsMatch],
+    [`p99 within ${P99_BUDGET_MS} ms`, percentile(latencies, 99) <= P99_BUDGET_MS],
+  ] as const;
+  for (const [name, ok] of checks) console.log(`${ok ? "PASS" : "FAIL"} ${name}`);
+  failed = checks.some(([, ok]) => !ok);
+} finally {
+  server.kill("SIGTERM");
+  await new Promise((resolve) => (server.exitCode !== null ? resolve(null) : server.once("exit", resolve)));
+  await bench.drop();
+}
+if (failed) process.exitCode = 1;
