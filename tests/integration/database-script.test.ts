@@ -14,11 +14,12 @@ function dbScript(command: string): string {
   return execFileSync(process.execPath, [bin.tsx, "scripts/db.ts", command], { env, encoding: "utf8" });
 }
 
+/** The two databases the script manages; other test files create and drop copies meanwhile. */
 async function databaseNames(): Promise<string[]> {
   const client = new pg.Client({ connectionString: maintenanceUrl(testDatabaseUrl()) });
   await client.connect();
   try {
-    const { rows } = await client.query<{ datname: string }>("select datname from pg_database where datname like 'benchpost%' and datname not like 'benchpost\\_test\\_%' order by 1");
+    const { rows } = await client.query<{ datname: string }>("select datname from pg_database where datname in ('benchpost', 'benchpost_test') order by 1");
     return rows.map((row) => row.datname);
   } finally {
     await client.end();
