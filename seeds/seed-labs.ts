@@ -14,6 +14,7 @@ import { fitFluidViscosity, referenceDragCoefficient, viscosityAt, wallFactor } 
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Database } from "~/server/db.server";
 import { handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { scheduleLabReminders } from "~/server/labs/lab-reminders.server";
 
 const DAY_MS = 86_400_000;
 const G = 9.80665;
@@ -33,7 +34,7 @@ function terminalVelocity(diameter: number, sphereDensity: number, fluidDensity:
   return velocity;
 }
 
-type Mistake = "none" | "stopwatch-slip" | "warm-fluid" | "wrong-sphere";
+type Mistake = "none" | "stopwatch-slip" | "warm-fluid" | "wrong-sphere" | "misread-diameter";
 
 export async function seedLabs(db: Database, faker: Faker, { courseId }: { courseId: string }): Promise<void> {
   const now = Date.now();
@@ -75,6 +76,10 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     ])
     .returning();
   await db.insert(labCohorts).values([dragLab, viscometryLab].flatMap((lab) => cohortRows.map((cohort) => ({ labId: lab.id, cohortId: cohort.id }))));
+  // As publishing does: the viscometry lab's 48 h and 6 h reminders wait in the queue (the drag lab's are past).
+  await db.transaction(async (tx) => {
+    for (const lab of [dragLab, viscometryLab]) await scheduleLabReminders(tx, lab, new Date(now));
+  });
 
   // Students who hold a kit, with the parts of it, in one statement.
   const holders = await db
@@ -100,7 +105,7 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     };
     const column = rows.find((row) => row.part.kind === "column")!.part;
     const sphereOf = (prefix: string) => rows.find((row) => row.part.label.startsWith(prefix))!.part;
-    const mistake: Mistake = index === 3 ? "stopwatch-slip" : index === 7 ? "warm-fluid" : index === 11 ? "wrong-sphere" : "none";
+    const mistake: Mistake = index === 3 ? "stopwatch-slip" : index === 7 ? "warm-fluid" : index === 11 ? "wrong-sphere" : index === 15 ? "misread-diameter" : "none";
 
     const dropsFor = (sphere: typeof column, lot: typeof column, temperatureC: number, dragLaw: "schiller-naumann" | "stokes", jitter: number) => {
       const diameter = sphere.diameterMm! / 1000;
@@ -119,6 +124,8 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
       const drops = dropsFor(timedSphere, glycerol, mistake === "warm-fluid" ? temperatureC + 6 : temperatureC, "schiller-naumann", 0.12);
       if (mistake === "stopwatch-slip") drops[4] = Number((drops[4] * 2).toFixed(2));
       const input: DropLogInput = { sphereId: sphereOf("S3").id, temperatureC, drops, notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined };
+      // A micrometer read half a turn off (0.5 mm): the kit's record is used, and the log carries a warning.
+      if (mistake === "misread-diameter") input.ownDiameterMm = Number((sphereOf("S3").diameterMm! + 0.5).toFixed(2));
       const late = index % 6 === 5;
       await handInDropLog(db, { access, labId: dragLab.id, input, idempotencyKey: `demo-drag-${membershipId}`, now: new Date(now - (late ? 1 : 3) * DAY_MS) });
     }
