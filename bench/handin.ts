@@ -2,21 +2,25 @@
  * `npm run bench:handin`: the last minutes before a deadline. 200 students, each with a kit and a
  * session, hand in through the running app server (the built app on loopback, on a bench copy of the
  * database) at once: a hand-in, a retry of it with the same Idempotency-Key (a double tap or a lost
- * answer), and a corrected second version. Prints hand-ins per second and latency percentiles, then
- * checks that every accepted hand-in is stored exactly once. Bounded: 600 requests, 60 s.
+ * answer), and a corrected second version. Prints hand-ins per second, latency percentiles and the CPU
+ * the server, this load client and the rest of the machine used (they share the cores), then checks
+ * that every accepted hand-in is stored exactly once. Bounded: 600 requests, 60 s.
  */
 import { spawn, spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
-import { existsSync } from "node:fs";
+import { existsSync, readdirSync, statSync } from "node:fs";
 import { freePort, waitForHealth } from "../tests/support/app-server";
 import { bin } from "../scripts/lib/processes";
-import { useBenchDatabase } from "./support";
+import { startCpuAccount, useBenchDatabase } from "./support";
 
 const STUDENTS = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
 const OVERALL_DEADLINE_MS = 60_000;
 
-if (!existsSync("build/server/index.js")) {
+// A build older than the code would measure the code as it was: build again whenever app/ has changed since.
+const builtAt = existsSync("build/server/index.js") ? statSync("build/server/index.js").mtimeMs : 0;
+const appChanged = readdirSync("app", { recursive: true, encoding: "utf8" }).some((file) => statSync(`app/${file}`).mtimeMs > builtAt);
+if (appChanged) {
   console.log("Building the app…");
   if (spawnSync(process.execPath, [bin.reactRouter, "build"], { stdio: "inherit" }).status !== 0) throw new Error("The build failed.");
 }
@@ -60,7 +64,7 @@ const students = Array.from({ length: STUDENTS }, (_, index) => ({
 }));
 await insertMany(db, schema.users, students.map((s) => ({ id: s.userId, email: `student${s.index}@${label}.example`, name: `Student ${s.index}` })));
 await insertMany(db, schema.courseMemberships, students.map((s) => ({ id: s.membershipId, courseId: course.id, userId: s.userId, role: "student" as const, cohortId: cohort.id })));
-// Two inserts: insertMany writes the columns its first row names.
+// Two inserts: every row of an insertMany must name the same columns.
 await insertMany(db, schema.parts, students.map((s) => ({ id: s.sphereId, courseId: course.id, kind: "sphere" as const, label: `S-${s.index}`, material: "steel", diameterMm: 3, massG: 0.11 })));
 await insertMany(db, schema.parts, students.map((s) => ({ id: s.columnId, courseId: course.id, kind: "column" as const, label: `C-${s.index}`, innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 })));
 await insertMany(db, schema.kits, students.map((s) => ({ id: s.kitId, courseId: course.id, number: `K-${s.index}`, state: "at_home" as const, holderMembershipId: s.membershipId })));
@@ -114,6 +118,7 @@ const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.lengt
 let failed = false;
 try {
   await waitForHealth(baseUrl, server);
+  const cpuAccount = startCpuAccount(server.pid!);
   const started = performance.now();
   // Every student at once; each one's own requests in order, as one phone would send them.
   await Promise.all(
@@ -126,6 +131,7 @@ try {
     }),
   );
   const seconds = (performance.now() - started) / 1000;
+  const cpu = cpuAccount();
 
   const accepted = outcomes.filter((outcome) => outcome.status === 201);
   const repeats = outcomes.filter((outcome) => outcome.status === 200);
@@ -134,6 +140,12 @@ try {
   console.log(`${outcomes.length} requests from ${STUDENTS} students in ${seconds.toFixed(2)} s: ${accepted.length} new versions (201), ${repeats.length} repeats (200), ${others.length} other`);
   console.log(`hand-ins stored per second: ${(accepted.length / seconds).toFixed(0)}; requests per second: ${(outcomes.length / seconds).toFixed(0)}`);
   console.log(`latency: p50 ${percentile(latencies, 50).toFixed(0)} ms, p95 ${percentile(latencies, 95).toFixed(0)} ms, p99 ${percentile(latencies, 99).toFixed(0)} ms, max ${latencies.at(-1)!.toFixed(0)} ms`);
+  // The load client runs on the same cores as the server: say what it and the rest of the machine took.
+  const perRequest = (cpuSeconds: number) => `${((cpuSeconds * 1000) / outcomes.length).toFixed(1)} ms a request`;
+  console.log(
+    `CPU during the run (${cpu.available.toFixed(1)} s available): server ${cpu.server === null ? "unknown (no /proc)" : `${cpu.server.toFixed(1)} s, ${perRequest(cpu.server)}`}; ` +
+      `this load client ${cpu.client.toFixed(1)} s, ${perRequest(cpu.client)}; PostgreSQL and everything else ${cpu.rest.toFixed(1)} s`,
+  );
 
   // Exactly once: one stored version per accepted answer, each repeat answered with its first version.
   const stored = await db.execute<{ versions: number; keys: number; logs: number }>(sql`

@@ -9,12 +9,12 @@ export default function MarksReleasedEmail(props: Props) {
   return (
     <EmailLayout
       preview={`Marks and feedback for ${props.labTitle}`}
-      reason={`You got this e-mail because you handed in ${props.labTitle} in ${props.courseTitle} and its marks have now been released.`}
+      reason={`You got this e-mail because you are a student of ${props.courseTitle} and the marks for ${props.labTitle} have now been released to you.`}
     >
       <Heading>Your mark for {props.labTitle} is ready</Heading>
       <Paragraph>
-        The marks for {props.labTitle} in {props.courseTitle} have been released. Open the lab to see your mark, the feedback and
-        the result the server recomputed from your drop log.
+        The marks for {props.labTitle} in {props.courseTitle} have been released. Open the lab to see your mark, each criterion of
+        the rubric with its feedback, and the result the server recomputed from the drop log your mark is based on.
       </Paragraph>
       <ActionButton href={props.marksUrl}>See your mark</ActionButton>
     </EmailLayout>
@@ -24,5 +24,5 @@ export default function MarksReleasedEmail(props: Props) {
 MarksReleasedEmail.PreviewProps = {
   courseTitle: "Demo: Fluids at the Kitchen Table",
   labTitle: "Demo lab: Drag on a settling sphere",
-  marksUrl: "https://benchpost.example/courses/demo/labs/demo-lab/mark",
+  marksUrl: "https://benchpost.example/courses/demo/labs/demo-lab#mark",
 } satisfies Props;

@@ -13,6 +13,7 @@ import { ensureDatabases } from "../scripts/lib/postgres";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "./demo-scenario";
 import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
+import { seedMarking } from "./seed-marking";
 
 export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
   const existing = await db
@@ -82,6 +83,9 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   const labFaker = new Faker({ locale: [en] });
   labFaker.seed(2142);
   await seedLabs(db, labFaker, { courseId });
+  const markingFaker = new Faker({ locale: [en] });
+  markingFaker.seed(2143);
+  await seedMarking(db, markingFaker, { courseId });
   return "seeded";
 }
 

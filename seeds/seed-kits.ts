@@ -1,6 +1,6 @@
 /**
  * The demo kit inventory: measured spheres of three sizes and two materials, two fluid lots with
- * calibration points, a column per kit, accessories, and 24 kits spread over every state of the
+ * calibration points, a column per kit, accessories, and 48 kits spread over every state of the
  * journey with their history. The values are invented but physically plausible; they are demo data,
  * never a test's expected value.
  */
@@ -9,7 +9,7 @@ import { kitEvents, kitParts, kits, partEvents, parts } from "~/db/schema";
 import type { KitState } from "~/lib/kits/kit-states";
 import type { Transaction } from "~/server/db.server";
 
-const KIT_COUNT = 24;
+const KIT_COUNT = 48;
 
 /** Nominal sizes with the density of their material, measured with a 0.001 mm micrometer and a 1 mg balance. */
 const sphereSizes = [
@@ -20,7 +20,7 @@ const sphereSizes = [
 
 /** Where each kit is on its journey: most at home, a few in every other state. */
 const journey: KitState[] = [
-  ...Array<KitState>(14).fill("at_home"),
+  ...Array<KitState>(38).fill("at_home"),
   "on_shelf",
   "on_shelf",
   "packed",

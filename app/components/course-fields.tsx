@@ -1,4 +1,5 @@
-import { TextField } from "~/components/ui/field";
+import { SelectField, TextField } from "~/components/ui/field";
+import { partBiasAlphas } from "~/lib/courses/course-input";
 
 /** The course's own fields, shared by this page and the settings page. */
 export function CourseFields({
@@ -41,6 +42,19 @@ export function CourseFields({
         error={errors.localGravity}
         hint="Leave empty to use standard gravity, 9.80665 m/s²."
       />
+      <SelectField
+        label="Kit-part bias test, α"
+        name="partBiasAlpha"
+        defaultValue={String(values.partBiasAlpha ?? 0.05)}
+        error={errors.partBiasAlpha}
+        hint="A sphere, fluid lot or column whose results sit off the class over three or more hand-ins is flagged for re-measurement when a t-test rejects “no bias” at this level. Smaller flags fewer parts."
+      >
+        {partBiasAlphas.map((alpha) => (
+          <option key={alpha} value={String(alpha)}>
+            {alpha.toFixed(2)}
+          </option>
+        ))}
+      </SelectField>
     </>
   );
 }

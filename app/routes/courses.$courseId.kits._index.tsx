@@ -3,7 +3,7 @@ import { data, Form, Link, useFetcher, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits._index";
 import { DataTable, readPaging } from "~/components/ui/data-table";
-import { Button } from "~/components/ui/button";
+import { Button, ButtonLink } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { KitStateBadge } from "~/components/kit-state-badge";
@@ -92,9 +92,9 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
         actions={
           canChange ? (
             <>
-              <Link to="new" className="rounded-md bg-ink-800 px-4 py-2 text-sm text-paper-50">
+              <ButtonLink to="new">
                 Make up a kit
-              </Link>
+              </ButtonLink>
               <a href={`/courses/${courseId}/inventory.csv`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Export inventory (CSV)
               </a>

@@ -2,17 +2,18 @@ import { data, redirect, useFetcher, type ShouldRevalidateFunctionArgs } from "r
 import type { Route } from "./+types/courses.$courseId.labs.$labId._index";
 import { DropLogForm } from "~/components/drop-logs/drop-log-form";
 import { LabTime } from "~/components/drop-logs/lab-time";
-import { ReductionSummary, WarningList, figure } from "~/components/drop-logs/reduction-summary";
+import { PhotoList, VersionHistory } from "~/components/drop-logs/version-history";
+import { StudentMarkView } from "~/components/marking/student-mark";
 import { SafetyCautions } from "~/components/safety-cautions";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { dropLogInputFromForm, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
-import type { DropLogWarning, KitRecords } from "~/lib/drop-logs/reduce-drop-log";
-import type { Reduction } from "~/lib/reduction";
+import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
 import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { loadStudentMark } from "~/server/marking/student-mark.server";
 import { HandInRefusedError, getDropLogForStudent, handInDropLog, loadStudentLab, saveDraft } from "~/server/drop-logs/hand-in.server";
 
 async function studentLab(access: CourseAccess, labId: string) {
@@ -41,9 +42,13 @@ function draftFromInput(input: DropLogInput): DropLogDraft {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, anyRole);
-  // Staff follow a lab through its class comparison; this page is the student's bench.
-  if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/comparison`);
-  const [context, dropLog] = await Promise.all([studentLab(access, params.labId), getDropLogForStudent(db, { labId: params.labId, membershipId: access.membership.id })]);
+  // This page is the student's bench; staff follow a lab from its hand-in dashboard.
+  if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/dashboard`);
+  const [context, dropLog, mark] = await Promise.all([
+    studentLab(access, params.labId),
+    getDropLogForStudent(db, { labId: params.labId, membershipId: access.membership.id }),
+    loadStudentMark(db, { access, labId: params.labId }),
+  ]);
   const { lab } = context;
   const column = context.usableParts.find((part) => part.kind === "column") ?? null;
   const versions = dropLog?.versions ?? [];
@@ -70,17 +75,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     column: column ? { label: column.label, timedDistanceMm: column.timedDistanceMm } : null,
     draft,
     latestVersionId: dropLog?.latestVersionId ?? null,
-    versions: versions.map((version) => ({
-      id: version.id,
-      version: version.version,
-      late: version.late,
-      submittedAt: version.submittedAt.toISOString(),
-      input: version.input as DropLogInput,
-      kitRecords: version.kitRecords as KitRecords,
-      reduction: version.reduction as unknown as Reduction & { warnings: DropLogWarning[] },
-      normalisedFigure: version.normalisedFigure,
-    })),
-    photos: dropLog?.photos.map((photo) => ({ ...photo, createdAt: photo.createdAt.toISOString() })) ?? [],
+    versions: versions.map(versionView),
+    photos: dropLog?.photos.map(photoView) ?? [],
+    mark,
   };
 }
 
@@ -129,7 +126,7 @@ const timingNotes = {
 } as const;
 
 export default function LabPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, timing, hasKit, spheres, column, draft, versions, photos, latestVersionId } = loaderData;
+  const { courseId, timeZone, lab, timing, hasKit, spheres, column, draft, versions, photos, latestVersionId, mark } = loaderData;
   const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
   const errors = actionData && "errors" in actionData ? actionData.errors : null;
   const draftPhotos = photos.filter((photo) => photo.versionId === null);
@@ -148,6 +145,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
           <span className="block text-sm">No late hand-ins after the due time.</span>
         )}
       </PageHeader>
+      {mark ? <StudentMarkView mark={mark} timeZone={timeZone} /> : null}
 
       {handedIn ? (
         <Notice tone="success">
@@ -193,57 +191,13 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
           What you handed in
         </h2>
         {versions.length === 0 ? <p className="text-ink-700">Nothing yet. Each hand-in is kept as a version; the latest one counts.</p> : null}
-        <ol className="flex flex-col gap-4">
-          {versions.map((version) => (
-            <li key={version.id} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10" aria-label={`Version ${version.version}`}>
-              <h3 className="font-semibold">
-                Version {version.version}{" "}
-                {version.id === latestVersionId ? <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal ring-1 ring-consistent">counts</span> : null}
-                {version.late ? <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal text-outlier ring-1 ring-outlier">late</span> : null}
-              </h3>
-              <p className="text-sm text-ink-700">
-                Handed in <LabTime at={version.submittedAt} courseTimeZone={timeZone} />
-              </p>
-              <p className="mt-1 text-sm">
-                Sphere {version.kitRecords.sphere.label}: d = {version.kitRecords.sphere.diameterMm} mm, m = {version.kitRecords.sphere.massG} g · {version.input.temperatureC} °C · timed over{" "}
-                {version.kitRecords.column.timedDistanceMm} mm · drops {version.input.drops.join(", ")} s
-              </p>
-              <div className="mt-2">
-                <ReductionSummary reduction={version.reduction} normalisedFigure={version.normalisedFigure} />
-                <WarningList warnings={version.reduction.warnings ?? []} />
-              </div>
-              {lab.kind === "drag" && version.kitRecords.fluidLot.viscosityPaS !== null ? (
-                <p className="mt-1 text-xs text-ink-600">
-                  Fluid {version.kitRecords.fluidLot.label}: {figure(version.kitRecords.fluidLot.viscosityPaS)} Pa·s at {version.input.temperatureC} °C from its calibration.
-                </p>
-              ) : null}
-              <PhotoList courseId={courseId} photos={photos.filter((photo) => photo.versionId === version.id)} />
-            </li>
-          ))}
-        </ol>
+        <VersionHistory courseId={courseId} timeZone={timeZone} kind={lab.kind} versions={versions} latestVersionId={latestVersionId} photos={photos} />
       </section>
     </div>
   );
 }
 
-type PhotoSummary = { id: string; originalName: string | null; bytes: number };
-
-function PhotoList({ courseId, photos }: { courseId: string; photos: PhotoSummary[] }) {
-  if (!photos.length) return null;
-  return (
-    <ul className="mt-2 flex flex-wrap gap-2">
-      {photos.map((photo) => (
-        <li key={photo.id}>
-          <a href={`/courses/${courseId}/photos/${photo.id}`} target="_blank" rel="noreferrer">
-            <img src={`/courses/${courseId}/photos/${photo.id}`} alt={photo.originalName ?? "Set-up photo"} className="h-20 w-20 rounded object-cover ring-1 ring-ink-900/10" loading="lazy" />
-          </a>
-        </li>
-      ))}
-    </ul>
-  );
-}
-
-function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId: string; draftPhotos: PhotoSummary[] }) {
+function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId: string; draftPhotos: PhotoView[] }) {
   const fetcher = useFetcher<{ error?: string; photos?: unknown[] }>();
   return (
     <section aria-labelledby="photos-heading" className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">

@@ -6,7 +6,10 @@ import { labelWords } from "~/components/comparison/chart-parts";
 import { Button } from "~/components/ui/button";
 import { SelectField, TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
+import { ClassLabelTag } from "~/components/comparison/class-label";
+import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { PageHeader } from "~/components/ui/page-header";
+import { TableHead } from "~/components/ui/table-head";
 import { fieldErrors, formValues } from "~/lib/forms/parse-form";
 import { comparisonLabels, comparisonSettings, methodNames } from "~/lib/comparison/comparison-settings";
 import { formatNumber } from "~/lib/kits/part-display";
@@ -55,8 +58,9 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
   return (
     <div className="flex flex-col gap-8">
       <PageHeader
-        title={`Class comparison: ${lab.title}`}
+        title={lab.title}
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={mayEdit} />}
         actions={
           <>
             <a href={`${base}/comparison.csv`} className="rounded px-3 py-2 text-sm underline" download>
@@ -65,10 +69,8 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
           </>
         }
       >
-        <p>
-          {classSize} counted hand-in{classSize === 1 ? "" : "s"}, compared by {method.description}. Labels are computed from the latest versions each time
-          this page opens.
-        </p>
+        {classSize} counted hand-in{classSize === 1 ? "" : "s"}, compared by {method.description}. Labels are computed from the latest versions each time
+        this page opens.
       </PageHeader>
       {actionData && "saved" in actionData && actionData.saved ? (
         <Notice tone="success">
@@ -153,15 +155,7 @@ function HandInTable({ handIns }: Pick<LoaderData, "handIns">) {
       </h2>
       <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
         <table className="min-w-full text-left text-sm">
-          <thead className="bg-paper-100 text-xs uppercase tracking-wide text-ink-700">
-            <tr>
-              {["Student", "Cohort", "Sphere / lot / column", "Figure", "Label", "Why"].map((header) => (
-                <th key={header} scope="col" className="px-3 py-2 font-medium">
-                  {header}
-                </th>
-              ))}
-            </tr>
-          </thead>
+          <TableHead headers={["Student", "Cohort", "Sphere / lot / column", "Figure", "Label", "Why"]} />
           <tbody className="divide-y divide-ink-900/5">
             {handIns.length === 0 ? (
               <tr>
@@ -181,8 +175,8 @@ function HandInTable({ handIns }: Pick<LoaderData, "handIns">) {
                   <td className="px-3 py-2">{handIn.cohort?.name ?? "—"}</td>
                   <td className="px-3 py-2">{[handIn.parts.sphere, handIn.parts.fluidLot, handIn.parts.column].map((part) => part?.label ?? "—").join(" / ")}</td>
                   <td className="px-3 py-2">{formatNumber(handIn.figure)}</td>
-                  <td className="px-3 py-2 font-medium" style={{ color: `var(--color-${handIn.label})` }}>
-                    {labelWords[handIn.label]}
+                  <td className="px-3 py-2">
+                    <ClassLabelTag label={handIn.label} />
                   </td>
                   <td className="px-3 py-2 text-ink-800">{handIn.reason}</td>
                 </tr>
@@ -218,7 +212,7 @@ function MethodForm({ method, mayEdit, failure }: { method: LoaderData["method"]
   const errors = failure?.errors ?? previewErrors ?? {};
   const values = failure?.values;
   return (
-    <section aria-labelledby="method-heading" className="max-w-3xl">
+    <section aria-labelledby="method-heading" className="no-print max-w-3xl">
       <h2 id="method-heading" className="mb-2 text-lg font-semibold">
         Outlier method
       </h2>

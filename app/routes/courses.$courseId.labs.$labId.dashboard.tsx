@@ -1,6 +1,7 @@
 import { data, Link } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.dashboard";
 import { LabTime } from "~/components/drop-logs/lab-time";
+import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { PageHeader } from "~/components/ui/page-header";
 import { handInHref } from "~/lib/comparison/links";
 import { experimentKindNames } from "~/lib/labs/lab-input";
@@ -26,24 +27,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export default function LabDashboard({ loaderData }: Route.ComponentProps) {
   const { courseId, timeZone, instructor, lab, cohorts, students, sentReminders, scheduledReminders } = loaderData;
-  const base = `/courses/${courseId}/labs/${lab.id}`;
   return (
     <div className="flex flex-col gap-8">
       <PageHeader
         title={lab.title}
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
-        actions={
-          <>
-            <Link to={`${base}/comparison`} className="px-4 py-2 text-sm underline">
-              Class comparison
-            </Link>
-            {instructor ? (
-              <Link to={`${base}/edit`} className="px-4 py-2 text-sm underline">
-                Edit the lab
-              </Link>
-            ) : null}
-          </>
-        }
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}
       >
         {experimentKindNames[lab.kind]} · {lab.status === "draft" ? "draft, not published" : lab.status} · {lab.requiredDrops} drops
       </PageHeader>
@@ -202,7 +191,7 @@ function StudentRow({ student, kind, timeZone, courseId, labId }: { student: Das
       <td className="py-1">
         {handedIn && student.dropLogId ? (
           <Link to={handInHref(courseId, labId, student.dropLogId)} className="underline">
-            In the class comparison
+            Open<span className="sr-only"> the hand-in of {student.name}</span>
           </Link>
         ) : null}
       </td>

@@ -4,6 +4,7 @@ import type { Route } from "./+types/courses.$courseId.labs.$labId.edit";
 import { LabFields } from "~/components/labs/lab-form";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
+import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { PageHeader } from "~/components/ui/page-header";
 import { fieldErrors, formFailure } from "~/lib/forms/parse-form";
 import { labInputFor, labInputFromForm, storedLabFormValues, submittedLabFormValues } from "~/lib/labs/lab-input";
@@ -67,20 +68,12 @@ export default function EditLab({ loaderData, actionData }: Route.ComponentProps
   const [search] = useSearchParams();
   const failed = actionData && "errors" in actionData ? actionData : null;
   const errors = failed?.errors ?? {};
-  const base = `/courses/${courseId}/labs/${lab.id}`;
   return (
     <div className="flex max-w-4xl flex-col gap-6">
       <PageHeader
-        title={`Edit: ${lab.title}`}
-        trail={[
-          { to: `/courses/${courseId}/labs`, label: "Labs" },
-          { to: `${base}/dashboard`, label: lab.title },
-        ]}
-        actions={
-          <Link to={`${base}/dashboard`} className="px-4 py-2 text-sm underline">
-            Hand-in dashboard
-          </Link>
-        }
+        title={lab.title}
+        trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}
       >
         {statusNames[lab.status]}
       </PageHeader>

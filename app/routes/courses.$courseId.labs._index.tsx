@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs._index";
 import { LabTime } from "~/components/drop-logs/lab-time";
+import { ButtonLink } from "~/components/ui/button";
 import { PageHeader } from "~/components/ui/page-header";
 import { dropLogStatus, dropLogStatusLabels, type DropLogStatus } from "~/lib/drop-logs/hand-in-window";
 import { anyRole, isStaff, requireCourseRole } from "~/server/auth/access.server";
@@ -10,7 +11,7 @@ import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, anyRole);
   const labs = await listLabsForMember(db, access);
-  return { courseId: access.course.id, timeZone: access.course.timeZone, staff: isStaff(access), labs };
+  return { courseId: access.course.id, timeZone: access.course.timeZone, staff: isStaff(access), instructor: access.membership.role === "instructor", labs };
 }
 
 const statusStyles: Record<DropLogStatus, string> = {
@@ -21,15 +22,15 @@ const statusStyles: Record<DropLogStatus, string> = {
 };
 
 export default function Labs({ loaderData }: Route.ComponentProps) {
-  const { courseId, timeZone, staff, labs } = loaderData;
+  const { courseId, timeZone, staff, instructor, labs } = loaderData;
   return (
     <div>
-      <PageHeader title="Labs" />
+      <PageHeader title="Labs" actions={instructor ? <ButtonLink to={`/courses/${courseId}/labs/new`}>New lab</ButtonLink> : null} />
       {labs.length === 0 ? <p>{staff ? "No labs in this course yet." : "No labs have been set for your cohort yet."}</p> : null}
       <ul className="flex flex-col gap-3">
         {labs.map((lab) => {
           const status = dropLogStatus({ hasDraft: lab.hasDraft, latestLate: lab.latestLate });
-          const to = staff ? `/courses/${courseId}/labs/${lab.id}/comparison` : `/courses/${courseId}/labs/${lab.id}`;
+          const to = staff ? `/courses/${courseId}/labs/${lab.id}/dashboard` : `/courses/${courseId}/labs/${lab.id}`;
           return (
             <li key={lab.id} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
               <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -50,9 +51,16 @@ export default function Labs({ loaderData }: Route.ComponentProps) {
                 Due <LabTime at={lab.dueAt} courseTimeZone={timeZone} />
               </p>
               {staff ? (
-                <Link to={to} className="text-sm underline">
-                  Open the class comparison
-                </Link>
+                <p className="mt-1 flex flex-wrap gap-x-4 text-sm">
+                  <Link to={`/courses/${courseId}/labs/${lab.id}/comparison`} className="underline">
+                    Class comparison
+                  </Link>
+                  {instructor ? (
+                    <Link to={`/courses/${courseId}/labs/${lab.id}/edit`} className="underline">
+                      Settings
+                    </Link>
+                  ) : null}
+                </p>
               ) : null}
             </li>
           );

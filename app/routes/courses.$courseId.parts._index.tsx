@@ -4,7 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.parts._index";
 import { DataTable, readPaging } from "~/components/ui/data-table";
 import { SelectField, TextField } from "~/components/ui/field";
-import { Button } from "~/components/ui/button";
+import { Button, ButtonLink } from "~/components/ui/button";
 import { PageHeader } from "~/components/ui/page-header";
 import { StatusBadge } from "~/components/kits/status-badge";
 import { PartBiasBadge } from "~/components/comparison/part-bias";
@@ -78,9 +78,9 @@ export default function PartsList({ loaderData }: Route.ComponentProps) {
           <>
             {mayEdit ? (
               <>
-                <Link to={`${base}/parts/new`} className="rounded-md bg-ink-800 px-4 py-2 text-sm font-medium text-paper-50">
+                <ButtonLink to={`${base}/parts/new`}>
                   Add a part
-                </Link>
+                </ButtonLink>
                 <Link to={`${base}/parts/import`} className="rounded-md bg-white px-4 py-2 text-sm font-medium ring-1 ring-ink-900/20">
                   Import parts (CSV)
                 </Link>

@@ -1,3 +1,4 @@
+import { ButtonLink } from "~/components/ui/button";
 import { Link, useRouteLoaderData } from "react-router";
 import type { loader as rootLoader } from "~/root";
 
@@ -13,9 +14,9 @@ export default function Home() {
           Your courses
         </h1>
         {viewer.mayCreateCourses ? (
-          <Link to="/courses/new" className="rounded-md bg-ink-800 px-4 py-2 text-sm text-paper-50">
+          <ButtonLink to="/courses/new">
             Open a new course
-          </Link>
+          </ButtonLink>
         ) : null}
       </div>
       {viewer.courses.length === 0 ? (

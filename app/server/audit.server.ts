@@ -31,7 +31,12 @@ export type AuditAction =
   | "lab.created"
   | "lab.updated"
   | "lab.published"
-  | "lab.closed";
+  | "lab.closed"
+  | "marking.rubric_saved"
+  | "marking.rubric_copied"
+  | "marking.ready"
+  | "marking.reopened"
+  | "marking.released";
 
 export type AuditInput = {
   action: AuditAction;

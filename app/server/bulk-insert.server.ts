@@ -9,9 +9,10 @@ import type { PgTable } from "drizzle-orm/pg-core";
 import type { Executor } from "~/server/db.server";
 
 /**
- * Inserts `rows` into `table` and returns the ids written. Only the columns the first row names are
- * written; every other column takes its default. `onConflictDoNothing` skips rows that hit a unique
- * index (their ids are then missing from the answer).
+ * Inserts `rows` into `table` and returns the ids written. Every row must name the same columns: the
+ * insert writes the columns the first row names (every other column takes its default), so a row
+ * naming others would lose them, and is refused instead. `onConflictDoNothing` skips rows that hit a
+ * unique index (their ids are then missing from the answer).
  */
 export async function insertMany<Table extends PgTable>(
   executor: Executor,
@@ -22,6 +23,16 @@ export async function insertMany<Table extends PgTable>(
   if (rows.length === 0) return [];
   const columns = getTableColumns(table);
   const keys = Object.keys(rows[0]).filter((key) => key in columns);
+  const firstRowKeys = new Set(keys);
+  rows.forEach((row, index) => {
+    const rowKeys = Object.keys(row).filter((key) => key in columns);
+    if (rowKeys.length !== keys.length || !rowKeys.every((key) => firstRowKeys.has(key))) {
+      throw new Error(
+        `insertMany into ${getTableName(table)}: row ${index} names the columns ${rowKeys.join(", ")}, but the first row names ${keys.join(", ")}. ` +
+          "Only the first row's columns are written; give every row the same keys (null where there is no value), or insert the groups separately.",
+      );
+    }
+  });
   const names = keys.map((key) => sql.identifier(columns[key].name));
   const payload = rows.map((row) =>
     Object.fromEntries(keys.map((key) => [columns[key].name, (row as Record<string, unknown>)[key] ?? null])),

@@ -89,7 +89,7 @@ describe("handing in a drop log from a phone in Chromium", () => {
     await page.getByText(/Version 1 is handed in/).waitFor();
     const stored = page.getByRole("listitem", { name: "Version 1" });
     await stored.getByText("counts").waitFor();
-    await expect(stored.getByText("4.112 s").isVisible()).resolves.toBe(true);
+    await expect(stored.locator("dd", { hasText: "4.112 s" }).isVisible()).resolves.toBe(true);
     await expect(stored.getByText(/drops 4\.12, 4\.08, 4\.15, 4\.1, 4\.11 s/).isVisible()).resolves.toBe(true);
 
     const [version] = (

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { courses } from "~/db/schema";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "../../seeds/demo-scenario";
-import { axeViolations, emailTo, openBrowser, seriousOrCritical, type BrowserSession } from "../support/browser";
+import { axeViolations, emailTo, openBrowser, seriousOrCritical, signOut, type BrowserSession } from "../support/browser";
 
 describe("invitation and sign-in in Chromium", () => {
   let browser: BrowserSession;
@@ -44,9 +44,7 @@ describe("invitation and sign-in in Chromium", () => {
     await page.getByRole("button", { name: "Send the invitation" }).click();
     await page.getByText(`Invitation e-mailed to ${student}`).waitFor();
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
-    await page.goto(`${base}/sign-out`);
-    await page.getByRole("button", { name: "Sign out on this device" }).click();
-    await page.getByRole("heading", { level: 1, name: /Lab courses/ }).waitFor();
+    await signOut(page, base);
 
     // The student opens the link from the e-mail the catcher received.
     const invitationLink = (await emailTo(base, student)).links.find((link) => link.startsWith(`${base}/invitations/`));
@@ -74,9 +72,7 @@ describe("invitation and sign-in in Chromium", () => {
     await page.getByText("This invitation has been accepted already.").waitFor();
 
     // Signed out, the student signs in again with the new password.
-    await page.goto(`${base}/sign-out`);
-    await page.getByRole("button", { name: "Sign out on this device" }).click();
-    await page.getByRole("heading", { level: 1, name: /Lab courses/ }).waitFor();
+    await signOut(page, base);
     await page.goto(`${base}/sign-in`);
     const form = page.locator("form", { has: page.getByRole("button", { name: "Sign in", exact: true }) });
     await form.getByLabel("E-mail address").fill(student);

@@ -7,6 +7,11 @@ import { randomUUID } from "node:crypto";
 import { Ajv2020 } from "ajv/dist/2020.js";
 import { beforeAll, describe, expect, it } from "vitest";
 import { apiOperations } from "~/server/api/openapi.server";
+import type { CourseAccess } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
+import { saveMarkCell } from "~/server/marking/marks.server";
+import { saveRubric } from "~/server/marking/rubrics.server";
 import { appOrigin, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 import { type AccessFixture, type Actor, createAccessFixture } from "../support/access-fixture";
 
@@ -51,6 +56,11 @@ const cases: Record<string, Case> = {
   "get /api/v1/labs/{labId}/class-comparison 401": { actor: "anonymous", path: (f) => `${lab(f)}/class-comparison` },
   "get /api/v1/labs/{labId}/class-comparison 403": { actor: "ownStudent", path: (f) => `${lab(f)}/class-comparison` },
   "get /api/v1/labs/{labId}/class-comparison 404": { actor: "instructor", path: () => `/api/v1/labs/${missing}/class-comparison` },
+  // The TA of cohort one: the fixture's rubric and ownStudent's mark (below), the cohort's other student unmarked.
+  "get /api/v1/labs/{labId}/marks 200": { actor: "assignedTa", path: (f) => `${lab(f)}/marks` },
+  "get /api/v1/labs/{labId}/marks 401": { actor: "anonymous", path: (f) => `${lab(f)}/marks` },
+  "get /api/v1/labs/{labId}/marks 403": { actor: "ownStudent", path: (f) => `${lab(f)}/marks` },
+  "get /api/v1/labs/{labId}/marks 404": { actor: "instructor", path: () => `/api/v1/labs/${missing}/marks` },
   "post /api/v1/reduce 200": { actor: "otherInstructor", path: () => "/api/v1/reduce", body: engineInput },
   "post /api/v1/reduce 400": { actor: "ownStudent", path: () => "/api/v1/reduce", body: { ...engineInput, drops: "7.4" } },
   "post /api/v1/reduce 401": { actor: "anonymous", path: () => "/api/v1/reduce", body: engineInput },
@@ -81,11 +91,28 @@ async function send(method: string, entry: Case): Promise<Response> {
   return handle(new Request(new URL(entry.path(fixture), appOrigin()), init));
 }
 
+/** A rubric on the fixture's lab and a mark for ownStudent, so that the marks answer has something in it. */
+async function markOwnStudent(): Promise<void> {
+  const instructor = {
+    user: { id: fixture.userIds.instructor, email: "instructor@api.example", name: "Test instructor", sessionId: null, via: "session" },
+    course: { id: fixture.courseId, title: "Settling Spheres", code: "api-A", term: "Test term", timeZone: "UTC" },
+    membership: { id: fixture.membershipIds.instructor, role: "instructor", cohortId: null },
+    cohortIds: [fixture.cohortId, fixture.otherCohortId],
+  } as unknown as CourseAccess;
+  const [discussion] = await saveRubric(db, {
+    access: instructor,
+    lab: (await loadMarkingLab(db, fixture.courseId, fixture.labId))!,
+    input: { criteria: [{ kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 }, { kind: "auto", title: "On time", rule: "on_time", maxPoints: 1 }] },
+  });
+  await saveMarkCell(db, { access: instructor, labId: fixture.labId, membershipId: fixture.membershipIds.ownStudent, criterionId: discussion.id, points: 3, expectedVersion: 0 });
+}
+
 const pointer = (...parts: string[]) => parts.map((part) => part.replaceAll("~", "~0").replaceAll("/", "~1")).join("/");
 
 beforeAll(async () => {
   handle = await createAppHandler();
   fixture = await createAccessFixture("api");
+  await markOwnStudent();
   const response = await handle(new Request(new URL("/api/v1/openapi.json", appOrigin())));
   document = await response.json();
   // Formats are left to the patterns zod writes beside them (uuid) or are descriptive (email).
@@ -120,6 +147,17 @@ describe("every documented answer", () => {
     expect(response.headers.get("content-type")).toMatch(/^application\/json/);
     const validate = ajv.getSchema(`openapi.json#/${pointer("paths", path, method, "responses", status, "content", "application/json", "schema")}`)!;
     expect(validate(body), JSON.stringify(validate.errors)).toBe(true);
+  });
+
+  it("gives a TA the marks of their own cohort only, with the totals", async () => {
+    const response = await send("get", { actor: "assignedTa", path: (f) => `${lab(f)}/marks` });
+    const body = (await response.json()) as { criteria: { id: string; title: string }[]; marks: { membershipId: string; total: number | null; points: Record<string, number | null> }[] };
+    expect(body.marks.map((mark) => mark.membershipId).sort()).toEqual([fixture.membershipIds.ownStudent, fixture.membershipIds.sameCohortStudent].sort());
+    const own = body.marks.find((mark) => mark.membershipId === fixture.membershipIds.ownStudent)!;
+    // 3 for the discussion, 1 for a hand-in on time.
+    expect(own.total).toBe(4);
+    expect(own.points[body.criteria.find((criterion) => criterion.title === "Discussion")!.id]).toBe(3);
+    expect(body.marks.find((mark) => mark.membershipId === fixture.membershipIds.sameCohortStudent)!.total).toBeNull();
   });
 
   it("stored the repeated hand-in once", async () => {

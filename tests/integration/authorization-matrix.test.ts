@@ -106,6 +106,18 @@ const matrix: MatrixRow[] = [
   // The probe's intent is unknown: 400 for the staff who may preview (saving is the instructor's).
   row("POST", "/courses/:courseId/labs/:labId/comparison", cohortStaff(400)),
   row("GET", "/courses/:courseId/labs/:labId/comparison.csv", cohortStaff(200)),
+  // Marks name students: instructors, and the TAs of a cohort the lab is set for (their cohorts' rows).
+  row("GET", "/courses/:courseId/labs/:labId/marks.csv", cohortStaff(200)),
+  // One hand-in with every version: instructors and the TAs of the student's cohort (the student has their lab page).
+  row("GET", "/courses/:courseId/labs/:labId/hand-ins/:dropLogId", cohortStaff(200)),
+  // The marking desk: instructors, and the TAs of a cohort the lab is set for. The probe is not JSON: 400.
+  row("GET", "/courses/:courseId/labs/:labId/marking", cohortStaff(200)),
+  row("POST", "/courses/:courseId/labs/:labId/marking", cohortStaff(400)),
+  // The rubric and moderation (release included) are the instructors'; the probe names no intent: 400.
+  row("GET", "/courses/:courseId/labs/:labId/rubric", instructorOnly(200)),
+  row("POST", "/courses/:courseId/labs/:labId/rubric", instructorOnly(400)),
+  row("GET", "/courses/:courseId/labs/:labId/moderation", instructorOnly(200)),
+  row("POST", "/courses/:courseId/labs/:labId/moderation", instructorOnly(400)),
   row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
@@ -113,6 +125,7 @@ const matrix: MatrixRow[] = [
   // The probe is a form, not JSON: 400 for anyone signed in.
   row("POST", "/api/v1/reduce", { ...everyone(400), anonymous: 401 }),
   row("GET", "/api/v1/labs/:labId/class-comparison", { ...cohortStaff(200), anonymous: 401 }),
+  row("GET", "/api/v1/labs/:labId/marks", { ...cohortStaff(200), anonymous: 401 }),
   row("GET", "/api/v1/courses/:courseId/labs", { ...anyMember(200), anonymous: 401 }),
   // The students of the lab's cohort (their own drop log, possibly none), its instructors and cohort TAs.
   row("GET", "/api/v1/labs/:labId/drop-logs", { ...cohortStaff(200), ownStudent: 200, sameCohortStudent: 200, anonymous: 401 }),

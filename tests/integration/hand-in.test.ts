@@ -1,14 +1,15 @@
 /**
  * Handing in a drop log: the server's reduction, idempotency, immutable numbered versions, the due
- * time and cut-off across a daylight-saving change, and that students of one lab do not wait on
- * each other's hand-ins.
+ * time and cut-off across a daylight-saving change, the statements a hand-in costs, and that students
+ * of one lab do not wait on each other's hand-ins.
  */
 import { mkdtemp } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { TZDate } from "@date-fns/tz";
 import { and, asc, eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
+import pg from "pg";
+import { beforeAll, describe, expect, it, vi } from "vitest";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
 import { fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatureCoefficient } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -172,6 +173,33 @@ describe("idempotent hand-in", () => {
     expect(new Set(results.map((result) => result.version.id)).size).toBe(1);
     const dropLog = await getDropLogForStudent(db, { labId: lab.id, membershipId: fixture.membershipIds.ownStudent });
     expect(dropLog?.versions.map((version) => version.version)).toEqual([1]);
+  });
+});
+
+describe("a hand-in's statements", () => {
+  // countStatements sees only the pool's own queries; a transaction's go through its client.
+  async function countAllStatements<T>(work: () => Promise<T>): Promise<{ statements: number; result: T }> {
+    const spy = vi.spyOn(pg.Client.prototype, "query");
+    try {
+      const result = await work();
+      return { statements: spy.mock.calls.length, result };
+    } finally {
+      spy.mockRestore();
+    }
+  }
+
+  it("are nine for a new version and six for a repeat, begin and commit included", async () => {
+    // At the deadline every hand-in pays per statement, so the budget is pinned here: the lab and the
+    // kit (two), then begin, the drop log created or locked, the look-up of the key, the version, the
+    // latest-version pointer with the photos, the relabel job and commit. A repeat stops at the look-up.
+    const lab = await createLab();
+    const args = { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "statement-budget-1" };
+    const first = await countAllStatements(() => handInDropLog(db, args));
+    expect(first.result.duplicate).toBe(false);
+    expect(first.statements).toBe(9);
+    const repeat = await countAllStatements(() => handInDropLog(db, args));
+    expect(repeat.result).toEqual({ version: first.result.version, duplicate: true });
+    expect(repeat.statements).toBe(6);
   });
 });
 

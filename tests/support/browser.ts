@@ -66,6 +66,13 @@ export async function signInWithPassword(page: Page, baseUrl: string, email: str
   await Promise.all([page.waitForURL((url) => !url.pathname.startsWith("/sign-in")), form.getByRole("button", { name: "Sign in", exact: true }).click()]);
 }
 
+/** Signs out on this device, so that the next sign-in can be someone else. */
+export async function signOut(page: Page, baseUrl: string): Promise<void> {
+  await page.goto(`${baseUrl}/sign-out`);
+  await page.getByRole("button", { name: "Sign out on this device" }).click();
+  await page.getByRole("heading", { level: 1, name: /Lab courses/ }).waitFor();
+}
+
 /** Waits for the worker to hand a message to the local mail catcher, and returns the newest one's subject and links. */
 export async function emailTo(baseUrl: string, to: string, subject?: RegExp): Promise<{ subject: string; links: string[] }> {
   for (let tries = 0; tries < 80; tries++) {

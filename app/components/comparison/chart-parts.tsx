@@ -99,6 +99,7 @@ export function ChartFigure({
   description,
   caption,
   table,
+  linked = false,
   children,
 }: {
   id: string;
@@ -106,6 +107,8 @@ export function ChartFigure({
   description: string;
   caption: ReactNode;
   table: ReactNode;
+  /** Its points are links: an image may not hold controls, so the plot is a labelled group instead. */
+  linked?: boolean;
   children: ReactNode;
 }) {
   return (
@@ -113,7 +116,7 @@ export function ChartFigure({
       <svg
         viewBox={`0 0 ${chartSize.width} ${chartSize.height}`}
         className="h-auto w-full max-w-3xl text-ink-900"
-        role="img"
+        role={linked ? "group" : "img"}
         aria-labelledby={`${id}-title ${id}-desc`}
       >
         <title id={`${id}-title`}>{title}</title>

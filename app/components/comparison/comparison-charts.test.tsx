@@ -59,7 +59,7 @@ describe("comparison plots", () => {
     const markup = renderToStaticMarkup(<DragCurveChart points={[...probes, ...span]} title="Drag" />);
     const d = markup.match(/data-curve="schiller-naumann" d="([^"]+)"/)![1];
     const marker = (id: string) => {
-      const match = markup.match(new RegExp(`data-point="${id}"><circle cx="([\\d.]+)" cy="([\\d.]+)"`))!;
+      const match = markup.match(new RegExp(`data-point="${id}"[^>]*><circle cx="([\\d.]+)" cy="([\\d.]+)"`))!;
       return { x: Number(match[1]), y: Number(match[2]) };
     };
     const high = marker("high");

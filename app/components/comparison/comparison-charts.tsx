@@ -40,7 +40,10 @@ const extent = (values: number[], fallback: [number, number]): [number, number] 
 
 function PointLink({ point, x, y, text }: { point: ComparisonPoint; x: number; y: number; text: string }) {
   return (
-    <a href={point.href} data-point={point.id}>
+    // Out of the tab order: the table behind the plot holds the same links, one stop each, in order.
+    <a href={point.href} data-point={point.id} tabIndex={-1}>
+      {/* A finger-sized target around a marker only a few pixels wide. */}
+      <circle cx={x} cy={y} r={12} fill="transparent" />
       <LabelMarker label={point.label} x={x} y={y} />
       <title>{`${point.studentName}: ${text} (${labelWords[point.label]})`}</title>
     </a>
@@ -61,6 +64,7 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
   const y = scaleLog().domain([cdLow / 1.5, cdHigh * 1.5]).range([plotBottom, plotTop]).nice();
   return (
     <ChartFigure
+      linked
       id="drag-curve"
       title={title}
       description={`${plotted.length} hand-ins as points, drag coefficient against Reynolds number on logarithmic axes, with the Stokes, Oseen and Schiller–Naumann reference curves. Circles are consistent, triangles suspect, squares outliers.`}
@@ -141,6 +145,7 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
   const [dLow, dHigh] = x.domain();
   return (
     <ChartFigure
+      linked
       id="viscometry"
       title={title}
       description={`${plotted.length} hand-ins, measured viscosity against the fluid lot's reference viscosity at the drop temperature, logarithmic axes, with the line where they are equal. A coloured ring gives each drop's temperature from ${formatNumber(tLow, 3)} °C (blue) to ${formatNumber(tHigh, 3)} °C (red).`}
@@ -214,6 +219,7 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
     : [];
   return (
     <ChartFigure
+      linked
       id="figure-strip"
       title={title}
       description={`${points.length} normalised figures on a logarithmic axis${limits ? `, with ${limits.note}` : ""}. Circles are consistent, triangles suspect, squares outliers.`}

@@ -6,6 +6,7 @@
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type RowSelectionState } from "@tanstack/react-table";
 import { useState } from "react";
 import { Link, useLocation } from "react-router";
+import { tableHeadClass } from "./table-head";
 
 export type PageInfo = { page: number; pageSize: number; total: number };
 
@@ -62,7 +63,7 @@ export function DataTable<Row extends { id: string }>({
       >
         <table className="min-w-full text-left text-sm">
           <caption className="sr-only">{caption}</caption>
-          <thead className="bg-paper-100 text-xs uppercase tracking-wide text-ink-700">
+          <thead className={tableHeadClass}>
             {table.getHeaderGroups().map((group) => (
               <tr key={group.id}>
                 {group.headers.map((header) => (

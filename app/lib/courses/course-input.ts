@@ -11,6 +11,8 @@ export function isTimeZone(value: string): boolean {
   }
 }
 
+export const partBiasAlphas = [0.01, 0.05, 0.1] as const;
+
 export const courseInput = z.object({
   title: z.string().trim().min(3, "Give the course a title of at least 3 characters.").max(120),
   code: z.string().trim().min(2, "Enter the course code, e.g. ME 2140.").max(30),
@@ -24,6 +26,11 @@ export const courseInput = z.object({
       .max(9.84, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
       .nullable(),
   ),
+  /** Significance of the kit-part bias test; the usual choices only, so that a typo cannot silence it. */
+  partBiasAlpha: z.coerce
+    .number()
+    .refine((alpha) => partBiasAlphas.includes(alpha as (typeof partBiasAlphas)[number]), "Choose 0.01, 0.05 or 0.10.")
+    .default(0.05),
 });
 export type CourseInput = z.infer<typeof courseInput>;
 

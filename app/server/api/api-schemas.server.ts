@@ -106,3 +106,29 @@ export const reduceResponse = z
   .register(apiSchemas, { id: "Reduction" });
 
 export const classComparisonResponse = z.looseObject({}).register(apiSchemas, { id: "ClassComparison", description: "The lab's class comparison: labels with reasons for each counted hand-in." });
+
+export const marksResponse = z
+  .object({
+    lab: z.object({ id: uuid, courseId: uuid, title: z.string(), releasedAt: timestamp.nullable().describe("The latest release of the lab's marks; null before the first.") }),
+    maxTotal: z.number().describe("The sum of the criteria's maximum points."),
+    criteria: z.array(z.object({ id: uuid, title: z.string(), kind: z.enum(["levels", "range", "auto"]), maxPoints: z.number() })),
+    marks: z.array(
+      z.object({
+        membershipId: uuid,
+        student: z.object({ name: z.string(), email: z.string(), studentNumber: z.string().nullable() }),
+        cohort: z.object({ id: uuid, name: z.string() }),
+        handIn: z.enum(["missing", "on-time", "late"]).describe("Where the counted hand-in stands."),
+        late: z.boolean(),
+        total: z.number().nullable().describe("Criteria points (given, overridden or suggested) minus the late penalty, at least 0; null before the student is marked."),
+        complete: z.boolean().describe("Every criterion has points."),
+        latePenaltyPoints: z.number(),
+        points: z.record(z.string(), z.number().nullable()).describe("Points per criterion id."),
+        feedback: z.string(),
+        markedBy: z.string().nullable(),
+        updatedAt: timestamp.nullable(),
+        releasedAt: timestamp.nullable().describe("When the student could first see this mark; null until released."),
+        version: z.int().min(0).describe("The mark's version (0 before there is one): a change names the version it started from."),
+      }),
+    ),
+  })
+  .register(apiSchemas, { id: "LabMarks", description: "A lab's marks, one entry per student the caller may see." });

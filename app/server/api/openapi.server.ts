@@ -13,6 +13,7 @@ import {
   dropLogList,
   handInResponse,
   labList,
+  marksResponse,
   meResponse,
   reduceResponse,
 } from "./api-schemas.server";
@@ -104,6 +105,15 @@ export const apiOperations: ApiOperation[] = [
       { name: "label", in: "query", required: false, description: "Only hand-ins with this label.", schema: z.enum(["consistent", "suspect", "outlier"]) },
     ],
     responses: { 200: { description: "The comparison.", schema: classComparisonResponse }, 401: errors[401], 403: errors[403], 404: errors[404] },
+  },
+  {
+    method: "get",
+    path: "/api/v1/labs/{labId}/marks",
+    summary: "Marks of a lab",
+    description:
+      "For the gradebook: instructors get every student of the lab's cohorts, TAs those of their cohorts; students are refused. Each mark gives its total, each criterion's points, the late penalty and when it was released.",
+    parameters: [labId],
+    responses: { 200: { description: "The marks, by student name.", schema: marksResponse }, 401: errors[401], 403: errors[403], 404: errors[404] },
   },
   {
     method: "post",

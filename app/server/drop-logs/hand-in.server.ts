@@ -4,7 +4,7 @@
  * locks only the student's own drop_logs row, so a whole class handing in at the deadline does not
  * queue behind one lock.
  */
-import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
+import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
@@ -184,13 +184,13 @@ export async function handInDropLog(
   const warningCount = warnings.filter((warning) => warning.level !== "info").length;
 
   return executor.transaction(async (tx) => {
-    await tx.insert(dropLogs).values({ labId, membershipId: access.membership.id }).onConflictDoNothing();
-    // The only lock a hand-in takes: this student's own drop log. Versions are numbered under it.
+    // The only lock a hand-in takes: this student's own drop log, which the upsert creates or locks (as
+    // ON CONFLICT DO UPDATE does) in one statement. Versions are numbered under it.
     const [dropLog] = await tx
-      .select({ id: dropLogs.id })
-      .from(dropLogs)
-      .where(and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, access.membership.id)))
-      .for("update");
+      .insert(dropLogs)
+      .values({ labId, membershipId: access.membership.id })
+      .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { labId: sql`excluded.lab_id` } })
+      .returning({ id: dropLogs.id });
     const [earlier] = await tx
       .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
       .from(dropLogVersions)
@@ -237,8 +237,10 @@ export async function handInDropLog(
         .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
       return { version: stored, duplicate: true };
     }
-    await tx.update(dropLogs).set({ latestVersionId: inserted.id, draft: null, draftSavedAt: null }).where(eq(dropLogs.id, dropLog.id));
-    await tx.update(dropLogPhotos).set({ versionId: inserted.id }).where(and(eq(dropLogPhotos.dropLogId, dropLog.id), isNull(dropLogPhotos.versionId)));
+    // The new version counts and takes the draft's photos with it: one statement for both tables.
+    await tx.execute(sql`
+      with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null)
+      update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}`);
     await queueClassComparison(tx, labId);
     return { version: inserted, duplicate: false };
   });

@@ -1,0 +1,123 @@
+/**
+ * One change for every selected student: a criterion's level or points, a late penalty, or a comment.
+ * The server applies it in one transaction, all or nothing; the bar shows the work under way and what
+ * came of it.
+ */
+import { useEffect, useRef, useState } from "react";
+import { useFetcher, useLocation } from "react-router";
+import type { MarkChange } from "~/lib/marking/marks";
+import type { RubricCriterion } from "~/lib/marking/rubric";
+
+export type BulkResponse =
+  | { intent: "bulk"; status: "applied"; changed: number; unchanged: number }
+  | { intent: "bulk"; status: "refused"; error: { code: string; message: string; membershipIds: string[] } }
+  | { status: "failed"; message: string };
+
+const control = "rounded border border-ink-900/20 bg-white px-2 py-1.5 text-sm";
+
+export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterion[]; selectedIds: string[]; clear: () => void }) {
+  const fetcher = useFetcher<BulkResponse>({ key: "bulk-marks" });
+  const action = useLocation().pathname;
+  const [what, setWhat] = useState(rubric[0] ? `criterion:${rubric[0].id}` : "penalty");
+  const [value, setValue] = useState("");
+  const [reason, setReason] = useState("");
+  const [localError, setLocalError] = useState<string | null>(null);
+  const sentCount = useRef(0);
+  const criterion = what.startsWith("criterion:") ? rubric.find((candidate) => `criterion:${candidate.id}` === what) : undefined;
+  const busy = fetcher.state !== "idle";
+  const result = busy ? undefined : fetcher.data;
+
+  useEffect(() => {
+    if (result && "intent" in result && result.status === "applied") clear();
+  }, [result, clear]);
+
+  if (selectedIds.length === 0 && !busy && !result) return null;
+
+  const changeFor = (): MarkChange | string => {
+    const number = Number(value.trim().replace(",", "."));
+    if (what === "feedback") return { kind: "feedback", text: value };
+    if (value.trim() === "" || !Number.isFinite(number)) return criterion?.kind === "levels" ? "Choose a level." : "Enter a number of points.";
+    if (what === "penalty") return { kind: "latePenalty", points: number };
+    if (criterion?.kind === "levels") return { kind: "score", criterionId: criterion.id, level: number, points: null };
+    return { kind: "score", criterionId: criterion!.id, points: number, level: null, overrideReason: criterion?.kind === "auto" ? reason : null };
+  };
+
+  return (
+    <section aria-label="Change the selected students" className="no-print flex flex-col gap-2 rounded-lg bg-paper-100 p-3 text-sm ring-1 ring-ink-900/10">
+      <form
+        className="flex flex-wrap items-end gap-3"
+        onSubmit={(event) => {
+          event.preventDefault();
+          const change = changeFor();
+          if (typeof change === "string") return setLocalError(change);
+          setLocalError(null);
+          sentCount.current = selectedIds.length;
+          fetcher.submit({ intent: "bulk", membershipIds: selectedIds, change, reason: reason.trim() || null }, { method: "post", action, encType: "application/json" });
+        }}
+      >
+        <span className="self-center font-medium">{selectedIds.length} selected</span>
+        <label className="flex flex-col gap-1">
+          <span>Change</span>
+          <select className={control} value={what} onChange={(event) => (setWhat(event.target.value), setValue(""))}>
+            {rubric.map((entry) => (
+              <option key={entry.id} value={`criterion:${entry.id}`}>
+                {entry.title}
+              </option>
+            ))}
+            <option value="penalty">Late penalty</option>
+            <option value="feedback">Feedback comment</option>
+          </select>
+        </label>
+        {criterion?.kind === "levels" ? (
+          <label className="flex flex-col gap-1">
+            <span>Level</span>
+            <select className={control} value={value} onChange={(event) => setValue(event.target.value)}>
+              <option value="">Choose…</option>
+              {(criterion.levels ?? []).map((level, index) => (
+                <option key={index} value={index + 1}>
+                  {index + 1} · {level.points} pts: {level.description}
+                </option>
+              ))}
+            </select>
+          </label>
+        ) : what === "feedback" ? (
+          <label className="flex min-w-64 flex-1 flex-col gap-1">
+            <span>Comment (replaces each one&apos;s feedback)</span>
+            <textarea className={control} rows={2} value={value} onChange={(event) => setValue(event.target.value)} maxLength={5000} />
+          </label>
+        ) : (
+          <label className="flex flex-col gap-1">
+            <span>{what === "penalty" ? "Penalty (points)" : `Points (${criterion?.kind === "range" ? criterion.minPoints : 0}–${criterion?.maxPoints})`}</span>
+            <input className={`${control} w-24`} inputMode="decimal" value={value} onChange={(event) => setValue(event.target.value)} />
+          </label>
+        )}
+        <label className="flex min-w-48 flex-col gap-1">
+          <span>{criterion?.kind === "auto" ? "Why override the automatic points (required)" : "Reason (needed for released marks)"}</span>
+          <input className={control} value={reason} onChange={(event) => setReason(event.target.value)} maxLength={500} />
+        </label>
+        <button type="submit" disabled={busy || selectedIds.length === 0} className="rounded bg-ink-800 px-4 py-2 font-medium text-paper-50 hover:bg-ink-700 disabled:opacity-60">
+          Apply to {selectedIds.length}
+        </button>
+        <button type="button" onClick={clear} className="rounded px-3 py-2 underline">
+          Clear the selection
+        </button>
+      </form>
+      <div role="status" aria-live="polite">
+        {busy ? (
+          <span className="flex items-center gap-2">
+            <progress className="h-2 w-40" aria-label="Applying the change" />
+            Applying to {sentCount.current} student{sentCount.current === 1 ? "" : "s"} in one go…
+          </span>
+        ) : localError ? (
+          <span className="text-outlier">{localError}</span>
+        ) : result && "intent" in result && result.status === "applied" ? (
+          <span className="text-consistent">
+            Done: {result.changed} mark{result.changed === 1 ? "" : "s"} changed{result.unchanged ? `, ${result.unchanged} already had it` : ""}.
+          </span>
+        ) : result ? (
+          <span className="text-outlier">Nothing was changed: {"intent" in result ? result.error.message : result.message}</span>
+        ) : null}
+      </div>
+    </section>
+  );
+}

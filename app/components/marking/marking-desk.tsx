@@ -1,0 +1,477 @@
+/**
+ * The marking desk: one row per student, the evidence beside the rubric's cells, built on TanStack
+ * Table. It is a keyboard grid: arrows move between cells and rows, a level's number key sets it,
+ * Enter opens the student's hand-in beside the table, Space selects the row. Each row saves itself as
+ * the marker works (see `use-mark-saver`); selected rows take one change together in one transaction.
+ */
+import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type RowSelectionState } from "@tanstack/react-table";
+import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type KeyboardEvent } from "react";
+import { Link, useLocation } from "react-router";
+import { ClassLabelTag } from "~/components/comparison/class-label";
+import { figure } from "~/components/drop-logs/reduction-summary";
+import type { MarkChange } from "~/lib/marking/marks";
+import type { RubricCriterion } from "~/lib/marking/rubric";
+import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
+import type { DeskSortKey } from "~/lib/marking/desk-filters";
+import { tableHeadClass } from "~/components/ui/table-head";
+import { BulkBar } from "./bulk-bar";
+import { MarkPanel } from "./mark-panel";
+import { PointsInput, SaveStatus } from "./mark-inputs";
+import { useMarkSaver, type RowState, type SaveState } from "./use-mark-saver";
+
+export type DeskProps = {
+  courseId: string;
+  labId: string;
+  kind: "drag" | "viscometry";
+  rubric: RubricCriterion[];
+  rows: MarkingDeskRow[];
+  canEdit: boolean;
+  maxTotal: number;
+  /** The current `sort` search parameter, e.g. `-total`. */
+  sort: string | null;
+};
+
+type RowTools = {
+  row: MarkingDeskRow;
+  index: number;
+  saveState: SaveState;
+  save: (change: MarkChange, reason?: string | null) => boolean;
+  retry: () => void;
+};
+
+const RowContext = createContext<RowTools | null>(null);
+const DeskContext = createContext<{ canEdit: boolean; rubric: RubricCriterion[]; open: (membershipId: string) => void; kind: DeskProps["kind"] } | null>(null);
+const useRowTools = () => useContext(RowContext)!;
+const useDesk = () => useContext(DeskContext)!;
+
+const statusWords = { missing: "missing", "on-time": "on time", late: "late" } as const;
+
+/** A control of the grid: `col` counts only the cells that take focus, so arrows skip plain text. */
+const cellProps = (row: number, col: number) => ({ "data-row": row, "data-col": col, tabIndex: -1 });
+
+function SortHeader({ label, by, sort }: { label: string; by: DeskSortKey; sort: string | null }) {
+  const location = useLocation();
+  const current = sort === by ? "asc" : sort === `-${by}` ? "desc" : null;
+  const params = new URLSearchParams(location.search);
+  params.set("sort", current === "asc" ? `-${by}` : by);
+  params.delete("page");
+  return (
+    <Link to={`?${params}`} preventScrollReset className="inline-flex min-h-6 items-center gap-1 underline-offset-2 hover:underline" aria-label={`${label}, sort ${current === "asc" ? "descending" : "ascending"}`}>
+      {label}
+      <span aria-hidden="true">{current === "asc" ? "▲" : current === "desc" ? "▼" : ""}</span>
+    </Link>
+  );
+}
+
+function SelectCell({ checked, onChange, label }: { checked: boolean; onChange: (value: boolean) => void; label: string }) {
+  const { index } = useRowTools();
+  return <input type="checkbox" className="h-5 w-5" checked={checked} onChange={(event) => onChange(event.target.checked)} aria-label={label} {...cellProps(index, 0)} />;
+}
+
+function StudentCell() {
+  const { row, index } = useRowTools();
+  const { open } = useDesk();
+  return (
+    <div className="flex flex-col">
+      <button type="button" className="min-h-6 text-left font-medium underline underline-offset-2" onClick={() => open(row.membershipId)} {...cellProps(index, 1)}>
+        {row.studentName}
+      </button>
+      <span className="text-xs text-ink-600">{row.cohortName}</span>
+    </div>
+  );
+}
+
+function HandInCell() {
+  const { row } = useRowTools();
+  return (
+    <div className="flex flex-col text-xs">
+      <span className={row.status === "missing" ? "font-medium text-outlier" : row.status === "late" ? "font-medium text-outlier" : ""}>{statusWords[row.status]}</span>
+      {row.handIn ? <span className="text-ink-600">v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops</span> : null}
+      {row.handInChangedSinceMarked ? <span className="text-amber-700">handed in again since marked</span> : null}
+    </div>
+  );
+}
+
+function ResultCell() {
+  const { row } = useRowTools();
+  const { kind } = useDesk();
+  if (!row.handIn) return null;
+  return (
+    <div className="flex flex-col text-xs tabular-nums">
+      <span>{figure(row.handIn.figure, 3)} × ref</span>
+      <span className="text-ink-600">{kind === "drag" ? `C_D ${figure(row.handIn.dragCoefficient, 3)} at Re ${figure(row.handIn.reynolds, 2)}` : `μ ${figure(row.handIn.viscosityPaS, 3)} Pa·s`}</span>
+    </div>
+  );
+}
+
+function LabelCell() {
+  const { row } = useRowTools();
+  if (!row.classLabel) return <span className="text-xs text-ink-600">—</span>;
+  return (
+    <span title={row.classLabel.reason} className="text-xs">
+      <ClassLabelTag label={row.classLabel.label} />
+      <span className="sr-only">: {row.classLabel.reason}</span>
+    </span>
+  );
+}
+
+/** Moves focus within the grid; Left/Right leave a text field only from its ends, Enter in one moves down. */
+function moveFocus(event: KeyboardEvent<HTMLElement>, table: HTMLElement) {
+  const target = event.target as HTMLElement;
+  const row = Number(target.dataset.row);
+  const col = Number(target.dataset.col);
+  const input = target instanceof HTMLInputElement && target.type === "text" ? target : null;
+  const inRow = (index: number) => [...table.querySelectorAll<HTMLElement>(`[data-row="${index}"][data-col]`)];
+  let found: HTMLElement | undefined;
+  if (event.key === "ArrowDown" || event.key === "ArrowUp" || (event.key === "Enter" && input)) {
+    found = inRow(row + (event.key === "ArrowUp" ? -1 : 1)).find((cell) => Number(cell.dataset.col) === col);
+  } else if (event.key === "ArrowLeft" && (!input || input.selectionStart === 0)) {
+    found = inRow(row).filter((cell) => Number(cell.dataset.col) < col).at(-1);
+  } else if (event.key === "ArrowRight" && (!input || input.selectionEnd === input.value.length)) {
+    found = inRow(row).find((cell) => Number(cell.dataset.col) > col);
+  } else if ((event.key === "Home" || event.key === "End") && !input) {
+    found = event.key === "Home" ? inRow(row)[0] : inRow(row).at(-1);
+  }
+  if (!found) return;
+  event.preventDefault();
+  if (input) input.blur(); // commits the field before focus moves on
+  found.focus();
+}
+
+function LevelsCell({ criterion, col }: { criterion: RubricCriterion; col: number }) {
+  const { row, index, save } = useRowTools();
+  const { canEdit } = useDesk();
+  const cell = row.cells[criterion.id];
+  const levels = criterion.levels ?? [];
+  const label = `${criterion.title} for ${row.studentName}`;
+  if (!canEdit) return <span>{cell?.level ? `${cell.level} · ${cell.points}` : "—"}</span>;
+  const setLevel = (level: number | null) => save({ kind: "score", criterionId: criterion.id, level, points: null });
+  return (
+    <select
+      aria-label={label}
+      aria-keyshortcuts={levels.map((_, number) => String(number + 1)).join(" ")}
+      className="w-full min-w-28 rounded border border-ink-900/20 bg-white px-1 py-1 text-sm"
+      value={cell?.level ?? ""}
+      onChange={(event) => setLevel(event.target.value ? Number(event.target.value) : null)}
+      onKeyDown={(event) => {
+        const number = Number(event.key);
+        if (Number.isInteger(number) && number >= 1 && number <= levels.length) {
+          event.preventDefault();
+          setLevel(number);
+        } else if (event.key === "Delete" || event.key === "Backspace") {
+          event.preventDefault();
+          if (cell?.level) setLevel(null);
+        } else if (event.key.startsWith("Arrow")) {
+          // Arrows move between cells; the level is set by its number or the list.
+          event.preventDefault();
+        }
+      }}
+      {...cellProps(index, col)}
+    >
+      <option value="">—</option>
+      {levels.map((level, number) => (
+        <option key={number} value={number + 1}>
+          {number + 1} · {level.points} pt{level.points === 1 ? "" : "s"}: {level.description.length > 24 ? `${level.description.slice(0, 23)}…` : level.description}
+        </option>
+      ))}
+    </select>
+  );
+}
+
+function RangeCell({ criterion, col }: { criterion: RubricCriterion; col: number }) {
+  const { row, index, save } = useRowTools();
+  const { canEdit } = useDesk();
+  const points = row.cells[criterion.id]?.points ?? null;
+  if (!canEdit) return <span className="tabular-nums">{points ?? "—"}</span>;
+  return (
+    <PointsInput
+      value={points}
+      label={`${criterion.title} for ${row.studentName}, ${criterion.minPoints} to ${criterion.maxPoints} points`}
+      onCommit={(value) => save({ kind: "score", criterionId: criterion.id, points: value, level: null })}
+      {...cellProps(index, col)}
+    />
+  );
+}
+
+/** An automatic criterion: its suggestion (or the override) in the grid; overriding needs a reason, so it happens in the side panel. */
+function AutoCell({ criterion, col }: { criterion: RubricCriterion; col: number }) {
+  const { row, index } = useRowTools();
+  const { open } = useDesk();
+  const cell = row.cells[criterion.id];
+  const tag = cell?.source === "override" ? "overridden" : cell?.source === "released" ? "released" : "auto";
+  return (
+    <button
+      type="button"
+      onClick={() => open(row.membershipId)}
+      title={cell?.overrideReason ?? cell?.suggestion?.reason ?? ""}
+      className="inline-flex min-h-8 items-baseline gap-1 rounded px-1 text-sm tabular-nums ring-1 ring-ink-900/10"
+      {...cellProps(index, col)}
+    >
+      {cell?.points ?? "—"}
+      <span className={`text-xs ${tag === "overridden" ? "text-amber-700" : "text-ink-600"}`}>{tag}</span>
+      {/* Visible words first, so the name heard matches the one seen; Enter opens the panel to override. */}
+      <span className="sr-only">
+        : {criterion.title} for {row.studentName}. {cell?.overrideReason ?? cell?.suggestion?.reason ?? ""}
+      </span>
+    </button>
+  );
+}
+
+function PenaltyCell({ col }: { col: number }) {
+  const { row, index, save } = useRowTools();
+  const { canEdit } = useDesk();
+  const penalty = row.mark?.latePenaltyPoints ?? 0;
+  if (!canEdit) return <span className="tabular-nums">{penalty || ""}</span>;
+  return <PointsInput value={penalty || null} label={`Late penalty for ${row.studentName}, in points`} onCommit={(value) => save({ kind: "latePenalty", points: value ?? 0 })} {...cellProps(index, col)} />;
+}
+
+function TotalCell() {
+  const { row } = useRowTools();
+  return (
+    <span className="font-medium tabular-nums">
+      {row.progress === "unmarked" ? <span className="text-ink-600">—</span> : row.total}
+      <span className="text-xs font-normal text-ink-600"> / {row.maxTotal}</span>
+      {row.mark?.releasedAt ? <span className="block text-xs font-normal text-consistent">released</span> : null}
+    </span>
+  );
+}
+
+function StatusCell() {
+  const { saveState, retry } = useRowTools();
+  return (
+    <div role="status" aria-live="polite" className="min-w-20">
+      <SaveStatus state={saveState} retry={retry} />
+    </div>
+  );
+}
+
+function DeskRow({
+  base,
+  index,
+  state,
+  onState,
+  register,
+  selected,
+  children,
+}: {
+  base: MarkingDeskRow;
+  index: number;
+  state: RowState | undefined;
+  onState: (membershipId: string, state: RowState | undefined) => void;
+  register: (membershipId: string, tools: RowTools | null) => void;
+  selected: boolean;
+  children: React.ReactNode;
+}) {
+  const { rubric } = useDesk();
+  const action = useLocation().pathname;
+  const saver = useMarkSaver({ action, rubric, base, state, onState });
+  const { row, saveState, save, retry } = saver;
+  const tools = useMemo(() => ({ row, saveState, save, retry, index }), [row, saveState, save, retry, index]);
+  useEffect(() => {
+    register(base.membershipId, tools);
+    return () => register(base.membershipId, null);
+  }, [register, base.membershipId, tools]);
+  return (
+    <RowContext.Provider value={tools}>
+      <tr className={selected ? "bg-amber-300/20" : saveState.status === "failed" ? "bg-outlier/5" : undefined}>{children}</tr>
+    </RowContext.Provider>
+  );
+}
+
+const column = createColumnHelper<MarkingDeskRow>();
+
+export function MarkingDesk({ courseId, labId, kind, rubric, rows, canEdit, maxTotal, sort }: DeskProps) {
+  const [local, setLocal] = useState<Record<string, RowState>>({});
+  const [selection, setSelection] = useState<RowSelectionState>({});
+  const [openId, setOpenId] = useState<string | null>(null);
+  const [tools, setTools] = useState<Record<string, RowTools>>({});
+  const tableRef = useRef<HTMLTableElement>(null);
+  const onState = useCallback((membershipId: string, state: RowState | undefined) => {
+    setLocal((current) => {
+      const next = { ...current };
+      if (state) next[membershipId] = state;
+      else delete next[membershipId];
+      return next;
+    });
+  }, []);
+  const register = useCallback((membershipId: string, entry: RowTools | null) => {
+    setTools((current) => {
+      if (current[membershipId] === entry) return current;
+      const next = { ...current };
+      if (entry) next[membershipId] = entry;
+      else delete next[membershipId];
+      return next;
+    });
+  }, []);
+
+  // A new page or filter: the selection and the open panel belong to the rows that were shown.
+  const rowIds = rows.map((row) => row.membershipId).join();
+  useEffect(() => {
+    setSelection((current) => Object.fromEntries(Object.entries(current).filter(([id]) => rowIds.includes(id))));
+  }, [rowIds]);
+
+  const columns = useMemo(() => {
+    let col = 2; // 0: the selection box, 1: the student's name
+    const criterionColumns = rubric.map((criterion) => {
+      const at = col++;
+      return column.display({
+        id: criterion.id,
+        header: () => (
+          <span title={criterion.description}>
+            {criterion.title}
+            <span className="block font-normal normal-case text-ink-600">
+              {criterion.kind === "levels" ? `levels 1–${criterion.levels?.length ?? 0}` : criterion.kind === "auto" ? "automatic" : `${criterion.minPoints}–${criterion.maxPoints}`} · max {criterion.maxPoints}
+            </span>
+          </span>
+        ),
+        cell: () => (criterion.kind === "levels" ? <LevelsCell criterion={criterion} col={at} /> : criterion.kind === "range" ? <RangeCell criterion={criterion} col={at} /> : <AutoCell criterion={criterion} col={at} />),
+      });
+    });
+    const penaltyCol = col++;
+    return [
+      column.display({
+        id: "select",
+        header: ({ table }) => (
+          <input
+            type="checkbox"
+            className="h-5 w-5"
+            aria-label="Select every student on this page"
+            checked={table.getIsAllRowsSelected()}
+            ref={(input) => {
+              if (input) input.indeterminate = table.getIsSomeRowsSelected();
+            }}
+            onChange={table.getToggleAllRowsSelectedHandler()}
+          />
+        ),
+        cell: ({ row }) => <SelectCell checked={row.getIsSelected()} onChange={(value) => row.toggleSelected(value)} label={`Select ${row.original.studentName}`} />,
+      }),
+      column.display({ id: "student", header: () => <SortHeader label="Student" by="name" sort={sort} />, cell: () => <StudentCell /> }),
+      column.display({ id: "status", header: () => <SortHeader label="Hand-in" by="status" sort={sort} />, cell: () => <HandInCell /> }),
+      column.display({ id: "figure", header: () => <SortHeader label="Result" by="figure" sort={sort} />, cell: () => <ResultCell /> }),
+      column.display({ id: "label", header: () => <SortHeader label="Class" by="label" sort={sort} />, cell: () => <LabelCell /> }),
+      ...criterionColumns,
+      column.display({ id: "penalty", header: "Late penalty", cell: () => <PenaltyCell col={penaltyCol} /> }),
+      column.display({ id: "total", header: () => <SortHeader label={`Total / ${maxTotal}`} by="total" sort={sort} />, cell: () => <TotalCell /> }),
+      column.display({ id: "saved", header: () => <span className="sr-only">Saving</span>, cell: () => <StatusCell /> }),
+    ];
+  }, [rubric, sort, maxTotal]);
+
+  const table = useReactTable({
+    data: rows,
+    columns,
+    getRowId: (row) => row.membershipId,
+    state: { rowSelection: selection },
+    onRowSelectionChange: setSelection,
+    enableRowSelection: canEdit,
+    getCoreRowModel: getCoreRowModel(),
+    manualPagination: true,
+    manualSorting: true,
+    manualFiltering: true,
+  });
+  const selectedIds = Object.keys(selection).filter((id) => selection[id]);
+  const open = useCallback((membershipId: string) => setOpenId(membershipId), []);
+  const desk = useMemo(() => ({ canEdit, rubric, open, kind }), [canEdit, rubric, open, kind]);
+  const openIndex = rows.findIndex((row) => row.membershipId === openId);
+  const openTools = openId ? tools[openId] : undefined;
+
+  // The first control of the grid is its one tab stop, until another cell has had focus.
+  useEffect(() => {
+    const first = tableRef.current?.querySelector<HTMLElement>('[data-row="0"][data-col="1"]');
+    if (first && !tableRef.current?.querySelector('[data-row][tabindex="0"]')) first.tabIndex = 0;
+  }, [rows]);
+
+  return (
+    <DeskContext.Provider value={desk}>
+      <div className="flex flex-col gap-3">
+        {canEdit ? <BulkBar rubric={rubric} selectedIds={selectedIds} clear={() => setSelection({})} /> : null}
+        <div className="flex flex-col gap-4 xl:flex-row xl:items-start">
+          <div role="region" aria-label="Marks" tabIndex={-1} className="min-w-0 flex-1 overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
+            <table
+              ref={tableRef}
+              className="min-w-full text-left text-sm"
+              aria-describedby="desk-keys"
+              onKeyDown={(event) => {
+                const target = event.target as HTMLElement;
+                if (target.dataset.row === undefined || !tableRef.current) return;
+                const row = table.getRowModel().rows[Number(target.dataset.row)];
+                if (event.key === "Enter" && target.tagName === "SELECT") {
+                  event.preventDefault();
+                  open(row.original.membershipId);
+                } else if (event.key === " " && canEdit && !(target instanceof HTMLInputElement)) {
+                  // Space selects the row from any cell; in a text field it stays a space.
+                  event.preventDefault();
+                  row.toggleSelected();
+                } else moveFocus(event, tableRef.current);
+              }}
+              onFocus={(event) => {
+                // Roving tab stop: the cell last focused is where Tab comes back to.
+                const target = event.target as HTMLElement;
+                if (target.dataset.row === undefined) return;
+                tableRef.current?.querySelectorAll<HTMLElement>('[data-row][tabindex="0"]').forEach((cell) => cell !== target && (cell.tabIndex = -1));
+                target.tabIndex = 0;
+              }}
+            >
+              <caption className="sr-only">Marks of the students shown, one row each</caption>
+              <thead className={tableHeadClass}>
+                {table.getHeaderGroups().map((group) => (
+                  <tr key={group.id}>
+                    {group.headers.map((header) => (
+                      <th key={header.id} scope="col" className="px-2 py-2 align-bottom font-medium">
+                        {flexRender(header.column.columnDef.header, header.getContext())}
+                      </th>
+                    ))}
+                  </tr>
+                ))}
+              </thead>
+              <tbody className="divide-y divide-ink-900/5">
+                {table.getRowModel().rows.length === 0 ? (
+                  <tr>
+                    <td colSpan={columns.length} className="px-3 py-6 text-center text-ink-600">
+                      No students match these filters.
+                    </td>
+                  </tr>
+                ) : (
+                  table.getRowModel().rows.map((row, index) => (
+                    <DeskRow key={row.id} base={row.original} index={index} state={local[row.id]} onState={onState} register={register} selected={row.getIsSelected()}>
+                      {row.getVisibleCells().map((cell) => (
+                        <td key={cell.id} className="px-2 py-1.5 align-middle">
+                          {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                        </td>
+                      ))}
+                    </DeskRow>
+                  ))
+                )}
+              </tbody>
+            </table>
+          </div>
+          {openTools ? (
+            <MarkPanel
+              key={openId}
+              courseId={courseId}
+              labId={labId}
+              rubric={rubric}
+              canEdit={canEdit}
+              row={openTools.row}
+              saveState={openTools.saveState}
+              save={openTools.save}
+              retry={openTools.retry}
+              onClose={() => {
+                setOpenId(null);
+                tableRef.current?.querySelector<HTMLElement>(`[data-row="${openIndex}"][data-col="1"]`)?.focus();
+              }}
+              onStep={(step) => {
+                const next = rows[openIndex + step];
+                if (next) setOpenId(next.membershipId);
+              }}
+              position={{ index: openIndex, count: rows.length }}
+            />
+          ) : null}
+        </div>
+        <p id="desk-keys" className="text-xs text-ink-700">
+          Keys: arrows move between cells and rows; a level&apos;s number sets it and Delete clears it; type points and press Enter; Enter on a student or an
+          automatic cell opens the hand-in beside the table; Space selects the row.
+        </p>
+      </div>
+    </DeskContext.Provider>
+  );
+}

@@ -1,0 +1,59 @@
+/**
+ * The marking desk's filters, sorting and paging as the URL carries them, and the size limit of a bulk
+ * action. Pure, so the desk's page (in the browser) and its loader read the same definitions.
+ */
+import { z } from "zod";
+
+export const deskStatusFilters = ["unmarked", "flagged", "late", "missing"] as const;
+export type DeskStatusFilter = (typeof deskStatusFilters)[number];
+export const deskSortKeys = ["name", "cohort", "status", "submittedAt", "figure", "label", "total", "progress"] as const;
+export type DeskSortKey = (typeof deskSortKeys)[number];
+
+export type MarkingDeskFilters = {
+  cohortId?: string;
+  /** unmarked: not every criterion scored yet; flagged: suspect or outlier; late; missing: nothing handed in. */
+  status?: DeskStatusFilter;
+  sort?: { by: DeskSortKey; direction: "asc" | "desc" };
+  /** 1-based. */
+  page: number;
+  pageSize: number;
+};
+
+export const DEFAULT_DESK_PAGE_SIZE = 50;
+export const MAX_DESK_PAGE_SIZE = 200;
+/** Most students one bulk action may name. */
+export const MAX_BULK_STUDENTS = 5000;
+
+/**
+ * The desk's filters from the URL (`?cohort=…&status=late&sort=-total&page=2&pageSize=50`); an
+ * unknown value falls back to the default rather than failing, so an old link still opens.
+ */
+export const markingDeskSearch = z.object({
+  cohort: z.uuid().optional().catch(undefined),
+  status: z.enum(deskStatusFilters).optional().catch(undefined),
+  sort: z
+    .string()
+    .regex(new RegExp(`^-?(${deskSortKeys.join("|")})$`))
+    .optional()
+    .catch(undefined),
+  page: z.coerce.number().int().min(1).catch(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(MAX_DESK_PAGE_SIZE).catch(DEFAULT_DESK_PAGE_SIZE).default(DEFAULT_DESK_PAGE_SIZE),
+});
+
+/** Reads the desk's filters from a URL; `sort=-total` sorts by total, highest first. */
+export function readMarkingDeskFilters(url: URL): MarkingDeskFilters {
+  const parsed = markingDeskSearch.parse(Object.fromEntries(url.searchParams));
+  const sort = parsed.sort ? { by: parsed.sort.replace(/^-/, "") as DeskSortKey, direction: parsed.sort.startsWith("-") ? ("desc" as const) : ("asc" as const) } : undefined;
+  return { cohortId: parsed.cohort, status: parsed.status, sort, page: parsed.page, pageSize: parsed.pageSize };
+}
+
+/** The search string for filters (defaults left out), the inverse of `readMarkingDeskFilters`. */
+export function markingDeskSearchParams(filters: Partial<MarkingDeskFilters>): URLSearchParams {
+  const params = new URLSearchParams();
+  if (filters.cohortId) params.set("cohort", filters.cohortId);
+  if (filters.status) params.set("status", filters.status);
+  if (filters.sort) params.set("sort", `${filters.sort.direction === "desc" ? "-" : ""}${filters.sort.by}`);
+  if (filters.page && filters.page > 1) params.set("page", String(filters.page));
+  if (filters.pageSize && filters.pageSize !== DEFAULT_DESK_PAGE_SIZE) params.set("pageSize", String(filters.pageSize));
+  return params;
+}

@@ -1,0 +1,200 @@
+/**
+ * The marking desk of a lab, for its instructors and the TAs of its cohorts. Filters, sorting and
+ * pages travel in the URL and are served by the loader; marks are saved cell by cell through
+ * fetchers (a save does not reload the desk: its answer carries the student's new row), and a bulk
+ * action reloads it.
+ */
+import { data, Link, useLocation, useNavigate, type ShouldRevalidateFunctionArgs } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/courses.$courseId.labs.$labId.marking";
+import { LabStaffNav } from "~/components/labs/lab-staff-nav";
+import { MarkingDesk } from "~/components/marking/marking-desk";
+import { ButtonLink } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
+import { PageHeader } from "~/components/ui/page-header";
+import { deskStatusFilters, MAX_BULK_STUDENTS, readMarkingDeskFilters, type DeskStatusFilter } from "~/lib/marking/desk-filters";
+import { markChange, MarkValueError } from "~/lib/marking/marks";
+import { db } from "~/server/db.server";
+import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
+import { MarkingRefusedError, requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { applyToMany, saveMark } from "~/server/marking/marks.server";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+  const url = new URL(request.url);
+  const desk = await loadMarkingDesk(db, { access, lab, filters: readMarkingDeskFilters(url) });
+  return {
+    courseId: access.course.id,
+    instructor: access.membership.role === "instructor",
+    lab: { id: lab.id, title: lab.title, kind: lab.kind, rubric: lab.rubric, readyAt: lab.marking.readyAt?.toISOString() ?? null, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
+    cohorts: desk.cohorts,
+    rows: desk.rows,
+    counts: desk.counts,
+    page: desk.page,
+    pageCount: desk.pageCount,
+    totalRows: desk.totalRows,
+    maxTotal: desk.maxTotal,
+    canEdit: desk.canEdit,
+    filters: { cohort: url.searchParams.get("cohort"), status: url.searchParams.get("status"), sort: url.searchParams.get("sort") },
+  };
+}
+
+const reason = z.string().trim().max(500, "Keep the reason under 500 characters.").nullish();
+const deskAction = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("save"), membershipId: z.uuid(), expectedVersion: z.int().min(0), change: markChange, reason }),
+  z.object({ intent: z.literal("bulk"), membershipIds: z.array(z.uuid()).min(1, "Select at least one student.").max(MAX_BULK_STUDENTS), change: markChange, reason }),
+]);
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+  const parsed = deskAction.safeParse(await request.json().catch(() => null));
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    return data({ intent: "refused" as const, status: "refused" as const, error: { code: "invalid_value", message: issue?.message ?? "The change cannot be read.", field: String(issue?.path.at(-1) ?? "form"), membershipIds: [] } }, { status: 400 });
+  }
+  const input = parsed.data;
+  try {
+    if (input.intent === "save") {
+      const result = await saveMark(db, { access, labId: lab.id, membershipId: input.membershipId, expectedVersion: input.expectedVersion, change: input.change, reason: input.reason });
+      return { intent: "save" as const, status: result.status, row: result.row };
+    }
+    const result = await applyToMany(db, { access, labId: lab.id, membershipIds: input.membershipIds, change: input.change, reason: input.reason });
+    return { intent: "bulk" as const, status: "applied" as const, changed: result.changed, unchanged: result.unchanged };
+  } catch (error) {
+    if (error instanceof MarkingRefusedError || error instanceof MarkValueError) {
+      const refusal = error instanceof MarkingRefusedError ? error : new MarkingRefusedError("invalid_value", error.message, error.field);
+      return data(
+        { intent: input.intent, status: "refused" as const, error: { code: refusal.code, message: refusal.message, field: refusal.field, membershipIds: refusal.membershipIds } },
+        { status: refusal.status },
+      );
+    }
+    throw error;
+  }
+}
+
+/** A lost connection is a failed save the marker can retry, not an error page. */
+export async function clientAction({ serverAction }: Route.ClientActionArgs) {
+  try {
+    return await serverAction();
+  } catch {
+    return { status: "failed" as const, message: "The connection failed; nothing was saved." };
+  }
+}
+
+/** A saved cell answers with the student's new row, so the desk is not read again; a bulk action reloads it. */
+export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  if (actionResult && typeof actionResult === "object" && "intent" in actionResult && actionResult.intent === "save") return false;
+  if (actionResult && typeof actionResult === "object" && "status" in actionResult && actionResult.status === "failed") return false;
+  return defaultShouldRevalidate;
+}
+
+const statusNames: Record<DeskStatusFilter, string> = { unmarked: "Not fully marked", flagged: "Flagged by the class comparison", late: "Late", missing: "Missing" };
+
+function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["loaderData"], "cohorts" | "counts" | "filters">) {
+  const location = useLocation();
+  const navigate = useNavigate();
+  const withParam = (key: string, value: string | null) => {
+    const params = new URLSearchParams(location.search);
+    if (value) params.set(key, value);
+    else params.delete(key);
+    params.delete("page");
+    return `?${params}`;
+  };
+  const chip = (active: boolean) => `inline-flex min-h-9 items-center rounded-full px-3 text-sm ring-1 ${active ? "bg-ink-800 text-paper-50 ring-ink-800" : "bg-white ring-ink-900/20 hover:bg-paper-100"}`;
+  return (
+    <div className="no-print flex flex-wrap items-end gap-4">
+      {cohorts.length > 1 ? (
+        <label className="flex flex-col gap-1 text-sm">
+          <span>Cohort</span>
+          <select className="rounded border border-ink-900/20 bg-white px-2 py-1.5" value={filters.cohort ?? ""} onChange={(event) => navigate(withParam("cohort", event.target.value || null), { preventScrollReset: true })}>
+            <option value="">All my cohorts</option>
+            {cohorts.map((cohort) => (
+              <option key={cohort.id} value={cohort.id}>
+                {cohort.name}
+              </option>
+            ))}
+          </select>
+        </label>
+      ) : null}
+      <nav aria-label="Show" className="flex flex-wrap gap-2">
+        <Link to={withParam("status", null)} preventScrollReset className={chip(!filters.status)} aria-current={!filters.status ? "page" : undefined}>
+          Everyone ({counts.all})
+        </Link>
+        {deskStatusFilters.map((status) => (
+          <Link key={status} to={withParam("status", status)} preventScrollReset className={chip(filters.status === status)} aria-current={filters.status === status ? "page" : undefined}>
+            {statusNames[status]} ({counts[status]})
+          </Link>
+        ))}
+      </nav>
+    </div>
+  );
+}
+
+function Pages({ page, pageCount, totalRows }: { page: number; pageCount: number; totalRows: number }) {
+  const location = useLocation();
+  if (pageCount <= 1) return <p className="text-sm text-ink-700">{totalRows} student{totalRows === 1 ? "" : "s"}</p>;
+  const to = (target: number) => {
+    const params = new URLSearchParams(location.search);
+    params.set("page", String(target));
+    return `?${params}`;
+  };
+  return (
+    <nav aria-label="Pages" className="no-print flex items-center gap-3 text-sm">
+      {page > 1 ? (
+        <Link to={to(page - 1)} className="underline">
+          Previous page
+        </Link>
+      ) : null}
+      <span>
+        Page {page} of {pageCount} · {totalRows} students
+      </span>
+      {page < pageCount ? (
+        <Link to={to(page + 1)} className="underline">
+          Next page
+        </Link>
+      ) : null}
+    </nav>
+  );
+}
+
+export default function MarkingPage({ loaderData }: Route.ComponentProps) {
+  const { courseId, instructor, lab, rows, canEdit, maxTotal, filters } = loaderData;
+  const base = `/courses/${courseId}/labs/${lab.id}`;
+  return (
+    <div className="flex flex-col gap-4">
+      <PageHeader
+        title={lab.title}
+        trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}
+        actions={
+          <>
+            <a href={`${base}/marks.csv`} className="px-3 py-2 text-sm underline" download>
+              Download marks (CSV)
+            </a>
+            {instructor ? (
+              <ButtonLink to={`${base}/rubric`} variant="secondary">
+                Edit the rubric
+              </ButtonLink>
+            ) : null}
+          </>
+        }
+      >
+        Marking desk · out of {maxTotal} points
+        {lab.releasedAt ? " · marks released" : lab.readyAt ? " · marking closed for TAs" : ""}
+      </PageHeader>
+      {lab.rubric.length === 0 ? (
+        <Notice tone="warning">
+          This lab has no rubric yet. {instructor ? <Link to={`${base}/rubric`} className="underline">Set its criteria</Link> : "The instructor sets its criteria"} before marking.
+        </Notice>
+      ) : null}
+      {!canEdit ? <Notice tone="info">The instructor has closed this lab&apos;s marking for moderation: marks are shown but cannot be changed here.</Notice> : null}
+      <DeskFilters cohorts={loaderData.cohorts} counts={loaderData.counts} filters={filters} />
+      {lab.rubric.length ? <MarkingDesk courseId={courseId} labId={lab.id} kind={lab.kind} rubric={lab.rubric} rows={rows} canEdit={canEdit} maxTotal={maxTotal} sort={filters.sort} /> : null}
+      <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />
+    </div>
+  );
+}
+
+export function meta({ data: loaderData }: Route.MetaArgs) {
+  return [{ title: `Marking: ${loaderData?.lab.title ?? "lab"} · Benchpost` }];
+}

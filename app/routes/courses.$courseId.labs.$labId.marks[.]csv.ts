@@ -1,0 +1,26 @@
+import type { Route } from "./+types/courses.$courseId.labs.$labId.marks[.]csv";
+import { csvResponse, neutraliseCell, toCsv } from "~/lib/csv";
+import { db } from "~/server/db.server";
+import { loadMarksJson, type MarksJson } from "~/server/marking/mark-export.server";
+import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
+
+type Row = MarksJson["marks"][number];
+
+/** The lab's marks for a spreadsheet or gradebook, one row per student, formulas neutralised. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+  const marks = await loadMarksJson(db, { access, lab });
+  const csv = toCsv<Row>(marks.marks, [
+    { header: "student_name", value: (row) => row.student.name },
+    { header: "email", value: (row) => row.student.email },
+    { header: "student_number", value: (row) => row.student.studentNumber },
+    { header: "cohort", value: (row) => row.cohort.name },
+    { header: "total", value: (row) => row.total },
+    // A criterion's title is typed by an instructor: as a header it is neutralised like any cell.
+    ...marks.criteria.map((criterion) => ({ header: neutraliseCell(criterion.title), value: (row: Row) => row.points[criterion.id] })),
+    { header: "late", value: (row) => (row.late ? "yes" : "no") },
+    { header: "late_penalty", value: (row) => (row.total === null ? null : row.latePenaltyPoints) },
+    { header: "released_at", value: (row) => row.releasedAt },
+  ]);
+  return csvResponse(`marks-${lab.title}.csv`, csv);
+}

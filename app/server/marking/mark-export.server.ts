@@ -1,0 +1,66 @@
+/**
+ * A lab's marks for the institution's gradebook: one row per student of the viewer's cohorts (TAs
+ * see theirs, instructors all), with generic columns, as the CSV download and the
+ * `GET /api/v1/labs/:labId/marks` JSON give them. Two statements whatever the class size.
+ */
+import { maxTotalOf } from "~/lib/marking/rubric";
+import type { CourseAccess } from "~/server/auth/access.server";
+import type { Executor } from "~/server/db.server";
+import { deskRow, loadClassLabels, loadStudentMarkRows } from "./mark-rows.server";
+import { assertMarkingStaff, markableCohortIds, type MarkingLab } from "./marking-lab.server";
+
+/** The marks of a lab as plain JSON: the same fields in the CSV and the API. */
+export type MarksJson = {
+  lab: { id: string; courseId: string; title: string; releasedAt: string | null };
+  maxTotal: number;
+  criteria: { id: string; title: string; kind: "levels" | "range" | "auto"; maxPoints: number }[];
+  marks: {
+    membershipId: string;
+    student: { name: string; email: string; studentNumber: string | null };
+    cohort: { id: string; name: string };
+    handIn: "missing" | "on-time" | "late";
+    late: boolean;
+    /** Null for a student without a mark. */
+    total: number | null;
+    /** Every criterion has points. */
+    complete: boolean;
+    latePenaltyPoints: number;
+    /** Points per criterion id; null where none are given or suggested. */
+    points: Record<string, number | null>;
+    feedback: string;
+    markedBy: string | null;
+    updatedAt: string | null;
+    releasedAt: string | null;
+    version: number;
+  }[];
+};
+
+/** Every student's mark of the lab that the viewer may see, by name. Staff only. */
+export async function loadMarksJson(executor: Executor, { access, lab }: { access: CourseAccess; lab: MarkingLab }): Promise<MarksJson> {
+  await assertMarkingStaff(executor, access, lab);
+  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: markableCohortIds(access, lab) }), loadClassLabels(executor, lab)]);
+  return {
+    lab: { id: lab.id, courseId: lab.courseId, title: lab.title, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
+    maxTotal: maxTotalOf(lab.rubric),
+    criteria: lab.rubric.map((criterion) => ({ id: criterion.id, title: criterion.title, kind: criterion.kind, maxPoints: criterion.maxPoints })),
+    marks: students.map((student) => {
+      const row = deskRow(lab, student, labels);
+      return {
+        membershipId: row.membershipId,
+        student: { name: row.studentName, email: row.email, studentNumber: row.studentNumber },
+        cohort: { id: row.cohortId, name: row.cohortName },
+        handIn: row.status,
+        late: row.status === "late",
+        total: row.mark ? row.total : null,
+        complete: row.mark !== null && row.complete,
+        latePenaltyPoints: row.mark?.latePenaltyPoints ?? 0,
+        points: Object.fromEntries(lab.rubric.map((criterion) => [criterion.id, row.mark ? row.cells[criterion.id].points : null])),
+        feedback: row.mark?.feedback ?? "",
+        markedBy: row.mark?.markedBy?.name ?? null,
+        updatedAt: row.mark?.updatedAt ?? null,
+        releasedAt: row.mark?.releasedAt ?? null,
+        version: row.expectedVersion,
+      };
+    }),
+  };
+}

@@ -1,0 +1,218 @@
+/**
+ * The evidence behind marks: every student of some cohorts with their counted hand-in and their mark
+ * (one statement), and the live class-comparison labels (one statement over the whole class). The
+ * desk, the saves, moderation, release and export all read marks through here, so a total is always
+ * computed the same way.
+ */
+import { sql } from "drizzle-orm";
+import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } from "~/lib/marking/automatic-criteria";
+import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkProgress, type MarkScores, type MarkTotals, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
+import type { ClassComparisonLabel } from "~/lib/reduction";
+import { labelClass } from "~/lib/comparison/comparison-settings";
+import { quantityOf } from "~/server/comparison/class-comparison.server";
+import type { Executor } from "~/server/db.server";
+import type { MarkingLab } from "./marking-lab.server";
+
+/** A student's counted hand-in as the desk shows it (key results, not the whole reduction). */
+export type DeskHandIn = {
+  dropLogId: string;
+  versionId: string;
+  version: number;
+  submittedAt: string;
+  late: boolean;
+  dropCount: number | null;
+  strayDropCount: number | null;
+  warningCount: number;
+  /** C_D/C_D,ref (drag) or μ/μ_ref (viscometry). */
+  figure: number | null;
+  reynolds: number | null;
+  dragCoefficient: number | null;
+  viscosityPaS: number | null;
+  temperatureC: number | null;
+};
+
+/** A student's stored mark. */
+export type StoredMark = MarkContent & {
+  id: string;
+  version: number;
+  /** As of the last write; readers use the recomputed total on the row. */
+  storedTotal: number;
+  basedOnVersionId: string | null;
+  markedBy: { id: string; name: string } | null;
+  moderatedBy: { id: string; name: string } | null;
+  moderatedAt: string | null;
+  updatedAt: string;
+  releasedAt: string | null;
+  releasedSnapshot: ReleasedMarkSnapshot | null;
+};
+
+/** One student as every marking view reads them. */
+export type StudentMarkRow = {
+  membershipId: string;
+  userId: string;
+  studentName: string;
+  email: string;
+  studentNumber: string | null;
+  cohortId: string;
+  cohortName: string;
+  handIn: DeskHandIn | null;
+  mark: StoredMark | null;
+};
+
+/** A student's row of the marking desk: the evidence, the suggestions, the cells and the total. */
+export type MarkingDeskRow = StudentMarkRow & {
+  /** Hand-in status: nothing counted, on time, or late. */
+  status: "missing" | "on-time" | "late";
+  classLabel: { label: ClassComparisonLabel; reason: string } | null;
+  /** Suspect or outlier in the class comparison. */
+  flagged: boolean;
+  /** Automatic criteria's suggestions, by criterion id. */
+  suggestions: Record<string, AutoSuggestion>;
+  /** Every criterion's cell, by criterion id. */
+  cells: Record<string, MarkCell>;
+  subtotal: number;
+  total: number;
+  maxTotal: number;
+  complete: boolean;
+  progress: MarkProgress;
+  /** The version the next save names: the mark's, or 0 before there is one. */
+  expectedVersion: number;
+  /** Handed in again since the mark was last changed. */
+  handInChangedSinceMarked: boolean;
+};
+
+const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export type ClassLabels = Map<string, { label: ClassComparisonLabel; reason: string }>;
+
+/**
+ * The students of `cohortIds` (active members), or only `membershipIds` among them, with their counted
+ * hand-in and mark: one statement whatever the class size.
+ */
+export async function loadStudentMarkRows(
+  executor: Executor,
+  lab: Pick<MarkingLab, "id" | "courseId">,
+  { cohortIds, membershipIds }: { cohortIds: readonly string[]; membershipIds?: readonly string[] },
+): Promise<StudentMarkRow[]> {
+  // Named students drive the query (one index lookup each, whatever the planner guesses of a JSON list);
+  // cohorts are few, and a constant array is matched by hashing.
+  const students = membershipIds
+    ? sql`(select distinct value::uuid as id from json_array_elements_text(${JSON.stringify(membershipIds)}::json)) named
+      join course_memberships m on m.id = named.id`
+    : sql`course_memberships m`;
+  const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
+  const result = await executor.execute<{
+    membershipId: string;
+    userId: string;
+    studentName: string;
+    email: string;
+    studentNumber: string | null;
+    cohortId: string;
+    cohortName: string;
+    handIn: DeskHandIn | null;
+    mark: (Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null }) | null;
+  }>(sql`
+    select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
+      m.cohort_id as "cohortId", h.name as "cohortName",
+      case when v.id is null then null else json_build_object(
+        'dropLogId', d.id, 'versionId', v.id, 'version', v.version, 'submittedAt', to_json(v.submitted_at)#>>'{}', 'late', v.late,
+        'dropCount', case when jsonb_typeof(v.reduction #> '{drops,n}') = 'number' then (v.reduction #>> '{drops,n}')::int
+                          when jsonb_typeof(v.input -> 'drops') = 'array' then jsonb_array_length(v.input -> 'drops') end,
+        'strayDropCount', case when jsonb_typeof(v.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(v.reduction #> '{drops,strayDrops}') end,
+        'warningCount', v.warning_count, 'figure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8,
+        'dragCoefficient', v.drag_coefficient::float8, 'viscosityPaS', v.viscosity_pa_s::float8,
+        'temperatureC', case when jsonb_typeof(v.input -> 'temperatureC') = 'number' then (v.input ->> 'temperatureC')::float8 end
+      ) end as "handIn",
+      case when mk.id is null then null else json_build_object(
+        'id', mk.id, 'version', mk.version, 'scores', mk.scores, 'feedback', mk.feedback, 'latePenaltyPoints', mk.late_penalty_points,
+        'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id,
+        'markedById', mk.marked_by_id, 'markedByName', mb.name, 'moderatedById', mk.moderated_by_id, 'moderatedByName', mm.name,
+        'moderatedAt', to_json(mk.moderated_at)#>>'{}', 'updatedAt', to_json(mk.updated_at)#>>'{}', 'releasedAt', to_json(mk.released_at)#>>'{}',
+        'releasedSnapshot', mk.released_snapshot
+      ) end as mark
+    from ${students}
+    join users u on u.id = m.user_id
+    join cohorts h on h.id = m.cohort_id
+    left join drop_logs d on d.lab_id = ${lab.id} and d.membership_id = m.id
+    left join drop_log_versions v on v.id = d.latest_version_id
+    left join marks mk on mk.lab_id = ${lab.id} and mk.membership_id = m.id
+    left join users mb on mb.id = mk.marked_by_id
+    left join users mm on mm.id = mk.moderated_by_id
+    where m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
+      and m.cohort_id = any(${cohortArray}::uuid[])
+    order by u.name, m.id`);
+  return result.rows.map(({ mark, ...row }) => {
+    if (!mark) return { ...row, mark: null };
+    const { markedById, markedByName, moderatedById, moderatedByName, ...stored } = mark;
+    return {
+      ...row,
+      mark: {
+        ...stored,
+        scores: (stored.scores ?? {}) as MarkScores,
+        markedBy: markedById ? { id: markedById, name: markedByName ?? "" } : null,
+        moderatedBy: moderatedById ? { id: moderatedById, name: moderatedByName ?? "" } : null,
+      },
+    };
+  });
+}
+
+/** Whether any criterion needs the class comparison; when none does, the writes skip loading it. */
+export const rubricNeedsLabels = (lab: Pick<MarkingLab, "rubric">) => lab.rubric.some((criterion) => criterion.autoRule === "not_outlier");
+
+/**
+ * The live label of every counted hand-in of the lab, by drop log: labelled over the whole class with
+ * the lab's method by the class comparison's own `labelClass`, from the same counted versions
+ * (`loadCountedHandIns` keeps those with a positive figure), read here without the names and kit parts
+ * the comparison page shows. One statement.
+ */
+export async function loadClassLabels(executor: Executor, lab: Pick<MarkingLab, "id" | "kind" | "settings">): Promise<ClassLabels> {
+  const result = await executor.execute<{ id: string; figure: number }>(sql`
+    select dl.id, v.normalised_figure::float8 as figure
+    from drop_logs dl
+    join drop_log_versions v on v.id = dl.latest_version_id
+    where dl.lab_id = ${lab.id} and v.normalised_figure > 0`);
+  const labelled = labelClass(result.rows, lab.settings, quantityOf(lab.kind));
+  return new Map(result.rows.map((row, index) => [row.id, { label: labelled[index].label, reason: labelled[index].reason }]));
+}
+
+/** What the automatic rules read about one student. */
+export function evidenceOf(lab: Pick<MarkingLab, "requiredDrops">, row: Pick<StudentMarkRow, "handIn">, labels: ClassLabels): HandInEvidence {
+  const handIn = row.handIn;
+  const label = handIn ? labels.get(handIn.dropLogId) : undefined;
+  return {
+    handedIn: handIn !== null,
+    late: handIn?.late ?? false,
+    dropCount: handIn?.dropCount ?? null,
+    requiredDrops: lab.requiredDrops,
+    figure: handIn?.figure ?? null,
+    classLabel: label?.label ?? null,
+    classReason: label?.reason ?? null,
+  };
+}
+
+/** A student's desk row, with the suggestions and total computed from `content` (the stored mark unless given). */
+export function deskRow(lab: Pick<MarkingLab, "rubric" | "requiredDrops">, row: StudentMarkRow, labels: ClassLabels, content: MarkContent | null = row.mark): MarkingDeskRow {
+  const suggestions = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, row, labels));
+  return deskRowWith(row, labels, suggestions, markTotals(lab.rubric, content, suggestions));
+}
+
+/** A desk row from suggestions and totals already computed (the write path computes them once per student). */
+export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestions: Record<string, AutoSuggestion>, totals: MarkTotals): MarkingDeskRow {
+  const label = row.handIn ? labels.get(row.handIn.dropLogId) : undefined;
+  const classLabel = label ? { label: label.label, reason: label.reason } : null;
+  return {
+    ...row,
+    status: row.handIn === null ? "missing" : row.handIn.late ? "late" : "on-time",
+    classLabel,
+    flagged: classLabel !== null && classLabel.label !== "consistent",
+    suggestions,
+    cells: totals.cells,
+    subtotal: totals.subtotal,
+    total: totals.total,
+    maxTotal: totals.maxTotal,
+    complete: totals.complete,
+    progress: markProgress(row.mark !== null, totals),
+    expectedVersion: row.mark?.version ?? 0,
+    handInChangedSinceMarked: row.mark !== null && row.handIn !== null && row.mark.basedOnVersionId !== row.handIn.versionId,
+  };
+}

@@ -1,0 +1,202 @@
+/**
+ * The lab as marking reads it (its comparison settings, cohorts, rubric and marking state, in one
+ * statement), who may mark it, and the refusals every marking function throws. Instructors mark every
+ * cohort of a lab; a TA only the students of their own cohorts among the lab's; students never.
+ */
+import { and, eq, sql } from "drizzle-orm";
+import { data } from "react-router";
+import { z } from "zod";
+import { labMarking, labs } from "~/db/schema";
+import type { ComparisonSettings } from "~/lib/comparison/comparison-settings";
+import type { RubricCriterion } from "~/lib/marking/rubric";
+import { recordAudit } from "~/server/audit.server";
+import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
+import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
+import { settingsOf } from "~/server/comparison/class-comparison.server";
+import { db, type Executor } from "~/server/db.server";
+
+/** A lab with what marking needs; `rubric` is in order. */
+export type MarkingLab = {
+  id: string;
+  courseId: string;
+  title: string;
+  kind: "drag" | "viscometry";
+  status: "draft" | "published" | "closed";
+  dueAt: Date;
+  requiredDrops: number;
+  dragModel: string;
+  settings: ComparisonSettings;
+  cohortIds: string[];
+  rubric: RubricCriterion[];
+  marking: MarkingState;
+};
+
+/** Where the lab's marking stands: ready (TAs stop changing marks) and released (students see their marks). */
+export type MarkingState = {
+  readyAt: Date | null;
+  readyBy: { id: string; name: string } | null;
+  releasedAt: Date | null;
+  releasedBy: { id: string; name: string } | null;
+};
+
+export type MarkingRefusalCode =
+  | "forbidden"
+  | "instructors_only"
+  | "not_in_cohort"
+  | "lab_not_found"
+  | "invalid_value"
+  | "reason_required"
+  | "marking_closed"
+  | "not_ready"
+  | "rubric_locked"
+  | "conflict";
+
+const refusalStatus: Record<MarkingRefusalCode, number> = {
+  forbidden: 403,
+  instructors_only: 403,
+  not_in_cohort: 403,
+  lab_not_found: 404,
+  invalid_value: 400,
+  reason_required: 400,
+  marking_closed: 409,
+  not_ready: 409,
+  rubric_locked: 409,
+  conflict: 409,
+};
+
+/**
+ * Something marking refuses, with the HTTP status a route should answer. `field` names the form
+ * field the message belongs next to; `membershipIds` the students a bulk action was refused for.
+ */
+export class MarkingRefusedError extends Error {
+  readonly status: number;
+  constructor(
+    readonly code: MarkingRefusalCode,
+    message: string,
+    readonly field: string = "form",
+    readonly membershipIds: string[] = [],
+  ) {
+    super(message);
+    this.name = "MarkingRefusedError";
+    this.status = refusalStatus[code];
+  }
+}
+
+type CriterionRow = Omit<RubricCriterion, "autoParams"> & { autoParams: RubricCriterion["autoParams"] | null };
+
+/** The lab with its cohorts, rubric and marking state, in one statement; null when it is not the course's. */
+export async function loadMarkingLab(executor: Executor, courseId: string, labId: string): Promise<MarkingLab | null> {
+  if (!z.uuid().safeParse(labId).success) return null;
+  const [row] = await executor
+    .select({
+      id: labs.id,
+      courseId: labs.courseId,
+      title: labs.title,
+      kind: labs.kind,
+      status: labs.status,
+      dueAt: labs.dueAt,
+      requiredDrops: labs.requiredDrops,
+      dragModel: labs.dragModel,
+      comparisonMethod: labs.comparisonMethod,
+      comparisonAlpha: labs.comparisonAlpha,
+      comparisonMaxOutliers: labs.comparisonMaxOutliers,
+      comparisonK: labs.comparisonK,
+      cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]`,
+      rubric: sql<CriterionRow[]>`coalesce((
+        select json_agg(json_build_object(
+          'id', rc.id, 'position', rc.position, 'title', rc.title, 'description', rc.description, 'kind', rc.kind,
+          'levels', rc.levels, 'minPoints', rc.min_points, 'maxPoints', rc.max_points, 'autoRule', rc.auto_rule, 'autoParams', rc.auto_params
+        ) order by rc.position, rc.id)
+        from rubric_criteria rc where rc.lab_id = ${labs.id}), '[]'::json)`,
+      readyAt: labMarking.readyAt,
+      readyById: labMarking.readyById,
+      readyByName: sql<string | null>`(select u.name from users u where u.id = ${labMarking.readyById})`,
+      releasedAt: labMarking.releasedAt,
+      releasedById: labMarking.releasedById,
+      releasedByName: sql<string | null>`(select u.name from users u where u.id = ${labMarking.releasedById})`,
+    })
+    .from(labs)
+    .leftJoin(labMarking, eq(labMarking.labId, labs.id))
+    .where(and(eq(labs.id, labId), eq(labs.courseId, courseId)));
+  if (!row) return null;
+  return {
+    id: row.id,
+    courseId: row.courseId,
+    title: row.title,
+    kind: row.kind,
+    status: row.status,
+    dueAt: row.dueAt,
+    requiredDrops: row.requiredDrops,
+    dragModel: row.dragModel,
+    settings: settingsOf(row),
+    cohortIds: row.cohortIds,
+    rubric: row.rubric.map((criterion) => ({ ...criterion, autoParams: criterion.autoParams ?? {} })),
+    marking: {
+      readyAt: row.readyAt,
+      readyBy: row.readyById ? { id: row.readyById, name: row.readyByName ?? "" } : null,
+      releasedAt: row.releasedAt,
+      releasedBy: row.releasedById ? { id: row.releasedById, name: row.releasedByName ?? "" } : null,
+    },
+  };
+}
+
+/** The lab's cohorts whose students the viewer may mark: all of them for instructors, the assigned ones for TAs, none for students. */
+export function markableCohortIds(access: CourseAccess, lab: Pick<MarkingLab, "cohortIds">): string[] {
+  if (access.membership.role === "student") return [];
+  return lab.cohortIds.filter((cohortId) => access.cohortIds.includes(cohortId));
+}
+
+/** Records a refusal in the audit trail as the access checks do, then throws it. */
+export async function refuse(executor: Executor, access: CourseAccess, refusal: MarkingRefusedError, subject: string): Promise<never> {
+  if (refusal.status === 403) {
+    await recordAudit(executor, {
+      action: "access.denied",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject,
+      detail: { reason: refusal.code, message: refusal.message, ...(refusal.membershipIds.length ? { students: refusal.membershipIds.length } : {}) },
+    });
+  }
+  throw refusal;
+}
+
+/** Staff of the lab: instructors, and TAs of one of its cohorts. Anyone else is refused (and recorded). */
+export async function assertMarkingStaff(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id" | "cohortIds">): Promise<void> {
+  if (access.membership.role === "instructor") return;
+  if (access.membership.role === "student") await refuse(executor, access, new MarkingRefusedError("forbidden", "Marking is for the course's staff."), `lab:${lab.id}`);
+  if (markableCohortIds(access, lab).length === 0) await refuse(executor, access, new MarkingRefusedError("not_in_cohort", "None of this lab's cohorts is assigned to you."), `lab:${lab.id}`);
+}
+
+/** Instructors of the course only (moderation, release, the mark history). */
+export async function assertInstructor(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id">): Promise<void> {
+  if (access.membership.role !== "instructor") await refuse(executor, access, new MarkingRefusedError("instructors_only", "Only the course's instructors may do this."), `lab:${lab.id}`);
+}
+
+/**
+ * For loaders and actions: the viewer's access and the lab, for instructors and the TAs of a cohort
+ * the lab is set for (others get the usual recorded 403; no such lab a 404). Errors are JSON under /api/.
+ */
+export async function requireMarkingAccess(
+  request: Request,
+  courseId: string | undefined,
+  labId: string | undefined,
+  roles: readonly ("instructor" | "ta")[] = staffRoles,
+): Promise<{ access: CourseAccess; lab: MarkingLab }> {
+  const access = await requireCourseRole(request, courseId, roles);
+  const lab = labId ? await loadMarkingLab(db, access.course.id, labId) : null;
+  if (!lab) {
+    if (isApiRequest(request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
+    throw data("Not found", { status: 404 });
+  }
+  if (access.membership.role === "ta" && markableCohortIds(access, lab).length === 0) {
+    // A TA of none of the lab's cohorts: the cohort check refuses (and records the refusal) as elsewhere.
+    await requireCohortAccess(request, access.course.id, lab.cohortIds[0] ?? "no-cohort");
+  }
+  return { access, lab };
+}
+
+/** A refusal as a route answers it: JSON under /api/, else `data(message, status)` for the error page or a fetcher. */
+export function refusalResponse(request: Request, error: MarkingRefusedError) {
+  if (isApiRequest(request)) return apiErrorResponse(error.status, error.code, error.message);
+  return data({ error: { code: error.code, message: error.message, field: error.field, membershipIds: error.membershipIds } }, { status: error.status });
+}

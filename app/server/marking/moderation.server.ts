@@ -1,0 +1,267 @@
+/**
+ * Moderation and release, the instructor's side of marking: the marks of each TA side by side
+ * (count, mean, spread, distribution), the lab's marking marked ready (TAs stop changing marks), and
+ * release, which freezes each mark's automatic criteria, makes marks and feedback visible to students
+ * and queues one e-mail per student on the same transaction. Adjusting a mark is `saveMark` or
+ * `applyToMany` with `source: "moderation"` and a reason. Every mark change is listed for instructors.
+ */
+import { and, desc, eq, lt, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { courseMemberships, labMarking, markChanges, users } from "~/db/schema";
+import { studentMarkHref } from "~/lib/marking/links";
+import { freezeSuggestions, markTotals, sameContent, type MarkState, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
+import { maxTotalOf, roundPoints } from "~/lib/marking/rubric";
+import { recordAudit } from "~/server/audit.server";
+import type { CourseAccess } from "~/server/auth/access.server";
+import { appUrl } from "~/server/config.server";
+import type { Executor } from "~/server/db.server";
+import { sendEmails } from "~/server/email/send-email.server";
+import { suggestAutomaticCriteria } from "~/lib/marking/automatic-criteria";
+import { deskRow, evidenceOf, loadClassLabels, loadStudentMarkRows, rubricNeedsLabels, type ClassLabels, type MarkingDeskRow } from "./mark-rows.server";
+import { markingLock } from "./marks.server";
+import { assertInstructor, loadMarkingLab, MarkingRefusedError, type MarkingLab, type MarkingState } from "./marking-lab.server";
+
+/** Summary statistics of a set of totals; `standardDeviation` is the sample one (n − 1), null below two marks. */
+export type TotalsSummary = {
+  count: number;
+  mean: number | null;
+  standardDeviation: number | null;
+  median: number | null;
+  min: number | null;
+  max: number | null;
+  /** Counts per bin of `Moderation.bins`. */
+  histogram: number[];
+};
+
+export type Moderation = {
+  lab: MarkingLab;
+  maxTotal: number;
+  /** Equal-width bins over 0 … maxTotal, the last one closed; shared by every histogram so they compare. */
+  bins: { from: number; to: number }[];
+  /** One entry per TA (or instructor) who last marked at the desk, by name; `marker` null for marks whose marker's account is gone. */
+  markers: ({ marker: { id: string; name: string } | null } & TotalsSummary)[];
+  overall: TotalsSummary;
+  students: number;
+  /** Students by where their mark stands. */
+  progress: { unmarked: number; partial: number; marked: number };
+  released: number;
+  /** Released marks that differ from what was released. */
+  changedAfterRelease: number;
+  /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
+  rows: MarkingDeskRow[];
+};
+
+function summarise(totals: number[], bins: { from: number; to: number }[]): TotalsSummary {
+  const histogram = bins.map(() => 0);
+  const width = bins.length ? bins[0].to - bins[0].from : 0;
+  for (const total of totals) {
+    if (width <= 0) continue;
+    histogram[Math.min(bins.length - 1, Math.max(0, Math.floor(total / width)))]++;
+  }
+  const count = totals.length;
+  if (count === 0) return { count, mean: null, standardDeviation: null, median: null, min: null, max: null, histogram };
+  const sorted = [...totals].sort((a, b) => a - b);
+  const mean = totals.reduce((sum, value) => sum + value, 0) / count;
+  const variance = count > 1 ? totals.reduce((sum, value) => sum + (value - mean) ** 2, 0) / (count - 1) : null;
+  const median = count % 2 ? sorted[(count - 1) / 2] : (sorted[count / 2 - 1] + sorted[count / 2]) / 2;
+  return { count, mean, standardDeviation: variance === null ? null : Math.sqrt(variance), median, min: sorted[0], max: sorted[count - 1], histogram };
+}
+
+/** Equal-width bins over 0 … max. */
+export function totalBins(maxTotal: number, count = 10): { from: number; to: number }[] {
+  if (maxTotal <= 0) return [];
+  const width = maxTotal / count;
+  return Array.from({ length: count }, (_, index) => ({ from: roundPoints(index * width), to: roundPoints((index + 1) * width) }));
+}
+
+const loadLabelsFor = (executor: Executor, lab: MarkingLab): Promise<ClassLabels> => (rubricNeedsLabels(lab) ? loadClassLabels(executor, lab) : Promise.resolve(new Map()));
+
+/**
+ * The moderation view of a lab, for instructors: each marker's totals (the marks they last marked
+ * at the desk, whatever moderation changed since) beside everyone's. Two statements.
+ */
+export async function loadModeration(executor: Executor, { access, lab, binCount = 10 }: { access: CourseAccess; lab: MarkingLab; binCount?: number }): Promise<Moderation> {
+  await assertInstructor(executor, access, lab);
+  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: lab.cohortIds }), loadClassLabels(executor, lab)]);
+  const rows = students.map((student) => deskRow(lab, student, labels));
+  const maxTotal = maxTotalOf(lab.rubric);
+  const bins = totalBins(maxTotal, binCount);
+  const marked = rows.filter((row) => row.mark !== null);
+  const byMarker = new Map<string, { marker: { id: string; name: string } | null; totals: number[] }>();
+  for (const row of marked) {
+    const key = row.mark!.markedBy?.id ?? "";
+    const entry = byMarker.get(key) ?? { marker: row.mark!.markedBy, totals: [] };
+    entry.totals.push(row.total);
+    byMarker.set(key, entry);
+  }
+  const progress = { unmarked: 0, partial: 0, marked: 0 };
+  for (const row of rows) progress[row.progress]++;
+  const released = marked.filter((row) => row.mark!.releasedAt !== null);
+  return {
+    lab,
+    maxTotal,
+    bins,
+    markers: [...byMarker.values()]
+      .map(({ marker, totals }) => ({ marker, ...summarise(totals, bins) }))
+      .sort((a, b) => (a.marker?.name ?? "\uffff").localeCompare(b.marker?.name ?? "\uffff")),
+    overall: summarise(marked.map((row) => row.total), bins),
+    students: rows.length,
+    progress,
+    released: released.length,
+    changedAfterRelease: released.filter((row) => row.mark!.releasedSnapshot && !sameContent(row.mark!.releasedSnapshot, row.mark!)).length,
+    rows,
+  };
+}
+
+/**
+ * Marks the lab's marking ready (TAs can no longer change marks at the desk), or opens it again with
+ * `ready: false`. Instructors only.
+ */
+export async function markLabReady(
+  executor: Executor,
+  { access, lab, ready = true, request }: { access: CourseAccess; lab: Pick<MarkingLab, "id">; ready?: boolean; request?: Request },
+): Promise<MarkingState> {
+  await assertInstructor(executor, access, lab);
+  return executor.transaction(async (tx) => {
+    // Exclusive: saves already under way finish first, and none starts until this commits.
+    await tx.execute(markingLock(lab.id, "exclusive"));
+    const readyAt = ready ? new Date() : null;
+    await tx
+      .insert(labMarking)
+      .values({ labId: lab.id, readyAt, readyById: ready ? access.user.id : null })
+      .onConflictDoUpdate({ target: labMarking.labId, set: { readyAt, readyById: ready ? access.user.id : null, updatedAt: new Date() } });
+    await recordAudit(tx, { action: ready ? "marking.ready" : "marking.reopened", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, request });
+    return (await loadMarkingLab(tx, access.course.id, lab.id))!.marking;
+  });
+}
+
+export type ReleaseOutcome = {
+  /** Marks shown to students by this release. */
+  released: number;
+  /** E-mails queued (a student already e-mailed for this lab is not e-mailed again). */
+  emailed: number;
+  /** Marks released before. */
+  alreadyReleased: number;
+  /** Students without a mark: nothing is shown to them yet. */
+  unmarked: number;
+};
+
+/**
+ * Releases the lab's marks: every mark not shown yet gets its automatic criteria frozen, its total
+ * written and a snapshot of what the student now sees; its student is e-mailed ("marks-released",
+ * with a dedupe key per lab and student) on the same transaction. Releasing again shows only the
+ * marks added since, and e-mails nobody twice. Instructors only, once the marking is marked ready.
+ */
+export async function releaseMarks(
+  executor: Executor,
+  { access, lab: { id: labId }, request, now = new Date() }: { access: CourseAccess; lab: Pick<MarkingLab, "id">; request?: Request; now?: Date },
+): Promise<ReleaseOutcome> {
+  await assertInstructor(executor, access, { id: labId });
+  return executor.transaction(async (tx) => {
+    await tx.execute(markingLock(labId, "exclusive"));
+    const lab = await loadMarkingLab(tx, access.course.id, labId);
+    if (!lab) throw new MarkingRefusedError("lab_not_found", "There is no such lab in this course.");
+    if (!lab.marking.readyAt) throw new MarkingRefusedError("not_ready", "Mark the lab's marking as ready before releasing it.");
+    const [students, labels] = await Promise.all([loadStudentMarkRows(tx, lab, { cohortIds: lab.cohortIds }), loadLabelsFor(tx, lab)]);
+    const toRelease = students.filter((row) => row.mark && !row.mark.releasedAt);
+    const releasedAt = now.toISOString();
+    const payload = toRelease.map((row) => {
+      const mark = row.mark!;
+      const suggestions = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, row, labels));
+      const scores = freezeSuggestions(lab.rubric, mark.scores, suggestions);
+      const total = markTotals(lab.rubric, { scores, latePenaltyPoints: mark.latePenaltyPoints }, suggestions).total;
+      const snapshot: ReleasedMarkSnapshot = { scores, feedback: mark.feedback, latePenaltyPoints: mark.latePenaltyPoints, total, dropLogVersionId: row.handIn?.versionId ?? mark.basedOnVersionId, releasedAt };
+      return { id: mark.id, version: mark.version, scores, total, drop_log_version_id: snapshot.dropLogVersionId, snapshot };
+    });
+    if (payload.length) {
+      // The version is unchanged: release writes in what was already shown, it changes no value.
+      const result = await tx.execute(sql`
+        update marks mk set scores = r.scores, total = r.total, drop_log_version_id = r.drop_log_version_id,
+          released_at = ${releasedAt}::timestamptz, released_snapshot = r.snapshot
+        from json_to_recordset(${JSON.stringify(payload)}::json) as r(id uuid, version int, scores jsonb, total float8, drop_log_version_id uuid, snapshot jsonb)
+        where mk.id = r.id and mk.version = r.version and mk.released_at is null`);
+      if ((result.rowCount ?? 0) !== payload.length) throw new MarkingRefusedError("conflict", "Marks changed while releasing: nothing was released. Try again.");
+    }
+    await tx
+      .insert(labMarking)
+      .values({ labId, releasedAt: now, releasedById: access.user.id })
+      .onConflictDoUpdate({ target: labMarking.labId, set: { releasedAt: now, releasedById: access.user.id, updatedAt: now } });
+    const marksUrl = `${appUrl()}${studentMarkHref(lab.courseId, lab.id)}`;
+    const sent = await sendEmails(
+      tx,
+      toRelease.map((row) => ({
+        to: row.email,
+        toName: row.studentName,
+        template: "marks-released" as const,
+        props: { courseTitle: access.course.title, labTitle: lab.title, marksUrl },
+        courseId: lab.courseId,
+        dedupeKey: `marks-released:${lab.id}:${row.membershipId}`,
+      })),
+    );
+    const outcome: ReleaseOutcome = {
+      released: toRelease.length,
+      emailed: sent.filter((entry) => !entry.duplicate).length,
+      alreadyReleased: students.filter((row) => row.mark?.releasedAt).length,
+      unmarked: students.filter((row) => !row.mark).length,
+    };
+    await recordAudit(tx, { action: "marking.released", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: outcome, request });
+    return outcome;
+  });
+}
+
+/** One change of a mark, for the instructors' history. */
+export type MarkChangeEntry = {
+  id: string;
+  markId: string;
+  membershipId: string;
+  studentName: string;
+  changedBy: { id: string; name: string } | null;
+  changedAt: Date;
+  source: "desk" | "bulk" | "moderation";
+  reason: string | null;
+  old: MarkState | null;
+  new: MarkState;
+  afterRelease: boolean;
+};
+
+/**
+ * Every change of the lab's marks, newest first (or one student's with `membershipId`), `limit` at a
+ * time; `before` pages on from the oldest entry shown. Instructors only. One statement.
+ */
+export async function listMarkChanges(
+  executor: Executor,
+  { access, labId, membershipId, limit = 200, before }: { access: CourseAccess; labId: string; membershipId?: string; limit?: number; before?: Date },
+): Promise<MarkChangeEntry[]> {
+  await assertInstructor(executor, access, { id: labId });
+  const changer = alias(users, "changer");
+  const rows = await executor
+    .select({
+      id: markChanges.id,
+      markId: markChanges.markId,
+      membershipId: markChanges.membershipId,
+      studentName: users.name,
+      changedById: markChanges.changedById,
+      changedByName: changer.name,
+      changedAt: markChanges.changedAt,
+      source: markChanges.source,
+      reason: markChanges.reason,
+      old: markChanges.old,
+      new: markChanges.new,
+      afterRelease: markChanges.afterRelease,
+    })
+    .from(markChanges)
+    .innerJoin(courseMemberships, eq(courseMemberships.id, markChanges.membershipId))
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(changer, eq(changer.id, markChanges.changedById))
+    .where(
+      and(
+        eq(markChanges.labId, labId),
+        eq(courseMemberships.courseId, access.course.id),
+        membershipId ? eq(markChanges.membershipId, membershipId) : undefined,
+        before ? lt(markChanges.changedAt, before) : undefined,
+      ),
+    )
+    .orderBy(desc(markChanges.changedAt), desc(markChanges.id))
+    .limit(Math.min(Math.max(1, limit), 1000));
+  return rows.map(({ changedById, changedByName, ...row }) => ({ ...row, changedBy: changedById ? { id: changedById, name: changedByName ?? "" } : null }));
+}

@@ -1,0 +1,476 @@
+/**
+ * The marking desk on a real PostgreSQL: automatic criteria following the reduction, the desk's
+ * constant statement count, bulk marking in one all-or-nothing transaction, edit conflicts, cohort
+ * limits for TAs, moderation, release with one e-mail per student, what students see, the history and
+ * the CSV export.
+ */
+import { and, count, eq, inArray, like, sql } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { auditEvents, cohorts, courseMemberships, dropLogs, emailOutbox, labCohorts, labs, markChanges, marks, rubricCriteria, taCohortAssignments } from "~/db/schema";
+import type { CourseAccess } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
+import { handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { loadMarkingDesk, readMarkingDeskFilters, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
+import { loadMarkingLab, MarkingRefusedError, type MarkingLab } from "~/server/marking/marking-lab.server";
+import { applyToMany, saveMark, saveMarkCell } from "~/server/marking/marks.server";
+import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
+import { copyRubric, saveRubric } from "~/server/marking/rubrics.server";
+import { loadStudentMark } from "~/server/marking/student-mark.server";
+import { createAccessFixture, type AccessFixture } from "../support/access-fixture";
+import { appRequest, sessionCookieFor } from "../support/app-requests";
+import { quietClass, rehandIn } from "../support/comparison-class";
+import { countStatements } from "../support/count-statements";
+import { seedMarkingClass } from "../support/marking-class";
+
+let fixture: AccessFixture;
+const day = 24 * 3600 * 1000;
+const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 };
+const page = (extra: Partial<MarkingDeskFilters> = {}): MarkingDeskFilters => ({ page: 1, pageSize: 50, ...extra });
+
+/** Cohorts made for one test (their students are only that test's), marked by `assignedTa`. */
+const extraCohorts: string[] = [];
+async function freshCohort(name: string): Promise<string> {
+  const [cohort] = await db.insert(cohorts).values({ courseId: fixture.courseId, name }).returning();
+  await db.insert(taCohortAssignments).values({ membershipId: fixture.membershipIds.assignedTa, cohortId: cohort.id });
+  extraCohorts.push(cohort.id);
+  return cohort.id;
+}
+const activeStudents = async (cohortId: string) =>
+  (await db.select({ n: count() }).from(courseMemberships).where(and(eq(courseMemberships.cohortId, cohortId), eq(courseMemberships.role, "student"), sql`${courseMemberships.removedAt} is null`)))[0].n;
+
+type Person = "ownStudent" | "sameCohortStudent" | "otherCohortStudent" | "assignedTa" | "unassignedTa" | "instructor";
+function accessOf(actor: Person): CourseAccess {
+  const role = actor.endsWith("Student") ? "student" : actor === "instructor" ? "instructor" : "ta";
+  const cohortIds =
+    actor === "instructor"
+      ? [fixture.cohortId, fixture.otherCohortId, ...extraCohorts]
+      : actor === "assignedTa"
+        ? [fixture.cohortId, ...extraCohorts]
+        : actor === "ownStudent" || actor === "sameCohortStudent"
+          ? [fixture.cohortId]
+          : [fixture.otherCohortId];
+  return {
+    user: { id: fixture.userIds[actor], email: `${actor.toLowerCase()}@mk.example`, name: `Test ${actor}`, sessionId: null, via: "session" },
+    course: { id: fixture.courseId, title: "Settling Spheres", code: "mk-A", term: "Test term", timeZone: "UTC" },
+    membership: { id: fixture.membershipIds[actor], role, cohortId: role === "student" ? cohortIds[0] : null },
+    cohortIds,
+  } as unknown as CourseAccess;
+}
+
+/** A published drag lab, open now, for both cohorts unless told. */
+async function newLab(title: string, { cohortIds = [fixture.cohortId, fixture.otherCohortId], requiredDrops = 10 } = {}) {
+  const [lab] = await db
+    .insert(labs)
+    .values({ courseId: fixture.courseId, title, kind: "drag", status: "published", opensAt: new Date(Date.now() - day), dueAt: new Date(Date.now() + day), requiredDrops, resolutions })
+    .returning();
+  await db.insert(labCohorts).values(cohortIds.map((cohortId) => ({ labId: lab.id, cohortId })));
+  return lab;
+}
+
+/** A rubric with every kind of criterion: two levels criteria, a range and the four automatic rules. */
+const fullRubric = {
+  criteria: [
+    { kind: "levels", title: "Set-up described", levels: [{ points: 0, description: "Not described" }, { points: 1, description: "Partly" }, { points: 2, description: "Fully, with the photo" }] },
+    { kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 },
+    { kind: "auto", title: "Enough drops", rule: "required_drops", maxPoints: 2 },
+    { kind: "auto", title: "Close to the reference", rule: "within_reference", maxPoints: 3, params: { tolerancePercent: 10 } },
+    { kind: "auto", title: "Agrees with the class", rule: "not_outlier", maxPoints: 2, params: { suspectPoints: 1 } },
+    { kind: "auto", title: "On time", rule: "on_time", maxPoints: 1, params: { latePenaltyPoints: 1 } },
+  ],
+};
+
+async function labWithRubric(title: string, options?: Parameters<typeof newLab>[1]): Promise<MarkingLab> {
+  const lab = await newLab(title, options);
+  const bare = (await loadMarkingLab(db, fixture.courseId, lab.id))!;
+  await saveRubric(db, { access: accessOf("instructor"), lab: bare, input: fullRubric });
+  return (await loadMarkingLab(db, fixture.courseId, lab.id))!;
+}
+
+const byTitle = (lab: MarkingLab, title: string) => lab.rubric.find((criterion) => criterion.title === title)!;
+const markCount = async (labId: string) => (await db.select({ n: count() }).from(marks).where(eq(marks.labId, labId)))[0].n;
+const changeCount = async (labId: string) => (await db.select({ n: count() }).from(markChanges).where(eq(markChanges.labId, labId)))[0].n;
+
+async function refusal(work: Promise<unknown>): Promise<MarkingRefusedError> {
+  const error = await work.then(
+    () => null,
+    (caught: unknown) => caught,
+  );
+  expect(error).toBeInstanceOf(MarkingRefusedError);
+  return error as MarkingRefusedError;
+}
+
+beforeAll(async () => {
+  fixture = await createAccessFixture("mk");
+});
+
+describe("automatic criteria", () => {
+  it("follow the counted hand-in's reduction: its drop count, its figure against the reference and the class", async () => {
+    const lab = await labWithRubric("Follows the reduction", { requiredDrops: 6 });
+    const { membershipIds, dropLogIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: [...quietClass(20), 1.02], label: "follow" });
+    const planted = membershipIds[20];
+    const suggestionsOf = async (membershipId: string) => {
+      const desk = await loadMarkingDesk(db, { access: accessOf("instructor"), lab, filters: page({ pageSize: 200 }) });
+      const row = desk.rows.find((candidate) => candidate.membershipId === membershipId)!;
+      return { row, points: Object.fromEntries(lab.rubric.filter((c) => c.kind === "auto").map((c) => [c.title, row.suggestions[c.id].points])) };
+    };
+    expect((await suggestionsOf(planted)).points).toEqual({ "Enough drops": 2, "Close to the reference": 3, "Agrees with the class": 2, "On time": 1 });
+
+    // The student hands in again with a figure 60 % above the reference: off the reference, and an outlier of the class.
+    await rehandIn(db, dropLogIds[20], 1.6);
+    const after = await suggestionsOf(planted);
+    expect(after.points).toMatchObject({ "Close to the reference": 0, "Agrees with the class": 0 });
+    expect(after.row.classLabel?.label).toBe("outlier");
+    expect(after.row.flagged).toBe(true);
+
+    // A real hand-in: the server's own reduction counts the drops.
+    const handIn = (drops: number[], key: string) =>
+      handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, idempotencyKey: key, input: { sphereId: fixture.sphereId, temperatureC: 22, drops } });
+    await handIn([7.41, 7.52, 7.47, 7.38, 7.5], "mk-follow-5-drops");
+    let own = await suggestionsOf(fixture.membershipIds.ownStudent);
+    expect(own.points["Enough drops"]).toBe(0);
+    expect(own.row.suggestions[byTitle(lab, "Enough drops").id].reason).toMatch(/5 drops, fewer than the 6 required/);
+    await handIn([7.41, 7.52, 7.47, 7.38, 7.5, 7.44, 7.49], "mk-follow-7-drops");
+    own = await suggestionsOf(fixture.membershipIds.ownStudent);
+    expect(own.points["Enough drops"]).toBe(2);
+    expect(own.row.handIn?.dropCount).toBe(7);
+  });
+
+  it("are overridden only with a reason, and the total uses the override", async () => {
+    const lab = await labWithRubric("Override");
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(5), label: "override" });
+    const drops = byTitle(lab, "Enough drops");
+    const access = accessOf("assignedTa");
+    const refused = await refusal(saveMarkCell(db, { access, labId: lab.id, membershipId: membershipIds[0], criterionId: drops.id, points: 1, expectedVersion: 0 }));
+    expect(refused.code).toBe("invalid_value");
+    expect(await markCount(lab.id)).toBe(0);
+    const saved = await saveMarkCell(db, { access, labId: lab.id, membershipId: membershipIds[0], criterionId: drops.id, points: 1, overrideReason: "Two drops were timed twice", expectedVersion: 0 });
+    expect(saved.status).toBe("saved");
+    if (saved.status !== "saved") return;
+    expect(saved.row.cells[drops.id]).toMatchObject({ points: 1, source: "override", suggestion: { points: 2 } });
+    // 1 (override) + 3 + 2 + 1 from the suggestions; the manual criteria have nothing yet.
+    expect(saved.row.total).toBe(7);
+    expect(saved.row.complete).toBe(false);
+  });
+});
+
+describe("the marking desk", () => {
+  it("runs the same number of SQL statements for 10 and for 1,000 students, and pages on the server", async () => {
+    const statementsFor = async (size: number) => {
+      const cohortId = await freshCohort(`Desk size ${size}`);
+      const lab = await labWithRubric(`Desk size ${size}`, { cohortIds: [cohortId] });
+      await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(size), label: `desk${size}` });
+      const { statements, result } = await countStatements(() => loadMarkingDesk(db, { access: accessOf("assignedTa"), lab, filters: page({ page: 2, pageSize: 5, sort: { by: "name", direction: "desc" } }) }));
+      expect(result.totalRows).toBe(size);
+      expect(result.rows).toHaveLength(5);
+      expect(result.pageCount).toBe(size / 5);
+      // Names are numbered: descending, page 2 starts at the sixth from the end.
+      expect(result.rows[0].studentName).toBe(`desk${size} student ${String(size - 6).padStart(4, "0")}`);
+      return statements;
+    };
+    const small = await statementsFor(10);
+    expect(small).toBeLessThanOrEqual(3);
+    expect(await statementsFor(1000)).toBe(small);
+  });
+
+  it("filters and sorts on the server: missing, late, unmarked, by total", async () => {
+    const cohortId = await freshCohort("Filters");
+    const lab = await labWithRubric("Filters", { cohortIds: [cohortId] });
+    const { membershipIds, dropLogIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(10), label: "filters", late: (index) => index < 3 });
+    // Two of them never handed in: their drop logs have no counted version.
+    await db.update(dropLogs).set({ latestVersionId: null }).where(inArray(dropLogs.id, dropLogIds.slice(8)));
+    const access = accessOf("assignedTa");
+    const desk = (filters: Partial<MarkingDeskFilters>) => loadMarkingDesk(db, { access, lab, filters: page(filters) });
+    expect((await desk({ status: "late" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(0, 3).sort());
+    expect((await desk({ status: "missing" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
+    await applyToMany(db, { access, labId: lab.id, membershipIds: [membershipIds[5]], change: { kind: "score", criterionId: byTitle(lab, "Discussion").id, points: 4 } });
+    const byTotal = await desk({ sort: { by: "total", direction: "desc" } });
+    expect(byTotal.rows[0].membershipId).toBe(membershipIds[5]);
+    // Missing hand-ins get 0 from every automatic criterion, so they sort last.
+    expect(byTotal.rows.slice(-2).map((row) => row.total)).toEqual([0, 0]);
+    expect((await desk({ status: "unmarked" })).totalRows).toBe(10);
+    expect((await desk({})).counts).toEqual({ all: 10, unmarked: 10, flagged: 0, late: 3, missing: 2 });
+    expect(readMarkingDeskFilters(new URL("http://x/?status=late&sort=-total&page=3&pageSize=999&cohort=nope"))).toEqual({
+      cohortId: undefined,
+      status: "late",
+      sort: { by: "total", direction: "desc" },
+      page: 3,
+      pageSize: 50,
+    });
+  });
+});
+
+describe("a bulk action", () => {
+  it("applies a level to 500 students in one transaction, with the same statements as for 5", async () => {
+    const lab = await labWithRubric("Bulk 500", { cohortIds: [fixture.cohortId] });
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(505), label: "bulk" });
+    const setUp = byTitle(lab, "Set-up described");
+    const access = accessOf("assignedTa");
+    const few = await countStatements(() => applyToMany(db, { access, labId: lab.id, membershipIds: membershipIds.slice(500), change: { kind: "score", criterionId: setUp.id, level: 3 } }));
+    const many = await countStatements(() => applyToMany(db, { access, labId: lab.id, membershipIds: membershipIds.slice(0, 500), change: { kind: "score", criterionId: setUp.id, level: 2 } }));
+    expect(many.result).toMatchObject({ changed: 500, unchanged: 0 });
+    expect(many.statements).toBe(few.statements);
+
+    const written = await db.select().from(marks).where(and(eq(marks.labId, lab.id), inArray(marks.membershipId, membershipIds.slice(0, 500))));
+    expect(written).toHaveLength(500);
+    expect(written.every((mark) => mark.scores[setUp.id]?.level === 2 && mark.scores[setUp.id]?.points === 1 && mark.markedById === fixture.userIds.assignedTa)).toBe(true);
+    // now() is the transaction's start: one value over all rows means one transaction wrote them.
+    expect(new Set(written.map((mark) => mark.updatedAt.toISOString())).size).toBe(1);
+    const history = await db.select().from(markChanges).where(and(eq(markChanges.labId, lab.id), eq(markChanges.source, "bulk")));
+    expect(history).toHaveLength(505);
+    expect(new Set(history.filter((change) => membershipIds.slice(0, 500).includes(change.membershipId)).map((change) => change.changedAt.toISOString())).size).toBe(1);
+
+    // The same level again changes nothing and records nothing.
+    expect(await applyToMany(db, { access, labId: lab.id, membershipIds: membershipIds.slice(0, 10), change: { kind: "score", criterionId: setUp.id, level: 2 } })).toMatchObject({ changed: 0, unchanged: 10 });
+    expect(await changeCount(lab.id)).toBe(505);
+  });
+
+  it("is all or nothing: one student of another cohort, or an invalid value, refuses the whole batch", async () => {
+    const lab = await labWithRubric("Bulk refused");
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(499), label: "refused" });
+    const setUp = byTitle(lab, "Set-up described");
+    const access = accessOf("assignedTa");
+    const snapshot = async () => ({ marks: await markCount(lab.id), changes: await changeCount(lab.id) });
+    await applyToMany(db, { access, labId: lab.id, membershipIds: membershipIds.slice(0, 3), change: { kind: "score", criterionId: setUp.id, level: 1 } });
+    const before = await snapshot();
+    expect(before).toEqual({ marks: 3, changes: 3 });
+
+    const deniedBefore = (await db.select({ n: count() }).from(auditEvents).where(and(eq(auditEvents.action, "access.denied"), eq(auditEvents.actorId, fixture.userIds.assignedTa))))[0].n;
+    const outside = await refusal(
+      applyToMany(db, { access, labId: lab.id, membershipIds: [...membershipIds, fixture.membershipIds.otherCohortStudent], change: { kind: "score", criterionId: setUp.id, level: 3 } }),
+    );
+    expect(outside.code).toBe("not_in_cohort");
+    expect(outside.membershipIds).toEqual([fixture.membershipIds.otherCohortStudent]);
+    expect(await snapshot()).toEqual(before);
+    const deniedAfter = (await db.select({ n: count() }).from(auditEvents).where(and(eq(auditEvents.action, "access.denied"), eq(auditEvents.actorId, fixture.userIds.assignedTa))))[0].n;
+    expect(deniedAfter).toBe(deniedBefore + 1);
+
+    // Not a student at all (the instructor's own membership) is refused the same way.
+    expect((await refusal(applyToMany(db, { access: accessOf("instructor"), labId: lab.id, membershipIds: [...membershipIds, fixture.membershipIds.instructor], change: { kind: "latePenalty", points: 1 } }))).code).toBe("not_in_cohort");
+    expect((await refusal(applyToMany(db, { access, labId: lab.id, membershipIds, change: { kind: "score", criterionId: setUp.id, level: 4 } }))).code).toBe("invalid_value");
+    expect((await refusal(applyToMany(db, { access, labId: lab.id, membershipIds, change: { kind: "latePenalty", points: -2 } }))).code).toBe("invalid_value");
+    expect(await snapshot()).toEqual(before);
+    const levels = await db.select({ scores: marks.scores }).from(marks).where(eq(marks.labId, lab.id));
+    expect(levels.every((mark) => mark.scores[setUp.id]?.level === 1)).toBe(true);
+  });
+});
+
+describe("two people editing one mark", () => {
+  it("get a conflict instead of overwriting each other", async () => {
+    const lab = await labWithRubric("Conflict", { cohortIds: [fixture.cohortId] });
+    const discussion = byTitle(lab, "Discussion");
+    const membershipId = fixture.membershipIds.sameCohortStudent;
+    const cell = (access: CourseAccess, points: number, expectedVersion: number) => saveMarkCell(db, { access, labId: lab.id, membershipId, criterionId: discussion.id, points, expectedVersion });
+
+    const first = await cell(accessOf("assignedTa"), 3, 0);
+    expect(first).toMatchObject({ status: "saved", mark: { version: 1 } });
+    // The instructor's page still shows the student unmarked (version 0).
+    const second = await cell(accessOf("instructor"), 1, 0);
+    expect(second.status).toBe("conflict");
+    if (second.status === "conflict") expect(second.current).toMatchObject({ version: 1, scores: { [discussion.id]: { points: 3 } } });
+    const [stored] = await db.select().from(marks).where(and(eq(marks.labId, lab.id), eq(marks.membershipId, membershipId)));
+    expect(stored.scores[discussion.id].points).toBe(3);
+
+    // Two saves from version 1 at once: one is saved, the other is told.
+    const outcomes = await Promise.all([cell(accessOf("assignedTa"), 2, 1), cell(accessOf("instructor"), 4, 1)]);
+    expect(outcomes.map((outcome) => outcome.status).sort()).toEqual(["conflict", "saved"]);
+    const [after] = await db.select().from(marks).where(and(eq(marks.labId, lab.id), eq(marks.membershipId, membershipId)));
+    expect(after.version).toBe(2);
+    expect(after.scores[discussion.id].points).toBe(outcomes[0].status === "saved" ? 2 : 4);
+    expect(await changeCount(lab.id)).toBe(2);
+  });
+});
+
+describe("cohorts", () => {
+  it("keep a TA to their own students: another cohort can be neither seen nor marked", async () => {
+    const lab = await labWithRubric("Cohorts");
+    const discussion = byTitle(lab, "Discussion");
+    const ta = accessOf("assignedTa");
+    const desk = await loadMarkingDesk(db, { access: ta, lab, filters: page({ pageSize: 200 }) });
+    const seen = desk.rows.map((row) => row.membershipId);
+    expect(seen).toEqual(expect.arrayContaining([fixture.membershipIds.ownStudent, fixture.membershipIds.sameCohortStudent]));
+    expect(seen).not.toContain(fixture.membershipIds.otherCohortStudent);
+    expect(desk.rows.every((row) => row.cohortId === fixture.cohortId)).toBe(true);
+    expect(desk.cohorts.map((cohort) => cohort.id)).toEqual([fixture.cohortId]);
+    expect((await refusal(loadMarkingDesk(db, { access: ta, lab, filters: page({ cohortId: fixture.otherCohortId }) }))).status).toBe(403);
+    const refused = await refusal(saveMarkCell(db, { access: ta, labId: lab.id, membershipId: fixture.membershipIds.otherCohortStudent, criterionId: discussion.id, points: 2, expectedVersion: 0 }));
+    expect(refused).toMatchObject({ code: "not_in_cohort", status: 403 });
+    expect(await markCount(lab.id)).toBe(0);
+    // The instructor sees both cohorts.
+    const all = await loadMarkingDesk(db, { access: accessOf("instructor"), lab, filters: page({ cohortId: fixture.otherCohortId }) });
+    expect(all.rows.map((row) => row.membershipId)).toContain(fixture.membershipIds.otherCohortStudent);
+
+    // A TA of none of the lab's cohorts gets nothing; students never mark.
+    const onlyCohortOne = await labWithRubric("Cohort one only", { cohortIds: [fixture.cohortId] });
+    expect((await refusal(loadMarkingDesk(db, { access: accessOf("unassignedTa"), lab: onlyCohortOne, filters: page() }))).code).toBe("not_in_cohort");
+    expect((await refusal(loadMarkingDesk(db, { access: accessOf("ownStudent"), lab, filters: page() }))).code).toBe("forbidden");
+    expect((await refusal(saveMarkCell(db, { access: accessOf("ownStudent"), labId: lab.id, membershipId: fixture.membershipIds.ownStudent, criterionId: discussion.id, points: 4, expectedVersion: 0 }))).code).toBe("forbidden");
+  });
+});
+
+describe("moderation and release", () => {
+  it("summarises each TA's marks, lets only instructors adjust with a reason, and keeps every change", async () => {
+    const lab = await labWithRubric("Moderation");
+    const { membershipIds: cohortOne } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(3), label: "mod1" });
+    const { membershipIds: cohortTwo } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.otherCohortId, figures: quietClass(2), label: "mod2" });
+    const discussion = byTitle(lab, "Discussion");
+    const discussionPoints = [0, 2, 4];
+    for (const [index, membershipId] of cohortOne.entries()) {
+      await saveMarkCell(db, { access: accessOf("assignedTa"), labId: lab.id, membershipId, criterionId: discussion.id, points: discussionPoints[index], expectedVersion: 0 });
+    }
+    for (const membershipId of cohortTwo) await saveMarkCell(db, { access: accessOf("unassignedTa"), labId: lab.id, membershipId, criterionId: discussion.id, points: 1, expectedVersion: 0 });
+
+    const moderation = await loadModeration(db, { access: accessOf("instructor"), lab });
+    // Each seeded hand-in: 2 + 3 + 2 + 1 = 8 suggested, plus the discussion points.
+    const assigned = moderation.markers.find((entry) => entry.marker?.id === fixture.userIds.assignedTa)!;
+    expect(assigned).toMatchObject({ count: 3, mean: 10, standardDeviation: 2, min: 8, max: 12 });
+    const other = moderation.markers.find((entry) => entry.marker?.id === fixture.userIds.unassignedTa)!;
+    expect(other).toMatchObject({ count: 2, mean: 9, standardDeviation: 0 });
+    expect(assigned.histogram.reduce((sum, n) => sum + n, 0)).toBe(3);
+    expect(moderation.overall.count).toBe(5);
+    const students = (await activeStudents(fixture.cohortId)) + (await activeStudents(fixture.otherCohortId));
+    expect(moderation.progress).toEqual({ unmarked: students - 5, partial: 5, marked: 0 });
+    expect((await refusal(loadModeration(db, { access: accessOf("assignedTa"), lab }))).code).toBe("instructors_only");
+
+    const target = cohortOne[0];
+    const adjust = (access: CourseAccess, reason?: string) =>
+      saveMark(db, { access, labId: lab.id, membershipId: target, expectedVersion: 1, source: "moderation", reason, change: { kind: "score", criterionId: discussion.id, points: 1 } });
+    expect((await refusal(adjust(accessOf("assignedTa"), "I am a TA"))).code).toBe("instructors_only");
+    expect((await refusal(adjust(accessOf("instructor")))).code).toBe("reason_required");
+    const adjusted = await adjust(accessOf("instructor"), "In line with the other cohort's discussion marks");
+    expect(adjusted).toMatchObject({ status: "saved", row: { total: 9 } });
+    const [stored] = await db.select().from(marks).where(and(eq(marks.labId, lab.id), eq(marks.membershipId, target)));
+    expect(stored).toMatchObject({ markedById: fixture.userIds.assignedTa, moderatedById: fixture.userIds.instructor, total: 9 });
+
+    const history = await listMarkChanges(db, { access: accessOf("instructor"), labId: lab.id, membershipId: target });
+    expect(history.map((entry) => entry.source)).toEqual(["moderation", "desk"]);
+    expect(history[0]).toMatchObject({ reason: "In line with the other cohort's discussion marks", changedBy: { id: fixture.userIds.instructor }, old: { total: 8 }, new: { total: 9 } });
+    expect((await refusal(listMarkChanges(db, { access: accessOf("assignedTa"), labId: lab.id }))).code).toBe("instructors_only");
+  });
+
+  it("e-mails each student once however often the marks are released, and shows students nothing before", async () => {
+    const lab = await labWithRubric("Release", { cohortIds: [fixture.cohortId] });
+    const setUp = byTitle(lab, "Set-up described");
+    const discussion = byTitle(lab, "Discussion");
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(3), label: "release" });
+    const ta = accessOf("assignedTa");
+    const instructor = accessOf("instructor");
+    await applyToMany(db, { access: ta, labId: lab.id, membershipIds: [...membershipIds, fixture.membershipIds.ownStudent], change: { kind: "score", criterionId: setUp.id, level: 3 } });
+    await applyToMany(db, { access: ta, labId: lab.id, membershipIds: [fixture.membershipIds.ownStudent], change: { kind: "feedback", text: "Clear photo; say which band you started the watch at." } });
+    const outbox = () => db.select().from(emailOutbox).where(like(emailOutbox.dedupeKey, `marks-released:${lab.id}:%`));
+    await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, idempotencyKey: "mk-release-hand-in", input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] } });
+
+    expect(await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id })).toBeNull();
+    expect((await refusal(releaseMarks(db, { access: instructor, lab }))).code).toBe("not_ready");
+    expect((await refusal(markLabReady(db, { access: ta, lab }))).code).toBe("instructors_only");
+    await markLabReady(db, { access: instructor, lab });
+    // Ready: TAs no longer change marks; the instructor still may.
+    expect((await refusal(saveMarkCell(db, { access: ta, labId: lab.id, membershipId: membershipIds[0], criterionId: discussion.id, points: 1, expectedVersion: 1 }))).code).toBe("marking_closed");
+    expect(await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id })).toBeNull();
+
+    expect(await releaseMarks(db, { access: instructor, lab })).toMatchObject({ released: 4, emailed: 4, unmarked: (await activeStudents(fixture.cohortId)) - 4 });
+    const sent = await outbox();
+    expect(sent.map((row) => row.toAddress)).toContain("ownstudent@mk.example");
+    expect(sent).toHaveLength(4);
+    expect(sent.every((row) => row.template === "marks-released" && row.courseId === fixture.courseId)).toBe(true);
+    expect(await releaseMarks(db, { access: instructor, lab })).toMatchObject({ released: 0, emailed: 0, alreadyReleased: 4 });
+    expect(await outbox()).toHaveLength(4);
+
+    // A student marked after the first release is e-mailed by the next one, and nobody else again.
+    await saveMarkCell(db, { access: instructor, labId: lab.id, membershipId: fixture.membershipIds.sameCohortStudent, criterionId: setUp.id, level: 1, expectedVersion: 0 });
+    expect(await releaseMarks(db, { access: instructor, lab })).toMatchObject({ released: 1, emailed: 1 });
+    const all = await outbox();
+    expect(all).toHaveLength(5);
+    expect(new Set(all.map((row) => row.toAddress)).size).toBe(5);
+
+    const seen = (await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id }))!;
+    // The fixture's hand-in: 5 drops (fewer than 10), on time; 2 for the set-up.
+    expect(seen).toMatchObject({ feedback: "Clear photo; say which band you started the watch at.", changedAfterRelease: null, basedOn: { dropCount: 5, late: false } });
+    expect(seen.criteria.find((criterion) => criterion.title === "Set-up described")).toMatchObject({ points: 2, level: { number: 3, description: "Fully, with the photo" } });
+    expect(seen.criteria.find((criterion) => criterion.title === "Enough drops")).toMatchObject({ points: 0, automatic: true });
+    expect(seen.total).toBe(seen.criteria.reduce((sum, criterion) => sum + (criterion.points ?? 0), 0));
+
+    // A released mark changes only with a reason, which the student is shown.
+    const change = { kind: "score" as const, criterionId: discussion.id, points: 3 };
+    expect((await refusal(saveMark(db, { access: instructor, labId: lab.id, membershipId: fixture.membershipIds.ownStudent, expectedVersion: 2, change }))).code).toBe("reason_required");
+    await saveMark(db, { access: instructor, labId: lab.id, membershipId: fixture.membershipIds.ownStudent, expectedVersion: 2, change, reason: "The discussion had been missed" });
+    const changed = (await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id }))!;
+    expect(changed.total).toBe(seen.total + 3);
+    expect(changed.changedAfterRelease).toMatchObject({ releasedTotal: seen.total, changes: [{ reason: "The discussion had been missed", oldTotal: seen.total, newTotal: seen.total + 3 }] });
+    // Another student's mark stays theirs; staff cannot read a mark as a student.
+    expect(await loadStudentMark(db, { access: accessOf("otherCohortStudent"), labId: lab.id })).toBeNull();
+    expect((await refusal(loadStudentMark(db, { access: instructor, labId: lab.id }))).code).toBe("forbidden");
+  });
+
+  it("keeps a released mark's automatic points when the class changes afterwards", async () => {
+    const cohortId = await freshCohort("Frozen");
+    const lab = await labWithRubric("Frozen", { cohortIds: [cohortId] });
+    const { membershipIds, dropLogIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: [...quietClass(12), 1.3], label: "frozen" });
+    const instructor = accessOf("instructor");
+    const setUp = byTitle(lab, "Set-up described");
+    await applyToMany(db, { access: instructor, labId: lab.id, membershipIds, change: { kind: "score", criterionId: setUp.id, level: 2 } });
+    await markLabReady(db, { access: instructor, lab });
+    await releaseMarks(db, { access: instructor, lab });
+    const classCriterion = byTitle(lab, "Agrees with the class");
+    const before = await loadMarkingDesk(db, { access: instructor, lab, filters: page() });
+    const planted = before.rows.find((row) => row.membershipId === membershipIds[12])!;
+    expect(planted.cells[classCriterion.id]).toMatchObject({ points: 0, source: "released" });
+    // The others re-hand in near 1.3: the planted figure is no longer an outlier, but its released points stay.
+    for (const [index, dropLogId] of dropLogIds.slice(0, 12).entries()) await rehandIn(db, dropLogId, 1.28 + index * 0.003);
+    const after = await loadMarkingDesk(db, { access: instructor, lab, filters: page() });
+    const row = after.rows.find((candidate) => candidate.membershipId === membershipIds[12])!;
+    expect(row.suggestions[classCriterion.id].points).toBe(2);
+    expect(row.cells[classCriterion.id]).toMatchObject({ points: 0, source: "released" });
+    expect(row.total).toBe(planted.total);
+  });
+});
+
+describe("the rubric", () => {
+  it("keeps its criteria's ids (and scores) when edited, and is copied to another lab with new ids", async () => {
+    const lab = await labWithRubric("Rubric source");
+    const discussion = byTitle(lab, "Discussion");
+    await saveMarkCell(db, { access: accessOf("instructor"), labId: lab.id, membershipId: fixture.membershipIds.ownStudent, criterionId: discussion.id, points: 3, expectedVersion: 0 });
+    const edited = await saveRubric(db, {
+      access: accessOf("instructor"),
+      lab,
+      input: { criteria: [{ id: discussion.id, kind: "range", title: "Discussion of the result", minPoints: 0, maxPoints: 5 }, fullRubric.criteria[0]] },
+    });
+    expect(edited.map((criterion) => criterion.title)).toEqual(["Discussion of the result", "Set-up described"]);
+    expect(edited[0].id).toBe(discussion.id);
+    const reread = (await loadMarkingLab(db, fixture.courseId, lab.id))!;
+    const desk = await loadMarkingDesk(db, { access: accessOf("instructor"), lab: reread, filters: page() });
+    expect(desk.rows.find((row) => row.membershipId === fixture.membershipIds.ownStudent)!.cells[discussion.id].points).toBe(3);
+    expect((await refusal(saveRubric(db, { access: accessOf("assignedTa"), lab: reread, input: fullRubric }))).code).toBe("instructors_only");
+
+    const target = await newLab("Rubric target");
+    const copied = await copyRubric(db, { access: accessOf("instructor"), lab: { id: target.id }, fromLabId: lab.id });
+    expect(copied.map((criterion) => criterion.title)).toEqual(["Discussion of the result", "Set-up described"]);
+    expect(copied.every((criterion) => !edited.some((original) => original.id === criterion.id))).toBe(true);
+    expect((await db.select({ n: count() }).from(rubricCriteria).where(eq(rubricCriteria.labId, target.id)))[0].n).toBe(2);
+    // The source has marks now: copying over it is refused.
+    expect((await refusal(copyRubric(db, { access: accessOf("instructor"), lab: { id: lab.id }, fromLabId: target.id }))).code).toBe("rubric_locked");
+  });
+});
+
+describe("the marks CSV", () => {
+  it("has the generic columns, a column per criterion, and neutralises formulas in names and titles", async () => {
+    const lab = await newLab("Export");
+    const bare = (await loadMarkingLab(db, fixture.courseId, lab.id))!;
+    await saveRubric(db, { access: accessOf("instructor"), lab: bare, input: { criteria: [{ kind: "range", title: "=SUM(A1:A9)", minPoints: 0, maxPoints: 5 }, { kind: "auto", title: "On time", rule: "on_time", maxPoints: 1 }] } });
+    const marked = (await loadMarkingLab(db, fixture.courseId, lab.id))!;
+    await db.execute(sql`update users set name = '=HYPERLINK("http://evil.example","x")', student_number = '+4420' where id = ${fixture.userIds.sameCohortStudent}`);
+    await saveMarkCell(db, { access: accessOf("instructor"), labId: lab.id, membershipId: fixture.membershipIds.sameCohortStudent, criterionId: marked.rubric[0].id, points: 4, expectedVersion: 0 });
+    await saveMark(db, { access: accessOf("instructor"), labId: lab.id, membershipId: fixture.membershipIds.sameCohortStudent, expectedVersion: 1, change: { kind: "latePenalty", points: 0.5 } });
+
+    const { loader } = await import("~/routes/courses.$courseId.labs.$labId.marks[.]csv");
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const response = (await loader({ request: appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marks.csv`, { cookie }), params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never)) as Response;
+    expect(response.headers.get("content-type")).toMatch(/^text\/csv/);
+    const lines = (await response.text()).replace(/^\uFEFF/, "").split(/\r?\n/);
+    expect(lines[0]).toBe("student_name,email,student_number,cohort,total,'=SUM(A1:A9),On time,late,late_penalty,released_at");
+    const student = lines.find((line) => line.includes("HYPERLINK"))!;
+    expect(student.startsWith(`"'=HYPERLINK(""http://evil.example"",""x"")"`)).toBe(true);
+    // 4 points, 1 for an on-time hand-in (none: a student without a hand-in gets 0 there), minus the 0.5 penalty.
+    expect(student).toContain(",'+4420,Cohort one,3.5,4,0,no,0.5,");
+    await db.execute(sql`update users set name = 'Test sameCohortStudent', student_number = null where id = ${fixture.userIds.sameCohortStudent}`);
+  });
+});
