@@ -33,6 +33,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     page: desk.page,
     pageCount: desk.pageCount,
     totalRows: desk.totalRows,
+    matchingIds: desk.matchingIds,
     maxTotal: desk.maxTotal,
     canEdit: desk.canEdit,
     filters: { cohort: url.searchParams.get("cohort"), status: url.searchParams.get("status"), sort: url.searchParams.get("sort") },
@@ -189,7 +190,7 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
       ) : null}
       {!canEdit ? <Notice tone="info">The instructor has closed this lab&apos;s marking for moderation: marks are shown but cannot be changed here.</Notice> : null}
       <DeskFilters cohorts={loaderData.cohorts} counts={loaderData.counts} filters={filters} />
-      {lab.rubric.length ? <MarkingDesk courseId={courseId} labId={lab.id} kind={lab.kind} rubric={lab.rubric} rows={rows} canEdit={canEdit} maxTotal={maxTotal} sort={filters.sort} /> : null}
+      {lab.rubric.length ? <MarkingDesk courseId={courseId} labId={lab.id} kind={lab.kind} rubric={lab.rubric} rows={rows} matchingIds={loaderData.matchingIds} canEdit={canEdit} maxTotal={maxTotal} sort={filters.sort} /> : null}
       <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />
     </div>
   );

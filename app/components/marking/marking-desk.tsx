@@ -25,6 +25,8 @@ export type DeskProps = {
   kind: "drag" | "viscometry";
   rubric: RubricCriterion[];
   rows: MarkingDeskRow[];
+  /** Every student passing the filters, on all pages. */
+  matchingIds: string[];
   canEdit: boolean;
   maxTotal: number;
   /** The current `sort` search parameter, e.g. `-total`. */
@@ -280,9 +282,11 @@ function DeskRow({
 
 const column = createColumnHelper<MarkingDeskRow>();
 
-export function MarkingDesk({ courseId, labId, kind, rubric, rows, canEdit, maxTotal, sort }: DeskProps) {
+export function MarkingDesk({ courseId, labId, kind, rubric, rows, matchingIds, canEdit, maxTotal, sort }: DeskProps) {
   const [local, setLocal] = useState<Record<string, RowState>>({});
   const [selection, setSelection] = useState<RowSelectionState>({});
+  /** Every student matching the filters is selected, beyond this page. */
+  const [allMatching, setAllMatching] = useState(false);
   const [openId, setOpenId] = useState<string | null>(null);
   const [tools, setTools] = useState<Record<string, RowTools>>({});
   const tableRef = useRef<HTMLTableElement>(null);
@@ -308,6 +312,7 @@ export function MarkingDesk({ courseId, labId, kind, rubric, rows, canEdit, maxT
   const rowIds = rows.map((row) => row.membershipId).join();
   useEffect(() => {
     setSelection((current) => Object.fromEntries(Object.entries(current).filter(([id]) => rowIds.includes(id))));
+    setAllMatching(false);
   }, [rowIds]);
 
   const columns = useMemo(() => {
@@ -368,7 +373,14 @@ export function MarkingDesk({ courseId, labId, kind, rubric, rows, canEdit, maxT
     manualSorting: true,
     manualFiltering: true,
   });
-  const selectedIds = Object.keys(selection).filter((id) => selection[id]);
+  const pageSelected = Object.keys(selection).filter((id) => selection[id]);
+  // Unticking a row of the page takes the selection back to the ticked rows.
+  const everyMatching = allMatching && pageSelected.length === rows.length;
+  const selectedIds = everyMatching ? matchingIds : pageSelected;
+  const clearSelection = useCallback(() => {
+    setSelection({});
+    setAllMatching(false);
+  }, []);
   const open = useCallback((membershipId: string) => setOpenId(membershipId), []);
   const desk = useMemo(() => ({ canEdit, rubric, open, kind }), [canEdit, rubric, open, kind]);
   const openIndex = rows.findIndex((row) => row.membershipId === openId);
@@ -383,7 +395,26 @@ export function MarkingDesk({ courseId, labId, kind, rubric, rows, canEdit, maxT
   return (
     <DeskContext.Provider value={desk}>
       <div className="flex flex-col gap-3">
-        {canEdit ? <BulkBar rubric={rubric} selectedIds={selectedIds} clear={() => setSelection({})} /> : null}
+        {canEdit && pageSelected.length === rows.length && rows.length > 0 && matchingIds.length > rows.length ? (
+          <p className="no-print text-sm">
+            {everyMatching ? (
+              <>
+                All {matchingIds.length} students matching the filters are selected.{" "}
+                <button type="button" className="underline" onClick={() => setAllMatching(false)}>
+                  Only this page
+                </button>
+              </>
+            ) : (
+              <>
+                The {rows.length} students on this page are selected.{" "}
+                <button type="button" className="underline" onClick={() => setAllMatching(true)}>
+                  Select all {matchingIds.length} that match the filters
+                </button>
+              </>
+            )}
+          </p>
+        ) : null}
+        {canEdit ? <BulkBar rubric={rubric} selectedIds={selectedIds} clear={clearSelection} /> : null}
         <div className="flex flex-col gap-4 xl:flex-row xl:items-start">
           <div role="region" aria-label="Marks" tabIndex={-1} className="min-w-0 flex-1 overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
             <table

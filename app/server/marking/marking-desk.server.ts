@@ -33,6 +33,8 @@ export type MarkingDesk = {
   rows: MarkingDeskRow[];
   /** Rows passing the filters (all pages). */
   totalRows: number;
+  /** Every student passing the filters, on every page: what "select all that match" selects. */
+  matchingIds: string[];
   page: number;
   pageSize: number;
   pageCount: number;
@@ -116,6 +118,7 @@ export async function loadMarkingDesk(
     cohorts,
     rows: filtered.slice((page - 1) * pageSize, page * pageSize),
     totalRows: filtered.length,
+    matchingIds: filtered.map((row) => row.membershipId),
     page,
     pageSize,
     pageCount,
