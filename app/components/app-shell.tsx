@@ -1,3 +1,4 @@
+import { roleWords } from "~/lib/courses/roles";
 import type { ReactNode } from "react";
 import { Link, NavLink } from "react-router";
 import { BenchpostMark } from "./benchpost-mark";
@@ -15,7 +16,6 @@ export type ShellViewer = {
 
 export type NavItem = { to: string; label: string };
 
-const roleWords: Record<ViewerRole, string> = { instructor: "Instructor", ta: "Teaching assistant", student: "Student" };
 
 /**
  * The navigation a viewer gets: each course they belong to, with the rooms their role opens there.

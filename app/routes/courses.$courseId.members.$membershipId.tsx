@@ -1,8 +1,9 @@
+import { RoleAndCohortFields } from "~/components/member-fields";
+import { roleWords } from "~/lib/courses/roles";
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members.$membershipId";
 import { Button } from "~/components/ui/button";
-import { SelectField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { parseForm } from "~/lib/forms/parse-form";
@@ -18,7 +19,6 @@ const memberAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("remove") }),
 ]);
 
-const roleWords = { instructor: "Instructor", ta: "Teaching assistant", student: "Student" } as const;
 
 /** The member page: the member themselves, the course's instructors, and the TAs of the member's cohort. */
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -82,19 +82,7 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
           ) : null}
           <Form method="post" className="grid gap-3 sm:grid-cols-2 sm:items-end">
             <input type="hidden" name="intent" value="change-role" />
-            <SelectField label="Role" name="role" defaultValue={member.role} error={errors.role}>
-              <option value="student">Student</option>
-              <option value="ta">Teaching assistant</option>
-              <option value="instructor">Instructor</option>
-            </SelectField>
-            <SelectField label="Cohort (students only)" name="cohortId" defaultValue={member.cohortId ?? ""} error={errors.cohortId}>
-              <option value="">No cohort</option>
-              {cohorts.map((cohort) => (
-                <option key={cohort.id} value={cohort.id}>
-                  {cohort.name}
-                </option>
-              ))}
-            </SelectField>
+            <RoleAndCohortFields role={member.role} cohortId={member.cohortId ?? ""} cohorts={cohorts} errors={errors} cohortLabel="Cohort (students only)" />
             <div className="sm:col-span-2">
               <Button type="submit" disabled={busy}>
                 Save

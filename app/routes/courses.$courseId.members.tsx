@@ -1,8 +1,10 @@
+import { RoleAndCohortFields } from "~/components/member-fields";
+import { roleWords } from "~/lib/courses/roles";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members";
 import { Button } from "~/components/ui/button";
-import { SelectField, TextField } from "~/components/ui/field";
+import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { parseForm } from "~/lib/forms/parse-form";
@@ -19,7 +21,6 @@ const inviteSchema = z.object({
   cohortId: z.union([z.literal(""), z.uuid()]).optional(),
 });
 
-const roleWords = { instructor: "Instructor", ta: "Teaching assistant", student: "Student" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
@@ -67,19 +68,13 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
           <input type="hidden" name="intent" value="invite" />
           <TextField label="E-mail address" name="email" type="email" required defaultValue={values.email} error={errors.email} />
           <TextField label="Name (optional)" name="name" defaultValue={values.name} error={errors.name} />
-          <SelectField label="Role" name="role" defaultValue={values.role ?? "student"} error={errors.role}>
-            <option value="student">Student</option>
-            <option value="ta">Teaching assistant</option>
-            <option value="instructor">Instructor</option>
-          </SelectField>
-          <SelectField label="Cohort (students: their cohort; TAs: the cohort they mark)" name="cohortId" defaultValue={values.cohortId ?? ""} error={errors.cohortId}>
-            <option value="">No cohort</option>
-            {cohorts.map((cohort) => (
-              <option key={cohort.id} value={cohort.id}>
-                {cohort.name}
-              </option>
-            ))}
-          </SelectField>
+          <RoleAndCohortFields
+            role={values.role ?? "student"}
+            cohortId={values.cohortId ?? ""}
+            cohorts={cohorts}
+            errors={errors}
+            cohortLabel="Cohort (students: their cohort; TAs: the cohort they mark)"
+          />
           <div className="sm:col-span-2 lg:col-span-4">
             <Button type="submit" disabled={busy}>
               Send the invitation

@@ -1,8 +1,8 @@
+import { roleWords } from "~/lib/courses/roles";
 import { ButtonLink } from "~/components/ui/button";
 import { Link, useRouteLoaderData } from "react-router";
 import type { loader as rootLoader } from "~/root";
 
-const roleWords = { instructor: "Instructor", ta: "Teaching assistant", student: "Student" } as const;
 
 export default function Home() {
   const viewer = useRouteLoaderData<typeof rootLoader>("root")?.viewer ?? null;

@@ -324,6 +324,7 @@ describe("moderation and release", () => {
     const moderation = await loadModeration(db, { access: accessOf("instructor"), lab });
     // Each seeded hand-in: 2 + 3 + 2 + 1 = 8 suggested, plus the discussion points.
     const assigned = moderation.markers.find((entry) => entry.marker?.id === fixture.userIds.assignedTa)!;
+    // Worked by hand: totals 8, 10, 12; the sample standard deviation (n − 1) is √((4 + 0 + 4) / 2) = 2.
     expect(assigned).toMatchObject({ count: 3, mean: 10, standardDeviation: 2, min: 8, max: 12 });
     const other = moderation.markers.find((entry) => entry.marker?.id === fixture.userIds.unassignedTa)!;
     expect(other).toMatchObject({ count: 2, mean: 9, standardDeviation: 0 });

@@ -89,6 +89,9 @@ export function linePath(points: [number, number][]): string {
     .join("");
 }
 
+/** The small table of numbers behind every plot. */
+export const chartTableClass = "text-sm [&_td]:pr-4 [&_th]:pr-4 [&_th]:text-left [&_th]:font-medium";
+
 /**
  * A plot as a figure: the SVG names itself with <title> and <desc>, the caption says how to read it,
  * and the same numbers sit in a table behind a <details> for screen readers, copying and print.

@@ -7,7 +7,7 @@ import { scaleLinear, scaleLog, scaleSequential } from "d3-scale";
 import { referenceDragCoefficient, type ClassComparisonLabel, type DragModel } from "~/lib/reduction";
 import type { ComparisonLimits } from "~/lib/comparison/comparison-settings";
 import { formatNumber } from "~/lib/kits/part-display";
-import { Axes, ChartFigure, LabelLegend, LabelMarker, labelWords, linePath, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
+import { Axes, ChartFigure, chartTableClass, LabelLegend, LabelMarker, labelWords, linePath, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
 
 export type ComparisonPoint = {
   id: string;
@@ -50,7 +50,40 @@ function PointLink({ point, x, y, text }: { point: ComparisonPoint; x: number; y
   );
 }
 
-const tableClass = "text-sm [&_td]:pr-4 [&_th]:pr-4 [&_th]:text-left [&_th]:font-medium";
+
+/** The numbers behind a plot: one row per point, the student linking to the hand-in, the label last. */
+function PointTable({ points, columns }: { points: ComparisonPoint[]; columns: { header: string; value: (point: ComparisonPoint) => string }[] }) {
+  return (
+    <table className={chartTableClass}>
+      <thead>
+        <tr>
+          <th scope="col">Student</th>
+          {columns.map((column) => (
+            <th key={column.header} scope="col">
+              {column.header}
+            </th>
+          ))}
+          <th scope="col">Label</th>
+        </tr>
+      </thead>
+      <tbody>
+        {points.map((point) => (
+          <tr key={point.id}>
+            <td>
+              <a href={point.href} className="underline">
+                {point.studentName}
+              </a>
+            </td>
+            {columns.map((column) => (
+              <td key={column.header}>{column.value(point)}</td>
+            ))}
+            <td>{labelWords[point.label]}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
 
 /** The drag coefficient against Reynolds number, both log, with the three reference curves. */
 export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; title: string }) {
@@ -70,32 +103,14 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
       description={`${plotted.length} hand-ins as points, drag coefficient against Reynolds number on logarithmic axes, with the Stokes, Oseen and Schiller–Naumann reference curves. Circles are consistent, triangles suspect, squares outliers.`}
       caption="Each point is a hand-in (circle consistent, triangle suspect, square outlier); the lines are the reference correlations. Select a point to open the hand-in."
       table={
-        <table className={tableClass}>
-          <thead>
-            <tr>
-              <th scope="col">Student</th>
-              <th scope="col">Re</th>
-              <th scope="col">C_D</th>
-              <th scope="col">C_D/C_D,ref</th>
-              <th scope="col">Label</th>
-            </tr>
-          </thead>
-          <tbody>
-            {plotted.map((point) => (
-              <tr key={point.id}>
-                <td>
-                  <a href={point.href} className="underline">
-                    {point.studentName}
-                  </a>
-                </td>
-                <td>{formatNumber(point.reynolds)}</td>
-                <td>{formatNumber(point.dragCoefficient)}</td>
-                <td>{formatNumber(point.figure)}</td>
-                <td>{labelWords[point.label]}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <PointTable
+          points={plotted}
+          columns={[
+            { header: "Re", value: (point) => formatNumber(point.reynolds) },
+            { header: "C_D", value: (point) => formatNumber(point.dragCoefficient) },
+            { header: "C_D/C_D,ref", value: (point) => formatNumber(point.figure) },
+          ]}
+        />
       }
     >
       <Axes x={x} y={y} xTitle="Reynolds number Re (log)" yTitle="drag coefficient C_D (log)" />
@@ -151,34 +166,15 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
       description={`${plotted.length} hand-ins, measured viscosity against the fluid lot's reference viscosity at the drop temperature, logarithmic axes, with the line where they are equal. A coloured ring gives each drop's temperature from ${formatNumber(tLow, 3)} °C (blue) to ${formatNumber(tHigh, 3)} °C (red).`}
       caption={`Points on the diagonal measured what the lot's calibration predicts. Ring colour: fluid temperature, blue ${formatNumber(tLow, 3)} °C to red ${formatNumber(tHigh, 3)} °C. Select a point to open the hand-in.`}
       table={
-        <table className={tableClass}>
-          <thead>
-            <tr>
-              <th scope="col">Student</th>
-              <th scope="col">Temperature (°C)</th>
-              <th scope="col">Measured μ (Pa·s)</th>
-              <th scope="col">Reference μ (Pa·s)</th>
-              <th scope="col">Ratio</th>
-              <th scope="col">Label</th>
-            </tr>
-          </thead>
-          <tbody>
-            {plotted.map((point) => (
-              <tr key={point.id}>
-                <td>
-                  <a href={point.href} className="underline">
-                    {point.studentName}
-                  </a>
-                </td>
-                <td>{formatNumber(point.temperatureC, 3)}</td>
-                <td>{formatNumber(point.viscosityPaS)}</td>
-                <td>{formatNumber(point.referenceViscosityPaS)}</td>
-                <td>{formatNumber(point.figure)}</td>
-                <td>{labelWords[point.label]}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <PointTable
+          points={plotted}
+          columns={[
+            { header: "Temperature (°C)", value: (point) => formatNumber(point.temperatureC, 3) },
+            { header: "Measured μ (Pa·s)", value: (point) => formatNumber(point.viscosityPaS) },
+            { header: "Reference μ (Pa·s)", value: (point) => formatNumber(point.referenceViscosityPaS) },
+            { header: "Ratio", value: (point) => formatNumber(point.figure) },
+          ]}
+        />
       }
     >
       <Axes x={x} y={y} xTitle="reference viscosity at the drop temperature (Pa·s, log)" yTitle="measured viscosity (Pa·s, log)" />
@@ -230,28 +226,12 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
         </>
       }
       table={
-        <table className={tableClass}>
-          <thead>
-            <tr>
-              <th scope="col">Student</th>
-              <th scope="col">Figure</th>
-              <th scope="col">Label</th>
-            </tr>
-          </thead>
-          <tbody>
-            {points.map((point) => (
-              <tr key={point.id}>
-                <td>
-                  <a href={point.href} className="underline">
-                    {point.studentName}
-                  </a>
-                </td>
-                <td>{formatNumber(point.figure)}</td>
-                <td>{labelWords[point.label]}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <PointTable
+          points={points}
+          columns={[
+            { header: "Figure", value: (point) => formatNumber(point.figure) },
+          ]}
+        />
       }
     >
       <Axes x={x} y={noTicks} xTitle="normalised figure (log)" yTitle="" />

@@ -4,7 +4,7 @@
  */
 import { scaleLinear } from "d3-scale";
 import { formatNumber } from "~/lib/kits/part-display";
-import { Axes, ChartFigure, LabelMarker, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
+import { Axes, ChartFigure, chartTableClass, LabelMarker, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
 
 export function DropTimesChart({ drops, strayDrops, title, id = "drop-times" }: { drops: number[]; strayDrops: number[]; title: string; id?: string }) {
   const stray = new Set(strayDrops);
@@ -21,7 +21,7 @@ export function DropTimesChart({ drops, strayDrops, title, id = "drop-times" }: 
       description={`${drops.length} drop times in seconds in the order timed, with their mean ${formatNumber(mean)} s; ${stray.size} stray drop${stray.size === 1 ? "" : "s"} marked as squares.`}
       caption={`Circles: drops; squares: stray drops flagged by Grubbs' test (kept in the log, reported separately). Line: the mean of all drops, ${formatNumber(mean)} s.`}
       table={
-        <table className="text-sm [&_td]:pr-4 [&_th]:pr-4 [&_th]:text-left [&_th]:font-medium">
+        <table className={chartTableClass}>
           <thead>
             <tr>
               <th scope="col">Drop</th>

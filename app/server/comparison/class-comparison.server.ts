@@ -72,21 +72,24 @@ export const settingsOf = (lab: { comparisonMethod: string; comparisonAlpha: num
   k: lab.comparisonK,
 });
 
+/** The lab's columns a comparison reads (its method and cohorts); marking selects them too, beside its own. */
+export const comparisonLabColumns = {
+  id: labs.id,
+  courseId: labs.courseId,
+  title: labs.title,
+  kind: labs.kind,
+  dragModel: labs.dragModel,
+  comparisonMethod: labs.comparisonMethod,
+  comparisonAlpha: labs.comparisonAlpha,
+  comparisonMaxOutliers: labs.comparisonMaxOutliers,
+  comparisonK: labs.comparisonK,
+  cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]`,
+};
+
 /** The lab with its comparison settings and cohorts, in one statement; null when it is not the course's. */
 export async function loadComparisonLab(executor: Executor, courseId: string, labId: string): Promise<ComparisonLab | null> {
   const [row] = await executor
-    .select({
-      id: labs.id,
-      courseId: labs.courseId,
-      title: labs.title,
-      kind: labs.kind,
-      dragModel: labs.dragModel,
-      comparisonMethod: labs.comparisonMethod,
-      comparisonAlpha: labs.comparisonAlpha,
-      comparisonMaxOutliers: labs.comparisonMaxOutliers,
-      comparisonK: labs.comparisonK,
-      cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id})::text[]`,
-    })
+    .select(comparisonLabColumns)
     .from(labs)
     .where(and(eq(labs.id, labId), eq(labs.courseId, courseId)));
   if (!row) return null;

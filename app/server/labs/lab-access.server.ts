@@ -4,24 +4,24 @@
  * invisible to students (404, as if it did not exist); other cohorts get a 403, recorded like every
  * refusal. Errors are JSON.
  */
+import { z } from "zod";
 import { apiErrorResponse } from "~/server/auth/api-errors.server";
 import { anyRole, requireApiUser, requireCohortAccess, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
-import { findLabCourseId } from "~/server/drop-logs/hand-in.server";
-import { getLab, type LabWithCohorts } from "./labs.server";
+import { findLab, type LabWithCohorts } from "./labs.server";
 
 const noSuchLab = () => apiErrorResponse(404, "not_found", "There is no such lab.");
 
 export async function requireLabApiAccess(request: Request, labId: string | undefined): Promise<{ access: CourseAccess; lab: LabWithCohorts }> {
   await requireApiUser(request);
-  const courseId = labId ? await findLabCourseId(db, labId) : null;
-  if (!courseId) throw noSuchLab();
-  const access = await requireCourseRole(request, courseId, anyRole);
-  const lab = await getLab(db, courseId, labId!);
-  if (!lab || (lab.status === "draft" && access.membership.role === "student")) throw noSuchLab();
+  // The lab first, by its id alone (one statement): it names the course whose role is checked next.
+  const lab = labId && z.uuid().safeParse(labId).success ? await findLab(db, labId) : null;
+  if (!lab) throw noSuchLab();
+  const access = await requireCourseRole(request, lab.courseId, anyRole);
+  if (lab.status === "draft" && access.membership.role === "student") throw noSuchLab();
   if (access.membership.role !== "instructor" && !lab.cohortIds.some((cohortId) => access.cohortIds.includes(cohortId))) {
     // Not one of the lab's cohorts: the cohort check refuses, and records the refusal, as elsewhere.
-    await requireCohortAccess(request, courseId, lab.cohortIds[0] ?? "no-cohort", anyRole);
+    await requireCohortAccess(request, lab.courseId, lab.cohortIds[0] ?? "no-cohort", anyRole);
   }
   return { access, lab };
 }

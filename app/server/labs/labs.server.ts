@@ -3,7 +3,7 @@
  * (which schedules its deadline reminders on the same transaction), and close it. The hand-in side is
  * in `~/server/drop-logs/`; the reminders' job is in `./lab-reminders.server.ts`.
  */
-import { and, asc, eq, inArray, ne, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
 import { cohorts, labCohorts, labs, parts } from "~/db/schema";
 import type { LabInput } from "~/lib/labs/lab-input";
 import { recordAudit } from "~/server/audit.server";
@@ -39,14 +39,19 @@ export async function getLabFormOptions(executor: Executor, courseId: string) {
   return { cohorts: cohortRows, parts: partRows };
 }
 
-/** One lab of the course with the cohorts it is set for, in one statement; null when it is not the course's. */
-export async function getLab(executor: Executor, courseId: string, labId: string): Promise<LabWithCohorts | null> {
+async function selectLab(executor: Executor, where: SQL | undefined): Promise<LabWithCohorts | null> {
   const [row] = await executor
     .select({ lab: labs, cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]` })
     .from(labs)
-    .where(and(eq(labs.id, labId), eq(labs.courseId, courseId)));
+    .where(where);
   return row ? { ...row.lab, cohortIds: row.cohortIds } : null;
 }
+
+/** One lab of the course with the cohorts it is set for, in one statement; null when it is not the course's. */
+export const getLab = (executor: Executor, courseId: string, labId: string) => selectLab(executor, and(eq(labs.id, labId), eq(labs.courseId, courseId)));
+
+/** A lab by its id alone, for an API address that names no course: the caller checks the course role next. */
+export const findLab = (executor: Executor, labId: string) => selectLab(executor, eq(labs.id, labId));
 
 function columnsOf(input: LabInput) {
   const { cohortIds: _cohortIds, ...settings } = input;

@@ -101,17 +101,8 @@ export async function loadStudentMarkRows(
       join course_memberships m on m.id = named.id`
     : sql`course_memberships m`;
   const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
-  const result = await executor.execute<{
-    membershipId: string;
-    userId: string;
-    studentName: string;
-    email: string;
-    studentNumber: string | null;
-    cohortId: string;
-    cohortName: string;
-    handIn: DeskHandIn | null;
-    mark: (Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null }) | null;
-  }>(sql`
+  type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null };
+  const result = await executor.execute<Omit<StudentMarkRow, "mark"> & { mark: StoredMarkRow | null }>(sql`
     select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
       m.cohort_id as "cohortId", h.name as "cohortName",
       case when v.id is null then null else json_build_object(

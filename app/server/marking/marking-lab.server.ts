@@ -12,7 +12,7 @@ import type { RubricCriterion } from "~/lib/marking/rubric";
 import { recordAudit } from "~/server/audit.server";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
 import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
-import { settingsOf } from "~/server/comparison/class-comparison.server";
+import { comparisonLabColumns, settingsOf } from "~/server/comparison/class-comparison.server";
 import { db, type Executor } from "~/server/db.server";
 
 /** A lab with what marking needs; `rubric` is in order. */
@@ -89,19 +89,10 @@ export async function loadMarkingLab(executor: Executor, courseId: string, labId
   if (!z.uuid().safeParse(labId).success) return null;
   const [row] = await executor
     .select({
-      id: labs.id,
-      courseId: labs.courseId,
-      title: labs.title,
-      kind: labs.kind,
+      ...comparisonLabColumns,
       status: labs.status,
       dueAt: labs.dueAt,
       requiredDrops: labs.requiredDrops,
-      dragModel: labs.dragModel,
-      comparisonMethod: labs.comparisonMethod,
-      comparisonAlpha: labs.comparisonAlpha,
-      comparisonMaxOutliers: labs.comparisonMaxOutliers,
-      comparisonK: labs.comparisonK,
-      cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]`,
       rubric: sql<CriterionRow[]>`coalesce((
         select json_agg(json_build_object(
           'id', rc.id, 'position', rc.position, 'title', rc.title, 'description', rc.description, 'kind', rc.kind,
