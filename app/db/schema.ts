@@ -660,6 +660,38 @@ export const labReminders = pgTable(
   (table) => [primaryKey({ columns: [table.labId, table.membershipId, table.offsetHours] })],
 );
 
+/**
+ * An extension: a later due time (and cut-off) for one student or for a whole cohort of a lab, with the
+ * reason staff gave. A student's own extension wins over their cohort's, which wins over the lab's times;
+ * `effectiveHandInWindow` in app/lib/drop-logs/hand-in-window.ts is the one place that decides.
+ */
+export const labExtensions = pgTable(
+  "lab_extensions",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    labId: uuid("lab_id")
+      .notNull()
+      .references(() => labs.id, { onDelete: "cascade" }),
+    /** Exactly one of membershipId and cohortId is set. */
+    membershipId: uuid("membership_id").references(() => courseMemberships.id, { onDelete: "cascade" }),
+    cohortId: uuid("cohort_id").references(() => cohorts.id, { onDelete: "cascade" }),
+    dueAt: timestamp("due_at", { withTimezone: true }).notNull(),
+    /** Null: no late hand-ins after the extended due time. */
+    lateCutoffAt: timestamp("late_cutoff_at", { withTimezone: true }),
+    /** Shown to staff only: a student sees their own times, never why. */
+    reason: text("reason").notNull(),
+    createdById: uuid("created_by_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [
+    uniqueIndex("lab_extensions_lab_member_unique").on(table.labId, table.membershipId).where(sql`${table.membershipId} is not null`),
+    uniqueIndex("lab_extensions_lab_cohort_unique").on(table.labId, table.cohortId).where(sql`${table.cohortId} is not null`),
+    check("lab_extensions_one_target", sql`(${table.membershipId} is null) <> (${table.cohortId} is null)`),
+    check("lab_extensions_cutoff_after_due", sql`${table.lateCutoffAt} is null or ${table.lateCutoffAt} >= ${table.dueAt}`),
+  ],
+);
+
 export const labsRelations = relations(labs, ({ one, many }) => ({
   course: one(courses, { fields: [labs.courseId], references: [courses.id] }),
   cohorts: many(labCohorts),

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { dropLogInput, parseTypedNumber } from "./drop-log-input";
-import { handInTiming } from "./hand-in-window";
+import { effectiveHandInWindow, handInTiming } from "./hand-in-window";
 
 describe("typed numbers", () => {
   it("reads a decimal comma as a point, blank as not given, and words as not a number", () => {
@@ -36,5 +36,26 @@ describe("handInTiming", () => {
     expect(handInTiming(window, new Date("2027-03-28T22:59:00Z"))).toBe("on-time");
     expect(handInTiming(window, new Date("2027-03-28T22:59:01Z"))).toBe("closed");
     expect(handInTiming(window, new Date("2027-03-21T08:59:59Z"))).toBe("not-open");
+  });
+});
+
+describe("effectiveHandInWindow", () => {
+  const lab = { opensAt: new Date("2027-03-21T09:00:00Z"), dueAt: new Date("2027-03-28T22:59:00Z"), lateCutoffAt: null };
+  const cohort = { dueAt: new Date("2027-03-30T22:59:00Z"), lateCutoffAt: new Date("2027-04-01T22:59:00Z") };
+  const student = { dueAt: new Date("2027-04-04T21:59:00Z"), lateCutoffAt: null };
+
+  it("keeps the lab's times without an extension", () => {
+    expect(effectiveHandInWindow(lab, {})).toEqual({ ...lab, extendedBy: null });
+  });
+  it("prefers the student's own extension over the cohort's", () => {
+    const window = effectiveHandInWindow(lab, { student, cohort });
+    expect(window.extendedBy).toBe("student");
+    expect(handInTiming(window, new Date("2027-04-01T12:00:00Z"))).toBe("on-time");
+    expect(handInTiming(window, new Date("2027-04-04T22:00:00Z"))).toBe("closed");
+  });
+  it("uses the cohort's extension, late window included", () => {
+    const window = effectiveHandInWindow(lab, { cohort, student: null });
+    expect(window.extendedBy).toBe("cohort");
+    expect(handInTiming(window, new Date("2027-03-31T08:00:00Z"))).toBe("late");
   });
 });

@@ -30,3 +30,20 @@ export const dropLogStatusLabels: Record<DropLogStatus, string> = {
   "handed-in": "Handed in",
   late: "Handed in late",
 };
+
+/** An extension's times, as stored in `lab_extensions`. */
+export type ExtensionWindow = { dueAt: Date; lateCutoffAt: Date | null };
+export type EffectiveHandInWindow = HandInWindow & { extendedBy: "student" | "cohort" | null };
+
+/**
+ * The window that decides one student's hand-ins: their own extension, else their cohort's, else the
+ * lab's. Every deadline decision (late, cut-off, reminders, the "on time" criterion, "missing") reads it.
+ */
+export function effectiveHandInWindow(
+  lab: HandInWindow,
+  extensions: { student?: ExtensionWindow | null; cohort?: ExtensionWindow | null },
+): EffectiveHandInWindow {
+  const chosen = extensions.student ?? extensions.cohort ?? null;
+  if (!chosen) return { ...lab, extendedBy: null };
+  return { opensAt: lab.opensAt, dueAt: chosen.dueAt, lateCutoffAt: chosen.lateCutoffAt, extendedBy: extensions.student ? "student" : "cohort" };
+}
