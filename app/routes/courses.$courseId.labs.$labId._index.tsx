@@ -10,6 +10,7 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { dropLogInputFromForm, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
+import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
 import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
@@ -30,6 +31,8 @@ function draftFromInput(input: DropLogInput): DropLogDraft {
   const text = (value: number | undefined) => (value === undefined ? undefined : String(value));
   return {
     sphereId: input.sphereId,
+    fluidLotId: input.fluidLotId,
+    columnId: input.columnId,
     useOwnMeasurements: input.ownDiameterMm !== undefined || input.ownMassG !== undefined,
     ownDiameterMm: text(input.ownDiameterMm),
     ownMassG: text(input.ownMassG),
@@ -50,7 +53,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     loadStudentMark(db, { access, labId: params.labId }),
   ]);
   const { lab } = context;
-  const column = context.usableParts.find((part) => part.kind === "column") ?? null;
+  const usable = (kind: "sphere" | "fluid_lot" | "column") => context.usableParts.filter((part) => part.kind === kind);
+  const kitsNotHome = [...new Map(context.kitParts.filter((part) => kitStatesBeforeHome.includes(part.kitState)).map((part) => [part.kitNumber, part.kitState])).entries()];
   const versions = dropLog?.versions ?? [];
   const draft = dropLog && Object.keys(dropLog.draft).length ? dropLog.draft : versions[0] ? draftFromInput(versions[0].input as DropLogInput) : {};
   return {
@@ -69,10 +73,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     },
     timing: lab.status === "published" ? handInTiming(lab, new Date()) : "closed",
     hasKit: context.kitParts.length > 0,
-    spheres: context.usableParts
-      .filter((part) => part.kind === "sphere")
-      .map(({ id, label, material, diameterMm, massG }) => ({ id, label, material, diameterMm, massG })),
-    column: column ? { label: column.label, timedDistanceMm: column.timedDistanceMm } : null,
+    spheres: usable("sphere").map(({ id, label, material, diameterMm, massG }) => ({ id, label, material, diameterMm, massG })),
+    fluidLots: usable("fluid_lot").map(({ id, label, fluidName, densityKgM3 }) => ({ id, label, fluidName, densityKgM3 })),
+    columns: usable("column").map(({ id, label, innerDiameterMm, timedDistanceMm }) => ({ id, label, innerDiameterMm, timedDistanceMm })),
+    kitsNotHome: kitsNotHome.map(([number, state]) => ({ number, state: kitStateLabels[state] })),
     draft,
     latestVersionId: dropLog?.latestVersionId ?? null,
     versions: versions.map(versionView),
@@ -126,7 +130,7 @@ const timingNotes = {
 } as const;
 
 export default function LabPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, timing, hasKit, spheres, column, draft, versions, photos, latestVersionId, mark } = loaderData;
+  const { courseId, timeZone, lab, timing, hasKit, spheres, fluidLots, columns, kitsNotHome, draft, versions, photos, latestVersionId, mark } = loaderData;
   const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
   const errors = actionData && "errors" in actionData ? actionData.errors : null;
   const draftPhotos = photos.filter((photo) => photo.versionId === null);
@@ -165,6 +169,12 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
       ) : null}
       <SafetyCautions compact />
 
+      {kitsNotHome.length ? (
+        <Notice tone="warning">
+          {kitsNotHome.map((kit) => `Kit ${kit.number} is recorded as “${kit.state}”, not yet at home.`).join(" ")} You can still hand in; your hand-in will say so, so that
+          staff can check the parts it names are the ones you used.
+        </Notice>
+      ) : null}
       {hasKit && spheres.length ? (
         <div className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
           <DropLogForm
@@ -173,8 +183,8 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
             kind={lab.kind}
             requiredDrops={lab.requiredDrops}
             spheres={spheres}
-            columnLabel={column?.label ?? null}
-            columnDistanceMm={column?.timedDistanceMm ?? null}
+            fluidLots={fluidLots}
+            columns={columns}
             draft={draft}
             canHandIn={timing === "on-time" || timing === "late"}
             serverErrors={errors}

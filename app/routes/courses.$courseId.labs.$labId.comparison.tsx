@@ -171,6 +171,7 @@ function HandInTable({ handIns }: Pick<LoaderData, "handIns">) {
                       {handIn.student.name}
                     </Link>
                     {handIn.late ? <span className="ml-1 text-ink-600">(late)</span> : null}
+                    {handIn.kitNotAtHome ? <span className="ml-1 text-amber-800">(kit {handIn.kitNotAtHome.toLowerCase()} at hand-in)</span> : null}
                   </td>
                   <td className="px-3 py-2">{handIn.cohort?.name ?? "—"}</td>
                   <td className="px-3 py-2">{[handIn.parts.sphere, handIn.parts.fluidLot, handIn.parts.column].map((part) => part?.label ?? "—").join(" / ")}</td>

@@ -15,6 +15,8 @@ import type { DropLogReduction } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionSummary, WarningList, figure } from "./reduction-summary";
 
 export type FormSphere = { id: string; label: string; material: string | null; diameterMm: number | null; massG: number | null };
+export type FormFluidLot = { id: string; label: string; fluidName: string | null; densityKgM3: number | null };
+export type FormColumn = { id: string; label: string; innerDiameterMm: number | null; timedDistanceMm: number | null };
 
 type FormState = Required<Omit<DropLogDraft, "useOwnMeasurements">> & { useOwnMeasurements: boolean };
 type Preview = { status: "idle" | "loading" } | { status: "ready"; result: DropLogReduction; rows: number[] } | { status: "error"; message: string; issues: Record<string, string> };
@@ -30,9 +32,19 @@ export function splitPastedTimes(text: string): string[] {
     .filter((cell) => cell !== "");
 }
 
-function initialState(draft: DropLogDraft, spheres: FormSphere[], columnDistanceMm: number | null): FormState {
+/** The draft's choice while the kit still holds it; else the only choice; else none, for the student to make. */
+function initialChoice(saved: string | undefined, options: { id: string }[]): string {
+  if (saved && options.some((option) => option.id === saved)) return saved;
+  return options.length === 1 ? options[0].id : "";
+}
+
+function initialState(draft: DropLogDraft, spheres: FormSphere[], fluidLots: FormFluidLot[], columns: FormColumn[]): FormState {
+  const columnId = initialChoice(draft.columnId, columns);
+  const columnDistanceMm = columns.find((column) => column.id === columnId)?.timedDistanceMm ?? null;
   return {
     sphereId: draft.sphereId ?? spheres[0]?.id ?? "",
+    fluidLotId: initialChoice(draft.fluidLotId, fluidLots),
+    columnId,
     useOwnMeasurements: draft.useOwnMeasurements ?? false,
     ownDiameterMm: draft.ownDiameterMm ?? "",
     ownMassG: draft.ownMassG ?? "",
@@ -50,6 +62,8 @@ function toInput(state: FormState) {
     rows,
     input: {
       sphereId: state.sphereId,
+      fluidLotId: state.fluidLotId,
+      columnId: state.columnId,
       ownDiameterMm: state.useOwnMeasurements ? state.ownDiameterMm : undefined,
       ownMassG: state.useOwnMeasurements ? state.ownMassG : undefined,
       temperatureC: state.temperatureC,
@@ -76,8 +90,8 @@ export function DropLogForm({
   kind,
   requiredDrops,
   spheres,
-  columnLabel,
-  columnDistanceMm,
+  fluidLots,
+  columns,
   draft,
   canHandIn,
   serverErrors,
@@ -86,14 +100,15 @@ export function DropLogForm({
   kind: "drag" | "viscometry";
   requiredDrops: number;
   spheres: FormSphere[];
-  columnLabel: string | null;
-  columnDistanceMm: number | null;
+  /** The kit's fluid lots and columns the lab allows: one is taken as it is, two or more ask the student. */
+  fluidLots: FormFluidLot[];
+  columns: FormColumn[];
   draft: DropLogDraft;
   canHandIn: boolean;
   /** Field errors of a refused hand-in, keyed like the form (`drops.3`). */
   serverErrors: Record<string, string[] | undefined> | null;
 }) {
-  const [state, setState] = useState<FormState>(() => initialState(draft, spheres, columnDistanceMm));
+  const [state, setState] = useState<FormState>(() => initialState(draft, spheres, fluidLots, columns));
   const [preview, setPreview] = useState<Preview>({ status: "idle" });
   const [attemptKey, setAttemptKey] = useState<string | null>(null);
   const [csvMessage, setCsvMessage] = useState<string | null>(null);
@@ -104,6 +119,7 @@ export function DropLogForm({
   const dropRefs = useRef<(HTMLInputElement | null)[]>([]);
 
   const sphere = spheres.find((candidate) => candidate.id === state.sphereId) ?? null;
+  const column = columns.find((candidate) => candidate.id === state.columnId) ?? null;
   const { input, rows } = useMemo(() => toInput(state), [state]);
 
   // Instant per-row checks in the browser with the server's own schema; the server checks again.
@@ -163,6 +179,14 @@ export function DropLogForm({
   }, [labId, input, rows]);
 
   const update = (patch: Partial<FormState>) => setState((current) => ({ ...current, ...patch }));
+  // The timed distance follows the column chosen, unless the student typed their own.
+  const chooseColumn = (columnId: string) =>
+    setState((current) => {
+      const before = columns.find((candidate) => candidate.id === current.columnId)?.timedDistanceMm ?? null;
+      const after = columns.find((candidate) => candidate.id === columnId)?.timedDistanceMm ?? null;
+      const untouched = current.timedDistanceMm === "" || (before !== null && current.timedDistanceMm === String(before));
+      return { ...current, columnId, timedDistanceMm: untouched && after !== null ? String(after) : current.timedDistanceMm };
+    });
   const setDrop = (index: number, value: string) => setState((current) => ({ ...current, drops: current.drops.map((drop, i) => (i === index ? value : drop)) }));
   const addRow = (focus = true) => {
     setState((current) => ({ ...current, drops: [...current.drops, ""] }));
@@ -235,6 +259,24 @@ export function DropLogForm({
           </p>
         ) : null}
         <WarningList warnings={warningsFor("sphereId")} />
+        <PartChoice
+          label="Fluid lot (bottle)"
+          name="fluidLotId"
+          value={state.fluidLotId}
+          onChange={(fluidLotId) => update({ fluidLotId })}
+          options={fluidLots.map((lot) => ({ id: lot.id, label: [lot.label, lot.fluidName].filter(Boolean).join(" · "), record: `density ${lot.densityKgM3 ?? "?"} kg/m³` }))}
+          error={fieldMessages("fluidLotId")}
+          prompt="Choose the bottle you used"
+        />
+        <PartChoice
+          label="Column"
+          name="columnId"
+          value={state.columnId}
+          onChange={chooseColumn}
+          options={columns.map((candidate) => ({ id: candidate.id, label: candidate.label, record: `bore ${candidate.innerDiameterMm ?? "?"} mm, ${candidate.timedDistanceMm ?? "?"} mm between the bands` }))}
+          error={fieldMessages("columnId")}
+          prompt="Choose the column you used"
+        />
         <label className="mt-2 flex items-center gap-2 py-1 text-sm">
           <input type="checkbox" className="size-5 shrink-0" name="useOwnMeasurements" checked={state.useOwnMeasurements} onChange={(event) => update({ useOwnMeasurements: event.target.checked })} />
           Enter my own measurements of the sphere as well
@@ -266,7 +308,7 @@ export function DropLogForm({
             inputMode="decimal"
             value={state.timedDistanceMm}
             onChange={(event) => update({ timedDistanceMm: event.target.value })}
-            hint={columnLabel && columnDistanceMm !== null ? `Column ${columnLabel}: ${columnDistanceMm} mm between the bands` : undefined}
+            hint={column && column.timedDistanceMm !== null ? `Column ${column.label}: ${column.timedDistanceMm} mm between the bands` : undefined}
             error={fieldMessages("timedDistanceMm")}
           />
           <WarningList warnings={warningsFor("timedDistanceMm")} />
@@ -385,5 +427,53 @@ export function DropLogForm({
         </span>
       </div>
     </Form>
+  );
+}
+
+/**
+ * One part of the kit the drop log names. With one allowed part it is taken and shown (and sent, so the
+ * hand-in says which); with more the student chooses, and nothing is chosen for them.
+ */
+function PartChoice({
+  label,
+  name,
+  value,
+  onChange,
+  options,
+  error,
+  prompt,
+}: {
+  label: string;
+  name: string;
+  value: string;
+  onChange: (id: string) => void;
+  options: { id: string; label: string; record: string }[];
+  error: string[];
+  prompt: string;
+}) {
+  if (options.length === 0) return null;
+  const chosen = options.find((option) => option.id === value);
+  if (options.length === 1) {
+    return (
+      <p className="mt-2 text-sm">
+        <input type="hidden" name={name} value={options[0].id} />
+        <span className="text-ink-700">{label}:</span> {options[0].label} <span className="text-ink-600">({options[0].record})</span>
+        {error.length ? <span className="block font-medium text-outlier">{error.join(" ")}</span> : null}
+      </p>
+    );
+  }
+  return (
+    <div className="mt-2">
+      <SelectField label={label} name={name} value={value} required onChange={(event) => onChange(event.target.value)} error={error} hint={chosen ? `Kit record: ${chosen.record}.` : `Your kit holds ${options.length} this lab allows.`}>
+        <option value="" disabled>
+          {prompt}
+        </option>
+        {options.map((option) => (
+          <option key={option.id} value={option.id}>
+            {option.label}
+          </option>
+        ))}
+      </SelectField>
+    </div>
   );
 }

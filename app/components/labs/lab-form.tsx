@@ -7,6 +7,7 @@ import { LabTime } from "~/components/drop-logs/lab-time";
 import { SafetyCautions } from "~/components/safety-cautions";
 import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
 import {
+  allowedPartFields,
   dragModelNames,
   dragModels,
   experimentKindNames,
@@ -21,6 +22,12 @@ type Errors = Record<string, string[] | undefined>;
 type PartOption = { id: string; kind: "sphere" | "fluid_lot" | "column" | "accessory"; label: string; material: string | null; fluidName: string | null };
 
 const partKindHeadings = { sphere: "Spheres", fluid_lot: "Fluid lots", column: "Columns" } as const;
+/** What "none ticked" means for each kind, said where the instructor chooses. */
+const noneTickedHints = {
+  sphere: "None ticked: any sphere of the student's kit; the student names the one dropped.",
+  fluid_lot: "None ticked: any fluid lot of the student's kit. When a kit holds more than one allowed lot, the student must say which bottle was used.",
+  column: "None ticked: any column of the student's kit. When a kit holds more than one allowed column, the student must say which.",
+} as const;
 
 /** Messages of a field and of its items (`cohortIds.0`), so an array field shows all of them. */
 function messagesFor(errors: Errors, name: string): string[] {
@@ -132,11 +139,11 @@ export function LabFields({
           <CheckboxGroup
             key={kind}
             legend={`Allowed ${partKindHeadings[kind].toLowerCase()}`}
-            name="allowedPartIds"
+            name={allowedPartFields[kind]}
             options={parts.filter((part) => part.kind === kind).map((part) => ({ id: part.id, label: [part.label, part.material ?? part.fluidName].filter(Boolean).join(" · ") }))}
             checked={values.allowedPartIds}
-            errors={kind === "sphere" ? errors : {}}
-            hint={kind === "sphere" ? "Tick none of a kind to allow any part of that kind in the student's kit." : undefined}
+            errors={errors}
+            hint={noneTickedHints[kind]}
           />
         ))}
       </Section>

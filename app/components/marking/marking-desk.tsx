@@ -90,6 +90,7 @@ function HandInCell() {
       <span className={row.status === "missing" ? "font-medium text-outlier" : row.status === "late" ? "font-medium text-outlier" : ""}>{statusWords[row.status]}</span>
       {row.handIn ? <span className="text-ink-600">v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops</span> : null}
       {row.handInChangedSinceMarked ? <span className="text-amber-700">handed in again since marked</span> : null}
+      {row.handIn?.kitNotAtHome ? <span className="text-amber-700">kit {row.handIn.kitNotAtHome.toLowerCase()} at hand-in</span> : null}
     </div>
   );
 }

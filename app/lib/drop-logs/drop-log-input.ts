@@ -52,8 +52,16 @@ const optionalMeasurement = (what: string, unit: string, min: number, max: numbe
       .optional(),
   );
 
+/** A part of the kit the student names; blank (the form's "one choice only") means "the only one the lab allows". */
+const chosenPart = (what: string) =>
+  z.preprocess((value) => (value === "" || value === null ? undefined : value), z.uuid({ error: `Choose the ${what} you used from your kit.` }).optional());
+
 export const dropLogInput = z.object({
   sphereId: z.uuid({ error: "Choose the sphere you dropped." }),
+  /** Required when the student's kit holds more than one fluid lot the lab allows; otherwise that one. */
+  fluidLotId: chosenPart("fluid lot").describe("The fluid lot (bottle) of the kit used. Required when the kit holds more than one lot the lab allows."),
+  /** Likewise for the column. */
+  columnId: chosenPart("column").describe("The column of the kit used. Required when the kit holds more than one column the lab allows."),
   /** The student's own measurements, kept beside the kit's records; the reduction uses the kit's. */
   ownDiameterMm: optionalMeasurement("diameter", "mm", 0, 100),
   ownMassG: optionalMeasurement("mass", "g", 0, 1000),
@@ -80,7 +88,7 @@ export const dropLogInput = z.object({
 export type DropLogInput = z.output<typeof dropLogInput>;
 
 /** The field a message belongs to, as the form names its inputs (`drops.3` for the fourth row). */
-export type DropLogField = "sphereId" | "ownDiameterMm" | "ownMassG" | "temperatureC" | "timedDistanceMm" | "drops" | "notes" | "form";
+export type DropLogField = "sphereId" | "fluidLotId" | "columnId" | "ownDiameterMm" | "ownMassG" | "temperatureC" | "timedDistanceMm" | "drops" | "notes" | "form";
 
 /**
  * The form as the student left it, saved as they type: strings exactly as typed, so a half-typed
@@ -88,6 +96,8 @@ export type DropLogField = "sphereId" | "ownDiameterMm" | "ownMassG" | "temperat
  */
 export const dropLogDraft = z.object({
   sphereId: z.string().max(64).optional(),
+  fluidLotId: z.string().max(64).optional(),
+  columnId: z.string().max(64).optional(),
   useOwnMeasurements: z.boolean().optional(),
   ownDiameterMm: z.string().max(40).optional(),
   ownMassG: z.string().max(40).optional(),
@@ -107,6 +117,8 @@ export function dropLogInputFromForm(form: FormData): Record<string, unknown> {
   const useOwn = text("useOwnMeasurements") === "on";
   return {
     sphereId: text("sphereId"),
+    fluidLotId: text("fluidLotId"),
+    columnId: text("columnId"),
     ownDiameterMm: useOwn ? text("ownDiameterMm") : undefined,
     ownMassG: useOwn ? text("ownMassG") : undefined,
     temperatureC: text("temperatureC"),

@@ -19,6 +19,7 @@ import {
   type ReductionCheck,
   type WallCorrectionMethod,
 } from "~/lib/reduction";
+import { kitStateLabels, kitStatesBeforeHome, type KitState } from "~/lib/kits/kit-states";
 import type { DropLogField, DropLogInput } from "./drop-log-input";
 
 export type LabSettings = {
@@ -40,7 +41,9 @@ export type SphereRecord = {
 };
 export type FluidLotRecord = { id: string; label: string; fluidName: string | null; densityKgM3: number | null; calibration: CalibrationPoint[] | null };
 export type ColumnRecord = { id: string; label: string; innerDiameterMm: number | null; timedDistanceMm: number | null; runInMm: number | null };
-export type KitRecordsInput = { sphere: SphereRecord; fluidLot: FluidLotRecord; column: ColumnRecord };
+/** The kit the sphere came from, as it stood when the drop log was reduced. */
+export type KitRecord = { number: string; state: KitState };
+export type KitRecordsInput = { sphere: SphereRecord; fluidLot: FluidLotRecord; column: ColumnRecord; kit?: KitRecord };
 
 /** A reduction check, or one of ours, placed next to the field of the form it concerns. */
 export type DropLogWarning = { code: string; level: "info" | "warn" | "error"; message: string; field: DropLogField };
@@ -58,6 +61,8 @@ export type KitRecords = {
     viscosityPaS: number | null;
   };
   column: { id: string; label: string; innerDiameterMm: number | null; timedDistanceMm: number; runInMm: number | null };
+  /** The kit and its state at the hand-in; absent in versions stored before it was recorded. */
+  kit?: KitRecord;
   gravity: number;
   wallCorrection: WallCorrectionMethod;
   dragModel: DragModel;
@@ -190,6 +195,16 @@ export function reduceDropLog({
       message: `You entered ${input.timedDistanceMm} mm; column ${column.label} records ${column.timedDistanceMm} mm between its bands. Your value is used.`,
     });
   }
+  if (kit.kit && kitStatesBeforeHome.includes(kit.kit.state)) {
+    // Taken all the same (the student may have borrowed a kit, or the record lags the parcel), but the
+    // parts named here may not be the ones used, so staff see it on the hand-in.
+    warnings.push({
+      code: "kit-not-at-home",
+      level: "warn",
+      field: "form",
+      message: `Kit ${kit.kit.number} was recorded as “${kitStateLabels[kit.kit.state]}”, not yet at home, at this hand-in: check that the parts named here are the ones used.`,
+    });
+  }
   if (fit?.warning) warnings.push({ code: "fluid-calibration-single-point", level: "warn", field: "temperatureC", message: fit.warning });
   if (fit && (input.temperatureC < fit.temperatureRange[0] || input.temperatureC > fit.temperatureRange[1])) {
     warnings.push({
@@ -215,6 +230,7 @@ export function reduceDropLog({
         viscosityPaS,
       },
       column: { id: column.id, label: column.label, innerDiameterMm: column.innerDiameterMm, timedDistanceMm: timedDistanceMm!, runInMm: column.runInMm },
+      ...(kit.kit ? { kit: kit.kit } : {}),
       gravity: g,
       wallCorrection,
       dragModel,

@@ -40,5 +40,13 @@ export function canMoveKit(from: KitState, to: KitState): boolean {
 /** States in which the kit is with, or on its way to or from, one student. */
 export const kitStatesWithHolder: readonly KitState[] = ["packed", "in_transit", "at_home", "coming_back"];
 
+/** States in which a kit has not reached its student yet: a hand-in then is taken, and flagged for staff. */
+export const kitStatesBeforeHome: readonly KitState[] = ["on_shelf", "packed", "in_transit"];
+
+/** The state's label when a hand-in was made with the kit not yet at home ("Packed"); null otherwise or when not recorded. */
+export function kitNotAtHomeLabel(state: string | null | undefined): string | null {
+  return state && (kitStatesBeforeHome as readonly string[]).includes(state) ? kitStateLabels[state as KitState] : null;
+}
+
 export const partConditions = ["fine", "damaged", "missing"] as const;
 export type PartCondition = (typeof partConditions)[number];

@@ -81,6 +81,19 @@ const wallClock = (timeZone: string, what: string) =>
     return z.NEVER;
   });
 
+/**
+ * The kinds of part a lab names, each with its own form field: none ticked in a kind allows any part of
+ * that kind in the student's kit (and the student says which at hand-in when their kit holds several).
+ */
+export const allowedPartFields = { sphere: "allowedSphereIds", fluid_lot: "allowedFluidLotIds", column: "allowedColumnIds" } as const;
+export type AllowedPartKind = keyof typeof allowedPartFields;
+const allowedParts = (what: string) => z.array(z.uuid(`Choose ${what} from the list.`)).max(500, `Tick at most 500 ${what}.`).default([]);
+
+/** The lab's allowed parts, all kinds together, as `labs.allowed_part_ids` stores them. */
+export function allowedPartIdsOf(input: Pick<LabInput, (typeof allowedPartFields)[AllowedPartKind]>): string[] {
+  return [...new Set([...input.allowedSphereIds, ...input.allowedFluidLotIds, ...input.allowedColumnIds])];
+}
+
 /** The lab form's schema for a course in `timeZone`. */
 export function labInputFor(timeZone: string) {
   return z
@@ -96,7 +109,9 @@ export function labInputFor(timeZone: string) {
         .int("Enter a whole number of drops.")
         .min(3, "Ask for at least 3 drops: the stray-drop test needs them.")
         .max(MAX_DROPS, `Ask for at most ${MAX_DROPS} drops.`),
-      allowedPartIds: z.array(z.uuid("Choose parts from the list.")).max(500).default([]),
+      allowedSphereIds: allowedParts("spheres"),
+      allowedFluidLotIds: allowedParts("fluid lots"),
+      allowedColumnIds: allowedParts("columns"),
       wallCorrection: z.enum(wallCorrections, { error: "Choose a wall correction." }),
       dragModel: z.enum(dragModels, { error: "Choose a reference drag model." }),
       comparisonMethod: comparisonSettings.shape.method,
@@ -139,7 +154,9 @@ export function labInputFromForm(form: FormData): Record<string, unknown> {
     dueAt: text("dueAt"),
     lateCutoffAt: text("lateCutoffAt"),
     requiredDrops: text("requiredDrops"),
-    allowedPartIds: all("allowedPartIds"),
+    allowedSphereIds: all(allowedPartFields.sphere),
+    allowedFluidLotIds: all(allowedPartFields.fluid_lot),
+    allowedColumnIds: all(allowedPartFields.column),
     wallCorrection: text("wallCorrection"),
     dragModel: text("dragModel"),
     comparisonMethod: text("comparisonMethod"),
@@ -231,5 +248,5 @@ export function storedLabFormValues(
 export function submittedLabFormValues(form: FormData): LabFormValues {
   const fields = Object.fromEntries([...form.entries()].filter((entry): entry is [string, string] => typeof entry[1] === "string"));
   const all = (name: string) => form.getAll(name).filter((value): value is string => typeof value === "string");
-  return { fields, cohortIds: all("cohortIds"), allowedPartIds: all("allowedPartIds") };
+  return { fields, cohortIds: all("cohortIds"), allowedPartIds: Object.values(allowedPartFields).flatMap(all) };
 }

@@ -19,6 +19,7 @@ import {
   type ComparisonSettings,
   type LabelCounts,
 } from "~/lib/comparison/comparison-settings";
+import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -56,6 +57,8 @@ export type CountedHandIn = {
   sphere: { id: string; label: string } | null;
   fluidLot: { id: string; label: string } | null;
   column: { id: string; label: string } | null;
+  /** The kit's state at the hand-in when it was not yet at home ("Packed"), else null. */
+  kitNotAtHome: string | null;
   storedLabel: ClassComparisonLabel | null;
   storedVersionId: string | null;
 };
@@ -118,6 +121,7 @@ type CountedRow = {
   fluid_lot_label: string | null;
   column_id: string | null;
   column_label: string | null;
+  kit_state: string | null;
   stored_label: ClassComparisonLabel | null;
   stored_version_id: string | null;
 };
@@ -136,6 +140,7 @@ export async function loadCountedHandIns(executor: Executor, labId: string): Pro
       (v.input ->> 'temperatureC')::float8 as temperature_c,
       m.id as membership_id, u.name as student_name, m.cohort_id, h.name as cohort_name,
       v.sphere_id, sp.label as sphere_label, v.fluid_lot_id, fl.label as fluid_lot_label, v.column_id, co.label as column_label,
+      v.kit_records #>> '{kit,state}' as kit_state,
       cl.label as stored_label, cl.version_id as stored_version_id
     from drop_logs dl
     join drop_log_versions v on v.id = dl.latest_version_id
@@ -167,6 +172,7 @@ export async function loadCountedHandIns(executor: Executor, labId: string): Pro
     sphere: row.sphere_id ? { id: row.sphere_id, label: row.sphere_label ?? "" } : null,
     fluidLot: row.fluid_lot_id ? { id: row.fluid_lot_id, label: row.fluid_lot_label ?? "" } : null,
     column: row.column_id ? { id: row.column_id, label: row.column_label ?? "" } : null,
+    kitNotAtHome: kitNotAtHomeLabel(row.kit_state),
     storedLabel: row.stored_label,
     storedVersionId: row.stored_version_id,
   }));
@@ -215,6 +221,7 @@ export function comparisonJson(comparison: LabComparison) {
       student: { membershipId: handIn.membershipId, name: handIn.studentName },
       cohort: handIn.cohortId ? { id: handIn.cohortId, name: handIn.cohortName } : null,
       parts: { sphere: handIn.sphere, fluidLot: handIn.fluidLot, column: handIn.column },
+      kitNotAtHome: handIn.kitNotAtHome,
       figure: handIn.figure,
       relativeToClass: handIn.relativeToClass,
       reynolds: handIn.reynolds,

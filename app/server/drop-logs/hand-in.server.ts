@@ -9,7 +9,7 @@ import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
-import { reduceDropLog, type ColumnRecord, type DropLogReduction, type FluidLotRecord, type SphereRecord } from "~/lib/drop-logs/reduce-drop-log";
+import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { queueClassComparison } from "~/server/comparison/class-comparison.server";
@@ -24,6 +24,9 @@ export type HandInRefusalCode =
   | "not_in_cohort"
   | "no_kit"
   | "sphere_not_in_kit"
+  | "part_not_in_kit"
+  | "part_not_allowed"
+  | "part_not_chosen"
   | "kit_incomplete"
   | "not_open"
   | "past_cutoff";
@@ -37,6 +40,9 @@ const refusalStatus: Record<HandInRefusalCode, number> = {
   not_in_cohort: 403,
   no_kit: 409,
   sphere_not_in_kit: 400,
+  part_not_in_kit: 400,
+  part_not_allowed: 400,
+  part_not_chosen: 400,
   kit_incomplete: 409,
   not_open: 409,
   past_cutoff: 409,
@@ -60,9 +66,20 @@ export class HandInRefusedError extends Error {
 export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
 export type KitPart = StudentLab["kitParts"][number];
 
+/** The kinds of part a hand-in is reduced against, and how the form and the messages name them. */
+const choosableKinds = ["sphere", "fluid_lot", "column"] as const;
+type ChoosableKind = (typeof choosableKinds)[number];
+const partWords: Record<ChoosableKind, { name: string; field: "sphereId" | "fluidLotId" | "columnId" }> = {
+  sphere: { name: "sphere", field: "sphereId" },
+  fluid_lot: { name: "fluid lot", field: "fluidLotId" },
+  column: { name: "column", field: "columnId" },
+};
+
 /**
  * The lab as a student sees it, whether they may hand in to it, and the parts of the kit they hold:
  * two statements, run side by side. Unpublished labs and labs of other cohorts are refused.
+ * `usableParts` are the kit's parts the lab allows: per kind, the ones it ticked, or every part of
+ * that kind in the kit when it ticked none of that kind.
  */
 export async function loadStudentLab(executor: Executor, access: CourseAccess, labId: string) {
   if (access.membership.role !== "student") throw new HandInRefusedError("not_a_student", "Only students hand in drop logs.");
@@ -73,6 +90,8 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
         lab: labs,
         gravity: courses.localGravity,
         inCohort: sql<boolean>`exists (select 1 from lab_cohorts lc where lc.lab_id = ${labs.id} and lc.cohort_id = ${access.membership.cohortId})`,
+        // Which kinds the lab limits: a kind with no ticked part allows any of that kind in the kit.
+        limitedKinds: sql<ChoosableKind[]>`array(select distinct p.kind from parts p where p.id = any(${labs.allowedPartIds}))::text[]`,
       })
       .from(labs)
       .innerJoin(courses, eq(courses.id, labs.courseId))
@@ -94,6 +113,7 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
         timedDistanceMm: parts.timedDistanceMm,
         runInMm: parts.runInMm,
         kitNumber: kits.number,
+        kitState: kits.state,
       })
       .from(kits)
       .innerJoin(kitParts, eq(kitParts.kitId, kits.id))
@@ -105,29 +125,54 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
   // A draft lab is invisible to students: it answers like a lab that does not exist.
   if (!row || row.lab.status === "draft") throw new HandInRefusedError("lab_not_found", "There is no such lab in this course.");
   if (!row.inCohort) throw new HandInRefusedError("not_in_cohort", "This lab is not set for your cohort.");
-  const allowed = row.lab.allowedPartIds;
-  const usable = allowed.length ? kitPartRows.filter((part) => allowed.includes(part.id)) : kitPartRows;
+  const allowed = new Set(row.lab.allowedPartIds);
+  const limited = new Set(row.limitedKinds);
+  // A shared part (a fluid lot) in two kits the student holds is one choice, not two.
+  const seen = new Set<string>();
+  const usable = kitPartRows.filter((part) => {
+    if (seen.has(part.id)) return false;
+    seen.add(part.id);
+    return !limited.has(part.kind as ChoosableKind) || allowed.has(part.id);
+  });
   return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable };
 }
 
-/** The sphere the student chose and the kit's fluid lot and column the lab allows. */
-function resolveKit(context: StudentLab, sphereId: string): { sphere: SphereRecord; fluidLot: FluidLotRecord; column: ColumnRecord } {
+/**
+ * The part of one kind a drop log was measured with: the one the student named, which must be in their
+ * kit and allowed by the lab, or, when they named none, the only one the lab allows in their kit.
+ * With two or more to choose from the choice is the student's, never the first by label.
+ */
+function choosePart(context: StudentLab, kind: ChoosableKind, chosenId: string | undefined): KitPart {
+  const { name, field } = partWords[kind];
+  const candidates = context.usableParts.filter((part) => part.kind === kind);
+  if (chosenId !== undefined) {
+    const part = context.kitParts.find((candidate) => candidate.id === chosenId && candidate.kind === kind);
+    if (!part) {
+      throw new HandInRefusedError(kind === "sphere" ? "sphere_not_in_kit" : "part_not_in_kit", `Choose a ${name} of your own kit.`, [
+        { path: [field], message: `That ${name} is not in your kit.` },
+      ]);
+    }
+    if (!candidates.some((candidate) => candidate.id === part.id)) {
+      throw new HandInRefusedError(kind === "sphere" ? "sphere_not_in_kit" : "part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
+        { path: [field], message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((c) => c.label).join(", ")}` : "another"}.` },
+      ]);
+    }
+    return part;
+  }
+  if (candidates.length === 1) return candidates[0];
+  if (candidates.length === 0) throw new HandInRefusedError("kit_incomplete", `Your kit has no ${name} this lab can use; report it from “My kit”.`);
+  throw new HandInRefusedError("part_not_chosen", `Choose the ${name} you used: your kit holds ${candidates.length} this lab allows.`, [
+    { path: [field], message: `Choose which ${name} you used: ${candidates.map((part) => part.label).join(", ")}.` },
+  ]);
+}
+
+/** The sphere, fluid lot and column of the student's kit the drop log names (or the lab's only choice), and the kit's state. */
+function resolveKit(context: StudentLab, input: DropLogInput): KitRecordsInput {
   if (context.kitParts.length === 0) throw new HandInRefusedError("no_kit", "You hold no kit in this course yet, so there is nothing to reduce against.");
-  const sphere = context.kitParts.find((part) => part.id === sphereId && part.kind === "sphere");
-  if (!sphere) {
-    throw new HandInRefusedError("sphere_not_in_kit", "Choose a sphere of your own kit.", [{ path: ["sphereId"], message: "That sphere is not in your kit." }]);
-  }
-  if (!context.usableParts.includes(sphere)) {
-    throw new HandInRefusedError("sphere_not_in_kit", `This lab does not use sphere ${sphere.label}.`, [
-      { path: ["sphereId"], message: `This lab does not use sphere ${sphere.label}; choose another.` },
-    ]);
-  }
-  const fluidLot = context.usableParts.find((part) => part.kind === "fluid_lot");
-  const column = context.usableParts.find((part) => part.kind === "column");
-  if (!fluidLot || !column) {
-    throw new HandInRefusedError("kit_incomplete", `Your kit has no ${fluidLot ? "column" : "fluid lot"} this lab can use; report it from “My kit”.`);
-  }
-  return { sphere, fluidLot, column };
+  const sphere = choosePart(context, "sphere", input.sphereId);
+  const fluidLot = choosePart(context, "fluid_lot", input.fluidLotId);
+  const column = choosePart(context, "column", input.columnId);
+  return { sphere, fluidLot, column, kit: { number: sphere.kitNumber, state: sphere.kitState } };
 }
 
 function parseInput(raw: unknown): DropLogInput {
@@ -141,7 +186,7 @@ function parseInput(raw: unknown): DropLogInput {
 }
 
 function reduceFor(context: StudentLab, input: DropLogInput): DropLogReduction {
-  const kit = resolveKit(context, input.sphereId);
+  const kit = resolveKit(context, input);
   try {
     return reduceDropLog({ lab: context.lab, kit, input, gravity: context.gravity });
   } catch (error) {

@@ -5,7 +5,7 @@
  */
 import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
 import { cohorts, labCohorts, labs, parts } from "~/db/schema";
-import type { LabInput } from "~/lib/labs/lab-input";
+import { allowedPartFields, allowedPartIdsOf, type AllowedPartKind, type LabInput } from "~/lib/labs/lab-input";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
@@ -54,20 +54,28 @@ export const getLab = (executor: Executor, courseId: string, labId: string) => s
 export const findLab = (executor: Executor, labId: string) => selectLab(executor, eq(labs.id, labId));
 
 function columnsOf(input: LabInput) {
-  const { cohortIds: _cohortIds, ...settings } = input;
-  return { ...settings, lateCutoffAt: input.lateCutoffAt ?? null };
+  const { cohortIds: _cohortIds, allowedSphereIds: _spheres, allowedFluidLotIds: _fluidLots, allowedColumnIds: _columns, ...settings } = input;
+  return { ...settings, allowedPartIds: allowedPartIdsOf(input), lateCutoffAt: input.lateCutoffAt ?? null };
 }
 
-/** Cohorts and parts must be the course's own: a forged id is refused rather than silently dropped. */
+/** Cohorts and parts must be the course's own, and each part of the kind its list says: a forged id is refused rather than silently dropped. */
 async function checkOwnership(executor: Executor, courseId: string, input: LabInput): Promise<void> {
   const ids = (values: string[]) => sql`(select value::uuid from json_array_elements_text(${JSON.stringify([...new Set(values)])}::json))`;
-  const result = await executor.execute<{ cohorts: number; parts: number }>(sql`
-    select (select count(*)::int from cohorts where course_id = ${courseId} and id in ${ids(input.cohortIds)}) as cohorts,
-      (select count(*)::int from parts where course_id = ${courseId} and id in ${ids(input.allowedPartIds)}) as parts`);
+  const kinds = Object.keys(allowedPartFields) as AllowedPartKind[];
+  const partCounts = kinds.map(
+    (kind) => sql`(select count(*)::int from parts where course_id = ${courseId} and kind = ${kind} and id in ${ids(input[allowedPartFields[kind]])}) as ${sql.identifier(kind)}`,
+  );
+  const result = await executor.execute<Record<"cohorts" | AllowedPartKind, number>>(sql`
+    select (select count(*)::int from cohorts where course_id = ${courseId} and id in ${ids(input.cohortIds)}) as cohorts, ${sql.join(partCounts, sql`, `)}`);
   const counts = result.rows[0];
   if (counts.cohorts !== new Set(input.cohortIds).size) throw new LabRuleError("Choose cohorts of this course.", "cohortIds");
-  if (counts.parts !== new Set(input.allowedPartIds).size) throw new LabRuleError("Choose parts of this course's inventory.", "allowedPartIds");
+  for (const kind of kinds) {
+    const field = allowedPartFields[kind];
+    if (counts[kind] !== new Set(input[field]).size) throw new LabRuleError(`Choose ${partKindNames[kind]} of this course's inventory.`, field);
+  }
 }
+
+const partKindNames: Record<AllowedPartKind, string> = { sphere: "spheres", fluid_lot: "fluid lots", column: "columns" };
 
 async function setCohorts(executor: Executor, labId: string, cohortIds: string[]): Promise<void> {
   await executor.delete(labCohorts).where(eq(labCohorts.labId, labId));

@@ -9,6 +9,7 @@ import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } fr
 import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkProgress, type MarkScores, type MarkTotals, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { labelClass } from "~/lib/comparison/comparison-settings";
+import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
 import { quantityOf } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
 import type { MarkingLab } from "./marking-lab.server";
@@ -23,6 +24,8 @@ export type DeskHandIn = {
   dropCount: number | null;
   strayDropCount: number | null;
   warningCount: number;
+  /** The kit's state at the hand-in when it was not yet at home ("Packed"), else null. */
+  kitNotAtHome: string | null;
   /** C_D/C_D,ref (drag) or μ/μ_ref (viscometry). */
   figure: number | null;
   reynolds: number | null;
@@ -102,7 +105,8 @@ export async function loadStudentMarkRows(
     : sql`course_memberships m`;
   const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
   type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null };
-  const result = await executor.execute<Omit<StudentMarkRow, "mark"> & { mark: StoredMarkRow | null }>(sql`
+  type HandInRow = Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null };
+  const result = await executor.execute<Omit<StudentMarkRow, "mark" | "handIn"> & { handIn: HandInRow | null; mark: StoredMarkRow | null }>(sql`
     select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
       m.cohort_id as "cohortId", h.name as "cohortName",
       case when v.id is null then null else json_build_object(
@@ -110,7 +114,7 @@ export async function loadStudentMarkRows(
         'dropCount', case when jsonb_typeof(v.reduction #> '{drops,n}') = 'number' then (v.reduction #>> '{drops,n}')::int
                           when jsonb_typeof(v.input -> 'drops') = 'array' then jsonb_array_length(v.input -> 'drops') end,
         'strayDropCount', case when jsonb_typeof(v.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(v.reduction #> '{drops,strayDrops}') end,
-        'warningCount', v.warning_count, 'figure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8,
+        'warningCount', v.warning_count, 'kitState', v.kit_records #>> '{kit,state}', 'figure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8,
         'dragCoefficient', v.drag_coefficient::float8, 'viscosityPaS', v.viscosity_pa_s::float8,
         'temperatureC', case when jsonb_typeof(v.input -> 'temperatureC') = 'number' then (v.input ->> 'temperatureC')::float8 end
       ) end as "handIn",
@@ -132,7 +136,8 @@ export async function loadStudentMarkRows(
     where m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
       and m.cohort_id = any(${cohortArray}::uuid[])
     order by u.name, m.id`);
-  return result.rows.map(({ mark, ...row }) => {
+  return result.rows.map(({ mark, handIn: storedHandIn, ...rest }) => {
+    const row = { ...rest, handIn: storedHandIn ? handInOf(storedHandIn) : null };
     if (!mark) return { ...row, mark: null };
     const { markedById, markedByName, moderatedById, moderatedByName, ...stored } = mark;
     return {
@@ -145,6 +150,10 @@ export async function loadStudentMarkRows(
       },
     };
   });
+}
+
+function handInOf({ kitState, ...handIn }: Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null }): DeskHandIn {
+  return { ...handIn, kitNotAtHome: kitNotAtHomeLabel(kitState) };
 }
 
 /** Whether any criterion needs the class comparison; when none does, the writes skip loading it. */
