@@ -14,9 +14,11 @@ import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labC
 import { fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatureCoefficient } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db, type Database } from "~/server/db.server";
-import { HandInRefusedError, ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, saveDraft } from "~/server/drop-logs/hand-in.server";
+import { loadCountedHandIns } from "~/server/comparison/class-comparison.server";
+import { HandInRefusedError, ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, previewDropLog, saveDraft } from "~/server/drop-logs/hand-in.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { countStatements } from "../support/count-statements";
+import { SECOND_LOT_DENSITY, createTwoLotKit, type TwoLotKit } from "../support/two-lot-kit";
 
 let fixture: AccessFixture;
 let secondSphereId: string;
@@ -150,6 +152,102 @@ describe("the server's reduction", () => {
     const lab = await createLab();
     const refusal = await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(secondSphereId), idempotencyKey: "other-sphere-1" }).catch((error: unknown) => error);
     expect(refusal).toMatchObject({ code: "sphere_not_in_kit" });
+  });
+});
+
+describe("the parts a hand-in names", () => {
+  let kit: TwoLotKit;
+  const refusalOf = (promise: Promise<unknown>) => promise.then(() => null, (error: unknown) => error as HandInRefusedError);
+  const handIn = (labId: string, input: Record<string, unknown>, key: string) => handInDropLog(db, { access: kit.access, labId, input: { temperatureC: 22.4, drops, ...input }, idempotencyKey: key });
+
+  beforeAll(async () => {
+    kit = await createTwoLotKit(fixture, "hand-in-parts");
+  });
+
+  it("asks which bottle and which column when the lab allows two of each in the kit, at the field, with 400", async () => {
+    const lab = await createLab();
+    const noLot = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[0], columnId: kit.columns[0] }, "parts-no-lot"));
+    expect(noLot).toMatchObject({ code: "part_not_chosen", status: 400, issues: [{ path: ["fluidLotId"], message: expect.stringMatching(/F-1, F-2/) }] });
+    const noColumn = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1] }, "parts-no-column"));
+    expect(noColumn).toMatchObject({ code: "part_not_chosen", status: 400, issues: [{ path: ["columnId"] }] });
+    // The live preview refuses the same way, so the form shows it while the student types.
+    await expect(previewDropLog(db, { access: kit.access, labId: lab.id, input: { sphereId: kit.spheres[0], columnId: kit.columns[0], temperatureC: 22, drops } })).rejects.toMatchObject({
+      code: "part_not_chosen",
+      issues: [{ path: ["fluidLotId"] }],
+    });
+  });
+
+  it("reduces against the lot and column chosen, not the first of the kit", async () => {
+    const lab = await createLab();
+    const second = await handIn(lab.id, { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] }, "parts-second-lot");
+    const first = await handIn(lab.id, { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] }, "parts-first-lot");
+    const rows = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, second.version.id));
+    const [firstRow] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, first.version.id));
+    expect(rows[0]).toMatchObject({ fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] });
+    // F-2's recorded density and C-4's bore and band distance, as createTwoLotKit records them.
+    expect(rows[0].kitRecords).toMatchObject({ fluidLot: { id: kit.fluidLots[1], label: "F-2", densityKgM3: SECOND_LOT_DENSITY }, column: { label: "C-4", innerDiameterMm: 50, timedDistanceMm: 250 } });
+    expect(firstRow.kitRecords).toMatchObject({ fluidLot: { label: "F-1", densityKgM3: 1260 }, column: { label: "C-3", timedDistanceMm: 200 } });
+  });
+
+  it("takes the lab's only allowed lot in the kit when none is named, and refuses the other one", async () => {
+    const lab = await createLab({ allowedPartIds: [kit.fluidLots[1], kit.columns[0]] });
+    const { version } = await handIn(lab.id, { sphereId: kit.spheres[1] }, "parts-only-allowed");
+    const [stored] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, version.id));
+    // No sphere ticked: any sphere of the kit, here the second.
+    expect(stored).toMatchObject({ sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[1], columnId: kit.columns[0] });
+    const otherLot = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[0] }, "parts-lot-not-allowed"));
+    expect(otherLot).toMatchObject({ code: "part_not_allowed", status: 400, issues: [{ path: ["fluidLotId"], message: expect.stringMatching(/does not use fluid lot F-1; choose one of F-2/) }] });
+    const otherColumn = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[1], columnId: kit.columns[1] }, "parts-column-not-allowed"));
+    expect(otherColumn).toMatchObject({ code: "part_not_allowed", status: 400, issues: [{ path: ["columnId"] }] });
+  });
+
+  it("refuses a lot, a column or a sphere that is not in the student's kit", async () => {
+    const lab = await createLab();
+    const chosen = { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] };
+    const lot = await refusalOf(handIn(lab.id, { ...chosen, fluidLotId: kit.foreignFluidLotId }, "parts-foreign-lot"));
+    expect(lot).toMatchObject({ code: "part_not_in_kit", status: 400, issues: [{ path: ["fluidLotId"], message: "That fluid lot is not in your kit." }] });
+    const column = await refusalOf(handIn(lab.id, { ...chosen, columnId: kit.foreignColumnId }, "parts-foreign-column"));
+    expect(column).toMatchObject({ code: "part_not_in_kit", status: 400, issues: [{ path: ["columnId"], message: "That column is not in your kit." }] });
+    const sphere = await refusalOf(handIn(lab.id, { ...chosen, sphereId: kit.foreignSphereId }, "parts-foreign-sphere"));
+    expect(sphere).toMatchObject({ code: "sphere_not_in_kit", status: 400, issues: [{ path: ["sphereId"] }] });
+    // A part of the kit named for the wrong kind (a column as the lot) is not a lot of the kit.
+    const wrongKind = await refusalOf(handIn(lab.id, { ...chosen, fluidLotId: kit.columns[0] }, "parts-wrong-kind"));
+    expect(wrongKind).toMatchObject({ code: "part_not_in_kit", issues: [{ path: ["fluidLotId"] }] });
+    expect(await getDropLogForStudent(db, { labId: lab.id, membershipId: kit.access.membership.id })).toBeNull();
+  });
+
+  it("refuses a sphere of the kit that the lab does not allow", async () => {
+    const lab = await createLab({ allowedPartIds: [kit.spheres[0]] });
+    const refusal = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] }, "parts-sphere-not-allowed"));
+    expect(refusal).toMatchObject({ code: "part_not_allowed", status: 400, issues: [{ path: ["sphereId"], message: expect.stringMatching(/does not use sphere S-4; choose one of S-3/) }] });
+  });
+
+  it("keeps the chosen lot and column in the draft", async () => {
+    const lab = await createLab();
+    await saveDraft(db, { access: kit.access, labId: lab.id, draft: { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1], columnId: kit.columns[1], drops: ["7.4"] } });
+    const dropLog = await getDropLogForStudent(db, { labId: lab.id, membershipId: kit.access.membership.id });
+    expect(dropLog?.draft).toMatchObject({ fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] });
+  });
+
+  it("accepts a hand-in while the kit is in transit, and stores a warning that the comparison shows", async () => {
+    const lab = await createLab();
+    const chosen = { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] };
+    const atHome = await handIn(lab.id, chosen, "parts-at-home");
+    await db.update(kits).set({ state: "in_transit" }).where(eq(kits.id, kit.kitId));
+    try {
+      const inTransit = await handIn(lab.id, chosen, "parts-in-transit");
+      const [homeRow] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, atHome.version.id));
+      const [transitRow] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, inTransit.version.id));
+      const codes = (row: typeof homeRow) => (row.reduction.warnings as { code: string }[]).map((warning) => warning.code);
+      expect(codes(homeRow)).not.toContain("kit-not-at-home");
+      expect(transitRow.reduction.warnings).toContainEqual({ code: "kit-not-at-home", level: "warn", field: "form", message: expect.stringMatching(/Kit K-03 was recorded as “In transit”/) });
+      expect(transitRow.warningCount).toBe(homeRow.warningCount + 1);
+      expect(transitRow.kitRecords).toMatchObject({ kit: { number: "K-03", state: "in_transit" } });
+      const counted = await loadCountedHandIns(db, lab.id);
+      expect(counted.find((row) => row.versionId === inTransit.version.id)?.kitNotAtHome).toBe("In transit");
+    } finally {
+      await db.update(kits).set({ state: "at_home" }).where(eq(kits.id, kit.kitId));
+    }
   });
 });
 

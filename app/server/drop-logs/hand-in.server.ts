@@ -153,7 +153,7 @@ function choosePart(context: StudentLab, kind: ChoosableKind, chosenId: string |
       ]);
     }
     if (!candidates.some((candidate) => candidate.id === part.id)) {
-      throw new HandInRefusedError(kind === "sphere" ? "sphere_not_in_kit" : "part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
+      throw new HandInRefusedError("part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
         { path: [field], message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((c) => c.label).join(", ")}` : "another"}.` },
       ]);
     }
