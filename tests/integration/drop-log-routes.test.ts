@@ -11,9 +11,11 @@ import { dropLogPhotos } from "~/db/schema";
 import { db } from "~/server/db.server";
 import { appOrigin, appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { createTwoLotKit, type TwoLotKit } from "../support/two-lot-kit";
 
 let fixture: AccessFixture;
 let handle: AppHandler;
+let twoLots: TwoLotKit;
 const cookies: Record<string, string> = {};
 
 const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]);
@@ -41,6 +43,8 @@ beforeAll(async () => {
   handle = await createAppHandler();
   fixture = await createAccessFixture("drop-log-routes");
   for (const actor of ["ownStudent", "sameCohortStudent", "assignedTa", "unassignedTa", "instructor"] as const) cookies[actor] = await sessionCookieFor(fixture.userIds[actor]);
+  twoLots = await createTwoLotKit(fixture, "drop-log-routes");
+  cookies.twoLotStudent = await sessionCookieFor(twoLots.userId);
 });
 
 describe("photo uploads", () => {
@@ -117,6 +121,43 @@ describe("POST /api/v1/reduce", () => {
   });
 });
 
+describe("the parts a drop log names, through the API", () => {
+  const handInRequest = (body: unknown) =>
+    new Request(new URL(`/api/v1/labs/${fixture.labId}/drop-logs`, appOrigin()), {
+      method: "POST",
+      body: JSON.stringify(body),
+      headers: { "Content-Type": "application/json", "Idempotency-Key": crypto.randomUUID(), Origin: appOrigin(), Cookie: cookies.twoLotStudent },
+    });
+  const base = () => ({ sphereId: twoLots.spheres[0], fluidLotId: twoLots.fluidLots[1], columnId: twoLots.columns[0], temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.52, 7.39] });
+
+  it.each([
+    ["a lot not in the kit", () => ({ fluidLotId: twoLots.foreignFluidLotId }), "part_not_in_kit", "fluidLotId"],
+    ["a column not in the kit", () => ({ columnId: twoLots.foreignColumnId }), "part_not_in_kit", "columnId"],
+    ["a sphere not in the kit", () => ({ sphereId: twoLots.foreignSphereId }), "sphere_not_in_kit", "sphereId"],
+    ["no lot when the kit holds two", () => ({ fluidLotId: undefined }), "part_not_chosen", "fluidLotId"],
+    ["no column when the kit holds two", () => ({ columnId: "" }), "part_not_chosen", "columnId"],
+  ])("refuses %s with 400 at the field, in the preview and the hand-in", async (_, change, code, field) => {
+    const body = { ...base(), ...change() };
+    const preview = await handle(reduce("twoLotStudent", { labId: fixture.labId, input: body }));
+    expect(preview.status).toBe(400);
+    expect((await preview.json()).error).toMatchObject({ code, issues: [{ path: [field] }] });
+    const handedIn = await handle(handInRequest(body));
+    expect(handedIn.status).toBe(400);
+    expect((await handedIn.json()).error).toMatchObject({ code, issues: [{ path: [field] }] });
+  });
+
+  it("hands in against the lot named, and the preview shows it", async () => {
+    const preview = await handle(reduce("twoLotStudent", { labId: fixture.labId, input: base() }));
+    expect(preview.status).toBe(200);
+    expect((await preview.json()).kitRecords.fluidLot).toMatchObject({ id: twoLots.fluidLots[1], label: "F-2" });
+    const handedIn = await handle(handInRequest(base()));
+    expect(handedIn.status).toBe(201);
+    const detail = await handle(appRequest(`/api/v1/labs/${fixture.labId}/drop-logs`, { cookie: cookies.twoLotStudent }));
+    const [own] = (await detail.json()).dropLogs;
+    expect(own.latestVersion).toMatchObject({ fluidLotId: twoLots.fluidLots[1], columnId: twoLots.columns[0], kitRecords: { fluidLot: { label: "F-2" } } });
+  });
+});
+
 describe("the lab page's hand-in form", () => {
   it("answers a bad drop row with 400 and its message, and hands in a good log as the next version", async () => {
     const labPath = `/courses/${fixture.courseId}/labs/${fixture.labId}`;
@@ -132,5 +173,26 @@ describe("the lab page's hand-in form", () => {
     expect(accepted.status).toBe(200);
     // The fixture's hand-in is version 1.
     expect(await accepted.text()).toMatch(/handedIn.*version",2/);
+  });
+
+  it("asks for the bottle at its field when the kit holds two lots the lab allows", async () => {
+    const body = new URLSearchParams({ intent: "hand-in", idempotencyKey: "page-form-two-lots", sphereId: twoLots.spheres[0], fluidLotId: "", columnId: twoLots.columns[0], temperatureC: "21.8" });
+    for (const drop of ["7.4", "7.5", "7.45"]) body.append("drops", drop);
+    const refused = await handle(new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}.data`, appOrigin()), { method: "POST", body, headers: { Cookie: cookies.twoLotStudent, Origin: appOrigin() } }));
+    expect(refused.status).toBe(400);
+    const text = await refused.text();
+    expect(text).toContain("fluidLotId");
+    expect(text).toContain("Choose which fluid lot you used: F-1, F-2.");
+  });
+
+  it("shows a student with two allowed lots the choice, and one with a single lot the lot used", async () => {
+    const labPath = `/courses/${fixture.courseId}/labs/${fixture.labId}`;
+    const two = await (await handle(appRequest(labPath, { cookie: cookies.twoLotStudent }))).text();
+    expect(two).toMatch(/<select[^>]*name="fluidLotId"/);
+    expect(two).toContain("Choose the bottle you used");
+    const one = await (await handle(appRequest(labPath, { cookie: cookies.ownStudent }))).text();
+    expect(one).not.toMatch(/<select[^>]*name="fluidLotId"/);
+    expect(one).toMatch(/<input type="hidden" name="fluidLotId" value="[^"]+"/);
+    expect(one).toContain("F-1 · glycerol");
   });
 });
