@@ -74,7 +74,7 @@ export const apiOperations: ApiOperation[] = [
     path: "/api/v1/labs/{labId}/drop-logs",
     summary: "Hand in a drop log",
     description:
-      "Students only. The server recomputes the reduction against the student's kit and stores a new immutable version. Repeating a request with the same `Idempotency-Key` stores nothing new and answers 200 with the version first stored.",
+      "Students only. The server recomputes the reduction against the student's kit and stores a new immutable version. The sphere, and the fluid lot and column when named, must be of the student's kit and allowed by the lab; when the kit holds more than one lot or column the lab allows, naming it is required. Each refusal answers 400 with the field in `issues`. Repeating a request with the same `Idempotency-Key` stores nothing new and answers 200 with the version first stored.",
     parameters: [
       labId,
       { name: "Idempotency-Key", in: "header", required: true, description: "The client's key for this hand-in (8 to 200 characters), e.g. a UUID made once per attempt.", schema: z.string().min(8).max(200) },
