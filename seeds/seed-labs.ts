@@ -10,6 +10,7 @@ import type { Faker } from "@faker-js/faker";
 import { eq } from "drizzle-orm";
 import { cohorts, courseMemberships, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { fitFluidViscosity, referenceDragCoefficient, viscosityAt, wallFactor } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Database } from "~/server/db.server";
@@ -42,7 +43,8 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
   const glycerol = courseParts.find((part) => part.label === "GLY-95A")!;
   const syrup = courseParts.find((part) => part.label === "SYR-2B")!;
   const cohortRows = await db.select({ id: cohorts.id }).from(cohorts).where(eq(cohorts.courseId, courseId));
-  const except = (lot: { id: string }) => courseParts.filter((part) => part.id !== lot.id).map((part) => part.id);
+  // Every kit holds both lots; each lab names its own, so a hand-in is reduced against the right bottle.
+  const glassSpheres = courseParts.filter((part) => part.kind === "sphere" && part.label.startsWith("G6")).map((part) => part.id);
 
   const [dragLab, viscometryLab] = await db
     .insert(labs)
@@ -56,7 +58,8 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
         opensAt: new Date(now - 16 * DAY_MS),
         dueAt: new Date(now - 2 * DAY_MS),
         lateCutoffAt: new Date(now + 5 * DAY_MS),
-        allowedPartIds: except(syrup),
+        // Any sphere and column of the kit; the glycerol lot only.
+        allowedPartIds: [glycerol.id],
         resolutions,
         publishedAt: new Date(now - 16 * DAY_MS),
       },
@@ -69,7 +72,8 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
         opensAt: new Date(now - 3 * DAY_MS),
         dueAt: new Date(now + 5 * DAY_MS),
         lateCutoffAt: new Date(now + 8 * DAY_MS),
-        allowedPartIds: except(glycerol),
+        // The glass spheres and the syrup lot; any column of the kit.
+        allowedPartIds: [...glassSpheres, syrup.id],
         resolutions,
         publishedAt: new Date(now - 3 * DAY_MS),
       },
@@ -83,7 +87,7 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
 
   // Students who hold a kit, with the parts of it, in one statement.
   const holders = await db
-    .select({ membershipId: courseMemberships.id, cohortId: courseMemberships.cohortId, userId: users.id, email: users.email, name: users.name, part: parts })
+    .select({ membershipId: courseMemberships.id, cohortId: courseMemberships.cohortId, userId: users.id, email: users.email, name: users.name, kitState: kits.state, part: parts })
     .from(kits)
     .innerJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
     .innerJoin(users, eq(users.id, courseMemberships.userId))
@@ -95,8 +99,14 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
 
   const [course] = await db.query.courses.findMany({ where: (c, { eq: equals }) => equals(c.id, courseId) });
   const students = [...byStudent.values()];
+  // Students whose kit has not reached them yet hand nothing in, but for one, who hands in the open lab
+  // anyway (a borrowed kit): that hand-in carries the kit-not-at-home warning staff see.
+  let earlyHandInTaken = false;
   for (const [index, rows] of students.entries()) {
-    const { membershipId, cohortId, userId, email, name } = rows[0];
+    const { membershipId, cohortId, userId, email, name, kitState } = rows[0];
+    const kitAway = kitStatesBeforeHome.includes(kitState);
+    const earlyHandIn = kitAway && !earlyHandInTaken;
+    if (earlyHandIn) earlyHandInTaken = true;
     const access: CourseAccess = {
       user: { id: userId, email, name, mayCreateCourses: false, sessionId: null, via: "session" },
       course: { id: courseId, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
@@ -118,21 +128,21 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     };
 
     // Most of the class handed the drag lab in before its due time; a few are late; a few never did.
-    if (index % 9 !== 8) {
+    if (index % 9 !== 8 && !kitAway) {
       const temperatureC = Number(faker.number.float({ min: 19, max: 23 }).toFixed(1));
       const timedSphere = mistake === "wrong-sphere" ? sphereOf("S4") : sphereOf("S3");
       const drops = dropsFor(timedSphere, glycerol, mistake === "warm-fluid" ? temperatureC + 6 : temperatureC, "schiller-naumann", 0.12);
       if (mistake === "stopwatch-slip") drops[4] = Number((drops[4] * 2).toFixed(2));
-      const input: DropLogInput = { sphereId: sphereOf("S3").id, temperatureC, drops, notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined };
+      const input: DropLogInput = { sphereId: sphereOf("S3").id, fluidLotId: glycerol.id, temperatureC, drops, notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined };
       // A micrometer read half a turn off (0.5 mm): the kit's record is used, and the log carries a warning.
       if (mistake === "misread-diameter") input.ownDiameterMm = Number((sphereOf("S3").diameterMm! + 0.5).toFixed(2));
       const late = index % 6 === 5;
       await handInDropLog(db, { access, labId: dragLab.id, input, idempotencyKey: `demo-drag-${membershipId}`, now: new Date(now - (late ? 1 : 3) * DAY_MS) });
     }
     // The viscometry lab is still open: about half have handed in.
-    if (index % 2 === 0) {
+    if ((index % 2 === 0 && !kitAway) || earlyHandIn) {
       const temperatureC = Number(faker.number.float({ min: 18, max: 22 }).toFixed(1));
-      const input: DropLogInput = { sphereId: sphereOf("G6").id, temperatureC, drops: dropsFor(sphereOf("G6"), syrup, temperatureC, "stokes", 0.2) };
+      const input: DropLogInput = { sphereId: sphereOf("G6").id, fluidLotId: syrup.id, temperatureC, drops: dropsFor(sphereOf("G6"), syrup, temperatureC, "stokes", 0.2) };
       await handInDropLog(db, { access, labId: viscometryLab.id, input, idempotencyKey: `demo-visc-${membershipId}`, now: new Date(now - DAY_MS) });
     }
   }
