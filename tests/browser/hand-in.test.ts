@@ -12,6 +12,7 @@ describe("handing in a drop log from a phone in Chromium", () => {
   const base = inject("baseUrl");
   let student: { email: string; course_id: string; cohort_id: string; sphere_label: string };
   let labId: string;
+  let glycerolLotId: string;
 
   beforeAll(async () => {
     browser = await openBrowser({ viewport: { width: 390, height: 844 } });
@@ -31,6 +32,9 @@ describe("handing in a drop log from a phone in Chromium", () => {
       limit 1`);
     student = found.rows[0];
     expect(student, "the demo has a student with a complete kit at home").toBeDefined();
+    // Demo kits hold both fluid lots, and this lab ticks none: the student has to say which bottle.
+    const lot = await db.execute<{ id: string }>(sql`select id from parts where course_id = ${student.course_id} and kind = 'fluid_lot' and label = 'GLY-95A'`);
+    glycerolLotId = lot.rows[0].id;
     const day = 24 * 3600 * 1000;
     const [lab] = await db
       .insert(labs)
@@ -79,6 +83,9 @@ describe("handing in a drop log from a phone in Chromium", () => {
     await page.getByLabel("Drop 5 time in seconds").fill("4.11");
 
     const preview = page.getByRole("region", { name: /Preview/ });
+    // Nothing is chosen for the student while the kit holds two lots this lab allows.
+    await page.getByText(/Choose which fluid lot you used: GLY-95A, SYR-2B/).waitFor();
+    await page.getByLabel("Fluid lot (bottle)").selectOption(glycerolLotId);
     await preview.getByText("Mean time").waitFor();
     // The mean of 4.12, 4.08, 4.15, 4.10, 4.11 is 4.112 s.
     await preview.getByText("4.112 s").waitFor();
@@ -93,9 +100,9 @@ describe("handing in a drop log from a phone in Chromium", () => {
     await expect(stored.getByText(/drops 4\.12, 4\.08, 4\.15, 4\.1, 4\.11 s/).isVisible()).resolves.toBe(true);
 
     const [version] = (
-      await db.execute<{ version: number; n: number }>(sql`
-        select v.version, jsonb_array_length(v.input->'drops') as n from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${labId}`)
+      await db.execute<{ version: number; n: number; fluid_lot_id: string }>(sql`
+        select v.version, jsonb_array_length(v.input->'drops') as n, v.fluid_lot_id from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${labId}`)
     ).rows;
-    expect(version).toEqual({ version: 1, n: 5 });
+    expect(version).toEqual({ version: 1, n: 5, fluid_lot_id: glycerolLotId });
   });
 });
