@@ -6,7 +6,7 @@
 import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { cohorts, courseMemberships, emailOutbox, labReminders, labs, users } from "~/db/schema";
+import { cohorts, courseMemberships, emailOutbox, labReminders, labs, parts, users } from "~/db/schema";
 import { labInputFor, newLabFormValues, type LabInput } from "~/lib/labs/lab-input";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
@@ -68,6 +68,24 @@ describe("lab input", () => {
     expect(lab.dueAt.toISOString()).toBe("2027-07-08T22:59:00.000Z");
     expect(lab.reminderOffsetsHours).toEqual([48, 6]);
     expect(lab.resolutions).toEqual({ diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 });
+  });
+});
+
+describe("the parts a lab allows, per kind", () => {
+  it("stores the ticked parts of each kind, and refuses a part ticked under another kind, at that kind's field", async () => {
+    const now = new Date();
+    const kitParts = await db.select({ id: parts.id, kind: parts.kind }).from(parts).where(eq(parts.courseId, fixture.courseId));
+    const idOf = (kind: string) => kitParts.find((part) => part.kind === kind)!.id;
+    const times = { opensAt: wallClock(new Date(now.getTime() - HOUR)), dueAt: wallClock(new Date(now.getTime() + 72 * HOUR)) };
+    const input = labForm({ ...times, allowedFluidLotIds: [idOf("fluid_lot")], allowedColumnIds: [idOf("column")] });
+    const lab = await createLab(db, { access: instructor(), input });
+    // No sphere ticked: the stored list holds the lot and the column only, and so limits those kinds.
+    expect(new Set(lab.allowedPartIds)).toEqual(new Set([idOf("fluid_lot"), idOf("column")]));
+    await expect(createLab(db, { access: instructor(), input: labForm({ ...times, allowedSphereIds: [idOf("fluid_lot")] }) })).rejects.toMatchObject({ field: "allowedSphereIds" });
+    await expect(createLab(db, { access: instructor(), input: labForm({ ...times, allowedFluidLotIds: [idOf("accessory")] }) })).rejects.toMatchObject({ field: "allowedFluidLotIds" });
+    await expect(updateLab(db, { access: instructor(), labId: lab.id, input: labForm({ ...times, allowedColumnIds: [idOf("sphere")] }), intent: "save" })).rejects.toMatchObject({
+      field: "allowedColumnIds",
+    });
   });
 });
 
