@@ -15,6 +15,7 @@ import { fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatu
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db, type Database } from "~/server/db.server";
 import { loadCountedHandIns } from "~/server/comparison/class-comparison.server";
+import { loadStudentMarkRows } from "~/server/marking/mark-rows.server";
 import { HandInRefusedError, ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, previewDropLog, saveDraft } from "~/server/drop-logs/hand-in.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { countStatements } from "../support/count-statements";
@@ -245,6 +246,12 @@ describe("the parts a hand-in names", () => {
       expect(transitRow.kitRecords).toMatchObject({ kit: { number: "K-03", state: "in_transit" } });
       const counted = await loadCountedHandIns(db, lab.id);
       expect(counted.find((row) => row.versionId === inTransit.version.id)?.kitNotAtHome).toBe("In transit");
+      // The marking desk's row says it too, and the fixture student's hand-in at home does not.
+      const deskRows = await loadStudentMarkRows(db, lab, { cohortIds: [fixture.cohortId] });
+      expect(deskRows.find((row) => row.membershipId === kit.access.membership.id)?.handIn).toMatchObject({ versionId: inTransit.version.id, kitNotAtHome: "In transit" });
+      await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "parts-own-at-home" });
+      const ownRow = (await loadStudentMarkRows(db, lab, { cohortIds: [fixture.cohortId] })).find((row) => row.membershipId === fixture.membershipIds.ownStudent);
+      expect(ownRow?.handIn).toMatchObject({ kitNotAtHome: null });
     } finally {
       await db.update(kits).set({ state: "at_home" }).where(eq(kits.id, kit.kitId));
     }
