@@ -5,9 +5,9 @@
 import { mkdtemp } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { dropLogPhotos } from "~/db/schema";
+import { dropLogPhotos, dropLogs, kits } from "~/db/schema";
 import { db } from "~/server/db.server";
 import { appOrigin, appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
@@ -155,6 +155,21 @@ describe("the parts a drop log names, through the API", () => {
     const detail = await handle(appRequest(`/api/v1/labs/${fixture.labId}/drop-logs`, { cookie: cookies.twoLotStudent }));
     const [own] = (await detail.json()).dropLogs;
     expect(own.latestVersion).toMatchObject({ fluidLotId: twoLots.fluidLots[1], columnId: twoLots.columns[0], kitRecords: { fluidLot: { label: "F-2" } } });
+  });
+
+  it("takes a hand-in while the kit is still packed, and the staff hand-in page and the student's page say so", async () => {
+    await db.update(kits).set({ state: "packed" }).where(eq(kits.id, twoLots.kitId));
+    try {
+      expect((await handle(handInRequest(base()))).status).toBe(201);
+      const [dropLog] = await db.select({ id: dropLogs.id }).from(dropLogs).where(and(eq(dropLogs.labId, fixture.labId), eq(dropLogs.membershipId, twoLots.access.membership.id)));
+      const staffPage = await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}/hand-ins/${dropLog.id}`, { cookie: cookies.instructor }));
+      expect(staffPage.status).toBe(200);
+      expect(await staffPage.text()).toContain("Kit K-03 was recorded as “Packed”, not yet at home, at this hand-in");
+      const studentPage = await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}`, { cookie: cookies.twoLotStudent }))).text();
+      expect(studentPage).toContain("Kit K-03 is recorded as “Packed”, not yet at home.");
+    } finally {
+      await db.update(kits).set({ state: "at_home" }).where(eq(kits.id, twoLots.kitId));
+    }
   });
 });
 
