@@ -10,6 +10,7 @@ import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/lib/drop-logs/reduce-drop-log";
+import type { AllowedPartKind } from "~/lib/labs/lab-input";
 import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { queueClassComparison } from "~/server/comparison/class-comparison.server";
@@ -66,9 +67,8 @@ export class HandInRefusedError extends Error {
 export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
 export type KitPart = StudentLab["kitParts"][number];
 
-/** The kinds of part a hand-in is reduced against, and how the form and the messages name them. */
-const choosableKinds = ["sphere", "fluid_lot", "column"] as const;
-type ChoosableKind = (typeof choosableKinds)[number];
+/** How the form and the messages name each kind of part a hand-in is reduced against (the kinds a lab limits). */
+type ChoosableKind = AllowedPartKind;
 const partWords: Record<ChoosableKind, { name: string; field: "sphereId" | "fluidLotId" | "columnId" }> = {
   sphere: { name: "sphere", field: "sphereId" },
   fluid_lot: { name: "fluid lot", field: "fluidLotId" },
@@ -154,7 +154,7 @@ function choosePart(context: StudentLab, kind: ChoosableKind, chosenId: string |
     }
     if (!candidates.some((candidate) => candidate.id === part.id)) {
       throw new HandInRefusedError("part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
-        { path: [field], message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((c) => c.label).join(", ")}` : "another"}.` },
+        { path: [field], message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((candidate) => candidate.label).join(", ")}` : "another"}.` },
       ]);
     }
     return part;
