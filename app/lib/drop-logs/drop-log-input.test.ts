@@ -30,6 +30,21 @@ describe("dropLogInput", () => {
   });
 });
 
+describe("the fluid lot and column a drop log names", () => {
+  const base = { sphereId: "0b5f8b1e-7a51-4d2c-9a55-4f8a2a3c9d10", temperatureC: "21.5", drops: ["4.1"] };
+  const lotId = "6f1c2d3e-4b5a-4c6d-8e7f-901234567890";
+
+  it("keeps a named lot, and reads a blank choice (the form's single lot left out) as none", () => {
+    expect(dropLogInput.parse({ ...base, fluidLotId: lotId, columnId: "" })).toMatchObject({ fluidLotId: lotId, columnId: undefined });
+    expect(dropLogInput.parse(base).fluidLotId).toBeUndefined();
+  });
+
+  it("says at the field when the choice is not an id", () => {
+    const result = dropLogInput.safeParse({ ...base, fluidLotId: "GLY-95A" });
+    expect(result.error?.issues.map((issue) => [issue.path.join("."), issue.message])).toEqual([["fluidLotId", "Choose the fluid lot you used from your kit."]]);
+  });
+});
+
 describe("handInTiming", () => {
   const window = { opensAt: new Date("2027-03-21T09:00:00Z"), dueAt: new Date("2027-03-28T22:59:00Z"), lateCutoffAt: null };
   it("counts the due instant itself as on time, and refuses after it without a cut-off", () => {
