@@ -158,7 +158,10 @@ export interface StudentizedDeviateOptions {
   maxSteps: number;
   /** The smallest set still tested (at least 3). */
   minimumSize: number;
-  /** A value within this distance of the mean of the rest is never removed (reading resolution; 0 for none). */
+  /**
+   * Reading resolution (0 for none): a value within it of the mean of the rest is never removed, and R
+   * is taken from |x − x̄| less half of it, the nearest the true value can lie.
+   */
   resolution: number;
   /** Iterative Grubbs stops at the first step that is not significant; the generalized ESD test does not. */
   untilNotSignificant: boolean;
@@ -203,7 +206,9 @@ export function studentizedDeviateSteps(
     const deviation = highSide ? highDeviation : lowDeviation;
     // Within the reading resolution nothing stands out, however small the spread of the rest.
     if (deviation <= resolutionLimit) break;
-    const statistic = deviation / Math.sqrt(sumOfSquares / (remaining - 1));
+    // A reading rounded to the resolution may lie half a step closer to the mean than it reads: the
+    // deviation it can be sure of is |x − x̄| − resolution/2 (0 resolution: the textbook R).
+    const statistic = (deviation - resolution / 2) / Math.sqrt(sumOfSquares / (remaining - 1));
     const critical = grubbsCriticalValue(remaining, alpha);
     if (untilNotSignificant && !(statistic > critical)) break;
     // For now `index` holds the position in sorted order; it is turned into the input index below.
