@@ -728,7 +728,7 @@ export const dropLogPhotosRelations = relations(dropLogPhotos, ({ one }) => ({
 export const comparisonLabel = pgEnum("comparison_label", ["consistent", "suspect", "outlier"]);
 
 /** The method and parameters a label was computed with, as the lab had them then. */
-export type ComparisonMethodSettings = { method: "grubbs" | "iqr"; alpha: number; maxOutliers: number; k: number };
+export type ComparisonMethodSettings = { method: "grubbs" | "esd" | "iqr"; alpha: number; maxOutliers: number; k: number };
 
 export const comparisonLabels = pgTable(
   "comparison_labels",

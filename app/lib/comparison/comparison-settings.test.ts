@@ -47,9 +47,10 @@ describe("class labels against published and hand-worked examples", () => {
     expect(Math.log(limits.inner[1])).toBeCloseTo(mean + 2.126 * s, 3);
   });
 
-  it("previews the chosen setting first, then three Grubbs levels and three fence factors", () => {
+  it("previews the chosen setting first, then three Grubbs levels, three ESD levels and three fence factors", () => {
     const previews = previewSettings(asFigures(worked), tukey, "drag");
-    expect(previews.map((preview) => preview.description)).toHaveLength(7);
+    expect(previews.map((preview) => preview.description)).toHaveLength(10);
+    expect(previews[4].description).toBe("generalized ESD test, α = 0.01, up to r = 3 outliers");
     expect(previews[0].counts).toEqual(countLabels(labelClass(asFigures(worked), tukey, "drag")));
     expect(previews[0].counts).toEqual({ consistent: 7, suspect: 1, outlier: 1 });
   });
