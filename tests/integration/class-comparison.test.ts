@@ -154,27 +154,41 @@ describe("a hand-in arriving", () => {
 });
 
 describe("kit-part quality", () => {
-  it("flags a sphere biased over three hand-ins and not an unbiased one, in one statement", async () => {
-    const [biased, unbiased] = await db
+  it("flags the sphere whose hand-ins differ from its peers' and not the peers, in one statement (Welch 1947, Holm 1979)", async () => {
+    const [biased, fair, alsoFair] = await db
       .insert(parts)
       .values([
         { courseId: fixture.courseId, kind: "sphere", label: "S-BIAS", material: "steel", diameterMm: 3, massG: 0.11 },
         { courseId: fixture.courseId, kind: "sphere", label: "S-FAIR", material: "steel", diameterMm: 3, massG: 0.11 },
+        { courseId: fixture.courseId, kind: "sphere", label: "S-FAIR-2", material: "steel", diameterMm: 3, massG: 0.11 },
       ])
       .returning();
     const lab = await newLab("Part quality");
+    // Every figure is about 5 % high (the reference model's own bias in this lab): S-BIAS is a further 10 % off.
     await seedClass(db, {
       courseId: fixture.courseId,
       labId: lab.id,
       cohortId: fixture.cohortId,
-      members: [1.14, 1.15, 1.16].map((figure) => ({ figure, sphereId: biased.id })).concat([0.99, 1.01, 1.0].map((figure) => ({ figure, sphereId: unbiased.id }))),
+      members: [
+        ...[1.14, 1.15, 1.16].map((figure) => ({ figure, sphereId: biased.id })),
+        ...[1.04, 1.06, 1.05].map((figure) => ({ figure, sphereId: fair.id })),
+        ...[1.045, 1.055, 1.05].map((figure) => ({ figure, sphereId: alsoFair.id })),
+      ],
       label: "bias",
     });
     const { statements, result } = await countStatements(() => listPartBias(db, fixture.courseId));
     expect(statements).toBe(1);
-    expect(result.get(biased.id)).toMatchObject({ n: 3, flagged: true });
-    expect(result.get(biased.id)!.meanBias).toBeCloseTo(0.15, 2);
-    expect(result.get(unbiased.id)).toMatchObject({ n: 3, flagged: false });
+    const report = result.get(biased.id)!;
+    expect(report).toMatchObject({ flagged: true });
+    // By hand: geometric means 1.1499 against the six peers' 1.0499 → +9.5 %.
+    expect(report.comparisons[0].relativeToPeers).toBeCloseTo(0.0952, 3);
+    expect(report.comparisons[0].labTitle).toBe("Part quality");
+    expect(result.get(fair.id)).toMatchObject({ flagged: false });
+    expect(result.get(alsoFair.id)).toMatchObject({ flagged: false });
+    // Asking for one part reads the same course-wide family.
+    const single = await listPartBias(db, fixture.courseId, biased.id);
+    expect([...single.keys()]).toEqual([biased.id]);
+    expect(single.get(biased.id)!.testsInFamily).toBe(report.testsInFamily);
   });
 });
 
