@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { reduceFallingSphere } from "./falling-sphere";
 import { findStrayDrops, MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
 
 /** Mulberry32: a small seeded generator (common practice), so the Monte Carlo run is the same every time. */
@@ -72,5 +73,24 @@ describe("findStrayDrops", () => {
     }
     expect(flagged / logs).toBeLessThanOrEqual(alpha + 0.01);
     for (let band = 0; band < 3; band++) expect(bandFlagged[band] / bandLogs[band]).toBeLessThanOrEqual(alpha + 0.01);
+  });
+
+  it("is what the reduction reports: both late drops out of `withoutStrayDrops`, and the timing resolution honoured", () => {
+    const base = {
+      mode: "viscometry" as const,
+      sphere: { diameter: 2e-3, mass: 32.7e-6 },
+      fluid: { density: 1260 },
+      column: { timedDistance: 0.2, runIn: 0.05 },
+    };
+    const masked = reduceFallingSphere({ ...base, drops: [5.02, 4.98, 5.01, 4.99, 5.0, 5.03, 4.97, 5.02, 4.99, 5.01, 6.1, 6.2] });
+    expect(masked.drops.strayDrops).toEqual([11, 10]);
+    expect(masked.withoutStrayDrops?.drops.n).toBe(10);
+    expect(masked.checks.find((check) => check.code === "stray-drops")?.level).toBe("warn");
+    // Nine 6.62 s and a 6.63 s: equal to a 0.01 s stopwatch; read to 0.001 s, the 6.63 s stands out.
+    const ties = [...new Array<number>(9).fill(6.62), 6.63];
+    expect(reduceFallingSphere({ ...base, drops: ties }).drops.strayDrops).toEqual([]);
+    expect(reduceFallingSphere({ ...base, drops: ties, timeResolution: 0.001 }).drops.strayDrops).toEqual([9]);
+    const five = reduceFallingSphere({ ...base, drops: [5, 5.01, 4.99, 5.02, 7] });
+    expect(five.checks.find((check) => check.code === "stray-drop-test-not-applicable")?.level).toBe("info");
   });
 });
