@@ -130,7 +130,7 @@ export const courses = pgTable(
     timeZone: text("time_zone").notNull(),
     /** Local gravitational acceleration in m/s²; null means standard gravity 9.80665. */
     localGravity: real("local_gravity"),
-    /** Significance of the kit-part bias test (one-sample t on ln normalised figures); a part beyond it is flagged for re-measurement. */
+    /** Family significance of the kit-part bias tests (Welch t of a part against its peers per lab, Holm-corrected); a part beyond it is flagged for re-measurement. */
     partBiasAlpha: real("part_bias_alpha").notNull().default(0.05),
     createdAt: createdAt(),
   },
@@ -728,7 +728,7 @@ export const dropLogPhotosRelations = relations(dropLogPhotos, ({ one }) => ({
 export const comparisonLabel = pgEnum("comparison_label", ["consistent", "suspect", "outlier"]);
 
 /** The method and parameters a label was computed with, as the lab had them then. */
-export type ComparisonMethodSettings = { method: "grubbs" | "iqr"; alpha: number; maxOutliers: number; k: number };
+export type ComparisonMethodSettings = { method: "grubbs" | "esd" | "iqr"; alpha: number; maxOutliers: number; k: number };
 
 export const comparisonLabels = pgTable(
   "comparison_labels",

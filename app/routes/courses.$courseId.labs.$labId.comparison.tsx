@@ -11,7 +11,7 @@ import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { PageHeader } from "~/components/ui/page-header";
 import { TableHead } from "~/components/ui/table-head";
 import { fieldErrors, formValues } from "~/lib/forms/parse-form";
-import { comparisonLabels, comparisonSettings, methodNames } from "~/lib/comparison/comparison-settings";
+import { comparisonLabels, comparisonMethods, comparisonSettings, methodNames } from "~/lib/comparison/comparison-settings";
 import { formatNumber } from "~/lib/kits/part-display";
 import { comparisonJson, getLabComparison, previewLabSettings, readComparisonFilters, updateComparisonSettings } from "~/server/comparison/class-comparison.server";
 import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
@@ -220,14 +220,14 @@ function MethodForm({ method, mayEdit, failure }: { method: LoaderData["method"]
       <Form method="post" ref={formRef} onChange={askPreview} className="flex flex-col gap-4 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
         <div className="grid gap-4 sm:grid-cols-2">
           <SelectField label="Method" name="method" defaultValue={values?.method ?? method.method} error={errors.method}>
-            {(["grubbs", "iqr"] as const).map((value) => (
+            {comparisonMethods.map((value) => (
               <option key={value} value={value}>
                 {methodNames[value]}
               </option>
             ))}
           </SelectField>
-          <TextField label="Grubbs: significance α" name="alpha" inputMode="decimal" defaultValue={values?.alpha ?? String(method.alpha)} error={errors.alpha} hint="Outlier at α; suspect at 2α." />
-          <TextField label="Grubbs: most removals" name="maxOutliers" inputMode="numeric" defaultValue={values?.maxOutliers ?? String(method.maxOutliers)} error={errors.maxOutliers} />
+          <TextField label="Grubbs / ESD: significance α" name="alpha" inputMode="decimal" defaultValue={values?.alpha ?? String(method.alpha)} error={errors.alpha} hint="Outlier at α; suspect at 2α." />
+          <TextField label="Grubbs: most removals; ESD: upper bound r" name="maxOutliers" inputMode="numeric" defaultValue={values?.maxOutliers ?? String(method.maxOutliers)} error={errors.maxOutliers} />
           <TextField label="Tukey: fence factor k" name="k" inputMode="decimal" defaultValue={values?.k ?? String(method.k)} error={errors.k} hint="Suspect beyond k·IQR, outlier beyond 2k·IQR." />
         </div>
         <div aria-live="polite">

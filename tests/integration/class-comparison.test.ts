@@ -7,7 +7,7 @@ import { and, count, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { comparisonLabelChanges, comparisonLabels, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
-import { getLabComparison, loadComparisonLab, relabelLab, updateComparisonSettings } from "~/server/comparison/class-comparison.server";
+import { getLabComparison, loadComparisonLab, previewLabSettings, relabelLab, updateComparisonSettings } from "~/server/comparison/class-comparison.server";
 import { listPartBias } from "~/server/comparison/part-quality.server";
 import { db } from "~/server/db.server";
 import { handInDropLog } from "~/server/drop-logs/hand-in.server";
@@ -88,6 +88,34 @@ describe("a method change", () => {
   });
 });
 
+describe("the generalized ESD method", () => {
+  it("is saved as the lab's method, relabels with Rosner's R and λ, and is counted in the preview", async () => {
+    const lab = await newLab("ESD method");
+    // NIST/SEMATECH e-Handbook §1.3.5.17.3 (Rosner 1983): as figures e^x the 54 values give 3 outliers at α = 0.05, r = 10.
+    const rosner = [
+      -0.25, 0.68, 0.94, 1.15, 1.2, 1.26, 1.26, 1.34, 1.38, 1.43, 1.49, 1.49, 1.55, 1.56, 1.58, 1.65, 1.69, 1.7, 1.76, 1.77, 1.81, 1.91,
+      1.94, 1.96, 1.99, 2.06, 2.09, 2.1, 2.14, 2.15, 2.23, 2.24, 2.26, 2.35, 2.37, 2.4, 2.47, 2.54, 2.62, 2.64, 2.9, 2.92, 2.92, 2.93, 3.21,
+      3.26, 3.3, 3.59, 3.68, 4.3, 4.64, 5.34, 5.42, 6.01,
+    ];
+    await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members: rosner.map((x) => ({ figure: Math.exp(x) })), label: "esd" });
+    const settings = { method: "esd" as const, alpha: 0.05, maxOutliers: 10, k: 1.5 };
+    await updateComparisonSettings(db, { access: instructorAccess, lab, settings });
+    const stored = await storedLabels(lab.id);
+    expect(stored.filter((row) => row.label === "outlier")).toHaveLength(3);
+    expect(stored.every((row) => row.method.method === "esd")).toBe(true);
+    expect(stored.find((row) => row.label === "outlier")!.reason).toMatch(/R3 = 3\.18 > λ3 = 3\.14 at α = 0\.05, n = 54$/);
+    const [saved] = await db.select().from(labs).where(eq(labs.id, lab.id));
+    expect(saved.comparisonMethod).toBe("esd");
+    const reloaded = (await loadComparisonLab(db, fixture.courseId, lab.id))!;
+    expect(reloaded.settings.method).toBe("esd");
+    const preview = await previewLabSettings(db, reloaded, settings);
+    expect(preview.previews[0].counts.outlier).toBe(3);
+    // Grubbs is masked on these data (R₁ = 3.118 < λ₁ = 3.158): the preview's Grubbs row at α = 0.05 counts none.
+    const grubbsRow = preview.previews.find((row) => row.settings.method === "grubbs" && row.settings.alpha === 0.05)!;
+    expect(grubbsRow.counts.outlier).toBe(0);
+  });
+});
+
 describe("a hand-in arriving", () => {
   it("changes the others' labels at once when read, and in the stored labels once the job has run", async () => {
     const lab = (await loadComparisonLab(db, fixture.courseId, fixture.labId))!;
@@ -154,27 +182,41 @@ describe("a hand-in arriving", () => {
 });
 
 describe("kit-part quality", () => {
-  it("flags a sphere biased over three hand-ins and not an unbiased one, in one statement", async () => {
-    const [biased, unbiased] = await db
+  it("flags the sphere whose hand-ins differ from its peers' and not the peers, in one statement (Welch 1947, Holm 1979)", async () => {
+    const [biased, fair, alsoFair] = await db
       .insert(parts)
       .values([
         { courseId: fixture.courseId, kind: "sphere", label: "S-BIAS", material: "steel", diameterMm: 3, massG: 0.11 },
         { courseId: fixture.courseId, kind: "sphere", label: "S-FAIR", material: "steel", diameterMm: 3, massG: 0.11 },
+        { courseId: fixture.courseId, kind: "sphere", label: "S-FAIR-2", material: "steel", diameterMm: 3, massG: 0.11 },
       ])
       .returning();
     const lab = await newLab("Part quality");
+    // Every figure is about 5 % high (the reference model's own bias in this lab): S-BIAS is a further 10 % off.
     await seedClass(db, {
       courseId: fixture.courseId,
       labId: lab.id,
       cohortId: fixture.cohortId,
-      members: [1.14, 1.15, 1.16].map((figure) => ({ figure, sphereId: biased.id })).concat([0.99, 1.01, 1.0].map((figure) => ({ figure, sphereId: unbiased.id }))),
+      members: [
+        ...[1.14, 1.15, 1.16].map((figure) => ({ figure, sphereId: biased.id })),
+        ...[1.04, 1.06, 1.05].map((figure) => ({ figure, sphereId: fair.id })),
+        ...[1.045, 1.055, 1.05].map((figure) => ({ figure, sphereId: alsoFair.id })),
+      ],
       label: "bias",
     });
     const { statements, result } = await countStatements(() => listPartBias(db, fixture.courseId));
     expect(statements).toBe(1);
-    expect(result.get(biased.id)).toMatchObject({ n: 3, flagged: true });
-    expect(result.get(biased.id)!.meanBias).toBeCloseTo(0.15, 2);
-    expect(result.get(unbiased.id)).toMatchObject({ n: 3, flagged: false });
+    const report = result.get(biased.id)!;
+    expect(report).toMatchObject({ flagged: true });
+    // By hand: geometric means 1.1499 against the six peers' 1.0499 → +9.5 %.
+    expect(report.comparisons[0].relativeToPeers).toBeCloseTo(0.0952, 3);
+    expect(report.comparisons[0].labTitle).toBe("Part quality");
+    expect(result.get(fair.id)).toMatchObject({ flagged: false });
+    expect(result.get(alsoFair.id)).toMatchObject({ flagged: false });
+    // Asking for one part reads the same course-wide family.
+    const single = await listPartBias(db, fixture.courseId, biased.id);
+    expect([...single.keys()]).toEqual([biased.id]);
+    expect(single.get(biased.id)!.testsInFamily).toBe(report.testsInFamily);
   });
 });
 

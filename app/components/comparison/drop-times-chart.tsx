@@ -1,6 +1,6 @@
 /**
  * One drop log's timed drops in the order they were timed, with the mean and the stray drops (flagged
- * by Grubbs' test in the reduction) marked by shape and colour. For the hand-in pages and the dashboard.
+ * by the generalized ESD test in the reduction) marked by shape and colour. For the hand-in pages and the dashboard.
  */
 import { scaleLinear } from "d3-scale";
 import { formatNumber } from "~/lib/kits/part-display";
@@ -19,7 +19,7 @@ export function DropTimesChart({ drops, strayDrops, title, id = "drop-times" }: 
       id={id}
       title={title}
       description={`${drops.length} drop times in seconds in the order timed, with their mean ${formatNumber(mean)} s; ${stray.size} stray drop${stray.size === 1 ? "" : "s"} marked as squares.`}
-      caption={`Circles: drops; squares: stray drops flagged by Grubbs' test (kept in the log, reported separately). Line: the mean of all drops, ${formatNumber(mean)} s.`}
+      caption={`Circles: drops; squares: stray drops flagged by the generalized ESD test (kept in the log, reported separately). Line: the mean of all drops, ${formatNumber(mean)} s.`}
       table={
         <table className={chartTableClass}>
           <thead>

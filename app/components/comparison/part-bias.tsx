@@ -1,30 +1,54 @@
 /**
- * Kit-part quality on the inventory screens: a badge for a part whose hand-ins are biased, and the
- * evidence behind it (the t-test and the hand-ins it read).
+ * Kit-part quality on the inventory screens: a badge for a part whose hand-ins differ from those made
+ * with its peers, and the evidence behind it (the Welch tests per lab and the hand-ins they read).
  */
 import { handInHref } from "~/lib/comparison/links";
-import { MINIMUM_HAND_INS_FOR_BIAS } from "~/lib/comparison/part-bias";
+import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "~/lib/comparison/part-bias";
 import { formatNumber } from "~/lib/kits/part-display";
 
 export function PartBiasBadge() {
   return (
-    <span className="ml-2 inline-flex items-center rounded border border-outlier px-1.5 text-xs font-medium text-outlier" title="Results with this part are biased: re-measure it">
-      re-measure: biased results
+    <span className="ml-2 inline-flex items-center rounded border border-outlier px-1.5 text-xs font-medium text-outlier" title="Results with this part differ from those with other parts of its kind: re-measure it">
+      re-measure: differs from peers
     </span>
   );
 }
 
 type Evidence = {
-  n: number;
-  meanBias: number;
-  t: number | null;
-  criticalT: number | null;
   alpha: number;
   flagged: boolean;
+  testsInFamily: number;
+  comparisons: {
+    labId: string;
+    labTitle: string;
+    n: number;
+    peerCount: number;
+    peerParts: number;
+    relativeToPeers: number | null;
+    t: number | null;
+    degreesOfFreedom: number | null;
+    pValue: number | null;
+    holmLevel: number | null;
+    flagged: boolean;
+  }[];
   handIns: { dropLogId: string; labId: string; labTitle: string; studentName: string; figure: number }[];
 };
 
 const percent = (fraction: number) => `${fraction >= 0 ? "+" : "−"}${formatNumber(Math.abs(fraction) * 100, 2)} %`;
+
+/** One sentence per lab: the Welch test against the peers and Holm's verdict, or why there was no test. */
+function comparisonText(comparison: Evidence["comparisons"][number], alpha: number, testsInFamily: number): string {
+  const used = `${comparison.n} hand-in${comparison.n === 1 ? "" : "s"} with this part`;
+  if (comparison.t === null || comparison.pValue === null || comparison.degreesOfFreedom === null || comparison.relativeToPeers === null) {
+    return `${used}; no test: it needs at least ${MINIMUM_HAND_INS_FOR_BIAS} hand-ins with this part and ${MINIMUM_HAND_INS_FOR_BIAS} with at least ${MINIMUM_PEER_PARTS} other parts of its kind in the lab, with some spread.`;
+  }
+  const verdict = comparison.flagged
+    ? "differs from its peers — re-measure the part."
+    : comparison.holmLevel === null
+      ? "not reached by Holm's procedure: no evidence of a difference."
+      : "no evidence of a difference.";
+  return `${used}, ${percent(comparison.relativeToPeers)} from the ${comparison.peerCount} hand-ins with ${comparison.peerParts} other parts of its kind (geometric means). Welch's t = ${formatNumber(comparison.t, 3)}, ${formatNumber(comparison.degreesOfFreedom, 3)} degrees of freedom, p = ${formatNumber(comparison.pValue, 2)}${comparison.holmLevel !== null ? ` against Holm's level ${formatNumber(comparison.holmLevel, 2)}` : ""} (α = ${formatNumber(alpha, 2)} over the course's ${testsInFamily} test${testsInFamily === 1 ? "" : "s"}): ${verdict}`;
+}
 
 export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId: string }) {
   return (
@@ -33,12 +57,20 @@ export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId:
         Results with this part {bias.flagged ? <PartBiasBadge /> : null}
       </h2>
       <p className="text-sm text-ink-700">
-        {bias.n} counted hand-in{bias.n === 1 ? "" : "s"} used this part; their normalised figures are {percent(bias.meanBias)} from the reference on
-        average (geometric mean).{" "}
-        {bias.t !== null && bias.criticalT !== null
-          ? `One-sample t-test on ln figure against 0: t = ${formatNumber(bias.t, 3)}, critical t = ${formatNumber(bias.criticalT, 3)} at α = ${formatNumber(bias.alpha, 2)} (two-sided, ${bias.n - 1} degrees of freedom): ${bias.flagged ? "biased — re-measure the part." : "no evidence of bias."}`
-          : `A bias test needs at least ${MINIMUM_HAND_INS_FOR_BIAS} hand-ins whose figures vary.`}
+        Each lab's hand-ins with this part are compared with the hand-ins of the same lab that used other parts of the same kind (Welch's two-sample t
+        test on ln figure, Holm's correction over every part tested in the course), not with the reference: a bias of the reference model moves every
+        part alike.
       </p>
+      <ul className="list-disc pl-5 text-sm text-ink-700">
+        {bias.comparisons.map((comparison) => (
+          <li key={comparison.labId}>
+            <a href={`/courses/${courseId}/labs/${comparison.labId}/comparison`} className="underline">
+              {comparison.labTitle}
+            </a>
+            : {comparisonText(comparison, bias.alpha, bias.testsInFamily)}
+          </li>
+        ))}
+      </ul>
       <div className="overflow-x-auto">
         <table className="text-sm [&_td]:pr-6 [&_th]:pr-6 [&_th]:text-left [&_th]:font-medium">
           <caption className="mb-1 text-left font-medium">Hand-ins read by the test</caption>

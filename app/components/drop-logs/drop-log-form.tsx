@@ -361,7 +361,7 @@ export function DropLogForm({
                     />
                     {message || stray ? (
                       <p id={`drop-${index}-note`} className={`mt-1 ${message ? "font-medium text-outlier" : "text-amber-800"}`}>
-                        {message ?? "Stray drop (Grubbs' test): kept, and also reported without it."}
+                        {message ?? "Stray drop (generalized ESD test): kept, and also reported without it."}
                       </p>
                     ) : null}
                   </td>

@@ -6,6 +6,7 @@ import { useState, type ReactNode } from "react";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { SafetyCautions } from "~/components/safety-cautions";
 import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
+import { comparisonMethods, methodNames } from "~/lib/comparison/comparison-settings";
 import {
   allowedPartFields,
   dragModelNames,
@@ -181,11 +182,14 @@ export function LabFields({
       <Section title="Class comparison">
         <div className="grid gap-4 sm:grid-cols-4">
           <SelectField label="Method" {...field("comparisonMethod")}>
-            <option value="grubbs">Grubbs' test (iterative)</option>
-            <option value="iqr">Tukey's fences (interquartile range)</option>
+            {comparisonMethods.map((method) => (
+              <option key={method} value={method}>
+                {methodNames[method]}
+              </option>
+            ))}
           </SelectField>
-          <TextField label="Grubbs α" inputMode="decimal" {...field("comparisonAlpha")} />
-          <TextField label="Grubbs: at most this many removals" inputMode="numeric" {...field("comparisonMaxOutliers")} />
+          <TextField label="Grubbs / ESD α" inputMode="decimal" {...field("comparisonAlpha")} />
+          <TextField label="Grubbs: at most this many removals; ESD: upper bound r" inputMode="numeric" {...field("comparisonMaxOutliers")} />
           <TextField label="Tukey k" inputMode="decimal" {...field("comparisonK")} hint="Suspect beyond k, outlier beyond 2k." />
         </div>
       </Section>

@@ -1,6 +1,5 @@
 import { describe, expect, it } from "vitest";
 import { comparisonLimits, countLabels, labelClass, previewSettings, type ComparisonSettings } from "./comparison-settings";
-import { partBias } from "./part-bias";
 
 const grubbs: ComparisonSettings = { method: "grubbs", alpha: 0.05, maxOutliers: 3, k: 1.5 };
 const tukey: ComparisonSettings = { ...grubbs, method: "iqr" };
@@ -47,29 +46,11 @@ describe("class labels against published and hand-worked examples", () => {
     expect(Math.log(limits.inner[1])).toBeCloseTo(mean + 2.126 * s, 3);
   });
 
-  it("previews the chosen setting first, then three Grubbs levels and three fence factors", () => {
+  it("previews the chosen setting first, then three Grubbs levels, three ESD levels and three fence factors", () => {
     const previews = previewSettings(asFigures(worked), tukey, "drag");
-    expect(previews.map((preview) => preview.description)).toHaveLength(7);
+    expect(previews.map((preview) => preview.description)).toHaveLength(10);
+    expect(previews[4].description).toBe("generalized ESD test, α = 0.01, up to r = 3 outliers");
     expect(previews[0].counts).toEqual(countLabels(labelClass(asFigures(worked), tukey, "drag")));
     expect(previews[0].counts).toEqual({ consistent: 7, suspect: 1, outlier: 1 });
-  });
-});
-
-describe("partBias", () => {
-  // By hand: ln figures 0.1, 0.2, 0.3 → mean 0.2, s = 0.1, t = 0.2/(0.1/√3) = 3.464.
-  // t(0.975, 2) = 4.303 and t(0.95, 2) = 2.920 (NIST/SEMATECH e-Handbook §1.3.6.7.2 t table — from memory).
-  const figures = [0.1, 0.2, 0.3].map(Math.exp);
-
-  it("is not flagged at α = 0.05 and flagged at α = 0.10 for t = 3.46 with 2 degrees of freedom", () => {
-    const strict = partBias(figures, 0.05);
-    expect(strict.t).toBeCloseTo(3.4641, 3);
-    expect(strict.criticalT).toBeCloseTo(4.303, 3);
-    expect(strict.flagged).toBe(false);
-    expect(partBias(figures, 0.1)).toMatchObject({ flagged: true });
-    expect(strict.meanBias).toBeCloseTo(Math.exp(0.2) - 1, 12);
-  });
-
-  it("never flags a part with fewer than three hand-ins", () => {
-    expect(partBias([1.5, 1.6], 0.05)).toMatchObject({ n: 2, t: null, flagged: false });
   });
 });

@@ -7,6 +7,7 @@ import { z } from "zod";
 import {
   classComparison,
   grubbsCriticalValue,
+  MINIMUM_DROPS_FOR_STRAY_TEST,
   quantileType7,
   type ClassComparisonEntry,
   type ClassComparisonLabel,
@@ -16,20 +17,26 @@ import {
 export const comparisonLabels = ["consistent", "suspect", "outlier"] as const satisfies readonly ClassComparisonLabel[];
 
 export const comparisonSettings = z.object({
-  method: z.enum(["grubbs", "iqr"], { error: "Choose Grubbs' test or Tukey's fences." }),
+  method: z.enum(["grubbs", "esd", "iqr"], { error: "Choose Grubbs' test, the generalized ESD test or Tukey's fences." }),
   alpha: z.coerce.number({ error: "Enter a significance level." }).gt(0, "Use a level above 0.").max(0.2, "Use a level of at most 0.2."),
   maxOutliers: z.coerce.number({ error: "Enter a whole number." }).int("Enter a whole number.").min(1, "Allow at least one removal.").max(100, "Allow at most 100 removals."),
   k: z.coerce.number({ error: "Enter a fence factor." }).min(0.5, "Use a factor of at least 0.5.").max(10, "Use a factor of at most 10."),
 });
 export type ComparisonSettings = z.infer<typeof comparisonSettings>;
 
-export const methodNames: Record<ComparisonSettings["method"], string> = { grubbs: "Grubbs' test (iterative)", iqr: "Tukey's fences" };
+export const comparisonMethods = comparisonSettings.shape.method.options;
+
+export const methodNames: Record<ComparisonSettings["method"], string> = {
+  grubbs: "Grubbs' test (iterative)",
+  esd: "Generalized ESD test (Rosner)",
+  iqr: "Tukey's fences",
+};
 
 /** Plain words for a setting, as the page, the CSV and the API quote it. */
 export function describeSettings(settings: ComparisonSettings): string {
-  return settings.method === "grubbs"
-    ? `Grubbs' test, α = ${settings.alpha}, at most ${settings.maxOutliers} removal${settings.maxOutliers === 1 ? "" : "s"}`
-    : `Tukey's fences, k = ${settings.k} (outer ${2 * settings.k}), type-7 quartiles`;
+  if (settings.method === "grubbs") return `Grubbs' test, α = ${settings.alpha}, at most ${settings.maxOutliers} removal${settings.maxOutliers === 1 ? "" : "s"}`;
+  if (settings.method === "esd") return `generalized ESD test, α = ${settings.alpha}, up to r = ${settings.maxOutliers} outlier${settings.maxOutliers === 1 ? "" : "s"}`;
+  return `Tukey's fences, k = ${settings.k} (outer ${2 * settings.k}), type-7 quartiles`;
 }
 
 /** The engine's labels for a class under one setting; `quantity` names the figure in the reasons. */
@@ -45,10 +52,11 @@ export function countLabels(results: readonly { label: ClassComparisonLabel }[])
   return counts;
 }
 
-/** The settings the preview compares with the chosen one: three Grubbs levels and three fence factors. */
+/** The settings the preview compares with the chosen one: three Grubbs levels, three ESD levels and three fence factors. */
 export function alternativeSettings(chosen: ComparisonSettings): ComparisonSettings[] {
   return [
     ...[0.01, 0.05, 0.1].map((alpha) => ({ ...chosen, method: "grubbs" as const, alpha })),
+    ...[0.01, 0.05, 0.1].map((alpha) => ({ ...chosen, method: "esd" as const, alpha })),
     ...[1.5, 2.2, 3].map((k) => ({ ...chosen, method: "iqr" as const, k })),
   ];
 }
@@ -69,12 +77,13 @@ export type ComparisonLimits = { kind: "tukey" | "grubbs"; inner: [number, numbe
 
 /**
  * Where the method draws its lines over the whole class, in figure units. Tukey: the inner (k) and
- * outer (2k) fences on ln figure with type-7 quartiles. Grubbs: the first step's limits,
- * mean ± G_crit·s of ln figure at α (NIST/SEMATECH e-Handbook §1.3.5.17.1); later steps test the rest.
+ * outer (2k) fences on ln figure with type-7 quartiles. Grubbs and ESD: the first step's limits,
+ * mean ± G_crit·s of ln figure at α (NIST/SEMATECH e-Handbook §1.3.5.17.1; λ₁ of the ESD test, §1.3.5.17.3,
+ * is the same value); later steps test the rest. None below seven figures, where neither test is made.
  */
 export function comparisonLimits(figures: readonly number[], settings: ComparisonSettings): ComparisonLimits {
   const n = figures.length;
-  if (n < 3) return null;
+  if (n < (settings.method === "iqr" ? 3 : MINIMUM_DROPS_FOR_STRAY_TEST)) return null;
   const logs = Float64Array.from(figures, Math.log).sort();
   if (settings.method === "iqr") {
     const q1 = quantileType7(logs, 0.25);
@@ -94,6 +103,6 @@ export function comparisonLimits(figures: readonly number[], settings: Compariso
     kind: "grubbs",
     inner: [Math.exp(mean - critical * sd), Math.exp(mean + critical * sd)],
     outer: null,
-    note: `Grubbs limits of the first step: mean ± ${critical.toFixed(2)}·s of ln figure at α = ${settings.alpha}, n = ${n}`,
+    note: `${settings.method === "esd" ? "Generalized ESD λ₁" : "Grubbs"} limits of the first step: mean ± ${critical.toFixed(2)}·s of ln figure at α = ${settings.alpha}, n = ${n}`,
   };
 }

@@ -177,6 +177,7 @@ export function reduceDropLog({
     wallCorrection,
     dragModel,
     uncertainties: standardUncertainties,
+    timeResolution: resolutions.timeS,
     requiredDrops: lab.requiredDrops,
   };
   const reduction = reduceFallingSphere(engineInput);

@@ -107,7 +107,7 @@ export function labInputFor(timeZone: string) {
       requiredDrops: z.coerce
         .number({ error: "Enter the number of drops." })
         .int("Enter a whole number of drops.")
-        .min(3, "Ask for at least 3 drops: the stray-drop test needs them.")
+        .min(3, "Ask for at least 3 drops (the stray-drop test is made from 7).")
         .max(MAX_DROPS, `Ask for at most ${MAX_DROPS} drops.`),
       allowedSphereIds: allowedParts("spheres"),
       allowedFluidLotIds: allowedParts("fluid lots"),

@@ -6,6 +6,14 @@ import { reduceFallingSphere } from "./falling-sphere";
 // 37 figures spread evenly (in log space) within ±6 % of 1, plus one planted 31 % high.
 const CLASS = Array.from({ length: 37 }, (_, i) => ({ id: `s${i}`, figure: Math.exp(((i - 18) / 18) * 0.06) }));
 
+// NIST/SEMATECH e-Handbook §1.3.5.17.3: Rosner's 54 values (see generalized-esd.test.ts). As figures e^x, the
+// comparison's ln(figure) is the published data itself, so the handbook's R_i and λ_i apply unchanged.
+const ROSNER = [
+  -0.25, 0.68, 0.94, 1.15, 1.2, 1.26, 1.26, 1.34, 1.38, 1.43, 1.49, 1.49, 1.55, 1.56, 1.58, 1.65, 1.69, 1.7, 1.76, 1.77, 1.81, 1.91,
+  1.94, 1.96, 1.99, 2.06, 2.09, 2.1, 2.14, 2.15, 2.23, 2.24, 2.26, 2.35, 2.37, 2.4, 2.47, 2.54, 2.62, 2.64, 2.9, 2.92, 2.92, 2.93, 3.21,
+  3.26, 3.3, 3.59, 3.68, 4.3, 4.64, 5.34, 5.42, 6.01,
+].map((value, i) => ({ id: `r${i}`, figure: Math.exp(value) }));
+
 describe("classComparison — Grubbs", () => {
   it("labels a planted high figure an outlier and says why", () => {
     const [outlier, ...rest] = classComparison([{ id: "late", figure: 1.31 }, ...CLASS], {
@@ -13,8 +21,22 @@ describe("classComparison — Grubbs", () => {
       quantity: "viscosity",
     });
     expect(outlier.label).toBe("outlier");
-    expect(outlier.reason).toMatch(/^viscosity 31 % above the class median; Grubbs G = [\d.]+ > [\d.]+ at α = 0\.05, n = 38$/);
+    // G_crit(38, α = 0.05) = 3.01 by the NIST §1.3.5.17.1 formula, between Grubbs' (1969) tabulated 2.9085 (n = 30)
+    // and 3.1282 (n = 50) that grubbs.test.ts checks. By hand, ln 1.31 = 0.270 lies about 4.9 s from the mean.
+    expect(outlier.reason).toMatch(/^viscosity 31 % above the class median; Grubbs G = 4\.\d+ > 3\.01 at α = 0\.05, n = 38$/);
     expect(rest.every((entry) => entry.label === "consistent")).toBe(true);
+  });
+
+  it("is masked on Rosner's data where the ESD test is not (NIST §1.3.5.17.3: R₁ = 3.118 < λ₁ = 3.158)", () => {
+    const results = classComparison(ROSNER, { method: "grubbs", maxOutliers: 10 });
+    expect(results.filter((entry) => entry.label === "outlier")).toEqual([]);
+  });
+
+  it("labels nothing in a class of six, where Grubbs' test is not used (NIST §1.3.5.17.1)", () => {
+    const six = [1, 1.01, 0.99, 1.0, 1.02, 1.6].map((figure, i) => ({ id: `s${i}`, figure }));
+    const results = classComparison(six, { method: "grubbs" });
+    expect(results.every((entry) => entry.label === "consistent")).toBe(true);
+    expect(results[5].reason).toMatch(/too few hand-ins to compare \(n = 6, at least 7\)$/);
   });
 
   it("labels a figure flagged beyond the removal budget suspect", () => {
@@ -28,6 +50,24 @@ describe("classComparison — Grubbs", () => {
   it("calls everything consistent in a class too small to compare", () => {
     const results = classComparison([{ id: "a", figure: 1 }, { id: "b", figure: 9 }], { method: "grubbs" });
     expect(results.map((entry) => entry.label)).toEqual(["consistent", "consistent"]);
+  });
+});
+
+describe("classComparison — generalized ESD", () => {
+  it("labels the three outliers of the NIST e-Handbook §1.3.5.17.3 example (Rosner 1983) and quotes R₃ > λ₃", () => {
+    const results = classComparison(ROSNER, { method: "esd", maxOutliers: 10, quantity: "viscosity" });
+    const outliers = results.filter((entry) => entry.label === "outlier").map((entry) => entry.id);
+    expect(outliers.sort()).toEqual(["r51", "r52", "r53"]);
+    expect(results[53].reason).toMatch(/generalized ESD: removal 1 of 3 \(R1 = 3\.12\), R3 = 3\.18 > λ3 = 3\.14 at α = 0\.05, n = 54$/);
+  });
+
+  it("finds both figures of a masked pair that Grubbs' test misses (the issue's masking example as figures)", () => {
+    const masked = [5.02, 4.98, 5.01, 4.99, 5.0, 5.03, 4.97, 5.02, 4.99, 5.01, 6.1, 6.2].map((value, i) => ({ id: `m${i}`, figure: Math.exp(value) }));
+    const esd = classComparison(masked, { method: "esd", maxOutliers: 2 });
+    expect(esd.slice(10).map((entry) => entry.label)).toEqual(["outlier", "outlier"]);
+    expect(esd.slice(0, 10).every((entry) => entry.label === "consistent")).toBe(true);
+    const grubbs = classComparison(masked, { method: "grubbs", maxOutliers: 2 });
+    expect(grubbs.slice(10).some((entry) => entry.label === "outlier")).toBe(false);
   });
 });
 

@@ -1,6 +1,8 @@
 import { IssueList } from "./errors";
 import type { Reduction } from "./falling-sphere";
+import { generalizedEsdOfSorted } from "./generalized-esd";
 import { grubbsIterativeStepsOfSorted, type GrubbsStep } from "./grubbs";
+import { MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
 import { quantileType7 } from "./tukey";
 
 export interface ClassComparisonEntry {
@@ -21,10 +23,10 @@ export interface ClassComparisonResult {
 }
 
 export interface ClassComparisonOptions {
-  method: "grubbs" | "iqr";
-  /** Grubbs: significance of a removal (default 0.05). */
+  method: "grubbs" | "esd" | "iqr";
+  /** Grubbs and ESD: significance level (default 0.05). */
   alpha?: number;
-  /** Grubbs: most removals labelled outlier (default ⌊n/10⌋, at least 1). */
+  /** Grubbs: most removals labelled outlier; ESD: the upper bound r (default ⌊n/10⌋, at least 1). */
   maxOutliers?: number;
   /** Tukey: inner fence factor (default 1.5); the outer fence is 2k. */
   k?: number;
@@ -34,6 +36,9 @@ export interface ClassComparisonOptions {
 
 // Below this a class has no "rest" to compare with; our choice, matching Grubbs' own minimum.
 const MINIMUM_CLASS_SIZE = 3;
+// Grubbs' and the ESD test are not used on six values or fewer (NIST/SEMATECH e-Handbook §1.3.5.17.1),
+// the same limit as for the drops of a log; Tukey's fences keep the smaller minimum.
+const MINIMUM_CLASS_SIZE_FOR_DEVIATE_TESTS = MINIMUM_DROPS_FOR_STRAY_TEST;
 
 /**
  * Labels each hand-in of a lab against the rest of the class. Figures are compared in log space (a
@@ -44,6 +49,11 @@ const MINIMUM_CLASS_SIZE = 3;
  *   **outlier**: removed at α within the first `maxOutliers` removals. **suspect** (our definition): not
  *   an outlier, but removed when the test is repeated at the looser level 2α with twice the budget —
  *   so it covers both borderline values and values flagged at α beyond the budget.
+ * - `esd`: the generalized ESD test on ln(figure) with r = `maxOutliers` (Rosner 1983; NIST/SEMATECH
+ *   e-Handbook §1.3.5.17.3), which a second outlier cannot mask. **outlier**: among the first k removals,
+ *   k the largest i with Rᵢ > λᵢ at α. **suspect**: not an outlier, but an outlier of the same test at 2α
+ *   with 2r.
+ * - Grubbs and ESD label nothing in a class of six or fewer (NIST §1.3.5.17.1 caution).
  * - `iqr`: Tukey's fences on ln(figure) with type-7 quartiles (R's default): beyond Q1 − k·IQR or
  *   Q3 + k·IQR → **suspect**; beyond the outer fences at 2k (3 for k = 1.5) → **outlier**.
  */
@@ -52,7 +62,7 @@ export function classComparison(
   options: ClassComparisonOptions,
 ): ClassComparisonResult[] {
   const issues = new IssueList();
-  if (options.method !== "grubbs" && options.method !== "iqr") issues.add("method", 'must be "grubbs" or "iqr"');
+  if (options.method !== "grubbs" && options.method !== "esd" && options.method !== "iqr") issues.add("method", 'must be "grubbs", "esd" or "iqr"');
   const n = entries.length;
   // Each figure is checked inline; its path string is only built for one that fails.
   for (let i = 0; i < n; i++) {
@@ -80,8 +90,9 @@ export function classComparison(
   });
   const results: ClassComparisonResult[] = new Array(n);
 
-  if (n < MINIMUM_CLASS_SIZE) {
-    const describer = new MedianDistanceDescriber(quantity, `; too few hand-ins to compare (n = ${n})`);
+  const minimumSize = options.method === "iqr" ? MINIMUM_CLASS_SIZE : MINIMUM_CLASS_SIZE_FOR_DEVIATE_TESTS;
+  if (n < minimumSize) {
+    const describer = new MedianDistanceDescriber(quantity, `; too few hand-ins to compare (n = ${n}, at least ${minimumSize})`);
     for (let i = 0; i < n; i++) results[i] = result(i, "consistent", describer.consistentReason(logs[i] - medianLog));
     return results;
   }
@@ -113,26 +124,49 @@ export function classComparison(
   }
 
   const maxOutliers = options.maxOutliers ?? Math.max(1, Math.floor(n / 10));
-  const outlierSteps = grubbsIterativeStepsOfSorted(logs, sortedLogs, { alpha, maxOutliers });
   const looseAlpha = Math.min(2 * alpha, 0.5);
-  const looseSteps = grubbsIterativeStepsOfSorted(logs, sortedLogs, { alpha: looseAlpha, maxOutliers: 2 * maxOutliers });
+  const budgetText =
+    options.method === "esd"
+      ? ` (not an outlier at α = ${alpha} with r = ${maxOutliers})`
+      : ` (not removed at α = ${alpha} within ${maxOutliers} removal${maxOutliers === 1 ? "" : "s"})`;
+  let outlierSteps: GrubbsStep[];
+  let looseSteps: GrubbsStep[];
+  let stepText: (step: GrubbsStep, level: number, steps: readonly GrubbsStep[]) => string;
+  let describer: MedianDistanceDescriber;
+  if (options.method === "esd") {
+    const testAt = (level: number, bound: number) => {
+      const { steps, outlierCount } = generalizedEsdOfSorted(logs, sortedLogs, { alpha: level, maxOutliers: bound, minimumSize });
+      return steps.slice(0, outlierCount);
+    };
+    outlierSteps = testAt(alpha, maxOutliers);
+    looseSteps = testAt(looseAlpha, 2 * maxOutliers);
+    // The decision rests on the last significant step, Rₖ > λₖ; each outlier also quotes its own Rᵢ.
+    stepText = (step, level, steps) => {
+      const k = steps.length;
+      const deciding = steps[k - 1];
+      const i = steps.indexOf(step) + 1;
+      return `generalized ESD: removal ${i} of ${k} (R${i} = ${format(step.statistic)}), R${k} = ${format(deciding.statistic)} > λ${k} = ${format(deciding.critical)} at α = ${level}, n = ${n}`;
+    };
+    describer = new MedianDistanceDescriber(quantity, `; not flagged by the generalized ESD test at α = ${looseAlpha} (n = ${n})`);
+  } else {
+    outlierSteps = grubbsIterativeStepsOfSorted(logs, sortedLogs, { alpha, maxOutliers, minimumSize });
+    looseSteps = grubbsIterativeStepsOfSorted(logs, sortedLogs, { alpha: looseAlpha, maxOutliers: 2 * maxOutliers, minimumSize });
+    stepText = (step, level) => `Grubbs G = ${format(step.statistic)} > ${format(step.critical)} at α = ${level}, n = ${step.n}`;
+    describer = new MedianDistanceDescriber(quantity, `; not flagged by Grubbs' test at α = ${looseAlpha} (n = ${n})`);
+  }
   const outlierStepByIndex = new Map<number, GrubbsStep>();
   for (const step of outlierSteps) outlierStepByIndex.set(step.index, step);
   const suspectStepByIndex = new Map<number, GrubbsStep>();
   for (const step of looseSteps) if (!outlierStepByIndex.has(step.index)) suspectStepByIndex.set(step.index, step);
-  const grubbsText = (step: GrubbsStep, level: number) =>
-    `Grubbs G = ${format(step.statistic)} > ${format(step.critical)} at α = ${level}, n = ${step.n}`;
-  const budgetText = ` (not removed at α = ${alpha} within ${maxOutliers} removal${maxOutliers === 1 ? "" : "s"})`;
-  const describer = new MedianDistanceDescriber(quantity, `; not flagged by Grubbs' test at α = ${looseAlpha} (n = ${n})`);
 
   for (let i = 0; i < n; i++) {
     const distance = logs[i] - medianLog;
     const outlierStep = outlierSteps.length > 0 ? outlierStepByIndex.get(i) : undefined;
     const suspectStep = looseSteps.length > 0 && !outlierStep ? suspectStepByIndex.get(i) : undefined;
     if (outlierStep) {
-      results[i] = result(i, "outlier", `${describer.describe(distance)}; ${grubbsText(outlierStep, alpha)}`);
+      results[i] = result(i, "outlier", `${describer.describe(distance)}; ${stepText(outlierStep, alpha, outlierSteps)}`);
     } else if (suspectStep) {
-      results[i] = result(i, "suspect", `${describer.describe(distance)}; ${grubbsText(suspectStep, looseAlpha)}${budgetText}`);
+      results[i] = result(i, "suspect", `${describer.describe(distance)}; ${stepText(suspectStep, looseAlpha, looseSteps)}${budgetText}`);
     } else {
       results[i] = result(i, "consistent", describer.consistentReason(distance));
     }

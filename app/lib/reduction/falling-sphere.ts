@@ -1,7 +1,7 @@
 import { DRAG_MODEL_RANGES, referenceDragCoefficient, referenceDragLogSlope, type DragModel } from "./drag";
 import { IssueList } from "./errors";
-import { grubbsIterativeSteps } from "./grubbs";
 import { describeDrops, type DropStatistics } from "./statistics";
+import { findStrayDrops } from "./stray-drops";
 import { WALL_MODEL_RANGES, wallFactor, type WallCorrectionMethod } from "./wall";
 
 export type ReductionMode = "drag" | "viscometry";
@@ -74,8 +74,10 @@ export interface FallingSphereInput {
   wallCorrection?: WallCorrectionMethod;
   dragModel?: DragModel;
   uncertainties?: StandardUncertainties;
-  /** Stray-drop test (two-sided iterative Grubbs): α, 0.05 by default; at most ⌊n/5⌋ drops (≥ 1) flagged. */
+  /** Stray-drop test (generalized ESD, from 7 drops): α, 0.05 by default; at most ⌊n/5⌋ drops (≥ 1) flagged. */
   strayDropTest?: { alpha?: number; maxStrayDrops?: number };
+  /** Reading resolution of the drop times (s), 0.01 s by default; a deviation within it is never a stray drop. */
+  timeResolution?: number;
   /** The lab's required number of drops; fewer gives a warning. Default 5. */
   requiredDrops?: number;
 }
@@ -104,7 +106,7 @@ export type ReductionCheckCode =
   | "fluid-temperature-unknown";
 
 export interface DropResults extends DropStatistics {
-  /** Indices of drops flagged by Grubbs' test (in order of removal). */
+  /** Indices of drops flagged by the stray-drop test (generalized ESD, in order of removal). */
   strayDrops: number[];
   /** Each drop's own velocity L/tᵢ (m/s). */
   velocities: number[];
@@ -240,11 +242,8 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
   // --- drops and stray drops
   const n = times.length;
   const stats = describeDrops(times);
-  const alpha = input.strayDropTest?.alpha ?? 0.05;
-  const maxStrayDrops = input.strayDropTest?.maxStrayDrops ?? Math.max(1, Math.floor(n / 5));
-  const straySteps = n >= 3 ? grubbsIterativeSteps(times, { alpha, maxOutliers: maxStrayDrops }) : [];
-  const strayDrops = new Array<number>(straySteps.length);
-  for (let i = 0; i < straySteps.length; i++) strayDrops[i] = straySteps[i].index;
+  const strayTest = findStrayDrops(times, { ...input.strayDropTest, timeResolution: input.timeResolution });
+  const strayDrops = strayTest.strayDrops;
   const velocities = new Array<number>(n);
   for (let i = 0; i < n; i++) velocities[i] = L / times[i];
 
@@ -369,25 +368,7 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
       message: "A single drop gives no scatter: no standard deviation, interval or Type A uncertainty.",
     });
   }
-  if (n < 3) {
-    checks.push({
-      code: "stray-drop-test-not-applicable",
-      level: "info",
-      message: "Grubbs' test needs at least 3 drops; no stray-drop test was made.",
-    });
-  }
-  if (straySteps.length > 0) {
-    let listed = "";
-    for (const step of straySteps) {
-      if (listed !== "") listed += ", ";
-      listed += `drop ${step.index + 1} (${format(times[step.index])} s; G = ${format(step.statistic)} > ${format(step.critical)}, n = ${step.n})`;
-    }
-    checks.push({
-      code: "stray-drops",
-      level: "warn",
-      message: `Grubbs' test at α = ${alpha} flags ${listed} as stray. Results are given with all drops and without the stray ones.`,
-    });
-  }
+  if (strayTest.check) checks.push(strayTest.check);
   if (ρs < ρf) {
     checks.push({
       code: "sphere-lighter-than-fluid",
@@ -674,6 +655,7 @@ function validate(input: FallingSphereInput): void {
   if (maxStrayDrops !== undefined && !(Number.isInteger(maxStrayDrops) && maxStrayDrops >= 0)) {
     issues.add("strayDropTest.maxStrayDrops", "must be a whole number ≥ 0");
   }
+  issues.optionalNonNegative("timeResolution", input.timeResolution);
   if (input.requiredDrops !== undefined && !(Number.isInteger(input.requiredDrops) && input.requiredDrops >= 1)) {
     issues.add("requiredDrops", "must be a whole number ≥ 1");
   }

@@ -102,7 +102,6 @@ export interface GrubbsIterativeOptions {
   alpha?: number;
   /** Stop after this many removals; by default the test runs until nothing is flagged or n < 3. */
   maxOutliers?: number;
-  sides?: GrubbsSides;
 }
 
 /** One removal of the iterative test, with the figures that justified it. */
@@ -119,8 +118,8 @@ export interface GrubbsStep {
  * test the rest again (the repeated use the NIST e-Handbook §1.3.5.17.1 describes). Returns the steps
  * in the order of removal, each with its G, critical value and n, so a report can quote them.
  *
- * Values are sorted once; the extreme value is then always at one end of the remaining range, and the
- * mean and deviation are updated from running sums, so a class of thousands costs O(n log n), not O(n²).
+ * Two-sided only: a one-sided critical value applied to whichever tail is farther has size 2α, so the
+ * iterative test offers no one-sided variant ({@link grubbsTest} tests one named tail correctly).
  */
 export function grubbsIterativeSteps(
   values: readonly number[],
@@ -133,56 +132,112 @@ export function grubbsIterativeSteps(
 /**
  * {@link grubbsIterativeSteps} for a caller that already holds the values sorted ascending (the class
  * comparison sorts once for its median and runs the test twice), so nothing is sorted again here.
- * Not part of the public exports.
+ * `minimumSize` (default 3) is the smallest set still tested. Not part of the public exports.
  */
 export function grubbsIterativeStepsOfSorted(
   values: ArrayLike<number>,
   sorted: ArrayLike<number>,
-  options: GrubbsIterativeOptions = {},
+  options: GrubbsIterativeOptions & { minimumSize?: number } = {},
 ): GrubbsStep[] {
-  const { alpha = 0.05, sides = 2 } = options;
-  const maxOutliers = options.maxOutliers ?? Number.POSITIVE_INFINITY;
+  return studentizedDeviateSteps(values, sorted, {
+    alpha: options.alpha ?? 0.05,
+    maxSteps: options.maxOutliers ?? Number.POSITIVE_INFINITY,
+    minimumSize: options.minimumSize ?? 3,
+    resolution: 0,
+    untilNotSignificant: true,
+  });
+}
+
+/** One step of the extreme studentized deviate sequence: the value removed and its deviation |x − x̄|. */
+export interface StudentizedDeviateStep extends GrubbsStep {
+  deviation: number;
+}
+
+export interface StudentizedDeviateOptions {
+  alpha: number;
+  maxSteps: number;
+  /** The smallest set still tested (at least 3). */
+  minimumSize: number;
+  /**
+   * Reading resolution (0 for none): a value within it of the mean of the rest is never removed, and R
+   * is taken from |x − x̄| less half of it, the nearest the true value can lie.
+   */
+  resolution: number;
+  /** Iterative Grubbs stops at the first step that is not significant; the generalized ESD test does not. */
+  untilNotSignificant: boolean;
+}
+
+// A downdate that loses more than three digits of the sum of squares is redone by two passes.
+const PRECISION_LOSS_LIMIT = 1e-3;
+// Readings rounded to the resolution deviate by it up to a rounding error of the mean; not more.
+const RESOLUTION_TOLERANCE = 1 + 1e-9;
+
+/**
+ * The sequence both Grubbs' iterative test and the generalized ESD test read (NIST/SEMATECH e-Handbook
+ * §1.3.5.17.1 and §1.3.5.17.3): R = max|xᵢ − x̄|/s of the remaining values, the most extreme removed,
+ * repeated; each step carries Grubbs' critical value for the remaining n, which equals Rosner's λᵢ.
+ *
+ * Values are sorted once, so the extreme value is always at one end of the remaining range. The mean
+ * and the sum of squared deviations start from two passes and are downdated per removal (Welford);
+ * when a removal cancels most of the sum of squares (a value far out, such as 1e8 among values near
+ * 10) they are recomputed by two passes over what is left, so no precision is lost and a class of
+ * thousands still costs O(n log n).
+ */
+export function studentizedDeviateSteps(
+  values: ArrayLike<number>,
+  sorted: ArrayLike<number>,
+  options: StudentizedDeviateOptions,
+): StudentizedDeviateStep[] {
+  const { alpha, maxSteps, resolution, untilNotSignificant } = options;
+  const minimumSize = Math.max(3, options.minimumSize);
   const n = values.length;
-  const steps: GrubbsStep[] = [];
-  if (n < 3 || maxOutliers < 1) return steps;
-
-  const shift = sorted[n >> 1];
-  // Shifted by the median and scaled by the range, so the running sums stay well conditioned.
-  const scale = sorted[n - 1] - sorted[0];
-  if (!(scale > 0)) return steps;
-  let sum = 0;
-  let sumOfSquares = 0;
-  for (let i = 0; i < n; i++) {
-    const shifted = (values[i] - shift) / scale;
-    sum += shifted;
-    sumOfSquares += shifted * shifted;
-  }
-
+  const steps: StudentizedDeviateStep[] = [];
+  if (n < minimumSize || maxSteps < 1) return steps;
   let low = 0;
   let high = n - 1;
-  while (high - low + 1 >= 3 && steps.length < maxOutliers) {
+  let { mean, sumOfSquares } = twoPass(sorted, low, high);
+  const resolutionLimit = resolution * RESOLUTION_TOLERANCE;
+  while (high - low + 1 >= minimumSize && steps.length < maxSteps) {
     const remaining = high - low + 1;
-    const lowValue = (sorted[low] - shift) / scale;
-    const highValue = (sorted[high] - shift) / scale;
-    if (highValue === lowValue) break;
-    const mean = sum / remaining;
-    const variance = (sumOfSquares - sum * mean) / (remaining - 1);
-    if (!(variance > 0)) break;
-    const sd = Math.sqrt(variance);
-    const highSide = highValue - mean >= mean - lowValue;
-    const statistic = (highSide ? highValue - mean : mean - lowValue) / sd;
-    const critical = grubbsCriticalValue(remaining, alpha, sides);
-    if (!(statistic > critical)) break;
-    const removed = highSide ? highValue : lowValue;
+    if (sorted[high] === sorted[low] || !(sumOfSquares > 0)) break;
+    const highDeviation = sorted[high] - mean;
+    const lowDeviation = mean - sorted[low];
+    const highSide = highDeviation >= lowDeviation;
+    const deviation = highSide ? highDeviation : lowDeviation;
+    // Within the reading resolution nothing stands out, however small the spread of the rest.
+    if (deviation <= resolutionLimit) break;
+    // A reading rounded to the resolution may lie half a step closer to the mean than it reads: the
+    // deviation it can be sure of is |x − x̄| − resolution/2 (0 resolution: the textbook R).
+    const statistic = (deviation - resolution / 2) / Math.sqrt(sumOfSquares / (remaining - 1));
+    const critical = grubbsCriticalValue(remaining, alpha);
+    if (untilNotSignificant && !(statistic > critical)) break;
     // For now `index` holds the position in sorted order; it is turned into the input index below.
-    steps.push({ index: highSide ? high : low, statistic, critical, n: remaining });
-    sum -= removed;
-    sumOfSquares -= removed * removed;
-    if (highSide) high--;
-    else low++;
+    steps.push({ index: highSide ? high : low, statistic, critical, n: remaining, deviation });
+    const removed = highSide ? sorted[high--] : sorted[low++];
+    const nextMean = mean + (mean - removed) / (remaining - 1);
+    const nextSumOfSquares = sumOfSquares - (removed - mean) * (removed - nextMean);
+    if (nextSumOfSquares > sumOfSquares * PRECISION_LOSS_LIMIT) {
+      mean = nextMean;
+      sumOfSquares = nextSumOfSquares;
+    } else {
+      ({ mean, sumOfSquares } = twoPass(sorted, low, high));
+    }
   }
   if (steps.length > 0) replacePositionsByIndices(values, sorted, steps, low, n - 1 - high);
   return steps;
+}
+
+/** Mean and sum of squared deviations of sorted[low..high], by two passes. */
+function twoPass(sorted: ArrayLike<number>, low: number, high: number): { mean: number; sumOfSquares: number } {
+  let sum = 0;
+  for (let i = low; i <= high; i++) sum += sorted[i];
+  const mean = sum / (high - low + 1);
+  let sumOfSquares = 0;
+  for (let i = low; i <= high; i++) {
+    const deviation = sorted[i] - mean;
+    sumOfSquares += deviation * deviation;
+  }
+  return { mean, sumOfSquares };
 }
 
 /**
@@ -245,8 +300,9 @@ const smallSortScratch = new Float64Array(32);
 /**
  * The values sorted ascending. Up to 32 values (a drop log) go by insertion sort into a reused buffer,
  * which beats a typed-array sort at that size; larger sets get their own copy and the native sort.
+ * The small buffer is reused by the next call: read it before sorting again. Not part of the public exports.
  */
-function sortedCopy(values: readonly number[]): Float64Array {
+export function sortedCopy(values: readonly number[]): Float64Array {
   const n = values.length;
   if (n > smallSortScratch.length) return Float64Array.from(values).sort();
   const sorted = smallSortScratch;

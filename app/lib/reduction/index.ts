@@ -26,9 +26,13 @@ export type {
   ViscometryKeyResults,
   ViscometryReduction,
 } from "./falling-sphere";
+export { generalizedEsd } from "./generalized-esd";
+export type { GeneralizedEsdOptions, GeneralizedEsdResult } from "./generalized-esd";
 export { grubbsCriticalValue, grubbsIterative, grubbsIterativeSteps, grubbsTest } from "./grubbs";
-export type { GrubbsIterativeOptions, GrubbsSides, GrubbsStep, GrubbsTestOptions, GrubbsTestResult } from "./grubbs";
+export type { GrubbsIterativeOptions, GrubbsSides, GrubbsStep, GrubbsTestOptions, GrubbsTestResult, StudentizedDeviateStep } from "./grubbs";
 export { describeDrops, studentTQuantile } from "./statistics";
+export { DEFAULT_TIME_RESOLUTION_S, findStrayDrops, MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
+export type { StrayDropFinding, StrayDropOptions } from "./stray-drops";
 export type { DropStatistics } from "./statistics";
 export { quantileType7, tukeyFences } from "./tukey";
 export type { TukeyFences } from "./tukey";

@@ -69,7 +69,7 @@ export type LabelledHandIn = CountedHandIn & { label: ClassComparisonLabel; reas
 export const quantityOf = (kind: ComparisonLab["kind"]) => (kind === "viscometry" ? "viscosity" : "drag");
 
 export const settingsOf = (lab: { comparisonMethod: string; comparisonAlpha: number; comparisonMaxOutliers: number; comparisonK: number }): ComparisonSettings => ({
-  method: lab.comparisonMethod === "iqr" ? "iqr" : "grubbs",
+  method: lab.comparisonMethod === "iqr" || lab.comparisonMethod === "esd" ? lab.comparisonMethod : "grubbs",
   alpha: lab.comparisonAlpha,
   maxOutliers: lab.comparisonMaxOutliers,
   k: lab.comparisonK,

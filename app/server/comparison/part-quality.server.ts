@@ -1,20 +1,24 @@
 /**
- * Kit-part quality: the normalised figures of every counted hand-in of the course's labs, grouped by
- * the sphere, fluid lot and column they used, and tested for bias (see `partBias`). One statement for
- * the whole course, whatever the number of labs, parts and hand-ins.
+ * Kit-part quality: the normalised figures of every counted hand-in of the course's labs, read with the
+ * sphere, fluid lot and column they used, and each part compared with its peers of the same kind in the
+ * same lab (see `partBiasByPeers`). One statement for the whole course, whatever the number of labs,
+ * parts and hand-ins; the Holm family is always the whole course, also when one part is asked for.
  */
 import { sql } from "drizzle-orm";
-import { partBias, type PartBias } from "~/lib/comparison/part-bias";
+import { partBiasByPeers, type PartBias, type PartKind, type PeerComparison } from "~/lib/comparison/part-bias";
 import type { Executor } from "~/server/db.server";
 
 export type PartBiasHandIn = { dropLogId: string; labId: string; labTitle: string; studentName: string; figure: number; submittedAt: string };
-export type PartBiasReport = PartBias & { partId: string; alpha: number; handIns: PartBiasHandIn[] };
+export type PartLabComparison = PeerComparison & { labTitle: string };
+export type PartBiasReport = Omit<PartBias, "comparisons"> & { partId: string; alpha: number; comparisons: PartLabComparison[]; handIns: PartBiasHandIn[] };
 
 type Row = {
   part_id: string;
+  part_kind: PartKind;
   drop_log_id: string;
   lab_id: string;
   lab_title: string;
+  lab_kind: "drag" | "viscometry";
   student_name: string;
   figure: number;
   submitted_at: Date | string;
@@ -23,27 +27,38 @@ type Row = {
 
 /**
  * The bias report of every part of the course that some counted hand-in used (or of one part), with the
- * course's significance level. A version names its sphere, fluid lot and column; each is one group.
+ * course's significance level. A version names its sphere, fluid lot and column; each is tested among
+ * the parts of its own kind.
  */
 export async function listPartBias(executor: Executor, courseId: string, partId?: string): Promise<Map<string, PartBiasReport>> {
+  // The hand-ins that count: the latest version of each drop log of the course's labs, with a figure.
+  const counted = sql`l.course_id = ${courseId} and v.normalised_figure > 0 and p.part_id is not null`;
   const result = await executor.execute<Row>(sql`
-    select p.part_id, dl.id as drop_log_id, l.id as lab_id, l.title as lab_title, u.name as student_name,
-      v.normalised_figure::float8 as figure, v.submitted_at, c.part_bias_alpha::float8 as alpha
+    select p.part_id, p.part_kind, dl.id as drop_log_id, l.id as lab_id, l.title as lab_title, l.kind as lab_kind,
+      u.name as student_name, v.normalised_figure::float8 as figure, v.submitted_at, c.part_bias_alpha::float8 as alpha
     from labs l
     join courses c on c.id = l.course_id
     join drop_logs dl on dl.lab_id = l.id
     join drop_log_versions v on v.id = dl.latest_version_id
     join course_memberships m on m.id = dl.membership_id
     join users u on u.id = m.user_id
-    cross join lateral (values (v.sphere_id), (v.fluid_lot_id), (v.column_id)) as p(part_id)
-    where l.course_id = ${courseId} and v.normalised_figure > 0 and p.part_id is not null
-      ${partId ? sql`and p.part_id = ${partId}` : sql``}
+    cross join lateral (values (v.sphere_id, 'sphere'), (v.fluid_lot_id, 'fluid_lot'), (v.column_id, 'column')) as p(part_id, part_kind)
+    where ${counted}
     order by p.part_id, v.submitted_at`);
-  const grouped = new Map<string, { alpha: number; handIns: PartBiasHandIn[] }>();
-  for (const row of result.rows) {
-    let group = grouped.get(row.part_id);
-    if (!group) grouped.set(row.part_id, (group = { alpha: row.alpha, handIns: [] }));
-    group.handIns.push({
+  const rows = result.rows;
+  const alpha = rows[0]?.alpha ?? 0.05;
+  const biases = partBiasByPeers(
+    rows.map((row) => ({ partId: row.part_id, partKind: row.part_kind, labId: row.lab_id, mode: row.lab_kind, figure: row.figure })),
+    alpha,
+  );
+  const labTitles = new Map<string, string>();
+  const handInsByPart = new Map<string, PartBiasHandIn[]>();
+  for (const row of rows) {
+    labTitles.set(row.lab_id, row.lab_title);
+    if (partId && row.part_id !== partId) continue;
+    let handIns = handInsByPart.get(row.part_id);
+    if (!handIns) handInsByPart.set(row.part_id, (handIns = []));
+    handIns.push({
       dropLogId: row.drop_log_id,
       labId: row.lab_id,
       labTitle: row.lab_title,
@@ -53,8 +68,16 @@ export async function listPartBias(executor: Executor, courseId: string, partId?
     });
   }
   const reports = new Map<string, PartBiasReport>();
-  for (const [id, group] of grouped) {
-    reports.set(id, { ...partBias(group.handIns.map((handIn) => handIn.figure), group.alpha), partId: id, alpha: group.alpha, handIns: group.handIns });
+  for (const [id, handIns] of handInsByPart) {
+    const bias = biases.get(id)!;
+    reports.set(id, {
+      flagged: bias.flagged,
+      testsInFamily: bias.testsInFamily,
+      comparisons: bias.comparisons.map((comparison) => ({ ...comparison, labTitle: labTitles.get(comparison.labId) ?? "" })),
+      partId: id,
+      alpha,
+      handIns,
+    });
   }
   return reports;
 }
