@@ -4,7 +4,7 @@
  * locks only the student's own drop_logs row, so a whole class handing in at the deadline does not
  * queue behind one lock.
  */
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
@@ -26,7 +26,8 @@ export type HandInRefusalCode =
   | "sphere_not_in_kit"
   | "kit_incomplete"
   | "not_open"
-  | "past_cutoff";
+  | "past_cutoff"
+  | "mark_released";
 
 const refusalStatus: Record<HandInRefusalCode, number> = {
   invalid_input: 400,
@@ -40,6 +41,7 @@ const refusalStatus: Record<HandInRefusalCode, number> = {
   kit_incomplete: 409,
   not_open: 409,
   past_cutoff: 409,
+  mark_released: 409,
 };
 
 /** A hand-in (or preview, or draft) the server will not take; the message tells the student what to do. */
@@ -58,6 +60,12 @@ export class HandInRefusedError extends Error {
 }
 
 export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
+
+/** Whether the student's mark for the lab is released: read inside the statements a hand-in runs anyway. */
+const markReleased = (labId: SQLWrapper | string, membershipId: string) =>
+  sql<boolean>`exists (select 1 from marks mk where mk.lab_id = ${labId} and mk.membership_id = ${membershipId} and mk.released_at is not null)`;
+
+export const markReleasedMessage = "Your mark for this lab is released: it takes no more hand-ins from you. Ask your instructor if something went wrong.";
 export type KitPart = StudentLab["kitParts"][number];
 
 /**
@@ -73,6 +81,7 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
         lab: labs,
         gravity: courses.localGravity,
         inCohort: sql<boolean>`exists (select 1 from lab_cohorts lc where lc.lab_id = ${labs.id} and lc.cohort_id = ${access.membership.cohortId})`,
+        markReleased: markReleased(labs.id, access.membership.id),
       })
       .from(labs)
       .innerJoin(courses, eq(courses.id, labs.courseId))
@@ -107,7 +116,9 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
   if (!row.inCohort) throw new HandInRefusedError("not_in_cohort", "This lab is not set for your cohort.");
   const allowed = row.lab.allowedPartIds;
   const usable = allowed.length ? kitPartRows.filter((part) => allowed.includes(part.id)) : kitPartRows;
-  return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable };
+  // The lab's policy decides what a hand-in after release does; the page says so before the student tries.
+  const afterRelease = row.markReleased ? row.lab.afterReleaseHandIns : null;
+  return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
 }
 
 /** The sphere the student chose and the kit's fluid lot and column the lab allows. */
@@ -190,7 +201,7 @@ export async function handInDropLog(
       .insert(dropLogs)
       .values({ labId, membershipId: access.membership.id })
       .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { labId: sql`excluded.lab_id` } })
-      .returning({ id: dropLogs.id });
+      .returning({ id: dropLogs.id, markReleased: markReleased(labId, access.membership.id) });
     const [earlier] = await tx
       .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
       .from(dropLogVersions)
@@ -206,6 +217,9 @@ export async function handInDropLog(
         lab.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
       );
     }
+    // Read as the drop log was locked. With "reopen" the hand-in is taken and the mark reopened below.
+    const reopen = dropLog.markReleased && lab.afterReleaseHandIns === "reopen";
+    if (dropLog.markReleased && !reopen) throw new HandInRefusedError("mark_released", markReleasedMessage);
     const [inserted] = await tx
       .insert(dropLogVersions)
       .values({
@@ -237,9 +251,11 @@ export async function handInDropLog(
         .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
       return { version: stored, duplicate: true };
     }
-    // The new version counts and takes the draft's photos with it: one statement for both tables.
+    // The new version counts and takes the draft's photos with it (and, under "reopen", reopens the
+    // released mark, which keeps the version it was marked on): one statement for all three tables.
     await tx.execute(sql`
       with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null)
+      ${reopen ? sql`, reopened as (update marks set reopened_at = ${now.toISOString()}::timestamptz where lab_id = ${labId} and membership_id = ${access.membership.id} and released_at is not null)` : sql``}
       update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}`);
     await queueClassComparison(tx, labId);
     return { version: inserted, duplicate: false };
