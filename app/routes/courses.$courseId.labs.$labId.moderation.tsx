@@ -37,6 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     progress: moderation.progress,
     released: moderation.released,
     changedAfterRelease: moderation.changedAfterRelease,
+    needsRemarking: moderation.needsRemarking,
     release: moderation.release,
     marked: moderation.rows
       .filter((row) => row.mark)
@@ -115,7 +116,7 @@ function Histogram({ counts, bins, tallest, label }: { counts: number[]; bins: {
 }
 
 export default function ModerationPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, release, marked, changes } = loaderData;
+  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, needsRemarking, release, marked, changes } = loaderData;
   const busy = useNavigation().state === "submitting";
   const failed = actionData && "error" in actionData ? actionData : null;
   const tallest = Math.max(1, ...markers.flatMap((marker) => marker.histogram), ...overall.histogram);
@@ -143,7 +144,8 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
           {lab.releasedAt ? (
             <>
               {released} marks released, last on <LabTime at={lab.releasedAt} courseTimeZone={timeZone} />
-              {changedAfterRelease ? `; ${changedAfterRelease} changed since, shown to their students with the reason` : ""}.
+              {changedAfterRelease ? `; ${changedAfterRelease} changed since, shown to their students with the reason` : ""}
+              {needsRemarking ? `; ${needsRemarking} reopened by a hand-in after the release: mark them again at the desk` : ""}.
             </>
           ) : (
             "Nothing released: students see no marks."

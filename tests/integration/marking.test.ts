@@ -621,6 +621,7 @@ describe("release safeguards", () => {
     expect(row).toMatchObject({ needsRemarking: true, handInChangedSinceMarked: true, markedHandIn: { version: 1, late: false, dropCount: 5 }, handIn: { version: 2, late: true } });
     // The automatic criteria read the version marked: 5 drops, so no points for "Enough drops".
     expect(row.suggestions[enough.id].points).toBe(0);
+    expect((await loadModeration(db, { access: instructor, lab })).needsRemarking).toBe(1);
 
     // The export names the version marked and the latest, and every figure is the marked one's.
     const exported = (await loadMarksJson(db, { access: instructor, lab })).marks.find((entry) => entry.membershipId === membershipId)!;

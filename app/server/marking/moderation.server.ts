@@ -52,6 +52,8 @@ export type Moderation = {
   released: number;
   /** Released marks that differ from what was released. */
   changedAfterRelease: number;
+  /** Released marks reopened by a hand-in after release, waiting to be marked again. */
+  needsRemarking: number;
   /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
   rows: MarkingDeskRow[];
   /** What a release would find now: the counts its choices act on, and who may still hand in. */
@@ -188,6 +190,7 @@ export async function loadModeration(
     progress,
     released: released.length,
     changedAfterRelease: released.filter((row) => row.mark!.releasedSnapshot && !sameContent(row.mark!.releasedSnapshot, row.mark!)).length,
+    needsRemarking: rows.filter((row) => row.needsRemarking).length,
     rows,
     release: previewRelease(rows, windows, now).preview,
   };
