@@ -535,6 +535,11 @@ describe("release safeguards", () => {
     expect(zeroChange).toMatchObject({ source: "moderation", reason: "Released as zero: nothing was handed in.", changedById: fixture.userIds.instructor });
     expect(await db.select().from(marks).where(and(eq(marks.labId, lab.id), inArray(marks.membershipId, [unmarked, extended])))).toEqual([]);
     expect(await db.select().from(emailOutbox).where(like(emailOutbox.dedupeKey, `marks-released:${lab.id}:%`))).toHaveLength(4);
+
+    // A cohort's extension opens the lab again for all of its students; the student's own extension still decides for them.
+    const cohortUntil = new Date(Date.now() + 3 * day);
+    await db.insert(labExtensions).values({ labId: lab.id, cohortId, dueAt: new Date(Date.now() + day), lateCutoffAt: cohortUntil, reason: "Kits shipped late" });
+    expect((await loadModeration(db, { access: instructor, lab })).release.stillOpen).toEqual({ students: 6, until: cohortUntil.toISOString() });
   });
 
   it("runs the same statements releasing 5 or 300 students", async () => {
