@@ -542,6 +542,27 @@ describe("release safeguards", () => {
     expect((await loadModeration(db, { access: instructor, lab })).release.stillOpen).toEqual({ students: 6, until: cohortUntil.toISOString() });
   });
 
+  it("on the moderation page, needs a choice of whom to release and keeps it when the release must be confirmed", async () => {
+    const lab = await labWithRubric("Release form", { cohortIds: [fixture.cohortId] });
+    await markLabReady(db, { access: accessOf("instructor"), lab });
+    const { action } = await import("~/routes/courses.$courseId.labs.$labId.moderation");
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const post = async (form: Record<string, string>) => {
+      const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/moderation`, { cookie, form });
+      // A refusal comes back as `data(…, { status })`, a success as the plain object.
+      const result = (await action({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never)) as Record<string, unknown>;
+      const refused = result.type === "DataWithResponseInit";
+      return { status: refused ? (result.init as { status: number }).status : 200, data: (refused ? result.data : result) as { error?: string; values?: Record<string, string>; done?: string } };
+    };
+    const unchosen = await post({ intent: "release" });
+    expect(unchosen).toMatchObject({ status: 400, data: { error: expect.stringContaining("Choose whom to release") } });
+    // The lab is open until tomorrow: the release waits for the confirmation, and the form keeps the choice.
+    const unconfirmed = await post({ intent: "release", scope: "all", zeroForNoHandIn: "on" });
+    expect(unconfirmed).toMatchObject({ status: 409, data: { error: expect.stringContaining("may still hand in"), values: { scope: "all", zeroForNoHandIn: "on" } } });
+    const confirmed = await post({ intent: "release", scope: "all", whileOpen: "on" });
+    expect(confirmed).toMatchObject({ status: 200, data: { done: expect.stringMatching(/^Released \d+ marks? and queued/) } });
+  });
+
   it("runs the same statements releasing 5 or 300 students", async () => {
     const statementsFor = async (size: number) => {
       const cohortId = await freshCohort(`Release ${size}`);
