@@ -302,10 +302,12 @@ function ReleaseForm({ release, timeZone, busy, again, values }: { release: Prev
             </>
           ) : null}
           . After the release, a hand-in from a student whose mark is released is handled as the lab says: {afterReleaseHandInNames[release.afterReleaseHandIns].toLowerCase()}.
-          <label className="mt-2 flex items-center gap-2">
-            <input type="checkbox" name="whileOpen" defaultChecked={values?.whileOpen === "on"} /> Release anyway, while hand-ins are still possible
-          </label>
         </Notice>
+      ) : null}
+      {stillOpen.students ? (
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" name="whileOpen" defaultChecked={values?.whileOpen === "on"} /> Release anyway, while hand-ins are still possible
+        </label>
       ) : null}
       <fieldset className="flex flex-col gap-1 text-sm">
         <legend className="font-medium">Whom to release</legend>

@@ -95,6 +95,7 @@ describe("marking at the desk in Chromium", () => {
     await release.getByLabel("Release anyway, while hand-ins are still possible").check();
     await release.getByRole("button", { name: /^Release \d+ marks? and e-mail their students$/ }).click();
     await page.getByText(/^Released \d+ marks/).waitFor();
+    expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
     await signOut(page, base);
 
     const [student] = (
