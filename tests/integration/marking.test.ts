@@ -13,7 +13,7 @@ import { HandInRefusedError, handInDropLog, loadStudentLab } from "~/server/drop
 import { loadMarksJson } from "~/server/marking/mark-export.server";
 import { loadMarkingDesk, readMarkingDeskFilters, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
 import { loadMarkingLab, MarkingRefusedError, type MarkingLab } from "~/server/marking/marking-lab.server";
-import { applyToMany, saveMark, saveMarkCell } from "~/server/marking/marks.server";
+import { applyToMany, markingLock, saveMark, saveMarkCell } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
 import { copyRubric, saveRubric } from "~/server/marking/rubrics.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
@@ -608,6 +608,33 @@ describe("release safeguards", () => {
     const response = (await action({ request, params: { labId: lab.id }, context: {} } as never)) as Response;
     expect(response.status).toBe(409);
     expect(await response.json()).toMatchObject({ error: { code: "mark_released" } });
+    const [dropLog] = await db.select().from(dropLogs).where(and(eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, fixture.membershipIds.ownStudent)));
+    expect((await db.execute(sql`select count(*)::int as n from drop_log_versions where drop_log_id = ${dropLog.id}`)).rows[0]).toEqual({ n: 1 });
+  });
+
+  it("makes a hand-in that arrives during a release wait for it, and then refuses it", async () => {
+    const lab = await labWithRubric("After release: race", { cohortIds: [fixture.cohortId] });
+    const student = accessOf("ownStudent");
+    const input = { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] };
+    await handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-race-1", input });
+    await saveMarkCell(db, { access: accessOf("instructor"), labId: lab.id, membershipId: fixture.membershipIds.ownStudent, criterionId: byTitle(lab, "Discussion").id, points: 2, expectedVersion: 0 });
+    // A release holding the lab's marking lock, as `releaseMarks` does, that has written the mark but not committed.
+    let finish!: () => void;
+    let written!: () => void;
+    const wrote = new Promise<void>((resolve) => (written = resolve));
+    const releasing = db.transaction(async (tx) => {
+      await tx.execute(markingLock(lab.id, "exclusive"));
+      await tx.execute(sql`update marks set released_at = now() where lab_id = ${lab.id}`);
+      written();
+      await new Promise<void>((resolve) => (finish = resolve));
+    });
+    await wrote;
+    const handIn = handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-race-2", input }).catch((error: unknown) => error);
+    const settled = await Promise.race([handIn.then(() => "settled"), new Promise((resolve) => setTimeout(() => resolve("waiting"), 300))]);
+    expect(settled).toBe("waiting");
+    finish();
+    await releasing;
+    expect(await handIn).toMatchObject({ code: "mark_released" });
     const [dropLog] = await db.select().from(dropLogs).where(and(eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, fixture.membershipIds.ownStudent)));
     expect((await db.execute(sql`select count(*)::int as n from drop_log_versions where drop_log_id = ${dropLog.id}`)).rows[0]).toEqual({ n: 1 });
   });

@@ -2,7 +2,8 @@
  * A student's drop log for a lab: the draft saved as they type, the live preview, and the hand-in,
  * which recomputes the reduction on the server and stores it as a new immutable version. A hand-in
  * locks only the student's own drop_logs row, so a whole class handing in at the deadline does not
- * queue behind one lock.
+ * queue behind one lock (it also holds the lab's marking lock shared, which only a release, taking
+ * it exclusively, waits for: a hand-in then sees whether that release covered the student's mark).
  */
 import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
@@ -14,6 +15,7 @@ import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { queueClassComparison } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { markingLock } from "~/server/marking/marks.server";
 
 export type HandInRefusalCode =
   | "invalid_input"
@@ -195,13 +197,15 @@ export async function handInDropLog(
   const warningCount = warnings.filter((warning) => warning.level !== "info").length;
 
   return executor.transaction(async (tx) => {
-    // The only lock a hand-in takes: this student's own drop log, which the upsert creates or locks (as
+    // The only row a hand-in locks: this student's own drop log, which the upsert creates or locks (as
     // ON CONFLICT DO UPDATE does) in one statement. Versions are numbered under it.
     const [dropLog] = await tx
       .insert(dropLogs)
       .values({ labId, membershipId: access.membership.id })
       .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { labId: sql`excluded.lab_id` } })
-      .returning({ id: dropLogs.id, markReleased: markReleased(labId, access.membership.id) });
+      // The lab's marking lock, shared (hand-ins never wait for each other), taken in this statement: a
+      // release under way finishes first, so the statements below see whether it released this mark.
+      .returning({ id: dropLogs.id, marking: sql`(${markingLock(labId, "shared")}) is null` });
     const [earlier] = await tx
       .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
       .from(dropLogVersions)
@@ -217,9 +221,6 @@ export async function handInDropLog(
         lab.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
       );
     }
-    // Read as the drop log was locked. With "reopen" the hand-in is taken and the mark reopened below.
-    const reopen = dropLog.markReleased && lab.afterReleaseHandIns === "reopen";
-    if (dropLog.markReleased && !reopen) throw new HandInRefusedError("mark_released", markReleasedMessage);
     const [inserted] = await tx
       .insert(dropLogVersions)
       .values({
@@ -251,12 +252,16 @@ export async function handInDropLog(
         .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
       return { version: stored, duplicate: true };
     }
-    // The new version counts and takes the draft's photos with it (and, under "reopen", reopens the
-    // released mark, which keeps the version it was marked on): one statement for all three tables.
-    await tx.execute(sql`
+    // The new version counts and takes the draft's photos with it: one statement for both tables. It
+    // also says whether the student's mark is released: "refuse" then rolls the hand-in back, "reopen"
+    // reopens that mark (which keeps the version it was marked on) in the same statement.
+    const reopen = lab.afterReleaseHandIns === "reopen";
+    const counted = await tx.execute<{ markReleased: boolean }>(sql`
       with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null)
       ${reopen ? sql`, reopened as (update marks set reopened_at = ${now.toISOString()}::timestamptz where lab_id = ${labId} and membership_id = ${access.membership.id} and released_at is not null)` : sql``}
-      update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}`);
+      update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}
+      returning ${markReleased(labId, access.membership.id)} as "markReleased"`);
+    if (counted.rows[0].markReleased && !reopen) throw new HandInRefusedError("mark_released", markReleasedMessage);
     await queueClassComparison(tx, labId);
     return { version: inserted, duplicate: false };
   });
