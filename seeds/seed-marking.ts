@@ -172,9 +172,12 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
     });
   }
 
-  // The drag lab is released; its e-mails wait in the outbox for the worker.
+  // The drag lab is released, the fully marked students only; its e-mails wait in the outbox for the worker.
+  // Its late cut-off is still ahead, so the instructor confirms releasing while hand-ins are possible:
+  // students with no hand-in get nothing released (they still may hand in), and a released student's
+  // late hand-in is refused (the lab's default policy).
   await markLabReady(db, { access: instructor, lab: drag });
-  await releaseMarks(db, { access: instructor, lab: drag });
+  await releaseMarks(db, { access: instructor, lab: drag, choice: { scope: "marked", zeroForNoHandIn: false, whileOpen: true } });
 
   // A released mark changed afterwards, with the reason the student is shown.
   const lexi = scenario.students.find((student) => student.email.startsWith("lexi.armstrong@"));

@@ -25,6 +25,7 @@ import {
 } from "drizzle-orm/pg-core";
 import { kitStates } from "../lib/kits/kit-states";
 import type { MarkScores, MarkState, ReleasedMarkSnapshot } from "../lib/marking/marks";
+import { afterReleaseHandInPolicies } from "../lib/marking/release";
 import { autoRules, criterionKinds, type AutoRuleParams, type RubricLevel } from "../lib/marking/rubric";
 
 const createdAt = () => timestamp("created_at", { withTimezone: true }).notNull().defaultNow();
@@ -516,6 +517,8 @@ export const emailOutboxRelations = relations(emailOutbox, ({ one }) => ({
 
 export const experimentKind = pgEnum("experiment_kind", ["drag", "viscometry"]);
 export const labStatus = pgEnum("lab_status", ["draft", "published", "closed"]);
+/** What a hand-in from a student whose mark is already released does: refused, or taken with the mark reopened for re-marking. */
+export const afterReleaseHandIns = pgEnum("after_release_hand_ins", afterReleaseHandInPolicies);
 
 /** Instrument resolutions a lab assumes, in the units of the bench; they feed the uncertainty budget. */
 export type LabResolutions = { diameterMm: number; massG: number; distanceMm: number; timeS: number; temperatureC: number };
@@ -547,6 +550,8 @@ export const labs = pgTable(
     resolutions: jsonb("resolutions").$type<LabResolutions>().notNull(),
     /** Hours before the due time at which students without a hand-in are reminded. */
     reminderOffsetsHours: integer("reminder_offsets_hours").array().notNull().default(sql`'{48,6}'::integer[]`),
+    /** A hand-in after the student's mark is released: refused (the default), or taken and the mark reopened. */
+    afterReleaseHandIns: afterReleaseHandIns("after_release_hand_ins").notNull().default("refuse"),
     publishedAt: timestamp("published_at", { withTimezone: true }),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
@@ -852,6 +857,11 @@ export const marks = pgTable(
     releasedAt: timestamp("released_at", { withTimezone: true }),
     /** What the student saw at release, so a later change can be shown as "changed after release". */
     releasedSnapshot: jsonb("released_snapshot").$type<ReleasedMarkSnapshot>(),
+    /**
+     * Set when a hand-in after release (the lab's policy "reopen") made this released mark need re-marking;
+     * `drop_log_version_id` still names the version it was marked on. Cleared when it is marked again.
+     */
+    reopenedAt: timestamp("reopened_at", { withTimezone: true }),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },

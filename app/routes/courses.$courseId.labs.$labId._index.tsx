@@ -15,7 +15,7 @@ import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-
 import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
-import { HandInRefusedError, getDropLogForStudent, handInDropLog, loadStudentLab, saveDraft } from "~/server/drop-logs/hand-in.server";
+import { HandInRefusedError, getDropLogForStudent, handInDropLog, loadStudentLab, markReleasedMessage, saveDraft } from "~/server/drop-logs/hand-in.server";
 
 async function studentLab(access: CourseAccess, labId: string) {
   try {
@@ -72,6 +72,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null,
     },
     timing: lab.status === "published" ? handInTiming(lab, new Date()) : "closed",
+    /** Set when the student's mark is released: what a hand-in now does, by the lab's policy. */
+    afterRelease: context.afterRelease,
     hasKit: context.kitParts.length > 0,
     spheres: usable("sphere").map(({ id, label, material, diameterMm, massG }) => ({ id, label, material, diameterMm, massG })),
     fluidLots: usable("fluid_lot").map(({ id, label, fluidName, densityKgM3 }) => ({ id, label, fluidName, densityKgM3 })),
@@ -82,6 +84,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     versions: versions.map(versionView),
     photos: dropLog?.photos.map(photoView) ?? [],
     mark,
+    releasedMessage: markReleasedMessage,
   };
 }
 
@@ -130,7 +133,8 @@ const timingNotes = {
 } as const;
 
 export default function LabPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, timing, hasKit, spheres, fluidLots, columns, kitsNotHome, draft, versions, photos, latestVersionId, mark } = loaderData;
+  const { courseId, timeZone, lab, timing, hasKit, spheres, fluidLots, columns, kitsNotHome, draft, versions, photos, latestVersionId, mark, afterRelease, releasedMessage } = loaderData;
+  const open = timing === "on-time" || timing === "late";
   const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
   const errors = actionData && "errors" in actionData ? actionData.errors : null;
   const draftPhotos = photos.filter((photo) => photo.versionId === null);
@@ -158,6 +162,10 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
         </Notice>
       ) : null}
       {timingNotes[timing] ? <Notice tone={timing === "closed" ? "error" : "warning"}>{timingNotes[timing]}</Notice> : null}
+      {open && afterRelease === "refuse" ? <Notice tone="error">{releasedMessage}</Notice> : null}
+      {open && afterRelease === "reopen" ? (
+        <Notice tone="warning">Your mark for this lab is released. A new hand-in is still taken: your mark is then reopened and marked again on the new version.</Notice>
+      ) : null}
 
       {lab.instructions ? (
         <section aria-labelledby="instructions-heading">
@@ -186,7 +194,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
             fluidLots={fluidLots}
             columns={columns}
             draft={draft}
-            canHandIn={timing === "on-time" || timing === "late"}
+            canHandIn={open && afterRelease !== "refuse"}
             serverErrors={errors}
           />
         </div>

@@ -21,6 +21,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     { header: "late", value: (row) => (row.late ? "yes" : "no") },
     { header: "late_penalty", value: (row) => (row.total === null ? null : row.latePenaltyPoints) },
     { header: "released_at", value: (row) => row.releasedAt },
+    // Last, so a gradebook import set up for the columns above keeps working: which version was marked.
+    { header: "marked_version", value: (row) => row.markedVersion?.number ?? null },
+    { header: "latest_version", value: (row) => row.latestVersion },
   ]);
   return csvResponse(`marks-${lab.title}.csv`, csv);
 }

@@ -15,6 +15,7 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { TableHead } from "~/components/ui/table-head";
 import { formValues } from "~/lib/forms/parse-form";
+import { afterReleaseHandInNames, releaseChoice, releasedCount, type ReleaseCounts } from "~/lib/marking/release";
 import type { MarkChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
 import { MarkingRefusedError, requireMarkingAccess } from "~/server/marking/marking-lab.server";
@@ -36,6 +37,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     progress: moderation.progress,
     released: moderation.released,
     changedAfterRelease: moderation.changedAfterRelease,
+    needsRemarking: moderation.needsRemarking,
+    release: moderation.release,
     marked: moderation.rows
       .filter((row) => row.mark)
       .map((row) => ({ membershipId: row.membershipId, name: row.studentName, total: row.total, version: row.expectedVersion, markedBy: row.mark!.markedBy?.name ?? null })),
@@ -51,7 +54,12 @@ const adjustment = z.object({
   value: z.coerce.number({ error: "Enter a number." }).finite(),
   reason: z.string().trim().min(3, "Say why the mark is adjusted: it is kept with the change.").max(500),
 });
-const moderationAction = z.discriminatedUnion("intent", [z.object({ intent: z.literal("ready") }), z.object({ intent: z.literal("reopen") }), z.object({ intent: z.literal("release") }), adjustment]);
+const moderationAction = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("ready") }),
+  z.object({ intent: z.literal("reopen") }),
+  releaseChoice.extend({ intent: z.literal("release") }),
+  adjustment,
+]);
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
@@ -65,9 +73,10 @@ export async function action({ request, params }: Route.ActionArgs) {
       return { done: input.intent === "ready" ? "Marking is closed to TAs: marks can now be checked and released." : "Marking is open to TAs again." };
     }
     if (input.intent === "release") {
-      const outcome = await releaseMarks(db, { access, lab, request });
+      const { intent: _intent, ...choice } = input;
+      const outcome = await releaseMarks(db, { access, lab, choice, request });
       return {
-        done: `Released ${outcome.released} mark${outcome.released === 1 ? "" : "s"} and queued ${outcome.emailed} e-mail${outcome.emailed === 1 ? "" : "s"}${outcome.unmarked ? `; ${outcome.unmarked} students have no mark yet and see nothing` : ""}.`,
+        done: `Released ${plural(outcome.released, "mark")}${outcome.zeros ? ` (${outcome.zeros} of them zero for no hand-in)` : ""} and queued ${plural(outcome.emailed, "e-mail")}${outcome.withheld ? `; ${plural(outcome.withheld, "student")} see nothing yet` : ""}.`,
       };
     }
     const criterion = lab.rubric.find((entry) => `criterion:${entry.id}` === input.target);
@@ -85,6 +94,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     throw error;
   }
 }
+
+const plural = (count: number, word: string) => `${count} ${word}${count === 1 ? "" : "s"}`;
 
 const round = (value: number | null, digits = 1) => (value === null ? "—" : value.toFixed(digits));
 
@@ -105,7 +116,7 @@ function Histogram({ counts, bins, tallest, label }: { counts: number[]; bins: {
 }
 
 export default function ModerationPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, marked, changes } = loaderData;
+  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, needsRemarking, release, marked, changes } = loaderData;
   const busy = useNavigation().state === "submitting";
   const failed = actionData && "error" in actionData ? actionData : null;
   const tallest = Math.max(1, ...markers.flatMap((marker) => marker.histogram), ...overall.histogram);
@@ -133,7 +144,8 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
           {lab.releasedAt ? (
             <>
               {released} marks released, last on <LabTime at={lab.releasedAt} courseTimeZone={timeZone} />
-              {changedAfterRelease ? `; ${changedAfterRelease} changed since, shown to their students with the reason` : ""}.
+              {changedAfterRelease ? `; ${changedAfterRelease} changed since, shown to their students with the reason` : ""}
+              {needsRemarking ? `; ${needsRemarking} reopened by a hand-in after the release: mark them again at the desk` : ""}.
             </>
           ) : (
             "Nothing released: students see no marks."
@@ -146,22 +158,11 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
               {lab.readyAt ? "Open the marking to TAs again" : "Close the marking to TAs"}
             </Button>
           </Form>
-          {lab.readyAt ? (
-            <Form
-              method="post"
-              onSubmit={(event) => {
-                if (!window.confirm(`Release ${progress.marked + progress.partial - released} marks? Their students are e-mailed and see their marks and feedback.`)) event.preventDefault();
-              }}
-            >
-              <input type="hidden" name="intent" value="release" />
-              <Button type="submit" disabled={busy}>
-                {released ? "Release the marks added since" : "Release the marks"}
-              </Button>
-            </Form>
-          ) : (
+          {lab.readyAt ? null : (
             <p className="self-center text-sm text-ink-700">Close the marking to TAs before releasing, so nothing changes under you.</p>
           )}
         </div>
+        {lab.readyAt ? <ReleaseForm release={release} timeZone={timeZone} busy={busy} again={released > 0} values={failed?.values} /> : null}
       </section>
 
       <section aria-labelledby="markers-heading">
@@ -257,6 +258,77 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
         )}
       </section>
     </div>
+  );
+}
+
+type Preview = Route.ComponentProps["loaderData"]["release"];
+
+/** Each standing's count, in the words the release form uses. */
+const standingWords: [keyof ReleaseCounts, string][] = [
+  ["fully-marked", "fully marked"],
+  ["partly-marked", "partly marked"],
+  ["marked-on-earlier-version", "marked on an earlier version than their latest hand-in"],
+  ["not-marked", "handed in, not marked yet (never released)"],
+  ["no-hand-in", "handed in nothing, and can no longer"],
+  ["no-hand-in-still-open", "handed in nothing yet, and still may (never released)"],
+  ["released", "already released"],
+];
+
+/** Release, as a choice with its counts: nothing is released before the instructor picks whom. */
+function ReleaseForm({ release, timeZone, busy, again, values }: { release: Preview; timeZone: string; busy: boolean; again: boolean; values?: Record<string, string> }) {
+  const [scope, setScope] = useState(values?.scope ?? "");
+  const [zeroForNoHandIn, setZeroForNoHandIn] = useState(values?.zeroForNoHandIn === "on");
+  const { counts, stillOpen } = release;
+  const count = scope === "marked" || scope === "all" ? releasedCount(counts, { scope, zeroForNoHandIn }) : null;
+  return (
+    <Form method="post" className="flex flex-col gap-3 border-t border-ink-900/10 pt-3" aria-labelledby="release-heading">
+      <input type="hidden" name="intent" value="release" />
+      <h3 id="release-heading" className="font-semibold">
+        {again ? "Release the marks added since" : "Release the marks"}
+      </h3>
+      <ul className="text-sm" aria-label="Where the students stand">
+        {standingWords.map(([standing, words]) => (
+          <li key={standing}>
+            <span className="tabular-nums">{counts[standing]}</span> {words}
+          </li>
+        ))}
+      </ul>
+      {stillOpen.students ? (
+        <Notice tone="warning">
+          {stillOpen.students} student{stillOpen.students === 1 ? "" : "s"} may still hand in (extensions counted)
+          {stillOpen.until ? (
+            <>
+              , until <LabTime at={stillOpen.until} courseTimeZone={timeZone} />
+            </>
+          ) : null}
+          . After the release, a hand-in from a student whose mark is released is handled as the lab says: {afterReleaseHandInNames[release.afterReleaseHandIns].toLowerCase()}.
+        </Notice>
+      ) : null}
+      {stillOpen.students ? (
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" name="whileOpen" defaultChecked={values?.whileOpen === "on"} /> Release anyway, while hand-ins are still possible
+        </label>
+      ) : null}
+      <fieldset className="flex flex-col gap-1 text-sm">
+        <legend className="font-medium">Whom to release</legend>
+        <label className="flex items-center gap-2">
+          <input type="radio" name="scope" value="marked" checked={scope === "marked"} onChange={() => setScope("marked")} required /> Only the fully marked students ({counts["fully-marked"]})
+        </label>
+        <label className="flex items-center gap-2">
+          <input type="radio" name="scope" value="all" checked={scope === "all"} onChange={() => setScope("all")} /> Every marked student, partly marked included (
+          {counts["fully-marked"] + counts["partly-marked"] + counts["marked-on-earlier-version"]})
+        </label>
+        <label className="mt-1 flex items-center gap-2">
+          <input type="checkbox" name="zeroForNoHandIn" checked={zeroForNoHandIn} onChange={(event) => setZeroForNoHandIn(event.target.checked)} /> Release zero for no hand-in ({counts["no-hand-in"]}
+          ; a mark already given to one of them is released as it is)
+        </label>
+      </fieldset>
+      <div>
+        <Button type="submit" disabled={busy || count === null}>
+          {count === null ? "Choose whom to release" : `Release ${count} mark${count === 1 ? "" : "s"} and e-mail their students`}
+        </Button>
+      </div>
+    </Form>
   );
 }
 

@@ -63,6 +63,14 @@ describe("lab input", () => {
     );
   });
 
+  it("keeps the after-release policy: refuse unless chosen, an unknown value refused at its field, and stored as chosen", async () => {
+    expect(labForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00" }).afterReleaseHandIns).toBe("refuse");
+    const unknown = labInputFor("UTC").safeParse(rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", afterReleaseHandIns: "accept" }));
+    expect(unknown.error?.issues.map((issue) => issue.path.join("."))).toEqual(["afterReleaseHandIns"]);
+    const lab = await createLab(db, { access: instructor(), input: labForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", afterReleaseHandIns: "reopen" }) });
+    expect((await getLab(db, fixture.courseId, lab.id))!.afterReleaseHandIns).toBe("reopen");
+  });
+
   it("reads the due time in the course's zone: 23:59 in Dublin in summer is 22:59 UTC", () => {
     const lab = labForm({ opensAt: "2027-07-01T09:00", dueAt: "2027-07-08T23:59" }, "Europe/Dublin");
     expect(lab.dueAt.toISOString()).toBe("2027-07-08T22:59:00.000Z");

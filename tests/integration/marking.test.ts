@@ -6,13 +6,14 @@
  */
 import { and, count, eq, inArray, like, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { auditEvents, cohorts, courseMemberships, dropLogs, emailOutbox, labCohorts, labs, markChanges, marks, rubricCriteria, taCohortAssignments } from "~/db/schema";
+import { auditEvents, cohorts, courseMemberships, dropLogs, emailOutbox, labCohorts, labExtensions, labs, markChanges, marks, rubricCriteria, taCohortAssignments } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
-import { handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { HandInRefusedError, handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
+import { loadMarksJson } from "~/server/marking/mark-export.server";
 import { loadMarkingDesk, readMarkingDeskFilters, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
 import { loadMarkingLab, MarkingRefusedError, type MarkingLab } from "~/server/marking/marking-lab.server";
-import { applyToMany, saveMark, saveMarkCell } from "~/server/marking/marks.server";
+import { applyToMany, markingLock, saveMark, saveMarkCell } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
 import { copyRubric, saveRubric } from "~/server/marking/rubrics.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
@@ -354,36 +355,42 @@ describe("moderation and release", () => {
     const lab = await labWithRubric("Release", { cohortIds: [fixture.cohortId] });
     const setUp = byTitle(lab, "Set-up described");
     const discussion = byTitle(lab, "Discussion");
-    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(3), label: "release" });
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: quietClass(4), label: "release" });
     const ta = accessOf("assignedTa");
     const instructor = accessOf("instructor");
-    await applyToMany(db, { access: ta, labId: lab.id, membershipIds: [...membershipIds, fixture.membershipIds.ownStudent], change: { kind: "score", criterionId: setUp.id, level: 3 } });
+    // Handed in before it is marked: the mark rests on this version.
+    await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, idempotencyKey: "mk-release-hand-in", input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] } });
+    await applyToMany(db, { access: ta, labId: lab.id, membershipIds: [...membershipIds.slice(0, 3), fixture.membershipIds.ownStudent], change: { kind: "score", criterionId: setUp.id, level: 3 } });
     await applyToMany(db, { access: ta, labId: lab.id, membershipIds: [fixture.membershipIds.ownStudent], change: { kind: "feedback", text: "Clear photo; say which band you started the watch at." } });
     const outbox = () => db.select().from(emailOutbox).where(like(emailOutbox.dedupeKey, `marks-released:${lab.id}:%`));
-    await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, idempotencyKey: "mk-release-hand-in", input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] } });
+    // Every mark lacks the discussion: all partly marked, so whom to release matters.
+    const all = { scope: "all", zeroForNoHandIn: false, whileOpen: true } as const;
 
     expect(await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id })).toBeNull();
-    expect((await refusal(releaseMarks(db, { access: instructor, lab }))).code).toBe("not_ready");
+    expect((await refusal(releaseMarks(db, { access: instructor, lab, choice: all }))).code).toBe("not_ready");
     expect((await refusal(markLabReady(db, { access: ta, lab }))).code).toBe("instructors_only");
     await markLabReady(db, { access: instructor, lab });
     // Ready: TAs no longer change marks; the instructor still may.
     expect((await refusal(saveMarkCell(db, { access: ta, labId: lab.id, membershipId: membershipIds[0], criterionId: discussion.id, points: 1, expectedVersion: 1 }))).code).toBe("marking_closed");
     expect(await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id })).toBeNull();
 
-    expect(await releaseMarks(db, { access: instructor, lab })).toMatchObject({ released: 4, emailed: 4, unmarked: (await activeStudents(fixture.cohortId)) - 4 });
+    expect(await releaseMarks(db, { access: instructor, lab, choice: all })).toMatchObject({ released: 4, zeros: 0, emailed: 4, withheld: (await activeStudents(fixture.cohortId)) - 4 });
     const sent = await outbox();
     expect(sent.map((row) => row.toAddress)).toContain("ownstudent@mk.example");
     expect(sent).toHaveLength(4);
     expect(sent.every((row) => row.template === "marks-released" && row.courseId === fixture.courseId)).toBe(true);
-    expect(await releaseMarks(db, { access: instructor, lab })).toMatchObject({ released: 0, emailed: 0, alreadyReleased: 4 });
+    expect(await releaseMarks(db, { access: instructor, lab, choice: all })).toMatchObject({ released: 0, emailed: 0, alreadyReleased: 4 });
     expect(await outbox()).toHaveLength(4);
 
     // A student marked after the first release is e-mailed by the next one, and nobody else again.
+    await saveMarkCell(db, { access: instructor, labId: lab.id, membershipId: membershipIds[3], criterionId: setUp.id, level: 1, expectedVersion: 0 });
+    // A student who handed in nothing (and still may) gets nothing released, even with a mark.
     await saveMarkCell(db, { access: instructor, labId: lab.id, membershipId: fixture.membershipIds.sameCohortStudent, criterionId: setUp.id, level: 1, expectedVersion: 0 });
-    expect(await releaseMarks(db, { access: instructor, lab })).toMatchObject({ released: 1, emailed: 1 });
-    const all = await outbox();
-    expect(all).toHaveLength(5);
-    expect(new Set(all.map((row) => row.toAddress)).size).toBe(5);
+    expect(await releaseMarks(db, { access: instructor, lab, choice: { ...all, zeroForNoHandIn: true } })).toMatchObject({ released: 1, zeros: 0, emailed: 1 });
+    const again = await outbox();
+    expect(again).toHaveLength(5);
+    expect(new Set(again.map((row) => row.toAddress)).size).toBe(5);
+    expect(again.map((row) => row.toAddress)).not.toContain("samecohortstudent@mk.example");
 
     const seen = (await loadStudentMark(db, { access: accessOf("ownStudent"), labId: lab.id }))!;
     // The fixture's hand-in: 5 drops (fewer than 10), on time; 2 for the set-up.
@@ -412,7 +419,7 @@ describe("moderation and release", () => {
     const setUp = byTitle(lab, "Set-up described");
     await applyToMany(db, { access: instructor, labId: lab.id, membershipIds, change: { kind: "score", criterionId: setUp.id, level: 2 } });
     await markLabReady(db, { access: instructor, lab });
-    await releaseMarks(db, { access: instructor, lab });
+    await releaseMarks(db, { access: instructor, lab, choice: { scope: "all", zeroForNoHandIn: false, whileOpen: true } });
     const classCriterion = byTitle(lab, "Agrees with the class");
     const before = await loadMarkingDesk(db, { access: instructor, lab, filters: page() });
     const planted = before.rows.find((row) => row.membershipId === membershipIds[12])!;
@@ -469,11 +476,228 @@ describe("the marks CSV", () => {
     const response = (await loader({ request: appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marks.csv`, { cookie }), params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never)) as Response;
     expect(response.headers.get("content-type")).toMatch(/^text\/csv/);
     const lines = (await response.text()).replace(/^\uFEFF/, "").split(/\r?\n/);
-    expect(lines[0]).toBe("student_name,email,student_number,cohort,total,'=SUM(A1:A9),On time,late,late_penalty,released_at");
+    expect(lines[0]).toBe("student_name,email,student_number,cohort,total,'=SUM(A1:A9),On time,late,late_penalty,released_at,marked_version,latest_version");
     const student = lines.find((line) => line.includes("HYPERLINK"))!;
     expect(student.startsWith(`"'=HYPERLINK(""http://evil.example"",""x"")"`)).toBe(true);
     // 4 points, 1 for an on-time hand-in (none: a student without a hand-in gets 0 there), minus the 0.5 penalty.
     expect(student).toContain(",'+4420,Cohort one,3.5,4,0,no,0.5,");
     await db.execute(sql`update users set name = 'Test sameCohortStudent', student_number = null where id = ${fixture.userIds.sameCohortStudent}`);
+  });
+});
+
+describe("release safeguards", () => {
+  const hour = 3600 * 1000;
+  const releaseAll = { scope: "all", zeroForNoHandIn: false, whileOpen: true } as const;
+
+  it("asks whom to release, gives a zero for no hand-in only when chosen, and warns while an extension is still ahead", async () => {
+    const cohortId = await freshCohort("Release choices");
+    const lab = await labWithRubric("Release choices", { cohortIds: [cohortId] });
+    const { membershipIds, dropLogIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(6), label: "choices" });
+    const [full1, full2, partly, unmarked, nothing, extended] = membershipIds;
+    // Two of them handed in nothing (their drop logs hold no version that counts); the lab's own window has closed.
+    await db.execute(sql`update drop_logs set latest_version_id = null where id in (${dropLogIds[4]}, ${dropLogIds[5]})`);
+    await db.update(labs).set({ dueAt: new Date(Date.now() - 2 * hour), lateCutoffAt: null }).where(eq(labs.id, lab.id));
+    // One of them has an extension two days ahead: the lab still takes a hand-in from them.
+    const extendedUntil = new Date(Date.now() + 2 * day);
+    await db.insert(labExtensions).values({ labId: lab.id, membershipId: extended, dueAt: extendedUntil, reason: "Kit arrived late" });
+    const instructor = accessOf("instructor");
+    for (const membershipId of [full1, full2, partly]) {
+      await saveMarkCell(db, { access: instructor, labId: lab.id, membershipId, criterionId: byTitle(lab, "Set-up described").id, level: 3, expectedVersion: 0 });
+    }
+    for (const membershipId of [full1, full2]) {
+      await saveMarkCell(db, { access: instructor, labId: lab.id, membershipId, criterionId: byTitle(lab, "Discussion").id, points: 3, expectedVersion: 1 });
+    }
+    await markLabReady(db, { access: instructor, lab });
+
+    const { release } = await loadModeration(db, { access: instructor, lab });
+    expect(release.counts).toEqual({ released: 0, "fully-marked": 2, "partly-marked": 1, "marked-on-earlier-version": 0, "not-marked": 1, "no-hand-in": 1, "no-hand-in-still-open": 1 });
+    expect(release.stillOpen).toEqual({ students: 1, until: extendedUntil.toISOString() });
+    expect(release.afterReleaseHandIns).toBe("refuse");
+
+    // While anyone may still hand in, release waits for the instructor to say so; nothing is written.
+    const open = await refusal(releaseMarks(db, { access: instructor, lab, choice: { scope: "marked", zeroForNoHandIn: false, whileOpen: false } }));
+    expect(open).toMatchObject({ code: "still_open", status: 409 });
+    expect(open.message).toContain("1 student may still hand in");
+    expect((await db.select().from(marks).where(and(eq(marks.labId, lab.id), sql`${marks.releasedAt} is not null`))).length).toBe(0);
+
+    // The fully marked students only.
+    expect(await releaseMarks(db, { access: instructor, lab, choice: { scope: "marked", zeroForNoHandIn: false, whileOpen: true } })).toMatchObject({ released: 2, zeros: 0, emailed: 2, withheld: 4, stillOpen: 1 });
+    const releasedIds = async () => (await db.select({ membershipId: marks.membershipId }).from(marks).where(and(eq(marks.labId, lab.id), sql`${marks.releasedAt} is not null`))).map((row) => row.membershipId).sort();
+    expect(await releasedIds()).toEqual([full1, full2].sort());
+
+    // Then everyone marked, and a zero for the student whose window closed with nothing handed in; never for the extended one.
+    expect(await releaseMarks(db, { access: instructor, lab, choice: { scope: "all", zeroForNoHandIn: true, whileOpen: true } })).toMatchObject({ released: 2, zeros: 1, emailed: 2, alreadyReleased: 2, withheld: 2 });
+    expect(await releasedIds()).toEqual([full1, full2, partly, nothing].sort());
+    const [zero] = await db.select().from(marks).where(and(eq(marks.labId, lab.id), eq(marks.membershipId, nothing)));
+    expect(zero).toMatchObject({ total: 0, dropLogVersionId: null, feedback: "Nothing was handed in for this lab." });
+    expect(zero.releasedSnapshot).toMatchObject({ total: 0, dropLogVersionId: null });
+    const [zeroChange] = await db.select().from(markChanges).where(eq(markChanges.markId, zero.id));
+    expect(zeroChange).toMatchObject({ source: "moderation", reason: "Released as zero: nothing was handed in.", changedById: fixture.userIds.instructor });
+    expect(await db.select().from(marks).where(and(eq(marks.labId, lab.id), inArray(marks.membershipId, [unmarked, extended])))).toEqual([]);
+    expect(await db.select().from(emailOutbox).where(like(emailOutbox.dedupeKey, `marks-released:${lab.id}:%`))).toHaveLength(4);
+
+    // A cohort's extension opens the lab again for all of its students; the student's own extension still decides for them.
+    const cohortUntil = new Date(Date.now() + 3 * day);
+    await db.insert(labExtensions).values({ labId: lab.id, cohortId, dueAt: new Date(Date.now() + day), lateCutoffAt: cohortUntil, reason: "Kits shipped late" });
+    expect((await loadModeration(db, { access: instructor, lab })).release.stillOpen).toEqual({ students: 6, until: cohortUntil.toISOString() });
+  });
+
+  it("on the moderation page, needs a choice of whom to release and keeps it when the release must be confirmed", async () => {
+    const lab = await labWithRubric("Release form", { cohortIds: [fixture.cohortId] });
+    await markLabReady(db, { access: accessOf("instructor"), lab });
+    const { action } = await import("~/routes/courses.$courseId.labs.$labId.moderation");
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const post = async (form: Record<string, string>) => {
+      const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/moderation`, { cookie, form });
+      // A refusal comes back as `data(…, { status })`, a success as the plain object.
+      const result = (await action({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never)) as Record<string, unknown>;
+      const refused = result.type === "DataWithResponseInit";
+      return { status: refused ? (result.init as { status: number }).status : 200, data: (refused ? result.data : result) as { error?: string; values?: Record<string, string>; done?: string } };
+    };
+    const unchosen = await post({ intent: "release" });
+    expect(unchosen).toMatchObject({ status: 400, data: { error: expect.stringContaining("Choose whom to release") } });
+    // The lab is open until tomorrow: the release waits for the confirmation, and the form keeps the choice.
+    const unconfirmed = await post({ intent: "release", scope: "all", zeroForNoHandIn: "on" });
+    expect(unconfirmed).toMatchObject({ status: 409, data: { error: expect.stringContaining("may still hand in"), values: { scope: "all", zeroForNoHandIn: "on" } } });
+    const confirmed = await post({ intent: "release", scope: "all", whileOpen: "on" });
+    expect(confirmed).toMatchObject({ status: 200, data: { done: expect.stringMatching(/^Released \d+ marks? and queued/) } });
+  });
+
+  it("runs the same statements releasing 5 or 300 students", async () => {
+    const statementsFor = async (size: number) => {
+      const cohortId = await freshCohort(`Release ${size}`);
+      const lab = await labWithRubric(`Release ${size}`, { cohortIds: [cohortId] });
+      const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(size), label: `release-${size}` });
+      // One student handed in nothing, and the lab's window has closed: they get a zero.
+      await db.execute(sql`update drop_logs set latest_version_id = null where membership_id = ${membershipIds[0]} and lab_id = ${lab.id}`);
+      await db.update(labs).set({ dueAt: new Date(Date.now() - hour), lateCutoffAt: null }).where(eq(labs.id, lab.id));
+      await applyToMany(db, { access: accessOf("instructor"), labId: lab.id, membershipIds: membershipIds.slice(1), change: { kind: "score", criterionId: byTitle(lab, "Set-up described").id, level: 2 } });
+      await markLabReady(db, { access: accessOf("instructor"), lab });
+      const { statements, result } = await countStatements(() => releaseMarks(db, { access: accessOf("instructor"), lab, choice: { ...releaseAll, zeroForNoHandIn: true } }));
+      expect(result).toMatchObject({ released: size, zeros: 1, emailed: size, stillOpen: 0 });
+      return statements;
+    };
+    expect(await statementsFor(300)).toBe(await statementsFor(5));
+  });
+
+  it("refuses a hand-in after release by default, through the form's server function and the API", async () => {
+    const lab = await labWithRubric("After release: refuse", { cohortIds: [fixture.cohortId] });
+    const student = accessOf("ownStudent");
+    const input = { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] };
+    await handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-refuse-1", input });
+    await saveMarkCell(db, { access: accessOf("instructor"), labId: lab.id, membershipId: fixture.membershipIds.ownStudent, criterionId: byTitle(lab, "Discussion").id, points: 2, expectedVersion: 0 });
+    expect((await loadStudentLab(db, student, lab.id)).afterRelease).toBeNull();
+    await markLabReady(db, { access: accessOf("instructor"), lab });
+    await releaseMarks(db, { access: accessOf("instructor"), lab, choice: releaseAll });
+
+    // The lab page knows before the student tries.
+    expect((await loadStudentLab(db, student, lab.id)).afterRelease).toBe("refuse");
+    const refused = await handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-refuse-2", input }).catch((error: unknown) => error);
+    expect(refused).toBeInstanceOf(HandInRefusedError);
+    expect(refused).toMatchObject({ code: "mark_released", status: 409 });
+    // A retry of the hand-in already stored still answers with it.
+    expect(await handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-refuse-1", input })).toMatchObject({ duplicate: true, version: { version: 1 } });
+
+    const { action } = await import("~/routes/api/v1.labs.$labId.drop-logs");
+    const cookie = await sessionCookieFor(fixture.userIds.ownStudent);
+    const request = new Request(appRequest(`/api/v1/labs/${lab.id}/drop-logs`).url, {
+      method: "POST",
+      headers: { Cookie: cookie, Origin: new URL(appRequest("/").url).origin, "Content-Type": "application/json", "Idempotency-Key": "mk-refuse-api" },
+      body: JSON.stringify(input),
+    });
+    const response = (await action({ request, params: { labId: lab.id }, context: {} } as never)) as Response;
+    expect(response.status).toBe(409);
+    expect(await response.json()).toMatchObject({ error: { code: "mark_released" } });
+    const [dropLog] = await db.select().from(dropLogs).where(and(eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, fixture.membershipIds.ownStudent)));
+    expect((await db.execute(sql`select count(*)::int as n from drop_log_versions where drop_log_id = ${dropLog.id}`)).rows[0]).toEqual({ n: 1 });
+  });
+
+  it("makes a hand-in that arrives during a release wait for it, and then refuses it", async () => {
+    const lab = await labWithRubric("After release: race", { cohortIds: [fixture.cohortId] });
+    const student = accessOf("ownStudent");
+    const input = { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] };
+    await handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-race-1", input });
+    await saveMarkCell(db, { access: accessOf("instructor"), labId: lab.id, membershipId: fixture.membershipIds.ownStudent, criterionId: byTitle(lab, "Discussion").id, points: 2, expectedVersion: 0 });
+    // A release holding the lab's marking lock, as `releaseMarks` does, that has written the mark but not committed.
+    let finish!: () => void;
+    let written!: () => void;
+    const wrote = new Promise<void>((resolve) => (written = resolve));
+    const releasing = db.transaction(async (tx) => {
+      await tx.execute(markingLock(lab.id, "exclusive"));
+      await tx.execute(sql`update marks set released_at = now() where lab_id = ${lab.id}`);
+      written();
+      await new Promise<void>((resolve) => (finish = resolve));
+    });
+    await wrote;
+    const handIn = handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-race-2", input }).catch((error: unknown) => error);
+    const settled = await Promise.race([handIn.then(() => "settled"), new Promise((resolve) => setTimeout(() => resolve("waiting"), 300))]);
+    expect(settled).toBe("waiting");
+    finish();
+    await releasing;
+    expect(await handIn).toMatchObject({ code: "mark_released" });
+    const [dropLog] = await db.select().from(dropLogs).where(and(eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, fixture.membershipIds.ownStudent)));
+    expect((await db.execute(sql`select count(*)::int as n from drop_log_versions where drop_log_id = ${dropLog.id}`)).rows[0]).toEqual({ n: 1 });
+  });
+
+  it("with 'reopen' takes the hand-in and reopens the mark, which, like the export, stays on the version marked until it is marked again", async () => {
+    const lab = await labWithRubric("After release: reopen", { cohortIds: [fixture.cohortId] });
+    await db.update(labs).set({ afterReleaseHandIns: "reopen" }).where(eq(labs.id, lab.id));
+    const student = accessOf("ownStudent");
+    const instructor = accessOf("instructor");
+    const membershipId = fixture.membershipIds.ownStudent;
+    // Version 1: 5 drops, fewer than the 10 required, on time.
+    await handInDropLog(db, { access: student, labId: lab.id, idempotencyKey: "mk-reopen-1", input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] } });
+    await saveMarkCell(db, { access: instructor, labId: lab.id, membershipId, criterionId: byTitle(lab, "Discussion").id, points: 2, expectedVersion: 0 });
+    await markLabReady(db, { access: instructor, lab });
+    await releaseMarks(db, { access: instructor, lab, choice: releaseAll });
+    const [released] = await db.select().from(marks).where(and(eq(marks.labId, lab.id), eq(marks.membershipId, membershipId)));
+    expect(released.reopenedAt).toBeNull();
+    expect((await loadStudentLab(db, student, lab.id)).afterRelease).toBe("reopen");
+
+    // Version 2, after the due time (late), with the 10 drops.
+    await db.update(labs).set({ dueAt: new Date(Date.now() - hour), lateCutoffAt: new Date(Date.now() + day) }).where(eq(labs.id, lab.id));
+    const second = await handInDropLog(db, {
+      access: student,
+      labId: lab.id,
+      idempotencyKey: "mk-reopen-2",
+      input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5, 7.44, 7.49, 7.42, 7.46, 7.51] },
+    });
+    expect(second.version).toMatchObject({ version: 2, late: true });
+    const [reopened] = await db.select().from(marks).where(eq(marks.id, released.id));
+    expect(reopened.reopenedAt).not.toBeNull();
+    expect(reopened.dropLogVersionId).toBe(released.dropLogVersionId);
+    expect(reopened.version).toBe(released.version);
+
+    const enough = byTitle(lab, "Enough drops");
+    const desk = await loadMarkingDesk(db, { access: instructor, lab, filters: page() });
+    const row = desk.rows.find((candidate) => candidate.membershipId === membershipId)!;
+    expect(row).toMatchObject({ needsRemarking: true, handInChangedSinceMarked: true, markedHandIn: { version: 1, late: false, dropCount: 5 }, handIn: { version: 2, late: true } });
+    // The automatic criteria read the version marked: 5 drops, so no points for "Enough drops".
+    expect(row.suggestions[enough.id].points).toBe(0);
+    expect((await loadModeration(db, { access: instructor, lab })).needsRemarking).toBe(1);
+
+    // The export names the version marked and the latest, and every figure is the marked one's.
+    const exported = (await loadMarksJson(db, { access: instructor, lab })).marks.find((entry) => entry.membershipId === membershipId)!;
+    expect(exported).toMatchObject({ handIn: "on-time", late: false, markedVersion: { id: released.dropLogVersionId, number: 1 }, latestVersion: 2, needsRemarking: true });
+    expect(exported.points[enough.id]).toBe(0);
+
+    // Marking it again (a released mark: with a reason) moves it onto version 2 and freezes the automatic points from it.
+    const remarked = await saveMark(db, {
+      access: instructor,
+      labId: lab.id,
+      membershipId,
+      expectedVersion: reopened.version,
+      change: { kind: "score", criterionId: byTitle(lab, "Discussion").id, points: 2 },
+      reason: "Marked again on version 2",
+    });
+    expect(remarked).toMatchObject({ status: "saved", changed: true, row: { needsRemarking: false, handInChangedSinceMarked: false, markedHandIn: { version: 2 } } });
+    const [after] = await db.select().from(marks).where(eq(marks.id, released.id));
+    expect(after).toMatchObject({ reopenedAt: null, dropLogVersionId: second.version.id });
+    expect(after.scores[enough.id]).toEqual({ points: 2, frozen: true });
+    // The on-time criterion now reads the late version 2: 1 point off (the rubric's late penalty).
+    expect(after.scores[byTitle(lab, "On time").id]).toEqual({ points: 0, frozen: true });
+    const seen = (await loadStudentMark(db, { access: student, labId: lab.id }))!;
+    expect(seen.basedOn).toMatchObject({ version: 2, dropCount: 10, late: true });
+    expect(seen.changedAfterRelease?.changes[0]).toMatchObject({ reason: "Marked again on version 2" });
   });
 });

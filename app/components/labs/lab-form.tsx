@@ -18,6 +18,7 @@ import {
   type LabFormValues,
 } from "~/lib/labs/lab-input";
 import { wallClockToInstant } from "~/lib/labs/wall-clock";
+import { afterReleaseHandInNames, afterReleaseHandInPolicies } from "~/lib/marking/release";
 
 type Errors = Record<string, string[] | undefined>;
 type PartOption = { id: string; kind: "sphere" | "fluid_lot" | "column" | "accessory"; label: string; material: string | null; fluidName: string | null };
@@ -201,6 +202,16 @@ export function LabFields({
           {...field("reminderOffsetsHours")}
           hint="Whole hours, separated by commas; empty for none. Each student gets each reminder at most once."
         />
+      </Section>
+
+      <Section title="After the release">
+        <SelectField label="A hand-in from a student whose mark is released" {...field("afterReleaseHandIns")} hint="Either way the released mark keeps the version it was marked on.">
+          {afterReleaseHandInPolicies.map((policy) => (
+            <option key={policy} value={policy}>
+              {afterReleaseHandInNames[policy]}
+            </option>
+          ))}
+        </SelectField>
       </Section>
     </>
   );

@@ -7,6 +7,7 @@
 import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { HandInDetail, type HandInDetailData } from "~/components/drop-logs/hand-in-detail";
+import { Notice } from "~/components/ui/notice";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
@@ -202,6 +203,12 @@ export function MarkPanel({
       </section>
 
       <section aria-label="The hand-in">
+        {row.handInChangedSinceMarked ? (
+          <Notice tone="warning">
+            {row.markedHandIn ? `This mark rests on version ${row.markedHandIn.version}` : "This mark was given before anything was handed in"}; version {row.handIn?.version} is newer and is shown below.
+            {row.needsRemarking ? " It was handed in after the release, so the mark is reopened: saving it marks the newer version (with a reason, as the student sees the change)." : " Saving the mark moves it onto the newer version."}
+          </Notice>
+        ) : null}
         {!row.handIn ? (
           <p className="text-sm text-ink-700">Nothing handed in: automatic criteria suggest 0.</p>
         ) : handIn.data ? (

@@ -89,7 +89,13 @@ function HandInCell() {
     <div className="flex flex-col text-xs">
       <span className={row.status === "missing" ? "font-medium text-outlier" : row.status === "late" ? "font-medium text-outlier" : ""}>{statusWords[row.status]}</span>
       {row.handIn ? <span className="text-ink-600">v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops</span> : null}
-      {row.handInChangedSinceMarked ? <span className="text-amber-700">handed in again since marked</span> : null}
+      {row.handInChangedSinceMarked ? (
+        <span className="text-amber-700">
+          {/* Which version the mark rests on, so a marker knows what they are re-marking from. */}
+          {row.markedHandIn ? `marked on v${row.markedHandIn.version}` : "marked before any hand-in"}; v{row.handIn?.version} is newer
+          {row.needsRemarking ? " · needs re-marking (handed in after release)" : ""}
+        </span>
+      ) : null}
       {row.handIn?.kitNotAtHome ? <span className="text-amber-700">kit {row.handIn.kitNotAtHome.toLowerCase()} at hand-in</span> : null}
     </div>
   );

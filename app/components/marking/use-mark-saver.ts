@@ -35,7 +35,7 @@ const contentOf = (row: MarkingDeskRow): MarkContent | null =>
 export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskRow, change: MarkChange): MarkingDeskRow {
   const content = applyMarkChange(rubric, contentOf(row), change, { released: row.mark?.releasedAt != null });
   const totals = markTotals(rubric, content, row.suggestions);
-  const mark = row.mark ? { ...row.mark, ...content } : ({ ...content, id: "", version: 0, storedTotal: 0, basedOnVersionId: null, markedBy: null, moderatedBy: null, moderatedAt: null, updatedAt: "", releasedAt: null, releasedSnapshot: null } satisfies NonNullable<MarkingDeskRow["mark"]>);
+  const mark = row.mark ? { ...row.mark, ...content } : ({ ...content, id: "", version: 0, storedTotal: 0, basedOnVersionId: null, markedBy: null, moderatedBy: null, moderatedAt: null, updatedAt: "", releasedAt: null, releasedSnapshot: null, reopenedAt: null } satisfies NonNullable<MarkingDeskRow["mark"]>);
   return { ...row, mark, cells: totals.cells, subtotal: totals.subtotal, total: totals.total, complete: totals.complete, progress: markProgress(true, totals) };
 }
 

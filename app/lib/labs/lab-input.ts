@@ -6,6 +6,7 @@ import { z } from "zod";
 import type { LabResolutions } from "~/db/schema";
 import { comparisonSettings } from "~/lib/comparison/comparison-settings";
 import { MAX_DROPS } from "~/lib/drop-logs/drop-log-input";
+import { afterReleaseHandInPolicies, type AfterReleaseHandIns } from "~/lib/marking/release";
 import { instantToWallClock, wallClockToInstant } from "./wall-clock";
 
 export const experimentKinds = ["drag", "viscometry"] as const;
@@ -126,6 +127,7 @@ export function labInputFor(timeZone: string) {
         temperatureC: resolution("temperature", "°C", 5),
       }),
       reminderOffsetsHours: reminderOffsets,
+      afterReleaseHandIns: z.enum(afterReleaseHandInPolicies, { error: "Choose what a hand-in after the release does." }).default("refuse"),
       cohortIds: z.array(z.uuid("Choose cohorts from the list.")).default([]),
     })
     .superRefine((lab, context) => {
@@ -171,6 +173,7 @@ export function labInputFromForm(form: FormData): Record<string, unknown> {
       temperatureC: text("resolutions.temperatureC"),
     },
     reminderOffsetsHours: text("reminderOffsetsHours") ?? "",
+    afterReleaseHandIns: text("afterReleaseHandIns"),
     cohortIds: all("cohortIds"),
   };
 }
@@ -191,6 +194,7 @@ export function newLabFormValues(kind: ExperimentKind, cohortIds: string[]): Lab
       comparisonMaxOutliers: "3",
       comparisonK: "1.5",
       reminderOffsetsHours: DEFAULT_REMINDER_OFFSETS_HOURS.join(", "),
+      afterReleaseHandIns: "refuse",
       ...Object.fromEntries(Object.entries(DEFAULT_RESOLUTIONS).map(([key, value]) => [`resolutions.${key}`, String(value)])),
     },
     cohortIds,
@@ -217,6 +221,7 @@ export function storedLabFormValues(
     comparisonK: number;
     resolutions: LabResolutions;
     reminderOffsetsHours: number[];
+    afterReleaseHandIns: AfterReleaseHandIns;
     cohortIds: string[];
   },
   timeZone: string,
@@ -237,6 +242,7 @@ export function storedLabFormValues(
       comparisonMaxOutliers: String(lab.comparisonMaxOutliers),
       comparisonK: String(lab.comparisonK),
       reminderOffsetsHours: lab.reminderOffsetsHours.join(", "),
+      afterReleaseHandIns: lab.afterReleaseHandIns,
       ...Object.fromEntries(Object.entries(lab.resolutions).map(([key, value]) => [`resolutions.${key}`, String(value)])),
     },
     cohortIds: lab.cohortIds,

@@ -47,6 +47,12 @@ describe("automatic criteria", () => {
     expect(evaluateAutoCriterion(auto("not_outlier", 3), { ...handIn, classLabel: null }).points).toBeNull();
   });
 
+  it("leave the class criterion to a marker when the mark rests on a version the class comparison no longer labels", () => {
+    expect(evaluateAutoCriterion(auto("not_outlier", 3), { ...handIn, classLabel: null, superseded: true })).toMatchObject({ points: null, reason: expect.stringContaining("earlier version") });
+    // The other rules read the marked version itself, so they still decide.
+    expect(evaluateAutoCriterion(auto("required_drops", 2), { ...handIn, superseded: true }).points).toBe(2);
+  });
+
   it("take the late penalty off the on-time criterion, never below 0", () => {
     expect(evaluateAutoCriterion(auto("on_time", 2, { latePenaltyPoints: 0.5 }), handIn).points).toBe(2);
     expect(evaluateAutoCriterion(auto("on_time", 2, { latePenaltyPoints: 0.5 }), { ...handIn, late: true }).points).toBe(1.5);

@@ -20,6 +20,8 @@ export type HandInEvidence = {
   /** The live class-comparison label of the counted version; null when it has no figure. */
   classLabel: ClassComparisonLabel | null;
   classReason: string | null;
+  /** The mark rests on a version that is no longer the counted one (handed in again since). */
+  superseded?: boolean;
 };
 
 /** A suggested number of points, with the reason in words; `points` is null when the rule cannot decide (a TA must). */
@@ -49,6 +51,7 @@ export function evaluateAutoCriterion(criterion: Pick<RubricCriterion, "autoRule
         : { points: 0, reason: `Normalised figure ${figure}: ${percent(off)} from the reference, beyond ±${percent(tolerance)}.` };
     }
     case "not_outlier": {
+      if (evidence.superseded) return { points: null, reason: "The mark rests on an earlier version; the class comparison labels the latest one. Mark it again." };
       if (evidence.classLabel === null) return { points: null, reason: "The hand-in is not in the class comparison (no normalised figure)." };
       const why = evidence.classReason ? ` ${evidence.classReason}` : "";
       if (evidence.classLabel === "consistent") return { points: max, reason: `Consistent with the class.${why}` };

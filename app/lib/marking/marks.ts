@@ -103,6 +103,11 @@ export function freezeSuggestions(rubric: readonly RubricCriterion[], scores: Ma
   return frozen;
 }
 
+/** The scores without the suggestions release wrote in: what was given by hand (and overrides). */
+export function unfreezeSuggestions(scores: MarkScores): MarkScores {
+  return Object.fromEntries(Object.entries(scores).filter(([, score]) => !score.frozen));
+}
+
 const reasonText = z.string().trim().max(500, "At most 500 characters.");
 
 /**

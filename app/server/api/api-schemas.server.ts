@@ -117,8 +117,14 @@ export const marksResponse = z
         membershipId: uuid,
         student: z.object({ name: z.string(), email: z.string(), studentNumber: z.string().nullable() }),
         cohort: z.object({ id: uuid, name: z.string() }),
-        handIn: z.enum(["missing", "on-time", "late"]).describe("Where the counted hand-in stands."),
-        late: z.boolean(),
+        handIn: z.enum(["missing", "on-time", "late"]).describe("Where the hand-in the mark rests on stands (`markedVersion`; the counted one for a student without a mark)."),
+        late: z.boolean().describe("The hand-in the mark rests on was late."),
+        markedVersion: z
+          .object({ id: uuid, number: z.int().min(1) })
+          .nullable()
+          .describe("The drop-log version the mark rests on: its automatic criteria, `handIn` and `late` are this version's. Null without a mark, or for a mark given with nothing handed in."),
+        latestVersion: z.int().min(1).nullable().describe("The student's latest handed-in version; newer than `markedVersion` when they handed in again since marked. Null when nothing is handed in."),
+        needsRemarking: z.boolean().describe("A hand-in after the release reopened this released mark: it still rests on `markedVersion` until it is marked again."),
         total: z.number().nullable().describe("Criteria points (given, overridden or suggested) minus the late penalty, at least 0; null before the student is marked."),
         complete: z.boolean().describe("Every criterion has points."),
         latePenaltyPoints: z.number(),

@@ -42,7 +42,7 @@ const errors = {
   401: { description: "Not signed in: send a session cookie or `Authorization: Bearer <personal token>`.", schema: apiError },
   403: { description: "Signed in, but without access to this (another cohort, another student's work, the wrong role).", schema: apiError },
   404: { description: "No such object, or one the caller may not know exists (a draft lab, for students).", schema: apiError },
-  409: { description: "The request is valid but the lab's state refuses it (not open yet, past the cut-off, no kit).", schema: apiError },
+  409: { description: "The request is valid but the lab's state refuses it (not open yet, past the cut-off, no kit, or `mark_released`: the student's mark is released and the lab refuses hand-ins after it).", schema: apiError },
 } satisfies Record<number, Answer>;
 
 export const apiOperations: ApiOperation[] = [

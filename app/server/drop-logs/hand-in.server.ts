@@ -2,9 +2,10 @@
  * A student's drop log for a lab: the draft saved as they type, the live preview, and the hand-in,
  * which recomputes the reduction on the server and stores it as a new immutable version. A hand-in
  * locks only the student's own drop_logs row, so a whole class handing in at the deadline does not
- * queue behind one lock.
+ * queue behind one lock (it also holds the lab's marking lock shared, which only a release, taking
+ * it exclusively, waits for: a hand-in then sees whether that release covered the student's mark).
  */
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
@@ -15,6 +16,7 @@ import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { queueClassComparison } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { markingLock } from "~/server/marking/marks.server";
 
 export type HandInRefusalCode =
   | "invalid_input"
@@ -30,7 +32,8 @@ export type HandInRefusalCode =
   | "part_not_chosen"
   | "kit_incomplete"
   | "not_open"
-  | "past_cutoff";
+  | "past_cutoff"
+  | "mark_released";
 
 const refusalStatus: Record<HandInRefusalCode, number> = {
   invalid_input: 400,
@@ -47,6 +50,7 @@ const refusalStatus: Record<HandInRefusalCode, number> = {
   kit_incomplete: 409,
   not_open: 409,
   past_cutoff: 409,
+  mark_released: 409,
 };
 
 /** A hand-in (or preview, or draft) the server will not take; the message tells the student what to do. */
@@ -65,6 +69,12 @@ export class HandInRefusedError extends Error {
 }
 
 export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
+
+/** Whether the student's mark for the lab is released: read inside the statements a hand-in runs anyway. */
+const markReleased = (labId: SQLWrapper | string, membershipId: string) =>
+  sql<boolean>`exists (select 1 from marks mk where mk.lab_id = ${labId} and mk.membership_id = ${membershipId} and mk.released_at is not null)`;
+
+export const markReleasedMessage = "Your mark for this lab is released: it takes no more hand-ins from you. Ask your instructor if something went wrong.";
 export type KitPart = StudentLab["kitParts"][number];
 
 /** How the form and the messages name each kind of part a hand-in is reduced against (the kinds a lab limits). */
@@ -92,6 +102,7 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
         inCohort: sql<boolean>`exists (select 1 from lab_cohorts lc where lc.lab_id = ${labs.id} and lc.cohort_id = ${access.membership.cohortId})`,
         // Which kinds the lab limits: a kind with no ticked part allows any of that kind in the kit.
         limitedKinds: sql<ChoosableKind[]>`array(select distinct p.kind from parts p where p.id = any(${labs.allowedPartIds}))::text[]`,
+        markReleased: markReleased(labs.id, access.membership.id),
       })
       .from(labs)
       .innerJoin(courses, eq(courses.id, labs.courseId))
@@ -134,7 +145,9 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
     seen.add(part.id);
     return !limited.has(part.kind as ChoosableKind) || allowed.has(part.id);
   });
-  return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable };
+  // The lab's policy decides what a hand-in after release does; the page says so before the student tries.
+  const afterRelease = row.markReleased ? row.lab.afterReleaseHandIns : null;
+  return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
 }
 
 /**
@@ -229,13 +242,15 @@ export async function handInDropLog(
   const warningCount = warnings.filter((warning) => warning.level !== "info").length;
 
   return executor.transaction(async (tx) => {
-    // The only lock a hand-in takes: this student's own drop log, which the upsert creates or locks (as
+    // The only row a hand-in locks: this student's own drop log, which the upsert creates or locks (as
     // ON CONFLICT DO UPDATE does) in one statement. Versions are numbered under it.
     const [dropLog] = await tx
       .insert(dropLogs)
       .values({ labId, membershipId: access.membership.id })
       .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { labId: sql`excluded.lab_id` } })
-      .returning({ id: dropLogs.id });
+      // The lab's marking lock, shared (hand-ins never wait for each other), taken in this statement: a
+      // release under way finishes first, so the statements below see whether it released this mark.
+      .returning({ id: dropLogs.id, marking: sql`(${markingLock(labId, "shared")}) is null` });
     const [earlier] = await tx
       .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
       .from(dropLogVersions)
@@ -282,10 +297,16 @@ export async function handInDropLog(
         .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
       return { version: stored, duplicate: true };
     }
-    // The new version counts and takes the draft's photos with it: one statement for both tables.
-    await tx.execute(sql`
+    // The new version counts and takes the draft's photos with it: one statement for both tables. It
+    // also says whether the student's mark is released: "refuse" then rolls the hand-in back, "reopen"
+    // reopens that mark (which keeps the version it was marked on) in the same statement.
+    const reopen = lab.afterReleaseHandIns === "reopen";
+    const counted = await tx.execute<{ markReleased: boolean }>(sql`
       with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null)
-      update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}`);
+      ${reopen ? sql`, reopened as (update marks set reopened_at = ${now.toISOString()}::timestamptz where lab_id = ${labId} and membership_id = ${access.membership.id} and released_at is not null)` : sql``}
+      update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}
+      returning ${markReleased(labId, access.membership.id)} as "markReleased"`);
+    if (counted.rows[0].markReleased && !reopen) throw new HandInRefusedError("mark_released", markReleasedMessage);
     await queueClassComparison(tx, labId);
     return { version: inserted, duplicate: false };
   });

@@ -1,7 +1,9 @@
 /**
  * A lab's marks for the institution's gradebook: one row per student of the viewer's cohorts (TAs
  * see theirs, instructors all), with generic columns, as the CSV download and the
- * `GET /api/v1/labs/:labId/marks` JSON give them. Two statements whatever the class size.
+ * `GET /api/v1/labs/:labId/marks` JSON give them. Every figure of a mark is of the version it was
+ * marked on, which each row names beside the latest one, so a later hand-in never mixes in. Two
+ * statements whatever the class size.
  */
 import { maxTotalOf } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -18,8 +20,14 @@ export type MarksJson = {
     membershipId: string;
     student: { name: string; email: string; studentNumber: string | null };
     cohort: { id: string; name: string };
+    /** Of the version the mark rests on (the counted one without a mark). */
     handIn: "missing" | "on-time" | "late";
     late: boolean;
+    /** The version the mark rests on; null without a mark or for a mark given with nothing handed in. */
+    markedVersion: { id: string; number: number } | null;
+    /** The latest handed-in version, null when nothing is handed in. */
+    latestVersion: number | null;
+    needsRemarking: boolean;
     /** Null for a student without a mark. */
     total: number | null;
     /** Every criterion has points. */
@@ -45,12 +53,16 @@ export async function loadMarksJson(executor: Executor, { access, lab }: { acces
     criteria: lab.rubric.map((criterion) => ({ id: criterion.id, title: criterion.title, kind: criterion.kind, maxPoints: criterion.maxPoints })),
     marks: students.map((student) => {
       const row = deskRow(lab, student, labels);
+      const basis = row.markedHandIn;
       return {
         membershipId: row.membershipId,
         student: { name: row.studentName, email: row.email, studentNumber: row.studentNumber },
         cohort: { id: row.cohortId, name: row.cohortName },
-        handIn: row.status,
-        late: row.status === "late",
+        handIn: basis === null ? "missing" : basis.late ? "late" : "on-time",
+        late: basis?.late ?? false,
+        markedVersion: row.mark && basis ? { id: basis.versionId, number: basis.version } : null,
+        latestVersion: row.handIn?.version ?? null,
+        needsRemarking: row.needsRemarking,
         total: row.mark ? row.total : null,
         complete: row.mark !== null && row.complete,
         latePenaltyPoints: row.mark?.latePenaltyPoints ?? 0,

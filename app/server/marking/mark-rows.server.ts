@@ -4,7 +4,7 @@
  * desk, the saves, moderation, release and export all read marks through here, so a total is always
  * computed the same way.
  */
-import { sql } from "drizzle-orm";
+import { sql, type SQL } from "drizzle-orm";
 import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } from "~/lib/marking/automatic-criteria";
 import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkProgress, type MarkScores, type MarkTotals, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
 import type { ClassComparisonLabel } from "~/lib/reduction";
@@ -47,6 +47,8 @@ export type StoredMark = MarkContent & {
   updatedAt: string;
   releasedAt: string | null;
   releasedSnapshot: ReleasedMarkSnapshot | null;
+  /** A hand-in after release reopened the mark for re-marking (the lab's "reopen" policy); null otherwise. */
+  reopenedAt: string | null;
 };
 
 /** One student as every marking view reads them. */
@@ -58,7 +60,14 @@ export type StudentMarkRow = {
   studentNumber: string | null;
   cohortId: string;
   cohortName: string;
+  /** The counted hand-in: the latest version. */
   handIn: DeskHandIn | null;
+  /**
+   * The hand-in the mark rests on: the version it was marked on (null for a mark given with nothing
+   * handed in), which may be older than `handIn`; without a mark, the counted hand-in. The automatic
+   * criteria, release and the export read this one.
+   */
+  markedHandIn: DeskHandIn | null;
   mark: StoredMark | null;
 };
 
@@ -82,9 +91,22 @@ export type MarkingDeskRow = StudentMarkRow & {
   expectedVersion: number;
   /** Handed in again since the mark was last changed. */
   handInChangedSinceMarked: boolean;
+  /** A released mark reopened by a hand-in after release: mark it again on the counted version. */
+  needsRemarking: boolean;
 };
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** A drop-log version (aliased `alias`, joined to its drop log `d`) as a `DeskHandIn`, or null. */
+const handInJson = (alias: SQL) => sql`case when ${alias}.id is null then null else json_build_object(
+        'dropLogId', d.id, 'versionId', ${alias}.id, 'version', ${alias}.version, 'submittedAt', to_json(${alias}.submitted_at)#>>'{}', 'late', ${alias}.late,
+        'dropCount', case when jsonb_typeof(${alias}.reduction #> '{drops,n}') = 'number' then (${alias}.reduction #>> '{drops,n}')::int
+                          when jsonb_typeof(${alias}.input -> 'drops') = 'array' then jsonb_array_length(${alias}.input -> 'drops') end,
+        'strayDropCount', case when jsonb_typeof(${alias}.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${alias}.reduction #> '{drops,strayDrops}') end,
+        'warningCount', ${alias}.warning_count, 'kitState', ${alias}.kit_records #>> '{kit,state}', 'figure', ${alias}.normalised_figure::float8, 'reynolds', ${alias}.reynolds::float8,
+        'dragCoefficient', ${alias}.drag_coefficient::float8, 'viscosityPaS', ${alias}.viscosity_pa_s::float8,
+        'temperatureC', case when jsonb_typeof(${alias}.input -> 'temperatureC') = 'number' then (${alias}.input ->> 'temperatureC')::float8 end
+      ) end`;
 
 export type ClassLabels = Map<string, { label: ClassComparisonLabel; reason: string }>;
 
@@ -106,24 +128,17 @@ export async function loadStudentMarkRows(
   const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
   type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null };
   type HandInRow = Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null };
-  const result = await executor.execute<Omit<StudentMarkRow, "mark" | "handIn"> & { handIn: HandInRow | null; mark: StoredMarkRow | null }>(sql`
+  const result = await executor.execute<Omit<StudentMarkRow, "mark" | "handIn" | "markedHandIn"> & { handIn: HandInRow | null; markedVersion: HandInRow | null; mark: StoredMarkRow | null }>(sql`
     select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
       m.cohort_id as "cohortId", h.name as "cohortName",
-      case when v.id is null then null else json_build_object(
-        'dropLogId', d.id, 'versionId', v.id, 'version', v.version, 'submittedAt', to_json(v.submitted_at)#>>'{}', 'late', v.late,
-        'dropCount', case when jsonb_typeof(v.reduction #> '{drops,n}') = 'number' then (v.reduction #>> '{drops,n}')::int
-                          when jsonb_typeof(v.input -> 'drops') = 'array' then jsonb_array_length(v.input -> 'drops') end,
-        'strayDropCount', case when jsonb_typeof(v.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(v.reduction #> '{drops,strayDrops}') end,
-        'warningCount', v.warning_count, 'kitState', v.kit_records #>> '{kit,state}', 'figure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8,
-        'dragCoefficient', v.drag_coefficient::float8, 'viscosityPaS', v.viscosity_pa_s::float8,
-        'temperatureC', case when jsonb_typeof(v.input -> 'temperatureC') = 'number' then (v.input ->> 'temperatureC')::float8 end
-      ) end as "handIn",
+      ${handInJson(sql`v`)} as "handIn",
+      case when mk.drop_log_version_id is distinct from v.id then ${handInJson(sql`mv`)} end as "markedVersion",
       case when mk.id is null then null else json_build_object(
         'id', mk.id, 'version', mk.version, 'scores', mk.scores, 'feedback', mk.feedback, 'latePenaltyPoints', mk.late_penalty_points,
         'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id,
         'markedById', mk.marked_by_id, 'markedByName', mb.name, 'moderatedById', mk.moderated_by_id, 'moderatedByName', mm.name,
         'moderatedAt', to_json(mk.moderated_at)#>>'{}', 'updatedAt', to_json(mk.updated_at)#>>'{}', 'releasedAt', to_json(mk.released_at)#>>'{}',
-        'releasedSnapshot', mk.released_snapshot
+        'releasedSnapshot', mk.released_snapshot, 'reopenedAt', to_json(mk.reopened_at)#>>'{}'
       ) end as mark
     from ${students}
     join users u on u.id = m.user_id
@@ -131,17 +146,20 @@ export async function loadStudentMarkRows(
     left join drop_logs d on d.lab_id = ${lab.id} and d.membership_id = m.id
     left join drop_log_versions v on v.id = d.latest_version_id
     left join marks mk on mk.lab_id = ${lab.id} and mk.membership_id = m.id
+    left join drop_log_versions mv on mv.id = mk.drop_log_version_id
     left join users mb on mb.id = mk.marked_by_id
     left join users mm on mm.id = mk.moderated_by_id
     where m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
       and m.cohort_id = any(${cohortArray}::uuid[])
     order by u.name, m.id`);
-  return result.rows.map(({ mark, handIn: storedHandIn, ...rest }) => {
+  return result.rows.map(({ mark, handIn: storedHandIn, markedVersion: storedMarkedVersion, ...rest }) => {
     const row = { ...rest, handIn: storedHandIn ? handInOf(storedHandIn) : null };
-    if (!mark) return { ...row, mark: null };
+    const markedVersion = storedMarkedVersion ? handInOf(storedMarkedVersion) : null;
+    if (!mark) return { ...row, markedHandIn: row.handIn, mark: null };
     const { markedById, markedByName, moderatedById, moderatedByName, ...stored } = mark;
     return {
       ...row,
+      markedHandIn: stored.basedOnVersionId === (row.handIn?.versionId ?? null) ? row.handIn : markedVersion,
       mark: {
         ...stored,
         scores: (stored.scores ?? {}) as MarkScores,
@@ -175,11 +193,16 @@ export async function loadClassLabels(executor: Executor, lab: Pick<MarkingLab, 
   return new Map(result.rows.map((row, index) => [row.id, { label: labelled[index].label, reason: labelled[index].reason }]));
 }
 
-/** What the automatic rules read about one student. */
-export function evidenceOf(lab: Pick<MarkingLab, "requiredDrops">, row: Pick<StudentMarkRow, "handIn">, labels: ClassLabels): HandInEvidence {
-  const handIn = row.handIn;
-  const label = handIn ? labels.get(handIn.dropLogId) : undefined;
+/**
+ * What the automatic rules read about one student: the version the mark rests on, not a later one.
+ * The class comparison labels only the counted versions, so a mark on an earlier version gets no label.
+ */
+export function evidenceOf(lab: Pick<MarkingLab, "requiredDrops">, row: Pick<StudentMarkRow, "handIn" | "markedHandIn">, labels: ClassLabels): HandInEvidence {
+  const handIn = row.markedHandIn;
+  const counted = handIn !== null && handIn.versionId === row.handIn?.versionId;
+  const label = handIn && counted ? labels.get(handIn.dropLogId) : undefined;
   return {
+    superseded: handIn !== null && !counted,
     handedIn: handIn !== null,
     late: handIn?.late ?? false,
     dropCount: handIn?.dropCount ?? null,
@@ -214,5 +237,6 @@ export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestion
     progress: markProgress(row.mark !== null, totals),
     expectedVersion: row.mark?.version ?? 0,
     handInChangedSinceMarked: row.mark !== null && row.handIn !== null && row.mark.basedOnVersionId !== row.handIn.versionId,
+    needsRemarking: row.mark?.reopenedAt != null,
   };
 }

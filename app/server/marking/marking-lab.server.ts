@@ -49,6 +49,7 @@ export type MarkingRefusalCode =
   | "marking_closed"
   | "not_ready"
   | "rubric_locked"
+  | "still_open"
   | "conflict";
 
 const refusalStatus: Record<MarkingRefusalCode, number> = {
@@ -61,6 +62,7 @@ const refusalStatus: Record<MarkingRefusalCode, number> = {
   marking_closed: 409,
   not_ready: 409,
   rubric_locked: 409,
+  still_open: 409,
   conflict: 409,
 };
 

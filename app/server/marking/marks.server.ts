@@ -9,7 +9,7 @@ import { sql } from "drizzle-orm";
 import { markChanges } from "~/db/schema";
 import { suggestAutomaticCriteria, type AutoSuggestion } from "~/lib/marking/automatic-criteria";
 import { MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
-import { applyMarkChange, markChange as markChangeSchema, markTotals, MarkValueError, sameContent, type MarkChange, type MarkContent, type MarkState, type MarkTotals } from "~/lib/marking/marks";
+import { applyMarkChange, freezeSuggestions, markChange as markChangeSchema, markTotals, MarkValueError, sameContent, unfreezeSuggestions, type MarkChange, type MarkContent, type MarkState, type MarkTotals } from "~/lib/marking/marks";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
@@ -103,7 +103,16 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
 
   const reasonGiven = request.reason?.trim() || (change.kind === "score" ? change.overrideReason?.trim() : "") || "";
   const needingReason: string[] = [];
-  type Planned = { student: StudentMarkRow; suggestions: Record<string, AutoSuggestion>; before: MarkTotals | null; content: MarkContent; after: MarkTotals | null };
+  /** `student` as the write leaves them (their mark on the counted version); `original` and `suggestionsBefore` as read. */
+  type Planned = {
+    student: StudentMarkRow;
+    original: StudentMarkRow;
+    suggestions: Record<string, AutoSuggestion>;
+    suggestionsBefore: Record<string, AutoSuggestion>;
+    before: MarkTotals | null;
+    content: MarkContent;
+    after: MarkTotals | null;
+  };
   const planned: Planned[] = [];
   for (const target of targets) {
     const student = byMembership.get(target.membershipId)!;
@@ -117,13 +126,22 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
       if (error instanceof MarkValueError) throw new MarkingRefusedError("invalid_value", error.message, error.field, [target.membershipId]);
       throw error;
     }
-    const suggestions = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, student, labels));
-    const changed = !sameContent(mark, content);
+    // A write marks the counted version: the suggestions after it are the counted version's.
+    const rebased = { ...student, markedHandIn: student.handIn };
+    const suggestionsBefore = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, student, labels));
+    const suggestions = mark && mark.basedOnVersionId !== (student.handIn?.versionId ?? null) ? suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, rebased, labels)) : suggestionsBefore;
+    // A released mark moved onto a newer version (re-marking after a hand-in that reopened it) gets its
+    // automatic criteria frozen again from that version, and is written even if nothing else changed.
+    const remarking = released && suggestions !== suggestionsBefore;
+    if (remarking) content = { ...content, scores: freezeSuggestions(lab.rubric, unfreezeSuggestions(content.scores), suggestions) };
+    const changed = remarking || !sameContent(mark, content);
     if (changed && (released || source === "moderation") && reasonGiven.length < 3) needingReason.push(target.membershipId);
     planned.push({
-      student,
+      student: rebased,
+      original: student,
       suggestions,
-      before: mark ? markTotals(lab.rubric, mark, suggestions) : null,
+      suggestionsBefore,
+      before: mark ? markTotals(lab.rubric, mark, suggestionsBefore) : null,
       content,
       after: changed ? markTotals(lab.rubric, content, suggestions) : null,
     });
@@ -159,7 +177,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
         as r(membership_id uuid, expected_version int, drop_log_version_id uuid, scores jsonb, feedback text, late_penalty_points float8, total float8)
       on conflict (lab_id, membership_id) do update set
         drop_log_version_id = excluded.drop_log_version_id, scores = excluded.scores, feedback = excluded.feedback,
-        late_penalty_points = excluded.late_penalty_points, total = excluded.total, version = excluded.version,
+        late_penalty_points = excluded.late_penalty_points, total = excluded.total, version = excluded.version, reopened_at = null,
         ${moderation ? sql`moderated_by_id = excluded.moderated_by_id, moderated_at = excluded.moderated_at,` : sql`marked_by_id = excluded.marked_by_id,`}
         updated_at = excluded.updated_at
       where mk.version = excluded.version - 1
@@ -188,8 +206,8 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   return {
     lab,
     labels,
-    written: planned.map(({ student, suggestions, before, content, after }) => {
-      if (!after) return { student, suggestions, totals: before ?? markTotals(lab.rubric, null, suggestions), changed: false };
+    written: planned.map(({ student, original, suggestions, suggestionsBefore, before, content, after }) => {
+      if (!after) return { student: original, suggestions: suggestionsBefore, totals: before ?? markTotals(lab.rubric, null, suggestionsBefore), changed: false };
       const stored = written.get(student.membershipId)!;
       const previous = student.mark;
       const mark: StoredMark = {
@@ -204,6 +222,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
         updatedAt: stored.updatedAt,
         releasedAt: previous?.releasedAt ?? null,
         releasedSnapshot: previous?.releasedSnapshot ?? null,
+        reopenedAt: null,
       };
       return { student: { ...student, mark }, suggestions, totals: after, changed: true };
     }),

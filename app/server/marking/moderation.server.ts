@@ -2,22 +2,27 @@
  * Moderation and release, the instructor's side of marking: the marks of each TA side by side
  * (count, mean, spread, distribution), the lab's marking marked ready (TAs stop changing marks), and
  * release, which freezes each mark's automatic criteria, makes marks and feedback visible to students
- * and queues one e-mail per student on the same transaction. Adjusting a mark is `saveMark` or
+ * and queues one e-mail per student on the same transaction. Release takes the instructor's choice
+ * (`ReleaseChoice`: the fully marked students or every marked one; a zero for no hand-in or not) and
+ * is refused while anyone may still hand in, extensions counted, unless the instructor says so. Adjusting a mark is `saveMark` or
  * `applyToMany` with `source: "moderation"` and a reason. Every mark change is listed for instructors.
  */
 import { and, desc, eq, lt, sql } from "drizzle-orm";
+import { effectiveHandInWindow, handInTiming, type ExtensionWindow, type HandInWindow } from "~/lib/drop-logs/hand-in-window";
 import { alias } from "drizzle-orm/pg-core";
 import { courseMemberships, labMarking, markChanges, users } from "~/db/schema";
 import { studentMarkHref } from "~/lib/marking/links";
 import { freezeSuggestions, markTotals, sameContent, type MarkState, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
+import { emptyReleaseCounts, releaseAction, type AfterReleaseHandIns, releaseStanding, zeroMark, type ReleaseChoice, type ReleaseCounts, type ReleaseStanding } from "~/lib/marking/release";
 import { maxTotalOf, roundPoints } from "~/lib/marking/rubric";
+import { insertMany } from "~/server/bulk-insert.server";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { appUrl } from "~/server/config.server";
 import type { Executor } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { suggestAutomaticCriteria } from "~/lib/marking/automatic-criteria";
-import { deskRow, evidenceOf, loadClassLabels, loadStudentMarkRows, rubricNeedsLabels, type ClassLabels, type MarkingDeskRow } from "./mark-rows.server";
+import { deskRow, evidenceOf, loadClassLabels, loadStudentMarkRows, rubricNeedsLabels, type ClassLabels, type MarkingDeskRow, type StudentMarkRow } from "./mark-rows.server";
 import { markingLock } from "./marks.server";
 import { assertInstructor, loadMarkingLab, MarkingRefusedError, type MarkingLab, type MarkingState } from "./marking-lab.server";
 
@@ -47,9 +52,81 @@ export type Moderation = {
   released: number;
   /** Released marks that differ from what was released. */
   changedAfterRelease: number;
+  /** Released marks reopened by a hand-in after release, waiting to be marked again. */
+  needsRemarking: number;
   /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
   rows: MarkingDeskRow[];
+  /** What a release would find now: the counts its choices act on, and who may still hand in. */
+  release: ReleasePreview;
 };
+
+export type ReleasePreview = {
+  /** Students by where they stand for release. */
+  counts: ReleaseCounts;
+  /** Students who may still hand in (their own cut-off, or due time without one, extensions counted, is ahead), and the last such time. */
+  stillOpen: { students: number; until: string | null };
+  /** What the lab does with a hand-in from a student whose mark is released. */
+  afterReleaseHandIns: AfterReleaseHandIns;
+};
+
+/** The lab's times, status and after-release policy, and every extension of it. */
+type HandInWindows = {
+  status: "draft" | "published" | "closed";
+  afterReleaseHandIns: AfterReleaseHandIns;
+  lab: HandInWindow;
+  byStudent: Map<string, ExtensionWindow>;
+  byCohort: Map<string, ExtensionWindow>;
+};
+
+/** The lab's hand-in windows, extensions included: one statement. */
+async function loadHandInWindows(executor: Executor, labId: string): Promise<HandInWindows> {
+  type Extension = { membershipId: string | null; cohortId: string | null; dueAt: string; lateCutoffAt: string | null };
+  const result = await executor.execute<{ status: HandInWindows["status"]; policy: AfterReleaseHandIns; opensAt: string; dueAt: string; lateCutoffAt: string | null; extensions: Extension[] }>(sql`
+    select l.status, l.after_release_hand_ins as policy, to_json(l.opens_at)#>>'{}' as "opensAt", to_json(l.due_at)#>>'{}' as "dueAt",
+      to_json(l.late_cutoff_at)#>>'{}' as "lateCutoffAt",
+      coalesce((select json_agg(json_build_object('membershipId', e.membership_id, 'cohortId', e.cohort_id, 'dueAt', e.due_at, 'lateCutoffAt', e.late_cutoff_at))
+        from lab_extensions e where e.lab_id = l.id), '[]'::json) as extensions
+    from labs l where l.id = ${labId}`);
+  const row = result.rows[0];
+  const windowOf = (extension: Extension): ExtensionWindow => ({ dueAt: new Date(extension.dueAt), lateCutoffAt: extension.lateCutoffAt ? new Date(extension.lateCutoffAt) : null });
+  return {
+    status: row.status,
+    afterReleaseHandIns: row.policy,
+    lab: { opensAt: new Date(row.opensAt), dueAt: new Date(row.dueAt), lateCutoffAt: row.lateCutoffAt ? new Date(row.lateCutoffAt) : null },
+    byStudent: new Map(row.extensions.filter((extension) => extension.membershipId).map((extension) => [extension.membershipId!, windowOf(extension)])),
+    byCohort: new Map(row.extensions.filter((extension) => extension.cohortId).map((extension) => [extension.cohortId!, windowOf(extension)])),
+  };
+}
+
+/** When the student's own window closes, or null when the lab takes no more hand-ins from them. */
+function stillOpenUntil(windows: HandInWindows, student: Pick<StudentMarkRow, "membershipId" | "cohortId">, now: Date): Date | null {
+  if (windows.status !== "published") return null;
+  const window = effectiveHandInWindow(windows.lab, { student: windows.byStudent.get(student.membershipId), cohort: windows.byCohort.get(student.cohortId) });
+  return handInTiming(window, now) === "closed" ? null : (window.lateCutoffAt ?? window.dueAt);
+}
+
+/** Each student's standing for release, and who may still hand in. */
+function previewRelease(rows: MarkingDeskRow[], windows: HandInWindows, now: Date): { preview: ReleasePreview; standings: Map<string, ReleaseStanding> } {
+  const counts = emptyReleaseCounts();
+  const standings = new Map<string, ReleaseStanding>();
+  let stillOpen = 0;
+  let until: Date | null = null;
+  for (const row of rows) {
+    const open = stillOpenUntil(windows, row, now);
+    if (open) {
+      stillOpen++;
+      if (!until || open > until) until = open;
+    }
+    const standing = releaseStanding({
+      handedIn: row.handIn !== null,
+      stillOpen: open !== null,
+      mark: row.mark && { released: row.mark.releasedAt !== null, complete: row.complete, onCountedVersion: !row.handInChangedSinceMarked },
+    });
+    counts[standing]++;
+    standings.set(row.membershipId, standing);
+  }
+  return { preview: { counts, stillOpen: { students: stillOpen, until: until?.toISOString() ?? null }, afterReleaseHandIns: windows.afterReleaseHandIns }, standings };
+}
 
 function summarise(totals: number[], bins: { from: number; to: number }[]): TotalsSummary {
   const histogram = bins.map(() => 0);
@@ -78,11 +155,15 @@ const loadLabelsFor = (executor: Executor, lab: MarkingLab): Promise<ClassLabels
 
 /**
  * The moderation view of a lab, for instructors: each marker's totals (the marks they last marked
- * at the desk, whatever moderation changed since) beside everyone's. Two statements.
+ * at the desk, whatever moderation changed since) beside everyone's, and what a release would find.
+ * Three statements.
  */
-export async function loadModeration(executor: Executor, { access, lab, binCount = 10 }: { access: CourseAccess; lab: MarkingLab; binCount?: number }): Promise<Moderation> {
+export async function loadModeration(
+  executor: Executor,
+  { access, lab, binCount = 10, now = new Date() }: { access: CourseAccess; lab: MarkingLab; binCount?: number; now?: Date },
+): Promise<Moderation> {
   await assertInstructor(executor, access, lab);
-  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: lab.cohortIds }), loadClassLabels(executor, lab)]);
+  const [students, labels, windows] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: lab.cohortIds }), loadClassLabels(executor, lab), loadHandInWindows(executor, lab.id)]);
   const rows = students.map((student) => deskRow(lab, student, labels));
   const maxTotal = maxTotalOf(lab.rubric);
   const bins = totalBins(maxTotal, binCount);
@@ -109,7 +190,9 @@ export async function loadModeration(executor: Executor, { access, lab, binCount
     progress,
     released: released.length,
     changedAfterRelease: released.filter((row) => row.mark!.releasedSnapshot && !sameContent(row.mark!.releasedSnapshot, row.mark!)).length,
+    needsRemarking: rows.filter((row) => row.needsRemarking).length,
     rows,
+    release: previewRelease(rows, windows, now).preview,
   };
 }
 
@@ -136,25 +219,41 @@ export async function markLabReady(
 }
 
 export type ReleaseOutcome = {
-  /** Marks shown to students by this release. */
+  /** Marks shown to students by this release, zeros included. */
   released: number;
+  /** Of those, zeros written for students who handed in nothing. */
+  zeros: number;
   /** E-mails queued (a student already e-mailed for this lab is not e-mailed again). */
   emailed: number;
   /** Marks released before. */
   alreadyReleased: number;
-  /** Students without a mark: nothing is shown to them yet. */
-  unmarked: number;
+  /** Students this choice left unreleased (not marked, partly marked, no hand-in, or still able to hand in): they see nothing yet. */
+  withheld: number;
+  /** Students who may still hand in, extensions counted. */
+  stillOpen: number;
 };
 
+const zeroReason = "Released as zero: nothing was handed in.";
+
 /**
- * Releases the lab's marks: every mark not shown yet gets its automatic criteria frozen, its total
- * written and a snapshot of what the student now sees; its student is e-mailed ("marks-released",
- * with a dedupe key per lab and student) on the same transaction. Releasing again shows only the
- * marks added since, and e-mails nobody twice. Instructors only, once the marking is marked ready.
+ * Releases the lab's marks as the instructor chose: each released mark gets its automatic criteria
+ * frozen from the version it was marked on, its total written and a snapshot of what the student
+ * now sees; with `zeroForNoHandIn`, a student whose window closed with nothing handed in gets a zero
+ * mark (recorded in the mark history). Each student released is e-mailed ("marks-released", with a
+ * dedupe key per lab and student) on the same transaction. Releasing again shows only the marks added
+ * since, and e-mails nobody twice. Refused (`still_open`) while anyone may still hand in, extensions
+ * counted, unless `whileOpen`. Instructors only, once the marking is marked ready. One transaction
+ * whatever the class size.
  */
 export async function releaseMarks(
   executor: Executor,
-  { access, lab: { id: labId }, request, now = new Date() }: { access: CourseAccess; lab: Pick<MarkingLab, "id">; request?: Request; now?: Date },
+  {
+    access,
+    lab: { id: labId },
+    choice,
+    request,
+    now = new Date(),
+  }: { access: CourseAccess; lab: Pick<MarkingLab, "id">; choice: ReleaseChoice; request?: Request; now?: Date },
 ): Promise<ReleaseOutcome> {
   await assertInstructor(executor, access, { id: labId });
   return executor.transaction(async (tx) => {
@@ -162,25 +261,55 @@ export async function releaseMarks(
     const lab = await loadMarkingLab(tx, access.course.id, labId);
     if (!lab) throw new MarkingRefusedError("lab_not_found", "There is no such lab in this course.");
     if (!lab.marking.readyAt) throw new MarkingRefusedError("not_ready", "Mark the lab's marking as ready before releasing it.");
-    const [students, labels] = await Promise.all([loadStudentMarkRows(tx, lab, { cohortIds: lab.cohortIds }), loadLabelsFor(tx, lab)]);
-    const toRelease = students.filter((row) => row.mark && !row.mark.releasedAt);
+    const [students, labels, windows] = await Promise.all([loadStudentMarkRows(tx, lab, { cohortIds: lab.cohortIds }), loadLabelsFor(tx, lab), loadHandInWindows(tx, labId)]);
+    const rows = students.map((student) => deskRow(lab, student, labels));
+    const { preview, standings } = previewRelease(rows, windows, now);
+    if (preview.stillOpen.students > 0 && !choice.whileOpen) {
+      throw new MarkingRefusedError(
+        "still_open",
+        `${preview.stillOpen.students} student${preview.stillOpen.students === 1 ? "" : "s"} may still hand in (extensions counted). Confirm that you release while hand-ins are still possible.`,
+        "whileOpen",
+      );
+    }
+    const actions = students.map((row) => ({ row, action: releaseAction(standings.get(row.membershipId)!, row.mark !== null, choice) }));
+    const toRelease = actions.filter((entry) => entry.action === "mark").map((entry) => entry.row);
+    const toZero = actions.filter((entry) => entry.action === "zero").map((entry) => entry.row);
     const releasedAt = now.toISOString();
     const payload = toRelease.map((row) => {
       const mark = row.mark!;
       const suggestions = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, row, labels));
       const scores = freezeSuggestions(lab.rubric, mark.scores, suggestions);
       const total = markTotals(lab.rubric, { scores, latePenaltyPoints: mark.latePenaltyPoints }, suggestions).total;
-      const snapshot: ReleasedMarkSnapshot = { scores, feedback: mark.feedback, latePenaltyPoints: mark.latePenaltyPoints, total, dropLogVersionId: row.handIn?.versionId ?? mark.basedOnVersionId, releasedAt };
-      return { id: mark.id, version: mark.version, scores, total, drop_log_version_id: snapshot.dropLogVersionId, snapshot };
+      // The mark is released on the version it was marked on, never a later one.
+      const snapshot: ReleasedMarkSnapshot = { scores, feedback: mark.feedback, latePenaltyPoints: mark.latePenaltyPoints, total, dropLogVersionId: mark.basedOnVersionId, releasedAt };
+      return { id: mark.id, version: mark.version, scores, total, snapshot };
     });
     if (payload.length) {
       // The version is unchanged: release writes in what was already shown, it changes no value.
       const result = await tx.execute(sql`
-        update marks mk set scores = r.scores, total = r.total, drop_log_version_id = r.drop_log_version_id,
-          released_at = ${releasedAt}::timestamptz, released_snapshot = r.snapshot
-        from json_to_recordset(${JSON.stringify(payload)}::json) as r(id uuid, version int, scores jsonb, total float8, drop_log_version_id uuid, snapshot jsonb)
+        update marks mk set scores = r.scores, total = r.total, released_at = ${releasedAt}::timestamptz, released_snapshot = r.snapshot
+        from json_to_recordset(${JSON.stringify(payload)}::json) as r(id uuid, version int, scores jsonb, total float8, snapshot jsonb)
         where mk.id = r.id and mk.version = r.version and mk.released_at is null`);
       if ((result.rowCount ?? 0) !== payload.length) throw new MarkingRefusedError("conflict", "Marks changed while releasing: nothing was released. Try again.");
+    }
+    if (toZero.length) {
+      const zero = zeroMark(lab.rubric);
+      const state: MarkState = { ...zero, total: 0, dropLogVersionId: null };
+      const snapshot: ReleasedMarkSnapshot = { ...state, releasedAt };
+      // Saves wait for the exclusive lock, so no mark can appear meanwhile; a missing row is still checked.
+      const created = await tx.execute<{ id: string; membershipId: string }>(sql`
+        insert into marks (lab_id, membership_id, scores, feedback, late_penalty_points, total, version, marked_by_id, moderated_by_id, moderated_at, released_at, released_snapshot, updated_at)
+        select ${lab.id}, r.membership_id, ${JSON.stringify(zero.scores)}::jsonb, ${zero.feedback}, 0, 0, 1, ${access.user.id}::uuid, ${access.user.id}::uuid,
+          ${releasedAt}::timestamptz, ${releasedAt}::timestamptz, ${JSON.stringify(snapshot)}::jsonb, ${releasedAt}::timestamptz
+        from json_to_recordset(${JSON.stringify(toZero.map((row) => ({ membership_id: row.membershipId })))}::json) as r(membership_id uuid)
+        on conflict (lab_id, membership_id) do nothing
+        returning id, membership_id as "membershipId"`);
+      if (created.rows.length !== toZero.length) throw new MarkingRefusedError("conflict", "Marks changed while releasing: nothing was released. Try again.");
+      await insertMany(
+        tx,
+        markChanges,
+        created.rows.map((mark) => ({ markId: mark.id, labId: lab.id, membershipId: mark.membershipId, changedById: access.user.id, changedAt: now, old: null, new: state, reason: zeroReason, source: "moderation" as const })),
+      );
     }
     await tx
       .insert(labMarking)
@@ -189,7 +318,7 @@ export async function releaseMarks(
     const marksUrl = `${appUrl()}${studentMarkHref(lab.courseId, lab.id)}`;
     const sent = await sendEmails(
       tx,
-      toRelease.map((row) => ({
+      [...toRelease, ...toZero].map((row) => ({
         to: row.email,
         toName: row.studentName,
         template: "marks-released" as const,
@@ -198,13 +327,16 @@ export async function releaseMarks(
         dedupeKey: `marks-released:${lab.id}:${row.membershipId}`,
       })),
     );
+    const alreadyReleased = preview.counts.released;
     const outcome: ReleaseOutcome = {
-      released: toRelease.length,
+      released: toRelease.length + toZero.length,
+      zeros: toZero.length,
       emailed: sent.filter((entry) => !entry.duplicate).length,
-      alreadyReleased: students.filter((row) => row.mark?.releasedAt).length,
-      unmarked: students.filter((row) => !row.mark).length,
+      alreadyReleased,
+      withheld: students.length - alreadyReleased - toRelease.length - toZero.length,
+      stillOpen: preview.stillOpen.students,
     };
-    await recordAudit(tx, { action: "marking.released", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: outcome, request });
+    await recordAudit(tx, { action: "marking.released", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: { ...outcome, choice }, request });
     return outcome;
   });
 }
