@@ -34,5 +34,7 @@ export { quantileType7, tukeyFences } from "./tukey";
 export type { TukeyFences } from "./tukey";
 export { fitFluidViscosity, viscosityAt, viscosityTemperatureCoefficient } from "./viscosity-model";
 export type { FluidViscosityFit, ViscosityCalibrationPoint } from "./viscosity-model";
+export { BudgetAccumulator, COVERAGE_PROBABILITY, fallingSphereBudget, wallFactorElasticity, welchSatterthwaite } from "./uncertainty-budget";
+export type { UncertaintyBudget, UncertaintyBudgetRow, UncertaintyTotals } from "./uncertainty-budget";
 export { WALL_MODEL_RANGES, wallFactor } from "./wall";
 export type { WallCorrectionMethod, WallModelRange } from "./wall";
