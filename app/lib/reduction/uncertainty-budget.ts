@@ -29,7 +29,7 @@ export interface UncertaintyTotals {
   combined: number;
   /** ν_eff = u_c⁴ / Σ (cᵢ u(xᵢ))⁴/νᵢ (GUM G.4.1); `Infinity` when every contribution is type B with ν = ∞. */
   effectiveDegreesOfFreedom: number;
-  /** k = t₀.₉₇₅(ν_eff), ν_eff truncated to the next lower integer as GUM G.4.1 allows. */
+  /** k = t₀.₉₇₅(ν_eff), interpolated between integer ν as GUM G.4.1 allows. */
   coverageFactor: number;
   /** U = k·u_c. */
   expanded: number;
@@ -89,27 +89,24 @@ export class BudgetAccumulator {
 }
 
 /**
- * Welch–Satterthwaite from the contributions cᵢu(xᵢ) and their νᵢ (GUM G.4.1, eq. G.2b), then k and U.
- * Exported for the GUM's own worked example.
+ * t₀.₉₇₅(ν) for a fractional ν, interpolated linearly between the cached integer quantiles, as GUM G.4.1
+ * allows for a ν_eff that is not an integer (truncating instead would turn its own example's 18.99 into
+ * 18 and k = 2.10 where the GUM gives t₉₅(19) = 2.09).
  */
-export function welchSatterthwaite(contributions: readonly { contribution: number; degreesOfFreedom: number }[]): UncertaintyTotals {
-  let sumOfSquares = 0;
-  let denominator = 0;
-  for (const { contribution, degreesOfFreedom } of contributions) {
-    const square = contribution * contribution;
-    sumOfSquares += square;
-    denominator += (square * square) / degreesOfFreedom;
-  }
-  return totalsOf(Math.sqrt(sumOfSquares), denominator);
+export function coverageFactor95(degreesOfFreedom: number): number {
+  if (degreesOfFreedom >= LARGE_DEGREES_OF_FREEDOM) return NORMAL_QUANTILE_975;
+  const below = Math.max(1, Math.floor(degreesOfFreedom));
+  const low = tQuantile975(below);
+  const fraction = degreesOfFreedom - below;
+  return fraction > 0 ? low + fraction * (tQuantile975(below + 1) - low) : low;
 }
 
+/** ν_eff by Welch–Satterthwaite (GUM G.4.1, eq. G.2b), then k = t₀.₉₇₅(ν_eff) and U = k·u_c. */
 function totalsOf(combined: number, welchSatterthwaiteDenominator: number): UncertaintyTotals {
   const combinedSquared = combined * combined;
   const effectiveDegreesOfFreedom =
     welchSatterthwaiteDenominator > 0 ? (combinedSquared * combinedSquared) / welchSatterthwaiteDenominator : Number.POSITIVE_INFINITY;
-  const truncated = Math.floor(effectiveDegreesOfFreedom);
-  const coverageFactor =
-    truncated >= LARGE_DEGREES_OF_FREEDOM ? NORMAL_QUANTILE_975 : tQuantile975(Math.max(1, truncated));
+  const coverageFactor = coverageFactor95(effectiveDegreesOfFreedom);
   return { combined, effectiveDegreesOfFreedom, coverageFactor, expanded: coverageFactor * combined, coverageProbability: COVERAGE_PROBABILITY };
 }
 
