@@ -206,7 +206,12 @@ describe("a fluid lot's page", () => {
 
     const engineFit = fitFluidViscosity(water.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
     // Same fit up to the order of summation (the lot stores its points in the order they were typed).
-    expect(calibration.fit).toEqual({ ...engineFit, a: expect.closeTo(engineFit.a, 9), b: expect.closeTo(engineFit.b, 6), maxRelativeResidual: expect.closeTo(engineFit.maxRelativeResidual, 12) });
+    const { residual, ...fit } = calibration.fit;
+    const { residual: engineResidual, ...engineRest } = engineFit;
+    expect(fit).toEqual({ ...engineRest, a: expect.closeTo(engineFit.a, 9), b: expect.closeTo(engineFit.b, 6), maxRelativeResidual: expect.closeTo(engineFit.maxRelativeResidual, 12) });
+    expect(residual?.degreesOfFreedom).toBe(2);
+    expect(residual!.standardError / engineResidual!.standardError).toBeCloseTo(1, 9);
+    expect(residual!.sxx / engineResidual!.sxx).toBeCloseTo(1, 9);
     expect(calibration.quoted.map((row) => row.temperatureC)).toEqual([15, 20, 25, 30]);
     expect(calibration.quoted[1].viscosityPaS).toBeCloseTo(viscosityAt(engineFit, 20), 12);
     expect(calibration.quoted.some((row) => row.extrapolated)).toBe(false);

@@ -189,7 +189,7 @@ export function reduceDropLog({
     time: resolutions.timeS / SQRT12,
     temperature: Math.hypot(resolutions.temperatureC / SQRT12, resolutions.thermometerAccuracyC / SQRT3),
     fluidDensity: fluidLot.densityUncertaintyKgM3 ?? 0,
-    columnDiameter: (column.innerDiameterUncertaintyMm ?? resolutions.diameterMm / SQRT12) / 1000,
+    columnDiameter: column.innerDiameterUncertaintyMm != null ? column.innerDiameterUncertaintyMm / 1000 : resolutions.diameterMm / 1000 / SQRT12,
     fluidViscosity: calibration && viscosityPaS !== null ? calibration.relative * viscosityPaS : 0,
   };
 
