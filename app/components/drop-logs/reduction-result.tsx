@@ -53,8 +53,9 @@ function withUnit(value: string, unit: string): string {
 export function BudgetTable({ budget }: { budget: UncertaintyBudget }) {
   const resultName = budget.result === "dragCoefficient" ? "C_D" : "μ";
   const rounded = roundToUncertainty(budget.value, budget.expanded);
+  // A wide table scrolls on a phone; the scrolling box takes focus so a keyboard can scroll it too.
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`Uncertainty budget of ${resultName}`}>
       <table className="w-full text-left text-sm tabular-nums">
         <caption className="mb-1 text-left text-ink-700">
           Uncertainty budget of {resultName} (GUM first order): each contribution is the sensitivity times the standard uncertainty, and they combine in quadrature.
@@ -142,7 +143,7 @@ function StrayDropComparison({
   if (reduction.mode === "viscometry") rows.push(["Viscosity μ (Stokes)", (results) => ("viscosity" in results ? `${figure(results.viscosity)} Pa·s` : "—")]);
   rows.push([reduction.mode === "drag" ? "C_D/C_D,ref" : "μ/μ_ref(T)", (_, figureValue) => figure(figureValue, 4)]);
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Results with and without the stray drops">
       <table className="text-left text-sm tabular-nums">
         <caption className="mb-1 text-left text-ink-700">
           Stray drops were flagged, so the results are given both ways. The column marked “counts” is the one the class comparison and marking use; the uncertainty budget is for all drops.
