@@ -384,7 +384,7 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     distance: { value: L, u: given?.distance ?? DEFAULT_STANDARD_UNCERTAINTIES.distance },
     meanTime: { value: stats.mean, typeA: stats.se, typeB, n },
     column: column.innerDiameter !== undefined ? { value: column.innerDiameter, u: given?.columnDiameter ?? DEFAULT_STANDARD_UNCERTAINTIES.columnDiameter } : null,
-    wallElasticity: diameterRatio !== null && wallMethod !== "none" ? wallFactorElasticity((λ) => wallFactor(λ, wallMethod), diameterRatio) : 0,
+    wallElasticity: diameterRatio !== null && wallMethod !== "none" ? wallFactorElasticity(wallMethod, diameterRatio) : 0,
     temperature: fluid.temperature !== undefined ? { value: fluid.temperature, u: uTemperature } : null,
     reference: budgetReference(mode, main, fluid, given, dragModel),
   });
@@ -580,21 +580,17 @@ function budgetReference(
   given: StandardUncertainties | undefined,
   dragModel: DragModel,
 ): Parameters<typeof fallingSphereBudget>[0]["reference"] {
-  const calibration = {
+  const value = mode === "drag" ? (fluid.viscosity as number) : fluid.referenceViscosity;
+  if (value === undefined) return null;
+  const viscosity = {
+    value,
     u: given?.fluidViscosity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidViscosity,
     degreesOfFreedom: fluid.viscosityDegreesOfFreedom ?? Number.POSITIVE_INFINITY,
     temperatureCoefficient: fluid.viscosityTemperatureCoefficient ?? 0,
   };
-  if (mode === "drag") {
-    const drag = main as DragKeyResults;
-    return {
-      kind: "drag",
-      ratio: drag.dragCoefficient / drag.referenceDragCoefficient,
-      slope: referenceDragLogSlope(drag.reynolds, dragModel),
-      viscosity: { value: fluid.viscosity as number, ...calibration },
-    };
-  }
-  return fluid.referenceViscosity !== undefined ? { kind: "viscometry", viscosity: { value: fluid.referenceViscosity, ...calibration } } : null;
+  if (mode === "viscometry") return { kind: "viscometry", viscosity };
+  const drag = main as DragKeyResults;
+  return { kind: "drag", ratio: drag.dragCoefficient / drag.referenceDragCoefficient, slope: referenceDragLogSlope(drag.reynolds, dragModel), viscosity };
 }
 
 interface PhysicsContext {

@@ -1,4 +1,5 @@
 import { tQuantile975 } from "./statistics";
+import { wallFactor, type WallCorrectionMethod } from "./wall";
 
 /**
  * A GUM uncertainty budget (JCGM 100:2008): one row per input quantity, combined in quadrature under
@@ -148,8 +149,7 @@ export interface FallingSphereBudgetContext {
  * twice and claim the common part averages away.
  */
 export function fallingSphereBudget(context: FallingSphereBudgetContext): UncertaintyBudget {
-  const { mode, diameter, sphere, fluidDensity, distance, meanTime, column, temperature, reference } = context;
-  const ε = context.wallElasticity;
+  const { mode, sphere, fluidDensity, reference } = context;
   const densityExcess = Math.abs(context.sphereDensity - fluidDensity.value);
   const sign = context.sphereDensity >= fluidDensity.value ? 1 : -1;
   // Exponents of Δρ's two parts: ∂ln Δρ/∂ln ρs and ∂ln Δρ/∂ln ρf.
@@ -158,28 +158,10 @@ export function fallingSphereBudget(context: FallingSphereBudgetContext): Uncert
   const sphereByDiameter = sphere.source === "mass" ? -3 : 0;
   // Exponents of the main result in d (without the wall factor), ρf, L, t̄ and K.
   const drag = mode === "drag";
-  const main = { d: (drag ? 1 : 2) + bySphere * sphereByDiameter, ρf: drag ? byFluid - 1 : byFluid, L: drag ? -2 : -1, t: drag ? 2 : 1, K: drag ? 2 : 1 };
-
-  const addInputs = (budget: BudgetAccumulator, e: typeof main, viscosity: number): void => {
-    budget.add("Sphere diameter d", diameter.value, "m", diameter.u, "B", Infinity, (e.d + e.K * ε) / diameter.value);
-    if (sphere.source === "mass") budget.add("Sphere mass m", sphere.value, "kg", sphere.u, "B", Infinity, bySphere / sphere.value);
-    else budget.add("Sphere material density ρs", sphere.value, "kg/m³", sphere.u, "B", Infinity, bySphere / sphere.value);
-    budget.add("Fluid density ρf", fluidDensity.value, "kg/m³", fluidDensity.u, "B", Infinity, e.ρf / fluidDensity.value);
-    budget.add("Timed distance L", distance.value, "m", distance.u, "B", Infinity, e.L / distance.value);
-    if (meanTime.typeA !== null) {
-      budget.add("Mean time t̄, scatter of the drops (s/√n)", meanTime.value, "s", meanTime.typeA, "A", meanTime.n - 1, e.t / meanTime.value);
-    }
-    budget.add("Timing, common to all drops (resolution)", meanTime.value, "s", meanTime.typeB, "B", Infinity, e.t / meanTime.value);
-    if (column) budget.add("Column bore D", column.value, "m", column.u, "B", Infinity, (-e.K * ε) / column.value);
-    // T moves ρf through the lot's coefficient, and the reference viscosity through d ln μ/dT.
-    if (temperature) {
-      const byTemperature = (e.ρf / fluidDensity.value) * fluidDensity.temperatureCoefficient + viscosity;
-      budget.add("Fluid temperature T", temperature.value, "°C", temperature.u, "B", Infinity, byTemperature);
-    }
-  };
+  const main: Exponents = { d: (drag ? 1 : 2) + bySphere * sphereByDiameter, ρf: drag ? byFluid - 1 : byFluid, L: drag ? -2 : -1, t: drag ? 2 : 1, K: drag ? 2 : 1 };
 
   const mainBudget = new BudgetAccumulator(context.value);
-  addInputs(mainBudget, main, 0);
+  addInputs(mainBudget, context, bySphere, main, 0);
   const totals = mainBudget.totals();
   let normalisedFigure: UncertaintyBudget["normalisedFigure"] = null;
   if (reference) {
@@ -190,10 +172,10 @@ export function fallingSphereBudget(context: FallingSphereBudgetContext): Uncert
     if (reference.kind === "drag") {
       // C_D/C_D,ref(Re) with Re ∝ ρf d L t̄⁻¹ K⁻¹ μ⁻¹: each exponent is e(C_D) − s·e(Re).
       const s = reference.slope;
-      addInputs(budget, { d: main.d - s, ρf: main.ρf - s, L: main.L - s, t: main.t + s, K: main.K + s }, s * viscosity.temperatureCoefficient);
+      addInputs(budget, context, bySphere, { d: main.d - s, ρf: main.ρf - s, L: main.L - s, t: main.t + s, K: main.K + s }, s * viscosity.temperatureCoefficient);
       addCalibration(budget, viscosity, s / viscosity.value);
     } else {
-      addInputs(budget, main, -viscosity.temperatureCoefficient);
+      addInputs(budget, context, bySphere, main, -viscosity.temperatureCoefficient);
       addCalibration(budget, viscosity, -1 / viscosity.value);
     }
     const figure = budget.totals();
@@ -221,6 +203,40 @@ export function fallingSphereBudget(context: FallingSphereBudgetContext): Uncert
   };
 }
 
+/** Exponents of a result in d (without the wall factor), ρf, L, t̄ and the wall factor K. */
+interface Exponents {
+  d: number;
+  ρf: number;
+  L: number;
+  t: number;
+  K: number;
+}
+
+/**
+ * The rows every result shares. A module function rather than a closure in {@link fallingSphereBudget}:
+ * the bundler names each closure it creates, which cost more per drop log than the rows themselves.
+ * `viscosity` is ∂ln y/∂T through the reference viscosity (0 for the main result).
+ */
+function addInputs(budget: BudgetAccumulator, context: FallingSphereBudgetContext, bySphere: number, e: Exponents, viscosity: number): void {
+  const { diameter, sphere, fluidDensity, distance, meanTime, column, temperature } = context;
+  const ε = context.wallElasticity;
+  budget.add("Sphere diameter d", diameter.value, "m", diameter.u, "B", Infinity, (e.d + e.K * ε) / diameter.value);
+  if (sphere.source === "mass") budget.add("Sphere mass m", sphere.value, "kg", sphere.u, "B", Infinity, bySphere / sphere.value);
+  else budget.add("Sphere material density ρs", sphere.value, "kg/m³", sphere.u, "B", Infinity, bySphere / sphere.value);
+  budget.add("Fluid density ρf", fluidDensity.value, "kg/m³", fluidDensity.u, "B", Infinity, e.ρf / fluidDensity.value);
+  budget.add("Timed distance L", distance.value, "m", distance.u, "B", Infinity, e.L / distance.value);
+  if (meanTime.typeA !== null) {
+    budget.add("Mean time t̄, scatter of the drops (s/√n)", meanTime.value, "s", meanTime.typeA, "A", meanTime.n - 1, e.t / meanTime.value);
+  }
+  budget.add("Timing, common to all drops (resolution)", meanTime.value, "s", meanTime.typeB, "B", Infinity, e.t / meanTime.value);
+  if (column) budget.add("Column bore D", column.value, "m", column.u, "B", Infinity, (-e.K * ε) / column.value);
+  // T moves ρf through the lot's coefficient, and the reference viscosity through d ln μ/dT.
+  if (temperature) {
+    const byTemperature = (e.ρf / fluidDensity.value) * fluidDensity.temperatureCoefficient + viscosity;
+    budget.add("Fluid temperature T", temperature.value, "°C", temperature.u, "B", Infinity, byTemperature);
+  }
+}
+
 function addCalibration(budget: BudgetAccumulator, viscosity: { value: number; u: number; degreesOfFreedom: number }, logSensitivity: number): void {
   // The Andrade fit's residual standard error is a type A evaluation with N − 2 degrees of freedom.
   const type = Number.isFinite(viscosity.degreesOfFreedom) ? "A" : "B";
@@ -228,8 +244,8 @@ function addCalibration(budget: BudgetAccumulator, viscosity: { value: number; u
 }
 
 /** d ln K/d ln λ by a central difference in ln λ, step 10⁻⁶ (λ > 0: a column is given). */
-export function wallFactorElasticity(wallFactorAt: (diameterRatio: number) => number, diameterRatio: number): number {
-  return Math.log(wallFactorAt(diameterRatio * (1 + ELASTICITY_STEP)) / wallFactorAt(diameterRatio * (1 - ELASTICITY_STEP))) / LOG_STEP_WIDTH;
+export function wallFactorElasticity(method: WallCorrectionMethod, diameterRatio: number): number {
+  return Math.log(wallFactor(diameterRatio * (1 + ELASTICITY_STEP), method) / wallFactor(diameterRatio * (1 - ELASTICITY_STEP), method)) / LOG_STEP_WIDTH;
 }
 
 const ELASTICITY_STEP = 1e-6;
