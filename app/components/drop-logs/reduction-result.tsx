@@ -111,7 +111,7 @@ function Total({ label, children }: { label: string; children: ReactNode }) {
  * Where stray drops were flagged, both results side by side, and which one counts: the one whose
  * normalised figure is the version's stored figure (the one the class comparison and marking use).
  */
-function StrayDropComparison({
+export function StrayDropComparison({
   reduction,
   normalisedFigure,
   referenceViscosity,
