@@ -316,9 +316,18 @@ export const parts = pgTable(
     // fluid lot
     fluidName: text("fluid_name"),
     densityKgM3: real("density_kg_m3"),
+    /** Standard uncertainty of the density (kg/m³); null: taken as exact, so the budget shows no row for it. */
+    densityUncertaintyKgM3: real("density_uncertainty_kg_m3"),
+    /**
+     * dρ/dT (kg/m³ per K, negative for liquids). With it, `density_kg_m3` is the density at 20 °C and a
+     * reduction uses ρ(T) = ρ₂₀ + (dρ/dT)(T − 20 °C); null: the density is used at every temperature.
+     */
+    densityTemperatureCoefficientKgM3K: real("density_temperature_coefficient_kg_m3_k"),
     calibration: jsonb("calibration").$type<CalibrationPoint[]>(),
     // column
     innerDiameterMm: real("inner_diameter_mm"),
+    /** Standard uncertainty of the bore (mm); null: the lab's diameter resolution/√12 is used. */
+    innerDiameterUncertaintyMm: real("inner_diameter_uncertainty_mm"),
     timedDistanceMm: real("timed_distance_mm"),
     runInMm: real("run_in_mm"),
     marginBelowMm: real("margin_below_mm"),
@@ -520,8 +529,12 @@ export const labStatus = pgEnum("lab_status", ["draft", "published", "closed"]);
 /** What a hand-in from a student whose mark is already released does: refused, or taken with the mark reopened for re-marking. */
 export const afterReleaseHandIns = pgEnum("after_release_hand_ins", afterReleaseHandInPolicies);
 
-/** Instrument resolutions a lab assumes, in the units of the bench; they feed the uncertainty budget. */
-export type LabResolutions = { diameterMm: number; massG: number; distanceMm: number; timeS: number; temperatureC: number };
+/**
+ * Instrument resolutions a lab assumes, in the units of the bench; they feed the uncertainty budget.
+ * `thermometerAccuracyC` is the thermometer's stated accuracy ±a (a rectangular distribution, u = a/√3),
+ * beside its reading resolution; labs saved before it existed have none and read as the default.
+ */
+export type LabResolutions = { diameterMm: number; massG: number; distanceMm: number; timeS: number; temperatureC: number; thermometerAccuracyC?: number };
 
 export const labs = pgTable(
   "labs",

@@ -209,7 +209,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
           What you handed in
         </h2>
         {versions.length === 0 ? <p className="text-ink-700">Nothing yet. Each hand-in is kept as a version; the latest one counts.</p> : null}
-        <VersionHistory courseId={courseId} timeZone={timeZone} kind={lab.kind} versions={versions} latestVersionId={latestVersionId} photos={photos} />
+        <VersionHistory courseId={courseId} timeZone={timeZone} versions={versions} latestVersionId={latestVersionId} photos={photos} />
       </section>
     </div>
   );

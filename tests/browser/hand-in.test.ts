@@ -98,6 +98,14 @@ describe("handing in a drop log from a phone in Chromium", () => {
     await stored.getByText("counts").waitFor();
     await expect(stored.locator("dd", { hasText: "4.112 s" }).isVisible()).resolves.toBe(true);
     await expect(stored.getByText(/drops 4\.12, 4\.08, 4\.15, 4\.1, 4\.11 s/).isVisible()).resolves.toBe(true);
+    // The stored version's uncertainty budget is there, collapsed until the student opens it.
+    const budgetTable = stored.getByRole("table", { name: /Uncertainty budget of/ });
+    await expect(budgetTable.isVisible()).resolves.toBe(false);
+    await stored.locator("summary", { hasText: "Uncertainty budget" }).click();
+    await budgetTable.waitFor();
+    await expect(budgetTable.getByRole("rowheader", { name: "Sphere diameter d" }).isVisible()).resolves.toBe(true);
+    await expect(stored.getByRole("region", { name: "Parts used" }).isVisible()).resolves.toBe(true);
+    expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
 
     const [version] = (
       await db.execute<{ version: number; n: number; fluid_lot_id: string }>(sql`

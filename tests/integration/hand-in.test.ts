@@ -11,7 +11,7 @@ import { and, asc, eq } from "drizzle-orm";
 import pg from "pg";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
-import { fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatureCoefficient } from "~/lib/reduction";
+import { calibrationUncertainty, fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatureCoefficient } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db, type Database } from "~/server/db.server";
 import { loadCountedHandIns } from "~/server/comparison/class-comparison.server";
@@ -90,10 +90,17 @@ describe("the server's reduction", () => {
     const [stored] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, version.id));
 
     const fit = fitFluidViscosity(calibration.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
+    const lotCalibration = calibrationUncertainty(fit, 22.4);
     const expected = reduceFallingSphere({
       mode: "drag",
       sphere: { diameter: 3e-3, mass: 0.11e-3 },
-      fluid: { density: 1260, viscosity: viscosityAt(fit, 22.4), temperature: 22.4, viscosityTemperatureCoefficient: viscosityTemperatureCoefficient(fit, 22.4) },
+      fluid: {
+        density: 1260,
+        viscosity: viscosityAt(fit, 22.4),
+        temperature: 22.4,
+        viscosityTemperatureCoefficient: viscosityTemperatureCoefficient(fit, 22.4),
+        viscosityDegreesOfFreedom: lotCalibration.degreesOfFreedom,
+      },
       column: { timedDistance: 0.2, innerDiameter: 0.04, runIn: 0.1 },
       drops,
       g: 9.80665,
@@ -104,7 +111,12 @@ describe("the server's reduction", () => {
         mass: 0.001e-3 / Math.sqrt(12),
         distance: 1e-3 / Math.sqrt(12),
         time: 0.01 / Math.sqrt(12),
-        temperature: 0.1 / Math.sqrt(12),
+        // The lab's 0.1 °C resolution and, saved before it was asked, the default ±0.5 °C accuracy (a/√3).
+        temperature: Math.hypot(0.1 / Math.sqrt(12), 0.5 / Math.sqrt(3)),
+        fluidDensity: 0,
+        // No bore uncertainty on the column: the lab's 0.01 mm diameter resolution.
+        columnDiameter: 0.01e-3 / Math.sqrt(12),
+        fluidViscosity: lotCalibration.relative * viscosityAt(fit, 22.4),
       },
       requiredDrops: 5,
     });

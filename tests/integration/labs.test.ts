@@ -59,7 +59,7 @@ describe("lab input", () => {
     expect(result.error?.issues.map((issue) => issue.path.join("."))).toEqual(["dueAt", "lateCutoffAt"]);
     const unreadable = labInputFor("UTC").safeParse(rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", reminderOffsetsHours: "48, soon", resolutions: {} }));
     expect(new Set(unreadable.error?.issues.map((issue) => issue.path.join(".")))).toEqual(
-      new Set(["reminderOffsetsHours", "resolutions.diameterMm", "resolutions.massG", "resolutions.distanceMm", "resolutions.timeS", "resolutions.temperatureC"]),
+      new Set(["reminderOffsetsHours", "resolutions.diameterMm", "resolutions.massG", "resolutions.distanceMm", "resolutions.timeS", "resolutions.temperatureC", "resolutions.thermometerAccuracyC"]),
     );
   });
 
@@ -75,7 +75,7 @@ describe("lab input", () => {
     const lab = labForm({ opensAt: "2027-07-01T09:00", dueAt: "2027-07-08T23:59" }, "Europe/Dublin");
     expect(lab.dueAt.toISOString()).toBe("2027-07-08T22:59:00.000Z");
     expect(lab.reminderOffsetsHours).toEqual([48, 6]);
-    expect(lab.resolutions).toEqual({ diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 });
+    expect(lab.resolutions).toEqual({ diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5, thermometerAccuracyC: 0.5 });
   });
 });
 

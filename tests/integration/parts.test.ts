@@ -67,6 +67,20 @@ describe("recording and re-measuring parts", () => {
     expect(changed.diameterMm.to).toBeCloseTo(4.02, 5);
   });
 
+  it("stores a lot's density uncertainty and dρ/dT and a column's bore uncertainty, and records their re-measurement", async () => {
+    const courseId = await newCourse("P-UNC");
+    const lot: PartInput = { kind: "fluid_lot", label: "GLY-U", fluidName: "glycerol", densityKgM3: 1261, densityUncertaintyKgM3: 0.8, densityTemperatureCoefficientKgM3K: -0.65, calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }], notes: null };
+    const { part } = await createPart(db, { courseId, actorId: instructorId, input: lot });
+    expect(part).toMatchObject({ densityUncertaintyKgM3: expect.closeTo(0.8, 5), densityTemperatureCoefficientKgM3K: expect.closeTo(-0.65, 5), innerDiameterUncertaintyMm: null });
+    await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: { ...lot, densityUncertaintyKgM3: 0.5 }, note: "hydrometer" });
+    const [remeasured] = (await getPart(db, courseId, part.id))!.events;
+    expect(Object.keys(remeasured.detail.changed as object)).toEqual(["densityUncertaintyKgM3"]);
+
+    const column: PartInput = { kind: "column", label: "C-U", innerDiameterMm: 40, innerDiameterUncertaintyMm: 0.03, timedDistanceMm: 200, runInMm: 150, marginBelowMm: 50, notes: null };
+    const { part: storedColumn } = await createPart(db, { courseId, actorId: instructorId, input: column });
+    expect(storedColumn).toMatchObject({ innerDiameterUncertaintyMm: expect.closeTo(0.03, 5), densityUncertaintyKgM3: null });
+  });
+
   it("refuses a label the course already uses, and allows it in another course", async () => {
     const courseId = await newCourse("P-DUP");
     await createPart(db, { courseId, actorId: instructorId, input: sphere("S-1") });
@@ -206,7 +220,12 @@ describe("a fluid lot's page", () => {
 
     const engineFit = fitFluidViscosity(water.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
     // Same fit up to the order of summation (the lot stores its points in the order they were typed).
-    expect(calibration.fit).toEqual({ ...engineFit, a: expect.closeTo(engineFit.a, 9), b: expect.closeTo(engineFit.b, 6), maxRelativeResidual: expect.closeTo(engineFit.maxRelativeResidual, 12) });
+    const { residual, ...fit } = calibration.fit;
+    const { residual: engineResidual, ...engineRest } = engineFit;
+    expect(fit).toEqual({ ...engineRest, a: expect.closeTo(engineFit.a, 9), b: expect.closeTo(engineFit.b, 6), maxRelativeResidual: expect.closeTo(engineFit.maxRelativeResidual, 12) });
+    expect(residual?.degreesOfFreedom).toBe(2);
+    expect(residual!.standardError / engineResidual!.standardError).toBeCloseTo(1, 9);
+    expect(residual!.sxx / engineResidual!.sxx).toBeCloseTo(1, 9);
     expect(calibration.quoted.map((row) => row.temperatureC)).toEqual([15, 20, 25, 30]);
     expect(calibration.quoted[1].viscosityPaS).toBeCloseTo(viscosityAt(engineFit, 20), 12);
     expect(calibration.quoted.some((row) => row.extrapolated)).toBe(false);

@@ -13,6 +13,7 @@ import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
 import { dropLogInput, parseTypedNumber, type DropLogDraft, type DropLogField } from "~/lib/drop-logs/drop-log-input";
 import type { DropLogReduction } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionSummary, WarningList, figure } from "./reduction-summary";
+import { StrayDropComparison } from "./reduction-result";
 
 export type FormSphere = { id: string; label: string; material: string | null; diameterMm: number | null; massG: number | null };
 export type FormFluidLot = { id: string; label: string; fluidName: string | null; densityKgM3: number | null };
@@ -411,6 +412,7 @@ export function DropLogForm({
           <>
             <ReductionSummary reduction={preview.result.reduction} normalisedFigure={preview.result.normalisedFigure} />
             <WarningList warnings={warningsFor("form")} />
+            <StrayDropComparison reduction={preview.result.reduction} normalisedFigure={preview.result.normalisedFigure} referenceViscosity={preview.result.kitRecords.fluidLot.viscosityPaS} />
             <p className="mt-2 text-xs text-ink-600">
               Computed by the server from your kit's records{kind === "drag" ? `, with the fluid's viscosity ${figure(preview.result.kitRecords.fluidLot.viscosityPaS)} Pa·s at your temperature` : ""}. Handing in stores this result.
             </p>

@@ -5,23 +5,24 @@
  */
 import { DropTimesChart } from "~/components/comparison/drop-times-chart";
 import { LabTime } from "~/components/drop-logs/lab-time";
-import { ReductionSummary, WarningList, figure } from "~/components/drop-logs/reduction-summary";
+import { ReductionResult } from "~/components/drop-logs/reduction-result";
 import type { PhotoView, VersionView } from "~/lib/drop-logs/version-view";
 
 export function VersionHistory({
   courseId,
   timeZone,
-  kind,
   versions,
   latestVersionId,
   photos,
+  budgetOpen = false,
 }: {
   courseId: string;
   timeZone: string;
-  kind: "drag" | "viscometry";
   versions: VersionView[];
   latestVersionId: string | null;
   photos: PhotoView[];
+  /** Staff pages open each version's uncertainty budget; the student's page keeps it collapsed. */
+  budgetOpen?: boolean;
 }) {
   return (
     <ol className="flex flex-col gap-4">
@@ -36,22 +37,22 @@ export function VersionHistory({
             Handed in <LabTime at={version.submittedAt} courseTimeZone={timeZone} />
           </p>
           <p className="mt-1 text-sm">
-            Sphere {version.kitRecords.sphere.label}: d = {version.kitRecords.sphere.diameterMm} mm, m = {version.kitRecords.sphere.massG} g
+            {version.input.temperatureC} °C · drops {version.input.drops.join(", ")} s
             {version.input.ownDiameterMm !== undefined || version.input.ownMassG !== undefined
-              ? ` (own measurement: ${[version.input.ownDiameterMm !== undefined ? `d = ${version.input.ownDiameterMm} mm` : null, version.input.ownMassG !== undefined ? `m = ${version.input.ownMassG} g` : null].filter(Boolean).join(", ")})`
-              : null}{" "}
-            · {version.input.temperatureC} °C · timed over {version.kitRecords.column.timedDistanceMm} mm · drops {version.input.drops.join(", ")} s
+              ? ` · own measurement: ${[version.input.ownDiameterMm !== undefined ? `d = ${version.input.ownDiameterMm} mm` : null, version.input.ownMassG !== undefined ? `m = ${version.input.ownMassG} g` : null].filter(Boolean).join(", ")}`
+              : null}
           </p>
           {version.input.notes ? <p className="mt-1 text-sm italic text-ink-700">“{version.input.notes}”</p> : null}
           <div className="mt-2">
-            <ReductionSummary reduction={version.reduction} normalisedFigure={version.normalisedFigure} />
-            <WarningList warnings={version.reduction.warnings ?? []} />
+            <ReductionResult
+              reduction={version.reduction}
+              normalisedFigure={version.normalisedFigure}
+              kitRecords={version.kitRecords}
+              warnings={version.reduction.warnings ?? []}
+              temperatureC={version.input.temperatureC}
+              budgetOpen={budgetOpen}
+            />
           </div>
-          {kind === "drag" && version.kitRecords.fluidLot.viscosityPaS !== null ? (
-            <p className="mt-1 text-xs text-ink-600">
-              Fluid {version.kitRecords.fluidLot.label}: {figure(version.kitRecords.fluidLot.viscosityPaS)} Pa·s at {version.input.temperatureC} °C from its calibration.
-            </p>
-          ) : null}
           <div className="mt-3">
             <DropTimesChart id={`drops-${version.id}`} title={`Drop times of version ${version.version}`} drops={version.input.drops} strayDrops={version.reduction.drops.strayDrops} />
           </div>

@@ -42,13 +42,24 @@ export function PartFields({
       {kind === "fluid_lot" ? (
         <>
           <TextField label="Fluid" {...field("fluidName")} required hint="e.g. glycerol–water 85 %, or the syrup's brand and batch." />
-          <TextField label="Density" unit="kg/m³" {...field("densityKgM3")} {...number} required />
+          <div className="grid gap-4 sm:grid-cols-3">
+            <TextField label="Density" unit="kg/m³" {...field("densityKgM3")} {...number} required hint="At 20 °C when a temperature coefficient is given." />
+            <TextField label="Density uncertainty" unit="kg/m³" {...field("densityUncertaintyKgM3")} {...number} hint="Standard uncertainty; optional (taken as exact without it)." />
+            <TextField
+              label="Density change per kelvin"
+              unit="kg/m³ per K"
+              {...field("densityTemperatureCoefficientKgM3K")}
+              {...number}
+              hint="dρ/dT, negative (glycerol about −0.65); optional. The density is then corrected to each drop temperature."
+            />
+          </div>
           <CalibrationFields key={JSON.stringify(calibration)} rows={calibration} errors={errors} />
         </>
       ) : null}
       {kind === "column" ? (
         <div className="grid gap-4 sm:grid-cols-2">
           <TextField label="Inner diameter (bore)" unit="mm" {...field("innerDiameterMm")} {...number} required />
+          <TextField label="Bore uncertainty" unit="mm" {...field("innerDiameterUncertaintyMm")} {...number} hint="Standard uncertainty; optional (the lab's diameter resolution is used without it)." />
           <TextField label="Timed distance between the bands" unit="mm" {...field("timedDistanceMm")} {...number} required />
           <TextField label="Run-in above the top band" unit="mm" {...field("runInMm")} {...number} required />
           <TextField label="Margin below the bottom band" unit="mm" {...field("marginBelowMm")} {...number} required />

@@ -168,15 +168,16 @@ export function LabFields({
           </SelectField>
         </div>
         <p className="text-sm text-ink-700">
-          Instrument resolutions feed the uncertainty budget (each reading taken as rectangular, u = r/√12). The defaults are common practice for a home kit: micrometer, milligram
-          balance, ruler, hand stopwatch and thermometer.
+          Instrument resolutions feed the uncertainty budget (each reading taken as rectangular, u = r/√12), and so does the thermometer&apos;s accuracy ±a (rectangular, u = a/√3).
+          The defaults are common practice for a home kit: micrometer, milligram balance, ruler, hand stopwatch and a thermometer good to ±0.5 °C.
         </p>
-        <div className="grid gap-4 sm:grid-cols-5">
+        <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6">
           <TextField label="Diameter" unit="mm" inputMode="decimal" {...field("resolutions.diameterMm")} />
           <TextField label="Mass" unit="g" inputMode="decimal" {...field("resolutions.massG")} />
           <TextField label="Distance" unit="mm" inputMode="decimal" {...field("resolutions.distanceMm")} />
           <TextField label="Time" unit="s" inputMode="decimal" {...field("resolutions.timeS")} />
           <TextField label="Temperature" unit="°C" inputMode="decimal" {...field("resolutions.temperatureC")} />
+          <TextField label="Thermometer accuracy ±" unit="°C" inputMode="decimal" {...field("resolutions.thermometerAccuracyC")} />
         </div>
       </Section>
 

@@ -142,6 +142,10 @@ export const reduceInput = z.object({
     viscosity: finite.optional(),
     temperature: finite.optional(),
     viscosityTemperatureCoefficient: finite.optional(),
+    // The uncertainty budget's: viscometry's reference μ(T), its calibration's degrees of freedom (omitted: ∞), dρf/dT.
+    referenceViscosity: finite.optional(),
+    viscosityDegreesOfFreedom: finite.optional(),
+    densityTemperatureCoefficient: finite.optional(),
   }),
   column: z.object({ timedDistance: finite, innerDiameter: finite.optional(), runIn: finite.optional() }),
   drops: z.array(finite).min(1).max(MAX_DROPS),
@@ -155,6 +159,7 @@ export const reduceInput = z.object({
       sphereDensity: finite.optional(),
       fluidDensity: finite.optional(),
       fluidViscosity: finite.optional(),
+      columnDiameter: finite.optional(),
       distance: finite.optional(),
       time: finite.optional(),
       temperature: finite.optional(),

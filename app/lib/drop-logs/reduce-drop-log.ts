@@ -5,8 +5,10 @@
  * Pure: no I/O. Bench units (mm, g, °C) come in; the engine works in SI.
  */
 import type { CalibrationPoint, LabResolutions } from "~/db/schema";
+import { labResolutions } from "~/lib/labs/lab-input";
 import {
   ReductionInputError,
+  calibrationUncertainty,
   fitFluidViscosity,
   normalisedFigure as normalisedFigureOf,
   reduceFallingSphere,
@@ -39,8 +41,26 @@ export type SphereRecord = {
   massG: number | null;
   massResolutionG: number | null;
 };
-export type FluidLotRecord = { id: string; label: string; fluidName: string | null; densityKgM3: number | null; calibration: CalibrationPoint[] | null };
-export type ColumnRecord = { id: string; label: string; innerDiameterMm: number | null; timedDistanceMm: number | null; runInMm: number | null };
+export type FluidLotRecord = {
+  id: string;
+  label: string;
+  fluidName: string | null;
+  densityKgM3: number | null;
+  /** Standard uncertainty of the density; absent or null: exact. */
+  densityUncertaintyKgM3?: number | null;
+  /** dρ/dT; when given, `densityKgM3` is the density at {@link DENSITY_REFERENCE_TEMPERATURE_C}. */
+  densityTemperatureCoefficientKgM3K?: number | null;
+  calibration: CalibrationPoint[] | null;
+};
+export type ColumnRecord = {
+  id: string;
+  label: string;
+  innerDiameterMm: number | null;
+  /** Standard uncertainty of the bore; absent or null: the lab's diameter resolution/√12. */
+  innerDiameterUncertaintyMm?: number | null;
+  timedDistanceMm: number | null;
+  runInMm: number | null;
+};
 /** The kit the sphere came from, as it stood when the drop log was reduced. */
 export type KitRecord = { number: string; state: KitState };
 export type KitRecordsInput = { sphere: SphereRecord; fluidLot: FluidLotRecord; column: ColumnRecord; kit?: KitRecord };
@@ -55,12 +75,17 @@ export type KitRecords = {
     id: string;
     label: string;
     fluidName: string | null;
+    /** As recorded (at 20 °C when the lot gives a temperature coefficient). */
     densityKgM3: number;
+    /** ρf at the drop temperature, the density the reduction used; absent in versions stored before it. */
+    densityAtTemperatureKgM3?: number;
+    densityUncertaintyKgM3?: number | null;
+    densityTemperatureCoefficientKgM3K?: number | null;
     fit: Pick<FluidViscosityFit, "kind" | "a" | "b" | "temperatureRange"> | null;
     /** From the lot's fit at the drop temperature: the input in drag mode, the reference in viscometry. */
     viscosityPaS: number | null;
   };
-  column: { id: string; label: string; innerDiameterMm: number | null; timedDistanceMm: number; runInMm: number | null };
+  column: { id: string; label: string; innerDiameterMm: number | null; innerDiameterUncertaintyMm?: number | null; timedDistanceMm: number; runInMm: number | null };
   /** The kit and its state at the hand-in; absent in versions stored before it was recorded. */
   kit?: KitRecord;
   gravity: number;
@@ -79,6 +104,12 @@ export type DropLogReduction = {
 };
 
 const STANDARD_GRAVITY = 9.80665;
+/**
+ * The temperature a lot's density is recorded at when it gives dρ/dT: 20 °C, the usual reference of
+ * density tables and of the lots' own calibration sheets (common practice).
+ */
+export const DENSITY_REFERENCE_TEMPERATURE_C = 20;
+const SQRT3 = Math.sqrt(3);
 /** Student and kit measurements further apart than this are worth a second look (brief: "disagree"). */
 const OWN_MEASUREMENT_TOLERANCE = 0.02;
 const SQRT12 = Math.sqrt(12);
@@ -144,27 +175,43 @@ export function reduceDropLog({
   if (missing.length) throw new ReductionInputError(missing);
 
   const viscosityPaS = fit ? viscosityAt(fit, input.temperatureC) : null;
+  // Linear in T about 20 °C: over a lab's few kelvin, glycerol–water's density is linear to well within its u (common practice).
+  const densityCoefficient = fluidLot.densityTemperatureCoefficientKgM3K ?? null;
+  const densityAtTemperature = fluidLot.densityKgM3! + (densityCoefficient ?? 0) * (input.temperatureC - DENSITY_REFERENCE_TEMPERATURE_C);
+  const calibration = fit ? calibrationUncertainty(fit, input.temperatureC) : null;
   const wallCorrection = lab.wallCorrection as WallCorrectionMethod;
   const dragModel = lab.dragModel as DragModel;
   const g = gravity ?? STANDARD_GRAVITY;
-  const resolutions = lab.resolutions;
+  const resolutions = labResolutions(lab.resolutions);
   // The kit's own instrument resolution when the part records one (its values are what we use), else the lab's.
+  // The bore without its own uncertainty is taken as measured with the lab's diameter instrument, as a
+  // sphere without its own resolution is; the thermometer reads to its resolution (r/√12) and is good to
+  // ±a (a/√3), both rectangular and independent (GUM 4.3.7).
   const standardUncertainties = {
     diameter: ((sphere.diameterResolutionMm ?? resolutions.diameterMm) / 1000) / SQRT12,
     mass: ((sphere.massResolutionG ?? resolutions.massG) / 1000) / SQRT12,
     distance: resolutions.distanceMm / 1000 / SQRT12,
     time: resolutions.timeS / SQRT12,
-    temperature: resolutions.temperatureC / SQRT12,
+    temperature: Math.hypot(resolutions.temperatureC / SQRT12, resolutions.thermometerAccuracyC / SQRT3),
+    fluidDensity: fluidLot.densityUncertaintyKgM3 ?? 0,
+    columnDiameter: column.innerDiameterUncertaintyMm != null ? column.innerDiameterUncertaintyMm / 1000 : resolutions.diameterMm / 1000 / SQRT12,
+    fluidViscosity: calibration && viscosityPaS !== null ? calibration.relative * viscosityPaS : 0,
   };
 
   const engineInput: FallingSphereInput = {
     mode: lab.kind,
     sphere: { diameter: diameterMm! / 1000, mass: massG! / 1000 },
     fluid: {
-      density: fluidLot.densityKgM3!,
+      density: densityAtTemperature,
       temperature: input.temperatureC,
-      ...(lab.kind === "drag" && fit
-        ? { viscosity: viscosityPaS!, viscosityTemperatureCoefficient: viscosityTemperatureCoefficient(fit, input.temperatureC) }
+      ...(densityCoefficient !== null ? { densityTemperatureCoefficient: densityCoefficient } : {}),
+      ...(fit
+        ? {
+            // Drag mode: the input; viscometry: the reference of μ/μ_ref(T), which then carries u(T) too.
+            ...(lab.kind === "drag" ? { viscosity: viscosityPaS! } : { referenceViscosity: viscosityPaS! }),
+            viscosityTemperatureCoefficient: viscosityTemperatureCoefficient(fit, input.temperatureC),
+            viscosityDegreesOfFreedom: calibration!.degreesOfFreedom,
+          }
         : {}),
     },
     column: {
@@ -227,10 +274,20 @@ export function reduceDropLog({
         label: fluidLot.label,
         fluidName: fluidLot.fluidName,
         densityKgM3: fluidLot.densityKgM3!,
+        densityAtTemperatureKgM3: densityAtTemperature,
+        densityUncertaintyKgM3: fluidLot.densityUncertaintyKgM3 ?? null,
+        densityTemperatureCoefficientKgM3K: densityCoefficient,
         fit: fit ? { kind: fit.kind, a: fit.a, b: fit.b, temperatureRange: fit.temperatureRange } : null,
         viscosityPaS,
       },
-      column: { id: column.id, label: column.label, innerDiameterMm: column.innerDiameterMm, timedDistanceMm: timedDistanceMm!, runInMm: column.runInMm },
+      column: {
+        id: column.id,
+        label: column.label,
+        innerDiameterMm: column.innerDiameterMm,
+        innerDiameterUncertaintyMm: column.innerDiameterUncertaintyMm ?? null,
+        timedDistanceMm: timedDistanceMm!,
+        runInMm: column.runInMm,
+      },
       ...(kit.kit ? { kit: kit.kit } : {}),
       gravity: g,
       wallCorrection,

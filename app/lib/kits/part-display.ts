@@ -22,8 +22,11 @@ export const partFieldLabels: Record<string, string> = {
   massResolutionG: "Mass resolution (g)",
   fluidName: "Fluid",
   densityKgM3: "Density (kg/m³)",
+  densityUncertaintyKgM3: "Density uncertainty (kg/m³)",
+  densityTemperatureCoefficientKgM3K: "dρ/dT (kg/m³ per K)",
   calibration: "Calibration (°C : Pa·s)",
   innerDiameterMm: "Bore (mm)",
+  innerDiameterUncertaintyMm: "Bore uncertainty (mm)",
   timedDistanceMm: "Timed distance (mm)",
   runInMm: "Run-in (mm)",
   marginBelowMm: "Margin below (mm)",
@@ -51,8 +54,11 @@ export type StoredPartFields = {
   massG: number | null;
   fluidName: string | null;
   densityKgM3: number | null;
+  densityUncertaintyKgM3?: number | null;
+  densityTemperatureCoefficientKgM3K?: number | null;
   calibration: CalibrationPoint[] | null;
   innerDiameterMm: number | null;
+  innerDiameterUncertaintyMm?: number | null;
   timedDistanceMm: number | null;
   runInMm: number | null;
   marginBelowMm: number | null;
@@ -69,10 +75,12 @@ export function measurementSummary(part: StoredPartFields): string {
     case "fluid_lot": {
       const calibration = fluidLotCalibration(part.calibration);
       const at20 = calibration?.quoted.find((point) => point.temperatureC === 20);
-      return `${part.fluidName ?? "—"} · ρ ${formatNumber(part.densityKgM3)} kg/m³ · ${part.calibration?.length ?? 0} calibration points · μ(20 °C) ${formatNumber(at20?.viscosityPaS)} Pa·s`;
+      const density = `ρ ${formatNumber(part.densityKgM3)}${part.densityUncertaintyKgM3 != null ? ` (u ${formatNumber(part.densityUncertaintyKgM3)})` : ""} kg/m³`;
+      const coefficient = part.densityTemperatureCoefficientKgM3K != null ? ` at 20 °C, dρ/dT ${formatNumber(part.densityTemperatureCoefficientKgM3K)} kg/m³ per K` : "";
+      return `${part.fluidName ?? "—"} · ${density}${coefficient} · ${part.calibration?.length ?? 0} calibration points · μ(20 °C) ${formatNumber(at20?.viscosityPaS)} Pa·s`;
     }
     case "column":
-      return `inner diameter ${formatNumber(part.innerDiameterMm)} mm · timed ${formatNumber(part.timedDistanceMm)} mm · run-in ${formatNumber(part.runInMm)} mm · margin ${formatNumber(part.marginBelowMm)} mm`;
+      return `inner diameter ${formatNumber(part.innerDiameterMm)}${part.innerDiameterUncertaintyMm != null ? ` (u ${formatNumber(part.innerDiameterUncertaintyMm)})` : ""} mm · timed ${formatNumber(part.timedDistanceMm)} mm · run-in ${formatNumber(part.runInMm)} mm · margin ${formatNumber(part.marginBelowMm)} mm`;
     case "accessory":
       return part.accessoryType ?? "—";
   }

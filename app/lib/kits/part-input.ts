@@ -48,6 +48,17 @@ export const fluidLotInput = z.object({
   label,
   fluidName: z.string().trim().min(1, "Name the fluid, e.g. glycerol–water 85 %.").max(80),
   densityKgM3: measured("density", "kg/m³", 25000).min(500, "A density below 500 kg/m³ is not a lab fluid; enter it in kg/m³."),
+  densityUncertaintyKgM3: optionalMeasured("density uncertainty", "kg/m³", 100),
+  // Liquids expand when warmed: dρ/dT is negative, glycerol's about −0.65 kg/m³/K (common practice).
+  densityTemperatureCoefficientKgM3K: z.preprocess(
+    (value) => (value === "" || value === null ? undefined : value),
+    z.coerce
+      .number({ error: "Enter the density's temperature coefficient in kg/m³ per K." })
+      .refine(Number.isFinite, "Enter the density's temperature coefficient in kg/m³ per K.")
+      .min(-10, "A coefficient below −10 kg/m³ per K is not a lab fluid; check the sign and unit.")
+      .max(0, "Liquids get lighter when warmed: the coefficient is zero or negative.")
+      .optional(),
+  ),
   calibration: z
     .array(calibrationPointSchema)
     .min(1, "Add at least one calibration point (temperature and viscosity).")
@@ -64,6 +75,7 @@ export const columnInput = z
     kind: z.literal("column"),
     label,
     innerDiameterMm: measured("inner diameter", "mm", 500),
+    innerDiameterUncertaintyMm: optionalMeasured("bore uncertainty", "mm", 10),
     timedDistanceMm: measured("timed distance", "mm", 3000),
     runInMm: measured("run-in distance", "mm", 3000),
     marginBelowMm: measured("margin below the bottom band", "mm", 3000),

@@ -5,8 +5,8 @@ import { checkImportHeaders, checkImportRows, csvRowToPartInput, inventoryCsv, p
 
 const parts: PartInput[] = [
   { kind: "sphere", label: "T-1", material: "glass", diameterMm: 4, diameterResolutionMm: 0.01, massG: 0.08, massResolutionG: undefined, notes: null },
-  { kind: "fluid_lot", label: "T-2", fluidName: "syrup, lot 7", densityKgM3: 1380, calibration: [{ temperatureC: -5, viscosityPaS: 9 }, { temperatureC: 22.5, viscosityPaS: 2.5 }], notes: 'said "thick"' },
-  { kind: "column", label: "T-3", innerDiameterMm: 40, timedDistanceMm: 250, runInMm: 150, marginBelowMm: 60, notes: null },
+  { kind: "fluid_lot", label: "T-2", fluidName: "syrup, lot 7", densityKgM3: 1380, densityUncertaintyKgM3: 2.5, densityTemperatureCoefficientKgM3K: -0.7, calibration: [{ temperatureC: -5, viscosityPaS: 9 }, { temperatureC: 22.5, viscosityPaS: 2.5 }], notes: 'said "thick"' },
+  { kind: "column", label: "T-3", innerDiameterMm: 40, innerDiameterUncertaintyMm: 0.03, timedDistanceMm: 250, runInMm: 150, marginBelowMm: 60, notes: null },
   { kind: "accessory", label: "T 4/b", accessoryType: "thermometer", notes: "=1+1" },
 ];
 
@@ -21,6 +21,13 @@ describe("parts CSV", () => {
     const back = read.data.map((row) => csvRowToPartInput(row));
     // The optional resolution left empty comes back as absent, the formula-looking note without its apostrophe.
     expect(back).toEqual(parts.map((input) => ({ ok: true, input: JSON.parse(JSON.stringify(input)) })));
+  });
+
+  it("refuses a positive density temperature coefficient and a negative bore uncertainty, naming the column", () => {
+    const lot = csvRowToPartInput({ kind: "fluid_lot", label: "F", fluid_name: "oil", density_kg_m3: "900", density_temperature_coefficient_kg_m3_k: "0.6", calibration: "20:0.5" });
+    expect(lot).toEqual({ ok: false, problems: [expect.stringMatching(/^density_temperature_coefficient_kg_m3_k: Liquids get lighter/)] });
+    const column = csvRowToPartInput({ kind: "column", label: "C", inner_diameter_mm: "40", inner_diameter_uncertainty_mm: "-1", timed_distance_mm: "200", run_in_mm: "150", margin_below_mm: "50" });
+    expect(column).toEqual({ ok: false, problems: [expect.stringMatching(/^inner_diameter_uncertainty_mm: /)] });
   });
 
   it("neutralises a formula in the export but keeps the value readable", () => {

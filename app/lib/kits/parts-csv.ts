@@ -17,8 +17,11 @@ export const partCsvColumns = [
   "mass_resolution_g",
   "fluid_name",
   "density_kg_m3",
+  "density_uncertainty_kg_m3",
+  "density_temperature_coefficient_kg_m3_k",
   "calibration",
   "inner_diameter_mm",
+  "inner_diameter_uncertainty_mm",
   "timed_distance_mm",
   "run_in_mm",
   "margin_below_mm",
@@ -43,10 +46,13 @@ const kindColumns: Record<PartKind, [PartCsvColumn, string][]> = {
   fluid_lot: [
     ["fluid_name", "fluidName"],
     ["density_kg_m3", "densityKgM3"],
+    ["density_uncertainty_kg_m3", "densityUncertaintyKgM3"],
+    ["density_temperature_coefficient_kg_m3_k", "densityTemperatureCoefficientKgM3K"],
     ["calibration", "calibration"],
   ],
   column: [
     ["inner_diameter_mm", "innerDiameterMm"],
+    ["inner_diameter_uncertainty_mm", "innerDiameterUncertaintyMm"],
     ["timed_distance_mm", "timedDistanceMm"],
     ["run_in_mm", "runInMm"],
     ["margin_below_mm", "marginBelowMm"],
@@ -88,7 +94,20 @@ function columnOf(path: PropertyKey[]): string {
 }
 
 /** The fields that hold a measured number. */
-export const measuredFields = new Set(["diameterMm", "diameterResolutionMm", "massG", "massResolutionG", "densityKgM3", "innerDiameterMm", "timedDistanceMm", "runInMm", "marginBelowMm"]);
+export const measuredFields = new Set([
+  "diameterMm",
+  "diameterResolutionMm",
+  "massG",
+  "massResolutionG",
+  "densityKgM3",
+  "densityUncertaintyKgM3",
+  "densityTemperatureCoefficientKgM3K",
+  "innerDiameterMm",
+  "innerDiameterUncertaintyMm",
+  "timedDistanceMm",
+  "runInMm",
+  "marginBelowMm",
+]);
 
 /** An empty number box is a missing value ("enter the diameter"), not a zero ("must be greater than zero"). */
 export function blankAsMissing(field: string, value: string): string | undefined {
@@ -193,8 +212,8 @@ const inventoryOnlyColumns: string[] = ["status", "kit_number"];
 /** One example row per kind, so the template shows each kind's columns filled in. */
 const templateParts: PartInput[] = [
   { kind: "sphere", label: "S-01", material: "steel", diameterMm: 3.175, diameterResolutionMm: 0.01, massG: 0.1305, massResolutionG: 0.0001, notes: null },
-  { kind: "fluid_lot", label: "FL-01", fluidName: "glycerol–water 85 %", densityKgM3: 1221, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 25, viscosityPaS: 0.081 }], notes: null },
-  { kind: "column", label: "C-01", innerDiameterMm: 32, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null },
+  { kind: "fluid_lot", label: "FL-01", fluidName: "glycerol–water 85 %", densityKgM3: 1221, densityUncertaintyKgM3: 1, densityTemperatureCoefficientKgM3K: -0.6, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 25, viscosityPaS: 0.081 }], notes: null },
+  { kind: "column", label: "C-01", innerDiameterMm: 32, innerDiameterUncertaintyMm: 0.05, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null },
   { kind: "accessory", label: "M-01", accessoryType: "retrieval magnet", notes: "Keep away from pacemakers." },
 ];
 

@@ -32,9 +32,15 @@ export const dragModelNames: Record<(typeof dragModels)[number], string> = {
 
 /**
  * Resolutions of a micrometer, a milligram balance, a ruler, a hand stopwatch and a school
- * thermometer: common practice for home kits, and each lab can change them.
+ * thermometer, and that thermometer's accuracy of ±0.5 K: common practice for home kits, and each lab
+ * can change them.
  */
-export const DEFAULT_RESOLUTIONS: LabResolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 };
+export const DEFAULT_RESOLUTIONS: Required<LabResolutions> = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5, thermometerAccuracyC: 0.5 };
+
+/** A lab's resolutions with the thermometer accuracy filled in for labs saved before it was asked. */
+export function labResolutions(resolutions: LabResolutions): Required<LabResolutions> {
+  return { ...resolutions, thermometerAccuracyC: resolutions.thermometerAccuracyC ?? DEFAULT_RESOLUTIONS.thermometerAccuracyC };
+}
 export const DEFAULT_REMINDER_OFFSETS_HOURS = [48, 6];
 export const DEFAULT_REQUIRED_DROPS = 10;
 /** Reminders earlier than a month before the due time are not reminders. */
@@ -125,6 +131,10 @@ export function labInputFor(timeZone: string) {
         distanceMm: resolution("distance", "mm", 10),
         timeS: resolution("time", "s", 1),
         temperatureC: resolution("temperature", "°C", 5),
+        thermometerAccuracyC: z.coerce
+          .number({ error: "Enter the thermometer's accuracy in °C." })
+          .gt(0, "The thermometer's accuracy must be more than 0 °C.")
+          .max(10, "A thermometer accuracy over ±10 °C is not a measurement."),
       }),
       reminderOffsetsHours: reminderOffsets,
       afterReleaseHandIns: z.enum(afterReleaseHandInPolicies, { error: "Choose what a hand-in after the release does." }).default("refuse"),
@@ -171,6 +181,7 @@ export function labInputFromForm(form: FormData): Record<string, unknown> {
       distanceMm: text("resolutions.distanceMm"),
       timeS: text("resolutions.timeS"),
       temperatureC: text("resolutions.temperatureC"),
+      thermometerAccuracyC: text("resolutions.thermometerAccuracyC"),
     },
     reminderOffsetsHours: text("reminderOffsetsHours") ?? "",
     afterReleaseHandIns: text("afterReleaseHandIns"),
@@ -243,7 +254,7 @@ export function storedLabFormValues(
       comparisonK: String(lab.comparisonK),
       reminderOffsetsHours: lab.reminderOffsetsHours.join(", "),
       afterReleaseHandIns: lab.afterReleaseHandIns,
-      ...Object.fromEntries(Object.entries(lab.resolutions).map(([key, value]) => [`resolutions.${key}`, String(value)])),
+      ...Object.fromEntries(Object.entries(labResolutions(lab.resolutions)).map(([key, value]) => [`resolutions.${key}`, String(value)])),
     },
     cohortIds: lab.cohortIds,
     allowedPartIds: lab.allowedPartIds,

@@ -147,10 +147,13 @@ describe("reduceFallingSphere — invalid input", () => {
   });
 });
 
-function allNumbersFinite(value: unknown): boolean {
-  if (typeof value === "number") return Number.isFinite(value);
+// Degrees of freedom are the one place ∞ is a value (a type B input, GUM G.4.2), never NaN.
+const DEGREES_OF_FREEDOM_KEYS = new Set(["degreesOfFreedom", "effectiveDegreesOfFreedom"]);
+
+function allNumbersFinite(value: unknown, key = ""): boolean {
+  if (typeof value === "number") return Number.isFinite(value) || (DEGREES_OF_FREEDOM_KEYS.has(key) && value === Infinity);
   if (value === null || typeof value !== "object") return true;
-  return Object.values(value).every(allNumbersFinite);
+  return Object.entries(value).every(([childKey, child]) => allNumbersFinite(child, Array.isArray(value) ? key : childKey));
 }
 
 const positive = (min: number, max: number) => fc.double({ min, max, noNaN: true, noDefaultInfinity: true });

@@ -2,6 +2,7 @@ import { DRAG_MODEL_RANGES, referenceDragCoefficient, referenceDragLogSlope, typ
 import { IssueList } from "./errors";
 import { describeDrops, type DropStatistics } from "./statistics";
 import { findStrayDrops } from "./stray-drops";
+import { fallingSphereBudget, wallFactorElasticity, type UncertaintyBudget } from "./uncertainty-budget";
 import { WALL_MODEL_RANGES, wallFactor, type WallCorrectionMethod } from "./wall";
 
 export type ReductionMode = "drag" | "viscometry";
@@ -16,8 +17,13 @@ export interface StandardUncertainties {
   sphereDensity?: number;
   /** Fluid density (kg/m³). */
   fluidDensity?: number;
-  /** Fluid viscosity (Pa·s), drag mode. */
+  /**
+   * Fluid viscosity (Pa·s) from the lot's calibration at T: the input in drag mode, the reference of
+   * μ/μ_ref in viscometry. Its degrees of freedom are `fluid.viscosityDegreesOfFreedom`.
+   */
   fluidViscosity?: number;
+  /** Column bore (m). */
+  columnDiameter?: number;
   /** Timed distance between the bands (m). */
   distance?: number;
   /** Type B standard uncertainty of one timing (s), e.g. the stopwatch resolution / √12. */
@@ -38,6 +44,7 @@ export const DEFAULT_STANDARD_UNCERTAINTIES: Required<StandardUncertainties> = {
   sphereDensity: 0,
   fluidDensity: 0,
   fluidViscosity: 0,
+  columnDiameter: 0,
   distance: 1e-3 / Math.sqrt(12),
   time: 0.01 / Math.sqrt(12),
   temperature: 1 / Math.sqrt(12),
@@ -60,6 +67,15 @@ export interface FallingSphereInput {
     temperature?: number;
     /** d ln μ/dT (1/K) of the fluid at the drop temperature, e.g. from `viscosityTemperatureCoefficient(fit, T)`. */
     viscosityTemperatureCoefficient?: number;
+    /** Viscometry: the lot's μ at the drop temperature, the reference of the normalised figure μ/μ_ref(T). */
+    referenceViscosity?: number;
+    /** Degrees of freedom of `uncertainties.fluidViscosity` (N − 2 for an Andrade fit of N points); ∞ when absent. */
+    viscosityDegreesOfFreedom?: number;
+    /**
+     * dρf/dT (kg/m³/K) of the lot. `density` is already the density at `temperature`; the coefficient
+     * only carries u(T) into ρf in the uncertainty budget.
+     */
+    densityTemperatureCoefficient?: number;
   };
   column: {
     timedDistance: number;
@@ -183,6 +199,8 @@ interface ReductionBase {
   relaxationTime: number;
   relaxationLength: number;
   uncertainty: ReductionUncertainty;
+  /** The GUM budget of the main result (C_D or μ) with all drops, and of the normalised figure. */
+  uncertaintyBudget: UncertaintyBudget;
   checks: ReductionCheck[];
 }
 
@@ -352,6 +370,24 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     }
   }
 
+  const uncertaintyBudget = fallingSphereBudget({
+    mode,
+    value: mode === "drag" ? main.dragCoefficient : (main as ViscometryKeyResults).viscosity,
+    diameter: { value: d, u: given?.diameter ?? DEFAULT_STANDARD_UNCERTAINTIES.diameter },
+    sphere:
+      sphereDensitySource === "mass"
+        ? { source: "mass", value: sphere.mass as number, u: given?.mass ?? DEFAULT_STANDARD_UNCERTAINTIES.mass }
+        : { source: "material", value: ρs, u: given?.sphereDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.sphereDensity },
+    sphereDensity: ρs,
+    fluidDensity: { value: ρf, u: given?.fluidDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidDensity, temperatureCoefficient: fluid.densityTemperatureCoefficient ?? 0 },
+    distance: { value: L, u: given?.distance ?? DEFAULT_STANDARD_UNCERTAINTIES.distance },
+    meanTime: { value: stats.mean, typeA: stats.se, typeB, n },
+    column: column.innerDiameter !== undefined ? { value: column.innerDiameter, u: given?.columnDiameter ?? DEFAULT_STANDARD_UNCERTAINTIES.columnDiameter } : null,
+    wallElasticity: diameterRatio !== null && wallMethod !== "none" ? wallFactorElasticity(wallMethod, diameterRatio) : 0,
+    temperature: fluid.temperature !== undefined ? { value: fluid.temperature, u: uTemperature } : null,
+    reference: budgetReference(mode, main, fluid, given, dragModel),
+  });
+
   // --- checks
   const requiredDrops = input.requiredDrops ?? 5;
   if (n < requiredDrops) {
@@ -490,6 +526,7 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
       relaxationLength,
       withoutStrayDrops: withoutStrayDrops as DragKeyResults | null,
       uncertainty,
+      uncertaintyBudget,
       checks,
     };
   }
@@ -511,8 +548,30 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     relaxationLength,
     withoutStrayDrops: withoutStrayDrops as ViscometryKeyResults | null,
     uncertainty,
+    uncertaintyBudget,
     checks,
   };
+}
+
+/** What the normalised figure's reference depends on: the drag law at Re, or the lot's μ_ref(T). */
+function budgetReference(
+  mode: ReductionMode,
+  main: DragKeyResults | ViscometryKeyResults,
+  fluid: FallingSphereInput["fluid"],
+  given: StandardUncertainties | undefined,
+  dragModel: DragModel,
+): Parameters<typeof fallingSphereBudget>[0]["reference"] {
+  const value = mode === "drag" ? (fluid.viscosity as number) : fluid.referenceViscosity;
+  if (value === undefined) return null;
+  const viscosity = {
+    value,
+    u: given?.fluidViscosity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidViscosity,
+    degreesOfFreedom: fluid.viscosityDegreesOfFreedom ?? Number.POSITIVE_INFINITY,
+    temperatureCoefficient: fluid.viscosityTemperatureCoefficient ?? 0,
+  };
+  if (mode === "viscometry") return { kind: "viscometry", viscosity };
+  const drag = main as DragKeyResults;
+  return { kind: "drag", ratio: drag.dragCoefficient / drag.referenceDragCoefficient, slope: referenceDragLogSlope(drag.reynolds, dragModel), viscosity };
 }
 
 interface PhysicsContext {
@@ -625,6 +684,11 @@ function validate(input: FallingSphereInput): void {
     issues.add("fluid.temperature", "must be above absolute zero");
   }
   issues.optionalFinite("fluid.viscosityTemperatureCoefficient", fluid.viscosityTemperatureCoefficient);
+  issues.optionalPositive("fluid.referenceViscosity", fluid.referenceViscosity);
+  issues.optionalFinite("fluid.densityTemperatureCoefficient", fluid.densityTemperatureCoefficient);
+  if (fluid.viscosityDegreesOfFreedom !== undefined && !(fluid.viscosityDegreesOfFreedom >= 1)) {
+    issues.add("fluid.viscosityDegreesOfFreedom", "must be at least 1");
+  }
   issues.positive("column.timedDistance", column.timedDistance);
   issues.optionalPositive("column.innerDiameter", column.innerDiameter);
   issues.optionalNonNegative("column.runIn", column.runIn);

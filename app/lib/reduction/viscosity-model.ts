@@ -25,6 +25,12 @@ export interface FluidViscosityFit {
   temperatureRange: [number, number];
   /** Largest |μ_fit/μ_point − 1| over the calibration points. */
   maxRelativeResidual: number;
+  /**
+   * Residual standard error of the fit on ln μ, s = √(Σ rᵢ²/(N − 2)) (a relative figure), and what
+   * {@link calibrationUncertainty} needs to carry it to any T: the mean of x = 1/T and Sxx = Σ(xᵢ − x̄)².
+   * Null when the fit has no residual degrees of freedom (two temperatures, or a constant model with one).
+   */
+  residual: { standardError: number; degreesOfFreedom: number; meanInverseTemperature: number; sxx: number } | null;
   warning: string | null;
 }
 
@@ -54,6 +60,9 @@ export function fitFluidViscosity(points: readonly ViscosityCalibrationPoint[]):
     let sumOfLogs = 0;
     for (const point of points) sumOfLogs += Math.log(point.viscosity);
     const a = sumOfLogs / points.length;
+    let sumOfSquares = 0;
+    for (const point of points) sumOfSquares += (Math.log(point.viscosity) - a) ** 2;
+    const degreesOfFreedom = points.length - 1;
     return {
       kind: "constant",
       a,
@@ -61,6 +70,11 @@ export function fitFluidViscosity(points: readonly ViscosityCalibrationPoint[]):
       pointCount: points.length,
       temperatureRange: [minimum, maximum],
       maxRelativeResidual: maxRelativeResidual(points, a, 0),
+      // Repeats at one temperature: the mean of ln μ, with sxx = 0 so only its own standard error remains.
+      residual:
+        degreesOfFreedom > 0
+          ? { standardError: Math.sqrt(sumOfSquares / degreesOfFreedom), degreesOfFreedom, meanInverseTemperature: 1 / (minimum + KELVIN_OFFSET), sxx: 0 }
+          : null,
       warning: `Only one calibration temperature (${minimum} °C): the viscosity is taken as constant, so the drop temperature is not accounted for.`,
     };
   }
@@ -83,6 +97,9 @@ export function fitFluidViscosity(points: readonly ViscosityCalibrationPoint[]):
   }
   const b = sxy / sxx;
   const a = meanY - b * meanX;
+  let sumOfSquares = 0;
+  for (const point of points) sumOfSquares += (Math.log(point.viscosity) - a - b / (point.temperature + KELVIN_OFFSET)) ** 2;
+  const degreesOfFreedom = points.length - 2;
   return {
     kind: "andrade",
     a,
@@ -90,6 +107,7 @@ export function fitFluidViscosity(points: readonly ViscosityCalibrationPoint[]):
     pointCount: points.length,
     temperatureRange: [minimum, maximum],
     maxRelativeResidual: maxRelativeResidual(points, a, b),
+    residual: degreesOfFreedom > 0 ? { standardError: Math.sqrt(sumOfSquares / degreesOfFreedom), degreesOfFreedom, meanInverseTemperature: meanX, sxx } : null,
     warning:
       points.length === 2 ? "Two calibration points: the Andrade line passes through both, with no check of its fit." : null,
   };
@@ -116,4 +134,19 @@ export function viscosityAt(fit: FluidViscosityFit, temperatureC: number): numbe
 export function viscosityTemperatureCoefficient(fit: FluidViscosityFit, temperatureC: number): number {
   const kelvin = temperatureC + KELVIN_OFFSET;
   return -fit.b / (kelvin * kelvin);
+}
+
+/**
+ * Relative standard uncertainty of the fitted μ at T from the calibration's own scatter: the standard
+ * error of the regression line's mean at x₀ = 1/T, u(ln μ̂) = s·√(1/N + (x₀ − x̄)²/Sxx) (ordinary least
+ * squares; e.g. Draper & Smith, Applied Regression Analysis, §1.4 — from memory), with N − 2 degrees of
+ * freedom. Zero with no residual degrees of freedom: the fit cannot tell its own uncertainty then, which
+ * the fit's `warning` already says.
+ */
+export function calibrationUncertainty(fit: Pick<FluidViscosityFit, "pointCount" | "residual">, temperatureC: number): { relative: number; degreesOfFreedom: number } {
+  const residual = fit.residual;
+  if (!residual) return { relative: 0, degreesOfFreedom: Number.POSITIVE_INFINITY };
+  const offset = 1 / (temperatureC + KELVIN_OFFSET) - residual.meanInverseTemperature;
+  const leverage = 1 / fit.pointCount + (residual.sxx > 0 ? (offset * offset) / residual.sxx : 0);
+  return { relative: residual.standardError * Math.sqrt(leverage), degreesOfFreedom: residual.degreesOfFreedom };
 }

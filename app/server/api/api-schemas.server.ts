@@ -48,6 +48,43 @@ export const labList = z.object({ labs: z.array(labSummary) }).register(apiSchem
 
 const looseObject = z.looseObject({});
 
+// JSON has no Infinity: a degrees of freedom of ∞ (a type B input, or a ν_eff with no type A input) is sent as null.
+const degreesOfFreedom = z.number().nullable().describe("Degrees of freedom; null stands for ∞ (JSON has no Infinity).");
+const uncertaintyTotals = {
+  combined: z.number().describe("Combined standard uncertainty u_c (GUM 5.1.2), in the result's unit."),
+  effectiveDegreesOfFreedom: degreesOfFreedom.describe("ν_eff by Welch–Satterthwaite (GUM G.4.1); null stands for ∞."),
+  coverageFactor: z.number().describe("k = t₀.₉₇₅(ν_eff)."),
+  expanded: z.number().describe("Expanded uncertainty U = k·u_c."),
+  coverageProbability: z.number().describe("0.95."),
+};
+export const uncertaintyBudget = z
+  .object({
+    result: z.enum(["dragCoefficient", "viscosity"]).describe("C_D in drag mode, the Stokes μ in viscometry, with all drops."),
+    value: z.number(),
+    unit: z.string().describe('"1" for C_D, "Pa·s" for μ.'),
+    rows: z.array(
+      z.object({
+        input: z.string(),
+        value: z.number(),
+        unit: z.string(),
+        standardUncertainty: z.number(),
+        type: z.enum(["A", "B"]),
+        degreesOfFreedom,
+        sensitivity: z.number().describe("∂y/∂xᵢ."),
+        contribution: z.number().describe("Sensitivity × standard uncertainty, in the result's unit; they combine in quadrature to `combined`."),
+      }),
+    ),
+    ...uncertaintyTotals,
+    normalisedFigure: z
+      .object({ value: z.number(), ...uncertaintyTotals })
+      .nullable()
+      .describe("The uncertainty of C_D/C_D,ref or μ/μ_ref(T), and so of the deviation from the reference; null in viscometry without a calibrated lot."),
+  })
+  .register(apiSchemas, { id: "UncertaintyBudget", description: "The GUM uncertainty budget of a reduction's main result." });
+const storedReduction = z
+  .looseObject({ uncertaintyBudget: uncertaintyBudget.optional().describe("Absent in versions reduced before budgets were kept.") })
+  .describe("The server's reduction, with its warnings (SI units).");
+
 export const storedVersion = z
   .object({
     id: uuid,
@@ -59,7 +96,7 @@ export const storedVersion = z
     columnId: uuid.nullable(),
     input: looseObject.describe("What the student entered (bench units: mm, g, °C, s)."),
     kitRecords: looseObject.describe("The kit records the server reduced with."),
-    reduction: looseObject.describe("The server's reduction, with its warnings (SI units)."),
+    reduction: storedReduction,
     normalisedFigure: z.number().nullable().describe("C_D/C_D,ref (drag) or measured/reference viscosity (viscometry)."),
     reynolds: z.number().nullable(),
     dragCoefficient: z.number().nullable(),
@@ -100,8 +137,8 @@ export const handInResponse = z
 
 export const reduceResponse = z
   .union([
-    z.object({ reduction: looseObject }).describe("The engine's reduction of an SI input."),
-    z.object({ reduction: looseObject, kitRecords: looseObject, normalisedFigure: z.number().nullable(), warnings: z.array(looseObject) }).describe("A drop-log preview against the caller's kit."),
+    z.object({ reduction: storedReduction }).describe("The engine's reduction of an SI input."),
+    z.object({ reduction: storedReduction, kitRecords: looseObject, normalisedFigure: z.number().nullable(), warnings: z.array(looseObject) }).describe("A drop-log preview against the caller's kit."),
   ])
   .register(apiSchemas, { id: "Reduction" });
 

@@ -50,6 +50,8 @@ export type CountedHandIn = {
   viscosityPaS: number | null;
   referenceViscosityPaS: number | null;
   temperatureC: number | null;
+  /** From the version's uncertainty budget; null for versions reduced before budgets were kept. */
+  uncertainty: { resultExpanded: number | null; coverageFactor: number | null; figureExpanded: number | null };
   membershipId: string;
   studentName: string;
   cohortId: string | null;
@@ -111,6 +113,9 @@ type CountedRow = {
   viscosity_pa_s: number | null;
   reference_viscosity: number | null;
   temperature_c: number | null;
+  result_expanded: number | null;
+  coverage_factor: number | null;
+  figure_expanded: number | null;
   membership_id: string;
   student_name: string;
   cohort_id: string | null;
@@ -138,6 +143,9 @@ export async function loadCountedHandIns(executor: Executor, labId: string): Pro
       v.viscosity_pa_s::float8 as viscosity_pa_s,
       (v.kit_records #>> '{fluidLot,viscosityPaS}')::float8 as reference_viscosity,
       (v.input ->> 'temperatureC')::float8 as temperature_c,
+      (v.reduction #>> '{uncertaintyBudget,expanded}')::float8 as result_expanded,
+      (v.reduction #>> '{uncertaintyBudget,coverageFactor}')::float8 as coverage_factor,
+      (v.reduction #>> '{uncertaintyBudget,normalisedFigure,expanded}')::float8 as figure_expanded,
       m.id as membership_id, u.name as student_name, m.cohort_id, h.name as cohort_name,
       v.sphere_id, sp.label as sphere_label, v.fluid_lot_id, fl.label as fluid_lot_label, v.column_id, co.label as column_label,
       v.kit_records #>> '{kit,state}' as kit_state,
@@ -165,6 +173,7 @@ export async function loadCountedHandIns(executor: Executor, labId: string): Pro
     viscosityPaS: row.viscosity_pa_s,
     referenceViscosityPaS: row.reference_viscosity,
     temperatureC: row.temperature_c,
+    uncertainty: { resultExpanded: row.result_expanded, coverageFactor: row.coverage_factor, figureExpanded: row.figure_expanded },
     membershipId: row.membership_id,
     studentName: row.student_name,
     cohortId: row.cohort_id,
@@ -229,6 +238,7 @@ export function comparisonJson(comparison: LabComparison) {
       viscosityPaS: handIn.viscosityPaS,
       referenceViscosityPaS: handIn.referenceViscosityPaS,
       temperatureC: handIn.temperatureC,
+      uncertainty: handIn.uncertainty,
       label: handIn.label,
       reason: handIn.reason,
       href: handInHref(lab.courseId, lab.id, handIn.dropLogId),

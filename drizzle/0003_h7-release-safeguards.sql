@@ -1,3 +1,0 @@
-CREATE TYPE "public"."after_release_hand_ins" AS ENUM('refuse', 'reopen');--> statement-breakpoint
-ALTER TABLE "labs" ADD COLUMN "after_release_hand_ins" "after_release_hand_ins" DEFAULT 'refuse' NOT NULL;--> statement-breakpoint
-ALTER TABLE "marks" ADD COLUMN "reopened_at" timestamp with time zone;
