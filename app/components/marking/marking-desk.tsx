@@ -90,6 +90,11 @@ function HandInCell() {
       <span className={row.status === "missing" ? "font-medium text-outlier" : row.status === "late" ? "font-medium text-outlier" : ""}>{statusWords[row.status]}</span>
       {row.handIn ? <span className="text-ink-600">v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops</span> : null}
       {row.handInChangedSinceMarked ? <span className="text-amber-700">handed in again since marked</span> : null}
+      {row.resultChangedSinceMarked ? (
+        <span className="text-amber-700" data-testid="result-changed">
+          result changed since it was marked: {figure(row.resultChangedSinceMarked.oldFigure, 3)} → {figure(row.resultChangedSinceMarked.newFigure, 3)} × ref
+        </span>
+      ) : null}
     </div>
   );
 }

@@ -1,6 +1,7 @@
 /**
  * Kit-part quality: the normalised figures of every counted hand-in of the course's labs, grouped by
- * the sphere, fluid lot and column they used, and tested for bias (see `partBias`). One statement for
+ * the sphere, fluid lot and column they used, and tested for bias (see `partBias`). A part re-measured
+ * since counts only the revisions made after its change. One statement for
  * the whole course, whatever the number of labs, parts and hand-ins.
  */
 import { sql } from "drizzle-orm";
@@ -36,7 +37,12 @@ export async function listPartBias(executor: Executor, courseId: string, partId?
     join course_memberships m on m.id = dl.membership_id
     join users u on u.id = m.user_id
     cross join lateral (values (v.sphere_id), (v.fluid_lot_id), (v.column_id)) as p(part_id)
-    where l.course_id = ${courseId} and v.normalised_figure > 0 and p.part_id is not null
+    join parts pp on pp.id = p.part_id
+    where l.course_id = ${courseId} and v.normalised_figure > 0
+      -- A re-measured part is judged only on figures reduced with its new record: revisions made after the change.
+      and (pp.reduction_changed_at is null or exists (
+        select 1 from reduction_revisions rr
+        where rr.version_id = v.id and rr.revision = v.current_revision and rr.created_at >= pp.reduction_changed_at))
       ${partId ? sql`and p.part_id = ${partId}` : sql``}
     order by p.part_id, v.submitted_at`);
   const grouped = new Map<string, { alpha: number; handIns: PartBiasHandIn[] }>();

@@ -29,6 +29,8 @@ export type DeskHandIn = {
   dragCoefficient: number | null;
   viscosityPaS: number | null;
   temperatureC: number | null;
+  /** The version's current reduction revision (1 until a part it used is corrected). */
+  revision: number;
 };
 
 /** A student's stored mark. */
@@ -38,6 +40,9 @@ export type StoredMark = MarkContent & {
   /** As of the last write; readers use the recomputed total on the row. */
   storedTotal: number;
   basedOnVersionId: string | null;
+  /** The reduction revision of that version when the mark was last changed, and its figure. */
+  basedOnRevision: number | null;
+  basedOnFigure: number | null;
   markedBy: { id: string; name: string } | null;
   moderatedBy: { id: string; name: string } | null;
   moderatedAt: string | null;
@@ -79,6 +84,11 @@ export type MarkingDeskRow = StudentMarkRow & {
   expectedVersion: number;
   /** Handed in again since the mark was last changed. */
   handInChangedSinceMarked: boolean;
+  /**
+   * The marked version was re-reduced since (a part it used was corrected): the figure the mark saw and
+   * today's. Nothing in the mark changes; automatic criteria already suggest from the new figure.
+   */
+  resultChangedSinceMarked: { fromRevision: number; toRevision: number; oldFigure: number | null; newFigure: number | null } | null;
 };
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -112,11 +122,14 @@ export async function loadStudentMarkRows(
         'strayDropCount', case when jsonb_typeof(v.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(v.reduction #> '{drops,strayDrops}') end,
         'warningCount', v.warning_count, 'figure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8,
         'dragCoefficient', v.drag_coefficient::float8, 'viscosityPaS', v.viscosity_pa_s::float8,
-        'temperatureC', case when jsonb_typeof(v.input -> 'temperatureC') = 'number' then (v.input ->> 'temperatureC')::float8 end
+        'temperatureC', case when jsonb_typeof(v.input -> 'temperatureC') = 'number' then (v.input ->> 'temperatureC')::float8 end,
+        'revision', v.current_revision
       ) end as "handIn",
       case when mk.id is null then null else json_build_object(
         'id', mk.id, 'version', mk.version, 'scores', mk.scores, 'feedback', mk.feedback, 'latePenaltyPoints', mk.late_penalty_points,
-        'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id,
+        'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id, 'basedOnRevision', mk.reduction_revision,
+        'basedOnFigure', (select rr.normalised_figure::float8 from reduction_revisions rr
+          where rr.version_id = mk.drop_log_version_id and rr.revision = mk.reduction_revision),
         'markedById', mk.marked_by_id, 'markedByName', mb.name, 'moderatedById', mk.moderated_by_id, 'moderatedByName', mm.name,
         'moderatedAt', to_json(mk.moderated_at)#>>'{}', 'updatedAt', to_json(mk.updated_at)#>>'{}', 'releasedAt', to_json(mk.released_at)#>>'{}',
         'releasedSnapshot', mk.released_snapshot
@@ -205,5 +218,9 @@ export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestion
     progress: markProgress(row.mark !== null, totals),
     expectedVersion: row.mark?.version ?? 0,
     handInChangedSinceMarked: row.mark !== null && row.handIn !== null && row.mark.basedOnVersionId !== row.handIn.versionId,
+    resultChangedSinceMarked:
+      row.mark?.basedOnRevision != null && row.handIn && row.mark.basedOnVersionId === row.handIn.versionId && row.mark.basedOnRevision < row.handIn.revision
+        ? { fromRevision: row.mark.basedOnRevision, toRevision: row.handIn.revision, oldFigure: row.mark.basedOnFigure, newFigure: row.handIn.figure }
+        : null,
   };
 }

@@ -47,6 +47,8 @@ export type Moderation = {
   released: number;
   /** Released marks that differ from what was released. */
   changedAfterRelease: number;
+  /** Marks whose hand-in was re-reduced (a part correction) since they were marked; released ones need the instructor's review. */
+  resultChanged: { membershipId: string; name: string; oldFigure: number | null; newFigure: number | null; released: boolean }[];
   /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
   rows: MarkingDeskRow[];
 };
@@ -109,6 +111,11 @@ export async function loadModeration(executor: Executor, { access, lab, binCount
     progress,
     released: released.length,
     changedAfterRelease: released.filter((row) => row.mark!.releasedSnapshot && !sameContent(row.mark!.releasedSnapshot, row.mark!)).length,
+    resultChanged: rows.flatMap((row) =>
+      row.resultChangedSinceMarked
+        ? [{ membershipId: row.membershipId, name: row.studentName, ...row.resultChangedSinceMarked, released: row.mark!.releasedAt !== null }]
+        : [],
+    ).map(({ membershipId, name, oldFigure, newFigure, released }) => ({ membershipId, name, oldFigure, newFigure, released })),
     rows,
   };
 }
