@@ -119,13 +119,18 @@ describe("a re-measured fluid lot", () => {
     expect(moderation.resultChanged).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, released: false }]);
     const [markAfter] = await db.select().from(marks).where(eq(marks.id, markBefore.id));
     expect(markAfter).toEqual(markBefore);
+    // Once released, the changed basis is listed for the instructor's review.
+    await db.update(marks).set({ releasedAt: new Date() }).where(eq(marks.id, markBefore.id));
+    const afterRelease = await loadModeration(db, { access: instructor, lab: (await loadMarkingLab(db, fixture.courseId, fixture.labId))! });
+    expect(afterRelease.resultChanged).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, released: true }]);
+    await db.update(marks).set({ releasedAt: null }).where(eq(marks.id, markBefore.id));
 
     // The lot's bias counts the revised figure again.
     const counted = (await listPartBias(db, fixture.courseId, lotId)).get(lotId)!.handIns;
     expect(counted).toHaveLength(1);
     expect(counted[0].figure).toBeCloseTo(revised.normalisedFigure!, 5);
 
-    const audit = await db.select({ action: auditEvents.action }).from(auditEvents).where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.subject, lotId)));
+    const audit = await db.select({ action: auditEvents.action }).from(auditEvents).where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.subject, `part:${lotId}`)));
     expect(audit.map((entry) => entry.action).sort()).toEqual(["part.rereduced", "part.rereduction_queued"]);
 
     // The job again, after it finished or as a retry of one that stopped before finishing: no second revision.
@@ -135,6 +140,16 @@ describe("a re-measured fluid lot", () => {
     expect(await db.select().from(reductionRevisions).where(eq(reductionRevisions.versionId, handedIn.id))).toHaveLength(2);
     expect((await db.select().from(rereductionRuns).where(eq(rereductionRuns.id, run.id)))[0]).toMatchObject({ done: 1, total: 1 });
 
+  });
+
+  it("rests a mark saved again on the current revision, which clears the flag", async () => {
+    const instructor = accessOf("instructor");
+    const lab = (await loadMarkingLab(db, fixture.courseId, fixture.labId))!;
+    const discussion = lab.rubric.find((criterion) => criterion.kind === "range")!;
+    const [mark] = await db.select().from(marks).where(and(eq(marks.labId, fixture.labId), eq(marks.membershipId, fixture.membershipIds.ownStudent)));
+    const saved = await saveMark(db, { access: instructor, labId: fixture.labId, membershipId: fixture.membershipIds.ownStudent, expectedVersion: mark.version, change: { kind: "score", criterionId: discussion.id, points: 4 } });
+    expect(saved.status === "saved" && saved.row.resultChangedSinceMarked).toBeNull();
+    expect((await db.select().from(marks).where(eq(marks.id, mark.id)))[0].reductionRevision).toBe(2);
   });
 
   it("queues nothing when the change enters no reduction", async () => {

@@ -151,7 +151,7 @@ export async function updatePart(
         .returning({ id: partEvents.id });
       if (revises) {
         const runId = await queueRereduction(tx, { courseId, partId, partEventId: event.id });
-        await recordAudit(tx, { action: "part.rereduction_queued", actorId, courseId, subject: partId, detail: { partLabel: part.label, partEventId: event.id, runId, changes: reduction } });
+        await recordAudit(tx, { action: "part.rereduction_queued", actorId, courseId, subject: `part:${partId}`, detail: { partLabel: part.label, partEventId: event.id, runId, changes: reduction } });
       }
       return { part, warnings };
     });

@@ -251,7 +251,7 @@ async function finishRun(executor: Executor, runId: string, run: RunRow, { revis
       action: "part.rereduced",
       actorId: run.actor_id,
       courseId: run.course_id,
-      subject: run.part_id,
+      subject: `part:${run.part_id}`,
       detail: { partLabel: run.part_label, partEventId: run.part_event_id, total: run.total, revised, unreducible, labIds },
     });
   });
