@@ -126,6 +126,7 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
             {resultChanged.map((entry) => (
               <li key={entry.membershipId}>
                 {entry.name}: {entry.oldFigure?.toFixed(3) ?? "—"} → {entry.newFigure?.toFixed(3) ?? "—"} × ref
+                {entry.reoffered ? `; ${entry.reoffered} automatic criteria now suggest other points` : ""}
                 {entry.released ? " — released: review this mark" : ""}
               </li>
             ))}

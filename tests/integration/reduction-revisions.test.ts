@@ -119,11 +119,21 @@ describe("a re-measured fluid lot", () => {
     expect(moderation.resultChanged).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, released: false }]);
     const [markAfter] = await db.select().from(marks).where(eq(marks.id, markBefore.id));
     expect(markAfter).toEqual(markBefore);
-    // Once released, the changed basis is listed for the instructor's review.
-    await db.update(marks).set({ releasedAt: new Date() }).where(eq(marks.id, markBefore.id));
+    expect(row.resultChangedSinceMarked!.reofferedCriterionIds).toEqual([]);
+    // Once released (the automatic points written in as they were), the changed basis is listed for
+    // the instructor's review, and the automatic criterion whose suggestion now differs is offered again.
+    const newPoints = row.suggestions[automatic.id].points!;
+    const releasedPoints = newPoints === 3 ? 0 : 3;
+    await db
+      .update(marks)
+      .set({ releasedAt: new Date(), scores: { ...markBefore.scores, [automatic.id]: { points: releasedPoints, frozen: true } } })
+      .where(eq(marks.id, markBefore.id));
     const afterRelease = await loadModeration(db, { access: instructor, lab: (await loadMarkingLab(db, fixture.courseId, fixture.labId))! });
-    expect(afterRelease.resultChanged).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, released: true }]);
-    await db.update(marks).set({ releasedAt: null }).where(eq(marks.id, markBefore.id));
+    expect(afterRelease.resultChanged).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, released: true, reoffered: 1 }]);
+    const releasedRow = afterRelease.rows.find((entry) => entry.membershipId === fixture.membershipIds.ownStudent)!;
+    expect(releasedRow.resultChangedSinceMarked!.reofferedCriterionIds).toEqual([automatic.id]);
+    expect(releasedRow.cells[automatic.id].points).toBe(releasedPoints);
+    await db.update(marks).set({ releasedAt: null, scores: markBefore.scores }).where(eq(marks.id, markBefore.id));
 
     // The lot's bias counts the revised figure again.
     const counted = (await listPartBias(db, fixture.courseId, lotId)).get(lotId)!.handIns;

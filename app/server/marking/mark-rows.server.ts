@@ -88,7 +88,14 @@ export type MarkingDeskRow = StudentMarkRow & {
    * The marked version was re-reduced since (a part it used was corrected): the figure the mark saw and
    * today's. Nothing in the mark changes; automatic criteria already suggest from the new figure.
    */
-  resultChangedSinceMarked: { fromRevision: number; toRevision: number; oldFigure: number | null; newFigure: number | null } | null;
+  resultChangedSinceMarked: {
+    fromRevision: number;
+    toRevision: number;
+    oldFigure: number | null;
+    newFigure: number | null;
+    /** Automatic criteria whose points were fixed (overridden, or written in at release) and whose suggestion now differs: offered again. */
+    reofferedCriterionIds: string[];
+  } | null;
 };
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -220,7 +227,15 @@ export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestion
     handInChangedSinceMarked: row.mark !== null && row.handIn !== null && row.mark.basedOnVersionId !== row.handIn.versionId,
     resultChangedSinceMarked:
       row.mark?.basedOnRevision != null && row.handIn && row.mark.basedOnVersionId === row.handIn.versionId && row.mark.basedOnRevision < row.handIn.revision
-        ? { fromRevision: row.mark.basedOnRevision, toRevision: row.handIn.revision, oldFigure: row.mark.basedOnFigure, newFigure: row.handIn.figure }
+        ? {
+            fromRevision: row.mark.basedOnRevision,
+            toRevision: row.handIn.revision,
+            oldFigure: row.mark.basedOnFigure,
+            newFigure: row.handIn.figure,
+            reofferedCriterionIds: Object.entries(totals.cells)
+              .filter(([, cell]) => (cell.source === "override" || cell.source === "released") && cell.suggestion?.points != null && cell.suggestion.points !== cell.points)
+              .map(([id]) => id),
+          }
         : null,
   };
 }

@@ -48,7 +48,7 @@ export type Moderation = {
   /** Released marks that differ from what was released. */
   changedAfterRelease: number;
   /** Marks whose hand-in was re-reduced (a part correction) since they were marked; released ones need the instructor's review. */
-  resultChanged: { membershipId: string; name: string; oldFigure: number | null; newFigure: number | null; released: boolean }[];
+  resultChanged: { membershipId: string; name: string; oldFigure: number | null; newFigure: number | null; released: boolean; reoffered: number }[];
   /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
   rows: MarkingDeskRow[];
 };
@@ -111,11 +111,12 @@ export async function loadModeration(executor: Executor, { access, lab, binCount
     progress,
     released: released.length,
     changedAfterRelease: released.filter((row) => row.mark!.releasedSnapshot && !sameContent(row.mark!.releasedSnapshot, row.mark!)).length,
-    resultChanged: rows.flatMap((row) =>
-      row.resultChangedSinceMarked
-        ? [{ membershipId: row.membershipId, name: row.studentName, ...row.resultChangedSinceMarked, released: row.mark!.releasedAt !== null }]
-        : [],
-    ).map(({ membershipId, name, oldFigure, newFigure, released }) => ({ membershipId, name, oldFigure, newFigure, released })),
+    resultChanged: rows.flatMap((row) => {
+      const changed = row.resultChangedSinceMarked;
+      if (!changed) return [];
+      const { oldFigure, newFigure, reofferedCriterionIds } = changed;
+      return [{ membershipId: row.membershipId, name: row.studentName, oldFigure, newFigure, released: row.mark!.releasedAt !== null, reoffered: reofferedCriterionIds.length }];
+    }),
     rows,
   };
 }
