@@ -14,6 +14,7 @@ import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from ".
 import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
 import { seedMarking } from "./seed-marking";
+import { seedRevisions } from "./seed-revisions";
 
 export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
   const existing = await db
@@ -86,6 +87,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   const markingFaker = new Faker({ locale: [en] });
   markingFaker.seed(2143);
   await seedMarking(db, markingFaker, { courseId });
+  await seedRevisions(db, { courseId });
   return "seeded";
 }
 

@@ -4,7 +4,8 @@
  * viscometry lab), at a room temperature through the fluid lot's fitted viscosity, plus human
  * stopwatch noise. A few are deliberately wrong, and the glycerol lot's record is off: the fluid in the
  * bottles is 20 % more viscous than its calibration says (as if mixed with less water than recorded),
- * so the kit-part check flags GLY-95A. Invented demo data: never a test's expected value.
+ * so the kit-part check flags GLY-95A until seed-revisions.ts corrects its record. Invented demo data:
+ * never a test's expected value.
  */
 import type { Faker } from "@faker-js/faker";
 import { eq } from "drizzle-orm";

@@ -333,6 +333,11 @@ export const parts = pgTable(
     marginBelowMm: real("margin_below_mm"),
     // accessory
     accessoryType: text("accessory_type"),
+    /**
+     * When a value that enters reductions (d, m, density, calibration, bore, distances) last changed:
+     * the part's bias then counts only figures revised after it, so a corrected part's flag can clear.
+     */
+    reductionChangedAt: timestamp("reduction_changed_at", { withTimezone: true }),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -609,6 +614,10 @@ export const dropLogs = pgTable(
 /**
  * An immutable hand-in. `input` is what the student entered, `kitRecords` the kit values the server
  * used, `reduction` the engine's output; the key figures are copied out for the class comparison.
+ * The reduction columns (`kitRecords`, `reduction`, the figures) are a copy of the current reduction
+ * revision (`currentRevision`, see `reduction_revisions`): every reader (comparison, desk, CSV, API)
+ * then sees the latest revision without another join. `input`, `submittedAt`, the parts used and the
+ * revision-1 row keep what was handed in.
  */
 export const dropLogVersions = pgTable(
   "drop_log_versions",
@@ -635,12 +644,79 @@ export const dropLogVersions = pgTable(
     dragCoefficient: real("drag_coefficient"),
     viscosityPaS: real("viscosity_pa_s"),
     warningCount: integer("warning_count").notNull().default(0),
+    /** The revision the reduction columns copy: 1 at hand-in, one more for each part correction. */
+    currentRevision: integer("current_revision").notNull().default(1),
   },
   (table) => [
     uniqueIndex("drop_log_versions_log_version_unique").on(table.dropLogId, table.version),
     uniqueIndex("drop_log_versions_log_key_unique").on(table.dropLogId, table.idempotencyKey),
     index("drop_log_versions_sphere_idx").on(table.sphereId),
+    index("drop_log_versions_fluid_lot_idx").on(table.fluidLotId),
+    index("drop_log_versions_column_idx").on(table.columnId),
   ],
+);
+
+/** Why a reduction was revised: the part whose record changed, its old and new values, who and when. */
+export type ReductionRevisionCause = {
+  partId: string;
+  partLabel: string;
+  partEventId: string;
+  changes: Record<string, { from: unknown; to: unknown }>;
+  changedById: string | null;
+  changedAt: string;
+};
+
+/**
+ * Every reduction of a version, never updated or deleted: revision 1 at hand-in (no cause), then one
+ * per part correction that touched a part the version used, recomputed from the version's input.
+ */
+export const reductionRevisions = pgTable(
+  "reduction_revisions",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    versionId: uuid("version_id")
+      .notNull()
+      .references(() => dropLogVersions.id, { onDelete: "cascade" }),
+    revision: integer("revision").notNull(),
+    kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
+    reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
+    normalisedFigure: real("normalised_figure"),
+    reynolds: real("reynolds"),
+    dragCoefficient: real("drag_coefficient"),
+    viscosityPaS: real("viscosity_pa_s"),
+    warningCount: integer("warning_count").notNull().default(0),
+    /** Null for revision 1. */
+    cause: jsonb("cause").$type<ReductionRevisionCause>(),
+    /** The part event that caused it: a re-run of its job finds the revision already there. */
+    partEventId: uuid("part_event_id").references(() => partEvents.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [
+    uniqueIndex("reduction_revisions_version_revision_unique").on(table.versionId, table.revision),
+    uniqueIndex("reduction_revisions_version_event_unique").on(table.versionId, table.partEventId),
+  ],
+);
+
+/** The progress of one part correction's re-reduction, which the part's page shows ("N of M recomputed"). */
+export const rereductionRuns = pgTable(
+  "rereduction_runs",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    partId: uuid("part_id")
+      .notNull()
+      .references(() => parts.id, { onDelete: "cascade" }),
+    partEventId: uuid("part_event_id")
+      .notNull()
+      .references(() => partEvents.id, { onDelete: "cascade" }),
+    total: integer("total").notNull(),
+    done: integer("done").notNull().default(0),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("rereduction_runs_event_unique").on(table.partEventId), index("rereduction_runs_part_idx").on(table.partId, table.createdAt)],
 );
 
 /** A photo of the set-up, stored outside the web root; attached to a version once it is handed in. */
@@ -857,6 +933,8 @@ export const marks = pgTable(
       .references(() => courseMemberships.id, { onDelete: "restrict" }),
     /** The counted drop-log version when the mark was last changed; null when nothing was handed in (a missing hand-in can be marked 0). */
     dropLogVersionId: uuid("drop_log_version_id").references(() => dropLogVersions.id, { onDelete: "restrict" }),
+    /** That version's reduction revision when the mark was last changed: a later revision flags "result changed since it was marked". */
+    reductionRevision: integer("reduction_revision"),
     scores: jsonb("scores").$type<MarkScores>().notNull().default(sql`'{}'::jsonb`),
     feedback: text("feedback").notNull().default(""),
     latePenaltyPoints: doublePrecision("late_penalty_points").notNull().default(0),

@@ -39,6 +39,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     changedAfterRelease: moderation.changedAfterRelease,
     needsRemarking: moderation.needsRemarking,
     release: moderation.release,
+    resultChanged: moderation.resultChanged,
     marked: moderation.rows
       .filter((row) => row.mark)
       .map((row) => ({ membershipId: row.membershipId, name: row.studentName, total: row.total, version: row.expectedVersion, markedBy: row.mark!.markedBy?.name ?? null })),
@@ -116,7 +117,7 @@ function Histogram({ counts, bins, tallest, label }: { counts: number[]; bins: {
 }
 
 export default function ModerationPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, needsRemarking, release, marked, changes } = loaderData;
+  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, needsRemarking, release, resultChanged, marked, changes } = loaderData;
   const busy = useNavigation().state === "submitting";
   const failed = actionData && "error" in actionData ? actionData : null;
   const tallest = Math.max(1, ...markers.flatMap((marker) => marker.histogram), ...overall.histogram);
@@ -128,6 +129,21 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
       </PageHeader>
       {actionData && "done" in actionData ? <Notice tone="success">{actionData.done}</Notice> : null}
       {failed ? <Notice tone="error">{failed.error}</Notice> : null}
+      {resultChanged.length ? (
+        <Notice tone="warning">
+          <p className="font-medium">Result changed since it was marked ({resultChanged.length})</p>
+          <p>A part these hand-ins used was re-measured and their reduction revised; their marks are unchanged until someone marks them again.</p>
+          <ul className="mt-1 list-disc pl-5" data-testid="result-changed-list">
+            {resultChanged.map((entry) => (
+              <li key={entry.membershipId}>
+                {entry.name}: {entry.oldFigure?.toFixed(3) ?? "—"} → {entry.newFigure?.toFixed(3) ?? "—"} × ref
+                {entry.reoffered ? `; ${entry.reoffered} automatic criteria now suggest other points` : ""}
+                {entry.released ? " — released: review this mark" : ""}
+              </li>
+            ))}
+          </ul>
+        </Notice>
+      ) : null}
 
       <section aria-labelledby="state-heading" className="flex flex-col gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
         <h2 id="state-heading" className="text-lg font-semibold">

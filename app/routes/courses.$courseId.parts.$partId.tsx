@@ -1,4 +1,5 @@
-import { data, Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
+import { useEffect } from "react";
+import { data, Form, Link, redirect, useNavigation, useRevalidator, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.parts.$partId";
 import { PartFields } from "~/components/kits/part-fields";
@@ -19,6 +20,7 @@ import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { listPartBias } from "~/server/comparison/part-quality.server";
 import { DuplicateLabelError, getPartPage, setPartStatus, updatePart } from "~/server/kits/parts.server";
+import { listRereductions, type RereductionProgress } from "~/server/kits/rereduce.server";
 
 const note = z.string().trim().max(500, "Keep the note under 500 characters.").optional().transform((value) => value || null);
 const statusChange = z.object({ intent: z.literal("status"), status: z.enum(["in_service", "remeasure", "retired"]), note });
@@ -36,9 +38,13 @@ function partIdFrom(params: { partId?: string }): string {
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
   const partId = partIdFrom(params);
-  const [page, bias] = await Promise.all([getPartPage(db, access.course.id, partId), listPartBias(db, access.course.id, partId)]);
+  const [page, bias, rereductions] = await Promise.all([
+    getPartPage(db, access.course.id, partId),
+    listPartBias(db, access.course.id, partId),
+    listRereductions(db, partId),
+  ]);
   if (!page) throw data("Not found", { status: 404 });
-  return { ...page, bias: bias.get(partId) ?? null, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
+  return { ...page, bias: bias.get(partId) ?? null, rereductions, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -71,12 +77,12 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 const savedMessages: Record<string, string> = {
   created: "The part is recorded.",
-  remeasured: "The new measurements are saved; the history keeps the old ones.",
+  remeasured: "The new measurements are saved; the history keeps the old ones. Hand-ins that used this part get a new reduction revision.",
   status: "The status is changed.",
 };
 
 export default function PartPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { part, warnings, calibration, bias, courseId, timeZone, mayEdit } = loaderData;
+  const { part, warnings, calibration, bias, rereductions, courseId, timeZone, mayEdit } = loaderData;
   const [search] = useSearchParams();
   const saved = savedMessages[search.get("saved") ?? ""];
   const base = `/courses/${courseId}`;
@@ -91,6 +97,7 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
         </span>
       </PageHeader>
       {saved ? <Notice tone="success">{saved}</Notice> : null}
+      <RereductionList runs={rereductions} timeZone={timeZone} />
       {warnings.length ? (
         <Notice tone="warning">
           <p className="font-medium">Check these measurements</p>
@@ -327,4 +334,36 @@ function History({ events, timeZone }: { events: StoredPart["events"]; timeZone:
 
 export function meta({ data: loaderData }: Route.MetaArgs) {
   return [{ title: `${loaderData ? `Part ${loaderData.part.label}` : "Part"} · Benchpost` }];
+}
+
+/** How often the page reloads its data while a re-reduction runs. */
+const PROGRESS_POLL_MS = 1500;
+
+/** The part's recent re-reductions with their progress; the page refreshes itself until they finish. */
+function RereductionList({ runs, timeZone }: { runs: RereductionProgress[]; timeZone: string }) {
+  const revalidator = useRevalidator();
+  const running = runs.some((run) => !run.finishedAt);
+  useEffect(() => {
+    if (!running) return;
+    const timer = setInterval(() => {
+      if (revalidator.state === "idle") void revalidator.revalidate();
+    }, PROGRESS_POLL_MS);
+    return () => clearInterval(timer);
+  }, [running, revalidator]);
+  if (runs.length === 0) return null;
+  return (
+    <section aria-labelledby="rereduction-heading">
+      <h2 id="rereduction-heading" className="mb-2 text-lg font-semibold">
+        Reduction revisions
+      </h2>
+      <ul className="flex flex-col gap-1 text-sm" aria-live="polite">
+        {runs.map((run) => (
+          <li key={run.id} data-testid="rereduction-progress">
+            <time dateTime={run.createdAt}>{new Date(run.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone })}</time>: {run.done} of {run.total} hand-ins recomputed
+            {run.finishedAt ? " — finished; the class comparison is relabelled." : " — running…"}
+          </li>
+        ))}
+      </ul>
+    </section>
+  );
 }

@@ -36,7 +36,9 @@ export type AuditAction =
   | "marking.rubric_copied"
   | "marking.ready"
   | "marking.reopened"
-  | "marking.released";
+  | "marking.released"
+  | "part.rereduction_queued"
+  | "part.rereduced";
 
 export type AuditInput = {
   action: AuditAction;

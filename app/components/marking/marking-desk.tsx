@@ -97,6 +97,14 @@ function HandInCell() {
         </span>
       ) : null}
       {row.handIn?.kitNotAtHome ? <span className="text-amber-700">kit {row.handIn.kitNotAtHome.toLowerCase()} at hand-in</span> : null}
+      {row.resultChangedSinceMarked ? (
+        <span className="text-amber-700" data-testid="result-changed">
+          result changed since it was marked: {figure(row.resultChangedSinceMarked.oldFigure, 3)} → {figure(row.resultChangedSinceMarked.newFigure, 3)} × ref
+          {row.resultChangedSinceMarked.reofferedCriterionIds.length
+            ? `; ${row.resultChangedSinceMarked.reofferedCriterionIds.length} automatic criteria now suggest other points`
+            : ""}
+        </span>
+      ) : null}
     </div>
   );
 }

@@ -35,8 +35,9 @@ const contentOf = (row: MarkingDeskRow): MarkContent | null =>
 export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskRow, change: MarkChange): MarkingDeskRow {
   const content = applyMarkChange(rubric, contentOf(row), change, { released: row.mark?.releasedAt != null });
   const totals = markTotals(rubric, content, row.suggestions);
-  const mark = row.mark ? { ...row.mark, ...content } : ({ ...content, id: "", version: 0, storedTotal: 0, basedOnVersionId: null, markedBy: null, moderatedBy: null, moderatedAt: null, updatedAt: "", releasedAt: null, releasedSnapshot: null, reopenedAt: null } satisfies NonNullable<MarkingDeskRow["mark"]>);
-  return { ...row, mark, cells: totals.cells, subtotal: totals.subtotal, total: totals.total, complete: totals.complete, progress: markProgress(true, totals) };
+  const mark = row.mark ? { ...row.mark, ...content } : ({ ...content, id: "", version: 0, storedTotal: 0, basedOnVersionId: null, basedOnRevision: null, basedOnFigure: null, markedBy: null, moderatedBy: null, moderatedAt: null, updatedAt: "", releasedAt: null, releasedSnapshot: null, reopenedAt: null } satisfies NonNullable<MarkingDeskRow["mark"]>);
+  // A save rests the mark on the result shown now, so a "result changed since it was marked" flag goes.
+  return { ...row, mark, resultChangedSinceMarked: null, cells: totals.cells, subtotal: totals.subtotal, total: totals.total, complete: totals.complete, progress: markProgress(true, totals) };
 }
 
 export function useMarkSaver({

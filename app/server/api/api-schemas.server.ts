@@ -95,13 +95,14 @@ export const storedVersion = z
     fluidLotId: uuid.nullable(),
     columnId: uuid.nullable(),
     input: looseObject.describe("What the student entered (bench units: mm, g, °C, s)."),
-    kitRecords: looseObject.describe("The kit records the server reduced with."),
+    kitRecords: looseObject.describe("The kit records the current reduction revision used."),
     reduction: storedReduction,
     normalisedFigure: z.number().nullable().describe("C_D/C_D,ref (drag) or measured/reference viscosity (viscometry)."),
     reynolds: z.number().nullable(),
     dragCoefficient: z.number().nullable(),
     viscosityPaS: z.number().nullable(),
     warningCount: z.int().min(0),
+    currentRevision: z.int().min(1).describe("The reduction revision shown: 1 at hand-in, one more each time a part it used was corrected."),
   })
   .register(apiSchemas, { id: "DropLogVersion" });
 

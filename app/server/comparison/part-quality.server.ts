@@ -2,7 +2,8 @@
  * Kit-part quality: the normalised figures of every counted hand-in of the course's labs, read with the
  * sphere, fluid lot and column they used, and each part compared with its peers of the same kind in the
  * same lab (see `partBiasByPeers`). One statement for the whole course, whatever the number of labs,
- * parts and hand-ins; the Holm family is always the whole course, also when one part is asked for.
+ * parts and hand-ins; a part re-measured since counts only the revisions made after its change. The
+ * Holm family is always the whole course, also when one part is asked for.
  */
 import { sql } from "drizzle-orm";
 import { partBiasByPeers, type PartBias, type PartKind, type PeerComparison } from "~/lib/comparison/part-bias";
@@ -32,7 +33,11 @@ type Row = {
  */
 export async function listPartBias(executor: Executor, courseId: string, partId?: string): Promise<Map<string, PartBiasReport>> {
   // The hand-ins that count: the latest version of each drop log of the course's labs, with a figure.
-  const counted = sql`l.course_id = ${courseId} and v.normalised_figure > 0 and p.part_id is not null`;
+  // A re-measured part is judged only on figures reduced with its new record: revisions made after the change.
+  const counted = sql`l.course_id = ${courseId} and v.normalised_figure > 0 and p.part_id is not null
+    and (pp.reduction_changed_at is null or exists (
+      select 1 from reduction_revisions rr
+      where rr.version_id = v.id and rr.revision = v.current_revision and rr.created_at >= pp.reduction_changed_at))`;
   const result = await executor.execute<Row>(sql`
     select p.part_id, p.part_kind, dl.id as drop_log_id, l.id as lab_id, l.title as lab_title, l.kind as lab_kind,
       u.name as student_name, v.normalised_figure::float8 as figure, v.submitted_at, c.part_bias_alpha::float8 as alpha
@@ -43,6 +48,7 @@ export async function listPartBias(executor: Executor, courseId: string, partId?
     join course_memberships m on m.id = dl.membership_id
     join users u on u.id = m.user_id
     cross join lateral (values (v.sphere_id, 'sphere'), (v.fluid_lot_id, 'fluid_lot'), (v.column_id, 'column')) as p(part_id, part_kind)
+    join parts pp on pp.id = p.part_id
     where ${counted}
     order by p.part_id, v.submitted_at`);
   const rows = result.rows;

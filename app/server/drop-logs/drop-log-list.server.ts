@@ -24,6 +24,7 @@ export type StoredVersionJson = {
   dragCoefficient: number | null;
   viscosityPaS: number | null;
   warningCount: number;
+  currentRevision: number;
 };
 
 export type DropLogListEntry = {
@@ -41,7 +42,7 @@ export const versionJson = sql`json_build_object(
   'sphereId', v.sphere_id, 'fluidLotId', v.fluid_lot_id, 'columnId', v.column_id,
   'input', v.input, 'kitRecords', v.kit_records, 'reduction', v.reduction,
   'normalisedFigure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8, 'dragCoefficient', v.drag_coefficient::float8,
-  'viscosityPaS', v.viscosity_pa_s::float8, 'warningCount', v.warning_count)`;
+  'viscosityPaS', v.viscosity_pa_s::float8, 'warningCount', v.warning_count, 'currentRevision', v.current_revision)`;
 
 export async function listLabDropLogs(executor: Executor, access: CourseAccess, labId: string): Promise<DropLogListEntry[]> {
   const student = access.membership.role === "student";

@@ -300,12 +300,17 @@ export async function handInDropLog(
         .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
       return { version: stored, duplicate: true };
     }
-    // The new version counts and takes the draft's photos with it: one statement for both tables. It
-    // also says whether the student's mark is released: "refuse" then rolls the hand-in back, "reopen"
-    // reopens that mark (which keeps the version it was marked on) in the same statement.
+    // The new version counts, takes the draft's photos with it and gets its reduction revision 1 (a copy
+    // of what was just stored): one statement for the three tables. It also says whether the student's
+    // mark is released: "refuse" then rolls the hand-in back, "reopen" reopens that mark (which keeps the
+    // version it was marked on) in the same statement.
     const reopen = lab.afterReleaseHandIns === "reopen";
     const counted = await tx.execute<{ markReleased: boolean }>(sql`
-      with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null)
+      with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null),
+      first_revision as (
+        insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, created_at)
+        select id, 1, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, submitted_at
+        from drop_log_versions where id = ${inserted.id})
       ${reopen ? sql`, reopened as (update marks set reopened_at = ${now.toISOString()}::timestamptz where lab_id = ${labId} and membership_id = ${access.membership.id} and released_at is not null)` : sql``}
       update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}
       returning ${markReleased(labId, access.membership.id)} as "markReleased"`);

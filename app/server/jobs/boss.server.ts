@@ -21,6 +21,8 @@ export const queues = {
   classComparison: "class-comparison",
   /** One job per lab and reminder offset, starting at due time − offset; a job for an old due time does nothing. */
   labReminder: "lab-reminder",
+  /** One job per part correction that enters reductions: re-reduces every version that used the part. */
+  reductionRevision: "reduction-revision",
 } as const;
 
 /**
@@ -39,6 +41,7 @@ const queueSettings: PgBoss.Queue[] = [
   { name: queues.classComparisonRequested, retryLimit: 5, retryDelay: 10, retryBackoff: true },
   { name: queues.classComparison, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 300 },
   { name: queues.labReminder, retryLimit: 5, retryDelay: 60, retryBackoff: true, expireInSeconds: 300 },
+  { name: queues.reductionRevision, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 600 },
 ];
 
 /**

@@ -8,6 +8,7 @@ import { createDatabase, createPool } from "~/server/db.server";
 import { deliverOutboxEmail, markEmailFailed } from "~/server/email/deliver-email.server";
 import type { EmailTransport } from "~/server/email/email-transport.server";
 import type { EmailDeliveryJob } from "~/server/email/send-email.server";
+import { runRereduction, type RereductionJob } from "~/server/kits/rereduce.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
 import { createBoss, createQueues, queues } from "./boss.server";
 
@@ -124,6 +125,16 @@ export async function startWorker(options: {
       async (job) => {
         const outcome = await sendLabReminders(database, job.data);
         log(`lab ${job.data.labId} reminder ${job.data.offsetHours} h: ${outcome.skipped ? `nothing sent (${outcome.skipped})` : `${outcome.sent} sent`}`);
+      },
+      log,
+    ),
+    runJobs<RereductionJob>(
+      boss,
+      queues.reductionRevision,
+      pollingIntervalMs,
+      async (job) => {
+        const outcome = await runRereduction(database, job.data.runId);
+        log(`re-reduction ${job.data.runId}: ${outcome.revised} revised, ${outcome.unreducible.length} not reducible`);
       },
       log,
     ),

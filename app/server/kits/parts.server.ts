@@ -7,7 +7,9 @@ import { kitParts, kits, partEvents, parts } from "~/db/schema";
 import { materialDensityRanges, sphereDensityKgM3, type PartInput, type PartKind } from "~/lib/kits/part-input";
 import { fluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import { checkImportRows, csvRowToPartInput, partToCsvRow, type ImportRowCheck, type PartCsvRow } from "~/lib/kits/parts-csv";
+import { recordAudit } from "~/server/audit.server";
 import type { Executor } from "~/server/db.server";
+import { queueRereduction, reductionChanges } from "~/server/kits/rereduce.server";
 
 export type Part = typeof parts.$inferSelect;
 export type PartWarning = { field: string; message: string };
@@ -112,7 +114,11 @@ export async function createPart(
   }
 }
 
-/** A re-measurement: the new values replace the old, and the history keeps both. */
+/**
+ * A re-measurement: the new values replace the old, and the history keeps both. A change of a value
+ * that enters reductions also queues, on the same transaction, the re-reduction of every version that
+ * used the part (see rereduce.server.ts).
+ */
 export async function updatePart(
   executor: Executor,
   { courseId, partId, actorId, input, note }: { courseId: string; partId: string; actorId: string; input: PartInput; note?: string | null },
@@ -134,12 +140,22 @@ export async function updatePart(
       );
       // A part waiting for re-measurement returns to service once its new values are in.
       const status = before.status === "remeasure" ? "in_service" : before.status;
+      const reduction = reductionChanges(changed);
+      const revises = Object.keys(reduction).length > 0;
+      const now = new Date();
       const [part] = await tx
         .update(parts)
-        .set({ ...after, status, updatedAt: new Date() })
+        .set({ ...after, status, updatedAt: now, ...(revises ? { reductionChangedAt: now } : {}) })
         .where(eq(parts.id, partId))
         .returning();
-      await tx.insert(partEvents).values({ partId, actorId, action: "remeasured", note: note ?? null, detail: { changed, warnings } });
+      const [event] = await tx
+        .insert(partEvents)
+        .values({ partId, actorId, action: "remeasured", note: note ?? null, detail: { changed, warnings } })
+        .returning({ id: partEvents.id });
+      if (revises) {
+        const runId = await queueRereduction(tx, { courseId, partId, partEventId: event.id });
+        await recordAudit(tx, { action: "part.rereduction_queued", actorId, courseId, subject: `part:${partId}`, detail: { partLabel: part.label, partEventId: event.id, runId, changes: reduction } });
+      }
       return { part, warnings };
     });
   } catch (error) {

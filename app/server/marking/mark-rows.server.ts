@@ -32,6 +32,8 @@ export type DeskHandIn = {
   dragCoefficient: number | null;
   viscosityPaS: number | null;
   temperatureC: number | null;
+  /** The version's current reduction revision (1 until a part it used is corrected). */
+  revision: number;
 };
 
 /** A student's stored mark. */
@@ -41,6 +43,9 @@ export type StoredMark = MarkContent & {
   /** As of the last write; readers use the recomputed total on the row. */
   storedTotal: number;
   basedOnVersionId: string | null;
+  /** The reduction revision of that version when the mark was last changed, and its figure. */
+  basedOnRevision: number | null;
+  basedOnFigure: number | null;
   markedBy: { id: string; name: string } | null;
   moderatedBy: { id: string; name: string } | null;
   moderatedAt: string | null;
@@ -93,6 +98,18 @@ export type MarkingDeskRow = StudentMarkRow & {
   handInChangedSinceMarked: boolean;
   /** A released mark reopened by a hand-in after release: mark it again on the counted version. */
   needsRemarking: boolean;
+  /**
+   * The marked version was re-reduced since (a part it used was corrected): the figure the mark saw and
+   * today's. Nothing in the mark changes; automatic criteria already suggest from the new figure.
+   */
+  resultChangedSinceMarked: {
+    fromRevision: number;
+    toRevision: number;
+    oldFigure: number | null;
+    newFigure: number | null;
+    /** Automatic criteria whose points were fixed (overridden, or written in at release) and whose suggestion now differs: offered again. */
+    reofferedCriterionIds: string[];
+  } | null;
 };
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -105,7 +122,8 @@ const handInJson = (alias: SQL) => sql`case when ${alias}.id is null then null e
         'strayDropCount', case when jsonb_typeof(${alias}.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${alias}.reduction #> '{drops,strayDrops}') end,
         'warningCount', ${alias}.warning_count, 'kitState', ${alias}.kit_records #>> '{kit,state}', 'figure', ${alias}.normalised_figure::float8, 'reynolds', ${alias}.reynolds::float8,
         'dragCoefficient', ${alias}.drag_coefficient::float8, 'viscosityPaS', ${alias}.viscosity_pa_s::float8,
-        'temperatureC', case when jsonb_typeof(${alias}.input -> 'temperatureC') = 'number' then (${alias}.input ->> 'temperatureC')::float8 end
+        'temperatureC', case when jsonb_typeof(${alias}.input -> 'temperatureC') = 'number' then (${alias}.input ->> 'temperatureC')::float8 end,
+        'revision', ${alias}.current_revision
       ) end`;
 
 export type ClassLabels = Map<string, { label: ClassComparisonLabel; reason: string }>;
@@ -135,7 +153,9 @@ export async function loadStudentMarkRows(
       case when mk.drop_log_version_id is distinct from v.id then ${handInJson(sql`mv`)} end as "markedVersion",
       case when mk.id is null then null else json_build_object(
         'id', mk.id, 'version', mk.version, 'scores', mk.scores, 'feedback', mk.feedback, 'latePenaltyPoints', mk.late_penalty_points,
-        'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id,
+        'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id, 'basedOnRevision', mk.reduction_revision,
+        'basedOnFigure', (select rr.normalised_figure::float8 from reduction_revisions rr
+          where rr.version_id = mk.drop_log_version_id and rr.revision = mk.reduction_revision),
         'markedById', mk.marked_by_id, 'markedByName', mb.name, 'moderatedById', mk.moderated_by_id, 'moderatedByName', mm.name,
         'moderatedAt', to_json(mk.moderated_at)#>>'{}', 'updatedAt', to_json(mk.updated_at)#>>'{}', 'releasedAt', to_json(mk.released_at)#>>'{}',
         'releasedSnapshot', mk.released_snapshot, 'reopenedAt', to_json(mk.reopened_at)#>>'{}'
@@ -238,5 +258,17 @@ export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestion
     expectedVersion: row.mark?.version ?? 0,
     handInChangedSinceMarked: row.mark !== null && row.handIn !== null && row.mark.basedOnVersionId !== row.handIn.versionId,
     needsRemarking: row.mark?.reopenedAt != null,
+    resultChangedSinceMarked:
+      row.mark?.basedOnRevision != null && row.handIn && row.mark.basedOnVersionId === row.handIn.versionId && row.mark.basedOnRevision < row.handIn.revision
+        ? {
+            fromRevision: row.mark.basedOnRevision,
+            toRevision: row.handIn.revision,
+            oldFigure: row.mark.basedOnFigure,
+            newFigure: row.handIn.figure,
+            reofferedCriterionIds: Object.entries(totals.cells)
+              .filter(([, cell]) => (cell.source === "override" || cell.source === "released") && cell.suggestion?.points != null && cell.suggestion.points !== cell.points)
+              .map(([id]) => id),
+          }
+        : null,
   };
 }

@@ -163,6 +163,8 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
       membership_id: student.membershipId,
       expected_version: student.mark?.version ?? 0,
       drop_log_version_id: student.handIn?.versionId ?? null,
+      // The revision the marker saw: a later re-reduction of it then shows as "result changed since it was marked".
+      reduction_revision: student.handIn?.revision ?? null,
       scores: content.scores,
       feedback: content.feedback,
       late_penalty_points: content.latePenaltyPoints,
@@ -170,13 +172,13 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
     }));
     // The expected version travels as the new one (expected + 1): ON CONFLICT can compare only the proposed row's columns.
     const result = await tx.execute<{ id: string; membershipId: string; version: number; updatedAt: string }>(sql`
-      insert into marks as mk (lab_id, membership_id, drop_log_version_id, scores, feedback, late_penalty_points, total, version, marked_by_id, moderated_by_id, moderated_at, updated_at)
-      select ${lab.id}, r.membership_id, r.drop_log_version_id, r.scores, r.feedback, r.late_penalty_points, r.total, r.expected_version + 1,
+      insert into marks as mk (lab_id, membership_id, drop_log_version_id, reduction_revision, scores, feedback, late_penalty_points, total, version, marked_by_id, moderated_by_id, moderated_at, updated_at)
+      select ${lab.id}, r.membership_id, r.drop_log_version_id, r.reduction_revision, r.scores, r.feedback, r.late_penalty_points, r.total, r.expected_version + 1,
         ${access.user.id}::uuid, ${moderation ? access.user.id : null}::uuid, ${moderation ? sql`now()` : sql`null`}, now()
       from json_to_recordset(${JSON.stringify(payload)}::json)
-        as r(membership_id uuid, expected_version int, drop_log_version_id uuid, scores jsonb, feedback text, late_penalty_points float8, total float8)
+        as r(membership_id uuid, expected_version int, drop_log_version_id uuid, reduction_revision int, scores jsonb, feedback text, late_penalty_points float8, total float8)
       on conflict (lab_id, membership_id) do update set
-        drop_log_version_id = excluded.drop_log_version_id, scores = excluded.scores, feedback = excluded.feedback,
+        drop_log_version_id = excluded.drop_log_version_id, reduction_revision = excluded.reduction_revision, scores = excluded.scores, feedback = excluded.feedback,
         late_penalty_points = excluded.late_penalty_points, total = excluded.total, version = excluded.version, reopened_at = null,
         ${moderation ? sql`moderated_by_id = excluded.moderated_by_id, moderated_at = excluded.moderated_at,` : sql`marked_by_id = excluded.marked_by_id,`}
         updated_at = excluded.updated_at
@@ -216,6 +218,8 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
         version: stored.version,
         storedTotal: after.total,
         basedOnVersionId: student.handIn?.versionId ?? null,
+        basedOnRevision: student.handIn?.revision ?? null,
+        basedOnFigure: student.handIn?.figure ?? null,
         markedBy: source === "moderation" ? (previous?.markedBy ?? actor) : actor,
         moderatedBy: source === "moderation" ? actor : (previous?.moderatedBy ?? null),
         moderatedAt: source === "moderation" ? stored.updatedAt : (previous?.moderatedAt ?? null),

@@ -54,6 +54,8 @@ export type Moderation = {
   changedAfterRelease: number;
   /** Released marks reopened by a hand-in after release, waiting to be marked again. */
   needsRemarking: number;
+  /** Marks whose hand-in was re-reduced (a part correction) since they were marked; released ones need the instructor's review. */
+  resultChanged: { membershipId: string; name: string; oldFigure: number | null; newFigure: number | null; released: boolean; reoffered: number }[];
   /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
   rows: MarkingDeskRow[];
   /** What a release would find now: the counts its choices act on, and who may still hand in. */
@@ -191,6 +193,12 @@ export async function loadModeration(
     released: released.length,
     changedAfterRelease: released.filter((row) => row.mark!.releasedSnapshot && !sameContent(row.mark!.releasedSnapshot, row.mark!)).length,
     needsRemarking: rows.filter((row) => row.needsRemarking).length,
+    resultChanged: rows.flatMap((row) => {
+      const changed = row.resultChangedSinceMarked;
+      if (!changed) return [];
+      const { oldFigure, newFigure, reofferedCriterionIds } = changed;
+      return [{ membershipId: row.membershipId, name: row.studentName, oldFigure, newFigure, released: row.mark!.releasedAt !== null, reoffered: reofferedCriterionIds.length }];
+    }),
     rows,
     release: previewRelease(rows, windows, now).preview,
   };

@@ -1,0 +1,273 @@
+/**
+ * Re-reduction after a part correction. A re-measurement that changes a value entering the reduction
+ * queues, on its own transaction, one job that gives every version which used the part a new reduction
+ * revision: recomputed from the version's immutable input with the part's new record, and carrying its
+ * cause. The job works in chunks (one transaction each, a constant number of statements per chunk),
+ * counts its progress for the part's page, and is idempotent: a revision is keyed on the part event, so
+ * a re-run (a retry, a second worker) skips the versions already revised.
+ */
+import { sql } from "drizzle-orm";
+import type { CalibrationPoint, LabResolutions, ReductionRevisionCause } from "~/db/schema";
+import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { reduceDropLog, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
+import { ReductionInputError } from "~/lib/reduction";
+import { recordAudit } from "~/server/audit.server";
+import { queueClassComparison } from "~/server/comparison/class-comparison.server";
+import type { Executor, Transaction } from "~/server/db.server";
+import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
+
+/** The part columns a reduction reads: a change of any other (label, notes, material name) revises nothing. */
+export const reductionFields = [
+  "diameterMm",
+  "diameterResolutionMm",
+  "massG",
+  "massResolutionG",
+  "densityKgM3",
+  "calibration",
+  "innerDiameterMm",
+  "timedDistanceMm",
+  "runInMm",
+  "marginBelowMm",
+] as const;
+
+export type RereductionJob = { runId: string };
+export type FieldChanges = Record<string, { from: unknown; to: unknown }>;
+
+/** The changes of a re-measurement that enter reductions; empty when none does. */
+export function reductionChanges(changed: FieldChanges): FieldChanges {
+  return Object.fromEntries(Object.entries(changed).filter(([field]) => (reductionFields as readonly string[]).includes(field)));
+}
+
+/**
+ * On the re-measurement's transaction: the progress row (with how many versions used the part) and
+ * the job, in two statements. Returns the run's id.
+ */
+export async function queueRereduction(tx: Transaction, { courseId, partId, partEventId }: { courseId: string; partId: string; partEventId: string }): Promise<string> {
+  const result = await tx.execute<{ id: string }>(sql`
+    insert into rereduction_runs (course_id, part_id, part_event_id, total)
+    select ${courseId}, ${partId}, ${partEventId}, count(*)::int from drop_log_versions v
+    where v.sphere_id = ${partId} or v.fluid_lot_id = ${partId} or v.column_id = ${partId}
+    returning id`);
+  const runId = result.rows[0].id;
+  await enqueuer().send(queues.reductionRevision, { runId } satisfies RereductionJob, { db: transactionAdapter(tx) });
+  return runId;
+}
+
+type PartRow = {
+  id: string;
+  label: string;
+  material: string | null;
+  diameter_mm: number | null;
+  diameter_resolution_mm: number | null;
+  mass_g: number | null;
+  mass_resolution_g: number | null;
+  fluid_name: string | null;
+  density_kg_m3: number | null;
+  calibration: CalibrationPoint[] | null;
+  inner_diameter_mm: number | null;
+  timed_distance_mm: number | null;
+  run_in_mm: number | null;
+};
+
+type VersionRow = {
+  id: string;
+  lab_id: string;
+  current_revision: number;
+  input: DropLogInput;
+  gravity: number | null;
+  lab: { kind: LabSettings["kind"]; wall_correction: string; drag_model: string; required_drops: number; resolutions: LabResolutions };
+  sphere: PartRow;
+  fluid_lot: PartRow;
+  column: PartRow;
+};
+
+type RunRow = {
+  course_id: string;
+  part_id: string;
+  part_event_id: string;
+  part_label: string;
+  total: number;
+  finished_at: Date | string | null;
+  actor_id: string | null;
+  event_at: Date | string;
+  changed: FieldChanges | null;
+};
+
+const partJson = (alias: string) => sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
+  'diameter_mm', ${alias}.diameter_mm, 'diameter_resolution_mm', ${alias}.diameter_resolution_mm, 'mass_g', ${alias}.mass_g,
+  'mass_resolution_g', ${alias}.mass_resolution_g, 'fluid_name', ${alias}.fluid_name, 'density_kg_m3', ${alias}.density_kg_m3,
+  'calibration', ${alias}.calibration, 'inner_diameter_mm', ${alias}.inner_diameter_mm, 'timed_distance_mm', ${alias}.timed_distance_mm,
+  'run_in_mm', ${alias}.run_in_mm)`);
+
+/**
+ * The revision of one version with the parts' current records. The changed part's record is its new
+ * one; the other parts' records are the ones the current revision used, since every change of them
+ * that enters a reduction gave a revision too.
+ */
+function revise(row: VersionRow) {
+  const { sphere, fluid_lot: fluidLot, column } = row;
+  const result = reduceDropLog({
+    lab: {
+      kind: row.lab.kind,
+      wallCorrection: row.lab.wall_correction,
+      dragModel: row.lab.drag_model,
+      requiredDrops: row.lab.required_drops,
+      resolutions: row.lab.resolutions,
+    },
+    kit: {
+      sphere: {
+        id: sphere.id,
+        label: sphere.label,
+        material: sphere.material,
+        diameterMm: sphere.diameter_mm,
+        diameterResolutionMm: sphere.diameter_resolution_mm,
+        massG: sphere.mass_g,
+        massResolutionG: sphere.mass_resolution_g,
+      },
+      fluidLot: { id: fluidLot.id, label: fluidLot.label, fluidName: fluidLot.fluid_name, densityKgM3: fluidLot.density_kg_m3, calibration: fluidLot.calibration },
+      column: { id: column.id, label: column.label, innerDiameterMm: column.inner_diameter_mm, timedDistanceMm: column.timed_distance_mm, runInMm: column.run_in_mm },
+    },
+    input: row.input,
+    gravity: row.gravity,
+  });
+  const { reduction, kitRecords, normalisedFigure, warnings } = result;
+  return {
+    version_id: row.id,
+    revision: row.current_revision + 1,
+    kit_records: kitRecords,
+    reduction: { ...reduction, warnings },
+    normalised_figure: normalisedFigure,
+    reynolds: reduction.reynolds,
+    drag_coefficient: reduction.dragCoefficient,
+    viscosity_pa_s: reduction.mode === "viscometry" ? reduction.viscosity : reduction.fluidViscosity,
+    warning_count: warnings.filter((warning) => warning.level !== "info").length,
+  };
+}
+
+export type RereductionOutcome = { revised: number; unreducible: string[]; labIds: string[]; finished: boolean };
+
+/**
+ * Runs (or resumes) one re-reduction. Each chunk is one transaction of three statements: read the next
+ * versions not yet revised for this part event, with their lab and parts; write their revisions, copy
+ * them onto the versions and count the progress. The last transaction marks the run finished, asks for
+ * the class comparison of every lab concerned and writes the audit entry; a finished run does nothing.
+ */
+export async function runRereduction(executor: Executor, runId: string, { chunkSize = 500 }: { chunkSize?: number } = {}): Promise<RereductionOutcome> {
+  const runs = await executor.execute<RunRow>(sql`
+    select r.course_id, r.part_id, r.part_event_id, p.label as part_label, r.total, r.finished_at,
+      e.actor_id, e.created_at as event_at, e.detail -> 'changed' as changed
+    from rereduction_runs r join parts p on p.id = r.part_id join part_events e on e.id = r.part_event_id
+    where r.id = ${runId}`);
+  const run = runs.rows[0];
+  if (!run || run.finished_at) return { revised: 0, unreducible: [], labIds: [], finished: true };
+  const cause: ReductionRevisionCause = {
+    partId: run.part_id,
+    partLabel: run.part_label,
+    partEventId: run.part_event_id,
+    changes: reductionChanges(run.changed ?? {}),
+    changedById: run.actor_id,
+    changedAt: new Date(run.event_at).toISOString(),
+  };
+  let cursor = "00000000-0000-0000-0000-000000000000";
+  let revised = 0;
+  const unreducible: string[] = [];
+  const labIds = new Set<string>();
+  for (;;) {
+    const chunk = await executor.transaction(async (tx) => {
+      const rows = await tx.execute<VersionRow>(sql`
+        select v.id, dl.lab_id, v.current_revision, v.input, (v.kit_records ->> 'gravity')::float8 as gravity,
+          json_build_object('kind', l.kind, 'wall_correction', l.wall_correction, 'drag_model', l.drag_model,
+            'required_drops', l.required_drops, 'resolutions', l.resolutions) as lab,
+          ${partJson("sp")} as sphere, ${partJson("fl")} as fluid_lot, ${partJson("co")} as column
+        from drop_log_versions v
+        join drop_logs dl on dl.id = v.drop_log_id
+        join labs l on l.id = dl.lab_id
+        join parts sp on sp.id = v.sphere_id
+        join parts fl on fl.id = v.fluid_lot_id
+        join parts co on co.id = v.column_id
+        where (v.sphere_id = ${run.part_id} or v.fluid_lot_id = ${run.part_id} or v.column_id = ${run.part_id})
+          and v.id > ${cursor}
+          and not exists (select 1 from reduction_revisions rr where rr.version_id = v.id and rr.part_event_id = ${run.part_event_id})
+        order by v.id
+        limit ${chunkSize}
+        for update of v`);
+      if (rows.rows.length === 0) return null;
+      const revisions = [];
+      for (const row of rows.rows) {
+        labIds.add(row.lab_id);
+        try {
+          revisions.push(revise(row));
+        } catch (error) {
+          // The new record cannot reduce this hand-in (e.g. a calibration emptied): it keeps its revision, and the audit names it.
+          if (!(error instanceof ReductionInputError)) throw error;
+          unreducible.push(row.id);
+        }
+      }
+      const written = await tx.execute<{ count: number }>(sql`
+        with data as (
+          select * from json_to_recordset(${JSON.stringify(revisions)}::json) as d(version_id uuid, revision int, kit_records jsonb,
+            reduction jsonb, normalised_figure real, reynolds real, drag_coefficient real, viscosity_pa_s real, warning_count int)),
+        inserted as (
+          insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient,
+            viscosity_pa_s, warning_count, cause, part_event_id)
+          select version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count,
+            ${JSON.stringify(cause)}::jsonb, ${run.part_event_id}
+          from data
+          on conflict do nothing
+          returning version_id),
+        copied as (
+          update drop_log_versions v set current_revision = d.revision, kit_records = d.kit_records, reduction = d.reduction,
+            normalised_figure = d.normalised_figure, reynolds = d.reynolds, drag_coefficient = d.drag_coefficient,
+            viscosity_pa_s = d.viscosity_pa_s, warning_count = d.warning_count
+          from data d where v.id = d.version_id and d.version_id in (select version_id from inserted)),
+        progress as (update rereduction_runs set done = least(total, done + ${rows.rows.length}) where id = ${runId})
+        select count(*)::int as count from inserted`);
+      return { last: rows.rows[rows.rows.length - 1].id, revised: written.rows[0].count };
+    });
+    if (!chunk) break;
+    cursor = chunk.last;
+    revised += chunk.revised;
+  }
+  await finishRun(executor, runId, run, { revised, unreducible });
+  return { revised, unreducible, labIds: [...labIds], finished: true };
+}
+
+/**
+ * Marks the run finished and, only the first time, asks for the relabel of every lab whose hand-ins
+ * used the part (their automatic criteria are computed on read, so they are suggested again with the
+ * new figures) and records the re-reduction in the audit log.
+ */
+async function finishRun(executor: Executor, runId: string, run: RunRow, { revised, unreducible }: { revised: number; unreducible: string[] }) {
+  await executor.transaction(async (tx) => {
+    const finished = await tx.execute<{ lab_ids: string[] }>(sql`
+      update rereduction_runs r set finished_at = now(), done = total where r.id = ${runId} and r.finished_at is null
+      returning array(
+        select distinct dl.lab_id from drop_log_versions v join drop_logs dl on dl.id = v.drop_log_id
+        where v.sphere_id = r.part_id or v.fluid_lot_id = r.part_id or v.column_id = r.part_id)::text[] as lab_ids`);
+    if (finished.rows.length === 0) return;
+    const labIds = finished.rows[0].lab_ids;
+    for (const labId of labIds) await queueClassComparison(tx, labId);
+    await recordAudit(tx, {
+      action: "part.rereduced",
+      actorId: run.actor_id,
+      courseId: run.course_id,
+      subject: `part:${run.part_id}`,
+      detail: { partLabel: run.part_label, partEventId: run.part_event_id, total: run.total, revised, unreducible, labIds },
+    });
+  });
+}
+
+export type RereductionProgress = { id: string; total: number; done: number; finishedAt: string | null; createdAt: string };
+
+/** The part's latest re-reductions, newest first, for its page. */
+export async function listRereductions(executor: Executor, partId: string, limit = 5): Promise<RereductionProgress[]> {
+  const result = await executor.execute<{ id: string; total: number; done: number; finished_at: Date | string | null; created_at: Date | string }>(sql`
+    select id, total, done, finished_at, created_at from rereduction_runs where part_id = ${partId} order by created_at desc limit ${limit}`);
+  return result.rows.map((row) => ({
+    id: row.id,
+    total: row.total,
+    done: row.done,
+    finishedAt: row.finished_at ? new Date(row.finished_at).toISOString() : null,
+    createdAt: new Date(row.created_at).toISOString(),
+  }));
+}
