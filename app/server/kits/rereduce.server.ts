@@ -9,7 +9,7 @@
 import { sql } from "drizzle-orm";
 import type { CalibrationPoint, LabResolutions, ReductionRevisionCause } from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
-import { reduceDropLog, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
+import { reduceDropLog, type KitRecord, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
 import { recordAudit } from "~/server/audit.server";
 import { queueClassComparison } from "~/server/comparison/class-comparison.server";
@@ -28,6 +28,9 @@ export const reductionFields = [
   "timedDistanceMm",
   "runInMm",
   "marginBelowMm",
+  "densityUncertaintyKgM3",
+  "densityTemperatureCoefficientKgM3K",
+  "innerDiameterUncertaintyMm",
 ] as const;
 
 export type RereductionJob = { runId: string };
@@ -63,8 +66,11 @@ type PartRow = {
   mass_resolution_g: number | null;
   fluid_name: string | null;
   density_kg_m3: number | null;
+  density_uncertainty_kg_m3: number | null;
+  density_temperature_coefficient_kg_m3_k: number | null;
   calibration: CalibrationPoint[] | null;
   inner_diameter_mm: number | null;
+  inner_diameter_uncertainty_mm: number | null;
   timed_distance_mm: number | null;
   run_in_mm: number | null;
 };
@@ -74,6 +80,7 @@ type VersionRow = {
   lab_id: string;
   current_revision: number;
   input: DropLogInput;
+  kit: KitRecord | null;
   gravity: number | null;
   lab: { kind: LabSettings["kind"]; wall_correction: string; drag_model: string; required_drops: number; resolutions: LabResolutions };
   sphere: PartRow;
@@ -96,7 +103,9 @@ type RunRow = {
 const partJson = (alias: string) => sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
   'diameter_mm', ${alias}.diameter_mm, 'diameter_resolution_mm', ${alias}.diameter_resolution_mm, 'mass_g', ${alias}.mass_g,
   'mass_resolution_g', ${alias}.mass_resolution_g, 'fluid_name', ${alias}.fluid_name, 'density_kg_m3', ${alias}.density_kg_m3,
-  'calibration', ${alias}.calibration, 'inner_diameter_mm', ${alias}.inner_diameter_mm, 'timed_distance_mm', ${alias}.timed_distance_mm,
+  'density_uncertainty_kg_m3', ${alias}.density_uncertainty_kg_m3,
+  'density_temperature_coefficient_kg_m3_k', ${alias}.density_temperature_coefficient_kg_m3_k,
+  'calibration', ${alias}.calibration, 'inner_diameter_mm', ${alias}.inner_diameter_mm, 'inner_diameter_uncertainty_mm', ${alias}.inner_diameter_uncertainty_mm, 'timed_distance_mm', ${alias}.timed_distance_mm,
   'run_in_mm', ${alias}.run_in_mm)`);
 
 /**
@@ -124,8 +133,25 @@ function revise(row: VersionRow) {
         massG: sphere.mass_g,
         massResolutionG: sphere.mass_resolution_g,
       },
-      fluidLot: { id: fluidLot.id, label: fluidLot.label, fluidName: fluidLot.fluid_name, densityKgM3: fluidLot.density_kg_m3, calibration: fluidLot.calibration },
-      column: { id: column.id, label: column.label, innerDiameterMm: column.inner_diameter_mm, timedDistanceMm: column.timed_distance_mm, runInMm: column.run_in_mm },
+      fluidLot: {
+        id: fluidLot.id,
+        label: fluidLot.label,
+        fluidName: fluidLot.fluid_name,
+        densityKgM3: fluidLot.density_kg_m3,
+        densityUncertaintyKgM3: fluidLot.density_uncertainty_kg_m3,
+        densityTemperatureCoefficientKgM3K: fluidLot.density_temperature_coefficient_kg_m3_k,
+        calibration: fluidLot.calibration,
+      },
+      column: {
+        id: column.id,
+        label: column.label,
+        innerDiameterMm: column.inner_diameter_mm,
+        innerDiameterUncertaintyMm: column.inner_diameter_uncertainty_mm,
+        timedDistanceMm: column.timed_distance_mm,
+        runInMm: column.run_in_mm,
+      },
+      // The kit's state at the hand-in is part of the record: a revision keeps its warning.
+      ...(row.kit ? { kit: row.kit } : {}),
     },
     input: row.input,
     gravity: row.gravity,
@@ -175,7 +201,7 @@ export async function runRereduction(executor: Executor, runId: string, { chunkS
   for (;;) {
     const chunk = await executor.transaction(async (tx) => {
       const rows = await tx.execute<VersionRow>(sql`
-        select v.id, dl.lab_id, v.current_revision, v.input, (v.kit_records ->> 'gravity')::float8 as gravity,
+        select v.id, dl.lab_id, v.current_revision, v.input, v.kit_records -> 'kit' as kit, (v.kit_records ->> 'gravity')::float8 as gravity,
           json_build_object('kind', l.kind, 'wall_correction', l.wall_correction, 'drag_model', l.drag_model,
             'required_drops', l.required_drops, 'resolutions', l.resolutions) as lab,
           ${partJson("sp")} as sphere, ${partJson("fl")} as fluid_lot, ${partJson("co")} as column
