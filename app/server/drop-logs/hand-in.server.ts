@@ -155,8 +155,8 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
   // The lab's policy decides what a hand-in after release does; the page says so before the student tries.
   const afterRelease = row.markReleased ? row.lab.afterReleaseHandIns : null;
   // The student's effective window decides late and cut-off: their extension, else their cohort's, else the lab's.
-  const window = effectiveHandInWindow(row.lab, { student: extensionWindow(row.studentExtension), cohort: extensionWindow(row.cohortExtension) });
-  return { lab: row.lab, window, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
+  const handInWindow = effectiveHandInWindow(row.lab, { student: extensionWindow(row.studentExtension), cohort: extensionWindow(row.cohortExtension) });
+  return { lab: row.lab, window: handInWindow, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
 }
 
 /**
@@ -267,13 +267,13 @@ export async function handInDropLog(
     // A repeat is answered before the clock is read: a retry arriving after the cut-off still gets its version.
     if (earlier) return { version: earlier, duplicate: true };
 
-    const window = context.window;
-    const timing = handInTiming(window, now);
-    if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${window.opensAt.toISOString()}.`);
+    const handInWindow = context.window;
+    const timing = handInTiming(handInWindow, now);
+    if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${handInWindow.opensAt.toISOString()}.`);
     if (timing === "closed") {
       throw new HandInRefusedError(
         "past_cutoff",
-        window.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
+        handInWindow.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
       );
     }
     const [inserted] = await tx
