@@ -9,7 +9,8 @@ import { courses, labCohorts, labExtensions, labs } from "~/db/schema";
 import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
-import { HandInRefusedError, handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { HandInRefusedError, handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
+import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 
 let fixture: AccessFixture;
@@ -84,5 +85,16 @@ describe("hand-ins under an extension", () => {
     // With only the cohort's extension left, the same instant is on time.
     const cohortOnly = await handIn(lab.id, "ext-prec-2", new Date("2027-03-28T09:00Z"));
     expect(cohortOnly.version.late).toBe(false);
+  });
+
+  it("shows the student their own due time and cut-off on the lab list and the lab page", async () => {
+    const lab = await createLab();
+    const cutoff = dublin("2027-03-28T12:00");
+    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extendedDue, lateCutoffAt: cutoff, reason: "Illness" });
+    const row = (await listLabsForMember(db, studentAccess())).find((candidate) => candidate.id === lab.id);
+    expect(row && new Date(row.dueAt).toISOString()).toBe(extendedDue.toISOString());
+    expect(row?.lateCutoffAt && new Date(row.lateCutoffAt).toISOString()).toBe(cutoff.toISOString());
+    const context = await loadStudentLab(db, studentAccess(), lab.id);
+    expect(context.window).toMatchObject({ dueAt: extendedDue, lateCutoffAt: cutoff, extendedBy: "student" });
   });
 });
