@@ -68,10 +68,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       instructions: lab.instructions,
       requiredDrops: lab.requiredDrops,
       opensAt: lab.opensAt.toISOString(),
-      dueAt: lab.dueAt.toISOString(),
-      lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null,
+      // The student's own times (an extension's, when they have one); the reason is never sent to them.
+      dueAt: context.window.dueAt.toISOString(),
+      lateCutoffAt: context.window.lateCutoffAt?.toISOString() ?? null,
     },
-    timing: lab.status === "published" ? handInTiming(lab, new Date()) : "closed",
+    timing: lab.status === "published" ? handInTiming(context.window, new Date()) : "closed",
     /** Set when the student's mark is released: what a hand-in now does, by the lab's policy. */
     afterRelease: context.afterRelease,
     hasKit: context.kitParts.length > 0,

@@ -9,7 +9,7 @@ import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
-import { handInTiming } from "~/lib/drop-logs/hand-in-window";
+import { effectiveHandInWindow, handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/lib/drop-logs/reduce-drop-log";
 import type { AllowedPartKind } from "~/lib/labs/lab-input";
 import { ReductionInputError } from "~/lib/reduction";
@@ -68,6 +68,10 @@ export class HandInRefusedError extends Error {
   }
 }
 
+/** An extension as json_build_object returns it: timestamps arrive as strings. */
+type ExtensionRow = { dueAt: string; lateCutoffAt: string | null };
+const extensionWindow = (row: ExtensionRow | null) => (row ? { dueAt: new Date(row.dueAt), lateCutoffAt: row.lateCutoffAt ? new Date(row.lateCutoffAt) : null } : null);
+
 export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
 
 /** Whether the student's mark for the lab is released: read inside the statements a hand-in runs anyway. */
@@ -103,6 +107,9 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
         // Which kinds the lab limits: a kind with no ticked part allows any of that kind in the kit.
         limitedKinds: sql<ChoosableKind[]>`array(select distinct p.kind from parts p where p.id = any(${labs.allowedPartIds}))::text[]`,
         markReleased: markReleased(labs.id, access.membership.id),
+        // The student's own extension and their cohort's, read in this statement so a hand-in costs no more queries.
+        studentExtension: sql<ExtensionRow | null>`(select json_build_object('dueAt', le.due_at, 'lateCutoffAt', le.late_cutoff_at) from lab_extensions le where le.lab_id = ${labs.id} and le.membership_id = ${access.membership.id})`,
+        cohortExtension: sql<ExtensionRow | null>`(select json_build_object('dueAt', le.due_at, 'lateCutoffAt', le.late_cutoff_at) from lab_extensions le where le.lab_id = ${labs.id} and le.cohort_id = ${access.membership.cohortId})`,
       })
       .from(labs)
       .innerJoin(courses, eq(courses.id, labs.courseId))
@@ -150,7 +157,9 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
   });
   // The lab's policy decides what a hand-in after release does; the page says so before the student tries.
   const afterRelease = row.markReleased ? row.lab.afterReleaseHandIns : null;
-  return { lab: row.lab, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
+  // The student's effective window decides late and cut-off: their extension, else their cohort's, else the lab's.
+  const handInWindow = effectiveHandInWindow(row.lab, { student: extensionWindow(row.studentExtension), cohort: extensionWindow(row.cohortExtension) });
+  return { lab: row.lab, window: handInWindow, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
 }
 
 /**
@@ -261,12 +270,13 @@ export async function handInDropLog(
     // A repeat is answered before the clock is read: a retry arriving after the cut-off still gets its version.
     if (earlier) return { version: earlier, duplicate: true };
 
-    const timing = handInTiming(lab, now);
-    if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${lab.opensAt.toISOString()}.`);
+    const handInWindow = context.window;
+    const timing = handInTiming(handInWindow, now);
+    if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${handInWindow.opensAt.toISOString()}.`);
     if (timing === "closed") {
       throw new HandInRefusedError(
         "past_cutoff",
-        lab.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
+        handInWindow.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
       );
     }
     const [inserted] = await tx
