@@ -12,6 +12,7 @@ import {
   type ClassComparisonEntry,
   type FallingSphereInput,
 } from "../app/lib/reduction/index";
+import { seededRandom } from "../tests/support/seeded-random";
 
 const LOG_COUNT = 10_000;
 const DROPS_PER_LOG = 12;
@@ -19,20 +20,9 @@ const WARM_UP_ROUNDS = 5;
 const TIMED_ROUNDS = 21;
 const BUDGET_MS = 50;
 
-// mulberry32: a small seeded PRNG, so every run reduces the same invented data.
-function mulberry32(seed: number) {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function makeLogs(): FallingSphereInput[] {
-  const random = mulberry32(20240917);
+  const random = seededRandom(20240917);
   const gaussian = () => Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());
   const logs: FallingSphereInput[] = [];
   for (let i = 0; i < LOG_COUNT; i++) {

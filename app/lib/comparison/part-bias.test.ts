@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { holmBonferroni, partBiasByPeers, twoSidedPValue, welchTest, type PartFigure } from "./part-bias";
+import { seededRandom } from "../../../tests/support/seeded-random";
 
 describe("welchTest", () => {
   // NIST/SEMATECH e-Handbook §1.3.5.3, two-sample t-test example (AUTO83B: US cars n = 249, mean 20.14458 mpg,
@@ -46,17 +47,6 @@ describe("holmBonferroni", () => {
   });
 });
 
-/** Mulberry32 (common practice), so the Monte Carlo classes are the same every run. */
-function seeded(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe("partBiasByPeers", () => {
   const handIn = (partId: string, figure: number, labId = "lab", mode: PartFigure["mode"] = "viscometry"): PartFigure => ({ partId, partKind: "fluid_lot", labId, mode, figure });
@@ -93,7 +83,7 @@ describe("partBiasByPeers", () => {
   // glycerol, whose viscosity falls about 9 %/K near 20 °C (Segur & Oberstar 1951 — from memory), gives 2.7 %,
   // and timing and diameter add the rest.
   function simulate(classes: number, offLot: number, seed: number) {
-    const random = seeded(seed);
+    const random = seededRandom(seed);
     const gauss = () => Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());
     let classesWithCalibratedFlag = 0;
     let calibratedFlags = 0;

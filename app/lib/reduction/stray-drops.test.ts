@@ -1,18 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { reduceFallingSphere } from "./falling-sphere";
 import { findStrayDrops, MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
+import { seededRandom } from "../../../tests/support/seeded-random";
 
-/** Mulberry32: a small seeded generator (common practice), so the Monte Carlo run is the same every time. */
-function seeded(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Standard normal deviates by the Box–Muller transform (Box & Muller 1958). */
 function normal(random: () => number): () => number {
@@ -48,7 +38,7 @@ describe("findStrayDrops", () => {
   // generalized ESD test has size α over the whole log (Rosner 1983), so at most α + 0.01 of the logs may
   // have any drop flagged (the bound; the binomial standard error at 20,000 logs is 0.0015).
   it("flags at most α + 0.01 of clean logs read to 0.01 s (Monte Carlo, fixed seed)", () => {
-    const random = seeded(20261202);
+    const random = seededRandom(20261202);
     const gauss = normal(random);
     const alpha = 0.05;
     const logs = 24_000;
