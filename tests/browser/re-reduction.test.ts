@@ -40,7 +40,7 @@ describe("re-reduction after a part correction in Chromium", () => {
     await expect.poll(() => page.getByTestId("rereduction-progress").first().textContent()).toContain(`${target.versions} of ${target.versions} hand-ins recomputed`);
 
     await page.getByText("Re-measure", { exact: true }).click();
-    await page.getByLabel("Density").fill("1251");
+    await page.locator("input[name=densityKgM3]").fill("1251");
     await page.getByRole("button", { name: "Save the new measurements" }).click();
     await page.waitForURL(/saved=remeasured/);
     const progress = page.getByTestId("rereduction-progress");
