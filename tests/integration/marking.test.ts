@@ -15,7 +15,7 @@ import { loadMarkingDesk, readMarkingDeskFilters, type MarkingDeskFilters } from
 import { loadMarkingLab, MarkingRefusedError, type MarkingLab } from "~/server/marking/marking-lab.server";
 import { applyToMany, markingLock, saveMark, saveMarkCell } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
-import { copyRubric, saveRubric } from "~/server/marking/rubrics.server";
+import { copyRubric, listRubricSources, saveRubric } from "~/server/marking/rubrics.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
 import { createAccessFixture, type AccessFixture } from "../support/access-fixture";
 import { appRequest, sessionCookieFor } from "../support/app-requests";
@@ -452,6 +452,10 @@ describe("the rubric", () => {
     expect((await refusal(saveRubric(db, { access: accessOf("assignedTa"), lab: reread, input: fullRubric }))).code).toBe("instructors_only");
 
     const target = await newLab("Rubric target");
+    // The copy offer lists the labs that have a rubric, with their number of criteria (it once counted 0 for every lab).
+    const sources = await listRubricSources(db, { access: accessOf("instructor"), labId: target.id });
+    expect(sources.find((source) => source.labId === lab.id)?.criteria).toBe(2);
+    expect(sources.some((source) => source.labId === target.id)).toBe(false);
     const copied = await copyRubric(db, { access: accessOf("instructor"), lab: { id: target.id }, fromLabId: lab.id });
     expect(copied.map((criterion) => criterion.title)).toEqual(["Discussion of the result", "Set-up described"]);
     expect(copied.every((criterion) => !edited.some((original) => original.id === criterion.id))).toBe(true);

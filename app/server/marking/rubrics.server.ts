@@ -114,7 +114,12 @@ export async function copyRubric(
 /** The course's other labs with a rubric, for "copy the rubric from…": one statement. */
 export async function listRubricSources(executor: Executor, { access, labId }: { access: CourseAccess; labId: string }): Promise<{ labId: string; title: string; criteria: number }[]> {
   const rows = await executor
-    .select({ labId: labs.id, title: labs.title, criteria: sql<number>`(select count(*)::int from rubric_criteria rc where rc.lab_id = ${labs.id})` })
+    .select({
+      labId: labs.id,
+      title: labs.title,
+      // Written out as labs.id: an interpolated column renders unqualified here and would bind to rc.id.
+      criteria: sql<number>`(select count(*)::int from rubric_criteria rc where rc.lab_id = labs.id)`,
+    })
     .from(labs)
     .where(and(eq(labs.courseId, access.course.id), ne(labs.id, labId)))
     .orderBy(labs.dueAt);
