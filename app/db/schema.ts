@@ -590,6 +590,22 @@ export const labCohorts = pgTable(
   (table) => [primaryKey({ columns: [table.labId, table.cohortId] })],
 );
 
+/**
+ * A reduction as stored: the kit records it used, the engine's output and the key figures copied out
+ * for the class comparison. A revision keeps one; a version keeps a copy of its current revision's, so
+ * every reader of versions sees the latest without a join. Fresh builders each call: a column belongs to one table.
+ */
+const reductionColumns = () => ({
+  kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
+  reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
+  /** measured/reference viscosity (viscometry) or C_D/C_D,ref (drag): comparable across kits and temperatures. */
+  normalisedFigure: real("normalised_figure"),
+  reynolds: real("reynolds"),
+  dragCoefficient: real("drag_coefficient"),
+  viscosityPaS: real("viscosity_pa_s"),
+  warningCount: integer("warning_count").notNull().default(0),
+});
+
 /** One student's hand-in for one lab: the container of its versions. Its row is the only one a hand-in locks. */
 export const dropLogs = pgTable(
   "drop_logs",
@@ -636,14 +652,7 @@ export const dropLogVersions = pgTable(
     fluidLotId: uuid("fluid_lot_id").references(() => parts.id, { onDelete: "restrict" }),
     columnId: uuid("column_id").references(() => parts.id, { onDelete: "restrict" }),
     input: jsonb("input").$type<Record<string, unknown>>().notNull(),
-    kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
-    reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
-    /** measured/reference viscosity (viscometry) or C_D/C_D,ref (drag): comparable across kits and temperatures. */
-    normalisedFigure: real("normalised_figure"),
-    reynolds: real("reynolds"),
-    dragCoefficient: real("drag_coefficient"),
-    viscosityPaS: real("viscosity_pa_s"),
-    warningCount: integer("warning_count").notNull().default(0),
+    ...reductionColumns(),
     /** The revision the reduction columns copy: 1 at hand-in, one more for each part correction. */
     currentRevision: integer("current_revision").notNull().default(1),
   },
@@ -678,13 +687,7 @@ export const reductionRevisions = pgTable(
       .notNull()
       .references(() => dropLogVersions.id, { onDelete: "cascade" }),
     revision: integer("revision").notNull(),
-    kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
-    reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
-    normalisedFigure: real("normalised_figure"),
-    reynolds: real("reynolds"),
-    dragCoefficient: real("drag_coefficient"),
-    viscosityPaS: real("viscosity_pa_s"),
-    warningCount: integer("warning_count").notNull().default(0),
+    ...reductionColumns(),
     /** Null for revision 1. */
     cause: jsonb("cause").$type<ReductionRevisionCause>(),
     /** The part event that caused it: a re-run of its job finds the revision already there. */

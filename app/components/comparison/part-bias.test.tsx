@@ -5,6 +5,7 @@ import { PartBiasEvidence } from "./part-bias";
 const comparison = {
   labId: "lab-1",
   labTitle: "Glycerol viscometry",
+  mode: "viscometry" as const,
   n: 6,
   peerCount: 24,
   peerParts: 4,

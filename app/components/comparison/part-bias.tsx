@@ -5,6 +5,7 @@
 import { handInHref } from "~/lib/comparison/links";
 import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "~/lib/comparison/part-bias";
 import { formatNumber } from "~/lib/kits/part-display";
+import type { PartBiasReport } from "~/server/comparison/part-quality.server";
 
 export function PartBiasBadge() {
   return (
@@ -14,25 +15,8 @@ export function PartBiasBadge() {
   );
 }
 
-type Evidence = {
-  alpha: number;
-  flagged: boolean;
-  testsInFamily: number;
-  comparisons: {
-    labId: string;
-    labTitle: string;
-    n: number;
-    peerCount: number;
-    peerParts: number;
-    relativeToPeers: number | null;
-    t: number | null;
-    degreesOfFreedom: number | null;
-    pValue: number | null;
-    holmLevel: number | null;
-    flagged: boolean;
-  }[];
-  handIns: { dropLogId: string; labId: string; labTitle: string; studentName: string; figure: number }[];
-};
+/** What the part pages pass in: the report's verdict and its evidence. */
+type Evidence = Pick<PartBiasReport, "alpha" | "flagged" | "testsInFamily" | "comparisons" | "handIns">;
 
 const percent = (fraction: number) => `${fraction >= 0 ? "+" : "−"}${formatNumber(Math.abs(fraction) * 100, 2)} %`;
 
