@@ -5,6 +5,7 @@
 import { sql } from "drizzle-orm";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
+import { effectiveWindowJoin } from "~/server/labs/effective-window.server";
 
 export type LabListRow = {
   id: string;
@@ -24,16 +25,15 @@ export async function listLabsForMember(executor: Executor, access: CourseAccess
   const student = access.membership.role === "student";
   const result = await executor.execute<LabListRow>(sql`
     select l.id, l.title, l.kind, l.status,
-      to_json(l.opens_at)#>>'{}' as "opensAt", to_json(coalesce(es.due_at, ec.due_at, l.due_at))#>>'{}' as "dueAt",
-      to_json(case when es.id is not null then es.late_cutoff_at when ec.id is not null then ec.late_cutoff_at else l.late_cutoff_at end)#>>'{}' as "lateCutoffAt",
+      to_json(l.opens_at)#>>'{}' as "opensAt", to_json(w.due_at)#>>'{}' as "dueAt", to_json(w.late_cutoff_at)#>>'{}' as "lateCutoffAt",
       coalesce(d.draft is not null, false) as "hasDraft", v.late as "latestLate",
       coalesce(v.version, 0) as "versionCount"
     from labs l
     left join drop_logs d on ${student} and d.lab_id = l.id and d.membership_id = ${access.membership.id}
     left join drop_log_versions v on v.id = d.latest_version_id
-    -- A student sees their own times: their extension, else their cohort's, else the lab's (as effectiveHandInWindow).
-    left join lab_extensions es on ${student} and es.lab_id = l.id and es.membership_id = ${access.membership.id}
-    left join lab_extensions ec on ${student} and ec.lab_id = l.id and ec.cohort_id = ${access.membership.cohortId}
+    -- A student sees their own times; staff (no membership row joined) see the lab's.
+    left join course_memberships me on ${student} and me.id = ${access.membership.id}
+    ${effectiveWindowJoin({ lab: "l", member: "me", as: "w" })}
     where l.course_id = ${access.course.id}
       and (not ${student} or (l.status <> 'draft'
         and exists (select 1 from lab_cohorts lc where lc.lab_id = l.id and lc.cohort_id = ${access.membership.cohortId})))
