@@ -5,7 +5,7 @@
 import type { CalibrationPoint } from "~/db/schema";
 
 /** The temperature range Cheng fitted his formula over, in °C. */
-export const chengTemperatureRangeC = [0, 100] as const;
+const chengTemperatureRangeC = [0, 100] as const;
 
 /**
  * Viscosity of a glycerol–water mixture in Pa·s, after N.-S. Cheng, "Formula for the viscosity of a
@@ -42,11 +42,11 @@ function glycerolViscosityMPaS(t: number): number {
  * The two last enter through the correlation's own sensitivity, so the tolerance is tight for a dilute
  * mix and wide near pure glycerol, where half a per cent of water moves μ by several per cent.
  */
-export const correlationRelativeUncertainty = 0.035 / Math.sqrt(3);
-export const massFractionUncertainty = 0.005 / Math.sqrt(3);
-export const calibrationTemperatureUncertaintyK = 0.5 / Math.sqrt(3);
+const correlationRelativeUncertainty = 0.035 / Math.sqrt(3);
+const massFractionUncertainty = 0.005 / Math.sqrt(3);
+const calibrationTemperatureUncertaintyK = 0.5 / Math.sqrt(3);
 /** Coverage factor for the tolerance: about 95 % for a normal combined distribution (GUM 6.3.3). */
-export const toleranceCoverageFactor = 2;
+const toleranceCoverageFactor = 2;
 
 /** The tolerance on recorded / correlation − 1 at one mass fraction and temperature. */
 export function chengTolerance(glycerolMassFraction: number, temperatureC: number): number {
@@ -74,9 +74,9 @@ export function chengTolerance(glycerolMassFraction: number, temperatureC: numbe
  *   glycerol or sugar, syrups, oils) is at least as viscous as water; half leaves room for a thermometer
  *   some 25 K out, while a slip puts the value a thousand times lower.
  */
-export const unitSlipRatio = { centre: 1000, halfWidthDecades: 0.5 } as const;
-export const maximumKitFluidViscosityPaS = 100;
-export const minimumFractionOfWater = 0.5;
+const unitSlipRatio = { centre: 1000, halfWidthDecades: 0.5 } as const;
+const maximumKitFluidViscosityPaS = 100;
+const minimumFractionOfWater = 0.5;
 
 export type CalibrationFinding =
   | { kind: "agrees"; differencePercent: number; tolerancePercent: number }
