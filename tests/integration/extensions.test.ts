@@ -17,6 +17,7 @@ import { queues } from "~/server/jobs/boss.server";
 import { ExtensionRuleError, getExtensionsPage, listExtensions, removeExtension, setExtensions } from "~/server/labs/extensions.server";
 import { getLab } from "~/server/labs/labs.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { appOrigin, appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 import { seedMarkingClass } from "../support/marking-class";
 
 let fixture: AccessFixture;
@@ -308,5 +309,48 @@ describe("reminders for an extended due time", () => {
     const drafted = await setExtensions(db, { access, lab: draft, target: { membershipIds: [fixture.membershipIds.ownStudent] }, window: { dueAt: extendedDue, reason }, now });
     expect(drafted.remindersScheduled).toBe(0);
     expect(await reminderJobs(draft.id)).toEqual([]);
+  });
+});
+
+describe("the extensions page over HTTP", () => {
+  let handle: AppHandler;
+  beforeAll(async () => {
+    handle = await createAppHandler();
+  });
+  const post = async (actor: "instructor" | "assignedTa", fields: Record<string, string>) =>
+    handle(
+      new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}/extensions.data`, appOrigin()), {
+        method: "POST",
+        body: new URLSearchParams(fields),
+        headers: { Cookie: await sessionCookieFor(fixture.userIds[actor]), Origin: appOrigin() },
+      }),
+    );
+  const stored = () => db.select().from(labExtensions).where(eq(labExtensions.labId, fixture.labId));
+
+  it("answers a refused form with 400, the message at its field and the input kept; a good one is stored", async () => {
+    const fields = { intent: "extend-students", membershipIds: fixture.membershipIds.ownStudent, dueAt: "2027-04-02T17:00", lateCutoffAt: "2027-04-01T17:00", reason: "Hospital appointment" };
+    const refused = await post("instructor", fields);
+    expect(refused.status).toBe(400);
+    const text = await refused.text();
+    expect(text).toContain("lateCutoffAt");
+    expect(text).toContain("The late cut-off cannot come before the new due time");
+    expect(text).toContain("Hospital appointment");
+    expect(await stored()).toEqual([]);
+
+    const accepted = await post("instructor", { ...fields, lateCutoffAt: "" });
+    expect(accepted.status).toBe(200);
+    expect(await stored()).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, dueAt: dublin("2027-04-02T17:00"), lateCutoffAt: null, reason: "Hospital appointment" }]);
+  });
+
+  it("refuses a TA's write with 403, and shows the TA the list without the forms", async () => {
+    const before = await stored();
+    const refused = await post("assignedTa", { intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-04-03T17:00", reason: "Kits shipped late" });
+    expect(refused.status).toBe(403);
+    expect(await stored()).toEqual(before);
+    const page = await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}/extensions`, { cookie: await sessionCookieFor(fixture.userIds.assignedTa) }));
+    expect(page.status).toBe(200);
+    const html = await page.text();
+    expect(html).toContain("Instructors set and remove extensions.");
+    expect(html).not.toContain("Extend the whole cohort");
   });
 });
