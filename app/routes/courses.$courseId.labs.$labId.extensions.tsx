@@ -47,7 +47,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     if (input.intent === "remove") {
       await removeExtension(db, { access, lab, extensionId: input.extensionId, request });
-      return { done: input.intent, count: 1, dueAt: null };
+      return { done: input.intent, count: 1, dueAt: null as string | null };
     }
     const target = input.intent === "extend-cohort" ? { cohortId: input.cohortId } : { membershipIds: input.membershipIds };
     const outcome = await setExtensions(db, { access, lab, target, window: input, request });
