@@ -253,7 +253,7 @@ function ExtendSelected({ courseId, labId, timeZone, selected, onDone }: { cours
         <input type="hidden" name="intent" value="extend-students" />
         <ExtensionWindowFields timeZone={timeZone} errors={errors} />
         <Button type="submit" disabled={selected.size === 0 || fetcher.state !== "idle"} className="self-start">
-          Give {selected.size === 1 ? "this student" : `these ${selected.size} students`} the new due time
+          Give {selected.size === 0 ? "the selected students" : selected.size === 1 ? "this student" : `these ${selected.size} students`} the new due time
         </Button>
       </fetcher.Form>
     </section>
