@@ -6,7 +6,7 @@
 import { and, eq, sql } from "drizzle-orm";
 import pg from "pg";
 import { beforeAll, describe, expect, it, vi } from "vitest";
-import { auditEvents, courses, dropLogVersions, labCohorts, labExtensions, labs } from "~/db/schema";
+import { auditEvents, courses, labCohorts, labExtensions, labs } from "~/db/schema";
 import { extensionInputFor } from "~/lib/labs/extension-input";
 import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import type { CourseAccess } from "~/server/auth/access.server";
