@@ -493,21 +493,17 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
       message: `Near-neutral buoyancy: ρs − ρf = ${format(ρs - ρf)} kg/m³ with a standard uncertainty of ${format(uDensityExcess)} kg/m³ (${formatPercent(uDensityExcess / densityExcess, false)}), which then dominates the uncertainty of every result; a small change of the fluid's temperature shifts it too.`,
     });
   }
-  const runInHow =
-    main.reynolds <= 0.1
-      ? `${format(runInNeeded / relaxationLength)} relaxation lengths, with τ = (ρs + ½ρf) d²/(18μ) = ${format(relaxationTime)} s`
-      : `the approach with added mass and the standard drag curve at Re = ${format(main.reynolds)}`;
   if (column.runIn === undefined) {
     checks.push({
       code: "run-in-unknown",
       level: "info",
-      message: `No run-in distance given; the sphere needs about ${format(runInNeeded)} m of fall from release to reach ${RUN_IN_VELOCITY_FRACTION * 100} % of its terminal velocity (${runInHow}).`,
+      message: `No run-in distance given; the sphere needs about ${format(runInNeeded)} m of fall from release to reach ${RUN_IN_VELOCITY_FRACTION * 100} % of its terminal velocity (${runInBasis(runInNeeded, relaxationLength, relaxationTime, main.reynolds)}).`,
     });
   } else if (column.runIn < runInNeeded) {
     checks.push({
       code: "run-in-too-short",
       level: "warn",
-      message: `The run-in (${format(column.runIn)} m) is shorter than the ${format(runInNeeded)} m the sphere needs to reach ${RUN_IN_VELOCITY_FRACTION * 100} % of its terminal velocity (${runInHow}): it may still be speeding up in the timed distance.`,
+      message: `The run-in (${format(column.runIn)} m) is shorter than the ${format(runInNeeded)} m the sphere needs to reach ${RUN_IN_VELOCITY_FRACTION * 100} % of its terminal velocity (${runInBasis(runInNeeded, relaxationLength, relaxationTime, main.reynolds)}): it may still be speeding up in the timed distance.`,
     });
   }
   if (column.marginBelow !== undefined && column.innerDiameter !== undefined && column.marginBelow < column.innerDiameter / 2) {
@@ -618,6 +614,13 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     uncertaintyBudget,
     checks,
   };
+}
+
+/** How the run-in was estimated, for a check's message (built only when a check is given: it formats numbers). */
+function runInBasis(runInNeeded: number, relaxationLength: number, relaxationTime: number, reynolds: number): string {
+  return reynolds <= 0.1
+    ? `${format(runInNeeded / relaxationLength)} relaxation lengths, with τ = (ρs + ½ρf) d²/(18μ) = ${format(relaxationTime)} s`
+    : `the approach with added mass and the standard drag curve at Re = ${format(reynolds)}`;
 }
 
 /**
