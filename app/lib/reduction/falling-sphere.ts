@@ -5,9 +5,10 @@ import { describeDrops, type DropStatistics } from "./statistics";
 import { findStrayDrops } from "./stray-drops";
 import { fallingSphereBudget, type UncertaintyBudget } from "./uncertainty-budget";
 import {
-  CREEPING_FLOW_WALL_REYNOLDS,
+  CREEPING_FLOW_WALL_TOLERANCE,
   DI_FELICE_MAX_REYNOLDS,
   diFeliceWallFactor,
+  inertialWallShift,
   resolveWallCorrection,
   WALL_MODEL_RANGES,
   wallFactor,
@@ -636,7 +637,7 @@ function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: Wal
   if (chosen === "none") {
     // What the wall does, as the reduction would have corrected it; at the measured velocity's Re, an estimate.
     const reynolds = physics.reynoldsScale * (physics.reynoldsPower === 1 ? measuredVelocity : measuredVelocity * measuredVelocity);
-    beyondCreepingFlow = reynolds > CREEPING_FLOW_WALL_REYNOLDS;
+    beyondCreepingFlow = inertialWallShift(diameterRatio, reynolds) > CREEPING_FLOW_WALL_TOLERANCE;
     const estimate: AppliedWallCorrection = beyondCreepingFlow ? "di-felice" : diameterRatio <= WALL_MODEL_RANGES["haberman-sayre"].maxDiameterRatio ? "haberman-sayre" : "francis";
     factor = estimate === "di-felice" ? diFeliceWallFactor(diameterRatio, reynolds) : wallFactor(diameterRatio, estimate);
     if (1 - factor > NEGLIGIBLE_WALL_EFFECT) {
@@ -651,7 +652,7 @@ function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: Wal
     checks.push({
       code: "wall-factor-outside-creeping-flow",
       level: "warn",
-      message: `Re = ${format(wall.reynolds)} is beyond creeping flow (Re ≤ ${CREEPING_FLOW_WALL_REYNOLDS}), where ${WALL_FACTOR_NAMES[chosen]} holds: inertia weakens the wall effect, so Di Felice's (1996) factor for finite Re was used, K = ${format(wall.factor)}${creepingValue}.`,
+      message: `Re = ${format(wall.reynolds)} is beyond the creeping flow ${WALL_FACTOR_NAMES[chosen]} assumes: at d/D = ${ratio} inertia weakens the wall effect by more than ${formatPercent(CREEPING_FLOW_WALL_TOLERANCE, false)} in K, so Di Felice's (1996) factor for finite Re was used, K = ${format(wall.factor)}${creepingValue}.`,
     });
     if (wall.reynolds > DI_FELICE_MAX_REYNOLDS) {
       checks.push({

@@ -42,5 +42,5 @@ export { BudgetAccumulator, COVERAGE_PROBABILITY, fallingSphereBudget } from "./
 export type { UncertaintyBudget, UncertaintyBudgetRow, UncertaintyTotals } from "./uncertainty-budget";
 export { relaxationTime, RUN_IN_VELOCITY_FRACTION, runInLength } from "./run-in";
 export type { RunInContext } from "./run-in";
-export { CREEPING_FLOW_WALL_REYNOLDS, DI_FELICE_MAX_REYNOLDS, diFeliceWallFactor, resolveWallCorrection, WALL_MODEL_RANGES, wallFactor } from "./wall";
+export { CREEPING_FLOW_WALL_TOLERANCE, DI_FELICE_MAX_REYNOLDS, diFeliceWallFactor, inertialWallShift, resolveWallCorrection, WALL_MODEL_RANGES, wallFactor } from "./wall";
 export type { AppliedWallCorrection, WallCorrection, WallCorrectionMethod, WallModelRange } from "./wall";

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { ReductionInputError } from "./errors";
-import { CREEPING_FLOW_WALL_REYNOLDS, diFeliceWallFactor, resolveWallCorrection, wallFactor } from "./wall";
+import { CREEPING_FLOW_WALL_TOLERANCE, diFeliceWallFactor, inertialWallShift, resolveWallCorrection, wallFactor } from "./wall";
 
 /**
  * The creeping-flow velocity ratio of a sphere on the axis of a cylinder to higher order in λ, from
@@ -73,12 +73,16 @@ describe("resolveWallCorrection", () => {
   // Drag mode, Re∞ = scale·v∞: the scale of a 10 mm sphere in a fluid of ν = 2·10⁻⁵ m²/s is 500 s/m.
   const scale = 500;
 
-  it("uses the chosen creeping-flow factor while its Re∞ is creeping flow", () => {
-    const velocity = 0.1 * CREEPING_FLOW_WALL_REYNOLDS * wallFactor(0.2, "faxen") / scale;
-    const wall = resolveWallCorrection(0.2, "faxen", velocity, scale, 1);
-    expect(wall.applied).toBe("faxen");
-    expect(wall.factor).toBe(wallFactor(0.2, "faxen"));
-    expect(wall.byReynolds).toBe(0);
+  it("keeps the chosen creeping-flow factor while inertia moves K by at most 1 % (by Di Felice's Re-dependence)", () => {
+    // At λ = 0.2 that is Re∞ ≤ 0.27: |ln(0.8/0.934)| · 0.245 Re/(1 + 0.1Re) = 0.01.
+    expect(inertialWallShift(0.2, 0.2707)).toBeCloseTo(CREEPING_FLOW_WALL_TOLERANCE, 4);
+    const creeping = resolveWallCorrection(0.2, "faxen", (0.26 * wallFactor(0.2, "faxen")) / scale, scale, 1);
+    expect(creeping.applied).toBe("faxen");
+    expect(creeping.factor).toBe(wallFactor(0.2, "faxen"));
+    expect(creeping.byReynolds).toBe(0);
+    expect(resolveWallCorrection(0.2, "faxen", (0.28 * wallFactor(0.2, "faxen")) / scale, scale, 1).applied).toBe("di-felice");
+    // A thinner sphere stays in creeping flow to a higher Re: the wall, and so inertia's effect on it, is smaller.
+    expect(resolveWallCorrection(0.05, "faxen", (1 * wallFactor(0.05, "faxen")) / scale, scale, 1).applied).toBe("faxen");
   });
 
   it("solves Di Felice's implicit relation beyond creeping flow: (3.3 − α)/(α − 0.85) = 0.1 Re∞, Re∞ on v∞ = v/K", () => {

@@ -34,13 +34,24 @@ export const WALL_MODEL_RANGES: Record<Exclude<AppliedWallCorrection, "none">, W
 export const DI_FELICE_MAX_REYNOLDS = 200;
 
 /**
- * The Reynolds number up to which a creeping-flow wall factor is used. Common practice puts creeping
- * flow below Re ≈ 0.1–1; we take 0.2, where Di Felice's exponent α has moved only 1.5 % from its
- * creeping value 3.3, so inertia changes K by under about 1 % for d/D ≤ 0.3. Above it the weakening of
- * the wall effect by inertia outgrows that, and by Re ≈ 168 Faxén's K = 0.60 at d/D = 0.2 is Di
- * Felice's 0.86: a creeping-flow factor there would halve C_D/C_D,ref.
+ * How far a creeping-flow wall factor may be from the one inertia gives: 1 % in K (our threshold, about
+ * a hand timing's uncertainty). Common practice puts creeping flow below Re ≈ 0.1–1, but for the wall
+ * effect no single Re fits every d/D: by Di Felice's own Re-dependence, inertia changes K by
+ * |ln((1 − λ)/(1 − 0.33λ))|·(3.3 − α) = |ln(…)|·0.245 Re/(1 + 0.1 Re) in ln K, which reaches 1 % at
+ * Re ≈ 0.27 for d/D = 0.2 but only at Re ≈ 1.3 for d/D = 0.05, where the wall matters less. So the
+ * creeping-flow range used is where that shift stays within 1 %: Re up to about 0.6 at d/D = 0.1, 0.27
+ * at 0.2, 0.16 at 0.3 (see {@link inertialWallShift}). Far beyond it the difference is gross: at
+ * Re ≈ 168 Faxén's K = 0.60 at d/D = 0.2 is Di Felice's 0.86, and would halve C_D/C_D,ref.
  */
-export const CREEPING_FLOW_WALL_REYNOLDS = 0.2;
+export const CREEPING_FLOW_WALL_TOLERANCE = 0.01;
+
+/**
+ * |ln K(λ, Re) − ln K(λ, 0)| by Di Felice (1996): how much inertia weakens the wall effect at Re. A
+ * creeping-flow factor is used while it is within {@link CREEPING_FLOW_WALL_TOLERANCE}.
+ */
+export function inertialWallShift(diameterRatio: number, reynolds: number): number {
+  return (-diFeliceLogBase(diameterRatio) * 0.245 * reynolds) / (1 + 0.1 * reynolds);
+}
 
 /** Creeping-flow stand-ins, tried in this order when the chosen factor's λ range is exceeded. */
 const WIDER_CREEPING_FLOW_METHODS: readonly CreepingFlowMethod[] = ["haberman-sayre", "francis"];
@@ -130,9 +141,9 @@ export interface WallCorrection {
  * then gets the best available correction, named, rather than a creeping-flow factor that is off by a
  * factor of two, or a refusal for data that were properly taken.
  *
- * - Re∞ (with the creeping-flow factor) ≤ {@link CREEPING_FLOW_WALL_REYNOLDS}: the chosen factor if λ
- *   is within its range, else Haberman–Sayre (to 0.8), else Francis (to 0.97, and beyond it,
- *   extrapolated; the caller warns).
+ * - Creeping flow, where inertia changes K by at most {@link CREEPING_FLOW_WALL_TOLERANCE} at the Re∞ the
+ *   creeping-flow factor gives: the chosen factor if λ is within its range, else Haberman–Sayre (to
+ *   0.8), else Francis (to 0.97, and beyond it, extrapolated; the caller warns).
  * - Above: Di Felice (1996), solved by fixed-point iteration, since its Re∞ depends on the corrected
  *   velocity it gives. Each step maps K to K(λ, Re∞(v/K)), whose slope |d ln K/d ln Re∞|·power is at
  *   most 0.61·|ln((1 − λ)/(1 − 0.33λ))|·power: below 0.6 for λ ≤ 0.7 in drag mode, so it contracts
@@ -156,7 +167,7 @@ export function resolveWallCorrection(
   }
   const creepingFactor = wallFactor(diameterRatio, creeping);
   const creepingReynolds = reynoldsAt(creepingFactor, measuredVelocity, reynoldsScale, reynoldsPower);
-  if (creepingReynolds <= CREEPING_FLOW_WALL_REYNOLDS) {
+  if (inertialWallShift(diameterRatio, creepingReynolds) <= CREEPING_FLOW_WALL_TOLERANCE) {
     return {
       factor: creepingFactor,
       applied: creeping,
