@@ -419,11 +419,11 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
   }
 
   // --- near-neutral buoyancy: Δρ against its standard uncertainty from ρs's inputs and ρf's (with u(T) through dρf/dT)
-  const uFluidDensityAbsolute = Math.hypot(
-    given?.fluidDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidDensity,
-    fluid.temperature !== undefined ? (fluid.densityTemperatureCoefficient ?? 0) * uTemperature : 0,
-  );
-  const uDensityExcess = Math.hypot(uncertainty.sphereDensity * ρs, uFluidDensityAbsolute);
+  // Squares summed by hand, not Math.hypot: this runs once per drop log of a class page.
+  const uFluidDensityGiven = given?.fluidDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidDensity;
+  const uFluidDensityByTemperature = fluid.temperature !== undefined ? (fluid.densityTemperatureCoefficient ?? 0) * uTemperature : 0;
+  const uSphereDensityAbsolute = uncertainty.sphereDensity * ρs;
+  const uDensityExcess = Math.sqrt(uSphereDensityAbsolute * uSphereDensityAbsolute + uFluidDensityGiven * uFluidDensityGiven + uFluidDensityByTemperature * uFluidDensityByTemperature);
   if (densityExcess < UNKNOWN_SIGN_COVERAGE_FACTOR * uDensityExcess) {
     throw new ReductionInputError([
       {
@@ -631,7 +631,6 @@ function runInBasis(runInNeeded: number, relaxationLength: number, relaxationTim
  * the student must be able to hand in, and staff see the error on it, where a refusal would hide it.
  */
 function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: WallCorrectionMethod, wall: WallCorrection, measuredVelocity: number, physics: PhysicsContext): void {
-  const ratio = format(diameterRatio);
   let beyondCreepingFlow = wall.applied === "di-felice";
   let factor = wall.factor;
   if (chosen === "none") {
@@ -644,7 +643,7 @@ function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: Wal
       checks.push({
         code: "wall-effect-neglected",
         level: "warn",
-        message: `No wall correction was chosen, but at d/D = ${ratio} the wall slows the sphere to about K = ${format(factor)} of its unbounded velocity (${WALL_FACTOR_NAMES[estimate]}): the results are computed from a velocity ${formatPercent(1 - factor, false)} below v∞.`,
+        message: `No wall correction was chosen, but at d/D = ${format(diameterRatio)} the wall slows the sphere to about K = ${format(factor)} of its unbounded velocity (${WALL_FACTOR_NAMES[estimate]}): the results are computed from a velocity ${formatPercent(1 - factor, false)} below v∞.`,
       });
     }
   } else if (wall.applied === "di-felice") {
@@ -652,7 +651,7 @@ function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: Wal
     checks.push({
       code: "wall-factor-outside-creeping-flow",
       level: "warn",
-      message: `Re = ${format(wall.reynolds)} is beyond the creeping flow ${WALL_FACTOR_NAMES[chosen]} assumes: at d/D = ${ratio} inertia weakens the wall effect by more than ${formatPercent(CREEPING_FLOW_WALL_TOLERANCE, false)} in K, so Di Felice's (1996) factor for finite Re was used, K = ${format(wall.factor)}${creepingValue}.`,
+      message: `Re = ${format(wall.reynolds)} is beyond the creeping flow ${WALL_FACTOR_NAMES[chosen]} assumes: at d/D = ${format(diameterRatio)} inertia weakens the wall effect by more than ${formatPercent(CREEPING_FLOW_WALL_TOLERANCE, false)} in K, so Di Felice's (1996) factor for finite Re was used, K = ${format(wall.factor)}${creepingValue}.`,
     });
     if (wall.reynolds > DI_FELICE_MAX_REYNOLDS) {
       checks.push({
@@ -666,7 +665,7 @@ function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: Wal
     checks.push({
       code: "wall-correction-substituted",
       level: "warn",
-      message: `d/D = ${ratio} is beyond the range of ${WALL_FACTOR_NAMES[chosen]} (d/D ≤ ${range.maxDiameterRatio}; ${range.source}), which would give K = ${format(wallFactor(diameterRatio, chosen))}: ${WALL_FACTOR_NAMES[wall.applied]} (to d/D ≤ ${WALL_MODEL_RANGES[wall.applied as Exclude<AppliedWallCorrection, "none">].maxDiameterRatio}) was used instead, K = ${format(wall.factor)}.`,
+      message: `d/D = ${format(diameterRatio)} is beyond the range of ${WALL_FACTOR_NAMES[chosen]} (d/D ≤ ${range.maxDiameterRatio}; ${range.source}), which would give K = ${format(wallFactor(diameterRatio, chosen))}: ${WALL_FACTOR_NAMES[wall.applied]} (to d/D ≤ ${WALL_MODEL_RANGES[wall.applied as Exclude<AppliedWallCorrection, "none">].maxDiameterRatio}) was used instead, K = ${format(wall.factor)}.`,
     });
   }
   const widest = beyondCreepingFlow ? WALL_MODEL_RANGES["di-felice"] : WALL_MODEL_RANGES.francis;
@@ -674,7 +673,7 @@ function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: Wal
     checks.push({
       code: "diameter-ratio-outside-wall-model",
       level: "error",
-      message: `d/D = ${ratio} is beyond every wall factor's range (${beyondCreepingFlow ? "beyond creeping flow, Di Felice's" : "in creeping flow, Francis'"} reaches d/D ≤ ${widest.maxDiameterRatio}; ${widest.source})${chosen === "none" ? "" : `: K = ${format(factor)} is extrapolated`}, and the results are not reliable. Use a smaller sphere or a wider column.`,
+      message: `d/D = ${format(diameterRatio)} is beyond every wall factor's range (${beyondCreepingFlow ? "beyond creeping flow, Di Felice's" : "in creeping flow, Francis'"} reaches d/D ≤ ${widest.maxDiameterRatio}; ${widest.source})${chosen === "none" ? "" : `: K = ${format(factor)} is extrapolated`}, and the results are not reliable. Use a smaller sphere or a wider column.`,
     });
   }
 }
