@@ -101,6 +101,7 @@ export interface FallingSphereInput {
   drops: readonly number[];
   /** Local gravity, 9.80665 m/s² (standard gravity) unless the course sets its own. */
   g?: number;
+  /** The lab's wall factor, Faxén's by default; where it does not hold another stands in (see `resolveWallCorrection`). */
   wallCorrection?: WallCorrectionMethod;
   dragModel?: DragModel;
   uncertainties?: StandardUncertainties;
