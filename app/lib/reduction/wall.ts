@@ -197,8 +197,9 @@ export function resolveWallCorrection(
       };
     }
     // The map K → K(λ, Re∞(v/K)) falls with K (slope −power·byReynolds·next/K ≤ 0), so the relaxed
-    // step K + ω(next − K) with ω = 1/(1 − slope) is a damping in (0, 1]: plain fixed-point iteration
-    // where the map contracts (drag mode, λ ≤ 0.7: ω ≥ 0.6), and no oscillation where it would not.
+    // step K + ω(next − K) with ω = 1/(1 − slope) (Newton's step on K − next(K) = 0) is a damping in
+    // (0, 1]: near 1 where the plain iteration contracts well (drag mode, λ ≤ 0.7: ω ≥ 0.6), smaller
+    // where the plain iteration would oscillate or diverge.
     const slope = (-reynoldsPower * byReynolds * next) / factor;
     factor += (next - factor) / (1 - slope);
   }
