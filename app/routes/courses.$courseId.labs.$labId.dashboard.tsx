@@ -104,8 +104,15 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
         {scheduledReminders.length ? (
           <ul className="mb-3 text-sm">
             {scheduledReminders.map((job) => (
-              <li key={`${job.offsetHours}-${job.startAfter}`}>
-                {job.offsetHours} h before the due time, to whoever has not handed in by then: <LabTime at={job.startAfter} courseTimeZone={timeZone} />
+              <li key={`${job.offsetHours}-${job.dueAt}`}>
+                {job.extension ? (
+                  <>
+                    {job.offsetHours} h before the extended due time <LabTime at={job.dueAt} courseTimeZone={timeZone} />, to the students extended to it who have not handed in by then:{" "}
+                  </>
+                ) : (
+                  <>{job.offsetHours} h before the due time, to whoever it is still due for and has not handed in by then: </>
+                )}
+                <LabTime at={job.startAfter} courseTimeZone={timeZone} />
               </li>
             ))}
           </ul>
@@ -126,11 +133,19 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
             </thead>
             <tbody>
               {sentReminders.map((reminder) => (
-                <tr key={`${reminder.membershipId}-${reminder.offsetHours}`} className="border-b border-ink-900/10">
+                <tr key={`${reminder.membershipId}-${reminder.dueAt}-${reminder.offsetHours}`} className="border-b border-ink-900/10">
                   <td className="py-1 pr-3">
                     {reminder.studentName} <span className="text-ink-600">({reminder.cohortName})</span>
                   </td>
-                  <td className="py-1 pr-3">{reminder.offsetHours} h before</td>
+                  <td className="py-1 pr-3">
+                    {reminder.offsetHours} h before
+                    {/* Reminded of another due time than the lab's: an extension's (or one the lab had before). */}
+                    {Date.parse(reminder.dueAt) !== Date.parse(lab.dueAt) ? (
+                      <span className="block text-xs text-ink-600">
+                        of the due time <LabTime at={reminder.dueAt} courseTimeZone={timeZone} />
+                      </span>
+                    ) : null}
+                  </td>
                   <td className="py-1 pr-3">
                     <LabTime at={reminder.sentAt} courseTimeZone={timeZone} />
                   </td>

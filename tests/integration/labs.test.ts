@@ -163,7 +163,7 @@ describe("reminder job", () => {
     const reminders = await db.select().from(labReminders).where(eq(labReminders.labId, lab.id));
     expect(reminders.map((reminder) => reminder.membershipId)).toEqual([fixture.membershipIds.sameCohortStudent]);
     const [email] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, reminders[0].outboxId!));
-    expect(email).toMatchObject({ template: "deadline-reminder", toAddress: "samecohortstudent@labs.example", dedupeKey: `reminder:${lab.id}:${fixture.membershipIds.sameCohortStudent}:48` });
+    expect(email).toMatchObject({ template: "deadline-reminder", toAddress: "samecohortstudent@labs.example", dedupeKey: `reminder:${lab.id}:${fixture.membershipIds.sameCohortStudent}:${lab.dueAt.toISOString()}:48` });
     expect(email.props).toMatchObject({ labTitle: lab.title, hoursLeft: 48 });
 
     // A second offset is a reminder of its own.

@@ -6,7 +6,7 @@
 import { sql } from "drizzle-orm";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
-import { listScheduledReminders, listSentReminders, type SentReminder } from "./lab-reminders.server";
+import { listScheduledReminders, listSentReminders, type ScheduledReminder, type SentReminder } from "./lab-reminders.server";
 import type { LabWithCohorts } from "./labs.server";
 
 export type DashboardStudent = {
@@ -34,7 +34,7 @@ export type LabDashboard = {
   students: DashboardStudent[];
   cohorts: CohortProgress[];
   sentReminders: SentReminder[];
-  scheduledReminders: { offsetHours: number; startAfter: string }[];
+  scheduledReminders: ScheduledReminder[];
 };
 
 /** The cohorts of the lab the viewer may see: all of them for instructors, the assigned ones for TAs. */
