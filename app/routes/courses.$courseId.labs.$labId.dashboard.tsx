@@ -1,6 +1,7 @@
 import { data, Link } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.dashboard";
 import { LabTime } from "~/components/drop-logs/lab-time";
+import { ExtendedTo } from "~/components/labs/extended-to";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { PageHeader } from "~/components/ui/page-header";
 import { handInHref } from "~/lib/comparison/links";
@@ -55,6 +56,7 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
               <th scope="col" className="py-1 text-right">Students</th>
               <th scope="col" className="py-1 text-right">On time</th>
               <th scope="col" className="py-1 text-right">Late</th>
+              <th scope="col" className="py-1 text-right">Not due yet</th>
               <th scope="col" className="py-1 text-right">Missing</th>
             </tr>
           </thead>
@@ -65,11 +67,13 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
                 <td className="py-1 text-right tabular-nums">{cohort.students}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.onTime}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.late}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.notDue}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.missing}</td>
               </tr>
             ))}
           </tbody>
         </table>
+        <p className="mt-1 text-xs text-ink-700">Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. Missing: nothing handed in by then.</p>
       </section>
 
       <section aria-labelledby="students-heading">
@@ -198,8 +202,16 @@ function StudentRow({ student, kind, timeZone, courseId, labId }: { student: Das
             {student.version! > 1 ? <span className="ml-2 text-xs text-ink-600">version {student.version}</span> : null}
           </>
         ) : (
-          <span className="text-outlier">Missing{student.hasDraft ? " (draft started)" : ""}</span>
+          <span className={student.status === "missing" ? "text-outlier" : ""}>
+            {student.status === "missing" ? "Missing" : "Not due yet"}
+            {student.hasDraft ? " (draft started)" : ""}
+          </span>
         )}
+        {student.deadline.extendedBy ? (
+          <span className="block text-xs">
+            <ExtendedTo deadline={student.deadline} timeZone={timeZone} />
+          </span>
+        ) : null}
       </td>
       <td className="py-1 pr-3 tabular-nums">{handedIn ? keyResult(student, kind) : ""}</td>
       <td className="py-1 pr-3 text-right tabular-nums">{handedIn ? student.warningCount : ""}</td>
