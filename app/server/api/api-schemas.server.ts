@@ -36,8 +36,8 @@ export const labSummary = z
     kind: z.enum(["drag", "viscometry"]),
     status: z.enum(["draft", "published", "closed"]),
     opensAt: timestamp,
-    dueAt: timestamp,
-    lateCutoffAt: timestamp.nullable().describe("Late hand-ins are accepted, and labelled late, until then; null: none after the due time."),
+    dueAt: timestamp.describe("For a student, their own due time: their extension's, else their cohort's, else the lab's."),
+    lateCutoffAt: timestamp.nullable().describe("Late hand-ins are accepted, and labelled late, until then (for a student, their own, as `dueAt`); null: none after the due time."),
     dropLog: z
       .object({ status: z.enum(["not-started", "draft", "handed-in", "late"]), versionCount: z.int() })
       .nullable()
