@@ -24,6 +24,7 @@ import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
 import { loadMarkingLab } from "~/server/marking/marking-lab.server";
 import { saveRubric } from "~/server/marking/rubrics.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countStatements } from "../support/count-statements";
 
 const HOUR = 3_600_000;
@@ -334,5 +335,35 @@ describe("late and on time under an extension", () => {
     expect((await handIn("deadlines-late-2", new Date("2027-11-01T11:59:00Z"))).version.late).toBe(true);
     await expect(handIn("deadlines-late-3", new Date("2027-11-01T12:01:00Z"))).rejects.toMatchObject({ code: "past_cutoff" });
     expect(await ownRow(new Date("2027-11-01T12:01:00Z"))).toMatchObject({ status: "late", handIn: { version: 2 }, suggestions: { [onTime]: { points: 0 } } });
+  });
+});
+
+describe("the staff pages", () => {
+  it("show the extended student as not due yet with their own due time and the reason, and the others as missing", async () => {
+    // Real time here: the pages read the clock. The class was due an hour ago; one student has until tomorrow.
+    const now = Date.now();
+    const [lab] = await db
+      .insert(labs)
+      .values({ courseId: fixture.courseId, title: "Due an hour ago", kind: "drag", status: "published", opensAt: new Date(now - 48 * HOUR), dueAt: new Date(now - HOUR), requiredDrops: 5, resolutions })
+      .returning();
+    await db.insert(labCohorts).values({ labId: lab.id, cohortId: fixture.cohortId });
+    const tomorrow = new Date(now + 24 * HOUR);
+    await extend(lab.id, { membershipId: fixture.membershipIds.sameCohortStudent }, tomorrow);
+    await markingLabOf(lab.id);
+    const handle = await createAppHandler();
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const ownDue = new Intl.DateTimeFormat("en-GB", { timeZone: "Europe/Dublin", weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" }).format(tomorrow);
+
+    const dashboard = await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/dashboard`, { cookie }))).text();
+    // Each within the student's own table row.
+    expect(dashboard).toMatch(/Test ownStudent<\/th>(?:(?!<\/tr>).)*Missing/s);
+    expect(dashboard).toMatch(/Test sameCohortStudent<\/th>(?:(?!<\/tr>).)*Not due yet(?:(?!<\/tr>).)*title="own extension: Flooded lab bench"[^>]*>extended to <time/s);
+    expect(dashboard).toContain(ownDue);
+
+    // React marks the joins between text pieces with empty comments; read the text without them.
+    const desk = (await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marking`, { cookie }))).text()).replaceAll("<!-- -->", "");
+    expect(desk).toContain("Not due yet (1)");
+    expect(desk).toContain("Missing (1)");
+    expect(desk).toMatch(/not due yet<\/span><span[^>]*title="own extension: Flooded lab bench"[^>]*>extended to <time[^>]*>/);
   });
 });
