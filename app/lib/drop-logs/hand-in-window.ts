@@ -43,6 +43,15 @@ export function handInStanding(latestLate: boolean | null, effectiveDueAt: Date,
   return now.getTime() <= effectiveDueAt.getTime() ? "not-due" : "missing";
 }
 
+/** A student's own deadline as staff pages read it (instants as ISO text): the window above, and why. */
+export type StudentDeadline = {
+  dueAt: string;
+  lateCutoffAt: string | null;
+  extendedBy: EffectiveHandInWindow["extendedBy"];
+  /** Why staff extended it; null without an extension. Staff only: never sent to a student. */
+  extensionReason: string | null;
+};
+
 export const handInStandingWords: Record<HandInStanding, string> = { "on-time": "on time", late: "late", "not-due": "not due yet", missing: "missing" };
 
 /** An extension's times, as stored in `lab_extensions`. */

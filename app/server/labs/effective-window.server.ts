@@ -26,6 +26,10 @@ export function effectiveWindowJoin(aliases: { lab: string; member: string; as: 
     ) as ${as} on true`);
 }
 
+/** The joined window `as` as a `StudentDeadline` JSON object, reason included: for staff pages only. */
+export const staffDeadlineJson = (as: string): SQL =>
+  sql.raw(`json_build_object('dueAt', to_json(${as}.due_at)#>>'{}', 'lateCutoffAt', to_json(${as}.late_cutoff_at)#>>'{}', 'extendedBy', ${as}.extended_by, 'extensionReason', ${as}.reason)`);
+
 /**
  * Re-decides the late flag of every hand-in of a lab against its student's effective due time, after an
  * extension is set or removed: a hand-in made after the class deadline but inside a later-granted

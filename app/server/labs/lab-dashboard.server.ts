@@ -5,10 +5,10 @@
  * Three statements, run side by side, whatever the class size.
  */
 import { sql } from "drizzle-orm";
-import { handInStanding, type HandInStanding } from "~/lib/drop-logs/hand-in-window";
+import { handInStanding, type HandInStanding, type StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
-import { effectiveWindowJoin } from "./effective-window.server";
+import { effectiveWindowJoin, staffDeadlineJson } from "./effective-window.server";
 import { listScheduledReminders, listSentReminders, type ScheduledReminder, type SentReminder } from "./lab-reminders.server";
 import type { LabWithCohorts } from "./labs.server";
 
@@ -30,7 +30,7 @@ export type DashboardStudent = {
   viscosityPaS: number | null;
   normalisedFigure: number | null;
   /** The student's own due time: their extension's, else their cohort's, else the lab's. */
-  deadline: { dueAt: string; lateCutoffAt: string | null; extendedBy: "student" | "cohort" | null; extensionReason: string | null };
+  deadline: StudentDeadline;
   status: HandInStanding;
 };
 
@@ -56,7 +56,7 @@ export async function getLabDashboard(executor: Executor, access: CourseAccess, 
         v.version, to_json(v.submitted_at)#>>'{}' as "submittedAt", v.late, v.warning_count as "warningCount",
         v.drag_coefficient::float8 as "dragCoefficient", v.reynolds::float8 as reynolds,
         v.viscosity_pa_s::float8 as "viscosityPaS", v.normalised_figure::float8 as "normalisedFigure",
-        json_build_object('dueAt', to_json(w.due_at)#>>'{}', 'lateCutoffAt', to_json(w.late_cutoff_at)#>>'{}', 'extendedBy', w.extended_by, 'extensionReason', w.reason) as deadline
+        ${staffDeadlineJson("w")} as deadline
       from course_memberships m
       join users u on u.id = m.user_id
       join cohorts h on h.id = m.cohort_id

@@ -10,10 +10,10 @@ import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkPro
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { labelClass } from "~/lib/comparison/comparison-settings";
 import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
-import { handInStanding, type HandInStanding } from "~/lib/drop-logs/hand-in-window";
+import { handInStanding, type HandInStanding, type StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 import { quantityOf } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
-import { effectiveWindowJoin } from "~/server/labs/effective-window.server";
+import { effectiveWindowJoin, staffDeadlineJson } from "~/server/labs/effective-window.server";
 import type { MarkingLab } from "./marking-lab.server";
 
 /** A student's counted hand-in as the desk shows it (key results, not the whole reduction). */
@@ -58,15 +58,6 @@ export type StoredMark = MarkContent & {
   reopenedAt: string | null;
 };
 
-/** A student's own deadline for the lab: their extension's, else their cohort's, else the lab's. */
-export type StudentDeadline = {
-  dueAt: string;
-  lateCutoffAt: string | null;
-  extendedBy: "student" | "cohort" | null;
-  /** Why staff extended it; null without an extension. Marking rows go to staff only. */
-  extensionReason: string | null;
-};
-
 /** One student as every marking view reads them. */
 export type StudentMarkRow = {
   membershipId: string;
@@ -85,6 +76,7 @@ export type StudentMarkRow = {
    */
   markedHandIn: DeskHandIn | null;
   mark: StoredMark | null;
+  /** The student's own deadline for the lab: their extension's, else their cohort's, else the lab's. */
   deadline: StudentDeadline;
   /** The counted hand-in on time or late, or nothing yet: "missing" only after the student's own due time. */
   status: HandInStanding;
@@ -164,7 +156,7 @@ export async function loadStudentMarkRows(
   >(sql`
     select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
       m.cohort_id as "cohortId", h.name as "cohortName",
-      json_build_object('dueAt', to_json(w.due_at)#>>'{}', 'lateCutoffAt', to_json(w.late_cutoff_at)#>>'{}', 'extendedBy', w.extended_by, 'extensionReason', w.reason) as deadline,
+      ${staffDeadlineJson("w")} as deadline,
       ${handInJson(sql`v`)} as "handIn",
       case when mk.drop_log_version_id is distinct from v.id then ${handInJson(sql`mv`)} end as "markedVersion",
       case when mk.id is null then null else json_build_object(
