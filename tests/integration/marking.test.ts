@@ -173,14 +173,19 @@ describe("the marking desk", () => {
     expect(await statementsFor(1000)).toBe(small);
   });
 
-  it("filters and sorts on the server: missing, late, unmarked, by total", async () => {
+  it("filters and sorts on the server: missing (after the due time; not due yet before it), late, unmarked, by total", async () => {
     const cohortId = await freshCohort("Filters");
     const lab = await labWithRubric("Filters", { cohortIds: [cohortId] });
     const { membershipIds, dropLogIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(10), label: "filters", late: (index) => index < 3 });
     // Two of them never handed in: their drop logs have no counted version.
     await db.update(dropLogs).set({ latestVersionId: null }).where(inArray(dropLogs.id, dropLogIds.slice(8)));
     const access = accessOf("assignedTa");
-    const desk = (filters: Partial<MarkingDeskFilters>) => loadMarkingDesk(db, { access, lab, filters: page(filters) });
+    const afterDue = new Date(lab.dueAt.getTime() + 60_000);
+    const desk = (filters: Partial<MarkingDeskFilters>, now = afterDue) => loadMarkingDesk(db, { access, lab, filters: page(filters), now });
+    // Up to and including the due instant they may still hand in on time: not missing yet.
+    const atDue = await desk({ status: "not-due" }, lab.dueAt);
+    expect(atDue.rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
+    expect(atDue.counts).toMatchObject({ missing: 0, "not-due": 2 });
     expect((await desk({ status: "late" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(0, 3).sort());
     expect((await desk({ status: "missing" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
     // "Select all that match" reaches past the page: every late student, though a page holds two.
@@ -191,7 +196,7 @@ describe("the marking desk", () => {
     // Missing hand-ins get 0 from every automatic criterion, so they sort last.
     expect(byTotal.rows.slice(-2).map((row) => row.total)).toEqual([0, 0]);
     expect((await desk({ status: "unmarked" })).totalRows).toBe(10);
-    expect((await desk({})).counts).toEqual({ all: 10, unmarked: 10, flagged: 0, late: 3, missing: 2 });
+    expect((await desk({})).counts).toEqual({ all: 10, unmarked: 10, flagged: 0, late: 3, missing: 2, "not-due": 0 });
     expect(readMarkingDeskFilters(new URL("http://x/?status=late&sort=-total&page=3&pageSize=999&cohort=nope"))).toEqual({
       cohortId: undefined,
       status: "late",
