@@ -140,6 +140,25 @@ describe("rate limits", () => {
     expect((await signIn("guess12@accounts.example", "wrong password", "198.51.100.8")).status).toBe(401);
   });
 
+  it("checks at most 10 passwords of a burst of wrong guesses sent at once", async () => {
+    await createUser("burst@accounts.example");
+    // Each guess from its own address, so that only the per-account limit is in play.
+    const responses = await Promise.all(Array.from({ length: 50 }, (_, index) => signIn("burst@accounts.example", `wrong guess ${index}`, `198.18.0.${index + 1}`)));
+    const statuses = responses.map((response) => response.status);
+    // 401 is a wrong password that was checked, 429 a guess that never was.
+    expect(statuses.filter((status) => status === 401).length).toBeLessThanOrEqual(10);
+    expect(statuses.filter((status) => status === 429).length).toBe(50 - statuses.filter((status) => status === 401).length);
+    // The window stays closed for the account afterwards, even for the right password.
+    expect((await signIn("burst@accounts.example", PASSWORD, "198.18.1.1")).status).toBe(429);
+  });
+
+  it("gives a successful sign-in its point back, so that only failures count", async () => {
+    await createUser("steady@accounts.example");
+    const ip = "198.51.100.40";
+    for (let attempt = 1; attempt <= 15; attempt++) expect((await signIn("steady@accounts.example", PASSWORD, ip)).status).toBe(302);
+    expect((await signIn("steady@accounts.example", "wrong password", ip)).status).toBe(401);
+  });
+
   it("limits e-mailed link requests per address", async () => {
     await createUser("linky@accounts.example");
     const statuses: number[] = [];

@@ -11,7 +11,7 @@ import { sendEmail } from "~/server/email/send-email.server";
 import { clientIp } from "~/server/http.server";
 import { consumeEmailLink, createEmailLink, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
 import { hashPassword, verifyAgainstDecoy, verifyPassword } from "./password.server";
-import { consume, firstLimited, forget, isLimited, type LimitCheck } from "./rate-limit.server";
+import { consume, firstLimited, refund, type LimitCheck } from "./rate-limit.server";
 import { createSession, invalidateSession, invalidateUserSessions, type Session } from "./session.server";
 
 export type NewSession = { token: string; session: Session; userId: string };
@@ -36,14 +36,14 @@ export async function signInWithPassword(
 ): Promise<({ outcome: "signed-in" } & NewSession) | { outcome: "refused" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(input.email);
   const ip = clientIp(request);
-  // Checked before the password is even looked at, so that a limited attacker learns nothing more.
-  const limit = firstLimited(await Promise.all([isLimited("sign-in-ip", ip), isLimited("sign-in-account", email)]));
+  // The attempt is counted before the password is looked at, so however many arrive at once, at most the
+  // limit's worth are checked; a limited attacker learns nothing more. A success gets its points back.
+  const limit = firstLimited(await Promise.all([consume("sign-in-ip", ip), consume("sign-in-account", email)]));
   if (limit.limited) return { outcome: "limited", ...limit };
 
   const user = await findUserByEmail(db, email);
   const valid = user?.passwordHash ? await verifyPassword(user.passwordHash, input.password) : await verifyAgainstDecoy(input.password);
   if (!user || !valid) {
-    await Promise.all([consume("sign-in-ip", ip), consume("sign-in-account", email)]);
     await recordAudit(db, {
       action: "auth.sign_in_failed",
       actorId: user?.id ?? null,
@@ -53,7 +53,7 @@ export async function signInWithPassword(
     });
     return { outcome: "refused" };
   }
-  await forget("sign-in-account", email);
+  await Promise.all([refund("sign-in-ip", ip), refund("sign-in-account", email)]);
   return { outcome: "signed-in", ...(await startSession(db, user.id, request, "password")) };
 }
 
