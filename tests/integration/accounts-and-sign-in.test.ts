@@ -5,7 +5,7 @@
 import { desc, eq, sql } from "drizzle-orm";
 import pg from "pg";
 import { beforeAll, describe, expect, it, vi } from "vitest";
-import { apiTokens, auditEvents, courseMemberships, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
+import { apiTokens, auditEvents, courseMemberships, courses, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import { SESSION_COOKIE, SESSION_LIFETIME_MS, validateSessionToken } from "~/server/auth/session.server";
 import { hashToken } from "~/server/auth/tokens.server";
@@ -194,6 +194,17 @@ describe("e-mailed links", () => {
     expect(await latestEmailTo("ghost@accounts.example")).toBeUndefined();
   });
 
+  it("sends sign-in and reset links to an account whose name has quotes and angle brackets", async () => {
+    const [user] = await db.insert(users).values({ email: "quoted@accounts.example", name: 'Ann "Nan" <Lee>', passwordHash: await hashPassword(PASSWORD) }).returning();
+    const link = await handle(appRequest("/sign-in", { form: { intent: "link", email: "quoted@accounts.example" }, ip: "203.0.113.50" }));
+    expect(link.status).toBe(200);
+    expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({ template: "sign-in-link", status: "queued", toName: 'Ann "Nan" <Lee>' });
+    const reset = await handle(appRequest("/forgot-password", { form: { email: "quoted@accounts.example" }, ip: "203.0.113.50" }));
+    expect(reset.status).toBe(200);
+    expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({ template: "password-reset", status: "queued" });
+    expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toHaveLength(2);
+  });
+
   it("resets a password once, ends every session, and a reused reset link fails", async () => {
     const user = await createUser("reset@accounts.example");
     const oldSession = await sessionCookieFor(user.id);
@@ -269,6 +280,26 @@ describe("invitations", () => {
       .where(eq(users.email, "race@accounts.example"));
     expect(rows).toEqual([{ role: "ta", assigned: fixture.cohortId }]);
     expect(await db.select().from(users).where(eq(users.email, "race@accounts.example"))).toHaveLength(1);
+  });
+
+  it("invites a person whose name has quotes, and sends an invitation whose subject would be too long", async () => {
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const quoted = await handle(
+      appRequest(`/courses/${fixture.courseId}/members`, { cookie, form: { intent: "invite", email: "nan@accounts.example", name: 'Ann "Nan" <Lee>', role: "student", cohortId: fixture.cohortId } }),
+    );
+    expect(quoted.status).toBe(200);
+    expect(await latestEmailTo("nan@accounts.example")).toMatchObject({ status: "queued", toName: 'Ann "Nan" <Lee>' });
+
+    // The longest name and course title the forms take (120 characters each).
+    await db.update(users).set({ name: `Professor ${"Long".repeat(27)}n` }).where(eq(users.id, fixture.userIds.otherInstructor));
+    await db.update(courses).set({ title: `Fluid Mechanics ${"Laboratory ".repeat(9)}One` }).where(eq(courses.id, fixture.otherCourseId));
+    const otherCookie = await sessionCookieFor(fixture.userIds.otherInstructor);
+    const long = await handle(appRequest(`/courses/${fixture.otherCourseId}/members`, { cookie: otherCookie, form: { intent: "invite", email: "long@accounts.example", name: "", role: "ta", cohortId: "" } }));
+    expect(long.status).toBe(200);
+    const email = await latestEmailTo("long@accounts.example");
+    expect(email.status).toBe("queued");
+    expect(email.subject.length).toBeLessThanOrEqual(180);
+    expect(email.subject).toMatch(/^Professor Long.*…$/);
   });
 
   it("attaches the course to an existing account of the invited address", async () => {
