@@ -224,6 +224,41 @@ describe("e-mailed links", () => {
     expect((await handle(appRequest(new URL(url).pathname, { form }))).status).toBe(410);
   });
 
+  describe("a new password ends every outstanding e-mailed link, for signing in and for resetting", () => {
+    const newPassword = "warm oil slows the sphere";
+    async function linksFor(email: string, ip: string) {
+      await handle(appRequest("/sign-in", { form: { intent: "link", email }, ip }));
+      const signInPath = new URL(String((await latestEmailTo(email)).props.url)).pathname;
+      const resetPaths: string[] = [];
+      for (let index = 0; index < 2; index++) {
+        await handle(appRequest("/forgot-password", { form: { email }, ip }));
+        resetPaths.push(new URL(String((await latestEmailTo(email)).props.url)).pathname);
+      }
+      rawTokens.push(...[signInPath, ...resetPaths].map(tokenIn));
+      return { signInPath, resetPaths };
+    }
+
+    it("when the password is changed on the account page", async () => {
+      const user = await createUser("changer@accounts.example");
+      const { signInPath, resetPaths } = await linksFor("changer@accounts.example", "203.0.113.60");
+      const cookie = await sessionCookieFor(user.id);
+      const changed = await handle(appRequest("/account", { cookie, form: { intent: "password", currentPassword: PASSWORD, newPassword, confirmPassword: newPassword } }));
+      expect(changed.status).toBe(302);
+      expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toEqual([]);
+      expect((await handle(appRequest(signInPath, { form: {} }))).status).toBe(410);
+      for (const path of resetPaths) expect((await handle(appRequest(path, { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }))).status).toBe(410);
+    });
+
+    it("when the password is reset with one of the links", async () => {
+      const user = await createUser("resetter@accounts.example");
+      const { signInPath, resetPaths } = await linksFor("resetter@accounts.example", "203.0.113.61");
+      expect((await handle(appRequest(resetPaths[1], { form: { newPassword, confirmPassword: newPassword } }))).status).toBe(302);
+      expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toEqual([]);
+      expect((await handle(appRequest(signInPath, { form: {} }))).status).toBe(410);
+      expect((await handle(appRequest(resetPaths[0], { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }))).status).toBe(410);
+    });
+  });
+
   it("refuses a common password and keeps any Unicode password whole", async () => {
     const user = await createUser("policy@accounts.example");
     const cookie = await sessionCookieFor(user.id);

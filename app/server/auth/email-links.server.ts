@@ -41,3 +41,8 @@ export async function peekEmailLink(executor: Executor, token: string, purpose: 
     .where(and(eq(emailLinks.id, hashToken(token)), eq(emailLinks.purpose, purpose)));
   return Boolean(row && row.expiresAt.getTime() > Date.now());
 }
+
+/** Ends every outstanding link of the user, whatever its purpose: a new password must not be bypassed by an older e-mail. */
+export async function deleteUserEmailLinks(executor: Executor, userId: string): Promise<void> {
+  await executor.delete(emailLinks).where(eq(emailLinks.userId, userId));
+}

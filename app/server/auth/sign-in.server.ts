@@ -1,15 +1,16 @@
 /**
  * Signing in and out, e-mailed links, password changes and resets. Every success starts a new
- * session; a password change or reset ends all the others. Answers never say whether an account exists.
+ * session; a password change or reset ends all the others and every e-mailed link. Answers never say
+ * whether an account exists.
  */
-import { and, eq } from "drizzle-orm";
-import { emailLinks, users } from "~/db/schema";
+import { eq } from "drizzle-orm";
+import { users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { appUrl } from "~/server/config.server";
 import { db, type Executor } from "~/server/db.server";
 import { sendEmail } from "~/server/email/send-email.server";
 import { clientIp } from "~/server/http.server";
-import { consumeEmailLink, createEmailLink, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
+import { consumeEmailLink, createEmailLink, deleteUserEmailLinks, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
 import { hashPassword, verifyAgainstDecoy, verifyPassword } from "./password.server";
 import { consume, firstLimited, refund, type LimitCheck } from "./rate-limit.server";
 import { createSession, invalidateSession, invalidateUserSessions, type Session } from "./session.server";
@@ -95,21 +96,26 @@ export async function signInWithEmailLink(token: string, request: Request): Prom
   });
 }
 
-/** Sets the new password, ends every session and every other reset link, and signs in afresh. */
+/** Sets the new password and ends what the old one could have opened: every session and every e-mailed link. */
+async function endCredentials(tx: Executor, userId: string, passwordHash: string): Promise<void> {
+  await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
+  await invalidateUserSessions(tx, userId);
+  await deleteUserEmailLinks(tx, userId);
+}
+
+/** Sets the new password, ends every session and every other e-mailed link, and signs in afresh. */
 export async function resetPasswordWithLink(token: string, newPassword: string, request: Request): Promise<NewSession | null> {
   const passwordHash = await hashPassword(newPassword);
   return db.transaction(async (tx) => {
     const userId = await consumeEmailLink(tx, token, "password_reset");
     if (!userId) return null;
-    await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
-    await invalidateUserSessions(tx, userId);
-    await tx.delete(emailLinks).where(and(eq(emailLinks.userId, userId), eq(emailLinks.purpose, "password_reset")));
+    await endCredentials(tx, userId, passwordHash);
     await recordAudit(tx, { action: "auth.password_reset", actorId: userId, subject: `user:${userId}`, request });
     return startSession(tx, userId, request, "password reset");
   });
 }
 
-/** A signed-in change: the current password is asked for when there is one. Ends every session, this one included. */
+/** A signed-in change: the current password is asked for when there is one. Ends every session (this one included) and e-mailed link. */
 export async function changePassword(
   userId: string,
   input: { currentPassword: string; newPassword: string },
@@ -119,8 +125,7 @@ export async function changePassword(
   if (user?.passwordHash && !(await verifyPassword(user.passwordHash, input.currentPassword))) return { outcome: "wrong-current-password" };
   const passwordHash = await hashPassword(input.newPassword);
   return db.transaction(async (tx) => {
-    await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
-    await invalidateUserSessions(tx, userId);
+    await endCredentials(tx, userId, passwordHash);
     await recordAudit(tx, { action: "auth.password_changed", actorId: userId, subject: `user:${userId}`, request });
     const { token, session } = await createSession(tx, userId, request);
     return { token, session, userId };
