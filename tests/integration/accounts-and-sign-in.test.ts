@@ -4,7 +4,7 @@
  */
 import { desc, eq, sql } from "drizzle-orm";
 import pg from "pg";
-import { beforeAll, describe, expect, it, vi } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { apiTokens, auditEvents, courseMemberships, courses, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import { SESSION_COOKIE, SESSION_LIFETIME_MS, validateSessionToken } from "~/server/auth/session.server";
@@ -188,10 +188,37 @@ describe("e-mailed links", () => {
     expect((await handle(appRequest(new URL(url).pathname, { form: {} }))).status).toBe(410);
   });
 
-  it("says the same whether or not an account exists, and sends nothing to an unknown address", async () => {
-    const response = await handle(appRequest("/forgot-password", { form: { email: "ghost@accounts.example" } }));
-    expect(response.status).toBe(200);
-    expect(await latestEmailTo("ghost@accounts.example")).toBeUndefined();
+  it("answers a reset or sign-in request for an unknown address alike, after the same statements, and queues a no-account notice", async () => {
+    await createUser("known@accounts.example");
+    /** The response, with the address taken out, and the SQL the app sent (texts only: the values differ). */
+    const ask = async (path: string, form: Record<string, string>, email: string) => {
+      const spy = vi.spyOn(pg.Client.prototype, "query");
+      try {
+        const response = await handle(appRequest(path, { form: { ...form, email }, ip: "203.0.113.70" }));
+        const statements = spy.mock.calls.map(([query]) => (typeof query === "string" ? query : (query as { text: string }).text));
+        // The page's script nonce is new on every response.
+        return { status: response.status, body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, ""), statements };
+      } finally {
+        spy.mockRestore();
+      }
+    };
+    for (const [path, form] of [["/forgot-password", {}], ["/sign-in", { intent: "link" }]] as const) {
+      const known = await ask(path, form, "known@accounts.example");
+      const unknown = await ask(path, form, "ghost@accounts.example");
+      expect(known.status).toBe(200);
+      expect(unknown.status).toBe(200);
+      expect(unknown.body).toBe(known.body);
+      expect(known.statements.length).toBeGreaterThan(5);
+      expect(unknown.statements).toEqual(known.statements);
+    }
+    const notices = await db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, "ghost@accounts.example"));
+    expect(notices.map((row) => [row.template, row.status, row.props.purpose])).toEqual(
+      expect.arrayContaining([
+        ["no-account", "queued", "password_reset"],
+        ["no-account", "queued", "sign_in"],
+      ]),
+    );
+    expect(notices).toHaveLength(2);
   });
 
   it("sends sign-in and reset links to an account whose name has quotes and angle brackets", async () => {
@@ -273,6 +300,42 @@ describe("e-mailed links", () => {
     expect(sessionTokenFrom(changed)).toBeTruthy();
     expect((await signIn("policy@accounts.example", long.slice(0, -1), "203.0.113.30")).status).toBe(401);
     expect((await signIn("policy@accounts.example", long, "203.0.113.30")).status).toBe(302);
+  });
+});
+
+describe("open sign-up", () => {
+  beforeAll(() => {
+    process.env.ALLOW_SIGN_UP = "true";
+  });
+  afterAll(() => {
+    delete process.env.ALLOW_SIGN_UP;
+  });
+
+  const signUp = async (email: string, name: string) => {
+    const response = await handle(appRequest("/sign-up", { form: { name, email }, ip: "203.0.113.80" }));
+    return { status: response.status, signedIn: sessionTokenFrom(response) !== null, body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, "") };
+  };
+
+  it("answers \"check your e-mail\" for a new address and for one that has an account, and signs nobody in", async () => {
+    const existing = await createUser("taken@accounts.example");
+    const fresh = await signUp("fresh.instructor@accounts.example", "Fresh Instructor");
+    const taken = await signUp("taken@accounts.example", "Someone Else");
+    expect(fresh).toMatchObject({ status: 200, signedIn: false });
+    expect(fresh.body).toContain("Check your e-mail");
+    expect(taken).toEqual(fresh);
+
+    // The new account has no password until its owner, signed in by the link, chooses one.
+    const [created] = await db.select().from(users).where(eq(users.email, "fresh.instructor@accounts.example"));
+    expect(created).toMatchObject({ name: "Fresh Instructor", passwordHash: null, mayCreateCourses: true });
+    const newMail = await latestEmailTo("fresh.instructor@accounts.example");
+    expect(newMail.template).toBe("sign-in-link");
+    rawTokens.push(tokenIn(String(newMail.props.url)));
+    expect((await handle(appRequest(new URL(String(newMail.props.url)).pathname, { form: {} }))).status).toBe(302);
+
+    // The existing account is sent a way in, and keeps its name, password and rights.
+    expect((await latestEmailTo("taken@accounts.example")).template).toBe("sign-in-link");
+    const [after] = await db.select().from(users).where(eq(users.id, existing.id));
+    expect(after).toMatchObject({ name: existing.name, passwordHash: existing.passwordHash, mayCreateCourses: false });
   });
 });
 
