@@ -77,6 +77,19 @@ describe("sessions", () => {
     expect(JSON.stringify(failures)).not.toContain("not the password");
   });
 
+  it("never sends a crafted redirectTo out as the Location", async () => {
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    for (const target of ["/\t/evil.example", "/\\evil.example", "/\n/evil.example"]) {
+      const signedIn = await handle(appRequest(`/sign-in?${new URLSearchParams({ redirectTo: target })}`, { cookie }));
+      expect(signedIn.status).toBe(302);
+      expect(signedIn.headers.get("location")).toBe("/");
+    }
+    await createUser("redirected@accounts.example");
+    const posted = await handle(appRequest("/sign-in", { form: { intent: "password", email: "redirected@accounts.example", password: PASSWORD, redirectTo: "/\t/evil.example" }, ip: "203.0.113.90" }));
+    expect(posted.status).toBe(302);
+    expect(posted.headers.get("location")).toBe("/");
+  });
+
   it("renews a session with fewer than 15 days left, and sends the new expiry in the cookie", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const id = hashToken(cookie.split("=")[1]);
