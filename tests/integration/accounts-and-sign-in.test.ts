@@ -2,7 +2,7 @@
  * Accounts end to end through the built app: sessions, password and e-mailed-link sign-in, resets,
  * invitations, rate limits, CSRF refusal, personal API tokens and security headers.
  */
-import { desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { apiTokens, auditEvents, courseMemberships, courses, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
@@ -492,6 +492,44 @@ describe("personal API tokens", () => {
     const after = await handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }));
     expect(after.status).toBe(401);
     expect(await after.json()).toEqual({ error: { code: "unauthenticated", message: expect.any(String) } });
+  });
+
+  it("revokes a TA's tokens when their last staff role ends, and not before", async () => {
+    const ta = await createUser("demoted.ta@accounts.example");
+    const [[here], [there]] = await Promise.all([
+      db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: ta.id, role: "ta" }).returning(),
+      db.insert(courseMemberships).values({ courseId: fixture.otherCourseId, userId: ta.id, role: "ta" }).returning(),
+    ]);
+    const created = await handle(appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "marking script" } }));
+    const token = (await created.text()).match(/bpt_[a-z2-7]+/)![0];
+    rawTokens.push(token);
+    const me = () => handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }));
+    expect((await me()).status).toBe(200);
+
+    // Made a student here, but still a TA in the other course: still staff, the token keeps working.
+    const instructor = await sessionCookieFor(fixture.userIds.instructor);
+    const demoted = await handle(appRequest(`/courses/${fixture.courseId}/members/${here.id}`, { cookie: instructor, form: { intent: "change-role", role: "student", cohortId: fixture.cohortId } }));
+    expect(demoted.status).toBe(200);
+    expect((await me()).status).toBe(200);
+
+    // Removed from the other course: no staff role is left, and neither is the token.
+    const otherInstructor = await sessionCookieFor(fixture.userIds.otherInstructor);
+    expect((await handle(appRequest(`/courses/${fixture.otherCourseId}/members/${there.id}`, { cookie: otherInstructor, form: { intent: "remove" } }))).status).toBe(302);
+    expect((await me()).status).toBe(401);
+    expect(await db.select().from(apiTokens).where(eq(apiTokens.userId, ta.id))).toEqual([]);
+    const [revocation] = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "auth.api_token_revoked"), eq(auditEvents.actorId, fixture.userIds.otherInstructor)));
+    expect(revocation.detail).toMatchObject({ name: "marking script", reason: "no longer staff", userId: ta.id });
+  });
+
+  it("revokes the tokens of a sole-course TA made a student", async () => {
+    const ta = await createUser("sole.ta@accounts.example");
+    const [membership] = await db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: ta.id, role: "ta" }).returning();
+    const created = await handle(appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "export" } }));
+    const token = (await created.text()).match(/bpt_[a-z2-7]+/)![0];
+    rawTokens.push(token);
+    const instructor = await sessionCookieFor(fixture.userIds.instructor);
+    await handle(appRequest(`/courses/${fixture.courseId}/members/${membership.id}`, { cookie: instructor, form: { intent: "change-role", role: "student", cohortId: fixture.cohortId } }));
+    expect((await handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }))).status).toBe(401);
   });
 
   it("gives students no tokens", async () => {
