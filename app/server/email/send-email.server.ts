@@ -25,7 +25,7 @@ const codePoints = (text: string) => Array.from(text);
 // Control characters (CR and LF above all) never reach a header: they become spaces.
 const oneLine = (text: string) => text.replace(/[\p{Cc}\s]+/gu, " ").trim();
 
-export function shortenSubject(subject: string): string {
+function shortenSubject(subject: string): string {
   const flat = codePoints(oneLine(subject));
   return flat.length <= SUBJECT_MAX_LENGTH ? flat.join("") : `${flat.slice(0, SUBJECT_MAX_LENGTH - 1).join("").trimEnd()}…`;
 }
