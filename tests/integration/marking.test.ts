@@ -9,6 +9,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, cohorts, courseMemberships, dropLogs, emailOutbox, labCohorts, labExtensions, labs, markChanges, marks, rubricCriteria, taCohortAssignments } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { listFailedEmails } from "~/server/email/failed-emails.server";
 import { HandInRefusedError, handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
 import { loadMarksJson } from "~/server/marking/mark-export.server";
 import { loadMarkingDesk, readMarkingDeskFilters, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
@@ -570,6 +571,28 @@ describe("release safeguards", () => {
     expect(unconfirmed).toMatchObject({ status: 409, data: { error: expect.stringContaining("may still hand in"), values: { scope: "all", zeroForNoHandIn: "on" } } });
     const confirmed = await post({ intent: "release", scope: "all", whileOpen: "on" });
     expect(confirmed).toMatchObject({ status: 200, data: { done: expect.stringMatching(/^Released \d+ marks? and queued/) } });
+  });
+
+  it("releases every mark and e-mails the rest when one student's name has quotes and another's address is unusable", async () => {
+    const cohortId = await freshCohort("Release awkward names");
+    const lab = await labWithRubric("Release awkward names", { cohortIds: [cohortId] });
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(3), label: "awkward" });
+    const [quoted, unusable, plain] = membershipIds;
+    const userOf = (membershipId: string) => sql`(select user_id from course_memberships where id = ${membershipId})`;
+    await db.execute(sql`update users set name = 'Ann "Nan" <Lee>' where id = ${userOf(quoted)}`);
+    // An address stored before addresses were checked as strictly: its message cannot be sent.
+    await db.execute(sql`update users set email = 'no-at-sign.awkward' where id = ${userOf(unusable)}`);
+    await applyToMany(db, { access: accessOf("instructor"), labId: lab.id, membershipIds, change: { kind: "score", criterionId: byTitle(lab, "Set-up described").id, level: 2 } });
+    await markLabReady(db, { access: accessOf("instructor"), lab });
+
+    expect(await releaseMarks(db, { access: accessOf("instructor"), lab, choice: releaseAll })).toMatchObject({ released: 3, emailed: 2 });
+    const rows = await db.select().from(emailOutbox).where(like(emailOutbox.dedupeKey, `marks-released:${lab.id}:%`));
+    const byMember = (membershipId: string) => rows.find((row) => row.dedupeKey === `marks-released:${lab.id}:${membershipId}`)!;
+    expect(byMember(quoted)).toMatchObject({ status: "queued", toName: 'Ann "Nan" <Lee>' });
+    expect(byMember(plain)).toMatchObject({ status: "queued" });
+    expect(byMember(unusable)).toMatchObject({ status: "failed", toAddress: "no-at-sign.awkward", lastError: expect.stringContaining("to: not a valid e-mail address") });
+    // The instructors see the message that could not go.
+    expect((await listFailedEmails(fixture.courseId)).map((email) => email.id)).toContain(byMember(unusable).id);
   });
 
   it("runs the same statements releasing 5 or 300 students", async () => {
