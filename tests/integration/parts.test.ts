@@ -23,6 +23,7 @@ import {
   setPartStatus,
   updatePart,
 } from "~/server/kits/parts.server";
+import type { CourseAccess } from "~/server/auth/access.server";
 import { appRequest, sessionCookieFor } from "../support/app-requests";
 
 let instructorId: string;
@@ -33,6 +34,10 @@ async function newCourse(code: string): Promise<string> {
   await db.insert(courseMemberships).values({ courseId: course.id, userId: instructorId, role: "instructor" });
   return course.id;
 }
+
+/** The course's instructor as the part page's reader (every kit is theirs to open). */
+const instructorOf = (courseId: string) =>
+  ({ user: { id: instructorId }, course: { id: courseId, timeZone: "UTC" }, membership: { role: "instructor" }, cohortIds: [] }) as unknown as CourseAccess;
 
 const sphere = (label: string, values: Partial<Extract<PartInput, { kind: "sphere" }>> = {}): PartInput => ({
   kind: "sphere",
@@ -126,7 +131,7 @@ describe("checks on a sphere", () => {
     const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: sphere("S-LIGHT", { massG: 0.234 }) });
     expect(messages(warnings)).toEqual([expect.stringMatching(/^Diameter and mass give 69\d\d kg\/m³, outside the usual 7650–8050 kg\/m³ for steel/)]);
     // The part's page raises the same check from the stored values.
-    expect(messages((await getPartPage(db, courseId, part.id))!.warnings)).toEqual(messages(warnings));
+    expect(messages((await getPartPage(db, instructorOf(courseId), part.id))!.warnings)).toEqual(messages(warnings));
   });
 });
 
@@ -215,7 +220,7 @@ describe("a fluid lot's page", () => {
     // Stored out of order: the page sorts the points by temperature.
     const input: PartInput = { kind: "fluid_lot", label: "W-1", fluidName: "water", densityKgM3: 998, calibration: [water[2], water[0], water[3], water[1]], notes: null };
     const { part } = await createPart(db, { courseId, actorId: instructorId, input });
-    const page = await getPartPage(db, courseId, part.id);
+    const page = await getPartPage(db, instructorOf(courseId), part.id);
     const calibration = page!.calibration!;
 
     const engineFit = fitFluidViscosity(water.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
