@@ -14,7 +14,10 @@ import { endOwnSession, listUserSessions } from "~/server/auth/session.server";
 import { redirectSignedOut, redirectWithNewSession } from "~/server/auth/session-responses.server";
 import { changePassword, hasPassword, signOutEverywhere, updateName } from "~/server/auth/sign-in.server";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 
+/** `?password=reset|changed`: where a reset or a change lands, to say it worked. */
+const accountSearch = z.object({ password: z.enum(["reset", "changed"]).optional() });
 const profileSchema = z.object({ intent: z.literal("profile"), name: z.string().trim().min(1, "Enter your name.").max(120) });
 const passwordSchema = z
   .object({ intent: z.literal("password"), currentPassword: z.string().default(""), newPassword: newPasswordField, confirmPassword: z.string() })
@@ -27,11 +30,11 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const [sessions, canHaveTokens, passwordSet] = await Promise.all([listUserSessions(user.id), mayHaveApiTokens(user), hasPassword(user.id)]);
   const tokens = canHaveTokens ? await listApiTokens(user.id) : null;
-  const notice = new URL(request.url).searchParams.get("password");
+  const { password: notice } = readSearchParams(request, accountSearch);
   return {
     user: { name: user.name, email: user.email },
     passwordSet,
-    passwordNotice: notice === "reset" || notice === "changed" ? notice : null,
+    passwordNotice: notice ?? null,
     sessions: sessions.map((session) => ({ ...session, current: session.id === user.sessionId })),
     tokens,
   };

@@ -53,6 +53,7 @@ const cases: Record<string, Case> = {
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 403": { actor: "sameCohortStudent", path: (f) => `${lab(f)}/drop-logs/${f.dropLogId}` },
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 404": { actor: "ownStudent", path: (f) => `${lab(f)}/drop-logs/${missing}` },
   "get /api/v1/labs/{labId}/class-comparison 200": { actor: "instructor", path: (f) => `${lab(f)}/class-comparison` },
+  "get /api/v1/labs/{labId}/class-comparison 400": { actor: "instructor", path: (f) => `${lab(f)}/class-comparison?label=purple` },
   "get /api/v1/labs/{labId}/class-comparison 401": { actor: "anonymous", path: (f) => `${lab(f)}/class-comparison` },
   "get /api/v1/labs/{labId}/class-comparison 403": { actor: "ownStudent", path: (f) => `${lab(f)}/class-comparison` },
   "get /api/v1/labs/{labId}/class-comparison 404": { actor: "instructor", path: () => `/api/v1/labs/${missing}/class-comparison` },

@@ -15,6 +15,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const courseId = await findLabCourseId(db, params.labId);
   if (!courseId) return apiErrorResponse(404, "not_found", "There is no such lab.");
   const { access, lab } = await requireComparisonAccess(request, courseId, params.labId);
-  const comparison = await getLabComparison(db, access, lab, readComparisonFilters(new URL(request.url)));
+  const comparison = await getLabComparison(db, access, lab, readComparisonFilters(request));
   return Response.json(comparisonJson(comparison), { headers: { "Cache-Control": "no-store" } });
 }

@@ -104,7 +104,7 @@ export const apiOperations: ApiOperation[] = [
       { name: "cohort", in: "query", required: false, description: "Only this cohort's hand-ins.", schema: z.uuid() },
       { name: "label", in: "query", required: false, description: "Only hand-ins with this label.", schema: z.enum(["consistent", "suspect", "outlier"]) },
     ],
-    responses: { 200: { description: "The comparison.", schema: classComparisonResponse }, 401: errors[401], 403: errors[403], 404: errors[404] },
+    responses: { 200: { description: "The comparison.", schema: classComparisonResponse }, 400: errors[400], 401: errors[401], 403: errors[403], 404: errors[404] },
   },
   {
     method: "get",
