@@ -182,7 +182,8 @@ export function openApiDocument(serverUrl: string) {
     info: {
       title: "Benchpost API",
       version: "1",
-      description: "Labs, drop logs and reductions of Benchpost. Every error has one shape: `{ error: { code, message, issues? } }`.",
+      description:
+        "Labs, drop logs and reductions of Benchpost. Every error has one shape: `{ error: { code, message, issues? } }`. Any call may answer 503 `database_unavailable`, with `Retry-After`, while the database cannot be reached: nothing was stored, and the same request may be sent again.",
     },
     servers: [{ url: serverUrl }],
     jsonSchemaDialect: "https://json-schema.org/draft/2020-12/schema",
