@@ -6,7 +6,7 @@ import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
+import { PASSWORD_MIN_LENGTH, newPasswordField, passwordToCheck } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireUser } from "~/server/auth/access.server";
 import { createApiToken, listApiTokens, mayHaveApiTokens, revokeApiToken } from "~/server/auth/api-tokens.server";
@@ -20,7 +20,7 @@ import { readSearchParams } from "~/server/http.server";
 const accountSearch = z.object({ password: z.enum(["reset", "changed"]).optional() });
 const profileSchema = z.object({ intent: z.literal("profile"), name: z.string().trim().min(1, "Enter your name.").max(120) });
 const passwordSchema = z
-  .object({ intent: z.literal("password"), currentPassword: z.string().default(""), newPassword: newPasswordField, confirmPassword: z.string() })
+  .object({ intent: z.literal("password"), currentPassword: passwordToCheck.default(""), newPassword: newPasswordField, confirmPassword: z.string() })
   .refine((form) => form.newPassword === form.confirmPassword, { path: ["confirmPassword"], message: "The two passwords are not the same." });
 const endSessionSchema = z.object({ intent: z.literal("end-session"), sessionId: z.string().min(1) });
 const createTokenSchema = z.object({ intent: z.literal("create-token"), tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(80) });

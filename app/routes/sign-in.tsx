@@ -5,6 +5,7 @@ import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
+import { passwordToCheck } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
 import { storableText } from "~/lib/forms/storable-text";
 import { getOptionalUser } from "~/server/auth/access.server";
@@ -17,7 +18,7 @@ const email = z.email("Enter the e-mail address your course uses, like name@exam
 const passwordSignInSchema = z.object({
   intent: z.literal("password"),
   email,
-  password: z.string().min(1, "Enter your password."),
+  password: passwordToCheck.min(1, "Enter your password."),
   redirectTo: z.string().optional(),
 });
 const linkSignInSchema = z.object({ intent: z.literal("link"), email });

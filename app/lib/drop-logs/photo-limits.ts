@@ -8,6 +8,8 @@ export const MAX_PHOTO_BYTES = 10 * 1024 * 1024;
 export const MAX_PHOTO_MEGABYTES = MAX_PHOTO_BYTES / (1024 * 1024);
 /** One upload request: a phone's share sheet sends a few at once. */
 export const MAX_PHOTOS_PER_UPLOAD = 6;
+/** The whole body of one upload: that many full-size photos and 1 MB for the multipart framing. */
+export const MAX_PHOTO_UPLOAD_BYTES = MAX_PHOTO_BYTES * MAX_PHOTOS_PER_UPLOAD + 1024 * 1024;
 /**
  * A drop log's photos, all its versions' together. A hand-in shows the set-up in a handful of photos
  * (column, sphere, thermometer, stopwatch); 20 leave room for several versions, and keep the evidence

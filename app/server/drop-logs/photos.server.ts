@@ -9,7 +9,14 @@ import { createFsFileStorage } from "@remix-run/file-storage/fs";
 import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededError, parseFormData, type FileUpload } from "@remix-run/form-data-parser";
 import { and, eq, sql } from "drizzle-orm";
 import { courseMemberships, dropLogPhotos, dropLogs, labs } from "~/db/schema";
-import { MAX_PHOTO_BYTES, MAX_PHOTO_BYTES_PER_STUDENT, MAX_PHOTO_MEGABYTES, MAX_PHOTOS_PER_DROP_LOG, MAX_PHOTOS_PER_UPLOAD } from "~/lib/drop-logs/photo-limits";
+import {
+  MAX_PHOTO_BYTES,
+  MAX_PHOTO_BYTES_PER_STUDENT,
+  MAX_PHOTO_MEGABYTES,
+  MAX_PHOTO_UPLOAD_BYTES,
+  MAX_PHOTOS_PER_DROP_LOG,
+  MAX_PHOTOS_PER_UPLOAD,
+} from "~/lib/drop-logs/photo-limits";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { consume } from "~/server/auth/rate-limit.server";
 import type { Database, Executor } from "~/server/db.server";
@@ -126,7 +133,7 @@ async function receivePhotos(request: Request, keyPrefix: string): Promise<Store
   if (!type.startsWith("multipart/form-data")) throw new PhotoUploadError(400, "Send the photos as a multipart/form-data upload.");
   const declared = Number(request.headers.get("content-length") ?? 0);
   // Refused before a byte is read when the body says it is bigger than the most we would take.
-  if (declared > MAX_PHOTO_BYTES * MAX_PHOTOS_PER_UPLOAD + 1024 * 1024) throw new PhotoUploadError(413, `That upload is too large: at most ${MAX_PHOTO_MEGABYTES} MB per photo.`);
+  if (declared > MAX_PHOTO_UPLOAD_BYTES) throw new PhotoUploadError(413, `That upload is too large: at most ${MAX_PHOTO_MEGABYTES} MB per photo.`);
 
   const stored: StoredPhoto[] = [];
   const refused: PhotoUploadError[] = [];
@@ -144,7 +151,8 @@ async function receivePhotos(request: Request, keyPrefix: string): Promise<Store
     return null;
   };
   try {
-    await parseFormData(request, { maxFileSize: MAX_PHOTO_BYTES, maxFiles: MAX_PHOTOS_PER_UPLOAD }, handle);
+    // The total too, for a body sent without its length (chunked).
+    await parseFormData(request, { maxFileSize: MAX_PHOTO_BYTES, maxFiles: MAX_PHOTOS_PER_UPLOAD, maxTotalSize: MAX_PHOTO_UPLOAD_BYTES }, handle);
   } catch (error) {
     await removeStored(stored);
     if (error instanceof MaxFileSizeExceededError || error instanceof MaxTotalSizeExceededError) {
