@@ -183,7 +183,7 @@ export function openApiDocument(serverUrl: string) {
       title: "Benchpost API",
       version: "1",
       description:
-        "Labs, drop logs and reductions of Benchpost. Every error has one shape: `{ error: { code, message, issues? } }`. Any call may answer 503 `database_unavailable`, with `Retry-After`, while the database cannot be reached: nothing was stored, and the same request may be sent again.",
+        "Labs, drop logs and reductions of Benchpost. Every error has one shape: `{ error: { code, message, issues? } }`. Any call may answer 503 `database_unavailable`, with `Retry-After`, while the database cannot be reached: nothing was stored, and the same request may be sent again. An address not listed here answers 404 `not_found`; a method an address does not take, 405 `method_not_allowed` with `Allow`.",
     },
     servers: [{ url: serverUrl }],
     jsonSchemaDialect: "https://json-schema.org/draft/2020-12/schema",
