@@ -71,5 +71,5 @@ export const databaseOutageGuard: MiddlewareFunction<Response> = async ({ reques
     return outage;
   }
   // Pages render the root error page with this status (the entry adds Retry-After); downloads answer it as text.
-  throw data("Benchpost cannot reach its database just now; nothing was stored. Try again shortly.", { status: 503, headers: retryAfter });
+  throw data("Benchpost cannot reach its database just now; nothing was stored. Try again shortly.", { status: 503, statusText: "Service Unavailable", headers: retryAfter });
 };
