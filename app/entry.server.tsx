@@ -1,6 +1,7 @@
 /**
  * React Router's Node entry, with a fresh CSP nonce per response for the router's inline scripts and
- * Benchpost's security headers on every HTML page.
+ * Benchpost's security headers on every HTML page, and the error log (a database outage is noted for
+ * the 503 and logged in one line).
  */
 import { PassThrough } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
@@ -8,8 +9,9 @@ import { encodeBase64 } from "@oslojs/encoding";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import { type EntryContext, ServerRouter } from "react-router";
+import { type EntryContext, type HandleErrorFunction, ServerRouter, isRouteErrorResponse } from "react-router";
 import { NonceContext } from "~/components/nonce";
+import { DATABASE_RETRY_AFTER_SECONDS, noteDatabaseOutage } from "~/server/database-outage.server";
 import { setDocumentSecurityHeaders } from "~/server/security-headers.server";
 
 export const streamTimeout = 5_000;
@@ -23,6 +25,8 @@ function createNonce(): string {
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   const nonce = createNonce();
   setDocumentSecurityHeaders(responseHeaders, nonce);
+  // The 503 page is a database outage's (see database-outage.server.ts): tell clients when to come back.
+  if (responseStatusCode === 503) responseHeaders.set("Retry-After", String(DATABASE_RETRY_AFTER_SECONDS));
 
   // https://httpwg.org/specs/rfc9110.html#HEAD
   if (request.method.toUpperCase() === "HEAD") {
@@ -68,3 +72,11 @@ export default function handleRequest(request: Request, responseStatusCode: numb
     );
   });
 }
+
+/** React Router's default logging, except that an unreachable database is one line, not a stack per request. */
+export const handleError: HandleErrorFunction = (error, { request, context }) => {
+  if (noteDatabaseOutage(error, { request, context })) return;
+  // A thrown 4xx/5xx response carries the original error, when there was one, on its private `error`.
+  const cause = isRouteErrorResponse(error) ? (error as { error?: unknown }).error : undefined;
+  if (!request.signal.aborted) console.error(cause ?? error);
+};

@@ -4,11 +4,15 @@ import type { Route } from "./+types/root";
 import { AppShell } from "~/components/app-shell";
 import { useNonce } from "~/components/nonce";
 import { requestGuard } from "~/server/auth/request-guard.server";
+import { bodyLimitGuard } from "~/server/body-limits.server";
+import { databaseOutageGuard } from "~/server/database-outage.server";
 import { getShellViewer } from "~/server/shell.server";
 import "./app.css";
 
-// Runs before every loader and action, resource routes included: CSRF check and session cookie upkeep.
-export const middleware: Route.MiddlewareFunction[] = [requestGuard];
+// Runs around every loader and action, resource routes included: the 503 when the database is
+// unreachable (outermost, so it also covers the session check), the 413 for an oversized body, then
+// the CSRF check and session cookie upkeep.
+export const middleware: Route.MiddlewareFunction[] = [databaseOutageGuard, bodyLimitGuard, requestGuard];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
@@ -55,7 +59,12 @@ const explanations: Record<number, { title: string; advice: string }> = {
     advice: "You are signed in with an account that has no role here. Sign in with another account, or ask the course's instructor to add you.",
   },
   404: { title: "There is nothing at this address", advice: "The link may be old or mistyped. Start again from the overview." },
+  413: { title: "That was too much to send at once", advice: "Nothing was stored. Send less in one go, for example a smaller file split in two." },
   429: { title: "Too many attempts", advice: "Wait a little, then try again." },
+  503: {
+    title: "Benchpost cannot reach its database just now",
+    advice: "Nothing from this request was stored, and nothing you handed in before is lost. Wait a minute, then try again.",
+  },
   500: { title: "Something went wrong on our side", advice: "Nothing you handed in is lost. Try again in a moment; if it keeps happening, tell your instructor." },
 };
 

@@ -63,5 +63,7 @@ export default [
   route("api/v1/openapi.json", "routes/api/v1.openapi[.]json.ts"),
   route("dev/inbox", "routes/dev.inbox.tsx"),
   route("api/dev/emails", "routes/api/dev.emails.ts"),
+  // Before the site's catch-all: an unknown API address answers JSON, not the 404 page.
+  route("api/*", "routes/api/not-found.ts"),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

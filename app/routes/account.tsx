@@ -6,7 +6,7 @@ import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
+import { PASSWORD_MIN_LENGTH, newPasswordField, passwordToCheck } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireUser } from "~/server/auth/access.server";
 import { createApiToken, listApiTokens, mayHaveApiTokens, revokeApiToken } from "~/server/auth/api-tokens.server";
@@ -14,10 +14,13 @@ import { endOwnSession, listUserSessions } from "~/server/auth/session.server";
 import { redirectSignedOut, redirectWithNewSession } from "~/server/auth/session-responses.server";
 import { changePassword, hasPassword, signOutEverywhere, updateName } from "~/server/auth/sign-in.server";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 
+/** `?password=reset|changed`: where a reset or a change lands, to say it worked. */
+const accountSearch = z.object({ password: z.enum(["reset", "changed"]).optional() });
 const profileSchema = z.object({ intent: z.literal("profile"), name: z.string().trim().min(1, "Enter your name.").max(120) });
 const passwordSchema = z
-  .object({ intent: z.literal("password"), currentPassword: z.string().default(""), newPassword: newPasswordField, confirmPassword: z.string() })
+  .object({ intent: z.literal("password"), currentPassword: passwordToCheck.default(""), newPassword: newPasswordField, confirmPassword: z.string() })
   .refine((form) => form.newPassword === form.confirmPassword, { path: ["confirmPassword"], message: "The two passwords are not the same." });
 const endSessionSchema = z.object({ intent: z.literal("end-session"), sessionId: z.string().min(1) });
 const createTokenSchema = z.object({ intent: z.literal("create-token"), tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(80) });
@@ -27,11 +30,11 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const [sessions, canHaveTokens, passwordSet] = await Promise.all([listUserSessions(user.id), mayHaveApiTokens(user), hasPassword(user.id)]);
   const tokens = canHaveTokens ? await listApiTokens(user.id) : null;
-  const notice = new URL(request.url).searchParams.get("password");
+  const { password: notice } = readSearchParams(request, accountSearch);
   return {
     user: { name: user.name, email: user.email },
     passwordSet,
-    passwordNotice: notice === "reset" || notice === "changed" ? notice : null,
+    passwordNotice: notice ?? null,
     sessions: sessions.map((session) => ({ ...session, current: session.id === user.sessionId })),
     tokens,
   };

@@ -2,14 +2,16 @@ import type { ColumnDef } from "@tanstack/react-table";
 import { data, Form, Link, useFetcher, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits._index";
-import { DataTable, readPaging } from "~/components/ui/data-table";
+import { DataTable } from "~/components/ui/data-table";
 import { Button, ButtonLink } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { KitStateBadge } from "~/components/kit-state-badge";
+import { pagingSearch, searchText } from "~/lib/forms/search-params";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
 import { kitCohortScope, requireCourseRole, staffRoles } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 import { KitRuleError, listKits, moveKits } from "~/server/kits/kits.server";
 
 /** Moves that need nothing more than a note can be applied to many kits at once. */
@@ -22,14 +24,14 @@ const bulkMove = z.object({
   note: z.string().trim().max(500).optional(),
 });
 
+const kitListSearch = z.object({ state: z.enum(kitStates).optional(), q: searchText(80), ...pagingSearch() });
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, staffRoles);
-  const url = new URL(request.url);
-  const state = z.enum(kitStates).safeParse(url.searchParams.get("state"));
-  const search = url.searchParams.get("q")?.trim() || undefined;
-  const paging = readPaging(url);
+  const { state, q, page, size } = readSearchParams(request, kitListSearch);
+  const paging = { page, pageSize: size };
   // A TA sees the kits held by students of their cohorts, and reads them only.
-  const { rows, total } = await listKits(db, access.course.id, { state: state.success ? state.data : undefined, search, cohortIds: kitCohortScope(access), ...paging });
+  const { rows, total } = await listKits(db, access.course.id, { state, search: q || undefined, cohortIds: kitCohortScope(access), ...paging });
   return { kits: rows, pageInfo: { ...paging, total }, canChange: access.membership.role === "instructor", courseId: access.course.id };
 }
 

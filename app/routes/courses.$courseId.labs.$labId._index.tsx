@@ -11,6 +11,7 @@ import { PageHeader } from "~/components/ui/page-header";
 import { dropLogInputFromForm, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
+import { MAX_PHOTO_MEGABYTES, MAX_PHOTOS_PER_DROP_LOG } from "~/lib/drop-logs/photo-limits";
 import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
 import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
@@ -203,7 +204,8 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
         <Notice tone="warning">You need your kit for this lab. Once it is packed for you, its sphere, fluid and column appear here.</Notice>
       )}
 
-      <PhotoUpload courseId={courseId} labId={lab.id} draftPhotos={draftPhotos} />
+      {/* Photos go with the next hand-in, so they are taken only while one still is. */}
+      {timing !== "closed" && afterRelease !== "refuse" ? <PhotoUpload courseId={courseId} labId={lab.id} draftPhotos={draftPhotos} /> : null}
 
       <section aria-labelledby="versions-heading">
         <h2 id="versions-heading" className="mb-2 text-lg font-semibold">
@@ -223,7 +225,9 @@ function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId
       <h2 id="photos-heading" className="text-lg font-semibold">
         Photos of your set-up
       </h2>
-      <p className="text-sm text-ink-700">JPEG, PNG or WebP, up to 10 MB each. They go with your next hand-in.</p>
+      <p className="text-sm text-ink-700">
+        JPEG, PNG or WebP, up to {MAX_PHOTO_MEGABYTES} MB each and {MAX_PHOTOS_PER_DROP_LOG} per drop log. They go with your next hand-in.
+      </p>
       <fetcher.Form method="post" encType="multipart/form-data" action={`/courses/${courseId}/labs/${labId}/photos`} className="mt-2 flex flex-wrap items-center gap-3">
         <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" multiple aria-label="Photos to upload"
           className="text-sm file:mr-3 file:cursor-pointer file:rounded-md file:border-0 file:bg-white file:px-4 file:py-2 file:text-sm file:font-medium file:ring-1 file:ring-ink-900/20"

@@ -19,7 +19,7 @@ import { db } from "~/server/db.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { access, lab } = await requireComparisonAccess(request, params.courseId, params.labId);
-  const filters = readComparisonFilters(new URL(request.url));
+  const filters = readComparisonFilters(request);
   const comparison = await getLabComparison(db, access, lab, filters);
   return { ...comparisonJson(comparison), filters, courseId: access.course.id, mayEdit: access.membership.role === "instructor" };
 }

@@ -12,17 +12,22 @@ import { MarkingDesk } from "~/components/marking/marking-desk";
 import { ButtonLink } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { deskStatusFilters, MAX_BULK_STUDENTS, readMarkingDeskFilters, type DeskStatusFilter } from "~/lib/marking/desk-filters";
+import { deskStatusFilters, markingDeskSearch, MAX_BULK_STUDENTS, type DeskStatusFilter } from "~/lib/marking/desk-filters";
 import { markChange, MarkValueError } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
-import { MarkingRefusedError, requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { MarkingRefusedError, refusalResponse, requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { applyToMany, saveMark } from "~/server/marking/marks.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
   const url = new URL(request.url);
-  const desk = await loadMarkingDesk(db, { access, lab, filters: readMarkingDeskFilters(url) });
+  const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch((error) => {
+    // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
+    if (error instanceof MarkingRefusedError) throw refusalResponse(request, error);
+    throw error;
+  });
   return {
     courseId: access.course.id,
     timeZone: access.course.timeZone,

@@ -9,14 +9,15 @@ import { fieldErrors, formFailure } from "~/lib/forms/parse-form";
 import { experimentKinds, labInputFor, labInputFromForm, newLabFormValues, submittedLabFormValues } from "~/lib/labs/lab-input";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 import { LabRuleError, createLab, getLabFormOptions } from "~/server/labs/labs.server";
 
-const chosenKind = z.enum(experimentKinds).catch("drag");
+const newLabSearch = z.object({ kind: z.enum(experimentKinds).default("drag") });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
   const options = await getLabFormOptions(db, access.course.id);
-  const kind = chosenKind.parse(new URL(request.url).searchParams.get("kind"));
+  const { kind } = readSearchParams(request, newLabSearch);
   return { courseId: access.course.id, timeZone: access.course.timeZone, ...options, values: newLabFormValues(kind, options.cohorts.map((cohort) => cohort.id)) };
 }
 

@@ -2,31 +2,32 @@ import type { ColumnDef } from "@tanstack/react-table";
 import { Form, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.parts._index";
-import { DataTable, readPaging } from "~/components/ui/data-table";
+import { DataTable } from "~/components/ui/data-table";
 import { SelectField, TextField } from "~/components/ui/field";
 import { Button, ButtonLink } from "~/components/ui/button";
 import { PageHeader } from "~/components/ui/page-header";
 import { StatusBadge } from "~/components/kits/status-badge";
 import { PartBiasBadge } from "~/components/comparison/part-bias";
+import { pagingSearch, searchText } from "~/lib/forms/search-params";
 import { measurementSummary, partStatusLabels } from "~/lib/kits/part-display";
 import { partKindLabels, type PartKind } from "~/lib/kits/part-input";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 import { listPartBias } from "~/server/comparison/part-quality.server";
 import { listParts } from "~/server/kits/parts.server";
 
-/** Filters from the URL; an unknown value is ignored rather than refused, so an old bookmark still opens. */
-const listFilters = z.object({
-  kind: z.enum(["sphere", "fluid_lot", "column", "accessory"]).optional().catch(undefined),
-  status: z.enum(["in_service", "remeasure", "retired"]).optional().catch(undefined),
-  search: z.string().trim().max(40).optional().catch(undefined),
+const partListSearch = z.object({
+  kind: z.enum(["sphere", "fluid_lot", "column", "accessory"]).optional(),
+  status: z.enum(["in_service", "remeasure", "retired"]).optional(),
+  search: searchText(40),
+  ...pagingSearch(),
 });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
-  const url = new URL(request.url);
-  const filters = listFilters.parse(Object.fromEntries(url.searchParams));
-  const paging = readPaging(url);
+  const { page, size, ...filters } = readSearchParams(request, partListSearch);
+  const paging = { page, pageSize: size };
   const [{ rows, total }, bias] = await Promise.all([
     listParts(db, access.course.id, { ...filters, search: filters.search || undefined, ...paging }),
     listPartBias(db, access.course.id),

@@ -10,17 +10,19 @@ import { calibrationRows, partFormCandidate } from "~/lib/kits/part-form";
 import { partInput, partKindLabels } from "~/lib/kits/part-input";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 import { createPart, DuplicateLabelError } from "~/server/kits/parts.server";
 
 const chosenKind = z.enum(["sphere", "fluid_lot", "column", "accessory"]);
+const newPartSearch = z.object({ kind: chosenKind.optional() });
 
 /** Empty rows offered for calibration points on a new fluid lot, so the form works without JavaScript. */
 const blankCalibrationRows = 4;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
-  const kind = chosenKind.safeParse(new URL(request.url).searchParams.get("kind"));
-  return { courseId: access.course.id, kind: kind.success ? kind.data : null };
+  const { kind } = readSearchParams(request, newPartSearch);
+  return { courseId: access.course.id, kind: kind ?? null };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {

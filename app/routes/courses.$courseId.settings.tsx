@@ -7,7 +7,7 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { cohortName, courseInput } from "~/lib/courses/course-input";
-import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
+import { fieldErrors, formFailure, formValues, type FieldErrorMap } from "~/lib/forms/parse-form";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { CourseRuleError, addCohort, getCourseWithCohorts, renameCohort, setTaCohorts, updateCourse } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
@@ -44,7 +44,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
     return { intent: input.intent, saved: true as const };
   } catch (error) {
-    if (error instanceof CourseRuleError) return formFailure(values, { form: [error.message] }, { intent: values.intent });
+    if (error instanceof CourseRuleError) return data({ intent: values.intent, errors: { form: [error.message] } as FieldErrorMap, values }, { status: error.status });
     throw error;
   }
 }

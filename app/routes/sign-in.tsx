@@ -5,24 +5,28 @@ import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
+import { passwordToCheck } from "~/lib/auth/password-policy";
 import { parseForm } from "~/lib/forms/parse-form";
+import { storableText } from "~/lib/forms/storable-text";
 import { getOptionalUser } from "~/server/auth/access.server";
 import { describeWait, redirectWithNewSession, retryAfterHeaders } from "~/server/auth/session-responses.server";
 import { requestEmailLink, signInWithPassword } from "~/server/auth/sign-in.server";
 import { allowSignUp } from "~/server/config.server";
-import { safeRedirectPath } from "~/server/http.server";
+import { readSearchParams, safeRedirectPath } from "~/server/http.server";
 
 const email = z.email("Enter the e-mail address your course uses, like name@example.org.").max(254);
 const passwordSignInSchema = z.object({
   intent: z.literal("password"),
   email,
-  password: z.string().min(1, "Enter your password."),
+  password: passwordToCheck.min(1, "Enter your password."),
   redirectTo: z.string().optional(),
 });
 const linkSignInSchema = z.object({ intent: z.literal("link"), email });
+/** `?redirectTo=/courses/…`: where to go once signed in (any other site falls back to the overview). */
+const signInSearch = z.object({ redirectTo: storableText.max(2000).optional() });
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const redirectTo = safeRedirectPath(new URL(request.url).searchParams.get("redirectTo"));
+  const redirectTo = safeRedirectPath(readSearchParams(request, signInSearch).redirectTo);
   if (await getOptionalUser(request)) throw redirect(redirectTo);
   return { redirectTo, allowSignUp: allowSignUp() };
 }

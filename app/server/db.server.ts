@@ -11,6 +11,12 @@ export type Database = NodePgDatabase<typeof schema>;
 export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
 export type Executor = Database | Transaction;
 
+/** A unique constraint refused the write (SQLSTATE 23505), on the driver's error or Drizzle's wrapping of it. */
+export function isUniqueViolation(error: unknown): boolean {
+  const cause = (error as { cause?: { code?: string } })?.cause ?? error;
+  return (cause as { code?: string })?.code === "23505";
+}
+
 export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
   const pool = new pg.Pool({ connectionString, max: Number(process.env.DATABASE_POOL_SIZE ?? 10) });
   // An idle connection dropped by a database restart must not take the process down; the pool reconnects.

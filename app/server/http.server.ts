@@ -3,6 +3,9 @@
  * whether it was sent by our own pages.
  */
 import { isIP } from "node:net";
+import { data } from "react-router";
+import type { z } from "zod";
+import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
 import { appUrl, isProduction } from "~/server/config.server";
 
 /**
@@ -51,4 +54,18 @@ export function isSameOriginRequest(request: Request): boolean {
 export function safeRedirectPath(target: FormDataEntryValue | string | null | undefined, fallback = "/"): string {
   if (typeof target !== "string" || !target.startsWith("/") || target.startsWith("//") || /[\p{Cc}\\]/u.test(target)) return fallback;
   return target;
+}
+
+/**
+ * A page's search parameters, checked against its one schema. An empty value (a blank field of a GET
+ * form) counts as not given. A URL the schema refuses is answered 400: the error page for pages, the
+ * API's error shape, with the parameters at fault, under /api/.
+ */
+export function readSearchParams<Schema extends z.ZodType>(request: Request, schema: Schema): z.output<Schema> {
+  const given = [...new URL(request.url).searchParams].filter(([, value]) => value !== "");
+  const parsed = schema.safeParse(Object.fromEntries(given));
+  if (parsed.success) return parsed.data;
+  const issues = parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "number" ? key : String(key))), message: issue.message }));
+  if (isApiRequest(request)) throw apiErrorResponse(400, "invalid_query", "The query string has a value this address does not take; `issues` names it.", issues);
+  throw data(`Search parameters refused: ${issues.map((issue) => issue.path.join(".")).join(", ")}`, { status: 400 });
 }

@@ -53,6 +53,7 @@ const cases: Record<string, Case> = {
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 403": { actor: "sameCohortStudent", path: (f) => `${lab(f)}/drop-logs/${f.dropLogId}` },
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 404": { actor: "ownStudent", path: (f) => `${lab(f)}/drop-logs/${missing}` },
   "get /api/v1/labs/{labId}/class-comparison 200": { actor: "instructor", path: (f) => `${lab(f)}/class-comparison` },
+  "get /api/v1/labs/{labId}/class-comparison 400": { actor: "instructor", path: (f) => `${lab(f)}/class-comparison?label=purple` },
   "get /api/v1/labs/{labId}/class-comparison 401": { actor: "anonymous", path: (f) => `${lab(f)}/class-comparison` },
   "get /api/v1/labs/{labId}/class-comparison 403": { actor: "ownStudent", path: (f) => `${lab(f)}/class-comparison` },
   "get /api/v1/labs/{labId}/class-comparison 404": { actor: "instructor", path: () => `/api/v1/labs/${missing}/class-comparison` },
@@ -165,5 +166,43 @@ describe("every documented answer", () => {
     const detail = (await response.json()) as { versions: { version: number }[] };
     // The fixture's own hand-in, then the 201 case; the 200 case added nothing.
     expect(detail.versions.map((version) => version.version)).toEqual([2, 1]);
+  });
+});
+
+describe("addresses and methods outside the catalogue", () => {
+  const errorShape = () => ajv.getSchema("openapi.json#/components/schemas/Error")!;
+  const request = (method: string, path: string) =>
+    handle(new Request(new URL(path, appOrigin()), { method, headers: { Origin: appOrigin(), "Content-Type": "application/json" }, body: method === "GET" ? undefined : "{}" }));
+
+  it.each(["GET", "POST", "DELETE"])("answers an unknown address (%s) with 404 in the error shape", async (method) => {
+    for (const path of ["/api/v1/no-such-thing", `/api/v1/labs/${missing}/drop-logs/${missing}/extra`, "/api/v2/me"]) {
+      const response = await request(method, path);
+      expect(response.status, `${method} ${path}`).toBe(404);
+      expect(response.headers.get("content-type")).toMatch(/^application\/json/);
+      const body = await response.json();
+      expect(errorShape()(body), JSON.stringify(body)).toBe(true);
+      expect(body.error.code).toBe("not_found");
+    }
+  });
+
+  it("answers every method a catalogued address does not take with 405, Allow and the error shape", async () => {
+    const byPath = new Map<string, Set<string>>();
+    for (const operation of apiOperations) {
+      const methods = byPath.get(operation.path) ?? new Set<string>();
+      methods.add(operation.method.toUpperCase());
+      if (operation.method === "get") methods.add("HEAD");
+      byPath.set(operation.path, methods);
+    }
+    for (const [path, allowed] of byPath) {
+      const concrete = path.replace("{labId}", fixture.labId).replace("{courseId}", fixture.courseId).replace("{dropLogId}", fixture.dropLogId);
+      for (const method of ["GET", "POST", "PUT", "PATCH", "DELETE"].filter((candidate) => !allowed.has(candidate))) {
+        const response = await request(method, concrete);
+        expect(response.status, `${method} ${path}`).toBe(405);
+        expect(new Set(response.headers.get("allow")?.split(/,\s*/)), `Allow of ${method} ${path}`).toEqual(allowed);
+        const body = await response.json();
+        expect(errorShape()(body), JSON.stringify(body)).toBe(true);
+        expect(body.error.code).toBe("method_not_allowed");
+      }
+    }
   });
 });

@@ -125,20 +125,31 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
+  // A method an API address does not take is 405 for everyone: it says nothing about the data.
   row("GET", "/api/v1/me", { ...everyone(200), anonymous: 401 }),
+  row("POST", "/api/v1/me", everyone(405)),
   // The probe is a form, not JSON: 400 for anyone signed in.
   row("POST", "/api/v1/reduce", { ...everyone(400), anonymous: 401 }),
+  row("GET", "/api/v1/reduce", everyone(405)),
   row("GET", "/api/v1/labs/:labId/class-comparison", { ...cohortStaff(200), anonymous: 401 }),
+  row("POST", "/api/v1/labs/:labId/class-comparison", everyone(405)),
   row("GET", "/api/v1/labs/:labId/marks", { ...cohortStaff(200), anonymous: 401 }),
+  row("POST", "/api/v1/labs/:labId/marks", everyone(405)),
   row("GET", "/api/v1/courses/:courseId/labs", { ...anyMember(200), anonymous: 401 }),
+  row("POST", "/api/v1/courses/:courseId/labs", everyone(405)),
   // The students of the lab's cohort (their own drop log, possibly none), its instructors and cohort TAs.
   row("GET", "/api/v1/labs/:labId/drop-logs", { ...cohortStaff(200), ownStudent: 200, sameCohortStudent: 200, anonymous: 401 }),
   // The probe has no Idempotency-Key: 400 for the students who may hand in; staff never hand in (403).
   row("POST", "/api/v1/labs/:labId/drop-logs", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400, anonymous: 401 }),
   row("GET", "/api/v1/labs/:labId/drop-logs/:dropLogId", { ...ownWork(200), anonymous: 401 }),
+  row("POST", "/api/v1/labs/:labId/drop-logs/:dropLogId", everyone(405)),
   row("GET", "/api/v1/openapi.json", everyone(200)),
+  row("POST", "/api/v1/openapi.json", everyone(405)),
   row("GET", "/dev/inbox", devInbox(200)),
   row("GET", "/api/dev/emails", devInbox(200), { query: "?to=someone@matrix.example" }),
+  // Unknown API addresses: the API's 404, whoever asks.
+  row("GET", "/api/*", everyone(404)),
+  row("POST", "/api/*", everyone(404)),
   row("GET", "/*", everyone(404)),
 ];
 

@@ -155,10 +155,3 @@ export function Pager({ pageInfo }: { pageInfo: PageInfo }) {
     </nav>
   );
 }
-
-/** Reads page and page size from the URL, clamped to sensible bounds. */
-export function readPaging(url: URL, defaultSize = 25): { page: number; pageSize: number } {
-  const page = Math.max(1, Math.floor(Number(url.searchParams.get("page")) || 1));
-  const pageSize = Math.min(200, Math.max(5, Math.floor(Number(url.searchParams.get("size")) || defaultSize)));
-  return { page, pageSize };
-}

@@ -26,6 +26,14 @@ const commonPasswords = new Set([
   "student1", "student123", "teacher1", "letmein123", "benchpost", "benchpost1",
 ]);
 
+/**
+ * A password to check against a stored hash (signing in, confirming a change): no new password may be
+ * longer, so a longer one cannot match, and refusing it spares hashing a megabyte per attempt.
+ */
+export const passwordToCheck = z
+  .string()
+  .refine((password) => [...password].length <= PASSWORD_MAX_LENGTH, `A password has at most ${PASSWORD_MAX_LENGTH} characters; check what was pasted.`);
+
 export type PasswordProblem = "too-short" | "too-long" | "too-common";
 
 /** Why a new password is refused, or null. Length counts characters (code points), not bytes. */

@@ -4,6 +4,7 @@
  * Units at this edge are the bench's: mm, g, °C and seconds.
  */
 import { z } from "zod";
+import { storableText } from "~/lib/forms/storable-text";
 
 /** Drop times outside this range are typing slips, not measurements (a 20 cm fall in syrup takes seconds). */
 export const SHORTEST_DROP_S = 0.05;
@@ -83,7 +84,7 @@ export const dropLogInput = z.object({
     .array(dropTime, { error: "Enter your drop times." })
     .min(1, "Enter at least one drop time.")
     .max(MAX_DROPS, `At most ${MAX_DROPS} drops fit in one drop log.`),
-  notes: z.preprocess((value) => (value === "" ? undefined : value), z.string().trim().max(4000, "Keep the notes under 4000 characters.").optional()),
+  notes: z.preprocess((value) => (value === "" ? undefined : value), storableText.trim().max(4000, "Keep the notes under 4000 characters.").optional()),
 });
 export type DropLogInput = z.output<typeof dropLogInput>;
 
@@ -95,16 +96,16 @@ export type DropLogField = "sphereId" | "fluidLotId" | "columnId" | "ownDiameter
  * "4." survives a reload. Checked only for shape and size, never for sense.
  */
 export const dropLogDraft = z.object({
-  sphereId: z.string().max(64).optional(),
-  fluidLotId: z.string().max(64).optional(),
-  columnId: z.string().max(64).optional(),
+  sphereId: storableText.max(64).optional(),
+  fluidLotId: storableText.max(64).optional(),
+  columnId: storableText.max(64).optional(),
   useOwnMeasurements: z.boolean().optional(),
-  ownDiameterMm: z.string().max(40).optional(),
-  ownMassG: z.string().max(40).optional(),
-  temperatureC: z.string().max(40).optional(),
-  timedDistanceMm: z.string().max(40).optional(),
-  drops: z.array(z.string().max(40)).max(MAX_DROPS).optional(),
-  notes: z.string().max(4000).optional(),
+  ownDiameterMm: storableText.max(40).optional(),
+  ownMassG: storableText.max(40).optional(),
+  temperatureC: storableText.max(40).optional(),
+  timedDistanceMm: storableText.max(40).optional(),
+  drops: z.array(storableText.max(40)).max(MAX_DROPS).optional(),
+  notes: storableText.max(4000).optional(),
 });
 export type DropLogDraft = z.output<typeof dropLogDraft>;
 

@@ -3,6 +3,7 @@
  * action. Pure, so the desk's page (in the browser) and its loader read the same definitions.
  */
 import { z } from "zod";
+import { pageNumber } from "~/lib/forms/search-params";
 
 export const deskStatusFilters = ["unmarked", "flagged", "late", "missing", "not-due"] as const;
 export type DeskStatusFilter = (typeof deskStatusFilters)[number];
@@ -28,29 +29,32 @@ export const MAX_DESK_PAGE_SIZE = 200;
 export const MAX_BULK_STUDENTS = 5000;
 
 /**
- * The desk's filters from the URL (`?cohort=…&status=late&sort=-total&page=2&pageSize=50`); an
- * unknown value falls back to the default rather than failing, so an old link still opens.
+ * The desk's filters from the URL (`?cohort=…&status=late&sort=-total&page=2&pageSize=50`), as
+ * `MarkingDeskFilters`; `sort=-total` sorts by total, highest first. A value it does not know is
+ * refused (the loader answers 400), never guessed at.
  */
-export const markingDeskSearch = z.object({
-  cohort: z.uuid().optional().catch(undefined),
-  status: z.enum(deskStatusFilters).optional().catch(undefined),
-  sort: z
-    .string()
-    .regex(new RegExp(`^-?(${deskSortKeys.join("|")})$`))
-    .optional()
-    .catch(undefined),
-  page: z.coerce.number().int().min(1).catch(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(MAX_DESK_PAGE_SIZE).catch(DEFAULT_DESK_PAGE_SIZE).default(DEFAULT_DESK_PAGE_SIZE),
-});
+export const markingDeskSearch = z
+  .object({
+    cohort: z.uuid().optional(),
+    status: z.enum(deskStatusFilters).optional(),
+    sort: z
+      .string()
+      .regex(new RegExp(`^-?(${deskSortKeys.join("|")})$`))
+      .optional(),
+    page: pageNumber.default(1),
+    pageSize: z.coerce.number().int().min(1).max(MAX_DESK_PAGE_SIZE).default(DEFAULT_DESK_PAGE_SIZE),
+  })
+  .transform(
+    (parsed): MarkingDeskFilters => ({
+      cohortId: parsed.cohort,
+      status: parsed.status,
+      sort: parsed.sort ? { by: parsed.sort.replace(/^-/, "") as DeskSortKey, direction: parsed.sort.startsWith("-") ? "desc" : "asc" } : undefined,
+      page: parsed.page,
+      pageSize: parsed.pageSize,
+    }),
+  );
 
-/** Reads the desk's filters from a URL; `sort=-total` sorts by total, highest first. */
-export function readMarkingDeskFilters(url: URL): MarkingDeskFilters {
-  const parsed = markingDeskSearch.parse(Object.fromEntries(url.searchParams));
-  const sort = parsed.sort ? { by: parsed.sort.replace(/^-/, "") as DeskSortKey, direction: parsed.sort.startsWith("-") ? ("desc" as const) : ("asc" as const) } : undefined;
-  return { cohortId: parsed.cohort, status: parsed.status, sort, page: parsed.page, pageSize: parsed.pageSize };
-}
-
-/** The search string for filters (defaults left out), the inverse of `readMarkingDeskFilters`. */
+/** The search string for filters (defaults left out), the inverse of `markingDeskSearch`. */
 export function markingDeskSearchParams(filters: Partial<MarkingDeskFilters>): URLSearchParams {
   const params = new URLSearchParams();
   if (filters.cohortId) params.set("cohort", filters.cohortId);

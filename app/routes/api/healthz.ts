@@ -1,8 +1,12 @@
 import { sql } from "drizzle-orm";
 import { data } from "react-router";
 import { db } from "~/server/db.server";
+import { DATABASE_RETRY_AFTER_SECONDS, logDatabaseOutage } from "~/server/database-outage.server";
 
-/** Liveness and database reachability, for load balancers and the test harness. */
+/**
+ * Liveness and database reachability, for load balancers and the test harness. Public, so a failure
+ * is logged here and answered without its text (which can name hosts, users and SQL).
+ */
 export async function loader() {
   const started = performance.now();
   try {
@@ -12,9 +16,10 @@ export async function loader() {
       { headers: { "Cache-Control": "no-store" } },
     );
   } catch (error) {
+    logDatabaseOutage("health check", error);
     return data(
-      { status: "degraded", database: { status: "down", error: error instanceof Error ? error.message : String(error) } },
-      { status: 503, headers: { "Cache-Control": "no-store" } },
+      { status: "degraded", database: { status: "down" } },
+      { status: 503, headers: { "Cache-Control": "no-store", "Retry-After": String(DATABASE_RETRY_AFTER_SECONDS) } },
     );
   }
 }

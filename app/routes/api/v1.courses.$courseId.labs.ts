@@ -1,6 +1,7 @@
 import type { Route } from "./+types/v1.courses.$courseId.labs";
 import { dropLogStatus } from "~/lib/drop-logs/hand-in-window";
 import { anyRole, isStaff, requireApiUser, requireCourseRole } from "~/server/auth/access.server";
+import { methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
 import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 
@@ -16,3 +17,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }));
   return Response.json({ labs }, { headers: { "Cache-Control": "no-store" } });
 }
+
+/** Read-only: any other method is answered 405 with Allow. */
+export const action = () => methodNotAllowed(readOnly);

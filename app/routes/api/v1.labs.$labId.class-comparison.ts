@@ -1,6 +1,6 @@
 import type { Route } from "./+types/v1.labs.$labId.class-comparison";
 import { requireApiUser } from "~/server/auth/access.server";
-import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { apiErrorResponse, methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { comparisonJson, getLabComparison, readComparisonFilters } from "~/server/comparison/class-comparison.server";
 import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { db } from "~/server/db.server";
@@ -15,6 +15,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const courseId = await findLabCourseId(db, params.labId);
   if (!courseId) return apiErrorResponse(404, "not_found", "There is no such lab.");
   const { access, lab } = await requireComparisonAccess(request, courseId, params.labId);
-  const comparison = await getLabComparison(db, access, lab, readComparisonFilters(new URL(request.url)));
+  const comparison = await getLabComparison(db, access, lab, readComparisonFilters(request));
   return Response.json(comparisonJson(comparison), { headers: { "Cache-Control": "no-store" } });
 }
+
+/** Read-only: any other method is answered 405 with Allow. */
+export const action = () => methodNotAllowed(readOnly);

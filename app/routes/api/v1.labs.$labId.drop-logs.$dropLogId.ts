@@ -1,7 +1,7 @@
 import { z } from "zod";
 import type { Route } from "./+types/v1.labs.$labId.drop-logs.$dropLogId";
 import { requireStudentAccess } from "~/server/auth/access.server";
-import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { apiErrorResponse, methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
 import { findDropLogOwner } from "~/server/drop-logs/drop-log-list.server";
 import { getDropLogForStudent } from "~/server/drop-logs/hand-in.server";
@@ -31,3 +31,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     { headers: { "Cache-Control": "no-store" } },
   );
 }
+
+/** Read-only: any other method is answered 405 with Allow. */
+export const action = () => methodNotAllowed(readOnly);

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/v1.labs.$labId.drop-logs";
-import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { apiErrorResponse, methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
 import { listLabDropLogs } from "~/server/drop-logs/drop-log-list.server";
 import { HandInRefusedError, handInDropLog } from "~/server/drop-logs/hand-in.server";
@@ -28,8 +28,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
  * answers 200 with the version first stored instead of storing a second one.
  */
 export async function action({ request, params }: Route.ActionArgs) {
+  if (request.method !== "POST") return methodNotAllowed([...readOnly, "POST"]);
   const { access, lab } = await requireLabApiAccess(request, params.labId);
-  if (request.method !== "POST") return apiErrorResponse(405, "method_not_allowed", "Hand in with POST.");
   if (access.membership.role !== "student") return apiErrorResponse(403, "not_a_student", "Only students hand in drop logs.");
   const idempotencyKey = request.headers.get("Idempotency-Key");
   if (!idempotencyKey) return apiErrorResponse(400, "idempotency_key_missing", "Send an Idempotency-Key header, e.g. a UUID made once per hand-in attempt.");

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/v1.labs.$labId.marks";
 import { requireApiUser } from "~/server/auth/access.server";
-import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { apiErrorResponse, methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
 import { findLabCourseId } from "~/server/drop-logs/hand-in.server";
 import { loadMarksJson } from "~/server/marking/mark-export.server";
@@ -14,3 +14,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { access, lab } = await requireMarkingAccess(request, courseId, params.labId);
   return Response.json(await loadMarksJson(db, { access, lab }), { headers: { "Cache-Control": "no-store" } });
 }
+
+/** Read-only: any other method is answered 405 with Allow. */
+export const action = () => methodNotAllowed(readOnly);

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/v1.me";
 import { requireApiUser } from "~/server/auth/access.server";
+import { methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { getShellViewer } from "~/server/shell.server";
 
 /** Who the caller is and their courses: the smallest useful check that a token or session works. */
@@ -11,3 +12,6 @@ export async function loader({ request }: Route.LoaderArgs) {
     { headers: { "Cache-Control": "no-store" } },
   );
 }
+
+/** Read-only: any other method is answered 405 with Allow. */
+export const action = () => methodNotAllowed(readOnly);

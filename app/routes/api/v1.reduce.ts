@@ -2,11 +2,14 @@ import type { Route } from "./+types/v1.reduce";
 import { labReduceInput, reduceInput } from "~/lib/drop-logs/drop-log-input";
 import { ReductionInputError, reduceFallingSphere } from "~/lib/reduction";
 import { requireApiUser, requireCourseRole } from "~/server/auth/access.server";
-import { apiErrorResponse } from "~/server/auth/api-errors.server";
+import { apiErrorResponse, methodNotAllowed } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
 import { HandInRefusedError, findLabCourseId, previewDropLog } from "~/server/drop-logs/hand-in.server";
 
 const noStore = { "Cache-Control": "no-store" };
+
+/** Reducing changes nothing, but the input is a body: POST only. */
+export const loader = () => methodNotAllowed(["POST"]);
 
 /**
  * Reduces without storing anything. Two bodies: `{ labId, input }`, a drop log as the student types it
@@ -14,8 +17,8 @@ const noStore = { "Cache-Control": "no-store" };
  * drop-log form; or the engine's own input in SI, for anyone signed in who wants the method itself.
  */
 export async function action({ request }: Route.ActionArgs) {
+  if (request.method !== "POST") return methodNotAllowed(["POST"]);
   await requireApiUser(request);
-  if (request.method !== "POST") return apiErrorResponse(405, "method_not_allowed", "Send the input with POST.");
   const body = await request.json().catch(() => undefined);
   if (body === undefined) return apiErrorResponse(400, "invalid_json", "The body must be JSON.");
 

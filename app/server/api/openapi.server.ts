@@ -104,7 +104,7 @@ export const apiOperations: ApiOperation[] = [
       { name: "cohort", in: "query", required: false, description: "Only this cohort's hand-ins.", schema: z.uuid() },
       { name: "label", in: "query", required: false, description: "Only hand-ins with this label.", schema: z.enum(["consistent", "suspect", "outlier"]) },
     ],
-    responses: { 200: { description: "The comparison.", schema: classComparisonResponse }, 401: errors[401], 403: errors[403], 404: errors[404] },
+    responses: { 200: { description: "The comparison.", schema: classComparisonResponse }, 400: errors[400], 401: errors[401], 403: errors[403], 404: errors[404] },
   },
   {
     method: "get",
@@ -182,7 +182,8 @@ export function openApiDocument(serverUrl: string) {
     info: {
       title: "Benchpost API",
       version: "1",
-      description: "Labs, drop logs and reductions of Benchpost. Every error has one shape: `{ error: { code, message, issues? } }`.",
+      description:
+        "Labs, drop logs and reductions of Benchpost. Every error has one shape: `{ error: { code, message, issues? } }`. Any call may answer 503 `database_unavailable`, with `Retry-After`, while the database cannot be reached: nothing was stored, and the same request may be sent again. An address not listed here answers 404 `not_found`; a method an address does not take, 405 `method_not_allowed` with `Allow`.",
     },
     servers: [{ url: serverUrl }],
     jsonSchemaDialect: "https://json-schema.org/draft/2020-12/schema",

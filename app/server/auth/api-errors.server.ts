@@ -1,5 +1,6 @@
 /**
- * The JSON error shape of every /api route: `{ error: { code, message, issues? } }`.
+ * The JSON error shape of every /api route: `{ error: { code, message, issues? } }`, and the answers
+ * every API route shares (a method it does not take).
  */
 export type ApiIssue = { path: (string | number)[]; message: string };
 
@@ -9,4 +10,17 @@ export function isApiRequest(request: Request): boolean {
 
 export function apiErrorResponse(status: number, code: string, message: string, issues?: ApiIssue[]): Response {
   return Response.json({ error: { code, message, ...(issues ? { issues } : {}) } }, { status, headers: { "Cache-Control": "no-store" } });
+}
+
+/** The methods an API route takes: GET routes answer HEAD too. */
+export const readOnly = ["GET", "HEAD"] as const;
+
+/**
+ * 405 with `Allow`, in the error shape. Answered before any access check: which methods an address
+ * takes is in the public OpenAPI document, and the answer touches no data.
+ */
+export function methodNotAllowed(allow: readonly string[]): Response {
+  const response = apiErrorResponse(405, "method_not_allowed", `This address takes ${allow.join(", ")} only.`);
+  response.headers.set("Allow", allow.join(", "));
+  return response;
 }

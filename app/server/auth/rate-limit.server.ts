@@ -5,14 +5,20 @@
 import { RateLimiterPostgres, RateLimiterRes } from "rate-limiter-flexible";
 import { pool } from "~/server/db.server";
 
-type LimitName = "sign-in-ip" | "sign-in-account" | "email-link-address" | "email-link-ip";
+type LimitName = "sign-in-ip" | "sign-in-account" | "email-link-address" | "email-link-ip" | "photo-upload";
 
-/** Points per window. Sign-in refunds the point of a success, so it counts failures; e-mailed links count every request. */
+/**
+ * Points per window. Sign-in refunds the point of a success, so it counts failures; e-mailed links
+ * count every request. Photo uploads count every request per person: a hand-in needs a few uploads,
+ * and 30 an hour leave room for retries on a poor phone connection while keeping a script from
+ * hammering the disk.
+ */
 const settings: Record<LimitName, { points: number; durationSeconds: number }> = {
   "sign-in-ip": { points: 10, durationSeconds: 15 * 60 },
   "sign-in-account": { points: 10, durationSeconds: 60 * 60 },
   "email-link-address": { points: 5, durationSeconds: 60 * 60 },
   "email-link-ip": { points: 30, durationSeconds: 60 * 60 },
+  "photo-upload": { points: 30, durationSeconds: 60 * 60 },
 };
 
 const limiters = new Map<LimitName, RateLimiterPostgres>();

@@ -25,6 +25,7 @@ import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
+import { readSearchParams } from "~/server/http.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
 
 export type ComparisonLab = {
@@ -199,15 +200,13 @@ export function labelHandIns(lab: Pick<ComparisonLab, "kind">, handIns: readonly
 
 export type ComparisonFilters = { cohortId?: string; label?: ClassComparisonLabel };
 
-/** Filters from the URL; an unknown value is ignored rather than refused, so an old link still opens. */
-export const comparisonFilters = z.object({
-  cohort: z.uuid().optional().catch(undefined),
-  label: z.enum(["consistent", "suspect", "outlier"]).optional().catch(undefined),
-});
+/** The filters in the URL (`?cohort=…&label=suspect`) of the comparison page, its CSV and its API; a value it does not know answers 400. */
+const comparisonSearch = z
+  .object({ cohort: z.uuid().optional(), label: z.enum(["consistent", "suspect", "outlier"]).optional() })
+  .transform((parsed): ComparisonFilters => ({ cohortId: parsed.cohort, label: parsed.label }));
 
-export function readComparisonFilters(url: URL): ComparisonFilters {
-  const parsed = comparisonFilters.parse(Object.fromEntries(url.searchParams));
-  return { cohortId: parsed.cohort, label: parsed.label };
+export function readComparisonFilters(request: Request): ComparisonFilters {
+  return readSearchParams(request, comparisonSearch);
 }
 
 

@@ -7,11 +7,19 @@ import type { CourseInput } from "~/lib/courses/course-input";
 import type { KitState } from "~/lib/kits/kit-states";
 import { recordAudit } from "~/server/audit.server";
 import { kitCohortScope, type CourseAccess } from "~/server/auth/access.server";
-import type { Executor } from "~/server/db.server";
+import { isUniqueViolation, type Executor } from "~/server/db.server";
 
 export type Course = typeof courses.$inferSelect;
 
-export class CourseRuleError extends Error {}
+/** A course change refused, with the status a route answers: 400 by default, 404 when it names something not in the course. */
+export class CourseRuleError extends Error {
+  constructor(
+    message: string,
+    readonly status: 400 | 404 = 400,
+  ) {
+    super(message);
+  }
+}
 
 export async function createCourse(executor: Executor, { actorId, input }: { actorId: string; input: CourseInput }): Promise<Course> {
   return executor.transaction(async (tx) => {
@@ -41,12 +49,16 @@ export async function addCohort(executor: Executor, { courseId, name }: { course
   if (inserted.length === 0) throw new CourseRuleError(`There is already a cohort called ${name}.`);
 }
 
+/** Renames one of the course's cohorts; a cohort of another course (or none) is refused with 404 and nothing changes. */
 export async function renameCohort(executor: Executor, { courseId, cohortId, name }: { courseId: string; cohortId: string; name: string }): Promise<void> {
+  let renamed: { id: string }[];
   try {
-    await executor.update(cohorts).set({ name }).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
-  } catch {
-    throw new CourseRuleError(`There is already a cohort called ${name}.`);
+    renamed = await executor.update(cohorts).set({ name }).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId))).returning({ id: cohorts.id });
+  } catch (error) {
+    if (isUniqueViolation(error)) throw new CourseRuleError(`There is already a cohort called ${name}.`);
+    throw error;
   }
+  if (renamed.length === 0) throw new CourseRuleError("There is no such cohort in this course.", 404);
 }
 
 /** Replaces the set of cohorts a TA marks, in one transaction. */

@@ -9,7 +9,7 @@ import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
-import { effectiveHandInWindow, handInTiming } from "~/lib/drop-logs/hand-in-window";
+import { effectiveHandInWindow, handInTiming, type HandInWindow } from "~/lib/drop-logs/hand-in-window";
 import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/lib/drop-logs/reduce-drop-log";
 import type { AllowedPartKind } from "~/lib/labs/lab-input";
 import { ReductionInputError } from "~/lib/reduction";
@@ -23,7 +23,7 @@ export type HandInRefusalCode =
   | "not_reducible"
   | "not_a_student"
   | "lab_not_found"
-  | "lab_not_published"
+  | "lab_closed"
   | "not_in_cohort"
   | "no_kit"
   | "sphere_not_in_kit"
@@ -40,7 +40,7 @@ const refusalStatus: Record<HandInRefusalCode, number> = {
   not_reducible: 400,
   not_a_student: 403,
   lab_not_found: 404,
-  lab_not_published: 404,
+  lab_closed: 409,
   not_in_cohort: 403,
   no_kit: 409,
   sphere_not_in_kit: 400,
@@ -232,6 +232,24 @@ export async function previewDropLog(executor: Executor, { access, labId, input 
   return reduceFor(context, parsed);
 }
 
+const labClosed = () => new HandInRefusedError("lab_closed", "This lab is closed: it takes no more hand-ins.");
+const pastCutoff = (window: HandInWindow) =>
+  new HandInRefusedError(
+    "past_cutoff",
+    window.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
+  );
+
+/**
+ * Refuses when the lab takes no more hand-ins from this student: closed, past their own cut-off, or
+ * their mark released under a lab that refuses hand-ins after release. Photos for the next hand-in
+ * are refused then too. A lab not open yet is not refused: its draft may be prepared, photos included.
+ */
+export function refuseWhenClosed(context: StudentLab, now: Date): void {
+  if (context.lab.status !== "published") throw labClosed();
+  if (handInTiming(context.window, now) === "closed") throw pastCutoff(context.window);
+  if (context.afterRelease === "refuse") throw new HandInRefusedError("mark_released", markReleasedMessage);
+}
+
 export type HandInResult = { version: { id: string; version: number; late: boolean; submittedAt: Date }; duplicate: boolean };
 
 const idempotencyKey = z.string().trim().min(8, "The hand-in key is missing; reload the page.").max(200);
@@ -250,7 +268,7 @@ export async function handInDropLog(
   const parsed = parseInput(input);
   const context = await loadStudentLab(executor, access, labId);
   const lab = context.lab;
-  if (lab.status !== "published") throw new HandInRefusedError("lab_not_published", "This lab is closed: it takes no more hand-ins.");
+  if (lab.status !== "published") throw labClosed();
   const { reduction, kitRecords, normalisedFigure, warnings } = reduceFor(context, parsed);
   const warningCount = warnings.filter((warning) => warning.level !== "info").length;
 
@@ -274,12 +292,7 @@ export async function handInDropLog(
     const handInWindow = context.window;
     const timing = handInTiming(handInWindow, now);
     if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${handInWindow.opensAt.toISOString()}.`);
-    if (timing === "closed") {
-      throw new HandInRefusedError(
-        "past_cutoff",
-        handInWindow.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
-      );
-    }
+    if (timing === "closed") throw pastCutoff(handInWindow);
     const [inserted] = await tx
       .insert(dropLogVersions)
       .values({

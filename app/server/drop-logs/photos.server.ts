@@ -7,20 +7,33 @@ import { randomUUID } from "node:crypto";
 import path from "node:path";
 import { createFsFileStorage } from "@remix-run/file-storage/fs";
 import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededError, parseFormData, type FileUpload } from "@remix-run/form-data-parser";
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { courseMemberships, dropLogPhotos, dropLogs, labs } from "~/db/schema";
-import type { Executor } from "~/server/db.server";
+import {
+  MAX_PHOTO_BYTES,
+  MAX_PHOTO_BYTES_PER_STUDENT,
+  MAX_PHOTO_MEGABYTES,
+  MAX_PHOTO_UPLOAD_BYTES,
+  MAX_PHOTOS_PER_DROP_LOG,
+  MAX_PHOTOS_PER_UPLOAD,
+} from "~/lib/drop-logs/photo-limits";
+import type { CourseAccess } from "~/server/auth/access.server";
+import { consume } from "~/server/auth/rate-limit.server";
+import type { Database, Executor } from "~/server/db.server";
+import { ensureDropLog, refuseWhenClosed, type StudentLab } from "./hand-in.server";
 
-export const MAX_PHOTO_BYTES = 10 * 1024 * 1024;
-export const MAX_PHOTOS_PER_UPLOAD = 6;
 export const photoTypes = ["image/jpeg", "image/png", "image/webp"] as const;
 export type PhotoType = (typeof photoTypes)[number];
 
-/** A refused upload, with the HTTP status that names why (413 too large, 415 not a photo, 400 malformed). */
+/**
+ * A refused upload, with the HTTP status that names why: 413 too large, 415 not a photo, 400 malformed,
+ * 409 the drop log or the student's space is full, 429 too many uploads (with the wait).
+ */
 export class PhotoUploadError extends Error {
   constructor(
-    readonly status: 400 | 413 | 415,
+    readonly status: 400 | 409 | 413 | 415 | 429,
     message: string,
+    readonly retryAfterSeconds?: number,
   ) {
     super(message);
     this.name = "PhotoUploadError";
@@ -56,17 +69,71 @@ export function sniffPhotoType(head: Uint8Array): PhotoType | null {
 
 type StoredPhoto = { storageKey: string; contentType: PhotoType; bytes: number; originalName: string | null };
 
+/** The photos of the student's drop log for a lab, and the bytes of all their photos in the course: one statement. */
+async function photoUsage(executor: Executor, { labId, membershipId }: { labId: string; membershipId: string }) {
+  const [usage] = await executor
+    .select({
+      dropLogPhotos: sql<number>`count(*) filter (where ${dropLogs.labId} = ${labId})`.mapWith(Number),
+      studentBytes: sql<number>`coalesce(sum(${dropLogPhotos.bytes}), 0)`.mapWith(Number),
+    })
+    .from(dropLogPhotos)
+    .innerJoin(dropLogs, eq(dropLogs.id, dropLogPhotos.dropLogId))
+    .where(eq(dropLogs.membershipId, membershipId));
+  return usage;
+}
+
+const megabytes = (bytes: number) => `${Math.round(bytes / (1024 * 1024))} MB`;
+
+/** Refuses photos that would take the drop log or the student past their caps; `adding` empty asks whether any more fit. */
+function refuseOverCaps(usage: { dropLogPhotos: number; studentBytes: number }, adding: StoredPhoto[]) {
+  const count = Math.max(adding.length, 1);
+  const bytes = Math.max(adding.reduce((sum, photo) => sum + photo.bytes, 0), 1);
+  if (usage.dropLogPhotos + count > MAX_PHOTOS_PER_DROP_LOG) {
+    const left = MAX_PHOTOS_PER_DROP_LOG - usage.dropLogPhotos;
+    throw new PhotoUploadError(409, `A drop log keeps at most ${MAX_PHOTOS_PER_DROP_LOG} photos; this one has ${usage.dropLogPhotos}${left > 0 ? `, so send at most ${left} more` : ""}.`);
+  }
+  if (usage.studentBytes + bytes > MAX_PHOTO_BYTES_PER_STUDENT) {
+    throw new PhotoUploadError(409, `Your photos in this course may take up ${megabytes(MAX_PHOTO_BYTES_PER_STUDENT)} in all, and ${megabytes(usage.studentBytes)} are used: send smaller photos.`);
+  }
+}
+
 /**
- * Reads a multipart upload as it streams in: the parser stops any part over 10 MB before it is kept,
- * and each file is checked by its bytes before it is written. Returns the files stored; the caller
- * records them in the same breath.
+ * A student's upload to their draft, refused before a byte is read when the lab takes no more hand-ins
+ * from them, when they upload too often or when the drop log is full. The photos are streamed to
+ * storage first, then the drop log (created when there is none) and its photo rows are written in one
+ * transaction that re-checks the caps under a per-student lock, so two uploads at once cannot both
+ * squeeze past them. A refusal leaves no row behind and removes the files.
  */
-export async function receivePhotos(request: Request, dropLogId: string): Promise<StoredPhoto[]> {
+export async function uploadDraftPhotos(database: Database, { access, context, request, now = new Date() }: { access: CourseAccess; context: StudentLab; request: Request; now?: Date }) {
+  refuseWhenClosed(context, now);
+  const owner = { labId: context.lab.id, membershipId: access.membership.id };
+  const limit = await consume("photo-upload", access.user.id);
+  if (limit.limited) throw new PhotoUploadError(429, "You have uploaded many photos in a short time; wait a few minutes and try again.", limit.retryAfterSeconds);
+  refuseOverCaps(await photoUsage(database, owner), []);
+  const stored = await receivePhotos(request, `${owner.labId}/${owner.membershipId}`);
+  try {
+    return await database.transaction(async (tx) => {
+      await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`photos:${owner.membershipId}`}, 0))`);
+      refuseOverCaps(await photoUsage(tx, owner), stored);
+      return recordPhotos(tx, await ensureDropLog(tx, owner), stored);
+    });
+  } catch (error) {
+    await removeStored(stored);
+    throw error;
+  }
+}
+
+/**
+ * Reads a multipart upload as it streams in: the parser stops any part over MAX_PHOTO_BYTES before it is kept,
+ * and each file is checked by its bytes before it is written, under `keyPrefix`. Returns the files
+ * stored; the caller records them or removes them.
+ */
+async function receivePhotos(request: Request, keyPrefix: string): Promise<StoredPhoto[]> {
   const type = request.headers.get("content-type") ?? "";
   if (!type.startsWith("multipart/form-data")) throw new PhotoUploadError(400, "Send the photos as a multipart/form-data upload.");
   const declared = Number(request.headers.get("content-length") ?? 0);
   // Refused before a byte is read when the body says it is bigger than the most we would take.
-  if (declared > MAX_PHOTO_BYTES * MAX_PHOTOS_PER_UPLOAD + 1024 * 1024) throw new PhotoUploadError(413, "That upload is too large: at most 10 MB per photo.");
+  if (declared > MAX_PHOTO_UPLOAD_BYTES) throw new PhotoUploadError(413, `That upload is too large: at most ${MAX_PHOTO_MEGABYTES} MB per photo.`);
 
   const stored: StoredPhoto[] = [];
   const refused: PhotoUploadError[] = [];
@@ -78,17 +145,18 @@ export async function receivePhotos(request: Request, dropLogId: string): Promis
       refused.push(new PhotoUploadError(415, `${file.name || "That file"} is not a JPEG, PNG or WebP photo.`));
       return null;
     }
-    const storageKey = `${dropLogId}/${randomUUID()}`;
+    const storageKey = `${keyPrefix}/${randomUUID()}`;
     await storePhoto(storageKey, file);
     stored.push({ storageKey, contentType: sniffed, bytes: file.size, originalName: file.name ? file.name.slice(0, 200) : null });
     return null;
   };
   try {
-    await parseFormData(request, { maxFileSize: MAX_PHOTO_BYTES, maxFiles: MAX_PHOTOS_PER_UPLOAD }, handle);
+    // The total too, for a body sent without its length (chunked).
+    await parseFormData(request, { maxFileSize: MAX_PHOTO_BYTES, maxFiles: MAX_PHOTOS_PER_UPLOAD, maxTotalSize: MAX_PHOTO_UPLOAD_BYTES }, handle);
   } catch (error) {
     await removeStored(stored);
     if (error instanceof MaxFileSizeExceededError || error instanceof MaxTotalSizeExceededError) {
-      throw new PhotoUploadError(413, "That photo is larger than 10 MB; send a smaller one (most phones can share a reduced size).");
+      throw new PhotoUploadError(413, `That photo is larger than ${MAX_PHOTO_MEGABYTES} MB; send a smaller one (most phones can share a reduced size).`);
     }
     if (error instanceof MaxFilesExceededError) throw new PhotoUploadError(400, `Send at most ${MAX_PHOTOS_PER_UPLOAD} photos at a time.`);
     throw new PhotoUploadError(400, "The upload could not be read; try again.");
@@ -105,7 +173,7 @@ async function removeStored(stored: StoredPhoto[]) {
   await Promise.all(stored.map((photo) => photoStorage().remove(photo.storageKey)));
 }
 
-export async function recordPhotos(executor: Executor, dropLogId: string, photos: StoredPhoto[]) {
+async function recordPhotos(executor: Executor, dropLogId: string, photos: StoredPhoto[]) {
   return executor
     .insert(dropLogPhotos)
     .values(photos.map((photo) => ({ dropLogId, ...photo })))

@@ -10,7 +10,7 @@ import { calibrationCheckMessages, checkCalibrationPoints } from "~/lib/kits/gly
 import { checkImportRows, csvRowToPartInput, partToCsvRow, type ImportRowCheck, type PartCsvRow } from "~/lib/kits/parts-csv";
 import { recordAudit } from "~/server/audit.server";
 import { canOpenKit, type CourseAccess } from "~/server/auth/access.server";
-import type { Executor } from "~/server/db.server";
+import { isUniqueViolation, type Executor } from "~/server/db.server";
 import { queueRereduction, reductionChanges } from "~/server/kits/rereduce.server";
 
 export type Part = typeof parts.$inferSelect;
@@ -100,11 +100,6 @@ export class DuplicateLabelError extends Error {
   constructor(readonly label: string) {
     super(`The label ${label} is already used by another part in this course.`);
   }
-}
-
-function isUniqueViolation(error: unknown): boolean {
-  const cause = (error as { cause?: { code?: string } })?.cause ?? error;
-  return (cause as { code?: string })?.code === "23505";
 }
 
 export async function createPart(

@@ -10,7 +10,7 @@ import { maxTotalOf } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
 import { deskRow, loadClassLabels, loadStudentMarkRows, type MarkingDeskRow } from "./mark-rows.server";
-import { assertMarkingStaff, markableCohortIds, MarkingRefusedError, refuse, type MarkingLab } from "./marking-lab.server";
+import { assertMarkingStaff, markableCohortIds, MarkingRefusedError, type MarkingLab } from "./marking-lab.server";
 
 // The filter definitions are pure (the page uses them in the browser); re-exported here for the loader.
 export {
@@ -19,7 +19,6 @@ export {
   deskStatusFilters,
   MAX_DESK_PAGE_SIZE,
   markingDeskSearch,
-  readMarkingDeskFilters,
   type DeskSortKey,
   type DeskStatusFilter,
   type MarkingDeskFilters,
@@ -87,8 +86,8 @@ const passes = (row: MarkingDeskRow, status: DeskStatusFilter) =>
   status === "unmarked" ? row.progress !== "marked" : status === "flagged" ? row.flagged : row.status === status;
 
 /**
- * The desk for `access`: TAs get the students of their cohorts, instructors everyone's. A cohort
- * filter naming a cohort the viewer may not mark is refused (and recorded), as are students.
+ * The desk for `access`: TAs get the students of their cohorts, instructors everyone's. Students are
+ * refused (and recorded); a cohort filter naming a cohort the viewer may not mark is refused as bad input.
  */
 export async function loadMarkingDesk(
   executor: Executor,
@@ -96,9 +95,8 @@ export async function loadMarkingDesk(
 ): Promise<MarkingDesk> {
   await assertMarkingStaff(executor, access, lab);
   const allowed = markableCohortIds(access, lab);
-  if (filters.cohortId && !allowed.includes(filters.cohortId)) {
-    await refuse(executor, access, new MarkingRefusedError("not_in_cohort", "That cohort is not one you mark for this lab.", "cohort"), `lab:${lab.id}`);
-  }
+  // The filter offers only these cohorts: any other id is a URL made by hand, answered 400 like any bad filter.
+  if (filters.cohortId && !allowed.includes(filters.cohortId)) throw new MarkingRefusedError("invalid_value", "That cohort is not one you mark for this lab.", "cohort");
   const cohortIds = filters.cohortId ? [filters.cohortId] : allowed;
   const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: allowed, now }), loadClassLabels(executor, lab)]);
 
