@@ -16,6 +16,8 @@ export default defineConfig({
           name: "unit",
           include: ["app/**/*.test.{ts,tsx}", "emails/**/*.test.{ts,tsx}", "scripts/**/*.test.ts", "seeds/**/*.test.ts"],
           environment: "node",
+          // The Monte Carlo checks take a second or two alone and several times that beside the other suites.
+          testTimeout: 20_000,
         },
       },
       {

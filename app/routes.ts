@@ -38,6 +38,7 @@ export default [
     route("labs/:labId/comparison", "routes/courses.$courseId.labs.$labId.comparison.tsx"),
     route("labs/:labId/edit", "routes/courses.$courseId.labs.$labId.edit.tsx"),
     route("labs/:labId/dashboard", "routes/courses.$courseId.labs.$labId.dashboard.tsx"),
+    route("labs/:labId/extensions", "routes/courses.$courseId.labs.$labId.extensions.tsx"),
     route("labs/:labId/hand-ins/:dropLogId", "routes/courses.$courseId.labs.$labId.hand-ins.$dropLogId.tsx"),
     route("labs/:labId/marking", "routes/courses.$courseId.labs.$labId.marking.tsx"),
     route("labs/:labId/rubric", "routes/courses.$courseId.labs.$labId.rubric.tsx"),

@@ -13,6 +13,7 @@
  * Demo data only: no test takes an expected value from here.
  */
 import type { Faker } from "@faker-js/faker";
+import { diFeliceWallFactor } from "~/lib/reduction";
 
 const G = 9.80665;
 
@@ -75,8 +76,3 @@ export function thermometerReading(faker: Faker, trueTemperatureC: number, resol
   return read(trueTemperatureC + faker.number.float({ min: -0.5, max: 0.5 }), resolution);
 }
 
-// TEMPORARY until the engine exports it.
-function diFeliceWallFactor(lambda: number, reynolds: number): number {
-  const alpha = (3.3 + 0.085 * reynolds) / (1 + 0.1 * reynolds);
-  return ((1 - lambda) / (1 - 0.33 * lambda)) ** alpha;
-}

@@ -11,6 +11,7 @@ import { migrateDatabase } from "~/server/migrate.server";
 import { developmentDatabaseUrl } from "../scripts/lib/database-url";
 import { ensureDatabases } from "../scripts/lib/postgres";
 import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from "./demo-scenario";
+import { seedExtensions } from "./seed-extensions";
 import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
 import { seedMarking } from "./seed-marking";
@@ -84,6 +85,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   const labFaker = new Faker({ locale: [en] });
   labFaker.seed(2142);
   await seedLabs(db, labFaker, { courseId });
+  await seedExtensions(db, { courseId });
   const markingFaker = new Faker({ locale: [en] });
   markingFaker.seed(2143);
   await seedMarking(db, markingFaker, { courseId });

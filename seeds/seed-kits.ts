@@ -77,6 +77,7 @@ export async function seedKits(
       label: "GLY-95A",
       fluidName: "Glycerol–water, 95 % glycerol by mass",
       densityKgM3: 1249,
+      glycerolMassFraction: 0.95,
       calibration: [
         { temperatureC: 15, viscosityPaS: 0.82 },
         { temperatureC: 20, viscosityPaS: 0.545 },

@@ -25,11 +25,13 @@ export async function seedRevisions(db: Database, { courseId }: { courseId: stri
       kind: "fluid_lot",
       label: lot.label,
       notes: lot.notes,
-      fluidName: lot.fluidName!,
+      // The thicker fluid is a stronger mix, so the handbook check agrees with the corrected record too.
+      fluidName: "Glycerol–water, 96.5 % glycerol by mass",
+      glycerolMassFraction: 0.965,
       densityKgM3: lot.densityKgM3!,
       calibration: lot.calibration!.map((point) => ({ temperatureC: point.temperatureC, viscosityPaS: Number((point.viscosityPaS * 1.2).toFixed(3)) })),
     },
-    note: "Re-measured with the rotational viscometer: the batch was mixed with less water than recorded.",
+    note: "Re-measured with the rotational viscometer and the refractometer: the batch was mixed with less water than recorded.",
   });
   const [run] = await db.select({ id: rereductionRuns.id }).from(rereductionRuns).where(eq(rereductionRuns.partId, lot.id)).orderBy(desc(rereductionRuns.createdAt)).limit(1);
   await runRereduction(db, run.id);

@@ -1,14 +1,8 @@
 /**
- * The general cautions for falling-sphere kits, shown wherever the kit is handled: kit pages, packing
- * slips and lab pages. They defer to the institution's own rules.
+ * The safety cautions (app/lib/safety/cautions.ts) as an aside, shown wherever the kit is handled:
+ * kit pages, the student's kit page, lab pages and the packing slip.
  */
-export const safetyCautions = [
-  "Neodymium retrieval magnets: keep them away from young children and pets — two swallowed magnets can cause serious internal injury. They pinch fingers. Keep them away from pacemakers and other implanted devices.",
-  "Glass columns can tip over and break: stand the column on a stable base and work over a tray.",
-  "Steel spheres are a choking hazard for small children.",
-  "Spilled syrup makes floors slippery: wipe it up at once.",
-  "Never heat a closed bottle.",
-] as const;
+import { safetyCautions, safetyCautionsDeferral } from "~/lib/safety/cautions";
 
 export function SafetyCautions({ compact = false }: { compact?: boolean }) {
   return (
@@ -18,12 +12,12 @@ export function SafetyCautions({ compact = false }: { compact?: boolean }) {
       </h2>
       <ul className="mt-2 list-disc space-y-1 pl-5">
         {safetyCautions.map((caution) => (
-          <li key={caution}>{caution}</li>
+          <li key={caution.topic}>
+            <strong className="font-medium">{caution.topic}.</strong> {caution.text}
+          </li>
         ))}
       </ul>
-      <p className="mt-2 text-xs text-ink-700">
-        These are general cautions. Your institution's lab-safety rules and local regulations come first.
-      </p>
+      <p className="mt-2 text-xs text-ink-700">{safetyCautionsDeferral}</p>
     </aside>
   );
 }

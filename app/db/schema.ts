@@ -324,6 +324,11 @@ export const parts = pgTable(
      */
     densityTemperatureCoefficientKgM3K: real("density_temperature_coefficient_kg_m3_k"),
     calibration: jsonb("calibration").$type<CalibrationPoint[]>(),
+    /**
+     * Set when the lot is a glycerol–water mix: glycerol's mass fraction, 0–1. The calibration is then
+     * checked against handbook data; the reductions still use the calibration alone.
+     */
+    glycerolMassFraction: real("glycerol_mass_fraction"),
     // column
     innerDiameterMm: real("inner_diameter_mm"),
     /** Standard uncertainty of the bore (mm); null: the lab's diameter resolution/√12 is used. */

@@ -18,6 +18,8 @@ const actionWords: Record<string, string> = {
   "course.member_removed": "removed a member",
   "course.created": "created the course",
   "course.settings_changed": "changed the course settings",
+  "lab.extension_set": "gave students a later due time",
+  "lab.extension_removed": "removed an extension",
 };
 
 export default function CourseAudit({ loaderData }: Route.ComponentProps) {

@@ -1,7 +1,12 @@
-import { data, Link } from "react-router";
+import { useEffect, useState } from "react";
+import { data, Link, useFetcher } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.dashboard";
+import type { action as extensionsAction } from "./courses.$courseId.labs.$labId.extensions";
 import { LabTime } from "~/components/drop-logs/lab-time";
+import { ExtensionWindowFields } from "~/components/labs/extension-fields";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
+import { Button } from "~/components/ui/button";
+import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { handInHref } from "~/lib/comparison/links";
 import { experimentKindNames } from "~/lib/labs/lab-input";
@@ -27,6 +32,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export default function LabDashboard({ loaderData }: Route.ComponentProps) {
   const { courseId, timeZone, instructor, lab, cohorts, students, sentReminders, scheduledReminders } = loaderData;
+  // The students ticked for a later due time (instructors only).
+  const [selected, setSelected] = useState<ReadonlySet<string>>(new Set());
+  const toggle = (membershipId: string) =>
+    setSelected((current) => {
+      const next = new Set(current);
+      if (!next.delete(membershipId)) next.add(membershipId);
+      return next;
+    });
+  const allSelected = students.length > 0 && selected.size === students.length;
   return (
     <div className="flex flex-col gap-8">
       <PageHeader
@@ -80,6 +94,16 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
           <table className="w-full text-left text-sm">
             <thead>
               <tr className="border-b border-ink-900/20">
+                {instructor ? (
+                  <th scope="col" className="py-1 pr-2">
+                    <input
+                      type="checkbox"
+                      aria-label="Select every student"
+                      checked={allSelected}
+                      onChange={() => setSelected(allSelected ? new Set() : new Set(students.map((student) => student.membershipId)))}
+                    />
+                  </th>
+                ) : null}
                 <th scope="col" className="py-1 pr-3">Student</th>
                 <th scope="col" className="py-1 pr-3">Cohort</th>
                 <th scope="col" className="py-1 pr-3">Handed in</th>
@@ -90,12 +114,22 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
             </thead>
             <tbody>
               {students.map((student) => (
-                <StudentRow key={student.membershipId} student={student} kind={lab.kind} timeZone={timeZone} courseId={courseId} labId={lab.id} />
+                <StudentRow
+                  key={student.membershipId}
+                  student={student}
+                  kind={lab.kind}
+                  timeZone={timeZone}
+                  courseId={courseId}
+                  labId={lab.id}
+                  selection={instructor ? { checked: selected.has(student.membershipId), toggle: () => toggle(student.membershipId) } : null}
+                />
               ))}
             </tbody>
           </table>
         </div>
       </section>
+
+      {instructor ? <ExtendSelected courseId={courseId} labId={lab.id} timeZone={timeZone} selected={selected} onDone={() => setSelected(new Set())} /> : null}
 
       <section aria-labelledby="reminders-heading">
         <h2 id="reminders-heading" className="mb-2 text-lg font-semibold">
@@ -167,10 +201,88 @@ function keyResult(student: DashboardStudent, kind: "drag" | "viscometry"): stri
   return "—";
 }
 
-function StudentRow({ student, kind, timeZone, courseId, labId }: { student: DashboardStudent; kind: "drag" | "viscometry"; timeZone: string; courseId: string; labId: string }) {
+/** The form the ticked students' checkboxes belong to (they sit in the table, the form below it). */
+const extendFormId = "extend-selected";
+
+/**
+ * Gives the ticked students one later due time, through the extensions page's action (one
+ * transaction): a fetcher, so the dashboard stays, with the messages beside the fields on a refusal.
+ */
+function ExtendSelected({ courseId, labId, timeZone, selected, onDone }: { courseId: string; labId: string; timeZone: string; selected: ReadonlySet<string>; onDone: () => void }) {
+  const fetcher = useFetcher<typeof extensionsAction>();
+  const result = fetcher.data;
+  const errors = result && "errors" in result ? result.errors : {};
+  const done = result && "done" in result && result.done ? { count: result.count ?? 0, dueAt: typeof result.dueAt === "string" ? result.dueAt : null } : null;
+  // A new blank form after each success; a refused one keeps what was typed.
+  const [round, setRound] = useState(0);
+  useEffect(() => {
+    if (done) {
+      onDone();
+      setRound((value) => value + 1);
+    }
+  }, [result]);
+  const extensionsHref = `/courses/${courseId}/labs/${labId}/extensions`;
+  return (
+    <section aria-labelledby="extend-selected-heading" className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+      <h2 id="extend-selected-heading" className="mb-1 text-lg font-semibold">
+        Give the selected students a later due time
+      </h2>
+      <p className="mb-3 text-sm text-ink-700">
+        {selected.size === 0 ? "Tick students in the table above." : `${selected.size} selected.`} Each one&apos;s own extension is replaced by this one; a whole cohort is extended on the{" "}
+        <Link to={extensionsHref} className="underline">
+          Extensions
+        </Link>{" "}
+        page.
+      </p>
+      {done ? (
+        <div className="mb-3">
+          <Notice tone="success">
+            {done.count === 1 ? "The student is" : `${done.count} students are`} now due {done.dueAt ? <LabTime at={done.dueAt} courseTimeZone={timeZone} /> : null}.{" "}
+            <Link to={extensionsHref} className="underline">
+              See every extension
+            </Link>
+          </Notice>
+        </div>
+      ) : null}
+      {[...(errors.membershipIds ?? []), ...(errors.form ?? [])].length ? (
+        <div className="mb-3">
+          <Notice tone="error">{[...(errors.membershipIds ?? []), ...(errors.form ?? [])].join(" ")}</Notice>
+        </div>
+      ) : null}
+      <fetcher.Form key={round} id={extendFormId} method="post" action={extensionsHref} className="flex flex-col gap-4">
+        <input type="hidden" name="intent" value="extend-students" />
+        <ExtensionWindowFields timeZone={timeZone} errors={errors} />
+        <Button type="submit" disabled={selected.size === 0 || fetcher.state !== "idle"} className="self-start">
+          Give {selected.size === 0 ? "the selected students" : selected.size === 1 ? "this student" : `these ${selected.size} students`} the new due time
+        </Button>
+      </fetcher.Form>
+    </section>
+  );
+}
+
+function StudentRow({
+  student,
+  kind,
+  timeZone,
+  courseId,
+  labId,
+  selection,
+}: {
+  student: DashboardStudent;
+  kind: "drag" | "viscometry";
+  timeZone: string;
+  courseId: string;
+  labId: string;
+  selection: { checked: boolean; toggle: () => void } | null;
+}) {
   const handedIn = student.version !== null && student.submittedAt !== null;
   return (
     <tr className="border-b border-ink-900/10 align-top">
+      {selection ? (
+        <td className="py-1 pr-2">
+          <input type="checkbox" form={extendFormId} name="membershipIds" value={student.membershipId} checked={selection.checked} onChange={selection.toggle} aria-label={`Select ${student.name}`} />
+        </td>
+      ) : null}
       <th scope="row" className="py-1 pr-3 font-medium">
         {student.name}
       </th>

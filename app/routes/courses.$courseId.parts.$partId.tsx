@@ -12,6 +12,7 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { fieldErrors, formValues } from "~/lib/forms/parse-form";
 import type { FluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
+import type { CalibrationFinding } from "~/lib/kits/glycerol-water";
 import { formatFieldValue, formatNumber, measurementSummary, partFieldLabels, partStatusLabels } from "~/lib/kits/part-display";
 import { calibrationRows, partFormCandidate } from "~/lib/kits/part-form";
 import { partInput, partKindLabels, type PartKind } from "~/lib/kits/part-input";
@@ -179,8 +180,16 @@ function StatusActions({ status, failed }: { status: keyof typeof partStatusLabe
   );
 }
 
+/** A calibration point's handbook check in words (the warnings above say what to do). */
+const calibrationFindingWords: Record<CalibrationFinding["kind"], string> = {
+  agrees: "agrees with the handbook",
+  "outside-tolerance": "outside the tolerance",
+  "unit-slip": "unit slip? (mPa·s vs Pa·s)",
+  "not-compared": "within a kit fluid's range",
+};
+
 function CalibrationSection({ calibration, label }: { calibration: FluidLotCalibration; label: string }) {
-  const { fit, quoted, points } = calibration;
+  const { fit, quoted, points, glycerolMassFraction } = calibration;
   return (
     <section aria-labelledby="fit-heading" className="flex flex-col gap-4">
       <h2 id="fit-heading" className="text-lg font-semibold">
@@ -226,15 +235,29 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
           Dots: calibration points; line: the fitted curve (log axis). Below: each point's residual, measured ÷ fitted − 1, in per cent.
         </figcaption>
       </figure>
+      {glycerolMassFraction !== null ? (
+        <p className="text-sm text-ink-700">
+          Declared a glycerol–water mix with a glycerol mass fraction of {glycerolMassFraction}: each point is compared with the handbook
+          correlation of Cheng (2008) for 0–100 °C. The tolerance combines the correlation's own spread
+          with half a per cent of glycerol and half a kelvin, so it is wider for strong mixes.
+        </p>
+      ) : null}
       <div className="overflow-x-auto">
         <table className="text-sm">
-          <caption className="mb-1 text-left font-medium">Calibration points and residuals</caption>
+          <caption className="mb-1 text-left font-medium">{glycerolMassFraction !== null ? "Calibration points, residuals and handbook values" : "Calibration points and residuals"}</caption>
           <thead>
             <tr className="text-left text-ink-600">
               <th scope="col" className="pr-6">Temperature (°C)</th>
               <th scope="col" className="pr-6">Measured μ (Pa·s)</th>
               <th scope="col" className="pr-6">Fitted μ (Pa·s)</th>
-              <th scope="col">Residual (%)</th>
+              <th scope="col" className="pr-6">Residual (%)</th>
+              {glycerolMassFraction !== null ? (
+                <>
+                  <th scope="col" className="pr-6">Handbook μ (Pa·s)</th>
+                  <th scope="col" className="pr-6">Measured vs handbook (%)</th>
+                </>
+              ) : null}
+              <th scope="col">Check</th>
             </tr>
           </thead>
           <tbody>
@@ -243,7 +266,18 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
                 <td className="pr-6">{point.temperatureC}</td>
                 <td className="pr-6">{formatNumber(point.viscosityPaS)}</td>
                 <td className="pr-6">{formatNumber(point.fittedPaS)}</td>
-                <td>{formatNumber(point.residualPercent, 2)}</td>
+                <td className="pr-6">{formatNumber(point.residualPercent, 2)}</td>
+                {glycerolMassFraction !== null ? (
+                  <>
+                    <td className="pr-6">{formatNumber(point.handbookPaS)}</td>
+                    <td className="pr-6">
+                      {"differencePercent" in point.finding ? `${formatNumber(point.finding.differencePercent, 2)} (±${formatNumber(point.finding.tolerancePercent, 2)})` : "—"}
+                    </td>
+                  </>
+                ) : null}
+                <td>
+                  {point.finding.kind === "not-compared" && glycerolMassFraction !== null ? "outside the handbook's 0–100 °C" : calibrationFindingWords[point.finding.kind]}
+                </td>
               </tr>
             ))}
           </tbody>

@@ -140,7 +140,8 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
         </h2>
         <p>
           <code className="break-words">{partCsvColumns.join(",")}</code>. Units are in the names (mm, g, kg/m³); <code>calibration</code> holds
-          temperature °C : viscosity Pa·s pairs, e.g. <code>20:0.545;25:0.38</code>. Fill only the columns of the row's kind. At most {maxImportRows}{" "}
+          temperature °C : viscosity Pa·s pairs, e.g. <code>20:0.545;25:0.38</code>; <code>glycerol_mass_fraction</code> (0–1, only for a
+          glycerol–water mix) has the calibration checked against handbook values. Fill only the columns of the row's kind. At most {maxImportRows}{" "}
           parts per file.{" "}
           <a href={`${base}/template.csv`} className="font-medium underline" download>
             Download the template

@@ -32,6 +32,8 @@ export type AuditAction =
   | "lab.updated"
   | "lab.published"
   | "lab.closed"
+  | "lab.extension_set"
+  | "lab.extension_removed"
   | "marking.rubric_saved"
   | "marking.rubric_copied"
   | "marking.ready"

@@ -95,6 +95,10 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/labs/:labId/edit", instructorOnly(400)),
   // Hand-in progress names students: instructors, and the TAs of a cohort the lab is set for.
   row("GET", "/courses/:courseId/labs/:labId/dashboard", cohortStaff(200)),
+  // Extensions name students and say why: read by instructors and the TAs of a cohort the lab is set for
+  // (theirs only); set and removed by instructors alone. The probe names no known intent: 400.
+  row("GET", "/courses/:courseId/labs/:labId/extensions", cohortStaff(200)),
+  row("POST", "/courses/:courseId/labs/:labId/extensions", instructorOnly(400)),
   // Students of the lab's cohort (with or without a kit); staff are sent on to the lab's dashboard.
   row("GET", "/courses/:courseId/labs/:labId", { ...anyMember(302), ownStudent: 200, sameCohortStudent: 200, otherCohortStudent: 403 }),
   row("POST", "/courses/:courseId/labs/:labId", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400 }),

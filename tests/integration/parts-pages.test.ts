@@ -68,6 +68,36 @@ describe("parts screens", () => {
     expect((await page(`/courses/${courseId}/parts/${fluidLotId}`, ta)).html).not.toContain("Save the new measurements");
   });
 
+  it("compares a declared glycerol–water lot with the handbook on its page and warns of a mPa·s typed as Pa·s", async () => {
+    // Segur & Oberstar (1951), 85 % glycerol: 109 mPa·s at 20 °C, 58 mPa·s at 30 °C (from memory); the 20 °C value typed as Pa·s.
+    const response = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
+        cookie: instructor,
+        form: { kind: "fluid_lot", label: "GLY-85", fluidName: "glycerol–water 85 %", densityKgM3: "1221", glycerolMassFraction: "0.85", calibrationTemperatureC: ["20", "30"], calibrationViscosityPaS: ["109", "0.058"] },
+      }),
+    );
+    expect(response.status).toBe(302);
+    const { html } = await page(new URL(response.headers.get("location")!, "http://localhost").pathname, instructor);
+    expect(html).toContain("Check these measurements");
+    expect(html).toContain("The viscosity at 20 °C is about 1000 times the handbook value for a glycerol mass fraction of 0.85 (Cheng 2008)");
+    expect(html).toContain("Handbook μ (Pa·s)");
+    expect(html).toContain("unit slip? (mPa·s vs Pa·s)");
+    expect(html).toContain("agrees with the handbook");
+  });
+
+  it("refuses a glycerol mass fraction typed as a percentage, keeping the input", async () => {
+    const response = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
+        cookie: instructor,
+        form: { kind: "fluid_lot", label: "GLY-X", fluidName: "glycerol–water", densityKgM3: "1221", glycerolMassFraction: "85", calibrationTemperatureC: "20", calibrationViscosityPaS: "0.109" },
+      }),
+    );
+    expect(response.status).toBe(400);
+    const html = await response.text();
+    expect(html).toContain("85 % glycerol is 0.85.");
+    expect(html).toMatch(/name="glycerolMassFraction"[^>]*value="85"|value="85"[^>]*name="glycerolMassFraction"/);
+  });
+
   it("answers a bad part with 400, the error beside the field and the typed values kept", async () => {
     const response = await handle(
       appRequest(`/courses/${courseId}/parts/new?kind=sphere`, { cookie: instructor, form: { kind: "sphere", label: "S-1", material: "glass", diameterMm: "", massG: "0.1" } }),

@@ -130,6 +130,55 @@ describe("checks on a sphere", () => {
   });
 });
 
+describe("checks on a fluid lot against handbook data", () => {
+  // Segur & Oberstar (1951), 85 % glycerol by mass: 109 mPa·s at 20 °C, 58 mPa·s at 30 °C (from memory;
+  // matches the stored copy of the table the unit tests use).
+  type FluidLotInput = Extract<PartInput, { kind: "fluid_lot" }>;
+  const mix = (values: Partial<FluidLotInput> = {}): FluidLotInput => ({
+    kind: "fluid_lot",
+    label: "GLY-85",
+    fluidName: "glycerol–water 85 %",
+    densityKgM3: 1221,
+    glycerolMassFraction: 0.85,
+    calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 30, viscosityPaS: 0.058 }],
+    notes: null,
+    ...values,
+  });
+
+  it("stores the declared mass fraction, finds Segur's values in agreement, and warns on a mPa·s typed as Pa·s", async () => {
+    const courseId = await newCourse("P-GLY");
+    const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: mix() });
+    expect(part.glycerolMassFraction).toBeCloseTo(0.85, 6);
+    expect(warnings).toEqual([]);
+    const page = await getPartPage(db, courseId, part.id);
+    expect(page!.calibration!.points.map((point) => point.finding.kind)).toEqual(["agrees", "agrees"]);
+
+    const slipped = mix({ calibration: [{ temperatureC: 20, viscosityPaS: 109 }, { temperatureC: 30, viscosityPaS: 0.058 }] });
+    const updated = await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: slipped });
+    expect(updated!.warnings).toEqual([{ field: "calibration", message: expect.stringMatching(/^The viscosity at 20 °C is about 1000 times the handbook value .* mPa·s typed as Pa·s/) }]);
+    expect((await getPartPage(db, courseId, part.id))!.warnings).toEqual(updated!.warnings);
+  });
+
+  it("warns when the declared fraction does not fit the calibration, and clears the fraction when it is left empty", async () => {
+    const courseId = await newCourse("P-GLY2");
+    // Segur's 85 % values declared as 90 %.
+    const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: mix({ glycerolMassFraction: 0.9 }) });
+    expect(warnings.map((warning) => warning.message)).toEqual([expect.stringMatching(/differs from the handbook value for a glycerol mass fraction of 0\.9 \(Cheng 2008\) by more than its tolerance at 20 °C: -5\d %/)]);
+    // An empty box arrives from zod as undefined; the stored value must still be cleared.
+    const cleared = await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: { ...mix(), glycerolMassFraction: undefined } });
+    expect(cleared!.part.glycerolMassFraction).toBeNull();
+    expect(cleared!.warnings).toEqual([]);
+    const [remeasured] = (await getPart(db, courseId, part.id))!.events;
+    expect(Object.keys(remeasured.detail.changed as object)).toEqual(["glycerolMassFraction"]);
+  });
+
+  it("without a declared mix, warns on a viscosity thicker than any kit fluid", async () => {
+    const courseId = await newCourse("P-GLY3");
+    const { warnings } = await createPart(db, { courseId, actorId: instructorId, input: mix({ glycerolMassFraction: undefined, calibration: [{ temperatureC: 20, viscosityPaS: 540 }, { temperatureC: 25, viscosityPaS: 0.38 }] }) });
+    expect(warnings.map((warning) => warning.message)).toEqual([expect.stringMatching(/at 20 °C is above 100 Pa·s, thicker than any kit fluid/)]);
+  });
+});
+
 describe("CSV import", () => {
   const csvRow = (input: PartInput) => partToCsvRow(input);
   const partCount = async (courseId: string) => (await db.select({ n: count() }).from(parts).where(eq(parts.courseId, courseId)))[0].n;

@@ -24,7 +24,8 @@ export const appOrigin = () => new URL(appUrl()).origin;
 export type AppRequestOptions = {
   method?: string;
   cookie?: string | null;
-  form?: Record<string, string>;
+  /** Form fields; an array sends the field once per value, as repeated inputs do. */
+  form?: Record<string, string | string[]>;
   headers?: Record<string, string>;
   /** The Origin header; the app's own unless given (null leaves it out). */
   origin?: string | null;
@@ -40,7 +41,7 @@ export function appRequest(path: string, options: AppRequestOptions = {}): Reque
     if (origin) headers.set("Origin", origin);
   }
   if (options.ip) headers.set("X-Forwarded-For", options.ip);
-  const body = options.form ? new URLSearchParams(options.form) : undefined;
+  const body = options.form ? new URLSearchParams(Object.entries(options.form).flatMap(([name, value]) => [value].flat().map((one) => [name, one]))) : undefined;
   return new Request(new URL(path, appOrigin()), { method, headers, body, redirect: "manual" });
 }
 

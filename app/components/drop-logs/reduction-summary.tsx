@@ -37,6 +37,21 @@ function methodName(names: Record<string, string>, id: string): string {
   return (names[id] ?? id).replace(/ \(.*\)$/, "");
 }
 
+/** Every wall factor a reduction may apply: the lab's choices, and Di Felice's beyond creeping flow. */
+const appliedWallCorrectionNames: Record<string, string> = { ...wallCorrectionNames, "di-felice": "Di Felice" };
+
+/**
+ * Which wall factor corrected the velocity, and the lab's choice when another stood in for it (the
+ * checks say why). Reductions stored before the applied factor was recorded applied the lab's choice.
+ */
+function wallCorrectionNote(reduction: Reduction): string {
+  const chosen = reduction.method.wallCorrection;
+  const applied = (reduction.velocity as Partial<Reduction["velocity"]>).wallCorrection ?? chosen;
+  if (applied === "none") return "no wall correction";
+  const name = methodName(appliedWallCorrectionNames, applied);
+  return applied === chosen ? name : `${name}, standing in for the lab's ${methodName(appliedWallCorrectionNames, chosen)}`;
+}
+
 const dragCoefficient = (
   <>
     C<sub>D</sub>
@@ -47,7 +62,6 @@ const dragCoefficient = (
 export function ReductionSummary({ reduction, normalisedFigure }: { reduction: Reduction; normalisedFigure: number | null }) {
   const budget = budgetOf(reduction);
   const figureBudget = budget?.normalisedFigure ?? null;
-  const wallCorrection = methodName(wallCorrectionNames, reduction.method.wallCorrection);
   const rows: [key: string, label: ReactNode, value: string, detail?: string][] = [
     ["drops", "Drops", String(reduction.drops.n)],
     ["mean", "Mean time", `${figure(reduction.drops.mean)} s`, reduction.drops.ci95 ? `95 % interval ${figure(reduction.drops.ci95[0])}–${figure(reduction.drops.ci95[1])} s` : undefined],
@@ -55,7 +69,7 @@ export function ReductionSummary({ reduction, normalisedFigure }: { reduction: R
       "velocity",
       "Velocity",
       `${figure(reduction.velocity.measured * 1000)} mm/s`,
-      `wall-corrected ${figure(reduction.velocity.corrected * 1000)} mm/s (${reduction.method.wallCorrection === "none" ? "no wall correction" : wallCorrection})`,
+      `wall-corrected ${figure(reduction.velocity.corrected * 1000)} mm/s (${wallCorrectionNote(reduction)}, K = ${figure(reduction.velocity.wallFactor, 3)})`,
     ],
     ["reynolds", "Reynolds number", figure(reduction.reynolds, 3)],
     [

@@ -53,6 +53,13 @@ export function PartFields({
               hint="dρ/dT, negative (glycerol about −0.65); optional. The density is then corrected to each drop temperature."
             />
           </div>
+          <TextField
+            label="Glycerol mass fraction"
+            unit="0–1"
+            {...field("glycerolMassFraction")}
+            {...number}
+            hint="For a glycerol–water mix only, e.g. 0.85 for 85 % glycerol by mass: the calibration is then checked against handbook values. Leave empty for other fluids."
+          />
           <CalibrationFields key={JSON.stringify(calibration)} rows={calibration} errors={errors} />
         </>
       ) : null}

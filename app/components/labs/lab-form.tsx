@@ -36,7 +36,8 @@ function messagesFor(errors: Errors, name: string): string[] {
   return Object.entries(errors).flatMap(([key, messages]) => (key === name || key.startsWith(`${name}.`) ? (messages ?? []) : []));
 }
 
-function WallClockField({ label, name, defaultValue, timeZone, errors, hint }: { label: string; name: string; defaultValue: string; timeZone: string; errors: Errors; hint?: string }) {
+/** A wall-clock time in the course's zone, with the instant it names shown beside it (also used by the extension forms). */
+export function WallClockField({ label, name, defaultValue, timeZone, errors, hint }: { label: string; name: string; defaultValue: string; timeZone: string; errors: Errors; hint?: string }) {
   const [value, setValue] = useState(defaultValue);
   const instant = value ? wallClockToInstant(value, timeZone) : null;
   return (

@@ -5,6 +5,7 @@ export function LabStaffNav({ courseId, labId, instructor }: { courseId: string;
   const base = `/courses/${courseId}/labs/${labId}`;
   const rooms = [
     { to: `${base}/dashboard`, label: "Hand-ins" },
+    { to: `${base}/extensions`, label: "Extensions" },
     { to: `${base}/comparison`, label: "Class comparison" },
     { to: `${base}/marking`, label: "Marking" },
     ...(instructor

@@ -147,7 +147,7 @@ export const reduceInput = z.object({
     viscosityDegreesOfFreedom: finite.optional(),
     densityTemperatureCoefficient: finite.optional(),
   }),
-  column: z.object({ timedDistance: finite, innerDiameter: finite.optional(), runIn: finite.optional() }),
+  column: z.object({ timedDistance: finite, innerDiameter: finite.optional(), runIn: finite.optional(), marginBelow: finite.optional() }),
   drops: z.array(finite).min(1).max(MAX_DROPS),
   g: finite.optional(),
   wallCorrection: z.enum(["faxen", "haberman-sayre", "francis", "none"]).optional(),

@@ -61,3 +61,14 @@ describe("reduceDropLog — uncertainty inputs", () => {
     expect(old.kitRecords.standardUncertainties.temperature).toBeCloseTo(Math.sqrt(0.5 ** 2 / 12 + 0.5 ** 2 / 3), 12);
   });
 });
+
+describe("reduceDropLog — the column's margin below the lower band", () => {
+  it("passes the recorded margin to the end-effect check, and keeps it with the kit's records", () => {
+    const close = reduceDropLog({ lab, kit: { ...kit, column: { ...kit.column, marginBelowMm: 15 } }, input });
+    // Bore 40 mm: one column radius is 20 mm, more than the 15 mm left below the band (Tanner 1963).
+    expect(close.warnings).toContainEqual(expect.objectContaining({ code: "margin-below-too-short", level: "warn", field: "form" }));
+    expect(close.kitRecords.column.marginBelowMm).toBe(15);
+    const clear = reduceDropLog({ lab, kit: { ...kit, column: { ...kit.column, marginBelowMm: 25 } }, input });
+    expect(clear.warnings.map((warning) => warning.code)).not.toContain("margin-below-too-short");
+  });
+});

@@ -60,6 +60,8 @@ export type ColumnRecord = {
   innerDiameterUncertaintyMm?: number | null;
   timedDistanceMm: number | null;
   runInMm: number | null;
+  /** Fall below the lower band to the bottom; absent or null: not recorded, not checked. */
+  marginBelowMm?: number | null;
 };
 /** The kit the sphere came from, as it stood when the drop log was reduced. */
 export type KitRecord = { number: string; state: KitState };
@@ -85,7 +87,16 @@ export type KitRecords = {
     /** From the lot's fit at the drop temperature: the input in drag mode, the reference in viscometry. */
     viscosityPaS: number | null;
   };
-  column: { id: string; label: string; innerDiameterMm: number | null; innerDiameterUncertaintyMm?: number | null; timedDistanceMm: number; runInMm: number | null };
+  column: {
+    id: string;
+    label: string;
+    innerDiameterMm: number | null;
+    innerDiameterUncertaintyMm?: number | null;
+    timedDistanceMm: number;
+    runInMm: number | null;
+    /** Absent in versions stored before it was read. */
+    marginBelowMm?: number | null;
+  };
   /** The kit and its state at the hand-in; absent in versions stored before it was recorded. */
   kit?: KitRecord;
   gravity: number;
@@ -124,11 +135,16 @@ export const checkFields: Record<ReductionCheck["code"], DropLogField> = {
   "stray-drops": "drops",
   "sphere-lighter-than-fluid": "sphereId",
   "sphere-density-disagrees-with-kit": "sphereId",
+  "near-neutral-buoyancy": "sphereId",
   "run-in-too-short": "sphereId",
   "run-in-unknown": "timedDistanceMm",
+  "margin-below-too-short": "form",
   "diameter-ratio-outside-wall-model": "sphereId",
+  "wall-correction-substituted": "sphereId",
   "wall-correction-not-applied": "form",
+  "wall-effect-neglected": "sphereId",
   "wall-factor-outside-creeping-flow": "form",
+  "reynolds-outside-wall-model": "form",
   "reynolds-outside-drag-model-range": "form",
   "reynolds-too-large-for-stokes": "form",
   "oseen-correction-not-applicable": "form",
@@ -218,6 +234,7 @@ export function reduceDropLog({
       timedDistance: timedDistanceMm! / 1000,
       ...(column.innerDiameterMm !== null ? { innerDiameter: column.innerDiameterMm / 1000 } : {}),
       ...(column.runInMm !== null ? { runIn: column.runInMm / 1000 } : {}),
+      ...(column.marginBelowMm != null ? { marginBelow: column.marginBelowMm / 1000 } : {}),
     },
     drops: input.drops,
     g,
@@ -287,6 +304,7 @@ export function reduceDropLog({
         innerDiameterUncertaintyMm: column.innerDiameterUncertaintyMm ?? null,
         timedDistanceMm: timedDistanceMm!,
         runInMm: column.runInMm,
+        marginBelowMm: column.marginBelowMm ?? null,
       },
       ...(kit.kit ? { kit: kit.kit } : {}),
       gravity: g,

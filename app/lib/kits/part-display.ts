@@ -24,6 +24,7 @@ export const partFieldLabels: Record<string, string> = {
   densityKgM3: "Density (kg/m³)",
   densityUncertaintyKgM3: "Density uncertainty (kg/m³)",
   densityTemperatureCoefficientKgM3K: "dρ/dT (kg/m³ per K)",
+  glycerolMassFraction: "Glycerol mass fraction (0–1)",
   calibration: "Calibration (°C : Pa·s)",
   innerDiameterMm: "Bore (mm)",
   innerDiameterUncertaintyMm: "Bore uncertainty (mm)",

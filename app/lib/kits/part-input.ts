@@ -59,6 +59,15 @@ export const fluidLotInput = z.object({
       .max(0, "Liquids get lighter when warmed: the coefficient is zero or negative.")
       .optional(),
   ),
+  glycerolMassFraction: z.preprocess(
+    (value) => (value === "" || value === null ? undefined : value),
+    z.coerce
+      .number({ error: "Enter glycerol's mass fraction as a number from 0 to 1, e.g. 0.85." })
+      .refine(Number.isFinite, "Enter glycerol's mass fraction as a number from 0 to 1, e.g. 0.85.")
+      .min(0, "A mass fraction runs from 0 to 1.")
+      .max(1, "Enter the mass fraction from 0 to 1: 85 % glycerol is 0.85.")
+      .optional(),
+  ),
   calibration: z
     .array(calibrationPointSchema)
     .min(1, "Add at least one calibration point (temperature and viscosity).")

@@ -8,6 +8,7 @@ const parts: PartInput[] = [
   { kind: "fluid_lot", label: "T-2", fluidName: "syrup, lot 7", densityKgM3: 1380, densityUncertaintyKgM3: 2.5, densityTemperatureCoefficientKgM3K: -0.7, calibration: [{ temperatureC: -5, viscosityPaS: 9 }, { temperatureC: 22.5, viscosityPaS: 2.5 }], notes: 'said "thick"' },
   { kind: "column", label: "T-3", innerDiameterMm: 40, innerDiameterUncertaintyMm: 0.03, timedDistanceMm: 250, runInMm: 150, marginBelowMm: 60, notes: null },
   { kind: "accessory", label: "T 4/b", accessoryType: "thermometer", notes: "=1+1" },
+  { kind: "fluid_lot", label: "T-5", fluidName: "glycerol–water 85 %", densityKgM3: 1221, glycerolMassFraction: 0.85, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }], notes: null },
 ];
 
 /** Reads a CSV as the import page does: header row, every cell text. */
@@ -30,6 +31,11 @@ describe("parts CSV", () => {
     expect(column).toEqual({ ok: false, problems: [expect.stringMatching(/^inner_diameter_uncertainty_mm: /)] });
   });
 
+  it("refuses a glycerol mass fraction written as a percentage, saying how to write it", () => {
+    const lot = csvRowToPartInput({ kind: "fluid_lot", label: "F", fluid_name: "glycerol–water", density_kg_m3: "1221", glycerol_mass_fraction: "85", calibration: "20:0.109" });
+    expect(lot).toEqual({ ok: false, problems: ["glycerol_mass_fraction: Enter the mass fraction from 0 to 1: 85 % glycerol is 0.85."] });
+  });
+
   it("neutralises a formula in the export but keeps the value readable", () => {
     const csv = inventoryCsv([{ ...parts[3], status: "retired", kitNumber: "7" }]);
     expect(readCsv(csv).data[0]).toMatchObject({ notes: "'=1+1", status: "retired", kit_number: "7" });
@@ -38,6 +44,7 @@ describe("parts CSV", () => {
   it("gives a template whose example rows import cleanly", () => {
     const read = readCsv(templateCsv());
     expect(read.meta.fields).toContain("calibration");
+    expect(read.meta.fields).toContain("glycerol_mass_fraction");
     expect(checkImportRows(read.data, []).map((row) => row.problems)).toEqual([[], [], [], []]);
   });
 

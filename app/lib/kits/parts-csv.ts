@@ -19,6 +19,7 @@ export const partCsvColumns = [
   "density_kg_m3",
   "density_uncertainty_kg_m3",
   "density_temperature_coefficient_kg_m3_k",
+  "glycerol_mass_fraction",
   "calibration",
   "inner_diameter_mm",
   "inner_diameter_uncertainty_mm",
@@ -48,6 +49,7 @@ const kindColumns: Record<PartKind, [PartCsvColumn, string][]> = {
     ["density_kg_m3", "densityKgM3"],
     ["density_uncertainty_kg_m3", "densityUncertaintyKgM3"],
     ["density_temperature_coefficient_kg_m3_k", "densityTemperatureCoefficientKgM3K"],
+    ["glycerol_mass_fraction", "glycerolMassFraction"],
     ["calibration", "calibration"],
   ],
   column: [
@@ -102,6 +104,7 @@ export const measuredFields = new Set([
   "densityKgM3",
   "densityUncertaintyKgM3",
   "densityTemperatureCoefficientKgM3K",
+  "glycerolMassFraction",
   "innerDiameterMm",
   "innerDiameterUncertaintyMm",
   "timedDistanceMm",
@@ -212,7 +215,7 @@ const inventoryOnlyColumns: string[] = ["status", "kit_number"];
 /** One example row per kind, so the template shows each kind's columns filled in. */
 const templateParts: PartInput[] = [
   { kind: "sphere", label: "S-01", material: "steel", diameterMm: 3.175, diameterResolutionMm: 0.01, massG: 0.1305, massResolutionG: 0.0001, notes: null },
-  { kind: "fluid_lot", label: "FL-01", fluidName: "glycerol–water 85 %", densityKgM3: 1221, densityUncertaintyKgM3: 1, densityTemperatureCoefficientKgM3K: -0.6, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 25, viscosityPaS: 0.081 }], notes: null },
+  { kind: "fluid_lot", label: "FL-01", fluidName: "glycerol–water 85 %", densityKgM3: 1221, densityUncertaintyKgM3: 1, densityTemperatureCoefficientKgM3K: -0.6, glycerolMassFraction: 0.85, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 25, viscosityPaS: 0.081 }], notes: null },
   { kind: "column", label: "C-01", innerDiameterMm: 32, innerDiameterUncertaintyMm: 0.05, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null },
   { kind: "accessory", label: "M-01", accessoryType: "retrieval magnet", notes: "Keep away from pacemakers." },
 ];

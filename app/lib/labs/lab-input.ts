@@ -46,7 +46,7 @@ export const DEFAULT_REQUIRED_DROPS = 10;
 /** Reminders earlier than a month before the due time are not reminders. */
 export const MAX_REMINDER_OFFSET_HOURS = 720;
 
-const blankToUndefined = (value: unknown) => (typeof value === "string" && value.trim() === "" ? undefined : value);
+export const blankToUndefined = (value: unknown) => (typeof value === "string" && value.trim() === "" ? undefined : value);
 
 const resolution = (what: string, unit: string, max: number) =>
   z.coerce
@@ -74,7 +74,7 @@ const reminderOffsets = z
   });
 
 /** A wall-clock time in `timeZone` as the instant it names, with a message for a mistyped or skipped time. */
-const wallClock = (timeZone: string, what: string) =>
+export const wallClock = (timeZone: string, what: string) =>
   z.string({ error: `Enter the ${what}.` }).transform((text, context) => {
     const result = wallClockToInstant(text, timeZone);
     if (result.ok) return result.instant;

@@ -99,18 +99,32 @@ describe("classComparison — input", () => {
 });
 
 describe("normalisedFigure", () => {
-  it("is measured/reference viscosity in viscometry and C_D/C_D,ref in drag mode", () => {
-    const base = {
-      sphere: { diameter: 2e-3, mass: 32.7e-6 },
-      column: { timedDistance: 0.2, runIn: 0.05 },
-      drops: [20.1, 19.8, 20.3, 20.0],
-    };
-    const viscometry = reduceFallingSphere({ ...base, mode: "viscometry", fluid: { density: 1260 } });
-    if (viscometry.mode !== "viscometry") throw new Error("mode");
-    expect(normalisedFigure(viscometry, { referenceViscosity: viscometry.viscosity / 1.1 })).toBeCloseTo(1.1, 12);
+  // Worked example, wyzant.com answer 929424 (as in falling-sphere.test.ts): a 205 mg sphere of radius
+  // 1.85 mm settling at 3.9 cm/s in glycerol of 1260 kg/m³ gives η = 1.237246 Pa·s (Stokes).
+  const example = {
+    sphere: { diameter: 3.7e-3, mass: 205e-6 },
+    column: { timedDistance: 0.39, runIn: 0.1 },
+    drops: [10, 10, 10, 10, 10],
+    wallCorrection: "none" as const,
+  };
+
+  it("in viscometry is the example's η over a handbook μ_ref: 1.237246/1.412 (glycerol at 20 °C, CRC) = 0.87624", () => {
+    const viscometry = reduceFallingSphere({ ...example, mode: "viscometry", fluid: { density: 1260 } });
+    expect(normalisedFigure(viscometry, { referenceViscosity: 1.412 })).toBeCloseTo(0.87624, 5);
     expect(() => normalisedFigure(viscometry)).toThrow(ReductionInputError);
-    const drag = reduceFallingSphere({ ...base, mode: "drag", fluid: { density: 1260, viscosity: 1.2 } });
-    if (drag.mode !== "drag") throw new Error("mode");
-    expect(normalisedFigure(drag)).toBeCloseTo(1 + drag.deviation, 12);
+  });
+
+  it("in drag mode is 1 against Stokes' law at the example's own viscosity, which it was worked out with", () => {
+    const drag = reduceFallingSphere({ ...example, mode: "drag", fluid: { density: 1260, viscosity: 1.237246215 }, dragModel: "stokes" });
+    expect(normalisedFigure(drag)).toBeCloseTo(1, 8);
+  });
+
+  it("reads the results without stray drops when asked, and all drops when none was flagged", () => {
+    const drops = [10, 10.02, 9.98, 10.01, 9.99, 10, 10.02, 11.5];
+    const drag = reduceFallingSphere({ ...example, drops, mode: "drag", fluid: { density: 1260, viscosity: 1.237246215 }, dragModel: "stokes" });
+    if (drag.mode !== "drag" || !drag.withoutStrayDrops) throw new Error("expected a stray drop");
+    const kept = drag.withoutStrayDrops;
+    expect(normalisedFigure(drag, { withoutStrayDrops: true })).toBe(kept.dragCoefficient / kept.referenceDragCoefficient);
+    expect(normalisedFigure(drag, { withoutStrayDrops: true })).not.toBe(normalisedFigure(drag));
   });
 });

@@ -1,9 +1,21 @@
 import { DRAG_MODEL_RANGES, referenceDragCoefficient, referenceDragLogSlope, type DragModel } from "./drag";
-import { IssueList } from "./errors";
+import { IssueList, ReductionInputError } from "./errors";
+import { relaxationTime as relaxationTimeOf, RUN_IN_VELOCITY_FRACTION, runInLength } from "./run-in";
 import { describeDrops, type DropStatistics } from "./statistics";
 import { findStrayDrops } from "./stray-drops";
-import { fallingSphereBudget, wallFactorElasticity, type UncertaintyBudget } from "./uncertainty-budget";
-import { WALL_MODEL_RANGES, wallFactor, type WallCorrectionMethod } from "./wall";
+import { fallingSphereBudget, type UncertaintyBudget } from "./uncertainty-budget";
+import {
+  CREEPING_FLOW_WALL_TOLERANCE,
+  DI_FELICE_MAX_REYNOLDS,
+  diFeliceWallFactor,
+  inertialWallShift,
+  resolveWallCorrection,
+  WALL_MODEL_RANGES,
+  wallFactor,
+  type AppliedWallCorrection,
+  type WallCorrection,
+  type WallCorrectionMethod,
+} from "./wall";
 
 export type ReductionMode = "drag" | "viscometry";
 
@@ -82,11 +94,14 @@ export interface FallingSphereInput {
     innerDiameter?: number;
     /** Fall above the top band, from release to the start of timing. */
     runIn?: number;
+    /** Fall left below the lower band, to the bottom of the column. */
+    marginBelow?: number;
   };
   /** Drop times over the timed distance (s). */
   drops: readonly number[];
   /** Local gravity, 9.80665 m/s² (standard gravity) unless the course sets its own. */
   g?: number;
+  /** The lab's wall factor, Faxén's by default; where it does not hold another stands in (see `resolveWallCorrection`). */
   wallCorrection?: WallCorrectionMethod;
   dragModel?: DragModel;
   uncertainties?: StandardUncertainties;
@@ -111,11 +126,16 @@ export type ReductionCheckCode =
   | "stray-drops"
   | "sphere-lighter-than-fluid"
   | "sphere-density-disagrees-with-kit"
+  | "near-neutral-buoyancy"
   | "run-in-too-short"
   | "run-in-unknown"
+  | "margin-below-too-short"
   | "diameter-ratio-outside-wall-model"
+  | "wall-correction-substituted"
   | "wall-correction-not-applied"
+  | "wall-effect-neglected"
   | "wall-factor-outside-creeping-flow"
+  | "reynolds-outside-wall-model"
   | "reynolds-outside-drag-model-range"
   | "reynolds-too-large-for-stokes"
   | "oseen-correction-not-applicable"
@@ -131,8 +151,14 @@ export interface DropResults extends DropStatistics {
 export interface VelocityResults {
   /** L / t̄ (m/s). */
   measured: number;
-  /** K(d/D) = v/v∞ from the chosen wall model (1 without a column diameter or with `none`). */
+  /** K(d/D) = v/v∞ from the applied wall model (1 without a column diameter or with `none`). */
   wallFactor: number;
+  /**
+   * The factor applied: the lab's choice where it holds, else the published one that covers the case
+   * (Haberman–Sayre or Francis for a large d/D, Di Felice beyond creeping flow). Absent in reductions
+   * stored before it was recorded, which applied the lab's choice.
+   */
+  wallCorrection: AppliedWallCorrection;
   /** v∞ = v/K (m/s). */
   corrected: number;
 }
@@ -195,9 +221,11 @@ interface ReductionBase {
   drops: DropResults;
   /** F = |ρs − ρf| g πd³/6 (N). */
   dragForce: number;
-  /** Stokes relaxation time τ = ρs d²/(18μ) (s) and length v∞τ (m). */
+  /** Stokes relaxation time with added mass, τ = (ρs + ½ρf) d²/(18μ) (s), and length v∞τ (m). */
   relaxationTime: number;
   relaxationLength: number;
+  /** Fall from rest to 99 % of v∞ (m): 3.6 v∞τ in Stokes flow, the quasi-steady approach beyond (see `runInLength`). */
+  runInNeeded: number;
   uncertainty: ReductionUncertainty;
   /** The GUM budget of the main result (C_D or μ) with all drops, and of the normalised figure. */
   uncertaintyBudget: UncertaintyBudget;
@@ -221,8 +249,23 @@ export interface ViscometryReduction extends ReductionBase, ViscometryKeyResults
 export type Reduction = DragReduction | ViscometryReduction;
 
 const STANDARD_GRAVITY = 9.80665;
-// Common practice: after five relaxation lengths the exponential approach is within e⁻⁵ ≈ 0.7 % of v∞.
-const RUN_IN_RELAXATION_LENGTHS = 5;
+/** The wall slowing a sphere by more than this is worth saying when no correction was chosen (our threshold). */
+const NEGLIGIBLE_WALL_EFFECT = 0.01;
+/**
+ * Near-neutral buoyancy: Δρ = ρs − ρf known to worse than 10 % (|Δρ| < 10 u(Δρ)) is warned about, as it
+ * then dominates the result's uncertainty (our threshold); under 2 u(Δρ), about 95 % coverage for a
+ * normal distribution (GUM G.1.3), its sign is not known and the reduction is refused.
+ */
+const NEAR_NEUTRAL_BUOYANCY_RATIO = 10;
+const UNKNOWN_SIGN_COVERAGE_FACTOR = 2;
+/** How the engine's messages name each wall factor. */
+const WALL_FACTOR_NAMES: Record<AppliedWallCorrection, string> = {
+  faxen: "Faxén's series",
+  "haberman-sayre": "Haberman–Sayre's factor",
+  francis: "Francis' factor",
+  "di-felice": "Di Felice's factor",
+  none: "no correction",
+};
 const MODES: readonly string[] = ["drag", "viscometry"];
 const WALL_METHODS: readonly string[] = ["faxen", "haberman-sayre", "francis", "none"];
 const DRAG_MODELS: readonly string[] = ["stokes", "oseen", "schiller-naumann"];
@@ -255,7 +298,6 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
   const dragForce = densityExcess * g * volume;
 
   const diameterRatio = column.innerDiameter !== undefined ? d / column.innerDiameter : null;
-  const K = diameterRatio !== null ? wallFactor(diameterRatio, wallMethod) : 1;
 
   // --- drops and stray drops
   const n = times.length;
@@ -267,7 +309,11 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
 
   const physics: PhysicsContext = {
     timedDistance: L,
-    wallFactor: K,
+    diameterRatio,
+    wallMethod,
+    // Re∞ = ρf d v∞/μ with the fluid's μ in drag mode; in viscometry μ is the Stokes result, so Re∞ = 18ρf v∞²/(Δρ g d).
+    reynoldsScale: mode === "drag" ? (ρf * d) / (fluid.viscosity as number) : (18 * ρf) / (densityExcess * g * d),
+    reynoldsPower: mode === "drag" ? 1 : 2,
     diameter: d,
     fluidDensity: ρf,
     densityExcess,
@@ -278,17 +324,20 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
   };
   const excluded = strayDrops.length > 0 ? new Uint8Array(n) : null;
   if (excluded) for (const index of strayDrops) excluded[index] = 1;
-  const main = mode === "drag" ? dragKeyResults(stats, physics) : viscometryKeyResults(stats, physics);
-  const withoutStrayDrops = excluded
-    ? mode === "drag"
-      ? dragKeyResults(describeDrops(times, excluded), physics)
-      : viscometryKeyResults(describeDrops(times, excluded), physics)
-    : null;
+  const wall = wallCorrectionAt(stats, physics);
+  const main = mode === "drag" ? dragKeyResults(stats, wall, physics) : viscometryKeyResults(stats, wall, physics);
+  let withoutStrayDrops: DragKeyResults | ViscometryKeyResults | null = null;
+  if (excluded) {
+    const kept = describeDrops(times, excluded);
+    const keptWall = wallCorrectionAt(kept, physics);
+    withoutStrayDrops = mode === "drag" ? dragKeyResults(kept, keptWall, physics) : viscometryKeyResults(kept, keptWall, physics);
+  }
   const fluidViscosity = fluid.viscosity;
 
   const μ = mode === "drag" ? (fluidViscosity as number) : (main as ViscometryKeyResults).viscosity;
-  const relaxationTime = (ρs * d * d) / (18 * μ);
+  const relaxationTime = relaxationTimeOf(ρs, ρf, d, μ);
   const relaxationLength = main.velocity.corrected * relaxationTime;
+  const runInNeeded = runInLength({ sphereDensity: ρs, fluidDensity: ρf, g, terminalVelocity: main.velocity.corrected, reynolds: main.reynolds, relaxationTime });
 
   // --- uncertainty (GUM first order: relative uncertainties in quadrature, weighted by exponents)
   const uDiameter = (given?.diameter ?? DEFAULT_STANDARD_UNCERTAINTIES.diameter) / d;
@@ -370,6 +419,21 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     }
   }
 
+  // --- near-neutral buoyancy: Δρ against its standard uncertainty from ρs's inputs and ρf's (with u(T) through dρf/dT)
+  // Squares summed by hand, not Math.hypot: this runs once per drop log of a class page.
+  const uFluidDensityGiven = given?.fluidDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidDensity;
+  const uFluidDensityByTemperature = fluid.temperature !== undefined ? (fluid.densityTemperatureCoefficient ?? 0) * uTemperature : 0;
+  const uSphereDensityAbsolute = uncertainty.sphereDensity * ρs;
+  const uDensityExcess = Math.sqrt(uSphereDensityAbsolute * uSphereDensityAbsolute + uFluidDensityGiven * uFluidDensityGiven + uFluidDensityByTemperature * uFluidDensityByTemperature);
+  if (densityExcess < UNKNOWN_SIGN_COVERAGE_FACTOR * uDensityExcess) {
+    throw new ReductionInputError([
+      {
+        path: "sphere",
+        message: `ρs − ρf = ${format(ρs - ρf)} kg/m³ is within twice its standard uncertainty (2u = ${format(2 * uDensityExcess)} kg/m³, about 95 % coverage): whether the sphere sinks or rises cannot be told. Weigh it more finely, or use a sphere much denser or lighter than the fluid`,
+      },
+    ]);
+  }
+
   const uncertaintyBudget = fallingSphereBudget({
     mode,
     value: mode === "drag" ? main.dragCoefficient : (main as ViscometryKeyResults).viscosity,
@@ -383,7 +447,7 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     distance: { value: L, u: given?.distance ?? DEFAULT_STANDARD_UNCERTAINTIES.distance },
     meanTime: { value: stats.mean, typeA: stats.se, typeB, n },
     column: column.innerDiameter !== undefined ? { value: column.innerDiameter, u: given?.columnDiameter ?? DEFAULT_STANDARD_UNCERTAINTIES.columnDiameter } : null,
-    wallElasticity: diameterRatio !== null && wallMethod !== "none" ? wallFactorElasticity(wallMethod, diameterRatio) : 0,
+    wall: { byDiameterRatio: wall.byDiameterRatio, byReynolds: wall.byReynolds, reynoldsPower: physics.reynoldsPower },
     temperature: fluid.temperature !== undefined ? { value: fluid.temperature, u: uTemperature } : null,
     reference: budgetReference(mode, main, fluid, given, dragModel),
   });
@@ -424,17 +488,31 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
       });
     }
   }
+  if (densityExcess < NEAR_NEUTRAL_BUOYANCY_RATIO * uDensityExcess) {
+    checks.push({
+      code: "near-neutral-buoyancy",
+      level: "warn",
+      message: `Near-neutral buoyancy: ρs − ρf = ${format(ρs - ρf)} kg/m³ with a standard uncertainty of ${format(uDensityExcess)} kg/m³ (${formatPercent(uDensityExcess / densityExcess, false)}), which then dominates the uncertainty of every result; a small change of the fluid's temperature shifts it too.`,
+    });
+  }
   if (column.runIn === undefined) {
     checks.push({
       code: "run-in-unknown",
       level: "info",
-      message: `No run-in distance given; terminal velocity needs about ${format(RUN_IN_RELAXATION_LENGTHS * relaxationLength)} m of fall above the top band.`,
+      message: `No run-in distance given; the sphere needs about ${format(runInNeeded)} m of fall from release to reach ${RUN_IN_VELOCITY_FRACTION * 100} % of its terminal velocity (${runInBasis(runInNeeded, relaxationLength, relaxationTime, main.reynolds)}).`,
     });
-  } else if (column.runIn < RUN_IN_RELAXATION_LENGTHS * relaxationLength) {
+  } else if (column.runIn < runInNeeded) {
     checks.push({
       code: "run-in-too-short",
       level: "warn",
-      message: `The run-in (${format(column.runIn)} m) is shorter than ${RUN_IN_RELAXATION_LENGTHS} relaxation lengths (${format(RUN_IN_RELAXATION_LENGTHS * relaxationLength)} m, with τ = ρs d²/(18μ) = ${format(relaxationTime)} s): the sphere may not have reached terminal velocity.`,
+      message: `The run-in (${format(column.runIn)} m) is shorter than the ${format(runInNeeded)} m the sphere needs to reach ${RUN_IN_VELOCITY_FRACTION * 100} % of its terminal velocity (${runInBasis(runInNeeded, relaxationLength, relaxationTime, main.reynolds)}): it may still be speeding up in the timed distance.`,
+    });
+  }
+  if (column.marginBelow !== undefined && column.innerDiameter !== undefined && column.marginBelow < column.innerDiameter / 2) {
+    checks.push({
+      code: "margin-below-too-short",
+      level: "warn",
+      message: `The lower band is ${format(column.marginBelow)} m above the bottom, less than one column radius (${format(column.innerDiameter / 2)} m): the bottom already slows the sphere before it reaches the band (end effect; Tanner 1963, J. Fluid Mech. 17, 161–170).`,
     });
   }
   if (wallMethod !== "none" && diameterRatio === null) {
@@ -444,29 +522,14 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
       message: "No column inner diameter given: no wall correction was applied (K = 1).",
     });
   }
-  if (wallMethod !== "none" && diameterRatio !== null) {
-    const range = WALL_MODEL_RANGES[wallMethod];
-    if (diameterRatio > range.maxDiameterRatio) {
-      checks.push({
-        code: "diameter-ratio-outside-wall-model",
-        level: "warn",
-        message: `d/D = ${format(diameterRatio)} is beyond the usual range of the ${wallMethod} wall factor (d/D ≤ ${range.maxDiameterRatio}; ${range.source}).`,
-      });
-    }
-    if (main.reynolds > 1) {
-      checks.push({
-        code: "wall-factor-outside-creeping-flow",
-        level: "info",
-        message: `Re = ${format(main.reynolds)}: the ${wallMethod} wall factor is a creeping-flow (Re ≪ 1) result and overstates the wall effect here.`,
-      });
-    }
-  }
+  if (diameterRatio !== null) wallChecks(checks, diameterRatio, wallMethod, wall, main.velocity.measured, physics);
   if (mode === "drag") {
     const range = DRAG_MODEL_RANGES[dragModel];
+    // Past the most accurate range the reference already drifts by several per cent: a warning too, as the brief asks.
     if (main.reynolds > range.infoAbove) {
       checks.push({
         code: "reynolds-outside-drag-model-range",
-        level: main.reynolds > range.warnAbove ? "warn" : "info",
+        level: "warn",
         message: `Re = ${format(main.reynolds)} is above the ${main.reynolds > range.warnAbove ? "range" : "most accurate range"} of the ${dragModel} drag law (Re ≤ ${main.reynolds > range.warnAbove ? range.warnAbove : range.infoAbove}; ${range.source}).`,
       });
     }
@@ -475,7 +538,7 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     if (main.reynolds > 0.1) {
       checks.push({
         code: "reynolds-too-large-for-stokes",
-        level: main.reynolds > 1 ? "warn" : "info",
+        level: "warn",
         message: `Re = ${format(main.reynolds)}: Stokes' law underestimates the drag by about 3Re/16 = ${formatPercent((3 * main.reynolds) / 16, false)} (Oseen), so the Stokes viscosity is high; compare the Oseen-corrected value.`,
       });
     }
@@ -524,6 +587,7 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
       deviation: drag.deviation,
       relaxationTime,
       relaxationLength,
+      runInNeeded,
       withoutStrayDrops: withoutStrayDrops as DragKeyResults | null,
       uncertainty,
       uncertaintyBudget,
@@ -546,11 +610,73 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
     viscosityOseen: viscometry.viscosityOseen,
     relaxationTime,
     relaxationLength,
+    runInNeeded,
     withoutStrayDrops: withoutStrayDrops as ViscometryKeyResults | null,
     uncertainty,
     uncertaintyBudget,
     checks,
   };
+}
+
+/** How the run-in was estimated, for a check's message (built only when a check is given: it formats numbers). */
+function runInBasis(runInNeeded: number, relaxationLength: number, relaxationTime: number, reynolds: number): string {
+  return reynolds <= 0.1
+    ? `${format(runInNeeded / relaxationLength)} relaxation lengths, with τ = (ρs + ½ρf) d²/(18μ) = ${format(relaxationTime)} s`
+    : `the approach with added mass and the standard drag curve at Re = ${format(reynolds)}`;
+}
+
+/**
+ * The wall factor's checks: which factor was applied when it is not the lab's choice, how much the
+ * wall slows the sphere when no correction was chosen, and loudly (an error) a d/D no model covers.
+ * Such a hand-in is still reduced, with the nearest model extrapolated: the times are measured data
+ * the student must be able to hand in, and staff see the error on it, where a refusal would hide it.
+ */
+function wallChecks(checks: ReductionCheck[], diameterRatio: number, chosen: WallCorrectionMethod, wall: WallCorrection, measuredVelocity: number, physics: PhysicsContext): void {
+  let beyondCreepingFlow = wall.applied === "di-felice";
+  let factor = wall.factor;
+  if (chosen === "none") {
+    // What the wall does, as the reduction would have corrected it; at the measured velocity's Re, an estimate.
+    const reynolds = physics.reynoldsScale * (physics.reynoldsPower === 1 ? measuredVelocity : measuredVelocity * measuredVelocity);
+    beyondCreepingFlow = inertialWallShift(diameterRatio, reynolds) > CREEPING_FLOW_WALL_TOLERANCE;
+    const estimate: AppliedWallCorrection = beyondCreepingFlow ? "di-felice" : diameterRatio <= WALL_MODEL_RANGES["haberman-sayre"].maxDiameterRatio ? "haberman-sayre" : "francis";
+    factor = estimate === "di-felice" ? diFeliceWallFactor(diameterRatio, reynolds) : wallFactor(diameterRatio, estimate);
+    if (1 - factor > NEGLIGIBLE_WALL_EFFECT) {
+      checks.push({
+        code: "wall-effect-neglected",
+        level: "warn",
+        message: `No wall correction was chosen, but at d/D = ${format(diameterRatio)} the wall slows the sphere to about K = ${format(factor)} of its unbounded velocity (${WALL_FACTOR_NAMES[estimate]}): the results are computed from a velocity ${formatPercent(1 - factor, false)} below v∞.`,
+      });
+    }
+  } else if (wall.applied === "di-felice") {
+    const creepingValue = diameterRatio <= WALL_MODEL_RANGES[chosen].maxDiameterRatio ? `; ${WALL_FACTOR_NAMES[chosen]} would give K = ${format(wallFactor(diameterRatio, chosen))}` : "";
+    checks.push({
+      code: "wall-factor-outside-creeping-flow",
+      level: "warn",
+      message: `Re = ${format(wall.reynolds)} is beyond the creeping flow ${WALL_FACTOR_NAMES[chosen]} assumes: at d/D = ${format(diameterRatio)} inertia weakens the wall effect by more than ${formatPercent(CREEPING_FLOW_WALL_TOLERANCE, false)} in K, so Di Felice's (1996) factor for finite Re was used, K = ${format(wall.factor)}${creepingValue}.`,
+    });
+    if (wall.reynolds > DI_FELICE_MAX_REYNOLDS) {
+      checks.push({
+        code: "reynolds-outside-wall-model",
+        level: "warn",
+        message: `Re = ${format(wall.reynolds)} is above the range Di Felice's wall factor was fitted to (Re ≤ ${DI_FELICE_MAX_REYNOLDS}; ${WALL_MODEL_RANGES["di-felice"].source}): K = ${format(wall.factor)} is extrapolated.`,
+      });
+    }
+  } else if (wall.applied !== chosen) {
+    const range = WALL_MODEL_RANGES[chosen];
+    checks.push({
+      code: "wall-correction-substituted",
+      level: "warn",
+      message: `d/D = ${format(diameterRatio)} is beyond the range of ${WALL_FACTOR_NAMES[chosen]} (d/D ≤ ${range.maxDiameterRatio}; ${range.source}), which would give K = ${format(wallFactor(diameterRatio, chosen))}: ${WALL_FACTOR_NAMES[wall.applied]} (to d/D ≤ ${WALL_MODEL_RANGES[wall.applied as Exclude<AppliedWallCorrection, "none">].maxDiameterRatio}) was used instead, K = ${format(wall.factor)}.`,
+    });
+  }
+  const widest = beyondCreepingFlow ? WALL_MODEL_RANGES["di-felice"] : WALL_MODEL_RANGES.francis;
+  if (diameterRatio > widest.maxDiameterRatio) {
+    checks.push({
+      code: "diameter-ratio-outside-wall-model",
+      level: "error",
+      message: `d/D = ${format(diameterRatio)} is beyond every wall factor's range (${beyondCreepingFlow ? "beyond creeping flow, Di Felice's" : "in creeping flow, Francis'"} reaches d/D ≤ ${widest.maxDiameterRatio}; ${widest.source})${chosen === "none" ? "" : `: K = ${format(factor)} is extrapolated`}, and the results are not reliable. Use a smaller sphere or a wider column.`,
+    });
+  }
 }
 
 /** What the normalised figure's reference depends on: the drag law at Re, or the lot's μ_ref(T). */
@@ -576,7 +702,11 @@ function budgetReference(
 
 interface PhysicsContext {
   timedDistance: number;
-  wallFactor: number;
+  diameterRatio: number | null;
+  wallMethod: WallCorrectionMethod;
+  /** Re∞ = reynoldsScale · v∞^reynoldsPower (see `resolveWallCorrection`). */
+  reynoldsScale: number;
+  reynoldsPower: 1 | 2;
   diameter: number;
   fluidDensity: number;
   densityExcess: number;
@@ -586,9 +716,18 @@ interface PhysicsContext {
   dragModel: DragModel;
 }
 
-function velocityResults(drops: DropStatistics, physics: PhysicsContext): VelocityResults {
+/** No column: nothing to correct for. */
+const NO_WALL: WallCorrection = { factor: 1, applied: "none", reynolds: 0, iterations: 0, byDiameterRatio: 0, byReynolds: 0 };
+
+/** The wall factor for a mean time: Di Felice's depends on the velocity, so each set of drops gets its own. */
+function wallCorrectionAt(drops: DropStatistics, physics: PhysicsContext): WallCorrection {
+  if (physics.diameterRatio === null) return NO_WALL;
+  return resolveWallCorrection(physics.diameterRatio, physics.wallMethod, physics.timedDistance / drops.mean, physics.reynoldsScale, physics.reynoldsPower);
+}
+
+function velocityResults(drops: DropStatistics, wall: WallCorrection, physics: PhysicsContext): VelocityResults {
   const measured = physics.timedDistance / drops.mean;
-  return { measured, wallFactor: physics.wallFactor, corrected: measured / physics.wallFactor };
+  return { measured, wallFactor: wall.factor, wallCorrection: wall.applied, corrected: measured / wall.factor };
 }
 
 /** C_D = F / (½ρf v∞² · πd²/4). */
@@ -597,8 +736,8 @@ function dragCoefficientAt(corrected: number, physics: PhysicsContext): number {
   return physics.dragForce / (0.5 * ρf * corrected * corrected * ((Math.PI * d * d) / 4));
 }
 
-function dragKeyResults(drops: DropStatistics, physics: PhysicsContext): DragKeyResults {
-  const velocity = velocityResults(drops, physics);
+function dragKeyResults(drops: DropStatistics, wall: WallCorrection, physics: PhysicsContext): DragKeyResults {
+  const velocity = velocityResults(drops, wall, physics);
   const dragCoefficient = dragCoefficientAt(velocity.corrected, physics);
   const reynolds = (physics.fluidDensity * velocity.corrected * physics.diameter) / physics.fluidViscosity;
   const reference = referenceDragCoefficient(reynolds, physics.dragModel);
@@ -612,8 +751,8 @@ function dragKeyResults(drops: DropStatistics, physics: PhysicsContext): DragKey
   };
 }
 
-function viscometryKeyResults(drops: DropStatistics, physics: PhysicsContext): ViscometryKeyResults {
-  const velocity = velocityResults(drops, physics);
+function viscometryKeyResults(drops: DropStatistics, wall: WallCorrection, physics: PhysicsContext): ViscometryKeyResults {
+  const velocity = velocityResults(drops, wall, physics);
   const { diameter: d, fluidDensity: ρf } = physics;
   const viscosity = (physics.densityExcess * physics.g * d * d) / (18 * velocity.corrected);
   const oseen = viscosity - (3 * ρf * velocity.corrected * d) / 16;
@@ -692,6 +831,7 @@ function validate(input: FallingSphereInput): void {
   issues.positive("column.timedDistance", column.timedDistance);
   issues.optionalPositive("column.innerDiameter", column.innerDiameter);
   issues.optionalNonNegative("column.runIn", column.runIn);
+  issues.optionalNonNegative("column.marginBelow", column.marginBelow);
   if (!Array.isArray(input.drops) || input.drops.length === 0) {
     issues.add("drops", "at least one drop time is needed");
   } else {
@@ -732,16 +872,8 @@ function validate(input: FallingSphereInput): void {
   if (ρs === fluid.density) {
     issues.add("sphere", "the sphere has the fluid's density: a neutrally buoyant sphere does not settle");
   }
-  if (column.innerDiameter !== undefined) {
-    const ratio = sphere.diameter / column.innerDiameter;
-    if (ratio >= 1) {
-      issues.add("column.innerDiameter", "must be larger than the sphere diameter");
-    } else if (wallFactor(ratio, input.wallCorrection ?? "faxen") <= 0) {
-      issues.add(
-        "wallCorrection",
-        `the ${input.wallCorrection ?? "faxen"} wall factor is not positive at d/D = ${format(ratio)}; use haberman-sayre or francis`,
-      );
-    }
+  if (column.innerDiameter !== undefined && sphere.diameter >= column.innerDiameter) {
+    issues.add("column.innerDiameter", "must be larger than the sphere diameter");
   }
   issues.throwIfAny();
 }

@@ -64,6 +64,7 @@ const perturbations: Record<string, Perturbation> = {
   // Shifting every drop by h moves the mean by h and leaves the scatter as it is.
   "Timing, common to all drops (resolution)": (input, h) => ({ ...input, drops: input.drops.map((time) => time + h) }),
   "Column bore D": (input, h) => ({ ...input, column: { ...input.column, innerDiameter: (input.column.innerDiameter as number) + h } }),
+  "Fluid viscosity at T from the lot's calibration": (input, h) => ({ ...input, fluid: { ...input.fluid, viscosity: (input.fluid.viscosity as number) + h } }),
 };
 
 function numericSensitivity(input: FallingSphereInput, perturb: Perturbation, h: number, result: (reduction: Reduction) => number): number {
@@ -191,6 +192,50 @@ describe("uncertaintyBudget of a viscometry reduction (μ)", () => {
     const reduction = reduceFallingSphere({ ...VISCOMETRY_LOG, drops: [20] });
     expect(reduction.uncertaintyBudget.rows.some((row) => row.type === "A")).toBe(false);
     expect(reduction.uncertaintyBudget.effectiveDegreesOfFreedom).toBe(Infinity);
+  });
+});
+
+describe("uncertaintyBudget beyond creeping flow, with Di Felice's wall factor", () => {
+  // A 10 mm glass sphere (m = 1.309 g, ρs ≈ 2500 kg/m³) in a 50 mm column at Re∞ ≈ 170: K depends on
+  // Re∞ and so on every input of Re, the fluid viscosity included, through the fixed point v∞ = v/K(Re∞).
+  const FAST: FallingSphereInput = {
+    mode: "drag",
+    sphere: { diameter: 0.01, mass: 1.309e-3 },
+    fluid: { density: 1000, viscosity: 0.02, temperature: 20, viscosityTemperatureCoefficient: -0.03 },
+    column: { timedDistance: 0.5, innerDiameter: 0.05, runIn: 0.4 },
+    drops: [1.73, 1.74, 1.735, 1.738, 1.732, 1.736],
+    wallCorrection: "haberman-sayre",
+    uncertainties: { diameter: 5e-6, mass: 1e-6, fluidDensity: 0.5, distance: 5e-4, time: 0.003, columnDiameter: 5e-5, fluidViscosity: 4e-4, temperature: 0 },
+  };
+
+  it("has each sensitivity of C_D equal to a central difference, the viscosity's too (d, m, ρf, L, t, D, μ)", () => {
+    expect(reduceFallingSphere(FAST).velocity.wallCorrection).toBe("di-felice");
+    expect(expectSensitivitiesToMatch(FAST, (r) => r.dragCoefficient)).toBe(7);
+  });
+
+  it("gives C_D/C_D,ref the combined uncertainty of central differences over every input", () => {
+    const reduction = reduceFallingSphere(FAST);
+    const figure = (r: Reduction) => normalisedFigure(r);
+    const u = FAST.uncertainties!;
+    const typeA = reduction.drops.se!;
+    const terms: [Perturbation, number, number][] = [
+      [perturbations["Sphere diameter d"], 0.01, u.diameter!],
+      [perturbations["Sphere mass m"], 1.309e-3, u.mass!],
+      [perturbations["Fluid density ρf"], 1000, u.fluidDensity!],
+      [perturbations["Timed distance L"], 0.5, u.distance!],
+      [perturbations["Timing, common to all drops (resolution)"], reduction.drops.mean, Math.hypot(typeA, u.time!)],
+      [perturbations["Column bore D"], 0.05, u.columnDiameter!],
+      [perturbations["Fluid viscosity at T from the lot's calibration"], 0.02, u.fluidViscosity!],
+    ];
+    const numeric = Math.sqrt(terms.reduce((sum, [perturb, value, standard]) => sum + (numericSensitivity(FAST, perturb, value * 1e-6, figure) * standard) ** 2, 0));
+    expect(reduction.uncertaintyBudget.normalisedFigure!.combined / numeric).toBeCloseTo(1, 5);
+  });
+
+  it("has each sensitivity of the Stokes μ equal to a central difference in viscometry, where Re∞ ∝ v∞²", () => {
+    const viscometry: FallingSphereInput = { ...FAST, mode: "viscometry", fluid: { density: 1000, temperature: 20, referenceViscosity: 0.02 } };
+    const reduction = reduceFallingSphere(viscometry);
+    expect(reduction.velocity.wallCorrection).toBe("di-felice");
+    expect(expectSensitivitiesToMatch(viscometry, (r) => (r.mode === "viscometry" ? r.viscosity : NaN))).toBe(6);
   });
 });
 

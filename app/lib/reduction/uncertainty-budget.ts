@@ -1,5 +1,4 @@
 import { tQuantile975 } from "./statistics";
-import { wallFactor, type WallCorrectionMethod } from "./wall";
 
 /**
  * A GUM uncertainty budget (JCGM 100:2008): one row per input quantity, combined in quadrature under
@@ -125,21 +124,38 @@ export interface FallingSphereBudgetContext {
   meanTime: { value: number; typeA: number | null; typeB: number; n: number };
   /** Column bore; null without one (no wall correction). */
   column: { value: number; u: number } | null;
-  /** d ln K/d ln λ of the wall factor at d/D; 0 without a correction. */
-  wallElasticity: number;
+  /**
+   * The applied wall factor's partial log-derivatives: ∂ln K/∂ln λ and ∂ln K/∂ln Re∞ (0 for a
+   * creeping-flow factor), with Re∞ ∝ v∞ (drag) or v∞² (viscometry): its `reynoldsPower`.
+   */
+  wall: { byDiameterRatio: number; byReynolds: number; reynoldsPower: 1 | 2 };
   temperature: { value: number; u: number } | null;
   /** Drag mode: Re and d ln C_D,ref/d ln Re, the fluid viscosity and its calibration uncertainty. Viscometry: μ_ref(T). */
   reference:
-    | { kind: "drag"; ratio: number; slope: number; viscosity: { value: number; u: number; degreesOfFreedom: number; temperatureCoefficient: number } }
-    | { kind: "viscometry"; viscosity: { value: number; u: number; degreesOfFreedom: number; temperatureCoefficient: number } }
+    | { kind: "drag"; ratio: number; slope: number; viscosity: LotViscosity }
+    | { kind: "viscometry"; viscosity: LotViscosity }
     | null;
+}
+
+/** The lot's viscosity at T from its calibration, with what carries its uncertainty. */
+interface LotViscosity {
+  value: number;
+  u: number;
+  degreesOfFreedom: number;
+  /** d ln μ/dT (1/K). */
+  temperatureCoefficient: number;
 }
 
 /**
  * The budget of a falling-sphere result. Both results are products of powers of the inputs, so each
  * sensitivity is y·e/x with e the exponent (C_D ∝ Δρ ρf⁻¹ d L⁻² t̄² K², μ ∝ Δρ d² t̄ K L⁻¹), the density
- * difference Δρ = |ρs − ρf| split between ρs and ρf, and the wall factor's dependence on d and D through
- * λ = d/D (d ln K/d ln λ, taken numerically by {@link wallFactorElasticity}).
+ * difference Δρ = |ρs − ρf| split between ρs and ρf.
+ *
+ * The wall factor K depends on λ = d/D and, beyond creeping flow (Di Felice's factor), on Re∞ of the
+ * corrected velocity, which depends on K in turn: Re∞ = Re₀ K^(−p) with Re₀ the Reynolds number of the
+ * measured velocity (p = 1 in drag mode, Re₀ ∝ ρf d L t̄⁻¹ μ⁻¹; p = 2 in viscometry, Re₀ ∝ ρf L² t̄⁻²
+ * Δρ⁻¹ d⁻¹). Solving d ln K = ε_λ d ln λ + ε_R (d ln Re₀ − p d ln K) gives K's total dependence,
+ * d ln K = (ε_λ d ln λ + ε_R d ln Re₀)/(1 + p ε_R), which is folded into the exponents of the inputs.
  *
  * Correlation: the type B term of a timing (stopwatch resolution and reaction) is treated as fully
  * correlated between the drops, so the mean time carries it undivided, u_B(t̄) = u_B(t), not u_B(t)/√n.
@@ -149,43 +165,43 @@ export interface FallingSphereBudgetContext {
  * twice and claim the common part averages away.
  */
 export function fallingSphereBudget(context: FallingSphereBudgetContext): UncertaintyBudget {
-  const { mode, sphere, fluidDensity, reference } = context;
-  const densityExcess = Math.abs(context.sphereDensity - fluidDensity.value);
-  const sign = context.sphereDensity >= fluidDensity.value ? 1 : -1;
-  // Exponents of Δρ's two parts: ∂ln Δρ/∂ln ρs and ∂ln Δρ/∂ln ρf.
-  const bySphere = (sign * context.sphereDensity) / densityExcess;
-  const byFluid = (-sign * fluidDensity.value) / densityExcess;
-  const sphereByDiameter = sphere.source === "mass" ? -3 : 0;
-  // Exponents of the main result in d (without the wall factor), ρf, L, t̄ and K.
+  const { mode, reference } = context;
   const drag = mode === "drag";
-  const main: Exponents = { d: (drag ? 1 : 2) + bySphere * sphereByDiameter, ρf: drag ? byFluid - 1 : byFluid, L: drag ? -2 : -1, t: drag ? 2 : 1, K: drag ? 2 : 1 };
+  const sign = context.sphereDensity >= context.fluidDensity.value ? 1 : -1;
+  const densityExcess = Math.abs(context.sphereDensity - context.fluidDensity.value);
+  const split: DensitySplit = {
+    // ∂ln Δρ/∂ln ρs and ∂ln Δρ/∂ln ρf, and ∂ln ρs/∂ln d (−3 on the mass route, ρs = 6m/(πd³)).
+    bySphere: (sign * context.sphereDensity) / densityExcess,
+    byFluid: (-sign * context.fluidDensity.value) / densityExcess,
+    sphereByDiameter: context.sphere.source === "mass" ? -3 : 0,
+  };
+  const main: Exponents = drag
+    ? { d: 1, Δρ: 1, ρf: -1, L: -2, t: 2, K: 2, μ: 0 }
+    : { d: 2, Δρ: 1, ρf: 0, L: -1, t: 1, K: 1, μ: 0 };
+  const viscosity = reference?.viscosity ?? null;
 
   const mainBudget = new BudgetAccumulator(context.value);
-  addInputs(mainBudget, context, bySphere, main, 0);
+  addInputs(mainBudget, context, split, main, viscosity);
   const totals = mainBudget.totals();
   let normalisedFigure: UncertaintyBudget["normalisedFigure"] = null;
-  if (reference) {
-    const { viscosity } = reference;
-    const drag = reference.kind === "drag";
-    const value = drag ? reference.ratio : context.value / viscosity.value;
+  if (reference && viscosity) {
+    const value = reference.kind === "drag" ? reference.ratio : context.value / viscosity.value;
     const budget = new BudgetAccumulator(value, false);
-    if (reference.kind === "drag") {
-      // C_D/C_D,ref(Re) with Re ∝ ρf d L t̄⁻¹ K⁻¹ μ⁻¹: each exponent is e(C_D) − s·e(Re).
-      const s = reference.slope;
-      addInputs(budget, context, bySphere, { d: main.d - s, ρf: main.ρf - s, L: main.L - s, t: main.t + s, K: main.K + s }, s * viscosity.temperatureCoefficient);
-      addCalibration(budget, viscosity, s / viscosity.value);
-    } else {
-      addInputs(budget, context, bySphere, main, -viscosity.temperatureCoefficient);
-      addCalibration(budget, viscosity, -1 / viscosity.value);
-    }
-    const figure = budget.totals();
+    // Drag: C_D/C_D,ref(Re) with Re ∝ ρf d L t̄⁻¹ K⁻¹ μ⁻¹, so each exponent is e(C_D) − s·e(Re). Viscometry: μ/μ_ref.
+    const s = reference.kind === "drag" ? reference.slope : 0;
+    const figure: Exponents =
+      reference.kind === "drag"
+        ? { d: main.d - s, Δρ: main.Δρ, ρf: main.ρf - s, L: main.L - s, t: main.t + s, K: main.K + s, μ: s }
+        : { d: main.d, Δρ: main.Δρ, ρf: main.ρf, L: main.L, t: main.t, K: main.K, μ: -1 };
+    addInputs(budget, context, split, figure, viscosity);
+    const figureTotals = budget.totals();
     normalisedFigure = {
       value,
-      combined: figure.combined,
-      effectiveDegreesOfFreedom: figure.effectiveDegreesOfFreedom,
-      coverageFactor: figure.coverageFactor,
-      expanded: figure.expanded,
-      coverageProbability: figure.coverageProbability,
+      combined: figureTotals.combined,
+      effectiveDegreesOfFreedom: figureTotals.effectiveDegreesOfFreedom,
+      coverageFactor: figureTotals.coverageFactor,
+      expanded: figureTotals.expanded,
+      coverageProbability: figureTotals.coverageProbability,
     };
   }
   // Literals rather than spreads: this runs once per drop log of a class page.
@@ -203,50 +219,64 @@ export function fallingSphereBudget(context: FallingSphereBudgetContext): Uncert
   };
 }
 
-/** Exponents of a result in d (without the wall factor), ρf, L, t̄ and the wall factor K. */
+/**
+ * Exponents of a result in d (as a length, without ρs's or K's dependence on it), Δρ, ρf (without Δρ's),
+ * L, t̄, the wall factor K and the lot's viscosity μ (the input in drag mode, μ_ref in viscometry).
+ */
 interface Exponents {
   d: number;
+  Δρ: number;
   ρf: number;
   L: number;
   t: number;
   K: number;
+  μ: number;
+}
+
+interface DensitySplit {
+  bySphere: number;
+  byFluid: number;
+  sphereByDiameter: number;
 }
 
 /**
- * The rows every result shares. A module function rather than a closure in {@link fallingSphereBudget}:
- * the bundler names each closure it creates, which cost more per drop log than the rows themselves.
- * `viscosity` is ∂ln y/∂T through the reference viscosity (0 for the main result).
+ * The rows every result shares, with K's dependence on d, D and (through Re∞) on the other inputs
+ * folded in. A module function rather than a closure in {@link fallingSphereBudget}: the bundler names
+ * each closure it creates, which cost more per drop log than the rows themselves.
  */
-function addInputs(budget: BudgetAccumulator, context: FallingSphereBudgetContext, bySphere: number, e: Exponents, viscosity: number): void {
-  const { diameter, sphere, fluidDensity, distance, meanTime, column, temperature } = context;
-  const ε = context.wallElasticity;
-  budget.add("Sphere diameter d", diameter.value, "m", diameter.u, "B", Infinity, (e.d + e.K * ε) / diameter.value);
-  if (sphere.source === "mass") budget.add("Sphere mass m", sphere.value, "kg", sphere.u, "B", Infinity, bySphere / sphere.value);
-  else budget.add("Sphere material density ρs", sphere.value, "kg/m³", sphere.u, "B", Infinity, bySphere / sphere.value);
-  budget.add("Fluid density ρf", fluidDensity.value, "kg/m³", fluidDensity.u, "B", Infinity, e.ρf / fluidDensity.value);
-  budget.add("Timed distance L", distance.value, "m", distance.u, "B", Infinity, e.L / distance.value);
+function addInputs(budget: BudgetAccumulator, context: FallingSphereBudgetContext, split: DensitySplit, e: Exponents, viscosity: LotViscosity | null): void {
+  const { diameter, sphere, fluidDensity, distance, meanTime, column, temperature, wall } = context;
+  const feedback = 1 + wall.reynoldsPower * wall.byReynolds;
+  const byλ = (e.K * wall.byDiameterRatio) / feedback;
+  const byRe = (e.K * wall.byReynolds) / feedback;
+  // Exponents of Re₀, the Reynolds number of the measured velocity (see fallingSphereBudget).
+  const viscometryRe = wall.reynoldsPower === 2;
+  const d = e.d + byλ + byRe * (viscometryRe ? -1 : 1);
+  const Δρ = e.Δρ - (viscometryRe ? byRe : 0);
+  const ρf = e.ρf + byRe;
+  const L = e.L + byRe * (viscometryRe ? 2 : 1);
+  const t = e.t - byRe * (viscometryRe ? 2 : 1);
+  const μ = e.μ - (viscometryRe ? 0 : byRe);
+  const byFluidDensity = (ρf + Δρ * split.byFluid) / fluidDensity.value;
+
+  budget.add("Sphere diameter d", diameter.value, "m", diameter.u, "B", Infinity, (d + Δρ * split.bySphere * split.sphereByDiameter) / diameter.value);
+  if (sphere.source === "mass") budget.add("Sphere mass m", sphere.value, "kg", sphere.u, "B", Infinity, (Δρ * split.bySphere) / sphere.value);
+  else budget.add("Sphere material density ρs", sphere.value, "kg/m³", sphere.u, "B", Infinity, (Δρ * split.bySphere) / sphere.value);
+  budget.add("Fluid density ρf", fluidDensity.value, "kg/m³", fluidDensity.u, "B", Infinity, byFluidDensity);
+  budget.add("Timed distance L", distance.value, "m", distance.u, "B", Infinity, L / distance.value);
   if (meanTime.typeA !== null) {
-    budget.add("Mean time t̄, scatter of the drops (s/√n)", meanTime.value, "s", meanTime.typeA, "A", meanTime.n - 1, e.t / meanTime.value);
+    budget.add("Mean time t̄, scatter of the drops (s/√n)", meanTime.value, "s", meanTime.typeA, "A", meanTime.n - 1, t / meanTime.value);
   }
-  budget.add("Timing, common to all drops (resolution)", meanTime.value, "s", meanTime.typeB, "B", Infinity, e.t / meanTime.value);
-  if (column) budget.add("Column bore D", column.value, "m", column.u, "B", Infinity, (-e.K * ε) / column.value);
-  // T moves ρf through the lot's coefficient, and the reference viscosity through d ln μ/dT.
+  budget.add("Timing, common to all drops (resolution)", meanTime.value, "s", meanTime.typeB, "B", Infinity, t / meanTime.value);
+  if (column) budget.add("Column bore D", column.value, "m", column.u, "B", Infinity, -byλ / column.value);
+  // T moves ρf through the lot's coefficient, and the lot's viscosity through d ln μ/dT.
   if (temperature) {
-    const byTemperature = (e.ρf / fluidDensity.value) * fluidDensity.temperatureCoefficient + viscosity;
+    const byTemperature = byFluidDensity * fluidDensity.temperatureCoefficient + (viscosity ? μ * viscosity.temperatureCoefficient : 0);
     budget.add("Fluid temperature T", temperature.value, "°C", temperature.u, "B", Infinity, byTemperature);
   }
+  if (viscosity) {
+    // The Andrade fit's residual standard error is a type A evaluation with N − 2 degrees of freedom.
+    const type = Number.isFinite(viscosity.degreesOfFreedom) ? "A" : "B";
+    budget.add("Fluid viscosity at T from the lot's calibration", viscosity.value, "Pa·s", viscosity.u, type, viscosity.degreesOfFreedom, μ / viscosity.value);
+  }
 }
-
-function addCalibration(budget: BudgetAccumulator, viscosity: { value: number; u: number; degreesOfFreedom: number }, logSensitivity: number): void {
-  // The Andrade fit's residual standard error is a type A evaluation with N − 2 degrees of freedom.
-  const type = Number.isFinite(viscosity.degreesOfFreedom) ? "A" : "B";
-  budget.add("Fluid viscosity at T from the lot's calibration", viscosity.value, "Pa·s", viscosity.u, type, viscosity.degreesOfFreedom, logSensitivity);
-}
-
-/** d ln K/d ln λ by a central difference in ln λ, step 10⁻⁶ (λ > 0: a column is given). */
-export function wallFactorElasticity(method: WallCorrectionMethod, diameterRatio: number): number {
-  return Math.log(wallFactor(diameterRatio * (1 + ELASTICITY_STEP), method) / wallFactor(diameterRatio * (1 - ELASTICITY_STEP), method)) / LOG_STEP_WIDTH;
-}
-
-const ELASTICITY_STEP = 1e-6;
-const LOG_STEP_WIDTH = Math.log((1 + ELASTICITY_STEP) / (1 - ELASTICITY_STEP));

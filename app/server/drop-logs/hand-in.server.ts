@@ -133,6 +133,7 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
         innerDiameterUncertaintyMm: parts.innerDiameterUncertaintyMm,
         timedDistanceMm: parts.timedDistanceMm,
         runInMm: parts.runInMm,
+        marginBelowMm: parts.marginBelowMm,
         kitNumber: kits.number,
         kitState: kits.state,
       })

@@ -6,6 +6,7 @@ import { and, asc, count, eq, ilike, inArray, sql, type SQL } from "drizzle-orm"
 import { kitParts, kits, partEvents, parts } from "~/db/schema";
 import { materialDensityRanges, sphereDensityKgM3, type PartInput, type PartKind } from "~/lib/kits/part-input";
 import { fluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
+import { calibrationCheckMessages, checkCalibrationPoints } from "~/lib/kits/glycerol-water";
 import { checkImportRows, csvRowToPartInput, partToCsvRow, type ImportRowCheck, type PartCsvRow } from "~/lib/kits/parts-csv";
 import { recordAudit } from "~/server/audit.server";
 import type { Executor } from "~/server/db.server";
@@ -24,6 +25,7 @@ const measurementColumns = [
   "densityKgM3",
   "densityUncertaintyKgM3",
   "densityTemperatureCoefficientKgM3K",
+  "glycerolMassFraction",
   "calibration",
   "innerDiameterMm",
   "innerDiameterUncertaintyMm",
@@ -33,11 +35,15 @@ const measurementColumns = [
   "accessoryType",
 ] as const;
 
-/** The columns of one kind filled from the input, every other kind's column null. */
+/**
+ * The columns of one kind filled from the input, every other kind's column null. An optional value
+ * left empty is null too: an update skips undefined columns, so a cleared value would otherwise stay.
+ */
 function columnsFor(input: PartInput) {
   const empty = Object.fromEntries(measurementColumns.map((column) => [column, null])) as Record<(typeof measurementColumns)[number], null>;
   const { kind: _kind, label: _label, notes: _notes, ...measured } = input;
-  return { ...empty, ...measured };
+  const filled = Object.fromEntries(Object.entries(measured).filter(([, value]) => value !== undefined));
+  return { ...empty, ...(filled as typeof measured) };
 }
 
 /**
@@ -64,11 +70,17 @@ export function partWarnings(input: PartInput, inventory: Pick<Part, "kind" | "l
       warnings.push({ field: "diameterMm", message: "This sphere is wider than the bore of every column: it cannot be dropped in any of them." });
     }
   }
-  if (input.kind === "fluid_lot" && input.calibration.length === 1) {
-    warnings.push({
-      field: "calibration",
-      message: "One calibration point gives a constant viscosity; viscous fluids change by several per cent per kelvin, so add points at other temperatures.",
-    });
+  if (input.kind === "fluid_lot") {
+    if (input.calibration.length === 1) {
+      warnings.push({
+        field: "calibration",
+        message: "One calibration point gives a constant viscosity; viscous fluids change by several per cent per kelvin, so add points at other temperatures.",
+      });
+    }
+    const glycerolMassFraction = input.glycerolMassFraction ?? null;
+    for (const message of calibrationCheckMessages(checkCalibrationPoints(input.calibration, glycerolMassFraction), glycerolMassFraction)) {
+      warnings.push({ field: "calibration", message });
+    }
   }
   if (input.kind === "column" && input.runInMm < 3 * input.innerDiameterMm) {
     warnings.push({ field: "runInMm", message: "The run-in above the top band is short for the bore; check the sphere reaches terminal velocity before the band." });
@@ -227,7 +239,7 @@ export async function getPartPage(executor: Executor, courseId: string, partId: 
   // Read back through the import mapping so the checks see exactly what a form or a file would give.
   const stored = csvRowToPartInput(partToCsvRow(part));
   const warnings = stored.ok ? partWarnings(stored.input, await inventoryForChecks(executor, courseId)) : [];
-  return { part, warnings, calibration: part.kind === "fluid_lot" ? fluidLotCalibration(part.calibration) : null };
+  return { part, warnings, calibration: part.kind === "fluid_lot" ? fluidLotCalibration(part.calibration, part.glycerolMassFraction) : null };
 }
 
 /** Every label the course uses, for the import preview's "already used" check. */

@@ -73,6 +73,7 @@ type PartRow = {
   inner_diameter_uncertainty_mm: number | null;
   timed_distance_mm: number | null;
   run_in_mm: number | null;
+  margin_below_mm: number | null;
 };
 
 type VersionRow = {
@@ -106,7 +107,7 @@ const partJson = (alias: string) => sql.raw(`json_build_object('id', ${alias}.id
   'density_uncertainty_kg_m3', ${alias}.density_uncertainty_kg_m3,
   'density_temperature_coefficient_kg_m3_k', ${alias}.density_temperature_coefficient_kg_m3_k,
   'calibration', ${alias}.calibration, 'inner_diameter_mm', ${alias}.inner_diameter_mm, 'inner_diameter_uncertainty_mm', ${alias}.inner_diameter_uncertainty_mm, 'timed_distance_mm', ${alias}.timed_distance_mm,
-  'run_in_mm', ${alias}.run_in_mm)`);
+  'run_in_mm', ${alias}.run_in_mm, 'margin_below_mm', ${alias}.margin_below_mm)`);
 
 /**
  * The revision of one version with the parts' current records. The changed part's record is its new
@@ -149,6 +150,7 @@ function revise(row: VersionRow) {
         innerDiameterUncertaintyMm: column.inner_diameter_uncertainty_mm,
         timedDistanceMm: column.timed_distance_mm,
         runInMm: column.run_in_mm,
+        marginBelowMm: column.margin_below_mm,
       },
       // The kit's state at the hand-in is part of the record: a revision keeps its warning.
       ...(row.kit ? { kit: row.kit } : {}),

@@ -1,0 +1,1 @@
+ALTER TABLE "parts" ADD COLUMN "glycerol_mass_fraction" real;
