@@ -5,6 +5,7 @@ import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./dea
 import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
 import KitShippedEmail, { subject as kitShippedSubject } from "./kit-shipped";
 import MarksReleasedEmail, { subject as marksReleasedSubject } from "./marks-released";
+import NoAccountEmail, { subject as noAccountSubject } from "./no-account";
 import PasswordResetEmail, { subject as passwordResetSubject } from "./password-reset";
 import SignInLinkEmail, { subject as signInLinkSubject } from "./sign-in-link";
 import type { EmailTemplateName, EmailTemplates } from "./template-props";
@@ -15,6 +16,7 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
   "course-invitation": { Component: CourseInvitationEmail, subject: courseInvitationSubject, previewProps: CourseInvitationEmail.PreviewProps },
   "sign-in-link": { Component: SignInLinkEmail, subject: signInLinkSubject, previewProps: SignInLinkEmail.PreviewProps },
   "password-reset": { Component: PasswordResetEmail, subject: passwordResetSubject, previewProps: PasswordResetEmail.PreviewProps },
+  "no-account": { Component: NoAccountEmail, subject: noAccountSubject, previewProps: NoAccountEmail.PreviewProps },
   "deadline-reminder": { Component: DeadlineReminderEmail, subject: deadlineReminderSubject, previewProps: DeadlineReminderEmail.PreviewProps },
   "kit-shipped": { Component: KitShippedEmail, subject: kitShippedSubject, previewProps: KitShippedEmail.PreviewProps },
   "kit-problem": { Component: KitProblemEmail, subject: kitProblemSubject, previewProps: KitProblemEmail.PreviewProps },

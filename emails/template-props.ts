@@ -25,6 +25,7 @@ export const templatePropsSchemas = {
   }),
   "sign-in-link": z.object({ url: link, expiresInMinutes: z.number().int().positive() }),
   "password-reset": z.object({ url: link, expiresInMinutes: z.number().int().positive() }),
+  "no-account": z.object({ purpose: z.enum(["sign_in", "password_reset"]), signUpUrl: link.nullable() }),
   "deadline-reminder": z.object({
     courseTitle: oneLine,
     labTitle: oneLine,
@@ -64,6 +65,7 @@ export type EmailTemplates = {
   };
   "sign-in-link": { url: string; expiresInMinutes: number };
   "password-reset": { url: string; expiresInMinutes: number };
+  "no-account": { purpose: "sign_in" | "password_reset"; signUpUrl: string | null };
   "deadline-reminder": { courseTitle: string; labTitle: string; dueAtText: string; hoursLeft: number; labUrl: string };
   "kit-shipped": { courseTitle: string; kitNumber: string; carrier: string; trackingNumber: string; shippedOn: string; kitUrl: string };
   "marks-released": { courseTitle: string; labTitle: string; marksUrl: string };

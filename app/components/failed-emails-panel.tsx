@@ -13,14 +13,16 @@ export function FailedEmailsPanel({ failedEmails }: { failedEmails: FailedEmail[
       <h2 id="failed-emails-heading" className="font-semibold">
         {failedEmails.length === 1 ? "1 e-mail could not be delivered" : `${failedEmails.length} e-mails could not be delivered`}
       </h2>
-      <p className="mt-1 text-sm text-ink-600">Benchpost tried each one several times. Check the address, or reach the person another way.</p>
+      <p className="mt-1 text-sm text-ink-600">Benchpost tried each one several times, or could not send it at all (the reason is below). Check the address, or reach the person another way.</p>
       <ul className="mt-3 divide-y divide-paper-200">
         {failedEmails.map((email) => (
           <li key={email.id} className="py-2 text-sm">
             <p className="font-medium">{email.subject}</p>
             <p>
-              To {email.toName ? `${email.toName} <${email.toAddress}>` : email.toAddress} · gave up {formatTime(email.failedAt)} after{" "}
-              {email.attempts} {email.attempts === 1 ? "attempt" : "attempts"}
+              To {email.toName ? `${email.toName} <${email.toAddress}>` : email.toAddress} ·{" "}
+              {email.attempts === 0
+                ? `not sent: refused ${formatTime(email.failedAt)}`
+                : `gave up ${formatTime(email.failedAt)} after ${email.attempts} ${email.attempts === 1 ? "attempt" : "attempts"}`}
             </p>
             {email.lastError ? <p className="mt-1 break-words font-mono text-xs text-ink-600">{email.lastError}</p> : null}
           </li>

@@ -745,7 +745,11 @@ export const dropLogPhotos = pgTable(
   (table) => [index("drop_log_photos_log_idx").on(table.dropLogId)],
 );
 
-/** Each deadline reminder sent: the unique key makes "(lab, student, offset) at most once" hold under retries and races. */
+/**
+ * Each deadline reminder sent: the unique key makes "(lab, student, due time, offset) at most once" hold
+ * under retries and races. The due time is the one the student was reminded of (the lab's, or their
+ * extension's): a reminder for a later due time is a new reminder, not a repeat.
+ */
 export const labReminders = pgTable(
   "lab_reminders",
   {
@@ -755,11 +759,12 @@ export const labReminders = pgTable(
     membershipId: uuid("membership_id")
       .notNull()
       .references(() => courseMemberships.id, { onDelete: "cascade" }),
+    dueAt: timestamp("due_at", { withTimezone: true }).notNull(),
     offsetHours: integer("offset_hours").notNull(),
     outboxId: uuid("outbox_id"),
     sentAt: timestamp("sent_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (table) => [primaryKey({ columns: [table.labId, table.membershipId, table.offsetHours] })],
+  (table) => [primaryKey({ columns: [table.labId, table.membershipId, table.dueAt, table.offsetHours] })],
 );
 
 /**

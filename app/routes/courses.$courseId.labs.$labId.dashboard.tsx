@@ -4,6 +4,7 @@ import type { Route } from "./+types/courses.$courseId.labs.$labId.dashboard";
 import type { action as extensionsAction } from "./courses.$courseId.labs.$labId.extensions";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { ExtensionWindowFields } from "~/components/labs/extension-fields";
+import { ExtendedTo } from "~/components/labs/extended-to";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
@@ -69,6 +70,7 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
               <th scope="col" className="py-1 text-right">Students</th>
               <th scope="col" className="py-1 text-right">On time</th>
               <th scope="col" className="py-1 text-right">Late</th>
+              <th scope="col" className="py-1 text-right">Not due yet</th>
               <th scope="col" className="py-1 text-right">Missing</th>
             </tr>
           </thead>
@@ -79,11 +81,13 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
                 <td className="py-1 text-right tabular-nums">{cohort.students}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.onTime}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.late}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.notDue}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.missing}</td>
               </tr>
             ))}
           </tbody>
         </table>
+        <p className="mt-1 text-xs text-ink-700">Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. Missing: nothing handed in by then.</p>
       </section>
 
       <section aria-labelledby="students-heading">
@@ -138,8 +142,15 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
         {scheduledReminders.length ? (
           <ul className="mb-3 text-sm">
             {scheduledReminders.map((job) => (
-              <li key={`${job.offsetHours}-${job.startAfter}`}>
-                {job.offsetHours} h before the due time, to whoever has not handed in by then: <LabTime at={job.startAfter} courseTimeZone={timeZone} />
+              <li key={`${job.offsetHours}-${job.dueAt}`}>
+                {job.extension ? (
+                  <>
+                    {job.offsetHours} h before the extended due time <LabTime at={job.dueAt} courseTimeZone={timeZone} />, to the students extended to it who have not handed in by then:{" "}
+                  </>
+                ) : (
+                  <>{job.offsetHours} h before the due time, to whoever it is still due for and has not handed in by then: </>
+                )}
+                <LabTime at={job.startAfter} courseTimeZone={timeZone} />
               </li>
             ))}
           </ul>
@@ -160,11 +171,19 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
             </thead>
             <tbody>
               {sentReminders.map((reminder) => (
-                <tr key={`${reminder.membershipId}-${reminder.offsetHours}`} className="border-b border-ink-900/10">
+                <tr key={`${reminder.membershipId}-${reminder.dueAt}-${reminder.offsetHours}`} className="border-b border-ink-900/10">
                   <td className="py-1 pr-3">
                     {reminder.studentName} <span className="text-ink-600">({reminder.cohortName})</span>
                   </td>
-                  <td className="py-1 pr-3">{reminder.offsetHours} h before</td>
+                  <td className="py-1 pr-3">
+                    {reminder.offsetHours} h before
+                    {/* Reminded of another due time than the lab's: an extension's (or one the lab had before). */}
+                    {Date.parse(reminder.dueAt) !== Date.parse(lab.dueAt) ? (
+                      <span className="block text-xs text-ink-600">
+                        of the due time <LabTime at={reminder.dueAt} courseTimeZone={timeZone} />
+                      </span>
+                    ) : null}
+                  </td>
                   <td className="py-1 pr-3">
                     <LabTime at={reminder.sentAt} courseTimeZone={timeZone} />
                   </td>
@@ -295,8 +314,16 @@ function StudentRow({
             {student.version! > 1 ? <span className="ml-2 text-xs text-ink-600">version {student.version}</span> : null}
           </>
         ) : (
-          <span className="text-outlier">Missing{student.hasDraft ? " (draft started)" : ""}</span>
+          <span className={student.status === "missing" ? "text-outlier" : ""}>
+            {student.status === "missing" ? "Missing" : "Not due yet"}
+            {student.hasDraft ? " (draft started)" : ""}
+          </span>
         )}
+        {student.deadline.extendedBy ? (
+          <span className="block text-xs">
+            <ExtendedTo deadline={student.deadline} timeZone={timeZone} />
+          </span>
+        ) : null}
       </td>
       <td className="py-1 pr-3 tabular-nums">{handedIn ? keyResult(student, kind) : ""}</td>
       <td className="py-1 pr-3 text-right tabular-nums">{handedIn ? student.warningCount : ""}</td>

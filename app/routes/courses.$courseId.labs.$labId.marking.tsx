@@ -25,6 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const desk = await loadMarkingDesk(db, { access, lab, filters: readMarkingDeskFilters(url) });
   return {
     courseId: access.course.id,
+    timeZone: access.course.timeZone,
     instructor: access.membership.role === "instructor",
     lab: { id: lab.id, title: lab.title, kind: lab.kind, rubric: lab.rubric, readyAt: lab.marking.readyAt?.toISOString() ?? null, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
     cohorts: desk.cohorts,
@@ -89,7 +90,7 @@ export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: Shou
   return defaultShouldRevalidate;
 }
 
-const statusNames: Record<DeskStatusFilter, string> = { unmarked: "Not fully marked", flagged: "Flagged by the class comparison", late: "Late", missing: "Missing" };
+const statusNames: Record<DeskStatusFilter, string> = { unmarked: "Not fully marked", flagged: "Flagged by the class comparison", late: "Late", missing: "Missing", "not-due": "Not due yet" };
 
 function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["loaderData"], "cohorts" | "counts" | "filters">) {
   const location = useLocation();
@@ -159,7 +160,7 @@ function Pages({ page, pageCount, totalRows }: { page: number; pageCount: number
 }
 
 export default function MarkingPage({ loaderData }: Route.ComponentProps) {
-  const { courseId, instructor, lab, rows, canEdit, maxTotal, filters } = loaderData;
+  const { courseId, timeZone, instructor, lab, rows, canEdit, maxTotal, filters } = loaderData;
   const base = `/courses/${courseId}/labs/${lab.id}`;
   return (
     <div className="flex flex-col gap-4">
@@ -190,7 +191,7 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
       ) : null}
       {!canEdit ? <Notice tone="info">The instructor has closed this lab&apos;s marking for moderation: marks are shown but cannot be changed here.</Notice> : null}
       <DeskFilters cohorts={loaderData.cohorts} counts={loaderData.counts} filters={filters} />
-      {lab.rubric.length ? <MarkingDesk courseId={courseId} labId={lab.id} kind={lab.kind} rubric={lab.rubric} rows={rows} matchingIds={loaderData.matchingIds} canEdit={canEdit} maxTotal={maxTotal} sort={filters.sort} /> : null}
+      {lab.rubric.length ? <MarkingDesk courseId={courseId} labId={lab.id} kind={lab.kind} timeZone={timeZone} rubric={lab.rubric} rows={rows} matchingIds={loaderData.matchingIds} canEdit={canEdit} maxTotal={maxTotal} sort={filters.sort} /> : null}
       <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />
     </div>
   );

@@ -5,17 +5,15 @@ import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
-import { type FieldErrors, parseForm } from "~/lib/forms/parse-form";
+import { parseForm } from "~/lib/forms/parse-form";
 import { getOptionalUser } from "~/server/auth/access.server";
-import { describeWait, redirectWithNewSession, retryAfterHeaders } from "~/server/auth/session-responses.server";
+import { describeWait, retryAfterHeaders } from "~/server/auth/session-responses.server";
 import { signUp } from "~/server/auth/sign-in.server";
 import { allowSignUp } from "~/server/config.server";
 
 const signUpSchema = z.object({
   name: z.string().trim().min(1, "Enter your name as students should see it.").max(120),
   email: z.email("Enter your e-mail address, like name@example.org.").max(254),
-  password: newPasswordField,
 });
 
 function requireSignUpOpen() {
@@ -37,11 +35,8 @@ export async function action({ request }: Route.ActionArgs) {
   if (result.outcome === "limited") {
     return data({ formError: `Too many attempts. Try again in ${describeWait(result.retryAfterSeconds)}.`, values }, { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) });
   }
-  if (result.outcome === "taken") {
-    const errors: FieldErrors = { email: "There is already an account with this address. Sign in, or reset its password." };
-    return data({ errors, values }, { status: 400 });
-  }
-  return redirectWithNewSession(request, "/", result);
+  // The same answer whether or not the address had an account: the e-mailed link signs in to either.
+  return { sentTo: form.data.email };
 }
 
 // Passes Retry-After from a limited attempt on to the page.
@@ -55,24 +50,22 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
       <PageHeader id="sign-up-title" title="Create an instructor account">
         For instructors who run a course. Students and TAs join from their invitation e-mail.
       </PageHeader>
-      <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
-        {actionData && "formError" in actionData ? <Notice tone="error">{actionData.formError}</Notice> : null}
-        <TextField label="Your name" name="name" autoComplete="name" required defaultValue={actionData?.values?.name} error={errors?.name} />
-        <TextField label="E-mail address" name="email" type="email" autoComplete="email" required defaultValue={actionData?.values?.email} error={errors?.email} />
-        <TextField
-          label="Password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          required
-          minLength={PASSWORD_MIN_LENGTH}
-          hint={`At least ${PASSWORD_MIN_LENGTH} characters; a few unrelated words work well.`}
-          error={errors?.password}
-        />
-        <Button type="submit" disabled={busy}>
-          Create the account
-        </Button>
-      </Form>
+      {actionData && "sentTo" in actionData ? (
+        <Notice tone="success">
+          Check your e-mail: a link that signs you in is on its way to {actionData.sentTo} (look in the spam folder too). Once signed in,
+          you can choose a password on your account page.
+        </Notice>
+      ) : (
+        <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
+          {actionData && "formError" in actionData ? <Notice tone="error">{actionData.formError}</Notice> : null}
+          <TextField label="Your name" name="name" autoComplete="name" required defaultValue={actionData?.values?.name} error={errors?.name} />
+          <TextField label="E-mail address" name="email" type="email" autoComplete="email" required defaultValue={actionData?.values?.email} error={errors?.email} />
+          <p className="text-sm text-ink-700">We e-mail you a link to sign in with; no password is needed to start.</p>
+          <Button type="submit" disabled={busy}>
+            Create the account
+          </Button>
+        </Form>
+      )}
       <p className="mt-6 text-sm">
         Already have an account?{" "}
         <Link to="/sign-in" className="underline">

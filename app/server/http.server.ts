@@ -42,8 +42,13 @@ export function isSameOriginRequest(request: Request): boolean {
   return request.headers.get("sec-fetch-site") === "same-origin";
 }
 
-/** A path on this site to go to after signing in; anything else (other hosts, `//…`) falls back to "/". */
+/**
+ * A path on this site to go to after signing in; anything else falls back to "/". Browsers drop tabs and
+ * line breaks from a Location and read a backslash as a slash, so `/<tab>/evil.example` or
+ * `/<backslash>evil.example` would become `//evil.example`, another site: any control character or
+ * backslash is refused, as is a leading `//`.
+ */
 export function safeRedirectPath(target: FormDataEntryValue | string | null | undefined, fallback = "/"): string {
-  if (typeof target !== "string" || !target.startsWith("/") || target.startsWith("//") || target.startsWith("/\\")) return fallback;
+  if (typeof target !== "string" || !target.startsWith("/") || target.startsWith("//") || /[\p{Cc}\\]/u.test(target)) return fallback;
   return target;
 }

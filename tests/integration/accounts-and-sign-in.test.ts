@@ -2,10 +2,10 @@
  * Accounts end to end through the built app: sessions, password and e-mailed-link sign-in, resets,
  * invitations, rate limits, CSRF refusal, personal API tokens and security headers.
  */
-import { desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import pg from "pg";
-import { beforeAll, describe, expect, it, vi } from "vitest";
-import { apiTokens, auditEvents, courseMemberships, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { apiTokens, auditEvents, courseMemberships, courses, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import { SESSION_COOKIE, SESSION_LIFETIME_MS, validateSessionToken } from "~/server/auth/session.server";
 import { hashToken } from "~/server/auth/tokens.server";
@@ -77,6 +77,19 @@ describe("sessions", () => {
     expect(JSON.stringify(failures)).not.toContain("not the password");
   });
 
+  it("never sends a crafted redirectTo out as the Location", async () => {
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    for (const target of ["/\t/evil.example", "/\\evil.example", "/\n/evil.example"]) {
+      const signedIn = await handle(appRequest(`/sign-in?${new URLSearchParams({ redirectTo: target })}`, { cookie }));
+      expect(signedIn.status).toBe(302);
+      expect(signedIn.headers.get("location")).toBe("/");
+    }
+    await createUser("redirected@accounts.example");
+    const posted = await handle(appRequest("/sign-in", { form: { intent: "password", email: "redirected@accounts.example", password: PASSWORD, redirectTo: "/\t/evil.example" }, ip: "203.0.113.90" }));
+    expect(posted.status).toBe(302);
+    expect(posted.headers.get("location")).toBe("/");
+  });
+
   it("renews a session with fewer than 15 days left, and sends the new expiry in the cookie", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const id = hashToken(cookie.split("=")[1]);
@@ -140,6 +153,25 @@ describe("rate limits", () => {
     expect((await signIn("guess12@accounts.example", "wrong password", "198.51.100.8")).status).toBe(401);
   });
 
+  it("checks at most 10 passwords of a burst of wrong guesses sent at once", async () => {
+    await createUser("burst@accounts.example");
+    // Each guess from its own address, so that only the per-account limit is in play.
+    const responses = await Promise.all(Array.from({ length: 50 }, (_, index) => signIn("burst@accounts.example", `wrong guess ${index}`, `198.18.0.${index + 1}`)));
+    const statuses = responses.map((response) => response.status);
+    // 401 is a wrong password that was checked, 429 a guess that never was.
+    expect(statuses.filter((status) => status === 401).length).toBeLessThanOrEqual(10);
+    expect(statuses.filter((status) => status === 429).length).toBe(50 - statuses.filter((status) => status === 401).length);
+    // The window stays closed for the account afterwards, even for the right password.
+    expect((await signIn("burst@accounts.example", PASSWORD, "198.18.1.1")).status).toBe(429);
+  });
+
+  it("gives a successful sign-in its point back, so that only failures count", async () => {
+    await createUser("steady@accounts.example");
+    const ip = "198.51.100.40";
+    for (let attempt = 1; attempt <= 15; attempt++) expect((await signIn("steady@accounts.example", PASSWORD, ip)).status).toBe(302);
+    expect((await signIn("steady@accounts.example", "wrong password", ip)).status).toBe(401);
+  });
+
   it("limits e-mailed link requests per address", async () => {
     await createUser("linky@accounts.example");
     const statuses: number[] = [];
@@ -169,10 +201,48 @@ describe("e-mailed links", () => {
     expect((await handle(appRequest(new URL(url).pathname, { form: {} }))).status).toBe(410);
   });
 
-  it("says the same whether or not an account exists, and sends nothing to an unknown address", async () => {
-    const response = await handle(appRequest("/forgot-password", { form: { email: "ghost@accounts.example" } }));
-    expect(response.status).toBe(200);
-    expect(await latestEmailTo("ghost@accounts.example")).toBeUndefined();
+  it("answers a reset or sign-in request for an unknown address alike, after the same statements, and queues a no-account notice", async () => {
+    await createUser("known@accounts.example");
+    /** The response, with the address taken out, and the SQL the app sent (texts only: the values differ). */
+    const ask = async (path: string, form: Record<string, string>, email: string) => {
+      const spy = vi.spyOn(pg.Client.prototype, "query");
+      try {
+        const response = await handle(appRequest(path, { form: { ...form, email }, ip: "203.0.113.70" }));
+        const statements = spy.mock.calls.map(([query]) => (typeof query === "string" ? query : (query as { text: string }).text));
+        // The page's script nonce is new on every response.
+        return { status: response.status, body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, ""), statements };
+      } finally {
+        spy.mockRestore();
+      }
+    };
+    for (const [path, form] of [["/forgot-password", {}], ["/sign-in", { intent: "link" }]] as const) {
+      const known = await ask(path, form, "known@accounts.example");
+      const unknown = await ask(path, form, "ghost@accounts.example");
+      expect(known.status).toBe(200);
+      expect(unknown.status).toBe(200);
+      expect(unknown.body).toBe(known.body);
+      expect(known.statements.length).toBeGreaterThan(5);
+      expect(unknown.statements).toEqual(known.statements);
+    }
+    const notices = await db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, "ghost@accounts.example"));
+    expect(notices.map((row) => [row.template, row.status, row.props.purpose])).toEqual(
+      expect.arrayContaining([
+        ["no-account", "queued", "password_reset"],
+        ["no-account", "queued", "sign_in"],
+      ]),
+    );
+    expect(notices).toHaveLength(2);
+  });
+
+  it("sends sign-in and reset links to an account whose name has quotes and angle brackets", async () => {
+    const [user] = await db.insert(users).values({ email: "quoted@accounts.example", name: 'Ann "Nan" <Lee>', passwordHash: await hashPassword(PASSWORD) }).returning();
+    const link = await handle(appRequest("/sign-in", { form: { intent: "link", email: "quoted@accounts.example" }, ip: "203.0.113.50" }));
+    expect(link.status).toBe(200);
+    expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({ template: "sign-in-link", status: "queued", toName: 'Ann "Nan" <Lee>' });
+    const reset = await handle(appRequest("/forgot-password", { form: { email: "quoted@accounts.example" }, ip: "203.0.113.50" }));
+    expect(reset.status).toBe(200);
+    expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({ template: "password-reset", status: "queued" });
+    expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toHaveLength(2);
   });
 
   it("resets a password once, ends every session, and a reused reset link fails", async () => {
@@ -194,6 +264,41 @@ describe("e-mailed links", () => {
     expect((await handle(appRequest(new URL(url).pathname, { form }))).status).toBe(410);
   });
 
+  describe("a new password ends every outstanding e-mailed link, for signing in and for resetting", () => {
+    const newPassword = "warm oil slows the sphere";
+    async function linksFor(email: string, ip: string) {
+      await handle(appRequest("/sign-in", { form: { intent: "link", email }, ip }));
+      const signInPath = new URL(String((await latestEmailTo(email)).props.url)).pathname;
+      const resetPaths: string[] = [];
+      for (let index = 0; index < 2; index++) {
+        await handle(appRequest("/forgot-password", { form: { email }, ip }));
+        resetPaths.push(new URL(String((await latestEmailTo(email)).props.url)).pathname);
+      }
+      rawTokens.push(...[signInPath, ...resetPaths].map(tokenIn));
+      return { signInPath, resetPaths };
+    }
+
+    it("when the password is changed on the account page", async () => {
+      const user = await createUser("changer@accounts.example");
+      const { signInPath, resetPaths } = await linksFor("changer@accounts.example", "203.0.113.60");
+      const cookie = await sessionCookieFor(user.id);
+      const changed = await handle(appRequest("/account", { cookie, form: { intent: "password", currentPassword: PASSWORD, newPassword, confirmPassword: newPassword } }));
+      expect(changed.status).toBe(302);
+      expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toEqual([]);
+      expect((await handle(appRequest(signInPath, { form: {} }))).status).toBe(410);
+      for (const path of resetPaths) expect((await handle(appRequest(path, { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }))).status).toBe(410);
+    });
+
+    it("when the password is reset with one of the links", async () => {
+      const user = await createUser("resetter@accounts.example");
+      const { signInPath, resetPaths } = await linksFor("resetter@accounts.example", "203.0.113.61");
+      expect((await handle(appRequest(resetPaths[1], { form: { newPassword, confirmPassword: newPassword } }))).status).toBe(302);
+      expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toEqual([]);
+      expect((await handle(appRequest(signInPath, { form: {} }))).status).toBe(410);
+      expect((await handle(appRequest(resetPaths[0], { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }))).status).toBe(410);
+    });
+  });
+
   it("refuses a common password and keeps any Unicode password whole", async () => {
     const user = await createUser("policy@accounts.example");
     const cookie = await sessionCookieFor(user.id);
@@ -208,6 +313,42 @@ describe("e-mailed links", () => {
     expect(sessionTokenFrom(changed)).toBeTruthy();
     expect((await signIn("policy@accounts.example", long.slice(0, -1), "203.0.113.30")).status).toBe(401);
     expect((await signIn("policy@accounts.example", long, "203.0.113.30")).status).toBe(302);
+  });
+});
+
+describe("open sign-up", () => {
+  beforeAll(() => {
+    process.env.ALLOW_SIGN_UP = "true";
+  });
+  afterAll(() => {
+    delete process.env.ALLOW_SIGN_UP;
+  });
+
+  const signUp = async (email: string, name: string) => {
+    const response = await handle(appRequest("/sign-up", { form: { name, email }, ip: "203.0.113.80" }));
+    return { status: response.status, signedIn: sessionTokenFrom(response) !== null, body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, "") };
+  };
+
+  it("answers \"check your e-mail\" for a new address and for one that has an account, and signs nobody in", async () => {
+    const existing = await createUser("taken@accounts.example");
+    const fresh = await signUp("fresh.instructor@accounts.example", "Fresh Instructor");
+    const taken = await signUp("taken@accounts.example", "Someone Else");
+    expect(fresh).toMatchObject({ status: 200, signedIn: false });
+    expect(fresh.body).toContain("Check your e-mail");
+    expect(taken).toEqual(fresh);
+
+    // The new account has no password until its owner, signed in by the link, chooses one.
+    const [created] = await db.select().from(users).where(eq(users.email, "fresh.instructor@accounts.example"));
+    expect(created).toMatchObject({ name: "Fresh Instructor", passwordHash: null, mayCreateCourses: true });
+    const newMail = await latestEmailTo("fresh.instructor@accounts.example");
+    expect(newMail.template).toBe("sign-in-link");
+    rawTokens.push(tokenIn(String(newMail.props.url)));
+    expect((await handle(appRequest(new URL(String(newMail.props.url)).pathname, { form: {} }))).status).toBe(302);
+
+    // The existing account is sent a way in, and keeps its name, password and rights.
+    expect((await latestEmailTo("taken@accounts.example")).template).toBe("sign-in-link");
+    const [after] = await db.select().from(users).where(eq(users.id, existing.id));
+    expect(after).toMatchObject({ name: existing.name, passwordHash: existing.passwordHash, mayCreateCourses: false });
   });
 });
 
@@ -250,6 +391,26 @@ describe("invitations", () => {
       .where(eq(users.email, "race@accounts.example"));
     expect(rows).toEqual([{ role: "ta", assigned: fixture.cohortId }]);
     expect(await db.select().from(users).where(eq(users.email, "race@accounts.example"))).toHaveLength(1);
+  });
+
+  it("invites a person whose name has quotes, and sends an invitation whose subject would be too long", async () => {
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const quoted = await handle(
+      appRequest(`/courses/${fixture.courseId}/members`, { cookie, form: { intent: "invite", email: "nan@accounts.example", name: 'Ann "Nan" <Lee>', role: "student", cohortId: fixture.cohortId } }),
+    );
+    expect(quoted.status).toBe(200);
+    expect(await latestEmailTo("nan@accounts.example")).toMatchObject({ status: "queued", toName: 'Ann "Nan" <Lee>' });
+
+    // The longest name and course title the forms take (120 characters each).
+    await db.update(users).set({ name: `Professor ${"Long".repeat(27)}n` }).where(eq(users.id, fixture.userIds.otherInstructor));
+    await db.update(courses).set({ title: `Fluid Mechanics ${"Laboratory ".repeat(9)}One` }).where(eq(courses.id, fixture.otherCourseId));
+    const otherCookie = await sessionCookieFor(fixture.userIds.otherInstructor);
+    const long = await handle(appRequest(`/courses/${fixture.otherCourseId}/members`, { cookie: otherCookie, form: { intent: "invite", email: "long@accounts.example", name: "", role: "ta", cohortId: "" } }));
+    expect(long.status).toBe(200);
+    const email = await latestEmailTo("long@accounts.example");
+    expect(email.status).toBe("queued");
+    expect(email.subject.length).toBeLessThanOrEqual(180);
+    expect(email.subject).toMatch(/^Professor Long.*…$/);
   });
 
   it("attaches the course to an existing account of the invited address", async () => {
@@ -331,6 +492,44 @@ describe("personal API tokens", () => {
     const after = await handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }));
     expect(after.status).toBe(401);
     expect(await after.json()).toEqual({ error: { code: "unauthenticated", message: expect.any(String) } });
+  });
+
+  it("revokes a TA's tokens when their last staff role ends, and not before", async () => {
+    const ta = await createUser("demoted.ta@accounts.example");
+    const [[here], [there]] = await Promise.all([
+      db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: ta.id, role: "ta" }).returning(),
+      db.insert(courseMemberships).values({ courseId: fixture.otherCourseId, userId: ta.id, role: "ta" }).returning(),
+    ]);
+    const created = await handle(appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "marking script" } }));
+    const token = (await created.text()).match(/bpt_[a-z2-7]+/)![0];
+    rawTokens.push(token);
+    const me = () => handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }));
+    expect((await me()).status).toBe(200);
+
+    // Made a student here, but still a TA in the other course: still staff, the token keeps working.
+    const instructor = await sessionCookieFor(fixture.userIds.instructor);
+    const demoted = await handle(appRequest(`/courses/${fixture.courseId}/members/${here.id}`, { cookie: instructor, form: { intent: "change-role", role: "student", cohortId: fixture.cohortId } }));
+    expect(demoted.status).toBe(200);
+    expect((await me()).status).toBe(200);
+
+    // Removed from the other course: no staff role is left, and neither is the token.
+    const otherInstructor = await sessionCookieFor(fixture.userIds.otherInstructor);
+    expect((await handle(appRequest(`/courses/${fixture.otherCourseId}/members/${there.id}`, { cookie: otherInstructor, form: { intent: "remove" } }))).status).toBe(302);
+    expect((await me()).status).toBe(401);
+    expect(await db.select().from(apiTokens).where(eq(apiTokens.userId, ta.id))).toEqual([]);
+    const [revocation] = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "auth.api_token_revoked"), eq(auditEvents.actorId, fixture.userIds.otherInstructor)));
+    expect(revocation.detail).toMatchObject({ name: "marking script", reason: "no longer staff", userId: ta.id });
+  });
+
+  it("revokes the tokens of a sole-course TA made a student", async () => {
+    const ta = await createUser("sole.ta@accounts.example");
+    const [membership] = await db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: ta.id, role: "ta" }).returning();
+    const created = await handle(appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "export" } }));
+    const token = (await created.text()).match(/bpt_[a-z2-7]+/)![0];
+    rawTokens.push(token);
+    const instructor = await sessionCookieFor(fixture.userIds.instructor);
+    await handle(appRequest(`/courses/${fixture.courseId}/members/${membership.id}`, { cookie: instructor, form: { intent: "change-role", role: "student", cohortId: fixture.cohortId } }));
+    expect((await handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }))).status).toBe(401);
   });
 
   it("gives students no tokens", async () => {

@@ -2,7 +2,7 @@ import { count, eq, sql } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { emailOutbox } from "~/db/schema";
 import { db } from "~/server/db.server";
-import { EmailRejectedError, sendEmail } from "~/server/email/send-email.server";
+import { SUBJECT_MAX_LENGTH, sendEmail, sendEmails } from "~/server/email/send-email.server";
 import { deliveryJobs, outboxRow, signInMessage } from "../support/email";
 
 const invitation = (overrides: Partial<{ courseTitle: string; inviterName: string }> = {}) =>
@@ -61,29 +61,51 @@ describe("sendEmail", () => {
   it("treats a repeated dedupe key as a no-op that returns the first row", async () => {
     const first = await sendEmail(db, { ...signInMessage("once@example.org"), dedupeKey: "test:once" });
     const second = await sendEmail(db, { ...signInMessage("once@example.org"), dedupeKey: "test:once" });
-    expect(second).toEqual({ outboxId: first.outboxId, duplicate: true });
+    expect(second).toEqual({ outboxId: first.outboxId, duplicate: true, refused: false });
     expect(await db.select().from(emailOutbox).where(eq(emailOutbox.dedupeKey, "test:once"))).toHaveLength(1);
     expect(await deliveryJobs(first.outboxId)).toHaveLength(1);
   });
 
-  it("rejects an invalid recipient before anything is queued", async () => {
-    const before = await outboxCount();
-    const attempt = sendEmail(db, signInMessage("not an address"));
-    await expect(attempt).rejects.toBeInstanceOf(EmailRejectedError);
-    await expect(sendEmail(db, signInMessage("not an address"))).rejects.toThrow(/to: not a valid e-mail address/);
-    expect(await outboxCount()).toBe(before);
+  it("writes an invalid recipient as a failed row with the reason, and queues no job for it", async () => {
+    const result = await sendEmail(db, signInMessage("not an address"));
+    expect(result).toMatchObject({ duplicate: false, refused: true });
+    expect(await outboxRow(result.outboxId)).toMatchObject({ status: "failed", toAddress: "not an address", lastError: expect.stringMatching(/to: not a valid e-mail address/) });
+    expect((await outboxRow(result.outboxId)).failedAt).not.toBeNull();
+    expect(await deliveryJobs(result.outboxId)).toEqual([]);
   });
 
-  it("refuses a subject that would inject headers with CR or LF", async () => {
-    await expect(sendEmail(db, invitation({ courseTitle: "Fluids\r\nBcc: everyone@example.org" }))).rejects.toThrow(/CR or LF/);
-    await expect(sendEmail(db, { ...signInMessage("a@example.org"), toName: "Eve\nBcc: x@example.org" })).rejects.toThrow(/toName/);
+  it("sends the rest of a batch when one message in it cannot be sent", async () => {
+    const results = await db.transaction((tx) =>
+      sendEmails(tx, [signInMessage("first@example.org"), signInMessage("second@@example.org"), { ...signInMessage("third@example.org"), toName: 'Ann "Nan" <Lee>' }]),
+    );
+    expect(results.map((result) => result.refused)).toEqual([false, true, false]);
+    expect((await outboxRow(results[1].outboxId)).status).toBe("failed");
+    for (const index of [0, 2]) {
+      expect((await outboxRow(results[index].outboxId)).status).toBe("queued");
+      expect(await deliveryJobs(results[index].outboxId)).toHaveLength(1);
+    }
+    // The name is kept as typed: the transport encodes it.
+    expect((await outboxRow(results[2].outboxId)).toName).toBe('Ann "Nan" <Lee>');
   });
 
-  it("refuses an oversized subject", async () => {
-    await expect(sendEmail(db, invitation({ inviterName: "A".repeat(150), courseTitle: "B".repeat(150) }))).rejects.toThrow(/subject: subject is longer than 180/);
+  it("keeps CR and LF out of headers: a name becomes one line, props with a line break are refused", async () => {
+    const refused = await sendEmail(db, invitation({ courseTitle: "Fluids\r\nBcc: everyone@example.org" }));
+    expect(await outboxRow(refused.outboxId)).toMatchObject({ status: "failed", lastError: expect.stringMatching(/props\.courseTitle: .*CR or LF/) });
+    const { outboxId } = await sendEmail(db, { ...signInMessage("a@example.org"), toName: "Eve\nBcc: x@example.org" });
+    expect(await outboxRow(outboxId)).toMatchObject({ status: "queued", toName: "Eve Bcc: x@example.org" });
   });
 
-  it("refuses props that do not match the template", async () => {
-    await expect(sendEmail(db, { ...signInMessage("a@example.org"), props: { url: "javascript:alert(1)", expiresInMinutes: 15 } })).rejects.toThrow(/props\.url/);
+  it(`shortens a subject over ${SUBJECT_MAX_LENGTH} characters with an ellipsis`, async () => {
+    const { outboxId, refused } = await sendEmail(db, invitation({ inviterName: "A".repeat(150), courseTitle: "B".repeat(110) }));
+    expect(refused).toBe(false);
+    const { subject, status } = await outboxRow(outboxId);
+    expect(status).toBe("queued");
+    expect(subject).toHaveLength(SUBJECT_MAX_LENGTH);
+    expect(subject).toMatch(new RegExp(`^A{150} invited you to T 1 B+…$`));
+  });
+
+  it("refuses props that do not match the template, as a failed row", async () => {
+    const { outboxId } = await sendEmail(db, { ...signInMessage("a@example.org"), props: { url: "javascript:alert(1)", expiresInMinutes: 15 } });
+    expect(await outboxRow(outboxId)).toMatchObject({ status: "failed", lastError: expect.stringMatching(/props\.url/) });
   });
 });

@@ -50,6 +50,12 @@ describe("delivery through Resend", () => {
     expect(row).toMatchObject({ transport: "resend", providerMessageId: resend.accepted.get(outboxId)!.id, attempts: 1, lastError: null });
   });
 
+  it("sends a name with quotes as one quoted mailbox", async () => {
+    const { outboxId } = await sendEmail(db, { ...signInMessage("ann.lee@example.org"), toName: 'Ann "Nan" <Lee>' });
+    await waitFor(async () => (await outboxRow(outboxId)).status === "sent", "the message to be sent");
+    expect(resend.requests[0].body.to).toEqual(['"Ann \\"Nan\\" <Lee>" <ann.lee@example.org>']);
+  });
+
   it("retries after a 429 and a 500 and then sends the message exactly once", async () => {
     resend.failNext(429, 500);
     const { outboxId } = await sendEmail(db, signInMessage("twice.unlucky@example.org"));

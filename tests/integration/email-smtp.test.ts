@@ -1,4 +1,5 @@
 import { sql } from "drizzle-orm";
+import addressparser from "nodemailer/lib/addressparser";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { loader as emailsLoader } from "~/routes/api/dev.emails";
 import { caughtEmails } from "~/db/schema";
@@ -79,6 +80,15 @@ describe("delivery through the local mail catcher", () => {
     expect(email.text).toContain("a teaching assistant");
     expect(email.links).toContain("http://localhost:3000/invitations/round-trip");
     expect(row.transport).toBe("smtp");
+  });
+
+  it("delivers to a name with quotes and angle brackets, which nodemailer encodes", async () => {
+    const { outboxId } = await sendEmail(db, { ...signInMessage("ann.lee@example.org"), toName: 'Ann "Nan" <Lee>' });
+    await waitFor(async () => (await outboxRow(outboxId)).status === "sent", "the message to reach the catcher");
+    process.env.BENCHPOST_DEV_INBOX = "1";
+    const [email] = (await fetchCaught("ann.lee@example.org")).emails;
+    expect(email.to).toEqual(["ann.lee@example.org"]);
+    expect(addressparser(email.headers.to, { flatten: true })).toEqual([{ name: 'Ann "Nan" <Lee>', address: "ann.lee@example.org" }]);
   });
 
   it("keeps caught messages when the catcher restarts", async () => {

@@ -6,11 +6,12 @@
 import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { cohorts, courseMemberships, emailOutbox, labReminders, labs, parts, users } from "~/db/schema";
+import { cohorts, courseMemberships, dropLogVersions, emailOutbox, labCohorts, labReminders, labs, parts, users } from "~/db/schema";
 import { labInputFor, newLabFormValues, type LabInput } from "~/lib/labs/lab-input";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import { db } from "~/server/db.server";
+import { handInDropLog } from "~/server/drop-logs/hand-in.server";
 import { queues } from "~/server/jobs/boss.server";
 import { getLabDashboard } from "~/server/labs/lab-dashboard.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
@@ -141,6 +142,25 @@ describe("drafts, publishing and closing", () => {
     await expect(closeLab(db, { access: instructor(), labId: lab.id })).rejects.toThrow(LabRuleError);
   });
 
+  it("re-decides the late flag of the hand-ins already made when the due time moves, either way", async () => {
+    const now = new Date(Math.floor(Date.now() / 60_000) * 60_000);
+    const [lab] = await db
+      .insert(labs)
+      .values({ courseId: fixture.courseId, title: "Moved due time", kind: "drag", status: "published", opensAt: new Date(now.getTime() - 2 * HOUR), dueAt: new Date(now.getTime() - HOUR), lateCutoffAt: new Date(now.getTime() + HOUR), requiredDrops: 5, resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 } })
+      .returning();
+    await db.insert(labCohorts).values({ labId: lab.id, cohortId: fixture.cohortId });
+    const student = { ...instructor(), user: { ...instructor().user, id: fixture.userIds.ownStudent }, membership: { id: fixture.membershipIds.ownStudent, role: "student" as const, cohortId: fixture.cohortId }, cohortIds: [fixture.cohortId] };
+    const handedIn = await handInDropLog(db, { access: student, labId: lab.id, input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] }, idempotencyKey: "labs-moved-due", now });
+    expect(handedIn.version.late).toBe(true);
+    const lateOf = async () => (await db.select({ late: dropLogVersions.late }).from(dropLogVersions).where(eq(dropLogVersions.id, handedIn.version.id)))[0].late;
+    const move = (dueAt: Date) =>
+      updateLab(db, { access: instructor(), labId: lab.id, input: labForm({ opensAt: wallClock(lab.opensAt), dueAt: wallClock(dueAt), lateCutoffAt: "", cohortIds: [fixture.cohortId] }), intent: "save", now });
+    await move(new Date(now.getTime() + 2 * HOUR));
+    expect(await lateOf()).toBe(false);
+    await move(new Date(now.getTime() - 30 * 60_000));
+    expect(await lateOf()).toBe(true);
+  });
+
   it("skips an offset whose time has already passed at publishing", async () => {
     const now = new Date();
     const input = labForm({ opensAt: wallClock(new Date(now.getTime() - HOUR)), dueAt: wallClock(new Date(now.getTime() + 10 * HOUR)), cohortIds: [fixture.cohortId] });
@@ -163,7 +183,7 @@ describe("reminder job", () => {
     const reminders = await db.select().from(labReminders).where(eq(labReminders.labId, lab.id));
     expect(reminders.map((reminder) => reminder.membershipId)).toEqual([fixture.membershipIds.sameCohortStudent]);
     const [email] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, reminders[0].outboxId!));
-    expect(email).toMatchObject({ template: "deadline-reminder", toAddress: "samecohortstudent@labs.example", dedupeKey: `reminder:${lab.id}:${fixture.membershipIds.sameCohortStudent}:48` });
+    expect(email).toMatchObject({ template: "deadline-reminder", toAddress: "samecohortstudent@labs.example", dedupeKey: `reminder:${lab.id}:${fixture.membershipIds.sameCohortStudent}:${lab.dueAt.toISOString()}:48` });
     expect(email.props).toMatchObject({ labTitle: lab.title, hoursLeft: 48 });
 
     // A second offset is a reminder of its own.

@@ -9,6 +9,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, cohorts, courseMemberships, dropLogs, emailOutbox, labCohorts, labExtensions, labs, markChanges, marks, rubricCriteria, taCohortAssignments } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { listFailedEmails } from "~/server/email/failed-emails.server";
 import { HandInRefusedError, handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
 import { loadMarksJson } from "~/server/marking/mark-export.server";
 import { loadMarkingDesk, readMarkingDeskFilters, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
@@ -173,14 +174,19 @@ describe("the marking desk", () => {
     expect(await statementsFor(1000)).toBe(small);
   });
 
-  it("filters and sorts on the server: missing, late, unmarked, by total", async () => {
+  it("filters and sorts on the server: missing (after the due time; not due yet before it), late, unmarked, by total", async () => {
     const cohortId = await freshCohort("Filters");
     const lab = await labWithRubric("Filters", { cohortIds: [cohortId] });
     const { membershipIds, dropLogIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(10), label: "filters", late: (index) => index < 3 });
     // Two of them never handed in: their drop logs have no counted version.
     await db.update(dropLogs).set({ latestVersionId: null }).where(inArray(dropLogs.id, dropLogIds.slice(8)));
     const access = accessOf("assignedTa");
-    const desk = (filters: Partial<MarkingDeskFilters>) => loadMarkingDesk(db, { access, lab, filters: page(filters) });
+    const afterDue = new Date(lab.dueAt.getTime() + 60_000);
+    const desk = (filters: Partial<MarkingDeskFilters>, now = afterDue) => loadMarkingDesk(db, { access, lab, filters: page(filters), now });
+    // Up to and including the due instant they may still hand in on time: not missing yet.
+    const atDue = await desk({ status: "not-due" }, lab.dueAt);
+    expect(atDue.rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
+    expect(atDue.counts).toMatchObject({ missing: 0, "not-due": 2 });
     expect((await desk({ status: "late" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(0, 3).sort());
     expect((await desk({ status: "missing" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
     // "Select all that match" reaches past the page: every late student, though a page holds two.
@@ -191,7 +197,7 @@ describe("the marking desk", () => {
     // Missing hand-ins get 0 from every automatic criterion, so they sort last.
     expect(byTotal.rows.slice(-2).map((row) => row.total)).toEqual([0, 0]);
     expect((await desk({ status: "unmarked" })).totalRows).toBe(10);
-    expect((await desk({})).counts).toEqual({ all: 10, unmarked: 10, flagged: 0, late: 3, missing: 2 });
+    expect((await desk({})).counts).toEqual({ all: 10, unmarked: 10, flagged: 0, late: 3, missing: 2, "not-due": 0 });
     expect(readMarkingDeskFilters(new URL("http://x/?status=late&sort=-total&page=3&pageSize=999&cohort=nope"))).toEqual({
       cohortId: undefined,
       status: "late",
@@ -565,6 +571,28 @@ describe("release safeguards", () => {
     expect(unconfirmed).toMatchObject({ status: 409, data: { error: expect.stringContaining("may still hand in"), values: { scope: "all", zeroForNoHandIn: "on" } } });
     const confirmed = await post({ intent: "release", scope: "all", whileOpen: "on" });
     expect(confirmed).toMatchObject({ status: 200, data: { done: expect.stringMatching(/^Released \d+ marks? and queued/) } });
+  });
+
+  it("releases every mark and e-mails the rest when one student's name has quotes and another's address is unusable", async () => {
+    const cohortId = await freshCohort("Release awkward names");
+    const lab = await labWithRubric("Release awkward names", { cohortIds: [cohortId] });
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId, figures: quietClass(3), label: "awkward" });
+    const [quoted, unusable, plain] = membershipIds;
+    const userOf = (membershipId: string) => sql`(select user_id from course_memberships where id = ${membershipId})`;
+    await db.execute(sql`update users set name = 'Ann "Nan" <Lee>' where id = ${userOf(quoted)}`);
+    // An address stored before addresses were checked as strictly: its message cannot be sent.
+    await db.execute(sql`update users set email = 'no-at-sign.awkward' where id = ${userOf(unusable)}`);
+    await applyToMany(db, { access: accessOf("instructor"), labId: lab.id, membershipIds, change: { kind: "score", criterionId: byTitle(lab, "Set-up described").id, level: 2 } });
+    await markLabReady(db, { access: accessOf("instructor"), lab });
+
+    expect(await releaseMarks(db, { access: accessOf("instructor"), lab, choice: releaseAll })).toMatchObject({ released: 3, emailed: 2 });
+    const rows = await db.select().from(emailOutbox).where(like(emailOutbox.dedupeKey, `marks-released:${lab.id}:%`));
+    const byMember = (membershipId: string) => rows.find((row) => row.dedupeKey === `marks-released:${lab.id}:${membershipId}`)!;
+    expect(byMember(quoted)).toMatchObject({ status: "queued", toName: 'Ann "Nan" <Lee>' });
+    expect(byMember(plain)).toMatchObject({ status: "queued" });
+    expect(byMember(unusable)).toMatchObject({ status: "failed", toAddress: "no-at-sign.awkward", lastError: expect.stringContaining("to: not a valid e-mail address") });
+    // The instructors see the message that could not go.
+    expect((await listFailedEmails(fixture.courseId)).map((email) => email.id)).toContain(byMember(unusable).id);
   });
 
   it("runs the same statements releasing 5 or 300 students", async () => {

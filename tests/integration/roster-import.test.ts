@@ -1,4 +1,4 @@
-import { eq } from "drizzle-orm";
+import { eq, inArray } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { emailOutbox, invitations } from "~/db/schema";
 import type { RosterRow } from "~/lib/roster/roster-rows";
@@ -48,5 +48,20 @@ describe("roster import", () => {
     const mail = await db.select({ to: emailOutbox.toAddress, template: emailOutbox.template }).from(emailOutbox).where(eq(emailOutbox.courseId, fixture.courseId));
     expect(mail).toHaveLength(3);
     expect(new Set(mail.map((m) => m.template))).toEqual(new Set(["course-invitation"]));
+  });
+
+  it("invites rows whose names have quotes and angle brackets, each with a queued e-mail", async () => {
+    const rows = [{ ...row(2, "quoted.one@uni.example"), name: 'Ann "Nan" Lee' }, { ...row(3, "quoted.two@uni.example"), name: "Bo <Bo> Lee" }];
+    expect(await importRoster(db, { courseId: fixture.courseId, inviter: inviter(), rows })).toMatchObject({ ok: true, invited: 2 });
+    const mail = await db
+      .select({ to: emailOutbox.toAddress, toName: emailOutbox.toName, status: emailOutbox.status })
+      .from(emailOutbox)
+      .where(inArray(emailOutbox.toAddress, ["quoted.one@uni.example", "quoted.two@uni.example"]));
+    expect(mail).toEqual(
+      expect.arrayContaining([
+        { to: "quoted.one@uni.example", toName: 'Ann "Nan" Lee', status: "queued" },
+        { to: "quoted.two@uni.example", toName: "Bo <Bo> Lee", status: "queued" },
+      ]),
+    );
   });
 });

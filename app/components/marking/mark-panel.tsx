@@ -7,12 +7,21 @@
 import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { HandInDetail, type HandInDetailData } from "~/components/drop-logs/hand-in-detail";
+import { ExtendedTo } from "~/components/labs/extended-to";
 import { Notice } from "~/components/ui/notice";
+import type { HandInStanding } from "~/lib/drop-logs/hand-in-window";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
 import { PointsInput, SaveStatus } from "./mark-inputs";
 import type { SaveState } from "./use-mark-saver";
+
+const panelStatusWords: Record<HandInStanding, string> = {
+  missing: "nothing handed in",
+  "not-due": "not handed in yet; their due time is still ahead",
+  late: "handed in late",
+  "on-time": "handed in on time",
+};
 
 function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCriterion; row: MarkingDeskRow; save: (change: MarkChange) => boolean; canEdit: boolean }) {
   const cell = row.cells[criterion.id];
@@ -61,6 +70,7 @@ function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCrit
 export function MarkPanel({
   courseId,
   labId,
+  timeZone,
   rubric,
   canEdit,
   row,
@@ -73,6 +83,7 @@ export function MarkPanel({
 }: {
   courseId: string;
   labId: string;
+  timeZone: string;
   rubric: RubricCriterion[];
   canEdit: boolean;
   row: MarkingDeskRow;
@@ -110,8 +121,14 @@ export function MarkPanel({
             {row.studentName}
           </h2>
           <p className="text-sm text-ink-700">
-            {row.cohortName} · {row.status === "missing" ? "nothing handed in" : row.status === "late" ? "handed in late" : "handed in on time"} · total{" "}
-            <strong>{row.total}</strong> / {row.maxTotal}
+            {row.cohortName} · {panelStatusWords[row.status]}
+            {row.deadline.extendedBy ? (
+              <>
+                {" "}
+                (<ExtendedTo deadline={row.deadline} timeZone={timeZone} />)
+              </>
+            ) : null}{" "}
+            · total <strong>{row.total}</strong> / {row.maxTotal}
           </p>
         </div>
         <div className="flex gap-1">

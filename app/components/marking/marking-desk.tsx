@@ -9,6 +9,8 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useRef, use
 import { Link, useLocation } from "react-router";
 import { ClassLabelTag } from "~/components/comparison/class-label";
 import { figure } from "~/components/drop-logs/reduction-summary";
+import { ExtendedTo } from "~/components/labs/extended-to";
+import { handInStandingWords } from "~/lib/drop-logs/hand-in-window";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
@@ -23,6 +25,8 @@ export type DeskProps = {
   courseId: string;
   labId: string;
   kind: "drag" | "viscometry";
+  /** The course's time zone, for students' own due times. */
+  timeZone: string;
   rubric: RubricCriterion[];
   rows: MarkingDeskRow[];
   /** Every student passing the filters, on all pages. */
@@ -42,11 +46,9 @@ type RowTools = {
 };
 
 const RowContext = createContext<RowTools | null>(null);
-const DeskContext = createContext<{ canEdit: boolean; rubric: RubricCriterion[]; open: (membershipId: string) => void; kind: DeskProps["kind"] } | null>(null);
+const DeskContext = createContext<{ canEdit: boolean; rubric: RubricCriterion[]; open: (membershipId: string) => void; kind: DeskProps["kind"]; timeZone: string } | null>(null);
 const useRowTools = () => useContext(RowContext)!;
 const useDesk = () => useContext(DeskContext)!;
-
-const statusWords = { missing: "missing", "on-time": "on time", late: "late" } as const;
 
 /** A control of the grid: `col` counts only the cells that take focus, so arrows skip plain text. */
 const cellProps = (row: number, col: number) => ({ "data-row": row, "data-col": col, tabIndex: -1 });
@@ -85,9 +87,11 @@ function StudentCell() {
 
 function HandInCell() {
   const { row } = useRowTools();
+  const { timeZone } = useDesk();
   return (
     <div className="flex flex-col text-xs">
-      <span className={row.status === "missing" ? "font-medium text-outlier" : row.status === "late" ? "font-medium text-outlier" : ""}>{statusWords[row.status]}</span>
+      <span className={row.status === "missing" || row.status === "late" ? "font-medium text-outlier" : ""}>{handInStandingWords[row.status]}</span>
+      <ExtendedTo deadline={row.deadline} timeZone={timeZone} />
       {row.handIn ? <span className="text-ink-600">v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops</span> : null}
       {row.handInChangedSinceMarked ? (
         <span className="text-amber-700">
@@ -297,7 +301,7 @@ function DeskRow({
 
 const column = createColumnHelper<MarkingDeskRow>();
 
-export function MarkingDesk({ courseId, labId, kind, rubric, rows, matchingIds, canEdit, maxTotal, sort }: DeskProps) {
+export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, matchingIds, canEdit, maxTotal, sort }: DeskProps) {
   const [local, setLocal] = useState<Record<string, RowState>>({});
   const [selection, setSelection] = useState<RowSelectionState>({});
   /** Every student matching the filters is selected, beyond this page. */
@@ -397,7 +401,7 @@ export function MarkingDesk({ courseId, labId, kind, rubric, rows, matchingIds, 
     setAllMatching(false);
   }, []);
   const open = useCallback((membershipId: string) => setOpenId(membershipId), []);
-  const desk = useMemo(() => ({ canEdit, rubric, open, kind }), [canEdit, rubric, open, kind]);
+  const desk = useMemo(() => ({ canEdit, rubric, open, kind, timeZone }), [canEdit, rubric, open, kind, timeZone]);
   const openIndex = rows.findIndex((row) => row.membershipId === openId);
   const openTools = openId ? tools[openId] : undefined;
 
@@ -495,6 +499,7 @@ export function MarkingDesk({ courseId, labId, kind, rubric, rows, matchingIds, 
               key={openId}
               courseId={courseId}
               labId={labId}
+              timeZone={timeZone}
               rubric={rubric}
               canEdit={canEdit}
               row={openTools.row}

@@ -31,6 +31,29 @@ export const dropLogStatusLabels: Record<DropLogStatus, string> = {
   late: "Handed in late",
 };
 
+/**
+ * Where a student's hand-in of a lab stands for staff: handed in on time or late (the counted
+ * version's flag, which lateness re-decides when an extension changes), or nothing yet, "missing" only
+ * once the student's own due time has passed. Before it they may still hand in on time.
+ */
+export type HandInStanding = "on-time" | "late" | "not-due" | "missing";
+
+export function handInStanding(latestLate: boolean | null, effectiveDueAt: Date, now: Date): HandInStanding {
+  if (latestLate !== null) return latestLate ? "late" : "on-time";
+  return now.getTime() <= effectiveDueAt.getTime() ? "not-due" : "missing";
+}
+
+/** A student's own deadline as staff pages read it (instants as ISO text): the window above, and why. */
+export type StudentDeadline = {
+  dueAt: string;
+  lateCutoffAt: string | null;
+  extendedBy: EffectiveHandInWindow["extendedBy"];
+  /** Why staff extended it; null without an extension. Staff only: never sent to a student. */
+  extensionReason: string | null;
+};
+
+export const handInStandingWords: Record<HandInStanding, string> = { "on-time": "on time", late: "late", "not-due": "not due yet", missing: "missing" };
+
 /** An extension's times, as stored in `lab_extensions`. */
 export type ExtensionWindow = { dueAt: Date; lateCutoffAt: Date | null };
 export type EffectiveHandInWindow = HandInWindow & { extendedBy: "student" | "cohort" | null };

@@ -4,14 +4,17 @@
  */
 import { z } from "zod";
 
-export const deskStatusFilters = ["unmarked", "flagged", "late", "missing"] as const;
+export const deskStatusFilters = ["unmarked", "flagged", "late", "missing", "not-due"] as const;
 export type DeskStatusFilter = (typeof deskStatusFilters)[number];
 export const deskSortKeys = ["name", "cohort", "status", "submittedAt", "figure", "label", "total", "progress"] as const;
 export type DeskSortKey = (typeof deskSortKeys)[number];
 
 export type MarkingDeskFilters = {
   cohortId?: string;
-  /** unmarked: not every criterion scored yet; flagged: suspect or outlier; late; missing: nothing handed in. */
+  /**
+   * unmarked: not every criterion scored yet; flagged: suspect or outlier; late; missing: nothing handed
+   * in by the student's own due time; not-due: nothing handed in, their own due time still ahead.
+   */
   status?: DeskStatusFilter;
   sort?: { by: DeskSortKey; direction: "asc" | "desc" };
   /** 1-based. */

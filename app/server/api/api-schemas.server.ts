@@ -36,8 +36,8 @@ export const labSummary = z
     kind: z.enum(["drag", "viscometry"]),
     status: z.enum(["draft", "published", "closed"]),
     opensAt: timestamp,
-    dueAt: timestamp,
-    lateCutoffAt: timestamp.nullable().describe("Late hand-ins are accepted, and labelled late, until then; null: none after the due time."),
+    dueAt: timestamp.describe("For a student, their own due time: their extension's, else their cohort's, else the lab's."),
+    lateCutoffAt: timestamp.nullable().describe("Late hand-ins are accepted, and labelled late, until then (for a student, their own, as `dueAt`); null: none after the due time."),
     dropLog: z
       .object({ status: z.enum(["not-started", "draft", "handed-in", "late"]), versionCount: z.int() })
       .nullable()
@@ -155,7 +155,11 @@ export const marksResponse = z
         membershipId: uuid,
         student: z.object({ name: z.string(), email: z.string(), studentNumber: z.string().nullable() }),
         cohort: z.object({ id: uuid, name: z.string() }),
-        handIn: z.enum(["missing", "on-time", "late"]).describe("Where the hand-in the mark rests on stands (`markedVersion`; the counted one for a student without a mark)."),
+        handIn: z
+          .enum(["missing", "on-time", "late", "not-due"])
+          .describe(
+            "Where the hand-in the mark rests on stands (`markedVersion`; the counted one for a student without a mark). Without one: `not-due` while nothing is handed in and the student's own due time (their extension's, else their cohort's, else the lab's) is still ahead, `missing` after it. `not-due` is new: earlier such students were reported `missing`.",
+          ),
         late: z.boolean().describe("The hand-in the mark rests on was late."),
         markedVersion: z
           .object({ id: uuid, number: z.int().min(1) })

@@ -2,10 +2,10 @@
  * Personal API tokens for staff: created with a name, shown once, stored as SHA-256, listed with
  * their last use, revoked by deleting them. Accepted as `Authorization: Bearer …` on /api/.
  */
-import { and, desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, exists, isNull, ne, not, sql } from "drizzle-orm";
 import { apiTokens, courseMemberships, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
-import { db } from "~/server/db.server";
+import { type Executor, db } from "~/server/db.server";
 import type { SessionUser } from "./session.server";
 import { generateToken, hashToken } from "./tokens.server";
 
@@ -38,15 +38,37 @@ export async function authenticateApiToken(token: string): Promise<SessionUser |
   return row.user;
 }
 
+/** Whether the user teaches or assists in a course (an active membership that is not a student's). */
+const isCourseStaff = (userId: string) =>
+  exists(
+    db
+      .select({ found: sql`1` })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.userId, userId), ne(courseMemberships.role, "student"), isNull(courseMemberships.removedAt))),
+  );
+
 /** Tokens are for staff: people who may open courses, or who teach or assist in one. */
 export async function mayHaveApiTokens(user: SessionUser): Promise<boolean> {
   if (user.mayCreateCourses) return true;
-  const [row] = await db
-    .select({ found: sql<number>`1` })
-    .from(courseMemberships)
-    .where(and(eq(courseMemberships.userId, user.id), sql`${courseMemberships.role} <> 'student'`, sql`${courseMemberships.removedAt} is null`))
-    .limit(1);
-  return Boolean(row);
+  const result = await db.execute<{ staff: boolean }>(sql`select ${isCourseStaff(user.id)} as staff`);
+  return result.rows[0].staff;
+}
+
+/**
+ * Deletes the user's tokens once they are staff no more, in the transaction that ended their last staff
+ * role (made a student, removed from the course): a token must not outlive the role it was given for.
+ * One statement; nothing happens while the user is still staff somewhere.
+ */
+export async function revokeTokensOfFormerStaff(tx: Executor, userId: string, actorId: string, request?: Request): Promise<void> {
+  const mayCreateCourses = tx.select({ found: sql`1` }).from(users).where(and(eq(users.id, userId), eq(users.mayCreateCourses, true)));
+  const revoked = await tx
+    .delete(apiTokens)
+    .where(and(eq(apiTokens.userId, userId), not(exists(mayCreateCourses)), not(isCourseStaff(userId))))
+    .returning({ id: apiTokens.id, name: apiTokens.name });
+  await recordAudit(
+    tx,
+    revoked.map((token) => ({ action: "auth.api_token_revoked" as const, actorId, subject: `api_token:${token.id}`, detail: { name: token.name, reason: "no longer staff", userId }, request })),
+  );
 }
 
 export function listApiTokens(userId: string) {

@@ -3,8 +3,8 @@
  * SHA-256. A link is used by deleting its row (`delete … returning`), so two clicks racing each other
  * cannot both succeed.
  */
-import { and, eq } from "drizzle-orm";
-import { emailLinks } from "~/db/schema";
+import { and, eq, sql } from "drizzle-orm";
+import { emailLinks, users } from "~/db/schema";
 import type { Executor } from "~/server/db.server";
 import { generateToken, hashToken } from "./tokens.server";
 
@@ -12,15 +12,26 @@ export type EmailLinkPurpose = "sign_in" | "password_reset";
 
 export const emailLinkLifetimeMinutes: Record<EmailLinkPurpose, number> = { sign_in: 15, password_reset: 60 };
 
-export async function createEmailLink(executor: Executor, userId: string, purpose: EmailLinkPurpose): Promise<string> {
+/**
+ * Writes a link for the account of `email`, in one statement that finds the account too. An address with
+ * no account gets a token all the same, but no row: the same work either way, so that timing does not
+ * tell whether an account exists.
+ */
+export async function createEmailLink(
+  executor: Executor,
+  email: string,
+  purpose: EmailLinkPurpose,
+): Promise<{ token: string; user: { id: string; name: string } | null }> {
   const token = generateToken();
-  await executor.insert(emailLinks).values({
-    id: hashToken(token),
-    userId,
-    purpose,
-    expiresAt: new Date(Date.now() + emailLinkLifetimeMinutes[purpose] * 60_000),
-  });
-  return token;
+  const expiresAt = new Date(Date.now() + emailLinkLifetimeMinutes[purpose] * 60_000);
+  const result = await executor.execute<{ id: string; name: string }>(sql`
+    with account as (select id, name from ${users} where email = ${email}),
+    link as (
+      insert into ${emailLinks} (id, user_id, purpose, expires_at)
+      select ${hashToken(token)}, account.id, ${purpose}, ${expiresAt.toISOString()}::timestamptz from account
+    )
+    select id, name from account`);
+  return { token, user: result.rows[0] ?? null };
 }
 
 /** Uses up the link and returns its user, or null when it is unknown, used, expired or for another purpose. */
@@ -40,4 +51,9 @@ export async function peekEmailLink(executor: Executor, token: string, purpose: 
     .from(emailLinks)
     .where(and(eq(emailLinks.id, hashToken(token)), eq(emailLinks.purpose, purpose)));
   return Boolean(row && row.expiresAt.getTime() > Date.now());
+}
+
+/** Ends every outstanding link of the user, whatever its purpose: a new password must not be bypassed by an older e-mail. */
+export async function deleteUserEmailLinks(executor: Executor, userId: string): Promise<void> {
+  await executor.delete(emailLinks).where(eq(emailLinks.userId, userId));
 }

@@ -7,7 +7,7 @@ import { pool } from "~/server/db.server";
 
 type LimitName = "sign-in-ip" | "sign-in-account" | "email-link-address" | "email-link-ip";
 
-/** Points per window. Sign-in counts failures only; e-mailed links count every request. */
+/** Points per window. Sign-in refunds the point of a success, so it counts failures; e-mailed links count every request. */
 const settings: Record<LimitName, { points: number; durationSeconds: number }> = {
   "sign-in-ip": { points: 10, durationSeconds: 15 * 60 },
   "sign-in-account": { points: 10, durationSeconds: 60 * 60 },
@@ -42,17 +42,11 @@ export type LimitCheck = { limited: false } | { limited: true; retryAfterSeconds
 const retryAfter = (res: RateLimiterRes) => Math.max(1, Math.ceil(res.msBeforeNext / 1000));
 
 /**
- * Whether the key has used up its points, without spending one. A null key (no trusted client address,
- * see `clientIp`) is never limited: one shared bucket would let anybody lock everybody out.
+ * Spends one point and says whether the key was already over its limit. Spending comes first so that
+ * requests arriving together cannot all pass a check made before any of them counted. A null key (no
+ * trusted client address, see `clientIp`) is never limited: one shared bucket would let anybody lock
+ * everybody out.
  */
-export async function isLimited(name: LimitName, key: string | null): Promise<LimitCheck> {
-  if (key === null) return { limited: false };
-  const res = await limiter(name).get(key);
-  if (res && res.consumedPoints >= settings[name].points) return { limited: true, retryAfterSeconds: retryAfter(res) };
-  return { limited: false };
-}
-
-/** Spends one point; says whether the key was already over its limit. A null key is never limited. */
 export async function consume(name: LimitName, key: string | null): Promise<LimitCheck> {
   if (key === null) return { limited: false };
   try {
@@ -64,8 +58,10 @@ export async function consume(name: LimitName, key: string | null): Promise<Limi
   }
 }
 
-export async function forget(name: LimitName, key: string): Promise<void> {
-  await limiter(name).delete(key);
+/** Gives back the point a request spent, for limits that count failures only. */
+export async function refund(name: LimitName, key: string | null): Promise<void> {
+  if (key === null) return;
+  await limiter(name).reward(key, 1);
 }
 
 /** The first limit that is reached among several checks, or `{ limited: false }`. */

@@ -1,17 +1,18 @@
 /**
  * Signing in and out, e-mailed links, password changes and resets. Every success starts a new
- * session; a password change or reset ends all the others. Answers never say whether an account exists.
+ * session; a password change or reset ends all the others and every e-mailed link. Answers never say
+ * whether an account exists.
  */
-import { and, eq } from "drizzle-orm";
-import { emailLinks, users } from "~/db/schema";
-import { recordAudit } from "~/server/audit.server";
-import { appUrl } from "~/server/config.server";
+import { eq } from "drizzle-orm";
+import { users } from "~/db/schema";
+import { type AuditInput, recordAudit } from "~/server/audit.server";
+import { allowSignUp, appUrl } from "~/server/config.server";
 import { db, type Executor } from "~/server/db.server";
 import { sendEmail } from "~/server/email/send-email.server";
 import { clientIp } from "~/server/http.server";
-import { consumeEmailLink, createEmailLink, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
+import { consumeEmailLink, createEmailLink, deleteUserEmailLinks, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
 import { hashPassword, verifyAgainstDecoy, verifyPassword } from "./password.server";
-import { consume, firstLimited, forget, isLimited, type LimitCheck } from "./rate-limit.server";
+import { consume, firstLimited, refund, type LimitCheck } from "./rate-limit.server";
 import { createSession, invalidateSession, invalidateUserSessions, type Session } from "./session.server";
 
 export type NewSession = { token: string; session: Session; userId: string };
@@ -36,14 +37,14 @@ export async function signInWithPassword(
 ): Promise<({ outcome: "signed-in" } & NewSession) | { outcome: "refused" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(input.email);
   const ip = clientIp(request);
-  // Checked before the password is even looked at, so that a limited attacker learns nothing more.
-  const limit = firstLimited(await Promise.all([isLimited("sign-in-ip", ip), isLimited("sign-in-account", email)]));
+  // The attempt is counted before the password is looked at, so however many arrive at once, at most the
+  // limit's worth are checked; a limited attacker learns nothing more. A success gets its points back.
+  const limit = firstLimited(await Promise.all([consume("sign-in-ip", ip), consume("sign-in-account", email)]));
   if (limit.limited) return { outcome: "limited", ...limit };
 
   const user = await findUserByEmail(db, email);
   const valid = user?.passwordHash ? await verifyPassword(user.passwordHash, input.password) : await verifyAgainstDecoy(input.password);
   if (!user || !valid) {
-    await Promise.all([consume("sign-in-ip", ip), consume("sign-in-account", email)]);
     await recordAudit(db, {
       action: "auth.sign_in_failed",
       actorId: user?.id ?? null,
@@ -53,7 +54,7 @@ export async function signInWithPassword(
     });
     return { outcome: "refused" };
   }
-  await forget("sign-in-account", email);
+  await Promise.all([refund("sign-in-ip", ip), refund("sign-in-account", email)]);
   return { outcome: "signed-in", ...(await startSession(db, user.id, request, "password")) };
 }
 
@@ -61,31 +62,45 @@ const linkTemplates = { sign_in: "sign-in-link", password_reset: "password-reset
 const linkPaths = { sign_in: "/sign-in/link", password_reset: "/reset-password" } as const;
 
 /**
- * Sends a sign-in or reset link when the address has an account; says nothing either way. Limited by
- * address and by client, so that nobody can flood a mailbox.
+ * Sends a sign-in or reset link when the address has an account, and a notice saying there is none
+ * otherwise; the answer is the same. Limited by address and by client, so that nobody can flood a mailbox.
  */
 export async function requestEmailLink(purpose: EmailLinkPurpose, rawEmail: string, request: Request): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(rawEmail);
   const limit = firstLimited(await Promise.all([consume("email-link-address", email), consume("email-link-ip", clientIp(request))]));
   if (limit.limited) return { outcome: "limited", ...limit };
-  const user = await findUserByEmail(db, email);
-  if (!user) return { outcome: "sent" };
-  await db.transaction(async (tx) => {
-    const token = await createEmailLink(tx, user.id, purpose);
-    await sendEmail(tx, {
-      to: user.email,
-      toName: user.name,
-      template: linkTemplates[purpose],
-      props: { url: `${appUrl()}${linkPaths[purpose]}/${token}`, expiresInMinutes: emailLinkLifetimeMinutes[purpose] },
-    });
-    await recordAudit(tx, {
-      action: purpose === "sign_in" ? "auth.sign_in_link_requested" : "auth.password_reset_requested",
-      actorId: user.id,
-      subject: `user:${user.id}`,
-      request,
-    });
-  });
+  await db.transaction((tx) => queueEmailLink(tx, purpose, email, request));
   return { outcome: "sent" };
+}
+
+/**
+ * The link, or the "no account" notice, queued through the outbox. Both take the same statements (the
+ * link's insert finds the account, see `createEmailLink`), so that how long the answer takes does not
+ * tell whether the address has an account. `alsoRecord` joins the one audit insert.
+ */
+async function queueEmailLink(tx: Executor, purpose: EmailLinkPurpose, email: string, request: Request, alsoRecord: AuditInput[] = []): Promise<void> {
+  const { token, user } = await createEmailLink(tx, email, purpose);
+  await sendEmail(
+    tx,
+    user
+      ? {
+          to: email,
+          toName: user.name,
+          template: linkTemplates[purpose],
+          props: { url: `${appUrl()}${linkPaths[purpose]}/${token}`, expiresInMinutes: emailLinkLifetimeMinutes[purpose] },
+        }
+      : { to: email, template: "no-account", props: { purpose, signUpUrl: allowSignUp() ? `${appUrl()}/sign-up` : null } },
+  );
+  await recordAudit(tx, [
+    ...alsoRecord,
+    {
+      action: purpose === "sign_in" ? "auth.sign_in_link_requested" : "auth.password_reset_requested",
+      actorId: user?.id ?? null,
+      subject: user ? `user:${user.id}` : null,
+      detail: user ? undefined : { reason: "unknown account" },
+      request,
+    },
+  ]);
 }
 
 export async function signInWithEmailLink(token: string, request: Request): Promise<NewSession | null> {
@@ -95,21 +110,26 @@ export async function signInWithEmailLink(token: string, request: Request): Prom
   });
 }
 
-/** Sets the new password, ends every session and every other reset link, and signs in afresh. */
+/** Sets the new password and ends what the old one could have opened: every session and every e-mailed link. */
+async function endCredentials(tx: Executor, userId: string, passwordHash: string): Promise<void> {
+  await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
+  await invalidateUserSessions(tx, userId);
+  await deleteUserEmailLinks(tx, userId);
+}
+
+/** Sets the new password, ends every session and every other e-mailed link, and signs in afresh. */
 export async function resetPasswordWithLink(token: string, newPassword: string, request: Request): Promise<NewSession | null> {
   const passwordHash = await hashPassword(newPassword);
   return db.transaction(async (tx) => {
     const userId = await consumeEmailLink(tx, token, "password_reset");
     if (!userId) return null;
-    await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
-    await invalidateUserSessions(tx, userId);
-    await tx.delete(emailLinks).where(and(eq(emailLinks.userId, userId), eq(emailLinks.purpose, "password_reset")));
+    await endCredentials(tx, userId, passwordHash);
     await recordAudit(tx, { action: "auth.password_reset", actorId: userId, subject: `user:${userId}`, request });
     return startSession(tx, userId, request, "password reset");
   });
 }
 
-/** A signed-in change: the current password is asked for when there is one. Ends every session, this one included. */
+/** A signed-in change: the current password is asked for when there is one. Ends every session (this one included) and e-mailed link. */
 export async function changePassword(
   userId: string,
   input: { currentPassword: string; newPassword: string },
@@ -119,8 +139,7 @@ export async function changePassword(
   if (user?.passwordHash && !(await verifyPassword(user.passwordHash, input.currentPassword))) return { outcome: "wrong-current-password" };
   const passwordHash = await hashPassword(input.newPassword);
   return db.transaction(async (tx) => {
-    await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
-    await invalidateUserSessions(tx, userId);
+    await endCredentials(tx, userId, passwordHash);
     await recordAudit(tx, { action: "auth.password_changed", actorId: userId, subject: `user:${userId}`, request });
     const { token, session } = await createSession(tx, userId, request);
     return { token, session, userId };
@@ -141,24 +160,22 @@ export async function signOutEverywhere(userId: string, request: Request): Promi
   });
 }
 
-/** Open sign-up makes an account that may open courses (an instructor's). */
-export async function signUp(
-  input: { name: string; email: string; password: string },
-  request: Request,
-): Promise<({ outcome: "signed-up" } & NewSession) | { outcome: "taken" } | ({ outcome: "limited" } & Limited)> {
-  const limit = await consume("email-link-ip", clientIp(request));
+/**
+ * Open sign-up makes an account that may open courses (an instructor's), without a password: the
+ * e-mailed sign-in link proves the address first, and a password can be chosen on the account page. An
+ * address that has an account already gets a sign-in link to it, and the same answer, so that sign-up
+ * does not tell who has an account (nor lets anyone claim an address they cannot read).
+ */
+export async function signUp(input: { name: string; email: string }, request: Request): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
+  const email = normaliseEmail(input.email);
+  const limit = firstLimited(await Promise.all([consume("email-link-address", email), consume("email-link-ip", clientIp(request))]));
   if (limit.limited) return { outcome: "limited", ...limit };
-  const passwordHash = await hashPassword(input.password);
-  return db.transaction(async (tx) => {
-    const [user] = await tx
-      .insert(users)
-      .values({ name: input.name, email: normaliseEmail(input.email), passwordHash, mayCreateCourses: true })
-      .onConflictDoNothing()
-      .returning({ id: users.id });
-    if (!user) return { outcome: "taken" as const };
-    await recordAudit(tx, { action: "auth.sign_up", actorId: user.id, subject: `user:${user.id}`, request });
-    return { outcome: "signed-up" as const, ...(await startSession(tx, user.id, request, "sign-up")) };
+  await db.transaction(async (tx) => {
+    const [created] = await tx.insert(users).values({ name: input.name, email, mayCreateCourses: true }).onConflictDoNothing().returning({ id: users.id });
+    const signedUp: AuditInput[] = created ? [{ action: "auth.sign_up", actorId: created.id, subject: `user:${created.id}`, request }] : [];
+    await queueEmailLink(tx, "sign_in", email, request, signedUp);
   });
+  return { outcome: "sent" };
 }
 
 export async function updateName(userId: string, name: string): Promise<void> {

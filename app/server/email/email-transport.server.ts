@@ -31,8 +31,15 @@ export class EmailDeliveryError extends Error {
   override name = "EmailDeliveryError";
 }
 
-function recipient(email: OutgoingEmail): string {
-  return email.toName ? `"${email.toName}" <${email.to}>` : email.to;
+/**
+ * The recipient as one RFC 5322 mailbox, for Resend, whose SDK takes only strings: the name as a
+ * quoted-string with `\` and `"` escaped as quoted-pairs (RFC 5322 §3.2.4). Line breaks cannot occur
+ * inside a quoted-string, so any control character becomes a space.
+ */
+export function formatMailbox(email: Pick<OutgoingEmail, "to" | "toName">): string {
+  if (!email.toName) return email.to;
+  const name = email.toName.replace(/\p{Cc}/gu, " ").replace(/["\\]/g, "\\$&");
+  return `"${name}" <${email.to}>`;
 }
 
 export function resendTransport(apiKey: string, from: string): EmailTransport {
@@ -42,7 +49,7 @@ export function resendTransport(apiKey: string, from: string): EmailTransport {
     async deliver(email) {
       // The outbox id as idempotency key: a retry after a lost response cannot send the message twice.
       const { data, error } = await resend.emails.send(
-        { from, to: [recipient(email)], subject: email.subject, html: email.html, text: email.text },
+        { from, to: [formatMailbox(email)], subject: email.subject, html: email.html, text: email.text },
         { idempotencyKey: email.outboxId },
       );
       if (error || !data) throw new EmailDeliveryError(`Resend refused the message (${error?.statusCode ?? "no status"} ${error?.name}): ${error?.message}`);
@@ -58,7 +65,8 @@ export function smtpTransport(url: string, from: string): EmailTransport {
     async deliver(email) {
       const info = await transporter.sendMail({
         from,
-        to: recipient(email),
+        // An address object: nodemailer quotes or MIME-encodes the name itself.
+        to: email.toName ? { name: email.toName, address: email.to } : email.to,
         subject: email.subject,
         html: email.html,
         text: email.text,

@@ -17,32 +17,26 @@ export type { EmailTemplateName, EmailTemplates };
 
 export type EmailDeliveryJob = { outboxId: string };
 
-/** Thrown for a message that must not be queued; `issues` says which field and why. */
-export class EmailRejectedError extends Error {
-  constructor(public readonly issues: z.core.$ZodIssue[]) {
-    super(`E-mail refused: ${issues.map((issue) => `${issue.path.join(".") || "message"}: ${issue.message}`).join("; ")}`);
-    this.name = "EmailRejectedError";
-  }
+/** Subjects longer than this are cut, with an ellipsis; RFC 5322 allows 998 characters a line, so folding never matters. */
+export const SUBJECT_MAX_LENGTH = 180;
+const NAME_MAX_LENGTH = 120;
+
+const codePoints = (text: string) => Array.from(text);
+// Control characters (CR and LF above all) never reach a header: they become spaces.
+const oneLine = (text: string) => text.replace(/[\p{Cc}\s]+/gu, " ").trim();
+
+function shortenSubject(subject: string): string {
+  const flat = codePoints(oneLine(subject));
+  return flat.length <= SUBJECT_MAX_LENGTH ? flat.join("") : `${flat.slice(0, SUBJECT_MAX_LENGTH - 1).join("").trimEnd()}…`;
 }
 
-// RFC 5322 allows 998 characters per header line; we stay far below so that folding never matters.
-const subjectSchema = z
-  .string()
-  .min(1)
-  .max(180, "subject is longer than 180 characters")
-  .refine((subject) => !/[\r\n]/.test(subject), "subject must not contain CR or LF (header injection)");
+/**
+ * A display name is whatever a person typed (quotes and angle brackets included): the transport encodes
+ * it. Here it is only made one line and cut to length, so that no name can stop a message.
+ */
+const displayName = (name: string | null | undefined) => codePoints(oneLine(name ?? "")).slice(0, NAME_MAX_LENGTH).join("").trim() || null;
 
-const envelopeSchema = z.object({
-  to: z.email("not a valid e-mail address").max(254).toLowerCase(),
-  toName: z
-    .string()
-    .trim()
-    .max(120)
-    .refine((name) => !/[\r\n"<>]/.test(name), "name must not contain CR, LF, quotes or angle brackets")
-    .nullish(),
-  courseId: z.uuid().nullish(),
-  dedupeKey: z.string().min(1).max(200).optional(),
-});
+const recipientAddress = z.email("not a valid e-mail address").max(254).toLowerCase();
 
 export type EmailMessage<T extends EmailTemplateName = EmailTemplateName> = {
   to: string;
@@ -50,41 +44,50 @@ export type EmailMessage<T extends EmailTemplateName = EmailTemplateName> = {
   template: T;
   props: EmailTemplates[T];
   courseId?: string | null;
+  /** Chosen by the caller, at most 200 characters. */
   dedupeKey?: string;
 };
 
-/** Checks one message and builds its outbox row; a refusal names the message's place in the batch. */
-function outboxRowFor(message: EmailMessage, index: number | null) {
-  const at = (issues: z.core.$ZodIssue[], path: PropertyKey[] = []) =>
-    issues.map((issue) => ({ ...issue, path: [...(index === null ? [] : [index]), ...path, ...issue.path] }));
-  const envelope = envelopeSchema.safeParse(message);
-  if (!envelope.success) throw new EmailRejectedError(at(envelope.error.issues));
+const describeIssues = (issues: z.core.$ZodIssue[], path: string) =>
+  issues.map((issue) => `${[path, ...issue.path].join(".")}: ${issue.message}`).join("; ");
+
+/**
+ * Builds one message's outbox row. A message that cannot be sent (a bad address, props that do not fit
+ * the template) still gets a row, already `failed` with the reason, so that it is seen and the rest of
+ * its batch goes out.
+ */
+function outboxRowFor(message: EmailMessage) {
+  const address = recipientAddress.safeParse(message.to);
   const props = templatePropsSchemas[message.template].safeParse(message.props);
-  if (!props.success) throw new EmailRejectedError(at(props.error.issues, ["props"]));
-  const subject = subjectSchema.safeParse(emailSubject(message.template, props.data as EmailTemplates[EmailTemplateName]));
-  if (!subject.success) throw new EmailRejectedError(at(subject.error.issues.map((issue) => ({ ...issue, path: [] })), ["subject"]));
+  const problems = [address.success ? null : describeIssues(address.error.issues, "to"), props.success ? null : describeIssues(props.error.issues, "props")].filter(Boolean);
   return {
     // The id is chosen here so that each message maps to its row without relying on RETURNING's order.
     id: randomUUID(),
-    toAddress: envelope.data.to,
-    toName: envelope.data.toName ?? null,
+    toAddress: address.success ? address.data : String(message.to).trim().toLowerCase().slice(0, 254),
+    toName: displayName(message.toName),
     template: message.template,
     // JSON round trip: Dates become ISO strings, which the template's schema revives on delivery.
-    props: JSON.parse(JSON.stringify(props.data)) as Record<string, unknown>,
-    subject: subject.data,
-    courseId: envelope.data.courseId ?? null,
-    dedupeKey: envelope.data.dedupeKey ?? null,
+    props: props.success ? (JSON.parse(JSON.stringify(props.data)) as Record<string, unknown>) : {},
+    subject: props.success ? shortenSubject(emailSubject(message.template, props.data as EmailTemplates[EmailTemplateName])) : `(${message.template}: not sent)`,
+    courseId: message.courseId ?? null,
+    dedupeKey: message.dedupeKey ?? null,
+    status: problems.length ? ("failed" as const) : ("queued" as const),
+    failedAt: problems.length ? new Date() : null,
+    lastError: problems.length ? `Refused before sending: ${problems.join("; ")}` : null,
   };
 }
 
+export type QueuedEmail = { outboxId: string; duplicate: boolean; refused: boolean };
+
 /**
  * Writes the outbox rows and enqueues their delivery jobs inside `tx`, in a constant number of
- * statements whatever the batch's size (a roster import queues thousands). All are checked before any
- * is written. A message whose `dedupeKey` is already in the outbox is not queued again.
+ * statements whatever the batch's size (a roster import queues thousands). A message that cannot be
+ * sent is written as failed (`refused`) and gets no job; it never stops the others. A message whose
+ * `dedupeKey` is already in the outbox is not queued again.
  */
-export async function sendEmails(tx: Executor, messages: EmailMessage[]): Promise<{ outboxId: string; duplicate: boolean }[]> {
+export async function sendEmails(tx: Executor, messages: EmailMessage[]): Promise<QueuedEmail[]> {
   if (messages.length === 0) return [];
-  const rows = messages.map((message, index) => outboxRowFor(message, messages.length === 1 ? null : index));
+  const rows = messages.map(outboxRowFor);
   // A savepoint when `tx` is already a transaction: the rows and the jobs always go together.
   return tx.transaction(async (inner) => {
     const inserted = new Set(await insertMany(inner, emailOutbox, rows, { onConflictDoNothing: true }));
@@ -94,7 +97,7 @@ export async function sendEmails(tx: Executor, messages: EmailMessage[]): Promis
       : [];
     const existingByKey = new Map(existing.map((row) => [row.dedupeKey, row.id]));
 
-    const jobs = rows.filter((row) => inserted.has(row.id)).map((row) => ({ name: queues.emailDelivery, data: { outboxId: row.id } satisfies EmailDeliveryJob }));
+    const jobs = rows.filter((row) => inserted.has(row.id) && row.status === "queued").map((row) => ({ name: queues.emailDelivery, data: { outboxId: row.id } satisfies EmailDeliveryJob }));
     if (jobs.length) {
       // pg-boss's batch insert joins on the queue table and says nothing when the queue is missing.
       const queue = await inner.execute(sql`select 1 from pgboss.queue where name = ${queues.emailDelivery}`);
@@ -102,13 +105,15 @@ export async function sendEmails(tx: Executor, messages: EmailMessage[]): Promis
       await enqueuer().insert(jobs, { db: transactionAdapter(inner) });
     }
     return rows.map((row) =>
-      inserted.has(row.id) ? { outboxId: row.id, duplicate: false } : { outboxId: existingByKey.get(row.dedupeKey)!, duplicate: true },
+      inserted.has(row.id)
+        ? { outboxId: row.id, duplicate: false, refused: row.status === "failed" }
+        : { outboxId: existingByKey.get(row.dedupeKey)!, duplicate: true, refused: false },
     );
   });
 }
 
 /** Writes an outbox row and enqueues its delivery job inside `tx`; rolls back with it. `dedupeKey` (unique) makes a repeat a no-op returning the existing row. */
-export async function sendEmail<T extends EmailTemplateName>(tx: Executor, message: EmailMessage<T>): Promise<{ outboxId: string; duplicate: boolean }> {
+export async function sendEmail<T extends EmailTemplateName>(tx: Executor, message: EmailMessage<T>): Promise<QueuedEmail> {
   const [result] = await sendEmails(tx, [message as EmailMessage]);
   return result;
 }

@@ -8,21 +8,27 @@ import { type SQL, sql } from "drizzle-orm";
 import type { Executor } from "~/server/db.server";
 
 /**
- * `left join lateral … as <as>` with columns `due_at`, `late_cutoff_at` and `extended_by`
- * ('student' | 'cohort' | null), for the lab aliased `lab` and the course membership aliased `member`
- * (any relation with `id` and `cohort_id`). Aliases are the caller's own constants, never user input.
+ * `left join lateral … as <as>` with columns `due_at`, `late_cutoff_at`, `extended_by`
+ * ('student' | 'cohort' | null) and `reason` (the extension's; staff only, never select it for a
+ * student), for the lab aliased `lab` and the course membership aliased `member` (any relation with
+ * `id` and `cohort_id`). Aliases are the caller's own constants, never user input.
  */
 export function effectiveWindowJoin(aliases: { lab: string; member: string; as: string }): SQL {
   const { lab, member, as } = aliases;
   return sql.raw(`left join lateral (
       select coalesce(es.due_at, ec.due_at, ${lab}.due_at) as due_at,
         case when es.id is not null then es.late_cutoff_at when ec.id is not null then ec.late_cutoff_at else ${lab}.late_cutoff_at end as late_cutoff_at,
-        case when es.id is not null then 'student' when ec.id is not null then 'cohort' end as extended_by
+        case when es.id is not null then 'student' when ec.id is not null then 'cohort' end as extended_by,
+        coalesce(es.reason, ec.reason) as reason
       from (select 1) as one
       left join lab_extensions es on es.lab_id = ${lab}.id and es.membership_id = ${member}.id
       left join lab_extensions ec on ec.lab_id = ${lab}.id and ec.cohort_id = ${member}.cohort_id
     ) as ${as} on true`);
 }
+
+/** The joined window `as` as a `StudentDeadline` JSON object, reason included: for staff pages only. */
+export const staffDeadlineJson = (as: string): SQL =>
+  sql.raw(`json_build_object('dueAt', to_json(${as}.due_at)#>>'{}', 'lateCutoffAt', to_json(${as}.late_cutoff_at)#>>'{}', 'extendedBy', ${as}.extended_by, 'extensionReason', ${as}.reason)`);
 
 /**
  * Re-decides the late flag of every hand-in of a lab against its student's effective due time, after an

@@ -1,8 +1,10 @@
 /**
- * Deadline reminders. Publishing a lab (or moving its due time) queues one pg-boss job per reminder
- * offset, starting at due time − offset, on the publishing transaction. When a job runs it reminds
- * every student of the lab's cohorts who has handed nothing in, once: the key of `lab_reminders`
- * (lab, membership, offset) makes a repeat, a retry or a second worker a no-op.
+ * Deadline reminders. Publishing a lab (or moving its due time), and granting an extension, queue one
+ * pg-boss job per reminder offset for that due time, starting at due time − offset, on the same
+ * transaction. When a job runs it reminds the students of the lab's cohorts who have handed nothing in
+ * and whose own effective due time (extension, else cohort's, else the lab's) is the job's: an extended
+ * student is reminded of their own deadline, never early of the class's. The key of `lab_reminders`
+ * (lab, membership, due time, offset) makes a repeat, a retry or a second worker a no-op.
  */
 import { eq, sql } from "drizzle-orm";
 import { courses, labs } from "~/db/schema";
@@ -11,14 +13,16 @@ import { appUrl } from "~/server/config.server";
 import type { Database, Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
+import { effectiveWindowJoin } from "./effective-window.server";
 
 export type LabReminderJob = { labId: string; offsetHours: number; dueAt: string };
 
 const HOUR_MS = 3_600_000;
 
 /**
- * Queues the reminders of a published lab inside `tx`. An offset whose moment has already passed is
- * skipped: a reminder arriving after its time would say the wrong thing about the time left.
+ * Queues the reminders of a published lab's due time, or of an extension's (pass its due time as
+ * `dueAt`), inside `tx`. An offset whose moment has already passed is skipped: a reminder arriving
+ * after its time would say the wrong thing about the time left.
  */
 export async function scheduleLabReminders(tx: Transaction, lab: { id: string; dueAt: Date; reminderOffsetsHours: number[] }, now = new Date()): Promise<number> {
   let scheduled = 0;
@@ -42,14 +46,21 @@ function dueAtText(dueAt: Date, timeZone: string): string {
 }
 
 /**
- * Runs one reminder job: checks that the lab is still published with the due time and offset the job
- * was queued for, then, in one transaction, records and queues a reminder for each student without a
- * hand-in. A constant number of statements whatever the class size.
+ * Runs one reminder job: checks that the lab is still published, that the job's due time is still the
+ * lab's or one of its extensions', and that its offset is still the lab's; then, in one transaction,
+ * records and queues a reminder for each student without a hand-in whose effective due time is the
+ * job's. A constant number of statements whatever the class size.
  */
 export async function sendLabReminders(database: Database, job: LabReminderJob, now = new Date()): Promise<ReminderOutcome> {
+  const dueAt = new Date(job.dueAt);
   return database.transaction(async (tx) => {
     const [row] = await tx
-      .select({ lab: labs, courseTitle: courses.title, timeZone: courses.timeZone })
+      .select({
+        lab: labs,
+        courseTitle: courses.title,
+        timeZone: courses.timeZone,
+        extensionDue: sql<boolean>`exists (select 1 from lab_extensions e where e.lab_id = ${labs.id} and e.due_at = ${dueAt})`,
+      })
       .from(labs)
       .innerJoin(courses, eq(courses.id, labs.courseId))
       .where(eq(labs.id, job.labId))
@@ -57,19 +68,22 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
     if (!row) return { sent: 0, skipped: "lab-gone" };
     const { lab } = row;
     if (lab.status !== "published") return { sent: 0, skipped: "not-published" };
-    if (lab.dueAt.getTime() !== Date.parse(job.dueAt)) return { sent: 0, skipped: "due-time-changed" };
+    if (lab.dueAt.getTime() !== dueAt.getTime() && !row.extensionDue) return { sent: 0, skipped: "due-time-changed" };
     if (!lab.reminderOffsetsHours.includes(job.offsetHours)) return { sent: 0, skipped: "offset-removed" };
-    if (now.getTime() >= lab.dueAt.getTime()) return { sent: 0, skipped: "past-due" };
+    if (now.getTime() >= dueAt.getTime()) return { sent: 0, skipped: "past-due" };
 
-    // Claim the (lab, student, offset) keys first: whoever inserts a key is the one who sends it.
+    // Claim the (lab, student, due time, offset) keys first: whoever inserts a key is the one who sends it.
+    // Only students whose own due time is the job's: the class's job passes over an extended student.
     const claimed = await tx.execute<{ membershipId: string; email: string; name: string }>(sql`
       with claimed as (
-        insert into lab_reminders (lab_id, membership_id, offset_hours, sent_at)
-        select ${lab.id}, m.id, ${job.offsetHours}, ${now}
-        from course_memberships m
-        join lab_cohorts lc on lc.cohort_id = m.cohort_id and lc.lab_id = ${lab.id}
-        where m.role = 'student' and m.removed_at is null
-          and not exists (select 1 from drop_logs d where d.lab_id = ${lab.id} and d.membership_id = m.id and d.latest_version_id is not null)
+        insert into lab_reminders (lab_id, membership_id, due_at, offset_hours, sent_at)
+        select l.id, m.id, w.due_at, ${job.offsetHours}, ${now}
+        from labs l
+        join lab_cohorts lc on lc.lab_id = l.id
+        join course_memberships m on m.cohort_id = lc.cohort_id
+        ${effectiveWindowJoin({ lab: "l", member: "m", as: "w" })}
+        where l.id = ${lab.id} and m.role = 'student' and m.removed_at is null and w.due_at = ${dueAt}
+          and not exists (select 1 from drop_logs d where d.lab_id = l.id and d.membership_id = m.id and d.latest_version_id is not null)
         on conflict do nothing
         returning membership_id
       )
@@ -80,8 +94,9 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
     const props = {
       courseTitle: row.courseTitle,
       labTitle: lab.title,
-      dueAtText: dueAtText(lab.dueAt, row.timeZone),
-      hoursLeft: Math.max(0, Math.round((lab.dueAt.getTime() - now.getTime()) / HOUR_MS)),
+      // Every claimed student's own due time is the job's.
+      dueAtText: dueAtText(dueAt, row.timeZone),
+      hoursLeft: Math.max(0, Math.round((dueAt.getTime() - now.getTime()) / HOUR_MS)),
       labUrl: `${appUrl()}/courses/${lab.courseId}/labs/${lab.id}`,
     };
     const outbox = await sendEmails(
@@ -92,25 +107,35 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
         template: "deadline-reminder" as const,
         props,
         courseId: lab.courseId,
-        dedupeKey: `reminder:${lab.id}:${student.membershipId}:${job.offsetHours}`,
+        dedupeKey: `reminder:${lab.id}:${student.membershipId}:${dueAt.toISOString()}:${job.offsetHours}`,
       })),
     );
     const links = claimed.rows.map((student, index) => ({ membership_id: student.membershipId, outbox_id: outbox[index].outboxId }));
     await tx.execute(sql`
       update lab_reminders r set outbox_id = x.outbox_id
       from json_to_recordset(${JSON.stringify(links)}::json) as x(membership_id uuid, outbox_id uuid)
-      where r.lab_id = ${lab.id} and r.offset_hours = ${job.offsetHours} and r.membership_id = x.membership_id`);
+      where r.lab_id = ${lab.id} and r.due_at = ${dueAt} and r.offset_hours = ${job.offsetHours} and r.membership_id = x.membership_id`);
     return { sent: claimed.rows.length, skipped: null };
   });
 }
 
-export type SentReminder = { membershipId: string; studentName: string; email: string; cohortName: string | null; offsetHours: number; sentAt: string; emailStatus: string | null };
+export type SentReminder = {
+  membershipId: string;
+  studentName: string;
+  email: string;
+  cohortName: string | null;
+  offsetHours: number;
+  /** The due time the student was reminded of: the lab's, or their extension's. */
+  dueAt: string;
+  sentAt: string;
+  emailStatus: string | null;
+};
 
 /** The reminders sent for a lab to the students of the cohorts the viewer may see, newest first: one statement. */
 export async function listSentReminders(executor: Executor, access: CourseAccess, labId: string): Promise<SentReminder[]> {
   const result = await executor.execute<SentReminder>(sql`
     select r.membership_id as "membershipId", u.name as "studentName", u.email, h.name as "cohortName", r.offset_hours as "offsetHours",
-      to_json(r.sent_at)#>>'{}' as "sentAt", o.status::text as "emailStatus"
+      to_json(r.due_at)#>>'{}' as "dueAt", to_json(r.sent_at)#>>'{}' as "sentAt", o.status::text as "emailStatus"
     from lab_reminders r
     join course_memberships m on m.id = r.membership_id
     join users u on u.id = m.user_id
@@ -122,16 +147,32 @@ export async function listSentReminders(executor: Executor, access: CourseAccess
   return result.rows;
 }
 
+export type ScheduledReminder = {
+  offsetHours: number;
+  startAfter: string;
+  /** The due time it reminds of. */
+  dueAt: string;
+  /** For students extended to `dueAt` rather than for the class's due time. */
+  extension: boolean;
+};
+
 /**
- * Pending reminder jobs of the lab (what will go out, and when), for the dashboard: one statement. Jobs
- * queued for an earlier due time will do nothing when they run, so they are not listed.
+ * Pending reminder jobs of the lab (what will go out, and when), for the dashboard: one statement.
+ * Listed for the lab's due time and for each extension's; jobs queued for a due time that is neither
+ * any more will do nothing when they run, so they are not listed. Extensions granted to the same time
+ * share their jobs' effect, so each (due time, offset) is listed once.
  */
-export async function listScheduledReminders(executor: Executor, lab: { id: string; dueAt: Date }): Promise<{ offsetHours: number; startAfter: string }[]> {
-  const result = await executor.execute<{ offsetHours: number; startAfter: string }>(sql`
-    select (j.data->>'offsetHours')::int as "offsetHours", to_json(j.start_after)#>>'{}' as "startAfter"
-    from pgboss.job j
-    where j.name = ${queues.labReminder} and j.state in ('created', 'retry')
-      and j.data->>'labId' = ${lab.id} and (j.data->>'dueAt')::timestamptz = ${lab.dueAt}
-    order by j.start_after`);
+export async function listScheduledReminders(executor: Executor, lab: { id: string; dueAt: Date }): Promise<ScheduledReminder[]> {
+  const result = await executor.execute<ScheduledReminder>(sql`
+    select j.offset_hours as "offsetHours", to_json(min(j.start_after))#>>'{}' as "startAfter",
+      to_json(j.due_at)#>>'{}' as "dueAt", j.due_at <> ${lab.dueAt} as extension
+    from (
+      select (data->>'offsetHours')::int as offset_hours, (data->>'dueAt')::timestamptz as due_at, start_after
+      from pgboss.job
+      where name = ${queues.labReminder} and state in ('created', 'retry') and data->>'labId' = ${lab.id}
+    ) j
+    where j.due_at = ${lab.dueAt} or exists (select 1 from lab_extensions e where e.lab_id = ${lab.id} and e.due_at = j.due_at)
+    group by j.offset_hours, j.due_at
+    order by min(j.start_after)`);
   return result.rows;
 }

@@ -9,6 +9,7 @@ import { allowedPartFields, allowedPartIdsOf, type AllowedPartKind, type LabInpu
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
+import { recomputeLateness } from "./effective-window.server";
 import { scheduleLabReminders } from "./lab-reminders.server";
 
 export type LabRecord = typeof labs.$inferSelect;
@@ -102,7 +103,9 @@ const sameOffsets = (a: readonly number[], b: readonly number[]) => a.length ===
  * Saves the form, and publishes or closes the lab when `intent` says so. Publishing needs a cohort
  * (the schema already demands due > opens). Reminders are scheduled when the lab becomes published,
  * and again when a published lab's due time or offsets change: the jobs for the old due time find
- * it changed and do nothing, and `lab_reminders` keeps any student from being reminded twice.
+ * it changed and do nothing, and `lab_reminders` keeps any student from being reminded twice of the
+ * same due time. A moved due time re-decides the late flag of the hand-ins already made, as an
+ * extension does, so "late" always means after the student's due time as it now stands.
  */
 export async function updateLab(
   executor: Executor,
@@ -121,14 +124,16 @@ export async function updateLab(
       .where(eq(labs.id, labId))
       .returning();
     await setCohorts(tx, labId, input.cohortIds);
-    const deadlineChanged = before.dueAt.getTime() !== lab.dueAt.getTime() || !sameOffsets(before.reminderOffsetsHours, lab.reminderOffsetsHours);
+    const dueTimeMoved = before.dueAt.getTime() !== lab.dueAt.getTime();
+    const deadlineChanged = dueTimeMoved || !sameOffsets(before.reminderOffsetsHours, lab.reminderOffsetsHours);
     if (lab.status === "published" && (publishing || deadlineChanged)) await scheduleLabReminders(tx, lab, now);
+    const relabelled = dueTimeMoved ? await recomputeLateness(tx, labId) : 0;
     await recordAudit(tx, {
       action: publishing ? "lab.published" : "lab.updated",
       actorId: access.user.id,
       courseId: access.course.id,
       subject: `lab:${labId}`,
-      detail: { title: lab.title, status: lab.status, dueAt: lab.dueAt.toISOString(), cohorts: input.cohortIds.length },
+      detail: { title: lab.title, status: lab.status, dueAt: lab.dueAt.toISOString(), cohorts: input.cohortIds.length, ...(relabelled ? { latenessChanged: relabelled } : {}) },
       request,
     });
     return lab;

@@ -5,6 +5,7 @@
  * marked on, which each row names beside the latest one, so a later hand-in never mixes in. Two
  * statements whatever the class size.
  */
+import type { HandInStanding } from "~/lib/drop-logs/hand-in-window";
 import { maxTotalOf } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
@@ -20,8 +21,11 @@ export type MarksJson = {
     membershipId: string;
     student: { name: string; email: string; studentNumber: string | null };
     cohort: { id: string; name: string };
-    /** Of the version the mark rests on (the counted one without a mark). */
-    handIn: "missing" | "on-time" | "late";
+    /**
+     * Of the version the mark rests on (the counted one without a mark); with none, "not-due" while the
+     * student's own due time is ahead and nothing is handed in, else "missing".
+     */
+    handIn: HandInStanding;
     late: boolean;
     /** The version the mark rests on; null without a mark or for a mark given with nothing handed in. */
     markedVersion: { id: string; number: number } | null;
@@ -44,9 +48,9 @@ export type MarksJson = {
 };
 
 /** Every student's mark of the lab that the viewer may see, by name. Staff only. */
-export async function loadMarksJson(executor: Executor, { access, lab }: { access: CourseAccess; lab: MarkingLab }): Promise<MarksJson> {
+export async function loadMarksJson(executor: Executor, { access, lab, now = new Date() }: { access: CourseAccess; lab: MarkingLab; now?: Date }): Promise<MarksJson> {
   await assertMarkingStaff(executor, access, lab);
-  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: markableCohortIds(access, lab) }), loadClassLabels(executor, lab)]);
+  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: markableCohortIds(access, lab), now }), loadClassLabels(executor, lab)]);
   return {
     lab: { id: lab.id, courseId: lab.courseId, title: lab.title, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
     maxTotal: maxTotalOf(lab.rubric),
@@ -58,7 +62,8 @@ export async function loadMarksJson(executor: Executor, { access, lab }: { acces
         membershipId: row.membershipId,
         student: { name: row.studentName, email: row.email, studentNumber: row.studentNumber },
         cohort: { id: row.cohortId, name: row.cohortName },
-        handIn: basis === null ? "missing" : basis.late ? "late" : "on-time",
+        // A mark given on nothing, with a hand-in since, stays "missing": that is what it was marked on.
+        handIn: basis === null ? (row.status === "not-due" ? "not-due" : "missing") : basis.late ? "late" : "on-time",
         late: basis?.late ?? false,
         markedVersion: row.mark && basis ? { id: basis.versionId, number: basis.version } : null,
         latestVersion: row.handIn?.version ?? null,

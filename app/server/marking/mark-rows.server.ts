@@ -10,8 +10,10 @@ import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkPro
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { labelClass } from "~/lib/comparison/comparison-settings";
 import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
+import { handInStanding, type HandInStanding, type StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 import { quantityOf } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { effectiveWindowJoin, staffDeadlineJson } from "~/server/labs/effective-window.server";
 import type { MarkingLab } from "./marking-lab.server";
 
 /** A student's counted hand-in as the desk shows it (key results, not the whole reduction). */
@@ -74,12 +76,14 @@ export type StudentMarkRow = {
    */
   markedHandIn: DeskHandIn | null;
   mark: StoredMark | null;
+  /** The student's own deadline for the lab: their extension's, else their cohort's, else the lab's. */
+  deadline: StudentDeadline;
+  /** The counted hand-in on time or late, or nothing yet: "missing" only after the student's own due time. */
+  status: HandInStanding;
 };
 
 /** A student's row of the marking desk: the evidence, the suggestions, the cells and the total. */
 export type MarkingDeskRow = StudentMarkRow & {
-  /** Hand-in status: nothing counted, on time, or late. */
-  status: "missing" | "on-time" | "late";
   classLabel: { label: ClassComparisonLabel; reason: string } | null;
   /** Suspect or outlier in the class comparison. */
   flagged: boolean;
@@ -130,12 +134,13 @@ export type ClassLabels = Map<string, { label: ClassComparisonLabel; reason: str
 
 /**
  * The students of `cohortIds` (active members), or only `membershipIds` among them, with their counted
- * hand-in and mark: one statement whatever the class size.
+ * hand-in, mark and own deadline, and where their hand-in stands at `now`: one statement whatever the
+ * class size.
  */
 export async function loadStudentMarkRows(
   executor: Executor,
   lab: Pick<MarkingLab, "id" | "courseId">,
-  { cohortIds, membershipIds }: { cohortIds: readonly string[]; membershipIds?: readonly string[] },
+  { cohortIds, membershipIds, now = new Date() }: { cohortIds: readonly string[]; membershipIds?: readonly string[]; now?: Date },
 ): Promise<StudentMarkRow[]> {
   // Named students drive the query (one index lookup each, whatever the planner guesses of a JSON list);
   // cohorts are few, and a constant array is matched by hashing.
@@ -146,9 +151,12 @@ export async function loadStudentMarkRows(
   const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
   type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null };
   type HandInRow = Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null };
-  const result = await executor.execute<Omit<StudentMarkRow, "mark" | "handIn" | "markedHandIn"> & { handIn: HandInRow | null; markedVersion: HandInRow | null; mark: StoredMarkRow | null }>(sql`
+  const result = await executor.execute<
+    Omit<StudentMarkRow, "mark" | "handIn" | "markedHandIn" | "status"> & { handIn: HandInRow | null; markedVersion: HandInRow | null; mark: StoredMarkRow | null }
+  >(sql`
     select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
       m.cohort_id as "cohortId", h.name as "cohortName",
+      ${staffDeadlineJson("w")} as deadline,
       ${handInJson(sql`v`)} as "handIn",
       case when mk.drop_log_version_id is distinct from v.id then ${handInJson(sql`mv`)} end as "markedVersion",
       case when mk.id is null then null else json_build_object(
@@ -163,6 +171,8 @@ export async function loadStudentMarkRows(
     from ${students}
     join users u on u.id = m.user_id
     join cohorts h on h.id = m.cohort_id
+    join labs l on l.id = ${lab.id}
+    ${effectiveWindowJoin({ lab: "l", member: "m", as: "w" })}
     left join drop_logs d on d.lab_id = ${lab.id} and d.membership_id = m.id
     left join drop_log_versions v on v.id = d.latest_version_id
     left join marks mk on mk.lab_id = ${lab.id} and mk.membership_id = m.id
@@ -173,7 +183,7 @@ export async function loadStudentMarkRows(
       and m.cohort_id = any(${cohortArray}::uuid[])
     order by u.name, m.id`);
   return result.rows.map(({ mark, handIn: storedHandIn, markedVersion: storedMarkedVersion, ...rest }) => {
-    const row = { ...rest, handIn: storedHandIn ? handInOf(storedHandIn) : null };
+    const row = { ...rest, handIn: storedHandIn ? handInOf(storedHandIn) : null, status: handInStanding(storedHandIn?.late ?? null, new Date(rest.deadline.dueAt), now) };
     const markedVersion = storedMarkedVersion ? handInOf(storedMarkedVersion) : null;
     if (!mark) return { ...row, markedHandIn: row.handIn, mark: null };
     const { markedById, markedByName, moderatedById, moderatedByName, ...stored } = mark;
@@ -245,7 +255,6 @@ export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestion
   const classLabel = label ? { label: label.label, reason: label.reason } : null;
   return {
     ...row,
-    status: row.handIn === null ? "missing" : row.handIn.late ? "late" : "on-time",
     classLabel,
     flagged: classLabel !== null && classLabel.label !== "consistent",
     suggestions,

@@ -46,7 +46,7 @@ export type MarkingDesk = {
 };
 
 const labelRank = { outlier: 0, suspect: 1, consistent: 2 } as const;
-const statusRank = { missing: 0, late: 1, "on-time": 2 } as const;
+const statusRank = { missing: 0, "not-due": 1, late: 2, "on-time": 3 } as const;
 const progressRank = { unmarked: 0, partial: 1, marked: 2 } as const;
 
 function sortValue(row: MarkingDeskRow, by: DeskSortKey): string | number | null {
@@ -84,7 +84,7 @@ function sortRows(rows: MarkingDeskRow[], sort: MarkingDeskFilters["sort"]): Mar
 }
 
 const passes = (row: MarkingDeskRow, status: DeskStatusFilter) =>
-  status === "unmarked" ? row.progress !== "marked" : status === "flagged" ? row.flagged : status === "late" ? row.status === "late" : row.status === "missing";
+  status === "unmarked" ? row.progress !== "marked" : status === "flagged" ? row.flagged : row.status === status;
 
 /**
  * The desk for `access`: TAs get the students of their cohorts, instructors everyone's. A cohort
@@ -92,7 +92,7 @@ const passes = (row: MarkingDeskRow, status: DeskStatusFilter) =>
  */
 export async function loadMarkingDesk(
   executor: Executor,
-  { access, lab, filters }: { access: CourseAccess; lab: MarkingLab; filters: MarkingDeskFilters },
+  { access, lab, filters, now = new Date() }: { access: CourseAccess; lab: MarkingLab; filters: MarkingDeskFilters; now?: Date },
 ): Promise<MarkingDesk> {
   await assertMarkingStaff(executor, access, lab);
   const allowed = markableCohortIds(access, lab);
@@ -100,13 +100,13 @@ export async function loadMarkingDesk(
     await refuse(executor, access, new MarkingRefusedError("not_in_cohort", "That cohort is not one you mark for this lab.", "cohort"), `lab:${lab.id}`);
   }
   const cohortIds = filters.cohortId ? [filters.cohortId] : allowed;
-  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: allowed }), loadClassLabels(executor, lab)]);
+  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: allowed, now }), loadClassLabels(executor, lab)]);
 
   const cohorts = [...new Map(students.map((student) => [student.cohortId, student.cohortName])).entries()]
     .map(([id, name]) => ({ id, name }))
     .sort((a, b) => a.name.localeCompare(b.name));
   const inCohort = students.filter((student) => cohortIds.includes(student.cohortId)).map((student) => deskRow(lab, student, labels));
-  const counts = { all: inCohort.length, unmarked: 0, flagged: 0, late: 0, missing: 0 };
+  const counts: MarkingDesk["counts"] = { all: inCohort.length, unmarked: 0, flagged: 0, late: 0, missing: 0, "not-due": 0 };
   for (const row of inCohort) for (const status of deskStatusFilters) if (passes(row, status)) counts[status]++;
 
   const filtered = sortRows(filters.status ? inCohort.filter((row) => passes(row, filters.status!)) : inCohort, filters.sort);

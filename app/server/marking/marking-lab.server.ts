@@ -22,6 +22,7 @@ export type MarkingLab = {
   title: string;
   kind: "drag" | "viscometry";
   status: "draft" | "published" | "closed";
+  /** The class's due time; a student's own (extensions counted) is `deadline` on their mark row. */
   dueAt: Date;
   requiredDrops: number;
   dragModel: string;

@@ -339,7 +339,7 @@ export async function releaseMarks(
     const outcome: ReleaseOutcome = {
       released: toRelease.length + toZero.length,
       zeros: toZero.length,
-      emailed: sent.filter((entry) => !entry.duplicate).length,
+      emailed: sent.filter((entry) => !entry.duplicate && !entry.refused).length,
       alreadyReleased,
       withheld: students.length - alreadyReleased - toRelease.length - toZero.length,
       stillOpen: preview.stillOpen.students,

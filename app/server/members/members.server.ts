@@ -6,6 +6,7 @@ import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
 import { cohorts, courseMemberships, invitations, kits, taCohortAssignments, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseRole } from "~/server/auth/access.server";
+import { revokeTokensOfFormerStaff } from "~/server/auth/api-tokens.server";
 import { db } from "~/server/db.server";
 
 export class MemberRuleError extends Error {}
@@ -62,7 +63,8 @@ export async function getMember(courseId: string, membershipId: string) {
 
 /**
  * Gives a member another role. A student keeps no cohort as staff and a TA keeps no cohort assignments
- * as anything else; an instructor cannot change their own role, so a course never loses its last one.
+ * as anything else; someone made a student who is staff nowhere else loses their API tokens. An
+ * instructor cannot change their own role, so a course never loses its last one.
  */
 export async function changeMemberRole(
   { courseId, actorId, membershipId, role, cohortId }: { courseId: string; actorId: string; membershipId: string; role: CourseRole; cohortId: string | null },
@@ -83,6 +85,7 @@ export async function changeMemberRole(
     const newCohortId = role === "student" ? cohortId : null;
     await tx.update(courseMemberships).set({ role, cohortId: newCohortId }).where(eq(courseMemberships.id, membershipId));
     if (role !== "ta") await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
+    if (role === "student") await revokeTokensOfFormerStaff(tx, member.userId, actorId, request);
     await recordAudit(tx, {
       action: "course.member_role_changed",
       actorId,
@@ -98,7 +101,10 @@ export function listCohorts(courseId: string) {
   return db.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name));
 }
 
-/** Removes a member's access. Their membership row stays, so everything they handed in stays too. */
+/**
+ * Removes a member's access, and their API tokens when that was their last staff role. Their membership
+ * row stays, so everything they handed in stays too.
+ */
 export async function removeMember(
   { courseId, actorId, membershipId }: { courseId: string; actorId: string; membershipId: string },
   request?: Request,
@@ -114,6 +120,7 @@ export async function removeMember(
     if (holding) throw new MemberRuleError(`This student still holds kit ${holding.number}; check it in first.`);
     await tx.update(courseMemberships).set({ removedAt: new Date() }).where(eq(courseMemberships.id, membershipId));
     await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
+    await revokeTokensOfFormerStaff(tx, member.userId, actorId, request);
     await recordAudit(tx, { action: "course.member_removed", actorId, courseId, subject: `membership:${membershipId}`, request });
   });
 }
