@@ -245,6 +245,25 @@ export const invitations = pgTable(
   ],
 );
 
+/**
+ * A committed roster import. The preview names itself with a key made in the browser; committing the
+ * same key again (a second click, a resent form) finds this row and invites no one twice.
+ */
+export const rosterImports = pgTable(
+  "roster_imports",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    importKey: text("import_key").notNull(),
+    createdById: uuid("created_by_id").references(() => users.id, { onDelete: "set null" }),
+    rowCount: integer("row_count").notNull(),
+    committedAt: timestamp("committed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [uniqueIndex("roster_imports_course_key_unique").on(table.courseId, table.importKey)],
+);
+
 // ---------------------------------------------------------------------------------------------
 // Relations
 

@@ -10,7 +10,7 @@ import { PageHeader } from "~/components/ui/page-header";
 import { describePart } from "~/lib/kits/describe-part";
 import { kitStateLabels, nextKitStates, partConditions, type KitState } from "~/lib/kits/kit-states";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
-import { requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
+import { canOpenKit, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { KitRuleError, checkInKit, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
 
@@ -36,10 +36,7 @@ const kitAction = z.discriminatedUnion("intent", [
 async function loadKitFor(access: CourseAccess, kitId: string | undefined) {
   const kit = kitId && z.uuid().safeParse(kitId).success ? await getKit(db, access.course.id, kitId) : null;
   if (!kit) throw data("Not found", { status: 404 });
-  // A TA reads only the kits held by students of their cohorts.
-  if (access.membership.role === "ta" && !(kit.holder?.cohortId && access.cohortIds.includes(kit.holder.cohortId))) {
-    throw data("Forbidden", { status: 403 });
-  }
+  if (!canOpenKit(access, kit.holder?.cohortId)) throw data("Forbidden", { status: 403 });
   return kit;
 }
 
@@ -85,9 +82,12 @@ export default function KitPage({ loaderData, actionData }: Route.ComponentProps
         title={`Kit ${kit.number}`}
         trail={[{ to: `/courses/${kit.courseId}/kits`, label: "Kits" }]}
         actions={
-          <Link to="packing-slip" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
-            Packing slip
-          </Link>
+          // The packing slip is the instructors' (they pack); a TA would only meet a refusal there.
+          canChange ? (
+            <Link to="packing-slip" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+              Packing slip
+            </Link>
+          ) : undefined
         }
       >
         <KitStateBadge state={kit.state} />

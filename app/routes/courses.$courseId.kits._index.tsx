@@ -8,7 +8,7 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { KitStateBadge } from "~/components/kit-state-badge";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
-import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
+import { kitCohortScope, requireCourseRole, staffRoles } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { KitRuleError, listKits, moveKits } from "~/server/kits/kits.server";
 
@@ -29,8 +29,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const search = url.searchParams.get("q")?.trim() || undefined;
   const paging = readPaging(url);
   // A TA sees the kits held by students of their cohorts, and reads them only.
-  const cohortIds = access.membership.role === "ta" ? access.cohortIds : undefined;
-  const { rows, total } = await listKits(db, access.course.id, { state: state.success ? state.data : undefined, search, cohortIds, ...paging });
+  const { rows, total } = await listKits(db, access.course.id, { state: state.success ? state.data : undefined, search, cohortIds: kitCohortScope(access), ...paging });
   return { kits: rows, pageInfo: { ...paging, total }, canChange: access.membership.role === "instructor", courseId: access.course.id };
 }
 

@@ -19,8 +19,8 @@ import { partInput, partKindLabels, type PartKind } from "~/lib/kits/part-input"
 import { partToCsvRow } from "~/lib/kits/parts-csv";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
-import { listPartBias } from "~/server/comparison/part-quality.server";
-import { DuplicateLabelError, getPartPage, setPartStatus, updatePart } from "~/server/kits/parts.server";
+import { listPartBias, partBiasFor } from "~/server/comparison/part-quality.server";
+import { DuplicateLabelError, getPartPage, setPartStatus, updatePart, type KitMention } from "~/server/kits/parts.server";
 import { listRereductions, type RereductionProgress } from "~/server/kits/rereduce.server";
 
 const note = z.string().trim().max(500, "Keep the note under 500 characters.").optional().transform((value) => value || null);
@@ -40,12 +40,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
   const partId = partIdFrom(params);
   const [page, bias, rereductions] = await Promise.all([
-    getPartPage(db, access.course.id, partId),
+    getPartPage(db, access, partId),
     listPartBias(db, access.course.id, partId),
     listRereductions(db, partId),
   ]);
   if (!page) throw data("Not found", { status: 404 });
-  return { ...page, bias: bias.get(partId) ?? null, rereductions, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
+  const report = bias.get(partId);
+  return { ...page, bias: report ? partBiasFor(access, report) : null, rereductions, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -83,11 +84,10 @@ const savedMessages: Record<string, string> = {
 };
 
 export default function PartPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { part, warnings, calibration, bias, rereductions, courseId, timeZone, mayEdit } = loaderData;
+  const { part, kit, warnings, calibration, bias, rereductions, courseId, timeZone, mayEdit } = loaderData;
   const [search] = useSearchParams();
   const saved = savedMessages[search.get("saved") ?? ""];
   const base = `/courses/${courseId}`;
-  const kit = part.kind === "fluid_lot" ? undefined : part.kitParts[0]?.kit;
   return (
     <div className="flex flex-col gap-8">
       <PageHeader title={`${partKindLabels[part.kind as PartKind]} ${part.label}`} trail={[{ to: `${base}/parts`, label: "Parts" }]}>
@@ -125,7 +125,18 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
                 </div>
               ))}
             <dt className="text-ink-600">Kit</dt>
-            <dd>{kit ? <Link to={`${base}/kits/${kit.id}`} className="underline">Kit {kit.number}</Link> : part.kind === "fluid_lot" ? "Fills the bottles of the kits that name it" : "In no kit"}</dd>
+            <dd>
+              {kit ? (
+                <>
+                  <KitName kit={kit} courseId={courseId} />
+                  {kit.id ? null : " (not a kit of your cohorts)"}
+                </>
+              ) : part.kind === "fluid_lot" ? (
+                "Fills the bottles of the kits that name it"
+              ) : (
+                "In no kit"
+              )}
+            </dd>
           </dl>
         </div>
         {mayEdit ? <StatusActions status={part.status} failed={actionData?.intent === "status" ? actionData.errors : undefined} /> : null}
@@ -143,8 +154,19 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
         />
       ) : null}
 
-      <History events={part.events} timeZone={timeZone} />
+      <History events={part.events} courseId={courseId} timeZone={timeZone} />
     </div>
+  );
+}
+
+/** A kit the page mentions, linked only when the viewer may open it. */
+function KitName({ kit, courseId }: { kit: KitMention; courseId: string }) {
+  return kit.id ? (
+    <Link to={`/courses/${courseId}/kits/${kit.id}`} className="underline">
+      Kit {kit.number}
+    </Link>
+  ) : (
+    <>Kit {kit.number}</>
   );
 }
 
@@ -330,9 +352,10 @@ const eventWords: Record<string, string> = {
   "status:remeasure": "Sent for re-measurement",
   "status:retired": "Retired",
   "status:in_service": "Returned to service",
+  checked_in: "Checked in",
 };
 
-function History({ events, timeZone }: { events: StoredPart["events"]; timeZone: string }) {
+function History({ events, courseId, timeZone }: { events: StoredPart["events"]; courseId: string; timeZone: string }) {
   return (
     <section aria-labelledby="history-heading">
       <h2 id="history-heading" className="mb-2 text-lg font-semibold">
@@ -345,7 +368,15 @@ function History({ events, timeZone }: { events: StoredPart["events"]; timeZone:
             <li key={event.id} className="rounded-md bg-white p-3 text-sm ring-1 ring-ink-900/10">
               <p>
                 <span className="font-medium">{eventWords[event.action] ?? event.action}</span>
-                {event.detail.source === "csv-import" ? " from a CSV import" : null} by {event.actor?.name ?? "a former member"},{" "}
+                {event.detail.source === "csv-import" ? " from a CSV import" : null}
+                {event.kit ? (
+                  <>
+                    {" with "}
+                    <KitName kit={event.kit} courseId={courseId} />
+                    {event.detail.condition && event.detail.condition !== "fine" ? ` (${String(event.detail.condition)})` : null}
+                  </>
+                ) : null}{" "}
+                by {event.actor?.name ?? "a former member"},{" "}
                 <time dateTime={new Date(event.createdAt).toISOString()}>{new Date(event.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone })}</time>
               </p>
               {event.note ? <p className="mt-1 text-ink-700">“{event.note}”</p> : null}

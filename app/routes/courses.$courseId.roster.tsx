@@ -6,7 +6,8 @@ import { TextAreaField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { checkRosterRows, rosterCommitInput, rosterRowsFromRecords, type RosterRow } from "~/lib/roster/roster-rows";
+import { LabTime } from "~/components/drop-logs/lab-time";
+import { checkRosterRows, rosterCommitInput, rosterImportKey, rosterRowsFromRecords, type RosterRow } from "~/lib/roster/roster-rows";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { importRoster, rosterContext } from "~/server/members/roster-import.server";
 import { db } from "~/server/db.server";
@@ -14,7 +15,7 @@ import { db } from "~/server/db.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
   const { cohortNames, memberEmails } = await rosterContext(db, access.course.id);
-  return { courseId: access.course.id, cohortNames, memberEmails };
+  return { courseId: access.course.id, timeZone: access.course.timeZone, cohortNames, memberEmails };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -28,9 +29,12 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   const parsed = rosterCommitInput.safeParse(rows);
   if (!parsed.success) return data({ ok: false as const, message: parsed.error.issues[0].message }, { status: 400 });
+  const importKey = rosterImportKey.safeParse(form.get("importKey"));
+  if (!importKey.success) return data({ ok: false as const, message: importKey.error.issues[0].message }, { status: 400 });
   const result = await importRoster(db, {
     courseId: access.course.id,
     inviter: { id: access.user.id, name: access.user.name },
+    importKey: importKey.data,
     rows: parsed.data,
     request,
   });
@@ -40,10 +44,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       { status: 400 },
     );
   }
-  return result;
+  return result.duplicate ? { ...result, committedAt: result.committedAt.toISOString() } : result;
 }
 
-type Parsed = { rows: RosterRow[]; fileProblem?: string };
+/** `importKey` names this one preview: committing it twice imports it once. */
+type Parsed = { rows: RosterRow[]; importKey: string; fileProblem?: string };
 
 /** Parses in the browser, reporting progress so that a file of thousands of rows never looks stuck. */
 function parseRoster(source: File | string, onProgress: (fraction: number) => void): Promise<Parsed> {
@@ -61,15 +66,15 @@ function parseRoster(source: File | string, onProgress: (fraction: number) => vo
       },
       complete: () => {
         onProgress(1);
-        resolve({ rows: rosterRowsFromRecords(records) });
+        resolve({ rows: rosterRowsFromRecords(records), importKey: crypto.randomUUID() });
       },
-      error: (error: Error) => resolve({ rows: [], fileProblem: `The file could not be read: ${error.message}` }),
+      error: (error: Error) => resolve({ rows: [], importKey: "", fileProblem: `The file could not be read: ${error.message}` }),
     });
   });
 }
 
 export default function RosterImport({ loaderData }: Route.ComponentProps) {
-  const { courseId, cohortNames, memberEmails } = loaderData;
+  const { courseId, timeZone, cohortNames, memberEmails } = loaderData;
   const fetcher = useFetcher<typeof action>();
   const [progress, setProgress] = useState<number | null>(null);
   const [parsed, setParsed] = useState<Parsed | null>(null);
@@ -132,9 +137,15 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
       ) : null}
 
       {parsed?.fileProblem ? <Notice tone="error">{parsed.fileProblem}</Notice> : null}
-      {result && result.ok ? (
+      {result && result.ok && !result.duplicate ? (
         <Notice tone="success">
           Imported: {result.invited} invitations sent ({result.students} students, {result.tas} TAs).
+        </Notice>
+      ) : null}
+      {result && result.ok && result.duplicate ? (
+        <Notice tone="info">
+          Already imported on <LabTime at={result.committedAt} courseTimeZone={timeZone} /> ({result.rowCount} rows): no invitations were sent
+          again.
         </Notice>
       ) : null}
       {result && !result.ok ? <Notice tone="error">{result.message}</Notice> : null}
@@ -147,6 +158,7 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
           {withProblems.length === 0 && checks.length > 0 ? (
             <fetcher.Form method="post">
               <input type="hidden" name="rows" value={JSON.stringify(parsed.rows)} />
+              <input type="hidden" name="importKey" value={parsed.importKey} />
               <Button type="submit" disabled={fetcher.state !== "idle"}>
                 {fetcher.state !== "idle" ? "Importing…" : `Import ${checks.length} people and send their invitations`}
               </Button>

@@ -1,6 +1,7 @@
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invitations.$token";
+import { LabTime } from "~/components/drop-logs/lab-time";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
@@ -25,7 +26,7 @@ const roleWords = { instructor: "an instructor", ta: "a teaching assistant", stu
 export async function loader({ request, params }: Route.LoaderArgs) {
   const [invitation, user] = await Promise.all([findInvitation(params.token), getOptionalUser(request)]);
   if (!invitation) throw data("Not found", { status: 404 });
-  return { invitation, signedInAs: user ? { email: user.email } : null };
+  return { invitation: { ...invitation, replacedAt: invitation.replacedAt?.toISOString() ?? null }, signedInAs: user ? { email: user.email } : null };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -53,8 +54,17 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
       <section className="mx-auto max-w-md space-y-4" aria-labelledby="invitation-title">
         <PageHeader id="invitation-title" title={heading} />
         <Notice tone="warning">
-          {invitation.state === "accepted" ? "This invitation has been accepted already." : "This invitation has expired."} If you still need access, ask
-          your instructor for a new one.
+          {invitation.state === "replaced" && invitation.replacedAt ? (
+            <>
+              A newer invitation was sent to you on <LabTime at={invitation.replacedAt} courseTimeZone={invitation.courseTimeZone} />; use the link in
+              the latest e-mail.
+            </>
+          ) : (
+            <>
+              {invitation.state === "accepted" ? "This invitation has been accepted already." : "This invitation has expired."} If you still need
+              access, ask your instructor for a new one.
+            </>
+          )}
         </Notice>
         <p>
           <Link to="/sign-in" className="underline">

@@ -77,6 +77,20 @@ describe("handing in a drop log from a phone in Chromium", () => {
       document.activeElement!.dispatchEvent(new ClipboardEvent("paste", { clipboardData: data, bubbles: true, cancelable: true }));
     });
     await page.getByLabel("Drop 4 time in seconds").waitFor();
+    // A second column over typed drops asks first, with the focus on the question; Escape keeps the log.
+    await page.getByLabel("Drop 4 time in seconds").focus();
+    await page.evaluate(() => {
+      const data = new DataTransfer();
+      data.setData("text/plain", "9.1\n9.2");
+      document.activeElement!.dispatchEvent(new ClipboardEvent("paste", { clipboardData: data, bubbles: true, cancelable: true }));
+    });
+    const question = page.getByRole("group", { name: /2 drop times from the clipboard, and the log already has 4 drops/ });
+    await question.waitFor();
+    await expect(page.evaluate(() => document.activeElement?.textContent)).resolves.toBe("Add after drop 4");
+    await page.keyboard.press("Escape");
+    await question.waitFor({ state: "detached" });
+    await expect(page.getByLabel("Drop 5 time in seconds").count()).resolves.toBe(0);
+    await expect(page.getByLabel("Drop 4 time in seconds").inputValue()).resolves.toBe("4.10");
     await page.getByRole("button", { name: "Add a drop" }).click();
     await page.getByLabel("Drop 5 time in seconds").fill("-4.11");
     await expect(page.getByText("A time cannot be negative.").isVisible()).resolves.toBe(true);

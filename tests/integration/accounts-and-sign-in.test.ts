@@ -10,7 +10,7 @@ import { hashPassword } from "~/server/auth/password.server";
 import { SESSION_COOKIE, SESSION_LIFETIME_MS, validateSessionToken } from "~/server/auth/session.server";
 import { hashToken } from "~/server/auth/tokens.server";
 import { db } from "~/server/db.server";
-import { createInvitations } from "~/server/members/invitations.server";
+import { createInvitations, findInvitation } from "~/server/members/invitations.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { type AppHandler, appRequest, createAppHandler, sessionCookieFor, sessionTokenFrom } from "../support/app-requests";
 
@@ -411,6 +411,23 @@ describe("invitations", () => {
     expect(email.status).toBe("queued");
     expect(email.subject.length).toBeLessThanOrEqual(180);
     expect(email.subject).toMatch(/^Professor Long.*…$/);
+  });
+
+  it("tells the holder of a replaced invitation that a newer one was sent, instead of calling it expired", async () => {
+    const firstPath = await invite("invited.twice@accounts.example", "student", fixture.cohortId);
+    const secondPath = await invite("invited.twice@accounts.example", "student", fixture.cohortId);
+    const [newer] = await db.select({ createdAt: invitations.createdAt }).from(invitations).where(eq(invitations.tokenHash, hashToken(tokenIn(secondPath))));
+    expect(await findInvitation(tokenIn(firstPath))).toMatchObject({ state: "replaced", replacedAt: newer.createdAt });
+    expect(await findInvitation(tokenIn(secondPath))).toMatchObject({ state: "open", replacedAt: null });
+
+    const page = await (await handle(appRequest(firstPath))).text();
+    expect(page).toContain("A newer invitation was sent to you on");
+    expect(page).toContain(`dateTime="${newer.createdAt.toISOString()}"`);
+    expect(page).not.toContain("has expired");
+    const refused = await handle(appRequest(firstPath, { form: { name: "Invited Twice", password: "" } }));
+    expect(refused.status).toBe(410);
+    expect(await refused.text()).toContain("A newer invitation was sent to you");
+    expect((await handle(appRequest(secondPath, { form: { name: "Invited Twice", password: "" } }))).status).toBe(302);
   });
 
   it("attaches the course to an existing account of the invited address", async () => {

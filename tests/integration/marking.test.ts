@@ -156,6 +156,26 @@ describe("automatic criteria", () => {
 });
 
 describe("the marking desk", () => {
+  it("keeps a student's class label on the row a save returns, also when no criterion uses the label", async () => {
+    const lab = await newLab("Label after a save");
+    await saveRubric(db, { access: accessOf("instructor"), lab: (await loadMarkingLab(db, fixture.courseId, lab.id))!, input: { criteria: [{ kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 }] } });
+    const marking = (await loadMarkingLab(db, fixture.courseId, lab.id))!;
+    // A quiet class and one hand-in 60 % above it: an outlier of the class.
+    const { membershipIds } = await seedMarkingClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, figures: [...quietClass(20), 1.6], label: "kept-label" });
+    const outlier = membershipIds[20];
+    const access = accessOf("assignedTa");
+    const desk = await loadMarkingDesk(db, { access, lab: marking, filters: page({ pageSize: 200 }) });
+    const before = desk.rows.find((row) => row.membershipId === outlier)!;
+    expect(before).toMatchObject({ classLabel: { label: "outlier" }, flagged: true });
+
+    const discussion = byTitle(marking, "Discussion");
+    const saved = await saveMarkCell(db, { access, labId: lab.id, membershipId: outlier, criterionId: discussion.id, points: 2, expectedVersion: 0 });
+    expect(saved).toMatchObject({ status: "saved", row: { classLabel: before.classLabel, flagged: true } });
+    // The answer to a stale save (a conflict) carries it too.
+    const conflict = await saveMarkCell(db, { access, labId: lab.id, membershipId: outlier, criterionId: discussion.id, points: 3, expectedVersion: 0 });
+    expect(conflict).toMatchObject({ status: "conflict", row: { classLabel: before.classLabel, flagged: true } });
+  });
+
   it("runs the same number of SQL statements for 10 and for 1,000 students, and pages on the server", async () => {
     const statementsFor = async (size: number) => {
       const cohortId = await freshCohort(`Desk size ${size}`);

@@ -1,13 +1,19 @@
 /**
  * The parts screens through the built app's request handler: what an instructor and a TA see, a
- * refused form (400, errors beside the fields, input kept), and the import's commit.
+ * refused form (400, errors beside the fields, input kept), the import's commit, and links only to
+ * the kits, hand-ins and comparisons the viewer may open.
  */
-import { count, eq } from "drizzle-orm";
+import { and, count, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { courseMemberships, courses, parts, users } from "~/db/schema";
+import { courseMemberships, courses, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
 import { partToCsvRow } from "~/lib/kits/parts-csv";
+import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
+import { courseOverview } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
+import { ensureDropLog, handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { checkInKit } from "~/server/kits/kits.server";
 import { createPart } from "~/server/kits/parts.server";
+import { createAccessFixture } from "../support/access-fixture";
 import { appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 
 let handle: AppHandler;
@@ -114,5 +120,87 @@ describe("parts screens", () => {
     expect(response.status).toBe(200);
     const [{ n }] = await db.select({ n: count() }).from(parts).where(eq(parts.label, "TH-1"));
     expect(n).toBe(1);
+  });
+});
+
+describe("links on the staff's kit and part pages", () => {
+  it("show an assigned TA only their cohorts' kits, hand-ins and comparisons, and link nothing they may not open", async () => {
+    const fixture = await createAccessFixture("part-links");
+    const { courseId: course } = fixture;
+    const [{ id: fluidLotId }] = await db.select({ id: parts.id }).from(parts).where(and(eq(parts.courseId, course), eq(parts.label, "F-1")));
+    // A kit of cohort two sharing cohort one's fluid lot, with a hand-in of its own lab; and a kit held by
+    // no one, coming back with a bottle of that lot, whose check-in enters the lot's history.
+    const [otherSphere, otherColumn, shelfSphere] = await db
+      .insert(parts)
+      .values([
+        { courseId: course, kind: "sphere", label: "S-2", material: "steel", diameterMm: 3, massG: 0.11 },
+        { courseId: course, kind: "column", label: "C-2", innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 },
+        { courseId: course, kind: "sphere", label: "S-3", material: "steel", diameterMm: 3, massG: 0.11 },
+      ])
+      .returning();
+    const [otherKit, shelfKit] = await db
+      .insert(kits)
+      .values([
+        { courseId: course, number: "K-02", state: "at_home", holderMembershipId: fixture.membershipIds.otherCohortStudent },
+        { courseId: course, number: "K-03", state: "coming_back" },
+      ])
+      .returning();
+    await db.insert(kitParts).values([
+      { kitId: otherKit.id, partId: otherSphere.id },
+      { kitId: otherKit.id, partId: otherColumn.id },
+      { kitId: otherKit.id, partId: fluidLotId, exclusive: false },
+      { kitId: shelfKit.id, partId: shelfSphere.id },
+      { kitId: shelfKit.id, partId: fluidLotId, exclusive: false },
+    ]);
+    await checkInKit(db, { courseId: course, actorId: fixture.userIds.instructor, kitId: shelfKit.id, conditions: {}, remeasure: [] });
+    const day = 24 * 3600 * 1000;
+    const [otherLab] = await db
+      .insert(labs)
+      .values({ courseId: course, title: "Cohort two's drag lab", kind: "drag", status: "published", opensAt: new Date(Date.now() - day), dueAt: new Date(Date.now() + day), resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 } })
+      .returning();
+    await db.insert(labCohorts).values({ labId: otherLab.id, cohortId: fixture.otherCohortId });
+    const otherDropLogId = await ensureDropLog(db, { labId: otherLab.id, membershipId: fixture.membershipIds.otherCohortStudent });
+    const otherStudent = await requireCourseRole(appRequest("/", { cookie: await sessionCookieFor(fixture.userIds.otherCohortStudent) }), course, ["student"]);
+    await handInDropLog(db, { access: otherStudent, labId: otherLab.id, idempotencyKey: "part-links-other-cohort", input: { sphereId: otherSphere.id, temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.42, 7.48] } });
+
+    const ta = await sessionCookieFor(fixture.userIds.assignedTa);
+    const instructor = await sessionCookieFor(fixture.userIds.instructor);
+    const html = async (path: string, cookie: string) => {
+      const response = await handle(appRequest(path, { cookie }));
+      expect(response.status).toBe(200);
+      // Without React's markers between adjacent text pieces, so sentences can be matched whole.
+      return (await response.text()).replaceAll("<!-- -->", "");
+    };
+    const otherCohortTraces = [otherKit.id, shelfKit.id, otherDropLogId, "Test otherCohortStudent", `/labs/${otherLab.id}/comparison`];
+
+    const lotForTa = await html(`/courses/${course}/parts/${fluidLotId}`, ta);
+    for (const trace of otherCohortTraces) expect(lotForTa).not.toContain(trace);
+    expect(lotForTa).toContain(`/labs/${fixture.labId}/hand-ins/${fixture.dropLogId}`);
+    expect(lotForTa).toContain("Not listed: 1 from students of cohorts you do not mark.");
+    expect(lotForTa).toContain("Checked in</span> with Kit K-03 by");
+
+    const otherSphereForTa = await html(`/courses/${course}/parts/${otherSphere.id}`, ta);
+    for (const trace of otherCohortTraces) expect(otherSphereForTa).not.toContain(trace);
+    expect(otherSphereForTa).toContain("Kit K-02 (not a kit of your cohorts)");
+    const shelfSphereForTa = await html(`/courses/${course}/parts/${shelfSphere.id}`, ta);
+    expect(shelfSphereForTa).not.toContain(shelfKit.id);
+    expect(shelfSphereForTa).toContain("Kit K-03 (not a kit of your cohorts)");
+    expect(await html(`/courses/${course}/parts/${fixture.sphereId}`, ta)).toContain(`href="/courses/${course}/kits/${fixture.kitId}"`);
+
+    // The instructor may open everything, and is linked to it.
+    const lotForInstructor = await html(`/courses/${course}/parts/${fluidLotId}`, instructor);
+    expect(lotForInstructor).toContain(`/labs/${otherLab.id}/hand-ins/${otherDropLogId}`);
+    expect(lotForInstructor).toContain(`/labs/${otherLab.id}/comparison`);
+    expect(lotForInstructor).toContain(`href="/courses/${course}/kits/${shelfKit.id}"`);
+    expect(await html(`/courses/${course}/parts/${otherSphere.id}`, instructor)).toContain(`href="/courses/${course}/kits/${otherKit.id}"`);
+
+    // The packing slip is the instructors': a TA's kit page does not offer it.
+    expect(await html(`/courses/${course}/kits/${fixture.kitId}`, ta)).not.toContain("packing-slip");
+    expect(await html(`/courses/${course}/kits/${fixture.kitId}`, instructor)).toContain("packing-slip");
+
+    // The overview counts, for the TA, the kits their kits list holds.
+    const overviewFor = async (cookie: string) => courseOverview(db, await requireCourseRole(appRequest("/", { cookie }), course, staffRoles));
+    expect((await overviewFor(ta)).kitsByState).toEqual({ at_home: 1 });
+    expect((await overviewFor(instructor)).kitsByState).toEqual({ at_home: 2, checked_in: 1 });
   });
 });

@@ -23,6 +23,7 @@ import {
   setPartStatus,
   updatePart,
 } from "~/server/kits/parts.server";
+import type { CourseAccess } from "~/server/auth/access.server";
 import { appRequest, sessionCookieFor } from "../support/app-requests";
 
 let instructorId: string;
@@ -33,6 +34,10 @@ async function newCourse(code: string): Promise<string> {
   await db.insert(courseMemberships).values({ courseId: course.id, userId: instructorId, role: "instructor" });
   return course.id;
 }
+
+/** The course's instructor as the part page's reader (every kit is theirs to open). */
+const instructorOf = (courseId: string) =>
+  ({ user: { id: instructorId }, course: { id: courseId, timeZone: "UTC" }, membership: { role: "instructor" }, cohortIds: [] }) as unknown as CourseAccess;
 
 const sphere = (label: string, values: Partial<Extract<PartInput, { kind: "sphere" }>> = {}): PartInput => ({
   kind: "sphere",
@@ -126,7 +131,7 @@ describe("checks on a sphere", () => {
     const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: sphere("S-LIGHT", { massG: 0.234 }) });
     expect(messages(warnings)).toEqual([expect.stringMatching(/^Diameter and mass give 69\d\d kg\/m³, outside the usual 7650–8050 kg\/m³ for steel/)]);
     // The part's page raises the same check from the stored values.
-    expect(messages((await getPartPage(db, courseId, part.id))!.warnings)).toEqual(messages(warnings));
+    expect(messages((await getPartPage(db, instructorOf(courseId), part.id))!.warnings)).toEqual(messages(warnings));
   });
 });
 
@@ -150,13 +155,13 @@ describe("checks on a fluid lot against handbook data", () => {
     const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: mix() });
     expect(part.glycerolMassFraction).toBeCloseTo(0.85, 6);
     expect(warnings).toEqual([]);
-    const page = await getPartPage(db, courseId, part.id);
+    const page = await getPartPage(db, instructorOf(courseId), part.id);
     expect(page!.calibration!.points.map((point) => point.finding.kind)).toEqual(["agrees", "agrees"]);
 
     const slipped = mix({ calibration: [{ temperatureC: 20, viscosityPaS: 109 }, { temperatureC: 30, viscosityPaS: 0.058 }] });
     const updated = await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: slipped });
     expect(updated!.warnings).toEqual([{ field: "calibration", message: expect.stringMatching(/^The viscosity at 20 °C is about 1000 times the handbook value .* mPa·s typed as Pa·s/) }]);
-    expect((await getPartPage(db, courseId, part.id))!.warnings).toEqual(updated!.warnings);
+    expect((await getPartPage(db, instructorOf(courseId), part.id))!.warnings).toEqual(updated!.warnings);
   });
 
   it("warns when the declared fraction does not fit the calibration, and clears the fraction when it is left empty", async () => {
@@ -264,7 +269,7 @@ describe("a fluid lot's page", () => {
     // Stored out of order: the page sorts the points by temperature.
     const input: PartInput = { kind: "fluid_lot", label: "W-1", fluidName: "water", densityKgM3: 998, calibration: [water[2], water[0], water[3], water[1]], notes: null };
     const { part } = await createPart(db, { courseId, actorId: instructorId, input });
-    const page = await getPartPage(db, courseId, part.id);
+    const page = await getPartPage(db, instructorOf(courseId), part.id);
     const calibration = page!.calibration!;
 
     const engineFit = fitFluidViscosity(water.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));

@@ -5,7 +5,7 @@
 import { handInHref } from "~/lib/comparison/links";
 import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "~/lib/comparison/part-bias";
 import { formatNumber } from "~/lib/kits/part-display";
-import type { PartBiasReport } from "~/server/comparison/part-quality.server";
+import type { PartBiasView } from "~/server/comparison/part-quality.server";
 
 export function PartBiasBadge() {
   return (
@@ -15,8 +15,8 @@ export function PartBiasBadge() {
   );
 }
 
-/** What the part pages pass in: the report's verdict and its evidence. */
-type Evidence = Pick<PartBiasReport, "alpha" | "flagged" | "testsInFamily" | "comparisons" | "handIns">;
+/** What the part pages pass in: the report's verdict and its evidence, as the viewer may read it. */
+type Evidence = Pick<PartBiasView, "alpha" | "flagged" | "testsInFamily" | "comparisons" | "handIns" | "otherHandIns">;
 
 const percent = (fraction: number) => `${fraction >= 0 ? "+" : "−"}${formatNumber(Math.abs(fraction) * 100, 2)} %`;
 
@@ -48,16 +48,23 @@ export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId:
       <ul className="list-disc pl-5 text-sm text-ink-700">
         {bias.comparisons.map((comparison) => (
           <li key={comparison.labId}>
-            <a href={`/courses/${courseId}/labs/${comparison.labId}/comparison`} className="underline">
-              {comparison.labTitle}
-            </a>
+            {comparison.mayOpenComparison ? (
+              <a href={`/courses/${courseId}/labs/${comparison.labId}/comparison`} className="underline">
+                {comparison.labTitle}
+              </a>
+            ) : (
+              comparison.labTitle
+            )}
             : {comparisonText(comparison, bias.alpha, bias.testsInFamily)}
           </li>
         ))}
       </ul>
       <div className="overflow-x-auto">
         <table className="text-sm [&_td]:pr-6 [&_th]:pr-6 [&_th]:text-left [&_th]:font-medium">
-          <caption className="mb-1 text-left font-medium">Hand-ins read by the test</caption>
+          <caption className="mb-1 text-left font-medium">
+            Hand-ins read by the test
+            {bias.otherHandIns ? <span className="block font-normal text-ink-700">{`Not listed: ${bias.otherHandIns} from students of cohorts you do not mark.`}</span> : null}
+          </caption>
           <thead>
             <tr>
               <th scope="col">Lab</th>

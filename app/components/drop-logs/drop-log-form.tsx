@@ -11,6 +11,7 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
 import { dropLogInput, parseTypedNumber, type DropLogDraft, type DropLogField } from "~/lib/drop-logs/drop-log-input";
+import { enteredTimes, joinTimes, splitPastedTimes, type TimesJoin } from "~/lib/drop-logs/pasted-times";
 import type { DropLogReduction } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionSummary, WarningList, figure } from "./reduction-summary";
 import { StrayDropComparison } from "./reduction-result";
@@ -20,18 +21,12 @@ export type FormFluidLot = { id: string; label: string; fluidName: string | null
 export type FormColumn = { id: string; label: string; innerDiameterMm: number | null; timedDistanceMm: number | null };
 
 type FormState = Required<Omit<DropLogDraft, "useOwnMeasurements">> & { useOwnMeasurements: boolean };
+/** A column of times waiting for the student to say how it joins the drops already typed. */
+type IncomingColumn = { times: string[]; /** "from the clipboard", "from runs.csv" */ from: string; returnFocusTo: number };
 type Preview = { status: "idle" | "loading" } | { status: "ready"; result: DropLogReduction; rows: number[] } | { status: "error"; message: string; issues: Record<string, string> };
 
 const PREVIEW_DELAY_MS = 400;
 const DRAFT_DELAY_MS = 1200;
-
-/** Times pasted from a spreadsheet column or a stopwatch app's lap list: one per line, tab or semicolon. */
-export function splitPastedTimes(text: string): string[] {
-  return text
-    .split(/[\r\n\t;]+/)
-    .map((cell) => cell.trim().replace(/\s*s$/i, ""))
-    .filter((cell) => cell !== "");
-}
 
 /** The draft's choice while the kit still holds it; else the only choice; else none, for the student to make. */
 function initialChoice(saved: string | undefined, options: { id: string }[]): string {
@@ -112,7 +107,8 @@ export function DropLogForm({
   const [state, setState] = useState<FormState>(() => initialState(draft, spheres, fluidLots, columns));
   const [preview, setPreview] = useState<Preview>({ status: "idle" });
   const [attemptKey, setAttemptKey] = useState<string | null>(null);
-  const [csvMessage, setCsvMessage] = useState<string | null>(null);
+  const [incoming, setIncoming] = useState<IncomingColumn | null>(null);
+  const [columnMessage, setColumnMessage] = useState<string | null>(null);
   const draftFetcher = useFetcher<{ draftSavedAt?: string }>();
   const navigation = useNavigation();
   const handingIn = navigation.state !== "idle" && navigation.formData?.get("intent") === "hand-in";
@@ -195,15 +191,28 @@ export function DropLogForm({
   };
   const removeRow = (index: number) => setState((current) => ({ ...current, drops: current.drops.length > 1 ? current.drops.filter((_, i) => i !== index) : [""] }));
 
+  const typedCount = enteredTimes(state.drops).length;
+  const joinColumn = (column: IncomingColumn, how: TimesJoin) => {
+    const kept = how === "append" ? typedCount : 0;
+    update({ drops: joinTimes(state.drops, column.times, how) });
+    setIncoming(null);
+    const times = `${column.times.length} drop times ${column.from}`;
+    setColumnMessage(how === "append" ? `Added ${times} after drop ${kept}.` : typedCount ? `Replaced the drops with ${times}.` : `Entered ${times}.`);
+    setTimeout(() => dropRefs.current[kept]?.focus(), 0);
+  };
+  // Into an empty log the column simply goes in; over typed drops the student is asked first.
+  const receiveColumn = (column: IncomingColumn) => {
+    if (typedCount === 0) joinColumn(column, "replace");
+    else {
+      setColumnMessage(null);
+      setIncoming(column);
+    }
+  };
   const pasteIntoRow = (index: number, event: ClipboardEvent<HTMLInputElement>) => {
     const times = splitPastedTimes(event.clipboardData.getData("text"));
     if (times.length < 2) return;
     event.preventDefault();
-    setState((current) => {
-      const before = current.drops.slice(0, index);
-      const after = current.drops.slice(index + 1).filter((value) => value.trim() !== "");
-      return { ...current, drops: [...before, ...times, ...after] };
-    });
+    receiveColumn({ times, from: "from the clipboard", returnFocusTo: index });
   };
 
   const readCsv = (file: File) => {
@@ -215,14 +224,13 @@ export function DropLogForm({
         for (let column = 0; column < width; column++) {
           const cells = data.map((row) => (row[column] ?? "").trim()).filter((cell) => typeof parseTypedNumber(cell) === "number" && !Number.isNaN(parseTypedNumber(cell)));
           if (cells.length) {
-            update({ drops: cells });
-            setCsvMessage(`Read ${cells.length} drop times from ${file.name}.`);
+            receiveColumn({ times: cells, from: `from ${file.name}`, returnFocusTo: 0 });
             return;
           }
         }
-        setCsvMessage(`${file.name} holds no column of numbers.`);
+        setColumnMessage(`${file.name} holds no column of numbers.`);
       },
-      error: () => setCsvMessage(`${file.name} could not be read as CSV.`),
+      error: () => setColumnMessage(`${file.name} could not be read as CSV.`),
     });
   };
 
@@ -320,7 +328,18 @@ export function DropLogForm({
         <legend className="text-sm font-medium">
           Drop times <span className="font-normal text-ink-600">(s, {requiredDrops} or more)</span>
         </legend>
-        <p className="text-sm text-ink-600">Paste a column of times from a spreadsheet or stopwatch app into the first row, or read a CSV file.</p>
+        <p className="text-sm text-ink-600">Paste a column of times from a spreadsheet or stopwatch app into a row, or read a CSV file.</p>
+        {incoming ? (
+          <JoinTimesChoice
+            incoming={incoming}
+            typedCount={typedCount}
+            onChoose={(how) => joinColumn(incoming, how)}
+            onCancel={() => {
+              setIncoming(null);
+              dropRefs.current[incoming.returnFocusTo]?.focus();
+            }}
+          />
+        ) : null}
         <table className="mt-2 w-full text-sm">
           <thead>
             <tr className="text-left text-ink-700">
@@ -396,7 +415,9 @@ export function DropLogForm({
               }}
             />
           </label>
-          {csvMessage ? <span className="text-sm text-ink-700" role="status">{csvMessage}</span> : null}
+          <span className="text-sm text-ink-700" role="status">
+            {columnMessage}
+          </span>
         </div>
       </fieldset>
 
@@ -429,6 +450,54 @@ export function DropLogForm({
         </span>
       </div>
     </Form>
+  );
+}
+
+/**
+ * The question a column of times asks when the log already has drops. Focus moves to it so a keyboard
+ * or screen-reader user meets it at once; Escape leaves the log as it was.
+ */
+function JoinTimesChoice({
+  incoming,
+  typedCount,
+  onChoose,
+  onCancel,
+}: {
+  incoming: IncomingColumn;
+  typedCount: number;
+  onChoose: (how: TimesJoin) => void;
+  onCancel: () => void;
+}) {
+  const first = useRef<HTMLButtonElement>(null);
+  useEffect(() => first.current?.focus(), []);
+  return (
+    <div
+      role="group"
+      aria-labelledby="join-times-question"
+      className="mt-2 rounded-lg bg-paper-100 p-3 ring-1 ring-ink-900/10"
+      onKeyDown={(event) => {
+        if (event.key === "Escape") {
+          event.preventDefault();
+          onCancel();
+        }
+      }}
+    >
+      <p id="join-times-question" className="text-sm">
+        {incoming.times.length} drop times {incoming.from}, and the log already has {typedCount} {typedCount === 1 ? "drop" : "drops"}. Add them after
+        the last drop, or replace the drops with them?
+      </p>
+      <div className="mt-2 flex flex-wrap gap-2">
+        <Button ref={first} type="button" onClick={() => onChoose("append")}>
+          Add after drop {typedCount}
+        </Button>
+        <Button type="button" variant="danger" onClick={() => onChoose("replace")}>
+          Replace {typedCount === 1 ? "the drop" : `all ${typedCount} drops`}
+        </Button>
+        <Button type="button" variant="secondary" onClick={onCancel}>
+          Cancel
+        </Button>
+      </div>
+    </div>
   );
 }
 

@@ -1,4 +1,4 @@
-import type { ButtonHTMLAttributes } from "react";
+import type { ComponentProps } from "react";
 import { Link, type LinkProps } from "react-router";
 
 const variants = {
@@ -9,7 +9,7 @@ const variants = {
 
 const base = "inline-flex items-center justify-center rounded px-4 py-2 text-sm font-medium";
 
-export function Button({ variant = "primary", className = "", ...button }: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: keyof typeof variants }) {
+export function Button({ variant = "primary", className = "", ...button }: ComponentProps<"button"> & { variant?: keyof typeof variants }) {
   return (
     <button
       className={`${base} disabled:opacity-60 ${variants[variant]} ${className}`}

@@ -70,3 +70,6 @@ export const rosterCommitInput = z
   )
   .min(1, "The file has no rows to import.")
   .max(10_000, "Import at most 10,000 people at a time.");
+
+/** The key the browser gives each preview: committing it twice imports once. */
+export const rosterImportKey = z.string().trim().min(8, "The import key is missing; read the file again.").max(200);

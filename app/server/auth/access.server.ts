@@ -158,6 +158,18 @@ export function canSeeStudentWork(access: CourseAccess, owner: StudentOwner): bo
   return access.membership.role === "ta" && owner.cohortId !== null && access.cohortIds.includes(owner.cohortId);
 }
 
+/**
+ * Whether a staff member may open a kit's page: instructors any kit, TAs the kits held by students of
+ * their cohorts (a kit on the shelf has no holder and so no cohort). Pages link a kit only when this holds.
+ */
+export function canOpenKit(access: CourseAccess, holderCohortId: string | null | undefined): boolean {
+  if (access.membership.role === "instructor") return true;
+  return access.membership.role === "ta" && holderCohortId != null && access.cohortIds.includes(holderCohortId);
+}
+
+/** The holder cohorts a staff member's kit lists and counts are narrowed to: none for instructors (every kit), the assigned ones for TAs. */
+export const kitCohortScope = (access: CourseAccess): string[] | undefined => (access.membership.role === "instructor" ? undefined : access.cohortIds);
+
 /** Access to one student's own object (a hand-in, their membership…); `viewingOwnWork` tells the student apart from staff. */
 export async function requireStudentAccess(
   request: Request,

@@ -10,6 +10,12 @@ import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess }
 import { db } from "~/server/db.server";
 import { loadComparisonLab, type ComparisonLab } from "./class-comparison.server";
 
+/** Whether a staff member may open the comparison of a lab set for `labCohortIds`: instructors always, TAs of one of those cohorts. */
+export function canOpenComparison(access: CourseAccess, labCohortIds: readonly string[]): boolean {
+  if (access.membership.role === "instructor") return true;
+  return access.membership.role === "ta" && labCohortIds.some((cohortId) => access.cohortIds.includes(cohortId));
+}
+
 export async function requireComparisonAccess(
   request: Request,
   courseId: string | undefined,
@@ -22,7 +28,7 @@ export async function requireComparisonAccess(
     if (isApiRequest(request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
     throw data("Not found", { status: 404 });
   }
-  if (access.membership.role === "ta" && !lab.cohortIds.some((cohortId) => access.cohortIds.includes(cohortId))) {
+  if (!canOpenComparison(access, lab.cohortIds)) {
     // A TA of none of the lab's cohorts: the cohort check refuses (and records the refusal) as it does elsewhere.
     await requireCohortAccess(request, access.course.id, lab.cohortIds[0] ?? "no-cohort");
   }

@@ -9,6 +9,7 @@ import { fluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import { calibrationCheckMessages, checkCalibrationPoints } from "~/lib/kits/glycerol-water";
 import { checkImportRows, csvRowToPartInput, partToCsvRow, type ImportRowCheck, type PartCsvRow } from "~/lib/kits/parts-csv";
 import { recordAudit } from "~/server/audit.server";
+import { canOpenKit, type CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
 import { queueRereduction, reductionChanges } from "~/server/kits/rereduce.server";
 
@@ -222,24 +223,54 @@ export async function getPart(executor: Executor, courseId: string, partId: stri
     where: and(eq(parts.id, partId), eq(parts.courseId, courseId)),
     with: {
       events: { orderBy: (events, { desc }) => [desc(events.createdAt)], with: { actor: { columns: { name: true } } } },
-      kitParts: { with: { kit: { columns: { id: true, number: true, state: true } } } },
+      kitParts: { with: { kit: { columns: { id: true, number: true, state: true }, with: { holder: { columns: { cohortId: true } } } } } },
     },
   });
   return part ?? null;
 }
 
+/** A kit as a page names it: its number for every staff member, its id (and so a link) only for one who may open it. */
+export type KitMention = { number: string; id: string | null };
+const mentionKit = (access: CourseAccess, kit: { id: string; number: string; holder: { cohortId: string | null } | null }): KitMention => ({
+  number: kit.number,
+  id: canOpenKit(access, kit.holder?.cohortId) ? kit.id : null,
+});
+
 /**
- * What a part's page shows: the part with its history and kit, the checks it raises against today's
- * inventory (which may have changed since it was saved), and for a fluid lot the calibration fit that
- * the reductions use.
+ * What a part's page shows to `access`: the part with its history, the kit it is in, the checks it
+ * raises against today's inventory (which may have changed since it was saved), and for a fluid lot the
+ * calibration fit that the reductions use. Kits (the part's own, and those of its check-ins) are
+ * mentioned as `mentionKit` allows; a fluid lot fills many kits and names none of them as its own.
  */
-export async function getPartPage(executor: Executor, courseId: string, partId: string) {
-  const part = await getPart(executor, courseId, partId);
-  if (!part) return null;
+export async function getPartPage(executor: Executor, access: CourseAccess, partId: string) {
+  const found = await getPart(executor, access.course.id, partId);
+  if (!found) return null;
+  const { kitParts: inKits, events, ...part } = found;
+  const kit = inKits.find((entry) => entry.exclusive)?.kit;
+  const checkInKitIds = [...new Set(events.map((event) => event.detail.kitId).filter((id): id is string => typeof id === "string"))];
   // Read back through the import mapping so the checks see exactly what a form or a file would give.
   const stored = csvRowToPartInput(partToCsvRow(part));
-  const warnings = stored.ok ? partWarnings(stored.input, await inventoryForChecks(executor, courseId)) : [];
-  return { part, warnings, calibration: part.kind === "fluid_lot" ? fluidLotCalibration(part.calibration, part.glycerolMassFraction) : null };
+  const [inventory, checkInKits] = await Promise.all([
+    stored.ok ? inventoryForChecks(executor, access.course.id) : Promise.resolve([]),
+    checkInKitIds.length
+      ? executor.query.kits.findMany({
+          where: and(eq(kits.courseId, access.course.id), inArray(kits.id, checkInKitIds)),
+          columns: { id: true, number: true },
+          with: { holder: { columns: { cohortId: true } } },
+        })
+      : Promise.resolve([]),
+  ]);
+  const checkInKit = new Map(checkInKits.map((entry) => [entry.id, mentionKit(access, entry)]));
+  return {
+    // A check-in's kit id stays on the server; the page gets the kit as the viewer may see it.
+    part: {
+      ...part,
+      events: events.map(({ detail: { kitId, ...detail }, ...event }) => ({ ...event, detail, kit: typeof kitId === "string" ? (checkInKit.get(kitId) ?? null) : null })),
+    },
+    kit: kit ? mentionKit(access, kit) : null,
+    warnings: stored.ok ? partWarnings(stored.input, inventory) : [],
+    calibration: part.kind === "fluid_lot" ? fluidLotCalibration(part.calibration, part.glycerolMassFraction) : null,
+  };
 }
 
 /** Every label the course uses, for the import preview's "already used" check. */

@@ -51,7 +51,16 @@ export const markingLock = (labId: string, mode: "shared" | "exclusive") =>
     : sql`select pg_advisory_xact_lock(hashtextextended(${`marking:${labId}`}, 0))`;
 
 type Target = { membershipId: string; expectedVersion?: number };
-type WriteRequest = { access: CourseAccess; labId: string; targets: Target[]; change: unknown; source: MarkChangeSource; reason?: string | null };
+type WriteRequest = {
+  access: CourseAccess;
+  labId: string;
+  targets: Target[];
+  change: unknown;
+  source: MarkChangeSource;
+  reason?: string | null;
+  /** The caller answers with desk rows, which show the class label whether or not the rubric uses it. */
+  deskRows?: boolean;
+};
 /** One student after the write: their row with the new mark, and the suggestions and totals it was computed with. */
 type Written = { student: StudentMarkRow; suggestions: Record<string, AutoSuggestion>; totals: MarkTotals; changed: boolean };
 
@@ -88,7 +97,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   const membershipIds = targets.map((target) => target.membershipId);
   const [rows, labels] = await Promise.all([
     loadStudentMarkRows(tx, lab, { cohortIds, membershipIds }),
-    rubricNeedsLabels(lab) ? loadClassLabels(tx, lab) : Promise.resolve<ClassLabels>(new Map()),
+    request.deskRows || rubricNeedsLabels(lab) ? loadClassLabels(tx, lab) : Promise.resolve<ClassLabels>(new Map()),
   ]);
   const byMembership = new Map(rows.map((row) => [row.membershipId, row]));
   const outside = membershipIds.filter((id) => !byMembership.has(id));
@@ -263,7 +272,7 @@ export async function saveMark(
   }: { access: CourseAccess; labId: string; membershipId: string; change: MarkChange; expectedVersion: number; source?: "desk" | "moderation"; reason?: string | null },
 ): Promise<SaveMarkResult> {
   try {
-    const { labels, written } = await runWrite(executor, { access, labId, targets: [{ membershipId, expectedVersion }], change, source, reason });
+    const { labels, written } = await runWrite(executor, { access, labId, targets: [{ membershipId, expectedVersion }], change, source, reason, deskRows: true });
     const [{ student, suggestions, totals, changed }] = written;
     // A save that changed nothing leaves a student without a mark (clearing an empty cell) unmarked.
     return { status: "saved", mark: student.mark, row: deskRowWith(student, labels, suggestions, totals), changed };
@@ -272,7 +281,7 @@ export async function saveMark(
     const lab = (await loadMarkingLab(executor, access.course.id, labId))!;
     const [[row], labels] = await Promise.all([
       loadStudentMarkRows(executor, lab, { cohortIds: markableCohortIds(access, lab), membershipIds: [membershipId] }),
-      rubricNeedsLabels(lab) ? loadClassLabels(executor, lab) : Promise.resolve<ClassLabels>(new Map()),
+      loadClassLabels(executor, lab),
     ]);
     return { status: "conflict", current: row.mark, row: deskRow(lab, row, labels) };
   }

@@ -143,14 +143,21 @@ export type InvitationView = {
   courseCode: string;
   cohortName: string | null;
   inviterName: string | null;
+  courseTimeZone: string;
   expiresAt: Date;
-  state: "open" | "accepted" | "expired";
+  /** "replaced": a newer invitation to the same course went to the same address, which ended this one. */
+  state: "open" | "accepted" | "expired" | "replaced";
+  /** When the latest newer invitation was sent, if there is one. */
+  replacedAt: Date | null;
   hasAccount: boolean;
 };
 
 /** What the invitation page shows before anyone accepts. */
 export async function findInvitation(token: string): Promise<InvitationView | null> {
   const inviter = sql<string | null>`(select u.name from users u where u.id = ${invitations.invitedById})`;
+  // Inviting someone again ends their open invitation (see createInvitations); the newer row says why.
+  const replacedAt = sql<Date | null>`(select max(newer.created_at) from invitations newer
+    where newer.course_id = ${invitations.courseId} and newer.email = ${invitations.email} and newer.created_at > ${invitations.createdAt})`.mapWith(invitations.createdAt);
   const [row] = await db
     .select({
       email: invitations.email,
@@ -159,10 +166,12 @@ export async function findInvitation(token: string): Promise<InvitationView | nu
       courseId: invitations.courseId,
       courseTitle: courses.title,
       courseCode: courses.code,
+      courseTimeZone: courses.timeZone,
       cohortName: cohorts.name,
       inviterName: inviter,
       expiresAt: invitations.expiresAt,
       acceptedAt: invitations.acceptedAt,
+      replacedAt,
       hasAccount: sql<boolean>`exists (select 1 from users u where u.email = ${invitations.email})`,
     })
     .from(invitations)
@@ -171,7 +180,7 @@ export async function findInvitation(token: string): Promise<InvitationView | nu
     .where(eq(invitations.tokenHash, hashToken(token)));
   if (!row) return null;
   const { acceptedAt, ...view } = row;
-  const state = acceptedAt ? "accepted" : row.expiresAt.getTime() <= Date.now() ? "expired" : "open";
+  const state = acceptedAt ? "accepted" : row.expiresAt.getTime() > Date.now() ? "open" : row.replacedAt ? "replaced" : "expired";
   return { ...view, state };
 }
 
