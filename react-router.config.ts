@@ -2,6 +2,11 @@ import type { Config } from "@react-router/dev/config";
 
 export default {
   ssr: true,
+  // React Router's own origin check would answer a foreign Origin with a bare "Bad Request" before any
+  // middleware runs. Ours (app/server/auth/request-guard.server.ts) is stricter — the Origin must be
+  // APP_URL's, or Sec-Fetch-Site same-origin — and answers with Benchpost's own 403 page, so the
+  // framework's check is opened up here and ours decides.
+  allowedActionOrigins: ["**"],
   // Every v8 flag that 7.18 offers: adopting them now keeps the move to v8 small.
   future: {
     v8_middleware: true,

@@ -2,6 +2,7 @@ import type { ReactNode } from "react";
 import { Links, Meta, Outlet, Scripts, ScrollRestoration, isRouteErrorResponse, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { AppShell } from "~/components/app-shell";
+import { CROSS_ORIGIN_REFUSAL } from "~/lib/auth/cross-origin";
 import { useNonce } from "~/components/nonce";
 import { requestGuard } from "~/server/auth/request-guard.server";
 import { bodyLimitGuard } from "~/server/body-limits.server";
@@ -68,10 +69,16 @@ const explanations: Record<number, { title: string; advice: string }> = {
   500: { title: "Something went wrong on our side", advice: "Nothing you handed in is lost. Try again in a moment; if it keeps happening, tell your instructor." },
 };
 
+const crossOriginExplanation = {
+  title: "That form came from another site",
+  advice: "Benchpost takes changes only from its own pages, so nothing was changed. Open the page in Benchpost and send the form from there.",
+};
+
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   const rootData = useRouteLoaderData<typeof loader>("root");
   const status = isRouteErrorResponse(error) ? error.status : 500;
-  const { title, advice } = explanations[status] ?? explanations[500];
+  const crossOrigin = isRouteErrorResponse(error) && error.data === CROSS_ORIGIN_REFUSAL;
+  const { title, advice } = crossOrigin ? crossOriginExplanation : (explanations[status] ?? explanations[500]);
   const detail = import.meta.env.DEV && error instanceof Error ? error.stack : undefined;
   return (
     <AppShell viewer={rootData?.viewer ?? null}>
@@ -86,7 +93,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
           <a href="/" className="rounded bg-ink-800 px-4 py-2 text-paper-50">
             Go to the overview
           </a>
-          {status === 403 ? (
+          {status === 403 && !crossOrigin ? (
             <a href="/sign-in" className="rounded px-4 py-2 ring-1 ring-ink-800">
               Sign in with another account
             </a>

@@ -1,40 +1,28 @@
 /**
- * The demo labs and their drop logs. Timings are generated from the physics the server reduces with
- * (force balance with the Schiller–Naumann drag and Faxén's wall factor, or Stokes' law for the
- * viscometry lab), at a room temperature through the fluid lot's fitted viscosity, plus human
- * stopwatch noise. A few are deliberately wrong, and the glycerol lot's record is off: the fluid in the
- * bottles is 20 % more viscous than its calibration says (as if mixed with less water than recorded),
- * so the kit-part check flags GLY-95A until seed-revisions.ts corrects its record. Invented demo data:
- * never a test's expected value.
+ * The demo labs and their drop logs. Timings come from the "real world" of demo-physics.ts (the
+ * standard drag curve, Di Felice's wall factor, a thermometer good to ±0.5 K, hand timing), not from the
+ * model the server reduces with, so the class's figures scatter by a few per cent as a real class's do.
+ * A few are deliberately wrong, and the glycerol lot's record is off: the fluid in the bottles is 20 %
+ * more viscous than its calibration says (as if mixed with less water than recorded), so the kit-part
+ * check flags GLY-95A until seed-revisions.ts corrects its record. Invented demo data: never a test's
+ * expected value.
  */
 import type { Faker } from "@faker-js/faker";
 import { eq } from "drizzle-orm";
 import { cohorts, courseMemberships, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { kitStatesBeforeHome } from "~/lib/kits/kit-states";
-import { fitFluidViscosity, referenceDragCoefficient, viscosityAt, wallFactor } from "~/lib/reduction";
+import { fitFluidViscosity, viscosityAt } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Database } from "~/server/db.server";
 import { handInDropLog } from "~/server/drop-logs/hand-in.server";
 import { scheduleLabReminders } from "~/server/labs/lab-reminders.server";
+import { settlingVelocity, stopwatch, thermometerReading } from "./demo-physics";
 
 const DAY_MS = 86_400_000;
-const G = 9.80665;
 const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 };
 /** How much more viscous each lot really is than its recorded calibration. */
 const trueViscosityFactor: Record<string, number> = { "GLY-95A": 1.2, "SYR-2B": 1 };
-
-/** Terminal velocity in an unbounded fluid from the force balance, by fixed-point iteration on Re. */
-function terminalVelocity(diameter: number, sphereDensity: number, fluidDensity: number, viscosity: number, dragLaw: "schiller-naumann" | "stokes") {
-  const buoyantWeight = (sphereDensity - fluidDensity) * G * (Math.PI * diameter ** 3) / 6;
-  let velocity = buoyantWeight / (3 * Math.PI * viscosity * diameter);
-  for (let step = 0; step < 50; step++) {
-    const reynolds = (fluidDensity * velocity * diameter) / viscosity;
-    const dragCoefficient = referenceDragCoefficient(reynolds, dragLaw);
-    velocity = Math.sqrt(buoyantWeight / (0.5 * fluidDensity * dragCoefficient * (Math.PI * diameter ** 2) / 4));
-  }
-  return velocity;
-}
 
 type Mistake = "none" | "stopwatch-slip" | "warm-fluid" | "wrong-sphere" | "misread-diameter";
 
@@ -118,21 +106,27 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     const sphereOf = (prefix: string) => rows.find((row) => row.part.label.startsWith(prefix))!.part;
     const mistake: Mistake = index === 3 ? "stopwatch-slip" : index === 7 ? "warm-fluid" : index === 11 ? "wrong-sphere" : index === 15 ? "misread-diameter" : "none";
 
-    const dropsFor = (sphere: typeof column, lot: typeof column, temperatureC: number, dragLaw: "schiller-naumann" | "stokes", jitter: number) => {
-      const diameter = sphere.diameterMm! / 1000;
-      const density = (6 * (sphere.massG! / 1000)) / (Math.PI * diameter ** 3);
-      const recorded = viscosityAt(fitFluidViscosity(lot.calibration!.map((p) => ({ temperature: p.temperatureC, viscosity: p.viscosityPaS }))), temperatureC);
-      const viscosity = recorded * trueViscosityFactor[lot.label];
-      const velocity = terminalVelocity(diameter, density, lot.densityKgM3!, viscosity, dragLaw) * wallFactor(sphere.diameterMm! / column.innerDiameterMm!, "faxen");
-      const time = column.timedDistanceMm! / 1000 / velocity;
-      return Array.from({ length: 10 }, () => Number((time + faker.number.float({ min: -jitter, max: jitter })).toFixed(2)));
+    const timeDrop = stopwatch(faker);
+    /** Ten hand-timed drops of `sphere` through `lot` at the fluid's true temperature. */
+    const dropsFor = (sphere: typeof column, lot: typeof column, trueTemperatureC: number) => {
+      const diameterM = sphere.diameterMm! / 1000;
+      const calibration = fitFluidViscosity(lot.calibration!.map((p) => ({ temperature: p.temperatureC, viscosity: p.viscosityPaS })));
+      const velocity = settlingVelocity({
+        diameterM,
+        sphereDensityKgM3: (6 * (sphere.massG! / 1000)) / (Math.PI * diameterM ** 3),
+        fluidDensityKgM3: lot.densityKgM3!,
+        viscosityPaS: viscosityAt(calibration, trueTemperatureC) * trueViscosityFactor[lot.label],
+        columnDiameterM: column.innerDiameterMm! / 1000,
+      });
+      return Array.from({ length: 10 }, () => timeDrop(column.timedDistanceMm! / 1000 / velocity));
     };
 
     // Most of the class handed the drag lab in before its due time; a few are late; a few never did.
     if (index % 9 !== 8 && !kitAway) {
-      const temperatureC = Number(faker.number.float({ min: 19, max: 23 }).toFixed(1));
+      const roomC = faker.number.float({ min: 19, max: 23 });
+      const temperatureC = thermometerReading(faker, roomC, resolutions.temperatureC);
       const timedSphere = mistake === "wrong-sphere" ? sphereOf("S4") : sphereOf("S3");
-      const drops = dropsFor(timedSphere, glycerol, mistake === "warm-fluid" ? temperatureC + 6 : temperatureC, "schiller-naumann", 0.12);
+      const drops = dropsFor(timedSphere, glycerol, mistake === "warm-fluid" ? roomC + 6 : roomC);
       if (mistake === "stopwatch-slip") drops[4] = Number((drops[4] * 2).toFixed(2));
       const input: DropLogInput = { sphereId: sphereOf("S3").id, fluidLotId: glycerol.id, temperatureC, drops, notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined };
       // A micrometer read half a turn off (0.5 mm): the kit's record is used, and the log carries a warning.
@@ -142,8 +136,9 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     }
     // The viscometry lab is still open: about half have handed in.
     if ((index % 2 === 0 && !kitAway) || earlyHandIn) {
-      const temperatureC = Number(faker.number.float({ min: 18, max: 22 }).toFixed(1));
-      const input: DropLogInput = { sphereId: sphereOf("G6").id, fluidLotId: syrup.id, temperatureC, drops: dropsFor(sphereOf("G6"), syrup, temperatureC, "stokes", 0.2) };
+      const roomC = faker.number.float({ min: 18, max: 22 });
+      const temperatureC = thermometerReading(faker, roomC, resolutions.temperatureC);
+      const input: DropLogInput = { sphereId: sphereOf("G6").id, fluidLotId: syrup.id, temperatureC, drops: dropsFor(sphereOf("G6"), syrup, roomC) };
       await handInDropLog(db, { access, labId: viscometryLab.id, input, idempotencyKey: `demo-visc-${membershipId}`, now: new Date(now - DAY_MS) });
     }
   }

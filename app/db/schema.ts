@@ -510,6 +510,11 @@ export const emailOutbox = pgTable(
     dedupeKey: text("dedupe_key"),
     status: emailStatus("status").notNull().default("queued"),
     attempts: integer("attempts").notNull().default(0),
+    /**
+     * Set, and committed, before the transport is asked; cleared once its answer is recorded. Still set
+     * on a queued row means an attempt was cut off (a killed worker) and may have gone out.
+     */
+    attemptStartedAt: timestamp("attempt_started_at", { withTimezone: true }),
     lastError: text("last_error"),
     /** `resend` or `smtp`: which transport accepted the message. */
     transport: text("transport"),

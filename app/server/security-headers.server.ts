@@ -2,7 +2,7 @@
  * Security headers of every HTML page. Scripts run only from our origin or with the response's nonce;
  * nothing may frame us, and we frame nothing but our own (srcdoc) previews.
  */
-import { isProduction } from "~/server/config.server";
+import { appUrl, isProduction } from "~/server/config.server";
 
 export function contentSecurityPolicy(nonce: string, { development = !isProduction } = {}): string {
   const directives: Record<string, string[]> = {
@@ -34,4 +34,13 @@ export function setDocumentSecurityHeaders(headers: Headers, nonce: string): voi
   // A page that carries a token in its address (reset, invitation, sign-in link) asks for `strict-origin` itself.
   if (!headers.has("Referrer-Policy")) headers.set("Referrer-Policy", "strict-origin-when-cross-origin");
   headers.set("Permissions-Policy", "camera=(self), geolocation=(), microphone=()");
+}
+
+/**
+ * HSTS whenever the app's public address is HTTPS, as it is in production: browsers then refuse plain
+ * HTTP to it for a year (RFC 6797; one year is the common practice for a site that stays on HTTPS).
+ * Never for the demo on http://localhost, where browsers would ignore it anyway.
+ */
+export function strictTransportSecurity(): string | null {
+  return appUrl().startsWith("https://") ? "max-age=31536000; includeSubDomains" : null;
 }

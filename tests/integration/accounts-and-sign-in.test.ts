@@ -476,9 +476,9 @@ describe("cross-site requests", () => {
     const noOrigin = await handle(appRequest("/account", { cookie, form, origin: null, headers: { "Sec-Fetch-Site": "cross-site" } }));
     const noHeaders = await handle(appRequest("/account", { cookie, form, origin: null }));
     const dataRequest = await handle(appRequest("/account.data", { cookie, form, origin: null, headers: { "Sec-Fetch-Site": "same-site" } }));
-    // React Router's own check answers a foreign Origin with 400 before our middleware; ours says 403.
-    expect(foreign.status).toBe(400);
-    expect([noOrigin.status, noHeaders.status, dataRequest.status]).toEqual([403, 403, 403]);
+    // Every refusal is ours: 403 with Benchpost's own page, not the framework's bare 400.
+    expect([foreign.status, noOrigin.status, noHeaders.status, dataRequest.status]).toEqual([403, 403, 403, 403]);
+    expect(await foreign.text()).toContain("That form came from another site");
     const [user] = await db.select({ name: users.name }).from(users).where(eq(users.id, fixture.userIds.ownStudent));
     expect(user.name).toBe("Test ownStudent");
     const sameOrigin = await handle(appRequest("/account", { cookie, form: { ...form, name: "Renamed Here" }, origin: null, headers: { "Sec-Fetch-Site": "same-origin" } }));
@@ -569,6 +569,19 @@ describe("security headers", () => {
     for (const script of scripts) expect(script).toContain(`nonce="${nonce}"`);
     const again = (await handle(appRequest("/sign-in"))).headers.get("content-security-policy")!;
     expect(again).not.toContain(nonce);
+  });
+
+  it("asks for HTTPS only (HSTS) when the production app is served over HTTPS", async () => {
+    expect((await handle(appRequest("/sign-in"))).headers.get("strict-transport-security")).toBeNull();
+    const before = process.env.APP_URL;
+    process.env.APP_URL = "https://benchpost.example";
+    try {
+      for (const path of ["/sign-in", "/api/v1/me", "/healthz"]) {
+        expect((await handle(appRequest(path))).headers.get("strict-transport-security"), path).toBe("max-age=31536000; includeSubDomains");
+      }
+    } finally {
+      process.env.APP_URL = before;
+    }
   });
 });
 

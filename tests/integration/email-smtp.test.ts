@@ -4,7 +4,8 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { loader as emailsLoader } from "~/routes/api/dev.emails";
 import { caughtEmails } from "~/db/schema";
 import { db } from "~/server/db.server";
-import { smtpTransport } from "~/server/email/email-transport.server";
+import { ATTEMPT_LEASE_SECONDS, DeliveryInProgressError, deliverOutboxEmail } from "~/server/email/deliver-email.server";
+import { type EmailTransport, smtpTransport } from "~/server/email/email-transport.server";
 import { type MailCatcher, startMailCatcher } from "~/server/email/mail-catcher.server";
 import { sendEmail } from "~/server/email/send-email.server";
 import { type Worker, startWorker } from "~/server/jobs/worker.server";
@@ -124,6 +125,36 @@ describe("delivery through the local mail catcher", () => {
     expect(firstWorkerDeliveries.count - deliveredBefore).toBeGreaterThan(0);
     expect(secondWorkerDeliveries.count).toBeGreaterThan(0);
     expect(firstWorkerDeliveries.count - deliveredBefore + secondWorkerDeliveries.count).toBe(20);
+  });
+
+  it("records an attempt before sending, and after a worker dies mid-send sends again with the same Message-ID", async () => {
+    // An outbox row with no delivery job, so that only this test delivers it.
+    const outboxId = await db.transaction(async (tx) => {
+      const { outboxId: id } = await sendEmail(tx, signInMessage("cut.off@example.org"));
+      await tx.execute(sql`delete from pgboss.job where data->>'outboxId' = ${id}`);
+      return id;
+    });
+    const smtp = smtpTransport(`smtp://127.0.0.1:${catcher.port}`, FROM);
+    // The catcher has the message, then the worker "dies": its answer never comes back.
+    const dying: EmailTransport = { name: "smtp", deliver: async (email) => (await smtp.deliver(email), new Promise<never>(() => undefined)) };
+    const start = new Date();
+    const at = (seconds: number) => new Date(start.getTime() + seconds * 1000);
+    void deliverOutboxEmail(db, dying, outboxId, start);
+    const copies = () => db.select().from(caughtEmails).where(sql`'cut.off@example.org' = any(${caughtEmails.toAddresses})`);
+    await waitFor(async () => (await copies()).length === 1, "the first copy");
+    // The attempt was committed before the transport was asked.
+    expect(await outboxRow(outboxId)).toMatchObject({ status: "queued", attempts: 1, attemptStartedAt: start });
+
+    // Within the attempt's lease nobody else sends it; after it, the retry sends the same message again.
+    await expect(deliverOutboxEmail(db, smtp, outboxId, at(ATTEMPT_LEASE_SECONDS - 1))).rejects.toBeInstanceOf(DeliveryInProgressError);
+    expect(await deliverOutboxEmail(db, smtp, outboxId, at(ATTEMPT_LEASE_SECONDS + 1))).toBe("resent-after-interrupted-attempt");
+    expect(await outboxRow(outboxId)).toMatchObject({ status: "sent", attempts: 2, attemptStartedAt: null });
+    const caught = await copies();
+    expect(caught).toHaveLength(2);
+    expect(new Set(caught.map((email) => email.messageId))).toEqual(new Set([`<${outboxId}@benchpost.example>`]));
+    // A later job for the same row sends nothing.
+    expect(await deliverOutboxEmail(db, smtp, outboxId, at(3 * ATTEMPT_LEASE_SECONDS))).toBe("already-handled");
+    smtp.close?.();
   });
 
   it("keeps the inbox API closed without the development flag, and always when real mail goes out", async () => {

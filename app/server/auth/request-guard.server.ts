@@ -3,7 +3,9 @@
  * cookie in step with the database, and keep signed-in answers out of shared caches.
  */
 import { data, type MiddlewareFunction } from "react-router";
+import { CROSS_ORIGIN_REFUSAL } from "~/lib/auth/cross-origin";
 import { isSafeMethod, isSameOriginRequest } from "~/server/http.server";
+import { strictTransportSecurity } from "~/server/security-headers.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
 import { readBearerToken } from "./api-tokens.server";
 import { SESSION_COOKIE, blankSessionCookie, getRequestSession, readCookie, sessionCookie } from "./session.server";
@@ -21,7 +23,7 @@ function isAllowedWrite(request: Request): boolean {
 export const requestGuard: MiddlewareFunction<Response> = async ({ request }, next) => {
   if (!isAllowedWrite(request)) {
     if (isApiRequest(request)) return apiErrorResponse(403, "cross_origin", "Requests that change data must come from Benchpost's own pages.");
-    throw data("Cross-origin request refused", { status: 403 });
+    throw data(CROSS_ORIGIN_REFUSAL, { status: 403 });
   }
   const hadCookie = readCookie(request, SESSION_COOKIE) !== null;
   const validation = await getRequestSession(request);
@@ -36,5 +38,7 @@ export const requestGuard: MiddlewareFunction<Response> = async ({ request }, ne
   }
   if (validation || cookieSetByRoute) response.headers.set("Cache-Control", "private, no-store");
   response.headers.set("X-Content-Type-Options", "nosniff");
+  const hsts = strictTransportSecurity();
+  if (hsts) response.headers.set("Strict-Transport-Security", hsts);
   return response;
 };

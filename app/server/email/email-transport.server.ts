@@ -58,8 +58,16 @@ export function resendTransport(apiKey: string, from: string): EmailTransport {
   };
 }
 
+/**
+ * Bounded waits, well inside a delivery attempt's lease (deliver-email.server.ts), so that a slow server
+ * can never leave an attempt running once a retry may start. Values are common practice.
+ */
+const SMTP_TIMEOUTS = { connectionTimeout: 20_000, greetingTimeout: 15_000, socketTimeout: 60_000 };
+
 export function smtpTransport(url: string, from: string): EmailTransport {
-  const transporter = nodemailer.createTransport(url);
+  const transporter = nodemailer.createTransport(url, SMTP_TIMEOUTS);
+  // The Message-ID's right-hand side is the sender's own domain (RFC 5322 §3.6.4).
+  const messageIdDomain = from.match(/@([^>\s]+)/)?.[1] ?? "benchpost.localhost";
   return {
     name: "smtp",
     async deliver(email) {
@@ -70,6 +78,9 @@ export function smtpTransport(url: string, from: string): EmailTransport {
         subject: email.subject,
         html: email.html,
         text: email.text,
+        // One Message-ID per outbox row, the same on every attempt: a copy sent again after an attempt
+        // was cut off is recognisably the same message.
+        messageId: `<${email.outboxId}@${messageIdDomain}>`,
         // Ties a caught message back to its outbox row, and makes an accidental duplicate visible.
         headers: { "X-Benchpost-Outbox-Id": email.outboxId },
       });

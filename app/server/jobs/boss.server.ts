@@ -23,7 +23,12 @@ export const queues = {
   labReminder: "lab-reminder",
   /** One job per part correction that enters reductions: re-reduces every version that used the part. */
   reductionRevision: "reduction-revision",
+  /** The nightly sweep of expired sessions, links, rate-limit counters, caught mail and old refusals. */
+  housekeeping: "housekeeping",
 } as const;
+
+/** When the worker runs housekeeping: 03:17 UTC, off the hour when other cron work piles up (common practice). */
+export const housekeepingCron = "17 3 * * *";
 
 /**
  * Six attempts over roughly half an hour: 30 s, then about 1, 2, 4 and 8 minutes later (pg-boss doubles
@@ -42,6 +47,7 @@ const queueSettings: PgBoss.Queue[] = [
   { name: queues.classComparison, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 300 },
   { name: queues.labReminder, retryLimit: 5, retryDelay: 60, retryBackoff: true, expireInSeconds: 300 },
   { name: queues.reductionRevision, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 600 },
+  { name: queues.housekeeping, retryLimit: 2, retryDelay: 300, expireInSeconds: 600 },
 ];
 
 /**

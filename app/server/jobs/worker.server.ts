@@ -10,7 +10,8 @@ import type { EmailTransport } from "~/server/email/email-transport.server";
 import type { EmailDeliveryJob } from "~/server/email/send-email.server";
 import { runRereduction, type RereductionJob } from "~/server/kits/rereduce.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
-import { createBoss, createQueues, queues } from "./boss.server";
+import { createBoss, createQueues, housekeepingCron, queues } from "./boss.server";
+import { sweepExpiredRows } from "./housekeeping.server";
 
 export type Worker = { stop(): Promise<void> };
 
@@ -84,6 +85,8 @@ export async function startWorker(options: {
   boss.on("error", (error) => log(`job queue maintenance: ${error.message}`));
   await boss.start();
   await createQueues(boss);
+  // Idempotent: every worker (re)writes the same schedule, and pg-boss's cron sends one job per tick.
+  await boss.schedule(queues.housekeeping, housekeepingCron, {}, { tz: "UTC" });
 
   const pollingIntervalMs = (options.pollingIntervalSeconds ?? 2) * 1000;
   const stoppers = [
@@ -135,6 +138,16 @@ export async function startWorker(options: {
       async (job) => {
         const outcome = await runRereduction(database, job.data.runId);
         log(`re-reduction ${job.data.runId}: ${outcome.revised} revised, ${outcome.unreducible.length} not reducible`);
+      },
+      log,
+    ),
+    runJobs(
+      boss,
+      queues.housekeeping,
+      pollingIntervalMs,
+      async () => {
+        const swept = await sweepExpiredRows(database);
+        log(`housekeeping: ${Object.entries(swept).map(([table, count]) => `${count} ${table}`).join(", ")} swept`);
       },
       log,
     ),

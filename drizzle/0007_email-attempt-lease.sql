@@ -1,0 +1,1 @@
+ALTER TABLE "email_outbox" ADD COLUMN "attempt_started_at" timestamp with time zone;
