@@ -4,6 +4,7 @@
  */
 import { isIP } from "node:net";
 import { appUrl, isProduction } from "~/server/config.server";
+import { environment } from "~/server/env.server";
 
 /**
  * The client's address. react-router-serve does not pass the socket address into the Request, so it
@@ -14,10 +15,10 @@ import { appUrl, isProduction } from "~/server/config.server";
  */
 let warnedAboutProxy = false;
 export function clientIp(request: Request): string | null {
-  if (process.env.TRUST_PROXY !== "1") {
-    if (isProduction && !warnedAboutProxy) {
+  if (!environment().TRUST_PROXY) {
+    if (isProduction() && !warnedAboutProxy) {
       warnedAboutProxy = true;
-      console.warn("TRUST_PROXY is not set: client addresses are unknown, so sign-in is rate-limited per account only.");
+      console.warn("TRUST_PROXY=0: client addresses are unknown, so sign-in is rate-limited per account only.");
     }
     return null;
   }

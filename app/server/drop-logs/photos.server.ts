@@ -10,6 +10,7 @@ import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededEr
 import { and, eq } from "drizzle-orm";
 import { courseMemberships, dropLogPhotos, dropLogs, labs } from "~/db/schema";
 import type { Executor } from "~/server/db.server";
+import { environment } from "~/server/env.server";
 
 export const MAX_PHOTO_BYTES = 10 * 1024 * 1024;
 export const MAX_PHOTOS_PER_UPLOAD = 6;
@@ -29,7 +30,7 @@ export class PhotoUploadError extends Error {
 
 /** `STORAGE_DIR`, or `storage/` in the checkout (git-ignored); never under `public/`. */
 export function storageDirectory(): string {
-  return path.resolve(process.env.STORAGE_DIR ?? path.join(process.cwd(), "storage"), "photos");
+  return path.resolve(environment().STORAGE_DIR ?? path.join(process.cwd(), "storage"), "photos");
 }
 
 let storage: ReturnType<typeof createFsFileStorage> | undefined;

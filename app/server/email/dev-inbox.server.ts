@@ -25,7 +25,7 @@ async function isSignedInStaff(request: Request): Promise<boolean> {
 export async function devInboxAllowed(request: Request): Promise<boolean> {
   if (sendsRealMail()) return false;
   if (process.env.BENCHPOST_DEV_INBOX === "1") return true;
-  return !isProduction && (await isSignedInStaff(request));
+  return !isProduction() && (await isSignedInStaff(request));
 }
 
 /** A 404 rather than a 403: where the inbox is closed, it does not exist. */
