@@ -6,6 +6,7 @@ import { maintenanceUrl, withDatabaseName } from "../../scripts/lib/database-url
 import { dropTestDatabase } from "../support/test-database";
 
 const emptyUrl = withDatabaseName(process.env.DATABASE_URL!, `benchpost_empty_${process.pid}`);
+const raceUrl = withDatabaseName(process.env.DATABASE_URL!, `benchpost_race_${process.pid}`);
 
 async function query<T extends pg.QueryResultRow>(url: string, sql: string): Promise<T[]> {
   const client = new pg.Client({ connectionString: url });
@@ -18,7 +19,10 @@ async function query<T extends pg.QueryResultRow>(url: string, sql: string): Pro
 }
 
 describe("migrations", () => {
-  afterAll(() => dropTestDatabase(emptyUrl));
+  afterAll(async () => {
+    await dropTestDatabase(emptyUrl);
+    await dropTestDatabase(raceUrl);
+  });
 
   it("apply to an empty database, every one of them, and a second run changes nothing", async () => {
     await query(maintenanceUrl(emptyUrl), `create database "${new URL(emptyUrl).pathname.slice(1)}" template template0`);
@@ -36,5 +40,13 @@ describe("migrations", () => {
     await migrateDatabase(emptyUrl);
     const again = await query<{ count: string }>(emptyUrl, "select count(*) from drizzle.__drizzle_migrations");
     expect(again[0].count).toBe(applied[0].count);
+  });
+
+  it("take turns when several instances migrate an empty database at once", async () => {
+    await query(maintenanceUrl(raceUrl), `create database "${new URL(raceUrl).pathname.slice(1)}" template template0`);
+    await Promise.all([migrateDatabase(raceUrl), migrateDatabase(raceUrl), migrateDatabase(raceUrl)]);
+    const journal = JSON.parse(readFileSync(`${migrationsFolder}/meta/_journal.json`, "utf8")) as { entries: unknown[] };
+    const applied = await query<{ count: string }>(raceUrl, "select count(*) from drizzle.__drizzle_migrations");
+    expect(Number(applied[0].count)).toBe(journal.entries.length);
   });
 });
