@@ -2,6 +2,7 @@
  * `npm run user:create-instructor -- --email … --name …`: an instructor account (one that may open
  * courses) without open sign-up. No password is set here, so none lands in shell history: the
  * instructor signs in with an e-mailed link, or chooses a password through "Forgot your password?".
+ * Production runs its bundled copy: `NODE_ENV=production node build/create-instructor.js --email … --name …`.
  */
 import { env } from "./lib/checked-environment";
 import { parseArgs } from "node:util";

@@ -2,11 +2,11 @@ import { build } from "esbuild";
 import { bin, runStep } from "./processes";
 
 /** Bundled beside the app's build (their node_modules imports stay imports), so production runs them with plain node. */
-const entryPoints = ["scripts/web.ts", "scripts/worker.ts", "scripts/migrate.ts"];
+const entryPoints = ["scripts/web.ts", "scripts/worker.ts", "scripts/migrate.ts", "scripts/create-instructor.ts"];
 
 /**
- * The app's build in `directory`: React Router's client and server halves, and web.js, worker.js and
- * migrate.js beside them. A demo build (`npm start`, `npm test`) has the development inbox; the
+ * The app's build in `directory`: React Router's client and server halves, and web.js, worker.js,
+ * migrate.js and create-instructor.js beside them. A demo build (`npm start`, `npm test`) has the development inbox; the
  * production build (`npm run build`) does not (app/routes.ts reads BENCHPOST_DEMO_BUILD).
  */
 export async function buildApp({ demo, directory = "build", quiet = false }: { demo: boolean; directory?: string; quiet?: boolean }): Promise<void> {
