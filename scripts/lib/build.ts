@@ -1,6 +1,9 @@
 import { build } from "esbuild";
 import { bin, runStep } from "./processes";
 
+/** Where `npm test` puts the production build it checks last (tests/production/), apart from the demo build. */
+export const PRODUCTION_CHECK_DIRECTORY = "build/production-check";
+
 /** Bundled beside the app's build (their node_modules imports stay imports), so production runs them with plain node. */
 const entryPoints = ["scripts/web.ts", "scripts/worker.ts", "scripts/migrate.ts", "scripts/create-instructor.ts"];
 
