@@ -7,7 +7,7 @@ import { appUrl, isProduction } from "~/server/config.server";
 import { environment } from "~/server/env.server";
 
 /**
- * The client's address. react-router-serve does not pass the socket address into the Request, so it
+ * The client's address. The Request does not carry the socket address (only the load context does), so it
  * is read from X-Forwarded-For, and only when TRUST_PROXY=1 says a proxy of ours sets that header:
  * the right-most entry is the one our proxy appended, and the only one a client cannot forge.
  * Without a trusted proxy the address is unknown, and the per-address rate limits are skipped (the
