@@ -43,6 +43,19 @@ export default defineConfig({
           fileParallelism: false,
         },
       },
+      {
+        resolve,
+        test: {
+          // The production build run as a deployment runs it; scripts/test.ts builds it just before.
+          name: "production",
+          include: ["tests/production/**/*.test.ts"],
+          globalSetup: ["tests/support/global-setup.ts"],
+          setupFiles: ["tests/support/integration-setup.ts"],
+          provide: { emptyDatabase: true },
+          testTimeout: 30_000,
+          hookTimeout: 120_000,
+        },
+      },
     ],
   },
 });

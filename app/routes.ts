@@ -1,5 +1,9 @@
 import { type RouteConfig, index, prefix, route } from "@react-router/dev/routes";
 
+// Read when the app is built (and by the dev server): `npm start`, `npm run dev` and `npm test` build
+// the demo, which has the development inbox; `npm run build`, the production build, does not.
+const demoBuild = process.env.BENCHPOST_DEMO_BUILD === "1";
+
 export default [
   index("routes/home.tsx"),
   route("healthz", "routes/api/healthz.ts"),
@@ -61,8 +65,7 @@ export default [
   route("api/v1/labs/:labId/drop-logs", "routes/api/v1.labs.$labId.drop-logs.ts"),
   route("api/v1/labs/:labId/drop-logs/:dropLogId", "routes/api/v1.labs.$labId.drop-logs.$dropLogId.ts"),
   route("api/v1/openapi.json", "routes/api/v1.openapi[.]json.ts"),
-  route("dev/inbox", "routes/dev.inbox.tsx"),
-  route("api/dev/emails", "routes/api/dev.emails.ts"),
+  ...(demoBuild ? [route("dev/inbox", "routes/dev.inbox.tsx"), route("api/dev/emails", "routes/api/dev.emails.ts")] : []),
   // Before the site's catch-all: an unknown API address answers JSON, not the 404 page.
   route("api/*", "routes/api/not-found.ts"),
   route("*", "routes/not-found.tsx"),

@@ -17,12 +17,13 @@ const STUDENTS = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
 const OVERALL_DEADLINE_MS = 60_000;
 
-// A build older than the code would measure the code as it was: build again whenever app/ has changed since.
-const builtAt = existsSync("build/server/index.js") ? statSync("build/server/index.js").mtimeMs : 0;
+// A build older than the code would measure the code as it was: build again whenever app/ has changed since
+// (the demo build, which the test suites also use).
+const builtAt = existsSync("build/web.js") ? statSync("build/web.js").mtimeMs : 0;
 const appChanged = readdirSync("app", { recursive: true, encoding: "utf8" }).some((file) => statSync(`app/${file}`).mtimeMs > builtAt);
 if (appChanged) {
   console.log("Building the app…");
-  if (spawnSync(process.execPath, [bin.reactRouter, "build"], { stdio: "inherit" }).status !== 0) throw new Error("The build failed.");
+  if (spawnSync(process.execPath, [bin.tsx, "scripts/build.ts", "--demo"], { stdio: "inherit" }).status !== 0) throw new Error("The build failed.");
 }
 
 const bench = await useBenchDatabase();
@@ -84,8 +85,8 @@ for (const s of students) {
 // The server: the node binary itself (so the PID is the server's), loopback only.
 const port = await freePort();
 const baseUrl = `http://127.0.0.1:${port}`;
-const server = spawn(process.execPath, [bin.reactRouterServe, "build/server/index.js"], {
-  env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", APP_URL: baseUrl, DATABASE_URL: bench.url },
+const server = spawn(process.execPath, ["build/web.js"], {
+  env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", APP_URL: baseUrl, TRUST_PROXY: "0", DATABASE_URL: bench.url, SMTP_URL: "smtp://127.0.0.1:1025" },
   stdio: ["ignore", "ignore", "inherit"],
 });
 

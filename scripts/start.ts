@@ -1,41 +1,43 @@
 /**
- * `npm start`: everything a newcomer needs to see Benchpost with its demo data. Ensures the database,
- * migrates, seeds when empty, builds, and runs the web server (and the other processes) until Ctrl-C.
- * `npm run dev` is the same with the Vite dev server (hot reload) in place of the build.
+ * `npm start`: the demo, everything a newcomer needs to see Benchpost. Ensures the database, migrates,
+ * seeds when empty, builds the demo (which has the development inbox), and runs the web server, the
+ * worker and the mail catcher until Ctrl-C. It listens on 127.0.0.1 unless HOST says otherwise.
+ * `npm run dev` is the same with Vite's dev server (hot reload) in place of the build.
+ * Production is another path: `npm run build`, `npm run db:migrate`, `start:web`, `start:worker`.
  */
+import { env } from "./lib/checked-environment";
 import type { ChildProcess } from "node:child_process";
 import { DEMO_PASSWORD, buildDemoScenario } from "../seeds/demo-scenario";
 import { prepareDevelopmentDatabase } from "../seeds/seed-demo";
-import { developmentDatabaseUrl } from "./lib/database-url";
+import { buildApp } from "./lib/build";
 import { SetupError } from "./lib/postgres";
-import { bin, portIsFree, runStep, startService } from "./lib/processes";
+import { bin, portIsFree, startService } from "./lib/processes";
 
-const port = Number(process.env.PORT ?? 3000);
 const development = process.argv.includes("--dev");
-const mailCatcherPort = Number(process.env.MAIL_CATCHER_PORT ?? 1025);
-// Without a Resend key, mail goes to the local catcher and can be read at /dev/inbox.
-const catchesMail = !process.env.RESEND_API_KEY;
+// Without a mail service of the user's, mail goes to the local catcher and can be read at /dev/inbox.
+const catchesMail = !env.RESEND_API_KEY && !env.SMTP_URL;
 
 async function prepare(): Promise<void> {
-  if (!(await portIsFree(port))) throw new SetupError(`Port ${port} is already in use: stop what is running there, or set PORT.`);
-  if (catchesMail && !(await portIsFree(mailCatcherPort, "127.0.0.1"))) {
-    throw new SetupError(`Port ${mailCatcherPort} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`);
+  if (!(await portIsFree(env.PORT, env.HOST))) throw new SetupError(`Port ${env.PORT} is already in use: stop what is running there, or set PORT.`);
+  if (catchesMail && !(await portIsFree(env.MAIL_CATCHER_PORT, "127.0.0.1"))) {
+    throw new SetupError(`Port ${env.MAIL_CATCHER_PORT} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`);
   }
   console.log(`Demo scenario: ${await prepareDevelopmentDatabase()}.`);
-  if (!development) runStep("Building the app", bin.reactRouter, ["build"]);
+  if (!development) await buildApp({ demo: true });
 }
 
 function printWelcome(): void {
   const scenario = buildDemoScenario();
   const lines = [
-    `Benchpost is running at http://localhost:${port}`,
+    `Benchpost is running at ${env.APP_URL}`,
+    env.HOST === "127.0.0.1" ? "It listens on 127.0.0.1 only: other machines cannot reach it (HOST=0.0.0.0 and APP_URL open it up)." : `It listens on ${env.HOST}.`,
     "",
     `Demo sign-ins (password for all: ${DEMO_PASSWORD}):`,
     `  instructor  ${scenario.instructor.email}`,
     ...scenario.tas.map((ta) => `  TA          ${ta.email}`),
     `  student     ${scenario.students[0].email} (and ${scenario.students.length - 1} more)`,
     "",
-    catchesMail ? `E-mail is caught locally: read it at http://localhost:${port}/dev/inbox` : "E-mail goes out through Resend.",
+    catchesMail ? `E-mail is caught locally: read it at ${env.APP_URL}/dev/inbox (only from this machine).` : `E-mail goes out through ${env.RESEND_API_KEY ? "Resend" : env.SMTP_URL}.`,
     "",
     "Press Ctrl-C to stop.",
   ];
@@ -43,20 +45,24 @@ function printWelcome(): void {
 }
 
 function run(): void {
-  const env = {
+  const childEnv = {
     ...process.env,
     NODE_ENV: development ? "development" : "production",
-    PORT: String(port),
-    DATABASE_URL: developmentDatabaseUrl(),
-    SMTP_URL: process.env.SMTP_URL ?? `smtp://127.0.0.1:${mailCatcherPort}`,
-    MAIL_CATCHER_PORT: String(mailCatcherPort),
-    BENCHPOST_DEV_INBOX: process.env.BENCHPOST_DEV_INBOX ?? "1",
+    PORT: String(env.PORT),
+    HOST: env.HOST,
+    APP_URL: env.APP_URL,
+    // Nothing stands in front of the demo: clients connect to it directly.
+    TRUST_PROXY: env.TRUST_PROXY ? "1" : "0",
+    DATABASE_URL: env.DATABASE_URL,
+    SMTP_URL: env.SMTP_URL ?? `smtp://127.0.0.1:${env.MAIL_CATCHER_PORT}`,
+    MAIL_CATCHER_PORT: String(env.MAIL_CATCHER_PORT),
+    // Vite's dev server reads the route table as it runs; the build has read it already.
+    BENCHPOST_DEMO_BUILD: "1",
   };
-  const web = development
-    ? startService("web", bin.reactRouter, ["dev", "--port", String(port), "--strictPort"], env)
-    : startService("web", bin.reactRouterServe, ["build/server/index.js"], env);
-  const services: ChildProcess[] = [web, startService("worker", bin.tsx, ["scripts/worker.ts"], env)];
-  if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], env));
+  const services: ChildProcess[] = development
+    ? [startService("web", bin.tsx, ["scripts/web.ts", "--dev"], childEnv), startService("worker", bin.tsx, ["scripts/worker.ts"], childEnv)]
+    : [startService("web", "build/web.js", [], childEnv), startService("worker", "build/worker.js", [], childEnv)];
+  if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], childEnv));
   const stop = () => {
     for (const service of services) service.kill("SIGTERM");
   };

@@ -3,6 +3,7 @@
  * need (the test database with its migrations, Debian's Chromium) when it is missing.
  */
 import { migrateDatabase } from "~/server/migrate.server";
+import { PRODUCTION_CHECK_DIRECTORY, buildApp } from "./lib/build";
 import { ensureChromium } from "./lib/chromium";
 import { testDatabaseUrl } from "./lib/database-url";
 import { SetupError, ensureDatabases } from "./lib/postgres";
@@ -22,8 +23,12 @@ try {
 
 runStep("Type-checking (react-router typegen && tsc)", bin.reactRouter, ["typegen"], env);
 runStep("Type-checking", bin.tsc, [], env);
-// Built before the suites: the HTTP-level integration tests and the browser tests both serve it.
-runStep("Building the app", bin.reactRouter, ["build"], env);
+// The demo build, before the suites: the HTTP-level integration tests and the browser tests serve it.
+await buildApp({ demo: true });
 runStep("Unit and integration tests", bin.vitest, ["run", "--project", "unit", "--project", "integration"], env);
 runStep("Browser tests (Chromium)", bin.vitest, ["run", "--project", "browser"], env);
+// Last, in a folder of its own so that the demo build stays for the suites: the production build,
+// run as a deployment runs it (tests/production/).
+await buildApp({ demo: false, directory: PRODUCTION_CHECK_DIRECTORY, quiet: true });
+runStep("Production build: release step, web server, worker", bin.vitest, ["run", "--project", "production"], env);
 console.log("\nAll checks passed.");

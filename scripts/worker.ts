@@ -1,13 +1,14 @@
 /**
- * `npm run worker`: delivers e-mail (and, later, runs other background jobs) until stopped.
- * Started by `npm start`; in production run one or more of it beside the web server.
+ * The worker: delivers e-mail (and runs the other background jobs) until stopped. `npm start` runs it
+ * from source; in production `npm run start:worker` runs its bundled copy (build/worker.js), one or
+ * more of them beside the web server.
  */
+import { env } from "./lib/checked-environment";
 import { startWorker } from "~/server/jobs/worker.server";
 import { transportFromEnvironment } from "~/server/email/email-transport.server";
-import { developmentDatabaseUrl } from "./lib/database-url";
 
-const transport = transportFromEnvironment();
-const worker = await startWorker({ connectionString: developmentDatabaseUrl(), transport });
+const transport = transportFromEnvironment(env);
+const worker = await startWorker({ connectionString: env.DATABASE_URL, transport });
 console.log(`Worker running; e-mail goes out via ${transport.name}.`);
 
 const stop = async () => {

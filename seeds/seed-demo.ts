@@ -7,6 +7,7 @@ import { and, eq } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, taCohortAssignments, users } from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import { createDatabase, createPool, type Database } from "~/server/db.server";
+import { environment } from "~/server/env.server";
 import { migrateDatabase } from "~/server/migrate.server";
 import { developmentDatabaseUrl } from "../scripts/lib/database-url";
 import { ensureDatabases } from "../scripts/lib/postgres";
@@ -18,6 +19,8 @@ import { seedMarking } from "./seed-marking";
 import { seedRevisions } from "./seed-revisions";
 
 export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
+  // Its accounts share a password printed in the README: a production process never writes them.
+  if (environment().NODE_ENV === "production") throw new Error("The demo scenario is never seeded in production.");
   const existing = await db
     .select({ id: courses.id })
     .from(courses)

@@ -1,6 +1,5 @@
-import { Link } from "react-router";
+import { Link, type LoaderFunctionArgs, useLoaderData } from "react-router";
 import { z } from "zod";
-import type { Route } from "./+types/dev.inbox";
 import { PageHeader } from "~/components/ui/page-header";
 import { emailTemplateNames } from "../../emails/template-props";
 import { renderTemplatePreviews } from "~/server/email/email-templates.server";
@@ -14,8 +13,9 @@ const selection = z.object({
 
 type Shown = { kind: "message"; email: CaughtEmail } | { kind: "preview"; template: string; subject: string; html: string; text: string };
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireDevInbox(request);
+// Typed without `./+types`: typegen sees this route only when it is run for a demo build.
+export async function loader({ request, context }: LoaderFunctionArgs) {
+  requireDevInbox(context);
   const parsed = selection.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   const wanted = parsed.success ? parsed.data : {};
   const emails = await listCaughtEmails({ to: wanted.to || undefined });
@@ -30,8 +30,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { emails, templates: emailTemplateNames, shown, filter: wanted.to ?? "" };
 }
 
-export default function DevInbox({ loaderData }: Route.ComponentProps) {
-  const { emails, templates, shown, filter } = loaderData;
+export default function DevInbox() {
+  const { emails, templates, shown, filter } = useLoaderData<typeof loader>();
   return (
     <div>
       <PageHeader title="Development inbox">

@@ -5,6 +5,7 @@ import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as schema from "~/db/schema";
 import { developmentDatabaseUrl } from "../../scripts/lib/database-url";
+import { environment } from "./env.server";
 
 export type Database = NodePgDatabase<typeof schema>;
 /** A transaction handle: business changes and the e-mails or jobs they cause share one. */
@@ -18,7 +19,7 @@ export function isUniqueViolation(error: unknown): boolean {
 }
 
 export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
-  const pool = new pg.Pool({ connectionString, max: Number(process.env.DATABASE_POOL_SIZE ?? 10) });
+  const pool = new pg.Pool({ connectionString, max: environment().DATABASE_POOL_SIZE });
   // An idle connection dropped by a database restart must not take the process down; the pool reconnects.
   pool.on("error", (error) => console.error("PostgreSQL connection lost:", error.message));
   return pool;

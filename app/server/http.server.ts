@@ -7,9 +7,10 @@ import { data } from "react-router";
 import type { z } from "zod";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
 import { appUrl, isProduction } from "~/server/config.server";
+import { environment } from "~/server/env.server";
 
 /**
- * The client's address. react-router-serve does not pass the socket address into the Request, so it
+ * The client's address. The Request does not carry the socket address (only the load context does), so it
  * is read from X-Forwarded-For, and only when TRUST_PROXY=1 says a proxy of ours sets that header:
  * the right-most entry is the one our proxy appended, and the only one a client cannot forge.
  * Without a trusted proxy the address is unknown, and the per-address rate limits are skipped (the
@@ -17,10 +18,10 @@ import { appUrl, isProduction } from "~/server/config.server";
  */
 let warnedAboutProxy = false;
 export function clientIp(request: Request): string | null {
-  if (process.env.TRUST_PROXY !== "1") {
-    if (isProduction && !warnedAboutProxy) {
+  if (!environment().TRUST_PROXY) {
+    if (isProduction() && !warnedAboutProxy) {
       warnedAboutProxy = true;
-      console.warn("TRUST_PROXY is not set: client addresses are unknown, so sign-in is rate-limited per account only.");
+      console.warn("TRUST_PROXY=0: client addresses are unknown, so sign-in is rate-limited per account only.");
     }
     return null;
   }

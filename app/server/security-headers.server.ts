@@ -4,7 +4,7 @@
  */
 import { appUrl, isProduction } from "~/server/config.server";
 
-export function contentSecurityPolicy(nonce: string, { development = !isProduction } = {}): string {
+export function contentSecurityPolicy(nonce: string, { development = !isProduction() } = {}): string {
   const directives: Record<string, string[]> = {
     "default-src": ["'self'"],
     "script-src": ["'self'", `'nonce-${nonce}'`],

@@ -2,18 +2,22 @@
  * Where the databases live. One definition shared by the database script, the start command,
  * the test harness and the app, so that they can never disagree.
  */
-export const LOCAL_PORT = Number(process.env.BENCHPOST_PG_PORT ?? 54329);
-export const LOCAL_USER = "benchpost";
+import { LOCAL_DATABASE_USER, environment } from "../../app/server/env.server";
+
+/** The port of the project's own cluster (BENCHPOST_PG_PORT). */
+export function localPort(): number {
+  return environment().BENCHPOST_PG_PORT;
+}
+export const LOCAL_USER = LOCAL_DATABASE_USER;
 
 /** The development database: DATABASE_URL when set, otherwise the project's own cluster. */
 export function developmentDatabaseUrl(): string {
-  return process.env.DATABASE_URL ?? `postgresql://${LOCAL_USER}@127.0.0.1:${LOCAL_PORT}/benchpost`;
+  return environment().DATABASE_URL;
 }
 
 /** The test database sits beside the development one, with `_test` appended to its name. */
 export function testDatabaseUrl(): string {
-  if (process.env.TEST_DATABASE_URL) return process.env.TEST_DATABASE_URL;
-  return withDatabaseName(developmentDatabaseUrl(), `${databaseName(developmentDatabaseUrl())}_test`);
+  return environment().TEST_DATABASE_URL ?? withDatabaseName(developmentDatabaseUrl(), `${databaseName(developmentDatabaseUrl())}_test`);
 }
 
 export function databaseName(url: string): string {

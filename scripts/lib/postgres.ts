@@ -8,7 +8,7 @@ import { existsSync, mkdirSync, readdirSync, chmodSync, chownSync, statSync } fr
 import { dirname, join, resolve } from "node:path";
 import pg from "pg";
 import {
-  LOCAL_PORT,
+  localPort,
   LOCAL_USER,
   databaseName,
   developmentDatabaseUrl,
@@ -119,13 +119,13 @@ async function startLocalCluster(): Promise<void> {
   const folder = clusterFolder();
   if (!existsSync(join(folder, "PG_VERSION"))) createCluster(bin, folder);
   if (isRunning(bin, folder)) return;
-  const options = `-p ${LOCAL_PORT} -c listen_addresses=127.0.0.1 -k '${socketOption(folder)}'`;
+  const options = `-p ${localPort()} -c listen_addresses=127.0.0.1 -k '${socketOption(folder)}'`;
   const result = pgCtl(bin, folder, "start", ["-l", join(folder, "server.log"), "-o", options, "-w", "-t", "30"]);
   if (result.status !== 0) {
     const portTaken = await canConnect(maintenanceUrl(developmentDatabaseUrl()));
     throw new SetupError(
       portTaken
-        ? `Port ${LOCAL_PORT} is already used by another PostgreSQL: stop it or set BENCHPOST_PG_PORT.`
+        ? `Port ${localPort()} is already used by another PostgreSQL: stop it or set BENCHPOST_PG_PORT.`
         : `PostgreSQL did not start (see ${join(folder, "server.log")}): ${lastLine(result.stdout + result.stderr)}`,
     );
   }
@@ -177,7 +177,7 @@ export async function describeStatus(): Promise<string> {
   if (!bin) return "PostgreSQL is not installed (npm run db:start installs it)";
   if (!existsSync(join(folder, "PG_VERSION"))) return `no cluster yet in ${folder} (npm run db:start creates it)`;
   const since = statSync(join(folder, "PG_VERSION")).mtime.toISOString().slice(0, 10);
-  return `${isRunning(bin, folder) ? "running" : "stopped"} on 127.0.0.1:${LOCAL_PORT}, data in ${folder} (created ${since})`;
+  return `${isRunning(bin, folder) ? "running" : "stopped"} on 127.0.0.1:${localPort()}, data in ${folder} (created ${since})`;
 }
 
 /** Drops and recreates the development and test databases. The only function here that deletes data. */

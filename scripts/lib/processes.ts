@@ -11,11 +11,12 @@ export function portIsFree(port: number, host = "0.0.0.0"): Promise<boolean> {
   });
 }
 
-/** Runs a project binary from node_modules with the node that runs us, failing loudly. */
-export function runStep(label: string, script: string, args: string[], env: NodeJS.ProcessEnv = process.env): void {
+/** Runs a project binary from node_modules with the node that runs us, failing loudly (quiet: its output only then). */
+export function runStep(label: string, script: string, args: string[], env: NodeJS.ProcessEnv = process.env, { quiet = false } = {}): void {
   console.log(`\n▸ ${label}`);
-  const result = spawnSync(process.execPath, [script, ...args], { stdio: "inherit", env });
+  const result = spawnSync(process.execPath, [script, ...args], { stdio: quiet ? "pipe" : "inherit", env, encoding: "utf8" });
   if (result.status !== 0) {
+    if (quiet) console.error(result.stdout, result.stderr);
     console.error(`✗ ${label} failed.`);
     process.exit(result.status ?? 1);
   }
@@ -38,7 +39,6 @@ export function startService(name: string, script: string, args: string[], env: 
 
 export const bin = {
   reactRouter: "node_modules/@react-router/dev/bin.js",
-  reactRouterServe: "node_modules/@react-router/serve/bin.js",
   tsc: "node_modules/typescript/bin/tsc",
   vitest: "node_modules/vitest/vitest.mjs",
   tsx: "node_modules/tsx/dist/cli.mjs",

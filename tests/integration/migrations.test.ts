@@ -2,10 +2,9 @@ import { readFileSync } from "node:fs";
 import pg from "pg";
 import { afterAll, describe, expect, it } from "vitest";
 import { migrateDatabase, migrationsFolder } from "~/server/migrate.server";
-import { maintenanceUrl, withDatabaseName } from "../../scripts/lib/database-url";
-import { dropTestDatabase } from "../support/test-database";
+import { createEmptyDatabase, dropTestDatabase } from "../support/test-database";
 
-const emptyUrl = withDatabaseName(process.env.DATABASE_URL!, `benchpost_empty_${process.pid}`);
+const databases: string[] = [];
 
 async function query<T extends pg.QueryResultRow>(url: string, sql: string): Promise<T[]> {
   const client = new pg.Client({ connectionString: url });
@@ -18,10 +17,11 @@ async function query<T extends pg.QueryResultRow>(url: string, sql: string): Pro
 }
 
 describe("migrations", () => {
-  afterAll(() => dropTestDatabase(emptyUrl));
+  afterAll(() => Promise.all(databases.map(dropTestDatabase)));
 
   it("apply to an empty database, every one of them, and a second run changes nothing", async () => {
-    await query(maintenanceUrl(emptyUrl), `create database "${new URL(emptyUrl).pathname.slice(1)}" template template0`);
+    const emptyUrl = await createEmptyDatabase();
+    databases.push(emptyUrl);
     await migrateDatabase(emptyUrl);
 
     const journal = JSON.parse(readFileSync(`${migrationsFolder}/meta/_journal.json`, "utf8")) as { entries: unknown[] };
@@ -36,5 +36,14 @@ describe("migrations", () => {
     await migrateDatabase(emptyUrl);
     const again = await query<{ count: string }>(emptyUrl, "select count(*) from drizzle.__drizzle_migrations");
     expect(again[0].count).toBe(applied[0].count);
+  });
+
+  it("take turns when several instances migrate an empty database at once", async () => {
+    const raceUrl = await createEmptyDatabase("race");
+    databases.push(raceUrl);
+    await Promise.all([migrateDatabase(raceUrl), migrateDatabase(raceUrl), migrateDatabase(raceUrl)]);
+    const journal = JSON.parse(readFileSync(`${migrationsFolder}/meta/_journal.json`, "utf8")) as { entries: unknown[] };
+    const applied = await query<{ count: string }>(raceUrl, "select count(*) from drizzle.__drizzle_migrations");
+    expect(Number(applied[0].count)).toBe(journal.entries.length);
   });
 });

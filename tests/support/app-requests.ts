@@ -1,10 +1,12 @@
 /**
  * Requests to the built app, in process: `createRequestHandler(build, "production")` from React Router,
- * on the test file's own database copy (DATABASE_URL), with real session cookies.
+ * on the test file's own database copy (DATABASE_URL), with real session cookies, and the load context
+ * our web server gives (scripts/web.ts): by default a request from this machine.
  */
 import { createRequestHandler, type ServerBuild } from "react-router";
 import { appUrl } from "~/server/config.server";
 import { db } from "~/server/db.server";
+import { loadContextFor } from "~/server/load-context.server";
 import { SESSION_COOKIE, createSession } from "~/server/auth/session.server";
 
 export type AppHandler = (request: Request) => Promise<Response>;
@@ -14,9 +16,9 @@ export async function loadBuild(): Promise<ServerBuild> {
   return (await import("../../build/server/index.js")) as ServerBuild;
 }
 
-export async function createAppHandler(): Promise<AppHandler> {
+export async function createAppHandler({ remoteAddress = "127.0.0.1" }: { remoteAddress?: string } = {}): Promise<AppHandler> {
   const handler = createRequestHandler(await loadBuild(), "production");
-  return (request) => handler(request);
+  return (request) => handler(request, loadContextFor(remoteAddress));
 }
 
 export const appOrigin = () => new URL(appUrl()).origin;

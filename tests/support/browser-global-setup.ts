@@ -11,7 +11,6 @@ import { startMailCatcher } from "~/server/email/mail-catcher.server";
 import { migrateDatabase } from "~/server/migrate.server";
 import { seedDemo } from "../../seeds/seed-demo";
 import { ensureChromium } from "../../scripts/lib/chromium";
-import { bin } from "../../scripts/lib/processes";
 import { freePort, waitForHealth } from "./app-server";
 import { createTestDatabase, dropTestDatabase } from "./test-database";
 
@@ -23,7 +22,7 @@ declare module "vitest" {
 }
 
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {
-  if (!existsSync("build/server/index.js")) throw new Error("Build the app first (npm test does): build/server/index.js is missing.");
+  if (!existsSync("build/web.js")) throw new Error("Build the demo first (npm test does, or npm run build:demo): build/web.js is missing.");
   ensureChromium();
   const databaseUrl = await createTestDatabase("browser");
   await migrateDatabase(databaseUrl);
@@ -32,19 +31,23 @@ export default async function setup(project: TestProject): Promise<() => Promise
   await pool.end();
 
   const catcher = await startMailCatcher({ connectionString: databaseUrl, port: 0, log: () => undefined });
-  const mailEnv = { SMTP_URL: `smtp://127.0.0.1:${catcher.port}`, BENCHPOST_DEV_INBOX: "1", RESEND_API_KEY: "" };
-  const worker = spawn(process.execPath, [bin.tsx, "scripts/worker.ts"], {
-    env: { ...process.env, ...mailEnv, NODE_ENV: "production", DATABASE_URL: databaseUrl },
-    stdio: ["ignore", "ignore", "inherit"],
-  });
-
   const port = await freePort();
   const baseUrl = `http://localhost:${port}`;
-  // The node binary itself, not npx, so that the PID we hold is the server's and we can stop it.
-  const server = spawn(process.execPath, [bin.reactRouterServe, "build/server/index.js"], {
-    env: { ...process.env, ...mailEnv, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DATABASE_URL: databaseUrl },
-    stdio: ["ignore", "ignore", "inherit"],
-  });
+  // The demo build run as `npm start` runs it, each half with the node binary itself (not npx), so
+  // that the PIDs we hold are the processes' own and we can stop them.
+  const env = {
+    ...process.env,
+    NODE_ENV: "production",
+    PORT: String(port),
+    HOST: "127.0.0.1",
+    APP_URL: baseUrl,
+    TRUST_PROXY: "0",
+    DATABASE_URL: databaseUrl,
+    SMTP_URL: `smtp://127.0.0.1:${catcher.port}`,
+    RESEND_API_KEY: "",
+  };
+  const worker = spawn(process.execPath, ["build/worker.js"], { env, stdio: ["ignore", "ignore", "inherit"] });
+  const server = spawn(process.execPath, ["build/web.js"], { env, stdio: ["ignore", "ignore", "inherit"] });
   await waitForHealth(baseUrl, server);
   project.provide("baseUrl", baseUrl);
   project.provide("databaseUrl", databaseUrl);

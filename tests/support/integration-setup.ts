@@ -1,11 +1,19 @@
 /**
- * Vitest setup file of the integration suite: before a test file imports any app module, point
- * DATABASE_URL at a fresh copy of the migrated template, and drop that copy when the file is done.
+ * Vitest setup file of the integration suite and the production check: before a test file imports any
+ * app module, point DATABASE_URL at a database of the file's own, and drop it when the file is done.
+ * Integration tests get a fresh copy of the migrated template; the production check (which provides
+ * `emptyDatabase`) an empty database, which its release step migrates.
  */
-import { afterAll } from "vitest";
-import { createTestDatabase, dropTestDatabase } from "./test-database";
+import { afterAll, inject } from "vitest";
+import { createEmptyDatabase, createTestDatabase, dropTestDatabase } from "./test-database";
 
-const url = await createTestDatabase("it");
+declare module "vitest" {
+  export interface ProvidedContext {
+    emptyDatabase?: boolean;
+  }
+}
+
+const url = inject("emptyDatabase") ? await createEmptyDatabase("production") : await createTestDatabase("it");
 process.env.DATABASE_URL = url;
 
 afterAll(async () => {

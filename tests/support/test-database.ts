@@ -21,9 +21,17 @@ async function onMaintenance<T>(work: (client: pg.Client) => Promise<T>): Promis
 }
 
 /** Creates a database copied from the migrated test template and returns its URL. */
-export async function createTestDatabase(label = "t"): Promise<string> {
-  const template = databaseName(templateUrl);
-  const name = `${template}_${label}_${randomBytes(4).toString("hex")}`;
+export function createTestDatabase(label = "t"): Promise<string> {
+  return createDatabaseFrom(databaseName(templateUrl), label);
+}
+
+/** Creates a database with nothing in it, not even the migrations, and returns its URL. */
+export function createEmptyDatabase(label = "empty"): Promise<string> {
+  return createDatabaseFrom("template0", label);
+}
+
+async function createDatabaseFrom(template: string, label: string): Promise<string> {
+  const name = `${databaseName(templateUrl)}_${label}_${randomBytes(4).toString("hex")}`;
   await onMaintenance((client) => client.query(`create database ${quote(name)} template ${quote(template)}`));
   return withDatabaseName(templateUrl, name);
 }

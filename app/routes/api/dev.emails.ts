@@ -1,13 +1,15 @@
-import { data } from "react-router";
+import { type LoaderFunctionArgs, data } from "react-router";
 import { z } from "zod";
-import type { Route } from "./+types/dev.emails";
 import { linksIn, listCaughtEmails, requireDevInbox } from "~/server/email/dev-inbox.server";
 
 const query = z.object({ to: z.email().max(254) });
 
-/** For tests and scripts: the messages the mail catcher received for one address, newest first. */
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireDevInbox(request);
+/**
+ * For tests and scripts: the messages the mail catcher received for one address, newest first. Typed
+ * without `./+types`: typegen sees this route only when it is run for a demo build.
+ */
+export async function loader({ request, context }: LoaderFunctionArgs) {
+  requireDevInbox(context);
   const parsed = query.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   if (!parsed.success) return data({ error: "Give the recipient as ?to=<address>.", issues: parsed.error.issues }, { status: 400 });
   const emails = await listCaughtEmails({ to: parsed.data.to });

@@ -88,7 +88,7 @@ export function readCookie(request: Request, name: string): string | null {
 }
 
 function cookieAttributes(expires: Date): string {
-  return `HttpOnly; SameSite=Lax; Path=/; Expires=${expires.toUTCString()}${isProduction ? "; Secure" : ""}`;
+  return `HttpOnly; SameSite=Lax; Path=/; Expires=${expires.toUTCString()}${isProduction() ? "; Secure" : ""}`;
 }
 
 export function sessionCookie(token: string, expiresAt: Date): string {

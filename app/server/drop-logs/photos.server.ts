@@ -21,6 +21,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { consume } from "~/server/auth/rate-limit.server";
 import type { Database, Executor } from "~/server/db.server";
 import { ensureDropLog, refuseWhenClosed, type StudentLab } from "./hand-in.server";
+import { environment } from "~/server/env.server";
 
 export const photoTypes = ["image/jpeg", "image/png", "image/webp"] as const;
 export type PhotoType = (typeof photoTypes)[number];
@@ -42,7 +43,7 @@ export class PhotoUploadError extends Error {
 
 /** `STORAGE_DIR`, or `storage/` in the checkout (git-ignored); never under `public/`. */
 export function storageDirectory(): string {
-  return path.resolve(process.env.STORAGE_DIR ?? path.join(process.cwd(), "storage"), "photos");
+  return path.resolve(environment().STORAGE_DIR ?? path.join(process.cwd(), "storage"), "photos");
 }
 
 let storage: ReturnType<typeof createFsFileStorage> | undefined;

@@ -1,36 +1,23 @@
 /**
  * The development inbox: what the local mail catcher received, and previews of every template. It shows
- * sign-in links and invitation tokens, so it is closed whenever real mail goes out, and otherwise open
- * only to signed-in staff (outside production) or with BENCHPOST_DEV_INBOX=1 (the run command and the
- * test harness set it: they serve the production build, so NODE_ENV alone cannot tell them apart).
+ * sign-in links and reset tokens, so it exists only in demo builds (app/routes.ts), answers only to this
+ * machine (the socket's address is loopback; a proxy on this machine would defeat that, so the demo is
+ * never put behind one), and is closed whenever real mail goes out.
  */
-import { and, arrayContains, desc, eq, sql } from "drizzle-orm";
-import { data } from "react-router";
-import { caughtEmails, courseMemberships } from "~/db/schema";
-import { getOptionalUser } from "~/server/auth/access.server";
-import { isProduction } from "~/server/config.server";
+import { arrayContains, desc, eq } from "drizzle-orm";
+import { type RouterContextProvider, data } from "react-router";
+import { caughtEmails } from "~/db/schema";
 import { db } from "~/server/db.server";
+import { isLoopbackAddress } from "~/server/load-context.server";
 import { sendsRealMail } from "./email-transport.server";
 
-async function isSignedInStaff(request: Request): Promise<boolean> {
-  const user = await getOptionalUser(request);
-  if (!user) return false;
-  const staffMembership = await db.query.courseMemberships.findFirst({
-    columns: { id: true },
-    where: and(eq(courseMemberships.userId, user.id), sql`${courseMemberships.role} in ('instructor', 'ta')`, sql`${courseMemberships.removedAt} is null`),
-  });
-  return Boolean(staffMembership);
-}
-
-export async function devInboxAllowed(request: Request): Promise<boolean> {
-  if (sendsRealMail()) return false;
-  if (process.env.BENCHPOST_DEV_INBOX === "1") return true;
-  return !isProduction && (await isSignedInStaff(request));
+export function devInboxAllowed(context: Readonly<RouterContextProvider>): boolean {
+  return !sendsRealMail() && isLoopbackAddress(context.remoteAddress);
 }
 
 /** A 404 rather than a 403: where the inbox is closed, it does not exist. */
-export async function requireDevInbox(request: Request): Promise<void> {
-  if (!(await devInboxAllowed(request))) throw data("Not found", { status: 404 });
+export function requireDevInbox(context: Readonly<RouterContextProvider>): void {
+  if (!devInboxAllowed(context)) throw data("Not found", { status: 404 });
 }
 
 export type CaughtEmail = typeof caughtEmails.$inferSelect;

@@ -1,30 +1,14 @@
 /**
- * Where delivered mail goes: Resend when RESEND_API_KEY is set, otherwise SMTP to the local mail catcher.
+ * Where delivered mail goes: Resend when RESEND_API_KEY is set, otherwise SMTP to SMTP_URL (by default the
+ * local mail catcher).
  * Each transport returns the provider's message id, which the outbox keeps.
  */
 import nodemailer from "nodemailer";
 import { Resend } from "resend";
-import { z } from "zod";
+import { type Environment, environment } from "~/server/env.server";
 
 export type OutgoingEmail = { outboxId: string; to: string; toName: string | null; subject: string; html: string; text: string };
 export type EmailTransport = { name: "resend" | "smtp"; deliver(email: OutgoingEmail): Promise<{ providerMessageId: string }>; close?(): void };
-
-const DEFAULT_FROM = "Benchpost <no-reply@benchpost.localhost>";
-const DEFAULT_SMTP_URL = "smtp://127.0.0.1:1025";
-
-const environmentSchema = z.object({
-  // Empty counts as unset, so that `RESEND_API_KEY=` switches Resend off.
-  RESEND_API_KEY: z
-    .string()
-    .optional()
-    .transform((key) => key || undefined),
-  EMAIL_FROM: z
-    .string()
-    .min(3)
-    .refine((from) => !/[\r\n]/.test(from), "EMAIL_FROM must be one line")
-    .default(DEFAULT_FROM),
-  SMTP_URL: z.url({ protocol: /^smtps?$/ }).default(DEFAULT_SMTP_URL),
-});
 
 /** A failure worth retrying; its message goes into the outbox row's `last_error`. */
 export class EmailDeliveryError extends Error {
@@ -90,12 +74,13 @@ export function smtpTransport(url: string, from: string): EmailTransport {
   };
 }
 
-export function transportFromEnvironment(environment: NodeJS.ProcessEnv = process.env): EmailTransport {
-  const config = environmentSchema.parse(environment);
-  return config.RESEND_API_KEY ? resendTransport(config.RESEND_API_KEY, config.EMAIL_FROM) : smtpTransport(config.SMTP_URL, config.EMAIL_FROM);
+/** Outside production, without SMTP_URL, mail goes to the local catcher. */
+export function transportFromEnvironment(config: Environment = environment()): EmailTransport {
+  if (config.RESEND_API_KEY) return resendTransport(config.RESEND_API_KEY, config.EMAIL_FROM);
+  return smtpTransport(config.SMTP_URL ?? `smtp://127.0.0.1:${config.MAIL_CATCHER_PORT}`, config.EMAIL_FROM);
 }
 
 /** True when mail really leaves the building; the development inbox is never offered then. */
-export function sendsRealMail(environment: NodeJS.ProcessEnv = process.env): boolean {
-  return Boolean(environment.RESEND_API_KEY);
+export function sendsRealMail(): boolean {
+  return Boolean(environment().RESEND_API_KEY);
 }

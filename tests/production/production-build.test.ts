@@ -1,0 +1,136 @@
+/**
+ * The production build, run as a deployment runs it (README, "Run in production"). scripts/test.ts
+ * builds it without the demo into PRODUCTION_CHECK_DIRECTORY just before this file runs. The release
+ * step migrates this file's empty database (twice at once, as two instances would), then the web
+ * server and the worker run with plain node and a production environment. Mail goes to a catcher of
+ * this file's own and is read from its table: a production build has no inbox to read it from.
+ */
+import { execFile, spawn, type ChildProcess } from "node:child_process";
+import { randomUUID } from "node:crypto";
+import { existsSync } from "node:fs";
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { promisify } from "node:util";
+import { arrayContains, eq } from "drizzle-orm";
+import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import { caughtEmails, dropLogVersions } from "~/db/schema";
+import { db } from "~/server/db.server";
+import { linksIn } from "~/server/email/dev-inbox.server";
+import { type MailCatcher, startMailCatcher } from "~/server/email/mail-catcher.server";
+import { PRODUCTION_CHECK_DIRECTORY } from "../../scripts/lib/build";
+import { createAccessFixture } from "../support/access-fixture";
+import { sessionCookieFor } from "../support/app-requests";
+import { freePort, waitForHealth } from "../support/app-server";
+import { waitFor } from "../support/email";
+
+const execute = promisify(execFile);
+const entry = (name: string) => path.join(PRODUCTION_CHECK_DIRECTORY, `${name}.js`);
+/** A production entry point run to its end with plain node, bounded in time. */
+const runEntry = (name: string, args: string[], env: NodeJS.ProcessEnv) => execute(process.execPath, [entry(name), ...args], { env, timeout: 60_000, encoding: "utf8" });
+
+const instructorEmail = "ida.instructor@production.example";
+let baseUrl: string;
+let env: NodeJS.ProcessEnv;
+let storage: string;
+let catcher: MailCatcher;
+const services: ChildProcess[] = [];
+let output = "";
+
+function startService(name: "web" | "worker"): ChildProcess {
+  // The node binary itself, not npm, so that the PID we hold is the process's own and we can stop it.
+  const child = spawn(process.execPath, [entry(name)], { env, stdio: ["ignore", "pipe", "pipe"] });
+  // Kept quiet, and shown only when a test fails.
+  for (const stream of [child.stdout, child.stderr]) stream?.on("data", (chunk: Buffer) => (output += `[${name}] ${chunk}`));
+  services.push(child);
+  return child;
+}
+
+beforeAll(async () => {
+  if (!existsSync(entry("web"))) throw new Error(`Build production into ${PRODUCTION_CHECK_DIRECTORY} first (npm test does).`);
+  storage = await mkdtemp(path.join(tmpdir(), "benchpost-production-"));
+  process.env.STORAGE_DIR = storage;
+  const port = await freePort();
+  baseUrl = `http://127.0.0.1:${port}`;
+  // A catcher's port for SMTP_URL before it runs: it writes to tables the release step makes.
+  const mailPort = await freePort();
+  env = {
+    PATH: process.env.PATH,
+    NODE_ENV: "production",
+    PORT: String(port),
+    HOST: "127.0.0.1",
+    APP_URL: baseUrl,
+    TRUST_PROXY: "0",
+    DATABASE_URL: process.env.DATABASE_URL,
+    SMTP_URL: `smtp://127.0.0.1:${mailPort}`,
+    STORAGE_DIR: storage,
+  };
+
+  const releases = await Promise.all([runEntry("migrate", [], env), runEntry("migrate", [], env)]);
+  expect(releases.map((release) => release.stdout.trim())).toEqual(["Database migrated.", "Database migrated."]);
+  catcher = await startMailCatcher({ connectionString: process.env.DATABASE_URL!, port: mailPort, log: () => undefined });
+  startService("worker");
+  await waitForHealth(baseUrl, startService("web"));
+});
+
+afterEach(({ task }) => {
+  if (task.result?.state === "fail") console.error(output);
+});
+
+afterAll(async () => {
+  for (const child of services) {
+    child.kill("SIGTERM");
+    await new Promise((resolve) => (child.exitCode !== null || child.signalCode !== null ? resolve(null) : child.once("exit", resolve)));
+  }
+  await catcher?.close();
+  if (storage) await rm(storage, { recursive: true, force: true });
+});
+
+describe("the production build", () => {
+  it("refuses to start without APP_URL, naming what is missing", async () => {
+    const refused = await runEntry("web", [], { ...env, APP_URL: "" }).catch((error: { code: number; stderr: string }) => error);
+    expect(refused).toMatchObject({ code: 1, stderr: expect.stringContaining("APP_URL: required in production") });
+  });
+
+  it("answers its health check", async () => {
+    const response = await fetch(`${baseUrl}/healthz`);
+    expect(response.status).toBe(200);
+    expect(await response.json()).toMatchObject({ status: "ok", database: { status: "up" } });
+  });
+
+  it("has no development inbox, not even for this machine", async () => {
+    expect((await fetch(`${baseUrl}/dev/inbox`)).status).toBe(404);
+    expect((await fetch(`${baseUrl}/api/dev/emails?to=${instructorEmail}`)).status).toBe(404);
+  });
+
+  it("signs in an instructor made by create-instructor, with a link the worker mailed", async () => {
+    const created = await runEntry("create-instructor", ["--email", instructorEmail, "--name", "Ida Instructor"], env);
+    expect(created.stdout).toContain(`Created the instructor account ${instructorEmail}`);
+
+    const asked = await fetch(`${baseUrl}/sign-in`, { method: "POST", headers: { Origin: baseUrl }, body: new URLSearchParams({ intent: "link", email: instructorEmail }) });
+    expect(asked.status).toBe(200);
+    const message = await waitFor(async () => (await db.select().from(caughtEmails).where(arrayContains(caughtEmails.toAddresses, [instructorEmail])))[0], "the sign-in link");
+    const link = linksIn(message.text).find((url) => url.startsWith(`${baseUrl}/sign-in/link/`));
+    expect(link, "a sign-in link on APP_URL").toBeDefined();
+
+    const signedIn = await fetch(link!, { method: "POST", headers: { Origin: baseUrl }, redirect: "manual" });
+    expect(signedIn.status).toBe(302);
+    const cookie = signedIn.headers.getSetCookie()[0].split(";")[0];
+    const me = await fetch(`${baseUrl}/api/v1/me`, { headers: { Cookie: cookie } });
+    expect(me.status).toBe(200);
+    expect(await me.json()).toMatchObject({ user: { email: instructorEmail, name: "Ida Instructor" } });
+  });
+
+  it("takes a student's hand-in through the API", async () => {
+    const fixture = await createAccessFixture("production");
+    const response = await fetch(`${baseUrl}/api/v1/labs/${fixture.labId}/drop-logs`, {
+      method: "POST",
+      headers: { Cookie: await sessionCookieFor(fixture.userIds.ownStudent), Origin: baseUrl, "Content-Type": "application/json", "Idempotency-Key": randomUUID() },
+      body: JSON.stringify({ sphereId: fixture.sphereId, temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.52, 7.39] }),
+    });
+    expect(response.status).toBe(201);
+    const { version } = (await response.json()) as { version: { id: string } };
+    const stored = await db.select({ dropLogId: dropLogVersions.dropLogId }).from(dropLogVersions).where(eq(dropLogVersions.id, version.id));
+    expect(stored).toEqual([{ dropLogId: fixture.dropLogId }]);
+  });
+});
