@@ -9,9 +9,10 @@ import { encodeBase64 } from "@oslojs/encoding";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import { type EntryContext, type HandleErrorFunction, ServerRouter, isRouteErrorResponse } from "react-router";
+import { type EntryContext, type HandleErrorFunction, type RouterContextProvider, ServerRouter, isRouteErrorResponse } from "react-router";
 import { NonceContext } from "~/components/nonce";
 import { DATABASE_RETRY_AFTER_SECONDS, noteDatabaseOutage } from "~/server/database-outage.server";
+import { logger } from "~/server/log.server";
 import { setDocumentSecurityHeaders } from "~/server/security-headers.server";
 
 export const streamTimeout = 5_000;
@@ -22,7 +23,7 @@ function createNonce(): string {
   return encodeBase64(bytes);
 }
 
-export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
+export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext, loadContext: RouterContextProvider) {
   const nonce = createNonce();
   setDocumentSecurityHeaders(responseHeaders, nonce);
   // The 503 page is a database outage's (see database-outage.server.ts): tell clients when to come back.
@@ -66,7 +67,7 @@ export default function handleRequest(request: Request, responseStatusCode: numb
         onError(error: unknown) {
           responseStatusCode = 500;
           // Errors before the shell is out are logged by React Router's document handler.
-          if (shellRendered) console.error(error);
+          if (shellRendered) logger.error({ err: error, requestId: loadContext.requestId }, "render failed");
         },
       },
     );
@@ -78,5 +79,5 @@ export const handleError: HandleErrorFunction = (error, { request, context }) =>
   if (noteDatabaseOutage(error, { request, context })) return;
   // A thrown 4xx/5xx response carries the original error, when there was one, on its private `error`.
   const cause = isRouteErrorResponse(error) ? (error as { error?: unknown }).error : undefined;
-  if (!request.signal.aborted) console.error(cause ?? error);
+  if (!request.signal.aborted) logger.error({ err: cause ?? error, requestId: context.requestId, method: request.method }, "request failed");
 };

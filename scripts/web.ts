@@ -14,11 +14,28 @@ import compression from "compression";
 import express from "express";
 import type { ServerBuild } from "react-router";
 import { loadContextFor } from "~/server/load-context.server";
+import { logger, requestIdFrom } from "~/server/log.server";
 
 const development = process.argv.includes("--dev");
 const app = express();
 const server = createServer(app);
 app.disable("x-powered-by");
+
+/** Tokens travel in these paths; the log keeps the route, never the token. */
+const loggedPath = (url: string | undefined) => (url ?? "").split("?")[0].replace(/^\/(sign-in\/link|reset-password|invitations)\/[^/]+/, "/$1/:token");
+const requestIds = new WeakMap<object, string>();
+// One log line per request, with its id, which is also sent back as X-Request-Id.
+app.use((request, response, next) => {
+  const header = request.headers["x-request-id"];
+  const requestId = requestIdFrom(Array.isArray(header) ? header[0] : header);
+  requestIds.set(request, requestId);
+  response.setHeader("X-Request-Id", requestId);
+  const started = performance.now();
+  response.on("finish", () => {
+    logger.info({ requestId, method: request.method, path: loggedPath(request.url), status: response.statusCode, ms: Math.round(performance.now() - started) }, "request");
+  });
+  next();
+});
 app.use(compression());
 
 let build: ServerBuild | (() => Promise<ServerBuild>);
@@ -38,10 +55,14 @@ if (development) {
 }
 app.all(
   "*",
-  createRequestHandler({ build, mode: development ? "development" : "production", getLoadContext: (request) => loadContextFor(request.socket.remoteAddress) }),
+  createRequestHandler({ build, mode: development ? "development" : "production", getLoadContext: (request) => loadContextFor(request.socket.remoteAddress, requestIds.get(request)) }),
 );
 
-server.listen(env.PORT, env.HOST, () => console.log(`Web server listening on http://${env.HOST}:${env.PORT}`));
-const stop = () => server.close(() => process.exit(0));
+server.listen(env.PORT, env.HOST, () => logger.info({ host: env.HOST, port: env.PORT }, `Web server listening on http://${env.HOST}:${env.PORT}`));
+// Browsers keep idle connections open: close them, or Ctrl-C would wait for them to time out.
+const stop = () => {
+  server.close(() => process.exit(0));
+  server.closeIdleConnections();
+};
 process.once("SIGINT", stop);
 process.once("SIGTERM", stop);

@@ -6,10 +6,11 @@
 import { env } from "./lib/checked-environment";
 import { startWorker } from "~/server/jobs/worker.server";
 import { transportFromEnvironment } from "~/server/email/email-transport.server";
+import { logger } from "~/server/log.server";
 
 const transport = transportFromEnvironment(env);
 const worker = await startWorker({ connectionString: env.DATABASE_URL, transport });
-console.log(`Worker running; e-mail goes out via ${transport.name}.`);
+logger.info({ transport: transport.name }, `Worker running; e-mail goes out via ${transport.name}.`);
 
 const stop = async () => {
   await worker.stop();

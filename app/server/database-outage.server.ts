@@ -9,6 +9,7 @@
  */
 import { createContext, data, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
+import { logger } from "~/server/log.server";
 
 /** Long enough for a restart or a fail-over to finish, short enough that a retry from a phone soon succeeds. */
 export const DATABASE_RETRY_AFTER_SECONDS = 30;
@@ -37,7 +38,7 @@ export function isDatabaseUnavailable(error: unknown, depth = 0): boolean {
 export function logDatabaseOutage(where: string, error: unknown): void {
   let cause = error;
   while (cause instanceof Error && cause.cause instanceof Error) cause = cause.cause;
-  console.error(`PostgreSQL unreachable (${where}):`, cause instanceof Error ? cause.message : String(cause));
+  logger.error({ where, reason: cause instanceof Error ? cause.message : String(cause) }, "PostgreSQL unreachable");
 }
 
 const requestLine = (request: Request) => `${request.method} ${new URL(request.url).pathname}`;

@@ -6,6 +6,7 @@ import pg from "pg";
 import * as schema from "~/db/schema";
 import { developmentDatabaseUrl } from "../../scripts/lib/database-url";
 import { environment } from "./env.server";
+import { logger } from "~/server/log.server";
 
 export type Database = NodePgDatabase<typeof schema>;
 /** A transaction handle: business changes and the e-mails or jobs they cause share one. */
@@ -21,7 +22,7 @@ export function isUniqueViolation(error: unknown): boolean {
 export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
   const pool = new pg.Pool({ connectionString, max: environment().DATABASE_POOL_SIZE });
   // An idle connection dropped by a database restart must not take the process down; the pool reconnects.
-  pool.on("error", (error) => console.error("PostgreSQL connection lost:", error.message));
+  pool.on("error", (error) => logger.error({ err: error }, "PostgreSQL connection lost"));
   return pool;
 }
 

@@ -35,6 +35,7 @@ const schema = z.object({
   SMTP_URL: z.url({ protocol: /^smtps?$/, error: "must be an smtp:// or smtps:// address" }).optional(),
   MAIL_CATCHER_PORT: port.default(1025),
   STORAGE_DIR: z.string().optional(),
+  LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
 });
 
 const names = Object.keys(schema.shape) as (keyof typeof schema.shape)[];

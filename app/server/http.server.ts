@@ -8,6 +8,7 @@ import type { z } from "zod";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
 import { appUrl, isProduction } from "~/server/config.server";
 import { environment } from "~/server/env.server";
+import { logger } from "~/server/log.server";
 
 /**
  * The client's address. The Request does not carry the socket address (only the load context does), so it
@@ -21,7 +22,7 @@ export function clientIp(request: Request): string | null {
   if (!environment().TRUST_PROXY) {
     if (isProduction() && !warnedAboutProxy) {
       warnedAboutProxy = true;
-      console.warn("TRUST_PROXY=0: client addresses are unknown, so sign-in is rate-limited per account only.");
+      logger.warn("TRUST_PROXY=0: client addresses are unknown, so sign-in is rate-limited per account only.");
     }
     return null;
   }

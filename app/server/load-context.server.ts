@@ -14,12 +14,14 @@ declare module "react-router" {
   interface AppLoadContext {
     /** The socket's remote address as Node reports it ("127.0.0.1", "::1", "::ffff:10.0.0.5"); unset when unknown. */
     remoteAddress?: string;
+    /** The id our web server gave the request (also its X-Request-Id response header), for the logs. */
+    requestId?: string;
   }
   interface RouterContextProvider extends AppLoadContext {}
 }
 
-export function loadContextFor(remoteAddress: string | undefined): RouterContextProvider {
-  return Object.assign(new RouterContextProvider(), { remoteAddress });
+export function loadContextFor(remoteAddress: string | undefined, requestId?: string): RouterContextProvider {
+  return Object.assign(new RouterContextProvider(), { remoteAddress, requestId });
 }
 
 const loopback = new BlockList();

@@ -16,6 +16,8 @@ const FROM = "Benchpost <no-reply@benchpost.example>";
 let catcher: MailCatcher;
 const workers: Worker[] = [];
 const firstWorkerDeliveries = { count: 0 };
+/** The structured fields of each delivery's log line, by the message's line. */
+const deliveryLines: { message: string; fields?: { queue: string; jobId: string } }[] = [];
 
 /** Starts a worker that counts the messages it sent itself. */
 const launchWorker = async (deliveries = { count: 0 }) => {
@@ -23,8 +25,10 @@ const launchWorker = async (deliveries = { count: 0 }) => {
     connectionString: process.env.DATABASE_URL!,
     transport: smtpTransport(`smtp://127.0.0.1:${catcher.port}`, FROM),
     pollingIntervalSeconds: 0.5,
-    log: (message) => {
-      if (message.includes(": sent via")) deliveries.count++;
+    log: (message, fields) => {
+      if (!message.includes(": sent via")) return;
+      deliveries.count++;
+      deliveryLines.push({ message, fields });
     },
   });
   workers.push(worker);
@@ -79,6 +83,9 @@ describe("delivery through the local mail catcher", () => {
     expect(email.text).toContain("a teaching assistant");
     expect(email.links).toContain("http://localhost:3000/invitations/round-trip");
     expect(row.transport).toBe("smtp");
+    // The worker's log line names the queue and the pg-boss job that delivered it.
+    const [job] = (await db.execute<{ id: string }>(sql`select id from pgboss.job where data->>'outboxId' = ${outboxId}`)).rows;
+    expect(deliveryLines.find((line) => line.message.includes(outboxId))?.fields).toEqual({ queue: "email-delivery", jobId: job.id });
   });
 
   it("delivers to a name with quotes and angle brackets, which nodemailer encodes", async () => {

@@ -41,7 +41,11 @@ function startService(name: "web" | "worker"): ChildProcess {
   // The node binary itself, not npm, so that the PID we hold is the process's own and we can stop it.
   const child = spawn(process.execPath, [entry(name)], { env, stdio: ["ignore", "pipe", "pipe"] });
   // Kept quiet, and shown only when a test fails.
-  for (const stream of [child.stdout, child.stderr]) stream?.on("data", (chunk: Buffer) => (output += `[${name}] ${chunk}`));
+  for (const stream of [child.stdout, child.stderr]) {
+    stream?.setEncoding("utf8");
+    // Each line labelled with its process: pino may write several lines in one chunk.
+    stream?.on("data", (chunk: string) => (output += chunk.split(/(?<=\n)/).map((line) => `[${name}] ${line}`).join("")));
+  }
   services.push(child);
   return child;
 }
@@ -119,6 +123,36 @@ describe("the production build", () => {
     const me = await fetch(`${baseUrl}/api/v1/me`, { headers: { Cookie: cookie } });
     expect(me.status).toBe(200);
     expect(await me.json()).toMatchObject({ user: { email: instructorEmail, name: "Ida Instructor" } });
+  });
+
+  it("logs one JSON line per request with its id, keeps a proxy's id, and never logs a link's token", async () => {
+    const fresh = await fetch(`${baseUrl}/healthz`);
+    const ownId = fresh.headers.get("x-request-id")!;
+    expect(ownId).toMatch(/^[0-9a-f-]{36}$/);
+    const proxied = await fetch(`${baseUrl}/healthz`, { headers: { "X-Request-Id": "proxy-7f3a9c21" } });
+    expect(proxied.headers.get("x-request-id")).toBe("proxy-7f3a9c21");
+    // Text that is not an id is not written into the log.
+    expect((await fetch(`${baseUrl}/healthz`, { headers: { "X-Request-Id": "not an id; <b>" } })).headers.get("x-request-id")).toMatch(/^[0-9a-f-]{36}$/);
+    await fetch(`${baseUrl}/reset-password/secret-token-123`);
+    const lines = () =>
+      output
+        .split("\n")
+        .filter((line) => line.startsWith("[web] {"))
+        .flatMap((line) => {
+          try {
+            return [JSON.parse(line.slice("[web] ".length))];
+          } catch {
+            return []; // a line cut across two chunks
+          }
+        });
+    await waitFor(async () => lines().some((line) => line.path === "/reset-password/:token"), "the request lines");
+    expect(lines()).toEqual(
+      expect.arrayContaining([
+        expect.objectContaining({ level: 30, msg: "request", requestId: ownId, method: "GET", path: "/healthz", status: 200 }),
+        expect.objectContaining({ requestId: "proxy-7f3a9c21", path: "/healthz" }),
+      ]),
+    );
+    expect(output).not.toContain("secret-token-123");
   });
 
   it("takes a student's hand-in through the API", async () => {

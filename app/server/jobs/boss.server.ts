@@ -6,6 +6,7 @@ import { sql } from "drizzle-orm";
 import PgBoss from "pg-boss";
 import type { Transaction } from "~/server/db.server";
 import { developmentDatabaseUrl } from "../../../scripts/lib/database-url";
+import { logger } from "~/server/log.server";
 
 export const queues = {
   /** One job per outbox row: render the message and hand it to the transport. */
@@ -67,7 +68,7 @@ export async function createQueues(boss: PgBoss): Promise<void> {
  */
 export async function installJobQueues(connectionString: string): Promise<void> {
   const boss = createBoss(connectionString, { max: 1, supervise: false, schedule: false });
-  boss.on("error", (error) => console.error("pg-boss (install):", error));
+  boss.on("error", (error) => logger.error({ err: error }, "pg-boss (install)"));
   await boss.start();
   try {
     await createQueues(boss);

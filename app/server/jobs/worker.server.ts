@@ -10,10 +10,13 @@ import type { EmailTransport } from "~/server/email/email-transport.server";
 import type { EmailDeliveryJob } from "~/server/email/send-email.server";
 import { runRereduction, type RereductionJob } from "~/server/kits/rereduce.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
+import { logger } from "~/server/log.server";
 import { createBoss, createQueues, housekeepingCron, queues } from "./boss.server";
 import { sweepExpiredRows } from "./housekeeping.server";
 
 export type Worker = { stop(): Promise<void> };
+/** A log line, with the queue and job id when it concerns one job. */
+export type WorkerLog = (message: string, fields?: { queue: string; jobId: string }) => void;
 
 const describe = (error: unknown) => (error instanceof Error ? error.message : String(error));
 
@@ -27,8 +30,8 @@ function runJobs<Data extends object>(
   boss: PgBoss,
   queue: string,
   pollingIntervalMs: number,
-  handle: (job: PgBoss.Job<Data>) => Promise<void>,
-  log: (message: string) => void,
+  handle: (job: PgBoss.Job<Data>, log: (message: string) => void) => Promise<void>,
+  log: WorkerLog,
 ): () => Promise<void> {
   let stopping = false;
   let wake = () => {};
@@ -48,9 +51,11 @@ function runJobs<Data extends object>(
           await pause();
           continue;
         }
+        const fields = { queue, jobId: job.id };
         try {
-          await handle(job);
+          await handle(job, (message) => log(message, fields));
         } catch (error) {
+          log(`job failed, to be retried: ${describe(error)}`, fields);
           await boss.fail(queue, job.id, { message: describe(error) });
           continue;
         }
@@ -73,9 +78,9 @@ export async function startWorker(options: {
   transport: EmailTransport;
   /** How often an idle worker asks for new jobs. */
   pollingIntervalSeconds?: number;
-  log?: (message: string) => void;
+  log?: WorkerLog;
 }): Promise<Worker> {
-  const log = options.log ?? ((message: string) => console.log(message));
+  const log = options.log ?? ((message, fields) => logger.info(fields ?? {}, message));
   const pool = createPool(options.connectionString);
   // An idle connection dropped by a PostgreSQL restart must not crash the worker; the pool reconnects.
   pool.on("error", (error) => log(`database connection lost: ${error.message}`));
@@ -94,9 +99,9 @@ export async function startWorker(options: {
       boss,
       queues.emailDelivery,
       pollingIntervalMs,
-      async (job) => {
+      async (job, jobLog) => {
         const outcome = await deliverOutboxEmail(database, options.transport, job.data.outboxId);
-        log(`e-mail ${job.data.outboxId}: ${outcome} via ${options.transport.name}`);
+        jobLog(`e-mail ${job.data.outboxId}: ${outcome} via ${options.transport.name}`);
       },
       log,
     ),
@@ -104,9 +109,9 @@ export async function startWorker(options: {
       boss,
       queues.emailGaveUp,
       pollingIntervalMs,
-      async (job) => {
+      async (job, jobLog) => {
         await markEmailFailed(database, job.data.outboxId, "The delivery job was given up without an error message.");
-        log(`e-mail ${job.data.outboxId}: failed after its last retry`);
+        jobLog(`e-mail ${job.data.outboxId}: failed after its last retry`);
       },
       log,
     ),
@@ -115,9 +120,9 @@ export async function startWorker(options: {
       boss,
       queues.classComparison,
       pollingIntervalMs,
-      async (job) => {
+      async (job, jobLog) => {
         const outcome = await relabelLab(database, job.data.labId);
-        log(`class comparison ${job.data.labId}: ${outcome.labelled} labelled, ${outcome.changed} changed`);
+        jobLog(`class comparison ${job.data.labId}: ${outcome.labelled} labelled, ${outcome.changed} changed`);
       },
       log,
     ),
@@ -125,9 +130,9 @@ export async function startWorker(options: {
       boss,
       queues.labReminder,
       pollingIntervalMs,
-      async (job) => {
+      async (job, jobLog) => {
         const outcome = await sendLabReminders(database, job.data);
-        log(`lab ${job.data.labId} reminder ${job.data.offsetHours} h: ${outcome.skipped ? `nothing sent (${outcome.skipped})` : `${outcome.sent} sent`}`);
+        jobLog(`lab ${job.data.labId} reminder ${job.data.offsetHours} h: ${outcome.skipped ? `nothing sent (${outcome.skipped})` : `${outcome.sent} sent`}`);
       },
       log,
     ),
@@ -135,9 +140,9 @@ export async function startWorker(options: {
       boss,
       queues.reductionRevision,
       pollingIntervalMs,
-      async (job) => {
+      async (job, jobLog) => {
         const outcome = await runRereduction(database, job.data.runId);
-        log(`re-reduction ${job.data.runId}: ${outcome.revised} revised, ${outcome.unreducible.length} not reducible`);
+        jobLog(`re-reduction ${job.data.runId}: ${outcome.revised} revised, ${outcome.unreducible.length} not reducible`);
       },
       log,
     ),
@@ -145,9 +150,9 @@ export async function startWorker(options: {
       boss,
       queues.housekeeping,
       pollingIntervalMs,
-      async () => {
+      async (_job, jobLog) => {
         const swept = await sweepExpiredRows(database);
-        log(`housekeeping: ${Object.entries(swept).map(([table, count]) => `${count} ${table}`).join(", ")} swept`);
+        jobLog(`housekeeping: ${Object.entries(swept).map(([table, count]) => `${count} ${table}`).join(", ")} swept`);
       },
       log,
     ),
