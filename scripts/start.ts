@@ -63,13 +63,18 @@ function run(): void {
     ? [startService("web", bin.tsx, ["scripts/web.ts", "--dev"], childEnv), startService("worker", bin.tsx, ["scripts/worker.ts"], childEnv)]
     : [startService("web", "build/web.js", [], childEnv), startService("worker", "build/worker.js", [], childEnv)];
   if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], childEnv));
+  // Ctrl-C reaches every process of the terminal's group at once, so the children also stop on their
+  // own (tsx answers SIGINT with code 130): once we are stopping, their exit codes are no news.
+  let stopping = false;
   const stop = () => {
+    stopping = true;
     for (const service of services) service.kill("SIGTERM");
   };
   process.once("SIGINT", stop);
   process.once("SIGTERM", stop);
   for (const service of services) {
     service.once("exit", (code) => {
+      if (stopping) return;
       if (code) console.error(`A Benchpost process stopped with code ${code}; stopping the others.`);
       stop();
       process.exitCode = code ?? 0;
