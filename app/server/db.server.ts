@@ -22,7 +22,7 @@ export function isUniqueViolation(error: unknown): boolean {
 export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
   const pool = new pg.Pool({ connectionString, max: environment().DATABASE_POOL_SIZE });
   // An idle connection dropped by a database restart must not take the process down; the pool reconnects.
-  pool.on("error", (error) => logger.error({ err: error }, "PostgreSQL connection lost"));
+  pool.on("error", (error) => logger.error({ reason: error.message }, "PostgreSQL connection lost"));
   return pool;
 }
 

@@ -4,8 +4,7 @@
  * (2027-03-28 01:00 UTC, when Irish clocks go from 01:00 GMT to 02:00 IST: timeanddate.com, Dublin).
  */
 import { and, eq, sql } from "drizzle-orm";
-import pg from "pg";
-import { beforeAll, describe, expect, it, vi } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, courses, labCohorts, labExtensions, labs } from "~/db/schema";
 import { extensionInputFor } from "~/lib/labs/extension-input";
 import { wallClockToInstant } from "~/lib/labs/wall-clock";
@@ -19,6 +18,7 @@ import { getLab } from "~/server/labs/labs.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { appOrigin, appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 import { seedMarkingClass } from "../support/marking-class";
+import { countAllStatements } from "../support/count-statements";
 
 let fixture: AccessFixture;
 const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 };
@@ -132,16 +132,6 @@ async function reminderJobs(labId: string) {
   return result.rows.map((row) => ({ offsetHours: row.offset_hours, dueAt: row.due_at, startAfter: new Date(row.start_after).toISOString() }));
 }
 
-/** Every statement sent, through the pool or a transaction's client, begin and commit included. */
-async function countAllStatements<T>(work: () => Promise<T>): Promise<{ statements: number; result: T }> {
-  const spy = vi.spyOn(pg.Client.prototype, "query");
-  try {
-    const result = await work();
-    return { statements: spy.mock.calls.length, result };
-  } finally {
-    spy.mockRestore();
-  }
-}
 
 describe("the extension form's schema", () => {
   const schema = extensionInputFor({ timeZone: "Europe/Dublin", opensAt: dublin("2027-03-20T09:00") });

@@ -8,8 +8,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { TZDate } from "@date-fns/tz";
 import { and, asc, eq } from "drizzle-orm";
-import pg from "pg";
-import { beforeAll, describe, expect, it, vi } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
 import { calibrationUncertainty, fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatureCoefficient } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -18,7 +17,7 @@ import { loadCountedHandIns } from "~/server/comparison/class-comparison.server"
 import { loadStudentMarkRows } from "~/server/marking/mark-rows.server";
 import { HandInRefusedError, ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, previewDropLog, saveDraft } from "~/server/drop-logs/hand-in.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
-import { countStatements } from "../support/count-statements";
+import { countAllStatements, countStatements } from "../support/count-statements";
 import { SECOND_LOT_DENSITY, createTwoLotKit, type TwoLotKit } from "../support/two-lot-kit";
 
 let fixture: AccessFixture;
@@ -294,16 +293,6 @@ describe("idempotent hand-in", () => {
 });
 
 describe("a hand-in's statements", () => {
-  // countStatements sees only the pool's own queries; a transaction's go through its client.
-  async function countAllStatements<T>(work: () => Promise<T>): Promise<{ statements: number; result: T }> {
-    const spy = vi.spyOn(pg.Client.prototype, "query");
-    try {
-      const result = await work();
-      return { statements: spy.mock.calls.length, result };
-    } finally {
-      spy.mockRestore();
-    }
-  }
 
   it("are nine for a new version and six for a repeat, begin and commit included", async () => {
     // At the deadline every hand-in pays per statement, so the budget is pinned here: the lab and the

@@ -21,6 +21,7 @@ import { type MailCatcher, startMailCatcher } from "~/server/email/mail-catcher.
 import { PRODUCTION_CHECK_DIRECTORY } from "../../scripts/lib/build";
 import { createAccessFixture } from "../support/access-fixture";
 import { sessionCookieFor } from "../support/app-requests";
+import { openBrowser } from "../support/browser";
 import { freePort, waitForHealth } from "../support/app-server";
 import { waitFor } from "../support/email";
 
@@ -105,6 +106,17 @@ describe("the production build", () => {
   it("has no development inbox, not even for this machine", async () => {
     expect((await fetch(`${baseUrl}/dev/inbox`)).status).toBe(404);
     expect((await fetch(`${baseUrl}/api/dev/emails?to=${instructorEmail}`)).status).toBe(404);
+    // And in Chromium: the address opens the app's own "nothing here" page, not an inbox.
+    const browser = await openBrowser();
+    try {
+      const page = await browser.context.newPage();
+      const response = await page.goto(`${baseUrl}/dev/inbox`);
+      expect(response?.status()).toBe(404);
+      await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toMatch(/nothing at this address/i);
+      expect(await page.getByText(/inbox/i).count()).toBe(0);
+    } finally {
+      await browser.close();
+    }
   });
 
   it("signs in an instructor made by create-instructor, with a link the worker mailed", async () => {
