@@ -6,7 +6,7 @@
 import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { cohorts, courseMemberships, dropLogVersions, emailOutbox, labCohorts, labReminders, labs, parts, users } from "~/db/schema";
+import { cohorts, courseMemberships, dropLogVersions, emailOutbox, labCohorts, labExtensions, labReminders, labs, parts, users } from "~/db/schema";
 import { labInputFor, newLabFormValues, type LabInput } from "~/lib/labs/lab-input";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
@@ -159,6 +159,22 @@ describe("drafts, publishing and closing", () => {
     expect(await lateOf()).toBe(false);
     await move(new Date(now.getTime() - 30 * 60_000));
     expect(await lateOf()).toBe(true);
+  });
+
+  it("queues the reminders of an extension granted while the lab was a draft when it is published", async () => {
+    const now = new Date(Math.floor(Date.now() / 60_000) * 60_000);
+    const due = new Date(now.getTime() + 72 * HOUR);
+    const extended = new Date(due.getTime() + 96 * HOUR);
+    const input = labForm({ opensAt: wallClock(now), dueAt: wallClock(due), cohortIds: [fixture.cohortId] });
+    const lab = await createLab(db, { access: instructor(), input });
+    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extended, reason: "Learning-support plan" });
+    await updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish", now });
+    expect((await reminderJobs(lab.id)).map((job) => `${job.dueAt} ${job.offsetHours}`)).toEqual([
+      `${due.toISOString()} 48`,
+      `${due.toISOString()} 6`,
+      `${extended.toISOString()} 48`,
+      `${extended.toISOString()} 6`,
+    ]);
   });
 
   it("skips an offset whose time has already passed at publishing", async () => {

@@ -4,7 +4,7 @@
  * in `~/server/drop-logs/`; the reminders' job is in `./lab-reminders.server.ts`.
  */
 import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
-import { cohorts, labCohorts, labs, parts } from "~/db/schema";
+import { cohorts, labCohorts, labExtensions, labs, parts } from "~/db/schema";
 import { allowedPartFields, allowedPartIdsOf, type AllowedPartKind, type LabInput } from "~/lib/labs/lab-input";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -125,8 +125,14 @@ export async function updateLab(
       .returning();
     await setCohorts(tx, labId, input.cohortIds);
     const dueTimeMoved = before.dueAt.getTime() !== lab.dueAt.getTime();
-    const deadlineChanged = dueTimeMoved || !sameOffsets(before.reminderOffsetsHours, lab.reminderOffsetsHours);
-    if (lab.status === "published" && (publishing || deadlineChanged)) await scheduleLabReminders(tx, lab, now);
+    const offsetsChanged = !sameOffsets(before.reminderOffsetsHours, lab.reminderOffsetsHours);
+    if (lab.status === "published" && (publishing || dueTimeMoved || offsetsChanged)) await scheduleLabReminders(tx, lab, now);
+    // Extensions keep their own due times. One granted while the lab was a draft has no reminders
+    // yet, and new offsets need new jobs: queue theirs too (one per distinct extended due time).
+    if (lab.status === "published" && (publishing || offsetsChanged)) {
+      const extended = await tx.selectDistinct({ dueAt: labExtensions.dueAt }).from(labExtensions).where(eq(labExtensions.labId, labId));
+      for (const { dueAt } of extended) await scheduleLabReminders(tx, { ...lab, dueAt }, now);
+    }
     const relabelled = dueTimeMoved ? await recomputeLateness(tx, labId) : 0;
     await recordAudit(tx, {
       action: publishing ? "lab.published" : "lab.updated",
