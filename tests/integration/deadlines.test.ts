@@ -9,7 +9,6 @@ import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { cohorts, courseMemberships, courses, emailOutbox, labCohorts, labExtensions, labReminders, labs, users } from "~/db/schema";
-import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import { insertMany } from "~/server/bulk-insert.server";
 import { db } from "~/server/db.server";
 import { queues } from "~/server/jobs/boss.server";
@@ -24,17 +23,13 @@ import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
 import { loadMarkingLab } from "~/server/marking/marking-lab.server";
 import { saveRubric } from "~/server/marking/rubrics.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { dublin } from "../support/dublin-time";
 import { appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countStatements } from "../support/count-statements";
 
 const HOUR = 3_600_000;
 let fixture: AccessFixture;
 
-function dublin(wall: string): Date {
-  const result = wallClockToInstant(wall, "Europe/Dublin");
-  if (!result.ok) throw new Error(`not a Dublin wall-clock time: ${wall}`);
-  return result.instant;
-}
 // The class is due on the Friday before the change, still in summer time (UTC+1).
 const classDue = dublin("2027-10-29T17:00");
 // The extension is due on the Monday after it, in winter time (UTC+0).

@@ -7,7 +7,6 @@ import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, courses, labCohorts, labExtensions, labs } from "~/db/schema";
 import { extensionInputFor } from "~/lib/labs/extension-input";
-import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { HandInRefusedError, handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
@@ -16,17 +15,13 @@ import { queues } from "~/server/jobs/boss.server";
 import { ExtensionRuleError, getExtensionsPage, listExtensions, removeExtension, setExtensions } from "~/server/labs/extensions.server";
 import { getLab } from "~/server/labs/labs.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { dublin } from "../support/dublin-time";
 import { appOrigin, appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
 import { seedMarkingClass } from "../support/marking-class";
 import { countAllStatements } from "../support/count-statements";
 
 let fixture: AccessFixture;
 const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 };
-function dublin(wall: string): Date {
-  const result = wallClockToInstant(wall, "Europe/Dublin");
-  if (!result.ok) throw new Error(`not a Dublin wall-clock time: ${wall}`);
-  return result.instant;
-}
 // The class is due at 00:30 local on the night the clocks change (still GMT), with no late hand-ins.
 const classDue = dublin("2027-03-28T00:30");
 // The extension is due at 09:00 local the same morning, which is already IST (UTC+1): 08:00 UTC.
