@@ -807,7 +807,7 @@ export const labExtensions = pgTable(
     membershipId: uuid("membership_id").references(() => courseMemberships.id, { onDelete: "cascade" }),
     cohortId: uuid("cohort_id").references(() => cohorts.id, { onDelete: "cascade" }),
     dueAt: timestamp("due_at", { withTimezone: true }).notNull(),
-    /** Null: no late hand-ins after the extended due time. */
+    /** Null: the lab's cut-off when it comes after the extended due time, else no late hand-ins. */
     lateCutoffAt: timestamp("late_cutoff_at", { withTimezone: true }),
     /** Shown to staff only: a student sees their own times, never why. */
     reason: text("reason").notNull(),

@@ -99,6 +99,15 @@ describe("hand-ins under an extension", () => {
     const context = await loadStudentLab(db, studentAccess(), lab.id);
     expect(context.window).toMatchObject({ dueAt: extendedDue, lateCutoffAt: cutoff, extendedBy: "student" });
   });
+
+  it("keeps the class's later cut-off for an extension without one, in SQL as in the hand-in", async () => {
+    const classCutoff = dublin("2027-04-02T17:00");
+    const lab = await createLab({ lateCutoffAt: classCutoff });
+    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extendedDue, reason: "Illness" });
+    const row = (await listLabsForMember(db, studentAccess())).find((candidate) => candidate.id === lab.id);
+    expect(row?.lateCutoffAt && new Date(row.lateCutoffAt).toISOString()).toBe(classCutoff.toISOString());
+    expect((await loadStudentLab(db, studentAccess(), lab.id)).window).toMatchObject({ dueAt: extendedDue, lateCutoffAt: classCutoff });
+  });
 });
 
 type Staff = "instructor" | "assignedTa" | "unassignedTa";
@@ -139,7 +148,7 @@ describe("the extension form's schema", () => {
 
   it("refuses a cut-off before the due time, a due time before the lab opens, a missing reason and a skipped local time", () => {
     expect(issuesOf({ intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-03-28T09:00", lateCutoffAt: "2027-03-28T08:59", reason })).toEqual([
-      "lateCutoffAt: The late cut-off cannot come before the new due time; leave it empty for no late hand-ins.",
+      "lateCutoffAt: The late cut-off cannot come before the new due time; give it the new due time for no late hand-ins.",
     ]);
     expect(issuesOf({ intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-03-20T09:00", reason })).toEqual(["dueAt: The new due time must come after the lab opens."]);
     expect(issuesOf({ intent: "extend-students", membershipIds: [fixture.membershipIds.ownStudent], dueAt: "2027-03-28T09:00", reason: "  " })[0]).toMatch(/^reason: /);

@@ -17,7 +17,7 @@ export function ExtensionWindowFields({ timeZone, values = {}, errors = {} }: { 
         defaultValue={values.lateCutoffAt ?? ""}
         timeZone={timeZone}
         errors={errors}
-        hint="Empty: no late hand-ins after the new due time."
+        hint="Empty: late hand-ins until the class's cut-off if it is later, otherwise none. The new due time here: none after it."
       />
       <TextAreaField
         label="Reason"

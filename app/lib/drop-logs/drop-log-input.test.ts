@@ -68,6 +68,16 @@ describe("effectiveHandInWindow", () => {
     expect(handInTiming(window, new Date("2027-04-01T12:00:00Z"))).toBe("on-time");
     expect(handInTiming(window, new Date("2027-04-04T22:00:00Z"))).toBe("closed");
   });
+  it("keeps the class's later cut-off for an extension without one, and none when the class's comes first", () => {
+    const classWithCutoff = { ...lab, lateCutoffAt: new Date("2027-04-06T22:59:00Z") };
+    const extended = effectiveHandInWindow(classWithCutoff, { student });
+    expect(extended.lateCutoffAt).toEqual(classWithCutoff.lateCutoffAt);
+    expect(handInTiming(extended, new Date("2027-04-05T12:00:00Z"))).toBe("late");
+    const pastTheClassCutoff = effectiveHandInWindow(classWithCutoff, { student: { dueAt: new Date("2027-04-08T21:59:00Z"), lateCutoffAt: null } });
+    expect(pastTheClassCutoff.lateCutoffAt).toBeNull();
+    // Its own cut-off wins, even one at the new due time itself.
+    expect(effectiveHandInWindow(classWithCutoff, { student: { ...student, lateCutoffAt: student.dueAt } }).lateCutoffAt).toEqual(student.dueAt);
+  });
   it("uses the cohort's extension, late window included", () => {
     const window = effectiveHandInWindow(lab, { cohort, student: null });
     expect(window.extendedBy).toBe("cohort");

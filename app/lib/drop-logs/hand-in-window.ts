@@ -61,6 +61,9 @@ export type EffectiveHandInWindow = HandInWindow & { extendedBy: "student" | "co
 /**
  * The window that decides one student's hand-ins: their own extension, else their cohort's, else the
  * lab's. Every deadline decision (late, cut-off, reminders, the "on time" criterion, "missing") reads it.
+ * An extension without a cut-off of its own keeps the class's cut-off when that comes later, so an
+ * extended student can never be shut out while the rest of the class may still hand in late; to end
+ * late hand-ins at the new due time, give the cut-off that same time.
  */
 export function effectiveHandInWindow(
   lab: HandInWindow,
@@ -68,5 +71,6 @@ export function effectiveHandInWindow(
 ): EffectiveHandInWindow {
   const chosen = extensions.student ?? extensions.cohort ?? null;
   if (!chosen) return { ...lab, extendedBy: null };
-  return { opensAt: lab.opensAt, dueAt: chosen.dueAt, lateCutoffAt: chosen.lateCutoffAt, extendedBy: extensions.student ? "student" : "cohort" };
+  const classCutoffLater = lab.lateCutoffAt && lab.lateCutoffAt.getTime() > chosen.dueAt.getTime() ? lab.lateCutoffAt : null;
+  return { opensAt: lab.opensAt, dueAt: chosen.dueAt, lateCutoffAt: chosen.lateCutoffAt ?? classCutoffLater, extendedBy: extensions.student ? "student" : "cohort" };
 }

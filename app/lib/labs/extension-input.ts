@@ -27,7 +27,7 @@ export function extensionInputFor(lab: { timeZone: string; opensAt: Date }) {
       context.addIssue({ code: "custom", path: ["dueAt"], message: "The new due time must come after the lab opens." });
     }
     if (window.lateCutoffAt && window.lateCutoffAt.getTime() < window.dueAt.getTime()) {
-      context.addIssue({ code: "custom", path: ["lateCutoffAt"], message: "The late cut-off cannot come before the new due time; leave it empty for no late hand-ins." });
+      context.addIssue({ code: "custom", path: ["lateCutoffAt"], message: "The late cut-off cannot come before the new due time; give it the new due time for no late hand-ins." });
     }
   };
   return z.discriminatedUnion(

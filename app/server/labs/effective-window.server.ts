@@ -17,7 +17,10 @@ export function effectiveWindowJoin(aliases: { lab: string; member: string; as: 
   const { lab, member, as } = aliases;
   return sql.raw(`left join lateral (
       select coalesce(es.due_at, ec.due_at, ${lab}.due_at) as due_at,
-        case when es.id is not null then es.late_cutoff_at when ec.id is not null then ec.late_cutoff_at else ${lab}.late_cutoff_at end as late_cutoff_at,
+        -- Without a cut-off of its own, an extension keeps the class's when that comes later.
+        case when es.id is not null then coalesce(es.late_cutoff_at, case when ${lab}.late_cutoff_at > es.due_at then ${lab}.late_cutoff_at end)
+          when ec.id is not null then coalesce(ec.late_cutoff_at, case when ${lab}.late_cutoff_at > ec.due_at then ${lab}.late_cutoff_at end)
+          else ${lab}.late_cutoff_at end as late_cutoff_at,
         case when es.id is not null then 'student' when ec.id is not null then 'cohort' end as extended_by,
         coalesce(es.reason, ec.reason) as reason
       from (select 1) as one
