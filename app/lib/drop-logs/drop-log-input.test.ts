@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { dropLogInput, parseTypedNumber } from "./drop-log-input";
+import { parseTypedNumber } from "~/lib/forms/typed-number";
+import { dropLogInput } from "./drop-log-input";
 import { effectiveHandInWindow, handInTiming } from "./hand-in-window";
 
 describe("typed numbers", () => {

@@ -5,25 +5,12 @@
  */
 import { z } from "zod";
 import { storableText } from "~/lib/forms/storable-text";
+import { typedNumber as typed } from "~/lib/forms/typed-number";
 
 /** Drop times outside this range are typing slips, not measurements (a 20 cm fall in syrup takes seconds). */
 export const SHORTEST_DROP_S = 0.05;
 export const LONGEST_DROP_S = 600;
 export const MAX_DROPS = 200;
-
-/**
- * Numbers as people type them: blank means "not given", a decimal comma (as spreadsheets in much of
- * Europe copy it) counts as a point, anything else that is not a number stays NaN so zod names the row.
- */
-export function parseTypedNumber(value: unknown): unknown {
-  if (typeof value !== "string") return value;
-  const trimmed = value.trim();
-  if (trimmed === "") return undefined;
-  const normalised = /^[-+]?\d+,\d+$/.test(trimmed) ? trimmed.replace(",", ".") : trimmed;
-  return /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(normalised) ? Number(normalised) : Number.NaN;
-}
-
-const typed = <T extends z.ZodType>(schema: T) => z.preprocess(parseTypedNumber, schema);
 
 const dropTime = typed(
   z
