@@ -1,33 +1,19 @@
+import type { FieldMetadata } from "@conform-to/react";
 import { SelectField, TextField } from "~/components/ui/field";
-import { partBiasAlphas } from "~/lib/courses/course-input";
+import { partBiasAlphas, type CourseInput } from "~/lib/courses/course-input";
+
+type CourseFieldset = { [Key in keyof CourseInput]: FieldMetadata<unknown, Record<string, unknown>, string[]> };
 
 /** The course's own fields, shared by this page and the settings page. */
-export function CourseFields({
-  values,
-  errors,
-  timeZones,
-}: {
-  values: Record<string, string | number | null | undefined>;
-  errors: Record<string, string[] | undefined>;
-  timeZones: string[];
-}) {
-  const text = (name: string) => (values[name] === null || values[name] === undefined ? "" : String(values[name]));
+export function CourseFields({ fields, timeZones }: { fields: CourseFieldset; timeZones: string[] }) {
   return (
     <>
-      <TextField label="Title" name="title" required defaultValue={text("title")} error={errors.title} />
+      <TextField label="Title" field={fields.title} required />
       <div className="grid gap-4 sm:grid-cols-2">
-        <TextField label="Course code" name="code" required defaultValue={text("code")} error={errors.code} hint="As in the institution's catalogue." />
-        <TextField label="Term" name="term" required defaultValue={text("term")} error={errors.term} placeholder="2027 Spring" />
+        <TextField label="Course code" field={fields.code} required hint="As in the institution's catalogue." />
+        <TextField label="Term" field={fields.term} required placeholder="2027 Spring" />
       </div>
-      <TextField
-        label="Time zone"
-        name="timeZone"
-        required
-        list="time-zones"
-        defaultValue={text("timeZone") || "Europe/Dublin"}
-        error={errors.timeZone}
-        hint="Opening and due times are entered and shown in this zone."
-      />
+      <TextField label="Time zone" field={fields.timeZone} required list="time-zones" hint="Opening and due times are entered and shown in this zone." />
       <datalist id="time-zones">
         {timeZones.map((zone) => (
           <option key={zone} value={zone} />
@@ -36,17 +22,13 @@ export function CourseFields({
       <TextField
         label="Local gravity"
         unit="m/s²"
-        name="localGravity"
+        field={fields.localGravity}
         inputMode="decimal"
-        defaultValue={text("localGravity")}
-        error={errors.localGravity}
         hint="Leave empty to use standard gravity, 9.80665 m/s²."
       />
       <SelectField
         label="Kit-part bias test, α"
-        name="partBiasAlpha"
-        defaultValue={String(values.partBiasAlpha ?? 0.05)}
-        error={errors.partBiasAlpha}
+        field={fields.partBiasAlpha}
         hint="A sphere, fluid lot or column whose results sit off the class over three or more hand-ins is flagged for re-measurement when a t-test rejects “no bias” at this level. Smaller flags fewer parts."
       >
         {partBiasAlphas.map((alpha) => (

@@ -1,4 +1,5 @@
 import type { Route } from "./+types/courses.$courseId.audit";
+import { formatDateTime } from "~/lib/format-date";
 import { PageHeader } from "~/components/ui/page-header";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { listCourseAudit } from "~/server/audit.server";
@@ -51,7 +52,7 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
             {events.map((event) => (
               <tr key={event.id} className="align-top">
                 <td className="whitespace-nowrap px-3 py-2">
-                  <time dateTime={new Date(event.createdAt).toISOString()}>{formatInZone(event.createdAt, course.timeZone)}</time>
+                  <time dateTime={new Date(event.createdAt).toISOString()}>{formatDateTime(event.createdAt, course.timeZone, "seconds")}</time>
                 </td>
                 <td className="px-3 py-2">{event.actorName ?? "—"}</td>
                 <td className="px-3 py-2">{actionWords[event.action] ?? event.action}</td>
@@ -66,10 +67,6 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
       </div>
     </div>
   );
-}
-
-function formatInZone(value: Date | string, timeZone: string): string {
-  return new Date(value).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone });
 }
 
 export function meta({ data }: Route.MetaArgs) {

@@ -1,3 +1,4 @@
+import { formatDateTime } from "~/lib/format-date";
 import { useEffect } from "react";
 import { data, Form, Link, redirect, useNavigation, useRevalidator, useSearchParams } from "react-router";
 import { z } from "zod";
@@ -377,7 +378,7 @@ function History({ events, courseId, timeZone }: { events: StoredPart["events"];
                   </>
                 ) : null}{" "}
                 by {event.actor?.name ?? "a former member"},{" "}
-                <time dateTime={new Date(event.createdAt).toISOString()}>{new Date(event.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone })}</time>
+                <time dateTime={new Date(event.createdAt).toISOString()}>{formatDateTime(event.createdAt, timeZone)}</time>
               </p>
               {event.note ? <p className="mt-1 text-ink-700">“{event.note}”</p> : null}
               {changed.length ? (
@@ -424,7 +425,7 @@ function RereductionList({ runs, timeZone }: { runs: RereductionProgress[]; time
       <ul className="flex flex-col gap-1 text-sm" aria-live="polite">
         {runs.map((run) => (
           <li key={run.id} data-testid="rereduction-progress">
-            <time dateTime={run.createdAt}>{new Date(run.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone })}</time>: {run.done} of {run.total} hand-ins recomputed
+            <time dateTime={run.createdAt}>{formatDateTime(run.createdAt, timeZone)}</time>: {run.done} of {run.total} hand-ins recomputed
             {run.finishedAt ? " — finished; the class comparison is relabelled." : " — running…"}
           </li>
         ))}

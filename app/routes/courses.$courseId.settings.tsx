@@ -1,3 +1,4 @@
+import { getFormProps, useForm } from "@conform-to/react";
 import { data, Form, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.settings";
@@ -7,16 +8,17 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { cohortName, courseInput } from "~/lib/courses/course-input";
-import { fieldErrors, formFailure, formValues, type FieldErrorMap } from "~/lib/forms/parse-form";
+import { formList, parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
-import { CourseRuleError, addCohort, getCourseWithCohorts, renameCohort, setTaCohorts, updateCourse } from "~/server/courses/courses.server";
+import { addCohort, getCourseWithCohorts, renameCohort, setTaCohorts, updateCourse } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 
 const settingsIntent = z.discriminatedUnion("intent", [
   courseInput.extend({ intent: z.literal("course") }),
   z.object({ intent: z.literal("add-cohort"), name: cohortName }),
   z.object({ intent: z.literal("rename-cohort"), cohortId: z.uuid(), name: cohortName }),
-  z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: z.array(z.uuid()) }),
+  z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: formList(z.uuid()) }),
 ]);
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -26,36 +28,36 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { ...details, timeZones: Intl.supportedValuesOf("timeZone") };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
-  const form = await request.formData();
-  const values = formValues(form);
-  const parsed = settingsIntent.safeParse({ ...values, cohortIds: form.getAll("cohortIds") });
-  if (!parsed.success) return formFailure(values, fieldErrors(parsed.error), { intent: values.intent });
+  const submission = parseSubmission(formData, settingsIntent);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const courseId = access.course.id;
   const actorId = access.user.id;
-  try {
-    const input = parsed.data;
-    if (input.intent === "course") {
-      const { intent: _intent, ...course } = input;
-      await updateCourse(db, { courseId, actorId, input: course });
-    } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
-    else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
-    else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
-    return { intent: input.intent, saved: true as const };
-  } catch (error) {
-    if (error instanceof CourseRuleError) return data({ intent: values.intent, errors: { form: [error.message] } as FieldErrorMap, values }, { status: error.status });
-    throw error;
-  }
-}
+  const input = submission.value;
+  if (input.intent === "course") {
+    const { intent: _intent, ...course } = input;
+    await updateCourse(db, { courseId, actorId, input: course });
+  } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
+  else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
+  else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
+  return { intent: input.intent, saved: true as const };
+});
 
 export default function CourseSettings({ loaderData, actionData }: Route.ComponentProps) {
   const { course, cohorts, tas, timeZones } = loaderData;
   const [search] = useSearchParams();
   const navigation = useNavigation();
-  const failed = actionData && "errors" in actionData ? actionData : null;
-  const failedFor = (intent: string) => (failed?.intent === intent ? failed : null);
-  const courseFailure = failedFor("course");
+  const { createdAt: _createdAt, ...courseValues } = course;
+  const [courseForm, courseFields] = useForm({
+    id: "course",
+    lastResult: replyFor(actionData, "course"),
+    defaultValue: { ...courseValues, localGravity: course.localGravity === null ? "" : String(course.localGravity), partBiasAlpha: String(course.partBiasAlpha) },
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, settingsIntent),
+  });
+  const [addForm, addFields] = useForm({ id: "add-cohort", lastResult: replyFor(actionData, "add-cohort") });
+  const renameErrors = replyFor(actionData, "rename-cohort")?.error;
   return (
     <div className="flex flex-col gap-10">
       <PageHeader title="Course settings" />
@@ -68,10 +70,10 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
         <h2 id="course-heading" className="mb-3 text-lg font-semibold">
           The course
         </h2>
-        <Form method="post" className="flex flex-col gap-4">
+        <Form method="post" className="flex flex-col gap-4" {...getFormProps(courseForm)}>
           <input type="hidden" name="intent" value="course" />
-          {courseFailure?.errors.form ? <Notice tone="error">{courseFailure.errors.form.join(" ")}</Notice> : null}
-          <CourseFields values={courseFailure?.values ?? { ...course, createdAt: null }} errors={courseFailure?.errors ?? {}} timeZones={timeZones} />
+          {courseForm.errors?.length ? <Notice tone="error">{courseForm.errors.join(" ")}</Notice> : null}
+          <CourseFields fields={courseFields} timeZones={timeZones} />
           <Button type="submit" disabled={navigation.state === "submitting"}>
             Save the course
           </Button>
@@ -82,9 +84,7 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
         <h2 id="cohorts-heading" className="mb-3 text-lg font-semibold">
           Cohorts
         </h2>
-        {failedFor("rename-cohort")?.errors.form || failedFor("rename-cohort")?.errors.name ? (
-          <Notice tone="error">{[...(failedFor("rename-cohort")?.errors.form ?? []), ...(failedFor("rename-cohort")?.errors.name ?? [])].join(" ")}</Notice>
-        ) : null}
+        {renameErrors ? <Notice tone="error">{Object.values(renameErrors).flat().join(" ")}</Notice> : null}
         <ul className="flex flex-col gap-2">
           {cohorts.map((cohort) => (
             <li key={cohort.id}>
@@ -101,17 +101,10 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
             </li>
           ))}
         </ul>
-        <Form method="post" className="mt-4 flex items-end gap-2">
+        <Form method="post" className="mt-4 flex items-end gap-2" {...getFormProps(addForm)}>
           <input type="hidden" name="intent" value="add-cohort" />
           <div className="flex-1">
-            <TextField
-              label="New cohort"
-              name="name"
-              placeholder="e.g. Friday bench"
-              required
-              defaultValue={failedFor("add-cohort")?.values.name ?? ""}
-              error={[...(failedFor("add-cohort")?.errors.name ?? []), ...(failedFor("add-cohort")?.errors.form ?? [])]}
-            />
+            <TextField label="New cohort" field={addFields.name} placeholder="e.g. Friday bench" required />
           </div>
           <Button type="submit">Add cohort</Button>
         </Form>

@@ -1,3 +1,4 @@
+import { getFormProps, useForm } from "@conform-to/react";
 import { data, Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/courses.new";
 import { CourseFields } from "~/components/course-fields";
@@ -5,10 +6,11 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { courseInput } from "~/lib/courses/course-input";
-import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
+import { parseSubmission } from "~/lib/forms/submission";
 import { requireUser } from "~/server/auth/access.server";
-import { CourseRuleError, createCourse } from "~/server/courses/courses.server";
+import { createCourse } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 
 async function requireCourseCreator(request: Request) {
   const user = await requireUser(request);
@@ -21,30 +23,28 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { timeZones: Intl.supportedValuesOf("timeZone") };
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export const action = formAction(async ({ request, formData }: Route.ActionArgs & { formData: FormData }) => {
   const user = await requireCourseCreator(request);
-  const form = await request.formData();
-  const parsed = courseInput.safeParse(formValues(form));
-  if (!parsed.success) return formFailure(formValues(form), fieldErrors(parsed.error));
-  try {
-    const course = await createCourse(db, { actorId: user.id, input: parsed.data });
-    return redirect(`/courses/${course.id}/settings?created=1`);
-  } catch (error) {
-    if (error instanceof CourseRuleError) return formFailure(formValues(form), { code: [error.message] });
-    throw error;
-  }
-}
+  const submission = parseSubmission(formData, courseInput);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const course = await createCourse(db, { actorId: user.id, input: submission.value });
+  return redirect(`/courses/${course.id}/settings?created=1`);
+});
 
 export default function NewCourse({ loaderData, actionData }: Route.ComponentProps) {
   const navigation = useNavigation();
-  const values = actionData?.values ?? {};
-  const errors = actionData?.errors ?? {};
+  const [form, fields] = useForm({
+    lastResult: actionData,
+    defaultValue: { timeZone: "Europe/Dublin", partBiasAlpha: "0.05" },
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, courseInput),
+  });
   return (
     <div className="max-w-xl">
       <PageHeader title="Open a new course" trail={[{ to: "/", label: "Overview" }]} />
-      {actionData ? <Notice tone="error">Some fields need another look.</Notice> : null}
-      <Form method="post" className="mt-4 flex flex-col gap-4">
-        <CourseFields values={values} errors={errors} timeZones={loaderData.timeZones} />
+      {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : actionData ? <Notice tone="error">Some fields need another look.</Notice> : null}
+      <Form method="post" className="mt-4 flex flex-col gap-4" {...getFormProps(form)}>
+        <CourseFields fields={fields} timeZones={loaderData.timeZones} />
         <Button type="submit" disabled={navigation.state === "submitting"}>
           Open the course
         </Button>

@@ -3,11 +3,12 @@
  * pages: the reason staff gave shows on hover and to screen readers. Nothing for a student on the
  * lab's own times. Short, for table cells; the course's zone is the page's.
  */
+import { formatDateTime } from "~/lib/format-date";
 import type { StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 
 export function ExtendedTo({ deadline, timeZone }: { deadline: StudentDeadline; timeZone: string }) {
   if (!deadline.extendedBy) return null;
-  const when = new Intl.DateTimeFormat("en-GB", { timeZone, weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" }).format(new Date(deadline.dueAt));
+  const when = formatDateTime(deadline.dueAt, timeZone, "short");
   const whose = deadline.extendedBy === "cohort" ? "cohort's extension" : "own extension";
   const reason = deadline.extensionReason ? `: ${deadline.extensionReason}` : "";
   return (

@@ -1,6 +1,7 @@
 /**
  * Courses and their cohorts: creating them, their settings, and which TA marks which cohort.
  */
+import { AppError } from "~/lib/app-error";
 import { and, asc, count, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, kitEvents, kits, taCohortAssignments, users } from "~/db/schema";
 import type { CourseInput } from "~/lib/courses/course-input";
@@ -11,20 +12,10 @@ import { isUniqueViolation, type Executor } from "~/server/db.server";
 
 export type Course = typeof courses.$inferSelect;
 
-/** A course change refused, with the status a route answers: 400 by default, 404 when it names something not in the course. */
-export class CourseRuleError extends Error {
-  constructor(
-    message: string,
-    readonly status: 400 | 404 = 400,
-  ) {
-    super(message);
-  }
-}
-
 export async function createCourse(executor: Executor, { actorId, input }: { actorId: string; input: CourseInput }): Promise<Course> {
   return executor.transaction(async (tx) => {
     const clash = await tx.select({ id: courses.id }).from(courses).where(and(eq(courses.code, input.code), eq(courses.term, input.term)));
-    if (clash.length) throw new CourseRuleError(`A course ${input.code} already exists for ${input.term}.`);
+    if (clash.length) throw new AppError({ code: "course_exists", message: `A course ${input.code} already exists for ${input.term}.`, field: "code" });
     const [course] = await tx.insert(courses).values(input).returning();
     await tx.insert(courseMemberships).values({ courseId: course.id, userId: actorId, role: "instructor" });
     await recordAudit(tx, { courseId: course.id, actorId, action: "course.created", subject: `course:${course.id}` });
@@ -38,7 +29,7 @@ export async function updateCourse(executor: Executor, { courseId, actorId, inpu
       .select({ id: courses.id })
       .from(courses)
       .where(and(eq(courses.code, input.code), eq(courses.term, input.term), sql`${courses.id} <> ${courseId}`));
-    if (clash.length) throw new CourseRuleError(`Another course ${input.code} already exists for ${input.term}.`);
+    if (clash.length) throw new AppError({ code: "course_exists", message: `Another course ${input.code} already exists for ${input.term}.`, field: "code" });
     await tx.update(courses).set(input).where(eq(courses.id, courseId));
     await recordAudit(tx, { courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
   });
@@ -46,7 +37,7 @@ export async function updateCourse(executor: Executor, { courseId, actorId, inpu
 
 export async function addCohort(executor: Executor, { courseId, name }: { courseId: string; name: string }): Promise<void> {
   const inserted = await executor.insert(cohorts).values({ courseId, name }).onConflictDoNothing().returning({ id: cohorts.id });
-  if (inserted.length === 0) throw new CourseRuleError(`There is already a cohort called ${name}.`);
+  if (inserted.length === 0) throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
 }
 
 /** Renames one of the course's cohorts; a cohort of another course (or none) is refused with 404 and nothing changes. */
@@ -55,10 +46,10 @@ export async function renameCohort(executor: Executor, { courseId, cohortId, nam
   try {
     renamed = await executor.update(cohorts).set({ name }).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId))).returning({ id: cohorts.id });
   } catch (error) {
-    if (isUniqueViolation(error)) throw new CourseRuleError(`There is already a cohort called ${name}.`);
+    if (isUniqueViolation(error)) throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
     throw error;
   }
-  if (renamed.length === 0) throw new CourseRuleError("There is no such cohort in this course.", 404);
+  if (renamed.length === 0) throw new AppError({ code: "not_found", message: "There is no such cohort in this course.", status: 404 });
 }
 
 /** Replaces the set of cohorts a TA marks, in one transaction. */
@@ -71,11 +62,11 @@ export async function setTaCohorts(
       .select({ role: courseMemberships.role })
       .from(courseMemberships)
       .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)));
-    if (member?.role !== "ta") throw new CourseRuleError("Only teaching assistants are assigned to cohorts.");
+    if (member?.role !== "ta") throw new AppError({ code: "not_a_ta", message: "Only teaching assistants are assigned to cohorts." });
     const known = cohortIds.length
       ? await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.courseId, courseId), inArray(cohorts.id, cohortIds)))
       : [];
-    if (known.length !== cohortIds.length) throw new CourseRuleError("Some of the chosen cohorts are not in this course.");
+    if (known.length !== cohortIds.length) throw new AppError({ code: "unknown_cohort", message: "Some of the chosen cohorts are not in this course.", field: "cohortIds" });
     await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
     if (cohortIds.length) await tx.insert(taCohortAssignments).values(cohortIds.map((cohortId) => ({ membershipId, cohortId })));
     await recordAudit(tx, { courseId, actorId, action: "course.ta_cohorts_changed", subject: `membership:${membershipId}`, detail: { cohortIds } });

@@ -6,6 +6,7 @@
  * student is reminded of their own deadline, never early of the class's. The key of `lab_reminders`
  * (lab, membership, due time, offset) makes a repeat, a retry or a second worker a no-op.
  */
+import { formatDateTime } from "~/lib/format-date";
 import { eq, sql } from "drizzle-orm";
 import { courses, labs } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -41,7 +42,7 @@ export async function scheduleLabReminders(tx: Transaction, lab: { id: string; d
 export type ReminderOutcome = { sent: number; skipped: null | "lab-gone" | "not-published" | "due-time-changed" | "offset-removed" | "past-due" };
 
 function dueAtText(dueAt: Date, timeZone: string): string {
-  const text = new Intl.DateTimeFormat("en-GB", { timeZone, weekday: "short", day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" }).format(dueAt);
+  const text = formatDateTime(dueAt, timeZone, "long");
   return `${text} (${timeZone})`;
 }
 
