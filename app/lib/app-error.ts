@@ -15,6 +15,10 @@ export type AppErrorInit = {
   /** The form field at fault, so that the message stands beside it. */
   field?: string;
   issues?: ErrorIssue[];
+  /** The records a refusal is about when it is not the whole request: the students a bulk action was refused for. */
+  subjectIds?: string[];
+  /** For 429: how long to wait, sent as Retry-After. */
+  retryAfterSeconds?: number;
 };
 
 export class AppError extends Error {
@@ -22,13 +26,17 @@ export class AppError extends Error {
   readonly status: number;
   readonly field: string | undefined;
   readonly issues: ErrorIssue[] | undefined;
+  readonly subjectIds: string[];
+  readonly retryAfterSeconds: number | undefined;
 
-  constructor({ code, message, status = 400, field, issues }: AppErrorInit) {
+  constructor({ code, message, status = 400, field, issues, subjectIds = [], retryAfterSeconds }: AppErrorInit) {
     super(message);
     this.name = "AppError";
     this.code = code;
     this.status = status;
     this.field = field;
     this.issues = issues;
+    this.subjectIds = subjectIds;
+    this.retryAfterSeconds = retryAfterSeconds;
   }
 }

@@ -11,8 +11,9 @@ import { describePart } from "~/lib/kits/describe-part";
 import { kitStateLabels, nextKitStates, partConditions, type KitState } from "~/lib/kits/kit-states";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { canOpenKit, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { KitRuleError, checkInKit, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
+import { checkInKit, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
 
 const note = z.string().trim().max(500).optional();
 const kitAction = z.discriminatedUnion("intent", [
@@ -67,7 +68,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     else await checkInKit(db, { ...base, kitId: kit.id, conditions: input.conditions, remeasure: input.remeasure, note: input.note });
     return { intent: input.intent, saved: true as const };
   } catch (error) {
-    if (error instanceof KitRuleError) return formFailure(values, { form: [error.message] }, { intent: values.intent });
+    if (!(error instanceof AppError)) throw error;
+    return formFailure(values, { form: [error.message] }, { intent: values.intent });
     throw error;
   }
 }

@@ -10,9 +10,10 @@ import { KitStateBadge } from "~/components/kit-state-badge";
 import { pagingSearch, searchText } from "~/lib/forms/search-params";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
 import { kitCohortScope, requireCourseRole, staffRoles } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
-import { KitRuleError, listKits, moveKits } from "~/server/kits/kits.server";
+import { listKits, moveKits } from "~/server/kits/kits.server";
 
 /** Moves that need nothing more than a note can be applied to many kits at once. */
 const bulkTargets = ["at_home", "coming_back", "checked_in", "on_shelf", "retired"] as const;
@@ -49,7 +50,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     });
     return { ok: true as const, message: `${moved} kits moved to ${kitStateLabels[parsed.data.to].toLowerCase()}.` };
   } catch (error) {
-    if (error instanceof KitRuleError) return data({ ok: false as const, message: `Nothing was changed: ${error.message}` }, { status: 400 });
+    if (!(error instanceof AppError)) throw error;
+    return data({ ok: false as const, message: `Nothing was changed: ${error.message}` }, { status: error.status });
     throw error;
   }
 }

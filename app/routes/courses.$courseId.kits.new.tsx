@@ -8,8 +8,9 @@ import { PageHeader } from "~/components/ui/page-header";
 import { partKindLabels } from "~/lib/kits/part-input";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { KitRuleError, createKit, listAvailableParts } from "~/server/kits/kits.server";
+import { createKit, listAvailableParts } from "~/server/kits/kits.server";
 
 const newKit = z.object({
   number: z.string().trim().min(1, "Give the kit the number written on its box.").max(20),
@@ -33,7 +34,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     const kit = await createKit(db, { courseId: access.course.id, actorId: access.user.id, ...parsed.data });
     return redirect(`/courses/${access.course.id}/kits/${kit.id}`);
   } catch (error) {
-    if (error instanceof KitRuleError) return formFailure(values, { form: [error.message] }, { partIds });
+    if (!(error instanceof AppError)) throw error;
+    return formFailure(values, { form: [error.message] }, { partIds });
     throw error;
   }
 }

@@ -14,18 +14,11 @@ import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { MAX_PHOTO_MEGABYTES, MAX_PHOTOS_PER_DROP_LOG } from "~/lib/drop-logs/photo-limits";
 import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
 import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
+import { throwAsResponse } from "~/server/errors.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
-import { HandInRefusedError, getDropLogForStudent, handInDropLog, loadStudentLab, markReleasedMessage, saveDraft } from "~/server/drop-logs/hand-in.server";
-
-async function studentLab(access: CourseAccess, labId: string) {
-  try {
-    return await loadStudentLab(db, access, labId);
-  } catch (error) {
-    if (error instanceof HandInRefusedError) throw data(error.message, { status: error.status });
-    throw error;
-  }
-}
+import { getDropLogForStudent, handInDropLog, loadStudentLab, markReleasedMessage, saveDraft } from "~/server/drop-logs/hand-in.server";
 
 /** The handed-in input as the form's strings, to start from when there is no draft. */
 function draftFromInput(input: DropLogInput): DropLogDraft {
@@ -49,7 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   // This page is the student's bench; staff follow a lab from its hand-in dashboard.
   if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/dashboard`);
   const [context, dropLog, mark] = await Promise.all([
-    studentLab(access, params.labId),
+    loadStudentLab(db, access, params.labId).catch(throwAsResponse(request)),
     getDropLogForStudent(db, { labId: params.labId, membershipId: access.membership.id }),
     loadStudentMark(db, { access, labId: params.labId }),
   ]);
@@ -115,9 +108,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     return data({ errors: { form: ["This form is not one the lab page knows."] } as Record<string, string[]> }, { status: 400 });
   } catch (error) {
     if (error instanceof SyntaxError) return data({ errors: { form: ["The draft could not be read."] } as Record<string, string[]> }, { status: 400 });
-    if (!(error instanceof HandInRefusedError)) throw error;
+    if (!(error instanceof AppError)) throw error;
     const errors: Record<string, string[]> = { form: [error.message] };
-    for (const issue of error.issues) (errors[issue.path.join(".") || "form"] ??= []).push(issue.message);
+    for (const issue of error.issues ?? []) (errors[issue.path.join(".") || "form"] ??= []).push(issue.message);
     return data({ errors }, { status: error.status });
   }
 }

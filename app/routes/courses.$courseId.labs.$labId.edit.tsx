@@ -9,8 +9,9 @@ import { PageHeader } from "~/components/ui/page-header";
 import { fieldErrors, formFailure } from "~/lib/forms/parse-form";
 import { labInputFor, labInputFromForm, storedLabFormValues, submittedLabFormValues } from "~/lib/labs/lab-input";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { LabRuleError, closeLab, getLab, getLabFormOptions, updateLab } from "~/server/labs/labs.server";
+import { closeLab, getLab, getLabFormOptions, updateLab } from "~/server/labs/labs.server";
 
 const labIntent = z.enum(["save", "publish", "close"], { error: "Choose save, publish or close." });
 
@@ -51,7 +52,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     const saved = await updateLab(db, { access, labId: lab.id, input: parsed.data, intent: intent.data, request });
     return { done: intent.data === "publish" ? ("published" as const) : ("saved" as const), status: saved.status };
   } catch (error) {
-    if (error instanceof LabRuleError) return formFailure(values.fields, { [error.field]: [error.message] }, { submitted: values });
+    if (!(error instanceof AppError)) throw error;
+    return formFailure(values.fields, { [error.field ?? "form"]: [error.message] }, { submitted: values });
     throw error;
   }
 }

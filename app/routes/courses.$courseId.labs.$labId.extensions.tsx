@@ -17,8 +17,9 @@ import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { extensionInputFor, extensionInputFromForm } from "~/lib/labs/extension-input";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { ExtensionRuleError, getExtensionsPage, removeExtension, setExtensions, type ExtensionRow } from "~/server/labs/extensions.server";
+import { getExtensionsPage, removeExtension, setExtensions, type ExtensionRow } from "~/server/labs/extensions.server";
 import { getLab } from "~/server/labs/labs.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -54,7 +55,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     return { done: input.intent, count: outcome.extended, dueAt: input.dueAt.toISOString() };
   } catch (error) {
     // The action already let only instructors in, so a refusal here is about the input: 400.
-    if (error instanceof ExtensionRuleError) return formFailure(formValues(form), { [error.field]: [error.message] });
+    if (!(error instanceof AppError)) throw error;
+    return formFailure(formValues(form), { [error.field ?? "form"]: [error.message] });
     throw error;
   }
 }

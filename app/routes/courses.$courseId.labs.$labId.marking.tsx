@@ -13,21 +13,20 @@ import { ButtonLink } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { deskStatusFilters, markingDeskSearch, MAX_BULK_STUDENTS, type DeskStatusFilter } from "~/lib/marking/desk-filters";
-import { markChange, MarkValueError } from "~/lib/marking/marks";
+import { AppError } from "~/lib/app-error";
+import { markChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
 import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
-import { MarkingRefusedError, refusalResponse, requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { throwAsResponse } from "~/server/errors.server";
+import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { applyToMany, saveMark } from "~/server/marking/marks.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
   const url = new URL(request.url);
-  const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch((error) => {
-    // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
-    if (error instanceof MarkingRefusedError) throw refusalResponse(request, error);
-    throw error;
-  });
+  // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
+  const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch(throwAsResponse(request));
   return {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
@@ -68,14 +67,12 @@ export async function action({ request, params }: Route.ActionArgs) {
     const result = await applyToMany(db, { access, labId: lab.id, membershipIds: input.membershipIds, change: input.change, reason: input.reason });
     return { intent: "bulk" as const, status: "applied" as const, changed: result.changed, unchanged: result.unchanged };
   } catch (error) {
-    if (error instanceof MarkingRefusedError || error instanceof MarkValueError) {
-      const refusal = error instanceof MarkingRefusedError ? error : new MarkingRefusedError("invalid_value", error.message, error.field);
-      return data(
-        { intent: input.intent, status: "refused" as const, error: { code: refusal.code, message: refusal.message, field: refusal.field, membershipIds: refusal.membershipIds } },
-        { status: refusal.status },
-      );
-    }
-    throw error;
+    // The desk saves through fetchers and shows a refusal in the student's row, so it answers its own shape.
+    if (!(error instanceof AppError)) throw error;
+    return data(
+      { intent: input.intent, status: "refused" as const, error: { code: error.code, message: error.message, field: error.field ?? "form", membershipIds: error.subjectIds } },
+      { status: error.status },
+    );
   }
 }
 

@@ -1,3 +1,4 @@
+import { getFormProps, useForm, type FieldMetadata } from "@conform-to/react";
 /**
  * Moderation, for a lab's instructors: each marker's totals side by side (count, mean, spread and a
  * histogram on shared bins), adjusting a mark with a reason, closing the marking to TAs, releasing the
@@ -14,11 +15,13 @@ import { SelectField, TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { TableHead } from "~/components/ui/table-head";
-import { formValues } from "~/lib/forms/parse-form";
+import { parseSubmission, replyFor } from "~/lib/forms/submission";
+import { typedNumber } from "~/lib/forms/typed-number";
 import { afterReleaseHandInNames, releaseChoice, releasedCount, type ReleaseCounts } from "~/lib/marking/release";
 import type { MarkChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
-import { MarkingRefusedError, requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { formAction } from "~/server/errors.server";
+import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { saveMark } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
 
@@ -52,7 +55,7 @@ const adjustment = z.object({
   membershipId: z.uuid("Choose the student."),
   expectedVersion: z.coerce.number().int().min(0),
   target: z.string().min(1, "Choose what to adjust."),
-  value: z.coerce.number({ error: "Enter a number." }).finite(),
+  value: typedNumber(z.number({ error: "Enter a number." }).finite()),
   reason: z.string().trim().min(3, "Say why the mark is adjusted: it is kept with the change.").max(500),
 });
 const moderationAction = z.discriminatedUnion("intent", [
@@ -62,39 +65,33 @@ const moderationAction = z.discriminatedUnion("intent", [
   adjustment,
 ]);
 
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
-  const values = formValues(await request.formData());
-  const parsed = moderationAction.safeParse(values);
-  if (!parsed.success) return data({ error: parsed.error.issues[0]?.message ?? "The form cannot be read.", values }, { status: 400 });
-  const input = parsed.data;
-  try {
-    if (input.intent === "ready" || input.intent === "reopen") {
-      await markLabReady(db, { access, lab, ready: input.intent === "ready", request });
-      return { done: input.intent === "ready" ? "Marking is closed to TAs: marks can now be checked and released." : "Marking is open to TAs again." };
-    }
-    if (input.intent === "release") {
-      const { intent: _intent, ...choice } = input;
-      const outcome = await releaseMarks(db, { access, lab, choice, request });
-      return {
-        done: `Released ${plural(outcome.released, "mark")}${outcome.zeros ? ` (${outcome.zeros} of them zero for no hand-in)` : ""} and queued ${plural(outcome.emailed, "e-mail")}${outcome.withheld ? `; ${plural(outcome.withheld, "student")} see nothing yet` : ""}.`,
-      };
-    }
-    const criterion = lab.rubric.find((entry) => `criterion:${entry.id}` === input.target);
-    const change: MarkChange =
-      input.target === "penalty"
-        ? { kind: "latePenalty", points: input.value }
-        : criterion?.kind === "levels"
-          ? { kind: "score", criterionId: criterion.id, level: input.value, points: null }
-          : { kind: "score", criterionId: criterion?.id ?? "", points: input.value, level: null, overrideReason: input.reason };
-    const result = await saveMark(db, { access, labId: lab.id, membershipId: input.membershipId, expectedVersion: input.expectedVersion, change, source: "moderation", reason: input.reason });
-    if (result.status === "conflict") return data({ error: "Someone changed this mark while you were adjusting it: check it again.", values }, { status: 409 });
-    return { done: `${result.row.studentName}'s mark is now ${result.row.total}.` };
-  } catch (error) {
-    if (error instanceof MarkingRefusedError) return data({ error: error.message, values }, { status: error.status });
-    throw error;
+  const submission = parseSubmission(formData, moderationAction);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const input = submission.value;
+  if (input.intent === "ready" || input.intent === "reopen") {
+    await markLabReady(db, { access, lab, ready: input.intent === "ready", request });
+    return { done: input.intent === "ready" ? "Marking is closed to TAs: marks can now be checked and released." : "Marking is open to TAs again." };
   }
-}
+  if (input.intent === "release") {
+    const { intent: _intent, ...choice } = input;
+    const outcome = await releaseMarks(db, { access, lab, choice, request });
+    return {
+      done: `Released ${plural(outcome.released, "mark")}${outcome.zeros ? ` (${outcome.zeros} of them zero for no hand-in)` : ""} and queued ${plural(outcome.emailed, "e-mail")}${outcome.withheld ? `; ${plural(outcome.withheld, "student")} see nothing yet` : ""}.`,
+    };
+  }
+  const criterion = lab.rubric.find((entry) => `criterion:${entry.id}` === input.target);
+  const change: MarkChange =
+    input.target === "penalty"
+      ? { kind: "latePenalty", points: input.value }
+      : criterion?.kind === "levels"
+        ? { kind: "score", criterionId: criterion.id, level: input.value, points: null }
+        : { kind: "score", criterionId: criterion?.id ?? "", points: input.value, level: null, overrideReason: input.reason };
+  const result = await saveMark(db, { access, labId: lab.id, membershipId: input.membershipId, expectedVersion: input.expectedVersion, change, source: "moderation", reason: input.reason });
+  if (result.status === "conflict") return data(submission.reply({ formErrors: ["Someone changed this mark while you were adjusting it: check it again."] }), { status: 409 });
+  return { done: `${result.row.studentName}'s mark is now ${result.row.total}.` };
+});
 
 const plural = (count: number, word: string) => `${count} ${word}${count === 1 ? "" : "s"}`;
 
@@ -119,7 +116,9 @@ function Histogram({ counts, bins, tallest, label }: { counts: number[]; bins: {
 export default function ModerationPage({ loaderData, actionData }: Route.ComponentProps) {
   const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, needsRemarking, release, resultChanged, marked, changes } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const failed = actionData && "error" in actionData ? actionData : null;
+  const refusal = actionData && "status" in actionData ? actionData : undefined;
+  const typed = refusal?.initialValue as Record<string, string> | undefined;
+  const [adjustForm, adjustFields] = useForm({ id: "adjust", lastResult: replyFor(actionData, "adjust"), shouldValidate: "onBlur", onValidate: ({ formData }) => parseSubmission(formData, adjustment) });
   const tallest = Math.max(1, ...markers.flatMap((marker) => marker.histogram), ...overall.histogram);
   const names = new Map(lab.rubric.map((criterion) => [criterion.id, criterion.title]));
   return (
@@ -128,7 +127,7 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
         Moderation · {students} students · {progress.marked} fully marked, {progress.partial} partly, {progress.unmarked} not yet
       </PageHeader>
       {actionData && "done" in actionData ? <Notice tone="success">{actionData.done}</Notice> : null}
-      {failed ? <Notice tone="error">{failed.error}</Notice> : null}
+      {refusal && typed?.intent !== "adjust" ? <Notice tone="error">{Object.values(refusal.error ?? {}).flat().join(" ")}</Notice> : null}
       {resultChanged.length ? (
         <Notice tone="warning">
           <p className="font-medium">Result changed since it was marked ({resultChanged.length})</p>
@@ -178,7 +177,7 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
             <p className="self-center text-sm text-ink-700">Close the marking to TAs before releasing, so nothing changes under you.</p>
           )}
         </div>
-        {lab.readyAt ? <ReleaseForm release={release} timeZone={timeZone} busy={busy} again={released > 0} values={failed?.values} /> : null}
+        {lab.readyAt ? <ReleaseForm release={release} timeZone={timeZone} busy={busy} again={released > 0} values={typed?.intent === "release" ? typed : undefined} /> : null}
       </section>
 
       <section aria-labelledby="markers-heading">
@@ -215,10 +214,15 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
           <h2 id="adjust-heading" className="mb-2 text-lg font-semibold">
             Adjust a mark
           </h2>
-          <Form method="post" className="grid gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 sm:grid-cols-2">
+          <Form method="post" className="grid gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 sm:grid-cols-2" {...getFormProps(adjustForm)}>
             <input type="hidden" name="intent" value="adjust" />
-            <StudentChoice marked={marked} initial={failed?.values?.membershipId ?? ""} />
-            <SelectField label="What" name="target" defaultValue={failed?.values?.target ?? ""} required>
+            {adjustForm.errors?.length ? (
+              <div className="sm:col-span-2">
+                <Notice tone="error">{adjustForm.errors.join(" ")}</Notice>
+              </div>
+            ) : null}
+            <StudentChoice marked={marked} field={adjustFields.membershipId} />
+            <SelectField label="What" field={adjustFields.target} required>
               <option value="">Choose…</option>
               {lab.rubric.map((criterion) => (
                 <option key={criterion.id} value={`criterion:${criterion.id}`}>
@@ -227,8 +231,8 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
               ))}
               <option value="penalty">Late penalty (points)</option>
             </SelectField>
-            <TextField label="New value" name="value" inputMode="decimal" defaultValue={failed?.values?.value ?? ""} required hint="A level's number, or points." />
-            <TextField label="Why" name="reason" className="sm:col-span-2" defaultValue={failed?.values?.reason ?? ""} required hint="Kept with the change; a student whose mark is released sees it." />
+            <TextField label="New value" field={adjustFields.value} inputMode="decimal" required hint="A level's number, or points." />
+            <TextField label="Why" field={adjustFields.reason} className="sm:col-span-2" required hint="Kept with the change; a student whose mark is released sees it." />
             <div>
               <Button type="submit" disabled={busy}>
                 Adjust the mark
@@ -349,11 +353,12 @@ function ReleaseForm({ release, timeZone, busy, again, values }: { release: Prev
 }
 
 /** The student's select, with the version the adjustment starts from beside it: a mark changed meanwhile is then a conflict, not overwritten. */
-function StudentChoice({ marked, initial }: { marked: { membershipId: string; name: string; total: number; version: number; markedBy: string | null }[]; initial: string }) {
-  const [membershipId, setMembershipId] = useState(initial);
+function StudentChoice({ marked, field }: { marked: { membershipId: string; name: string; total: number; version: number; markedBy: string | null }[]; field: FieldMetadata<string> }) {
+  // Controlled, so that the version sent beside it is the chosen student's.
+  const [membershipId, setMembershipId] = useState(field.initialValue ?? "");
   return (
     <>
-      <SelectField label="Student" name="membershipId" value={membershipId} onChange={(event) => setMembershipId(event.target.value)} required>
+      <SelectField label="Student" field={field} value={membershipId} onChange={(event) => setMembershipId(event.target.value)} required>
         <option value="">Choose…</option>
         {marked.map((row) => (
           <option key={row.membershipId} value={row.membershipId}>

@@ -14,9 +14,10 @@ import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { autoRuleLabels, autoRules, criterionToInput, describeAutoRule, MAX_LEVELS, type AutoRule, type CriterionKind } from "~/lib/marking/rubric";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { MarkingRefusedError, requireMarkingAccess } from "~/server/marking/marking-lab.server";
-import { copyRubric, listRubricSources, RubricInputError, saveRubric } from "~/server/marking/rubrics.server";
+import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { copyRubric, listRubricSources, saveRubric } from "~/server/marking/rubrics.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
@@ -46,9 +47,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     const saved = await saveRubric(db, { access, lab, input: { criteria: parsed.data.criteria }, request });
     return { done: `The rubric is saved: ${saved.length} criteria.` };
   } catch (error) {
-    if (error instanceof RubricInputError) return data({ errors: Object.fromEntries(error.issues.map((issue) => [issue.path.join("."), issue.message])) }, { status: 400 });
-    if (error instanceof MarkingRefusedError) return data({ errors: { form: error.message } as Record<string, string> }, { status: error.status });
-    throw error;
+    if (!(error instanceof AppError)) throw error;
+    const issues = error.issues ?? [{ path: ["form"], message: error.message }];
+    return data({ errors: Object.fromEntries(issues.map((issue) => [issue.path.join("."), issue.message])) as Record<string, string> }, { status: error.status });
   }
 }
 

@@ -8,9 +8,10 @@ import { PageHeader } from "~/components/ui/page-header";
 import { fieldErrors, formFailure } from "~/lib/forms/parse-form";
 import { experimentKinds, labInputFor, labInputFromForm, newLabFormValues, submittedLabFormValues } from "~/lib/labs/lab-input";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
-import { LabRuleError, createLab, getLabFormOptions } from "~/server/labs/labs.server";
+import { createLab, getLabFormOptions } from "~/server/labs/labs.server";
 
 const newLabSearch = z.object({ kind: z.enum(experimentKinds).default("drag") });
 
@@ -32,7 +33,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     // A new lab is a draft: the edit page is where it is checked and published.
     return redirect(`/courses/${access.course.id}/labs/${lab.id}/edit?saved=created`);
   } catch (error) {
-    if (error instanceof LabRuleError) return formFailure(values.fields, { [error.field]: [error.message] }, { submitted: values });
+    if (!(error instanceof AppError)) throw error;
+    return formFailure(values.fields, { [error.field ?? "form"]: [error.message] }, { submitted: values });
     throw error;
   }
 }

@@ -6,9 +6,10 @@ import type { Route } from "./+types/courses.$courseId.members.$membershipId";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
+import { AppError } from "~/lib/app-error";
 import { parseForm } from "~/lib/forms/parse-form";
 import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
-import { MemberRuleError, changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
+import { changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
 
 const memberAction = z.discriminatedUnion("intent", [
   z.object({
@@ -42,7 +43,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     await changeMemberRole({ ...target, role: form.data.role, cohortId: form.data.cohortId || null }, request);
   } catch (error) {
-    if (error instanceof MemberRuleError) return data({ errors: { [form.data.intent === "remove" ? "remove" : "role"]: error.message } }, { status: 400 });
+    if (!(error instanceof AppError)) throw error;
+    return data({ errors: { [form.data.intent === "remove" ? "remove" : "role"]: error.message } }, { status: error.status });
     throw error;
   }
   return { saved: true };

@@ -10,8 +10,9 @@ import { PageHeader } from "~/components/ui/page-header";
 import { describePart } from "~/lib/kits/describe-part";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { KitRuleError, confirmArrival, findKitOfMember, getKit, reportKitProblem } from "~/server/kits/kits.server";
+import { confirmArrival, findKitOfMember, getKit, reportKitProblem } from "~/server/kits/kits.server";
 
 const myKitAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("arrived"), complete: z.enum(["yes", "no"]), note: z.string().trim().max(1000).optional() }),
@@ -55,7 +56,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     await reportKitProblem(db, { courseId: access.course.id, kitId: kit.id, actorId: access.user.id, partId: input.partId, problem: input.problem, note: input.note });
     return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
   } catch (error) {
-    if (error instanceof KitRuleError) return formFailure(values, { form: [error.message] }, { intent: values.intent });
+    if (!(error instanceof AppError)) throw error;
+    return formFailure(values, { form: [error.message] }, { intent: values.intent });
     throw error;
   }
 }

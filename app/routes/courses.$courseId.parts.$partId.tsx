@@ -19,9 +19,10 @@ import { calibrationRows, partFormCandidate } from "~/lib/kits/part-form";
 import { partInput, partKindLabels, type PartKind } from "~/lib/kits/part-input";
 import { partToCsvRow } from "~/lib/kits/parts-csv";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { listPartBias, partBiasFor } from "~/server/comparison/part-quality.server";
-import { DuplicateLabelError, getPartPage, setPartStatus, updatePart, type KitMention } from "~/server/kits/parts.server";
+import { getPartPage, setPartStatus, updatePart, type KitMention } from "~/server/kits/parts.server";
 import { listRereductions, type RereductionProgress } from "~/server/kits/rereduce.server";
 
 const note = z.string().trim().max(500, "Keep the note under 500 characters.").optional().transform((value) => value || null);
@@ -72,8 +73,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     if (!(await updatePart(db, { ...scope, input: input.data, note: parsed.data.note }))) throw data("Not found", { status: 404 });
   } catch (error) {
-    if (error instanceof DuplicateLabelError) return failure({ label: [error.message] });
-    throw error;
+    if (!(error instanceof AppError)) throw error;
+    return failure({ [error.field ?? "form"]: [error.message] });
   }
   return redirect(`${partPath}?saved=remeasured`);
 }

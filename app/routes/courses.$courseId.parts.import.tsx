@@ -19,8 +19,10 @@ import {
   type PartCsvRow,
 } from "~/lib/kits/parts-csv";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { parseSubmission } from "~/lib/forms/submission";
 import { db } from "~/server/db.server";
-import { DuplicateLabelError, ImportRejectedError, importParts, listPartLabels } from "~/server/kits/parts.server";
+import { formAction } from "~/server/errors.server";
+import { importParts, listPartLabels } from "~/server/kits/parts.server";
 
 /** The commit: the previewed rows as the file gave them, every cell text; the server checks them all again. */
 const importCommit = z.object({
@@ -45,21 +47,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { courseId: access.course.id, existingLabels: await listPartLabels(db, access.course.id) };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
-  const parsed = importCommit.safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ ok: false as const, message: parsed.error.issues[0].message, rejected: [] }, { status: 400 });
-  try {
-    const result = await importParts(db, { courseId: access.course.id, actorId: access.user.id, rows: parsed.data.rows });
-    return { ok: true as const, ...result };
-  } catch (error) {
-    if (error instanceof ImportRejectedError) {
-      return data({ ok: false as const, message: error.message, rejected: error.rows.slice(0, previewLimit) }, { status: 400 });
-    }
-    if (error instanceof DuplicateLabelError) return data({ ok: false as const, message: `${error.message} Nothing was imported.`, rejected: [] }, { status: 400 });
-    throw error;
+  const submission = parseSubmission(formData, importCommit);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const result = await importParts(db, { courseId: access.course.id, actorId: access.user.id, rows: submission.value.rows });
+  if (result.rejected.length) {
+    const reply = submission.reply({ formErrors: [`${result.rejected.length} rows have problems; nothing was imported.`] });
+    return data({ ...reply, rejected: result.rejected.slice(0, previewLimit) }, { status: 400 });
   }
-}
+  return { ok: true as const, ...result };
+});
 
 type ParsedFile = { name: string; headers: string[]; rows: PartCsvRow[] };
 
@@ -71,7 +69,7 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
   const [progress, setProgress] = useState<number | null>(null);
   // After a successful import the previewed rows are in the course, so the preview would only repeat them as taken.
   useEffect(() => {
-    if (actionData?.ok) setParsed(null);
+    if (actionData && "ok" in actionData) setParsed(null);
   }, [actionData]);
   const checks = useMemo(() => (parsed ? checkImportRows(parsed.rows, existingLabels) : []), [parsed, existingLabels]);
   const fileProblems = parsed ? checkImportHeaders(parsed.headers) : [];
@@ -118,7 +116,7 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
         every row goes in together, or none does.
       </PageHeader>
 
-      {actionData?.ok ? (
+      {actionData && "ok" in actionData ? (
         <Notice tone="success">
           {actionData.created} parts imported.{" "}
           {actionData.warnings.length ? `${actionData.warnings.length} of them raise checks (${actionData.warnings.map((w) => w.label).join(", ")}); open them to see why.` : null}{" "}
@@ -127,10 +125,10 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
           </Link>
         </Notice>
       ) : null}
-      {actionData && !actionData.ok ? (
+      {actionData && "status" in actionData ? (
         <Notice tone="error">
-          {actionData.message}
-          {actionData.rejected.length ? <ProblemList checks={actionData.rejected} /> : null}
+          {Object.values(actionData.error ?? {}).flat().join(" ")}
+          {"rejected" in actionData ? <ProblemList checks={actionData.rejected as ImportRowCheck[]} /> : null}
         </Notice>
       ) : null}
 

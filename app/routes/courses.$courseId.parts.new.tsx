@@ -9,9 +9,10 @@ import { fieldErrors, formValues } from "~/lib/forms/parse-form";
 import { calibrationRows, partFormCandidate } from "~/lib/kits/part-form";
 import { partInput, partKindLabels } from "~/lib/kits/part-input";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
-import { createPart, DuplicateLabelError } from "~/server/kits/parts.server";
+import { createPart } from "~/server/kits/parts.server";
 
 const chosenKind = z.enum(["sphere", "fluid_lot", "column", "accessory"]);
 const newPartSearch = z.object({ kind: chosenKind.optional() });
@@ -36,8 +37,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     partId = (await createPart(db, { courseId: access.course.id, actorId: access.user.id, input: parsed.data })).part.id;
   } catch (error) {
-    if (error instanceof DuplicateLabelError) return failure({ label: [error.message] });
-    throw error;
+    if (!(error instanceof AppError)) throw error;
+    return failure({ [error.field ?? "form"]: [error.message] });
   }
   // The part page shows the checks (warnings) against today's inventory, so the redirect only says "saved".
   return redirect(`/courses/${access.course.id}/parts/${partId}?saved=created`);

@@ -3,6 +3,7 @@
  * time and cut-off across a daylight-saving change, the statements a hand-in costs, and that students
  * of one lab do not wait on each other's hand-ins.
  */
+import { AppError } from "~/lib/app-error";
 import { mkdtemp } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
@@ -15,7 +16,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { db, type Database } from "~/server/db.server";
 import { loadCountedHandIns } from "~/server/comparison/class-comparison.server";
 import { loadStudentMarkRows } from "~/server/marking/mark-rows.server";
-import { HandInRefusedError, ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, previewDropLog, saveDraft } from "~/server/drop-logs/hand-in.server";
+import { ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, previewDropLog, saveDraft } from "~/server/drop-logs/hand-in.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { countAllStatements, countStatements } from "../support/count-statements";
 import { SECOND_LOT_DENSITY, createTwoLotKit, type TwoLotKit } from "../support/two-lot-kit";
@@ -153,8 +154,8 @@ describe("the server's reduction", () => {
       input: inputFor(fixture.sphereId, { drops: ["7.4", "abc", "-2", "900", "0.01"] }),
       idempotencyKey: "bad-rows-1",
     }).catch((error: unknown) => error);
-    expect(refusal).toBeInstanceOf(HandInRefusedError);
-    const issues = (refusal as HandInRefusedError).issues.map((issue) => [issue.path.join("."), issue.message]);
+    expect(refusal).toBeInstanceOf(AppError);
+    const issues = (refusal as AppError).issues!.map((issue) => [issue.path.join("."), issue.message]);
     expect(issues.map(([path]) => path)).toEqual(["drops.1", "drops.2", "drops.3", "drops.4"]);
     expect(issues[1][1]).toMatch(/negative/);
     expect(issues[2][1]).toMatch(/600 s/);
@@ -169,7 +170,7 @@ describe("the server's reduction", () => {
 
 describe("the parts a hand-in names", () => {
   let kit: TwoLotKit;
-  const refusalOf = (promise: Promise<unknown>) => promise.then(() => null, (error: unknown) => error as HandInRefusedError);
+  const refusalOf = (promise: Promise<unknown>) => promise.then(() => null, (error: unknown) => error as AppError);
   const handIn = (labId: string, input: Record<string, unknown>, key: string) => handInDropLog(db, { access: kit.access, labId, input: { temperatureC: 22.4, drops, ...input }, idempotencyKey: key });
 
   beforeAll(async () => {

@@ -15,7 +15,7 @@ import { handInDropLog } from "~/server/drop-logs/hand-in.server";
 import { queues } from "~/server/jobs/boss.server";
 import { getLabDashboard } from "~/server/labs/lab-dashboard.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
-import { LabRuleError, closeLab, createLab, getLab, updateLab } from "~/server/labs/labs.server";
+import { closeLab, createLab, getLab, updateLab } from "~/server/labs/labs.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { seedClass } from "../support/comparison-class";
 import { countStatements } from "../support/count-statements";
@@ -104,7 +104,7 @@ describe("drafts, publishing and closing", () => {
     const input = labForm({ opensAt: wallClock(new Date(now.getTime() - HOUR)), dueAt: wallClock(new Date(now.getTime() + 72 * HOUR)) });
     const lab = await createLab(db, { access: instructor(), input });
     expect(lab.status).toBe("draft");
-    await expect(updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish" })).rejects.toThrow(LabRuleError);
+    await expect(updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish" })).rejects.toMatchObject({ code: "lab_refused" });
     expect((await getLab(db, fixture.courseId, lab.id))!.status).toBe("draft");
 
     const [foreign] = await db.insert(cohorts).values({ courseId: fixture.otherCourseId, name: `Elsewhere ${randomUUID()}` }).returning();
@@ -139,7 +139,7 @@ describe("drafts, publishing and closing", () => {
 
     await closeLab(db, { access: instructor(), labId: lab.id });
     expect(await sendLabReminders(db, { labId: lab.id, offsetHours: 48, dueAt: later.toISOString() }, now)).toEqual({ sent: 0, skipped: "not-published" });
-    await expect(closeLab(db, { access: instructor(), labId: lab.id })).rejects.toThrow(LabRuleError);
+    await expect(closeLab(db, { access: instructor(), labId: lab.id })).rejects.toMatchObject({ code: "lab_refused" });
   });
 
   it("re-decides the late flag of the hand-ins already made when the due time moves, either way", async () => {

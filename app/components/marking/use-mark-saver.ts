@@ -5,9 +5,10 @@
  * marker never conflicts with themself; another person's save in between comes back as a conflict,
  * and the row then shows their mark. A failed save keeps the change on screen with a retry.
  */
+import { AppError } from "~/lib/app-error";
 import { useCallback, useEffect, useRef } from "react";
 import { useFetcher } from "react-router";
-import { applyMarkChange, MarkValueError, markProgress, markTotals, type MarkChange, type MarkContent } from "~/lib/marking/marks";
+import { applyMarkChange, markProgress, markTotals, type MarkChange, type MarkContent } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
 
@@ -31,7 +32,7 @@ const idle: SaveState = { status: "idle" };
 const contentOf = (row: MarkingDeskRow): MarkContent | null =>
   row.mark ? { scores: row.mark.scores, feedback: row.mark.feedback, latePenaltyPoints: row.mark.latePenaltyPoints } : null;
 
-/** The row as it will be once `change` is saved; throws `MarkValueError` for a value the rubric refuses. */
+/** The row as it will be once `change` is saved; throws an `AppError` for a value the rubric refuses. */
 export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskRow, change: MarkChange): MarkingDeskRow {
   const content = applyMarkChange(rubric, contentOf(row), change, { released: row.mark?.releasedAt != null });
   const totals = markTotals(rubric, content, row.suggestions);
@@ -116,7 +117,7 @@ export function useMarkSaver({
       try {
         row = withChange(rubric, shown, change);
       } catch (error) {
-        if (!(error instanceof MarkValueError)) throw error;
+        if (!(error instanceof AppError)) throw error;
         onState(base.membershipId, { row: shown, save: { status: "failed", message: error.message, change, reason } });
         return false;
       }

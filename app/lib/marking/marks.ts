@@ -3,6 +3,7 @@
  * criterion's level or points, the late penalty, the feedback). The server runs it for a single cell
  * and for a bulk action alike, so both check values the same way. Pure.
  */
+import { AppError } from "~/lib/app-error";
 import { z } from "zod";
 import type { AutoSuggestion } from "./automatic-criteria";
 import { MAX_CRITERION_POINTS, roundPoints, type RubricCriterion } from "./rubric";
@@ -129,20 +130,14 @@ export const markChange = z.discriminatedUnion("kind", [
 export type MarkChange = z.infer<typeof markChange>;
 
 /** A value the rubric refuses; `field` names the part of the change it is about. */
-export class MarkValueError extends Error {
-  constructor(
-    message: string,
-    readonly field: "criterionId" | "level" | "points" | "overrideReason" | "text",
-  ) {
-    super(message);
-    this.name = "MarkValueError";
-  }
+function refusedValue(message: string, field: "criterionId" | "level" | "points" | "overrideReason" | "text"): AppError {
+  return new AppError({ code: "invalid_value", message, field });
 }
 
 const MIN_REASON_LENGTH = 3;
 
 /**
- * The mark's content after `change`, or a `MarkValueError`. A released mark keeps a value for every
+ * The mark's content after `change`, or an `AppError` (code invalid_value). A released mark keeps a value for every
  * criterion it has one for: clearing is refused there, since the student has seen it.
  */
 export function applyMarkChange(rubric: readonly RubricCriterion[], before: MarkContent | null, change: MarkChange, { released = false } = {}): MarkContent {
@@ -152,34 +147,34 @@ export function applyMarkChange(rubric: readonly RubricCriterion[], before: Mark
     return content;
   }
   if (change.kind === "latePenalty") {
-    if (change.points < 0 || change.points > MAX_CRITERION_POINTS) throw new MarkValueError(`The late penalty is between 0 and ${MAX_CRITERION_POINTS} points.`, "points");
+    if (change.points < 0 || change.points > MAX_CRITERION_POINTS) throw refusedValue(`The late penalty is between 0 and ${MAX_CRITERION_POINTS} points.`, "points");
     content.latePenaltyPoints = roundPoints(change.points);
     return content;
   }
   const criterion = rubric.find((candidate) => candidate.id === change.criterionId);
-  if (!criterion) throw new MarkValueError("This criterion is not in the lab's rubric.", "criterionId");
+  if (!criterion) throw refusedValue("This criterion is not in the lab's rubric.", "criterionId");
   const level = change.level ?? null;
   const points = change.points ?? null;
   if (level === null && points === null) {
-    if (released && content.scores[criterion.id]) throw new MarkValueError("This mark is released: give the criterion a value instead of clearing it.", "points");
+    if (released && content.scores[criterion.id]) throw refusedValue("This mark is released: give the criterion a value instead of clearing it.", "points");
     delete content.scores[criterion.id];
     return content;
   }
   if (criterion.kind === "levels") {
     const count = criterion.levels?.length ?? 0;
-    if (level === null || level < 1 || level > count) throw new MarkValueError(`Pick a level from 1 to ${count}.`, "level");
+    if (level === null || level < 1 || level > count) throw refusedValue(`Pick a level from 1 to ${count}.`, "level");
     content.scores[criterion.id] = { points: criterion.levels![level - 1].points, level };
     return content;
   }
-  if (level !== null) throw new MarkValueError(`“${criterion.title}” is scored in points, not levels.`, "level");
+  if (level !== null) throw refusedValue(`“${criterion.title}” is scored in points, not levels.`, "level");
   const low = criterion.kind === "range" ? criterion.minPoints : 0;
-  if (points! < low || points! > criterion.maxPoints) throw new MarkValueError(`Give between ${low} and ${criterion.maxPoints} points.`, "points");
+  if (points! < low || points! > criterion.maxPoints) throw refusedValue(`Give between ${low} and ${criterion.maxPoints} points.`, "points");
   if (criterion.kind === "range") {
     content.scores[criterion.id] = { points: roundPoints(points!) };
     return content;
   }
   const overrideReason = change.overrideReason?.trim() ?? "";
-  if (overrideReason.length < MIN_REASON_LENGTH) throw new MarkValueError("Say why the automatic suggestion is overridden.", "overrideReason");
+  if (overrideReason.length < MIN_REASON_LENGTH) throw refusedValue("Say why the automatic suggestion is overridden.", "overrideReason");
   content.scores[criterion.id] = { points: roundPoints(points!), overrideReason };
   return content;
 }

@@ -1,8 +1,9 @@
 import type { Route } from "./+types/v1.labs.$labId.drop-logs";
 import { apiErrorResponse, methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
+import { withRefusals } from "~/server/errors.server";
 import { listLabDropLogs } from "~/server/drop-logs/drop-log-list.server";
-import { HandInRefusedError, handInDropLog } from "~/server/drop-logs/hand-in.server";
+import { handInDropLog } from "~/server/drop-logs/hand-in.server";
 import { requireLabApiAccess } from "~/server/labs/lab-access.server";
 
 const noStore = { "Cache-Control": "no-store" };
@@ -27,7 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
  * A student's hand-in. The `Idempotency-Key` header names the attempt: a retry with the same key
  * answers 200 with the version first stored instead of storing a second one.
  */
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = withRefusals(async ({ request, params }: Route.ActionArgs) => {
   if (request.method !== "POST") return methodNotAllowed([...readOnly, "POST"]);
   const { access, lab } = await requireLabApiAccess(request, params.labId);
   if (access.membership.role !== "student") return apiErrorResponse(403, "not_a_student", "Only students hand in drop logs.");
@@ -35,11 +36,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!idempotencyKey) return apiErrorResponse(400, "idempotency_key_missing", "Send an Idempotency-Key header, e.g. a UUID made once per hand-in attempt.");
   const input = await request.json().catch(() => undefined);
   if (input === undefined) return apiErrorResponse(400, "invalid_json", "The body must be JSON.");
-  try {
-    const result = await handInDropLog(db, { access, labId: lab.id, input, idempotencyKey });
-    return jsonWithLength(result, result.duplicate ? 200 : 201);
-  } catch (error) {
-    if (error instanceof HandInRefusedError) return apiErrorResponse(error.status, error.code, error.message, error.issues.length ? error.issues : undefined);
-    throw error;
-  }
-}
+  const result = await handInDropLog(db, { access, labId: lab.id, input, idempotencyKey });
+  return jsonWithLength(result, result.duplicate ? 200 : 201);
+});

@@ -4,7 +4,8 @@ import { ReductionInputError, reduceFallingSphere } from "~/lib/reduction";
 import { requireApiUser, requireCourseRole } from "~/server/auth/access.server";
 import { apiErrorResponse, methodNotAllowed } from "~/server/auth/api-errors.server";
 import { db } from "~/server/db.server";
-import { HandInRefusedError, findLabCourseId, previewDropLog } from "~/server/drop-logs/hand-in.server";
+import { withRefusals } from "~/server/errors.server";
+import { findLabCourseId, previewDropLog } from "~/server/drop-logs/hand-in.server";
 
 const noStore = { "Cache-Control": "no-store" };
 
@@ -16,7 +17,7 @@ export const loader = () => methodNotAllowed(["POST"]);
  * (mm, g, °C, s), resolved against the caller's kit and the lab's settings: the live preview of the
  * drop-log form; or the engine's own input in SI, for anyone signed in who wants the method itself.
  */
-export async function action({ request }: Route.ActionArgs) {
+export const action = withRefusals(async ({ request }: Route.ActionArgs) => {
   if (request.method !== "POST") return methodNotAllowed(["POST"]);
   await requireApiUser(request);
   const body = await request.json().catch(() => undefined);
@@ -27,12 +28,7 @@ export async function action({ request }: Route.ActionArgs) {
     const courseId = await findLabCourseId(db, forLab.data.labId);
     if (!courseId) return apiErrorResponse(404, "not_found", "There is no such lab.");
     const access = await requireCourseRole(request, courseId, ["student"]);
-    try {
-      return Response.json(await previewDropLog(db, { access, labId: forLab.data.labId, input: forLab.data.input }), { headers: noStore });
-    } catch (error) {
-      if (error instanceof HandInRefusedError) return apiErrorResponse(error.status, error.code, error.message, error.issues.length ? error.issues : undefined);
-      throw error;
-    }
+    return Response.json(await previewDropLog(db, { access, labId: forLab.data.labId, input: forLab.data.input }), { headers: noStore });
   }
 
   const engine = reduceInput.safeParse(body);
@@ -50,4 +46,4 @@ export async function action({ request }: Route.ActionArgs) {
     if (!(error instanceof ReductionInputError)) throw error;
     return apiErrorResponse(400, "not_reducible", "These values cannot be reduced.", error.issues.map((issue) => ({ path: issue.path.split("."), message: issue.message })));
   }
-}
+});

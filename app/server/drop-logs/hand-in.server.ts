@@ -5,6 +5,7 @@
  * queue behind one lock (it also holds the lab's marking lock shared, which only a release, taking
  * it exclusively, waits for: a hand-in then sees whether that release covered the student's mark).
  */
+import { AppError, type ErrorIssue } from "~/lib/app-error";
 import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
@@ -53,19 +54,12 @@ const refusalStatus: Record<HandInRefusalCode, number> = {
   mark_released: 409,
 };
 
-/** A hand-in (or preview, or draft) the server will not take; the message tells the student what to do. */
-export class HandInRefusedError extends Error {
-  readonly status: number;
-  constructor(
-    readonly code: HandInRefusalCode,
-    message: string,
-    /** Per-field problems, keyed by the form's field names (`drops.3`). */
-    readonly issues: { path: (string | number)[]; message: string }[] = [],
-  ) {
-    super(message);
-    this.name = "HandInRefusedError";
-    this.status = refusalStatus[code];
-  }
+/**
+ * A hand-in (or preview, or draft) the server will not take; the message tells the student what to do,
+ * and `issues` the fields at fault (`["drops", 3]`).
+ */
+export function handInRefusal(code: HandInRefusalCode, message: string, issues: ErrorIssue[] = []): AppError {
+  return new AppError({ code, message, status: refusalStatus[code], issues });
 }
 
 /** An extension as json_build_object returns it: timestamps arrive as strings. */
@@ -96,8 +90,8 @@ const partWords: Record<ChoosableKind, { name: string; field: "sphereId" | "flui
  * that kind in the kit when it ticked none of that kind.
  */
 export async function loadStudentLab(executor: Executor, access: CourseAccess, labId: string) {
-  if (access.membership.role !== "student") throw new HandInRefusedError("not_a_student", "Only students hand in drop logs.");
-  if (!z.uuid().safeParse(labId).success) throw new HandInRefusedError("lab_not_found", "There is no such lab in this course.");
+  if (access.membership.role !== "student") throw handInRefusal("not_a_student", "Only students hand in drop logs.");
+  if (!z.uuid().safeParse(labId).success) throw handInRefusal("lab_not_found", "There is no such lab in this course.");
   const [labRows, kitPartRows] = await Promise.all([
     executor
       .select({
@@ -145,8 +139,8 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
   ]);
   const row = labRows[0];
   // A draft lab is invisible to students: it answers like a lab that does not exist.
-  if (!row || row.lab.status === "draft") throw new HandInRefusedError("lab_not_found", "There is no such lab in this course.");
-  if (!row.inCohort) throw new HandInRefusedError("not_in_cohort", "This lab is not set for your cohort.");
+  if (!row || row.lab.status === "draft") throw handInRefusal("lab_not_found", "There is no such lab in this course.");
+  if (!row.inCohort) throw handInRefusal("not_in_cohort", "This lab is not set for your cohort.");
   const allowed = new Set(row.lab.allowedPartIds);
   const limited = new Set(row.limitedKinds);
   // A shared part (a fluid lot) in two kits the student holds is one choice, not two.
@@ -174,27 +168,27 @@ function choosePart(context: StudentLab, kind: ChoosableKind, chosenId: string |
   if (chosenId !== undefined) {
     const part = context.kitParts.find((candidate) => candidate.id === chosenId && candidate.kind === kind);
     if (!part) {
-      throw new HandInRefusedError(kind === "sphere" ? "sphere_not_in_kit" : "part_not_in_kit", `Choose a ${name} of your own kit.`, [
+      throw handInRefusal(kind === "sphere" ? "sphere_not_in_kit" : "part_not_in_kit", `Choose a ${name} of your own kit.`, [
         { path: [field], message: `That ${name} is not in your kit.` },
       ]);
     }
     if (!candidates.some((candidate) => candidate.id === part.id)) {
-      throw new HandInRefusedError("part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
+      throw handInRefusal("part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
         { path: [field], message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((candidate) => candidate.label).join(", ")}` : "another"}.` },
       ]);
     }
     return part;
   }
   if (candidates.length === 1) return candidates[0];
-  if (candidates.length === 0) throw new HandInRefusedError("kit_incomplete", `Your kit has no ${name} this lab can use; report it from “My kit”.`);
-  throw new HandInRefusedError("part_not_chosen", `Choose the ${name} you used: your kit holds ${candidates.length} this lab allows.`, [
+  if (candidates.length === 0) throw handInRefusal("kit_incomplete", `Your kit has no ${name} this lab can use; report it from “My kit”.`);
+  throw handInRefusal("part_not_chosen", `Choose the ${name} you used: your kit holds ${candidates.length} this lab allows.`, [
     { path: [field], message: `Choose which ${name} you used: ${candidates.map((part) => part.label).join(", ")}.` },
   ]);
 }
 
 /** The sphere, fluid lot and column of the student's kit the drop log names (or the lab's only choice), and the kit's state. */
 function resolveKit(context: StudentLab, input: DropLogInput): KitRecordsInput {
-  if (context.kitParts.length === 0) throw new HandInRefusedError("no_kit", "You hold no kit in this course yet, so there is nothing to reduce against.");
+  if (context.kitParts.length === 0) throw handInRefusal("no_kit", "You hold no kit in this course yet, so there is nothing to reduce against.");
   const sphere = choosePart(context, "sphere", input.sphereId);
   const fluidLot = choosePart(context, "fluid_lot", input.fluidLotId);
   const column = choosePart(context, "column", input.columnId);
@@ -204,7 +198,7 @@ function resolveKit(context: StudentLab, input: DropLogInput): KitRecordsInput {
 function parseInput(raw: unknown): DropLogInput {
   const parsed = dropLogInput.safeParse(raw);
   if (parsed.success) return parsed.data;
-  throw new HandInRefusedError(
+  throw handInRefusal(
     "invalid_input",
     "Some of the drop log needs correcting.",
     parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)), message: issue.message })),
@@ -217,7 +211,7 @@ function reduceFor(context: StudentLab, input: DropLogInput): DropLogReduction {
     return reduceDropLog({ lab: context.lab, kit, input, gravity: context.gravity });
   } catch (error) {
     if (!(error instanceof ReductionInputError)) throw error;
-    throw new HandInRefusedError(
+    throw handInRefusal(
       "not_reducible",
       "These values cannot be reduced.",
       error.issues.map((issue) => ({ path: issue.path.split("."), message: issue.message })),
@@ -232,9 +226,9 @@ export async function previewDropLog(executor: Executor, { access, labId, input 
   return reduceFor(context, parsed);
 }
 
-const labClosed = () => new HandInRefusedError("lab_closed", "This lab is closed: it takes no more hand-ins.");
+const labClosed = () => handInRefusal("lab_closed", "This lab is closed: it takes no more hand-ins.");
 const pastCutoff = (window: HandInWindow) =>
-  new HandInRefusedError(
+  handInRefusal(
     "past_cutoff",
     window.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
   );
@@ -247,7 +241,7 @@ const pastCutoff = (window: HandInWindow) =>
 export function refuseWhenClosed(context: StudentLab, now: Date): void {
   if (context.lab.status !== "published") throw labClosed();
   if (handInTiming(context.window, now) === "closed") throw pastCutoff(context.window);
-  if (context.afterRelease === "refuse") throw new HandInRefusedError("mark_released", markReleasedMessage);
+  if (context.afterRelease === "refuse") throw handInRefusal("mark_released", markReleasedMessage);
 }
 
 export type HandInResult = { version: { id: string; version: number; late: boolean; submittedAt: Date }; duplicate: boolean };
@@ -264,7 +258,7 @@ export async function handInDropLog(
   { access, labId, input, idempotencyKey: key, now = new Date() }: { access: CourseAccess; labId: string; input: unknown; idempotencyKey: string; now?: Date },
 ): Promise<HandInResult> {
   const keyCheck = idempotencyKey.safeParse(key);
-  if (!keyCheck.success) throw new HandInRefusedError("invalid_input", keyCheck.error.issues[0].message);
+  if (!keyCheck.success) throw handInRefusal("invalid_input", keyCheck.error.issues[0].message);
   const parsed = parseInput(input);
   const context = await loadStudentLab(executor, access, labId);
   const lab = context.lab;
@@ -291,7 +285,7 @@ export async function handInDropLog(
 
     const handInWindow = context.window;
     const timing = handInTiming(handInWindow, now);
-    if (timing === "not-open") throw new HandInRefusedError("not_open", `This lab opens for hand-ins on ${handInWindow.opensAt.toISOString()}.`);
+    if (timing === "not-open") throw handInRefusal("not_open", `This lab opens for hand-ins on ${handInWindow.opensAt.toISOString()}.`);
     if (timing === "closed") throw pastCutoff(handInWindow);
     const [inserted] = await tx
       .insert(dropLogVersions)
@@ -338,7 +332,7 @@ export async function handInDropLog(
       ${reopen ? sql`, reopened as (update marks set reopened_at = ${now.toISOString()}::timestamptz where lab_id = ${labId} and membership_id = ${access.membership.id} and released_at is not null)` : sql``}
       update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}
       returning ${markReleased(labId, access.membership.id)} as "markReleased"`);
-    if (counted.rows[0].markReleased && !reopen) throw new HandInRefusedError("mark_released", markReleasedMessage);
+    if (counted.rows[0].markReleased && !reopen) throw handInRefusal("mark_released", markReleasedMessage);
     await queueClassComparison(tx, labId);
     return { version: inserted, duplicate: false };
   });
@@ -347,7 +341,7 @@ export async function handInDropLog(
 /** Saves the form as typed; a later save replaces the draft, never a handed-in version. */
 export async function saveDraft(executor: Executor, { access, labId, draft }: { access: CourseAccess; labId: string; draft: unknown }) {
   const parsed = dropLogDraft.safeParse(draft);
-  if (!parsed.success) throw new HandInRefusedError("invalid_input", "The draft could not be read; keep typing and it will be saved again.");
+  if (!parsed.success) throw handInRefusal("invalid_input", "The draft could not be read; keep typing and it will be saved again.");
   await loadStudentLab(executor, access, labId);
   const savedAt = new Date();
   const [row] = await executor

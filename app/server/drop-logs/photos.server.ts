@@ -3,6 +3,7 @@
  * kept in a folder outside the web root, and listed in drop_log_photos. They hang on the drop log's
  * draft until a hand-in attaches them to the version it creates.
  */
+import { AppError } from "~/lib/app-error";
 import { randomUUID } from "node:crypto";
 import path from "node:path";
 import { createFsFileStorage } from "@remix-run/file-storage/fs";
@@ -26,19 +27,14 @@ import { environment } from "~/server/env.server";
 export const photoTypes = ["image/jpeg", "image/png", "image/webp"] as const;
 export type PhotoType = (typeof photoTypes)[number];
 
+const uploadCodes = { 400: "unreadable_upload", 409: "photo_limit", 413: "too_large", 415: "not_a_photo", 429: "rate_limited" } as const;
+
 /**
  * A refused upload, with the HTTP status that names why: 413 too large, 415 not a photo, 400 malformed,
  * 409 the drop log or the student's space is full, 429 too many uploads (with the wait).
  */
-export class PhotoUploadError extends Error {
-  constructor(
-    readonly status: 400 | 409 | 413 | 415 | 429,
-    message: string,
-    readonly retryAfterSeconds?: number,
-  ) {
-    super(message);
-    this.name = "PhotoUploadError";
-  }
+function uploadRefusal(status: keyof typeof uploadCodes, message: string, retryAfterSeconds?: number): AppError {
+  return new AppError({ code: uploadCodes[status], status, message, retryAfterSeconds });
 }
 
 /** `STORAGE_DIR`, or `storage/` in the checkout (git-ignored); never under `public/`. */
@@ -91,10 +87,10 @@ function refuseOverCaps(usage: { dropLogPhotos: number; studentBytes: number }, 
   const bytes = Math.max(adding.reduce((sum, photo) => sum + photo.bytes, 0), 1);
   if (usage.dropLogPhotos + count > MAX_PHOTOS_PER_DROP_LOG) {
     const left = MAX_PHOTOS_PER_DROP_LOG - usage.dropLogPhotos;
-    throw new PhotoUploadError(409, `A drop log keeps at most ${MAX_PHOTOS_PER_DROP_LOG} photos; this one has ${usage.dropLogPhotos}${left > 0 ? `, so send at most ${left} more` : ""}.`);
+    throw uploadRefusal(409, `A drop log keeps at most ${MAX_PHOTOS_PER_DROP_LOG} photos; this one has ${usage.dropLogPhotos}${left > 0 ? `, so send at most ${left} more` : ""}.`);
   }
   if (usage.studentBytes + bytes > MAX_PHOTO_BYTES_PER_STUDENT) {
-    throw new PhotoUploadError(409, `Your photos in this course may take up ${megabytes(MAX_PHOTO_BYTES_PER_STUDENT)} in all, and ${megabytes(usage.studentBytes)} are used: send smaller photos.`);
+    throw uploadRefusal(409, `Your photos in this course may take up ${megabytes(MAX_PHOTO_BYTES_PER_STUDENT)} in all, and ${megabytes(usage.studentBytes)} are used: send smaller photos.`);
   }
 }
 
@@ -109,7 +105,7 @@ export async function uploadDraftPhotos(database: Database, { access, context, r
   refuseWhenClosed(context, now);
   const owner = { labId: context.lab.id, membershipId: access.membership.id };
   const limit = await consume("photo-upload", access.user.id);
-  if (limit.limited) throw new PhotoUploadError(429, "You have uploaded many photos in a short time; wait a few minutes and try again.", limit.retryAfterSeconds);
+  if (limit.limited) throw uploadRefusal(429, "You have uploaded many photos in a short time; wait a few minutes and try again.", limit.retryAfterSeconds);
   refuseOverCaps(await photoUsage(database, owner), []);
   const stored = await receivePhotos(request, `${owner.labId}/${owner.membershipId}`);
   try {
@@ -131,19 +127,19 @@ export async function uploadDraftPhotos(database: Database, { access, context, r
  */
 async function receivePhotos(request: Request, keyPrefix: string): Promise<StoredPhoto[]> {
   const type = request.headers.get("content-type") ?? "";
-  if (!type.startsWith("multipart/form-data")) throw new PhotoUploadError(400, "Send the photos as a multipart/form-data upload.");
+  if (!type.startsWith("multipart/form-data")) throw uploadRefusal(400, "Send the photos as a multipart/form-data upload.");
   const declared = Number(request.headers.get("content-length") ?? 0);
   // Refused before a byte is read when the body says it is bigger than the most we would take.
-  if (declared > MAX_PHOTO_UPLOAD_BYTES) throw new PhotoUploadError(413, `That upload is too large: at most ${MAX_PHOTO_MEGABYTES} MB per photo.`);
+  if (declared > MAX_PHOTO_UPLOAD_BYTES) throw uploadRefusal(413, `That upload is too large: at most ${MAX_PHOTO_MEGABYTES} MB per photo.`);
 
   const stored: StoredPhoto[] = [];
-  const refused: PhotoUploadError[] = [];
+  const refused: AppError[] = [];
   const handle = async (file: FileUpload) => {
     if (file.fieldName !== "photo" || file.size === 0) return null;
     const head = new Uint8Array(await file.slice(0, 16).arrayBuffer());
     const sniffed = sniffPhotoType(head);
     if (!sniffed) {
-      refused.push(new PhotoUploadError(415, `${file.name || "That file"} is not a JPEG, PNG or WebP photo.`));
+      refused.push(uploadRefusal(415, `${file.name || "That file"} is not a JPEG, PNG or WebP photo.`));
       return null;
     }
     const storageKey = `${keyPrefix}/${randomUUID()}`;
@@ -157,16 +153,16 @@ async function receivePhotos(request: Request, keyPrefix: string): Promise<Store
   } catch (error) {
     await removeStored(stored);
     if (error instanceof MaxFileSizeExceededError || error instanceof MaxTotalSizeExceededError) {
-      throw new PhotoUploadError(413, `That photo is larger than ${MAX_PHOTO_MEGABYTES} MB; send a smaller one (most phones can share a reduced size).`);
+      throw uploadRefusal(413, `That photo is larger than ${MAX_PHOTO_MEGABYTES} MB; send a smaller one (most phones can share a reduced size).`);
     }
-    if (error instanceof MaxFilesExceededError) throw new PhotoUploadError(400, `Send at most ${MAX_PHOTOS_PER_UPLOAD} photos at a time.`);
-    throw new PhotoUploadError(400, "The upload could not be read; try again.");
+    if (error instanceof MaxFilesExceededError) throw uploadRefusal(400, `Send at most ${MAX_PHOTOS_PER_UPLOAD} photos at a time.`);
+    throw uploadRefusal(400, "The upload could not be read; try again.");
   }
   if (refused.length) {
     await removeStored(stored);
     throw refused[0];
   }
-  if (stored.length === 0) throw new PhotoUploadError(400, "Choose a photo to upload.");
+  if (stored.length === 0) throw uploadRefusal(400, "Choose a photo to upload.");
   return stored;
 }
 

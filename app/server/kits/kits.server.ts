@@ -2,6 +2,7 @@
  * Kits on their journey to a student's home and back. Every move goes through `moveKits`, which
  * checks the state machine, keeps the history and sends the kit-shipped e-mail in the same transaction.
  */
+import { AppError } from "~/lib/app-error";
 import { and, asc, count, eq, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
 import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
@@ -11,9 +12,6 @@ import { sendEmails } from "~/server/email/send-email.server";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
-
-/** A refusal the person can act on; the message says what to do instead. */
-export class KitRuleError extends Error {}
 
 export async function createKit(
   executor: Executor,
@@ -27,7 +25,7 @@ export async function createKit(
 ): Promise<Kit> {
   return executor.transaction(async (tx) => {
     const taken = await tx.select({ number: kits.number }).from(kits).where(and(eq(kits.courseId, courseId), eq(kits.number, number)));
-    if (taken.length) throw new KitRuleError(`Kit ${number} already exists in this course; choose another number.`);
+    if (taken.length) throw new AppError({ code: "kit_refused", message: `Kit ${number} already exists in this course; choose another number.` });
     const [kit] = await tx.insert(kits).values({ courseId, number }).returning();
     await putPartsInKit(tx, courseId, kit.id, partIds);
     await tx.insert(kitEvents).values({ kitId: kit.id, actorId, toState: "on_shelf", action: "created", note: note ?? null, detail: { partIds } });
@@ -44,14 +42,14 @@ async function putPartsInKit(tx: Transaction, courseId: string, kitId: string, p
     .from(parts)
     .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
     .where(and(eq(parts.courseId, courseId), inArray(parts.id, partIds)));
-  if (found.length !== new Set(partIds).size) throw new KitRuleError("Some of the chosen parts are not in this course's inventory.");
+  if (found.length !== new Set(partIds).size) throw new AppError({ code: "kit_refused", message: "Some of the chosen parts are not in this course's inventory." });
   const busy = found.filter((part) => part.inKit && part.inKit !== kitId);
-  if (busy.length) throw new KitRuleError(`${busy.map((p) => p.label).join(", ")} already sit in another kit; take them out of it first.`);
+  if (busy.length) throw new AppError({ code: "kit_refused", message: `${busy.map((p) => p.label).join(", ")} already sit in another kit; take them out of it first.` });
   const unusable = found.filter((part) => part.status !== "in_service");
-  if (unusable.length) throw new KitRuleError(`${unusable.map((p) => p.label).join(", ")} are not in service (retired or waiting for re-measurement).`);
+  if (unusable.length) throw new AppError({ code: "kit_refused", message: `${unusable.map((p) => p.label).join(", ")} are not in service (retired or waiting for re-measurement).` });
   const bores = found.filter((part) => part.kind === "column").map((part) => part.innerDiameterMm!);
   const tooWide = found.filter((part) => part.kind === "sphere" && bores.some((bore) => part.diameterMm! >= bore));
-  if (tooWide.length) throw new KitRuleError(`${tooWide.map((p) => p.label).join(", ")} are wider than the kit's column bore.`);
+  if (tooWide.length) throw new AppError({ code: "kit_refused", message: `${tooWide.map((p) => p.label).join(", ")} are wider than the kit's column bore.` });
   await tx
     .insert(kitParts)
     .values(found.map((part) => ({ kitId, partId: part.id, exclusive: part.kind !== "fluid_lot" })))
@@ -83,17 +81,15 @@ export async function moveKits(
       .where(and(eq(kits.courseId, courseId), inArray(kits.id, kitIds)))
       .orderBy(asc(kits.id))
       .for("update");
-    if (current.length !== new Set(kitIds).size) throw new KitRuleError("Some of the chosen kits are not in this course.");
+    if (current.length !== new Set(kitIds).size) throw new AppError({ code: "kit_refused", message: "Some of the chosen kits are not in this course." });
     const refused = current.filter((kit) => !canMoveKit(kit.state, move.to));
     if (refused.length) {
-      throw new KitRuleError(
-        `${refused.map((kit) => `Kit ${kit.number} (${kitStateLabels[kit.state].toLowerCase()})`).join(", ")} cannot go to ${kitStateLabels[move.to].toLowerCase()}.`,
-      );
+      throw new AppError({ code: "kit_refused", message: `${refused.map((kit) => `Kit ${kit.number} (${kitStateLabels[kit.state].toLowerCase()})`).join(", ")} cannot go to ${kitStateLabels[move.to].toLowerCase()}.` });
     }
     if (move.to === "packed") await checkHolder(tx, courseId, current, move.holderMembershipId);
-    if (move.to === "in_transit" && !move.shipping) throw new KitRuleError("Give the carrier, tracking number and date before marking a kit in transit.");
+    if (move.to === "in_transit" && !move.shipping) throw new AppError({ code: "kit_refused", message: "Give the carrier, tracking number and date before marking a kit in transit." });
     if (move.to === "in_transit" && current.some((kit) => !kit.holderMembershipId)) {
-      throw new KitRuleError("Pack a kit for a student before shipping it.");
+      throw new AppError({ code: "kit_refused", message: "Pack a kit for a student before shipping it." });
     }
 
     const holderAfter = (kit: Kit) =>
@@ -127,15 +123,15 @@ export async function moveKits(
 }
 
 async function checkHolder(tx: Transaction, courseId: string, current: Kit[], holderMembershipId: string | undefined): Promise<void> {
-  if (!holderMembershipId) throw new KitRuleError("Choose the student the kit is packed for.");
-  if (current.length > 1) throw new KitRuleError("Pack kits one at a time: each goes to its own student.");
+  if (!holderMembershipId) throw new AppError({ code: "kit_refused", message: "Choose the student the kit is packed for." });
+  if (current.length > 1) throw new AppError({ code: "kit_refused", message: "Pack kits one at a time: each goes to its own student." });
   const [holder] = await tx
     .select({ role: courseMemberships.role, removedAt: courseMemberships.removedAt, kitNumber: kits.number })
     .from(courseMemberships)
     .leftJoin(kits, eq(kits.holderMembershipId, courseMemberships.id))
     .where(and(eq(courseMemberships.id, holderMembershipId), eq(courseMemberships.courseId, courseId)));
-  if (!holder || holder.role !== "student" || holder.removedAt) throw new KitRuleError("Kits are packed for students of this course only.");
-  if (holder.kitNumber) throw new KitRuleError(`This student already holds kit ${holder.kitNumber}; one kit per student.`);
+  if (!holder || holder.role !== "student" || holder.removedAt) throw new AppError({ code: "kit_refused", message: "Kits are packed for students of this course only." });
+  if (holder.kitNumber) throw new AppError({ code: "kit_refused", message: `This student already holds kit ${holder.kitNumber}; one kit per student.` });
 }
 
 async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Kit[], shipping: Shipping): Promise<void> {
@@ -185,7 +181,7 @@ export async function checkInKit(
     const inKit = await tx.select({ partId: kitParts.partId, exclusive: kitParts.exclusive }).from(kitParts).where(eq(kitParts.kitId, kitId));
     const partIds = inKit.map((row) => row.partId);
     const unknown = [...Object.keys(conditions), ...remeasure].filter((id) => !partIds.includes(id));
-    if (unknown.length) throw new KitRuleError("The check-in names parts that are not in this kit.");
+    if (unknown.length) throw new AppError({ code: "kit_refused", message: "The check-in names parts that are not in this kit." });
     const lost = inKit.filter((row) => conditions[row.partId] === "damaged" || conditions[row.partId] === "missing");
     const toRemeasure = remeasure.filter((id) => !lost.some((row) => row.partId === id));
     // A broken sphere or column is retired; a spilled bottle leaves the rest of its fluid lot in service.

@@ -2,6 +2,7 @@
  * The course's measured parts: recording them, re-measuring them (history keeps old and new values),
  * and the checks that catch a mis-typed measurement before a student's reduction depends on it.
  */
+import { AppError } from "~/lib/app-error";
 import { and, asc, count, eq, ilike, inArray, sql, type SQL } from "drizzle-orm";
 import { kitParts, kits, partEvents, parts } from "~/db/schema";
 import { materialDensityRanges, sphereDensityKgM3, type PartInput, type PartKind } from "~/lib/kits/part-input";
@@ -96,11 +97,8 @@ async function inventoryForChecks(executor: Executor, courseId: string) {
     .where(and(eq(parts.courseId, courseId), inArray(parts.kind, ["fluid_lot", "column"]), sql`${parts.status} <> 'retired'`));
 }
 
-export class DuplicateLabelError extends Error {
-  constructor(readonly label: string) {
-    super(`The label ${label} is already used by another part in this course.`);
-  }
-}
+const duplicateLabel = (label: string, afterwards = "") =>
+  new AppError({ code: "duplicate_label", message: `The label ${label} is already used by another part in this course.${afterwards}`, field: "label" });
 
 export async function createPart(
   executor: Executor,
@@ -117,7 +115,7 @@ export async function createPart(
       return { part, warnings };
     });
   } catch (error) {
-    if (isUniqueViolation(error)) throw new DuplicateLabelError(input.label);
+    if (isUniqueViolation(error)) throw duplicateLabel(input.label);
     throw error;
   }
 }
@@ -167,7 +165,7 @@ export async function updatePart(
       return { part, warnings };
     });
   } catch (error) {
-    if (isUniqueViolation(error)) throw new DuplicateLabelError(input.label);
+    if (isUniqueViolation(error)) throw duplicateLabel(input.label);
     throw error;
   }
 }
@@ -287,13 +285,6 @@ export async function listInventory(executor: Executor, courseId: string) {
   return rows.map(({ part, kitNumber }) => ({ ...part, kitNumber }));
 }
 
-/** An import refused as a whole; `rows` are the rows with problems, each with its line in the file. */
-export class ImportRejectedError extends Error {
-  constructor(readonly rows: ImportRowCheck[]) {
-    super(rows.length ? `${rows.length} rows have problems; nothing was imported.` : "The file has no parts in it.");
-  }
-}
-
 /**
  * A CSV import, all or nothing: the rows are checked again here (the browser's preview is a
  * convenience, not a guarantee), then go in as one multi-row insert of parts and one of their
@@ -302,7 +293,7 @@ export class ImportRejectedError extends Error {
 export async function importParts(
   executor: Executor,
   { courseId, actorId, rows }: { courseId: string; actorId: string; rows: PartCsvRow[] },
-): Promise<{ created: number; warnings: { label: string; warnings: PartWarning[] }[] }> {
+): Promise<{ created: number; warnings: { label: string; warnings: PartWarning[] }[]; rejected: ImportRowCheck[] }> {
   try {
     return await executor.transaction(async (tx) => {
       const labels = rows.map((row) => (row.label ?? "").trim()).filter(Boolean);
@@ -311,7 +302,9 @@ export async function importParts(
         : [];
       const checks = checkImportRows(rows, taken.map((row) => row.label));
       const rejected = checks.filter((check) => check.problems.length > 0);
-      if (rejected.length > 0 || checks.length === 0) throw new ImportRejectedError(rejected);
+      if (checks.length === 0) throw new AppError({ code: "empty_import", message: "The file has no parts in it." });
+      // Refused as a whole, with each row's problems and its line in the file, for the page to list.
+      if (rejected.length > 0) return { created: 0, warnings: [], rejected };
       const inputs = checks.map((check) => check.input!);
 
       // A sphere is checked against the fluids and columns already on the shelf and those arriving with it.
@@ -334,6 +327,7 @@ export async function importParts(
       return {
         created: created.length,
         warnings: [...warningsByLabel].filter(([, warnings]) => warnings.length > 0).map(([label, warnings]) => ({ label, warnings })),
+        rejected: [],
       };
     });
   } catch (error) {
@@ -341,7 +335,7 @@ export async function importParts(
     if (isUniqueViolation(error)) {
       // PostgreSQL names the clash as "Key (course_id, label)=(…, S-12) already exists."
       const detail = (error as { cause?: { detail?: string } }).cause?.detail ?? "";
-      throw new DuplicateLabelError(/\)=\([^,]*, (.*)\) already exists/.exec(detail)?.[1] ?? "of one of these parts");
+      throw duplicateLabel(/\)=\([^,]*, (.*)\) already exists/.exec(detail)?.[1] ?? "of one of these parts", " Nothing was imported.");
     }
     throw error;
   }

@@ -5,6 +5,7 @@
  * the class size: the extensions, the hand-ins' late flags re-decided against the new windows, the
  * reminders for a new due time, and the audit entry.
  */
+import { AppError } from "~/lib/app-error";
 import { sql } from "drizzle-orm";
 import type { ExtensionWindowInput } from "~/lib/labs/extension-input";
 import { recordAudit } from "~/server/audit.server";
@@ -15,18 +16,6 @@ import { recomputeLateness } from "./effective-window.server";
 import { visibleCohortIds } from "./lab-dashboard.server";
 import { scheduleLabReminders } from "./lab-reminders.server";
 import type { LabWithCohorts } from "./labs.server";
-
-/** A write the extension rules refuse; `field` is the form field the message belongs next to. */
-export class ExtensionRuleError extends Error {
-  constructor(
-    message: string,
-    readonly field: string = "form",
-    readonly status: 400 | 403 = 400,
-  ) {
-    super(message);
-    this.name = "ExtensionRuleError";
-  }
-}
 
 export type ExtensionRow = {
   id: string;
@@ -97,7 +86,7 @@ export async function getExtensionsPage(executor: Executor, access: CourseAccess
 }
 
 function requireInstructor(access: CourseAccess): void {
-  if (!isInstructor(access)) throw new ExtensionRuleError("Only the course's instructors set or remove extensions.", "form", 403);
+  if (!isInstructor(access)) throw new AppError({ code: "extension_refused", message: "Only the course's instructors set or remove extensions.", status: 403 });
 }
 
 /**
@@ -112,9 +101,9 @@ export async function setExtensions(
 ): Promise<{ extended: number; relabelled: number; remindersScheduled: number }> {
   requireInstructor(access);
   const forCohort = "cohortId" in target;
-  if (forCohort && !lab.cohortIds.includes(target.cohortId)) throw new ExtensionRuleError("Choose one of the cohorts this lab is set for.", "cohortId");
+  if (forCohort && !lab.cohortIds.includes(target.cohortId)) throw new AppError({ code: "extension_refused", message: "Choose one of the cohorts this lab is set for.", field: "cohortId" });
   const membershipIds = forCohort ? [] : [...new Set(target.membershipIds)];
-  if (!forCohort && membershipIds.length === 0) throw new ExtensionRuleError("Choose at least one student.", "membershipIds");
+  if (!forCohort && membershipIds.length === 0) throw new AppError({ code: "extension_refused", message: "Choose at least one student.", field: "membershipIds" });
   const lateCutoffAt = window.lateCutoffAt ?? null;
 
   return executor.transaction(async (tx) => {
@@ -143,7 +132,7 @@ export async function setExtensions(
         exists (select 1 from pgboss.job j where j.name = ${queues.labReminder} and j.data->>'labId' = ${lab.id}
           and (j.data->>'dueAt')::timestamptz = ${window.dueAt}::timestamptz) as queued`);
     const { written, queued } = result.rows[0];
-    if (!forCohort && written !== membershipIds.length) throw new ExtensionRuleError("Choose active students of the cohorts this lab is set for.", "membershipIds");
+    if (!forCohort && written !== membershipIds.length) throw new AppError({ code: "extension_refused", message: "Choose active students of the cohorts this lab is set for.", field: "membershipIds" });
 
     const relabelled = await recomputeLateness(tx, lab.id);
     const newDueTime = !queued && window.dueAt.getTime() !== lab.dueAt.getTime();
@@ -178,7 +167,7 @@ export async function removeExtension(
       delete from lab_extensions where id = ${extensionId} and lab_id = ${lab.id}
       returning membership_id as "membershipId", cohort_id as "cohortId", to_json(due_at)#>>'{}' as "dueAt", to_json(late_cutoff_at)#>>'{}' as "lateCutoffAt", reason`);
     const [extension] = removed.rows;
-    if (!extension) throw new ExtensionRuleError("That extension is no longer there.");
+    if (!extension) throw new AppError({ code: "extension_refused", message: "That extension is no longer there." });
     const relabelled = await recomputeLateness(tx, lab.id);
     await recordAudit(tx, { action: "lab.extension_removed", actorId: access.user.id, courseId: lab.courseId, subject: `lab:${lab.id}`, detail: { ...extension, relabelled }, request });
     return { relabelled };

@@ -3,6 +3,7 @@
  * (which schedules its deadline reminders on the same transaction), and close it. The hand-in side is
  * in `~/server/drop-logs/`; the reminders' job is in `./lab-reminders.server.ts`.
  */
+import { AppError } from "~/lib/app-error";
 import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
 import { cohorts, labCohorts, labExtensions, labs, parts } from "~/db/schema";
 import { allowedPartFields, allowedPartIdsOf, type AllowedPartKind, type LabInput } from "~/lib/labs/lab-input";
@@ -15,17 +16,6 @@ import { scheduleLabReminders } from "./lab-reminders.server";
 export type LabRecord = typeof labs.$inferSelect;
 export type LabWithCohorts = LabRecord & { cohortIds: string[] };
 export type LabIntent = "save" | "publish" | "close";
-
-/** A change the lab's rules refuse; `field` is the form field the message belongs next to. */
-export class LabRuleError extends Error {
-  constructor(
-    message: string,
-    readonly field: string = "form",
-  ) {
-    super(message);
-    this.name = "LabRuleError";
-  }
-}
 
 /** The course's cohorts and the in-service parts a lab may be limited to, for the lab form: two statements side by side. */
 export async function getLabFormOptions(executor: Executor, courseId: string) {
@@ -69,10 +59,10 @@ async function checkOwnership(executor: Executor, courseId: string, input: LabIn
   const result = await executor.execute<Record<"cohorts" | AllowedPartKind, number>>(sql`
     select (select count(*)::int from cohorts where course_id = ${courseId} and id in ${ids(input.cohortIds)}) as cohorts, ${sql.join(partCounts, sql`, `)}`);
   const counts = result.rows[0];
-  if (counts.cohorts !== new Set(input.cohortIds).size) throw new LabRuleError("Choose cohorts of this course.", "cohortIds");
+  if (counts.cohorts !== new Set(input.cohortIds).size) throw new AppError({ code: "lab_refused", message: "Choose cohorts of this course.", field: "cohortIds" });
   for (const kind of kinds) {
     const field = allowedPartFields[kind];
-    if (counts[kind] !== new Set(input[field]).size) throw new LabRuleError(`Choose ${partKindNames[kind]} of this course's inventory.`, field);
+    if (counts[kind] !== new Set(input[field]).size) throw new AppError({ code: "lab_refused", message: `Choose ${partKindNames[kind]} of this course's inventory.`, field });
   }
 }
 
@@ -113,10 +103,10 @@ export async function updateLab(
 ): Promise<LabRecord> {
   return executor.transaction(async (tx) => {
     const [before] = await tx.select().from(labs).where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id))).for("update");
-    if (!before) throw new LabRuleError("There is no such lab in this course.");
+    if (!before) throw new AppError({ code: "lab_refused", message: "There is no such lab in this course." });
     await checkOwnership(tx, access.course.id, input);
     const publishing = intent === "publish";
-    if (publishing && input.cohortIds.length === 0) throw new LabRuleError("Choose at least one cohort to publish the lab to.", "cohortIds");
+    if (publishing && input.cohortIds.length === 0) throw new AppError({ code: "lab_refused", message: "Choose at least one cohort to publish the lab to.", field: "cohortIds" });
     const status = publishing ? "published" : before.status;
     const [lab] = await tx
       .update(labs)
@@ -154,7 +144,7 @@ export async function closeLab(executor: Executor, { access, labId, request, now
       .set({ status: "closed", updatedAt: now })
       .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id), eq(labs.status, "published")))
       .returning();
-    if (!lab) throw new LabRuleError("Only a published lab can be closed.");
+    if (!lab) throw new AppError({ code: "lab_refused", message: "Only a published lab can be closed." });
     await recordAudit(tx, { action: "lab.closed", actorId: access.user.id, courseId: access.course.id, subject: `lab:${labId}`, detail: { title: lab.title }, request });
     return lab;
   });

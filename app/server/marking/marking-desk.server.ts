@@ -10,7 +10,7 @@ import { maxTotalOf } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
 import { deskRow, loadClassLabels, loadStudentMarkRows, type MarkingDeskRow } from "./mark-rows.server";
-import { assertMarkingStaff, markableCohortIds, MarkingRefusedError, type MarkingLab } from "./marking-lab.server";
+import { assertMarkingStaff, markableCohortIds, markingRefusal, type MarkingLab } from "./marking-lab.server";
 
 // The filter definitions are pure (the page uses them in the browser); re-exported here for the loader.
 export {
@@ -96,7 +96,7 @@ export async function loadMarkingDesk(
   await assertMarkingStaff(executor, access, lab);
   const allowed = markableCohortIds(access, lab);
   // The filter offers only these cohorts: any other id is a URL made by hand, answered 400 like any bad filter.
-  if (filters.cohortId && !allowed.includes(filters.cohortId)) throw new MarkingRefusedError("invalid_value", "That cohort is not one you mark for this lab.", "cohort");
+  if (filters.cohortId && !allowed.includes(filters.cohortId)) throw markingRefusal("invalid_value", "That cohort is not one you mark for this lab.", "cohort");
   const cohortIds = filters.cohortId ? [filters.cohortId] : allowed;
   const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: allowed, now }), loadClassLabels(executor, lab)]);
 

@@ -3,6 +3,7 @@
  * statement), who may mark it, and the refusals every marking function throws. Instructors mark every
  * cohort of a lab; a TA only the students of their own cohorts among the lab's; students never.
  */
+import { AppError } from "~/lib/app-error";
 import { and, eq, sql } from "drizzle-orm";
 import { data } from "react-router";
 import { z } from "zod";
@@ -68,21 +69,11 @@ const refusalStatus: Record<MarkingRefusalCode, number> = {
 };
 
 /**
- * Something marking refuses, with the HTTP status a route should answer. `field` names the form
- * field the message belongs next to; `membershipIds` the students a bulk action was refused for.
+ * Something marking refuses, with the HTTP status its code stands for. `field` names the form field
+ * the message belongs next to; `membershipIds` the students a bulk action was refused for.
  */
-export class MarkingRefusedError extends Error {
-  readonly status: number;
-  constructor(
-    readonly code: MarkingRefusalCode,
-    message: string,
-    readonly field: string = "form",
-    readonly membershipIds: string[] = [],
-  ) {
-    super(message);
-    this.name = "MarkingRefusedError";
-    this.status = refusalStatus[code];
-  }
+export function markingRefusal(code: MarkingRefusalCode, message: string, field?: string, membershipIds: string[] = []): AppError {
+  return new AppError({ code, message, status: refusalStatus[code], field, subjectIds: membershipIds });
 }
 
 type CriterionRow = Omit<RubricCriterion, "autoParams"> & { autoParams: RubricCriterion["autoParams"] | null };
@@ -141,14 +132,14 @@ export function markableCohortIds(access: CourseAccess, lab: Pick<MarkingLab, "c
 }
 
 /** Records a refusal in the audit trail as the access checks do, then throws it. */
-export async function refuse(executor: Executor, access: CourseAccess, refusal: MarkingRefusedError, subject: string): Promise<never> {
+export async function refuse(executor: Executor, access: CourseAccess, refusal: AppError, subject: string): Promise<never> {
   if (refusal.status === 403) {
     await recordAudit(executor, {
       action: "access.denied",
       actorId: access.user.id,
       courseId: access.course.id,
       subject,
-      detail: { reason: refusal.code, message: refusal.message, ...(refusal.membershipIds.length ? { students: refusal.membershipIds.length } : {}) },
+      detail: { reason: refusal.code, message: refusal.message, ...(refusal.subjectIds.length ? { students: refusal.subjectIds.length } : {}) },
     });
   }
   throw refusal;
@@ -157,13 +148,13 @@ export async function refuse(executor: Executor, access: CourseAccess, refusal: 
 /** Staff of the lab: instructors, and TAs of one of its cohorts. Anyone else is refused (and recorded). */
 export async function assertMarkingStaff(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id" | "cohortIds">): Promise<void> {
   if (access.membership.role === "instructor") return;
-  if (access.membership.role === "student") await refuse(executor, access, new MarkingRefusedError("forbidden", "Marking is for the course's staff."), `lab:${lab.id}`);
-  if (markableCohortIds(access, lab).length === 0) await refuse(executor, access, new MarkingRefusedError("not_in_cohort", "None of this lab's cohorts is assigned to you."), `lab:${lab.id}`);
+  if (access.membership.role === "student") await refuse(executor, access, markingRefusal("forbidden", "Marking is for the course's staff."), `lab:${lab.id}`);
+  if (markableCohortIds(access, lab).length === 0) await refuse(executor, access, markingRefusal("not_in_cohort", "None of this lab's cohorts is assigned to you."), `lab:${lab.id}`);
 }
 
 /** Instructors of the course only (moderation, release, the mark history). */
 export async function assertInstructor(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id">): Promise<void> {
-  if (access.membership.role !== "instructor") await refuse(executor, access, new MarkingRefusedError("instructors_only", "Only the course's instructors may do this."), `lab:${lab.id}`);
+  if (access.membership.role !== "instructor") await refuse(executor, access, markingRefusal("instructors_only", "Only the course's instructors may do this."), `lab:${lab.id}`);
 }
 
 /**
@@ -189,8 +180,3 @@ export async function requireMarkingAccess(
   return { access, lab };
 }
 
-/** A refusal as a route answers it: JSON under /api/, else `data(message, status)` for the error page or a fetcher. */
-export function refusalResponse(request: Request, error: MarkingRefusedError) {
-  if (isApiRequest(request)) return apiErrorResponse(error.status, error.code, error.message);
-  return data({ error: { code: error.code, message: error.message, field: error.field, membershipIds: error.membershipIds } }, { status: error.status });
-}

@@ -5,11 +5,12 @@
  * whatever the number of students. A save names the mark version it started from; when another save
  * got there first, nothing is written and the caller gets the current mark (a conflict).
  */
+import { AppError } from "~/lib/app-error";
 import { sql } from "drizzle-orm";
 import { markChanges } from "~/db/schema";
 import { suggestAutomaticCriteria, type AutoSuggestion } from "~/lib/marking/automatic-criteria";
 import { MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
-import { applyMarkChange, freezeSuggestions, markChange as markChangeSchema, markTotals, MarkValueError, sameContent, unfreezeSuggestions, type MarkChange, type MarkContent, type MarkState, type MarkTotals } from "~/lib/marking/marks";
+import { applyMarkChange, freezeSuggestions, markChange as markChangeSchema, markTotals, sameContent, unfreezeSuggestions, type MarkChange, type MarkContent, type MarkState, type MarkTotals } from "~/lib/marking/marks";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
@@ -25,7 +26,7 @@ import {
   type StoredMark,
   type StudentMarkRow,
 } from "./mark-rows.server";
-import { loadMarkingLab, markableCohortIds, MarkingRefusedError, refuse, type MarkingLab } from "./marking-lab.server";
+import { loadMarkingLab, markableCohortIds, markingRefusal, refuse, type MarkingLab } from "./marking-lab.server";
 
 export type MarkChangeSource = "desk" | "bulk" | "moderation";
 
@@ -79,18 +80,18 @@ const stateOf = (content: MarkContent, total: number, dropLogVersionId: string |
   dropLogVersionId,
 });
 
-/** The one write path. Refusals are thrown as `MarkingRefusedError`; the caller records the 403s. */
+/** The one write path. Refusals are thrown as `AppError`s; the caller records the 403s. */
 async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab: MarkingLab; labels: ClassLabels; written: Written[] }> {
   const { access, labId, targets, source } = request;
   await tx.execute(markingLock(labId, "shared"));
   const lab = await loadMarkingLab(tx, access.course.id, labId);
-  if (!lab) throw new MarkingRefusedError("lab_not_found", "There is no such lab in this course.");
+  if (!lab) throw markingRefusal("lab_not_found", "There is no such lab in this course.");
   const role = access.membership.role;
-  if (role === "student") throw new MarkingRefusedError("forbidden", "Marking is for the course's staff.");
-  if (source === "moderation" && role !== "instructor") throw new MarkingRefusedError("instructors_only", "Only the course's instructors moderate marks.");
-  if (role === "ta" && lab.marking.readyAt) throw new MarkingRefusedError("marking_closed", "The instructor has marked this lab's marking as ready: marks can no longer be changed at the desk.");
+  if (role === "student") throw markingRefusal("forbidden", "Marking is for the course's staff.");
+  if (source === "moderation" && role !== "instructor") throw markingRefusal("instructors_only", "Only the course's instructors moderate marks.");
+  if (role === "ta" && lab.marking.readyAt) throw markingRefusal("marking_closed", "The instructor has marked this lab's marking as ready: marks can no longer be changed at the desk.");
   const parsed = markChangeSchema.safeParse(request.change);
-  if (!parsed.success) throw new MarkingRefusedError("invalid_value", parsed.error.issues[0]?.message ?? "The change cannot be read.", String(parsed.error.issues[0]?.path[0] ?? "form"));
+  if (!parsed.success) throw markingRefusal("invalid_value", parsed.error.issues[0]?.message ?? "The change cannot be read.", String(parsed.error.issues[0]?.path[0] ?? "form"));
   const change: MarkChange = parsed.data;
 
   const cohortIds = markableCohortIds(access, lab);
@@ -102,7 +103,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   const byMembership = new Map(rows.map((row) => [row.membershipId, row]));
   const outside = membershipIds.filter((id) => !byMembership.has(id));
   if (outside.length) {
-    throw new MarkingRefusedError(
+    throw markingRefusal(
       "not_in_cohort",
       outside.length === 1 ? "One of these students is not a student of your cohorts for this lab: nothing was changed." : `${outside.length} of these students are not students of your cohorts for this lab: nothing was changed.`,
       "membershipIds",
@@ -132,7 +133,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
     try {
       content = applyMarkChange(lab.rubric, mark, change, { released });
     } catch (error) {
-      if (error instanceof MarkValueError) throw new MarkingRefusedError("invalid_value", error.message, error.field, [target.membershipId]);
+      if (error instanceof AppError) throw markingRefusal("invalid_value", error.message, error.field, [target.membershipId]);
       throw error;
     }
     // A write marks the counted version: the suggestions after it are the counted version's.
@@ -156,7 +157,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
     });
   }
   if (needingReason.length) {
-    throw new MarkingRefusedError(
+    throw markingRefusal(
       "reason_required",
       source === "moderation" ? "Say why the mark is adjusted: it is kept with the change." : "This mark is released: say why it changes, the student is shown the reason.",
       "reason",
@@ -247,7 +248,7 @@ async function runWrite(executor: Executor, request: WriteRequest) {
   try {
     return await executor.transaction((tx) => writeMarks(tx, request));
   } catch (error) {
-    if (error instanceof MarkingRefusedError && error.status === 403) await refuse(executor, request.access, error, `lab:${request.labId}`);
+    if (error instanceof AppError && error.status === 403) await refuse(executor, request.access, error, `lab:${request.labId}`);
     throw error;
   }
 }
@@ -323,8 +324,8 @@ export async function applyToMany(
   }: { access: CourseAccess; labId: string; membershipIds: string[]; change: MarkChange; reason?: string | null; source?: "bulk" | "moderation" },
 ): Promise<ApplyToManyResult> {
   const unique = [...new Set(membershipIds)];
-  if (unique.length === 0) throw new MarkingRefusedError("invalid_value", "Select at least one student.", "membershipIds");
-  if (unique.length > MAX_BULK_STUDENTS) throw new MarkingRefusedError("invalid_value", `Select at most ${MAX_BULK_STUDENTS} students at once.`, "membershipIds");
+  if (unique.length === 0) throw markingRefusal("invalid_value", "Select at least one student.", "membershipIds");
+  if (unique.length > MAX_BULK_STUDENTS) throw markingRefusal("invalid_value", `Select at most ${MAX_BULK_STUDENTS} students at once.`, "membershipIds");
   try {
     const { written } = await runWrite(executor, { access, labId, targets: unique.map((membershipId) => ({ membershipId })), change, source, reason });
     const changed = written.filter((entry) => entry.changed).length;
@@ -335,7 +336,7 @@ export async function applyToMany(
     };
   } catch (error) {
     if (error instanceof VersionConflict) {
-      throw new MarkingRefusedError("conflict", "Someone else changed some of these marks meanwhile: nothing was changed. Reload and try again.", "membershipIds", error.membershipIds);
+      throw markingRefusal("conflict", "Someone else changed some of these marks meanwhile: nothing was changed. Reload and try again.", "membershipIds", error.membershipIds);
     }
     throw error;
   }

@@ -24,7 +24,7 @@ import { sendEmails } from "~/server/email/send-email.server";
 import { suggestAutomaticCriteria } from "~/lib/marking/automatic-criteria";
 import { deskRow, evidenceOf, loadClassLabels, loadStudentMarkRows, rubricNeedsLabels, type ClassLabels, type MarkingDeskRow, type StudentMarkRow } from "./mark-rows.server";
 import { markingLock } from "./marks.server";
-import { assertInstructor, loadMarkingLab, MarkingRefusedError, type MarkingLab, type MarkingState } from "./marking-lab.server";
+import { assertInstructor, loadMarkingLab, markingRefusal, type MarkingLab, type MarkingState } from "./marking-lab.server";
 
 /** Summary statistics of a set of totals; `standardDeviation` is the sample one (n − 1), null below two marks. */
 export type TotalsSummary = {
@@ -267,13 +267,13 @@ export async function releaseMarks(
   return executor.transaction(async (tx) => {
     await tx.execute(markingLock(labId, "exclusive"));
     const lab = await loadMarkingLab(tx, access.course.id, labId);
-    if (!lab) throw new MarkingRefusedError("lab_not_found", "There is no such lab in this course.");
-    if (!lab.marking.readyAt) throw new MarkingRefusedError("not_ready", "Mark the lab's marking as ready before releasing it.");
+    if (!lab) throw markingRefusal("lab_not_found", "There is no such lab in this course.");
+    if (!lab.marking.readyAt) throw markingRefusal("not_ready", "Mark the lab's marking as ready before releasing it.");
     const [students, labels, windows] = await Promise.all([loadStudentMarkRows(tx, lab, { cohortIds: lab.cohortIds }), loadLabelsFor(tx, lab), loadHandInWindows(tx, labId)]);
     const rows = students.map((student) => deskRow(lab, student, labels));
     const { preview, standings } = previewRelease(rows, windows, now);
     if (preview.stillOpen.students > 0 && !choice.whileOpen) {
-      throw new MarkingRefusedError(
+      throw markingRefusal(
         "still_open",
         `${preview.stillOpen.students} student${preview.stillOpen.students === 1 ? "" : "s"} may still hand in (extensions counted). Confirm that you release while hand-ins are still possible.`,
         "whileOpen",
@@ -298,7 +298,7 @@ export async function releaseMarks(
         update marks mk set scores = r.scores, total = r.total, released_at = ${releasedAt}::timestamptz, released_snapshot = r.snapshot
         from json_to_recordset(${JSON.stringify(payload)}::json) as r(id uuid, version int, scores jsonb, total float8, snapshot jsonb)
         where mk.id = r.id and mk.version = r.version and mk.released_at is null`);
-      if ((result.rowCount ?? 0) !== payload.length) throw new MarkingRefusedError("conflict", "Marks changed while releasing: nothing was released. Try again.");
+      if ((result.rowCount ?? 0) !== payload.length) throw markingRefusal("conflict", "Marks changed while releasing: nothing was released. Try again.");
     }
     if (toZero.length) {
       const zero = zeroMark(lab.rubric);
@@ -312,7 +312,7 @@ export async function releaseMarks(
         from json_to_recordset(${JSON.stringify(toZero.map((row) => ({ membership_id: row.membershipId })))}::json) as r(membership_id uuid)
         on conflict (lab_id, membership_id) do nothing
         returning id, membership_id as "membershipId"`);
-      if (created.rows.length !== toZero.length) throw new MarkingRefusedError("conflict", "Marks changed while releasing: nothing was released. Try again.");
+      if (created.rows.length !== toZero.length) throw markingRefusal("conflict", "Marks changed while releasing: nothing was released. Try again.");
       await insertMany(
         tx,
         markChanges,

@@ -3,6 +3,7 @@
  * the scores given for them stay), or copied from another lab of the course. Once a mark of the lab
  * is released the rubric is locked: students have seen it.
  */
+import { AppError, type ErrorIssue } from "~/lib/app-error";
 import { randomUUID } from "node:crypto";
 import { and, count, eq, isNotNull, ne, sql } from "drizzle-orm";
 import { labs, marks, rubricCriteria } from "~/db/schema";
@@ -11,19 +12,16 @@ import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
 import { markingLock } from "./marks.server";
-import { assertInstructor, loadMarkingLab, MarkingRefusedError, type MarkingLab } from "./marking-lab.server";
+import { assertInstructor, loadMarkingLab, markingRefusal, type MarkingLab } from "./marking-lab.server";
 
 /** A rubric the form sends that the schema refuses: the issues, by path, for the fields. */
-export class RubricInputError extends MarkingRefusedError {
-  constructor(readonly issues: { path: (string | number)[]; message: string }[]) {
-    super("invalid_value", issues[0]?.message ?? "The rubric cannot be read.", issues[0]?.path.join(".") || "form");
-    this.name = "RubricInputError";
-  }
+function rubricInputError(issues: ErrorIssue[]): AppError {
+  return new AppError({ code: "invalid_value", message: issues[0]?.message ?? "The rubric cannot be read.", field: issues[0]?.path.join("."), issues });
 }
 
 async function assertUnreleased(executor: Executor, labId: string): Promise<void> {
   const [row] = await executor.select({ released: count() }).from(marks).where(and(eq(marks.labId, labId), isNotNull(marks.releasedAt)));
-  if (row.released > 0) throw new MarkingRefusedError("rubric_locked", "Marks of this lab are released: its rubric can no longer change.");
+  if (row.released > 0) throw markingRefusal("rubric_locked", "Marks of this lab are released: its rubric can no longer change.");
 }
 
 /**
@@ -37,10 +35,10 @@ export async function saveRubric(
 ): Promise<RubricCriterion[]> {
   await assertInstructor(executor, access, lab);
   const parsed = rubricInput.safeParse(input);
-  if (!parsed.success) throw new RubricInputError(parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)), message: issue.message })));
+  if (!parsed.success) throw rubricInputError(parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)), message: issue.message })));
   const known = new Set(lab.rubric.map((criterion) => criterion.id));
   const foreign = parsed.data.criteria.findIndex((criterion) => criterion.id && !known.has(criterion.id));
-  if (foreign >= 0) throw new RubricInputError([{ path: ["criteria", foreign, "id"], message: "This criterion is not one of this lab's." }]);
+  if (foreign >= 0) throw rubricInputError([{ path: ["criteria", foreign, "id"], message: "This criterion is not one of this lab's." }]);
 
   return executor.transaction(async (tx) => {
     // Exclusive: no save reads the rubric while it changes.
@@ -94,12 +92,12 @@ export async function copyRubric(
 ): Promise<RubricCriterion[]> {
   await assertInstructor(executor, access, lab);
   const source = fromLabId === lab.id ? null : await loadMarkingLab(executor, access.course.id, fromLabId);
-  if (!source) throw new MarkingRefusedError("lab_not_found", "Choose another lab of this course to copy from.", "fromLabId");
-  if (source.rubric.length === 0) throw new MarkingRefusedError("invalid_value", `“${source.title}” has no rubric to copy.`, "fromLabId");
+  if (!source) throw markingRefusal("lab_not_found", "Choose another lab of this course to copy from.", "fromLabId");
+  if (source.rubric.length === 0) throw markingRefusal("invalid_value", `“${source.title}” has no rubric to copy.`, "fromLabId");
   return executor.transaction(async (tx) => {
     await tx.execute(markingLock(lab.id, "exclusive"));
     const [row] = await tx.select({ marks: count() }).from(marks).where(eq(marks.labId, lab.id));
-    if (row.marks > 0) throw new MarkingRefusedError("rubric_locked", "This lab already has marks: edit its rubric rather than replacing it.");
+    if (row.marks > 0) throw markingRefusal("rubric_locked", "This lab already has marks: edit its rubric rather than replacing it.");
     await tx.delete(rubricCriteria).where(eq(rubricCriteria.labId, lab.id));
     const copied = await tx.execute<RubricCriterion>(sql`
       insert into rubric_criteria (lab_id, position, title, description, kind, levels, min_points, max_points, auto_rule, auto_params)

@@ -9,7 +9,7 @@ import { markTotals } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
-import { MarkingRefusedError, refuse } from "./marking-lab.server";
+import { markingRefusal, refuse } from "./marking-lab.server";
 
 export type StudentMarkCriterion = {
   id: string;
@@ -74,7 +74,7 @@ type Row = {
 
 /** The signed-in student's released mark for the lab, or null before release (or when they have none). Staff are refused: they cannot act as a student. */
 export async function loadStudentMark(executor: Executor, { access, labId }: { access: CourseAccess; labId: string }): Promise<StudentMark | null> {
-  if (access.membership.role !== "student") await refuse(executor, access, new MarkingRefusedError("forbidden", "Only the student sees their own mark here."), `lab:${labId}`);
+  if (access.membership.role !== "student") await refuse(executor, access, markingRefusal("forbidden", "Only the student sees their own mark here."), `lab:${labId}`);
   const result = await executor.execute<Row>(sql`
     select l.title as "labTitle", to_json(mk.released_at)#>>'{}' as "releasedAt", mk.scores, mk.feedback, mk.late_penalty_points as "latePenaltyPoints",
       mk.released_snapshot as "releasedSnapshot",

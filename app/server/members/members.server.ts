@@ -2,14 +2,13 @@
  * A course's members as the members page shows them, and role changes. Moving students between cohorts
  * and removing members live with the course rules (`~/server/courses/courses.server`).
  */
+import { AppError } from "~/lib/app-error";
 import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
 import { cohorts, courseMemberships, invitations, kits, taCohortAssignments, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseRole } from "~/server/auth/access.server";
 import { revokeTokensOfFormerStaff } from "~/server/auth/api-tokens.server";
 import { db } from "~/server/db.server";
-
-export class MemberRuleError extends Error {}
 
 /** Every active member with their cohort, or the cohorts a TA marks: one statement. */
 export function listMembers(courseId: string) {
@@ -76,11 +75,11 @@ export async function changeMemberRole(
       .from(courseMemberships)
       .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)))
       .for("update");
-    if (!member) throw new MemberRuleError("That person is not a member of this course.");
-    if (member.userId === actorId) throw new MemberRuleError("You cannot change your own role; ask another instructor.");
+    if (!member) throw new AppError({ code: "member_refused", message: "That person is not a member of this course." });
+    if (member.userId === actorId) throw new AppError({ code: "member_refused", message: "You cannot change your own role; ask another instructor." });
     if (cohortId) {
       const [cohort] = await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
-      if (!cohort) throw new MemberRuleError("That cohort is not in this course.");
+      if (!cohort) throw new AppError({ code: "member_refused", message: "That cohort is not in this course." });
     }
     const newCohortId = role === "student" ? cohortId : null;
     await tx.update(courseMemberships).set({ role, cohortId: newCohortId }).where(eq(courseMemberships.id, membershipId));
@@ -114,10 +113,10 @@ export async function removeMember(
       .select({ role: courseMemberships.role, userId: courseMemberships.userId })
       .from(courseMemberships)
       .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId)));
-    if (!member) throw new MemberRuleError("That person is not a member of this course.");
-    if (member.userId === actorId) throw new MemberRuleError("You cannot remove yourself; ask another instructor.");
+    if (!member) throw new AppError({ code: "member_refused", message: "That person is not a member of this course." });
+    if (member.userId === actorId) throw new AppError({ code: "member_refused", message: "You cannot remove yourself; ask another instructor." });
     const [holding] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderMembershipId, membershipId));
-    if (holding) throw new MemberRuleError(`This student still holds kit ${holding.number}; check it in first.`);
+    if (holding) throw new AppError({ code: "member_refused", message: `This student still holds kit ${holding.number}; check it in first.` });
     await tx.update(courseMemberships).set({ removedAt: new Date() }).where(eq(courseMemberships.id, membershipId));
     await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
     await revokeTokensOfFormerStaff(tx, member.userId, actorId, request);
