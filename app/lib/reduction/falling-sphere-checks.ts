@@ -59,10 +59,8 @@ export interface CheckFacts {
   runIn: RunIn;
   uncertainty: ReductionUncertainty;
   uDensityExcess: number;
-  /** With no correction chosen and a column: the wall effect the reduction neglects, as the nearest factor estimates it. */
-  neglectedWall: { estimate: AppliedWallCorrection; factor: number } | null;
-  /** Whether the flow is beyond the creeping flow the wall factors assume (the applied factor, or the estimate's). */
-  beyondCreepingFlow: boolean;
+  /** See {@link neglectedWallOf}. */
+  neglectedWall: { estimate: AppliedWallCorrection; factor: number; beyondCreepingFlow: boolean } | null;
 }
 
 interface CheckRule {
@@ -194,7 +192,7 @@ const CHECKS: readonly CheckRule[] = [
     message: (facts) => {
       const widest = widestWallModel(facts);
       const factor = facts.neglectedWall?.factor ?? facts.wall.factor;
-      return `d/D = ${format(diameterRatioOf(facts))} is beyond every wall factor's range (${facts.beyondCreepingFlow ? "beyond creeping flow, Di Felice's" : "in creeping flow, Francis'"} reaches d/D ≤ ${widest.maxDiameterRatio}; ${widest.source})${facts.kinematics.wallMethod === "none" ? "" : `: K = ${format(factor)} is extrapolated`}, and the results are not reliable. Use a smaller sphere or a wider column.`;
+      return `d/D = ${format(diameterRatioOf(facts))} is beyond every wall factor's range (${beyondCreepingFlow(facts) ? "beyond creeping flow, Di Felice's" : "in creeping flow, Francis'"} reaches d/D ≤ ${widest.maxDiameterRatio}; ${widest.source})${facts.kinematics.wallMethod === "none" ? "" : `: K = ${format(factor)} is extrapolated`}, and the results are not reliable. Use a smaller sphere or a wider column.`;
     },
   },
   {
@@ -231,25 +229,22 @@ const CHECKS: readonly CheckRule[] = [
 /** Where the stray-drop test's finding goes in the list: after the drop counts, as the results read. */
 const STRAY_DROP_FINDING_AT = 2;
 
-/** The facts the checks share: the wall effect a reduction without a correction neglects is worked out once. */
-export function checkFactsOf(facts: Omit<CheckFacts, "neglectedWall" | "beyondCreepingFlow">): CheckFacts {
-  const { kinematics, wall } = facts;
+/**
+ * With no correction chosen and a column: the wall effect the reduction neglects, as the nearest factor
+ * estimates it at the measured velocity's Re, and whether that flow is beyond creeping flow.
+ */
+export function neglectedWallOf(kinematics: Kinematics, measuredVelocity: number): CheckFacts["neglectedWall"] {
   const diameterRatio = kinematics.diameterRatio;
-  let neglectedWall: CheckFacts["neglectedWall"] = null;
-  let beyondCreepingFlow = wall.applied === "di-felice";
-  if (diameterRatio !== null && kinematics.wallMethod === "none") {
-    // What the wall does, as the reduction would have corrected it; at the measured velocity's Re, an estimate.
-    const measuredVelocity = facts.main.velocity.measured;
-    const reynolds = kinematics.reynoldsScale * (kinematics.reynoldsPower === 1 ? measuredVelocity : measuredVelocity * measuredVelocity);
-    beyondCreepingFlow = inertialWallShift(diameterRatio, reynolds) > CREEPING_FLOW_WALL_TOLERANCE;
-    const estimate: AppliedWallCorrection = beyondCreepingFlow
-      ? "di-felice"
-      : diameterRatio <= WALL_MODEL_RANGES["haberman-sayre"].maxDiameterRatio
-        ? "haberman-sayre"
-        : "francis";
-    neglectedWall = { estimate, factor: estimate === "di-felice" ? diFeliceWallFactor(diameterRatio, reynolds) : wallFactor(diameterRatio, estimate) };
-  }
-  return { ...facts, neglectedWall, beyondCreepingFlow };
+  if (diameterRatio === null || kinematics.wallMethod !== "none") return null;
+  const reynolds = kinematics.reynoldsScale * (kinematics.reynoldsPower === 1 ? measuredVelocity : measuredVelocity * measuredVelocity);
+  const beyondCreepingFlow = inertialWallShift(diameterRatio, reynolds) > CREEPING_FLOW_WALL_TOLERANCE;
+  const estimate: AppliedWallCorrection = beyondCreepingFlow
+    ? "di-felice"
+    : diameterRatio <= WALL_MODEL_RANGES["haberman-sayre"].maxDiameterRatio
+      ? "haberman-sayre"
+      : "francis";
+  const factor = estimate === "di-felice" ? diFeliceWallFactor(diameterRatio, reynolds) : wallFactor(diameterRatio, estimate);
+  return { estimate, factor, beyondCreepingFlow };
 }
 
 export function reductionChecks(facts: CheckFacts): ReductionCheck[] {
@@ -295,6 +290,11 @@ function correctedBeyondCreepingFlow({ kinematics, wall }: CheckFacts): boolean 
   return kinematics.diameterRatio !== null && kinematics.wallMethod !== "none" && wall.applied === "di-felice";
 }
 
-function widestWallModel({ beyondCreepingFlow }: CheckFacts) {
-  return beyondCreepingFlow ? WALL_MODEL_RANGES["di-felice"] : WALL_MODEL_RANGES.francis;
+/** Beyond the creeping flow the wall factors assume: the applied factor's flow, or the estimate's when none was applied. */
+function beyondCreepingFlow({ neglectedWall, wall }: CheckFacts): boolean {
+  return neglectedWall ? neglectedWall.beyondCreepingFlow : wall.applied === "di-felice";
+}
+
+function widestWallModel(facts: CheckFacts) {
+  return beyondCreepingFlow(facts) ? WALL_MODEL_RANGES["di-felice"] : WALL_MODEL_RANGES.francis;
 }

@@ -1,6 +1,6 @@
 import type { DragModel } from "./drag";
 import { IssueList } from "./errors";
-import { checkFactsOf, reductionChecks, refuseUnknownBuoyancy } from "./falling-sphere-checks";
+import { neglectedWallOf, reductionChecks, refuseUnknownBuoyancy } from "./falling-sphere-checks";
 import { dropSetsOf, keyResultsOf, kinematicsOf, runInOf, sphereDensityOf, wallCorrectionAt } from "./falling-sphere-kinematics";
 import { budgetContextOf, densityExcessUncertainty, relativeUncertainty, type StandardUncertainties } from "./falling-sphere-uncertainty";
 import type { DropStatistics } from "./statistics";
@@ -218,7 +218,8 @@ export function reduceFallingSphere(input: FallingSphereInput): Reduction {
   const uDensityExcess = densityExcessUncertainty(input, kinematics, uncertainty);
   refuseUnknownBuoyancy(kinematics, uDensityExcess);
   const uncertaintyBudget = fallingSphereBudget(budgetContextOf(input, kinematics, drops.all, wall, main, uncertainty));
-  const checks = reductionChecks(checkFactsOf({ input, kinematics, drops, wall, main, runIn, uncertainty, uDensityExcess }));
+  const neglectedWall = neglectedWallOf(kinematics, main.velocity.measured);
+  const checks = reductionChecks({ input, kinematics, drops, wall, main, runIn, uncertainty, uDensityExcess, neglectedWall });
 
   // Built as literals, not with object spread: spreading a dozen fields per log was the bench's hot spot.
   const { all } = drops;
