@@ -4,8 +4,9 @@
  * the strip of normalised figures with the method's limits. Every point links to its hand-in.
  */
 import { scaleLinear, scaleLog, scaleSequential } from "d3-scale";
-import { referenceDragCoefficient, type ClassComparisonLabel, type DragModel } from "~/lib/reduction";
-import type { ComparisonLimits } from "~/lib/comparison/comparison-settings";
+import type { ClassComparisonLabel } from "~/lib/reduction/class-comparison";
+import { referenceDragCoefficient, type DragModel } from "~/lib/reduction/drag";
+import type { ComparisonLimits } from "~/lib/comparison/class-labelling";
 import { formatNumber } from "~/lib/kits/part-display";
 import { Axes, ChartFigure, chartTableClass, LabelLegend, LabelMarker, labelWords, linePath, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
 

@@ -3,7 +3,7 @@
  * with its peers, and the evidence behind it (the Welch tests per lab and the hand-ins they read).
  */
 import { handInHref } from "~/lib/comparison/links";
-import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "~/lib/comparison/part-bias";
+import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "~/lib/comparison/part-bias-thresholds";
 import { formatNumber } from "~/lib/kits/part-display";
 import type { PartBiasView } from "~/server/comparison/part-quality.server";
 

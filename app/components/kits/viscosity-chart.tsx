@@ -4,7 +4,7 @@
  * strip of the residuals in per cent below. The page gives the same numbers as a table beside it.
  */
 import { scaleLinear, scaleLog } from "d3-scale";
-import { viscosityAt } from "~/lib/reduction";
+import { viscosityAt } from "~/lib/reduction/viscosity-model";
 import type { FluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import { formatNumber } from "~/lib/kits/part-display";
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { comparisonLimits, countLabels, labelClass, previewSettings, type ComparisonSettings } from "./comparison-settings";
+import { comparisonLimits, labelClass, previewSettings } from "./class-labelling";
+import { countLabels, type ComparisonSettings } from "./comparison-settings";
 
 const grubbs: ComparisonSettings = { method: "grubbs", alpha: 0.05, maxOutliers: 3, k: 1.5 };
 const tukey: ComparisonSettings = { ...grubbs, method: "iqr" };

@@ -5,15 +5,8 @@
  * lab, not with 1, because the reference model's own bias (drag curve, wall factor, thermometer) moves
  * every part alike and would otherwise be blamed on each of them. Pure: the server feeds it the figures.
  */
-import { studentTQuantile } from "~/lib/reduction";
-
-/** At least this many hand-ins with the part, and as many with its peers, before a part is tested. */
-export const MINIMUM_HAND_INS_FOR_BIAS = 3;
-/**
- * Peers must come from at least this many other parts (our choice): with a single peer part a
- * difference cannot be told apart from that peer's own bias, and both parts would be flagged alike.
- */
-export const MINIMUM_PEER_PARTS = 2;
+import { studentTQuantile } from "~/lib/reduction/statistics";
+import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "./part-bias-thresholds";
 
 export type PartKind = "sphere" | "fluid_lot" | "column";
 

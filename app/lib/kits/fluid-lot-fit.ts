@@ -5,7 +5,7 @@
  */
 import type { CalibrationPoint } from "~/db/schema";
 import { checkCalibrationPoints, type CalibrationPointCheck } from "~/lib/kits/glycerol-water";
-import { fitFluidViscosity, viscosityAt, type FluidViscosityFit } from "~/lib/reduction";
+import { fitFluidViscosity, viscosityAt, type FluidViscosityFit } from "~/lib/reduction/viscosity-model";
 
 /** Temperatures (°C) at which the page quotes the fitted viscosity: the span of a home lab's room. */
 export const quotedTemperaturesC = [15, 20, 25, 30] as const;

@@ -10,7 +10,9 @@ export { DRAG_MODEL_RANGES, referenceDragCoefficient } from "./drag";
 export type { DragModel, DragModelRange } from "./drag";
 export { ReductionInputError } from "./errors";
 export type { ReductionIssue } from "./errors";
-export { DEFAULT_STANDARD_UNCERTAINTIES, reduceFallingSphere } from "./falling-sphere";
+export { reduceFallingSphere } from "./falling-sphere";
+export { DEFAULT_STANDARD_UNCERTAINTIES } from "./falling-sphere-uncertainty";
+export type { StandardUncertainties } from "./falling-sphere-uncertainty";
 export type {
   DragKeyResults,
   DragReduction,
@@ -21,7 +23,6 @@ export type {
   ReductionCheckCode,
   ReductionMode,
   ReductionUncertainty,
-  StandardUncertainties,
   VelocityResults,
   ViscometryKeyResults,
   ViscometryReduction,

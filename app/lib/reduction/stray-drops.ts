@@ -1,4 +1,5 @@
 import type { ReductionCheck } from "./falling-sphere";
+import { format } from "./format";
 import { generalizedEsd } from "./generalized-esd";
 import type { StudentizedDeviateStep } from "./grubbs";
 
@@ -84,9 +85,4 @@ export function findStrayDrops(times: readonly number[], options: StrayDropOptio
       message: `The generalized ESD test (Rosner 1983) at α = ${alpha}${stepAlpha === alpha ? "" : ` (λ at α/${maxStrayDrops} below ${ROSNER_ACCURATE_FROM} drops)`}, up to ${maxStrayDrops} stray drop${maxStrayDrops === 1 ? "" : "s"}, flags ${listed}: R${outlierCount} = ${format(deciding.statistic)} > λ${outlierCount} = ${format(deciding.critical)} (n = ${deciding.n}). Deviations within the timing resolution (${format(resolution)} s) are never flagged. Results are given with all drops and without the stray ones.`,
     },
   };
-}
-
-/** Three significant figures, as a check message needs. */
-function format(value: number): string {
-  return Number(value.toPrecision(3)).toString();
 }

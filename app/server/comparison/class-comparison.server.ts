@@ -9,16 +9,8 @@ import { and, eq, sql } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import { z } from "zod";
 import { comparisonLabelChanges, labs, type ComparisonMethodSettings } from "~/db/schema";
-import {
-  comparisonLimits,
-  countLabels,
-  describeSettings,
-  labelClass,
-  previewSettings,
-  type ComparisonLimits,
-  type ComparisonSettings,
-  type LabelCounts,
-} from "~/lib/comparison/comparison-settings";
+import { comparisonLimits, labelClass, previewSettings, type ComparisonLimits } from "~/lib/comparison/class-labelling";
+import { countLabels, describeSettings, type ComparisonSettings, type LabelCounts } from "~/lib/comparison/comparison-settings";
 import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { recordAudit } from "~/server/audit.server";

@@ -8,7 +8,7 @@ import { sql, type SQL } from "drizzle-orm";
 import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } from "~/lib/marking/automatic-criteria";
 import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkProgress, type MarkScores, type MarkTotals, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
 import type { ClassComparisonLabel } from "~/lib/reduction";
-import { labelClass } from "~/lib/comparison/comparison-settings";
+import { labelClass } from "~/lib/comparison/class-labelling";
 import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
 import { handInStanding, type HandInStanding, type StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 import { quantityOf } from "~/server/comparison/class-comparison.server";
