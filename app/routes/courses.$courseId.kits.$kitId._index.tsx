@@ -7,6 +7,7 @@ import { SelectField, TextField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
+import { formatDateTime } from "~/lib/format-date";
 import { describePart } from "~/lib/kits/describe-part";
 import { kitStateLabels, nextKitStates, partConditions, type KitState } from "~/lib/kits/kit-states";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
@@ -46,7 +47,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const kit = await loadKitFor(access, params.kitId);
   const canChange = access.membership.role === "instructor";
   const students = canChange && kit.state === "on_shelf" ? await listStudentsWithoutKit(db, access.course.id) : [];
-  return { kit, canChange, students, today: new Date().toISOString().slice(0, 10) };
+  return { kit, canChange, students, timeZone: access.course.timeZone, today: new Date().toISOString().slice(0, 10) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -75,7 +76,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function KitPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { kit, canChange, students, today } = loaderData;
+  const { kit, canChange, students, timeZone, today } = loaderData;
   const failure = actionData && "errors" in actionData ? actionData : null;
   const next = nextKitStates(kit.state);
   return (
@@ -139,7 +140,7 @@ export default function KitPage({ loaderData, actionData }: Route.ComponentProps
           {kit.events.map((event) => (
             <li key={event.id} className="rounded-md bg-white px-3 py-2 ring-1 ring-ink-900/10">
               <time dateTime={new Date(event.createdAt).toISOString()} className="text-ink-600">
-                {new Date(event.createdAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}
+                {formatDateTime(event.createdAt, timeZone)}
               </time>{" "}
               · {event.actor?.name ?? "someone"} · <EventWords event={event} />
               {event.note ? <span className="block text-ink-700">“{event.note}”</span> : null}

@@ -1,3 +1,4 @@
+import { getFormProps, useForm } from "@conform-to/react";
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits.new";
@@ -6,15 +7,16 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { partKindLabels } from "~/lib/kits/part-input";
-import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
+import { entityId } from "~/lib/forms/ids";
+import { formList, parseSubmission } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
-import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { createKit, listAvailableParts } from "~/server/kits/kits.server";
 
 const newKit = z.object({
   number: z.string().trim().min(1, "Give the kit the number written on its box.").max(20),
-  partIds: z.array(z.uuid()).min(1, "Choose at least a sphere and a column."),
+  partIds: formList(entityId).pipe(z.array(entityId).min(1, "Choose at least a sphere and a column.")),
   note: z.string().trim().max(500).optional(),
 });
 
@@ -23,39 +25,31 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { courseId: access.course.id, parts: await listAvailableParts(db, access.course.id) };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole(request, params.courseId, ["instructor"]);
-  const form = await request.formData();
-  const values = formValues(form);
-  const partIds = form.getAll("partIds").map(String);
-  const parsed = newKit.safeParse({ ...values, partIds });
-  if (!parsed.success) return formFailure(values, fieldErrors(parsed.error), { partIds });
-  try {
-    const kit = await createKit(db, { courseId: access.course.id, actorId: access.user.id, ...parsed.data });
-    return redirect(`/courses/${access.course.id}/kits/${kit.id}`);
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return formFailure(values, { form: [error.message] }, { partIds });
-    throw error;
-  }
-}
+  const submission = parseSubmission(formData, newKit);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const kit = await createKit(db, { courseId: access.course.id, actorId: access.user.id, ...submission.value });
+  return redirect(`/courses/${access.course.id}/kits/${kit.id}`);
+});
 
 export default function NewKit({ loaderData, actionData }: Route.ComponentProps) {
   const navigation = useNavigation();
-  const errors = actionData?.errors ?? {};
-  const chosen = new Set(actionData?.partIds ?? []);
+  const [form, fields] = useForm({ lastResult: actionData, shouldValidate: "onBlur", onValidate: ({ formData }) => parseSubmission(formData, newKit) });
+  const typed = fields.partIds.initialValue;
+  const chosen = new Set(Array.isArray(typed) ? typed : typed ? [typed] : []);
   const others = loaderData.parts;
   return (
     <div className="max-w-2xl">
       <PageHeader title="Make up a kit" trail={[{ to: `/courses/${loaderData.courseId}/kits`, label: "Kits" }]} />
-      {errors.form ? <Notice tone="error">{errors.form.join(" ")}</Notice> : null}
-      <Form method="post" className="mt-4 flex flex-col gap-5">
-        <TextField label="Kit number" name="number" required defaultValue={actionData?.values.number ?? ""} error={errors.number} placeholder="K-25" />
-        <fieldset>
+      {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}
+      <Form method="post" className="mt-4 flex flex-col gap-5" {...getFormProps(form)}>
+        <TextField label="Kit number" field={fields.number} required placeholder="K-25" />
+        <fieldset aria-describedby={fields.partIds.errors?.length ? fields.partIds.errorId : undefined}>
           <legend className="text-sm font-medium">Parts on the shelf (fluid lots fill a bottle each, so they can go in many kits)</legend>
-          {errors.partIds ? (
-            <p className="text-sm text-outlier" role="alert">
-              {errors.partIds.join(" ")}
+          {fields.partIds.errors?.length ? (
+            <p id={fields.partIds.errorId} className="text-sm text-outlier" role="alert">
+              {fields.partIds.errors.join(" ")}
             </p>
           ) : null}
           {others.length === 0 ? <p className="text-ink-600">Every part in service is already in a kit. Add parts first.</p> : null}
@@ -63,7 +57,7 @@ export default function NewKit({ loaderData, actionData }: Route.ComponentProps)
             {others.map((part) => (
               <li key={part.id}>
                 <label className="flex items-center gap-2 py-1 text-sm">
-                  <input type="checkbox" className="size-5 shrink-0" name="partIds" value={part.id} defaultChecked={chosen.has(part.id)} />
+                  <input type="checkbox" className="size-5 shrink-0" name={fields.partIds.name} value={part.id} defaultChecked={chosen.has(part.id)} />
                   <span>
                     <strong>{part.label}</strong> · {partKindLabels[part.kind]}
                     {part.kind === "sphere" ? ` · ${part.material}, ${part.diameterMm} mm` : ""}
@@ -76,7 +70,7 @@ export default function NewKit({ loaderData, actionData }: Route.ComponentProps)
             ))}
           </ul>
         </fieldset>
-        <TextField label="Note" name="note" defaultValue={actionData?.values.note ?? ""} />
+        <TextField label="Note" field={fields.note} />
         <Button type="submit" disabled={navigation.state === "submitting"}>
           Put the kit on the shelf
         </Button>
