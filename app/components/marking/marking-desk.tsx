@@ -2,10 +2,10 @@
  * The marking desk: one row per student, the evidence beside the rubric's cells, built on TanStack
  * Table. It is a keyboard grid: arrows move between cells and rows, a level's number key sets it,
  * Enter opens the student's hand-in beside the table, Space selects the row. Each row saves itself as
- * the marker works (see `use-mark-saver`); selected rows take one change together in one transaction.
+ * the marker works (see `mark-saves`); selected rows take one change together in one transaction.
  */
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type RowSelectionState } from "@tanstack/react-table";
-import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type KeyboardEvent } from "react";
+import { createContext, useCallback, useContext, useEffect, useMemo, useReducer, useRef, useState, type Dispatch, type KeyboardEvent } from "react";
 import { Link, useLocation } from "react-router";
 import { ClassLabelTag } from "~/components/comparison/class-label";
 import { figure } from "~/components/drop-logs/reduction-summary";
@@ -19,7 +19,8 @@ import { tableHeadClass } from "~/components/ui/table-head";
 import { BulkBar } from "./bulk-bar";
 import { MarkPanel } from "./mark-panel";
 import { PointsInput, SaveStatus } from "./mark-inputs";
-import { useMarkSaver, type RowState, type SaveState } from "./use-mark-saver";
+import { markSaves, type MarkSaveEvent, type RowSaves, type SaveState } from "./mark-saves";
+import { useMarkSaver } from "./use-mark-saver";
 
 export type DeskProps = {
   courseId: string;
@@ -41,7 +42,7 @@ type RowTools = {
   row: MarkingDeskRow;
   index: number;
   saveState: SaveState;
-  save: (change: MarkChange, reason?: string | null) => boolean;
+  save: (change: MarkChange, reason?: string | null) => void;
   retry: () => void;
 };
 
@@ -269,24 +270,23 @@ function StatusCell() {
 function DeskRow({
   base,
   index,
-  state,
-  onState,
+  saves,
+  dispatch,
   register,
   selected,
   children,
 }: {
   base: MarkingDeskRow;
   index: number;
-  state: RowState | undefined;
-  onState: (membershipId: string, state: RowState | undefined) => void;
+  saves: RowSaves | undefined;
+  dispatch: Dispatch<MarkSaveEvent>;
   register: (membershipId: string, tools: RowTools | null) => void;
   selected: boolean;
   children: React.ReactNode;
 }) {
   const { rubric } = useDesk();
   const action = useLocation().pathname;
-  const saver = useMarkSaver({ action, rubric, base, state, onState });
-  const { row, saveState, save, retry } = saver;
+  const { row, saveState, save, retry } = useMarkSaver({ action, rubric, base, saves, dispatch });
   const tools = useMemo(() => ({ row, saveState, save, retry, index }), [row, saveState, save, retry, index]);
   useEffect(() => {
     register(base.membershipId, tools);
@@ -302,21 +302,13 @@ function DeskRow({
 const column = createColumnHelper<MarkingDeskRow>();
 
 export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, matchingIds, canEdit, maxTotal, sort }: DeskProps) {
-  const [local, setLocal] = useState<Record<string, RowState>>({});
+  const [saves, dispatch] = useReducer(markSaves, {});
   const [selection, setSelection] = useState<RowSelectionState>({});
   /** Every student matching the filters is selected, beyond this page. */
   const [allMatching, setAllMatching] = useState(false);
   const [openId, setOpenId] = useState<string | null>(null);
   const [tools, setTools] = useState<Record<string, RowTools>>({});
   const tableRef = useRef<HTMLTableElement>(null);
-  const onState = useCallback((membershipId: string, state: RowState | undefined) => {
-    setLocal((current) => {
-      const next = { ...current };
-      if (state) next[membershipId] = state;
-      else delete next[membershipId];
-      return next;
-    });
-  }, []);
   const register = useCallback((membershipId: string, entry: RowTools | null) => {
     setTools((current) => {
       if (current[membershipId] === entry) return current;
@@ -482,7 +474,7 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
                   </tr>
                 ) : (
                   table.getRowModel().rows.map((row, index) => (
-                    <DeskRow key={row.id} base={row.original} index={index} state={local[row.id]} onState={onState} register={register} selected={row.getIsSelected()}>
+                    <DeskRow key={row.id} base={row.original} index={index} saves={saves[row.id]} dispatch={dispatch} register={register} selected={row.getIsSelected()}>
                       {row.getVisibleCells().map((cell) => (
                         <td key={cell.id} className="px-2 py-1.5 align-middle">
                           {flexRender(cell.column.columnDef.cell, cell.getContext())}
