@@ -1,13 +1,14 @@
+import { formatDateTime } from "~/lib/format-date";
 import type { FailedEmail } from "~/server/email/failed-emails.server";
-
-const formatTime = (value: Date | null) => (value ? new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short" }).format(value) : "—");
 
 /**
  * Shown to instructors on a course page: messages the course sent that never arrived, so that someone
  * can tell the student another way. Renders nothing when every message went out.
  */
-export function FailedEmailsPanel({ failedEmails }: { failedEmails: FailedEmail[] }) {
+export function FailedEmailsPanel({ failedEmails, timeZone }: { failedEmails: FailedEmail[]; timeZone: string }) {
   if (failedEmails.length === 0) return null;
+  // In the course's zone, so the server's text and the browser's agree.
+  const formatTime = (value: Date | null) => (value ? formatDateTime(value, timeZone) : "—");
   return (
     <section aria-labelledby="failed-emails-heading" className="rounded-lg border border-amber-400 bg-paper-50 p-4 text-ink-800">
       <h2 id="failed-emails-heading" className="font-semibold">

@@ -15,6 +15,7 @@ import { redirectSignedOut, redirectWithNewSession } from "~/server/auth/session
 import { changePassword, hasPassword, signOutEverywhere, updateName } from "~/server/auth/sign-in.server";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
+import { formatDateTime } from "~/lib/format-date";
 
 /** `?password=reset|changed`: where a reset or a change lands, to say it worked. */
 const accountSearch = z.object({ password: z.enum(["reset", "changed"]).optional() });
@@ -249,7 +250,7 @@ function describeDevice(userAgent: string | null): string {
 }
 
 function formatDate(value: Date | string): string {
-  return new Date(value).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" }) + " UTC";
+  return `${formatDateTime(value, "UTC")} UTC`;
 }
 
 export function meta() {

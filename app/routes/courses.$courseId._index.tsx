@@ -12,11 +12,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const access = await requireCourseRole(request, params.courseId, anyRole);
   const isInstructor = access.membership.role === "instructor";
   const [overview, failedEmails] = await Promise.all([courseOverview(db, access), isInstructor ? listFailedEmails(access.course.id) : []]);
-  return { role: access.membership.role, ...overview, failedEmails };
+  return { role: access.membership.role, timeZone: access.course.timeZone, ...overview, failedEmails };
 }
 
 export default function CourseOverview({ loaderData }: Route.ComponentProps) {
-  const { role, counts, kitsByState, myKit, failedEmails, openReports } = loaderData;
+  const { role, timeZone, counts, kitsByState, myKit, failedEmails, openReports } = loaderData;
   if (role === "student") {
     return (
       <section>
@@ -40,7 +40,7 @@ export default function CourseOverview({ loaderData }: Route.ComponentProps) {
   return (
     <section className="flex flex-col gap-6">
       <PageHeader title="Overview" />
-      <FailedEmailsPanel failedEmails={failedEmails} />
+      <FailedEmailsPanel failedEmails={failedEmails} timeZone={timeZone} />
       {openReports > 0 ? (
         <p role="status" className="rounded-md bg-red-50 px-4 py-3 text-sm text-outlier ring-1 ring-outlier/30">
           Students reported {openReports} problem{openReports === 1 ? "" : "s"} with their kits.{" "}

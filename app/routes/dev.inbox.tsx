@@ -1,6 +1,7 @@
 import { Link, type LoaderFunctionArgs, useLoaderData } from "react-router";
 import { z } from "zod";
 import { PageHeader } from "~/components/ui/page-header";
+import { formatDateTime } from "~/lib/format-date";
 import { emailTemplateNames } from "../../emails/template-props";
 import { renderTemplatePreviews } from "~/server/email/email-templates.server";
 import { type CaughtEmail, getCaughtEmail, listCaughtEmails, requireDevInbox } from "~/server/email/dev-inbox.server";
@@ -59,7 +60,7 @@ export default function DevInbox() {
                   <Link to={`?message=${email.id}`} className="block px-3 py-2 text-sm hover:bg-paper-100" aria-current={shown?.kind === "message" && shown.email.id === email.id ? "page" : undefined}>
                     <span className="block font-medium">{email.subject || "(no subject)"}</span>
                     <span className="block text-ink-600">
-                      {email.toAddresses.join(", ")} · {email.receivedAt.toLocaleString("en-GB")}
+                      {email.toAddresses.join(", ")} · {formatDateTime(email.receivedAt, "UTC", "seconds")} UTC
                     </span>
                   </Link>
                 </li>

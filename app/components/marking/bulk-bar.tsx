@@ -7,6 +7,7 @@ import { useEffect, useRef, useState } from "react";
 import { useFetcher, useLocation } from "react-router";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
+import { typedPoints } from "./mark-inputs";
 
 export type BulkResponse =
   | { intent: "bulk"; status: "applied"; changed: number; unchanged: number }
@@ -34,9 +35,9 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
   if (selectedIds.length === 0 && !busy && !result) return null;
 
   const changeFor = (): MarkChange | string => {
-    const number = Number(value.trim().replace(",", "."));
+    const number = typedPoints(value);
     if (what === "feedback") return { kind: "feedback", text: value };
-    if (value.trim() === "" || !Number.isFinite(number)) return criterion?.kind === "levels" ? "Choose a level." : "Enter a number of points.";
+    if (number === null || !Number.isFinite(number)) return criterion?.kind === "levels" ? "Choose a level." : "Enter a number of points.";
     if (what === "penalty") return { kind: "latePenalty", points: number };
     if (criterion?.kind === "levels") return { kind: "score", criterionId: criterion.id, level: number, points: null };
     return { kind: "score", criterionId: criterion!.id, points: number, level: null, overrideReason: criterion?.kind === "auto" ? reason : null };

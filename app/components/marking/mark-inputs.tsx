@@ -1,6 +1,10 @@
 /** The marking desk's small inputs, shared by the grid and the side panel. */
 import { useEffect, useState } from "react";
-import type { SaveState } from "./use-mark-saver";
+import { parseTypedNumber } from "~/lib/forms/typed-number";
+import type { SaveState } from "./mark-saves";
+
+/** Points as typed, with a decimal comma or point: null when blank, NaN when not a number. */
+export const typedPoints = (text: string): number | null => (parseTypedNumber(text) as number | undefined) ?? null;
 
 /** A points field that saves on Enter, on leaving it, or when an arrow moves on; Escape puts back the saved value. */
 export function PointsInput({
@@ -14,8 +18,7 @@ export function PointsInput({
   const [invalid, setInvalid] = useState(false);
   useEffect(() => setText(value === null ? "" : String(value)), [value]);
   const commit = () => {
-    const trimmed = text.trim().replace(",", ".");
-    const points = trimmed === "" ? null : Number(trimmed);
+    const points = typedPoints(text);
     if (points !== null && !Number.isFinite(points)) return setInvalid(true);
     setInvalid(false);
     if (points !== value) onCommit(points);

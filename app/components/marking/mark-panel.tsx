@@ -13,8 +13,8 @@ import type { HandInStanding } from "~/lib/drop-logs/hand-in-window";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
-import { PointsInput, SaveStatus } from "./mark-inputs";
-import type { SaveState } from "./use-mark-saver";
+import { PointsInput, SaveStatus, typedPoints } from "./mark-inputs";
+import type { SaveState } from "./mark-saves";
 
 const panelStatusWords: Record<HandInStanding, string> = {
   missing: "nothing handed in",
@@ -23,10 +23,11 @@ const panelStatusWords: Record<HandInStanding, string> = {
   "on-time": "handed in on time",
 };
 
-function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCriterion; row: MarkingDeskRow; save: (change: MarkChange) => boolean; canEdit: boolean }) {
+function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCriterion; row: MarkingDeskRow; save: (change: MarkChange) => void; canEdit: boolean }) {
   const cell = row.cells[criterion.id];
   const [points, setPoints] = useState(cell?.source === "override" ? String(cell.points ?? "") : "");
   const [reason, setReason] = useState(cell?.overrideReason ?? "");
+  const [invalid, setInvalid] = useState(false);
   return (
     <div className="flex flex-col gap-1 text-sm">
       <p>
@@ -42,12 +43,14 @@ function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCrit
           className="flex flex-wrap items-end gap-2"
           onSubmit={(event) => {
             event.preventDefault();
-            save({ kind: "score", criterionId: criterion.id, points: Number(points.replace(",", ".")), level: null, overrideReason: reason });
+            const typed = typedPoints(points);
+            setInvalid(typed === null || !Number.isFinite(typed));
+            if (typed !== null && Number.isFinite(typed)) save({ kind: "score", criterionId: criterion.id, points: typed, level: null, overrideReason: reason });
           }}
         >
           <label className="flex flex-col">
             <span className="text-xs">Points</span>
-            <input className="w-20 rounded border border-ink-900/20 px-1 py-1" inputMode="decimal" value={points} onChange={(event) => setPoints(event.target.value)} />
+            <input className={`w-20 rounded border px-1 py-1 ${invalid ? "border-outlier" : "border-ink-900/20"}`} inputMode="decimal" aria-invalid={invalid || undefined} value={points} onChange={(event) => setPoints(event.target.value)} />
           </label>
           <label className="flex min-w-40 flex-1 flex-col">
             <span className="text-xs">Why (kept with the mark)</span>
@@ -88,7 +91,7 @@ export function MarkPanel({
   canEdit: boolean;
   row: MarkingDeskRow;
   saveState: SaveState;
-  save: (change: MarkChange, reason?: string | null) => boolean;
+  save: (change: MarkChange, reason?: string | null) => void;
   retry: () => void;
   onClose: () => void;
   onStep: (step: -1 | 1) => void;
