@@ -8,8 +8,8 @@ import { courseOverview } from "~/server/courses/courses.server";
 import { listFailedEmails } from "~/server/email/failed-emails.server";
 import { db } from "~/server/db.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, anyRole);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
   const isInstructor = access.membership.role === "instructor";
   const [overview, failedEmails] = await Promise.all([courseOverview(db, access), isInstructor ? listFailedEmails(access.course.id) : []]);
   return { role: access.membership.role, timeZone: access.course.timeZone, ...overview, failedEmails };

@@ -4,8 +4,8 @@ import { PageHeader } from "~/components/ui/page-header";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { listCourseAudit } from "~/server/audit.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   return { course: access.course, events: await listCourseAudit(access.course.id) };
 }
 

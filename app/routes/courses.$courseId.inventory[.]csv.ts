@@ -6,8 +6,8 @@ import { db } from "~/server/db.server";
 import { listInventory } from "~/server/kits/parts.server";
 
 /** The whole inventory in the import's columns plus status and kit number; it imports back into another course. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor", "ta"]);
   const parts = await listInventory(db, access.course.id);
   return csvResponse(`${access.course.code}-${access.course.term}-inventory.csv`, inventoryCsv(parts));
 }

@@ -42,16 +42,16 @@ async function loadKitFor(access: CourseAccess, kitId: string | undefined) {
   return kit;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, staffRoles);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, staffRoles);
   const kit = await loadKitFor(access, params.kitId);
   const canChange = access.membership.role === "instructor";
   const students = canChange && kit.state === "on_shelf" ? await listStudentsWithoutKit(db, access.course.id) : [];
   return { kit, canChange, students, timeZone: access.course.timeZone, today: new Date().toISOString().slice(0, 10) };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const kit = await loadKitFor(access, params.kitId);
   const form = await request.formData();
   const values = formValues(form);

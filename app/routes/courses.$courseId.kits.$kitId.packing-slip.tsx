@@ -7,8 +7,8 @@ import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { getKit } from "~/server/kits/kits.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const kit = z.uuid().safeParse(params.kitId).success ? await getKit(db, access.course.id, params.kitId) : null;
   if (!kit) throw data("Not found", { status: 404 });
   return { kit, course: access.course };

@@ -27,8 +27,8 @@ const bulkMove = z.object({
 
 const kitListSearch = z.object({ state: z.enum(kitStates).optional(), q: searchText(80), ...pagingSearch() });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, staffRoles);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, staffRoles);
   const { state, q, page, size } = readSearchParams(request, kitListSearch);
   const paging = { page, pageSize: size };
   // A TA sees the kits held by students of their cohorts, and reads them only.
@@ -36,8 +36,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { kits: rows, pageInfo: { ...paging, total }, canChange: access.membership.role === "instructor", courseId: access.course.id };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = await request.formData();
   const parsed = bulkMove.safeParse({ intent: form.get("intent"), to: form.get("to"), note: form.get("note") ?? undefined, kitIds: form.getAll("kitIds") });
   if (!parsed.success) return data({ ok: false as const, message: parsed.error.issues[0].message }, { status: 400 });

@@ -20,13 +20,13 @@ const newKit = z.object({
   note: z.string().trim().max(500).optional(),
 });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   return { courseId: access.course.id, parts: await listAvailableParts(db, access.course.id) };
 }
 
-export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const submission = parseSubmission(formData, newKit);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const kit = await createKit(db, { courseId: access.course.id, actorId: access.user.id, ...submission.value });

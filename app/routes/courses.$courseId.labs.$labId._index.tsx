@@ -37,8 +37,8 @@ function draftFromInput(input: DropLogInput): DropLogDraft {
   };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, anyRole);
+export async function loader({ request, params, context: routerContext }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context: routerContext }, params.courseId, anyRole);
   // This page is the student's bench; staff follow a lab from its hand-in dashboard.
   if (isStaff(access)) throw redirect(`/courses/${access.course.id}/labs/${params.labId}/dashboard`);
   const [context, dropLog, mark] = await Promise.all([
@@ -83,8 +83,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["student"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["student"]);
   const form = await request.formData();
   const intent = form.get("intent");
   try {

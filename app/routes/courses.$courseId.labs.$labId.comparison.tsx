@@ -17,18 +17,18 @@ import { comparisonJson, getLabComparison, previewLabSettings, readComparisonFil
 import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { db } from "~/server/db.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireComparisonAccess(request, params.courseId, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
   const filters = readComparisonFilters(request);
   const comparison = await getLabComparison(db, access, lab, filters);
   return { ...comparisonJson(comparison), filters, courseId: access.course.id, mayEdit: access.membership.role === "instructor" };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, context, params }: Route.ActionArgs) {
   const form = await request.formData();
   const intent = form.get("intent");
   // Any staff member may preview; changing the lab's method is the instructor's.
-  const { access, lab } = await requireComparisonAccess(request, params.courseId, params.labId, intent === "save" ? ["instructor"] : ["instructor", "ta"]);
+  const { access, lab } = await requireComparisonAccess({ request, context }, params.courseId, params.labId, intent === "save" ? ["instructor"] : ["instructor", "ta"]);
   if (intent !== "preview" && intent !== "save") return data({ intent: "unknown" as const, errors: { form: ["Unknown request."] } }, { status: 400 });
   const parsed = comparisonSettings.safeParse(formValues(form));
   if (!parsed.success) return data({ intent, errors: fieldErrors(parsed.error), values: formValues(form) }, { status: 400 });

@@ -7,8 +7,8 @@ import { db } from "~/server/db.server";
 type Row = ComparisonJson["handIns"][number];
 
 /** The whole comparison table (or the filtered part of it) for a spreadsheet, formulas neutralised. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireComparisonAccess(request, params.courseId, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
   const comparison = comparisonJson(await getLabComparison(db, access, lab, readComparisonFilters(request)));
   const csv = toCsv<Row>(comparison.handIns, [
     { header: "student", value: (row) => row.student.name },

@@ -16,9 +16,9 @@ import { db } from "~/server/db.server";
 import { getLabDashboard, type DashboardStudent } from "~/server/labs/lab-dashboard.server";
 import { getLab } from "~/server/labs/labs.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Instructors, and the TAs of a cohort the lab is set for: the same people as its class comparison.
-  const { access } = await requireComparisonAccess(request, params.courseId, params.labId);
+  const { access } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
   const lab = await getLab(db, access.course.id, params.labId);
   if (!lab) throw data("Not found", { status: 404 });
   const dashboard = await getLabDashboard(db, access, lab);

@@ -23,8 +23,8 @@ async function loadOwnLab(courseId: string, labId: string) {
   return lab;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const [lab, options] = await Promise.all([loadOwnLab(access.course.id, params.labId), getLabFormOptions(db, access.course.id)]);
   return {
     courseId: access.course.id,
@@ -35,8 +35,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const lab = await loadOwnLab(access.course.id, params.labId);
   const form = await request.formData();
   const values = submittedLabFormValues(form);

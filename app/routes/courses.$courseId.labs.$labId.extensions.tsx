@@ -22,9 +22,9 @@ import { db } from "~/server/db.server";
 import { getExtensionsPage, removeExtension, setExtensions, type ExtensionRow } from "~/server/labs/extensions.server";
 import { getLab } from "~/server/labs/labs.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Instructors, and the TAs of a cohort the lab is set for: the same people as its hand-in dashboard.
-  const { access } = await requireComparisonAccess(request, params.courseId, params.labId);
+  const { access } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
   const lab = await getLab(db, access.course.id, params.labId);
   if (!lab) throw data("Not found", { status: 404 });
   const page = await getExtensionsPage(db, access, lab);
@@ -37,8 +37,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const lab = z.uuid().safeParse(params.labId).success ? await getLab(db, access.course.id, params.labId) : null;
   if (!lab) throw data("Not found", { status: 404 });
   const form = await request.formData();

@@ -17,12 +17,12 @@ import { getDropLogForStudent } from "~/server/drop-logs/hand-in.server";
 import { loadClassLabels } from "~/server/marking/mark-rows.server";
 import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
   const owner = z.uuid().safeParse(params.dropLogId).success ? await findDropLogOwner(db, lab.id, params.dropLogId) : null;
   if (!owner) throw data("Not found", { status: 404 });
   // A TA of another cohort is refused here, and the refusal recorded, before anything is read.
-  await requireStudentAccess(request, access.course.id, owner);
+  await requireStudentAccess({ request, context }, access.course.id, owner);
   const [dropLog, labels] = await Promise.all([getDropLogForStudent(db, { labId: lab.id, membershipId: owner.membershipId }), loadClassLabels(db, lab)]);
   if (!dropLog) throw data("Not found", { status: 404 });
   const detail: HandInDetailData = {

@@ -22,8 +22,8 @@ import { throwAsResponse } from "~/server/errors.server";
 import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { applyToMany, saveMark } from "~/server/marking/marks.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
   const url = new URL(request.url);
   // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
   const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch(throwAsResponse(request));
@@ -51,8 +51,8 @@ const deskAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("bulk"), membershipIds: z.array(z.uuid()).min(1, "Select at least one student.").max(MAX_BULK_STUDENTS), change: markChange, reason }),
 ]);
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
   const parsed = deskAction.safeParse(await request.json().catch(() => null));
   if (!parsed.success) {
     const issue = parsed.error.issues[0];

@@ -7,8 +7,8 @@ import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 type Row = MarksJson["marks"][number];
 
 /** The lab's marks for a spreadsheet or gradebook, one row per student, formulas neutralised. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
   const marks = await loadMarksJson(db, { access, lab });
   const csv = toCsv<Row>(marks.marks, [
     { header: "student_name", value: (row) => row.student.name },

@@ -25,8 +25,8 @@ import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { saveMark } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
   const [moderation, changes] = await Promise.all([loadModeration(db, { access, lab }), listMarkChanges(db, { access, labId: lab.id, limit: 100 })]);
   return {
     courseId: access.course.id,
@@ -65,8 +65,8 @@ const moderationAction = z.discriminatedUnion("intent", [
   adjustment,
 ]);
 
-export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
   const submission = parseSubmission(formData, moderationAction);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const input = submission.value;

@@ -8,8 +8,8 @@ import { loadStudentLab } from "~/server/drop-logs/hand-in.server";
 import { uploadDraftPhotos } from "~/server/drop-logs/photos.server";
 
 /** Photos of the set-up, uploaded to the student's draft; the next hand-in attaches them to its version. */
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["student"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["student"]);
   try {
     const context = await loadStudentLab(db, access, params.labId);
     return { photos: await uploadDraftPhotos(db, { access, context, request }) };

@@ -19,8 +19,8 @@ import { db } from "~/server/db.server";
 import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { copyRubric, listRubricSources, saveRubric } from "~/server/marking/rubrics.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
   const sources = await listRubricSources(db, { access, labId: lab.id });
   return {
     courseId: access.course.id,
@@ -35,8 +35,8 @@ const rubricAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("copy"), fromLabId: z.uuid("Choose a lab to copy from.") }),
 ]);
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { access, lab } = await requireMarkingAccess(request, params.courseId, params.labId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
   const parsed = rubricAction.safeParse(request.headers.get("content-type")?.includes("json") ? await request.json().catch(() => null) : Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ errors: { form: parsed.error.issues[0]?.message ?? "The rubric cannot be read." } as Record<string, string> }, { status: 400 });
   try {

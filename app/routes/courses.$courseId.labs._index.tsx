@@ -8,8 +8,8 @@ import { anyRole, isStaff, requireCourseRole } from "~/server/auth/access.server
 import { db } from "~/server/db.server";
 import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, anyRole);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
   const labs = await listLabsForMember(db, access);
   return { courseId: access.course.id, timeZone: access.course.timeZone, staff: isStaff(access), instructor: access.membership.role === "instructor", labs };
 }

@@ -15,15 +15,15 @@ import { createLab, getLabFormOptions } from "~/server/labs/labs.server";
 
 const newLabSearch = z.object({ kind: z.enum(experimentKinds).default("drag") });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const options = await getLabFormOptions(db, access.course.id);
   const { kind } = readSearchParams(request, newLabSearch);
   return { courseId: access.course.id, timeZone: access.course.timeZone, ...options, values: newLabFormValues(kind, options.cohorts.map((cohort) => cohort.id)) };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = await request.formData();
   const values = submittedLabFormValues(form);
   const parsed = labInputFor(access.course.timeZone).safeParse(labInputFromForm(form));

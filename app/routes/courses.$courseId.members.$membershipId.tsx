@@ -22,17 +22,17 @@ const memberAction = z.discriminatedUnion("intent", [
 
 
 /** The member page: the member themselves, the course's instructors, and the TAs of the member's cohort. */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, context, params }: Route.LoaderArgs) {
   await requireUser(request);
   const member = await getMember(params.courseId, params.membershipId);
   if (!member) throw data("Not found", { status: 404 });
-  const access = await requireStudentAccess(request, params.courseId, member);
+  const access = await requireStudentAccess({ request, context }, params.courseId, member);
   const canEdit = access.membership.role === "instructor" && member.userId !== access.user.id;
   return { course: access.course, member, canEdit, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = parseForm(memberAction, await request.formData());
   if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
   const target = { courseId: access.course.id, actorId: access.user.id, membershipId: params.membershipId };

@@ -22,14 +22,14 @@ const inviteSchema = z.object({
 });
 
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const [members, invitations, cohorts] = await Promise.all([listMembers(access.course.id), listOpenInvitations(access.course.id), listCohorts(access.course.id)]);
   return { course: access.course, members, invitations, cohorts };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = parseForm(inviteSchema, await request.formData());
   if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
   const { email, name, role, cohortId } = form.data;

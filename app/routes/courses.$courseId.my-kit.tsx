@@ -9,7 +9,7 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { describePart } from "~/lib/kits/describe-part";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
-import { requireCourseRole } from "~/server/auth/access.server";
+import { requireCourseRole, type RequestScope } from "~/server/auth/access.server";
 import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { confirmArrival, findKitOfMember, getKit, reportKitProblem } from "~/server/kits/kits.server";
@@ -24,22 +24,22 @@ const myKitAction = z.discriminatedUnion("intent", [
   }),
 ]);
 
-async function loadMyKit(request: Request, courseId: string | undefined) {
-  const access = await requireCourseRole(request, courseId, ["student"]);
+async function loadMyKit(scope: RequestScope, courseId: string | undefined) {
+  const access = await requireCourseRole(scope, courseId, ["student"]);
   const held = await findKitOfMember(db, access.membership.id);
   return { access, kit: held ? await getKit(db, access.course.id, held.id) : null };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { kit } = await loadMyKit(request, params.courseId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { kit } = await loadMyKit({ request, context }, params.courseId);
   if (!kit) return { kit: null };
   // The student sees their kit's parts and its journey, not the staff's notes on it.
   const { events: _events, holder: _holder, ...mine } = kit;
   return { kit: mine };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { access, kit } = await loadMyKit(request, params.courseId);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { access, kit } = await loadMyKit({ request, context }, params.courseId);
   if (!kit) throw data("You hold no kit in this course.", { status: 404 });
   const form = await request.formData();
   const values = formValues(form);

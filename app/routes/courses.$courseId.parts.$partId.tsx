@@ -38,8 +38,8 @@ function partIdFrom(params: { partId?: string }): string {
   return parsed.data;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor", "ta"]);
   const partId = partIdFrom(params);
   const [page, bias, rereductions] = await Promise.all([
     getPartPage(db, access, partId),
@@ -51,8 +51,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { ...page, bias: report ? partBiasFor(access, report) : null, rereductions, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const partId = partIdFrom(params);
   const form = await request.formData();
   const scope = { courseId: access.course.id, partId, actorId: access.user.id };

@@ -24,8 +24,8 @@ const partListSearch = z.object({
   ...pagingSearch(),
 });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor", "ta"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor", "ta"]);
   const { page, size, ...filters } = readSearchParams(request, partListSearch);
   const paging = { page, pageSize: size };
   const [{ rows, total }, bias] = await Promise.all([

@@ -42,13 +42,13 @@ const importCommit = z.object({
 /** How many rows the preview table shows; the counts above it cover every row. */
 const previewLimit = 300;
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   return { courseId: access.course.id, existingLabels: await listPartLabels(db, access.course.id) };
 }
 
-export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const submission = parseSubmission(formData, importCommit);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const result = await importParts(db, { courseId: access.course.id, actorId: access.user.id, rows: submission.value.rows });

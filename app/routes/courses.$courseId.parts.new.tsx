@@ -20,14 +20,14 @@ const newPartSearch = z.object({ kind: chosenKind.optional() });
 /** Empty rows offered for calibration points on a new fluid lot, so the form works without JavaScript. */
 const blankCalibrationRows = 4;
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const { kind } = readSearchParams(request, newPartSearch);
   return { courseId: access.course.id, kind: kind ?? null };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = await request.formData();
   const failure = (errors: Record<string, string[]>) =>
     data({ errors, values: formValues(form), calibration: calibrationRows(form) }, { status: 400 });

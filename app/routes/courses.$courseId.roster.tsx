@@ -12,14 +12,14 @@ import { requireCourseRole } from "~/server/auth/access.server";
 import { importRoster, rosterContext } from "~/server/members/roster-import.server";
 import { db } from "~/server/db.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const { cohortNames, memberEmails } = await rosterContext(db, access.course.id);
   return { courseId: access.course.id, timeZone: access.course.timeZone, cohortNames, memberEmails };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function action({ request, context, params }: Route.ActionArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = await request.formData();
   let rows: unknown;
   try {

@@ -21,15 +21,15 @@ const settingsIntent = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: formList(z.uuid()) }),
 ]);
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const details = await getCourseWithCohorts(db, access.course.id);
   if (!details) throw data("Not found", { status: 404 });
   return { ...details, timeZones: Intl.supportedValuesOf("timeZone") };
 }
 
-export const action = formAction(async ({ request, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const access = await requireCourseRole(request, params.courseId, ["instructor"]);
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const submission = parseSubmission(formData, settingsIntent);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const courseId = access.course.id;

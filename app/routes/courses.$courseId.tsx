@@ -1,11 +1,14 @@
 import { Outlet } from "react-router";
 import type { Route } from "./+types/courses.$courseId";
 import { CourseNav } from "~/components/course-nav";
-import { anyRole, requireCourseRole } from "~/server/auth/access.server";
+import { anyRole, courseAccessMiddleware, requireCourseRole } from "~/server/auth/access.server";
 
-/** The frame of every course page: its name and the rooms the viewer's role opens. Children check access themselves. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const access = await requireCourseRole(request, params.courseId, anyRole);
+/** The viewer's access to the course is looked up once, here, for the frame and the page to share. */
+export const middleware: Route.MiddlewareFunction[] = [courseAccessMiddleware];
+
+/** The frame of every course page: its name and the rooms the viewer's role opens. Children check their own roles. */
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
   return { course: access.course, role: access.membership.role };
 }
 

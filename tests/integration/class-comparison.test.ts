@@ -3,6 +3,7 @@
  * change relabelling in one transaction, hand-ins that never wait for each other, kit-part bias, and
  * constant statement counts whatever the class size.
  */
+import { RouterContextProvider } from "react-router";
 import { and, count, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { comparisonLabelChanges, comparisonLabels, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
@@ -228,7 +229,7 @@ describe("the comparison page", () => {
       const lab = await newLab(`Size ${size}`);
       await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members: quietClass(size).map((figure) => ({ figure })), label: `size${size}` });
       const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/comparison?label=consistent`, { cookie });
-      const { statements, result } = await countStatements(() => loader({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never));
+      const { statements, result } = await countStatements(() => loader({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: new RouterContextProvider() } as never));
       expect(result.handIns).toHaveLength(size);
       return statements;
     };

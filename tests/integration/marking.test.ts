@@ -4,6 +4,7 @@
  * limits for TAs, moderation, release with one e-mail per student, what students see, the history and
  * the CSV export.
  */
+import { RouterContextProvider } from "react-router";
 import { AppError } from "~/lib/app-error";
 import { and, count, eq, inArray, like, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -505,7 +506,7 @@ describe("the marks CSV", () => {
 
     const { loader } = await import("~/routes/courses.$courseId.labs.$labId.marks[.]csv");
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
-    const response = (await loader({ request: appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marks.csv`, { cookie }), params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never)) as Response;
+    const response = (await loader({ request: appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marks.csv`, { cookie }), params: { courseId: fixture.courseId, labId: lab.id }, context: new RouterContextProvider() } as never)) as Response;
     expect(response.headers.get("content-type")).toMatch(/^text\/csv/);
     const lines = (await response.text()).replace(/^\uFEFF/, "").split(/\r?\n/);
     expect(lines[0]).toBe("student_name,email,student_number,cohort,total,'=SUM(A1:A9),On time,late,late_penalty,released_at,marked_version,latest_version");
@@ -582,15 +583,15 @@ describe("release safeguards", () => {
     const post = async (form: Record<string, string>) => {
       const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/moderation`, { cookie, form });
       // A refusal comes back as `data(…, { status })`, a success as the plain object.
-      const result = (await action({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: {} } as never)) as Record<string, unknown>;
+      const result = (await action({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: new RouterContextProvider() } as never)) as Record<string, unknown>;
       const refused = result.type === "DataWithResponseInit";
-      return { status: refused ? (result.init as { status: number }).status : 200, data: (refused ? result.data : result) as { error?: string; values?: Record<string, string>; done?: string } };
+      return { status: refused ? (result.init as { status: number }).status : 200, data: refused ? result.data : result };
     };
     const unchosen = await post({ intent: "release" });
-    expect(unchosen).toMatchObject({ status: 400, data: { error: expect.stringContaining("Choose whom to release") } });
+    expect(unchosen).toMatchObject({ status: 400, data: { status: "error", error: { scope: [expect.stringContaining("Choose whom to release")] } } });
     // The lab is open until tomorrow: the release waits for the confirmation, and the form keeps the choice.
     const unconfirmed = await post({ intent: "release", scope: "all", zeroForNoHandIn: "on" });
-    expect(unconfirmed).toMatchObject({ status: 409, data: { error: expect.stringContaining("may still hand in"), values: { scope: "all", zeroForNoHandIn: "on" } } });
+    expect(unconfirmed).toMatchObject({ status: 409, data: { error: { whileOpen: [expect.stringContaining("may still hand in")] }, initialValue: { scope: "all", zeroForNoHandIn: "on" } } });
     const confirmed = await post({ intent: "release", scope: "all", whileOpen: "on" });
     expect(confirmed).toMatchObject({ status: 200, data: { done: expect.stringMatching(/^Released \d+ marks? and queued/) } });
   });
@@ -659,7 +660,7 @@ describe("release safeguards", () => {
       headers: { Cookie: cookie, Origin: new URL(appRequest("/").url).origin, "Content-Type": "application/json", "Idempotency-Key": "mk-refuse-api" },
       body: JSON.stringify(input),
     });
-    const response = (await action({ request, params: { labId: lab.id }, context: {} } as never)) as Response;
+    const response = (await action({ request, params: { labId: lab.id }, context: new RouterContextProvider() } as never)) as Response;
     expect(response.status).toBe(409);
     expect(await response.json()).toMatchObject({ error: { code: "mark_released" } });
     const [dropLog] = await db.select().from(dropLogs).where(and(eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, fixture.membershipIds.ownStudent)));

@@ -3,6 +3,7 @@
  * refused form (400, errors beside the fields, input kept), the import's commit, and links only to
  * the kits, hand-ins and comparisons the viewer may open.
  */
+import { RouterContextProvider } from "react-router";
 import { and, count, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { courseMemberships, courses, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
@@ -160,7 +161,7 @@ describe("links on the staff's kit and part pages", () => {
       .returning();
     await db.insert(labCohorts).values({ labId: otherLab.id, cohortId: fixture.otherCohortId });
     const otherDropLogId = await ensureDropLog(db, { labId: otherLab.id, membershipId: fixture.membershipIds.otherCohortStudent });
-    const otherStudent = await requireCourseRole(appRequest("/", { cookie: await sessionCookieFor(fixture.userIds.otherCohortStudent) }), course, ["student"]);
+    const otherStudent = await requireCourseRole({ request: appRequest("/", { cookie: await sessionCookieFor(fixture.userIds.otherCohortStudent) }), context: new RouterContextProvider() }, course, ["student"]);
     await handInDropLog(db, { access: otherStudent, labId: otherLab.id, idempotencyKey: "part-links-other-cohort", input: { sphereId: otherSphere.id, temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.42, 7.48] } });
 
     const ta = await sessionCookieFor(fixture.userIds.assignedTa);
@@ -199,7 +200,7 @@ describe("links on the staff's kit and part pages", () => {
     expect(await html(`/courses/${course}/kits/${fixture.kitId}`, instructor)).toContain("packing-slip");
 
     // The overview counts, for the TA, the kits their kits list holds.
-    const overviewFor = async (cookie: string) => courseOverview(db, await requireCourseRole(appRequest("/", { cookie }), course, staffRoles));
+    const overviewFor = async (cookie: string) => courseOverview(db, await requireCourseRole({ request: appRequest("/", { cookie }), context: new RouterContextProvider() }, course, staffRoles));
     expect((await overviewFor(ta)).kitsByState).toEqual({ at_home: 1 });
     expect((await overviewFor(instructor)).kitsByState).toEqual({ at_home: 2, checked_in: 1 });
   });

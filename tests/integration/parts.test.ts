@@ -3,6 +3,7 @@
  * checks that catch a mis-measured part, the all-or-nothing CSV import, the constant statement count
  * of the parts table, the export's formula neutralising and the fluid lot's calibration fit.
  */
+import { RouterContextProvider } from "react-router";
 import Papa from "papaparse";
 import { count, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
@@ -246,7 +247,7 @@ describe("inventory export", () => {
     const courseId = await newCourse("P-CSV");
     await createPart(db, { courseId, actorId: instructorId, input: sphere("S-1", { material: "+SUM(A1:A9)", notes: "=1+1" }) });
     const request = appRequest(`/courses/${courseId}/inventory.csv`, { cookie: await sessionCookieFor(instructorId) });
-    const response = await inventoryCsvLoader({ request, params: { courseId }, context: {} } as Parameters<typeof inventoryCsvLoader>[0]);
+    const response = await inventoryCsvLoader({ request, params: { courseId }, context: new RouterContextProvider() } as never);
     expect(response.headers.get("Content-Type")).toBe("text/csv; charset=utf-8");
     const [row] = Papa.parse<Record<string, string>>((await response.text()).replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: true }).data;
     expect(row).toMatchObject({ kind: "sphere", label: "S-1", material: "'+SUM(A1:A9)", notes: "'=1+1", status: "in_service", kit_number: "" });

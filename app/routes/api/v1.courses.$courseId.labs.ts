@@ -6,9 +6,9 @@ import { db } from "~/server/db.server";
 import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 
 /** The labs the caller sees in a course (the lab list page's, as JSON). Session or personal API token. */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, context, params }: Route.LoaderArgs) {
   await requireApiUser(request);
-  const access = await requireCourseRole(request, params.courseId, anyRole);
+  const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
   const rows = await listLabsForMember(db, access);
   const staff = isStaff(access);
   const labs = rows.map(({ hasDraft, latestLate, versionCount, ...lab }) => ({

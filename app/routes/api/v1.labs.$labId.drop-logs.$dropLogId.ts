@@ -10,12 +10,12 @@ import { requireLabApiAccess } from "~/server/labs/lab-access.server";
 const noSuchDropLog = () => apiErrorResponse(404, "not_found", "There is no such drop log in this lab.");
 
 /** One drop log with every version (newest first) and its photos: for its student, the instructors and the TAs of the student's cohort. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { lab } = await requireLabApiAccess(request, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { lab } = await requireLabApiAccess({ request, context }, params.labId);
   if (!z.uuid().safeParse(params.dropLogId).success) return noSuchDropLog();
   const owner = await findDropLogOwner(db, lab.id, params.dropLogId);
   if (!owner) return noSuchDropLog();
-  await requireStudentAccess(request, lab.courseId, owner);
+  await requireStudentAccess({ request, context }, lab.courseId, owner);
   const dropLog = await getDropLogForStudent(db, { labId: lab.id, membershipId: owner.membershipId });
   if (!dropLog) return noSuchDropLog();
   const iso = (at: Date) => at.toISOString();

@@ -19,8 +19,8 @@ function jsonWithLength(body: unknown, status: number): Response {
 }
 
 /** A student's own drop log, or (staff) every handed-in drop log of the cohorts they see, with the counted reductions. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireLabApiAccess(request, params.labId);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const { access, lab } = await requireLabApiAccess({ request, context }, params.labId);
   return Response.json({ dropLogs: await listLabDropLogs(db, access, lab.id) }, { headers: noStore });
 }
 
@@ -28,9 +28,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
  * A student's hand-in. The `Idempotency-Key` header names the attempt: a retry with the same key
  * answers 200 with the version first stored instead of storing a second one.
  */
-export const action = withRefusals(async ({ request, params }: Route.ActionArgs) => {
+export const action = withRefusals(async ({ request, context, params }: Route.ActionArgs) => {
   if (request.method !== "POST") return methodNotAllowed([...readOnly, "POST"]);
-  const { access, lab } = await requireLabApiAccess(request, params.labId);
+  const { access, lab } = await requireLabApiAccess({ request, context }, params.labId);
   if (access.membership.role !== "student") return apiErrorResponse(403, "not_a_student", "Only students hand in drop logs.");
   const idempotencyKey = request.headers.get("Idempotency-Key");
   if (!idempotencyKey) return apiErrorResponse(400, "idempotency_key_missing", "Send an Idempotency-Key header, e.g. a UUID made once per hand-in attempt.");

@@ -17,7 +17,7 @@ export const loader = () => methodNotAllowed(["POST"]);
  * (mm, g, °C, s), resolved against the caller's kit and the lab's settings: the live preview of the
  * drop-log form; or the engine's own input in SI, for anyone signed in who wants the method itself.
  */
-export const action = withRefusals(async ({ request }: Route.ActionArgs) => {
+export const action = withRefusals(async ({ request, context }: Route.ActionArgs) => {
   if (request.method !== "POST") return methodNotAllowed(["POST"]);
   await requireApiUser(request);
   const body = await request.json().catch(() => undefined);
@@ -27,7 +27,7 @@ export const action = withRefusals(async ({ request }: Route.ActionArgs) => {
   if (forLab.success) {
     const courseId = await findLabCourseId(db, forLab.data.labId);
     if (!courseId) return apiErrorResponse(404, "not_found", "There is no such lab.");
-    const access = await requireCourseRole(request, courseId, ["student"]);
+    const access = await requireCourseRole({ request, context }, courseId, ["student"]);
     return Response.json(await previewDropLog(db, { access, labId: forLab.data.labId, input: forLab.data.input }), { headers: noStore });
   }
 

@@ -7,7 +7,7 @@
  * Staff cannot act as a student: there is no "view as" mode.
  */
 import { sql } from "drizzle-orm";
-import { data, redirect } from "react-router";
+import { createContext, data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { recordAudit } from "~/server/audit.server";
 import { db } from "~/server/db.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
@@ -28,6 +28,9 @@ export type CourseAccess = {
   /** Cohorts whose students this member may see: all for instructors, the assigned ones for TAs, their own for students. */
   cohortIds: string[];
 };
+
+/** What a loader or action is given, as the access checks need it: the request and its router context. */
+export type RequestScope = { request: Request; context: Readonly<RouterContextProvider> };
 
 /** The owner of a piece of student work (a membership, a drop log…), as the access check needs it. */
 export type StudentOwner = { userId: string; cohortId: string | null };
@@ -120,15 +123,35 @@ async function loadCourseAccess(userId: string, courseId: string): Promise<Cours
   return result.rows[0];
 }
 
+/**
+ * The viewer's access to one course, looked up once per request: the course frame's middleware starts
+ * the lookup, and the frame's loader and the page's (which run side by side) share it through the
+ * router context. A role is still checked by each loader and action for itself.
+ */
+const courseAccessContext = createContext<{ userId: string; courseId: string; row: Promise<CourseAccessRow | undefined> } | null>(null);
+
+function courseAccessRow({ context }: RequestScope, userId: string, courseId: string): Promise<CourseAccessRow | undefined> {
+  const known = context.get(courseAccessContext);
+  if (known?.userId === userId && known.courseId === courseId) return known.row;
+  const row = loadCourseAccess(userId, courseId);
+  context.set(courseAccessContext, { userId, courseId, row });
+  return row;
+}
+
+/** The course frame's middleware: resolves the signed-in viewer's access to the course before its loaders run. */
+export const courseAccessMiddleware: MiddlewareFunction<Response> = async ({ request, params, context }, next) => {
+  const user = await getOptionalUser(request);
+  // Started, not awaited: a refusal is for the loaders to answer, each with its own roles.
+  if (user && params.courseId && uuidPattern.test(params.courseId)) courseAccessRow({ request, context }, user.id, params.courseId).catch(() => undefined);
+  return next();
+};
+
 /** The user's membership in the course, if it has one of `roles`; otherwise a redirect or a 403. */
-export async function requireCourseRole(
-  request: Request,
-  courseId: string | undefined,
-  roles: readonly CourseRole[],
-): Promise<CourseAccess> {
+export async function requireCourseRole(scope: RequestScope, courseId: string | undefined, roles: readonly CourseRole[]): Promise<CourseAccess> {
+  const { request } = scope;
   const user = await requireUser(request);
   if (!courseId || !uuidPattern.test(courseId)) notFound(request);
-  const row = await loadCourseAccess(user.id, courseId);
+  const row = await courseAccessRow(scope, user.id, courseId);
   if (!row) notFound(request);
   if (!row.membership_id || !row.role) return deny(request, user, courseId, "not a member");
   if (!roles.includes(row.role)) return deny(request, user, courseId, `role ${row.role}`);
@@ -142,13 +165,13 @@ export async function requireCourseRole(
 
 /** Staff of the course who may see this cohort: its instructors, and the TAs assigned to it. */
 export async function requireCohortAccess(
-  request: Request,
+  scope: RequestScope,
   courseId: string | undefined,
   cohortId: string | undefined,
   roles: readonly CourseRole[] = staffRoles,
 ): Promise<CourseAccess> {
-  const access = await requireCourseRole(request, courseId, roles);
-  if (!cohortId || !access.cohortIds.includes(cohortId)) return deny(request, access.user, access.course.id, "cohort not assigned");
+  const access = await requireCourseRole(scope, courseId, roles);
+  if (!cohortId || !access.cohortIds.includes(cohortId)) return deny(scope.request, access.user, access.course.id, "cohort not assigned");
   return access;
 }
 
@@ -172,12 +195,12 @@ export const kitCohortScope = (access: CourseAccess): string[] | undefined => (a
 
 /** Access to one student's own object (a hand-in, their membership…); `viewingOwnWork` tells the student apart from staff. */
 export async function requireStudentAccess(
-  request: Request,
+  scope: RequestScope,
   courseId: string | undefined,
   owner: StudentOwner,
 ): Promise<CourseAccess & { viewingOwnWork: boolean }> {
-  const access = await requireCourseRole(request, courseId, anyRole);
-  if (!canSeeStudentWork(access, owner)) return deny(request, access.user, access.course.id, "another student's work");
+  const access = await requireCourseRole(scope, courseId, anyRole);
+  if (!canSeeStudentWork(access, owner)) return deny(scope.request, access.user, access.course.id, "another student's work");
   return { ...access, viewingOwnWork: access.user.id === owner.userId };
 }
 

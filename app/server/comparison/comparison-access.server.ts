@@ -6,7 +6,7 @@
 import { data } from "react-router";
 import { z } from "zod";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
-import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
+import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess, type RequestScope } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { loadComparisonLab, type ComparisonLab } from "./class-comparison.server";
 
@@ -17,20 +17,20 @@ export function canOpenComparison(access: CourseAccess, labCohortIds: readonly s
 }
 
 export async function requireComparisonAccess(
-  request: Request,
+  scope: RequestScope,
   courseId: string | undefined,
   labId: string | undefined,
   roles: readonly ("instructor" | "ta")[] = staffRoles,
 ): Promise<{ access: CourseAccess; lab: ComparisonLab }> {
-  const access = await requireCourseRole(request, courseId, roles);
+  const access = await requireCourseRole(scope, courseId, roles);
   const lab = z.uuid().safeParse(labId).success ? await loadComparisonLab(db, access.course.id, labId!) : null;
   if (!lab) {
-    if (isApiRequest(request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
+    if (isApiRequest(scope.request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
     throw data("Not found", { status: 404 });
   }
   if (!canOpenComparison(access, lab.cohortIds)) {
     // A TA of none of the lab's cohorts: the cohort check refuses (and records the refusal) as it does elsewhere.
-    await requireCohortAccess(request, access.course.id, lab.cohortIds[0] ?? "no-cohort");
+    await requireCohortAccess(scope, access.course.id, lab.cohortIds[0] ?? "no-cohort");
   }
   return { access, lab };
 }

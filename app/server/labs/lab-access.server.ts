@@ -6,22 +6,22 @@
  */
 import { z } from "zod";
 import { apiErrorResponse } from "~/server/auth/api-errors.server";
-import { anyRole, requireApiUser, requireCohortAccess, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
+import { anyRole, requireApiUser, requireCohortAccess, requireCourseRole, type CourseAccess, type RequestScope } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { findLab, type LabWithCohorts } from "./labs.server";
 
 const noSuchLab = () => apiErrorResponse(404, "not_found", "There is no such lab.");
 
-export async function requireLabApiAccess(request: Request, labId: string | undefined): Promise<{ access: CourseAccess; lab: LabWithCohorts }> {
-  await requireApiUser(request);
+export async function requireLabApiAccess(scope: RequestScope, labId: string | undefined): Promise<{ access: CourseAccess; lab: LabWithCohorts }> {
+  await requireApiUser(scope.request);
   // The lab first, by its id alone (one statement): it names the course whose role is checked next.
   const lab = labId && z.uuid().safeParse(labId).success ? await findLab(db, labId) : null;
   if (!lab) throw noSuchLab();
-  const access = await requireCourseRole(request, lab.courseId, anyRole);
+  const access = await requireCourseRole(scope, lab.courseId, anyRole);
   if (lab.status === "draft" && access.membership.role === "student") throw noSuchLab();
   if (access.membership.role !== "instructor" && !lab.cohortIds.some((cohortId) => access.cohortIds.includes(cohortId))) {
     // Not one of the lab's cohorts: the cohort check refuses, and records the refusal, as elsewhere.
-    await requireCohortAccess(request, lab.courseId, lab.cohortIds[0] ?? "no-cohort", anyRole);
+    await requireCohortAccess(scope, lab.courseId, lab.cohortIds[0] ?? "no-cohort", anyRole);
   }
   return { access, lab };
 }

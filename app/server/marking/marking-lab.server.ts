@@ -12,7 +12,7 @@ import type { ComparisonSettings } from "~/lib/comparison/comparison-settings";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import { recordAudit } from "~/server/audit.server";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
-import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
+import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess, type RequestScope } from "~/server/auth/access.server";
 import { comparisonLabColumns, settingsOf } from "~/server/comparison/class-comparison.server";
 import { db, type Executor } from "~/server/db.server";
 
@@ -162,20 +162,20 @@ export async function assertInstructor(executor: Executor, access: CourseAccess,
  * the lab is set for (others get the usual recorded 403; no such lab a 404). Errors are JSON under /api/.
  */
 export async function requireMarkingAccess(
-  request: Request,
+  scope: RequestScope,
   courseId: string | undefined,
   labId: string | undefined,
   roles: readonly ("instructor" | "ta")[] = staffRoles,
 ): Promise<{ access: CourseAccess; lab: MarkingLab }> {
-  const access = await requireCourseRole(request, courseId, roles);
+  const access = await requireCourseRole(scope, courseId, roles);
   const lab = labId ? await loadMarkingLab(db, access.course.id, labId) : null;
   if (!lab) {
-    if (isApiRequest(request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
+    if (isApiRequest(scope.request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
     throw data("Not found", { status: 404 });
   }
   if (access.membership.role === "ta" && markableCohortIds(access, lab).length === 0) {
     // A TA of none of the lab's cohorts: the cohort check refuses (and records the refusal) as elsewhere.
-    await requireCohortAccess(request, access.course.id, lab.cohortIds[0] ?? "no-cohort");
+    await requireCohortAccess(scope, access.course.id, lab.cohortIds[0] ?? "no-cohort");
   }
   return { access, lab };
 }
