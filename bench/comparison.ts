@@ -3,13 +3,13 @@
  * labels upserted, the changes appended to the history, in one transaction). Budget: 200 ms. Rounds
  * alternate the method, so each writes changed labels and history rows, not just the same ones again.
  */
-import { useBenchDatabase, summarise } from "./support";
+import { createBenchDatabase, summarise } from "./support";
 
 const HAND_INS = 2_000;
 const ROUNDS = 7;
 const BUDGET_MS = 200;
 
-const bench = await useBenchDatabase();
+const bench = await createBenchDatabase();
 const { db } = await import("~/server/db.server");
 const { labs } = await import("~/db/schema");
 const { eq } = await import("drizzle-orm");

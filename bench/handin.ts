@@ -11,7 +11,7 @@ import { randomUUID } from "node:crypto";
 import { existsSync, readdirSync, statSync } from "node:fs";
 import { freePort, waitForHealth } from "../tests/support/app-server";
 import { bin } from "../scripts/lib/processes";
-import { startCpuAccount, useBenchDatabase } from "./support";
+import { startCpuAccount, createBenchDatabase } from "./support";
 
 const STUDENTS = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
@@ -26,7 +26,7 @@ if (appChanged) {
   if (spawnSync(process.execPath, [bin.tsx, "scripts/build.ts", "--demo"], { stdio: "inherit" }).status !== 0) throw new Error("The build failed.");
 }
 
-const bench = await useBenchDatabase();
+const bench = await createBenchDatabase();
 const { sql } = await import("drizzle-orm");
 const { db } = await import("~/server/db.server");
 const schema = await import("~/db/schema");

@@ -4,13 +4,13 @@
  * class comparison read for the automatic criteria). Budget: 500 ms. Rounds cycle through the levels,
  * so every round changes every mark.
  */
-import { useBenchDatabase, summarise } from "./support";
+import { createBenchDatabase, summarise } from "./support";
 
 const STUDENTS = 1_000;
 const ROUNDS = 7;
 const BUDGET_MS = 500;
 
-const bench = await useBenchDatabase();
+const bench = await createBenchDatabase();
 const { db } = await import("~/server/db.server");
 const { loadMarkingLab } = await import("~/server/marking/marking-lab.server");
 const { saveRubric } = await import("~/server/marking/rubrics.server");

@@ -5,13 +5,13 @@
  * 2,000 rows in the same run, so the ratio says how much the reduction and the revision rows add.
  * Rounds alternate two calibrations, so every round changes every figure.
  */
-import { useBenchDatabase, summarise } from "./support";
+import { createBenchDatabase, summarise } from "./support";
 
 const HAND_INS = 2_000;
 const ROUNDS = 5;
 const BUDGET_MS = 2_000;
 
-const bench = await useBenchDatabase();
+const bench = await createBenchDatabase();
 const { db } = await import("~/server/db.server");
 const { dropLogVersions, parts, rereductionRuns } = await import("~/db/schema");
 const { and, eq, desc, sql } = await import("drizzle-orm");

@@ -2,13 +2,13 @@
  * `npm run bench:roster`: a 5,000-row roster imported in one transaction (checks, invitations and
  * their queued e-mails). Budget: 3 s. Each round imports into a course of its own.
  */
-import { useBenchDatabase, summarise } from "./support";
+import { createBenchDatabase, summarise } from "./support";
 
 const ROWS = 5_000;
 const ROUNDS = 3;
 const BUDGET_MS = 3_000;
 
-const bench = await useBenchDatabase();
+const bench = await createBenchDatabase();
 const { db } = await import("~/server/db.server");
 const { importRoster } = await import("~/server/members/roster-import.server");
 const { createAccessFixture } = await import("../tests/support/access-fixture");
