@@ -10,7 +10,12 @@ export default tseslint.config(
   { ignores: ["build/", ".react-router/", "node_modules/", "drizzle/", "coverage/", "storage/", ".data/"] },
   {
     files: ["**/*.{js,ts,tsx}"],
-    extends: [js.configs.recommended, ...tseslint.configs.recommended, reactHooks.configs.flat.recommended, jsxA11y.flatConfigs.recommended],
+    extends: [
+      js.configs.recommended,
+      ...tseslint.configs.recommended,
+      reactHooks.configs.flat.recommended,
+      jsxA11y.flatConfigs.recommended,
+    ],
     languageOptions: { globals: { ...globals.browser, ...globals.node } },
   },
 );

@@ -69,6 +69,11 @@ export function startCpuAccount(serverPid: number): () => CpuAccount {
     const clientSpent = process.cpuUsage(client);
     const clientUsed = (clientSpent.user + clientSpent.system) / 1e6;
     const now = machineCpuSeconds();
-    return { server: serverUsed, client: clientUsed, rest: now.busy - machine.busy - clientUsed - (serverUsed ?? 0), available: now.total - machine.total };
+    return {
+      server: serverUsed,
+      client: clientUsed,
+      rest: now.busy - machine.busy - clientUsed - (serverUsed ?? 0),
+      available: now.total - machine.total,
+    };
   };
 }
