@@ -11,7 +11,7 @@ import { randomUUID } from "node:crypto";
 import { existsSync, readdirSync, statSync } from "node:fs";
 import { freePort, waitForHealth } from "../tests/support/app-server";
 import { bin } from "../scripts/lib/processes";
-import { startCpuAccount, useBenchDatabase } from "./support";
+import { startCpuAccount, createBenchDatabase } from "./support";
 
 const STUDENTS = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
@@ -23,10 +23,11 @@ const builtAt = existsSync("build/web.js") ? statSync("build/web.js").mtimeMs : 
 const appChanged = readdirSync("app", { recursive: true, encoding: "utf8" }).some((file) => statSync(`app/${file}`).mtimeMs > builtAt);
 if (appChanged) {
   console.log("Building the app…");
-  if (spawnSync(process.execPath, [bin.tsx, "scripts/build.ts", "--demo"], { stdio: "inherit" }).status !== 0) throw new Error("The build failed.");
+  if (spawnSync(process.execPath, [bin.tsx, "scripts/build.ts", "--demo"], { stdio: "inherit" }).status !== 0)
+    throw new Error("The build failed.");
 }
 
-const bench = await useBenchDatabase();
+const bench = await createBenchDatabase();
 const { sql } = await import("drizzle-orm");
 const { db } = await import("~/server/db.server");
 const schema = await import("~/db/schema");
@@ -35,7 +36,10 @@ const { createSession, SESSION_COOKIE } = await import("~/server/auth/session.se
 
 // The class: one course, one cohort, a published lab due in ten minutes, a kit per student.
 const label = `bench-${randomUUID().slice(0, 8)}`;
-const [course] = await db.insert(schema.courses).values({ title: "Deadline rush", code: label, term: "Bench", timeZone: "UTC" }).returning();
+const [course] = await db
+  .insert(schema.courses)
+  .values({ title: "Deadline rush", code: label, term: "Bench", timeZone: "UTC" })
+  .returning();
 const [cohort] = await db.insert(schema.cohorts).values({ courseId: course.id, name: "Everyone" }).returning();
 const [lab] = await db
   .insert(schema.labs)
@@ -53,7 +57,17 @@ const [lab] = await db
 await db.insert(schema.labCohorts).values({ labId: lab.id, cohortId: cohort.id });
 const [fluidLot] = await db
   .insert(schema.parts)
-  .values({ courseId: course.id, kind: "fluid_lot", label: "GLY-B", fluidName: "glycerol", densityKgM3: 1260, calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }, { temperatureC: 25, viscosityPaS: 0.94 }] })
+  .values({
+    courseId: course.id,
+    kind: "fluid_lot",
+    label: "GLY-B",
+    fluidName: "glycerol",
+    densityKgM3: 1260,
+    calibration: [
+      { temperatureC: 20, viscosityPaS: 1.41 },
+      { temperatureC: 25, viscosityPaS: 0.94 },
+    ],
+  })
   .returning();
 const students = Array.from({ length: STUDENTS }, (_, index) => ({
   index,
@@ -63,12 +77,54 @@ const students = Array.from({ length: STUDENTS }, (_, index) => ({
   sphereId: randomUUID(),
   columnId: randomUUID(),
 }));
-await insertMany(db, schema.users, students.map((s) => ({ id: s.userId, email: `student${s.index}@${label}.example`, name: `Student ${s.index}` })));
-await insertMany(db, schema.courseMemberships, students.map((s) => ({ id: s.membershipId, courseId: course.id, userId: s.userId, role: "student" as const, cohortId: cohort.id })));
+await insertMany(
+  db,
+  schema.users,
+  students.map((s) => ({ id: s.userId, email: `student${s.index}@${label}.example`, name: `Student ${s.index}` })),
+);
+await insertMany(
+  db,
+  schema.courseMemberships,
+  students.map((s) => ({ id: s.membershipId, courseId: course.id, userId: s.userId, role: "student" as const, cohortId: cohort.id })),
+);
 // Two inserts: every row of an insertMany must name the same columns.
-await insertMany(db, schema.parts, students.map((s) => ({ id: s.sphereId, courseId: course.id, kind: "sphere" as const, label: `S-${s.index}`, material: "steel", diameterMm: 3, massG: 0.11 })));
-await insertMany(db, schema.parts, students.map((s) => ({ id: s.columnId, courseId: course.id, kind: "column" as const, label: `C-${s.index}`, innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 })));
-await insertMany(db, schema.kits, students.map((s) => ({ id: s.kitId, courseId: course.id, number: `K-${s.index}`, state: "at_home" as const, holderMembershipId: s.membershipId })));
+await insertMany(
+  db,
+  schema.parts,
+  students.map((s) => ({
+    id: s.sphereId,
+    courseId: course.id,
+    kind: "sphere" as const,
+    label: `S-${s.index}`,
+    material: "steel",
+    diameterMm: 3,
+    massG: 0.11,
+  })),
+);
+await insertMany(
+  db,
+  schema.parts,
+  students.map((s) => ({
+    id: s.columnId,
+    courseId: course.id,
+    kind: "column" as const,
+    label: `C-${s.index}`,
+    innerDiameterMm: 40,
+    timedDistanceMm: 200,
+    runInMm: 100,
+  })),
+);
+await insertMany(
+  db,
+  schema.kits,
+  students.map((s) => ({
+    id: s.kitId,
+    courseId: course.id,
+    number: `K-${s.index}`,
+    state: "at_home" as const,
+    holderMembershipId: s.membershipId,
+  })),
+);
 await insertMany(db, schema.kitParts, [
   ...students.flatMap((s) => [
     { kitId: s.kitId, partId: s.sphereId, exclusive: true },
@@ -86,11 +142,28 @@ for (const s of students) {
 const port = await freePort();
 const baseUrl = `http://127.0.0.1:${port}`;
 const server = spawn(process.execPath, ["build/web.js"], {
-  env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", APP_URL: baseUrl, TRUST_PROXY: "0", DATABASE_URL: bench.url, SMTP_URL: "smtp://127.0.0.1:1025" },
+  env: {
+    ...process.env,
+    NODE_ENV: "production",
+    PORT: String(port),
+    HOST: "127.0.0.1",
+    APP_URL: baseUrl,
+    TRUST_PROXY: "0",
+    DATABASE_URL: bench.url,
+    SMTP_URL: "smtp://127.0.0.1:1025",
+  },
   stdio: ["ignore", "ignore", "inherit"],
 });
 
-type Outcome = { student: number; key: string; status: number; versionId: string | null; duplicate: boolean | null; error: string | null; ms: number };
+type Outcome = {
+  student: number;
+  key: string;
+  status: number;
+  versionId: string | null;
+  duplicate: boolean | null;
+  error: string | null;
+  ms: number;
+};
 const outcomes: Outcome[] = [];
 const deadline = Date.now() + OVERALL_DEADLINE_MS;
 
@@ -103,7 +176,11 @@ async function handIn(student: (typeof students)[number], key: string, drops: nu
     body: JSON.stringify({ sphereId: student.sphereId, temperatureC: 21.5, drops }),
     signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS),
   });
-  const body = (await response.json().catch(() => null)) as { version?: { id: string }; duplicate?: boolean; error?: { code: string } } | null;
+  const body = (await response.json().catch(() => null)) as {
+    version?: { id: string };
+    duplicate?: boolean;
+    error?: { code: string };
+  } | null;
   outcomes.push({
     student: student.index,
     key,
@@ -128,7 +205,11 @@ try {
       const first = `${label}-${student.index}-a`;
       await handIn(student, first, drops);
       await handIn(student, first, drops);
-      await handIn(student, `${label}-${student.index}-b`, drops.map((time) => Number((time + 0.02).toFixed(2))));
+      await handIn(
+        student,
+        `${label}-${student.index}-b`,
+        drops.map((time) => Number((time + 0.02).toFixed(2))),
+      );
     }),
   );
   const seconds = (performance.now() - started) / 1000;
@@ -138,9 +219,15 @@ try {
   const repeats = outcomes.filter((outcome) => outcome.status === 200);
   const others = outcomes.filter((outcome) => outcome.status !== 201 && outcome.status !== 200);
   const latencies = outcomes.map((outcome) => outcome.ms).sort((a, b) => a - b);
-  console.log(`${outcomes.length} requests from ${STUDENTS} students in ${seconds.toFixed(2)} s: ${accepted.length} new versions (201), ${repeats.length} repeats (200), ${others.length} other`);
-  console.log(`hand-ins stored per second: ${(accepted.length / seconds).toFixed(0)}; requests per second: ${(outcomes.length / seconds).toFixed(0)}`);
-  console.log(`latency: p50 ${percentile(latencies, 50).toFixed(0)} ms, p95 ${percentile(latencies, 95).toFixed(0)} ms, p99 ${percentile(latencies, 99).toFixed(0)} ms, max ${latencies.at(-1)!.toFixed(0)} ms`);
+  console.log(
+    `${outcomes.length} requests from ${STUDENTS} students in ${seconds.toFixed(2)} s: ${accepted.length} new versions (201), ${repeats.length} repeats (200), ${others.length} other`,
+  );
+  console.log(
+    `hand-ins stored per second: ${(accepted.length / seconds).toFixed(0)}; requests per second: ${(outcomes.length / seconds).toFixed(0)}`,
+  );
+  console.log(
+    `latency: p50 ${percentile(latencies, 50).toFixed(0)} ms, p95 ${percentile(latencies, 95).toFixed(0)} ms, p99 ${percentile(latencies, 99).toFixed(0)} ms, max ${latencies.at(-1)!.toFixed(0)} ms`,
+  );
   // The load client runs on the same cores as the server: say what it and the rest of the machine took.
   const perRequest = (cpuSeconds: number) => `${((cpuSeconds * 1000) / outcomes.length).toFixed(1)} ms a request`;
   console.log(

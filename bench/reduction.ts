@@ -20,7 +20,6 @@ const WARM_UP_ROUNDS = 5;
 const TIMED_ROUNDS = 21;
 const BUDGET_MS = 50;
 
-
 function makeLogs(): FallingSphereInput[] {
   const random = seededRandom(20240917);
   const gaussian = () => Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());

@@ -1,6 +1,6 @@
 /**
  * Benchmarks run against a throw-away copy of the migrated test database, so they never touch
- * development data. Import app modules only after `useBenchDatabase()` (they read DATABASE_URL once).
+ * development data. Import app modules only after `createBenchDatabase()` (they read DATABASE_URL once).
  */
 import { readFileSync } from "node:fs";
 import { cpus } from "node:os";
@@ -9,7 +9,7 @@ import { testDatabaseUrl } from "../scripts/lib/database-url";
 import { ensureDatabases } from "../scripts/lib/postgres";
 import { createTestDatabase, dropTestDatabase } from "../tests/support/test-database";
 
-export async function useBenchDatabase(): Promise<{ url: string; drop: () => Promise<void> }> {
+export async function createBenchDatabase(): Promise<{ url: string; drop: () => Promise<void> }> {
   await ensureDatabases();
   await migrateDatabase(testDatabaseUrl());
   const url = await createTestDatabase("bench");
@@ -69,6 +69,11 @@ export function startCpuAccount(serverPid: number): () => CpuAccount {
     const clientSpent = process.cpuUsage(client);
     const clientUsed = (clientSpent.user + clientSpent.system) / 1e6;
     const now = machineCpuSeconds();
-    return { server: serverUsed, client: clientUsed, rest: now.busy - machine.busy - clientUsed - (serverUsed ?? 0), available: now.total - machine.total };
+    return {
+      server: serverUsed,
+      client: clientUsed,
+      rest: now.busy - machine.busy - clientUsed - (serverUsed ?? 0),
+      available: now.total - machine.total,
+    };
   };
 }

@@ -25,8 +25,8 @@ export default function CourseInvitationEmail(props: Props) {
     >
       <Heading>You are invited to {props.courseTitle}</Heading>
       <Paragraph>
-        {props.inviterName} has added you to the course as {roleNames[props.role]}. Accept the invitation to see the course, its
-        labs and {props.role === "student" ? "the kit you will be sent" : "the cohorts you look after"}.
+        {props.inviterName} has added you to the course as {roleNames[props.role]}. Accept the invitation to see the course, its labs and{" "}
+        {props.role === "student" ? "the kit you will be sent" : "the cohorts you look after"}.
       </Paragraph>
       <FactList facts={facts} />
       <ActionButton href={props.acceptUrl}>Accept the invitation</ActionButton>

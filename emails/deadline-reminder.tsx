@@ -15,8 +15,8 @@ export default function DeadlineReminderEmail(props: Props) {
     >
       <Heading>{props.labTitle} is due soon</Heading>
       <Paragraph>
-        There is {describeTimeLeft(props.hoursLeft)} left to hand in your drop log. You can hand in from your phone; a later
-        hand-in replaces the earlier one until the deadline.
+        There is {describeTimeLeft(props.hoursLeft)} left to hand in your drop log. You can hand in from your phone; a later hand-in
+        replaces the earlier one until the deadline.
       </Paragraph>
       <FactList
         facts={[

@@ -13,11 +13,19 @@ import type { EmailTemplateName, EmailTemplates } from "./template-props";
 export type EmailTemplate<Props> = { Component: ComponentType<Props>; subject: (props: Props) => string; previewProps: Props };
 
 export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailTemplates[Name]> } = {
-  "course-invitation": { Component: CourseInvitationEmail, subject: courseInvitationSubject, previewProps: CourseInvitationEmail.PreviewProps },
+  "course-invitation": {
+    Component: CourseInvitationEmail,
+    subject: courseInvitationSubject,
+    previewProps: CourseInvitationEmail.PreviewProps,
+  },
   "sign-in-link": { Component: SignInLinkEmail, subject: signInLinkSubject, previewProps: SignInLinkEmail.PreviewProps },
   "password-reset": { Component: PasswordResetEmail, subject: passwordResetSubject, previewProps: PasswordResetEmail.PreviewProps },
   "no-account": { Component: NoAccountEmail, subject: noAccountSubject, previewProps: NoAccountEmail.PreviewProps },
-  "deadline-reminder": { Component: DeadlineReminderEmail, subject: deadlineReminderSubject, previewProps: DeadlineReminderEmail.PreviewProps },
+  "deadline-reminder": {
+    Component: DeadlineReminderEmail,
+    subject: deadlineReminderSubject,
+    previewProps: DeadlineReminderEmail.PreviewProps,
+  },
   "kit-shipped": { Component: KitShippedEmail, subject: kitShippedSubject, previewProps: KitShippedEmail.PreviewProps },
   "kit-problem": { Component: KitProblemEmail, subject: kitProblemSubject, previewProps: KitProblemEmail.PreviewProps },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },

@@ -15,8 +15,8 @@ export default function KitShippedEmail(props: Props) {
     >
       <Heading>Your lab kit is on its way</Heading>
       <Paragraph>
-        When it arrives, open the kit page to confirm that everything is there and undamaged before your first drop, and read
-        the safety cautions below before you unpack it.
+        When it arrives, open the kit page to confirm that everything is there and undamaged before your first drop, and read the safety
+        cautions below before you unpack it.
       </Paragraph>
       <FactList
         facts={[
@@ -35,7 +35,15 @@ export default function KitShippedEmail(props: Props) {
 /** The same cautions as the kit pages, as e-mail-safe blocks (mail clients drop list styling unevenly). */
 function SafetyCautions() {
   return (
-    <Section style={{ borderLeft: `4px solid ${palette.amber}`, backgroundColor: palette.paperDeep, borderRadius: "8px", padding: "8px 16px", margin: "20px 0 8px" }}>
+    <Section
+      style={{
+        borderLeft: `4px solid ${palette.amber}`,
+        backgroundColor: palette.paperDeep,
+        borderRadius: "8px",
+        padding: "8px 16px",
+        margin: "20px 0 8px",
+      }}
+    >
       <Text style={{ fontSize: "16px", fontWeight: 600, margin: "8px 0", color: palette.amberDeep }}>Safety</Text>
       {safetyCautions.map((caution) => (
         <Text key={caution.topic} style={{ fontSize: "14px", lineHeight: "21px", margin: "6px 0", color: palette.ink }}>

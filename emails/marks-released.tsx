@@ -13,8 +13,8 @@ export default function MarksReleasedEmail(props: Props) {
     >
       <Heading>Your mark for {props.labTitle} is ready</Heading>
       <Paragraph>
-        The marks for {props.labTitle} in {props.courseTitle} have been released. Open the lab to see your mark, each criterion of
-        the rubric with its feedback, and the result the server recomputed from the drop log your mark is based on.
+        The marks for {props.labTitle} in {props.courseTitle} have been released. Open the lab to see your mark, each criterion of the
+        rubric with its feedback, and the result the server recomputed from the drop log your mark is based on.
       </Paragraph>
       <ActionButton href={props.marksUrl}>See your mark</ActionButton>
     </EmailLayout>

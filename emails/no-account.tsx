@@ -19,9 +19,8 @@ export default function NoAccountEmail(props: Props) {
     >
       <Heading>There is no Benchpost account with this address</Heading>
       <Paragraph>
-        Someone asked for {asked[props.purpose]} for this address, but no account uses it. If you have an account, it may be under
-        another address: try that one. Students and teaching assistants get their account from the invitation e-mail their
-        instructor sends.
+        Someone asked for {asked[props.purpose]} for this address, but no account uses it. If you have an account, it may be under another
+        address: try that one. Students and teaching assistants get their account from the invitation e-mail their instructor sends.
       </Paragraph>
       {props.signUpUrl ? (
         <>

@@ -12,9 +12,7 @@ export default function SignInLinkEmail(props: Props) {
       reason="You got this e-mail because someone asked to sign in to Benchpost with this address. If it was not you, ignore it: nobody can sign in without the link."
     >
       <Heading>Sign in to Benchpost</Heading>
-      <Paragraph>
-        Use the button below to sign in. The link works once and expires in {props.expiresInMinutes} minutes.
-      </Paragraph>
+      <Paragraph>Use the button below to sign in. The link works once and expires in {props.expiresInMinutes} minutes.</Paragraph>
       <ActionButton href={props.url}>Sign in</ActionButton>
     </EmailLayout>
   );

@@ -13,7 +13,7 @@ import { createDatabase, createPool } from "~/server/db.server";
 const { values } = parseArgs({ options: { email: { type: "string" }, name: { type: "string" } } });
 const input = z.object({ email: z.email(), name: z.string().trim().min(1).max(120) }).safeParse(values);
 if (!input.success) {
-  console.error("Usage: npm run user:create-instructor -- --email someone@example.org --name \"Dr. Someone\"");
+  console.error('Usage: npm run user:create-instructor -- --email someone@example.org --name "Dr. Someone"');
   process.exit(1);
 }
 

@@ -18,9 +18,12 @@ const development = process.argv.includes("--dev");
 const catchesMail = !env.RESEND_API_KEY && !env.SMTP_URL;
 
 async function prepare(): Promise<void> {
-  if (!(await portIsFree(env.PORT, env.HOST))) throw new SetupError(`Port ${env.PORT} is already in use: stop what is running there, or set PORT.`);
+  if (!(await portIsFree(env.PORT, env.HOST)))
+    throw new SetupError(`Port ${env.PORT} is already in use: stop what is running there, or set PORT.`);
   if (catchesMail && !(await portIsFree(env.MAIL_CATCHER_PORT, "127.0.0.1"))) {
-    throw new SetupError(`Port ${env.MAIL_CATCHER_PORT} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`);
+    throw new SetupError(
+      `Port ${env.MAIL_CATCHER_PORT} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`,
+    );
   }
   console.log(`Demo scenario: ${await prepareDevelopmentDatabase()}.`);
   if (!development) await buildApp({ demo: true });
@@ -30,14 +33,18 @@ function printWelcome(): void {
   const scenario = buildDemoScenario();
   const lines = [
     `Benchpost is running at ${env.APP_URL}`,
-    env.HOST === "127.0.0.1" ? "It listens on 127.0.0.1 only: other machines cannot reach it (HOST=0.0.0.0 and APP_URL open it up)." : `It listens on ${env.HOST}.`,
+    env.HOST === "127.0.0.1"
+      ? "It listens on 127.0.0.1 only: other machines cannot reach it (HOST=0.0.0.0 and APP_URL open it up)."
+      : `It listens on ${env.HOST}.`,
     "",
     `Demo sign-ins (password for all: ${DEMO_PASSWORD}):`,
     `  instructor  ${scenario.instructor.email}`,
     ...scenario.tas.map((ta) => `  TA          ${ta.email}`),
     `  student     ${scenario.students[0].email} (and ${scenario.students.length - 1} more)`,
     "",
-    catchesMail ? `E-mail is caught locally: read it at ${env.APP_URL}/dev/inbox (only from this machine).` : `E-mail goes out through ${env.RESEND_API_KEY ? "Resend" : env.SMTP_URL}.`,
+    catchesMail
+      ? `E-mail is caught locally: read it at ${env.APP_URL}/dev/inbox (only from this machine).`
+      : `E-mail goes out through ${env.RESEND_API_KEY ? "Resend" : env.SMTP_URL}.`,
     "",
     "Press Ctrl-C to stop.",
   ];
@@ -60,7 +67,10 @@ function run(): void {
     BENCHPOST_DEMO_BUILD: "1",
   };
   const services: ChildProcess[] = development
-    ? [startService("web", bin.tsx, ["scripts/web.ts", "--dev"], childEnv), startService("worker", bin.tsx, ["scripts/worker.ts"], childEnv)]
+    ? [
+        startService("web", bin.tsx, ["scripts/web.ts", "--dev"], childEnv),
+        startService("worker", bin.tsx, ["scripts/worker.ts"], childEnv),
+      ]
     : [startService("web", "build/web.js", [], childEnv), startService("worker", "build/worker.js", [], childEnv)];
   if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], childEnv));
   // Ctrl-C reaches every process of the terminal's group at once, so the children also stop on their

@@ -23,6 +23,8 @@ try {
 
 runStep("Type-checking (react-router typegen && tsc)", bin.reactRouter, ["typegen"], env);
 runStep("Type-checking", bin.tsc, [], env);
+runStep("Lint (eslint .)", bin.eslint, ["."], env);
+runStep("Formatting (prettier --check .)", bin.prettier, ["--check", "."], env);
 // The demo build, before the suites: the HTTP-level integration tests and the browser tests serve it.
 await buildApp({ demo: true });
 runStep("Unit and integration tests", bin.vitest, ["run", "--project", "unit", "--project", "integration"], env);

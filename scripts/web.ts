@@ -22,7 +22,8 @@ const server = createServer(app);
 app.disable("x-powered-by");
 
 /** Tokens travel in these paths; the log keeps the route, never the token. */
-const loggedPath = (url: string | undefined) => (url ?? "").split("?")[0].replace(/^\/(sign-in\/link|reset-password|invitations)\/[^/]+/, "/$1/:token");
+const loggedPath = (url: string | undefined) =>
+  (url ?? "").split("?")[0].replace(/^\/(sign-in\/link|reset-password|invitations)\/[^/]+/, "/$1/:token");
 const requestIds = new WeakMap<object, string>();
 // One log line per request, with its id, which is also sent back as X-Request-Id.
 app.use((request, response, next) => {
@@ -32,7 +33,16 @@ app.use((request, response, next) => {
   response.setHeader("X-Request-Id", requestId);
   const started = performance.now();
   response.on("finish", () => {
-    logger.info({ requestId, method: request.method, path: loggedPath(request.url), status: response.statusCode, ms: Math.round(performance.now() - started) }, "request");
+    logger.info(
+      {
+        requestId,
+        method: request.method,
+        path: loggedPath(request.url),
+        status: response.statusCode,
+        ms: Math.round(performance.now() - started),
+      },
+      "request",
+    );
   });
   next();
 });
@@ -55,10 +65,16 @@ if (development) {
 }
 app.all(
   "*",
-  createRequestHandler({ build, mode: development ? "development" : "production", getLoadContext: (request) => loadContextFor(request.socket.remoteAddress, requestIds.get(request)) }),
+  createRequestHandler({
+    build,
+    mode: development ? "development" : "production",
+    getLoadContext: (request) => loadContextFor(request.socket.remoteAddress, requestIds.get(request)),
+  }),
 );
 
-server.listen(env.PORT, env.HOST, () => logger.info({ host: env.HOST, port: env.PORT }, `Web server listening on http://${env.HOST}:${env.PORT}`));
+server.listen(env.PORT, env.HOST, () =>
+  logger.info({ host: env.HOST, port: env.PORT }, `Web server listening on http://${env.HOST}:${env.PORT}`),
+);
 // Browsers keep idle connections open: close them, or Ctrl-C would wait for them to time out.
 const stop = () => {
   server.close(() => process.exit(0));

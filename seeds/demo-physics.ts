@@ -30,7 +30,13 @@ export function standardDragCurve(reynolds: number): number {
   throw new RangeError(`The demo's drag curve stops at Re = 1500 (asked for ${reynolds.toFixed(0)}).`);
 }
 
-export type SettlingCase = { diameterM: number; sphereDensityKgM3: number; fluidDensityKgM3: number; viscosityPaS: number; columnDiameterM: number };
+export type SettlingCase = {
+  diameterM: number;
+  sphereDensityKgM3: number;
+  fluidDensityKgM3: number;
+  viscosityPaS: number;
+  columnDiameterM: number;
+};
 
 /**
  * Terminal velocity in the column: the force balance with the standard drag curve, solved by fixed-point
@@ -75,4 +81,3 @@ export function stopwatch(faker: Faker): (trueTimeS: number) => number {
 export function thermometerReading(faker: Faker, trueTemperatureC: number, resolution: number): number {
   return read(trueTemperatureC + faker.number.float({ min: -0.5, max: 0.5 }), resolution);
 }
-

@@ -70,9 +70,11 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
       .returning();
     const membershipOf = (email: string) => memberships.find((row) => row.userId === userIdOf(email))!.id;
 
-    await tx.insert(taCohortAssignments).values(
-      scenario.tas.flatMap((ta) => ta.cohorts.map((cohort) => ({ membershipId: membershipOf(ta.email), cohortId: cohortIdAt(cohort) }))),
-    );
+    await tx
+      .insert(taCohortAssignments)
+      .values(
+        scenario.tas.flatMap((ta) => ta.cohorts.map((cohort) => ({ membershipId: membershipOf(ta.email), cohortId: cohortIdAt(cohort) }))),
+      );
 
     // Its own seeded generator, so that growing the kit inventory never changes who the people are.
     const kitFaker = new Faker({ locale: [en] });

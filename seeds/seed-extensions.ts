@@ -25,7 +25,14 @@ export async function seedExtensions(db: Database, { courseId }: { courseId: str
     .where(and(eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "instructor")));
   const courseCohorts = await db.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId));
   const access: CourseAccess = {
-    user: { id: instructor.userId, email: instructor.email, name: instructor.name, mayCreateCourses: true, sessionId: null, via: "session" },
+    user: {
+      id: instructor.userId,
+      email: instructor.email,
+      name: instructor.name,
+      mayCreateCourses: true,
+      sessionId: null,
+      via: "session",
+    },
     course: { id: course.id, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
     membership: { id: instructor.membershipId, role: "instructor", cohortId: null },
     cohortIds: courseCohorts.map((cohort) => cohort.id),
@@ -57,6 +64,10 @@ export async function seedExtensions(db: Database, { courseId }: { courseId: str
     access,
     lab: viscometry,
     target: { cohortId: thursday.id },
-    window: { dueAt: later(viscometry.dueAt, 4)!, lateCutoffAt: later(viscometry.lateCutoffAt, 4), reason: "Kits shipped late: the Thursday bench's kits left the store last, and some are still on their way." },
+    window: {
+      dueAt: later(viscometry.dueAt, 4)!,
+      lateCutoffAt: later(viscometry.lateCutoffAt, 4),
+      reason: "Kits shipped late: the Thursday bench's kits left the store last, and some are still on their way.",
+    },
   });
 }

@@ -114,7 +114,10 @@ export async function seedKits(
     { courseId, kind: "accessory" as const, label: `THM-${String(kit + 1).padStart(2, "0")}`, accessoryType: "thermometer" },
   ]).flat();
 
-  const inserted = await tx.insert(parts).values([...sphereRows, ...fluidRows, ...columnRows, ...accessoryRows]).returning({ id: parts.id, label: parts.label, kind: parts.kind });
+  const inserted = await tx
+    .insert(parts)
+    .values([...sphereRows, ...fluidRows, ...columnRows, ...accessoryRows])
+    .returning({ id: parts.id, label: parts.label, kind: parts.kind });
   await tx.insert(partEvents).values(inserted.map((part) => ({ partId: part.id, actorId: instructorId, action: "created" })));
   const idOf = new Map(inserted.map((part) => [part.label, part.id]));
 
@@ -141,10 +144,12 @@ export async function seedKits(
   // Kits alternate between the two fluid lots, so that both labs' fluids are in use.
   await tx.insert(kitParts).values(
     kitRows.flatMap((kit, index) => [
-      ...[`S3-${two(index)}`, `S4-${two(index)}`, `G6-${two(index)}`, `C-${two(index)}`, `MAG-${two(index)}`, `THM-${two(index)}`].map((label) => ({
-        kitId: kit.id,
-        partId: idOf.get(label)!,
-      })),
+      ...[`S3-${two(index)}`, `S4-${two(index)}`, `G6-${two(index)}`, `C-${two(index)}`, `MAG-${two(index)}`, `THM-${two(index)}`].map(
+        (label) => ({
+          kitId: kit.id,
+          partId: idOf.get(label)!,
+        }),
+      ),
       { kitId: kit.id, partId: idOf.get("GLY-95A")!, exclusive: false },
       { kitId: kit.id, partId: idOf.get("SYR-2B")!, exclusive: false },
     ]),

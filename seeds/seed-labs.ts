@@ -68,7 +68,9 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
       },
     ])
     .returning();
-  await db.insert(labCohorts).values([dragLab, viscometryLab].flatMap((lab) => cohortRows.map((cohort) => ({ labId: lab.id, cohortId: cohort.id }))));
+  await db
+    .insert(labCohorts)
+    .values([dragLab, viscometryLab].flatMap((lab) => cohortRows.map((cohort) => ({ labId: lab.id, cohortId: cohort.id }))));
   // As publishing does: the viscometry lab's 48 h and 6 h reminders wait in the queue (the drag lab's are past).
   await db.transaction(async (tx) => {
     for (const lab of [dragLab, viscometryLab]) await scheduleLabReminders(tx, lab, new Date(now));
@@ -76,7 +78,15 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
 
   // Students who hold a kit, with the parts of it, in one statement.
   const holders = await db
-    .select({ membershipId: courseMemberships.id, cohortId: courseMemberships.cohortId, userId: users.id, email: users.email, name: users.name, kitState: kits.state, part: parts })
+    .select({
+      membershipId: courseMemberships.id,
+      cohortId: courseMemberships.cohortId,
+      userId: users.id,
+      email: users.email,
+      name: users.name,
+      kitState: kits.state,
+      part: parts,
+    })
     .from(kits)
     .innerJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
     .innerJoin(users, eq(users.id, courseMemberships.userId))
@@ -104,7 +114,16 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     };
     const column = rows.find((row) => row.part.kind === "column")!.part;
     const sphereOf = (prefix: string) => rows.find((row) => row.part.label.startsWith(prefix))!.part;
-    const mistake: Mistake = index === 3 ? "stopwatch-slip" : index === 7 ? "warm-fluid" : index === 11 ? "wrong-sphere" : index === 15 ? "misread-diameter" : "none";
+    const mistake: Mistake =
+      index === 3
+        ? "stopwatch-slip"
+        : index === 7
+          ? "warm-fluid"
+          : index === 11
+            ? "wrong-sphere"
+            : index === 15
+              ? "misread-diameter"
+              : "none";
 
     const timeDrop = stopwatch(faker);
     /** Ten hand-timed drops of `sphere` through `lot` at the fluid's true temperature. */
@@ -128,18 +147,41 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
       const timedSphere = mistake === "wrong-sphere" ? sphereOf("S4") : sphereOf("S3");
       const drops = dropsFor(timedSphere, glycerol, mistake === "warm-fluid" ? roomC + 6 : roomC);
       if (mistake === "stopwatch-slip") drops[4] = Number((drops[4] * 2).toFixed(2));
-      const input: DropLogInput = { sphereId: sphereOf("S3").id, fluidLotId: glycerol.id, temperatureC, drops, notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined };
+      const input: DropLogInput = {
+        sphereId: sphereOf("S3").id,
+        fluidLotId: glycerol.id,
+        temperatureC,
+        drops,
+        notes: mistake === "warm-fluid" ? "Fluid felt warm from the radiator." : undefined,
+      };
       // A micrometer read half a turn off (0.5 mm): the kit's record is used, and the log carries a warning.
       if (mistake === "misread-diameter") input.ownDiameterMm = Number((sphereOf("S3").diameterMm! + 0.5).toFixed(2));
       const late = index % 6 === 5;
-      await handInDropLog(db, { access, labId: dragLab.id, input, idempotencyKey: `demo-drag-${membershipId}`, now: new Date(now - (late ? 1 : 3) * DAY_MS) });
+      await handInDropLog(db, {
+        access,
+        labId: dragLab.id,
+        input,
+        idempotencyKey: `demo-drag-${membershipId}`,
+        now: new Date(now - (late ? 1 : 3) * DAY_MS),
+      });
     }
     // The viscometry lab is still open: about half have handed in.
     if ((index % 2 === 0 && !kitAway) || earlyHandIn) {
       const roomC = faker.number.float({ min: 18, max: 22 });
       const temperatureC = thermometerReading(faker, roomC, resolutions.temperatureC);
-      const input: DropLogInput = { sphereId: sphereOf("G6").id, fluidLotId: syrup.id, temperatureC, drops: dropsFor(sphereOf("G6"), syrup, roomC) };
-      await handInDropLog(db, { access, labId: viscometryLab.id, input, idempotencyKey: `demo-visc-${membershipId}`, now: new Date(now - DAY_MS) });
+      const input: DropLogInput = {
+        sphereId: sphereOf("G6").id,
+        fluidLotId: syrup.id,
+        temperatureC,
+        drops: dropsFor(sphereOf("G6"), syrup, roomC),
+      };
+      await handInDropLog(db, {
+        access,
+        labId: viscometryLab.id,
+        input,
+        idempotencyKey: `demo-visc-${membershipId}`,
+        now: new Date(now - DAY_MS),
+      });
     }
   }
 }

@@ -43,9 +43,22 @@ const dragRubric = [
       { points: 3, description: "As above, and the sphere released below the surface at the axis." },
     ],
   },
-  { kind: "range", title: "Discussion of the drag coefficient", description: "Compares C_D with the reference curve and names the largest uncertainty.", minPoints: 0, maxPoints: 4 },
+  {
+    kind: "range",
+    title: "Discussion of the drag coefficient",
+    description: "Compares C_D with the reference curve and names the largest uncertainty.",
+    minPoints: 0,
+    maxPoints: 4,
+  },
   { kind: "auto", title: "Required number of drops", description: "", rule: "required_drops", maxPoints: 2, params: {} },
-  { kind: "auto", title: "Within 10 % of the reference drag", description: "", rule: "within_reference", maxPoints: 3, params: { tolerancePercent: 10 } },
+  {
+    kind: "auto",
+    title: "Within 10 % of the reference drag",
+    description: "",
+    rule: "within_reference",
+    maxPoints: 3,
+    params: { tolerancePercent: 10 },
+  },
   { kind: "auto", title: "Agrees with the class", description: "", rule: "not_outlier", maxPoints: 2, params: { suspectPoints: 1 } },
   { kind: "auto", title: "Handed in on time", description: "", rule: "on_time", maxPoints: 1, params: { latePenaltyPoints: 1 } },
 ] satisfies Criteria;
@@ -61,9 +74,22 @@ const viscometryRubric = [
       { points: 2, description: "Recorded before and after, and steady." },
     ],
   },
-  { kind: "range", title: "Validity of Stokes' law", description: "Checks the Reynolds number and says whether the Oseen correction matters.", minPoints: 0, maxPoints: 3 },
+  {
+    kind: "range",
+    title: "Validity of Stokes' law",
+    description: "Checks the Reynolds number and says whether the Oseen correction matters.",
+    minPoints: 0,
+    maxPoints: 3,
+  },
   { kind: "auto", title: "Required number of drops", description: "", rule: "required_drops", maxPoints: 1, params: {} },
-  { kind: "auto", title: "Within 15 % of the lot's calibration", description: "", rule: "within_reference", maxPoints: 3, params: { tolerancePercent: 15 } },
+  {
+    kind: "auto",
+    title: "Within 15 % of the lot's calibration",
+    description: "",
+    rule: "within_reference",
+    maxPoints: 3,
+    params: { tolerancePercent: 15 },
+  },
   { kind: "auto", title: "Agrees with the class", description: "", rule: "not_outlier", maxPoints: 2, params: {} },
   { kind: "auto", title: "Handed in on time", description: "", rule: "on_time", maxPoints: 1, params: {} },
 ] satisfies Criteria;
@@ -76,11 +102,25 @@ const feedbackLines = [
   "Read the bands at eye level next time; the spread of your first three drops suggests parallax.",
 ];
 
-type StaffRow = { userId: string; email: string; name: string; membershipId: string; role: "instructor" | "ta" | "student"; cohortIds: string[] };
+type StaffRow = {
+  userId: string;
+  email: string;
+  name: string;
+  membershipId: string;
+  role: "instructor" | "ta" | "student";
+  cohortIds: string[];
+};
 
 function accessOf(course: typeof courses.$inferSelect, person: StaffRow): CourseAccess {
   return {
-    user: { id: person.userId, email: person.email, name: person.name, mayCreateCourses: person.role === "instructor", sessionId: null, via: "session" },
+    user: {
+      id: person.userId,
+      email: person.email,
+      name: person.name,
+      mayCreateCourses: person.role === "instructor",
+      sessionId: null,
+      via: "session",
+    },
     course: { id: course.id, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
     membership: { id: person.membershipId, role: person.role, cohortId: null },
     cohortIds: person.cohortIds,
@@ -88,7 +128,8 @@ function accessOf(course: typeof courses.$inferSelect, person: StaffRow): Course
 }
 
 /** Every desk row of the viewer's students for the lab (one page is the whole demo class). */
-const deskRows = async (db: Database, access: CourseAccess, lab: MarkingLab) => (await loadMarkingDesk(db, { access, lab, filters: { page: 1, pageSize: 200 } })).rows;
+const deskRows = async (db: Database, access: CourseAccess, lab: MarkingLab) =>
+  (await loadMarkingDesk(db, { access, lab, filters: { page: 1, pageSize: 200 } })).rows;
 
 export async function seedMarking(db: Database, faker: Faker, { courseId }: { courseId: string }): Promise<void> {
   const scenario = buildDemoScenario();
@@ -99,11 +140,22 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
     .from(courseMemberships)
     .innerJoin(users, eq(users.id, courseMemberships.userId))
     .where(and(eq(courseMemberships.courseId, courseId), inArray(users.email, staffEmails)));
-  const assignments = await db.select().from(taCohortAssignments).where(inArray(taCohortAssignments.membershipId, staffRows.map((row) => row.membershipId)));
+  const assignments = await db
+    .select()
+    .from(taCohortAssignments)
+    .where(
+      inArray(
+        taCohortAssignments.membershipId,
+        staffRows.map((row) => row.membershipId),
+      ),
+    );
   const courseCohorts = await db.query.cohorts.findMany({ where: (cohort, { eq: equals }) => equals(cohort.courseId, courseId) });
   const staff = (email: string): StaffRow => {
     const row = staffRows.find((candidate) => candidate.email === email)!;
-    const cohortIds = row.role === "instructor" ? courseCohorts.map((cohort) => cohort.id) : assignments.filter((a) => a.membershipId === row.membershipId).map((a) => a.cohortId);
+    const cohortIds =
+      row.role === "instructor"
+        ? courseCohorts.map((cohort) => cohort.id)
+        : assignments.filter((a) => a.membershipId === row.membershipId).map((a) => a.cohortId);
     return { ...row, cohortIds };
   };
   const instructor = accessOf(course, staff(scenario.instructor.email));
@@ -112,7 +164,8 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
   const wednesday = accessOf(course, staff(scenario.tas[1].email));
 
   const labRows = await db.select({ id: labs.id, kind: labs.kind }).from(labs).where(eq(labs.courseId, courseId));
-  const loadLab = async (kind: "drag" | "viscometry") => (await loadMarkingLab(db, courseId, labRows.find((row) => row.kind === kind)!.id))!;
+  const loadLab = async (kind: "drag" | "viscometry") =>
+    (await loadMarkingLab(db, courseId, labRows.find((row) => row.kind === kind)!.id))!;
   await saveRubric(db, { access: instructor, lab: await loadLab("drag"), input: { criteria: dragRubric } });
   await saveRubric(db, { access: instructor, lab: await loadLab("viscometry"), input: { criteria: viscometryRubric } });
   const drag = await loadLab("drag");
@@ -129,14 +182,34 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
     const missing = marked.filter((row) => row.status === "missing").map((row) => row.membershipId);
     if (missing.length) {
       for (const title of ["Set-up and photos", "Timing technique"]) {
-        await applyToMany(db, { access, labId: drag.id, membershipIds: missing, change: { kind: "score", criterionId: criterion(drag, title), level: 1 } });
+        await applyToMany(db, {
+          access,
+          labId: drag.id,
+          membershipIds: missing,
+          change: { kind: "score", criterionId: criterion(drag, title), level: 1 },
+        });
       }
-      await applyToMany(db, { access, labId: drag.id, membershipIds: missing, change: { kind: "score", criterionId: criterion(drag, "Discussion of the drag coefficient"), points: 0 } });
-      await applyToMany(db, { access, labId: drag.id, membershipIds: missing, change: { kind: "feedback", text: "No drop log was handed in for this lab." } });
+      await applyToMany(db, {
+        access,
+        labId: drag.id,
+        membershipIds: missing,
+        change: { kind: "score", criterionId: criterion(drag, "Discussion of the drag coefficient"), points: 0 },
+      });
+      await applyToMany(db, {
+        access,
+        labId: drag.id,
+        membershipIds: missing,
+        change: { kind: "feedback", text: "No drop log was handed in for this lab." },
+      });
     }
     // The photos are mostly fine: one bulk action, then the exceptions cell by cell.
     const handedIn = marked.filter((row) => row.status !== "missing");
-    await applyToMany(db, { access, labId: drag.id, membershipIds: handedIn.map((row) => row.membershipId), change: { kind: "score", criterionId: criterion(drag, "Set-up and photos"), level: 3 } });
+    await applyToMany(db, {
+      access,
+      labId: drag.id,
+      membershipIds: handedIn.map((row) => row.membershipId),
+      change: { kind: "score", criterionId: criterion(drag, "Set-up and photos"), level: 3 },
+    });
     for (const row of handedIn) {
       let version = row.expectedVersion + 1;
       const save = async (change: Parameters<typeof saveMark>[1]["change"]) => {
@@ -144,13 +217,23 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
         if (result.status !== "saved") throw new Error(`The demo's marking of ${row.studentName} conflicted.`);
         version = result.mark?.version ?? version;
       };
-      if (faker.number.int({ min: 0, max: 4 }) === 0) await save({ kind: "score", criterionId: criterion(drag, "Set-up and photos"), level: 2 });
+      if (faker.number.int({ min: 0, max: 4 }) === 0)
+        await save({ kind: "score", criterionId: criterion(drag, "Set-up and photos"), level: 2 });
       await save({ kind: "score", criterionId: criterion(drag, "Timing technique"), level: faker.number.int({ min: 2, max: 4 }) });
-      await save({ kind: "score", criterionId: criterion(drag, "Discussion of the drag coefficient"), points: faker.number.int({ min: 2, max: 8 }) / 2 });
+      await save({
+        kind: "score",
+        criterionId: criterion(drag, "Discussion of the drag coefficient"),
+        points: faker.number.int({ min: 2, max: 8 }) / 2,
+      });
       await save({ kind: "feedback", text: faker.helpers.arrayElement(feedbackLines) });
       // A hand-in the class comparison flags, whose notes explain it: the TA overrides the suggestion.
       if (row.flagged && row.classLabel?.label === "suspect") {
-        await save({ kind: "score", criterionId: criterion(drag, "Agrees with the class"), points: 2, overrideReason: "The notes explain the one slow drop; the rest of the log agrees with the class." });
+        await save({
+          kind: "score",
+          criterionId: criterion(drag, "Agrees with the class"),
+          points: 2,
+          overrideReason: "The notes explain the one slow drop; the rest of the log agrees with the class.",
+        });
       }
     }
   }
@@ -198,6 +281,11 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
   // The viscometry lab is still open: the Tuesday TA has started on the hand-ins already in.
   const started = (await deskRows(db, tuesday, viscometry)).filter((row) => row.status !== "missing").slice(0, 4);
   if (started.length) {
-    await applyToMany(db, { access: tuesday, labId: viscometry.id, membershipIds: started.map((row) => row.membershipId), change: { kind: "score", criterionId: criterion(viscometry, "Temperature control"), level: 2 } });
+    await applyToMany(db, {
+      access: tuesday,
+      labId: viscometry.id,
+      membershipIds: started.map((row) => row.membershipId),
+      change: { kind: "score", criterionId: criterion(viscometry, "Temperature control"), level: 2 },
+    });
   }
 }

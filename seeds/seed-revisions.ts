@@ -12,7 +12,10 @@ import { updatePart } from "~/server/kits/parts.server";
 import { runRereduction } from "~/server/kits/rereduce.server";
 
 export async function seedRevisions(db: Database, { courseId }: { courseId: string }): Promise<void> {
-  const [lot] = await db.select().from(parts).where(and(eq(parts.courseId, courseId), eq(parts.label, "GLY-95A")));
+  const [lot] = await db
+    .select()
+    .from(parts)
+    .where(and(eq(parts.courseId, courseId), eq(parts.label, "GLY-95A")));
   const [instructor] = await db
     .select({ userId: courseMemberships.userId })
     .from(courseMemberships)
@@ -29,10 +32,18 @@ export async function seedRevisions(db: Database, { courseId }: { courseId: stri
       fluidName: "Glycerol–water, 96.5 % glycerol by mass",
       glycerolMassFraction: 0.965,
       densityKgM3: lot.densityKgM3!,
-      calibration: lot.calibration!.map((point) => ({ temperatureC: point.temperatureC, viscosityPaS: Number((point.viscosityPaS * 1.2).toFixed(3)) })),
+      calibration: lot.calibration!.map((point) => ({
+        temperatureC: point.temperatureC,
+        viscosityPaS: Number((point.viscosityPaS * 1.2).toFixed(3)),
+      })),
     },
     note: "Re-measured with the rotational viscometer and the refractometer: the batch was mixed with less water than recorded.",
   });
-  const [run] = await db.select({ id: rereductionRuns.id }).from(rereductionRuns).where(eq(rereductionRuns.partId, lot.id)).orderBy(desc(rereductionRuns.createdAt)).limit(1);
+  const [run] = await db
+    .select({ id: rereductionRuns.id })
+    .from(rereductionRuns)
+    .where(eq(rereductionRuns.partId, lot.id))
+    .orderBy(desc(rereductionRuns.createdAt))
+    .limit(1);
   await runRereduction(db, run.id);
 }

@@ -52,7 +52,9 @@ export function EmailLayout({ preview, reason, children }: { preview: string; re
 }
 
 export function Heading({ children }: { children: ReactNode }) {
-  return <Text style={{ fontSize: "22px", lineHeight: "30px", fontWeight: 600, margin: "16px 0 8px", color: palette.ink }}>{children}</Text>;
+  return (
+    <Text style={{ fontSize: "22px", lineHeight: "30px", fontWeight: 600, margin: "16px 0 8px", color: palette.ink }}>{children}</Text>
+  );
 }
 
 export function Paragraph({ children }: { children: ReactNode }) {
@@ -79,7 +81,10 @@ export function ActionButton({ href, children }: { href: string; children: React
         {children}
       </Button>
       <Text style={{ fontSize: "12px", lineHeight: "18px", margin: "12px 0 0", color: palette.inkSoft, wordBreak: "break-all" }}>
-        Or open this address: <Link href={href} style={{ color: palette.inkSoft }}>{href}</Link>
+        Or open this address:{" "}
+        <Link href={href} style={{ color: palette.inkSoft }}>
+          {href}
+        </Link>
       </Text>
     </Section>
   );

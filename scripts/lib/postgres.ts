@@ -7,14 +7,7 @@ import { createHash } from "node:crypto";
 import { existsSync, mkdirSync, readdirSync, chmodSync, chownSync, statSync } from "node:fs";
 import { dirname, join, resolve } from "node:path";
 import pg from "pg";
-import {
-  localPort,
-  LOCAL_USER,
-  databaseName,
-  developmentDatabaseUrl,
-  maintenanceUrl,
-  testDatabaseUrl,
-} from "./database-url";
+import { localPort, LOCAL_USER, databaseName, developmentDatabaseUrl, maintenanceUrl, testDatabaseUrl } from "./database-url";
 
 /** A failure the user can fix: printed as one line, never as a stack trace. */
 export class SetupError extends Error {}
@@ -46,7 +39,9 @@ function installPostgres(): string {
   const install = update.status === 0 ? run("apt-get", ["install", "-y", "--no-install-recommends", "postgresql"]) : update;
   const bin = findPostgresBin();
   if (install.status !== 0 || !bin) {
-    throw new SetupError(`Could not install PostgreSQL with apt-get (${install.stderr.trim().split("\n").pop()}); install it, or set DATABASE_URL.`);
+    throw new SetupError(
+      `Could not install PostgreSQL with apt-get (${install.stderr.trim().split("\n").pop()}); install it, or set DATABASE_URL.`,
+    );
   }
   return bin;
 }

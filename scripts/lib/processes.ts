@@ -42,4 +42,6 @@ export const bin = {
   tsc: "node_modules/typescript/bin/tsc",
   vitest: "node_modules/vitest/vitest.mjs",
   tsx: "node_modules/tsx/dist/cli.mjs",
+  eslint: "node_modules/eslint/bin/eslint.js",
+  prettier: "node_modules/prettier/bin/prettier.cjs",
 } as const;
