@@ -23,7 +23,13 @@ function createNonce(): string {
   return encodeBase64(bytes);
 }
 
-export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext, loadContext: RouterContextProvider) {
+export default function handleRequest(
+  request: Request,
+  responseStatusCode: number,
+  responseHeaders: Headers,
+  routerContext: EntryContext,
+  loadContext: RouterContextProvider,
+) {
   const nonce = createNonce();
   setDocumentSecurityHeaders(responseHeaders, nonce);
   // The 503 page is a database outage's (see database-outage.server.ts): tell clients when to come back.
@@ -38,7 +44,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
     let shellRendered = false;
     const userAgent = request.headers.get("user-agent");
     // Bots and SPA-mode renders wait for all content, so that they get complete HTML.
-    const readyOption: keyof RenderToPipeableStreamOptions = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+    const readyOption: keyof RenderToPipeableStreamOptions =
+      (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
 
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
 
@@ -79,5 +86,6 @@ export const handleError: HandleErrorFunction = (error, { request, context }) =>
   if (noteDatabaseOutage(error, { request, context })) return;
   // A thrown 4xx/5xx response carries the original error, when there was one, on its private `error`.
   const cause = isRouteErrorResponse(error) ? (error as { error?: unknown }).error : undefined;
-  if (!request.signal.aborted) logger.error({ err: cause ?? error, requestId: context.requestId, method: request.method }, "request failed");
+  if (!request.signal.aborted)
+    logger.error({ err: cause ?? error, requestId: context.requestId, method: request.method }, "request failed");
 };

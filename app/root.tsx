@@ -57,21 +57,29 @@ const explanations: Record<number, { title: string; advice: string }> = {
   400: { title: "That request could not be understood", advice: "Go back, check what you entered and try again." },
   403: {
     title: "This page is not open to you",
-    advice: "You are signed in with an account that has no role here. Sign in with another account, or ask the course's instructor to add you.",
+    advice:
+      "You are signed in with an account that has no role here. Sign in with another account, or ask the course's instructor to add you.",
   },
   404: { title: "There is nothing at this address", advice: "The link may be old or mistyped. Start again from the overview." },
-  413: { title: "That was too much to send at once", advice: "Nothing was stored. Send less in one go, for example a smaller file split in two." },
+  413: {
+    title: "That was too much to send at once",
+    advice: "Nothing was stored. Send less in one go, for example a smaller file split in two.",
+  },
   429: { title: "Too many attempts", advice: "Wait a little, then try again." },
   503: {
     title: "Benchpost cannot reach its database just now",
     advice: "Nothing from this request was stored, and nothing you handed in before is lost. Wait a minute, then try again.",
   },
-  500: { title: "Something went wrong on our side", advice: "Nothing you handed in is lost. Try again in a moment; if it keeps happening, tell your instructor." },
+  500: {
+    title: "Something went wrong on our side",
+    advice: "Nothing you handed in is lost. Try again in a moment; if it keeps happening, tell your instructor.",
+  },
 };
 
 const crossOriginExplanation = {
   title: "That form came from another site",
-  advice: "Benchpost takes changes only from its own pages, so nothing was changed. Open the page in Benchpost and send the form from there.",
+  advice:
+    "Benchpost takes changes only from its own pages, so nothing was changed. Open the page in Benchpost and send the form from there.",
 };
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {

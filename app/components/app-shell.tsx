@@ -16,7 +16,6 @@ export type ShellViewer = {
 
 export type NavItem = { to: string; label: string };
 
-
 /**
  * The navigation a viewer gets: each course they belong to, with the rooms their role opens there.
  * Staff get the course's working rooms; students get their own lab work and kit.
@@ -34,7 +33,10 @@ export function AppShell({ viewer, children }: { viewer: ShellViewer | null; chi
   const items = navigationFor(viewer);
   return (
     <div className="flex min-h-dvh flex-col">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:rounded focus:bg-paper-50 focus:px-3 focus:py-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:rounded focus:bg-paper-50 focus:px-3 focus:py-2"
+      >
         Skip to content
       </a>
       <header className="no-print border-b border-ink-900/10 bg-ink-800 text-paper-50">

@@ -13,7 +13,13 @@ export function CourseFields({ fields, timeZones }: { fields: CourseFieldset; ti
         <TextField label="Course code" field={fields.code} required hint="As in the institution's catalogue." />
         <TextField label="Term" field={fields.term} required placeholder="2027 Spring" />
       </div>
-      <TextField label="Time zone" field={fields.timeZone} required list="time-zones" hint="Opening and due times are entered and shown in this zone." />
+      <TextField
+        label="Time zone"
+        field={fields.timeZone}
+        required
+        list="time-zones"
+        hint="Opening and due times are entered and shown in this zone."
+      />
       <datalist id="time-zones">
         {timeZones.map((zone) => (
           <option key={zone} value={zone} />

@@ -14,7 +14,10 @@ export function FailedEmailsPanel({ failedEmails, timeZone }: { failedEmails: Fa
       <h2 id="failed-emails-heading" className="font-semibold">
         {failedEmails.length === 1 ? "1 e-mail could not be delivered" : `${failedEmails.length} e-mails could not be delivered`}
       </h2>
-      <p className="mt-1 text-sm text-ink-600">Benchpost tried each one several times, or could not send it at all (the reason is below). Check the address, or reach the person another way.</p>
+      <p className="mt-1 text-sm text-ink-600">
+        Benchpost tried each one several times, or could not send it at all (the reason is below). Check the address, or reach the person
+        another way.
+      </p>
       <ul className="mt-3 divide-y divide-paper-200">
         {failedEmails.map((email) => (
           <li key={email.id} className="py-2 text-sm">

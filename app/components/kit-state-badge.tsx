@@ -12,5 +12,9 @@ const tints: Record<KitState, string> = {
 };
 
 export function KitStateBadge({ state }: { state: KitState }) {
-  return <span className={`inline-block rounded-full px-2.5 py-0.5 text-xs font-medium whitespace-nowrap ${tints[state]}`}>{kitStateLabels[state]}</span>;
+  return (
+    <span className={`inline-block rounded-full px-2.5 py-0.5 text-xs font-medium whitespace-nowrap ${tints[state]}`}>
+      {kitStateLabels[state]}
+    </span>
+  );
 }

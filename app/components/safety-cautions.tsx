@@ -6,7 +6,10 @@ import { safetyCautions, safetyCautionsDeferral } from "~/lib/safety/cautions";
 
 export function SafetyCautions({ compact = false }: { compact?: boolean }) {
   return (
-    <aside aria-labelledby="safety-heading" className={`rounded-lg border-l-4 border-amber-500 bg-amber-300/15 ${compact ? "p-3 text-sm" : "p-4"}`}>
+    <aside
+      aria-labelledby="safety-heading"
+      className={`rounded-lg border-l-4 border-amber-500 bg-amber-300/15 ${compact ? "p-3 text-sm" : "p-4"}`}
+    >
       <h2 id="safety-heading" className="font-semibold text-amber-700">
         Safety
       </h2>

@@ -204,7 +204,10 @@ export const auditEvents = pgTable(
     /** What the event is about, e.g. `kit:…` or `user:…`. */
     subject: text("subject"),
     ip: inet("ip"),
-    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    detail: jsonb("detail")
+      .$type<Record<string, unknown>>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     /** True when a staff member acted in "view as student" mode. */
     viewedAs: boolean("viewed_as").notNull().default(false),
     createdAt: createdAt(),
@@ -382,7 +385,10 @@ export const partEvents = pgTable(
     actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
     action: text("action").notNull(),
     note: text("note"),
-    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    detail: jsonb("detail")
+      .$type<Record<string, unknown>>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
   },
   (table) => [index("part_events_part_created_idx").on(table.partId, table.createdAt)],
@@ -409,7 +415,9 @@ export const kits = pgTable(
   (table) => [
     uniqueIndex("kits_course_number_unique").on(table.courseId, table.number),
     // One active kit per student per course: a membership belongs to exactly one course.
-    uniqueIndex("kits_holder_unique").on(table.holderMembershipId).where(sql`${table.holderMembershipId} is not null`),
+    uniqueIndex("kits_holder_unique")
+      .on(table.holderMembershipId)
+      .where(sql`${table.holderMembershipId} is not null`),
     index("kits_course_state_idx").on(table.courseId, table.state),
   ],
 );
@@ -431,7 +439,9 @@ export const kitParts = pgTable(
   },
   (table) => [
     primaryKey({ columns: [table.kitId, table.partId] }),
-    uniqueIndex("kit_parts_exclusive_part_unique").on(table.partId).where(sql`${table.exclusive}`),
+    uniqueIndex("kit_parts_exclusive_part_unique")
+      .on(table.partId)
+      .where(sql`${table.exclusive}`),
     index("kit_parts_part_idx").on(table.partId),
   ],
 );
@@ -450,7 +460,10 @@ export const kitEvents = pgTable(
     /** `moved`, `assigned`, `reported` (a student's missing or damaged part), `checked_in`. */
     action: text("action").notNull(),
     note: text("note"),
-    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    detail: jsonb("detail")
+      .$type<Record<string, unknown>>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
   },
   (table) => [index("kit_events_kit_created_idx").on(table.kitId, table.createdAt)],
@@ -544,10 +557,7 @@ export const caughtEmails = pgTable(
     headers: jsonb("headers").$type<Record<string, string>>().notNull(),
     receivedAt: timestamp("received_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (table) => [
-    index("caught_emails_received_idx").on(table.receivedAt),
-    index("caught_emails_to_idx").using("gin", table.toAddresses),
-  ],
+  (table) => [index("caught_emails_received_idx").on(table.receivedAt), index("caught_emails_to_idx").using("gin", table.toAddresses)],
 );
 
 export const emailOutboxRelations = relations(emailOutbox, ({ one }) => ({
@@ -568,7 +578,14 @@ export const afterReleaseHandIns = pgEnum("after_release_hand_ins", afterRelease
  * `thermometerAccuracyC` is the thermometer's stated accuracy ±a (a rectangular distribution, u = a/√3),
  * beside its reading resolution; labs saved before it existed have none and read as the default.
  */
-export type LabResolutions = { diameterMm: number; massG: number; distanceMm: number; timeS: number; temperatureC: number; thermometerAccuracyC?: number };
+export type LabResolutions = {
+  diameterMm: number;
+  massG: number;
+  distanceMm: number;
+  timeS: number;
+  temperatureC: number;
+  thermometerAccuracyC?: number;
+};
 
 export const labs = pgTable(
   "labs",
@@ -587,7 +604,10 @@ export const labs = pgTable(
     lateCutoffAt: timestamp("late_cutoff_at", { withTimezone: true }),
     requiredDrops: integer("required_drops").notNull().default(10),
     /** Parts students may use (empty: any part of their kit of the right kind). */
-    allowedPartIds: uuid("allowed_part_ids").array().notNull().default(sql`'{}'::uuid[]`),
+    allowedPartIds: uuid("allowed_part_ids")
+      .array()
+      .notNull()
+      .default(sql`'{}'::uuid[]`),
     wallCorrection: text("wall_correction").notNull().default("faxen"),
     dragModel: text("drag_model").notNull().default("schiller-naumann"),
     comparisonMethod: text("comparison_method").notNull().default("grubbs"),
@@ -596,7 +616,10 @@ export const labs = pgTable(
     comparisonK: real("comparison_k").notNull().default(1.5),
     resolutions: jsonb("resolutions").$type<LabResolutions>().notNull(),
     /** Hours before the due time at which students without a hand-in are reminded. */
-    reminderOffsetsHours: integer("reminder_offsets_hours").array().notNull().default(sql`'{48,6}'::integer[]`),
+    reminderOffsetsHours: integer("reminder_offsets_hours")
+      .array()
+      .notNull()
+      .default(sql`'{48,6}'::integer[]`),
     /** A hand-in after the student's mark is released: refused (the default), or taken and the mark reopened. */
     afterReleaseHandIns: afterReleaseHandIns("after_release_hand_ins").notNull().default("refuse"),
     publishedAt: timestamp("published_at", { withTimezone: true }),
@@ -653,7 +676,10 @@ export const dropLogs = pgTable(
     draftSavedAt: timestamp("draft_saved_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
-  (table) => [uniqueIndex("drop_logs_lab_member_unique").on(table.labId, table.membershipId), index("drop_logs_member_idx").on(table.membershipId)],
+  (table) => [
+    uniqueIndex("drop_logs_lab_member_unique").on(table.labId, table.membershipId),
+    index("drop_logs_member_idx").on(table.membershipId),
+  ],
 );
 
 /**
@@ -748,7 +774,10 @@ export const rereductionRuns = pgTable(
     finishedAt: timestamp("finished_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
-  (table) => [uniqueIndex("rereduction_runs_event_unique").on(table.partEventId), index("rereduction_runs_part_idx").on(table.partId, table.createdAt)],
+  (table) => [
+    uniqueIndex("rereduction_runs_event_unique").on(table.partEventId),
+    index("rereduction_runs_part_idx").on(table.partId, table.createdAt),
+  ],
 );
 
 /** A photo of the set-up, stored outside the web root; attached to a version once it is handed in. */
@@ -816,8 +845,12 @@ export const labExtensions = pgTable(
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (table) => [
-    uniqueIndex("lab_extensions_lab_member_unique").on(table.labId, table.membershipId).where(sql`${table.membershipId} is not null`),
-    uniqueIndex("lab_extensions_lab_cohort_unique").on(table.labId, table.cohortId).where(sql`${table.cohortId} is not null`),
+    uniqueIndex("lab_extensions_lab_member_unique")
+      .on(table.labId, table.membershipId)
+      .where(sql`${table.membershipId} is not null`),
+    uniqueIndex("lab_extensions_lab_cohort_unique")
+      .on(table.labId, table.cohortId)
+      .where(sql`${table.cohortId} is not null`),
     check("lab_extensions_one_target", sql`(${table.membershipId} is null) <> (${table.cohortId} is null)`),
     check("lab_extensions_cutoff_after_due", sql`${table.lateCutoffAt} is null or ${table.lateCutoffAt} >= ${table.dueAt}`),
   ],
@@ -939,7 +972,10 @@ export const rubricCriteria = pgTable(
     maxPoints: doublePrecision("max_points").notNull(),
     /** Automatic criteria only. */
     autoRule: autoRule("auto_rule"),
-    autoParams: jsonb("auto_params").$type<AutoRuleParams>().notNull().default(sql`'{}'::jsonb`),
+    autoParams: jsonb("auto_params")
+      .$type<AutoRuleParams>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -972,7 +1008,10 @@ export const marks = pgTable(
     dropLogVersionId: uuid("drop_log_version_id").references(() => dropLogVersions.id, { onDelete: "restrict" }),
     /** That version's reduction revision when the mark was last changed: a later revision flags "result changed since it was marked". */
     reductionRevision: integer("reduction_revision"),
-    scores: jsonb("scores").$type<MarkScores>().notNull().default(sql`'{}'::jsonb`),
+    scores: jsonb("scores")
+      .$type<MarkScores>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     feedback: text("feedback").notNull().default(""),
     latePenaltyPoints: doublePrecision("late_penalty_points").notNull().default(0),
     total: doublePrecision("total").notNull().default(0),

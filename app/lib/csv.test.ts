@@ -15,10 +15,16 @@ describe("CSV export", () => {
   });
 
   it("writes a header and quotes commas and quotes so the file reads back to the same cells", () => {
-    const csv = toCsv([{ name: 'O"Neil, Sam', formula: "=HYPERLINK(1)" }], [
-      { header: "name", value: (row) => row.name },
-      { header: "formula", value: (row) => row.formula },
+    const csv = toCsv(
+      [{ name: 'O"Neil, Sam', formula: "=HYPERLINK(1)" }],
+      [
+        { header: "name", value: (row) => row.name },
+        { header: "formula", value: (row) => row.formula },
+      ],
+    );
+    expect(Papa.parse<string[]>(csv).data).toEqual([
+      ["name", "formula"],
+      ['O"Neil, Sam', "'=HYPERLINK(1)"],
     ]);
-    expect(Papa.parse<string[]>(csv).data).toEqual([["name", "formula"], ['O"Neil, Sam', "'=HYPERLINK(1)"]]);
   });
 });

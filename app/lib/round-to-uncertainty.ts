@@ -5,7 +5,11 @@
  * and a budget that rounds every row up would overstate the total. The one place results are written
  * with their uncertainty, for pages and CSV alike.
  */
-export function roundToUncertainty(value: number, uncertainty: number, significantDigits = 2): { value: string; uncertainty: string } | null {
+export function roundToUncertainty(
+  value: number,
+  uncertainty: number,
+  significantDigits = 2,
+): { value: string; uncertainty: string } | null {
   if (!Number.isFinite(value) || !Number.isFinite(uncertainty) || !(uncertainty > 0)) return null;
   let exponent = Math.floor(Math.log10(uncertainty));
   let step = 10 ** (exponent - significantDigits + 1);

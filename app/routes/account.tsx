@@ -21,15 +21,30 @@ import { formatDateTime } from "~/lib/format-date";
 const accountSearch = z.object({ password: z.enum(["reset", "changed"]).optional() });
 const profileSchema = z.object({ intent: z.literal("profile"), name: z.string().trim().min(1, "Enter your name.").max(120) });
 const passwordSchema = z
-  .object({ intent: z.literal("password"), currentPassword: passwordToCheck.default(""), newPassword: newPasswordField, confirmPassword: z.string() })
-  .refine((form) => form.newPassword === form.confirmPassword, { path: ["confirmPassword"], message: "The two passwords are not the same." });
+  .object({
+    intent: z.literal("password"),
+    currentPassword: passwordToCheck.default(""),
+    newPassword: newPasswordField,
+    confirmPassword: z.string(),
+  })
+  .refine((form) => form.newPassword === form.confirmPassword, {
+    path: ["confirmPassword"],
+    message: "The two passwords are not the same.",
+  });
 const endSessionSchema = z.object({ intent: z.literal("end-session"), sessionId: z.string().min(1) });
-const createTokenSchema = z.object({ intent: z.literal("create-token"), tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(80) });
+const createTokenSchema = z.object({
+  intent: z.literal("create-token"),
+  tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(80),
+});
 const revokeTokenSchema = z.object({ intent: z.literal("revoke-token"), tokenId: z.uuid() });
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const [sessions, canHaveTokens, passwordSet] = await Promise.all([listUserSessions(user.id), mayHaveApiTokens(user), hasPassword(user.id)]);
+  const [sessions, canHaveTokens, passwordSet] = await Promise.all([
+    listUserSessions(user.id),
+    mayHaveApiTokens(user),
+    hasPassword(user.id),
+  ]);
   const tokens = canHaveTokens ? await listApiTokens(user.id) : null;
   const { password: notice } = readSearchParams(request, accountSearch);
   return {
@@ -55,7 +70,8 @@ export async function action({ request }: Route.ActionArgs) {
       const form = parseForm(passwordSchema, formData);
       if (!form.ok) return data({ intent: "password" as const, errors: form.errors }, { status: 400 });
       const result = await changePassword(user.id, form.data, request);
-      if ("outcome" in result) return data({ intent: "password" as const, errors: { currentPassword: "This is not your current password." } }, { status: 400 });
+      if ("outcome" in result)
+        return data({ intent: "password" as const, errors: { currentPassword: "This is not your current password." } }, { status: 400 });
       return redirectWithNewSession(request, "/account?password=changed", result);
     }
     case "end-session": {
@@ -100,14 +116,23 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
       </PageHeader>
       {loaderData.passwordNotice ? (
         <Notice tone="success">
-          {loaderData.passwordNotice === "reset" ? "Your new password is saved." : "Your password is changed."} Every other session has been signed out.
+          {loaderData.passwordNotice === "reset" ? "Your new password is saved." : "Your password is changed."} Every other session has been
+          signed out.
         </Notice>
       ) : null}
 
       <Section id="profile-title" title="Name">
         <Form method="post" className="flex flex-col gap-3 sm:flex-row sm:items-end">
           <input type="hidden" name="intent" value="profile" />
-          <TextField className="flex-1" label="Your name" name="name" autoComplete="name" required defaultValue={valuesOf("profile").name ?? loaderData.user.name} error={errorsOf("profile").name} />
+          <TextField
+            className="flex-1"
+            label="Your name"
+            name="name"
+            autoComplete="name"
+            required
+            defaultValue={valuesOf("profile").name ?? loaderData.user.name}
+            error={errorsOf("profile").name}
+          />
           <Button type="submit" disabled={busy}>
             Save
           </Button>
@@ -119,9 +144,18 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
         <Form method="post" className="space-y-3">
           <input type="hidden" name="intent" value="password" />
           {loaderData.passwordSet ? (
-            <TextField label="Current password" name="currentPassword" type="password" autoComplete="current-password" required error={errorsOf("password").currentPassword} />
+            <TextField
+              label="Current password"
+              name="currentPassword"
+              type="password"
+              autoComplete="current-password"
+              required
+              error={errorsOf("password").currentPassword}
+            />
           ) : (
-            <p className="text-sm text-ink-700">You sign in with e-mailed links. A password lets you sign in without waiting for an e-mail.</p>
+            <p className="text-sm text-ink-700">
+              You sign in with e-mailed links. A password lets you sign in without waiting for an e-mail.
+            </p>
           )}
           <TextField
             label="New password"
@@ -133,7 +167,14 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
             hint="Saving it signs you out on every other device."
             error={errorsOf("password").newPassword}
           />
-          <TextField label="The same password again" name="confirmPassword" type="password" autoComplete="new-password" required error={errorsOf("password").confirmPassword} />
+          <TextField
+            label="The same password again"
+            name="confirmPassword"
+            type="password"
+            autoComplete="new-password"
+            required
+            error={errorsOf("password").confirmPassword}
+          />
           <Button type="submit" disabled={busy}>
             Save the password
           </Button>
@@ -145,7 +186,10 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           {loaderData.sessions.map((session) => (
             <li key={session.id} className="flex flex-col gap-2 py-3 sm:flex-row sm:items-center sm:justify-between">
               <div className="text-sm">
-                <p className="font-medium">{describeDevice(session.userAgent)}{session.current ? " · this device" : ""}</p>
+                <p className="font-medium">
+                  {describeDevice(session.userAgent)}
+                  {session.current ? " · this device" : ""}
+                </p>
                 <p className="text-ink-600">
                   Since <time dateTime={new Date(session.createdAt).toISOString()}>{formatDate(session.createdAt)}</time>
                   {session.ip ? ` · from ${session.ip}` : ""}
@@ -154,7 +198,12 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               <Form method="post">
                 <input type="hidden" name="intent" value="end-session" />
                 <input type="hidden" name="sessionId" value={session.id} />
-                <Button type="submit" variant="secondary" disabled={busy} aria-label={`Sign out ${describeDevice(session.userAgent)}${session.current ? " (this device)" : ""}`}>
+                <Button
+                  type="submit"
+                  variant="secondary"
+                  disabled={busy}
+                  aria-label={`Sign out ${describeDevice(session.userAgent)}${session.current ? " (this device)" : ""}`}
+                >
                   Sign out
                 </Button>
               </Form>
@@ -177,10 +226,11 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           {created ? (
             <div className="mt-3">
               <Notice tone="success">
-                <p>
-                  Token “{created.name}” created. Copy it now: it is shown only this once.
-                </p>
-                <p className="mt-2 break-all rounded bg-white px-2 py-1 font-mono text-ink-950 ring-1 ring-ink-900/10" data-testid="new-api-token">
+                <p>Token “{created.name}” created. Copy it now: it is shown only this once.</p>
+                <p
+                  className="mt-2 break-all rounded bg-white px-2 py-1 font-mono text-ink-950 ring-1 ring-ink-900/10"
+                  data-testid="new-api-token"
+                >
                   {created.token}
                 </p>
               </Notice>
@@ -188,7 +238,15 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           ) : null}
           <Form method="post" className="mt-3 flex flex-col gap-3 sm:flex-row sm:items-end">
             <input type="hidden" name="intent" value="create-token" />
-            <TextField className="flex-1" label="Token name" name="tokenName" placeholder="e.g. mark export script" required defaultValue={valuesOf("create-token").tokenName} error={errorsOf("create-token").tokenName} />
+            <TextField
+              className="flex-1"
+              label="Token name"
+              name="tokenName"
+              placeholder="e.g. mark export script"
+              required
+              defaultValue={valuesOf("create-token").tokenName}
+              error={errorsOf("create-token").tokenName}
+            />
             <Button type="submit" disabled={busy}>
               Create a token
             </Button>
@@ -244,8 +302,26 @@ function Section({ id, title, children }: { id: string; title: string; children:
 
 function describeDevice(userAgent: string | null): string {
   if (!userAgent) return "Unknown device";
-  const browser = /Firefox\//.test(userAgent) ? "Firefox" : /Edg\//.test(userAgent) ? "Edge" : /Chrome\//.test(userAgent) ? "Chrome" : /Safari\//.test(userAgent) ? "Safari" : "A browser";
-  const system = /Android/.test(userAgent) ? "Android" : /iPhone|iPad/.test(userAgent) ? "iOS" : /Mac OS X/.test(userAgent) ? "macOS" : /Windows/.test(userAgent) ? "Windows" : /Linux/.test(userAgent) ? "Linux" : null;
+  const browser = /Firefox\//.test(userAgent)
+    ? "Firefox"
+    : /Edg\//.test(userAgent)
+      ? "Edge"
+      : /Chrome\//.test(userAgent)
+        ? "Chrome"
+        : /Safari\//.test(userAgent)
+          ? "Safari"
+          : "A browser";
+  const system = /Android/.test(userAgent)
+    ? "Android"
+    : /iPhone|iPad/.test(userAgent)
+      ? "iOS"
+      : /Mac OS X/.test(userAgent)
+        ? "macOS"
+        : /Windows/.test(userAgent)
+          ? "Windows"
+          : /Linux/.test(userAgent)
+            ? "Linux"
+            : null;
   return system ? `${browser} on ${system}` : browser;
 }
 

@@ -41,18 +41,30 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
           <caption className="sr-only">Audit events, newest first</caption>
           <thead className="bg-paper-100 text-ink-700">
             <tr>
-              <th scope="col" className="px-3 py-2 font-medium">When</th>
-              <th scope="col" className="px-3 py-2 font-medium">Who</th>
-              <th scope="col" className="px-3 py-2 font-medium">What</th>
-              <th scope="col" className="min-w-64 px-3 py-2 font-medium">Details</th>
-              <th scope="col" className="px-3 py-2 font-medium">From</th>
+              <th scope="col" className="px-3 py-2 font-medium">
+                When
+              </th>
+              <th scope="col" className="px-3 py-2 font-medium">
+                Who
+              </th>
+              <th scope="col" className="px-3 py-2 font-medium">
+                What
+              </th>
+              <th scope="col" className="min-w-64 px-3 py-2 font-medium">
+                Details
+              </th>
+              <th scope="col" className="px-3 py-2 font-medium">
+                From
+              </th>
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-900/10">
             {events.map((event) => (
               <tr key={event.id} className="align-top">
                 <td className="whitespace-nowrap px-3 py-2">
-                  <time dateTime={new Date(event.createdAt).toISOString()}>{formatDateTime(event.createdAt, course.timeZone, "seconds")}</time>
+                  <time dateTime={new Date(event.createdAt).toISOString()}>
+                    {formatDateTime(event.createdAt, course.timeZone, "seconds")}
+                  </time>
                 </td>
                 <td className="px-3 py-2">{event.actorName ?? "—"}</td>
                 <td className="px-3 py-2">{actionWords[event.action] ?? event.action}</td>

@@ -55,16 +55,27 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   const kit = await loadKitFor(access, params.kitId);
   const form = await request.formData();
   const values = formValues(form);
-  const conditions = Object.fromEntries([...form.entries()].filter(([key]) => key.startsWith("condition:")).map(([key, value]) => [key.slice(10), value]));
+  const conditions = Object.fromEntries(
+    [...form.entries()].filter(([key]) => key.startsWith("condition:")).map(([key, value]) => [key.slice(10), value]),
+  );
   const parsed = kitAction.safeParse({ ...values, conditions, remeasure: form.getAll("remeasure") });
   if (!parsed.success) return formFailure(values, fieldErrors(parsed.error), { intent: values.intent });
   const base = { courseId: access.course.id, actorId: access.user.id };
   const input = parsed.data;
   try {
-    if (input.intent === "pack") await moveKits(db, { ...base, kitIds: [kit.id], move: { to: "packed", holderMembershipId: input.holderMembershipId, note: input.note } });
+    if (input.intent === "pack")
+      await moveKits(db, {
+        ...base,
+        kitIds: [kit.id],
+        move: { to: "packed", holderMembershipId: input.holderMembershipId, note: input.note },
+      });
     else if (input.intent === "ship") {
       const { carrier, trackingNumber, shippedOn } = input;
-      await moveKits(db, { ...base, kitIds: [kit.id], move: { to: "in_transit", shipping: { carrier, trackingNumber, shippedOn }, note: input.note } });
+      await moveKits(db, {
+        ...base,
+        kitIds: [kit.id],
+        move: { to: "in_transit", shipping: { carrier, trackingNumber, shippedOn }, note: input.note },
+      });
     } else if (input.intent === "move") await moveKits(db, { ...base, kitIds: [kit.id], move: { to: input.to, note: input.note } });
     else await checkInKit(db, { ...base, kitId: kit.id, conditions: input.conditions, remeasure: input.remeasure, note: input.note });
     return { intent: input.intent, saved: true as const };
@@ -164,12 +175,18 @@ function PartLine({ part }: { part: KitPart }) {
       <strong className="min-w-20">{part.label}</strong>
       <span className="min-w-24 text-ink-600">{kind}</span>
       <span>{values}</span>
-      {part.status !== "in_service" ? <span className="font-medium text-outlier">{part.status === "remeasure" ? "needs re-measuring" : "retired"}</span> : null}
+      {part.status !== "in_service" ? (
+        <span className="font-medium text-outlier">{part.status === "remeasure" ? "needs re-measuring" : "retired"}</span>
+      ) : null}
     </li>
   );
 }
 
-function EventWords({ event }: { event: { action: string; fromState: KitState | null; toState: KitState | null; detail: Record<string, unknown> } }) {
+function EventWords({
+  event,
+}: {
+  event: { action: string; fromState: KitState | null; toState: KitState | null; detail: Record<string, unknown> };
+}) {
   if (event.action === "moved" && event.fromState && event.toState) {
     return (
       <span>
@@ -182,12 +199,24 @@ function EventWords({ event }: { event: { action: string; fromState: KitState | 
   return <span>{event.action === "created" ? "Made up and put on the shelf" : event.action}</span>;
 }
 
-function PackForm({ students, failure }: { students: { membershipId: string; name: string; email: string; cohortName: string | null }[]; failure: Failure }) {
+function PackForm({
+  students,
+  failure,
+}: {
+  students: { membershipId: string; name: string; email: string; cohortName: string | null }[];
+  failure: Failure;
+}) {
   return (
     <Form method="post" className="flex flex-wrap items-end gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
       <input type="hidden" name="intent" value="pack" />
       <div className="min-w-72 flex-1">
-        <SelectField label="Pack for" name="holderMembershipId" required defaultValue={failure?.values.holderMembershipId ?? ""} error={failure?.errors.holderMembershipId}>
+        <SelectField
+          label="Pack for"
+          name="holderMembershipId"
+          required
+          defaultValue={failure?.values.holderMembershipId ?? ""}
+          error={failure?.errors.holderMembershipId}
+        >
           <option value="">Choose a student without a kit…</option>
           {students.map((student) => (
             <option key={student.membershipId} value={student.membershipId}>
@@ -207,8 +236,21 @@ function ShipForm({ today, failure }: { today: string; failure: Failure }) {
     <Form method="post" className="grid gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10 sm:grid-cols-4 sm:items-end">
       <input type="hidden" name="intent" value="ship" />
       <TextField label="Carrier" name="carrier" required defaultValue={failure?.values.carrier ?? ""} error={failure?.errors.carrier} />
-      <TextField label="Tracking number" name="trackingNumber" required defaultValue={failure?.values.trackingNumber ?? ""} error={failure?.errors.trackingNumber} />
-      <TextField label="Sent on" name="shippedOn" type="date" required defaultValue={failure?.values.shippedOn ?? today} error={failure?.errors.shippedOn} />
+      <TextField
+        label="Tracking number"
+        name="trackingNumber"
+        required
+        defaultValue={failure?.values.trackingNumber ?? ""}
+        error={failure?.errors.trackingNumber}
+      />
+      <TextField
+        label="Sent on"
+        name="shippedOn"
+        type="date"
+        required
+        defaultValue={failure?.values.shippedOn ?? today}
+        error={failure?.errors.shippedOn}
+      />
       <Button type="submit" disabled={navigation.state === "submitting"}>
         Mark in transit and tell the student
       </Button>
@@ -220,7 +262,9 @@ function CheckInForm({ parts }: { parts: KitPart[] }) {
   return (
     <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
       <input type="hidden" name="intent" value="check-in" />
-      <p className="text-sm text-ink-700">Record each part's condition. Damaged or missing parts are retired; tick a part to send it for re-measurement.</p>
+      <p className="text-sm text-ink-700">
+        Record each part's condition. Damaged or missing parts are retired; tick a part to send it for re-measurement.
+      </p>
       <table className="text-sm">
         <caption className="sr-only">Condition of each part</caption>
         <thead>
@@ -235,7 +279,12 @@ function CheckInForm({ parts }: { parts: KitPart[] }) {
             <tr key={part.id}>
               <td className="py-1 pr-3">{part.label}</td>
               <td className="py-1 pr-3">
-                <select name={`condition:${part.id}`} defaultValue="fine" aria-label={`Condition of ${part.label}`} className="rounded border border-ink-900/20 px-2 py-1">
+                <select
+                  name={`condition:${part.id}`}
+                  defaultValue="fine"
+                  aria-label={`Condition of ${part.label}`}
+                  className="rounded border border-ink-900/20 px-2 py-1"
+                >
                   {partConditions.map((condition) => (
                     <option key={condition} value={condition}>
                       {condition}
@@ -257,7 +306,9 @@ function CheckInForm({ parts }: { parts: KitPart[] }) {
 }
 
 function SimpleMoves({ next }: { next: readonly KitState[] }) {
-  const simple = next.filter((state): state is "at_home" | "coming_back" | "on_shelf" | "retired" => ["at_home", "coming_back", "on_shelf", "retired"].includes(state));
+  const simple = next.filter((state): state is "at_home" | "coming_back" | "on_shelf" | "retired" =>
+    ["at_home", "coming_back", "on_shelf", "retired"].includes(state),
+  );
   if (!simple.length) return null;
   return (
     <Form method="post" className="flex flex-wrap items-end gap-3">

@@ -39,10 +39,18 @@ export default function PackingSlip({ loaderData }: Route.ComponentProps) {
         <caption className="mb-1 text-left font-medium">Parts and their recorded measurements</caption>
         <thead>
           <tr className="border-b border-ink-900/20">
-            <th scope="col" className="py-1 pr-3">Label</th>
-            <th scope="col" className="pr-3">Part</th>
-            <th scope="col" className="pr-3">Recorded values</th>
-            <th scope="col" className="w-16 text-center">Packed</th>
+            <th scope="col" className="py-1 pr-3">
+              Label
+            </th>
+            <th scope="col" className="pr-3">
+              Part
+            </th>
+            <th scope="col" className="pr-3">
+              Recorded values
+            </th>
+            <th scope="col" className="w-16 text-center">
+              Packed
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -62,7 +70,9 @@ export default function PackingSlip({ loaderData }: Route.ComponentProps) {
           })}
         </tbody>
       </table>
-      <p className="mt-4 text-sm">When the kit arrives, open Benchpost, go to “My kit” and confirm it is complete, or report what is missing or damaged.</p>
+      <p className="mt-4 text-sm">
+        When the kit arrives, open Benchpost, go to “My kit” and confirm it is complete, or report what is missing or damaged.
+      </p>
       <div className="mt-4">
         <SafetyCautions compact />
       </div>

@@ -32,14 +32,24 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { state, q, page, size } = readSearchParams(request, kitListSearch);
   const paging = { page, pageSize: size };
   // A TA sees the kits held by students of their cohorts, and reads them only.
-  const { rows, total } = await listKits(db, access.course.id, { state, search: q || undefined, cohortIds: kitCohortScope(access), ...paging });
+  const { rows, total } = await listKits(db, access.course.id, {
+    state,
+    search: q || undefined,
+    cohortIds: kitCohortScope(access),
+    ...paging,
+  });
   return { kits: rows, pageInfo: { ...paging, total }, canChange: access.membership.role === "instructor", courseId: access.course.id };
 }
 
 export async function action({ request, context, params }: Route.ActionArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const form = await request.formData();
-  const parsed = bulkMove.safeParse({ intent: form.get("intent"), to: form.get("to"), note: form.get("note") ?? undefined, kitIds: form.getAll("kitIds") });
+  const parsed = bulkMove.safeParse({
+    intent: form.get("intent"),
+    to: form.get("to"),
+    note: form.get("note") ?? undefined,
+    kitIds: form.getAll("kitIds"),
+  });
   if (!parsed.success) return data({ ok: false as const, message: parsed.error.issues[0].message }, { status: 400 });
   try {
     const { moved } = await moveKits(db, {
@@ -59,7 +69,14 @@ export async function action({ request, context, params }: Route.ActionArgs) {
 type KitRow = Route.ComponentProps["loaderData"]["kits"][number];
 
 const columns: ColumnDef<KitRow, unknown>[] = [
-  { header: "Kit", cell: ({ row }) => <Link to={row.original.id} className="whitespace-nowrap font-medium underline">{row.original.number}</Link> },
+  {
+    header: "Kit",
+    cell: ({ row }) => (
+      <Link to={row.original.id} className="whitespace-nowrap font-medium underline">
+        {row.original.number}
+      </Link>
+    ),
+  },
   { header: "State", cell: ({ row }) => <KitStateBadge state={row.original.state} /> },
   {
     header: "Student",
@@ -76,7 +93,8 @@ const columns: ColumnDef<KitRow, unknown>[] = [
   { header: "Parts", cell: ({ row }) => row.original.partCount },
   {
     header: "Shipping",
-    cell: ({ row }) => (row.original.trackingNumber ? `${row.original.carrier} ${row.original.trackingNumber} (${row.original.shippedOn})` : ""),
+    cell: ({ row }) =>
+      row.original.trackingNumber ? `${row.original.carrier} ${row.original.trackingNumber} (${row.original.shippedOn})` : "",
   },
   {
     header: "Reports",
@@ -95,9 +113,7 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
         actions={
           canChange ? (
             <>
-              <ButtonLink to="new">
-                Make up a kit
-              </ButtonLink>
+              <ButtonLink to="new">Make up a kit</ButtonLink>
               <a href={`/courses/${courseId}/inventory.csv`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Export inventory (CSV)
               </a>
@@ -110,7 +126,11 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
       <Form method="get" className="no-print flex flex-wrap items-end gap-3" role="search">
         <label className="flex flex-col text-sm">
           State
-          <select name="state" defaultValue={search.get("state") ?? ""} className="rounded-md border border-ink-900/20 bg-white px-2 py-1.5">
+          <select
+            name="state"
+            defaultValue={search.get("state") ?? ""}
+            className="rounded-md border border-ink-900/20 bg-white px-2 py-1.5"
+          >
             <option value="">Any state</option>
             {kitStates.map((state) => (
               <option key={state} value={state}>
@@ -121,7 +141,13 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
         </label>
         <label className="flex flex-col text-sm">
           Search
-          <input name="q" type="search" defaultValue={search.get("q") ?? ""} placeholder="Kit number or student" className="rounded-md border border-ink-900/20 bg-white px-2 py-1.5" />
+          <input
+            name="q"
+            type="search"
+            defaultValue={search.get("q") ?? ""}
+            placeholder="Kit number or student"
+            className="rounded-md border border-ink-900/20 bg-white px-2 py-1.5"
+          />
         </label>
         <Button type="submit" variant="secondary">
           Show
@@ -152,7 +178,12 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
                 ))}
               </select>
             </label>
-            <input name="note" placeholder="Note (optional)" aria-label="Note" className="rounded-md border border-ink-900/20 bg-white px-2 py-1" />
+            <input
+              name="note"
+              placeholder="Note (optional)"
+              aria-label="Note"
+              className="rounded-md border border-ink-900/20 bg-white px-2 py-1"
+            />
             <Button type="submit" disabled={fetcher.state !== "idle"}>
               {fetcher.state !== "idle" ? "Moving…" : "Apply"}
             </Button>

@@ -35,7 +35,11 @@ export const action = formAction(async ({ request, context, params, formData }: 
 
 export default function NewKit({ loaderData, actionData }: Route.ComponentProps) {
   const navigation = useNavigation();
-  const [form, fields] = useForm({ lastResult: actionData, shouldValidate: "onBlur", onValidate: ({ formData }) => parseSubmission(formData, newKit) });
+  const [form, fields] = useForm({
+    lastResult: actionData,
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, newKit),
+  });
   const typed = fields.partIds.initialValue;
   const chosen = new Set(Array.isArray(typed) ? typed : typed ? [typed] : []);
   const others = loaderData.parts;
@@ -57,7 +61,13 @@ export default function NewKit({ loaderData, actionData }: Route.ComponentProps)
             {others.map((part) => (
               <li key={part.id}>
                 <label className="flex items-center gap-2 py-1 text-sm">
-                  <input type="checkbox" className="size-5 shrink-0" name={fields.partIds.name} value={part.id} defaultChecked={chosen.has(part.id)} />
+                  <input
+                    type="checkbox"
+                    className="size-5 shrink-0"
+                    name={fields.partIds.name}
+                    value={part.id}
+                    defaultChecked={chosen.has(part.id)}
+                  />
                   <span>
                     <strong>{part.label}</strong> · {partKindLabels[part.kind]}
                     {part.kind === "sphere" ? ` · ${part.material}, ${part.diameterMm} mm` : ""}

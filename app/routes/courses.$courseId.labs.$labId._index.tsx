@@ -48,9 +48,14 @@ export async function loader({ request, params, context: routerContext }: Route.
   ]);
   const { lab } = context;
   const usable = (kind: "sphere" | "fluid_lot" | "column") => context.usableParts.filter((part) => part.kind === kind);
-  const kitsNotHome = [...new Map(context.kitParts.filter((part) => kitStatesBeforeHome.includes(part.kitState)).map((part) => [part.kitNumber, part.kitState])).entries()];
+  const kitsNotHome = [
+    ...new Map(
+      context.kitParts.filter((part) => kitStatesBeforeHome.includes(part.kitState)).map((part) => [part.kitNumber, part.kitState]),
+    ).entries(),
+  ];
   const versions = dropLog?.versions ?? [];
-  const draft = dropLog && Object.keys(dropLog.draft).length ? dropLog.draft : versions[0] ? draftFromInput(versions[0].input as DropLogInput) : {};
+  const draft =
+    dropLog && Object.keys(dropLog.draft).length ? dropLog.draft : versions[0] ? draftFromInput(versions[0].input as DropLogInput) : {};
   return {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
@@ -107,7 +112,8 @@ export async function action({ request, context, params }: Route.ActionArgs) {
     await loadStudentLab(db, access, params.labId);
     return data({ errors: { form: ["This form is not one the lab page knows."] } as Record<string, string[]> }, { status: 400 });
   } catch (error) {
-    if (error instanceof SyntaxError) return data({ errors: { form: ["The draft could not be read."] } as Record<string, string[]> }, { status: 400 });
+    if (error instanceof SyntaxError)
+      return data({ errors: { form: ["The draft could not be read."] } as Record<string, string[]> }, { status: 400 });
     if (!(error instanceof AppError)) throw error;
     const errors: Record<string, string[]> = { form: [error.message] };
     for (const issue of error.issues ?? []) (errors[issue.path.join(".") || "form"] ??= []).push(issue.message);
@@ -128,7 +134,24 @@ const timingNotes = {
 } as const;
 
 export default function LabPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, timing, hasKit, spheres, fluidLots, columns, kitsNotHome, draft, versions, photos, latestVersionId, mark, afterRelease, releasedMessage } = loaderData;
+  const {
+    courseId,
+    timeZone,
+    lab,
+    timing,
+    hasKit,
+    spheres,
+    fluidLots,
+    columns,
+    kitsNotHome,
+    draft,
+    versions,
+    photos,
+    latestVersionId,
+    mark,
+    afterRelease,
+    releasedMessage,
+  } = loaderData;
   const open = timing === "on-time" || timing === "late";
   const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
   const errors = actionData && "errors" in actionData ? actionData.errors : null;
@@ -159,7 +182,9 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
       {timingNotes[timing] ? <Notice tone={timing === "closed" ? "error" : "warning"}>{timingNotes[timing]}</Notice> : null}
       {open && afterRelease === "refuse" ? <Notice tone="error">{releasedMessage}</Notice> : null}
       {open && afterRelease === "reopen" ? (
-        <Notice tone="warning">Your mark for this lab is released. A new hand-in is still taken: your mark is then reopened and marked again on the new version.</Notice>
+        <Notice tone="warning">
+          Your mark for this lab is released. A new hand-in is still taken: your mark is then reopened and marked again on the new version.
+        </Notice>
       ) : null}
 
       {lab.instructions ? (
@@ -174,8 +199,8 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
 
       {kitsNotHome.length ? (
         <Notice tone="warning">
-          {kitsNotHome.map((kit) => `Kit ${kit.number} is recorded as “${kit.state}”, not yet at home.`).join(" ")} You can still hand in; your hand-in will say so, so that
-          staff can check the parts it names are the ones you used.
+          {kitsNotHome.map((kit) => `Kit ${kit.number} is recorded as “${kit.state}”, not yet at home.`).join(" ")} You can still hand in;
+          your hand-in will say so, so that staff can check the parts it names are the ones you used.
         </Notice>
       ) : null}
       {hasKit && spheres.length ? (
@@ -198,13 +223,17 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
       )}
 
       {/* Photos go with the next hand-in, so they are taken only while one still is. */}
-      {timing !== "closed" && afterRelease !== "refuse" ? <PhotoUpload courseId={courseId} labId={lab.id} draftPhotos={draftPhotos} /> : null}
+      {timing !== "closed" && afterRelease !== "refuse" ? (
+        <PhotoUpload courseId={courseId} labId={lab.id} draftPhotos={draftPhotos} />
+      ) : null}
 
       <section aria-labelledby="versions-heading">
         <h2 id="versions-heading" className="mb-2 text-lg font-semibold">
           What you handed in
         </h2>
-        {versions.length === 0 ? <p className="text-ink-700">Nothing yet. Each hand-in is kept as a version; the latest one counts.</p> : null}
+        {versions.length === 0 ? (
+          <p className="text-ink-700">Nothing yet. Each hand-in is kept as a version; the latest one counts.</p>
+        ) : null}
         <VersionHistory courseId={courseId} timeZone={timeZone} versions={versions} latestVersionId={latestVersionId} photos={photos} />
       </section>
     </div>
@@ -221,8 +250,18 @@ function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId
       <p className="text-sm text-ink-700">
         JPEG, PNG or WebP, up to {MAX_PHOTO_MEGABYTES} MB each and {MAX_PHOTOS_PER_DROP_LOG} per drop log. They go with your next hand-in.
       </p>
-      <fetcher.Form method="post" encType="multipart/form-data" action={`/courses/${courseId}/labs/${labId}/photos`} className="mt-2 flex flex-wrap items-center gap-3">
-        <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" multiple aria-label="Photos to upload"
+      <fetcher.Form
+        method="post"
+        encType="multipart/form-data"
+        action={`/courses/${courseId}/labs/${labId}/photos`}
+        className="mt-2 flex flex-wrap items-center gap-3"
+      >
+        <input
+          type="file"
+          name="photo"
+          accept="image/jpeg,image/png,image/webp"
+          multiple
+          aria-label="Photos to upload"
           className="text-sm file:mr-3 file:cursor-pointer file:rounded-md file:border-0 file:bg-white file:px-4 file:py-2 file:text-sm file:font-medium file:ring-1 file:ring-ink-900/20"
         />
         <Button type="submit" variant="secondary" disabled={fetcher.state !== "idle"}>

@@ -13,7 +13,13 @@ import { TableHead } from "~/components/ui/table-head";
 import { fieldErrors, formValues } from "~/lib/forms/parse-form";
 import { comparisonLabels, comparisonMethods, comparisonSettings, methodNames } from "~/lib/comparison/comparison-settings";
 import { formatNumber } from "~/lib/kits/part-display";
-import { comparisonJson, getLabComparison, previewLabSettings, readComparisonFilters, updateComparisonSettings } from "~/server/comparison/class-comparison.server";
+import {
+  comparisonJson,
+  getLabComparison,
+  previewLabSettings,
+  readComparisonFilters,
+  updateComparisonSettings,
+} from "~/server/comparison/class-comparison.server";
 import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { db } from "~/server/db.server";
 
@@ -28,8 +34,14 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   const form = await request.formData();
   const intent = form.get("intent");
   // Any staff member may preview; changing the lab's method is the instructor's.
-  const { access, lab } = await requireComparisonAccess({ request, context }, params.courseId, params.labId, intent === "save" ? ["instructor"] : ["instructor", "ta"]);
-  if (intent !== "preview" && intent !== "save") return data({ intent: "unknown" as const, errors: { form: ["Unknown request."] } }, { status: 400 });
+  const { access, lab } = await requireComparisonAccess(
+    { request, context },
+    params.courseId,
+    params.labId,
+    intent === "save" ? ["instructor"] : ["instructor", "ta"],
+  );
+  if (intent !== "preview" && intent !== "save")
+    return data({ intent: "unknown" as const, errors: { form: ["Unknown request."] } }, { status: 400 });
   const parsed = comparisonSettings.safeParse(formValues(form));
   if (!parsed.success) return data({ intent, errors: fieldErrors(parsed.error), values: formValues(form) }, { status: 400 });
   if (intent === "preview") return { intent, preview: await previewLabSettings(db, lab, parsed.data) };
@@ -54,7 +66,10 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
     referenceViscosityPaS: handIn.referenceViscosityPaS,
     temperatureC: handIn.temperatureC,
   }));
-  const filterQuery = new URLSearchParams({ ...(filters.cohortId ? { cohort: filters.cohortId } : {}), ...(filters.label ? { label: filters.label } : {}) }).toString();
+  const filterQuery = new URLSearchParams({
+    ...(filters.cohortId ? { cohort: filters.cohortId } : {}),
+    ...(filters.label ? { label: filters.label } : {}),
+  }).toString();
   return (
     <div className="flex flex-col gap-8">
       <PageHeader
@@ -69,12 +84,13 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
           </>
         }
       >
-        {classSize} counted hand-in{classSize === 1 ? "" : "s"}, compared by {method.description}. Labels are computed from the latest versions each time
-        this page opens.
+        {classSize} counted hand-in{classSize === 1 ? "" : "s"}, compared by {method.description}. Labels are computed from the latest
+        versions each time this page opens.
       </PageHeader>
       {actionData && "saved" in actionData && actionData.saved ? (
         <Notice tone="success">
-          The method is saved and every hand-in relabelled: {actionData.saved.changed} label{actionData.saved.changed === 1 ? "" : "s"} changed.
+          The method is saved and every hand-in relabelled: {actionData.saved.changed} label{actionData.saved.changed === 1 ? "" : "s"}{" "}
+          changed.
         </Notice>
       ) : null}
 
@@ -96,7 +112,10 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
       <HandInTable handIns={handIns} />
       <MethodForm method={method} mayEdit={mayEdit} failure={actionData && "errors" in actionData ? actionData : undefined} />
       <p className="text-sm text-ink-700">
-        The same data as JSON: <code>GET /api/v1/labs/{lab.id}/class-comparison{filterQuery ? `?${filterQuery}` : ""}</code>
+        The same data as JSON:{" "}
+        <code>
+          GET /api/v1/labs/{lab.id}/class-comparison{filterQuery ? `?${filterQuery}` : ""}
+        </code>
       </p>
     </div>
   );
@@ -107,7 +126,11 @@ function Filters({ cohorts, filters }: Pick<LoaderData, "cohorts" | "filters">) 
   const submit = useSubmit();
   const navigation = useNavigation();
   return (
-    <Form method="get" className="no-print flex flex-wrap items-end gap-4" onChange={(event) => submit(event.currentTarget, { replace: true, preventScrollReset: true })}>
+    <Form
+      method="get"
+      className="no-print flex flex-wrap items-end gap-4"
+      onChange={(event) => submit(event.currentTarget, { replace: true, preventScrollReset: true })}
+    >
       <SelectField label="Cohort" name="cohort" defaultValue={filters.cohortId ?? ""}>
         <option value="">All cohorts you see</option>
         {cohorts.map((cohort) => (
@@ -127,7 +150,11 @@ function Filters({ cohorts, filters }: Pick<LoaderData, "cohorts" | "filters">) 
       <Button type="submit" variant="secondary">
         Show
       </Button>
-      {navigation.state === "loading" ? <span className="text-sm text-ink-600" role="status">Updating…</span> : null}
+      {navigation.state === "loading" ? (
+        <span className="text-sm text-ink-600" role="status">
+          Updating…
+        </span>
+      ) : null}
     </Form>
   );
 }
@@ -171,10 +198,14 @@ function HandInTable({ handIns }: Pick<LoaderData, "handIns">) {
                       {handIn.student.name}
                     </Link>
                     {handIn.late ? <span className="ml-1 text-ink-600">(late)</span> : null}
-                    {handIn.kitNotAtHome ? <span className="ml-1 text-amber-800">(kit {handIn.kitNotAtHome.toLowerCase()} at hand-in)</span> : null}
+                    {handIn.kitNotAtHome ? (
+                      <span className="ml-1 text-amber-800">(kit {handIn.kitNotAtHome.toLowerCase()} at hand-in)</span>
+                    ) : null}
                   </td>
                   <td className="px-3 py-2">{handIn.cohort?.name ?? "—"}</td>
-                  <td className="px-3 py-2">{[handIn.parts.sphere, handIn.parts.fluidLot, handIn.parts.column].map((part) => part?.label ?? "—").join(" / ")}</td>
+                  <td className="px-3 py-2">
+                    {[handIn.parts.sphere, handIn.parts.fluidLot, handIn.parts.column].map((part) => part?.label ?? "—").join(" / ")}
+                  </td>
                   <td className="px-3 py-2">{formatNumber(handIn.figure)}</td>
                   <td className="px-3 py-2">
                     <ClassLabelTag label={handIn.label} />
@@ -217,7 +248,12 @@ function MethodForm({ method, mayEdit, failure }: { method: LoaderData["method"]
       <h2 id="method-heading" className="mb-2 text-lg font-semibold">
         Outlier method
       </h2>
-      <Form method="post" ref={formRef} onChange={askPreview} className="flex flex-col gap-4 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+      <Form
+        method="post"
+        ref={formRef}
+        onChange={askPreview}
+        className="flex flex-col gap-4 rounded-lg bg-white p-4 ring-1 ring-ink-900/10"
+      >
         <div className="grid gap-4 sm:grid-cols-2">
           <SelectField label="Method" name="method" defaultValue={values?.method ?? method.method} error={errors.method}>
             {comparisonMethods.map((value) => (
@@ -226,9 +262,29 @@ function MethodForm({ method, mayEdit, failure }: { method: LoaderData["method"]
               </option>
             ))}
           </SelectField>
-          <TextField label="Grubbs / ESD: significance α" name="alpha" inputMode="decimal" defaultValue={values?.alpha ?? String(method.alpha)} error={errors.alpha} hint="Outlier at α; suspect at 2α." />
-          <TextField label="Grubbs: most removals; ESD: upper bound r" name="maxOutliers" inputMode="numeric" defaultValue={values?.maxOutliers ?? String(method.maxOutliers)} error={errors.maxOutliers} />
-          <TextField label="Tukey: fence factor k" name="k" inputMode="decimal" defaultValue={values?.k ?? String(method.k)} error={errors.k} hint="Suspect beyond k·IQR, outlier beyond 2k·IQR." />
+          <TextField
+            label="Grubbs / ESD: significance α"
+            name="alpha"
+            inputMode="decimal"
+            defaultValue={values?.alpha ?? String(method.alpha)}
+            error={errors.alpha}
+            hint="Outlier at α; suspect at 2α."
+          />
+          <TextField
+            label="Grubbs: most removals; ESD: upper bound r"
+            name="maxOutliers"
+            inputMode="numeric"
+            defaultValue={values?.maxOutliers ?? String(method.maxOutliers)}
+            error={errors.maxOutliers}
+          />
+          <TextField
+            label="Tukey: fence factor k"
+            name="k"
+            inputMode="decimal"
+            defaultValue={values?.k ?? String(method.k)}
+            error={errors.k}
+            hint="Suspect beyond k·IQR, outlier beyond 2k·IQR."
+          />
         </div>
         <div aria-live="polite">
           {previewData ? (
@@ -255,7 +311,9 @@ function MethodForm({ method, mayEdit, failure }: { method: LoaderData["method"]
               </tbody>
             </table>
           ) : (
-            <p className="text-sm text-ink-600">{preview.state === "idle" ? "Change a field to see how many hand-ins it would flag." : "Counting…"}</p>
+            <p className="text-sm text-ink-600">
+              {preview.state === "idle" ? "Change a field to see how many hand-ins it would flag." : "Counting…"}
+            </p>
           )}
         </div>
         <div className="flex flex-wrap gap-2">

@@ -26,7 +26,16 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
     instructor: access.membership.role === "instructor",
-    lab: { id: lab.id, title: lab.title, kind: lab.kind, status: lab.status, opensAt: lab.opensAt.toISOString(), dueAt: lab.dueAt.toISOString(), lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null, requiredDrops: lab.requiredDrops },
+    lab: {
+      id: lab.id,
+      title: lab.title,
+      kind: lab.kind,
+      status: lab.status,
+      opensAt: lab.opensAt.toISOString(),
+      dueAt: lab.dueAt.toISOString(),
+      lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null,
+      requiredDrops: lab.requiredDrops,
+    },
     ...dashboard,
   };
 }
@@ -55,7 +64,14 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
       <dl className="grid gap-4 sm:grid-cols-3">
         <TimeTerm label="Opens" at={lab.opensAt} timeZone={timeZone} />
         <TimeTerm label="Due" at={lab.dueAt} timeZone={timeZone} />
-        {lab.lateCutoffAt ? <TimeTerm label="Late cut-off" at={lab.lateCutoffAt} timeZone={timeZone} /> : <div><dt className="text-sm text-ink-600">Late cut-off</dt><dd>None: nothing after the due time</dd></div>}
+        {lab.lateCutoffAt ? (
+          <TimeTerm label="Late cut-off" at={lab.lateCutoffAt} timeZone={timeZone} />
+        ) : (
+          <div>
+            <dt className="text-sm text-ink-600">Late cut-off</dt>
+            <dd>None: nothing after the due time</dd>
+          </div>
+        )}
       </dl>
 
       <section aria-labelledby="progress-heading">
@@ -66,18 +82,32 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
         <table className="w-full max-w-2xl text-left text-sm">
           <thead>
             <tr className="border-b border-ink-900/20">
-              <th scope="col" className="py-1">Cohort</th>
-              <th scope="col" className="py-1 text-right">Students</th>
-              <th scope="col" className="py-1 text-right">On time</th>
-              <th scope="col" className="py-1 text-right">Late</th>
-              <th scope="col" className="py-1 text-right">Not due yet</th>
-              <th scope="col" className="py-1 text-right">Missing</th>
+              <th scope="col" className="py-1">
+                Cohort
+              </th>
+              <th scope="col" className="py-1 text-right">
+                Students
+              </th>
+              <th scope="col" className="py-1 text-right">
+                On time
+              </th>
+              <th scope="col" className="py-1 text-right">
+                Late
+              </th>
+              <th scope="col" className="py-1 text-right">
+                Not due yet
+              </th>
+              <th scope="col" className="py-1 text-right">
+                Missing
+              </th>
             </tr>
           </thead>
           <tbody>
             {cohorts.map((cohort) => (
               <tr key={cohort.cohortId} className="border-b border-ink-900/10">
-                <th scope="row" className="py-1 font-medium">{cohort.name}</th>
+                <th scope="row" className="py-1 font-medium">
+                  {cohort.name}
+                </th>
                 <td className="py-1 text-right tabular-nums">{cohort.students}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.onTime}</td>
                 <td className="py-1 text-right tabular-nums">{cohort.late}</td>
@@ -87,7 +117,9 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
             ))}
           </tbody>
         </table>
-        <p className="mt-1 text-xs text-ink-700">Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. Missing: nothing handed in by then.</p>
+        <p className="mt-1 text-xs text-ink-700">
+          Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. Missing: nothing handed in by then.
+        </p>
       </section>
 
       <section aria-labelledby="students-heading">
@@ -108,12 +140,24 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
                     />
                   </th>
                 ) : null}
-                <th scope="col" className="py-1 pr-3">Student</th>
-                <th scope="col" className="py-1 pr-3">Cohort</th>
-                <th scope="col" className="py-1 pr-3">Handed in</th>
-                <th scope="col" className="py-1 pr-3">Key result</th>
-                <th scope="col" className="py-1 pr-3 text-right">Warnings</th>
-                <th scope="col" className="py-1">Drop log</th>
+                <th scope="col" className="py-1 pr-3">
+                  Student
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Cohort
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Handed in
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Key result
+                </th>
+                <th scope="col" className="py-1 pr-3 text-right">
+                  Warnings
+                </th>
+                <th scope="col" className="py-1">
+                  Drop log
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -125,7 +169,9 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
                   timeZone={timeZone}
                   courseId={courseId}
                   labId={lab.id}
-                  selection={instructor ? { checked: selected.has(student.membershipId), toggle: () => toggle(student.membershipId) } : null}
+                  selection={
+                    instructor ? { checked: selected.has(student.membershipId), toggle: () => toggle(student.membershipId) } : null
+                  }
                 />
               ))}
             </tbody>
@@ -133,7 +179,9 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
         </div>
       </section>
 
-      {instructor ? <ExtendSelected courseId={courseId} labId={lab.id} timeZone={timeZone} selected={selected} onDone={() => setSelected(new Set())} /> : null}
+      {instructor ? (
+        <ExtendSelected courseId={courseId} labId={lab.id} timeZone={timeZone} selected={selected} onDone={() => setSelected(new Set())} />
+      ) : null}
 
       <section aria-labelledby="reminders-heading">
         <h2 id="reminders-heading" className="mb-2 text-lg font-semibold">
@@ -145,7 +193,8 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
               <li key={`${job.offsetHours}-${job.dueAt}`}>
                 {job.extension ? (
                   <>
-                    {job.offsetHours} h before the extended due time <LabTime at={job.dueAt} courseTimeZone={timeZone} />, to the students extended to it who have not handed in by then:{" "}
+                    {job.offsetHours} h before the extended due time <LabTime at={job.dueAt} courseTimeZone={timeZone} />, to the students
+                    extended to it who have not handed in by then:{" "}
                   </>
                 ) : (
                   <>{job.offsetHours} h before the due time, to whoever it is still due for and has not handed in by then: </>
@@ -163,10 +212,18 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
           <table className="w-full max-w-3xl text-left text-sm">
             <thead>
               <tr className="border-b border-ink-900/20">
-                <th scope="col" className="py-1 pr-3">To</th>
-                <th scope="col" className="py-1 pr-3">Reminder</th>
-                <th scope="col" className="py-1 pr-3">Sent</th>
-                <th scope="col" className="py-1">E-mail</th>
+                <th scope="col" className="py-1 pr-3">
+                  To
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Reminder
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Sent
+                </th>
+                <th scope="col" className="py-1">
+                  E-mail
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -227,11 +284,26 @@ const extendFormId = "extend-selected";
  * Gives the ticked students one later due time, through the extensions page's action (one
  * transaction): a fetcher, so the dashboard stays, with the messages beside the fields on a refusal.
  */
-function ExtendSelected({ courseId, labId, timeZone, selected, onDone }: { courseId: string; labId: string; timeZone: string; selected: ReadonlySet<string>; onDone: () => void }) {
+function ExtendSelected({
+  courseId,
+  labId,
+  timeZone,
+  selected,
+  onDone,
+}: {
+  courseId: string;
+  labId: string;
+  timeZone: string;
+  selected: ReadonlySet<string>;
+  onDone: () => void;
+}) {
   const fetcher = useFetcher<typeof extensionsAction>();
   const result = fetcher.data;
   const errors = result && "errors" in result ? result.errors : {};
-  const done = result && "done" in result && result.done ? { count: result.count ?? 0, dueAt: typeof result.dueAt === "string" ? result.dueAt : null } : null;
+  const done =
+    result && "done" in result && result.done
+      ? { count: result.count ?? 0, dueAt: typeof result.dueAt === "string" ? result.dueAt : null }
+      : null;
   // A new blank form after each success; a refused one keeps what was typed.
   const [round, setRound] = useState(0);
   useEffect(() => {
@@ -247,7 +319,8 @@ function ExtendSelected({ courseId, labId, timeZone, selected, onDone }: { cours
         Give the selected students a later due time
       </h2>
       <p className="mb-3 text-sm text-ink-700">
-        {selected.size === 0 ? "Tick students in the table above." : `${selected.size} selected.`} Each one&apos;s own extension is replaced by this one; a whole cohort is extended on the{" "}
+        {selected.size === 0 ? "Tick students in the table above." : `${selected.size} selected.`} Each one&apos;s own extension is replaced
+        by this one; a whole cohort is extended on the{" "}
         <Link to={extensionsHref} className="underline">
           Extensions
         </Link>{" "}
@@ -256,7 +329,8 @@ function ExtendSelected({ courseId, labId, timeZone, selected, onDone }: { cours
       {done ? (
         <div className="mb-3">
           <Notice tone="success">
-            {done.count === 1 ? "The student is" : `${done.count} students are`} now due {done.dueAt ? <LabTime at={done.dueAt} courseTimeZone={timeZone} /> : null}.{" "}
+            {done.count === 1 ? "The student is" : `${done.count} students are`} now due{" "}
+            {done.dueAt ? <LabTime at={done.dueAt} courseTimeZone={timeZone} /> : null}.{" "}
             <Link to={extensionsHref} className="underline">
               See every extension
             </Link>
@@ -272,7 +346,8 @@ function ExtendSelected({ courseId, labId, timeZone, selected, onDone }: { cours
         <input type="hidden" name="intent" value="extend-students" />
         <ExtensionWindowFields timeZone={timeZone} errors={errors} />
         <Button type="submit" disabled={selected.size === 0 || fetcher.state !== "idle"} className="self-start">
-          Give {selected.size === 0 ? "the selected students" : selected.size === 1 ? "this student" : `these ${selected.size} students`} the new due time
+          Give {selected.size === 0 ? "the selected students" : selected.size === 1 ? "this student" : `these ${selected.size} students`}{" "}
+          the new due time
         </Button>
       </fetcher.Form>
     </section>
@@ -299,7 +374,15 @@ function StudentRow({
     <tr className="border-b border-ink-900/10 align-top">
       {selection ? (
         <td className="py-1 pr-2">
-          <input type="checkbox" form={extendFormId} name="membershipIds" value={student.membershipId} checked={selection.checked} onChange={selection.toggle} aria-label={`Select ${student.name}`} />
+          <input
+            type="checkbox"
+            form={extendFormId}
+            name="membershipIds"
+            value={student.membershipId}
+            checked={selection.checked}
+            onChange={selection.toggle}
+            aria-label={`Select ${student.name}`}
+          />
         </td>
       ) : null}
       <th scope="row" className="py-1 pr-3 font-medium">

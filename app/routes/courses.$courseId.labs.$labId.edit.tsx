@@ -79,15 +79,25 @@ export default function EditLab({ loaderData, actionData }: Route.ComponentProps
       >
         {statusNames[lab.status]}
       </PageHeader>
-      {search.get("saved") === "created" && !actionData ? <Notice tone="success">The draft is saved. Check it, then publish it to its cohorts.</Notice> : null}
+      {search.get("saved") === "created" && !actionData ? (
+        <Notice tone="success">The draft is saved. Check it, then publish it to its cohorts.</Notice>
+      ) : null}
       {actionData && "done" in actionData ? <Notice tone="success">{doneMessages[actionData.done]}</Notice> : null}
       {errors.form ? <Notice tone="error">{errors.form.join(" ")}</Notice> : null}
-      {Object.keys(errors).length && !errors.form ? <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice> : null}
+      {Object.keys(errors).length && !errors.form ? (
+        <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice>
+      ) : null}
       {/* Keyed on the stored values so that a successful save shows what was stored. */}
       <Form method="post" className="flex flex-col gap-6" key={failed ? "failed" : JSON.stringify(loaderData.values)}>
         <LabFields values={failed?.submitted ?? loaderData.values} errors={errors} timeZone={timeZone} cohorts={cohorts} parts={parts} />
         <div className="flex flex-wrap gap-3">
-          <Button type="submit" name="intent" value="save" variant={lab.status === "draft" ? "secondary" : "primary"} disabled={navigation.state === "submitting"}>
+          <Button
+            type="submit"
+            name="intent"
+            value="save"
+            variant={lab.status === "draft" ? "secondary" : "primary"}
+            disabled={navigation.state === "submitting"}
+          >
             Save
           </Button>
           {lab.status !== "published" ? (

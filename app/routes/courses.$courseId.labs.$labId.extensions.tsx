@@ -32,7 +32,13 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
     instructor: access.membership.role === "instructor",
-    lab: { id: lab.id, title: lab.title, opensAt: lab.opensAt.toISOString(), dueAt: lab.dueAt.toISOString(), lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null },
+    lab: {
+      id: lab.id,
+      title: lab.title,
+      opensAt: lab.opensAt.toISOString(),
+      dueAt: lab.dueAt.toISOString(),
+      lateCutoffAt: lab.lateCutoffAt?.toISOString() ?? null,
+    },
     ...page,
   };
 }
@@ -64,24 +70,44 @@ export async function action({ request, context, params }: Route.ActionArgs) {
 type Errors = Record<string, string[] | undefined>;
 
 /** The messages of a field and of its items (`membershipIds.0`). */
-const messagesFor = (errors: Errors, name: string) => Object.entries(errors).flatMap(([key, messages]) => (key === name || key.startsWith(`${name}.`) ? (messages ?? []) : []));
+const messagesFor = (errors: Errors, name: string) =>
+  Object.entries(errors).flatMap(([key, messages]) => (key === name || key.startsWith(`${name}.`) ? (messages ?? []) : []));
 
 export default function LabExtensions({ loaderData, actionData }: Route.ComponentProps) {
   const { courseId, timeZone, instructor, lab, extensions, cohorts, students } = loaderData;
   const navigation = useNavigation();
   const failed = actionData && "errors" in actionData ? actionData : null;
-  const done = actionData && "done" in actionData && actionData.done ? { done: actionData.done, count: actionData.count ?? 0, dueAt: actionData.dueAt ?? null } : null;
+  const done =
+    actionData && "done" in actionData && actionData.done
+      ? { done: actionData.done, count: actionData.count ?? 0, dueAt: actionData.dueAt ?? null }
+      : null;
   const errorsOf = (intent: string): Errors => (failed?.values.intent === intent ? failed.errors : {});
   const valuesOf = (intent: string) => (failed?.values.intent === intent ? failed.values : {});
   // A form starts blank again once the list shows its write, and keeps what was typed when refused.
-  const stamp = `${extensions.length}-${extensions.map((row) => row.setAt).sort().at(-1) ?? ""}`;
+  const stamp = `${extensions.length}-${
+    extensions
+      .map((row) => row.setAt)
+      .sort()
+      .at(-1) ?? ""
+  }`;
   const keyOf = (intent: string) => (failed?.values.intent === intent ? `failed-${JSON.stringify(failed.values)}` : stamp);
-  const formMessages = failed ? [...messagesFor(failed.errors, "form"), ...messagesFor(failed.errors, "intent"), ...(failed.values.intent === "remove" ? messagesFor(failed.errors, "extensionId") : [])] : [];
+  const formMessages = failed
+    ? [
+        ...messagesFor(failed.errors, "form"),
+        ...messagesFor(failed.errors, "intent"),
+        ...(failed.values.intent === "remove" ? messagesFor(failed.errors, "extensionId") : []),
+      ]
+    : [];
   const busy = navigation.state === "submitting";
   return (
     <div className="flex flex-col gap-8">
-      <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]} tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}>
-        Extensions: later due times for some students or a whole cohort. A student&apos;s own extension comes first, then their cohort&apos;s, then the class&apos;s times. Times in {timeZone}.
+      <PageHeader
+        title={lab.title}
+        trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}
+      >
+        Extensions: later due times for some students or a whole cohort. A student&apos;s own extension comes first, then their
+        cohort&apos;s, then the class&apos;s times. Times in {timeZone}.
       </PageHeader>
 
       <section aria-labelledby="class-window-heading">
@@ -112,12 +138,26 @@ export default function LabExtensions({ loaderData, actionData }: Route.Componen
               <caption className="sr-only">Extensions of {lab.title}</caption>
               <thead>
                 <tr className="border-b border-ink-900/20">
-                  <th scope="col" className="py-1 pr-3">For</th>
-                  <th scope="col" className="py-1 pr-3">Due</th>
-                  <th scope="col" className="py-1 pr-3">Late cut-off</th>
-                  <th scope="col" className="py-1 pr-3">Reason</th>
-                  <th scope="col" className="py-1 pr-3">Set by</th>
-                  {instructor ? <th scope="col" className="py-1"><span className="sr-only">Remove</span></th> : null}
+                  <th scope="col" className="py-1 pr-3">
+                    For
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    Due
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    Late cut-off
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    Reason
+                  </th>
+                  <th scope="col" className="py-1 pr-3">
+                    Set by
+                  </th>
+                  {instructor ? (
+                    <th scope="col" className="py-1">
+                      <span className="sr-only">Remove</span>
+                    </th>
+                  ) : null}
                 </tr>
               </thead>
               <tbody>
@@ -136,10 +176,17 @@ export default function LabExtensions({ loaderData, actionData }: Route.Componen
             <h2 id="student-form-heading" className="mb-1 text-lg font-semibold">
               One student
             </h2>
-            <p className="mb-3 text-sm text-ink-700">An accommodation or an illness. Replaces any extension the student has. To extend several, tick them on the Hand-ins page.</p>
+            <p className="mb-3 text-sm text-ink-700">
+              An accommodation or an illness. Replaces any extension the student has. To extend several, tick them on the Hand-ins page.
+            </p>
             <Form method="post" key={keyOf("extend-students")} className="flex flex-col gap-4">
               <input type="hidden" name="intent" value="extend-students" />
-              <SelectField label="Student" name="membershipIds" defaultValue={valuesOf("extend-students").membershipIds ?? ""} error={messagesFor(errorsOf("extend-students"), "membershipIds")}>
+              <SelectField
+                label="Student"
+                name="membershipIds"
+                defaultValue={valuesOf("extend-students").membershipIds ?? ""}
+                error={messagesFor(errorsOf("extend-students"), "membershipIds")}
+              >
                 <option value="">Choose a student</option>
                 {students.map((student) => (
                   <option key={student.membershipId} value={student.membershipId}>
@@ -158,10 +205,17 @@ export default function LabExtensions({ loaderData, actionData }: Route.Componen
             <h2 id="cohort-form-heading" className="mb-1 text-lg font-semibold">
               A whole cohort
             </h2>
-            <p className="mb-3 text-sm text-ink-700">Kits that shipped late, a bench day lost. A student&apos;s own extension still comes first.</p>
+            <p className="mb-3 text-sm text-ink-700">
+              Kits that shipped late, a bench day lost. A student&apos;s own extension still comes first.
+            </p>
             <Form method="post" key={keyOf("extend-cohort")} className="flex flex-col gap-4">
               <input type="hidden" name="intent" value="extend-cohort" />
-              <SelectField label="Cohort" name="cohortId" defaultValue={valuesOf("extend-cohort").cohortId ?? ""} error={messagesFor(errorsOf("extend-cohort"), "cohortId")}>
+              <SelectField
+                label="Cohort"
+                name="cohortId"
+                defaultValue={valuesOf("extend-cohort").cohortId ?? ""}
+                error={messagesFor(errorsOf("extend-cohort"), "cohortId")}
+              >
                 <option value="">Choose a cohort</option>
                 {cohorts.map((cohort) => (
                   <option key={cohort.id} value={cohort.id}>
@@ -190,7 +244,17 @@ function TimeTerm({ label, at, timeZone }: { label: string; at: string | null; t
   );
 }
 
-function ExtensionTableRow({ extension, timeZone, removable, busy }: { extension: ExtensionRow; timeZone: string; removable: boolean; busy: boolean }) {
+function ExtensionTableRow({
+  extension,
+  timeZone,
+  removable,
+  busy,
+}: {
+  extension: ExtensionRow;
+  timeZone: string;
+  removable: boolean;
+  busy: boolean;
+}) {
   const target = extension.studentName ?? `the ${extension.cohortName} cohort`;
   return (
     <tr className="border-b border-ink-900/10 align-top">
@@ -226,8 +290,24 @@ function ExtensionTableRow({ extension, timeZone, removable, busy }: { extension
   );
 }
 
-function DoneNotice({ done, count, dueAt, timeZone }: { done: "extend-students" | "extend-cohort" | "remove"; count: number; dueAt: string | null; timeZone: string }) {
-  if (done === "remove") return <Notice tone="success">The extension is removed: its students are back on their cohort&apos;s or the class&apos;s times, and their hand-ins are judged by them.</Notice>;
+function DoneNotice({
+  done,
+  count,
+  dueAt,
+  timeZone,
+}: {
+  done: "extend-students" | "extend-cohort" | "remove";
+  count: number;
+  dueAt: string | null;
+  timeZone: string;
+}) {
+  if (done === "remove")
+    return (
+      <Notice tone="success">
+        The extension is removed: its students are back on their cohort&apos;s or the class&apos;s times, and their hand-ins are judged by
+        them.
+      </Notice>
+    );
   const who = done === "extend-cohort" ? "The cohort is" : count === 1 ? "The student is" : `${count} students are`;
   return (
     <Notice tone="success">

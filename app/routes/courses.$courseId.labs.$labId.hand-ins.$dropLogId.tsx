@@ -23,7 +23,10 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   if (!owner) throw data("Not found", { status: 404 });
   // A TA of another cohort is refused here, and the refusal recorded, before anything is read.
   await requireStudentAccess({ request, context }, access.course.id, owner);
-  const [dropLog, labels] = await Promise.all([getDropLogForStudent(db, { labId: lab.id, membershipId: owner.membershipId }), loadClassLabels(db, lab)]);
+  const [dropLog, labels] = await Promise.all([
+    getDropLogForStudent(db, { labId: lab.id, membershipId: owner.membershipId }),
+    loadClassLabels(db, lab),
+  ]);
   if (!dropLog) throw data("Not found", { status: 404 });
   const detail: HandInDetailData = {
     courseId: access.course.id,

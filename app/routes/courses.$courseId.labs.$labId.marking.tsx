@@ -26,12 +26,21 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
   const url = new URL(request.url);
   // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
-  const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch(throwAsResponse(request));
+  const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch(
+    throwAsResponse(request),
+  );
   return {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
     instructor: access.membership.role === "instructor",
-    lab: { id: lab.id, title: lab.title, kind: lab.kind, rubric: lab.rubric, readyAt: lab.marking.readyAt?.toISOString() ?? null, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
+    lab: {
+      id: lab.id,
+      title: lab.title,
+      kind: lab.kind,
+      rubric: lab.rubric,
+      readyAt: lab.marking.readyAt?.toISOString() ?? null,
+      releasedAt: lab.marking.releasedAt?.toISOString() ?? null,
+    },
     cohorts: desk.cohorts,
     rows: desk.rows,
     counts: desk.counts,
@@ -48,7 +57,12 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 const reason = z.string().trim().max(500, "Keep the reason under 500 characters.").nullish();
 const deskAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("save"), membershipId: z.uuid(), expectedVersion: z.int().min(0), change: markChange, reason }),
-  z.object({ intent: z.literal("bulk"), membershipIds: z.array(z.uuid()).min(1, "Select at least one student.").max(MAX_BULK_STUDENTS), change: markChange, reason }),
+  z.object({
+    intent: z.literal("bulk"),
+    membershipIds: z.array(z.uuid()).min(1, "Select at least one student.").max(MAX_BULK_STUDENTS),
+    change: markChange,
+    reason,
+  }),
 ]);
 
 export async function action({ request, context, params }: Route.ActionArgs) {
@@ -56,21 +70,50 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   const parsed = deskAction.safeParse(await request.json().catch(() => null));
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    return data({ intent: "refused" as const, status: "refused" as const, error: { code: "invalid_value", message: issue?.message ?? "The change cannot be read.", field: String(issue?.path.at(-1) ?? "form"), membershipIds: [] } }, { status: 400 });
+    return data(
+      {
+        intent: "refused" as const,
+        status: "refused" as const,
+        error: {
+          code: "invalid_value",
+          message: issue?.message ?? "The change cannot be read.",
+          field: String(issue?.path.at(-1) ?? "form"),
+          membershipIds: [],
+        },
+      },
+      { status: 400 },
+    );
   }
   const input = parsed.data;
   try {
     if (input.intent === "save") {
-      const result = await saveMark(db, { access, labId: lab.id, membershipId: input.membershipId, expectedVersion: input.expectedVersion, change: input.change, reason: input.reason });
+      const result = await saveMark(db, {
+        access,
+        labId: lab.id,
+        membershipId: input.membershipId,
+        expectedVersion: input.expectedVersion,
+        change: input.change,
+        reason: input.reason,
+      });
       return { intent: "save" as const, status: result.status, row: result.row };
     }
-    const result = await applyToMany(db, { access, labId: lab.id, membershipIds: input.membershipIds, change: input.change, reason: input.reason });
+    const result = await applyToMany(db, {
+      access,
+      labId: lab.id,
+      membershipIds: input.membershipIds,
+      change: input.change,
+      reason: input.reason,
+    });
     return { intent: "bulk" as const, status: "applied" as const, changed: result.changed, unchanged: result.unchanged };
   } catch (error) {
     // The desk saves through fetchers and shows a refusal in the student's row, so it answers its own shape.
     if (!(error instanceof AppError)) throw error;
     return data(
-      { intent: input.intent, status: "refused" as const, error: { code: error.code, message: error.message, field: error.field ?? "form", membershipIds: error.subjectIds } },
+      {
+        intent: input.intent,
+        status: "refused" as const,
+        error: { code: error.code, message: error.message, field: error.field ?? "form", membershipIds: error.subjectIds },
+      },
       { status: error.status },
     );
   }
@@ -92,7 +135,13 @@ export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: Shou
   return defaultShouldRevalidate;
 }
 
-const statusNames: Record<DeskStatusFilter, string> = { unmarked: "Not fully marked", flagged: "Flagged by the class comparison", late: "Late", missing: "Missing", "not-due": "Not due yet" };
+const statusNames: Record<DeskStatusFilter, string> = {
+  unmarked: "Not fully marked",
+  flagged: "Flagged by the class comparison",
+  late: "Late",
+  missing: "Missing",
+  "not-due": "Not due yet",
+};
 
 function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["loaderData"], "cohorts" | "counts" | "filters">) {
   const location = useLocation();
@@ -104,13 +153,18 @@ function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["lo
     params.delete("page");
     return `?${params}`;
   };
-  const chip = (active: boolean) => `inline-flex min-h-9 items-center rounded-full px-3 text-sm ring-1 ${active ? "bg-ink-800 text-paper-50 ring-ink-800" : "bg-white ring-ink-900/20 hover:bg-paper-100"}`;
+  const chip = (active: boolean) =>
+    `inline-flex min-h-9 items-center rounded-full px-3 text-sm ring-1 ${active ? "bg-ink-800 text-paper-50 ring-ink-800" : "bg-white ring-ink-900/20 hover:bg-paper-100"}`;
   return (
     <div className="no-print flex flex-wrap items-end gap-4">
       {cohorts.length > 1 ? (
         <label className="flex flex-col gap-1 text-sm">
           <span>Cohort</span>
-          <select className="rounded border border-ink-900/20 bg-white px-2 py-1.5" value={filters.cohort ?? ""} onChange={(event) => navigate(withParam("cohort", event.target.value || null), { preventScrollReset: true })}>
+          <select
+            className="rounded border border-ink-900/20 bg-white px-2 py-1.5"
+            value={filters.cohort ?? ""}
+            onChange={(event) => navigate(withParam("cohort", event.target.value || null), { preventScrollReset: true })}
+          >
             <option value="">All my cohorts</option>
             {cohorts.map((cohort) => (
               <option key={cohort.id} value={cohort.id}>
@@ -121,11 +175,22 @@ function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["lo
         </label>
       ) : null}
       <nav aria-label="Show" className="flex flex-wrap gap-2">
-        <Link to={withParam("status", null)} preventScrollReset className={chip(!filters.status)} aria-current={!filters.status ? "page" : undefined}>
+        <Link
+          to={withParam("status", null)}
+          preventScrollReset
+          className={chip(!filters.status)}
+          aria-current={!filters.status ? "page" : undefined}
+        >
           Everyone ({counts.all})
         </Link>
         {deskStatusFilters.map((status) => (
-          <Link key={status} to={withParam("status", status)} preventScrollReset className={chip(filters.status === status)} aria-current={filters.status === status ? "page" : undefined}>
+          <Link
+            key={status}
+            to={withParam("status", status)}
+            preventScrollReset
+            className={chip(filters.status === status)}
+            aria-current={filters.status === status ? "page" : undefined}
+          >
             {statusNames[status]} ({counts[status]})
           </Link>
         ))}
@@ -136,7 +201,12 @@ function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["lo
 
 function Pages({ page, pageCount, totalRows }: { page: number; pageCount: number; totalRows: number }) {
   const location = useLocation();
-  if (pageCount <= 1) return <p className="text-sm text-ink-700">{totalRows} student{totalRows === 1 ? "" : "s"}</p>;
+  if (pageCount <= 1)
+    return (
+      <p className="text-sm text-ink-700">
+        {totalRows} student{totalRows === 1 ? "" : "s"}
+      </p>
+    );
   const to = (target: number) => {
     const params = new URLSearchParams(location.search);
     params.set("page", String(target));
@@ -188,12 +258,37 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
       </PageHeader>
       {lab.rubric.length === 0 ? (
         <Notice tone="warning">
-          This lab has no rubric yet. {instructor ? <Link to={`${base}/rubric`} className="underline">Set its criteria</Link> : "The instructor sets its criteria"} before marking.
+          This lab has no rubric yet.{" "}
+          {instructor ? (
+            <Link to={`${base}/rubric`} className="underline">
+              Set its criteria
+            </Link>
+          ) : (
+            "The instructor sets its criteria"
+          )}{" "}
+          before marking.
         </Notice>
       ) : null}
-      {!canEdit ? <Notice tone="info">The instructor has closed this lab&apos;s marking for moderation: marks are shown but cannot be changed here.</Notice> : null}
+      {!canEdit ? (
+        <Notice tone="info">
+          The instructor has closed this lab&apos;s marking for moderation: marks are shown but cannot be changed here.
+        </Notice>
+      ) : null}
       <DeskFilters cohorts={loaderData.cohorts} counts={loaderData.counts} filters={filters} />
-      {lab.rubric.length ? <MarkingDesk courseId={courseId} labId={lab.id} kind={lab.kind} timeZone={timeZone} rubric={lab.rubric} rows={rows} matchingIds={loaderData.matchingIds} canEdit={canEdit} maxTotal={maxTotal} sort={filters.sort} /> : null}
+      {lab.rubric.length ? (
+        <MarkingDesk
+          courseId={courseId}
+          labId={lab.id}
+          kind={lab.kind}
+          timeZone={timeZone}
+          rubric={lab.rubric}
+          rows={rows}
+          matchingIds={loaderData.matchingIds}
+          canEdit={canEdit}
+          maxTotal={maxTotal}
+          sort={filters.sort}
+        />
+      ) : null}
       <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />
     </div>
   );

@@ -27,11 +27,20 @@ import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/s
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
-  const [moderation, changes] = await Promise.all([loadModeration(db, { access, lab }), listMarkChanges(db, { access, labId: lab.id, limit: 100 })]);
+  const [moderation, changes] = await Promise.all([
+    loadModeration(db, { access, lab }),
+    listMarkChanges(db, { access, labId: lab.id, limit: 100 }),
+  ]);
   return {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
-    lab: { id: lab.id, title: lab.title, rubric: lab.rubric, readyAt: lab.marking.readyAt?.toISOString() ?? null, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
+    lab: {
+      id: lab.id,
+      title: lab.title,
+      rubric: lab.rubric,
+      readyAt: lab.marking.readyAt?.toISOString() ?? null,
+      releasedAt: lab.marking.releasedAt?.toISOString() ?? null,
+    },
     maxTotal: moderation.maxTotal,
     bins: moderation.bins,
     markers: moderation.markers,
@@ -45,7 +54,13 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     resultChanged: moderation.resultChanged,
     marked: moderation.rows
       .filter((row) => row.mark)
-      .map((row) => ({ membershipId: row.membershipId, name: row.studentName, total: row.total, version: row.expectedVersion, markedBy: row.mark!.markedBy?.name ?? null })),
+      .map((row) => ({
+        membershipId: row.membershipId,
+        name: row.studentName,
+        total: row.total,
+        version: row.expectedVersion,
+        markedBy: row.mark!.markedBy?.name ?? null,
+      })),
     changes: changes.map((change) => ({ ...change, changedAt: change.changedAt.toISOString() })),
   };
 }
@@ -72,7 +87,9 @@ export const action = formAction(async ({ request, context, params, formData }: 
   const input = submission.value;
   if (input.intent === "ready" || input.intent === "reopen") {
     await markLabReady(db, { access, lab, ready: input.intent === "ready", request });
-    return { done: input.intent === "ready" ? "Marking is closed to TAs: marks can now be checked and released." : "Marking is open to TAs again." };
+    return {
+      done: input.intent === "ready" ? "Marking is closed to TAs: marks can now be checked and released." : "Marking is open to TAs again.",
+    };
   }
   if (input.intent === "release") {
     const { intent: _intent, ...choice } = input;
@@ -88,8 +105,19 @@ export const action = formAction(async ({ request, context, params, formData }: 
       : criterion?.kind === "levels"
         ? { kind: "score", criterionId: criterion.id, level: input.value, points: null }
         : { kind: "score", criterionId: criterion?.id ?? "", points: input.value, level: null, overrideReason: input.reason };
-  const result = await saveMark(db, { access, labId: lab.id, membershipId: input.membershipId, expectedVersion: input.expectedVersion, change, source: "moderation", reason: input.reason });
-  if (result.status === "conflict") return data(submission.reply({ formErrors: ["Someone changed this mark while you were adjusting it: check it again."] }), { status: 409 });
+  const result = await saveMark(db, {
+    access,
+    labId: lab.id,
+    membershipId: input.membershipId,
+    expectedVersion: input.expectedVersion,
+    change,
+    source: "moderation",
+    reason: input.reason,
+  });
+  if (result.status === "conflict")
+    return data(submission.reply({ formErrors: ["Someone changed this mark while you were adjusting it: check it again."] }), {
+      status: 409,
+    });
   return { done: `${result.row.studentName}'s mark is now ${result.row.total}.` };
 });
 
@@ -98,40 +126,92 @@ const plural = (count: number, word: string) => `${count} ${word}${count === 1 ?
 const round = (value: number | null, digits = 1) => (value === null ? "—" : value.toFixed(digits));
 
 /** A small histogram of totals; every marker's uses the same bins and height so they compare at a glance. */
-function Histogram({ counts, bins, tallest, label }: { counts: number[]; bins: { from: number; to: number }[]; tallest: number; label: string }) {
+function Histogram({
+  counts,
+  bins,
+  tallest,
+  label,
+}: {
+  counts: number[];
+  bins: { from: number; to: number }[];
+  tallest: number;
+  label: string;
+}) {
   const width = 160;
   const height = 36;
   const bar = width / Math.max(counts.length, 1);
   return (
-    <svg viewBox={`0 0 ${width} ${height}`} className="h-9 w-40" role="img" aria-label={`${label}: ${counts.map((count, index) => `${count} between ${bins[index].from} and ${bins[index].to}`).join(", ")}`}>
+    <svg
+      viewBox={`0 0 ${width} ${height}`}
+      className="h-9 w-40"
+      role="img"
+      aria-label={`${label}: ${counts.map((count, index) => `${count} between ${bins[index].from} and ${bins[index].to}`).join(", ")}`}
+    >
       <line x1={0} x2={width} y1={height - 0.5} y2={height - 0.5} stroke="currentColor" strokeOpacity={0.3} />
       {counts.map((count, index) => {
         const barHeight = tallest ? ((height - 2) * count) / tallest : 0;
-        return <rect key={index} x={index * bar + 1} width={bar - 2} y={height - 1 - barHeight} height={barHeight} fill="var(--color-ink-500)" />;
+        return (
+          <rect key={index} x={index * bar + 1} width={bar - 2} y={height - 1 - barHeight} height={barHeight} fill="var(--color-ink-500)" />
+        );
       })}
     </svg>
   );
 }
 
 export default function ModerationPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, maxTotal, bins, markers, overall, students, progress, released, changedAfterRelease, needsRemarking, release, resultChanged, marked, changes } = loaderData;
+  const {
+    courseId,
+    timeZone,
+    lab,
+    maxTotal,
+    bins,
+    markers,
+    overall,
+    students,
+    progress,
+    released,
+    changedAfterRelease,
+    needsRemarking,
+    release,
+    resultChanged,
+    marked,
+    changes,
+  } = loaderData;
   const busy = useNavigation().state === "submitting";
   const refusal = actionData && "status" in actionData ? actionData : undefined;
   const typed = refusal?.initialValue as Record<string, string> | undefined;
-  const [adjustForm, adjustFields] = useForm({ id: "adjust", lastResult: replyFor(actionData, "adjust"), shouldValidate: "onBlur", onValidate: ({ formData }) => parseSubmission(formData, adjustment) });
+  const [adjustForm, adjustFields] = useForm({
+    id: "adjust",
+    lastResult: replyFor(actionData, "adjust"),
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, adjustment),
+  });
   const tallest = Math.max(1, ...markers.flatMap((marker) => marker.histogram), ...overall.histogram);
   const names = new Map(lab.rubric.map((criterion) => [criterion.id, criterion.title]));
   return (
     <div className="flex flex-col gap-8">
-      <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]} tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}>
+      <PageHeader
+        title={lab.title}
+        trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}
+      >
         Moderation · {students} students · {progress.marked} fully marked, {progress.partial} partly, {progress.unmarked} not yet
       </PageHeader>
       {actionData && "done" in actionData ? <Notice tone="success">{actionData.done}</Notice> : null}
-      {refusal && typed?.intent !== "adjust" ? <Notice tone="error">{Object.values(refusal.error ?? {}).flat().join(" ")}</Notice> : null}
+      {refusal && typed?.intent !== "adjust" ? (
+        <Notice tone="error">
+          {Object.values(refusal.error ?? {})
+            .flat()
+            .join(" ")}
+        </Notice>
+      ) : null}
       {resultChanged.length ? (
         <Notice tone="warning">
           <p className="font-medium">Result changed since it was marked ({resultChanged.length})</p>
-          <p>A part these hand-ins used was re-measured and their reduction revised; their marks are unchanged until someone marks them again.</p>
+          <p>
+            A part these hand-ins used was re-measured and their reduction revised; their marks are unchanged until someone marks them
+            again.
+          </p>
           <ul className="mt-1 list-disc pl-5" data-testid="result-changed-list">
             {resultChanged.map((entry) => (
               <li key={entry.membershipId}>
@@ -177,7 +257,15 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
             <p className="self-center text-sm text-ink-700">Close the marking to TAs before releasing, so nothing changes under you.</p>
           )}
         </div>
-        {lab.readyAt ? <ReleaseForm release={release} timeZone={timeZone} busy={busy} again={released > 0} values={typed?.intent === "release" ? typed : undefined} /> : null}
+        {lab.readyAt ? (
+          <ReleaseForm
+            release={release}
+            timeZone={timeZone}
+            busy={busy}
+            again={released > 0}
+            values={typed?.intent === "release" ? typed : undefined}
+          />
+        ) : null}
       </section>
 
       <section aria-labelledby="markers-heading">
@@ -186,9 +274,22 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
         </h2>
         <div className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
           <table className="min-w-full text-left text-sm">
-            <TableHead headers={["Marker", "Marks", "Mean", "Std. dev.", "Median", "Range", `Distribution (${bins.length} bins from 0 to ${maxTotal})`]} />
+            <TableHead
+              headers={[
+                "Marker",
+                "Marks",
+                "Mean",
+                "Std. dev.",
+                "Median",
+                "Range",
+                `Distribution (${bins.length} bins from 0 to ${maxTotal})`,
+              ]}
+            />
             <tbody className="divide-y divide-ink-900/5 tabular-nums">
-              {[...markers.map((entry) => ({ ...entry, name: entry.marker?.name ?? "A removed account" })), { ...overall, name: "Everyone" }].map((entry) => (
+              {[
+                ...markers.map((entry) => ({ ...entry, name: entry.marker?.name ?? "A removed account" })),
+                { ...overall, name: "Everyone" },
+              ].map((entry) => (
                 <tr key={entry.name} className={entry.name === "Everyone" ? "font-medium" : undefined}>
                   <th scope="row" className="px-3 py-2 text-left font-medium">
                     {entry.name}
@@ -206,7 +307,9 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
             </tbody>
           </table>
         </div>
-        <p className="mt-1 text-xs text-ink-700">A marker whose mean or spread sits apart from the others is worth a look at a few of their marks; the desk filters by cohort.</p>
+        <p className="mt-1 text-xs text-ink-700">
+          A marker whose mean or spread sits apart from the others is worth a look at a few of their marks; the desk filters by cohort.
+        </p>
       </section>
 
       {marked.length ? (
@@ -214,7 +317,11 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
           <h2 id="adjust-heading" className="mb-2 text-lg font-semibold">
             Adjust a mark
           </h2>
-          <Form method="post" className="grid gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 sm:grid-cols-2" {...getFormProps(adjustForm)}>
+          <Form
+            method="post"
+            className="grid gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 sm:grid-cols-2"
+            {...getFormProps(adjustForm)}
+          >
             <input type="hidden" name="intent" value="adjust" />
             {adjustForm.errors?.length ? (
               <div className="sm:col-span-2">
@@ -232,7 +339,13 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
               <option value="penalty">Late penalty (points)</option>
             </SelectField>
             <TextField label="New value" field={adjustFields.value} inputMode="decimal" required hint="A level's number, or points." />
-            <TextField label="Why" field={adjustFields.reason} className="sm:col-span-2" required hint="Kept with the change; a student whose mark is released sees it." />
+            <TextField
+              label="Why"
+              field={adjustFields.reason}
+              className="sm:col-span-2"
+              required
+              hint="Kept with the change; a student whose mark is released sees it."
+            />
             <div>
               <Button type="submit" disabled={busy}>
                 Adjust the mark
@@ -295,7 +408,19 @@ const standingWords: [keyof ReleaseCounts, string][] = [
 ];
 
 /** Release, as a choice with its counts: nothing is released before the instructor picks whom. */
-function ReleaseForm({ release, timeZone, busy, again, values }: { release: Preview; timeZone: string; busy: boolean; again: boolean; values?: Record<string, string> }) {
+function ReleaseForm({
+  release,
+  timeZone,
+  busy,
+  again,
+  values,
+}: {
+  release: Preview;
+  timeZone: string;
+  busy: boolean;
+  again: boolean;
+  values?: Record<string, string>;
+}) {
   const [scope, setScope] = useState(values?.scope ?? "");
   const [zeroForNoHandIn, setZeroForNoHandIn] = useState(values?.zeroForNoHandIn === "on");
   const { counts, stillOpen } = release;
@@ -321,26 +446,34 @@ function ReleaseForm({ release, timeZone, busy, again, values }: { release: Prev
               , until <LabTime at={stillOpen.until} courseTimeZone={timeZone} />
             </>
           ) : null}
-          . After the release, a hand-in from a student whose mark is released is handled as the lab says: {afterReleaseHandInNames[release.afterReleaseHandIns].toLowerCase()}.
+          . After the release, a hand-in from a student whose mark is released is handled as the lab says:{" "}
+          {afterReleaseHandInNames[release.afterReleaseHandIns].toLowerCase()}.
         </Notice>
       ) : null}
       {stillOpen.students ? (
         <label className="flex items-center gap-2 text-sm">
-          <input type="checkbox" name="whileOpen" defaultChecked={values?.whileOpen === "on"} /> Release anyway, while hand-ins are still possible
+          <input type="checkbox" name="whileOpen" defaultChecked={values?.whileOpen === "on"} /> Release anyway, while hand-ins are still
+          possible
         </label>
       ) : null}
       <fieldset className="flex flex-col gap-1 text-sm">
         <legend className="font-medium">Whom to release</legend>
         <label className="flex items-center gap-2">
-          <input type="radio" name="scope" value="marked" checked={scope === "marked"} onChange={() => setScope("marked")} required /> Only the fully marked students ({counts["fully-marked"]})
+          <input type="radio" name="scope" value="marked" checked={scope === "marked"} onChange={() => setScope("marked")} required /> Only
+          the fully marked students ({counts["fully-marked"]})
         </label>
         <label className="flex items-center gap-2">
-          <input type="radio" name="scope" value="all" checked={scope === "all"} onChange={() => setScope("all")} /> Every marked student, partly marked included (
-          {counts["fully-marked"] + counts["partly-marked"] + counts["marked-on-earlier-version"]})
+          <input type="radio" name="scope" value="all" checked={scope === "all"} onChange={() => setScope("all")} /> Every marked student,
+          partly marked included ({counts["fully-marked"] + counts["partly-marked"] + counts["marked-on-earlier-version"]})
         </label>
         <label className="mt-1 flex items-center gap-2">
-          <input type="checkbox" name="zeroForNoHandIn" checked={zeroForNoHandIn} onChange={(event) => setZeroForNoHandIn(event.target.checked)} /> Release zero for no hand-in ({counts["no-hand-in"]}
-          ; a mark already given to one of them is released as it is)
+          <input
+            type="checkbox"
+            name="zeroForNoHandIn"
+            checked={zeroForNoHandIn}
+            onChange={(event) => setZeroForNoHandIn(event.target.checked)}
+          />{" "}
+          Release zero for no hand-in ({counts["no-hand-in"]}; a mark already given to one of them is released as it is)
         </label>
       </fieldset>
       <div>
@@ -353,7 +486,13 @@ function ReleaseForm({ release, timeZone, busy, again, values }: { release: Prev
 }
 
 /** The student's select, with the version the adjustment starts from beside it: a mark changed meanwhile is then a conflict, not overwritten. */
-function StudentChoice({ marked, field }: { marked: { membershipId: string; name: string; total: number; version: number; markedBy: string | null }[]; field: FieldMetadata<string> }) {
+function StudentChoice({
+  marked,
+  field,
+}: {
+  marked: { membershipId: string; name: string; total: number; version: number; markedBy: string | null }[];
+  field: FieldMetadata<string>;
+}) {
   // Controlled, so that the version sent beside it is the chosen student's.
   const [membershipId, setMembershipId] = useState(field.initialValue ?? "");
   return (
@@ -382,7 +521,8 @@ function describeChange(before: State | null, after: State, names: Map<string, s
     const to = after.scores[id]?.points;
     if (from !== to) parts.push(`${names.get(id) ?? "a removed criterion"} ${from ?? "—"} → ${to ?? "—"}`);
   }
-  if (before.latePenaltyPoints !== after.latePenaltyPoints) parts.push(`late penalty ${before.latePenaltyPoints} → ${after.latePenaltyPoints}`);
+  if (before.latePenaltyPoints !== after.latePenaltyPoints)
+    parts.push(`late penalty ${before.latePenaltyPoints} → ${after.latePenaltyPoints}`);
   if (before.feedback !== after.feedback) parts.push("feedback");
   return parts.join("; ") || "released as it was";
 }

@@ -16,6 +16,9 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   } catch (error) {
     // The upload is sent by script and shows the sentence beside the picker: it answers `{ error }`.
     if (!(error instanceof AppError)) throw error;
-    return data({ error: error.message }, { status: error.status, headers: error.retryAfterSeconds ? retryAfterHeaders(error.retryAfterSeconds) : undefined });
+    return data(
+      { error: error.message },
+      { status: error.status, headers: error.retryAfterSeconds ? retryAfterHeaders(error.retryAfterSeconds) : undefined },
+    );
   }
 }

@@ -13,7 +13,15 @@ import { Button } from "~/components/ui/button";
 import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { autoRuleLabels, autoRules, criterionToInput, describeAutoRule, MAX_LEVELS, type AutoRule, type CriterionKind } from "~/lib/marking/rubric";
+import {
+  autoRuleLabels,
+  autoRules,
+  criterionToInput,
+  describeAutoRule,
+  MAX_LEVELS,
+  type AutoRule,
+  type CriterionKind,
+} from "~/lib/marking/rubric";
 import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
@@ -37,8 +45,16 @@ const rubricAction = z.discriminatedUnion("intent", [
 
 export async function action({ request, context, params }: Route.ActionArgs) {
   const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
-  const parsed = rubricAction.safeParse(request.headers.get("content-type")?.includes("json") ? await request.json().catch(() => null) : Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ errors: { form: parsed.error.issues[0]?.message ?? "The rubric cannot be read." } as Record<string, string> }, { status: 400 });
+  const parsed = rubricAction.safeParse(
+    request.headers.get("content-type")?.includes("json")
+      ? await request.json().catch(() => null)
+      : Object.fromEntries(await request.formData()),
+  );
+  if (!parsed.success)
+    return data(
+      { errors: { form: parsed.error.issues[0]?.message ?? "The rubric cannot be read." } as Record<string, string> },
+      { status: 400 },
+    );
   try {
     if (parsed.data.intent === "copy") {
       const copied = await copyRubric(db, { access, lab, fromLabId: parsed.data.fromLabId, request });
@@ -49,7 +65,10 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   } catch (error) {
     if (!(error instanceof AppError)) throw error;
     const issues = error.issues ?? [{ path: ["form"], message: error.message }];
-    return data({ errors: Object.fromEntries(issues.map((issue) => [issue.path.join("."), issue.message])) as Record<string, string> }, { status: error.status });
+    return data(
+      { errors: Object.fromEntries(issues.map((issue) => [issue.path.join("."), issue.message])) as Record<string, string> },
+      { status: error.status },
+    );
   }
 }
 
@@ -74,10 +93,25 @@ let drafted = 0;
 const newKey = () => `criterion-${++drafted}`;
 
 function toDraft(input: ReturnType<typeof criterionToInput>): Draft {
-  const blank = { levels: [], minPoints: "0", maxPoints: "", rule: "required_drops" as AutoRule, tolerancePercent: "", suspectPoints: "", latePenaltyPoints: "" };
+  const blank = {
+    levels: [],
+    minPoints: "0",
+    maxPoints: "",
+    rule: "required_drops" as AutoRule,
+    tolerancePercent: "",
+    suspectPoints: "",
+    latePenaltyPoints: "",
+  };
   const common = { key: input.id ?? newKey(), id: input.id, title: input.title, description: input.description ?? "" };
-  if (input.kind === "levels") return { ...blank, ...common, kind: "levels", levels: input.levels.map((level) => ({ points: text(level.points), description: level.description })) };
-  if (input.kind === "range") return { ...blank, ...common, kind: "range", minPoints: text(input.minPoints), maxPoints: text(input.maxPoints) };
+  if (input.kind === "levels")
+    return {
+      ...blank,
+      ...common,
+      kind: "levels",
+      levels: input.levels.map((level) => ({ points: text(level.points), description: level.description })),
+    };
+  if (input.kind === "range")
+    return { ...blank, ...common, kind: "range", minPoints: text(input.minPoints), maxPoints: text(input.maxPoints) };
   return {
     ...blank,
     ...common,
@@ -95,14 +129,23 @@ const optional = (value: string) => (value.trim() === "" ? undefined : Number(va
 
 function toInput(draft: Draft) {
   const common = { ...(draft.id ? { id: draft.id } : {}), title: draft.title, description: draft.description };
-  if (draft.kind === "levels") return { ...common, kind: "levels", levels: draft.levels.map((level) => ({ points: number(level.points), description: level.description })) };
+  if (draft.kind === "levels")
+    return {
+      ...common,
+      kind: "levels",
+      levels: draft.levels.map((level) => ({ points: number(level.points), description: level.description })),
+    };
   if (draft.kind === "range") return { ...common, kind: "range", minPoints: number(draft.minPoints), maxPoints: number(draft.maxPoints) };
   return {
     ...common,
     kind: "auto",
     rule: draft.rule,
     maxPoints: number(draft.maxPoints),
-    params: { tolerancePercent: optional(draft.tolerancePercent), suspectPoints: optional(draft.suspectPoints), latePenaltyPoints: optional(draft.latePenaltyPoints) },
+    params: {
+      tolerancePercent: optional(draft.tolerancePercent),
+      suspectPoints: optional(draft.suspectPoints),
+      latePenaltyPoints: optional(draft.latePenaltyPoints),
+    },
   };
 }
 
@@ -138,7 +181,8 @@ export default function RubricPage({ loaderData }: Route.ComponentProps) {
   }, [loaderData.criteria]);
   const errors: Record<string, string> = actionData && "errors" in actionData ? actionData.errors : {};
   const error = (index: number, field: string) => errors[`criteria.${index}.${field}`];
-  const update = (index: number, patch: Partial<Draft>) => setDrafts((current) => current.map((draft, at) => (at === index ? { ...draft, ...patch } : draft)));
+  const update = (index: number, patch: Partial<Draft>) =>
+    setDrafts((current) => current.map((draft, at) => (at === index ? { ...draft, ...patch } : draft)));
   const move = (index: number, step: -1 | 1) =>
     setDrafts((current) => {
       const next = [...current];
@@ -148,18 +192,25 @@ export default function RubricPage({ loaderData }: Route.ComponentProps) {
   const locked = lab.releasedAt !== null;
   const busy = navigation.state === "submitting";
   const maxTotal = drafts.reduce((sum, draft) => {
-    const points = draft.kind === "levels" ? Math.max(0, ...draft.levels.map((level) => Number(level.points) || 0)) : Number(draft.maxPoints) || 0;
+    const points =
+      draft.kind === "levels" ? Math.max(0, ...draft.levels.map((level) => Number(level.points) || 0)) : Number(draft.maxPoints) || 0;
     return sum + points;
   }, 0);
 
   return (
     <div className="flex max-w-4xl flex-col gap-6">
-      <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]} tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}>
+      <PageHeader
+        title={lab.title}
+        trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
+        tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}
+      >
         Rubric · {drafts.length} criteria · out of {maxTotal} points
       </PageHeader>
       {actionData && "done" in actionData ? <Notice tone="success">{actionData.done}</Notice> : null}
       {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
-      {Object.keys(errors).some((key) => key !== "form") ? <Notice tone="error">Some criteria need correcting; see the messages beside them. Nothing was saved.</Notice> : null}
+      {Object.keys(errors).some((key) => key !== "form") ? (
+        <Notice tone="error">Some criteria need correcting; see the messages beside them. Nothing was saved.</Notice>
+      ) : null}
       {locked ? <Notice tone="info">Marks of this lab are released, so its rubric is kept as the students saw it.</Notice> : null}
 
       {sources.length && !locked ? (
@@ -184,7 +235,10 @@ export default function RubricPage({ loaderData }: Route.ComponentProps) {
         onSubmit={(event) => {
           event.preventDefault();
           // Through JSON and back: empty optional fields (undefined) drop out, as the schema wants them absent.
-          submit(JSON.parse(JSON.stringify({ intent: "save", criteria: drafts.map(toInput) })), { method: "post", encType: "application/json" });
+          submit(JSON.parse(JSON.stringify({ intent: "save", criteria: drafts.map(toInput) })), {
+            method: "post",
+            encType: "application/json",
+          });
         }}
       >
         <ol className="flex flex-col gap-4">
@@ -193,14 +247,38 @@ export default function RubricPage({ loaderData }: Route.ComponentProps) {
               <fieldset disabled={locked} className="flex flex-col gap-3">
                 <legend className="sr-only">Criterion {index + 1}</legend>
                 <div className="grid gap-3 sm:grid-cols-[1fr_12rem]">
-                  <TextField label={`Criterion ${index + 1}`} value={draft.title} onChange={(event) => update(index, { title: event.target.value })} error={error(index, "title")} required />
-                  <SelectField label="Scored by" value={draft.kind} onChange={(event) => update(index, { ...starter(event.target.value as CriterionKind), key: draft.key, id: draft.id, title: draft.title, description: draft.description })}>
+                  <TextField
+                    label={`Criterion ${index + 1}`}
+                    value={draft.title}
+                    onChange={(event) => update(index, { title: event.target.value })}
+                    error={error(index, "title")}
+                    required
+                  />
+                  <SelectField
+                    label="Scored by"
+                    value={draft.kind}
+                    onChange={(event) =>
+                      update(index, {
+                        ...starter(event.target.value as CriterionKind),
+                        key: draft.key,
+                        id: draft.id,
+                        title: draft.title,
+                        description: draft.description,
+                      })
+                    }
+                  >
                     <option value="levels">levels</option>
                     <option value="range">points in a range</option>
                     <option value="auto">automatically</option>
                   </SelectField>
                 </div>
-                <TextAreaField label="What it looks for" rows={2} value={draft.description} onChange={(event) => update(index, { description: event.target.value })} error={error(index, "description")} />
+                <TextAreaField
+                  label="What it looks for"
+                  rows={2}
+                  value={draft.description}
+                  onChange={(event) => update(index, { description: event.target.value })}
+                  error={error(index, "description")}
+                />
                 {draft.kind === "levels" ? (
                   <div className="flex flex-col gap-2">
                     {draft.levels.map((level, levelIndex) => (
@@ -210,54 +288,131 @@ export default function RubricPage({ loaderData }: Route.ComponentProps) {
                           unit="pts"
                           inputMode="decimal"
                           value={level.points}
-                          onChange={(event) => update(index, { levels: draft.levels.map((entry, at) => (at === levelIndex ? { ...entry, points: event.target.value } : entry)) })}
+                          onChange={(event) =>
+                            update(index, {
+                              levels: draft.levels.map((entry, at) =>
+                                at === levelIndex ? { ...entry, points: event.target.value } : entry,
+                              ),
+                            })
+                          }
                           error={error(index, `levels.${levelIndex}.points`)}
                         />
                         <TextField
                           label="Description"
                           value={level.description}
-                          onChange={(event) => update(index, { levels: draft.levels.map((entry, at) => (at === levelIndex ? { ...entry, description: event.target.value } : entry)) })}
+                          onChange={(event) =>
+                            update(index, {
+                              levels: draft.levels.map((entry, at) =>
+                                at === levelIndex ? { ...entry, description: event.target.value } : entry,
+                              ),
+                            })
+                          }
                           error={error(index, `levels.${levelIndex}.description`)}
                         />
-                        <button type="button" className="mt-6 min-h-9 px-2 text-sm underline" onClick={() => update(index, { levels: draft.levels.filter((_, at) => at !== levelIndex) })}>
+                        <button
+                          type="button"
+                          className="mt-6 min-h-9 px-2 text-sm underline"
+                          onClick={() => update(index, { levels: draft.levels.filter((_, at) => at !== levelIndex) })}
+                        >
                           Remove<span className="sr-only"> level {levelIndex + 1}</span>
                         </button>
                       </div>
                     ))}
                     {error(index, "levels") ? <p className="text-sm text-outlier">{error(index, "levels")}</p> : null}
                     {draft.levels.length < MAX_LEVELS ? (
-                      <button type="button" className="self-start text-sm underline" onClick={() => update(index, { levels: [...draft.levels, { points: "", description: "" }] })}>
+                      <button
+                        type="button"
+                        className="self-start text-sm underline"
+                        onClick={() => update(index, { levels: [...draft.levels, { points: "", description: "" }] })}
+                      >
                         Add a level
                       </button>
                     ) : null}
                   </div>
                 ) : draft.kind === "range" ? (
                   <div className="grid gap-3 sm:grid-cols-2">
-                    <TextField label="Fewest points" unit="pts" inputMode="decimal" value={draft.minPoints} onChange={(event) => update(index, { minPoints: event.target.value })} error={error(index, "minPoints")} />
-                    <TextField label="Most points" unit="pts" inputMode="decimal" value={draft.maxPoints} onChange={(event) => update(index, { maxPoints: event.target.value })} error={error(index, "maxPoints")} />
+                    <TextField
+                      label="Fewest points"
+                      unit="pts"
+                      inputMode="decimal"
+                      value={draft.minPoints}
+                      onChange={(event) => update(index, { minPoints: event.target.value })}
+                      error={error(index, "minPoints")}
+                    />
+                    <TextField
+                      label="Most points"
+                      unit="pts"
+                      inputMode="decimal"
+                      value={draft.maxPoints}
+                      onChange={(event) => update(index, { maxPoints: event.target.value })}
+                      error={error(index, "maxPoints")}
+                    />
                   </div>
                 ) : (
                   <div className="grid gap-3 sm:grid-cols-2">
-                    <SelectField label="Rule" value={draft.rule} onChange={(event) => update(index, { rule: event.target.value as AutoRule })} error={error(index, "rule")}>
+                    <SelectField
+                      label="Rule"
+                      value={draft.rule}
+                      onChange={(event) => update(index, { rule: event.target.value as AutoRule })}
+                      error={error(index, "rule")}
+                    >
                       {autoRules.map((rule) => (
                         <option key={rule} value={rule}>
                           {autoRuleLabels[rule]}
                         </option>
                       ))}
                     </SelectField>
-                    <TextField label="Points" unit="pts" inputMode="decimal" value={draft.maxPoints} onChange={(event) => update(index, { maxPoints: event.target.value })} error={error(index, "maxPoints")} />
+                    <TextField
+                      label="Points"
+                      unit="pts"
+                      inputMode="decimal"
+                      value={draft.maxPoints}
+                      onChange={(event) => update(index, { maxPoints: event.target.value })}
+                      error={error(index, "maxPoints")}
+                    />
                     {draft.rule === "within_reference" ? (
-                      <TextField label="Tolerance" unit="%" inputMode="decimal" value={draft.tolerancePercent} onChange={(event) => update(index, { tolerancePercent: event.target.value })} error={error(index, "params.tolerancePercent")} />
+                      <TextField
+                        label="Tolerance"
+                        unit="%"
+                        inputMode="decimal"
+                        value={draft.tolerancePercent}
+                        onChange={(event) => update(index, { tolerancePercent: event.target.value })}
+                        error={error(index, "params.tolerancePercent")}
+                      />
                     ) : null}
                     {draft.rule === "not_outlier" ? (
-                      <TextField label="Points when suspect" unit="pts" inputMode="decimal" hint="Half the points when empty." value={draft.suspectPoints} onChange={(event) => update(index, { suspectPoints: event.target.value })} error={error(index, "params.suspectPoints")} />
+                      <TextField
+                        label="Points when suspect"
+                        unit="pts"
+                        inputMode="decimal"
+                        hint="Half the points when empty."
+                        value={draft.suspectPoints}
+                        onChange={(event) => update(index, { suspectPoints: event.target.value })}
+                        error={error(index, "params.suspectPoints")}
+                      />
                     ) : null}
                     {draft.rule === "on_time" ? (
-                      <TextField label="Taken off when late" unit="pts" inputMode="decimal" hint="All the points when empty." value={draft.latePenaltyPoints} onChange={(event) => update(index, { latePenaltyPoints: event.target.value })} error={error(index, "params.latePenaltyPoints")} />
+                      <TextField
+                        label="Taken off when late"
+                        unit="pts"
+                        inputMode="decimal"
+                        hint="All the points when empty."
+                        value={draft.latePenaltyPoints}
+                        onChange={(event) => update(index, { latePenaltyPoints: event.target.value })}
+                        error={error(index, "params.latePenaltyPoints")}
+                      />
                     ) : null}
                     <p className="text-sm text-ink-700 sm:col-span-2">
                       {describeAutoRule(
-                        { autoRule: draft.rule, maxPoints: Number(draft.maxPoints) || 0, autoParams: { tolerancePercent: optional(draft.tolerancePercent), suspectPoints: optional(draft.suspectPoints), latePenaltyPoints: optional(draft.latePenaltyPoints) } },
+                        {
+                          autoRule: draft.rule,
+                          maxPoints: Number(draft.maxPoints) || 0,
+                          autoParams: {
+                            tolerancePercent: optional(draft.tolerancePercent),
+                            suspectPoints: optional(draft.suspectPoints),
+                            latePenaltyPoints: optional(draft.latePenaltyPoints),
+                          },
+                        },
                         lab.requiredDrops,
                       )}{" "}
                       A marker may override it, with a reason.
@@ -265,13 +420,27 @@ export default function RubricPage({ loaderData }: Route.ComponentProps) {
                   </div>
                 )}
                 <div className="flex flex-wrap gap-3 text-sm">
-                  <button type="button" className="min-h-9 underline disabled:opacity-50" disabled={index === 0} onClick={() => move(index, -1)}>
+                  <button
+                    type="button"
+                    className="min-h-9 underline disabled:opacity-50"
+                    disabled={index === 0}
+                    onClick={() => move(index, -1)}
+                  >
                     Move up
                   </button>
-                  <button type="button" className="min-h-9 underline disabled:opacity-50" disabled={index === drafts.length - 1} onClick={() => move(index, 1)}>
+                  <button
+                    type="button"
+                    className="min-h-9 underline disabled:opacity-50"
+                    disabled={index === drafts.length - 1}
+                    onClick={() => move(index, 1)}
+                  >
                     Move down
                   </button>
-                  <button type="button" className="min-h-9 text-outlier underline" onClick={() => setDrafts((current) => current.filter((_, at) => at !== index))}>
+                  <button
+                    type="button"
+                    className="min-h-9 text-outlier underline"
+                    onClick={() => setDrafts((current) => current.filter((_, at) => at !== index))}
+                  >
                     Remove the criterion
                   </button>
                 </div>

@@ -11,7 +11,13 @@ import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
   const labs = await listLabsForMember(db, access);
-  return { courseId: access.course.id, timeZone: access.course.timeZone, staff: isStaff(access), instructor: access.membership.role === "instructor", labs };
+  return {
+    courseId: access.course.id,
+    timeZone: access.course.timeZone,
+    staff: isStaff(access),
+    instructor: access.membership.role === "instructor",
+    labs,
+  };
 }
 
 const statusStyles: Record<DropLogStatus, string> = {
@@ -38,7 +44,9 @@ export default function Labs({ loaderData }: Route.ComponentProps) {
                   {lab.title}
                 </Link>
                 {staff ? (
-                  <span className="text-sm text-ink-700">{lab.status === "draft" ? "Not published" : lab.status === "closed" ? "Closed" : "Published"}</span>
+                  <span className="text-sm text-ink-700">
+                    {lab.status === "draft" ? "Not published" : lab.status === "closed" ? "Closed" : "Published"}
+                  </span>
                 ) : (
                   <span className={`rounded px-2 py-0.5 text-sm ring-1 ${statusStyles[status]}`}>
                     {dropLogStatusLabels[status]}

@@ -19,7 +19,15 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const options = await getLabFormOptions(db, access.course.id);
   const { kind } = readSearchParams(request, newLabSearch);
-  return { courseId: access.course.id, timeZone: access.course.timeZone, ...options, values: newLabFormValues(kind, options.cohorts.map((cohort) => cohort.id)) };
+  return {
+    courseId: access.course.id,
+    timeZone: access.course.timeZone,
+    ...options,
+    values: newLabFormValues(
+      kind,
+      options.cohorts.map((cohort) => cohort.id),
+    ),
+  };
 }
 
 export async function action({ request, context, params }: Route.ActionArgs) {
@@ -50,8 +58,16 @@ export default function NewLab({ loaderData, actionData }: Route.ComponentProps)
       </PageHeader>
       <Form method="post" className="flex flex-col gap-6">
         {errors.form ? <Notice tone="error">{errors.form.join(" ")}</Notice> : null}
-        {Object.keys(errors).length && !errors.form ? <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice> : null}
-        <LabFields values={actionData?.submitted ?? loaderData.values} errors={errors} timeZone={timeZone} cohorts={cohorts} parts={parts} />
+        {Object.keys(errors).length && !errors.form ? (
+          <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice>
+        ) : null}
+        <LabFields
+          values={actionData?.submitted ?? loaderData.values}
+          errors={errors}
+          timeZone={timeZone}
+          cohorts={cohorts}
+          parts={parts}
+        />
         <div className="flex gap-3">
           <Button type="submit" disabled={navigation.state === "submitting"}>
             Save the draft

@@ -20,7 +20,6 @@ const memberAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("remove") }),
 ]);
 
-
 /** The member page: the member themselves, the course's instructors, and the TAs of the member's cohort. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   await requireUser(request);
@@ -84,7 +83,13 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
           ) : null}
           <Form method="post" className="grid gap-3 sm:grid-cols-2 sm:items-end">
             <input type="hidden" name="intent" value="change-role" />
-            <RoleAndCohortFields role={member.role} cohortId={member.cohortId ?? ""} cohorts={cohorts} errors={errors} cohortLabel="Cohort (students only)" />
+            <RoleAndCohortFields
+              role={member.role}
+              cohortId={member.cohortId ?? ""}
+              cohorts={cohorts}
+              errors={errors}
+              cohortLabel="Cohort (students only)"
+            />
             <div className="sm:col-span-2">
               <Button type="submit" disabled={busy}>
                 Save

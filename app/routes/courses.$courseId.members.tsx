@@ -21,10 +21,13 @@ const inviteSchema = z.object({
   cohortId: z.union([z.literal(""), z.uuid()]).optional(),
 });
 
-
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const [members, invitations, cohorts] = await Promise.all([listMembers(access.course.id), listOpenInvitations(access.course.id), listCohorts(access.course.id)]);
+  const [members, invitations, cohorts] = await Promise.all([
+    listMembers(access.course.id),
+    listOpenInvitations(access.course.id),
+    listCohorts(access.course.id),
+  ]);
   return { course: access.course, members, invitations, cohorts };
 }
 
@@ -34,10 +37,19 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
   const { email, name, role, cohortId } = form.data;
   const result = await db.transaction((tx) =>
-    createInvitations(tx, { id: access.user.id, name: access.user.name }, access.course.id, [{ email, name, role, cohortId: cohortId || null }], request),
+    createInvitations(
+      tx,
+      { id: access.user.id, name: access.user.name },
+      access.course.id,
+      [{ email, name, role, cohortId: cohortId || null }],
+      request,
+    ),
   );
   if (result.skipped.length > 0) {
-    const reason = result.skipped[0].reason === "already a member" ? "This person is a member of the course already." : "Choose one of this course's cohorts.";
+    const reason =
+      result.skipped[0].reason === "already a member"
+        ? "This person is a member of the course already."
+        : "Choose one of this course's cohorts.";
     const field = result.skipped[0].reason === "already a member" ? "email" : "cohortId";
     return data({ errors: { [field]: reason }, values: { email, name: name ?? "", role, cohortId: cohortId ?? "" } }, { status: 400 });
   }
@@ -87,15 +99,28 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
         <h2 id="roster-title" className="mb-3 text-lg font-medium">
           {members.length} {members.length === 1 ? "member" : "members"}
         </h2>
-        <div role="region" aria-label="Members of the course" tabIndex={0} className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700">
+        <div
+          role="region"
+          aria-label="Members of the course"
+          tabIndex={0}
+          className="overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700"
+        >
           <table className="w-full text-left text-sm">
             <caption className="sr-only">Members of the course</caption>
             <thead className="bg-paper-100 text-ink-700">
               <tr>
-                <th scope="col" className="px-3 py-2 font-medium">Name</th>
-                <th scope="col" className="px-3 py-2 font-medium">E-mail</th>
-                <th scope="col" className="px-3 py-2 font-medium">Role</th>
-                <th scope="col" className="px-3 py-2 font-medium">Cohort</th>
+                <th scope="col" className="px-3 py-2 font-medium">
+                  Name
+                </th>
+                <th scope="col" className="px-3 py-2 font-medium">
+                  E-mail
+                </th>
+                <th scope="col" className="px-3 py-2 font-medium">
+                  Role
+                </th>
+                <th scope="col" className="px-3 py-2 font-medium">
+                  Cohort
+                </th>
               </tr>
             </thead>
             <tbody className="divide-y divide-ink-900/10">
@@ -108,7 +133,9 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
                   </td>
                   <td className="px-3 py-2 whitespace-nowrap">{member.email}</td>
                   <td className="px-3 py-2">{roleWords[member.role]}</td>
-                  <td className="px-3 py-2">{member.role === "ta" ? member.taCohortNames.join(", ") || "none assigned" : (member.cohortName ?? "—")}</td>
+                  <td className="px-3 py-2">
+                    {member.role === "ta" ? member.taCohortNames.join(", ") || "none assigned" : (member.cohortName ?? "—")}
+                  </td>
                 </tr>
               ))}
             </tbody>
@@ -126,7 +153,8 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
               <li key={invitation.id} className="px-3 py-2 text-sm">
                 {invitation.name ? `${invitation.name} · ` : ""}
                 {invitation.email} · {roleWords[invitation.role]}
-                {invitation.cohortName ? ` · ${invitation.cohortName}` : ""} · until {new Date(invitation.expiresAt).toISOString().slice(0, 10)}
+                {invitation.cohortName ? ` · ${invitation.cohortName}` : ""} · until{" "}
+                {new Date(invitation.expiresAt).toISOString().slice(0, 10)}
               </li>
             ))}
           </ul>

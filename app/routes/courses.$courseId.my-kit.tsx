@@ -49,11 +49,25 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const partIds = kit.parts.map(({ part }) => part.id);
   try {
     if (input.intent === "arrived") {
-      await confirmArrival(db, { courseId: access.course.id, actorId: access.user.id, kitId: kit.id, complete: input.complete === "yes", note: input.note });
+      await confirmArrival(db, {
+        courseId: access.course.id,
+        actorId: access.user.id,
+        kitId: kit.id,
+        complete: input.complete === "yes",
+        note: input.note,
+      });
       return { intent: input.intent, saved: "Thank you: your kit is marked as at home." };
     }
-    if (input.partId && !partIds.includes(input.partId)) return formFailure(values, { partId: ["That part is not in your kit."] }, { intent: input.intent });
-    await reportKitProblem(db, { courseId: access.course.id, kitId: kit.id, actorId: access.user.id, partId: input.partId, problem: input.problem, note: input.note });
+    if (input.partId && !partIds.includes(input.partId))
+      return formFailure(values, { partId: ["That part is not in your kit."] }, { intent: input.intent });
+    await reportKitProblem(db, {
+      courseId: access.course.id,
+      kitId: kit.id,
+      actorId: access.user.id,
+      partId: input.partId,
+      problem: input.problem,
+      note: input.note,
+    });
     return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
   } catch (error) {
     if (!(error instanceof AppError)) throw error;
@@ -80,7 +94,11 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
     <div className="flex flex-col gap-6">
       <PageHeader title={`My kit: ${kit.number}`}>
         <KitStateBadge state={kit.state} />
-        {kit.trackingNumber ? <span className="ml-2 text-sm">Sent {kit.shippedOn} with {kit.carrier}, tracking number {kit.trackingNumber}</span> : null}
+        {kit.trackingNumber ? (
+          <span className="ml-2 text-sm">
+            Sent {kit.shippedOn} with {kit.carrier}, tracking number {kit.trackingNumber}
+          </span>
+        ) : null}
       </PageHeader>
       {actionData && "saved" in actionData ? <Notice tone="success">{actionData.saved}</Notice> : null}
       {failure?.errors.form ? <Notice tone="error">{failure.errors.form.join(" ")}</Notice> : null}
@@ -136,11 +154,23 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
               </option>
             ))}
           </SelectField>
-          <SelectField label="What happened" name="problem" defaultValue={failure?.values.problem ?? "damaged"} error={failure?.errors.problem}>
+          <SelectField
+            label="What happened"
+            name="problem"
+            defaultValue={failure?.values.problem ?? "damaged"}
+            error={failure?.errors.problem}
+          >
             <option value="damaged">It is damaged</option>
             <option value="missing">It is missing</option>
           </SelectField>
-          <TextAreaField label="Describe it" name="note" rows={3} required defaultValue={failure?.values.note ?? ""} error={failure?.errors.note} />
+          <TextAreaField
+            label="Describe it"
+            name="note"
+            rows={3}
+            required
+            defaultValue={failure?.values.note ?? ""}
+            error={failure?.errors.note}
+          />
           <Button type="submit" variant="secondary">
             Send the report
           </Button>

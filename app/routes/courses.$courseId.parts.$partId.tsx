@@ -25,7 +25,12 @@ import { listPartBias, partBiasFor } from "~/server/comparison/part-quality.serv
 import { getPartPage, setPartStatus, updatePart, type KitMention } from "~/server/kits/parts.server";
 import { listRereductions, type RereductionProgress } from "~/server/kits/rereduce.server";
 
-const note = z.string().trim().max(500, "Keep the note under 500 characters.").optional().transform((value) => value || null);
+const note = z
+  .string()
+  .trim()
+  .max(500, "Keep the note under 500 characters.")
+  .optional()
+  .transform((value) => value || null);
 const statusChange = z.object({ intent: z.literal("status"), status: z.enum(["in_service", "remeasure", "retired"]), note });
 const remeasure = z.object({ intent: z.literal("remeasure"), note });
 
@@ -48,7 +53,14 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   ]);
   if (!page) throw data("Not found", { status: 404 });
   const report = bias.get(partId);
-  return { ...page, bias: report ? partBiasFor(access, report) : null, rereductions, courseId: access.course.id, timeZone: access.course.timeZone, mayEdit: access.membership.role === "instructor" };
+  return {
+    ...page,
+    bias: report ? partBiasFor(access, report) : null,
+    rereductions,
+    courseId: access.course.id,
+    timeZone: access.course.timeZone,
+    mayEdit: access.membership.role === "instructor",
+  };
 }
 
 export async function action({ request, context, params }: Route.ActionArgs) {
@@ -61,7 +73,8 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   if (form.get("intent") === "status") {
     const parsed = statusChange.safeParse(formValues(form));
     if (!parsed.success) return data({ intent: "status" as const, errors: fieldErrors(parsed.error) }, { status: 400 });
-    if (!(await setPartStatus(db, { ...scope, status: parsed.data.status, note: parsed.data.note }))) throw data("Not found", { status: 404 });
+    if (!(await setPartStatus(db, { ...scope, status: parsed.data.status, note: parsed.data.note })))
+      throw data("Not found", { status: 404 });
     return redirect(`${partPath}?saved=status`);
   }
 
@@ -69,7 +82,8 @@ export async function action({ request, context, params }: Route.ActionArgs) {
     data({ intent: "remeasure" as const, errors, values: formValues(form), calibration: calibrationRows(form) }, { status: 400 });
   const parsed = remeasure.safeParse(formValues(form));
   const input = partInput.safeParse(partFormCandidate(form));
-  if (!parsed.success || !input.success) return failure({ ...(parsed.error ? fieldErrors(parsed.error) : {}), ...(input.error ? fieldErrors(input.error) : {}) });
+  if (!parsed.success || !input.success)
+    return failure({ ...(parsed.error ? fieldErrors(parsed.error) : {}), ...(input.error ? fieldErrors(input.error) : {}) });
   try {
     if (!(await updatePart(db, { ...scope, input: input.data, note: parsed.data.note }))) throw data("Not found", { status: 404 });
   } catch (error) {
@@ -149,11 +163,7 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
       {calibration ? <CalibrationSection calibration={calibration} label={part.label} /> : null}
 
       {mayEdit ? (
-        <RemeasureForm
-          kind={part.kind}
-          defaults={part}
-          failure={actionData?.intent === "remeasure" ? actionData : undefined}
-        />
+        <RemeasureForm kind={part.kind} defaults={part} failure={actionData?.intent === "remeasure" ? actionData : undefined} />
       ) : null}
 
       <History events={part.events} courseId={courseId} timeZone={timeZone} />
@@ -195,7 +205,14 @@ function StatusActions({ status, failed }: { status: keyof typeof partStatusLabe
         {actions
           .filter((action) => action.show)
           .map((action) => (
-            <Button key={action.to} type="submit" name="status" value={action.to} variant={action.to === "retired" ? "danger" : "secondary"} disabled={navigation.state === "submitting"}>
+            <Button
+              key={action.to}
+              type="submit"
+              name="status"
+              value={action.to}
+              variant={action.to === "retired" ? "danger" : "secondary"}
+              disabled={navigation.state === "submitting"}
+            >
               {action.label}
             </Button>
           ))}
@@ -222,9 +239,9 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
       <p className="text-sm text-ink-700">
         {fit.kind === "andrade" ? (
           <>
-            Andrade fit ln(μ / Pa·s) = A + B/T with T in kelvin, by least squares over {fit.pointCount} points from {fit.temperatureRange[0]} to{" "}
-            {fit.temperatureRange[1]} °C: A = {formatNumber(fit.a, 5)}, B = {formatNumber(fit.b, 5)} K. The largest residual is{" "}
-            {formatNumber(fit.maxRelativeResidual * 100, 2)} %.
+            Andrade fit ln(μ / Pa·s) = A + B/T with T in kelvin, by least squares over {fit.pointCount} points from{" "}
+            {fit.temperatureRange[0]} to {fit.temperatureRange[1]} °C: A = {formatNumber(fit.a, 5)}, B = {formatNumber(fit.b, 5)} K. The
+            largest residual is {formatNumber(fit.maxRelativeResidual * 100, 2)} %.
           </>
         ) : (
           <>A constant viscosity of {formatNumber(Math.exp(fit.a))} Pa·s.</>
@@ -237,8 +254,12 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
           <caption className="mb-1 text-left font-medium">Fitted viscosity at room temperatures</caption>
           <thead>
             <tr className="text-left text-ink-600">
-              <th scope="col" className="pr-6">Temperature (°C)</th>
-              <th scope="col" className="pr-6">μ (Pa·s)</th>
+              <th scope="col" className="pr-6">
+                Temperature (°C)
+              </th>
+              <th scope="col" className="pr-6">
+                μ (Pa·s)
+              </th>
               <th scope="col" />
             </tr>
           </thead>
@@ -262,23 +283,37 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
       {glycerolMassFraction !== null ? (
         <p className="text-sm text-ink-700">
           Declared a glycerol–water mix with a glycerol mass fraction of {glycerolMassFraction}: each point is compared with the handbook
-          correlation of Cheng (2008) for 0–100 °C. The tolerance combines the correlation's own spread
-          with half a per cent of glycerol and half a kelvin, so it is wider for strong mixes.
+          correlation of Cheng (2008) for 0–100 °C. The tolerance combines the correlation's own spread with half a per cent of glycerol and
+          half a kelvin, so it is wider for strong mixes.
         </p>
       ) : null}
       <div className="overflow-x-auto">
         <table className="text-sm">
-          <caption className="mb-1 text-left font-medium">{glycerolMassFraction !== null ? "Calibration points, residuals and handbook values" : "Calibration points and residuals"}</caption>
+          <caption className="mb-1 text-left font-medium">
+            {glycerolMassFraction !== null ? "Calibration points, residuals and handbook values" : "Calibration points and residuals"}
+          </caption>
           <thead>
             <tr className="text-left text-ink-600">
-              <th scope="col" className="pr-6">Temperature (°C)</th>
-              <th scope="col" className="pr-6">Measured μ (Pa·s)</th>
-              <th scope="col" className="pr-6">Fitted μ (Pa·s)</th>
-              <th scope="col" className="pr-6">Residual (%)</th>
+              <th scope="col" className="pr-6">
+                Temperature (°C)
+              </th>
+              <th scope="col" className="pr-6">
+                Measured μ (Pa·s)
+              </th>
+              <th scope="col" className="pr-6">
+                Fitted μ (Pa·s)
+              </th>
+              <th scope="col" className="pr-6">
+                Residual (%)
+              </th>
               {glycerolMassFraction !== null ? (
                 <>
-                  <th scope="col" className="pr-6">Handbook μ (Pa·s)</th>
-                  <th scope="col" className="pr-6">Measured vs handbook (%)</th>
+                  <th scope="col" className="pr-6">
+                    Handbook μ (Pa·s)
+                  </th>
+                  <th scope="col" className="pr-6">
+                    Measured vs handbook (%)
+                  </th>
                 </>
               ) : null}
               <th scope="col">Check</th>
@@ -295,12 +330,16 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
                   <>
                     <td className="pr-6">{formatNumber(point.handbookPaS)}</td>
                     <td className="pr-6">
-                      {"differencePercent" in point.finding ? `${formatNumber(point.finding.differencePercent, 2)} (±${formatNumber(point.finding.tolerancePercent, 2)})` : "—"}
+                      {"differencePercent" in point.finding
+                        ? `${formatNumber(point.finding.differencePercent, 2)} (±${formatNumber(point.finding.tolerancePercent, 2)})`
+                        : "—"}
                     </td>
                   </>
                 ) : null}
                 <td>
-                  {point.finding.kind === "not-compared" && glycerolMassFraction !== null ? "outside the handbook's 0–100 °C" : calibrationFindingWords[point.finding.kind]}
+                  {point.finding.kind === "not-compared" && glycerolMassFraction !== null
+                    ? "outside the handbook's 0–100 °C"
+                    : calibrationFindingWords[point.finding.kind]}
                 </td>
               </tr>
             ))}
@@ -320,12 +359,21 @@ function RemeasureForm({
 }: {
   kind: PartKind;
   defaults: StoredPart;
-  failure?: { errors: Record<string, string[] | undefined>; values: Record<string, string>; calibration: { temperatureC: string; viscosityPaS: string }[] };
+  failure?: {
+    errors: Record<string, string[] | undefined>;
+    values: Record<string, string>;
+    calibration: { temperatureC: string; viscosityPaS: string }[];
+  };
 }) {
   const navigation = useNavigation();
-  const stored = Object.fromEntries(Object.entries(defaults).map(([field, value]) => [field, value === null || typeof value === "object" ? "" : String(value)]));
+  const stored = Object.fromEntries(
+    Object.entries(defaults).map(([field, value]) => [field, value === null || typeof value === "object" ? "" : String(value)]),
+  );
   const storedCalibration = [
-    ...(defaults.calibration ?? []).map((point) => ({ temperatureC: String(point.temperatureC), viscosityPaS: String(point.viscosityPaS) })),
+    ...(defaults.calibration ?? []).map((point) => ({
+      temperatureC: String(point.temperatureC),
+      viscosityPaS: String(point.viscosityPaS),
+    })),
     ...Array.from({ length: spareCalibrationRows }, () => ({ temperatureC: "", viscosityPaS: "" })),
   ];
   return (
@@ -337,8 +385,20 @@ function RemeasureForm({
         <Form method="post" className="mt-4 flex flex-col gap-4">
           <input type="hidden" name="intent" value="remeasure" />
           {failure?.errors.form ? <Notice tone="error">{failure.errors.form.join(" ")}</Notice> : null}
-          <PartFields kind={kind} values={failure?.values ?? stored} calibration={failure?.calibration ?? storedCalibration} errors={failure?.errors ?? {}} />
-          <TextAreaField label="What was re-measured, and why (kept in the history)" name="note" rows={2} maxLength={500} defaultValue={failure?.values.note ?? ""} error={failure?.errors.note} />
+          <PartFields
+            kind={kind}
+            values={failure?.values ?? stored}
+            calibration={failure?.calibration ?? storedCalibration}
+            errors={failure?.errors ?? {}}
+          />
+          <TextAreaField
+            label="What was re-measured, and why (kept in the history)"
+            name="note"
+            rows={2}
+            maxLength={500}
+            defaultValue={failure?.values.note ?? ""}
+            error={failure?.errors.note}
+          />
           <Button type="submit" className="self-start" disabled={navigation.state === "submitting"}>
             Save the new measurements
           </Button>

@@ -79,9 +79,7 @@ export default function PartsList({ loaderData }: Route.ComponentProps) {
           <>
             {mayEdit ? (
               <>
-                <ButtonLink to={`${base}/parts/new`}>
-                  Add a part
-                </ButtonLink>
+                <ButtonLink to={`${base}/parts/new`}>Add a part</ButtonLink>
                 <Link to={`${base}/parts/import`} className="rounded-md bg-white px-4 py-2 text-sm font-medium ring-1 ring-ink-900/20">
                   Import parts (CSV)
                 </Link>
@@ -124,7 +122,13 @@ export default function PartsList({ loaderData }: Route.ComponentProps) {
           Show
         </Button>
       </Form>
-      <DataTable caption="Parts of this course" columns={columns} rows={rows} pageInfo={pageInfo} empty="No parts match. Add one, or import a CSV file." />
+      <DataTable
+        caption="Parts of this course"
+        columns={columns}
+        rows={rows}
+        pageInfo={pageInfo}
+        empty="No parts match. Add one, or import a CSV file."
+      />
     </div>
   );
 }

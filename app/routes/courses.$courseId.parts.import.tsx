@@ -36,7 +36,12 @@ const importCommit = z.object({
         return z.NEVER;
       }
     })
-    .pipe(z.array(z.record(z.string(), z.string())).min(1, "The file has no parts in it.").max(maxImportRows, `Import at most ${maxImportRows} parts at a time.`)),
+    .pipe(
+      z
+        .array(z.record(z.string(), z.string()))
+        .min(1, "The file has no parts in it.")
+        .max(maxImportRows, `Import at most ${maxImportRows} parts at a time.`),
+    ),
 });
 
 /** How many rows the preview table shows; the counts above it cover every row. */
@@ -73,7 +78,8 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
   }, [actionData]);
   const checks = useMemo(() => (parsed ? checkImportRows(parsed.rows, existingLabels) : []), [parsed, existingLabels]);
   const fileProblems = parsed ? checkImportHeaders(parsed.headers) : [];
-  if (parsed && parsed.rows.length > maxImportRows) fileProblems.push(`The file has ${parsed.rows.length} rows; import at most ${maxImportRows} at a time.`);
+  if (parsed && parsed.rows.length > maxImportRows)
+    fileProblems.push(`The file has ${parsed.rows.length} rows; import at most ${maxImportRows} at a time.`);
   const rejected = checks.filter((check) => check.problems.length > 0);
   const ready = parsed !== null && checks.length > 0 && rejected.length === 0 && fileProblems.length === 0;
 
@@ -119,7 +125,9 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
       {actionData && "ok" in actionData ? (
         <Notice tone="success">
           {actionData.created} parts imported.{" "}
-          {actionData.warnings.length ? `${actionData.warnings.length} of them raise checks (${actionData.warnings.map((w) => w.label).join(", ")}); open them to see why.` : null}{" "}
+          {actionData.warnings.length
+            ? `${actionData.warnings.length} of them raise checks (${actionData.warnings.map((w) => w.label).join(", ")}); open them to see why.`
+            : null}{" "}
           <Link to={base} className="underline">
             Back to the parts
           </Link>
@@ -127,7 +135,9 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
       ) : null}
       {actionData && "status" in actionData ? (
         <Notice tone="error">
-          {Object.values(actionData.error ?? {}).flat().join(" ")}
+          {Object.values(actionData.error ?? {})
+            .flat()
+            .join(" ")}
           {"rejected" in actionData ? <ProblemList checks={actionData.rejected as ImportRowCheck[]} /> : null}
         </Notice>
       ) : null}
@@ -137,10 +147,10 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
           Columns
         </h2>
         <p>
-          <code className="break-words">{partCsvColumns.join(",")}</code>. Units are in the names (mm, g, kg/m³); <code>calibration</code> holds
-          temperature °C : viscosity Pa·s pairs, e.g. <code>20:0.545;25:0.38</code>; <code>glycerol_mass_fraction</code> (0–1, only for a
-          glycerol–water mix) has the calibration checked against handbook values. Fill only the columns of the row's kind. At most {maxImportRows}{" "}
-          parts per file.{" "}
+          <code className="break-words">{partCsvColumns.join(",")}</code>. Units are in the names (mm, g, kg/m³); <code>calibration</code>{" "}
+          holds temperature °C : viscosity Pa·s pairs, e.g. <code>20:0.545;25:0.38</code>; <code>glycerol_mass_fraction</code> (0–1, only
+          for a glycerol–water mix) has the calibration checked against handbook values. Fill only the columns of the row's kind. At most{" "}
+          {maxImportRows} parts per file.{" "}
           <a href={`${base}/template.csv`} className="font-medium underline" download>
             Download the template
           </a>
@@ -209,7 +219,9 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
             <Button type="submit" disabled={!ready || navigation.state === "submitting"}>
               Import {checks.length} parts
             </Button>
-            {!ready ? <span className="text-sm text-ink-700">Correct the file and choose it again; the problems are listed row by row.</span> : null}
+            {!ready ? (
+              <span className="text-sm text-ink-700">Correct the file and choose it again; the problems are listed row by row.</span>
+            ) : null}
           </Form>
         </section>
       ) : null}
@@ -227,15 +239,28 @@ function PreviewTable({ checks }: { checks: ImportRowCheck[] }) {
   // Rows with problems first: they are what the instructor has to act on.
   const ordered = [...checks.filter((check) => check.problems.length), ...checks.filter((check) => !check.problems.length)];
   return (
-    <div role="region" aria-label="Every row of the file with its problems" tabIndex={0} className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700">
+    <div
+      role="region"
+      aria-label="Every row of the file with its problems"
+      tabIndex={0}
+      className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700"
+    >
       <table className="min-w-full text-left text-sm">
         <caption className="sr-only">Every row of the file with its problems</caption>
         <thead className="bg-paper-100 text-xs uppercase tracking-wide text-ink-700">
           <tr>
-            <th scope="col" className="px-3 py-2">Line</th>
-            <th scope="col" className="px-3 py-2">Label</th>
-            <th scope="col" className="px-3 py-2">Kind</th>
-            <th scope="col" className="px-3 py-2">Check</th>
+            <th scope="col" className="px-3 py-2">
+              Line
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Label
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Kind
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Check
+            </th>
           </tr>
         </thead>
         <tbody className="divide-y divide-ink-900/5">
@@ -259,7 +284,9 @@ function PreviewTable({ checks }: { checks: ImportRowCheck[] }) {
           ))}
         </tbody>
       </table>
-      {ordered.length > previewLimit ? <p className="px-3 py-2 text-sm text-ink-700">The first {previewLimit} rows are shown, those with problems first.</p> : null}
+      {ordered.length > previewLimit ? (
+        <p className="px-3 py-2 text-sm text-ink-700">The first {previewLimit} rows are shown, those with problems first.</p>
+      ) : null}
     </div>
   );
 }

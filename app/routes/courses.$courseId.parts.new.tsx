@@ -51,13 +51,21 @@ export default function NewPart({ loaderData, actionData }: Route.ComponentProps
   return (
     <div className="flex max-w-2xl flex-col gap-6">
       <PageHeader title={kind ? `Add a ${partKindLabels[kind].toLowerCase()}` : "Add a part"} trail={[{ to: base, label: "Parts" }]}>
-        Measurements in the units shown beside each box. Benchpost checks them against the material and the rest of the inventory once saved.
+        Measurements in the units shown beside each box. Benchpost checks them against the material and the rest of the inventory once
+        saved.
       </PageHeader>
       <Form method="get" className="flex flex-wrap items-end gap-3">
         <fieldset className="flex flex-wrap gap-2">
           <legend className="mb-1 text-sm font-medium">What kind of part?</legend>
           {chosenKind.options.map((option) => (
-            <Button key={option} type="submit" name="kind" value={option} variant={option === kind ? "primary" : "secondary"} aria-pressed={option === kind}>
+            <Button
+              key={option}
+              type="submit"
+              name="kind"
+              value={option}
+              variant={option === kind ? "primary" : "secondary"}
+              aria-pressed={option === kind}
+            >
               {partKindLabels[option]}
             </Button>
           ))}
@@ -69,7 +77,9 @@ export default function NewPart({ loaderData, actionData }: Route.ComponentProps
           <PartFields
             kind={kind}
             values={actionData?.values ?? {}}
-            calibration={actionData?.calibration ?? Array.from({ length: blankCalibrationRows }, () => ({ temperatureC: "", viscosityPaS: "" }))}
+            calibration={
+              actionData?.calibration ?? Array.from({ length: blankCalibrationRows }, () => ({ temperatureC: "", viscosityPaS: "" }))
+            }
             errors={actionData?.errors ?? {}}
           />
           <div className="flex gap-3">

@@ -40,7 +40,11 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   });
   if (!result.ok) {
     return data(
-      { ok: false as const, message: `Nothing was imported: ${result.problems.length} rows have problems (the course changed since the preview?).`, problems: result.problems },
+      {
+        ok: false as const,
+        message: `Nothing was imported: ${result.problems.length} rows have problems (the course changed since the preview?).`,
+        problems: result.problems,
+      },
       { status: 400 },
     );
   }
@@ -79,7 +83,10 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
   const [progress, setProgress] = useState<number | null>(null);
   const [parsed, setParsed] = useState<Parsed | null>(null);
   const [pasted, setPasted] = useState("");
-  const checks = useMemo(() => (parsed ? checkRosterRows(parsed.rows, { cohortNames, memberEmails }) : []), [parsed, cohortNames, memberEmails]);
+  const checks = useMemo(
+    () => (parsed ? checkRosterRows(parsed.rows, { cohortNames, memberEmails }) : []),
+    [parsed, cohortNames, memberEmails],
+  );
   const withProblems = checks.filter((check) => check.problems.length > 0);
 
   async function read(source: File | string) {
@@ -99,9 +106,9 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
           </a>
         }
       >
-        Columns: <code>email</code>, <code>name</code>, <code>cohort</code> (one of: {cohortNames.join(", ") || "no cohorts yet — add them in Settings"}),{" "}
-        <code>role</code> (student or ta; empty means student). Nothing is written until you confirm the preview; everyone in the file
-        then gets an invitation by e-mail.
+        Columns: <code>email</code>, <code>name</code>, <code>cohort</code> (one of:{" "}
+        {cohortNames.join(", ") || "no cohorts yet — add them in Settings"}), <code>role</code> (student or ta; empty means student).
+        Nothing is written until you confirm the preview; everyone in the file then gets an invitation by e-mail.
       </PageHeader>
 
       <div className="grid gap-4 md:grid-cols-2">
@@ -120,7 +127,12 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
           />
         </div>
         <div className="flex flex-col gap-2">
-          <TextAreaField label="…or paste the rows, header first" rows={4} value={pasted} onChange={(event) => setPasted(event.currentTarget.value)} />
+          <TextAreaField
+            label="…or paste the rows, header first"
+            rows={4}
+            value={pasted}
+            onChange={(event) => setPasted(event.currentTarget.value)}
+          />
           <Button type="button" variant="secondary" disabled={!pasted.trim()} onClick={() => void read(pasted)}>
             Preview the pasted rows
           </Button>
@@ -144,8 +156,8 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
       ) : null}
       {result && result.ok && result.duplicate ? (
         <Notice tone="info">
-          Already imported on <LabTime at={result.committedAt} courseTimeZone={timeZone} /> ({result.rowCount} rows): no invitations were sent
-          again.
+          Already imported on <LabTime at={result.committedAt} courseTimeZone={timeZone} /> ({result.rowCount} rows): no invitations were
+          sent again.
         </Notice>
       ) : null}
       {result && !result.ok ? <Notice tone="error">{result.message}</Notice> : null}
@@ -179,17 +191,34 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
 function PreviewTable({ checks }: { checks: ReturnType<typeof checkRosterRows> }) {
   const shown = checks.slice(0, 500);
   return (
-    <div role="region" aria-label="Roster preview" tabIndex={0} className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700">
+    <div
+      role="region"
+      aria-label="Roster preview"
+      tabIndex={0}
+      className="overflow-x-auto rounded-lg bg-white ring-1 ring-ink-900/10 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-ink-700"
+    >
       <table className="min-w-full text-left text-sm">
         <caption className="sr-only">Roster preview</caption>
         <thead className="bg-paper-100 text-xs uppercase text-ink-700">
           <tr>
-            <th scope="col" className="px-3 py-2">Line</th>
-            <th scope="col" className="px-3 py-2">E-mail</th>
-            <th scope="col" className="px-3 py-2">Name</th>
-            <th scope="col" className="px-3 py-2">Cohort</th>
-            <th scope="col" className="px-3 py-2">Role</th>
-            <th scope="col" className="px-3 py-2">Problems</th>
+            <th scope="col" className="px-3 py-2">
+              Line
+            </th>
+            <th scope="col" className="px-3 py-2">
+              E-mail
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Name
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Cohort
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Role
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Problems
+            </th>
           </tr>
         </thead>
         <tbody className="divide-y divide-ink-900/5">
@@ -205,7 +234,9 @@ function PreviewTable({ checks }: { checks: ReturnType<typeof checkRosterRows> }
           ))}
         </tbody>
       </table>
-      {checks.length > shown.length ? <p className="px-3 py-2 text-sm text-ink-600">…and {checks.length - shown.length} more rows.</p> : null}
+      {checks.length > shown.length ? (
+        <p className="px-3 py-2 text-sm text-ink-600">…and {checks.length - shown.length} more rows.</p>
+      ) : null}
     </div>
   );
 }

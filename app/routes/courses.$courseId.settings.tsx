@@ -52,7 +52,11 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
   const [courseForm, courseFields] = useForm({
     id: "course",
     lastResult: replyFor(actionData, "course"),
-    defaultValue: { ...courseValues, localGravity: course.localGravity === null ? "" : String(course.localGravity), partBiasAlpha: String(course.partBiasAlpha) },
+    defaultValue: {
+      ...courseValues,
+      localGravity: course.localGravity === null ? "" : String(course.localGravity),
+      partBiasAlpha: String(course.partBiasAlpha),
+    },
     shouldValidate: "onBlur",
     onValidate: ({ formData }) => parseSubmission(formData, settingsIntent),
   });
@@ -61,9 +65,7 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
   return (
     <div className="flex flex-col gap-10">
       <PageHeader title="Course settings" />
-      {search.get("created") ? (
-        <Notice tone="success">The course is open. Add its cohorts below, then import the roster.</Notice>
-      ) : null}
+      {search.get("created") ? <Notice tone="success">The course is open. Add its cohorts below, then import the roster.</Notice> : null}
       {actionData && "saved" in actionData ? <Notice tone="success">Saved.</Notice> : null}
 
       <section aria-labelledby="course-heading" className="max-w-xl">
@@ -130,7 +132,13 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
                   <legend className="sr-only">Cohorts {ta.name} marks</legend>
                   {cohorts.map((cohort) => (
                     <label key={cohort.id} className="flex items-center gap-1.5 py-1 text-sm">
-                      <input type="checkbox" className="size-5 shrink-0" name="cohortIds" value={cohort.id} defaultChecked={ta.cohortIds.includes(cohort.id)} />
+                      <input
+                        type="checkbox"
+                        className="size-5 shrink-0"
+                        name="cohortIds"
+                        value={cohort.id}
+                        defaultChecked={ta.cohortIds.includes(cohort.id)}
+                      />
                       {cohort.name}
                     </label>
                   ))}

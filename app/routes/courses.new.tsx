@@ -42,7 +42,11 @@ export default function NewCourse({ loaderData, actionData }: Route.ComponentPro
   return (
     <div className="max-w-xl">
       <PageHeader title="Open a new course" trail={[{ to: "/", label: "Overview" }]} />
-      {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : actionData ? <Notice tone="error">Some fields need another look.</Notice> : null}
+      {form.errors?.length ? (
+        <Notice tone="error">{form.errors.join(" ")}</Notice>
+      ) : actionData ? (
+        <Notice tone="error">Some fields need another look.</Notice>
+      ) : null}
       <Form method="post" className="mt-4 flex flex-col gap-4" {...getFormProps(form)}>
         <CourseFields fields={fields} timeZones={loaderData.timeZones} />
         <Button type="submit" disabled={navigation.state === "submitting"}>

@@ -48,7 +48,14 @@ export default function DevInbox() {
               <label className="sr-only" htmlFor="inbox-filter">
                 Recipient
               </label>
-              <input id="inbox-filter" name="to" type="search" defaultValue={filter} placeholder="recipient@example.org" className="min-w-0 flex-1 rounded border border-paper-300 bg-white px-2 py-1 text-sm" />
+              <input
+                id="inbox-filter"
+                name="to"
+                type="search"
+                defaultValue={filter}
+                placeholder="recipient@example.org"
+                className="min-w-0 flex-1 rounded border border-paper-300 bg-white px-2 py-1 text-sm"
+              />
               <button type="submit" className="rounded bg-ink-800 px-3 py-1 text-sm text-paper-50">
                 Filter
               </button>
@@ -57,7 +64,11 @@ export default function DevInbox() {
             <ul className="mt-2 divide-y divide-paper-200 rounded border border-paper-200 bg-paper-50">
               {emails.map((email) => (
                 <li key={email.id}>
-                  <Link to={`?message=${email.id}`} className="block px-3 py-2 text-sm hover:bg-paper-100" aria-current={shown?.kind === "message" && shown.email.id === email.id ? "page" : undefined}>
+                  <Link
+                    to={`?message=${email.id}`}
+                    className="block px-3 py-2 text-sm hover:bg-paper-100"
+                    aria-current={shown?.kind === "message" && shown.email.id === email.id ? "page" : undefined}
+                  >
                     <span className="block font-medium">{email.subject || "(no subject)"}</span>
                     <span className="block text-ink-600">
                       {email.toAddresses.join(", ")} · {formatDateTime(email.receivedAt, "UTC", "seconds")} UTC
@@ -113,9 +124,20 @@ function ShownMessage({ shown }: { shown: Shown }) {
       ) : null}
       <h3 className="font-medium">HTML</h3>
       {/* An empty sandbox: the message's own scripts and forms cannot run against this origin. */}
-      {html ? <iframe title={`HTML of “${subject}”`} sandbox="" srcDoc={html} className="h-[36rem] w-full rounded border border-paper-300 bg-white" /> : <p className="text-sm">No HTML part.</p>}
+      {html ? (
+        <iframe
+          title={`HTML of “${subject}”`}
+          sandbox=""
+          srcDoc={html}
+          className="h-[36rem] w-full rounded border border-paper-300 bg-white"
+        />
+      ) : (
+        <p className="text-sm">No HTML part.</p>
+      )}
       <h3 className="font-medium">Plain text</h3>
-      <pre className="overflow-x-auto rounded border border-paper-300 bg-paper-50 p-3 text-sm whitespace-pre-wrap">{text ?? "No text part."}</pre>
+      <pre className="overflow-x-auto rounded border border-paper-300 bg-paper-50 p-3 text-sm whitespace-pre-wrap">
+        {text ?? "No text part."}
+      </pre>
     </article>
   );
 }

@@ -17,7 +17,10 @@ export async function action({ request }: Route.ActionArgs) {
   const result = await requestEmailLink("password_reset", form.data.email, request);
   if (result.outcome === "limited") {
     return data(
-      { formError: `Too many reset links were asked for. Try again in ${describeWait(result.retryAfterSeconds)}.`, values: { email: form.data.email } },
+      {
+        formError: `Too many reset links were asked for. Try again in ${describeWait(result.retryAfterSeconds)}.`,
+        values: { email: form.data.email },
+      },
       { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
     );
   }
@@ -35,7 +38,9 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
         We e-mail you a link to choose a new password. It works once, within an hour.
       </PageHeader>
       {actionData && "sentTo" in actionData ? (
-        <Notice tone="success">If {actionData.sentTo} belongs to a Benchpost account, a reset link is on its way. Check your inbox (and spam folder).</Notice>
+        <Notice tone="success">
+          If {actionData.sentTo} belongs to a Benchpost account, a reset link is on its way. Check your inbox (and spam folder).
+        </Notice>
       ) : (
         <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
           {actionData && "formError" in actionData ? <Notice tone="error">{actionData.formError}</Notice> : null}

@@ -3,7 +3,6 @@ import { ButtonLink } from "~/components/ui/button";
 import { Link, useRouteLoaderData } from "react-router";
 import type { loader as rootLoader } from "~/root";
 
-
 export default function Home() {
   const viewer = useRouteLoaderData<typeof rootLoader>("root")?.viewer ?? null;
   if (!viewer) return <Welcome />;
@@ -13,11 +12,7 @@ export default function Home() {
         <h1 id="courses-title" className="text-2xl font-semibold">
           Your courses
         </h1>
-        {viewer.mayCreateCourses ? (
-          <ButtonLink to="/courses/new">
-            Open a new course
-          </ButtonLink>
-        ) : null}
+        {viewer.mayCreateCourses ? <ButtonLink to="/courses/new">Open a new course</ButtonLink> : null}
       </div>
       {viewer.courses.length === 0 ? (
         <p className="mt-4 text-ink-700">You do not belong to any course yet. Your instructor's invitation adds you to one.</p>
@@ -25,7 +20,10 @@ export default function Home() {
         <ul className="mt-4 grid gap-3 sm:grid-cols-2">
           {viewer.courses.map((course) => (
             <li key={course.id}>
-              <Link to={`/courses/${course.id}`} className="block rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 hover:ring-ink-500">
+              <Link
+                to={`/courses/${course.id}`}
+                className="block rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 hover:ring-ink-500"
+              >
                 <span className="text-sm text-ink-600">{course.code}</span>
                 <span className="mt-1 block font-medium">{course.title}</span>
                 <span className="mt-2 inline-block rounded bg-paper-100 px-2 py-0.5 text-xs">{roleWords[course.role]}</span>
@@ -45,9 +43,9 @@ function Welcome() {
         Lab courses done at home, run from one place
       </h1>
       <p className="mt-4 text-lg text-ink-700">
-        Instructors post measured kits to their students and publish labs. Students time repeated drops of a sphere
-        through a fluid and hand in their drop logs from home. Benchpost recomputes every result on the server, compares
-        each hand-in with the rest of the class, and lets teaching assistants mark them in bulk.
+        Instructors post measured kits to their students and publish labs. Students time repeated drops of a sphere through a fluid and hand
+        in their drop logs from home. Benchpost recomputes every result on the server, compares each hand-in with the rest of the class, and
+        lets teaching assistants mark them in bulk.
       </p>
       <p className="mt-8">
         <Link to="/sign-in" className="rounded bg-ink-800 px-5 py-2.5 text-paper-50">

@@ -19,22 +19,34 @@ const acceptInvitationSchema = z
     password: z.union([z.literal(""), newPasswordField]).optional(),
     confirmPassword: z.string().optional(),
   })
-  .refine((form) => !form.password || form.password === form.confirmPassword, { path: ["confirmPassword"], message: "The two passwords are not the same." });
+  .refine((form) => !form.password || form.password === form.confirmPassword, {
+    path: ["confirmPassword"],
+    message: "The two passwords are not the same.",
+  });
 
 const roleWords = { instructor: "an instructor", ta: "a teaching assistant", student: "a student" } as const;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const [invitation, user] = await Promise.all([findInvitation(params.token), getOptionalUser(request)]);
   if (!invitation) throw data("Not found", { status: 404 });
-  return { invitation: { ...invitation, replacedAt: invitation.replacedAt?.toISOString() ?? null }, signedInAs: user ? { email: user.email } : null };
+  return {
+    invitation: { ...invitation, replacedAt: invitation.replacedAt?.toISOString() ?? null },
+    signedInAs: user ? { email: user.email } : null,
+  };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const form = parseForm(acceptInvitationSchema, await request.formData());
   if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
   const user = await getOptionalUser(request);
-  const result = await acceptInvitation(params.token, { name: form.data.name, password: form.data.password || null }, user?.id ?? null, request);
-  if (result.outcome === "invalid") return data({ formError: "This invitation has been used already or has expired. Ask your instructor for a new one." }, { status: 410 });
+  const result = await acceptInvitation(
+    params.token,
+    { name: form.data.name, password: form.data.password || null },
+    user?.id ?? null,
+    request,
+  );
+  if (result.outcome === "invalid")
+    return data({ formError: "This invitation has been used already or has expired. Ask your instructor for a new one." }, { status: 410 });
   if (result.outcome === "other-account") {
     return data({ formError: `This invitation is for ${result.invitedEmail}. Sign out first, then open the link again.` }, { status: 409 });
   }
@@ -56,13 +68,13 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
         <Notice tone="warning">
           {invitation.state === "replaced" && invitation.replacedAt ? (
             <>
-              A newer invitation was sent to you on <LabTime at={invitation.replacedAt} courseTimeZone={invitation.courseTimeZone} />; use the link in
-              the latest e-mail.
+              A newer invitation was sent to you on <LabTime at={invitation.replacedAt} courseTimeZone={invitation.courseTimeZone} />; use
+              the link in the latest e-mail.
             </>
           ) : (
             <>
-              {invitation.state === "accepted" ? "This invitation has been accepted already." : "This invitation has expired."} If you still need
-              access, ask your instructor for a new one.
+              {invitation.state === "accepted" ? "This invitation has been accepted already." : "This invitation has expired."} If you still
+              need access, ask your instructor for a new one.
             </>
           )}
         </Notice>
@@ -96,10 +108,19 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
       ) : (
         <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
           {invitation.hasAccount ? (
-            <p className="text-ink-700">You already have a Benchpost account with this address: accepting adds the course to it and signs you in.</p>
+            <p className="text-ink-700">
+              You already have a Benchpost account with this address: accepting adds the course to it and signs you in.
+            </p>
           ) : (
             <>
-              <TextField label="Your name" name="name" autoComplete="name" required defaultValue={actionData && "values" in actionData ? actionData.values.name : (invitation.name ?? "")} error={errors?.name} />
+              <TextField
+                label="Your name"
+                name="name"
+                autoComplete="name"
+                required
+                defaultValue={actionData && "values" in actionData ? actionData.values.name : (invitation.name ?? "")}
+                error={errors?.name}
+              />
               <TextField
                 label="Choose a password (optional)"
                 name="password"
@@ -109,7 +130,13 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
                 hint="Leave it empty to sign in with a link e-mailed to you each time."
                 error={errors?.password}
               />
-              <TextField label="The same password again" name="confirmPassword" type="password" autoComplete="new-password" error={errors?.confirmPassword} />
+              <TextField
+                label="The same password again"
+                name="confirmPassword"
+                type="password"
+                autoComplete="new-password"
+                error={errors?.confirmPassword}
+              />
             </>
           )}
           <Button type="submit" disabled={busy}>

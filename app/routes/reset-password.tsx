@@ -14,7 +14,10 @@ import { db } from "~/server/db.server";
 
 const resetPasswordSchema = z
   .object({ newPassword: newPasswordField, confirmPassword: z.string() })
-  .refine((form) => form.newPassword === form.confirmPassword, { path: ["confirmPassword"], message: "The two passwords are not the same." });
+  .refine((form) => form.newPassword === form.confirmPassword, {
+    path: ["confirmPassword"],
+    message: "The two passwords are not the same.",
+  });
 
 export async function loader({ params }: Route.LoaderArgs) {
   return { valid: await peekEmailLink(db, params.token, "password_reset") };
@@ -63,7 +66,14 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
           hint={`At least ${PASSWORD_MIN_LENGTH} characters; a few unrelated words work well.`}
           error={errors?.newPassword}
         />
-        <TextField label="The same password again" name="confirmPassword" type="password" autoComplete="new-password" required error={errors?.confirmPassword} />
+        <TextField
+          label="The same password again"
+          name="confirmPassword"
+          type="password"
+          autoComplete="new-password"
+          required
+          error={errors?.confirmPassword}
+        />
         <Button type="submit" disabled={busy}>
           Save the new password
         </Button>

@@ -39,7 +39,11 @@ export async function action({ request }: Route.ActionArgs) {
     const result = await requestEmailLink("sign_in", form.data.email, request);
     if (result.outcome === "limited") {
       return data(
-        { intent: "link" as const, formError: `Too many links were asked for. Try again in ${describeWait(result.retryAfterSeconds)}.`, values: { email: form.data.email } },
+        {
+          intent: "link" as const,
+          formError: `Too many links were asked for. Try again in ${describeWait(result.retryAfterSeconds)}.`,
+          values: { email: form.data.email },
+        },
         { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
       );
     }
@@ -52,13 +56,21 @@ export async function action({ request }: Route.ActionArgs) {
   const values = { email: form.data.email };
   if (result.outcome === "limited") {
     return data(
-      { intent: "password" as const, formError: `Too many attempts. For your account's safety, wait ${describeWait(result.retryAfterSeconds)} and try again, or sign in with an e-mailed link.`, values },
+      {
+        intent: "password" as const,
+        formError: `Too many attempts. For your account's safety, wait ${describeWait(result.retryAfterSeconds)} and try again, or sign in with an e-mailed link.`,
+        values,
+      },
       { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
     );
   }
   if (result.outcome === "refused") {
     return data(
-      { intent: "password" as const, formError: "That e-mail address and password do not match. Check both, or sign in with an e-mailed link instead.", values },
+      {
+        intent: "password" as const,
+        formError: "That e-mail address and password do not match. Check both, or sign in with an e-mailed link instead.",
+        values,
+      },
       { status: 401 },
     );
   }
@@ -117,7 +129,9 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
         </h2>
         <p className="text-sm text-ink-700">No password needed: we e-mail you a link that signs you in once, within 15 minutes.</p>
         {link && "sentTo" in link ? (
-          <Notice tone="success">If {link.sentTo} belongs to a Benchpost account, a sign-in link is on its way. Check your inbox (and spam folder).</Notice>
+          <Notice tone="success">
+            If {link.sentTo} belongs to a Benchpost account, a sign-in link is on its way. Check your inbox (and spam folder).
+          </Notice>
         ) : null}
         {link && "formError" in link ? <Notice tone="error">{link.formError}</Notice> : null}
         <input type="hidden" name="intent" value="link" />

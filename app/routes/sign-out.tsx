@@ -37,7 +37,9 @@ export default function SignOut({ loaderData }: Route.ComponentProps) {
           </Button>
         </Form>
       </div>
-      <p className="mt-4 text-sm text-ink-700">"Everywhere" ends your sessions on every phone and computer, for example after using a shared one.</p>
+      <p className="mt-4 text-sm text-ink-700">
+        "Everywhere" ends your sessions on every phone and computer, for example after using a shared one.
+      </p>
     </section>
   );
 }

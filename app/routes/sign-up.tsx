@@ -33,7 +33,10 @@ export async function action({ request }: Route.ActionArgs) {
   const result = await signUp(form.data, request);
   const values = { name: form.data.name, email: form.data.email };
   if (result.outcome === "limited") {
-    return data({ formError: `Too many attempts. Try again in ${describeWait(result.retryAfterSeconds)}.`, values }, { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) });
+    return data(
+      { formError: `Too many attempts. Try again in ${describeWait(result.retryAfterSeconds)}.`, values },
+      { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
+    );
   }
   // The same answer whether or not the address had an account: the e-mailed link signs in to either.
   return { sentTo: form.data.email };
@@ -58,8 +61,23 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
       ) : (
         <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
           {actionData && "formError" in actionData ? <Notice tone="error">{actionData.formError}</Notice> : null}
-          <TextField label="Your name" name="name" autoComplete="name" required defaultValue={actionData?.values?.name} error={errors?.name} />
-          <TextField label="E-mail address" name="email" type="email" autoComplete="email" required defaultValue={actionData?.values?.email} error={errors?.email} />
+          <TextField
+            label="Your name"
+            name="name"
+            autoComplete="name"
+            required
+            defaultValue={actionData?.values?.name}
+            error={errors?.name}
+          />
+          <TextField
+            label="E-mail address"
+            name="email"
+            type="email"
+            autoComplete="email"
+            required
+            defaultValue={actionData?.values?.email}
+            error={errors?.email}
+          />
           <p className="text-sm text-ink-700">We e-mail you a link to sign in with; no password is needed to start.</p>
           <Button type="submit" disabled={busy}>
             Create the account

@@ -23,7 +23,8 @@ const photoUploadPath = /^\/courses\/[^/]+\/labs\/[^/]+\/photos$/;
 
 function limitFor(request: Request): number {
   const type = request.headers.get("content-type")?.toLowerCase() ?? "";
-  if (type.startsWith("multipart/form-data")) return photoUploadPath.test(new URL(request.url).pathname) ? MAX_PHOTO_UPLOAD_BYTES : MAX_FORM_BYTES;
+  if (type.startsWith("multipart/form-data"))
+    return photoUploadPath.test(new URL(request.url).pathname) ? MAX_PHOTO_UPLOAD_BYTES : MAX_FORM_BYTES;
   if (type.startsWith("application/x-www-form-urlencoded")) return MAX_FORM_BYTES;
   return MAX_JSON_BYTES;
 }

@@ -46,7 +46,10 @@ const requestLine = (request: Request) => `${request.method} ${new URL(request.u
 const databaseUnavailable = createContext<boolean>(false);
 
 /** For the entry's `handleError`: remembers (and logs) that this request failed for want of the database. Returns whether it did. */
-export function noteDatabaseOutage(error: unknown, { request, context }: { request: Request; context: Readonly<RouterContextProvider> }): boolean {
+export function noteDatabaseOutage(
+  error: unknown,
+  { request, context }: { request: Request; context: Readonly<RouterContextProvider> },
+): boolean {
   if (!isDatabaseUnavailable(error)) return false;
   context.set(databaseUnavailable, true);
   logDatabaseOutage(requestLine(request), error);
@@ -67,10 +70,18 @@ export const databaseOutageGuard: MiddlewareFunction<Response> = async ({ reques
   }
   if (response && !context.get(databaseUnavailable)) return response;
   if (isApiRequest(request)) {
-    const outage = apiErrorResponse(503, "database_unavailable", `Benchpost cannot reach its database just now, so nothing was stored. Try again in ${DATABASE_RETRY_AFTER_SECONDS} seconds.`);
+    const outage = apiErrorResponse(
+      503,
+      "database_unavailable",
+      `Benchpost cannot reach its database just now, so nothing was stored. Try again in ${DATABASE_RETRY_AFTER_SECONDS} seconds.`,
+    );
     outage.headers.set("Retry-After", retryAfter["Retry-After"]);
     return outage;
   }
   // Pages render the root error page with this status (the entry adds Retry-After); downloads answer it as text.
-  throw data("Benchpost cannot reach its database just now; nothing was stored. Try again shortly.", { status: 503, statusText: "Service Unavailable", headers: retryAfter });
+  throw data("Benchpost cannot reach its database just now; nothing was stored. Try again shortly.", {
+    status: 503,
+    statusText: "Service Unavailable",
+    headers: retryAfter,
+  });
 };

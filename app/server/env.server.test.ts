@@ -38,7 +38,9 @@ describe("environment", () => {
   it("accepts a complete production environment, and closes open sign-up there unless asked", () => {
     const env = parseEnvironment(production);
     expect(env).toMatchObject({ APP_URL: "https://benchpost.example.org", TRUST_PROXY: true, ALLOW_SIGN_UP: false });
-    expect(parseEnvironment({ ...production, RESEND_API_KEY: "re_key", SMTP_URL: undefined, TRUST_PROXY: "0", ALLOW_SIGN_UP: "true" })).toMatchObject({
+    expect(
+      parseEnvironment({ ...production, RESEND_API_KEY: "re_key", SMTP_URL: undefined, TRUST_PROXY: "0", ALLOW_SIGN_UP: "true" }),
+    ).toMatchObject({
       TRUST_PROXY: false,
       ALLOW_SIGN_UP: true,
     });
@@ -51,7 +53,9 @@ describe("environment", () => {
   });
 
   it("refuses production without a mail transport, and counts an empty variable as unset", () => {
-    expect(problemsOf({ ...production, SMTP_URL: undefined })).toEqual([expect.stringMatching(/^RESEND_API_KEY or SMTP_URL: production needs a mail transport/)]);
+    expect(problemsOf({ ...production, SMTP_URL: undefined })).toEqual([
+      expect.stringMatching(/^RESEND_API_KEY or SMTP_URL: production needs a mail transport/),
+    ]);
     expect(problemsOf({ ...production, SMTP_URL: "", RESEND_API_KEY: "" })).toHaveLength(1);
   });
 

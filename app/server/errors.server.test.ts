@@ -10,7 +10,10 @@ const form = (entries: Record<string, string>) => {
 
 describe("errorReply", () => {
   it("puts the message at its field and keeps what was typed, but never a password", () => {
-    const reply = errorReply(new AppError({ code: "course_exists", message: "Taken.", field: "code" }), form({ code: "ME 1", password: "hunter22" }));
+    const reply = errorReply(
+      new AppError({ code: "course_exists", message: "Taken.", field: "code" }),
+      form({ code: "ME 1", password: "hunter22" }),
+    );
     expect(reply.error).toEqual({ code: ["Taken."] });
     expect(reply.initialValue).toEqual({ code: "ME 1" });
   });
@@ -24,7 +27,11 @@ describe("errorReply", () => {
         { path: ["rows", 0, "label"], message: "Give a label." },
       ],
     });
-    expect(errorReply(error).error).toEqual({ "drops[3]": ["Too fast."], "rows[0].label": ["Give a label."], "": ["These values cannot be reduced."] });
+    expect(errorReply(error).error).toEqual({
+      "drops[3]": ["Too fast."],
+      "rows[0].label": ["Give a label."],
+      "": ["These values cannot be reduced."],
+    });
   });
 
   it("puts a message without a field above the form", () => {
@@ -56,7 +63,9 @@ describe("formAction", () => {
     const action = formAction(async () => {
       throw new AppError({ code: "course_exists", message: "Taken.", field: "title" });
     });
-    expect(await action({ request: request(), params: {}, context: {} } as never)).toMatchObject({ data: { error: { title: ["Taken."] }, initialValue: { title: "Fluids" } } });
+    expect(await action({ request: request(), params: {}, context: {} } as never)).toMatchObject({
+      data: { error: { title: ["Taken."] }, initialValue: { title: "Fluids" } },
+    });
   });
 
   it("lets any other error through, to become a 500", async () => {

@@ -14,7 +14,8 @@ import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server"
 const hiddenFields = (formData: FormData) => [...new Set(formData.keys())].filter((name) => /password/i.test(name));
 
 /** A path as Conform names the field: ["drops", 3] is `drops[3]`, ["rows", 0, "label"] is `rows[0].label`. */
-const fieldName = (path: (string | number)[]) => path.reduce<string>((name, key) => (typeof key === "number" ? `${name}[${key}]` : name ? `${name}.${key}` : key), "");
+const fieldName = (path: (string | number)[]) =>
+  path.reduce<string>((name, key) => (typeof key === "number" ? `${name}[${key}]` : name ? `${name}.${key}` : key), "");
 
 /** The messages of a refusal by field: each issue at its own, else the message at `field`, else above the form. */
 function messagesOf(error: AppError): { fieldErrors?: Record<string, string[]>; formErrors?: string[] } {
@@ -29,7 +30,8 @@ function messagesOf(error: AppError): { fieldErrors?: Record<string, string[]>; 
 /** What an error means for a form: its message at its field, or above the form when it has none. */
 export function errorReply(error: AppError, formData?: FormData): SubmissionResult {
   const messages = messagesOf(error);
-  if (!formData) return { status: "error", error: { ...messages.fieldErrors, ...(messages.formErrors ? { "": messages.formErrors } : {}) } };
+  if (!formData)
+    return { status: "error", error: { ...messages.fieldErrors, ...(messages.formErrors ? { "": messages.formErrors } : {}) } };
   return parseWithZod(formData, { schema: z.looseObject({}) }).reply({ ...messages, hideFields: hiddenFields(formData) });
 }
 

@@ -2,9 +2,12 @@ import { describe, expect, it } from "vitest";
 import { safeRedirectPath } from "./http.server";
 
 describe("safeRedirectPath", () => {
-  it.each(["/", "/account", "/courses/abc/labs?tab=open#mark", "/sign-in?redirectTo=%2Faccount", "/a/b%5Cc"])("keeps the path %j on this site", (path) => {
-    expect(safeRedirectPath(path)).toBe(path);
-  });
+  it.each(["/", "/account", "/courses/abc/labs?tab=open#mark", "/sign-in?redirectTo=%2Faccount", "/a/b%5Cc"])(
+    "keeps the path %j on this site",
+    (path) => {
+      expect(safeRedirectPath(path)).toBe(path);
+    },
+  );
 
   // Each would take a browser to another site (tabs and line breaks are dropped, a backslash reads as a slash).
   it.each([

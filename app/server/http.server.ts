@@ -67,7 +67,11 @@ export function readSearchParams<Schema extends z.ZodType>(request: Request, sch
   const given = [...new URL(request.url).searchParams].filter(([, value]) => value !== "");
   const parsed = schema.safeParse(Object.fromEntries(given));
   if (parsed.success) return parsed.data;
-  const issues = parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "number" ? key : String(key))), message: issue.message }));
-  if (isApiRequest(request)) throw apiErrorResponse(400, "invalid_query", "The query string has a value this address does not take; `issues` names it.", issues);
+  const issues = parsed.error.issues.map((issue) => ({
+    path: issue.path.map((key) => (typeof key === "number" ? key : String(key))),
+    message: issue.message,
+  }));
+  if (isApiRequest(request))
+    throw apiErrorResponse(400, "invalid_query", "The query string has a value this address does not take; `issues` names it.", issues);
   throw data(`Search parameters refused: ${issues.map((issue) => issue.path.join(".")).join(", ")}`, { status: 400 });
 }

@@ -14,7 +14,10 @@ describe("load context", () => {
   });
 
   // Documentation and private ranges (RFC 5737, RFC 3849, RFC 1918), never the machine's own.
-  it.each(["192.0.2.10", "10.0.0.1", "128.0.0.1", "::ffff:192.0.2.10", "2001:db8::1", "::2", "localhost", "", undefined])("does not count %s", (address) => {
-    expect(isLoopbackAddress(address)).toBe(false);
-  });
+  it.each(["192.0.2.10", "10.0.0.1", "128.0.0.1", "::ffff:192.0.2.10", "2001:db8::1", "::2", "localhost", "", undefined])(
+    "does not count %s",
+    (address) => {
+      expect(isLoopbackAddress(address)).toBe(false);
+    },
+  );
 });

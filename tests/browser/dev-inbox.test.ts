@@ -24,7 +24,11 @@ describe("development inbox in Chromium", () => {
 
   it("shows a message the worker delivered to the catcher, its HTML sandboxed, and the template previews", async () => {
     const to = "inbox.reader@example.org";
-    await sendEmail(createDatabase(pool), { to, template: "password-reset", props: { url: `${inject("baseUrl")}/reset/browser-test`, expiresInMinutes: 30 } });
+    await sendEmail(createDatabase(pool), {
+      to,
+      template: "password-reset",
+      props: { url: `${inject("baseUrl")}/reset/browser-test`, expiresInMinutes: 30 },
+    });
     let emails: CaughtForTest[] = [];
     for (let tries = 0; tries < 60 && emails.length === 0; tries++) {
       await new Promise((resolve) => setTimeout(resolve, 250));
@@ -38,7 +42,9 @@ describe("development inbox in Chromium", () => {
     await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toBe("Development inbox");
     const frame = page.locator("iframe");
     await expect(frame.getAttribute("sandbox")).resolves.toBe("");
-    await expect(page.frameLocator("iframe").getByText("Choose a new password", { exact: true }).first().textContent()).resolves.toBe("Choose a new password");
+    await expect(page.frameLocator("iframe").getByText("Choose a new password", { exact: true }).first().textContent()).resolves.toBe(
+      "Choose a new password",
+    );
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
 
     await page.getByRole("link", { name: "kit-shipped" }).click();

@@ -25,7 +25,15 @@ describe("extensions in Chromium", () => {
   });
 
   it("a student with their own extension sees their due time, not the class's, and hands in after the class deadline without being late", async () => {
-    const found = await db.execute<{ email: string; course_id: string; lab_id: string; lab_title: string; class_due: Date; own_due: Date; membership_id: string }>(sql`
+    const found = await db.execute<{
+      email: string;
+      course_id: string;
+      lab_id: string;
+      lab_title: string;
+      class_due: Date;
+      own_due: Date;
+      membership_id: string;
+    }>(sql`
       select u.email, l.course_id, l.id as lab_id, l.title as lab_title, l.due_at as class_due, e.due_at as own_due, m.id as membership_id
       from lab_extensions e
       join labs l on l.id = e.lab_id and l.kind = 'drag'
@@ -44,7 +52,8 @@ describe("extensions in Chromium", () => {
     const page = await browser.context.newPage();
     await signInWithPassword(page, base, student.email, DEMO_PASSWORD);
     // The instants the page shows, however each was written out.
-    const shownInstants = async () => (await page.locator("time").evaluateAll((times) => times.map((time) => time.getAttribute("dateTime") ?? ""))).map(Date.parse);
+    const shownInstants = async () =>
+      (await page.locator("time").evaluateAll((times) => times.map((time) => time.getAttribute("dateTime") ?? ""))).map(Date.parse);
     await page.goto(`${base}/courses/${student.course_id}/labs`);
     await page.getByRole("link", { name: student.lab_title }).waitFor();
     expect(await shownInstants()).toContain(Date.parse(ownDue));
@@ -90,10 +99,15 @@ describe("extensions in Chromium", () => {
     const page = await browser.context.newPage();
     await signInWithPassword(page, base, "instructor@harrowgate.example", DEMO_PASSWORD);
     await page.goto(`${base}/courses/${lab.course_id}/labs/${lab.id}/dashboard`);
-    const rows = page.getByRole("table").filter({ has: page.getByRole("columnheader", { name: "Key result" }) }).locator("tbody tr");
+    const rows = page
+      .getByRole("table")
+      .filter({ has: page.getByRole("columnheader", { name: "Key result" }) })
+      .locator("tbody tr");
     // The last two rows: the Wednesday bench, sorted last by name, which the demo has not extended.
     const count = await rows.count();
-    const names = await Promise.all([count - 2, count - 1].map(async (index) => (await rows.nth(index).locator("th").textContent())!.trim()));
+    const names = await Promise.all(
+      [count - 2, count - 1].map(async (index) => (await rows.nth(index).locator("th").textContent())!.trim()),
+    );
     for (const name of names) await page.getByLabel(`Select ${name}`).check();
 
     const form = page.getByRole("region", { name: "Give the selected students a later due time" });

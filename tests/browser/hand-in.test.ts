@@ -33,7 +33,9 @@ describe("handing in a drop log from a phone in Chromium", () => {
     student = found.rows[0];
     expect(student, "the demo has a student with a complete kit at home").toBeDefined();
     // Demo kits hold both fluid lots, and this lab ticks none: the student has to say which bottle.
-    const lot = await db.execute<{ id: string }>(sql`select id from parts where course_id = ${student.course_id} and kind = 'fluid_lot' and label = 'GLY-95A'`);
+    const lot = await db.execute<{ id: string }>(
+      sql`select id from parts where course_id = ${student.course_id} and kind = 'fluid_lot' and label = 'GLY-95A'`,
+    );
     glycerolLotId = lot.rows[0].id;
     const day = 24 * 3600 * 1000;
     const [lab] = await db

@@ -51,7 +51,9 @@ describe("invitation and sign-in in Chromium", () => {
     expect(invitationLink).toBeTruthy();
     await page.goto(invitationLink!);
     await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toContain(demoCourse.code);
-    await expect(page.getByRole("heading", { level: 1 }).locator("xpath=following-sibling::p").textContent()).resolves.toContain(demoCohortNames[1]);
+    await expect(page.getByRole("heading", { level: 1 }).locator("xpath=following-sibling::p").textContent()).resolves.toContain(
+      demoCohortNames[1],
+    );
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
     await expect(page.getByLabel("Your name").inputValue()).resolves.toBe("Ada Newcombe");
     await page.getByLabel("Choose a password (optional)").fill("too short");

@@ -2,7 +2,15 @@ import { sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, demoCourse } from "../../seeds/demo-scenario";
-import { axeViolations, emailTo, openBrowser, seriousOrCritical, signInWithPassword, signOut, type BrowserSession } from "../support/browser";
+import {
+  axeViolations,
+  emailTo,
+  openBrowser,
+  seriousOrCritical,
+  signInWithPassword,
+  signOut,
+  type BrowserSession,
+} from "../support/browser";
 
 /**
  * A TA marks at the desk with the keyboard and a bulk action; the instructor closes and releases the
@@ -106,13 +114,17 @@ describe("marking at the desk in Chromium", () => {
     ).rows;
     const email = await emailTo(base, student.email, /^Your mark for Falling-ball viscometry .* is ready$/);
     expect(email.links.some((link) => link.includes(`/labs/${lab.id}`))).toBe(true);
-    const inbox = (await (await fetch(`${base}/api/dev/emails?to=${encodeURIComponent(student.email)}`)).json()) as { emails: { subject: string }[] };
+    const inbox = (await (await fetch(`${base}/api/dev/emails?to=${encodeURIComponent(student.email)}`)).json()) as {
+      emails: { subject: string }[];
+    };
     expect(inbox.emails.filter((message) => message.subject === email.subject)).toHaveLength(1);
 
     await signInWithPassword(page, base, student.email, DEMO_PASSWORD);
     await page.goto(`${base}/courses/${lab.course_id}/labs/${lab.id}`);
     const mark = page.getByRole("region", { name: /^Your mark:/ });
-    await expect.poll(() => mark.getByRole("heading", { level: 2 }).textContent()).toMatch(new RegExp(`^Your mark: ${student.total} / \\d+`));
+    await expect
+      .poll(() => mark.getByRole("heading", { level: 2 }).textContent())
+      .toMatch(new RegExp(`^Your mark: ${student.total} / \\d+`));
     expect(await mark.getByRole("table").textContent()).toContain("Level ");
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
     await page.close();

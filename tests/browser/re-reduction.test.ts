@@ -40,7 +40,9 @@ describe("re-reduction after a part correction in Chromium", () => {
     await signInWithPassword(page, base, "instructor@harrowgate.example", DEMO_PASSWORD);
     await page.goto(`${base}/courses/${target.course_id}/parts/${target.lot_id}`);
     // The demo's own correction is listed, finished.
-    await expect.poll(() => page.getByTestId("rereduction-progress").first().textContent()).toContain(`${target.demo_run} of ${target.demo_run} hand-ins recomputed`);
+    await expect
+      .poll(() => page.getByTestId("rereduction-progress").first().textContent())
+      .toContain(`${target.demo_run} of ${target.demo_run} hand-ins recomputed`);
 
     await page.getByText("Re-measure", { exact: true }).click();
     await page.locator("input[name=densityKgM3]").fill("1251");
@@ -49,7 +51,9 @@ describe("re-reduction after a part correction in Chromium", () => {
     const progress = page.getByTestId("rereduction-progress");
     await expect.poll(() => progress.count()).toBe(2);
     // The page refreshes itself until the worker has recomputed every version.
-    await expect.poll(() => progress.first().textContent(), { timeout: 30_000 }).toMatch(new RegExp(`${target.versions} of ${target.versions} hand-ins recomputed — finished`));
+    await expect
+      .poll(() => progress.first().textContent(), { timeout: 30_000 })
+      .toMatch(new RegExp(`${target.versions} of ${target.versions} hand-ins recomputed — finished`));
     const revisions = await db.execute<{ n: number }>(sql`
       select count(*)::int as n from reduction_revisions r join drop_log_versions v on v.id = r.version_id
       where v.fluid_lot_id = ${target.lot_id} and r.cause ->> 'partLabel' = 'GLY-95A' and r.cause #>> '{changes,densityKgM3,to}' = '1251'`);

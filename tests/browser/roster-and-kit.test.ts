@@ -27,7 +27,10 @@ describe("roster import and shipping a kit in Chromium", () => {
 
     await page.goto(`${base}/courses/${course.id}/roster`);
     const header = "email,name,cohort,role";
-    const good = [`new.one@students.harrowgate.example,New One,${demoCohortNames[0]},student`, `new.two@students.harrowgate.example,New Two,${demoCohortNames[2]},`];
+    const good = [
+      `new.one@students.harrowgate.example,New One,${demoCohortNames[0]},student`,
+      `new.two@students.harrowgate.example,New Two,${demoCohortNames[2]},`,
+    ];
     await page.getByLabel(/paste the rows/).fill([header, ...good, "not-an-address,Broken,Nowhere,student"].join("\n"));
     await page.getByRole("button", { name: "Preview the pasted rows" }).click();
     await page.getByRole("heading", { name: "Preview: 3 rows, 1 with problems" }).waitFor();
@@ -39,7 +42,9 @@ describe("roster import and shipping a kit in Chromium", () => {
     await page.getByRole("button", { name: "Import 2 people and send their invitations" }).click();
     await page.getByText("Imported: 2 invitations sent (2 students, 0 TAs).").waitFor();
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
-    expect((await emailTo(base, "new.two@students.harrowgate.example", /invit/i)).links.some((link) => link.includes("/invitations/"))).toBe(true);
+    expect(
+      (await emailTo(base, "new.two@students.harrowgate.example", /invit/i)).links.some((link) => link.includes("/invitations/")),
+    ).toBe(true);
 
     // A kit on the shelf is packed for a student without one, then shipped.
     await page.goto(`${base}/courses/${course.id}/kits?state=on_shelf`);

@@ -22,7 +22,10 @@ describe("home page in Chromium", () => {
 
     const fontLoaded = await page.evaluate(async () => {
       await document.fonts.ready;
-      return document.fonts.check('16px "Lexend"') && [...document.fonts].some((face) => face.family.includes("Lexend") && face.status === "loaded");
+      return (
+        document.fonts.check('16px "Lexend"') &&
+        [...document.fonts].some((face) => face.family.includes("Lexend") && face.status === "loaded")
+      );
     });
     expect(fontLoaded).toBe(true);
     expect(external, "nothing is loaded from the network").toEqual([]);

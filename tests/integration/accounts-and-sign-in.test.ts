@@ -5,7 +5,18 @@
 import { and, desc, eq, sql } from "drizzle-orm";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { apiTokens, auditEvents, courseMemberships, courses, emailLinks, emailOutbox, invitations, sessions, taCohortAssignments, users } from "~/db/schema";
+import {
+  apiTokens,
+  auditEvents,
+  courseMemberships,
+  courses,
+  emailLinks,
+  emailOutbox,
+  invitations,
+  sessions,
+  taCohortAssignments,
+  users,
+} from "~/db/schema";
 import { hashPassword } from "~/server/auth/password.server";
 import { SESSION_COOKIE, SESSION_LIFETIME_MS, validateSessionToken } from "~/server/auth/session.server";
 import { hashToken } from "~/server/auth/tokens.server";
@@ -61,7 +72,10 @@ describe("sessions", () => {
     rawTokens.push(token, otherToken);
     expect(token).toMatch(/^[a-z2-7]{32,}$/);
     expect(otherToken).not.toBe(token);
-    const [row] = await db.select().from(sessions).where(eq(sessions.id, hashToken(token)));
+    const [row] = await db
+      .select()
+      .from(sessions)
+      .where(eq(sessions.id, hashToken(token)));
     expect(row.expiresAt.getTime()).toBeGreaterThan(Date.now() + SESSION_LIFETIME_MS - 60_000);
   });
 
@@ -85,7 +99,12 @@ describe("sessions", () => {
       expect(signedIn.headers.get("location")).toBe("/");
     }
     await createUser("redirected@accounts.example");
-    const posted = await handle(appRequest("/sign-in", { form: { intent: "password", email: "redirected@accounts.example", password: PASSWORD, redirectTo: "/\t/evil.example" }, ip: "203.0.113.90" }));
+    const posted = await handle(
+      appRequest("/sign-in", {
+        form: { intent: "password", email: "redirected@accounts.example", password: PASSWORD, redirectTo: "/\t/evil.example" },
+        ip: "203.0.113.90",
+      }),
+    );
     expect(posted.status).toBe(302);
     expect(posted.headers.get("location")).toBe("/");
   });
@@ -93,7 +112,10 @@ describe("sessions", () => {
   it("renews a session with fewer than 15 days left, and sends the new expiry in the cookie", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const id = hashToken(cookie.split("=")[1]);
-    await db.update(sessions).set({ expiresAt: new Date(Date.now() + 10 * DAY) }).where(eq(sessions.id, id));
+    await db
+      .update(sessions)
+      .set({ expiresAt: new Date(Date.now() + 10 * DAY) })
+      .where(eq(sessions.id, id));
     const response = await handle(appRequest("/account", { cookie }));
     expect(response.status).toBe(200);
     const [row] = await db.select().from(sessions).where(eq(sessions.id, id));
@@ -117,7 +139,10 @@ describe("sessions", () => {
   it("treats an expired session as signed out, deletes its row and clears the cookie", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const id = hashToken(cookie.split("=")[1]);
-    await db.update(sessions).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(sessions.id, id));
+    await db
+      .update(sessions)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(sessions.id, id));
     const response = await handle(appRequest("/account", { cookie }));
     expect(response.status).toBe(302);
     expect(response.headers.get("location")).toBe("/sign-in?redirectTo=%2Faccount");
@@ -156,7 +181,9 @@ describe("rate limits", () => {
   it("checks at most 10 passwords of a burst of wrong guesses sent at once", async () => {
     await createUser("burst@accounts.example");
     // Each guess from its own address, so that only the per-account limit is in play.
-    const responses = await Promise.all(Array.from({ length: 50 }, (_, index) => signIn("burst@accounts.example", `wrong guess ${index}`, `198.18.0.${index + 1}`)));
+    const responses = await Promise.all(
+      Array.from({ length: 50 }, (_, index) => signIn("burst@accounts.example", `wrong guess ${index}`, `198.18.0.${index + 1}`)),
+    );
     const statuses = responses.map((response) => response.status);
     // 401 is a wrong password that was checked, 429 a guess that never was.
     expect(statuses.filter((status) => status === 401).length).toBeLessThanOrEqual(10);
@@ -176,7 +203,9 @@ describe("rate limits", () => {
     await createUser("linky@accounts.example");
     const statuses: number[] = [];
     for (let attempt = 1; attempt <= 6; attempt++) {
-      const response = await handle(appRequest("/forgot-password", { form: { email: "linky@accounts.example" }, ip: `192.0.2.${attempt}` }));
+      const response = await handle(
+        appRequest("/forgot-password", { form: { email: "linky@accounts.example" }, ip: `192.0.2.${attempt}` }),
+      );
       statuses.push(response.status);
     }
     expect(statuses).toEqual([200, 200, 200, 200, 200, 429]);
@@ -210,12 +239,19 @@ describe("e-mailed links", () => {
         const response = await handle(appRequest(path, { form: { ...form, email }, ip: "203.0.113.70" }));
         const statements = spy.mock.calls.map(([query]) => (typeof query === "string" ? query : (query as { text: string }).text));
         // The page's script nonce is new on every response.
-        return { status: response.status, body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, ""), statements };
+        return {
+          status: response.status,
+          body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, ""),
+          statements,
+        };
       } finally {
         spy.mockRestore();
       }
     };
-    for (const [path, form] of [["/forgot-password", {}], ["/sign-in", { intent: "link" }]] as const) {
+    for (const [path, form] of [
+      ["/forgot-password", {}],
+      ["/sign-in", { intent: "link" }],
+    ] as const) {
       const known = await ask(path, form, "known@accounts.example");
       const unknown = await ask(path, form, "ghost@accounts.example");
       expect(known.status).toBe(200);
@@ -235,10 +271,17 @@ describe("e-mailed links", () => {
   });
 
   it("sends sign-in and reset links to an account whose name has quotes and angle brackets", async () => {
-    const [user] = await db.insert(users).values({ email: "quoted@accounts.example", name: 'Ann "Nan" <Lee>', passwordHash: await hashPassword(PASSWORD) }).returning();
+    const [user] = await db
+      .insert(users)
+      .values({ email: "quoted@accounts.example", name: 'Ann "Nan" <Lee>', passwordHash: await hashPassword(PASSWORD) })
+      .returning();
     const link = await handle(appRequest("/sign-in", { form: { intent: "link", email: "quoted@accounts.example" }, ip: "203.0.113.50" }));
     expect(link.status).toBe(200);
-    expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({ template: "sign-in-link", status: "queued", toName: 'Ann "Nan" <Lee>' });
+    expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({
+      template: "sign-in-link",
+      status: "queued",
+      toName: 'Ann "Nan" <Lee>',
+    });
     const reset = await handle(appRequest("/forgot-password", { form: { email: "quoted@accounts.example" }, ip: "203.0.113.50" }));
     expect(reset.status).toBe(200);
     expect(await latestEmailTo("quoted@accounts.example")).toMatchObject({ template: "password-reset", status: "queued" });
@@ -282,11 +325,20 @@ describe("e-mailed links", () => {
       const user = await createUser("changer@accounts.example");
       const { signInPath, resetPaths } = await linksFor("changer@accounts.example", "203.0.113.60");
       const cookie = await sessionCookieFor(user.id);
-      const changed = await handle(appRequest("/account", { cookie, form: { intent: "password", currentPassword: PASSWORD, newPassword, confirmPassword: newPassword } }));
+      const changed = await handle(
+        appRequest("/account", {
+          cookie,
+          form: { intent: "password", currentPassword: PASSWORD, newPassword, confirmPassword: newPassword },
+        }),
+      );
       expect(changed.status).toBe(302);
       expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toEqual([]);
       expect((await handle(appRequest(signInPath, { form: {} }))).status).toBe(410);
-      for (const path of resetPaths) expect((await handle(appRequest(path, { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }))).status).toBe(410);
+      for (const path of resetPaths)
+        expect(
+          (await handle(appRequest(path, { form: { newPassword: "another fine password", confirmPassword: "another fine password" } })))
+            .status,
+        ).toBe(410);
     });
 
     it("when the password is reset with one of the links", async () => {
@@ -295,18 +347,31 @@ describe("e-mailed links", () => {
       expect((await handle(appRequest(resetPaths[1], { form: { newPassword, confirmPassword: newPassword } }))).status).toBe(302);
       expect(await db.select().from(emailLinks).where(eq(emailLinks.userId, user.id))).toEqual([]);
       expect((await handle(appRequest(signInPath, { form: {} }))).status).toBe(410);
-      expect((await handle(appRequest(resetPaths[0], { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }))).status).toBe(410);
+      expect(
+        (
+          await handle(
+            appRequest(resetPaths[0], { form: { newPassword: "another fine password", confirmPassword: "another fine password" } }),
+          )
+        ).status,
+      ).toBe(410);
     });
   });
 
   it("refuses a common password and keeps any Unicode password whole", async () => {
     const user = await createUser("policy@accounts.example");
     const cookie = await sessionCookieFor(user.id);
-    const common = await handle(appRequest("/account", { cookie, form: { intent: "password", currentPassword: PASSWORD, newPassword: "password123", confirmPassword: "password123" } }));
+    const common = await handle(
+      appRequest("/account", {
+        cookie,
+        form: { intent: "password", currentPassword: PASSWORD, newPassword: "password123", confirmPassword: "password123" },
+      }),
+    );
     expect(common.status).toBe(400);
     expect(await common.text()).toMatch(/most common/);
     const long = `${"ünïcødé 🌊 ".repeat(8)}end`;
-    const changed = await handle(appRequest("/account", { cookie, form: { intent: "password", currentPassword: PASSWORD, newPassword: long, confirmPassword: long } }));
+    const changed = await handle(
+      appRequest("/account", { cookie, form: { intent: "password", currentPassword: PASSWORD, newPassword: long, confirmPassword: long } }),
+    );
     expect(changed.status).toBe(302);
     // Changing the password ended the session it was changed from; the response carries a new one.
     expect(await validateSessionToken(cookie.split("=")[1])).toBeNull();
@@ -326,10 +391,14 @@ describe("open sign-up", () => {
 
   const signUp = async (email: string, name: string) => {
     const response = await handle(appRequest("/sign-up", { form: { name, email }, ip: "203.0.113.80" }));
-    return { status: response.status, signedIn: sessionTokenFrom(response) !== null, body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, "") };
+    return {
+      status: response.status,
+      signedIn: sessionTokenFrom(response) !== null,
+      body: (await response.text()).replaceAll(email, "ADDRESS").replace(/nonce="[^"]*"/g, ""),
+    };
   };
 
-  it("answers \"check your e-mail\" for a new address and for one that has an account, and signs nobody in", async () => {
+  it('answers "check your e-mail" for a new address and for one that has an account, and signs nobody in', async () => {
     const existing = await createUser("taken@accounts.example");
     const fresh = await signUp("fresh.instructor@accounts.example", "Fresh Instructor");
     const taken = await signUp("taken@accounts.example", "Someone Else");
@@ -355,7 +424,12 @@ describe("open sign-up", () => {
 describe("invitations", () => {
   async function invite(email: string, role: string, cohortId = "") {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
-    const response = await handle(appRequest(`/courses/${fixture.courseId}/members`, { cookie, form: { intent: "invite", email, name: "Invited Person", role, cohortId } }));
+    const response = await handle(
+      appRequest(`/courses/${fixture.courseId}/members`, {
+        cookie,
+        form: { intent: "invite", email, name: "Invited Person", role, cohortId },
+      }),
+    );
     expect(response.status).toBe(200);
     const acceptUrl = String((await latestEmailTo(email)).props.acceptUrl);
     rawTokens.push(tokenIn(acceptUrl));
@@ -396,16 +470,30 @@ describe("invitations", () => {
   it("invites a person whose name has quotes, and sends an invitation whose subject would be too long", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const quoted = await handle(
-      appRequest(`/courses/${fixture.courseId}/members`, { cookie, form: { intent: "invite", email: "nan@accounts.example", name: 'Ann "Nan" <Lee>', role: "student", cohortId: fixture.cohortId } }),
+      appRequest(`/courses/${fixture.courseId}/members`, {
+        cookie,
+        form: { intent: "invite", email: "nan@accounts.example", name: 'Ann "Nan" <Lee>', role: "student", cohortId: fixture.cohortId },
+      }),
     );
     expect(quoted.status).toBe(200);
     expect(await latestEmailTo("nan@accounts.example")).toMatchObject({ status: "queued", toName: 'Ann "Nan" <Lee>' });
 
     // The longest name and course title the forms take (120 characters each).
-    await db.update(users).set({ name: `Professor ${"Long".repeat(27)}n` }).where(eq(users.id, fixture.userIds.otherInstructor));
-    await db.update(courses).set({ title: `Fluid Mechanics ${"Laboratory ".repeat(9)}One` }).where(eq(courses.id, fixture.otherCourseId));
+    await db
+      .update(users)
+      .set({ name: `Professor ${"Long".repeat(27)}n` })
+      .where(eq(users.id, fixture.userIds.otherInstructor));
+    await db
+      .update(courses)
+      .set({ title: `Fluid Mechanics ${"Laboratory ".repeat(9)}One` })
+      .where(eq(courses.id, fixture.otherCourseId));
     const otherCookie = await sessionCookieFor(fixture.userIds.otherInstructor);
-    const long = await handle(appRequest(`/courses/${fixture.otherCourseId}/members`, { cookie: otherCookie, form: { intent: "invite", email: "long@accounts.example", name: "", role: "ta", cohortId: "" } }));
+    const long = await handle(
+      appRequest(`/courses/${fixture.otherCourseId}/members`, {
+        cookie: otherCookie,
+        form: { intent: "invite", email: "long@accounts.example", name: "", role: "ta", cohortId: "" },
+      }),
+    );
     expect(long.status).toBe(200);
     const email = await latestEmailTo("long@accounts.example");
     expect(email.status).toBe("queued");
@@ -416,7 +504,10 @@ describe("invitations", () => {
   it("tells the holder of a replaced invitation that a newer one was sent, instead of calling it expired", async () => {
     const firstPath = await invite("invited.twice@accounts.example", "student", fixture.cohortId);
     const secondPath = await invite("invited.twice@accounts.example", "student", fixture.cohortId);
-    const [newer] = await db.select({ createdAt: invitations.createdAt }).from(invitations).where(eq(invitations.tokenHash, hashToken(tokenIn(secondPath))));
+    const [newer] = await db
+      .select({ createdAt: invitations.createdAt })
+      .from(invitations)
+      .where(eq(invitations.tokenHash, hashToken(tokenIn(secondPath))));
     expect(await findInvitation(tokenIn(firstPath))).toMatchObject({ state: "replaced", replacedAt: newer.createdAt });
     expect(await findInvitation(tokenIn(secondPath))).toMatchObject({ state: "open", replacedAt: null });
 
@@ -442,8 +533,14 @@ describe("invitations", () => {
     const statementsFor = async (count: number, prefix: string) => {
       const spy = vi.spyOn(pg.Client.prototype, "query");
       try {
-        const people = Array.from({ length: count }, (_, index) => ({ email: `${prefix}${index}@bulk.example`, role: "student" as const, cohortId: fixture.cohortId }));
-        const result = await db.transaction((tx) => createInvitations(tx, { id: fixture.userIds.instructor, name: "Test instructor" }, fixture.courseId, people));
+        const people = Array.from({ length: count }, (_, index) => ({
+          email: `${prefix}${index}@bulk.example`,
+          role: "student" as const,
+          cohortId: fixture.cohortId,
+        }));
+        const result = await db.transaction((tx) =>
+          createInvitations(tx, { id: fixture.userIds.instructor, name: "Test instructor" }, fixture.courseId, people),
+        );
         expect(result.invited).toHaveLength(count);
         return spy.mock.calls.length;
       } finally {
@@ -457,7 +554,10 @@ describe("invitations", () => {
   it("records the invitation, its acceptance and role changes in the course's audit log", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const change = await handle(
-      appRequest(`/courses/${fixture.courseId}/members/${fixture.membershipIds.sameCohortStudent}`, { cookie, form: { intent: "change-role", role: "student", cohortId: fixture.otherCohortId } }),
+      appRequest(`/courses/${fixture.courseId}/members/${fixture.membershipIds.sameCohortStudent}`, {
+        cookie,
+        form: { intent: "change-role", role: "student", cohortId: fixture.otherCohortId },
+      }),
     );
     expect(change.status).toBe(200);
     const log = await handle(appRequest(`/courses/${fixture.courseId}/audit`, { cookie }));
@@ -475,13 +575,22 @@ describe("cross-site requests", () => {
     const foreign = await handle(appRequest("/account", { cookie, form, origin: "https://evil.example" }));
     const noOrigin = await handle(appRequest("/account", { cookie, form, origin: null, headers: { "Sec-Fetch-Site": "cross-site" } }));
     const noHeaders = await handle(appRequest("/account", { cookie, form, origin: null }));
-    const dataRequest = await handle(appRequest("/account.data", { cookie, form, origin: null, headers: { "Sec-Fetch-Site": "same-site" } }));
+    const dataRequest = await handle(
+      appRequest("/account.data", { cookie, form, origin: null, headers: { "Sec-Fetch-Site": "same-site" } }),
+    );
     // Every refusal is ours: 403 with Benchpost's own page, not the framework's bare 400.
     expect([foreign.status, noOrigin.status, noHeaders.status, dataRequest.status]).toEqual([403, 403, 403, 403]);
     expect(await foreign.text()).toContain("That form came from another site");
     const [user] = await db.select({ name: users.name }).from(users).where(eq(users.id, fixture.userIds.ownStudent));
     expect(user.name).toBe("Test ownStudent");
-    const sameOrigin = await handle(appRequest("/account", { cookie, form: { ...form, name: "Renamed Here" }, origin: null, headers: { "Sec-Fetch-Site": "same-origin" } }));
+    const sameOrigin = await handle(
+      appRequest("/account", {
+        cookie,
+        form: { ...form, name: "Renamed Here" },
+        origin: null,
+        headers: { "Sec-Fetch-Site": "same-origin" },
+      }),
+    );
     expect(sameOrigin.status).toBe(200);
   });
 });
@@ -495,7 +604,11 @@ describe("personal API tokens", () => {
     rawTokens.push(token);
     const me = await handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }));
     expect(me.status).toBe(200);
-    expect(await me.json()).toMatchObject({ user: { id: fixture.userIds.assignedTa }, authenticatedWith: "api-token", courses: [{ id: fixture.courseId, role: "ta" }] });
+    expect(await me.json()).toMatchObject({
+      user: { id: fixture.userIds.assignedTa },
+      authenticatedWith: "api-token",
+      courses: [{ id: fixture.courseId, role: "ta" }],
+    });
     const [row] = await db.select().from(apiTokens).where(eq(apiTokens.userId, fixture.userIds.assignedTa));
     expect(row.lastUsedAt).not.toBeNull();
     // A bearer call carries no cookie, so it needs no Origin: this POST reaches the route (which has no action).
@@ -517,7 +630,9 @@ describe("personal API tokens", () => {
       db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: ta.id, role: "ta" }).returning(),
       db.insert(courseMemberships).values({ courseId: fixture.otherCourseId, userId: ta.id, role: "ta" }).returning(),
     ]);
-    const created = await handle(appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "marking script" } }));
+    const created = await handle(
+      appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "marking script" } }),
+    );
     const token = (await created.text()).match(/bpt_[a-z2-7]+/)![0];
     rawTokens.push(token);
     const me = () => handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }));
@@ -525,27 +640,48 @@ describe("personal API tokens", () => {
 
     // Made a student here, but still a TA in the other course: still staff, the token keeps working.
     const instructor = await sessionCookieFor(fixture.userIds.instructor);
-    const demoted = await handle(appRequest(`/courses/${fixture.courseId}/members/${here.id}`, { cookie: instructor, form: { intent: "change-role", role: "student", cohortId: fixture.cohortId } }));
+    const demoted = await handle(
+      appRequest(`/courses/${fixture.courseId}/members/${here.id}`, {
+        cookie: instructor,
+        form: { intent: "change-role", role: "student", cohortId: fixture.cohortId },
+      }),
+    );
     expect(demoted.status).toBe(200);
     expect((await me()).status).toBe(200);
 
     // Removed from the other course: no staff role is left, and neither is the token.
     const otherInstructor = await sessionCookieFor(fixture.userIds.otherInstructor);
-    expect((await handle(appRequest(`/courses/${fixture.otherCourseId}/members/${there.id}`, { cookie: otherInstructor, form: { intent: "remove" } }))).status).toBe(302);
+    expect(
+      (
+        await handle(
+          appRequest(`/courses/${fixture.otherCourseId}/members/${there.id}`, { cookie: otherInstructor, form: { intent: "remove" } }),
+        )
+      ).status,
+    ).toBe(302);
     expect((await me()).status).toBe(401);
     expect(await db.select().from(apiTokens).where(eq(apiTokens.userId, ta.id))).toEqual([]);
-    const [revocation] = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "auth.api_token_revoked"), eq(auditEvents.actorId, fixture.userIds.otherInstructor)));
+    const [revocation] = await db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.action, "auth.api_token_revoked"), eq(auditEvents.actorId, fixture.userIds.otherInstructor)));
     expect(revocation.detail).toMatchObject({ name: "marking script", reason: "no longer staff", userId: ta.id });
   });
 
   it("revokes the tokens of a sole-course TA made a student", async () => {
     const ta = await createUser("sole.ta@accounts.example");
     const [membership] = await db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: ta.id, role: "ta" }).returning();
-    const created = await handle(appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "export" } }));
+    const created = await handle(
+      appRequest("/account", { cookie: await sessionCookieFor(ta.id), form: { intent: "create-token", tokenName: "export" } }),
+    );
     const token = (await created.text()).match(/bpt_[a-z2-7]+/)![0];
     rawTokens.push(token);
     const instructor = await sessionCookieFor(fixture.userIds.instructor);
-    await handle(appRequest(`/courses/${fixture.courseId}/members/${membership.id}`, { cookie: instructor, form: { intent: "change-role", role: "student", cohortId: fixture.cohortId } }));
+    await handle(
+      appRequest(`/courses/${fixture.courseId}/members/${membership.id}`, {
+        cookie: instructor,
+        form: { intent: "change-role", role: "student", cohortId: fixture.cohortId },
+      }),
+    );
     expect((await handle(appRequest("/api/v1/me", { headers: { Authorization: `Bearer ${token}` } }))).status).toBe(401);
   });
 

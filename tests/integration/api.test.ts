@@ -24,7 +24,13 @@ type Case = { actor: Actor; path: (fixture: AccessFixture) => string; body?: unk
 
 const lab = (f: AccessFixture) => `/api/v1/labs/${f.labId}`;
 const missing = randomUUID();
-const engineInput = { mode: "viscometry", sphere: { diameter: 0.003, mass: 1.1e-4 }, fluid: { density: 1260 }, column: { timedDistance: 0.2, innerDiameter: 0.04 }, drops: [7.41, 7.52, 7.47] };
+const engineInput = {
+  mode: "viscometry",
+  sphere: { diameter: 0.003, mass: 1.1e-4 },
+  fluid: { density: 1260 },
+  column: { timedDistance: 0.2, innerDiameter: 0.04 },
+  drops: [7.41, 7.52, 7.47],
+};
 const handInKey = `api-test-${randomUUID()}`;
 const dropLog = { sphereId: "", temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.52, 7.39] };
 
@@ -40,14 +46,44 @@ const cases: Record<string, Case> = {
   "get /api/v1/labs/{labId}/drop-logs 401": { actor: "anonymous", path: (f) => `${lab(f)}/drop-logs` },
   "get /api/v1/labs/{labId}/drop-logs 403": { actor: "otherCohortStudent", path: (f) => `${lab(f)}/drop-logs` },
   "get /api/v1/labs/{labId}/drop-logs 404": { actor: "instructor", path: () => `/api/v1/labs/${missing}/drop-logs` },
-  "post /api/v1/labs/{labId}/drop-logs 201": { actor: "ownStudent", path: (f) => `${lab(f)}/drop-logs`, body: dropLog, headers: { "Idempotency-Key": handInKey } },
-  "post /api/v1/labs/{labId}/drop-logs 200": { actor: "ownStudent", path: (f) => `${lab(f)}/drop-logs`, body: dropLog, headers: { "Idempotency-Key": handInKey } },
-  "post /api/v1/labs/{labId}/drop-logs 400": { actor: "ownStudent", path: (f) => `${lab(f)}/drop-logs`, body: { ...dropLog, drops: [-1] }, headers: { "Idempotency-Key": randomUUID() } },
+  "post /api/v1/labs/{labId}/drop-logs 201": {
+    actor: "ownStudent",
+    path: (f) => `${lab(f)}/drop-logs`,
+    body: dropLog,
+    headers: { "Idempotency-Key": handInKey },
+  },
+  "post /api/v1/labs/{labId}/drop-logs 200": {
+    actor: "ownStudent",
+    path: (f) => `${lab(f)}/drop-logs`,
+    body: dropLog,
+    headers: { "Idempotency-Key": handInKey },
+  },
+  "post /api/v1/labs/{labId}/drop-logs 400": {
+    actor: "ownStudent",
+    path: (f) => `${lab(f)}/drop-logs`,
+    body: { ...dropLog, drops: [-1] },
+    headers: { "Idempotency-Key": randomUUID() },
+  },
   "post /api/v1/labs/{labId}/drop-logs 401": { actor: "anonymous", path: (f) => `${lab(f)}/drop-logs`, body: dropLog },
-  "post /api/v1/labs/{labId}/drop-logs 403": { actor: "instructor", path: (f) => `${lab(f)}/drop-logs`, body: dropLog, headers: { "Idempotency-Key": randomUUID() } },
-  "post /api/v1/labs/{labId}/drop-logs 404": { actor: "ownStudent", path: () => `/api/v1/labs/${missing}/drop-logs`, body: dropLog, headers: { "Idempotency-Key": randomUUID() } },
+  "post /api/v1/labs/{labId}/drop-logs 403": {
+    actor: "instructor",
+    path: (f) => `${lab(f)}/drop-logs`,
+    body: dropLog,
+    headers: { "Idempotency-Key": randomUUID() },
+  },
+  "post /api/v1/labs/{labId}/drop-logs 404": {
+    actor: "ownStudent",
+    path: () => `/api/v1/labs/${missing}/drop-logs`,
+    body: dropLog,
+    headers: { "Idempotency-Key": randomUUID() },
+  },
   // sameCohortStudent holds no kit, so there is nothing to reduce against.
-  "post /api/v1/labs/{labId}/drop-logs 409": { actor: "sameCohortStudent", path: (f) => `${lab(f)}/drop-logs`, body: dropLog, headers: { "Idempotency-Key": randomUUID() } },
+  "post /api/v1/labs/{labId}/drop-logs 409": {
+    actor: "sameCohortStudent",
+    path: (f) => `${lab(f)}/drop-logs`,
+    body: dropLog,
+    headers: { "Idempotency-Key": randomUUID() },
+  },
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 200": { actor: "assignedTa", path: (f) => `${lab(f)}/drop-logs/${f.dropLogId}` },
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 401": { actor: "anonymous", path: (f) => `${lab(f)}/drop-logs/${f.dropLogId}` },
   "get /api/v1/labs/{labId}/drop-logs/{dropLogId} 403": { actor: "sameCohortStudent", path: (f) => `${lab(f)}/drop-logs/${f.dropLogId}` },
@@ -103,9 +139,21 @@ async function markOwnStudent(): Promise<void> {
   const [discussion] = await saveRubric(db, {
     access: instructor,
     lab: (await loadMarkingLab(db, fixture.courseId, fixture.labId))!,
-    input: { criteria: [{ kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 }, { kind: "auto", title: "On time", rule: "on_time", maxPoints: 1 }] },
+    input: {
+      criteria: [
+        { kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 },
+        { kind: "auto", title: "On time", rule: "on_time", maxPoints: 1 },
+      ],
+    },
   });
-  await saveMarkCell(db, { access: instructor, labId: fixture.labId, membershipId: fixture.membershipIds.ownStudent, criterionId: discussion.id, points: 3, expectedVersion: 0 });
+  await saveMarkCell(db, {
+    access: instructor,
+    labId: fixture.labId,
+    membershipId: fixture.membershipIds.ownStudent,
+    criterionId: discussion.id,
+    points: 3,
+    expectedVersion: 0,
+  });
 }
 
 const pointer = (...parts: string[]) => parts.map((part) => part.replaceAll("~", "~0").replaceAll("/", "~1")).join("/");
@@ -127,13 +175,19 @@ describe("the OpenAPI document", () => {
       const described = document.paths[operation.path]?.[operation.method];
       expect(described, `${operation.method} ${operation.path}`).toBeDefined();
       for (const status of Object.keys(operation.responses)) {
-        expect(() => ajv.getSchema(`openapi.json#/${pointer("paths", operation.path, operation.method, "responses", status, "content", "application/json", "schema")}`)).not.toThrow();
+        expect(() =>
+          ajv.getSchema(
+            `openapi.json#/${pointer("paths", operation.path, operation.method, "responses", status, "content", "application/json", "schema")}`,
+          ),
+        ).not.toThrow();
       }
     }
   });
 
   it("has a case here for every answer it documents", () => {
-    const documented = apiOperations.flatMap((operation) => Object.keys(operation.responses).map((status) => `${operation.method} ${operation.path} ${status}`));
+    const documented = apiOperations.flatMap((operation) =>
+      Object.keys(operation.responses).map((status) => `${operation.method} ${operation.path} ${status}`),
+    );
     expect(documented.filter((key) => !(key in cases))).toEqual([]);
     expect(Object.keys(cases).filter((key) => !documented.includes(key))).toEqual([]);
   });
@@ -146,14 +200,21 @@ describe("every documented answer", () => {
     const body = await response.json();
     expect(response.status, JSON.stringify(body).slice(0, 300)).toBe(Number(status));
     expect(response.headers.get("content-type")).toMatch(/^application\/json/);
-    const validate = ajv.getSchema(`openapi.json#/${pointer("paths", path, method, "responses", status, "content", "application/json", "schema")}`)!;
+    const validate = ajv.getSchema(
+      `openapi.json#/${pointer("paths", path, method, "responses", status, "content", "application/json", "schema")}`,
+    )!;
     expect(validate(body), JSON.stringify(validate.errors)).toBe(true);
   });
 
   it("gives a TA the marks of their own cohort only, with the totals", async () => {
     const response = await send("get", { actor: "assignedTa", path: (f) => `${lab(f)}/marks` });
-    const body = (await response.json()) as { criteria: { id: string; title: string }[]; marks: { membershipId: string; total: number | null; points: Record<string, number | null> }[] };
-    expect(body.marks.map((mark) => mark.membershipId).sort()).toEqual([fixture.membershipIds.ownStudent, fixture.membershipIds.sameCohortStudent].sort());
+    const body = (await response.json()) as {
+      criteria: { id: string; title: string }[];
+      marks: { membershipId: string; total: number | null; points: Record<string, number | null> }[];
+    };
+    expect(body.marks.map((mark) => mark.membershipId).sort()).toEqual(
+      [fixture.membershipIds.ownStudent, fixture.membershipIds.sameCohortStudent].sort(),
+    );
     const own = body.marks.find((mark) => mark.membershipId === fixture.membershipIds.ownStudent)!;
     // 3 for the discussion, 1 for a hand-in on time.
     expect(own.total).toBe(4);
@@ -172,7 +233,13 @@ describe("every documented answer", () => {
 describe("addresses and methods outside the catalogue", () => {
   const errorShape = () => ajv.getSchema("openapi.json#/components/schemas/Error")!;
   const request = (method: string, path: string) =>
-    handle(new Request(new URL(path, appOrigin()), { method, headers: { Origin: appOrigin(), "Content-Type": "application/json" }, body: method === "GET" ? undefined : "{}" }));
+    handle(
+      new Request(new URL(path, appOrigin()), {
+        method,
+        headers: { Origin: appOrigin(), "Content-Type": "application/json" },
+        body: method === "GET" ? undefined : "{}",
+      }),
+    );
 
   it.each(["GET", "POST", "DELETE"])("answers an unknown address (%s) with 404 in the error shape", async (method) => {
     for (const path of ["/api/v1/no-such-thing", `/api/v1/labs/${missing}/drop-logs/${missing}/extra`, "/api/v2/me"]) {
@@ -194,7 +261,10 @@ describe("addresses and methods outside the catalogue", () => {
       byPath.set(operation.path, methods);
     }
     for (const [path, allowed] of byPath) {
-      const concrete = path.replace("{labId}", fixture.labId).replace("{courseId}", fixture.courseId).replace("{dropLogId}", fixture.dropLogId);
+      const concrete = path
+        .replace("{labId}", fixture.labId)
+        .replace("{courseId}", fixture.courseId)
+        .replace("{dropLogId}", fixture.dropLogId);
       for (const method of ["GET", "POST", "PUT", "PATCH", "DELETE"].filter((candidate) => !allowed.has(candidate))) {
         const response = await request(method, concrete);
         expect(response.status, `${method} ${path}`).toBe(405);

@@ -14,7 +14,8 @@ type Method = "GET" | "POST";
 type MatrixRow = { method: Method; path: string; expect: Expectation; query?: string; form?: Record<string, string> };
 
 const students = { ownStudent: 0, sameCohortStudent: 0, otherCohortStudent: 0 };
-const fill = <T extends Record<string, number>>(keys: T, status: number) => Object.fromEntries(Object.keys(keys).map((key) => [key, status])) as Record<keyof T, number>;
+const fill = <T extends Record<string, number>>(keys: T, status: number) =>
+  Object.fromEntries(Object.keys(keys).map((key) => [key, status])) as Record<keyof T, number>;
 
 // Presets: the status for those who may, and what everybody else gets (302 to the sign-in page, or 403).
 const everyone = (status: number): Expectation => Object.fromEntries(actors.map((actor) => [actor, status])) as Expectation;
@@ -34,7 +35,12 @@ const courseCreators = (status: number): Expectation => ({ ...signedIn(403), ins
 
 // A form no action accepts: allowed people get the action's 400 (nothing changes), others their 302/403.
 const probe = { intent: "authorization-matrix-probe" };
-const row = (method: Method, path: string, expect: Expectation, extra: Partial<MatrixRow> = {}): MatrixRow => ({ method, path, expect, ...extra });
+const row = (method: Method, path: string, expect: Expectation, extra: Partial<MatrixRow> = {}): MatrixRow => ({
+  method,
+  path,
+  expect,
+  ...extra,
+});
 
 const matrix: MatrixRow[] = [
   row("GET", "/", everyone(200)),
@@ -206,8 +212,14 @@ describe("authorization matrix", () => {
   it("lists every route of the built app, and no route that is gone", () => {
     const listed = new Set(matrix.map((entry) => `${entry.method} ${entry.path}`));
     const built = builtRoutes(build);
-    expect(built.filter((key) => !listed.has(key)), "routes missing from the matrix").toEqual([]);
-    expect([...listed].filter((key) => !built.includes(key)), "matrix rows for routes that do not exist").toEqual([]);
+    expect(
+      built.filter((key) => !listed.has(key)),
+      "routes missing from the matrix",
+    ).toEqual([]);
+    expect(
+      [...listed].filter((key) => !built.includes(key)),
+      "matrix rows for routes that do not exist",
+    ).toEqual([]);
   });
 
   it.each(matrix.map((entry) => [`${entry.method} ${entry.path}`, entry] as const))("%s", async (_name, entry) => {
@@ -216,9 +228,16 @@ describe("authorization matrix", () => {
     for (const actor of actors) {
       // A fresh session per request: some rows (sign-out) end the session they are sent with.
       const cookie = actor === "anonymous" ? null : await sessionCookieFor(fixture.userIds[actor]);
-      const response = await handle(appRequest(path, { method: entry.method, cookie, form: entry.method === "POST" ? (entry.form ?? probe) : undefined }));
+      const response = await handle(
+        appRequest(path, { method: entry.method, cookie, form: entry.method === "POST" ? (entry.form ?? probe) : undefined }),
+      );
       actual[actor] = response.status;
-      if (response.status === 302 && actor === "anonymous" && entry.expect.anonymous === 302 && !["/sign-out", "/sign-in"].includes(entry.path)) {
+      if (
+        response.status === 302 &&
+        actor === "anonymous" &&
+        entry.expect.anonymous === 302 &&
+        !["/sign-out", "/sign-in"].includes(entry.path)
+      ) {
         expect(response.headers.get("location"), `${actor} is sent to sign in`).toMatch(/^\/sign-in\?redirectTo=/);
       }
       await response.body?.cancel();

@@ -53,7 +53,9 @@ describe("search parameters", () => {
   it("still opens the pages with good parameters", async () => {
     expect((await handle(appRequest(`${page(fixture).kits}?q=K-0&page=1`, { cookie: cookies.instructor }))).status).toBe(200);
     expect((await handle(appRequest(`${page(fixture).parts}?search=S-&page=2`, { cookie: cookies.instructor }))).status).toBe(200);
-    expect((await handle(appRequest(`${page(fixture).marking}?cohort=${fixture.cohortId}&page=1`, { cookie: cookies.assignedTa }))).status).toBe(200);
+    expect(
+      (await handle(appRequest(`${page(fixture).marking}?cohort=${fixture.cohortId}&page=1`, { cookie: cookies.assignedTa }))).status,
+    ).toBe(200);
   });
 
   it("answers a NUL in the sign-in page's return address with 400, not a broken redirect", async () => {

@@ -36,13 +36,27 @@ describe("insertMany", () => {
     const rows = [person("cy"), { ...person("di"), mayCreateCourses: true }];
     const { statements, result } = await countStatements(() => insertMany(db, users, rows).catch((error: unknown) => error));
     expect(result).toBeInstanceOf(Error);
-    expect((result as Error).message).toMatch(/insertMany into users: row 1 names the columns id, email, name, mayCreateCourses, but the first row names id, email, name/);
+    expect((result as Error).message).toMatch(
+      /insertMany into users: row 1 names the columns id, email, name, mayCreateCourses, but the first row names id, email, name/,
+    );
     expect(statements).toBe(0);
-    expect(await db.select({ id: users.id }).from(users).where(inArray(users.id, rows.map((row) => row.id)))).toEqual([]);
+    expect(
+      await db
+        .select({ id: users.id })
+        .from(users)
+        .where(
+          inArray(
+            users.id,
+            rows.map((row) => row.id),
+          ),
+        ),
+    ).toEqual([]);
   });
 
   it("refuses a row that leaves out a column the first row names", async () => {
     const rows = [{ ...person("ed"), studentNumber: "E-5" }, person("flo")];
-    await expect(insertMany(db, users, rows)).rejects.toThrow(/row 1 names the columns id, email, name, but the first row names id, email, name, studentNumber/);
+    await expect(insertMany(db, users, rows)).rejects.toThrow(
+      /row 1 names the columns id, email, name, but the first row names id, email, name, studentNumber/,
+    );
   });
 });

@@ -8,7 +8,13 @@ import { and, count, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { comparisonLabelChanges, comparisonLabels, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
-import { getLabComparison, loadComparisonLab, previewLabSettings, relabelLab, updateComparisonSettings } from "~/server/comparison/class-comparison.server";
+import {
+  getLabComparison,
+  loadComparisonLab,
+  previewLabSettings,
+  relabelLab,
+  updateComparisonSettings,
+} from "~/server/comparison/class-comparison.server";
 import { listPartBias } from "~/server/comparison/part-quality.server";
 import { db } from "~/server/db.server";
 import { handInDropLog } from "~/server/drop-logs/hand-in.server";
@@ -36,21 +42,36 @@ function accessOf(actor: "ownStudent" | "sameCohortStudent" | "instructor", role
 async function newLab(title: string, kind: "drag" | "viscometry" = "drag") {
   const [lab] = await db
     .insert(labs)
-    .values({ courseId: fixture.courseId, title, kind, status: "published", opensAt: new Date(Date.now() - day), dueAt: new Date(Date.now() + day), resolutions })
+    .values({
+      courseId: fixture.courseId,
+      title,
+      kind,
+      status: "published",
+      opensAt: new Date(Date.now() - day),
+      dueAt: new Date(Date.now() + day),
+      resolutions,
+    })
     .returning();
   await db.insert(labCohorts).values({ labId: lab.id, cohortId: fixture.cohortId });
   return (await loadComparisonLab(db, fixture.courseId, lab.id))!;
 }
 
 const storedLabels = (labId: string) => db.select().from(comparisonLabels).where(eq(comparisonLabels.labId, labId));
-const historyCount = async (labId: string) => (await db.select({ n: count() }).from(comparisonLabelChanges).where(eq(comparisonLabelChanges.labId, labId)))[0].n;
+const historyCount = async (labId: string) =>
+  (await db.select({ n: count() }).from(comparisonLabelChanges).where(eq(comparisonLabelChanges.labId, labId)))[0].n;
 
 beforeAll(async () => {
   fixture = await createAccessFixture("cc");
   instructorAccess = accessOf("instructor", "instructor");
   // A second kit, for sameCohortStudent: the same kind of sphere and column, the shared fluid lot.
-  const [fluidLot] = await db.select().from(parts).where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, "F-1")));
-  const [kit] = await db.insert(kits).values({ courseId: fixture.courseId, number: "K-02", state: "at_home", holderMembershipId: fixture.membershipIds.sameCohortStudent }).returning();
+  const [fluidLot] = await db
+    .select()
+    .from(parts)
+    .where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, "F-1")));
+  const [kit] = await db
+    .insert(kits)
+    .values({ courseId: fixture.courseId, number: "K-02", state: "at_home", holderMembershipId: fixture.membershipIds.sameCohortStudent })
+    .returning();
   const [sphere, column] = await db
     .insert(parts)
     .values([
@@ -68,14 +89,24 @@ beforeAll(async () => {
 describe("a method change", () => {
   it("relabels every hand-in in one transaction, and the history grows by the changed ones", async () => {
     const lab = await newLab("Method change");
-    await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members: [...quietClass(), { figure: 1.31 }, { figure: 1.16 }].map((figure) => (typeof figure === "number" ? { figure } : figure)), label: "mc" });
+    await seedClass(db, {
+      courseId: fixture.courseId,
+      labId: lab.id,
+      cohortId: fixture.cohortId,
+      members: [...quietClass(), { figure: 1.31 }, { figure: 1.16 }].map((figure) => (typeof figure === "number" ? { figure } : figure)),
+      label: "mc",
+    });
     const first = await relabelLab(db, lab.id);
     expect(first).toMatchObject({ labelled: 39, changed: 39 });
     const before = new Map((await storedLabels(lab.id)).map((row) => [row.dropLogId, row.label]));
     // Grubbs at α = 0.05 removes both planted figures from so tight a class; Tukey at k = 1.5 calls 1.16 only suspect.
     expect([...before.values()].filter((label) => label === "outlier")).toHaveLength(2);
 
-    const outcome = await updateComparisonSettings(db, { access: instructorAccess, lab, settings: { method: "iqr", alpha: 0.05, maxOutliers: 3, k: 1.5 } });
+    const outcome = await updateComparisonSettings(db, {
+      access: instructorAccess,
+      lab,
+      settings: { method: "iqr", alpha: 0.05, maxOutliers: 3, k: 1.5 },
+    });
     const after = await storedLabels(lab.id);
     const changed = after.filter((row) => before.get(row.dropLogId) !== row.label).length;
     expect(changed).toBeGreaterThan(0);
@@ -98,7 +129,13 @@ describe("the generalized ESD method", () => {
       1.94, 1.96, 1.99, 2.06, 2.09, 2.1, 2.14, 2.15, 2.23, 2.24, 2.26, 2.35, 2.37, 2.4, 2.47, 2.54, 2.62, 2.64, 2.9, 2.92, 2.92, 2.93, 3.21,
       3.26, 3.3, 3.59, 3.68, 4.3, 4.64, 5.34, 5.42, 6.01,
     ];
-    await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members: rosner.map((x) => ({ figure: Math.exp(x) })), label: "esd" });
+    await seedClass(db, {
+      courseId: fixture.courseId,
+      labId: lab.id,
+      cohortId: fixture.cohortId,
+      members: rosner.map((x) => ({ figure: Math.exp(x) })),
+      label: "esd",
+    });
     const settings = { method: "esd" as const, alpha: 0.05, maxOutliers: 10, k: 1.5 };
     await updateComparisonSettings(db, { access: instructorAccess, lab, settings });
     const stored = await storedLabels(lab.id);
@@ -121,18 +158,36 @@ describe("a hand-in arriving", () => {
   it("changes the others' labels at once when read, and in the stored labels once the job has run", async () => {
     const lab = (await loadComparisonLab(db, fixture.courseId, fixture.labId))!;
     const [own] = (await getLabComparison(db, instructorAccess, lab)).handIns;
-    await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members: quietClass(9).map((figure) => ({ figure: own.figure * figure })), label: "arrive" });
+    await seedClass(db, {
+      courseId: fixture.courseId,
+      labId: lab.id,
+      cohortId: fixture.cohortId,
+      members: quietClass(9).map((figure) => ({ figure: own.figure * figure })),
+      label: "arrive",
+    });
     await relabelLab(db, lab.id);
     expect((await storedLabels(lab.id)).every((row) => row.reason.endsWith("(n = 10)"))).toBe(true);
     const historyBefore = await historyCount(lab.id);
-    const jobs = () => db.execute<{ n: number }>(sql`select count(*)::int as n from pgboss.job where name = ${queues.classComparisonRequested} and data->>'labId' = ${lab.id}`);
+    const jobs = () =>
+      db.execute<{ n: number }>(
+        sql`select count(*)::int as n from pgboss.job where name = ${queues.classComparisonRequested} and data->>'labId' = ${lab.id}`,
+      );
     const jobsBefore = (await jobs()).rows[0].n;
 
     await handInDropLog(db, {
       access: accessOf("sameCohortStudent", "student"),
       labId: lab.id,
       idempotencyKey: "cc-arriving-hand-in",
-      input: { sphereId: (await db.select().from(parts).where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, "S-2"))))[0].id, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] },
+      input: {
+        sphereId: (
+          await db
+            .select()
+            .from(parts)
+            .where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, "S-2")))
+        )[0].id,
+        temperatureC: 22,
+        drops: [7.41, 7.52, 7.47, 7.38, 7.5],
+      },
     });
     expect((await jobs()).rows[0].n).toBe(jobsBefore + 1);
 
@@ -154,11 +209,22 @@ describe("a hand-in arriving", () => {
     const held = new Promise<void>((resolve) => (release = resolve));
     let opened!: () => void;
     const isOpen = new Promise<void>((resolve) => (opened = resolve));
-    const sphereOf = async (label: string) => (await db.select().from(parts).where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, label))))[0].id;
+    const sphereOf = async (label: string) =>
+      (
+        await db
+          .select()
+          .from(parts)
+          .where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, label)))
+      )[0].id;
     const rollback = new Error("rolled back on purpose");
     const holder = db
       .transaction(async (tx) => {
-        await handInDropLog(tx, { access: accessOf("ownStudent", "student"), labId: fixture.labId, idempotencyKey: "cc-held-hand-in", input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.4, 7.5, 7.45] } });
+        await handInDropLog(tx, {
+          access: accessOf("ownStudent", "student"),
+          labId: fixture.labId,
+          idempotencyKey: "cc-held-hand-in",
+          input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.4, 7.5, 7.45] },
+        });
         await relabelLab(tx, fixture.labId);
         opened();
         await held;
@@ -227,9 +293,17 @@ describe("the comparison page", () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const statementsFor = async (size: number) => {
       const lab = await newLab(`Size ${size}`);
-      await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members: quietClass(size).map((figure) => ({ figure })), label: `size${size}` });
+      await seedClass(db, {
+        courseId: fixture.courseId,
+        labId: lab.id,
+        cohortId: fixture.cohortId,
+        members: quietClass(size).map((figure) => ({ figure })),
+        label: `size${size}`,
+      });
       const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/comparison?label=consistent`, { cookie });
-      const { statements, result } = await countStatements(() => loader({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: new RouterContextProvider() } as never));
+      const { statements, result } = await countStatements(() =>
+        loader({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: new RouterContextProvider() } as never),
+      );
       expect(result.handIns).toHaveLength(size);
       return statements;
     };

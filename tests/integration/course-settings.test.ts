@@ -20,7 +20,8 @@ beforeAll(async () => {
   cookie = await sessionCookieFor(fixture.userIds.instructor);
 });
 
-const rename = (cohortId: string, name: string) => handle(appRequest(`/courses/${fixture.courseId}/settings`, { cookie, form: { intent: "rename-cohort", cohortId, name } }));
+const rename = (cohortId: string, name: string) =>
+  handle(appRequest(`/courses/${fixture.courseId}/settings`, { cookie, form: { intent: "rename-cohort", cohortId, name } }));
 const nameOf = async (cohortId: string) => (await db.select({ name: cohorts.name }).from(cohorts).where(eq(cohorts.id, cohortId)))[0]?.name;
 
 describe("renaming a cohort", () => {

@@ -34,7 +34,14 @@ describe("with the database unreachable", () => {
   it.each([
     ["a signed-in call", () => appRequest("/api/v1/me", { cookie })],
     ["a personal token", () => appRequest("/api/v1/me", { headers: { Authorization: "Bearer bpt_some-token" } })],
-    ["a hand-in", () => appRequest("/api/v1/labs/00000000-0000-4000-8000-000000000000/drop-logs", { method: "POST", headers: { Authorization: "Bearer bpt_some-token", "Content-Type": "application/json" } })],
+    [
+      "a hand-in",
+      () =>
+        appRequest("/api/v1/labs/00000000-0000-4000-8000-000000000000/drop-logs", {
+          method: "POST",
+          headers: { Authorization: "Bearer bpt_some-token", "Content-Type": "application/json" },
+        }),
+    ],
   ])("the API answers %s with 503 in its error shape, saying nothing was stored", async (_, request) => {
     const response = await handle(request());
     expect(response.status).toBe(503);
@@ -46,7 +53,10 @@ describe("with the database unreachable", () => {
 
   it.each([
     ["a signed-in page", () => appRequest("/", { cookie })],
-    ["a sign-in attempt", () => appRequest("/sign-in", { form: { intent: "password", email: "someone@example.org", password: "a password" } })],
+    [
+      "a sign-in attempt",
+      () => appRequest("/sign-in", { form: { intent: "password", email: "someone@example.org", password: "a password" } }),
+    ],
   ])("answers %s with the 503 page", async (_, request) => {
     const response = await handle(request());
     expect(response.status).toBe(503);

@@ -19,7 +19,9 @@ async function databaseNames(): Promise<string[]> {
   const client = new pg.Client({ connectionString: maintenanceUrl(testDatabaseUrl()) });
   await client.connect();
   try {
-    const { rows } = await client.query<{ datname: string }>("select datname from pg_database where datname in ('benchpost', 'benchpost_test') order by 1");
+    const { rows } = await client.query<{ datname: string }>(
+      "select datname from pg_database where datname in ('benchpost', 'benchpost_test') order by 1",
+    );
     return rows.map((row) => row.datname);
   } finally {
     await client.end();

@@ -40,7 +40,17 @@ const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01
 async function createLab(title = "Settling across the clock change") {
   const [lab] = await db
     .insert(labs)
-    .values({ courseId: fixture.courseId, title, kind: "drag", status: "published", opensAt: dublin("2027-10-01T09:00"), dueAt: classDue, reminderOffsetsHours: [48, 6], requiredDrops: 5, resolutions })
+    .values({
+      courseId: fixture.courseId,
+      title,
+      kind: "drag",
+      status: "published",
+      opensAt: dublin("2027-10-01T09:00"),
+      dueAt: classDue,
+      reminderOffsetsHours: [48, 6],
+      requiredDrops: 5,
+      resolutions,
+    })
     .returning();
   await db.insert(labCohorts).values([
     { labId: lab.id, cohortId: fixture.cohortId },
@@ -58,7 +68,12 @@ const before = (dueAt: Date, hours: number) => new Date(dueAt.getTime() - hours 
 /** The reminders of the lab: who, for which due time, and what their e-mail said. */
 async function remindersOf(labId: string) {
   const rows = await db
-    .select({ membershipId: labReminders.membershipId, dueAt: labReminders.dueAt, offsetHours: labReminders.offsetHours, props: emailOutbox.props })
+    .select({
+      membershipId: labReminders.membershipId,
+      dueAt: labReminders.dueAt,
+      offsetHours: labReminders.offsetHours,
+      props: emailOutbox.props,
+    })
     .from(labReminders)
     .leftJoin(emailOutbox, eq(emailOutbox.id, labReminders.outboxId))
     .where(eq(labReminders.labId, labId));
@@ -67,12 +82,35 @@ async function remindersOf(labId: string) {
 
 /** A new cohort of 197 students, none handed in, for the lab; every third has their own extension to `extendedDue`. */
 async function bigCohortFor(labId: string) {
-  const [cohort] = await db.insert(cohorts).values({ courseId: fixture.courseId, name: `Big cohort ${randomUUID().slice(0, 6)}` }).returning();
+  const [cohort] = await db
+    .insert(cohorts)
+    .values({ courseId: fixture.courseId, name: `Big cohort ${randomUUID().slice(0, 6)}` })
+    .returning();
   await db.insert(labCohorts).values({ labId, cohortId: cohort.id });
   const rows = Array.from({ length: 197 }, (_, index) => ({ userId: randomUUID(), membershipId: randomUUID(), index }));
-  await insertMany(db, users, rows.map((row) => ({ id: row.userId, email: `${cohort.id}-${row.index}@class.example`, name: `Deadlines student ${row.index}` })));
-  await insertMany(db, courseMemberships, rows.map((row) => ({ id: row.membershipId, courseId: fixture.courseId, userId: row.userId, role: "student" as const, cohortId: cohort.id })));
-  await insertMany(db, labExtensions, rows.filter((row) => row.index % 3 === 0).map((row) => ({ labId, membershipId: row.membershipId, dueAt: extendedDue, reason: "Kit arrived late" })));
+  await insertMany(
+    db,
+    users,
+    rows.map((row) => ({ id: row.userId, email: `${cohort.id}-${row.index}@class.example`, name: `Deadlines student ${row.index}` })),
+  );
+  await insertMany(
+    db,
+    courseMemberships,
+    rows.map((row) => ({
+      id: row.membershipId,
+      courseId: fixture.courseId,
+      userId: row.userId,
+      role: "student" as const,
+      cohortId: cohort.id,
+    })),
+  );
+  await insertMany(
+    db,
+    labExtensions,
+    rows
+      .filter((row) => row.index % 3 === 0)
+      .map((row) => ({ labId, membershipId: row.membershipId, dueAt: extendedDue, reason: "Kit arrived late" })),
+  );
   return cohort.id;
 }
 
@@ -104,7 +142,9 @@ describe("reminders of the effective due time", () => {
     const lab = await createLab();
     await extend(lab.id, { membershipId: fixture.membershipIds.sameCohortStudent }, extendedDue);
     const now = dublin("2027-10-20T09:00");
-    const scheduled = await db.transaction((tx) => scheduleLabReminders(tx, { id: lab.id, dueAt: extendedDue, reminderOffsetsHours: lab.reminderOffsetsHours }, now));
+    const scheduled = await db.transaction((tx) =>
+      scheduleLabReminders(tx, { id: lab.id, dueAt: extendedDue, reminderOffsetsHours: lab.reminderOffsetsHours }, now),
+    );
     expect(scheduled).toBe(2);
     const jobs = await db.execute<{ data: LabReminderJob; start_after: Date }>(
       sql`select data, start_after from pgboss.job where name = ${queues.labReminder} and data->>'labId' = ${lab.id} and (data->>'offsetHours')::int = 48`,
@@ -135,7 +175,10 @@ describe("reminders of the effective due time", () => {
       [classDue.toISOString(), 48],
       [extendedDue.toISOString(), 48],
     ]);
-    const [email] = await db.select().from(emailOutbox).where(eq(emailOutbox.dedupeKey, `reminder:${lab.id}:${fixture.membershipIds.ownStudent}:${extendedDue.toISOString()}:48`));
+    const [email] = await db
+      .select()
+      .from(emailOutbox)
+      .where(eq(emailOutbox.dedupeKey, `reminder:${lab.id}:${fixture.membershipIds.ownStudent}:${extendedDue.toISOString()}:48`));
     expect(email.props).toMatchObject({ dueAtText: "Mon, 1 Nov 2027, 09:00 (Europe/Dublin)", hoursLeft: 48 });
   });
 
@@ -144,10 +187,16 @@ describe("reminders of the effective due time", () => {
     await extend(lab.id, { membershipId: fixture.membershipIds.ownStudent }, extendedDue);
     const elsewhere = dublin("2027-11-02T09:00");
     expect(await sendLabReminders(db, job(lab.id, elsewhere, 48), before(elsewhere, 48))).toEqual({ sent: 0, skipped: "due-time-changed" });
-    expect(await sendLabReminders(db, job(lab.id, extendedDue, 6), new Date(extendedDue.getTime() + 1))).toEqual({ sent: 0, skipped: "past-due" });
+    expect(await sendLabReminders(db, job(lab.id, extendedDue, 6), new Date(extendedDue.getTime() + 1))).toEqual({
+      sent: 0,
+      skipped: "past-due",
+    });
     // An extension withdrawn: its job finds no such due time any more.
     await db.delete(labExtensions).where(eq(labExtensions.labId, lab.id));
-    expect(await sendLabReminders(db, job(lab.id, extendedDue, 48), before(extendedDue, 48))).toEqual({ sent: 0, skipped: "due-time-changed" });
+    expect(await sendLabReminders(db, job(lab.id, extendedDue, 48), before(extendedDue, 48))).toEqual({
+      sent: 0,
+      skipped: "due-time-changed",
+    });
     expect(await remindersOf(lab.id)).toEqual([]);
   });
 
@@ -165,7 +214,14 @@ describe("reminders of the effective due time", () => {
       await scheduleLabReminders(tx, { id: lab.id, dueAt: withdrawn, reminderOffsetsHours: [48] }, now);
     });
     const listed = await listScheduledReminders(db, lab);
-    expect(listed.map((entry) => ({ offsetHours: entry.offsetHours, dueAt: new Date(entry.dueAt).toISOString(), startAfter: new Date(entry.startAfter).toISOString(), extension: entry.extension }))).toEqual([
+    expect(
+      listed.map((entry) => ({
+        offsetHours: entry.offsetHours,
+        dueAt: new Date(entry.dueAt).toISOString(),
+        startAfter: new Date(entry.startAfter).toISOString(),
+        extension: entry.extension,
+      })),
+    ).toEqual([
       { offsetHours: 48, dueAt: classDue.toISOString(), startAfter: before(classDue, 48).toISOString(), extension: false },
       { offsetHours: 6, dueAt: classDue.toISOString(), startAfter: before(classDue, 6).toISOString(), extension: false },
       { offsetHours: 48, dueAt: extendedDue.toISOString(), startAfter: before(extendedDue, 48).toISOString(), extension: true },
@@ -187,14 +243,23 @@ describe("reminders of the effective due time", () => {
     const extendedRun = await countStatements(() => sendLabReminders(db, job(large.id, extendedDue, 48), before(extendedDue, 48)));
     expect(extendedRun.result.sent).toBe(66);
     expect(extendedRun.statements).toBe(smallRun.statements);
-    const reminded = await db.select({ count: sql<number>`count(*)::int` }).from(labReminders).where(and(eq(labReminders.labId, large.id), eq(labReminders.dueAt, extendedDue)));
+    const reminded = await db
+      .select({ count: sql<number>`count(*)::int` })
+      .from(labReminders)
+      .where(and(eq(labReminders.labId, large.id), eq(labReminders.dueAt, extendedDue)));
     expect(reminded[0].count).toBe(66);
   });
 });
 
 function instructorAccess(cohortIds: string[] = [fixture.cohortId, fixture.otherCohortId]): CourseAccess {
   return {
-    user: { id: fixture.userIds.instructor, email: "instructor@deadlines.example", name: "Test instructor", sessionId: null, via: "session" },
+    user: {
+      id: fixture.userIds.instructor,
+      email: "instructor@deadlines.example",
+      name: "Test instructor",
+      sessionId: null,
+      via: "session",
+    },
     course: { id: fixture.courseId, title: "Settling Spheres", code: "deadlines-A", term: "Test term", timeZone: "Europe/Dublin" },
     membership: { id: fixture.membershipIds.instructor, role: "instructor", cohortId: null },
     cohortIds,
@@ -204,7 +269,13 @@ function instructorAccess(cohortIds: string[] = [fixture.cohortId, fixture.other
 const studentAccess = {
   get ownStudent(): CourseAccess {
     return {
-      user: { id: fixture.userIds.ownStudent, email: "ownstudent@deadlines.example", name: "Test ownStudent", sessionId: null, via: "session" },
+      user: {
+        id: fixture.userIds.ownStudent,
+        email: "ownstudent@deadlines.example",
+        name: "Test ownStudent",
+        sessionId: null,
+        via: "session",
+      },
       course: { id: fixture.courseId, title: "Settling Spheres", code: "deadlines-A", term: "Test term", timeZone: "Europe/Dublin" },
       membership: { id: fixture.membershipIds.ownStudent, role: "student", cohortId: fixture.cohortId },
       cohortIds: [fixture.cohortId],
@@ -215,7 +286,11 @@ const studentAccess = {
 /** The lab with a rubric whose only criterion is the automatic "on time" one (1 point, all of it off when late). */
 async function markingLabOf(labId: string) {
   const bare = (await loadMarkingLab(db, fixture.courseId, labId))!;
-  await saveRubric(db, { access: instructorAccess(), lab: bare, input: { criteria: [{ kind: "auto", title: "On time", rule: "on_time", maxPoints: 1, params: { latePenaltyPoints: 1 } }] } });
+  await saveRubric(db, {
+    access: instructorAccess(),
+    lab: bare,
+    input: { criteria: [{ kind: "auto", title: "On time", rule: "on_time", maxPoints: 1, params: { latePenaltyPoints: 1 } }] },
+  });
   return (await loadMarkingLab(db, fixture.courseId, labId))!;
 }
 
@@ -235,18 +310,25 @@ describe("missing only after the student's own due time", () => {
       const desk = await loadMarkingDesk(db, { access: instructorAccess(), lab: markingLab, filters: page, now });
       const dashboard = await getLabDashboard(db, instructorAccess(), dashboardLab, now);
       const exported = await loadMarksJson(db, { access: instructorAccess(), lab: markingLab, now });
-      const byStudent = (rows: { membershipId: string; status: string }[]) => Object.fromEntries(rows.map((row) => [row.membershipId, row.status]));
+      const byStudent = (rows: { membershipId: string; status: string }[]) =>
+        Object.fromEntries(rows.map((row) => [row.membershipId, row.status]));
       return {
         desk: byStudent(desk.rows),
         counts: desk.counts,
         dashboard: byStudent(dashboard.students),
-        cohorts: Object.fromEntries(dashboard.cohorts.map((cohort) => [cohort.cohortId, { notDue: cohort.notDue, missing: cohort.missing }])),
+        cohorts: Object.fromEntries(
+          dashboard.cohorts.map((cohort) => [cohort.cohortId, { notDue: cohort.notDue, missing: cohort.missing }]),
+        ),
         exported: byStudent(exported.marks.map((mark) => ({ membershipId: mark.membershipId, status: mark.handIn }))),
         deskRows: desk.rows,
       };
     };
     const { ownStudent, sameCohortStudent, otherCohortStudent } = fixture.membershipIds;
-    const every = (own: string, same: string, other: string) => ({ [ownStudent]: own, [sameCohortStudent]: same, [otherCohortStudent]: other });
+    const every = (own: string, same: string, other: string) => ({
+      [ownStudent]: own,
+      [sameCohortStudent]: same,
+      [otherCohortStudent]: other,
+    });
 
     // Up to the class's due instant, nobody is missing.
     const atDue = await standings(classDue);
@@ -261,7 +343,12 @@ describe("missing only after the student's own due time", () => {
     expect(saturday.cohorts).toEqual({ [fixture.cohortId]: { notDue: 1, missing: 1 }, [fixture.otherCohortId]: { notDue: 1, missing: 0 } });
     // The desk names the student's own due time and why (staff see the reason); the class's students have none.
     const row = (id: string) => saturday.deskRows.find((candidate) => candidate.membershipId === id)!;
-    expect(row(sameCohortStudent).deadline).toEqual({ dueAt: "2027-11-01T09:00:00+00:00", lateCutoffAt: "2027-11-01T12:00:00+00:00", extendedBy: "student", extensionReason: "Flooded lab bench" });
+    expect(row(sameCohortStudent).deadline).toEqual({
+      dueAt: "2027-11-01T09:00:00+00:00",
+      lateCutoffAt: "2027-11-01T12:00:00+00:00",
+      extendedBy: "student",
+      extensionReason: "Flooded lab bench",
+    });
     expect(row(otherCohortStudent).deadline).toMatchObject({ extendedBy: "cohort", lateCutoffAt: null });
     expect(new Date(row(otherCohortStudent).deadline.dueAt).toISOString()).toBe(cohortDue.toISOString());
     expect(row(ownStudent).deadline).toMatchObject({ extendedBy: null, extensionReason: null });
@@ -295,7 +382,11 @@ describe("missing only after the student's own due time", () => {
     expect(many.dashboard.statements).toBe(few.dashboard.statements);
     // 66 of the big cohort are extended past Saturday; the other 131 and the fixture's 3 are missing.
     expect(many.desk.result.counts).toMatchObject({ all: 200, "not-due": 66, missing: 134 });
-    expect(many.dashboard.result.cohorts.find((cohort) => cohort.cohortId === bigCohort)).toMatchObject({ students: 197, notDue: 66, missing: 131 });
+    expect(many.dashboard.result.cohorts.find((cohort) => cohort.cohortId === bigCohort)).toMatchObject({
+      students: 197,
+      notDue: 66,
+      missing: 131,
+    });
   });
 });
 
@@ -303,14 +394,36 @@ describe("late and on time under an extension", () => {
   it("takes the on-time criterion and the desk's late from the version's flag, re-decided when an extension is granted; the extension's cut-off refuses after it", async () => {
     const [row] = await db
       .insert(labs)
-      .values({ courseId: fixture.courseId, title: "Late then extended", kind: "drag", status: "published", opensAt: dublin("2027-10-01T09:00"), dueAt: classDue, lateCutoffAt: dublin("2027-10-30T17:00"), requiredDrops: 5, resolutions })
+      .values({
+        courseId: fixture.courseId,
+        title: "Late then extended",
+        kind: "drag",
+        status: "published",
+        opensAt: dublin("2027-10-01T09:00"),
+        dueAt: classDue,
+        lateCutoffAt: dublin("2027-10-30T17:00"),
+        requiredDrops: 5,
+        resolutions,
+      })
       .returning();
     await db.insert(labCohorts).values({ labId: row.id, cohortId: fixture.cohortId });
     const lab = await markingLabOf(row.id);
     const handIn = (key: string, now: Date) =>
-      handInDropLog(db, { access: studentAccess.ownStudent, labId: lab.id, input: { sphereId: fixture.sphereId, temperatureC: 22.4, drops: [7.41, 7.52, 7.47, 7.38, 7.5] }, idempotencyKey: key, now });
-    const ownRow = async (now: Date) => (await loadMarkingDesk(db, { access: instructorAccess([fixture.cohortId]), lab, filters: page, now })).rows.find((candidate) => candidate.membershipId === fixture.membershipIds.ownStudent)!;
-    const ownExport = async (now: Date) => (await loadMarksJson(db, { access: instructorAccess([fixture.cohortId]), lab, now })).marks.find((entry) => entry.membershipId === fixture.membershipIds.ownStudent)!;
+      handInDropLog(db, {
+        access: studentAccess.ownStudent,
+        labId: lab.id,
+        input: { sphereId: fixture.sphereId, temperatureC: 22.4, drops: [7.41, 7.52, 7.47, 7.38, 7.5] },
+        idempotencyKey: key,
+        now,
+      });
+    const ownRow = async (now: Date) =>
+      (await loadMarkingDesk(db, { access: instructorAccess([fixture.cohortId]), lab, filters: page, now })).rows.find(
+        (candidate) => candidate.membershipId === fixture.membershipIds.ownStudent,
+      )!;
+    const ownExport = async (now: Date) =>
+      (await loadMarksJson(db, { access: instructorAccess([fixture.cohortId]), lab, now })).marks.find(
+        (entry) => entry.membershipId === fixture.membershipIds.ownStudent,
+      )!;
     const onTime = lab.rubric[0].id;
 
     // Saturday 12:00 IST: after the class's due time, inside its cut-off.
@@ -323,13 +436,21 @@ describe("late and on time under an extension", () => {
     await extend(lab.id, { membershipId: fixture.membershipIds.ownStudent }, extendedDue, dublin("2027-11-01T12:00"));
     expect(await recomputeLateness(db, lab.id)).toBe(1);
     const sunday = dublin("2027-10-31T12:00");
-    expect(await ownRow(sunday)).toMatchObject({ status: "on-time", suggestions: { [onTime]: { points: 1 } }, deadline: { extendedBy: "student" } });
+    expect(await ownRow(sunday)).toMatchObject({
+      status: "on-time",
+      suggestions: { [onTime]: { points: 1 } },
+      deadline: { extendedBy: "student" },
+    });
     expect(await ownExport(sunday)).toMatchObject({ handIn: "on-time", late: false });
 
     // The extension's cut-off (12:00 GMT Monday), not the class's (Saturday), decides: 11:59 late, 12:01 refused.
     expect((await handIn("deadlines-late-2", new Date("2027-11-01T11:59:00Z"))).version.late).toBe(true);
     await expect(handIn("deadlines-late-3", new Date("2027-11-01T12:01:00Z"))).rejects.toMatchObject({ code: "past_cutoff" });
-    expect(await ownRow(new Date("2027-11-01T12:01:00Z"))).toMatchObject({ status: "late", handIn: { version: 2 }, suggestions: { [onTime]: { points: 0 } } });
+    expect(await ownRow(new Date("2027-11-01T12:01:00Z"))).toMatchObject({
+      status: "late",
+      handIn: { version: 2 },
+      suggestions: { [onTime]: { points: 0 } },
+    });
   });
 });
 
@@ -339,7 +460,16 @@ describe("the staff pages", () => {
     const now = Date.now();
     const [lab] = await db
       .insert(labs)
-      .values({ courseId: fixture.courseId, title: "Due an hour ago", kind: "drag", status: "published", opensAt: new Date(now - 48 * HOUR), dueAt: new Date(now - HOUR), requiredDrops: 5, resolutions })
+      .values({
+        courseId: fixture.courseId,
+        title: "Due an hour ago",
+        kind: "drag",
+        status: "published",
+        opensAt: new Date(now - 48 * HOUR),
+        dueAt: new Date(now - HOUR),
+        requiredDrops: 5,
+        resolutions,
+      })
       .returning();
     await db.insert(labCohorts).values({ labId: lab.id, cohortId: fixture.cohortId });
     const tomorrow = new Date(now + 24 * HOUR);
@@ -347,16 +477,28 @@ describe("the staff pages", () => {
     await markingLabOf(lab.id);
     const handle = await createAppHandler();
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
-    const ownDue = new Intl.DateTimeFormat("en-GB", { timeZone: "Europe/Dublin", weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" }).format(tomorrow);
+    const ownDue = new Intl.DateTimeFormat("en-GB", {
+      timeZone: "Europe/Dublin",
+      weekday: "short",
+      day: "numeric",
+      month: "short",
+      hour: "2-digit",
+      minute: "2-digit",
+    }).format(tomorrow);
 
     const dashboard = await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/dashboard`, { cookie }))).text();
     // Each within the student's own table row.
     expect(dashboard).toMatch(/Test ownStudent<\/th>(?:(?!<\/tr>).)*Missing/s);
-    expect(dashboard).toMatch(/Test sameCohortStudent<\/th>(?:(?!<\/tr>).)*Not due yet(?:(?!<\/tr>).)*title="own extension: Flooded lab bench"[^>]*>extended to <time/s);
+    expect(dashboard).toMatch(
+      /Test sameCohortStudent<\/th>(?:(?!<\/tr>).)*Not due yet(?:(?!<\/tr>).)*title="own extension: Flooded lab bench"[^>]*>extended to <time/s,
+    );
     expect(dashboard).toContain(ownDue);
 
     // React marks the joins between text pieces with empty comments; read the text without them.
-    const desk = (await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marking`, { cookie }))).text()).replaceAll("<!-- -->", "");
+    const desk = (await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marking`, { cookie }))).text()).replaceAll(
+      "<!-- -->",
+      "",
+    );
     expect(desk).toContain("Not due yet (1)");
     expect(desk).toContain("Missing (1)");
     expect(desk).toMatch(/not due yet<\/span><span[^>]*title="own extension: Flooded lab bench"[^>]*>extended to <time[^>]*>/);

@@ -42,7 +42,8 @@ beforeAll(async () => {
   process.env.STORAGE_DIR = await mkdtemp(path.join(tmpdir(), "benchpost-photos-"));
   handle = await createAppHandler();
   fixture = await createAccessFixture("drop-log-routes");
-  for (const actor of ["ownStudent", "sameCohortStudent", "assignedTa", "unassignedTa", "instructor"] as const) cookies[actor] = await sessionCookieFor(fixture.userIds[actor]);
+  for (const actor of ["ownStudent", "sameCohortStudent", "assignedTa", "unassignedTa", "instructor"] as const)
+    cookies[actor] = await sessionCookieFor(fixture.userIds[actor]);
   twoLots = await createTwoLotKit(fixture, "drop-log-routes");
   cookies.twoLotStudent = await sessionCookieFor(twoLots.userId);
 });
@@ -59,9 +60,11 @@ describe("photo uploads", () => {
     expect(own.status).toBe(200);
     expect(own.headers.get("content-type")).toBe("image/png");
     expect(new Uint8Array(await own.arrayBuffer())).toEqual(png);
-    for (const actor of ["assignedTa", "instructor"]) expect((await handle(appRequest(photoPath, { cookie: cookies[actor] }))).status).toBe(200);
+    for (const actor of ["assignedTa", "instructor"])
+      expect((await handle(appRequest(photoPath, { cookie: cookies[actor] }))).status).toBe(200);
     // Another student of the same cohort, and a TA of the other cohort: 403.
-    for (const actor of ["sameCohortStudent", "unassignedTa"]) expect((await handle(appRequest(photoPath, { cookie: cookies[actor] }))).status).toBe(403);
+    for (const actor of ["sameCohortStudent", "unassignedTa"])
+      expect((await handle(appRequest(photoPath, { cookie: cookies[actor] }))).status).toBe(403);
   });
 
   it("refuses a text file renamed to .jpg with 415, whatever type the browser claims", async () => {
@@ -85,7 +88,12 @@ describe("photo uploads", () => {
 
 describe("POST /api/v1/reduce", () => {
   it("reduces a drop log against the caller's kit, with warnings placed on fields", async () => {
-    const response = await handle(reduce("ownStudent", { labId: fixture.labId, input: { sphereId: fixture.sphereId, temperatureC: "22", drops: ["7.4", "7.5", "7.45"] } }));
+    const response = await handle(
+      reduce("ownStudent", {
+        labId: fixture.labId,
+        input: { sphereId: fixture.sphereId, temperatureC: "22", drops: ["7.4", "7.5", "7.45"] },
+      }),
+    );
     expect(response.status).toBe(200);
     const body = await response.json();
     expect(body.reduction.drops.n).toBe(3);
@@ -95,7 +103,9 @@ describe("POST /api/v1/reduce", () => {
   });
 
   it("answers per-row issues with 400 in the API's error shape", async () => {
-    const response = await handle(reduce("ownStudent", { labId: fixture.labId, input: { sphereId: fixture.sphereId, temperatureC: "22", drops: ["7.4", "x"] } }));
+    const response = await handle(
+      reduce("ownStudent", { labId: fixture.labId, input: { sphereId: fixture.sphereId, temperatureC: "22", drops: ["7.4", "x"] } }),
+    );
     expect(response.status).toBe(400);
     const body = await response.json();
     expect(body.error.code).toBe("invalid_input");
@@ -111,13 +121,22 @@ describe("POST /api/v1/reduce", () => {
   });
 
   it("reduces the engine's own SI input for anyone signed in, and lists the engine's issues", async () => {
-    const engine = { mode: "viscometry", sphere: { diameter: 0.003, mass: 0.00011 }, fluid: { density: 1260 }, column: { timedDistance: 0.2 }, drops: [7.4, 7.5, 7.45] };
+    const engine = {
+      mode: "viscometry",
+      sphere: { diameter: 0.003, mass: 0.00011 },
+      fluid: { density: 1260 },
+      column: { timedDistance: 0.2 },
+      drops: [7.4, 7.5, 7.45],
+    };
     const ok = await handle(reduce("instructor", engine));
     expect(ok.status).toBe(200);
     expect((await ok.json()).reduction.mode).toBe("viscometry");
     const bad = await handle(reduce("instructor", { ...engine, sphere: { diameter: -1, mass: 0.00011 } }));
     expect(bad.status).toBe(400);
-    expect((await bad.json()).error).toMatchObject({ code: "not_reducible", issues: [expect.objectContaining({ path: ["sphere", "diameter"] })] });
+    expect((await bad.json()).error).toMatchObject({
+      code: "not_reducible",
+      issues: [expect.objectContaining({ path: ["sphere", "diameter"] })],
+    });
   });
 });
 
@@ -126,9 +145,20 @@ describe("the parts a drop log names, through the API", () => {
     new Request(new URL(`/api/v1/labs/${fixture.labId}/drop-logs`, appOrigin()), {
       method: "POST",
       body: JSON.stringify(body),
-      headers: { "Content-Type": "application/json", "Idempotency-Key": crypto.randomUUID(), Origin: appOrigin(), Cookie: cookies.twoLotStudent },
+      headers: {
+        "Content-Type": "application/json",
+        "Idempotency-Key": crypto.randomUUID(),
+        Origin: appOrigin(),
+        Cookie: cookies.twoLotStudent,
+      },
     });
-  const base = () => ({ sphereId: twoLots.spheres[0], fluidLotId: twoLots.fluidLots[1], columnId: twoLots.columns[0], temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.52, 7.39] });
+  const base = () => ({
+    sphereId: twoLots.spheres[0],
+    fluidLotId: twoLots.fluidLots[1],
+    columnId: twoLots.columns[0],
+    temperatureC: 22,
+    drops: [7.4, 7.5, 7.45, 7.52, 7.39],
+  });
 
   it.each([
     ["a lot not in the kit", () => ({ fluidLotId: twoLots.foreignFluidLotId }), "part_not_in_kit", "fluidLotId"],
@@ -154,18 +184,29 @@ describe("the parts a drop log names, through the API", () => {
     expect(handedIn.status).toBe(201);
     const detail = await handle(appRequest(`/api/v1/labs/${fixture.labId}/drop-logs`, { cookie: cookies.twoLotStudent }));
     const [own] = (await detail.json()).dropLogs;
-    expect(own.latestVersion).toMatchObject({ fluidLotId: twoLots.fluidLots[1], columnId: twoLots.columns[0], kitRecords: { fluidLot: { label: "F-2" } } });
+    expect(own.latestVersion).toMatchObject({
+      fluidLotId: twoLots.fluidLots[1],
+      columnId: twoLots.columns[0],
+      kitRecords: { fluidLot: { label: "F-2" } },
+    });
   });
 
   it("takes a hand-in while the kit is still packed, and the staff hand-in page and the student's page say so", async () => {
     await db.update(kits).set({ state: "packed" }).where(eq(kits.id, twoLots.kitId));
     try {
       expect((await handle(handInRequest(base()))).status).toBe(201);
-      const [dropLog] = await db.select({ id: dropLogs.id }).from(dropLogs).where(and(eq(dropLogs.labId, fixture.labId), eq(dropLogs.membershipId, twoLots.access.membership.id)));
-      const staffPage = await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}/hand-ins/${dropLog.id}`, { cookie: cookies.instructor }));
+      const [dropLog] = await db
+        .select({ id: dropLogs.id })
+        .from(dropLogs)
+        .where(and(eq(dropLogs.labId, fixture.labId), eq(dropLogs.membershipId, twoLots.access.membership.id)));
+      const staffPage = await handle(
+        appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}/hand-ins/${dropLog.id}`, { cookie: cookies.instructor }),
+      );
       expect(staffPage.status).toBe(200);
       expect(await staffPage.text()).toContain("Kit K-03 was recorded as “Packed”, not yet at home, at this hand-in");
-      const studentPage = await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}`, { cookie: cookies.twoLotStudent }))).text();
+      const studentPage = await (
+        await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}`, { cookie: cookies.twoLotStudent }))
+      ).text();
       expect(studentPage).toContain("Kit K-03 is recorded as “Packed”, not yet at home.");
     } finally {
       await db.update(kits).set({ state: "at_home" }).where(eq(kits.id, twoLots.kitId));
@@ -177,9 +218,19 @@ describe("the lab page's hand-in form", () => {
   it("answers a bad drop row with 400 and its message, and hands in a good log as the next version", async () => {
     const labPath = `/courses/${fixture.courseId}/labs/${fixture.labId}`;
     const form = (drops: string[], key: string) => {
-      const body = new URLSearchParams({ intent: "hand-in", idempotencyKey: key, sphereId: fixture.sphereId, temperatureC: "21.8", timedDistanceMm: "200" });
+      const body = new URLSearchParams({
+        intent: "hand-in",
+        idempotencyKey: key,
+        sphereId: fixture.sphereId,
+        temperatureC: "21.8",
+        timedDistanceMm: "200",
+      });
       for (const drop of drops) body.append("drops", drop);
-      return new Request(new URL(`${labPath}.data`, appOrigin()), { method: "POST", body, headers: { Cookie: cookies.ownStudent, Origin: appOrigin() } });
+      return new Request(new URL(`${labPath}.data`, appOrigin()), {
+        method: "POST",
+        body,
+        headers: { Cookie: cookies.ownStudent, Origin: appOrigin() },
+      });
     };
     const refused = await handle(form(["7.4", "-1"], "page-form-key-1"));
     expect(refused.status).toBe(400);
@@ -191,9 +242,22 @@ describe("the lab page's hand-in form", () => {
   });
 
   it("asks for the bottle at its field when the kit holds two lots the lab allows", async () => {
-    const body = new URLSearchParams({ intent: "hand-in", idempotencyKey: "page-form-two-lots", sphereId: twoLots.spheres[0], fluidLotId: "", columnId: twoLots.columns[0], temperatureC: "21.8" });
+    const body = new URLSearchParams({
+      intent: "hand-in",
+      idempotencyKey: "page-form-two-lots",
+      sphereId: twoLots.spheres[0],
+      fluidLotId: "",
+      columnId: twoLots.columns[0],
+      temperatureC: "21.8",
+    });
     for (const drop of ["7.4", "7.5", "7.45"]) body.append("drops", drop);
-    const refused = await handle(new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}.data`, appOrigin()), { method: "POST", body, headers: { Cookie: cookies.twoLotStudent, Origin: appOrigin() } }));
+    const refused = await handle(
+      new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}.data`, appOrigin()), {
+        method: "POST",
+        body,
+        headers: { Cookie: cookies.twoLotStudent, Origin: appOrigin() },
+      }),
+    );
     expect(refused.status).toBe(400);
     const text = await refused.text();
     expect(text).toContain("fluidLotId");

@@ -42,7 +42,12 @@ beforeAll(async () => {
     },
     close: smtp.close,
   };
-  worker = await startWorker({ connectionString: server.url, transport: flaky, pollingIntervalSeconds: 0.5, log: (line) => workerLog.push(line) });
+  worker = await startWorker({
+    connectionString: server.url,
+    transport: flaky,
+    pollingIntervalSeconds: 0.5,
+    log: (line) => workerLog.push(line),
+  });
   await useFastRetries(5, server.url);
 }, 120_000);
 
@@ -67,10 +72,14 @@ describe("the worker and a PostgreSQL restart", () => {
     await new Promise((resolve) => setTimeout(resolve, 2_000));
     server.start();
 
-    const row = await waitFor(async () => {
-      const [current] = await database.select().from(emailOutbox).where(eq(emailOutbox.id, outboxId));
-      return current?.status === "sent" && current;
-    }, "delivery after the restart", 45_000);
+    const row = await waitFor(
+      async () => {
+        const [current] = await database.select().from(emailOutbox).where(eq(emailOutbox.id, outboxId));
+        return current?.status === "sent" && current;
+      },
+      "delivery after the restart",
+      45_000,
+    );
     expect(row.lastError).toBeNull();
     expect(workerLog.some((line) => /job queue|database connection lost/.test(line))).toBe(true);
     const caught = await database.select().from(caughtEmails).where(eq(caughtEmails.messageId, row.providerMessageId!));

@@ -31,7 +31,12 @@ describe("sendEmail", () => {
     const { outboxId, duplicate } = await db.transaction((tx) => sendEmail(tx, { ...invitation(), toName: "New Student" }));
     expect(duplicate).toBe(false);
     const row = await outboxRow(outboxId);
-    expect(row).toMatchObject({ toAddress: "new.student@example.org", toName: "New Student", status: "queued", template: "course-invitation" });
+    expect(row).toMatchObject({
+      toAddress: "new.student@example.org",
+      toName: "New Student",
+      status: "queued",
+      template: "course-invitation",
+    });
     expect(row.subject).toBe("Test Inviter invited you to T 1 Test course");
     expect(row.props.expiresAt).toBe("2031-02-03T04:05:06.000Z");
     expect(await deliveryJobs(outboxId)).toEqual([{ state: "created", retry_count: 0 }]);
@@ -69,14 +74,22 @@ describe("sendEmail", () => {
   it("writes an invalid recipient as a failed row with the reason, and queues no job for it", async () => {
     const result = await sendEmail(db, signInMessage("not an address"));
     expect(result).toMatchObject({ duplicate: false, refused: true });
-    expect(await outboxRow(result.outboxId)).toMatchObject({ status: "failed", toAddress: "not an address", lastError: expect.stringMatching(/to: not a valid e-mail address/) });
+    expect(await outboxRow(result.outboxId)).toMatchObject({
+      status: "failed",
+      toAddress: "not an address",
+      lastError: expect.stringMatching(/to: not a valid e-mail address/),
+    });
     expect((await outboxRow(result.outboxId)).failedAt).not.toBeNull();
     expect(await deliveryJobs(result.outboxId)).toEqual([]);
   });
 
   it("sends the rest of a batch when one message in it cannot be sent", async () => {
     const results = await db.transaction((tx) =>
-      sendEmails(tx, [signInMessage("first@example.org"), signInMessage("second@@example.org"), { ...signInMessage("third@example.org"), toName: 'Ann "Nan" <Lee>' }]),
+      sendEmails(tx, [
+        signInMessage("first@example.org"),
+        signInMessage("second@@example.org"),
+        { ...signInMessage("third@example.org"), toName: 'Ann "Nan" <Lee>' },
+      ]),
     );
     expect(results.map((result) => result.refused)).toEqual([false, true, false]);
     expect((await outboxRow(results[1].outboxId)).status).toBe("failed");
@@ -90,7 +103,10 @@ describe("sendEmail", () => {
 
   it("keeps CR and LF out of headers: a name becomes one line, props with a line break are refused", async () => {
     const refused = await sendEmail(db, invitation({ courseTitle: "Fluids\r\nBcc: everyone@example.org" }));
-    expect(await outboxRow(refused.outboxId)).toMatchObject({ status: "failed", lastError: expect.stringMatching(/props\.courseTitle: .*CR or LF/) });
+    expect(await outboxRow(refused.outboxId)).toMatchObject({
+      status: "failed",
+      lastError: expect.stringMatching(/props\.courseTitle: .*CR or LF/),
+    });
     const { outboxId } = await sendEmail(db, { ...signInMessage("a@example.org"), toName: "Eve\nBcc: x@example.org" });
     expect(await outboxRow(outboxId)).toMatchObject({ status: "queued", toName: "Eve Bcc: x@example.org" });
   });
@@ -105,7 +121,10 @@ describe("sendEmail", () => {
   });
 
   it("refuses props that do not match the template, as a failed row", async () => {
-    const { outboxId } = await sendEmail(db, { ...signInMessage("a@example.org"), props: { url: "javascript:alert(1)", expiresInMinutes: 15 } });
+    const { outboxId } = await sendEmail(db, {
+      ...signInMessage("a@example.org"),
+      props: { url: "javascript:alert(1)", expiresInMinutes: 15 },
+    });
     expect(await outboxRow(outboxId)).toMatchObject({ status: "failed", lastError: expect.stringMatching(/props\.url/) });
   });
 });

@@ -43,7 +43,11 @@ describe("delivery through Resend", () => {
     const [request] = resend.requests;
     expect(request.idempotencyKey).toBe(outboxId);
     expect(request.authorization).toBe("Bearer re_test_key");
-    expect(request.body).toMatchObject({ from: FROM, to: ['"Student One" <student.one@example.org>'], subject: "Your Benchpost sign-in link" });
+    expect(request.body).toMatchObject({
+      from: FROM,
+      to: ['"Student One" <student.one@example.org>'],
+      subject: "Your Benchpost sign-in link",
+    });
     expect(request.body.html).toContain('href="http://localhost:3000/sign-in/test-token"');
     expect(request.body.text).toContain("http://localhost:3000/sign-in/test-token");
     expect(request.body.text).toContain("You got this e-mail because");

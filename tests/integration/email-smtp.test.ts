@@ -37,7 +37,11 @@ const launchWorker = async (deliveries = { count: 0 }) => {
 
 /** The inbox API, asked from this machine (tests/integration/dev-inbox.test.ts covers everyone else). */
 async function fetchCaught(to: string) {
-  const response = await emailsLoader({ request: new Request(`http://localhost/api/dev/emails?to=${encodeURIComponent(to)}`), params: {}, context: loadContextFor("127.0.0.1") } as never);
+  const response = await emailsLoader({
+    request: new Request(`http://localhost/api/dev/emails?to=${encodeURIComponent(to)}`),
+    params: {},
+    context: loadContextFor("127.0.0.1"),
+  } as never);
   return response as Exclude<typeof response, { data: unknown }>;
 }
 
@@ -75,7 +79,11 @@ describe("delivery through the local mail catcher", () => {
     const { emails } = await fetchCaught("invitee@example.org");
     expect(emails).toHaveLength(1);
     const [email] = emails;
-    expect(email).toMatchObject({ to: ["invitee@example.org"], subject: "Ona Owner invited you to RT 1 Round-trip course", messageId: row.providerMessageId });
+    expect(email).toMatchObject({
+      to: ["invitee@example.org"],
+      subject: "Ona Owner invited you to RT 1 Round-trip course",
+      messageId: row.providerMessageId,
+    });
     expect(email.from).toContain("no-reply@benchpost.example");
     expect(email.headers["x-benchpost-outbox-id"]).toBe(outboxId);
     expect(email.headers.to).toContain("Ivy Invitee");
@@ -98,7 +106,16 @@ describe("delivery through the local mail catcher", () => {
 
   it("keeps caught messages when the catcher restarts", async () => {
     await sendEmail(db, signInMessage("restart.catcher@example.org"));
-    await waitFor(async () => (await db.select().from(caughtEmails).where(sql`'restart.catcher@example.org' = any(${caughtEmails.toAddresses})`)).length === 1, "the message");
+    await waitFor(
+      async () =>
+        (
+          await db
+            .select()
+            .from(caughtEmails)
+            .where(sql`'restart.catcher@example.org' = any(${caughtEmails.toAddresses})`)
+        ).length === 1,
+      "the message",
+    );
     const port = catcher.port;
     await catcher.close();
     catcher = await startMailCatcher({ connectionString: process.env.DATABASE_URL!, port, log: () => undefined });
@@ -115,7 +132,9 @@ describe("delivery through the local mail catcher", () => {
       return ids;
     });
     await waitFor(async () => {
-      const rows = await db.execute<{ count: number }>(sql`select count(*)::int as count from email_outbox where id in ${sent} and status = 'sent'`);
+      const rows = await db.execute<{ count: number }>(
+        sql`select count(*)::int as count from email_outbox where id in ${sent} and status = 'sent'`,
+      );
       return rows.rows[0].count === sent.length;
     }, "all 20 messages to be sent");
     const caught = await db.execute<{ outbox_id: string; copies: number }>(
@@ -139,11 +158,18 @@ describe("delivery through the local mail catcher", () => {
     });
     const smtp = smtpTransport(`smtp://127.0.0.1:${catcher.port}`, FROM);
     // The catcher has the message, then the worker "dies": its answer never comes back.
-    const dying: EmailTransport = { name: "smtp", deliver: async (email) => (await smtp.deliver(email), new Promise<never>(() => undefined)) };
+    const dying: EmailTransport = {
+      name: "smtp",
+      deliver: async (email) => (await smtp.deliver(email), new Promise<never>(() => undefined)),
+    };
     const start = new Date();
     const at = (seconds: number) => new Date(start.getTime() + seconds * 1000);
     void deliverOutboxEmail(db, dying, outboxId, start);
-    const copies = () => db.select().from(caughtEmails).where(sql`'cut.off@example.org' = any(${caughtEmails.toAddresses})`);
+    const copies = () =>
+      db
+        .select()
+        .from(caughtEmails)
+        .where(sql`'cut.off@example.org' = any(${caughtEmails.toAddresses})`);
     await waitFor(async () => (await copies()).length === 1, "the first copy");
     // The attempt was committed before the transport was asked.
     expect(await outboxRow(outboxId)).toMatchObject({ status: "queued", attempts: 1, attemptStartedAt: start });
@@ -161,8 +187,11 @@ describe("delivery through the local mail catcher", () => {
   });
 
   it("answers 400 to a request without a valid recipient", async () => {
-    const response = await emailsLoader({ request: new Request("http://localhost/api/dev/emails?to=nobody"), params: {}, context: loadContextFor("::1") } as never);
+    const response = await emailsLoader({
+      request: new Request("http://localhost/api/dev/emails?to=nobody"),
+      params: {},
+      context: loadContextFor("::1"),
+    } as never);
     expect(response).toMatchObject({ init: { status: 400 } });
   });
 });
-

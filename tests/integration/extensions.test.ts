@@ -40,14 +40,30 @@ function studentAccess(): CourseAccess {
 async function createLab(values: Partial<typeof labs.$inferInsert> = {}, cohortIds = [fixture.cohortId]) {
   const [lab] = await db
     .insert(labs)
-    .values({ courseId: fixture.courseId, title: "Extended lab", kind: "drag", status: "published", opensAt: dublin("2027-03-20T09:00"), dueAt: classDue, requiredDrops: 5, resolutions, ...values })
+    .values({
+      courseId: fixture.courseId,
+      title: "Extended lab",
+      kind: "drag",
+      status: "published",
+      opensAt: dublin("2027-03-20T09:00"),
+      dueAt: classDue,
+      requiredDrops: 5,
+      resolutions,
+      ...values,
+    })
     .returning();
   await db.insert(labCohorts).values(cohortIds.map((cohortId) => ({ labId: lab.id, cohortId })));
   return lab;
 }
 
 const handIn = (labId: string, key: string, now: Date) =>
-  handInDropLog(db, { access: studentAccess(), labId, input: { sphereId: fixture.sphereId, temperatureC: 22.4, drops: [7.41, 7.52, 7.47, 7.38, 7.5] }, idempotencyKey: key, now });
+  handInDropLog(db, {
+    access: studentAccess(),
+    labId,
+    input: { sphereId: fixture.sphereId, temperatureC: 22.4, drops: [7.41, 7.52, 7.47, 7.38, 7.5] },
+    idempotencyKey: key,
+    now,
+  });
 
 beforeAll(async () => {
   fixture = await createAccessFixture("extensions");
@@ -67,7 +83,15 @@ describe("hand-ins under an extension", () => {
 
   it("takes a hand-in after the class deadline as on time under the student's own extension, late up to its cut-off, refused after", async () => {
     const lab = await createLab();
-    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extendedDue, lateCutoffAt: dublin("2027-03-28T12:00"), reason: "Illness" });
+    await db
+      .insert(labExtensions)
+      .values({
+        labId: lab.id,
+        membershipId: fixture.membershipIds.ownStudent,
+        dueAt: extendedDue,
+        lateCutoffAt: dublin("2027-03-28T12:00"),
+        reason: "Illness",
+      });
     // 07:59 UTC is 08:59 IST: before the extended due time, though after it by GMT wall reading.
     const onTime = await handIn(lab.id, "ext-own-1", new Date("2027-03-28T07:59:00Z"));
     expect(onTime.version.late).toBe(false);
@@ -93,7 +117,15 @@ describe("hand-ins under an extension", () => {
   it("shows the student their own due time and cut-off on the lab list and the lab page", async () => {
     const lab = await createLab();
     const cutoff = dublin("2027-03-28T12:00");
-    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extendedDue, lateCutoffAt: cutoff, reason: "Illness" });
+    await db
+      .insert(labExtensions)
+      .values({
+        labId: lab.id,
+        membershipId: fixture.membershipIds.ownStudent,
+        dueAt: extendedDue,
+        lateCutoffAt: cutoff,
+        reason: "Illness",
+      });
     const row = (await listLabsForMember(db, studentAccess())).find((candidate) => candidate.id === lab.id);
     expect(row && new Date(row.dueAt).toISOString()).toBe(extendedDue.toISOString());
     expect(row?.lateCutoffAt && new Date(row.lateCutoffAt).toISOString()).toBe(cutoff.toISOString());
@@ -104,7 +136,9 @@ describe("hand-ins under an extension", () => {
   it("keeps the class's later cut-off for an extension without one, in SQL as in the hand-in", async () => {
     const classCutoff = dublin("2027-04-02T17:00");
     const lab = await createLab({ lateCutoffAt: classCutoff });
-    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extendedDue, reason: "Illness" });
+    await db
+      .insert(labExtensions)
+      .values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extendedDue, reason: "Illness" });
     const row = (await listLabsForMember(db, studentAccess())).find((candidate) => candidate.id === lab.id);
     expect(row?.lateCutoffAt && new Date(row.lateCutoffAt).toISOString()).toBe(classCutoff.toISOString());
     expect((await loadStudentLab(db, studentAccess(), lab.id)).window).toMatchObject({ dueAt: extendedDue, lateCutoffAt: classCutoff });
@@ -113,9 +147,19 @@ describe("hand-ins under an extension", () => {
 
 type Staff = "instructor" | "assignedTa" | "unassignedTa";
 function staffAccess(actor: Staff): CourseAccess {
-  const cohortIds = { instructor: [fixture.cohortId, fixture.otherCohortId], assignedTa: [fixture.cohortId], unassignedTa: [fixture.otherCohortId] }[actor];
+  const cohortIds = {
+    instructor: [fixture.cohortId, fixture.otherCohortId],
+    assignedTa: [fixture.cohortId],
+    unassignedTa: [fixture.otherCohortId],
+  }[actor];
   return {
-    user: { id: fixture.userIds[actor], email: `${actor.toLowerCase()}@extensions.example`, name: `Test ${actor}`, sessionId: null, via: "session" },
+    user: {
+      id: fixture.userIds[actor],
+      email: `${actor.toLowerCase()}@extensions.example`,
+      name: `Test ${actor}`,
+      sessionId: null,
+      via: "session",
+    },
     course: { id: fixture.courseId, title: "Settling Spheres", code: "ext-A", term: "Test term", timeZone: "Europe/Dublin" },
     membership: { id: fixture.membershipIds[actor], role: actor === "instructor" ? "instructor" : "ta", cohortId: null },
     cohortIds,
@@ -127,40 +171,79 @@ const labWithCohorts = async (labId: string) => (await getLab(db, fixture.course
 const reason = "Learning-support plan: 3 extra days";
 const lateOf = async (labId: string) =>
   (
-    await db.execute<{ late: boolean }>(sql`select v.late from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${labId} order by v.version`)
+    await db.execute<{ late: boolean }>(
+      sql`select v.late from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${labId} order by v.version`,
+    )
   ).rows.map((row) => row.late);
 
 async function reminderJobs(labId: string) {
   const result = await db.execute<{ offset_hours: number; due_at: string; start_after: Date }>(sql`
     select (data->>'offsetHours')::int as offset_hours, data->>'dueAt' as due_at, start_after from pgboss.job
     where name = ${queues.labReminder} and data->>'labId' = ${labId} order by start_after`);
-  return result.rows.map((row) => ({ offsetHours: row.offset_hours, dueAt: row.due_at, startAfter: new Date(row.start_after).toISOString() }));
+  return result.rows.map((row) => ({
+    offsetHours: row.offset_hours,
+    dueAt: row.due_at,
+    startAfter: new Date(row.start_after).toISOString(),
+  }));
 }
-
 
 describe("the extension form's schema", () => {
   const schema = extensionInputFor({ timeZone: "Europe/Dublin", opensAt: dublin("2027-03-20T09:00") });
-  const issuesOf = (input: Record<string, unknown>) => schema.safeParse(input).error?.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`) ?? [];
+  const issuesOf = (input: Record<string, unknown>) =>
+    schema.safeParse(input).error?.issues.map((issue) => `${issue.path.join(".")}: ${issue.message}`) ?? [];
 
   it("turns the local times into instants in the course's zone, as the lab form does", () => {
-    const parsed = schema.parse({ intent: "extend-students", membershipIds: [fixture.membershipIds.ownStudent], dueAt: "2027-03-28T09:00", lateCutoffAt: "", reason });
+    const parsed = schema.parse({
+      intent: "extend-students",
+      membershipIds: [fixture.membershipIds.ownStudent],
+      dueAt: "2027-03-28T09:00",
+      lateCutoffAt: "",
+      reason,
+    });
     expect(parsed).toMatchObject({ dueAt: extendedDue, lateCutoffAt: undefined, reason });
   });
 
   it("refuses a cut-off before the due time, a due time before the lab opens, a missing reason and a skipped local time", () => {
-    expect(issuesOf({ intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-03-28T09:00", lateCutoffAt: "2027-03-28T08:59", reason })).toEqual([
-      "lateCutoffAt: The late cut-off cannot come before the new due time; give it the new due time for no late hand-ins.",
+    expect(
+      issuesOf({
+        intent: "extend-cohort",
+        cohortId: fixture.cohortId,
+        dueAt: "2027-03-28T09:00",
+        lateCutoffAt: "2027-03-28T08:59",
+        reason,
+      }),
+    ).toEqual(["lateCutoffAt: The late cut-off cannot come before the new due time; give it the new due time for no late hand-ins."]);
+    expect(issuesOf({ intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-03-20T09:00", reason })).toEqual([
+      "dueAt: The new due time must come after the lab opens.",
     ]);
-    expect(issuesOf({ intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-03-20T09:00", reason })).toEqual(["dueAt: The new due time must come after the lab opens."]);
-    expect(issuesOf({ intent: "extend-students", membershipIds: [fixture.membershipIds.ownStudent], dueAt: "2027-03-28T09:00", reason: "  " })[0]).toMatch(/^reason: /);
+    expect(
+      issuesOf({
+        intent: "extend-students",
+        membershipIds: [fixture.membershipIds.ownStudent],
+        dueAt: "2027-03-28T09:00",
+        reason: "  ",
+      })[0],
+    ).toMatch(/^reason: /);
     // 01:30 on 2027-03-28 does not exist in Dublin: the clocks go from 01:00 to 02:00.
-    expect(issuesOf({ intent: "extend-students", membershipIds: [fixture.membershipIds.ownStudent], dueAt: "2027-03-28T01:30", reason })[0]).toMatch(/^dueAt: That time does not exist/);
-    expect(issuesOf({ intent: "extend-students", membershipIds: [], dueAt: "2027-03-28T09:00", reason })).toEqual(["membershipIds: Choose at least one student."]);
+    expect(
+      issuesOf({ intent: "extend-students", membershipIds: [fixture.membershipIds.ownStudent], dueAt: "2027-03-28T01:30", reason })[0],
+    ).toMatch(/^dueAt: That time does not exist/);
+    expect(issuesOf({ intent: "extend-students", membershipIds: [], dueAt: "2027-03-28T09:00", reason })).toEqual([
+      "membershipIds: Choose at least one student.",
+    ]);
     expect(issuesOf({ intent: "something-else" })).toHaveLength(1);
   });
 
   it("allows a cut-off equal to the due time", () => {
-    expect(issuesOf({ intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-03-28T09:00", lateCutoffAt: "2027-03-28T09:00", reason })).toEqual([]);
+    expect(
+      issuesOf({
+        intent: "extend-cohort",
+        cohortId: fixture.cohortId,
+        dueAt: "2027-03-28T09:00",
+        lateCutoffAt: "2027-03-28T09:00",
+        reason,
+      }),
+    ).toEqual([]);
   });
 });
 
@@ -179,25 +262,55 @@ describe("setting and removing extensions", () => {
     expect(outcome).toMatchObject({ extended: 1, relabelled: 1 });
     expect(await lateOf(lab.id)).toEqual([false]);
     const [stored] = await db.select().from(labExtensions).where(eq(labExtensions.labId, lab.id));
-    expect(stored).toMatchObject({ membershipId: fixture.membershipIds.ownStudent, cohortId: null, dueAt: extendedDue, lateCutoffAt: null, reason, createdById: fixture.userIds.instructor });
+    expect(stored).toMatchObject({
+      membershipId: fixture.membershipIds.ownStudent,
+      cohortId: null,
+      dueAt: extendedDue,
+      lateCutoffAt: null,
+      reason,
+      createdById: fixture.userIds.instructor,
+    });
 
     const removed = await removeExtension(db, { access: staffAccess("instructor"), lab, extensionId: stored.id });
     expect(removed.relabelled).toBe(1);
     expect(await lateOf(lab.id)).toEqual([true]);
-    const audit = await db.select({ action: auditEvents.action, detail: auditEvents.detail }).from(auditEvents).where(eq(auditEvents.subject, `lab:${lab.id}`));
+    const audit = await db
+      .select({ action: auditEvents.action, detail: auditEvents.detail })
+      .from(auditEvents)
+      .where(eq(auditEvents.subject, `lab:${lab.id}`));
     expect(audit.map((event) => event.action).sort()).toEqual(["lab.extension_removed", "lab.extension_set"]);
-    expect(audit.find((event) => event.action === "lab.extension_set")?.detail).toMatchObject({ membershipIds: [fixture.membershipIds.ownStudent], dueAt: extendedDue.toISOString(), reason });
+    expect(audit.find((event) => event.action === "lab.extension_set")?.detail).toMatchObject({
+      membershipIds: [fixture.membershipIds.ownStudent],
+      dueAt: extendedDue.toISOString(),
+      reason,
+    });
   });
 
   it("extends a whole cohort, and a second save replaces the times rather than adding a row", async () => {
     const lab = await createLab();
     const access = staffAccess("instructor");
     const target = { cohortId: fixture.cohortId };
-    await setExtensions(db, { access, lab: await labWithCohorts(lab.id), target, window: { dueAt: dublin("2027-03-29T09:00"), reason: "Kits shipped late" } });
-    await setExtensions(db, { access, lab: await labWithCohorts(lab.id), target, window: { dueAt: extendedDue, lateCutoffAt: dublin("2027-03-29T12:00"), reason: "Kits shipped late, courier's date" } });
+    await setExtensions(db, {
+      access,
+      lab: await labWithCohorts(lab.id),
+      target,
+      window: { dueAt: dublin("2027-03-29T09:00"), reason: "Kits shipped late" },
+    });
+    await setExtensions(db, {
+      access,
+      lab: await labWithCohorts(lab.id),
+      target,
+      window: { dueAt: extendedDue, lateCutoffAt: dublin("2027-03-29T12:00"), reason: "Kits shipped late, courier's date" },
+    });
     const rows = await db.select().from(labExtensions).where(eq(labExtensions.labId, lab.id));
     expect(rows).toHaveLength(1);
-    expect(rows[0]).toMatchObject({ cohortId: fixture.cohortId, membershipId: null, dueAt: extendedDue, lateCutoffAt: dublin("2027-03-29T12:00"), reason: "Kits shipped late, courier's date" });
+    expect(rows[0]).toMatchObject({
+      cohortId: fixture.cohortId,
+      membershipId: null,
+      dueAt: extendedDue,
+      lateCutoffAt: dublin("2027-03-29T12:00"),
+      reason: "Kits shipped late, courier's date",
+    });
     const context = await loadStudentLab(db, studentAccess(), lab.id);
     expect(context.window).toMatchObject({ dueAt: extendedDue, extendedBy: "cohort" });
   });
@@ -207,37 +320,74 @@ describe("setting and removing extensions", () => {
     const window = { dueAt: extendedDue, reason };
     const instructor = staffAccess("instructor");
     // ownStudent is fine, otherCohortStudent's cohort is not the lab's: the whole batch is refused.
-    await expect(setExtensions(db, { access: instructor, lab, target: { membershipIds: [fixture.membershipIds.ownStudent, fixture.membershipIds.otherCohortStudent] }, window })).rejects.toMatchObject({
+    await expect(
+      setExtensions(db, {
+        access: instructor,
+        lab,
+        target: { membershipIds: [fixture.membershipIds.ownStudent, fixture.membershipIds.otherCohortStudent] },
+        window,
+      }),
+    ).rejects.toMatchObject({
       code: "extension_refused",
       field: "membershipIds",
       status: 400,
     });
-    await expect(setExtensions(db, { access: instructor, lab, target: { membershipIds: [fixture.membershipIds.assignedTa] }, window })).rejects.toMatchObject({ field: "membershipIds" });
-    await expect(setExtensions(db, { access: instructor, lab, target: { cohortId: fixture.otherCohortId }, window })).rejects.toMatchObject({ field: "cohortId" });
-    const ta = setExtensions(db, { access: staffAccess("assignedTa"), lab, target: { membershipIds: [fixture.membershipIds.ownStudent] }, window });
+    await expect(
+      setExtensions(db, { access: instructor, lab, target: { membershipIds: [fixture.membershipIds.assignedTa] }, window }),
+    ).rejects.toMatchObject({ field: "membershipIds" });
+    await expect(setExtensions(db, { access: instructor, lab, target: { cohortId: fixture.otherCohortId }, window })).rejects.toMatchObject(
+      { field: "cohortId" },
+    );
+    const ta = setExtensions(db, {
+      access: staffAccess("assignedTa"),
+      lab,
+      target: { membershipIds: [fixture.membershipIds.ownStudent] },
+      window,
+    });
     await expect(ta).rejects.toBeInstanceOf(AppError);
     await expect(ta).rejects.toMatchObject({ status: 403 });
     expect(await db.select().from(labExtensions).where(eq(labExtensions.labId, lab.id))).toEqual([]);
 
     await setExtensions(db, { access: instructor, lab, target: { cohortId: fixture.cohortId }, window });
     const [stored] = await db.select().from(labExtensions).where(eq(labExtensions.labId, lab.id));
-    await expect(removeExtension(db, { access: staffAccess("assignedTa"), lab, extensionId: stored.id })).rejects.toMatchObject({ status: 403 });
+    await expect(removeExtension(db, { access: staffAccess("assignedTa"), lab, extensionId: stored.id })).rejects.toMatchObject({
+      status: 403,
+    });
     expect(await db.select().from(labExtensions).where(eq(labExtensions.labId, lab.id))).toHaveLength(1);
   });
 
   it("extends 500 students in one transaction with the same statements as 5, and their late hand-ins become on time", async () => {
     const labRow = await createLab({ lateCutoffAt: dublin("2027-03-30T09:00") });
-    const seeded = await seedMarkingClass(db, { courseId: fixture.courseId, labId: labRow.id, cohortId: fixture.cohortId, figures: Array(505).fill(1), label: "ext-bulk", late: () => true });
+    const seeded = await seedMarkingClass(db, {
+      courseId: fixture.courseId,
+      labId: labRow.id,
+      cohortId: fixture.cohortId,
+      figures: Array(505).fill(1),
+      label: "ext-bulk",
+      late: () => true,
+    });
     // The seeded versions were handed in now, in 2026: moved to just after the class deadline.
-    await db.execute(sql`update drop_log_versions v set submitted_at = ${new Date("2027-03-28T07:00:00Z")} from drop_logs d where d.id = v.drop_log_id and d.lab_id = ${labRow.id}`);
+    await db.execute(
+      sql`update drop_log_versions v set submitted_at = ${new Date("2027-03-28T07:00:00Z")} from drop_logs d where d.id = v.drop_log_id and d.lab_id = ${labRow.id}`,
+    );
     const lab = await labWithCohorts(labRow.id);
     const access = staffAccess("instructor");
     const reason = "Snow closed the post office";
     const now = new Date("2027-03-20T12:00:00Z");
     // Two due times, so that each batch queues its own two reminders (the lab's default 48 h and 6 h).
-    const few = await countAllStatements(() => setExtensions(db, { access, lab, target: { membershipIds: seeded.membershipIds.slice(0, 5) }, window: { dueAt: extendedDue, reason }, now }));
+    const few = await countAllStatements(() =>
+      setExtensions(db, {
+        access,
+        lab,
+        target: { membershipIds: seeded.membershipIds.slice(0, 5) },
+        window: { dueAt: extendedDue, reason },
+        now,
+      }),
+    );
     const later = new Date(extendedDue.getTime() + 3_600_000);
-    const many = await countAllStatements(() => setExtensions(db, { access, lab, target: { membershipIds: seeded.membershipIds.slice(5) }, window: { dueAt: later, reason }, now }));
+    const many = await countAllStatements(() =>
+      setExtensions(db, { access, lab, target: { membershipIds: seeded.membershipIds.slice(5) }, window: { dueAt: later, reason }, now }),
+    );
     expect(few.result).toMatchObject({ extended: 5, relabelled: 5, remindersScheduled: 2 });
     expect(many.result).toMatchObject({ extended: 500, relabelled: 500, remindersScheduled: 2 });
     // Begin, the upsert, the late flags, two reminder jobs, the audit entry, commit.
@@ -251,7 +401,10 @@ describe("setting and removing extensions", () => {
         and membership_id in (select value::uuid from json_array_elements_text(${JSON.stringify(seeded.membershipIds.slice(5))}::json))`);
     expect(bulkRows.rows[0].n).toBe(1);
     expect((await lateOf(lab.id)).filter(Boolean)).toEqual([]);
-    const audit = await db.select().from(auditEvents).where(and(eq(auditEvents.subject, `lab:${lab.id}`), eq(auditEvents.action, "lab.extension_set")));
+    const audit = await db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.subject, `lab:${lab.id}`), eq(auditEvents.action, "lab.extension_set")));
     expect(audit).toHaveLength(2);
   });
 });
@@ -264,8 +417,14 @@ describe("who sees which extensions", () => {
     const window = { dueAt: extendedDue, reason };
     await setExtensions(db, { access: instructor, lab, target: { membershipIds: [fixture.membershipIds.ownStudent] }, window });
     await setExtensions(db, { access: instructor, lab, target: { membershipIds: [fixture.membershipIds.otherCohortStudent] }, window });
-    await setExtensions(db, { access: instructor, lab, target: { cohortId: fixture.otherCohortId }, window: { ...window, reason: "Kits shipped late" } });
-    const seen = async (actor: Staff) => (await listExtensions(db, staffAccess(actor), lab)).map((row) => row.studentName ?? `cohort ${row.cohortName}`);
+    await setExtensions(db, {
+      access: instructor,
+      lab,
+      target: { cohortId: fixture.otherCohortId },
+      window: { ...window, reason: "Kits shipped late" },
+    });
+    const seen = async (actor: Staff) =>
+      (await listExtensions(db, staffAccess(actor), lab)).map((row) => row.studentName ?? `cohort ${row.cohortName}`);
     expect(await seen("instructor")).toEqual(["cohort Cohort two", "Test ownStudent", "Test otherCohortStudent"]);
     expect(await seen("assignedTa")).toEqual(["Test ownStudent"]);
     expect(await seen("unassignedTa")).toEqual(["cohort Cohort two", "Test otherCohortStudent"]);
@@ -275,7 +434,11 @@ describe("who sees which extensions", () => {
     expect(taPage.students).toEqual([]);
     const instructorPage = await getExtensionsPage(db, instructor, lab);
     // The fixture's own students (other tests add classes of their own to cohort one).
-    expect(instructorPage.students.map((student) => student.name).filter((name) => name.startsWith("Test "))).toEqual(["Test ownStudent", "Test sameCohortStudent", "Test otherCohortStudent"]);
+    expect(instructorPage.students.map((student) => student.name).filter((name) => name.startsWith("Test "))).toEqual([
+      "Test ownStudent",
+      "Test sameCohortStudent",
+      "Test otherCohortStudent",
+    ]);
     expect(instructorPage.extensions[1]).toMatchObject({ reason, setBy: "Test instructor", cohortName: "Cohort one" });
   });
 });
@@ -286,22 +449,46 @@ describe("reminders for an extended due time", () => {
     const now = new Date("2027-03-25T12:00:00Z");
     const lab = await labWithCohorts((await createLab({ reminderOffsetsHours: [48, 6] }, [fixture.cohortId, fixture.otherCohortId])).id);
     const access = staffAccess("instructor");
-    const first = await setExtensions(db, { access, lab, target: { membershipIds: [fixture.membershipIds.ownStudent] }, window: { dueAt: extendedDue, reason }, now });
+    const first = await setExtensions(db, {
+      access,
+      lab,
+      target: { membershipIds: [fixture.membershipIds.ownStudent] },
+      window: { dueAt: extendedDue, reason },
+      now,
+    });
     expect(first.remindersScheduled).toBe(2);
     expect(await reminderJobs(lab.id)).toEqual([
       { offsetHours: 48, dueAt: extendedDue.toISOString(), startAfter: new Date(extendedDue.getTime() - 48 * hour).toISOString() },
       { offsetHours: 6, dueAt: extendedDue.toISOString(), startAfter: new Date(extendedDue.getTime() - 6 * hour).toISOString() },
     ]);
     // Another student, the same due time: its jobs are already queued.
-    const again = await setExtensions(db, { access, lab, target: { membershipIds: [fixture.membershipIds.otherCohortStudent] }, window: { dueAt: extendedDue, reason }, now });
+    const again = await setExtensions(db, {
+      access,
+      lab,
+      target: { membershipIds: [fixture.membershipIds.otherCohortStudent] },
+      window: { dueAt: extendedDue, reason },
+      now,
+    });
     expect(again.remindersScheduled).toBe(0);
     // A cohort with a due time 40 h after now: the 48 h reminder's moment has passed, the 6 h one is queued.
     const soon = new Date(now.getTime() + 40 * hour);
-    await setExtensions(db, { access, lab, target: { cohortId: fixture.otherCohortId }, window: { dueAt: soon, reason: "Kits shipped late" }, now });
+    await setExtensions(db, {
+      access,
+      lab,
+      target: { cohortId: fixture.otherCohortId },
+      window: { dueAt: soon, reason: "Kits shipped late" },
+      now,
+    });
     expect((await reminderJobs(lab.id)).filter((job) => job.dueAt === soon.toISOString()).map((job) => job.offsetHours)).toEqual([6]);
 
     const draft = await labWithCohorts((await createLab({ status: "draft", reminderOffsetsHours: [48, 6] })).id);
-    const drafted = await setExtensions(db, { access, lab: draft, target: { membershipIds: [fixture.membershipIds.ownStudent] }, window: { dueAt: extendedDue, reason }, now });
+    const drafted = await setExtensions(db, {
+      access,
+      lab: draft,
+      target: { membershipIds: [fixture.membershipIds.ownStudent] },
+      window: { dueAt: extendedDue, reason },
+      now,
+    });
     expect(drafted.remindersScheduled).toBe(0);
     expect(await reminderJobs(draft.id)).toEqual([]);
   });
@@ -323,7 +510,13 @@ describe("the extensions page over HTTP", () => {
   const stored = () => db.select().from(labExtensions).where(eq(labExtensions.labId, fixture.labId));
 
   it("answers a refused form with 400, the message at its field and the input kept; a good one is stored", async () => {
-    const fields = { intent: "extend-students", membershipIds: fixture.membershipIds.ownStudent, dueAt: "2027-04-02T17:00", lateCutoffAt: "2027-04-01T17:00", reason: "Hospital appointment" };
+    const fields = {
+      intent: "extend-students",
+      membershipIds: fixture.membershipIds.ownStudent,
+      dueAt: "2027-04-02T17:00",
+      lateCutoffAt: "2027-04-01T17:00",
+      reason: "Hospital appointment",
+    };
     const refused = await post("instructor", fields);
     expect(refused.status).toBe(400);
     const text = await refused.text();
@@ -334,15 +527,31 @@ describe("the extensions page over HTTP", () => {
 
     const accepted = await post("instructor", { ...fields, lateCutoffAt: "" });
     expect(accepted.status).toBe(200);
-    expect(await stored()).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, dueAt: dublin("2027-04-02T17:00"), lateCutoffAt: null, reason: "Hospital appointment" }]);
+    expect(await stored()).toMatchObject([
+      {
+        membershipId: fixture.membershipIds.ownStudent,
+        dueAt: dublin("2027-04-02T17:00"),
+        lateCutoffAt: null,
+        reason: "Hospital appointment",
+      },
+    ]);
   });
 
   it("refuses a TA's write with 403, and shows the TA the list without the forms", async () => {
     const before = await stored();
-    const refused = await post("assignedTa", { intent: "extend-cohort", cohortId: fixture.cohortId, dueAt: "2027-04-03T17:00", reason: "Kits shipped late" });
+    const refused = await post("assignedTa", {
+      intent: "extend-cohort",
+      cohortId: fixture.cohortId,
+      dueAt: "2027-04-03T17:00",
+      reason: "Kits shipped late",
+    });
     expect(refused.status).toBe(403);
     expect(await stored()).toEqual(before);
-    const page = await handle(appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}/extensions`, { cookie: await sessionCookieFor(fixture.userIds.assignedTa) }));
+    const page = await handle(
+      appRequest(`/courses/${fixture.courseId}/labs/${fixture.labId}/extensions`, {
+        cookie: await sessionCookieFor(fixture.userIds.assignedTa),
+      }),
+    );
     expect(page.status).toBe(200);
     const html = await page.text();
     expect(html).toContain("Instructors set and remove extensions.");

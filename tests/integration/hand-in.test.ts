@@ -11,12 +11,25 @@ import { TZDate } from "@date-fns/tz";
 import { and, asc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
-import { calibrationUncertainty, fitFluidViscosity, reduceFallingSphere, viscosityAt, viscosityTemperatureCoefficient } from "~/lib/reduction";
+import {
+  calibrationUncertainty,
+  fitFluidViscosity,
+  reduceFallingSphere,
+  viscosityAt,
+  viscosityTemperatureCoefficient,
+} from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db, type Database } from "~/server/db.server";
 import { loadCountedHandIns } from "~/server/comparison/class-comparison.server";
 import { loadStudentMarkRows } from "~/server/marking/mark-rows.server";
-import { ensureDropLog, getDropLogForStudent, handInDropLog, listVersions, previewDropLog, saveDraft } from "~/server/drop-logs/hand-in.server";
+import {
+  ensureDropLog,
+  getDropLogForStudent,
+  handInDropLog,
+  listVersions,
+  previewDropLog,
+  saveDraft,
+} from "~/server/drop-logs/hand-in.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { countAllStatements, countStatements } from "../support/count-statements";
 import { SECOND_LOT_DENSITY, createTwoLotKit, type TwoLotKit } from "../support/two-lot-kit";
@@ -66,7 +79,10 @@ beforeAll(async () => {
   fixture = await createAccessFixture("hand-in");
   await db.update(courses).set({ timeZone: "Europe/Dublin" }).where(eq(courses.id, fixture.courseId));
   // A kit for the second student of cohort one, with its own sphere and column and the shared fluid lot.
-  const [lot] = await db.select({ id: parts.id }).from(parts).where(and(eq(parts.courseId, fixture.courseId), eq(parts.kind, "fluid_lot")));
+  const [lot] = await db
+    .select({ id: parts.id })
+    .from(parts)
+    .where(and(eq(parts.courseId, fixture.courseId), eq(parts.kind, "fluid_lot")));
   const [sphere, column] = await db
     .insert(parts)
     .values([
@@ -75,7 +91,10 @@ beforeAll(async () => {
     ])
     .returning();
   secondSphereId = sphere.id;
-  const [kit] = await db.insert(kits).values({ courseId: fixture.courseId, number: "K-02", state: "at_home", holderMembershipId: fixture.membershipIds.sameCohortStudent }).returning();
+  const [kit] = await db
+    .insert(kits)
+    .values({ courseId: fixture.courseId, number: "K-02", state: "at_home", holderMembershipId: fixture.membershipIds.sameCohortStudent })
+    .returning();
   await db.insert(kitParts).values([
     { kitId: kit.id, partId: sphere.id },
     { kitId: kit.id, partId: column.id },
@@ -86,7 +105,12 @@ beforeAll(async () => {
 describe("the server's reduction", () => {
   it("equals the engine's for the same inputs converted to SI by hand", async () => {
     const lab = await createLab();
-    const { version } = await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "reduction-equal-1" });
+    const { version } = await handInDropLog(db, {
+      access: accessOf("ownStudent"),
+      labId: lab.id,
+      input: inputFor(fixture.sphereId),
+      idempotencyKey: "reduction-equal-1",
+    });
     const [stored] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, version.id));
 
     const fit = fitFluidViscosity(calibration.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
@@ -125,7 +149,10 @@ describe("the server's reduction", () => {
     expect(Array.isArray(warnings)).toBe(true);
     expect(stored.reynolds).toBeCloseTo(expected.reynolds, 6);
     expect(stored.dragCoefficient).toBeCloseTo(expected.dragCoefficient, 4);
-    expect(stored.normalisedFigure).toBeCloseTo(expected.dragCoefficient / (expected.mode === "drag" ? expected.referenceDragCoefficient : NaN), 4);
+    expect(stored.normalisedFigure).toBeCloseTo(
+      expected.dragCoefficient / (expected.mode === "drag" ? expected.referenceDragCoefficient : NaN),
+      4,
+    );
     expect(stored.kitRecords).toMatchObject({ sphere: { diameterMm: 3, massG: 0.11, source: "kit" }, column: { timedDistanceMm: 200 } });
   });
 
@@ -163,15 +190,25 @@ describe("the server's reduction", () => {
 
   it("refuses a sphere that is not in the student's kit", async () => {
     const lab = await createLab();
-    const refusal = await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(secondSphereId), idempotencyKey: "other-sphere-1" }).catch((error: unknown) => error);
+    const refusal = await handInDropLog(db, {
+      access: accessOf("ownStudent"),
+      labId: lab.id,
+      input: inputFor(secondSphereId),
+      idempotencyKey: "other-sphere-1",
+    }).catch((error: unknown) => error);
     expect(refusal).toMatchObject({ code: "sphere_not_in_kit" });
   });
 });
 
 describe("the parts a hand-in names", () => {
   let kit: TwoLotKit;
-  const refusalOf = (promise: Promise<unknown>) => promise.then(() => null, (error: unknown) => error as AppError);
-  const handIn = (labId: string, input: Record<string, unknown>, key: string) => handInDropLog(db, { access: kit.access, labId, input: { temperatureC: 22.4, drops, ...input }, idempotencyKey: key });
+  const refusalOf = (promise: Promise<unknown>) =>
+    promise.then(
+      () => null,
+      (error: unknown) => error as AppError,
+    );
+  const handIn = (labId: string, input: Record<string, unknown>, key: string) =>
+    handInDropLog(db, { access: kit.access, labId, input: { temperatureC: 22.4, drops, ...input }, idempotencyKey: key });
 
   beforeAll(async () => {
     kit = await createTwoLotKit(fixture, "hand-in-parts");
@@ -180,11 +217,21 @@ describe("the parts a hand-in names", () => {
   it("asks which bottle and which column when the lab allows two of each in the kit, at the field, with 400", async () => {
     const lab = await createLab();
     const noLot = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[0], columnId: kit.columns[0] }, "parts-no-lot"));
-    expect(noLot).toMatchObject({ code: "part_not_chosen", status: 400, issues: [{ path: ["fluidLotId"], message: expect.stringMatching(/F-1, F-2/) }] });
+    expect(noLot).toMatchObject({
+      code: "part_not_chosen",
+      status: 400,
+      issues: [{ path: ["fluidLotId"], message: expect.stringMatching(/F-1, F-2/) }],
+    });
     const noColumn = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1] }, "parts-no-column"));
     expect(noColumn).toMatchObject({ code: "part_not_chosen", status: 400, issues: [{ path: ["columnId"] }] });
     // The live preview refuses the same way, so the form shows it while the student types.
-    await expect(previewDropLog(db, { access: kit.access, labId: lab.id, input: { sphereId: kit.spheres[0], columnId: kit.columns[0], temperatureC: 22, drops } })).rejects.toMatchObject({
+    await expect(
+      previewDropLog(db, {
+        access: kit.access,
+        labId: lab.id,
+        input: { sphereId: kit.spheres[0], columnId: kit.columns[0], temperatureC: 22, drops },
+      }),
+    ).rejects.toMatchObject({
       code: "part_not_chosen",
       issues: [{ path: ["fluidLotId"] }],
     });
@@ -192,14 +239,28 @@ describe("the parts a hand-in names", () => {
 
   it("reduces against the lot and column chosen, not the first of the kit", async () => {
     const lab = await createLab();
-    const second = await handIn(lab.id, { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] }, "parts-second-lot");
-    const first = await handIn(lab.id, { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] }, "parts-first-lot");
+    const second = await handIn(
+      lab.id,
+      { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] },
+      "parts-second-lot",
+    );
+    const first = await handIn(
+      lab.id,
+      { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] },
+      "parts-first-lot",
+    );
     const rows = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, second.version.id));
     const [firstRow] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, first.version.id));
     expect(rows[0]).toMatchObject({ fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] });
     // F-2's recorded density and C-4's bore and band distance, as createTwoLotKit records them.
-    expect(rows[0].kitRecords).toMatchObject({ fluidLot: { id: kit.fluidLots[1], label: "F-2", densityKgM3: SECOND_LOT_DENSITY }, column: { label: "C-4", innerDiameterMm: 50, timedDistanceMm: 250 } });
-    expect(firstRow.kitRecords).toMatchObject({ fluidLot: { label: "F-1", densityKgM3: 1260 }, column: { label: "C-3", timedDistanceMm: 200 } });
+    expect(rows[0].kitRecords).toMatchObject({
+      fluidLot: { id: kit.fluidLots[1], label: "F-2", densityKgM3: SECOND_LOT_DENSITY },
+      column: { label: "C-4", innerDiameterMm: 50, timedDistanceMm: 250 },
+    });
+    expect(firstRow.kitRecords).toMatchObject({
+      fluidLot: { label: "F-1", densityKgM3: 1260 },
+      column: { label: "C-3", timedDistanceMm: 200 },
+    });
   });
 
   it("takes the lab's only allowed lot in the kit when none is named, and refuses the other one", async () => {
@@ -209,7 +270,11 @@ describe("the parts a hand-in names", () => {
     // No sphere ticked: any sphere of the kit, here the second.
     expect(stored).toMatchObject({ sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[1], columnId: kit.columns[0] });
     const otherLot = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[0] }, "parts-lot-not-allowed"));
-    expect(otherLot).toMatchObject({ code: "part_not_allowed", status: 400, issues: [{ path: ["fluidLotId"], message: expect.stringMatching(/does not use fluid lot F-1; choose one of F-2/) }] });
+    expect(otherLot).toMatchObject({
+      code: "part_not_allowed",
+      status: 400,
+      issues: [{ path: ["fluidLotId"], message: expect.stringMatching(/does not use fluid lot F-1; choose one of F-2/) }],
+    });
     const otherColumn = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[1], columnId: kit.columns[1] }, "parts-column-not-allowed"));
     expect(otherColumn).toMatchObject({ code: "part_not_allowed", status: 400, issues: [{ path: ["columnId"] }] });
   });
@@ -218,9 +283,17 @@ describe("the parts a hand-in names", () => {
     const lab = await createLab();
     const chosen = { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] };
     const lot = await refusalOf(handIn(lab.id, { ...chosen, fluidLotId: kit.foreignFluidLotId }, "parts-foreign-lot"));
-    expect(lot).toMatchObject({ code: "part_not_in_kit", status: 400, issues: [{ path: ["fluidLotId"], message: "That fluid lot is not in your kit." }] });
+    expect(lot).toMatchObject({
+      code: "part_not_in_kit",
+      status: 400,
+      issues: [{ path: ["fluidLotId"], message: "That fluid lot is not in your kit." }],
+    });
     const column = await refusalOf(handIn(lab.id, { ...chosen, columnId: kit.foreignColumnId }, "parts-foreign-column"));
-    expect(column).toMatchObject({ code: "part_not_in_kit", status: 400, issues: [{ path: ["columnId"], message: "That column is not in your kit." }] });
+    expect(column).toMatchObject({
+      code: "part_not_in_kit",
+      status: 400,
+      issues: [{ path: ["columnId"], message: "That column is not in your kit." }],
+    });
     const sphere = await refusalOf(handIn(lab.id, { ...chosen, sphereId: kit.foreignSphereId }, "parts-foreign-sphere"));
     expect(sphere).toMatchObject({ code: "sphere_not_in_kit", status: 400, issues: [{ path: ["sphereId"] }] });
     // A part of the kit named for the wrong kind (a column as the lot) is not a lot of the kit.
@@ -231,13 +304,23 @@ describe("the parts a hand-in names", () => {
 
   it("refuses a sphere of the kit that the lab does not allow", async () => {
     const lab = await createLab({ allowedPartIds: [kit.spheres[0]] });
-    const refusal = await refusalOf(handIn(lab.id, { sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] }, "parts-sphere-not-allowed"));
-    expect(refusal).toMatchObject({ code: "part_not_allowed", status: 400, issues: [{ path: ["sphereId"], message: expect.stringMatching(/does not use sphere S-4; choose one of S-3/) }] });
+    const refusal = await refusalOf(
+      handIn(lab.id, { sphereId: kit.spheres[1], fluidLotId: kit.fluidLots[0], columnId: kit.columns[0] }, "parts-sphere-not-allowed"),
+    );
+    expect(refusal).toMatchObject({
+      code: "part_not_allowed",
+      status: 400,
+      issues: [{ path: ["sphereId"], message: expect.stringMatching(/does not use sphere S-4; choose one of S-3/) }],
+    });
   });
 
   it("keeps the chosen lot and column in the draft", async () => {
     const lab = await createLab();
-    await saveDraft(db, { access: kit.access, labId: lab.id, draft: { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1], columnId: kit.columns[1], drops: ["7.4"] } });
+    await saveDraft(db, {
+      access: kit.access,
+      labId: lab.id,
+      draft: { sphereId: kit.spheres[0], fluidLotId: kit.fluidLots[1], columnId: kit.columns[1], drops: ["7.4"] },
+    });
     const dropLog = await getDropLogForStudent(db, { labId: lab.id, membershipId: kit.access.membership.id });
     expect(dropLog?.draft).toMatchObject({ fluidLotId: kit.fluidLots[1], columnId: kit.columns[1] });
   });
@@ -253,16 +336,31 @@ describe("the parts a hand-in names", () => {
       const [transitRow] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, inTransit.version.id));
       const codes = (row: typeof homeRow) => (row.reduction.warnings as { code: string }[]).map((warning) => warning.code);
       expect(codes(homeRow)).not.toContain("kit-not-at-home");
-      expect(transitRow.reduction.warnings).toContainEqual({ code: "kit-not-at-home", level: "warn", field: "form", message: expect.stringMatching(/Kit K-03 was recorded as “In transit”/) });
+      expect(transitRow.reduction.warnings).toContainEqual({
+        code: "kit-not-at-home",
+        level: "warn",
+        field: "form",
+        message: expect.stringMatching(/Kit K-03 was recorded as “In transit”/),
+      });
       expect(transitRow.warningCount).toBe(homeRow.warningCount + 1);
       expect(transitRow.kitRecords).toMatchObject({ kit: { number: "K-03", state: "in_transit" } });
       const counted = await loadCountedHandIns(db, lab.id);
       expect(counted.find((row) => row.versionId === inTransit.version.id)?.kitNotAtHome).toBe("In transit");
       // The marking desk's row says it too, and the fixture student's hand-in at home does not.
       const deskRows = await loadStudentMarkRows(db, lab, { cohortIds: [fixture.cohortId] });
-      expect(deskRows.find((row) => row.membershipId === kit.access.membership.id)?.handIn).toMatchObject({ versionId: inTransit.version.id, kitNotAtHome: "In transit" });
-      await handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "parts-own-at-home" });
-      const ownRow = (await loadStudentMarkRows(db, lab, { cohortIds: [fixture.cohortId] })).find((row) => row.membershipId === fixture.membershipIds.ownStudent);
+      expect(deskRows.find((row) => row.membershipId === kit.access.membership.id)?.handIn).toMatchObject({
+        versionId: inTransit.version.id,
+        kitNotAtHome: "In transit",
+      });
+      await handInDropLog(db, {
+        access: accessOf("ownStudent"),
+        labId: lab.id,
+        input: inputFor(fixture.sphereId),
+        idempotencyKey: "parts-own-at-home",
+      });
+      const ownRow = (await loadStudentMarkRows(db, lab, { cohortIds: [fixture.cohortId] })).find(
+        (row) => row.membershipId === fixture.membershipIds.ownStudent,
+      );
       expect(ownRow?.handIn).toMatchObject({ kitNotAtHome: null });
     } finally {
       await db.update(kits).set({ state: "at_home" }).where(eq(kits.id, kit.kitId));
@@ -294,7 +392,6 @@ describe("idempotent hand-in", () => {
 });
 
 describe("a hand-in's statements", () => {
-
   it("are nine for a new version and six for a repeat, begin and commit included", async () => {
     // At the deadline every hand-in pays per statement, so the budget is pinned here: the lab and the
     // kit (two), then begin, the drop log created or locked, the look-up of the key, the version, the
@@ -316,12 +413,25 @@ describe("versions", () => {
     const access = accessOf("ownStudent");
     await saveDraft(db, { access, labId: lab.id, draft: { temperatureC: "22.", drops: ["7.4", ""] } });
     const dropLogId = await ensureDropLog(db, { labId: lab.id, membershipId: access.membership.id });
-    const [photo] = await db.insert(dropLogPhotos).values({ dropLogId, storageKey: `${dropLogId}/a`, contentType: "image/jpeg", bytes: 10 }).returning();
+    const [photo] = await db
+      .insert(dropLogPhotos)
+      .values({ dropLogId, storageKey: `${dropLogId}/a`, contentType: "image/jpeg", bytes: 10 })
+      .returning();
 
     const first = await handInDropLog(db, { access, labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "versions-1" });
     const [firstRow] = await db.select().from(dropLogVersions).where(eq(dropLogVersions.id, first.version.id));
-    const second = await handInDropLog(db, { access, labId: lab.id, input: inputFor(fixture.sphereId, { temperatureC: 23 }), idempotencyKey: "versions-2" });
-    const third = await handInDropLog(db, { access, labId: lab.id, input: inputFor(fixture.sphereId, { drops: [7.6, 7.7, 7.65] }), idempotencyKey: "versions-3" });
+    const second = await handInDropLog(db, {
+      access,
+      labId: lab.id,
+      input: inputFor(fixture.sphereId, { temperatureC: 23 }),
+      idempotencyKey: "versions-2",
+    });
+    const third = await handInDropLog(db, {
+      access,
+      labId: lab.id,
+      input: inputFor(fixture.sphereId, { drops: [7.6, 7.7, 7.65] }),
+      idempotencyKey: "versions-3",
+    });
 
     expect([first, second, third].map((result) => result.version.version)).toEqual([1, 2, 3]);
     const versions = await listVersions(db, dropLogId);
@@ -337,8 +447,11 @@ describe("versions", () => {
   it("reads a drop log with its versions and photos in one statement", async () => {
     const lab = await createLab();
     const access = accessOf("ownStudent");
-    for (const key of ["few-statements-1", "few-statements-2"]) await handInDropLog(db, { access, labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: key });
-    const { statements, result } = await countStatements(() => getDropLogForStudent(db, { labId: lab.id, membershipId: access.membership.id }));
+    for (const key of ["few-statements-1", "few-statements-2"])
+      await handInDropLog(db, { access, labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: key });
+    const { statements, result } = await countStatements(() =>
+      getDropLogForStudent(db, { labId: lab.id, membershipId: access.membership.id }),
+    );
     expect(result?.versions).toHaveLength(2);
     expect(statements).toBe(1);
   });
@@ -346,7 +459,8 @@ describe("versions", () => {
 
 describe("due time and cut-off across the spring clock change in Europe/Dublin", () => {
   // Irish clocks go from 01:00 GMT to 02:00 IST on the last Sunday of March: 28 March 2027.
-  const local = (day: number, hour: number, minute: number) => new Date(new TZDate(2027, 2, day, hour, minute, 0, "Europe/Dublin").getTime());
+  const local = (day: number, hour: number, minute: number) =>
+    new Date(new TZDate(2027, 2, day, hour, minute, 0, "Europe/Dublin").getTime());
   let labId: string;
 
   beforeAll(async () => {
@@ -360,12 +474,16 @@ describe("due time and cut-off across the spring clock change in Europe/Dublin",
 
   it("is on time at 23:30 local, late at 00:30 the next day, refused after the cut-off", async () => {
     const access = accessOf("ownStudent");
-    const hand = (key: string, now: Date) => handInDropLog(db, { access, labId, input: inputFor(fixture.sphereId), idempotencyKey: key, now });
+    const hand = (key: string, now: Date) =>
+      handInDropLog(db, { access, labId, input: inputFor(fixture.sphereId), idempotencyKey: key, now });
     const onTime = await hand("dst-on-time", local(28, 23, 30));
     expect(onTime.version.late).toBe(false);
     const late = await hand("dst-late", local(29, 0, 30));
     expect(late.version.late).toBe(true);
-    await expect(hand("dst-refused", local(29, 12, 1))).rejects.toMatchObject({ code: "past_cutoff", message: expect.stringMatching(/cut-off has passed/) });
+    await expect(hand("dst-refused", local(29, 12, 1))).rejects.toMatchObject({
+      code: "past_cutoff",
+      message: expect.stringMatching(/cut-off has passed/),
+    });
     await expect(hand("dst-early", local(21, 8, 59))).rejects.toMatchObject({ code: "not_open" });
     // A retry of a stored hand-in after the cut-off gets its version back rather than a refusal.
     await expect(hand("dst-late", local(30, 9, 0))).resolves.toMatchObject({ duplicate: true, version: { id: late.version.id } });
@@ -392,11 +510,21 @@ describe("two students handing in at the same time", () => {
           });
       },
     });
-    const first = handInDropLog(held, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "held-open-1" });
+    const first = handInDropLog(held, {
+      access: accessOf("ownStudent"),
+      labId: lab.id,
+      input: inputFor(fixture.sphereId),
+      idempotencyKey: "held-open-1",
+    });
     await holding;
     try {
       const other = await Promise.race([
-        handInDropLog(db, { access: accessOf("sameCohortStudent"), labId: lab.id, input: inputFor(secondSphereId), idempotencyKey: "free-to-go-1" }),
+        handInDropLog(db, {
+          access: accessOf("sameCohortStudent"),
+          labId: lab.id,
+          input: inputFor(secondSphereId),
+          idempotencyKey: "free-to-go-1",
+        }),
         new Promise<"blocked">((resolve) => setTimeout(() => resolve("blocked"), 5000)),
       ]);
       expect(other).not.toBe("blocked");
@@ -410,7 +538,12 @@ describe("two students handing in at the same time", () => {
       expect(committed).toEqual([{ version: 1 }]);
 
       // The same student's second hand-in does wait for the first: versions are numbered under the lock.
-      const again = handInDropLog(db, { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "held-open-2" });
+      const again = handInDropLog(db, {
+        access: accessOf("ownStudent"),
+        labId: lab.id,
+        input: inputFor(fixture.sphereId),
+        idempotencyKey: "held-open-2",
+      });
       const early = await Promise.race([again.then(() => "done"), new Promise((resolve) => setTimeout(() => resolve("waiting"), 500))]);
       expect(early).toBe("waiting");
       release();

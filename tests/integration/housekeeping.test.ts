@@ -31,8 +31,19 @@ describe("housekeeping", () => {
       { key: "live-counter", points: 3, expire: ago(-0.001).getTime() },
       { key: "counter-without-expiry", points: 1, expire: null },
     ]);
-    const mail = (subject: string, receivedAt: Date) => ({ fromAddress: "a@benchpost.example", toAddresses: ["b@benchpost.example"], subject, headers: {}, receivedAt });
-    await db.insert(caughtEmails).values([mail("old", ago(housekeepingRetentionDays.caughtEmails + 1)), mail("recent", ago(housekeepingRetentionDays.caughtEmails - 1))]);
+    const mail = (subject: string, receivedAt: Date) => ({
+      fromAddress: "a@benchpost.example",
+      toAddresses: ["b@benchpost.example"],
+      subject,
+      headers: {},
+      receivedAt,
+    });
+    await db
+      .insert(caughtEmails)
+      .values([
+        mail("old", ago(housekeepingRetentionDays.caughtEmails + 1)),
+        mail("recent", ago(housekeepingRetentionDays.caughtEmails - 1)),
+      ]);
     await db.insert(auditEvents).values([
       { action: "access.denied", subject: "old", createdAt: ago(housekeepingRetentionDays.accessDeniedAudit + 1) },
       { action: "access.denied", subject: "recent", createdAt: ago(housekeepingRetentionDays.accessDeniedAudit - 1) },
@@ -53,9 +64,15 @@ describe("housekeeping", () => {
 
   it("is put on pg-boss's cron by the worker", async () => {
     // No mail is sent here: the transport only has to exist.
-    const worker = await startWorker({ connectionString: process.env.DATABASE_URL!, transport: smtpTransport("smtp://127.0.0.1:9", "Benchpost <no-reply@benchpost.example>"), log: () => undefined });
+    const worker = await startWorker({
+      connectionString: process.env.DATABASE_URL!,
+      transport: smtpTransport("smtp://127.0.0.1:9", "Benchpost <no-reply@benchpost.example>"),
+      log: () => undefined,
+    });
     try {
-      const schedule = await db.execute<{ cron: string; timezone: string }>(sql`select cron, timezone from pgboss.schedule where name = ${queues.housekeeping}`);
+      const schedule = await db.execute<{ cron: string; timezone: string }>(
+        sql`select cron, timezone from pgboss.schedule where name = ${queues.housekeeping}`,
+      );
       expect(schedule.rows).toEqual([{ cron: housekeepingCron, timezone: "UTC" }]);
     } finally {
       await worker.stop();

@@ -20,7 +20,15 @@ async function partsForKit(suffix: string, fluidLotId?: string) {
     .insert(parts)
     .values([
       { courseId: fixture.courseId, kind: "sphere", label: `S-${suffix}`, material: "steel", diameterMm: 4, massG: 0.262 },
-      { courseId: fixture.courseId, kind: "column", label: `C-${suffix}`, innerDiameterMm: 40, timedDistanceMm: 300, runInMm: 120, marginBelowMm: 60 },
+      {
+        courseId: fixture.courseId,
+        kind: "column",
+        label: `C-${suffix}`,
+        innerDiameterMm: 40,
+        timedDistanceMm: 300,
+        runInMm: 120,
+        marginBelowMm: 60,
+      },
     ])
     .returning();
   const lotId =
@@ -28,7 +36,14 @@ async function partsForKit(suffix: string, fluidLotId?: string) {
     (
       await db
         .insert(parts)
-        .values({ courseId: fixture.courseId, kind: "fluid_lot", label: `F-${suffix}`, fluidName: "glycerol", densityKgM3: 1249, calibration: [{ temperatureC: 20, viscosityPaS: 0.545 }] })
+        .values({
+          courseId: fixture.courseId,
+          kind: "fluid_lot",
+          label: `F-${suffix}`,
+          fluidName: "glycerol",
+          densityKgM3: 1249,
+          calibration: [{ temperatureC: 20, viscosityPaS: 0.545 }],
+        })
         .returning()
     )[0].id;
   return { sphereId: sphere.id, columnId: column.id, fluidLotId: lotId };
@@ -53,25 +68,43 @@ describe("a kit's journey", () => {
       kitIds: [kit.id],
       move: { to: "in_transit", shipping: { carrier: "Parcelwise", trackingNumber: "PW123", shippedOn: "2027-01-18" } },
     });
-    const shippedMail = await db.select().from(emailOutbox).where(and(eq(emailOutbox.template, "kit-shipped"), eq(emailOutbox.courseId, fixture.courseId)));
+    const shippedMail = await db
+      .select()
+      .from(emailOutbox)
+      .where(and(eq(emailOutbox.template, "kit-shipped"), eq(emailOutbox.courseId, fixture.courseId)));
     expect(shippedMail.map((mail) => mail.toAddress)).toEqual(["samecohortstudent@kits.example"]);
     expect(shippedMail[0].props).toMatchObject({ kitNumber: "J-1", trackingNumber: "PW123" });
 
     await confirmArrival(db, { ...base(), actorId: fixture.userIds.sameCohortStudent, kitId: kit.id, complete: true });
     await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "coming_back" } });
-    await checkInKit(db, { ...base(), kitId: kit.id, conditions: { [sphereId]: "damaged", [fluidLotId]: "missing" }, remeasure: [columnId] });
+    await checkInKit(db, {
+      ...base(),
+      kitId: kit.id,
+      conditions: { [sphereId]: "damaged", [fluidLotId]: "missing" },
+      remeasure: [columnId],
+    });
 
     const after = await kitState(kit.id);
     expect(after).toMatchObject({ state: "checked_in", holderMembershipId: null });
     const partStatus = Object.fromEntries(
-      (await db.select({ id: parts.id, status: parts.status }).from(parts).where(inArray(parts.id, [sphereId, columnId, fluidLotId]))).map((p) => [p.id, p.status]),
+      (
+        await db
+          .select({ id: parts.id, status: parts.status })
+          .from(parts)
+          .where(inArray(parts.id, [sphereId, columnId, fluidLotId]))
+      ).map((p) => [p.id, p.status]),
     );
     // The broken sphere is retired; the column goes for re-measurement; a lost bottle leaves its lot in service.
     expect(partStatus).toEqual({ [sphereId]: "retired", [columnId]: "remeasure", [fluidLotId]: "in_service" });
-    const stillInKit = (await db.select({ partId: kitParts.partId }).from(kitParts).where(eq(kitParts.kitId, kit.id))).map((row) => row.partId);
+    const stillInKit = (await db.select({ partId: kitParts.partId }).from(kitParts).where(eq(kitParts.kitId, kit.id))).map(
+      (row) => row.partId,
+    );
     expect(stillInKit).toEqual([columnId]);
 
-    const moves = await db.select({ from: kitEvents.fromState, to: kitEvents.toState }).from(kitEvents).where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "moved")));
+    const moves = await db
+      .select({ from: kitEvents.fromState, to: kitEvents.toState })
+      .from(kitEvents)
+      .where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "moved")));
     expect(moves.map((move) => `${move.from}→${move.to}`)).toEqual([
       "on_shelf→packed",
       "packed→in_transit",
@@ -79,7 +112,10 @@ describe("a kit's journey", () => {
       "at_home→coming_back",
       "coming_back→checked_in",
     ]);
-    const conditionEvents = await db.select().from(partEvents).where(and(eq(partEvents.action, "checked_in"), inArray(partEvents.partId, [sphereId, columnId])));
+    const conditionEvents = await db
+      .select()
+      .from(partEvents)
+      .where(and(eq(partEvents.action, "checked_in"), inArray(partEvents.partId, [sphereId, columnId])));
     expect(conditionEvents).toHaveLength(2);
 
     await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "on_shelf" } });
@@ -89,17 +125,44 @@ describe("a kit's journey", () => {
   it("tells the course's instructors when a student reports a problem, and keeps it on the kit", async () => {
     const { sphereId } = await partsForKit("R1");
     const kit = await createKit(db, { ...base(), number: "R-1", partIds: [sphereId] });
-    await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "packed", holderMembershipId: fixture.membershipIds.otherCohortStudent } });
-    await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "in_transit", shipping: { carrier: "Parcelwise", trackingNumber: "PW9", shippedOn: "2027-01-18" } } });
-    await confirmArrival(db, { ...base(), actorId: fixture.userIds.otherCohortStudent, kitId: kit.id, complete: false, note: "No thermometer in the box." });
-    await reportKitProblem(db, { courseId: fixture.courseId, kitId: kit.id, actorId: fixture.userIds.otherCohortStudent, partId: sphereId, problem: "damaged", note: "Chipped." });
+    await moveKits(db, {
+      ...base(),
+      kitIds: [kit.id],
+      move: { to: "packed", holderMembershipId: fixture.membershipIds.otherCohortStudent },
+    });
+    await moveKits(db, {
+      ...base(),
+      kitIds: [kit.id],
+      move: { to: "in_transit", shipping: { carrier: "Parcelwise", trackingNumber: "PW9", shippedOn: "2027-01-18" } },
+    });
+    await confirmArrival(db, {
+      ...base(),
+      actorId: fixture.userIds.otherCohortStudent,
+      kitId: kit.id,
+      complete: false,
+      note: "No thermometer in the box.",
+    });
+    await reportKitProblem(db, {
+      courseId: fixture.courseId,
+      kitId: kit.id,
+      actorId: fixture.userIds.otherCohortStudent,
+      partId: sphereId,
+      problem: "damaged",
+      note: "Chipped.",
+    });
 
-    const mail = await db.select().from(emailOutbox).where(and(eq(emailOutbox.template, "kit-problem"), eq(emailOutbox.courseId, fixture.courseId)));
+    const mail = await db
+      .select()
+      .from(emailOutbox)
+      .where(and(eq(emailOutbox.template, "kit-problem"), eq(emailOutbox.courseId, fixture.courseId)));
     expect(mail.map((m) => [m.toAddress, m.props.problem, m.props.partLabel])).toEqual([
       ["instructor@kits.example", "incomplete", null],
       ["instructor@kits.example", "damaged", "S-R1"],
     ]);
-    const reports = await db.select().from(kitEvents).where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "reported")));
+    const reports = await db
+      .select()
+      .from(kitEvents)
+      .where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "reported")));
     expect(reports.map((r) => r.note)).toEqual(["No thermometer in the box.", "Chipped."]);
   });
 
@@ -109,14 +172,21 @@ describe("a kit's journey", () => {
     await expect(moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "at_home" } })).rejects.toThrow(/cannot go to at home/);
     await expect(moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "in_transit" } })).rejects.toMatchObject({ code: "kit_refused" });
     expect((await kitState(kit.id)).state).toBe("on_shelf");
-    expect(await db.select().from(kitEvents).where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "moved")))).toEqual([]);
+    expect(
+      await db
+        .select()
+        .from(kitEvents)
+        .where(and(eq(kitEvents.kitId, kit.id), eq(kitEvents.action, "moved"))),
+    ).toEqual([]);
   });
 
   it("moves many kits in one transaction: when one may not move, none does", async () => {
     const first = await createKit(db, { ...base(), number: "B-1", partIds: [] });
     const second = await createKit(db, { ...base(), number: "B-2", partIds: [] });
     await moveKits(db, { ...base(), kitIds: [first.id], move: { to: "retired" } });
-    await expect(moveKits(db, { ...base(), kitIds: [first.id, second.id], move: { to: "retired" } })).rejects.toThrow(/Kit B-1 \(retired\)/);
+    await expect(moveKits(db, { ...base(), kitIds: [first.id, second.id], move: { to: "retired" } })).rejects.toThrow(
+      /Kit B-1 \(retired\)/,
+    );
     expect((await kitState(second.id)).state).toBe("on_shelf");
 
     const third = await createKit(db, { ...base(), number: "B-3", partIds: [] });
@@ -145,7 +215,8 @@ describe("a kit's journey", () => {
 describe("the kits table", () => {
   it("runs the same number of statements for 10 and for 300 kits, and a TA's view keeps to their cohorts", async () => {
     const course = await createAccessFixture("kit-table");
-    const batch = (from: number, to: number) => Array.from({ length: to - from }, (_, i) => ({ courseId: course.courseId, number: `T-${from + i}` }));
+    const batch = (from: number, to: number) =>
+      Array.from({ length: to - from }, (_, i) => ({ courseId: course.courseId, number: `T-${from + i}` }));
     await db.insert(kits).values(batch(0, 9));
     const small = await countStatements(() => listKits(db, course.courseId, { page: 1, pageSize: 25 }));
     await db.insert(kits).values(batch(9, 299));

@@ -6,7 +6,18 @@
 import { randomUUID } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { cohorts, courseMemberships, dropLogVersions, emailOutbox, labCohorts, labExtensions, labReminders, labs, parts, users } from "~/db/schema";
+import {
+  cohorts,
+  courseMemberships,
+  dropLogVersions,
+  emailOutbox,
+  labCohorts,
+  labExtensions,
+  labReminders,
+  labs,
+  parts,
+  users,
+} from "~/db/schema";
 import { labInputFor, newLabFormValues, type LabInput } from "~/lib/labs/lab-input";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
@@ -25,7 +36,14 @@ let fixture: AccessFixture;
 
 function staffAccess(actor: "instructor" | "assignedTa", cohortIds: string[]): CourseAccess {
   return {
-    user: { id: fixture.userIds[actor], email: `${actor}@labs.example`, name: actor, mayCreateCourses: false, sessionId: null, via: "session" },
+    user: {
+      id: fixture.userIds[actor],
+      email: `${actor}@labs.example`,
+      name: actor,
+      mayCreateCourses: false,
+      sessionId: null,
+      via: "session",
+    },
     course: { id: fixture.courseId, title: "Settling Spheres", code: "labs-A", term: "Test term", timeZone: "UTC" },
     membership: { id: fixture.membershipIds[actor], role: actor === "instructor" ? "instructor" : "ta", cohortId: null },
     cohortIds,
@@ -36,7 +54,11 @@ const instructor = () => staffAccess("instructor", [fixture.cohortId, fixture.ot
 /** The form as an instructor fills it, with the new-lab defaults. */
 function rawForm(overrides: Record<string, unknown>): Record<string, unknown> {
   const { fields } = newLabFormValues("drag", []);
-  const resolutions = Object.fromEntries(Object.entries(fields).filter(([key]) => key.startsWith("resolutions.")).map(([key, value]) => [key.slice(12), value]));
+  const resolutions = Object.fromEntries(
+    Object.entries(fields)
+      .filter(([key]) => key.startsWith("resolutions."))
+      .map(([key, value]) => [key.slice(12), value]),
+  );
   return { ...fields, resolutions, title: "Settling in glycerol", cohortIds: [], ...overrides };
 }
 const labForm = (overrides: Record<string, unknown>, timeZone = "UTC"): LabInput => labInputFor(timeZone).parse(rawForm(overrides));
@@ -56,19 +78,36 @@ beforeAll(async () => {
 
 describe("lab input", () => {
   it("keeps the due time after the opening and the cut-off after the due time, with the message at the field", () => {
-    const result = labInputFor("UTC").safeParse(rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-09T09:00", lateCutoffAt: "2027-03-08T09:00" }));
+    const result = labInputFor("UTC").safeParse(
+      rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-09T09:00", lateCutoffAt: "2027-03-08T09:00" }),
+    );
     expect(result.error?.issues.map((issue) => issue.path.join("."))).toEqual(["dueAt", "lateCutoffAt"]);
-    const unreadable = labInputFor("UTC").safeParse(rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", reminderOffsetsHours: "48, soon", resolutions: {} }));
+    const unreadable = labInputFor("UTC").safeParse(
+      rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", reminderOffsetsHours: "48, soon", resolutions: {} }),
+    );
     expect(new Set(unreadable.error?.issues.map((issue) => issue.path.join(".")))).toEqual(
-      new Set(["reminderOffsetsHours", "resolutions.diameterMm", "resolutions.massG", "resolutions.distanceMm", "resolutions.timeS", "resolutions.temperatureC", "resolutions.thermometerAccuracyC"]),
+      new Set([
+        "reminderOffsetsHours",
+        "resolutions.diameterMm",
+        "resolutions.massG",
+        "resolutions.distanceMm",
+        "resolutions.timeS",
+        "resolutions.temperatureC",
+        "resolutions.thermometerAccuracyC",
+      ]),
     );
   });
 
   it("keeps the after-release policy: refuse unless chosen, an unknown value refused at its field, and stored as chosen", async () => {
     expect(labForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00" }).afterReleaseHandIns).toBe("refuse");
-    const unknown = labInputFor("UTC").safeParse(rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", afterReleaseHandIns: "accept" }));
+    const unknown = labInputFor("UTC").safeParse(
+      rawForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", afterReleaseHandIns: "accept" }),
+    );
     expect(unknown.error?.issues.map((issue) => issue.path.join("."))).toEqual(["afterReleaseHandIns"]);
-    const lab = await createLab(db, { access: instructor(), input: labForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", afterReleaseHandIns: "reopen" }) });
+    const lab = await createLab(db, {
+      access: instructor(),
+      input: labForm({ opensAt: "2027-03-10T09:00", dueAt: "2027-03-12T09:00", afterReleaseHandIns: "reopen" }),
+    });
     expect((await getLab(db, fixture.courseId, lab.id))!.afterReleaseHandIns).toBe("reopen");
   });
 
@@ -76,7 +115,14 @@ describe("lab input", () => {
     const lab = labForm({ opensAt: "2027-07-01T09:00", dueAt: "2027-07-08T23:59" }, "Europe/Dublin");
     expect(lab.dueAt.toISOString()).toBe("2027-07-08T22:59:00.000Z");
     expect(lab.reminderOffsetsHours).toEqual([48, 6]);
-    expect(lab.resolutions).toEqual({ diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5, thermometerAccuracyC: 0.5 });
+    expect(lab.resolutions).toEqual({
+      diameterMm: 0.01,
+      massG: 0.001,
+      distanceMm: 1,
+      timeS: 0.01,
+      temperatureC: 0.5,
+      thermometerAccuracyC: 0.5,
+    });
   });
 });
 
@@ -90,9 +136,20 @@ describe("the parts a lab allows, per kind", () => {
     const lab = await createLab(db, { access: instructor(), input });
     // No sphere ticked: the stored list holds the lot and the column only, and so limits those kinds.
     expect(new Set(lab.allowedPartIds)).toEqual(new Set([idOf("fluid_lot"), idOf("column")]));
-    await expect(createLab(db, { access: instructor(), input: labForm({ ...times, allowedSphereIds: [idOf("fluid_lot")] }) })).rejects.toMatchObject({ field: "allowedSphereIds" });
-    await expect(createLab(db, { access: instructor(), input: labForm({ ...times, allowedFluidLotIds: [idOf("accessory")] }) })).rejects.toMatchObject({ field: "allowedFluidLotIds" });
-    await expect(updateLab(db, { access: instructor(), labId: lab.id, input: labForm({ ...times, allowedColumnIds: [idOf("sphere")] }), intent: "save" })).rejects.toMatchObject({
+    await expect(
+      createLab(db, { access: instructor(), input: labForm({ ...times, allowedSphereIds: [idOf("fluid_lot")] }) }),
+    ).rejects.toMatchObject({ field: "allowedSphereIds" });
+    await expect(
+      createLab(db, { access: instructor(), input: labForm({ ...times, allowedFluidLotIds: [idOf("accessory")] }) }),
+    ).rejects.toMatchObject({ field: "allowedFluidLotIds" });
+    await expect(
+      updateLab(db, {
+        access: instructor(),
+        labId: lab.id,
+        input: labForm({ ...times, allowedColumnIds: [idOf("sphere")] }),
+        intent: "save",
+      }),
+    ).rejects.toMatchObject({
       field: "allowedColumnIds",
     });
   });
@@ -104,11 +161,18 @@ describe("drafts, publishing and closing", () => {
     const input = labForm({ opensAt: wallClock(new Date(now.getTime() - HOUR)), dueAt: wallClock(new Date(now.getTime() + 72 * HOUR)) });
     const lab = await createLab(db, { access: instructor(), input });
     expect(lab.status).toBe("draft");
-    await expect(updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish" })).rejects.toMatchObject({ code: "lab_refused" });
+    await expect(updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish" })).rejects.toMatchObject({
+      code: "lab_refused",
+    });
     expect((await getLab(db, fixture.courseId, lab.id))!.status).toBe("draft");
 
-    const [foreign] = await db.insert(cohorts).values({ courseId: fixture.otherCourseId, name: `Elsewhere ${randomUUID()}` }).returning();
-    await expect(updateLab(db, { access: instructor(), labId: lab.id, input: { ...input, cohortIds: [foreign.id] }, intent: "save" })).rejects.toMatchObject({ field: "cohortIds" });
+    const [foreign] = await db
+      .insert(cohorts)
+      .values({ courseId: fixture.otherCourseId, name: `Elsewhere ${randomUUID()}` })
+      .returning();
+    await expect(
+      updateLab(db, { access: instructor(), labId: lab.id, input: { ...input, cohortIds: [foreign.id] }, intent: "save" }),
+    ).rejects.toMatchObject({ field: "cohortIds" });
   });
 
   it("schedules one reminder per offset at due − offset when published, and new ones when the due time moves", async () => {
@@ -138,7 +202,10 @@ describe("drafts, publishing and closing", () => {
     expect(await sendLabReminders(db, stale, new Date(due.getTime() - 48 * HOUR))).toEqual({ sent: 0, skipped: "due-time-changed" });
 
     await closeLab(db, { access: instructor(), labId: lab.id });
-    expect(await sendLabReminders(db, { labId: lab.id, offsetHours: 48, dueAt: later.toISOString() }, now)).toEqual({ sent: 0, skipped: "not-published" });
+    expect(await sendLabReminders(db, { labId: lab.id, offsetHours: 48, dueAt: later.toISOString() }, now)).toEqual({
+      sent: 0,
+      skipped: "not-published",
+    });
     await expect(closeLab(db, { access: instructor(), labId: lab.id })).rejects.toMatchObject({ code: "lab_refused" });
   });
 
@@ -146,15 +213,43 @@ describe("drafts, publishing and closing", () => {
     const now = new Date(Math.floor(Date.now() / 60_000) * 60_000);
     const [lab] = await db
       .insert(labs)
-      .values({ courseId: fixture.courseId, title: "Moved due time", kind: "drag", status: "published", opensAt: new Date(now.getTime() - 2 * HOUR), dueAt: new Date(now.getTime() - HOUR), lateCutoffAt: new Date(now.getTime() + HOUR), requiredDrops: 5, resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 } })
+      .values({
+        courseId: fixture.courseId,
+        title: "Moved due time",
+        kind: "drag",
+        status: "published",
+        opensAt: new Date(now.getTime() - 2 * HOUR),
+        dueAt: new Date(now.getTime() - HOUR),
+        lateCutoffAt: new Date(now.getTime() + HOUR),
+        requiredDrops: 5,
+        resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 },
+      })
       .returning();
     await db.insert(labCohorts).values({ labId: lab.id, cohortId: fixture.cohortId });
-    const student = { ...instructor(), user: { ...instructor().user, id: fixture.userIds.ownStudent }, membership: { id: fixture.membershipIds.ownStudent, role: "student" as const, cohortId: fixture.cohortId }, cohortIds: [fixture.cohortId] };
-    const handedIn = await handInDropLog(db, { access: student, labId: lab.id, input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] }, idempotencyKey: "labs-moved-due", now });
+    const student = {
+      ...instructor(),
+      user: { ...instructor().user, id: fixture.userIds.ownStudent },
+      membership: { id: fixture.membershipIds.ownStudent, role: "student" as const, cohortId: fixture.cohortId },
+      cohortIds: [fixture.cohortId],
+    };
+    const handedIn = await handInDropLog(db, {
+      access: student,
+      labId: lab.id,
+      input: { sphereId: fixture.sphereId, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] },
+      idempotencyKey: "labs-moved-due",
+      now,
+    });
     expect(handedIn.version.late).toBe(true);
-    const lateOf = async () => (await db.select({ late: dropLogVersions.late }).from(dropLogVersions).where(eq(dropLogVersions.id, handedIn.version.id)))[0].late;
+    const lateOf = async () =>
+      (await db.select({ late: dropLogVersions.late }).from(dropLogVersions).where(eq(dropLogVersions.id, handedIn.version.id)))[0].late;
     const move = (dueAt: Date) =>
-      updateLab(db, { access: instructor(), labId: lab.id, input: labForm({ opensAt: wallClock(lab.opensAt), dueAt: wallClock(dueAt), lateCutoffAt: "", cohortIds: [fixture.cohortId] }), intent: "save", now });
+      updateLab(db, {
+        access: instructor(),
+        labId: lab.id,
+        input: labForm({ opensAt: wallClock(lab.opensAt), dueAt: wallClock(dueAt), lateCutoffAt: "", cohortIds: [fixture.cohortId] }),
+        intent: "save",
+        now,
+      });
     await move(new Date(now.getTime() + 2 * HOUR));
     expect(await lateOf()).toBe(false);
     await move(new Date(now.getTime() - 30 * 60_000));
@@ -167,7 +262,9 @@ describe("drafts, publishing and closing", () => {
     const extended = new Date(due.getTime() + 96 * HOUR);
     const input = labForm({ opensAt: wallClock(now), dueAt: wallClock(due), cohortIds: [fixture.cohortId] });
     const lab = await createLab(db, { access: instructor(), input });
-    await db.insert(labExtensions).values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extended, reason: "Learning-support plan" });
+    await db
+      .insert(labExtensions)
+      .values({ labId: lab.id, membershipId: fixture.membershipIds.ownStudent, dueAt: extended, reason: "Learning-support plan" });
     await updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish", now });
     expect((await reminderJobs(lab.id)).map((job) => `${job.dueAt} ${job.offsetHours}`)).toEqual([
       `${due.toISOString()} 48`,
@@ -179,7 +276,11 @@ describe("drafts, publishing and closing", () => {
 
   it("skips an offset whose time has already passed at publishing", async () => {
     const now = new Date();
-    const input = labForm({ opensAt: wallClock(new Date(now.getTime() - HOUR)), dueAt: wallClock(new Date(now.getTime() + 10 * HOUR)), cohortIds: [fixture.cohortId] });
+    const input = labForm({
+      opensAt: wallClock(new Date(now.getTime() - HOUR)),
+      dueAt: wallClock(new Date(now.getTime() + 10 * HOUR)),
+      cohortIds: [fixture.cohortId],
+    });
     const lab = await createLab(db, { access: instructor(), input });
     await updateLab(db, { access: instructor(), labId: lab.id, input, intent: "publish", now });
     expect((await reminderJobs(lab.id)).map((job) => job.offsetHours)).toEqual([6]);
@@ -199,7 +300,11 @@ describe("reminder job", () => {
     const reminders = await db.select().from(labReminders).where(eq(labReminders.labId, lab.id));
     expect(reminders.map((reminder) => reminder.membershipId)).toEqual([fixture.membershipIds.sameCohortStudent]);
     const [email] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, reminders[0].outboxId!));
-    expect(email).toMatchObject({ template: "deadline-reminder", toAddress: "samecohortstudent@labs.example", dedupeKey: `reminder:${lab.id}:${fixture.membershipIds.sameCohortStudent}:${lab.dueAt.toISOString()}:48` });
+    expect(email).toMatchObject({
+      template: "deadline-reminder",
+      toAddress: "samecohortstudent@labs.example",
+      dedupeKey: `reminder:${lab.id}:${fixture.membershipIds.sameCohortStudent}:${lab.dueAt.toISOString()}:48`,
+    });
     expect(email.props).toMatchObject({ labTitle: lab.title, hoursLeft: 48 });
 
     // A second offset is a reminder of its own.
@@ -215,16 +320,48 @@ describe("hand-in dashboard", () => {
     const label = `dash${students}-${randomUUID().slice(0, 6)}`;
     const [lab] = await db
       .insert(labs)
-      .values({ courseId: fixture.courseId, title: label, kind: "drag", status: "published", opensAt: new Date(Date.now() - 48 * HOUR), dueAt: new Date(Date.now() + 48 * HOUR), resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 } })
+      .values({
+        courseId: fixture.courseId,
+        title: label,
+        kind: "drag",
+        status: "published",
+        opensAt: new Date(Date.now() - 48 * HOUR),
+        dueAt: new Date(Date.now() + 48 * HOUR),
+        resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 },
+      })
       .returning();
-    await db.execute(sql`insert into lab_cohorts (lab_id, cohort_id) values (${lab.id}, ${fixture.cohortId}), (${lab.id}, ${fixture.otherCohortId})`);
+    await db.execute(
+      sql`insert into lab_cohorts (lab_id, cohort_id) values (${lab.id}, ${fixture.cohortId}), (${lab.id}, ${fixture.otherCohortId})`,
+    );
     const handedIn = Math.round((students * 2) / 3);
-    const members = Array.from({ length: handedIn }, (_, index) => ({ figure: 1 + (index % 7) / 100, cohortId: index % 2 ? fixture.otherCohortId : fixture.cohortId }));
+    const members = Array.from({ length: handedIn }, (_, index) => ({
+      figure: 1 + (index % 7) / 100,
+      cohortId: index % 2 ? fixture.otherCohortId : fixture.cohortId,
+    }));
     const dropLogIds = await seedClass(db, { courseId: fixture.courseId, labId: lab.id, cohortId: fixture.cohortId, members, label });
-    await db.execute(sql`update drop_log_versions set late = true where drop_log_id in (select value::uuid from json_array_elements_text(${JSON.stringify(dropLogIds.filter((_, index) => index % 4 === 0))}::json))`);
+    await db.execute(
+      sql`update drop_log_versions set late = true where drop_log_id in (select value::uuid from json_array_elements_text(${JSON.stringify(dropLogIds.filter((_, index) => index % 4 === 0))}::json))`,
+    );
     const missing = Array.from({ length: students - handedIn }, (_, index) => ({ userId: randomUUID(), index }));
-    await insertMany(db, users, missing.map((row) => ({ id: row.userId, email: `${label}-missing-${row.index}@class.example`, name: `${label} missing ${row.index}` })));
-    await insertMany(db, courseMemberships, missing.map((row) => ({ courseId: fixture.courseId, userId: row.userId, role: "student" as const, cohortId: row.index % 2 ? fixture.otherCohortId : fixture.cohortId })));
+    await insertMany(
+      db,
+      users,
+      missing.map((row) => ({
+        id: row.userId,
+        email: `${label}-missing-${row.index}@class.example`,
+        name: `${label} missing ${row.index}`,
+      })),
+    );
+    await insertMany(
+      db,
+      courseMemberships,
+      missing.map((row) => ({
+        courseId: fixture.courseId,
+        userId: row.userId,
+        role: "student" as const,
+        cohortId: row.index % 2 ? fixture.otherCohortId : fixture.cohortId,
+      })),
+    );
     return { lab: (await getLab(db, fixture.courseId, lab.id))!, handedIn, late: dropLogIds.filter((_, index) => index % 4 === 0).length };
   }
 
@@ -237,7 +374,10 @@ describe("hand-in dashboard", () => {
     expect(largeRun.statements).toBeLessThanOrEqual(3);
 
     // The fixture's own students of both cohorts are in the class too; count only this lab's seeded ones.
-    const totals = largeRun.result.cohorts.reduce((sum, cohort) => ({ onTime: sum.onTime + cohort.onTime, late: sum.late + cohort.late, students: sum.students + cohort.students }), { onTime: 0, late: 0, students: 0 });
+    const totals = largeRun.result.cohorts.reduce(
+      (sum, cohort) => ({ onTime: sum.onTime + cohort.onTime, late: sum.late + cohort.late, students: sum.students + cohort.students }),
+      { onTime: 0, late: 0, students: 0 },
+    );
     expect(totals.onTime + totals.late).toBe(large.handedIn);
     expect(totals.late).toBe(large.late);
     expect(largeRun.result.students.filter((student) => student.version === null).length).toBe(totals.students - large.handedIn);
@@ -250,7 +390,10 @@ describe("hand-in dashboard", () => {
     expect(new Set(dashboard.students.map((student) => student.cohortId))).toEqual(new Set([fixture.cohortId]));
     const all = await getLabDashboard(db, instructor(), lab);
     expect(all.students.length).toBeGreaterThan(dashboard.students.length);
-    const [sample] = await db.select({ id: courseMemberships.id }).from(courseMemberships).where(and(eq(courseMemberships.cohortId, fixture.otherCohortId), eq(courseMemberships.role, "student")));
+    const [sample] = await db
+      .select({ id: courseMemberships.id })
+      .from(courseMemberships)
+      .where(and(eq(courseMemberships.cohortId, fixture.otherCohortId), eq(courseMemberships.role, "student")));
     expect(dashboard.students.some((student) => student.membershipId === sample.id)).toBe(false);
   });
 });

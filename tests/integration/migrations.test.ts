@@ -28,10 +28,12 @@ describe("migrations", () => {
     const applied = await query<{ count: string }>(emptyUrl, "select count(*) from drizzle.__drizzle_migrations");
     expect(Number(applied[0].count)).toBe(journal.entries.length);
 
-    const tables = (await query<{ table_name: string }>(emptyUrl, "select table_name from information_schema.tables where table_schema = 'public'")).map(
-      (row) => row.table_name,
+    const tables = (
+      await query<{ table_name: string }>(emptyUrl, "select table_name from information_schema.tables where table_schema = 'public'")
+    ).map((row) => row.table_name);
+    expect(tables).toEqual(
+      expect.arrayContaining(["users", "sessions", "courses", "cohorts", "course_memberships", "ta_cohort_assignments", "audit_events"]),
     );
-    expect(tables).toEqual(expect.arrayContaining(["users", "sessions", "courses", "cohorts", "course_memberships", "ta_cohort_assignments", "audit_events"]));
 
     await migrateDatabase(emptyUrl);
     const again = await query<{ count: string }>(emptyUrl, "select count(*) from drizzle.__drizzle_migrations");

@@ -43,7 +43,17 @@ beforeAll(async () => {
   const { part } = await createPart(db, {
     courseId,
     actorId: instructorUser.id,
-    input: { kind: "fluid_lot", label: "FL-1", fluidName: "syrup", densityKgM3: 1380, calibration: [{ temperatureC: 18, viscosityPaS: 6 }, { temperatureC: 24, viscosityPaS: 3.5 }], notes: null },
+    input: {
+      kind: "fluid_lot",
+      label: "FL-1",
+      fluidName: "syrup",
+      densityKgM3: 1380,
+      calibration: [
+        { temperatureC: 18, viscosityPaS: 6 },
+        { temperatureC: 24, viscosityPaS: 3.5 },
+      ],
+      notes: null,
+    },
   });
   fluidLotId = part.id;
 });
@@ -80,13 +90,23 @@ describe("parts screens", () => {
     const response = await handle(
       appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
         cookie: instructor,
-        form: { kind: "fluid_lot", label: "GLY-85", fluidName: "glycerol–water 85 %", densityKgM3: "1221", glycerolMassFraction: "0.85", calibrationTemperatureC: ["20", "30"], calibrationViscosityPaS: ["109", "0.058"] },
+        form: {
+          kind: "fluid_lot",
+          label: "GLY-85",
+          fluidName: "glycerol–water 85 %",
+          densityKgM3: "1221",
+          glycerolMassFraction: "0.85",
+          calibrationTemperatureC: ["20", "30"],
+          calibrationViscosityPaS: ["109", "0.058"],
+        },
       }),
     );
     expect(response.status).toBe(302);
     const { html } = await page(new URL(response.headers.get("location")!, "http://localhost").pathname, instructor);
     expect(html).toContain("Check these measurements");
-    expect(html).toContain("The viscosity at 20 °C is about 1000 times the handbook value for a glycerol mass fraction of 0.85 (Cheng 2008)");
+    expect(html).toContain(
+      "The viscosity at 20 °C is about 1000 times the handbook value for a glycerol mass fraction of 0.85 (Cheng 2008)",
+    );
     expect(html).toContain("Handbook μ (Pa·s)");
     expect(html).toContain("unit slip? (mPa·s vs Pa·s)");
     expect(html).toContain("agrees with the handbook");
@@ -96,7 +116,15 @@ describe("parts screens", () => {
     const response = await handle(
       appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
         cookie: instructor,
-        form: { kind: "fluid_lot", label: "GLY-X", fluidName: "glycerol–water", densityKgM3: "1221", glycerolMassFraction: "85", calibrationTemperatureC: "20", calibrationViscosityPaS: "0.109" },
+        form: {
+          kind: "fluid_lot",
+          label: "GLY-X",
+          fluidName: "glycerol–water",
+          densityKgM3: "1221",
+          glycerolMassFraction: "85",
+          calibrationTemperatureC: "20",
+          calibrationViscosityPaS: "0.109",
+        },
       }),
     );
     expect(response.status).toBe(400);
@@ -107,7 +135,10 @@ describe("parts screens", () => {
 
   it("answers a bad part with 400, the error beside the field and the typed values kept", async () => {
     const response = await handle(
-      appRequest(`/courses/${courseId}/parts/new?kind=sphere`, { cookie: instructor, form: { kind: "sphere", label: "S-1", material: "glass", diameterMm: "", massG: "0.1" } }),
+      appRequest(`/courses/${courseId}/parts/new?kind=sphere`, {
+        cookie: instructor,
+        form: { kind: "sphere", label: "S-1", material: "glass", diameterMm: "", massG: "0.1" },
+      }),
     );
     expect(response.status).toBe(400);
     const html = await response.text();
@@ -117,7 +148,9 @@ describe("parts screens", () => {
 
   it("commits an import through the page's action", async () => {
     const rows = [partToCsvRow({ kind: "accessory", label: "TH-1", accessoryType: "thermometer", notes: null })];
-    const response = await handle(appRequest(`/courses/${courseId}/parts/import`, { cookie: instructor, form: { rows: JSON.stringify(rows) } }));
+    const response = await handle(
+      appRequest(`/courses/${courseId}/parts/import`, { cookie: instructor, form: { rows: JSON.stringify(rows) } }),
+    );
     expect(response.status).toBe(200);
     const [{ n }] = await db.select({ n: count() }).from(parts).where(eq(parts.label, "TH-1"));
     expect(n).toBe(1);
@@ -128,7 +161,10 @@ describe("links on the staff's kit and part pages", () => {
   it("show an assigned TA only their cohorts' kits, hand-ins and comparisons, and link nothing they may not open", async () => {
     const fixture = await createAccessFixture("part-links");
     const { courseId: course } = fixture;
-    const [{ id: fluidLotId }] = await db.select({ id: parts.id }).from(parts).where(and(eq(parts.courseId, course), eq(parts.label, "F-1")));
+    const [{ id: fluidLotId }] = await db
+      .select({ id: parts.id })
+      .from(parts)
+      .where(and(eq(parts.courseId, course), eq(parts.label, "F-1")));
     // A kit of cohort two sharing cohort one's fluid lot, with a hand-in of its own lab; and a kit held by
     // no one, coming back with a bottle of that lot, whose check-in enters the lot's history.
     const [otherSphere, otherColumn, shelfSphere] = await db
@@ -157,12 +193,32 @@ describe("links on the staff's kit and part pages", () => {
     const day = 24 * 3600 * 1000;
     const [otherLab] = await db
       .insert(labs)
-      .values({ courseId: course, title: "Cohort two's drag lab", kind: "drag", status: "published", opensAt: new Date(Date.now() - day), dueAt: new Date(Date.now() + day), resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 } })
+      .values({
+        courseId: course,
+        title: "Cohort two's drag lab",
+        kind: "drag",
+        status: "published",
+        opensAt: new Date(Date.now() - day),
+        dueAt: new Date(Date.now() + day),
+        resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 },
+      })
       .returning();
     await db.insert(labCohorts).values({ labId: otherLab.id, cohortId: fixture.otherCohortId });
     const otherDropLogId = await ensureDropLog(db, { labId: otherLab.id, membershipId: fixture.membershipIds.otherCohortStudent });
-    const otherStudent = await requireCourseRole({ request: appRequest("/", { cookie: await sessionCookieFor(fixture.userIds.otherCohortStudent) }), context: new RouterContextProvider() }, course, ["student"]);
-    await handInDropLog(db, { access: otherStudent, labId: otherLab.id, idempotencyKey: "part-links-other-cohort", input: { sphereId: otherSphere.id, temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.42, 7.48] } });
+    const otherStudent = await requireCourseRole(
+      {
+        request: appRequest("/", { cookie: await sessionCookieFor(fixture.userIds.otherCohortStudent) }),
+        context: new RouterContextProvider(),
+      },
+      course,
+      ["student"],
+    );
+    await handInDropLog(db, {
+      access: otherStudent,
+      labId: otherLab.id,
+      idempotencyKey: "part-links-other-cohort",
+      input: { sphereId: otherSphere.id, temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.42, 7.48] },
+    });
 
     const ta = await sessionCookieFor(fixture.userIds.assignedTa);
     const instructor = await sessionCookieFor(fixture.userIds.instructor);
@@ -200,7 +256,11 @@ describe("links on the staff's kit and part pages", () => {
     expect(await html(`/courses/${course}/kits/${fixture.kitId}`, instructor)).toContain("packing-slip");
 
     // The overview counts, for the TA, the kits their kits list holds.
-    const overviewFor = async (cookie: string) => courseOverview(db, await requireCourseRole({ request: appRequest("/", { cookie }), context: new RouterContextProvider() }, course, staffRoles));
+    const overviewFor = async (cookie: string) =>
+      courseOverview(
+        db,
+        await requireCourseRole({ request: appRequest("/", { cookie }), context: new RouterContextProvider() }, course, staffRoles),
+      );
     expect((await overviewFor(ta)).kitsByState).toEqual({ at_home: 1 });
     expect((await overviewFor(instructor)).kitsByState).toEqual({ at_home: 2, checked_in: 1 });
   });

@@ -13,15 +13,7 @@ import { partToCsvRow } from "~/lib/kits/parts-csv";
 import { fitFluidViscosity, viscosityAt } from "~/lib/reduction";
 import { loader as inventoryCsvLoader } from "~/routes/courses.$courseId.inventory[.]csv";
 import { db, pool } from "~/server/db.server";
-import {
-  createPart,
-  getPart,
-  getPartPage,
-  importParts,
-  listParts,
-  setPartStatus,
-  updatePart,
-} from "~/server/kits/parts.server";
+import { createPart, getPart, getPartPage, importParts, listParts, setPartStatus, updatePart } from "~/server/kits/parts.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { appRequest, sessionCookieFor } from "../support/app-requests";
 
@@ -36,7 +28,12 @@ async function newCourse(code: string): Promise<string> {
 
 /** The course's instructor as the part page's reader (every kit is theirs to open). */
 const instructorOf = (courseId: string) =>
-  ({ user: { id: instructorId }, course: { id: courseId, timeZone: "UTC" }, membership: { role: "instructor" }, cohortIds: [] }) as unknown as CourseAccess;
+  ({
+    user: { id: instructorId },
+    course: { id: courseId, timeZone: "UTC" },
+    membership: { role: "instructor" },
+    cohortIds: [],
+  }) as unknown as CourseAccess;
 
 const sphere = (label: string, values: Partial<Extract<PartInput, { kind: "sphere" }>> = {}): PartInput => ({
   kind: "sphere",
@@ -58,7 +55,13 @@ describe("recording and re-measuring parts", () => {
     const courseId = await newCourse("P-HIST");
     const { part } = await createPart(db, { courseId, actorId: instructorId, input: sphere("S-1") });
     await setPartStatus(db, { courseId, partId: part.id, actorId: instructorId, status: "remeasure", note: "results biased" });
-    const updated = await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: sphere("S-1", { diameterMm: 4.02 }), note: "micrometer" });
+    const updated = await updatePart(db, {
+      courseId,
+      partId: part.id,
+      actorId: instructorId,
+      input: sphere("S-1", { diameterMm: 4.02 }),
+      note: "micrometer",
+    });
     expect(updated?.part).toMatchObject({ diameterMm: expect.closeTo(4.02, 5), status: "in_service" });
 
     const stored = await getPart(db, courseId, part.id);
@@ -73,14 +76,42 @@ describe("recording and re-measuring parts", () => {
 
   it("stores a lot's density uncertainty and dρ/dT and a column's bore uncertainty, and records their re-measurement", async () => {
     const courseId = await newCourse("P-UNC");
-    const lot: PartInput = { kind: "fluid_lot", label: "GLY-U", fluidName: "glycerol", densityKgM3: 1261, densityUncertaintyKgM3: 0.8, densityTemperatureCoefficientKgM3K: -0.65, calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }], notes: null };
+    const lot: PartInput = {
+      kind: "fluid_lot",
+      label: "GLY-U",
+      fluidName: "glycerol",
+      densityKgM3: 1261,
+      densityUncertaintyKgM3: 0.8,
+      densityTemperatureCoefficientKgM3K: -0.65,
+      calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }],
+      notes: null,
+    };
     const { part } = await createPart(db, { courseId, actorId: instructorId, input: lot });
-    expect(part).toMatchObject({ densityUncertaintyKgM3: expect.closeTo(0.8, 5), densityTemperatureCoefficientKgM3K: expect.closeTo(-0.65, 5), innerDiameterUncertaintyMm: null });
-    await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: { ...lot, densityUncertaintyKgM3: 0.5 }, note: "hydrometer" });
+    expect(part).toMatchObject({
+      densityUncertaintyKgM3: expect.closeTo(0.8, 5),
+      densityTemperatureCoefficientKgM3K: expect.closeTo(-0.65, 5),
+      innerDiameterUncertaintyMm: null,
+    });
+    await updatePart(db, {
+      courseId,
+      partId: part.id,
+      actorId: instructorId,
+      input: { ...lot, densityUncertaintyKgM3: 0.5 },
+      note: "hydrometer",
+    });
     const [remeasured] = (await getPart(db, courseId, part.id))!.events;
     expect(Object.keys(remeasured.detail.changed as object)).toEqual(["densityUncertaintyKgM3"]);
 
-    const column: PartInput = { kind: "column", label: "C-U", innerDiameterMm: 40, innerDiameterUncertaintyMm: 0.03, timedDistanceMm: 200, runInMm: 150, marginBelowMm: 50, notes: null };
+    const column: PartInput = {
+      kind: "column",
+      label: "C-U",
+      innerDiameterMm: 40,
+      innerDiameterUncertaintyMm: 0.03,
+      timedDistanceMm: 200,
+      runInMm: 150,
+      marginBelowMm: 50,
+      notes: null,
+    };
     const { part: storedColumn } = await createPart(db, { courseId, actorId: instructorId, input: column });
     expect(storedColumn).toMatchObject({ innerDiameterUncertaintyMm: expect.closeTo(0.03, 5), densityUncertaintyKgM3: null });
   });
@@ -88,7 +119,10 @@ describe("recording and re-measuring parts", () => {
   it("refuses a label the course already uses, and allows it in another course", async () => {
     const courseId = await newCourse("P-DUP");
     await createPart(db, { courseId, actorId: instructorId, input: sphere("S-1") });
-    await expect(createPart(db, { courseId, actorId: instructorId, input: sphere("S-1") })).rejects.toMatchObject({ code: "duplicate_label", field: "label" });
+    await expect(createPart(db, { courseId, actorId: instructorId, input: sphere("S-1") })).rejects.toMatchObject({
+      code: "duplicate_label",
+      field: "label",
+    });
     const otherCourseId = await newCourse("P-DUP2");
     await expect(createPart(db, { courseId: otherCourseId, actorId: instructorId, input: sphere("S-1") })).resolves.toBeTruthy();
   });
@@ -104,23 +138,34 @@ describe("checks on a sphere", () => {
       label,
       fluidName: "syrup",
       densityKgM3,
-      calibration: [{ temperatureC: 20, viscosityPaS: 5 }, { temperatureC: 25, viscosityPaS: 3 }],
+      calibration: [
+        { temperatureC: 20, viscosityPaS: 5 },
+        { temperatureC: 25, viscosityPaS: 3 },
+      ],
       notes: null,
     });
     await createPart(db, { courseId, actorId: instructorId, input: fluid("F-1", 1400) });
     // Nylon at d = 5 mm, m = 0.0746 g: ρ ≈ 1140 kg/m³, inside the nylon range, lighter than 1400.
     const nylon = sphere("N-1", { material: "nylon", diameterMm: 5, massG: 0.0746 });
-    expect(messages((await createPart(db, { courseId, actorId: instructorId, input: nylon })).warnings)).toEqual([expect.stringMatching(/lighter than every fluid lot/)]);
+    expect(messages((await createPart(db, { courseId, actorId: instructorId, input: nylon })).warnings)).toEqual([
+      expect.stringMatching(/lighter than every fluid lot/),
+    ]);
     await createPart(db, { courseId, actorId: instructorId, input: fluid("F-2", 1000) });
     expect((await createPart(db, { courseId, actorId: instructorId, input: { ...nylon, label: "N-2" } })).warnings).toEqual([]);
   });
 
   it("warns when the sphere is wider than the bore of every column", async () => {
     const courseId = await newCourse("P-WIDE");
-    await createPart(db, { courseId, actorId: instructorId, input: { kind: "column", label: "C-1", innerDiameterMm: 10, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null } });
+    await createPart(db, {
+      courseId,
+      actorId: instructorId,
+      input: { kind: "column", label: "C-1", innerDiameterMm: 10, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null },
+    });
     // 12 mm steel: m = 7850 · π/6 · (0.012 m)³ ≈ 7.10 g.
     const wide = sphere("W-1", { diameterMm: 12, massG: 7.1 });
-    expect(messages((await createPart(db, { courseId, actorId: instructorId, input: wide })).warnings)).toEqual([expect.stringMatching(/wider than the bore of every column/)]);
+    expect(messages((await createPart(db, { courseId, actorId: instructorId, input: wide })).warnings)).toEqual([
+      expect.stringMatching(/wider than the bore of every column/),
+    ]);
     expect((await createPart(db, { courseId, actorId: instructorId, input: sphere("S-OK") })).warnings).toEqual([]);
   });
 
@@ -128,7 +173,9 @@ describe("checks on a sphere", () => {
     const courseId = await newCourse("P-DENS");
     // Steel at d = 4 mm with m = 0.234 g gives ≈ 6980 kg/m³, below the 7650–8050 kg/m³ of steel.
     const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: sphere("S-LIGHT", { massG: 0.234 }) });
-    expect(messages(warnings)).toEqual([expect.stringMatching(/^Diameter and mass give 69\d\d kg\/m³, outside the usual 7650–8050 kg\/m³ for steel/)]);
+    expect(messages(warnings)).toEqual([
+      expect.stringMatching(/^Diameter and mass give 69\d\d kg\/m³, outside the usual 7650–8050 kg\/m³ for steel/),
+    ]);
     // The part's page raises the same check from the stored values.
     expect(messages((await getPartPage(db, instructorOf(courseId), part.id))!.warnings)).toEqual(messages(warnings));
   });
@@ -144,7 +191,10 @@ describe("checks on a fluid lot against handbook data", () => {
     fluidName: "glycerol–water 85 %",
     densityKgM3: 1221,
     glycerolMassFraction: 0.85,
-    calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 30, viscosityPaS: 0.058 }],
+    calibration: [
+      { temperatureC: 20, viscosityPaS: 0.109 },
+      { temperatureC: 30, viscosityPaS: 0.058 },
+    ],
     notes: null,
     ...values,
   });
@@ -157,9 +207,19 @@ describe("checks on a fluid lot against handbook data", () => {
     const page = await getPartPage(db, instructorOf(courseId), part.id);
     expect(page!.calibration!.points.map((point) => point.finding.kind)).toEqual(["agrees", "agrees"]);
 
-    const slipped = mix({ calibration: [{ temperatureC: 20, viscosityPaS: 109 }, { temperatureC: 30, viscosityPaS: 0.058 }] });
+    const slipped = mix({
+      calibration: [
+        { temperatureC: 20, viscosityPaS: 109 },
+        { temperatureC: 30, viscosityPaS: 0.058 },
+      ],
+    });
     const updated = await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: slipped });
-    expect(updated!.warnings).toEqual([{ field: "calibration", message: expect.stringMatching(/^The viscosity at 20 °C is about 1000 times the handbook value .* mPa·s typed as Pa·s/) }]);
+    expect(updated!.warnings).toEqual([
+      {
+        field: "calibration",
+        message: expect.stringMatching(/^The viscosity at 20 °C is about 1000 times the handbook value .* mPa·s typed as Pa·s/),
+      },
+    ]);
     expect((await getPartPage(db, instructorOf(courseId), part.id))!.warnings).toEqual(updated!.warnings);
   });
 
@@ -167,9 +227,18 @@ describe("checks on a fluid lot against handbook data", () => {
     const courseId = await newCourse("P-GLY2");
     // Segur's 85 % values declared as 90 %.
     const { part, warnings } = await createPart(db, { courseId, actorId: instructorId, input: mix({ glycerolMassFraction: 0.9 }) });
-    expect(warnings.map((warning) => warning.message)).toEqual([expect.stringMatching(/differs from the handbook value for a glycerol mass fraction of 0\.9 \(Cheng 2008\) by more than its tolerance at 20 °C: -5\d %/)]);
+    expect(warnings.map((warning) => warning.message)).toEqual([
+      expect.stringMatching(
+        /differs from the handbook value for a glycerol mass fraction of 0\.9 \(Cheng 2008\) by more than its tolerance at 20 °C: -5\d %/,
+      ),
+    ]);
     // An empty box arrives from zod as undefined; the stored value must still be cleared.
-    const cleared = await updatePart(db, { courseId, partId: part.id, actorId: instructorId, input: { ...mix(), glycerolMassFraction: undefined } });
+    const cleared = await updatePart(db, {
+      courseId,
+      partId: part.id,
+      actorId: instructorId,
+      input: { ...mix(), glycerolMassFraction: undefined },
+    });
     expect(cleared!.part.glycerolMassFraction).toBeNull();
     expect(cleared!.warnings).toEqual([]);
     const [remeasured] = (await getPart(db, courseId, part.id))!.events;
@@ -178,8 +247,20 @@ describe("checks on a fluid lot against handbook data", () => {
 
   it("without a declared mix, warns on a viscosity thicker than any kit fluid", async () => {
     const courseId = await newCourse("P-GLY3");
-    const { warnings } = await createPart(db, { courseId, actorId: instructorId, input: mix({ glycerolMassFraction: undefined, calibration: [{ temperatureC: 20, viscosityPaS: 540 }, { temperatureC: 25, viscosityPaS: 0.38 }] }) });
-    expect(warnings.map((warning) => warning.message)).toEqual([expect.stringMatching(/at 20 °C is above 100 Pa·s, thicker than any kit fluid/)]);
+    const { warnings } = await createPart(db, {
+      courseId,
+      actorId: instructorId,
+      input: mix({
+        glycerolMassFraction: undefined,
+        calibration: [
+          { temperatureC: 20, viscosityPaS: 540 },
+          { temperatureC: 25, viscosityPaS: 0.38 },
+        ],
+      }),
+    });
+    expect(warnings.map((warning) => warning.message)).toEqual([
+      expect.stringMatching(/at 20 °C is above 100 Pa·s, thicker than any kit fluid/),
+    ]);
   });
 });
 
@@ -206,11 +287,27 @@ describe("CSV import", () => {
 
   it("inserts a clean batch with one history event per part, checking spheres against the columns in the same file", async () => {
     const courseId = await newCourse("P-IMP3");
-    const column: PartInput = { kind: "column", label: "C-1", innerDiameterMm: 10, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null };
-    const result = await importParts(db, { courseId, actorId: instructorId, rows: [csvRow(column), csvRow(sphere("S-1")), csvRow(sphere("W-1", { diameterMm: 12, massG: 7.1 }))] });
+    const column: PartInput = {
+      kind: "column",
+      label: "C-1",
+      innerDiameterMm: 10,
+      timedDistanceMm: 200,
+      runInMm: 100,
+      marginBelowMm: 50,
+      notes: null,
+    };
+    const result = await importParts(db, {
+      courseId,
+      actorId: instructorId,
+      rows: [csvRow(column), csvRow(sphere("S-1")), csvRow(sphere("W-1", { diameterMm: 12, massG: 7.1 }))],
+    });
     expect(result.created).toBe(3);
     expect(result.warnings).toEqual([{ label: "W-1", warnings: [expect.objectContaining({ field: "diameterMm" })] }]);
-    const events = await db.select({ action: partEvents.action, detail: partEvents.detail }).from(partEvents).innerJoin(parts, eq(parts.id, partEvents.partId)).where(eq(parts.courseId, courseId));
+    const events = await db
+      .select({ action: partEvents.action, detail: partEvents.detail })
+      .from(partEvents)
+      .innerJoin(parts, eq(parts.id, partEvents.partId))
+      .where(eq(parts.courseId, courseId));
     expect(events).toHaveLength(3);
     expect(events.every((event) => event.action === "created" && event.detail.source === "csv-import")).toBe(true);
   });
@@ -220,7 +317,14 @@ describe("the parts table", () => {
   it("runs the same number of statements for 10 and for 1,000 parts", async () => {
     const courseId = await newCourse("P-LIST");
     const batch = (from: number, to: number) =>
-      Array.from({ length: to - from }, (_, i) => ({ courseId, kind: "sphere" as const, label: `S-${String(from + i).padStart(4, "0")}`, material: "steel", diameterMm: 4, massG: 0.263 }));
+      Array.from({ length: to - from }, (_, i) => ({
+        courseId,
+        kind: "sphere" as const,
+        label: `S-${String(from + i).padStart(4, "0")}`,
+        material: "steel",
+        diameterMm: 4,
+        massG: 0.263,
+      }));
     const statementsFor = async () => {
       const spy = vi.spyOn(pool, "query");
       try {
@@ -249,8 +353,18 @@ describe("inventory export", () => {
     const request = appRequest(`/courses/${courseId}/inventory.csv`, { cookie: await sessionCookieFor(instructorId) });
     const response = await inventoryCsvLoader({ request, params: { courseId }, context: new RouterContextProvider() } as never);
     expect(response.headers.get("Content-Type")).toBe("text/csv; charset=utf-8");
-    const [row] = Papa.parse<Record<string, string>>((await response.text()).replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: true }).data;
-    expect(row).toMatchObject({ kind: "sphere", label: "S-1", material: "'+SUM(A1:A9)", notes: "'=1+1", status: "in_service", kit_number: "" });
+    const [row] = Papa.parse<Record<string, string>>((await response.text()).replace(/^\uFEFF/, ""), {
+      header: true,
+      skipEmptyLines: true,
+    }).data;
+    expect(row).toMatchObject({
+      kind: "sphere",
+      label: "S-1",
+      material: "'+SUM(A1:A9)",
+      notes: "'=1+1",
+      status: "in_service",
+      kit_number: "",
+    });
   });
 });
 
@@ -267,7 +381,14 @@ describe("a fluid lot's page", () => {
   it("shows the reduction engine's Andrade fit of the stored points, which follows water within 2 % from 10 to 40 °C", async () => {
     const courseId = await newCourse("P-FIT");
     // Stored out of order: the page sorts the points by temperature.
-    const input: PartInput = { kind: "fluid_lot", label: "W-1", fluidName: "water", densityKgM3: 998, calibration: [water[2], water[0], water[3], water[1]], notes: null };
+    const input: PartInput = {
+      kind: "fluid_lot",
+      label: "W-1",
+      fluidName: "water",
+      densityKgM3: 998,
+      calibration: [water[2], water[0], water[3], water[1]],
+      notes: null,
+    };
     const { part } = await createPart(db, { courseId, actorId: instructorId, input });
     const page = await getPartPage(db, instructorOf(courseId), part.id);
     const calibration = page!.calibration!;
@@ -276,7 +397,12 @@ describe("a fluid lot's page", () => {
     // Same fit up to the order of summation (the lot stores its points in the order they were typed).
     const { residual, ...fit } = calibration.fit;
     const { residual: engineResidual, ...engineRest } = engineFit;
-    expect(fit).toEqual({ ...engineRest, a: expect.closeTo(engineFit.a, 9), b: expect.closeTo(engineFit.b, 6), maxRelativeResidual: expect.closeTo(engineFit.maxRelativeResidual, 12) });
+    expect(fit).toEqual({
+      ...engineRest,
+      a: expect.closeTo(engineFit.a, 9),
+      b: expect.closeTo(engineFit.b, 6),
+      maxRelativeResidual: expect.closeTo(engineFit.maxRelativeResidual, 12),
+    });
     expect(residual?.degreesOfFreedom).toBe(2);
     expect(residual!.standardError / engineResidual!.standardError).toBeCloseTo(1, 9);
     expect(residual!.sxx / engineResidual!.sxx).toBeCloseTo(1, 9);

@@ -26,8 +26,14 @@ type Student = { userId: string; membershipId: string; cookie: string };
 
 /** A student of cohort one with nothing handed in, so each test counts only its own photos. */
 async function newStudent(name: string): Promise<Student> {
-  const [user] = await db.insert(users).values({ email: `${name}@photo-limits.example`, name }).returning();
-  const [membership] = await db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: user.id, role: "student", cohortId: fixture.cohortId }).returning();
+  const [user] = await db
+    .insert(users)
+    .values({ email: `${name}@photo-limits.example`, name })
+    .returning();
+  const [membership] = await db
+    .insert(courseMemberships)
+    .values({ courseId: fixture.courseId, userId: user.id, role: "student", cohortId: fixture.cohortId })
+    .returning();
   return { userId: user.id, membershipId: membership.id, cookie: await sessionCookieFor(user.id) };
 }
 
@@ -35,7 +41,11 @@ function upload(student: Student, files: File[]): Promise<Response> {
   const form = new FormData();
   for (const file of files) form.append("photo", file);
   return handle(
-    new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}/photos`, appOrigin()), { method: "POST", body: form, headers: { Cookie: student.cookie, Origin: appOrigin() } }),
+    new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}/photos`, appOrigin()), {
+      method: "POST",
+      body: form,
+      headers: { Cookie: student.cookie, Origin: appOrigin() },
+    }),
   );
 }
 
@@ -74,8 +84,13 @@ describe("photos for a lab that takes no more hand-ins", () => {
     const late = await newStudent("past-cutoff");
     const extended = await newStudent("extended");
     // Due yesterday with no late hand-ins: closed for everyone but the student with an extension.
-    await db.update(labs).set({ dueAt: new Date(Date.now() - day), lateCutoffAt: null }).where(eq(labs.id, fixture.labId));
-    await db.insert(labExtensions).values({ labId: fixture.labId, membershipId: extended.membershipId, dueAt: new Date(Date.now() + day), reason: "Kit arrived late" });
+    await db
+      .update(labs)
+      .set({ dueAt: new Date(Date.now() - day), lateCutoffAt: null })
+      .where(eq(labs.id, fixture.labId));
+    await db
+      .insert(labExtensions)
+      .values({ labId: fixture.labId, membershipId: extended.membershipId, dueAt: new Date(Date.now() + day), reason: "Kit arrived late" });
     try {
       const refused = await upload(late, photos(1));
       expect(refused.status).toBe(409);
@@ -109,13 +124,23 @@ describe("photo caps", () => {
     const student = await newStudent("big-photos");
     // Photos already stored, as rows, up to a few bytes below the cap: the files themselves are not needed for the sum.
     const dropLogId = await ensureDropLog(db, { labId: fixture.labId, membershipId: student.membershipId });
-    await db.insert(dropLogPhotos).values({ dropLogId, storageKey: `${dropLogId}/earlier`, contentType: "image/jpeg", bytes: MAX_PHOTO_BYTES_PER_STUDENT - png.length + 1 });
+    await db
+      .insert(dropLogPhotos)
+      .values({
+        dropLogId,
+        storageKey: `${dropLogId}/earlier`,
+        contentType: "image/jpeg",
+        bytes: MAX_PHOTO_BYTES_PER_STUDENT - png.length + 1,
+      });
     const response = await upload(student, photos(1));
     expect(response.status).toBe(409);
     expect((await response.json()).error).toMatch(/200 MB in all/);
     expect(await photosOf(student)).toHaveLength(1);
     // The same photo fits once it is within the cap.
-    await db.update(dropLogPhotos).set({ bytes: MAX_PHOTO_BYTES_PER_STUDENT - png.length }).where(eq(dropLogPhotos.dropLogId, dropLogId));
+    await db
+      .update(dropLogPhotos)
+      .set({ bytes: MAX_PHOTO_BYTES_PER_STUDENT - png.length })
+      .where(eq(dropLogPhotos.dropLogId, dropLogId));
     expect((await upload(student, photos(1))).status).toBe(200);
   });
 });
@@ -139,6 +164,11 @@ describe("a refused upload", () => {
     const student = await newStudent("text-file");
     const response = await upload(student, [new File(["not a photo"], "notes.jpg", { type: "image/jpeg" })]);
     expect(response.status).toBe(415);
-    expect(await db.select().from(dropLogs).where(and(eq(dropLogs.labId, fixture.labId), eq(dropLogs.membershipId, student.membershipId)))).toEqual([]);
+    expect(
+      await db
+        .select()
+        .from(dropLogs)
+        .where(and(eq(dropLogs.labId, fixture.labId), eq(dropLogs.membershipId, student.membershipId))),
+    ).toEqual([]);
   });
 });

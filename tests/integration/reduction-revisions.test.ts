@@ -31,7 +31,14 @@ const newCalibration = [
   { temperatureC: 20, viscosityPaS: 1.2 },
   { temperatureC: 25, viscosityPaS: 0.8 },
 ];
-const lot = (calibration: typeof oldCalibration, label = "F-1"): PartInput => ({ kind: "fluid_lot", label, notes: null, fluidName: "glycerol", densityKgM3: 1260, calibration });
+const lot = (calibration: typeof oldCalibration, label = "F-1"): PartInput => ({
+  kind: "fluid_lot",
+  label,
+  notes: null,
+  fluidName: "glycerol",
+  densityKgM3: 1260,
+  calibration,
+});
 
 function accessOf(actor: "instructor" | "ownStudent"): CourseAccess {
   const student = actor === "ownStudent";
@@ -47,7 +54,10 @@ const currentVersion = async () => (await db.select().from(dropLogVersions).wher
 
 beforeAll(async () => {
   fixture = await createAccessFixture("rr");
-  [{ id: lotId }] = await db.select({ id: parts.id }).from(parts).where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, "F-1")));
+  [{ id: lotId }] = await db
+    .select({ id: parts.id })
+    .from(parts)
+    .where(and(eq(parts.courseId, fixture.courseId), eq(parts.label, "F-1")));
 });
 
 describe("a re-measured fluid lot", () => {
@@ -62,21 +72,43 @@ describe("a re-measured fluid lot", () => {
     const rubric = await saveRubric(db, {
       access: instructor,
       lab,
-      input: { criteria: [{ kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 }, { kind: "auto", title: "Close to the reference", rule: "within_reference", maxPoints: 3, params: { tolerancePercent: 10 } }] },
+      input: {
+        criteria: [
+          { kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 },
+          { kind: "auto", title: "Close to the reference", rule: "within_reference", maxPoints: 3, params: { tolerancePercent: 10 } },
+        ],
+      },
     });
     const discussion = rubric.find((criterion) => criterion.kind === "range")!;
     const automatic = rubric.find((criterion) => criterion.kind === "auto")!;
-    const marked = await saveMark(db, { access: instructor, labId: fixture.labId, membershipId: fixture.membershipIds.ownStudent, expectedVersion: 0, change: { kind: "score", criterionId: discussion.id, points: 3 } });
+    const marked = await saveMark(db, {
+      access: instructor,
+      labId: fixture.labId,
+      membershipId: fixture.membershipIds.ownStudent,
+      expectedVersion: 0,
+      change: { kind: "score", criterionId: discussion.id, points: 3 },
+    });
     expect(marked.status).toBe("saved");
-    const [markBefore] = await db.select().from(marks).where(and(eq(marks.labId, fixture.labId), eq(marks.membershipId, fixture.membershipIds.ownStudent)));
+    const [markBefore] = await db
+      .select()
+      .from(marks)
+      .where(and(eq(marks.labId, fixture.labId), eq(marks.membershipId, fixture.membershipIds.ownStudent)));
     expect(markBefore.reductionRevision).toBe(1);
     const suggestionBefore = marked.row.suggestions[automatic.id];
 
-    await updatePart(db, { courseId: fixture.courseId, partId: lotId, actorId: fixture.userIds.instructor, input: lot(newCalibration), note: "viscometer re-run" });
+    await updatePart(db, {
+      courseId: fixture.courseId,
+      partId: lotId,
+      actorId: fixture.userIds.instructor,
+      input: lot(newCalibration),
+      note: "viscometer re-run",
+    });
     const [run] = await db.select().from(rereductionRuns).where(eq(rereductionRuns.partId, lotId));
     expect(run).toMatchObject({ total: 1, done: 0, finishedAt: null });
     // The job went in with the change, on the queue the worker reads.
-    const jobs = await db.execute<{ id: string }>(sql`select id from pgboss.job where name = 'reduction-revision' and data ->> 'runId' = ${run.id}`);
+    const jobs = await db.execute<{ id: string }>(
+      sql`select id from pgboss.job where name = 'reduction-revision' and data ->> 'runId' = ${run.id}`,
+    );
     expect(jobs.rows).toHaveLength(1);
     // Before the job, the lot's old figures no longer count towards its bias.
     expect((await listPartBias(db, fixture.courseId, lotId)).get(lotId)).toBeUndefined();
@@ -93,9 +125,20 @@ describe("a re-measured fluid lot", () => {
     // What was handed in does not move.
     expect(revised.input).toEqual(handedIn.input);
     expect(revised.submittedAt).toEqual(handedIn.submittedAt);
-    expect((await db.select().from(reductionRevisions).where(eq(reductionRevisions.versionId, handedIn.id)).orderBy(asc(reductionRevisions.revision)))[0].reduction).toEqual(handedIn.reduction);
+    expect(
+      (
+        await db
+          .select()
+          .from(reductionRevisions)
+          .where(eq(reductionRevisions.versionId, handedIn.id))
+          .orderBy(asc(reductionRevisions.revision))
+      )[0].reduction,
+    ).toEqual(handedIn.reduction);
 
-    const [second] = await db.select().from(reductionRevisions).where(and(eq(reductionRevisions.versionId, handedIn.id), eq(reductionRevisions.revision, 2)));
+    const [second] = await db
+      .select()
+      .from(reductionRevisions)
+      .where(and(eq(reductionRevisions.versionId, handedIn.id), eq(reductionRevisions.revision, 2)));
     expect(second.cause).toMatchObject({
       partId: lotId,
       partLabel: "F-1",
@@ -104,7 +147,10 @@ describe("a re-measured fluid lot", () => {
     });
 
     // Relabelled with the new figure.
-    expect((await db.execute(sql`select 1 from pgboss.job where name = 'class-comparison-requested' and data ->> 'labId' = ${fixture.labId}`)).rows.length).toBeGreaterThan(0);
+    expect(
+      (await db.execute(sql`select 1 from pgboss.job where name = 'class-comparison-requested' and data ->> 'labId' = ${fixture.labId}`))
+        .rows.length,
+    ).toBeGreaterThan(0);
     await relabelLab(db, fixture.labId);
     const [label] = await db.select().from(comparisonLabels).where(eq(comparisonLabels.dropLogId, fixture.dropLogId));
     expect(label.figure).toBeCloseTo(revised.normalisedFigure!, 5);
@@ -128,7 +174,10 @@ describe("a re-measured fluid lot", () => {
       .update(marks)
       .set({ releasedAt: new Date(), scores: { ...markBefore.scores, [automatic.id]: { points: releasedPoints, frozen: true } } })
       .where(eq(marks.id, markBefore.id));
-    const afterRelease = await loadModeration(db, { access: instructor, lab: (await loadMarkingLab(db, fixture.courseId, fixture.labId))! });
+    const afterRelease = await loadModeration(db, {
+      access: instructor,
+      lab: (await loadMarkingLab(db, fixture.courseId, fixture.labId))!,
+    });
     expect(afterRelease.resultChanged).toMatchObject([{ membershipId: fixture.membershipIds.ownStudent, released: true, reoffered: 1 }]);
     const releasedRow = afterRelease.rows.find((entry) => entry.membershipId === fixture.membershipIds.ownStudent)!;
     expect(releasedRow.resultChangedSinceMarked!.reofferedCriterionIds).toEqual([automatic.id]);
@@ -140,7 +189,10 @@ describe("a re-measured fluid lot", () => {
     expect(counted).toHaveLength(1);
     expect(counted[0].figure).toBeCloseTo(revised.normalisedFigure!, 5);
 
-    const audit = await db.select({ action: auditEvents.action }).from(auditEvents).where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.subject, `part:${lotId}`)));
+    const audit = await db
+      .select({ action: auditEvents.action })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.subject, `part:${lotId}`)));
     expect(audit.map((entry) => entry.action).sort()).toEqual(["part.rereduced", "part.rereduction_queued"]);
 
     // The job again, after it finished or as a retry of one that stopped before finishing: no second revision.
@@ -149,21 +201,34 @@ describe("a re-measured fluid lot", () => {
     expect(await runRereduction(db, run.id)).toMatchObject({ revised: 0 });
     expect(await db.select().from(reductionRevisions).where(eq(reductionRevisions.versionId, handedIn.id))).toHaveLength(2);
     expect((await db.select().from(rereductionRuns).where(eq(rereductionRuns.id, run.id)))[0]).toMatchObject({ done: 1, total: 1 });
-
   });
 
   it("rests a mark saved again on the current revision, which clears the flag", async () => {
     const instructor = accessOf("instructor");
     const lab = (await loadMarkingLab(db, fixture.courseId, fixture.labId))!;
     const discussion = lab.rubric.find((criterion) => criterion.kind === "range")!;
-    const [mark] = await db.select().from(marks).where(and(eq(marks.labId, fixture.labId), eq(marks.membershipId, fixture.membershipIds.ownStudent)));
-    const saved = await saveMark(db, { access: instructor, labId: fixture.labId, membershipId: fixture.membershipIds.ownStudent, expectedVersion: mark.version, change: { kind: "score", criterionId: discussion.id, points: 4 } });
+    const [mark] = await db
+      .select()
+      .from(marks)
+      .where(and(eq(marks.labId, fixture.labId), eq(marks.membershipId, fixture.membershipIds.ownStudent)));
+    const saved = await saveMark(db, {
+      access: instructor,
+      labId: fixture.labId,
+      membershipId: fixture.membershipIds.ownStudent,
+      expectedVersion: mark.version,
+      change: { kind: "score", criterionId: discussion.id, points: 4 },
+    });
     expect(saved.status === "saved" && saved.row.resultChangedSinceMarked).toBeNull();
     expect((await db.select().from(marks).where(eq(marks.id, mark.id)))[0].reductionRevision).toBe(2);
   });
 
   it("queues nothing when the change enters no reduction", async () => {
-    await updatePart(db, { courseId: fixture.courseId, partId: lotId, actorId: fixture.userIds.instructor, input: { ...lot(newCalibration), notes: "bottle relabelled" } });
+    await updatePart(db, {
+      courseId: fixture.courseId,
+      partId: lotId,
+      actorId: fixture.userIds.instructor,
+      input: { ...lot(newCalibration), notes: "bottle relabelled" },
+    });
     expect(await db.select().from(rereductionRuns).where(eq(rereductionRuns.partId, lotId))).toHaveLength(1);
   });
 });

@@ -12,11 +12,20 @@ beforeAll(async () => {
   fixture = await createAccessFixture("roster");
 });
 
-const row = (line: number, email: string, cohort = "Cohort one", role = "student"): RosterRow => ({ line, email, name: `Person ${line}`, cohort, role });
+const row = (line: number, email: string, cohort = "Cohort one", role = "student"): RosterRow => ({
+  line,
+  email,
+  name: `Person ${line}`,
+  cohort,
+  role,
+});
 const inviter = (of = fixture) => ({ id: of.userIds.instructor, name: "Test instructor" });
 
 async function invitationsOf(courseId: string) {
-  return db.select({ email: invitations.email, role: invitations.role, cohortId: invitations.cohortId }).from(invitations).where(eq(invitations.courseId, courseId));
+  return db
+    .select({ email: invitations.email, role: invitations.role, cohortId: invitations.cohortId })
+    .from(invitations)
+    .where(eq(invitations.courseId, courseId));
 }
 
 async function openInvitationsOf(courseId: string) {
@@ -44,7 +53,11 @@ describe("roster import", () => {
       courseId: fixture.courseId,
       inviter: inviter(),
       importKey: randomUUID(),
-      rows: [row(2, "a.student@uni.example"), row(3, "b.student@uni.example", "cohort TWO"), row(4, "c.assistant@uni.example", "Cohort one", "ta")],
+      rows: [
+        row(2, "a.student@uni.example"),
+        row(3, "b.student@uni.example", "cohort TWO"),
+        row(4, "c.assistant@uni.example", "Cohort one", "ta"),
+      ],
     });
     expect(result).toEqual({ ok: true, duplicate: false, invited: 3, students: 2, tas: 1 });
     const rows = await invitationsOf(fixture.courseId);
@@ -55,14 +68,23 @@ describe("roster import", () => {
         { email: "c.assistant@uni.example", role: "ta", cohortId: fixture.cohortId },
       ]),
     );
-    const mail = await db.select({ to: emailOutbox.toAddress, template: emailOutbox.template }).from(emailOutbox).where(eq(emailOutbox.courseId, fixture.courseId));
+    const mail = await db
+      .select({ to: emailOutbox.toAddress, template: emailOutbox.template })
+      .from(emailOutbox)
+      .where(eq(emailOutbox.courseId, fixture.courseId));
     expect(mail).toHaveLength(3);
     expect(new Set(mail.map((m) => m.template))).toEqual(new Set(["course-invitation"]));
   });
 
   it("invites rows whose names have quotes and angle brackets, each with a queued e-mail", async () => {
-    const rows = [{ ...row(2, "quoted.one@uni.example"), name: 'Ann "Nan" Lee' }, { ...row(3, "quoted.two@uni.example"), name: "Bo <Bo> Lee" }];
-    expect(await importRoster(db, { courseId: fixture.courseId, inviter: inviter(), importKey: randomUUID(), rows })).toMatchObject({ ok: true, invited: 2 });
+    const rows = [
+      { ...row(2, "quoted.one@uni.example"), name: 'Ann "Nan" Lee' },
+      { ...row(3, "quoted.two@uni.example"), name: "Bo <Bo> Lee" },
+    ];
+    expect(await importRoster(db, { courseId: fixture.courseId, inviter: inviter(), importKey: randomUUID(), rows })).toMatchObject({
+      ok: true,
+      invited: 2,
+    });
     const mail = await db
       .select({ to: emailOutbox.toAddress, toName: emailOutbox.toName, status: emailOutbox.status })
       .from(emailOutbox)
@@ -109,7 +131,12 @@ describe("roster import", () => {
     const course = await createAccessFixture("roster-retry");
     const courseId = course.courseId;
     const importKey = randomUUID();
-    const refused = await importRoster(db, { courseId, inviter: inviter(course), importKey, rows: [row(2, "retry.one@uni.example", "No such cohort")] });
+    const refused = await importRoster(db, {
+      courseId,
+      inviter: inviter(course),
+      importKey,
+      rows: [row(2, "retry.one@uni.example", "No such cohort")],
+    });
     expect(refused.ok).toBe(false);
     const retried = await importRoster(db, { courseId, inviter: inviter(course), importKey, rows: [row(2, "retry.one@uni.example")] });
     expect(retried).toMatchObject({ ok: true, duplicate: false, invited: 1 });

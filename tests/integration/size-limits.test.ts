@@ -24,7 +24,8 @@ beforeAll(async () => {
 });
 
 describe("sign-in passwords", () => {
-  const signIn = (password: string) => handle(appRequest("/sign-in", { form: { intent: "password", email: "instructor@size-limits.example", password } }));
+  const signIn = (password: string) =>
+    handle(appRequest("/sign-in", { form: { intent: "password", email: "instructor@size-limits.example", password } }));
 
   it(`refuses one longer than ${PASSWORD_MAX_LENGTH} characters with 400 at the field, before it is checked`, async () => {
     const response = await signIn("x".repeat(PASSWORD_MAX_LENGTH + 1));
@@ -49,7 +50,12 @@ describe("JSON bodies", () => {
       new Request(new URL("/api/v1/reduce", appOrigin()), {
         method: "POST",
         body,
-        headers: { "Content-Type": "application/json", Origin: appOrigin(), Cookie: cookies.instructor, ...(declareLength ? { "Content-Length": String(Buffer.byteLength(body)) } : {}) },
+        headers: {
+          "Content-Type": "application/json",
+          Origin: appOrigin(),
+          Cookie: cookies.instructor,
+          ...(declareLength ? { "Content-Length": String(Buffer.byteLength(body)) } : {}),
+        },
       }),
     );
 
@@ -73,7 +79,9 @@ describe("forms", () => {
   const settingsPath = () => `/courses/${fixture.courseId}/settings`;
 
   it(`answers a URL-encoded form over ${MAX_FORM_BYTES} bytes with the 413 page`, async () => {
-    const response = await handle(appRequest(settingsPath(), { cookie: cookies.instructor, form: { intent: "details", title: "x".repeat(MAX_FORM_BYTES) } }));
+    const response = await handle(
+      appRequest(settingsPath(), { cookie: cookies.instructor, form: { intent: "details", title: "x".repeat(MAX_FORM_BYTES) } }),
+    );
     expect(response.status).toBe(413);
     expect(await response.text()).toContain("That was too much to send at once");
   });
@@ -81,7 +89,13 @@ describe("forms", () => {
   it("answers a large multipart form to a page other than the photo upload with 413", async () => {
     const form = new FormData();
     form.append("title", new File([new Uint8Array(MAX_FORM_BYTES + 1)], "big.bin"));
-    const response = await handle(new Request(new URL(settingsPath(), appOrigin()), { method: "POST", body: form, headers: { Cookie: cookies.instructor, Origin: appOrigin() } }));
+    const response = await handle(
+      new Request(new URL(settingsPath(), appOrigin()), {
+        method: "POST",
+        body: form,
+        headers: { Cookie: cookies.instructor, Origin: appOrigin() },
+      }),
+    );
     expect(response.status).toBe(413);
   });
 
@@ -91,7 +105,11 @@ describe("forms", () => {
     const form = new FormData();
     form.append("photo", new File([photo], "column.jpg", { type: "image/jpeg" }));
     const response = await handle(
-      new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}/photos`, appOrigin()), { method: "POST", body: form, headers: { Cookie: cookies.ownStudent, Origin: appOrigin() } }),
+      new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}/photos`, appOrigin()), {
+        method: "POST",
+        body: form,
+        headers: { Cookie: cookies.ownStudent, Origin: appOrigin() },
+      }),
     );
     expect(response.status).toBe(200);
   });

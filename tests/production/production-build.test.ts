@@ -28,7 +28,8 @@ import { waitFor } from "../support/email";
 const execute = promisify(execFile);
 const entry = (name: string) => path.join(PRODUCTION_CHECK_DIRECTORY, `${name}.js`);
 /** A production entry point run to its end with plain node, bounded in time. */
-const runEntry = (name: string, args: string[], env: NodeJS.ProcessEnv) => execute(process.execPath, [entry(name), ...args], { env, timeout: 60_000, encoding: "utf8" });
+const runEntry = (name: string, args: string[], env: NodeJS.ProcessEnv) =>
+  execute(process.execPath, [entry(name), ...args], { env, timeout: 60_000, encoding: "utf8" });
 
 const instructorEmail = "ida.instructor@production.example";
 let baseUrl: string;
@@ -45,7 +46,14 @@ function startService(name: "web" | "worker"): ChildProcess {
   for (const stream of [child.stdout, child.stderr]) {
     stream?.setEncoding("utf8");
     // Each line labelled with its process: pino may write several lines in one chunk.
-    stream?.on("data", (chunk: string) => (output += chunk.split(/(?<=\n)/).map((line) => `[${name}] ${line}`).join("")));
+    stream?.on(
+      "data",
+      (chunk: string) =>
+        (output += chunk
+          .split(/(?<=\n)/)
+          .map((line) => `[${name}] ${line}`)
+          .join("")),
+    );
   }
   services.push(child);
   return child;
@@ -123,9 +131,22 @@ describe("the production build", () => {
     const created = await runEntry("create-instructor", ["--email", instructorEmail, "--name", "Ida Instructor"], env);
     expect(created.stdout).toContain(`Created the instructor account ${instructorEmail}`);
 
-    const asked = await fetch(`${baseUrl}/sign-in`, { method: "POST", headers: { Origin: baseUrl }, body: new URLSearchParams({ intent: "link", email: instructorEmail }) });
+    const asked = await fetch(`${baseUrl}/sign-in`, {
+      method: "POST",
+      headers: { Origin: baseUrl },
+      body: new URLSearchParams({ intent: "link", email: instructorEmail }),
+    });
     expect(asked.status).toBe(200);
-    const message = await waitFor(async () => (await db.select().from(caughtEmails).where(arrayContains(caughtEmails.toAddresses, [instructorEmail])))[0], "the sign-in link");
+    const message = await waitFor(
+      async () =>
+        (
+          await db
+            .select()
+            .from(caughtEmails)
+            .where(arrayContains(caughtEmails.toAddresses, [instructorEmail]))
+        )[0],
+      "the sign-in link",
+    );
     const link = linksIn(message.text).find((url) => url.startsWith(`${baseUrl}/sign-in/link/`));
     expect(link, "a sign-in link on APP_URL").toBeDefined();
 
@@ -144,7 +165,9 @@ describe("the production build", () => {
     const proxied = await fetch(`${baseUrl}/healthz`, { headers: { "X-Request-Id": "proxy-7f3a9c21" } });
     expect(proxied.headers.get("x-request-id")).toBe("proxy-7f3a9c21");
     // Text that is not an id is not written into the log.
-    expect((await fetch(`${baseUrl}/healthz`, { headers: { "X-Request-Id": "not an id; <b>" } })).headers.get("x-request-id")).toMatch(/^[0-9a-f-]{36}$/);
+    expect((await fetch(`${baseUrl}/healthz`, { headers: { "X-Request-Id": "not an id; <b>" } })).headers.get("x-request-id")).toMatch(
+      /^[0-9a-f-]{36}$/,
+    );
     await fetch(`${baseUrl}/reset-password/secret-token-123`);
     const lines = () =>
       output
@@ -171,12 +194,20 @@ describe("the production build", () => {
     const fixture = await createAccessFixture("production");
     const response = await fetch(`${baseUrl}/api/v1/labs/${fixture.labId}/drop-logs`, {
       method: "POST",
-      headers: { Cookie: await sessionCookieFor(fixture.userIds.ownStudent), Origin: baseUrl, "Content-Type": "application/json", "Idempotency-Key": randomUUID() },
+      headers: {
+        Cookie: await sessionCookieFor(fixture.userIds.ownStudent),
+        Origin: baseUrl,
+        "Content-Type": "application/json",
+        "Idempotency-Key": randomUUID(),
+      },
       body: JSON.stringify({ sphereId: fixture.sphereId, temperatureC: 22, drops: [7.4, 7.5, 7.45, 7.52, 7.39] }),
     });
     expect(response.status).toBe(201);
     const { version } = (await response.json()) as { version: { id: string } };
-    const stored = await db.select({ dropLogId: dropLogVersions.dropLogId }).from(dropLogVersions).where(eq(dropLogVersions.id, version.id));
+    const stored = await db
+      .select({ dropLogId: dropLogVersions.dropLogId })
+      .from(dropLogVersions)
+      .where(eq(dropLogVersions.id, version.id));
     expect(stored).toEqual([{ dropLogId: fixture.dropLogId }]);
   });
 });

@@ -2,7 +2,19 @@
  * The cast of the authorization matrix, written straight into the test file's database: two courses,
  * two cohorts in the first, and one person for every kind of access the matrix checks.
  */
-import { cohorts, courseMemberships, courses, dropLogPhotos, kitParts, kits, labCohorts, labs, parts, taCohortAssignments, users } from "~/db/schema";
+import {
+  cohorts,
+  courseMemberships,
+  courses,
+  dropLogPhotos,
+  kitParts,
+  kits,
+  labCohorts,
+  labs,
+  parts,
+  taCohortAssignments,
+  users,
+} from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { ensureDropLog, handInDropLog } from "~/server/drop-logs/hand-in.server";
@@ -53,7 +65,15 @@ export async function createAccessFixture(label = "matrix"): Promise<AccessFixtu
       { courseId: course.id, name: "Cohort two" },
     ])
     .returning();
-  const people = ["ownStudent", "sameCohortStudent", "otherCohortStudent", "assignedTa", "unassignedTa", "instructor", "otherInstructor"] as const;
+  const people = [
+    "ownStudent",
+    "sameCohortStudent",
+    "otherCohortStudent",
+    "assignedTa",
+    "unassignedTa",
+    "instructor",
+    "otherInstructor",
+  ] as const;
   const userRows = await db
     .insert(users)
     .values(
@@ -84,14 +104,30 @@ export async function createAccessFixture(label = "matrix"): Promise<AccessFixtu
     // Assigned too, but to the other cohort: "not assigned" to the objects of cohort one.
     { membershipId: membershipIds.unassignedTa, cohortId: otherCohort.id },
   ]);
-  const [part] = await db.insert(parts).values({ courseId: course.id, kind: "accessory", label: "MAG-1", accessoryType: "retrieval magnet" }).returning();
-  const [kit] = await db.insert(kits).values({ courseId: course.id, number: "K-01", state: "at_home", holderMembershipId: membershipIds.ownStudent }).returning();
+  const [part] = await db
+    .insert(parts)
+    .values({ courseId: course.id, kind: "accessory", label: "MAG-1", accessoryType: "retrieval magnet" })
+    .returning();
+  const [kit] = await db
+    .insert(kits)
+    .values({ courseId: course.id, number: "K-01", state: "at_home", holderMembershipId: membershipIds.ownStudent })
+    .returning();
   const [sphere, column, fluidLot] = await db
     .insert(parts)
     .values([
       { courseId: course.id, kind: "sphere", label: "S-1", material: "steel", diameterMm: 3, massG: 0.11 },
       { courseId: course.id, kind: "column", label: "C-1", innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 },
-      { courseId: course.id, kind: "fluid_lot", label: "F-1", fluidName: "glycerol", densityKgM3: 1260, calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }, { temperatureC: 25, viscosityPaS: 0.94 }] },
+      {
+        courseId: course.id,
+        kind: "fluid_lot",
+        label: "F-1",
+        fluidName: "glycerol",
+        densityKgM3: 1260,
+        calibration: [
+          { temperatureC: 20, viscosityPaS: 1.41 },
+          { temperatureC: 25, viscosityPaS: 0.94 },
+        ],
+      },
     ])
     .returning();
   await db.insert(kitParts).values([
@@ -118,7 +154,10 @@ export async function createAccessFixture(label = "matrix"): Promise<AccessFixtu
   const dropLogId = await ensureDropLog(db, { labId: lab.id, membershipId: membershipIds.ownStudent });
   const storageKey = `${dropLogId}/fixture`;
   // The PNG signature is all the download route needs; the bytes are never decoded.
-  await storePhoto(storageKey, new File([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])], "set-up.png", { type: "image/png" }));
+  await storePhoto(
+    storageKey,
+    new File([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])], "set-up.png", { type: "image/png" }),
+  );
   const [photo] = await db.insert(dropLogPhotos).values({ dropLogId, storageKey, contentType: "image/png", bytes: 8 }).returning();
   const ownStudentAccess = {
     user: { id: userIds.ownStudent, email: `ownstudent@${label}.example`, name: "Test ownStudent", sessionId: null, via: "session" },

@@ -43,7 +43,9 @@ export function appRequest(path: string, options: AppRequestOptions = {}): Reque
     if (origin) headers.set("Origin", origin);
   }
   if (options.ip) headers.set("X-Forwarded-For", options.ip);
-  const body = options.form ? new URLSearchParams(Object.entries(options.form).flatMap(([name, value]) => [value].flat().map((one) => [name, one]))) : undefined;
+  const body = options.form
+    ? new URLSearchParams(Object.entries(options.form).flatMap(([name, value]) => [value].flat().map((one) => [name, one])))
+    : undefined;
   return new Request(new URL(path, appOrigin()), { method, headers, body, redirect: "manual" });
 }
 

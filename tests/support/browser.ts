@@ -63,7 +63,10 @@ export async function signInWithPassword(page: Page, baseUrl: string, email: str
   const form = page.locator("form", { has: page.getByRole("button", { name: "Sign in", exact: true }) });
   await form.getByLabel("E-mail address").fill(email);
   await form.getByLabel("Password").fill(password);
-  await Promise.all([page.waitForURL((url) => !url.pathname.startsWith("/sign-in")), form.getByRole("button", { name: "Sign in", exact: true }).click()]);
+  await Promise.all([
+    page.waitForURL((url) => !url.pathname.startsWith("/sign-in")),
+    form.getByRole("button", { name: "Sign in", exact: true }).click(),
+  ]);
 }
 
 /** Signs out on this device, so that the next sign-in can be someone else. */

@@ -13,12 +13,47 @@ export type ClassMember = { figure: number; sphereId?: string | null; fluidLotId
 
 export async function seedClass(
   executor: Executor,
-  { courseId, labId, cohortId, members, label }: { courseId: string; labId: string; cohortId: string; members: ClassMember[]; label: string },
+  {
+    courseId,
+    labId,
+    cohortId,
+    members,
+    label,
+  }: { courseId: string; labId: string; cohortId: string; members: ClassMember[]; label: string },
 ): Promise<string[]> {
-  const rows = members.map((member, index) => ({ ...member, userId: randomUUID(), membershipId: randomUUID(), dropLogId: randomUUID(), versionId: randomUUID(), index }));
-  await insertMany(executor, users, rows.map((row) => ({ id: row.userId, email: `${label}-${row.index}@class.example`, name: `${label} student ${String(row.index).padStart(4, "0")}` })));
-  await insertMany(executor, courseMemberships, rows.map((row) => ({ id: row.membershipId, courseId, userId: row.userId, role: "student" as const, cohortId: row.cohortId ?? cohortId })));
-  await insertMany(executor, dropLogs, rows.map((row) => ({ id: row.dropLogId, labId, membershipId: row.membershipId, latestVersionId: row.versionId })));
+  const rows = members.map((member, index) => ({
+    ...member,
+    userId: randomUUID(),
+    membershipId: randomUUID(),
+    dropLogId: randomUUID(),
+    versionId: randomUUID(),
+    index,
+  }));
+  await insertMany(
+    executor,
+    users,
+    rows.map((row) => ({
+      id: row.userId,
+      email: `${label}-${row.index}@class.example`,
+      name: `${label} student ${String(row.index).padStart(4, "0")}`,
+    })),
+  );
+  await insertMany(
+    executor,
+    courseMemberships,
+    rows.map((row) => ({
+      id: row.membershipId,
+      courseId,
+      userId: row.userId,
+      role: "student" as const,
+      cohortId: row.cohortId ?? cohortId,
+    })),
+  );
+  await insertMany(
+    executor,
+    dropLogs,
+    rows.map((row) => ({ id: row.dropLogId, labId, membershipId: row.membershipId, latestVersionId: row.versionId })),
+  );
   await insertMany(
     executor,
     dropLogVersions,
@@ -58,4 +93,5 @@ export async function rehandIn(executor: Executor, dropLogId: string, figure: nu
 }
 
 /** 37 figures spread evenly in log space within ±6 % of 1, the engine tests' quiet class. */
-export const quietClass = (count = 37): number[] => Array.from({ length: count }, (_, i) => Math.exp(((i - (count - 1) / 2) / ((count - 1) / 2)) * 0.06));
+export const quietClass = (count = 37): number[] =>
+  Array.from({ length: count }, (_, i) => Math.exp(((i - (count - 1) / 2) / ((count - 1) / 2)) * 0.06));

@@ -11,11 +11,20 @@ export const signInMessage = (to: string) =>
   ({ to, template: "sign-in-link", props: { url: "http://localhost:3000/sign-in/test-token", expiresInMinutes: 15 } }) as const;
 
 /** Retries after about a second instead of half a minute, so that a test sees several attempts. */
-export async function useFastRetries(retryLimit: number = emailDeliveryPolicy.retryLimit, connectionString = process.env.DATABASE_URL!): Promise<void> {
+export async function useFastRetries(
+  retryLimit: number = emailDeliveryPolicy.retryLimit,
+  connectionString = process.env.DATABASE_URL!,
+): Promise<void> {
   const boss = createBoss(connectionString, { max: 1, supervise: false, schedule: false });
   await boss.start();
   try {
-    await boss.updateQueue(queues.emailDelivery, { name: queues.emailDelivery, ...emailDeliveryPolicy, retryLimit, retryDelay: 1, deadLetter: queues.emailGaveUp });
+    await boss.updateQueue(queues.emailDelivery, {
+      name: queues.emailDelivery,
+      ...emailDeliveryPolicy,
+      retryLimit,
+      retryDelay: 1,
+      deadLetter: queues.emailGaveUp,
+    });
   } finally {
     await boss.stop({ graceful: false, wait: true });
   }

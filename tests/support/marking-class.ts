@@ -17,7 +17,15 @@ export async function seedMarkingClass(
     label,
     dropCount = 10,
     late = () => false,
-  }: { courseId: string; labId: string; cohortId: string; figures: number[]; label: string; dropCount?: number; late?: (index: number) => boolean },
+  }: {
+    courseId: string;
+    labId: string;
+    cohortId: string;
+    figures: number[];
+    label: string;
+    dropCount?: number;
+    late?: (index: number) => boolean;
+  },
 ): Promise<{ membershipIds: string[]; dropLogIds: string[] }> {
   const dropLogIds = await seedClass(executor, { courseId, labId, cohortId, members: figures.map((figure) => ({ figure })), label });
   const lateLogs = dropLogIds.filter((_, index) => late(index));

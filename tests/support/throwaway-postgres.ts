@@ -46,7 +46,18 @@ export async function startThrowawayPostgres(): Promise<ThrowawayPostgres> {
   const port = await freePort();
   run(join(bin, "initdb"), ["-D", folder, "-U", "benchpost", "--auth=trust", "-E", "UTF8", "--no-locale"]);
   const start = () =>
-    run(join(bin, "pg_ctl"), ["-D", folder, "-l", join(folder, "server.log"), "-o", `-p ${port} -c listen_addresses=127.0.0.1 -k ''`, "-w", "-t", "30", "start"]);
+    run(join(bin, "pg_ctl"), [
+      "-D",
+      folder,
+      "-l",
+      join(folder, "server.log"),
+      "-o",
+      `-p ${port} -c listen_addresses=127.0.0.1 -k ''`,
+      "-w",
+      "-t",
+      "30",
+      "start",
+    ]);
   const stop = () => run(join(bin, "pg_ctl"), ["-D", folder, "-m", "fast", "-w", "stop"]);
   start();
   const client = new pg.Client({ connectionString: `postgresql://benchpost@127.0.0.1:${port}/postgres` });

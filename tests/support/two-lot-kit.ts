@@ -27,9 +27,18 @@ export type TwoLotKit = {
 export const SECOND_LOT_DENSITY = 1150;
 
 export async function createTwoLotKit(fixture: AccessFixture, label: string): Promise<TwoLotKit> {
-  const [user] = await db.insert(users).values({ email: `two-lots@${label}.example`, name: "Test twoLotStudent" }).returning();
-  const [membership] = await db.insert(courseMemberships).values({ courseId: fixture.courseId, userId: user.id, role: "student", cohortId: fixture.cohortId }).returning();
-  const [sharedLot] = await db.select({ id: parts.id }).from(parts).where(and(eq(parts.courseId, fixture.courseId), eq(parts.kind, "fluid_lot"), eq(parts.label, "F-1")));
+  const [user] = await db
+    .insert(users)
+    .values({ email: `two-lots@${label}.example`, name: "Test twoLotStudent" })
+    .returning();
+  const [membership] = await db
+    .insert(courseMemberships)
+    .values({ courseId: fixture.courseId, userId: user.id, role: "student", cohortId: fixture.cohortId })
+    .returning();
+  const [sharedLot] = await db
+    .select({ id: parts.id })
+    .from(parts)
+    .where(and(eq(parts.courseId, fixture.courseId), eq(parts.kind, "fluid_lot"), eq(parts.label, "F-1")));
   const [sphereA, sphereB, lotB, columnA, columnB, foreignSphere, foreignLot, foreignColumn] = await db
     .insert(parts)
     .values([
@@ -41,16 +50,29 @@ export async function createTwoLotKit(fixture: AccessFixture, label: string): Pr
         label: "F-2",
         fluidName: "glycerol–water",
         densityKgM3: SECOND_LOT_DENSITY,
-        calibration: [{ temperatureC: 20, viscosityPaS: 0.9 }, { temperatureC: 25, viscosityPaS: 0.6 }],
+        calibration: [
+          { temperatureC: 20, viscosityPaS: 0.9 },
+          { temperatureC: 25, viscosityPaS: 0.6 },
+        ],
       },
       { courseId: fixture.courseId, kind: "column", label: "C-3", innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 },
       { courseId: fixture.courseId, kind: "column", label: "C-4", innerDiameterMm: 50, timedDistanceMm: 250, runInMm: 100 },
       { courseId: fixture.courseId, kind: "sphere", label: "S-9", material: "steel", diameterMm: 3, massG: 0.11 },
-      { courseId: fixture.courseId, kind: "fluid_lot", label: "F-9", fluidName: "syrup", densityKgM3: 1380, calibration: [{ temperatureC: 20, viscosityPaS: 2.6 }] },
+      {
+        courseId: fixture.courseId,
+        kind: "fluid_lot",
+        label: "F-9",
+        fluidName: "syrup",
+        densityKgM3: 1380,
+        calibration: [{ temperatureC: 20, viscosityPaS: 2.6 }],
+      },
       { courseId: fixture.courseId, kind: "column", label: "C-9", innerDiameterMm: 40, timedDistanceMm: 200, runInMm: 100 },
     ])
     .returning();
-  const [kit] = await db.insert(kits).values({ courseId: fixture.courseId, number: "K-03", state: "at_home", holderMembershipId: membership.id }).returning();
+  const [kit] = await db
+    .insert(kits)
+    .values({ courseId: fixture.courseId, number: "K-03", state: "at_home", holderMembershipId: membership.id })
+    .returning();
   await db.insert(kitParts).values([
     { kitId: kit.id, partId: sphereA.id },
     { kitId: kit.id, partId: sphereB.id },

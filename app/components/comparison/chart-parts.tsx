@@ -42,10 +42,27 @@ export function LabelLegend({ x = plotRight - 110, y = plotTop + 8 }: { x?: numb
   );
 }
 
-type Scale = ((value: number) => number) & { ticks(count?: number): number[]; tickFormat(count?: number, specifier?: string): (value: number) => string };
+type Scale = ((value: number) => number) & {
+  ticks(count?: number): number[];
+  tickFormat(count?: number, specifier?: string): (value: number) => string;
+};
 
 /** Grid lines and labelled ticks for both axes, with the axis titles. Log scales label only 1, 2, 5 × 10ⁿ. */
-export function Axes({ x, y, xTitle, yTitle, xTicks = 8, yTicks = 6 }: { x: Scale; y: Scale; xTitle: string; yTitle: string; xTicks?: number; yTicks?: number }) {
+export function Axes({
+  x,
+  y,
+  xTitle,
+  yTitle,
+  xTicks = 8,
+  yTicks = 6,
+}: {
+  x: Scale;
+  y: Scale;
+  xTitle: string;
+  yTitle: string;
+  xTicks?: number;
+  yTicks?: number;
+}) {
   const xLabel = x.tickFormat(xTicks, "~g");
   const yLabel = y.tickFormat(yTicks, "~g");
   return (
@@ -70,7 +87,15 @@ export function Axes({ x, y, xTitle, yTitle, xTicks = 8, yTicks = 6 }: { x: Scal
           ) : null}
         </g>
       ))}
-      <rect x={plotLeft} y={plotTop} width={plotRight - plotLeft} height={plotBottom - plotTop} fill="none" stroke="currentColor" strokeOpacity="0.4" />
+      <rect
+        x={plotLeft}
+        y={plotTop}
+        width={plotRight - plotLeft}
+        height={plotBottom - plotTop}
+        fill="none"
+        stroke="currentColor"
+        strokeOpacity="0.4"
+      />
       <text x={(plotLeft + plotRight) / 2} y={chartSize.height - 6} textAnchor="middle">
         {xTitle}
       </text>

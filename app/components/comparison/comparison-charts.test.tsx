@@ -54,7 +54,10 @@ describe("comparison plots", () => {
     [100, 1.087],
   ])("draws the Schiller–Naumann curve through the standard drag curve at Re = %f (C_D %f, within 5 %%)", (reynolds, standard) => {
     // Two probe points 5 % above and below the published value: the drawn curve must pass between them.
-    const probes = [point(1, { id: "high", reynolds, dragCoefficient: standard * 1.05 }), point(2, { id: "low", reynolds, dragCoefficient: standard / 1.05 })];
+    const probes = [
+      point(1, { id: "high", reynolds, dragCoefficient: standard * 1.05 }),
+      point(2, { id: "low", reynolds, dragCoefficient: standard / 1.05 }),
+    ];
     const span = [point(3, { id: "a", reynolds: 0.5, dragCoefficient: 50 }), point(4, { id: "b", reynolds: 200, dragCoefficient: 0.7 })];
     const markup = renderToStaticMarkup(<DragCurveChart points={[...probes, ...span]} title="Drag" />);
     const d = markup.match(/data-curve="schiller-naumann" d="([^"]+)"/)![1];
@@ -75,7 +78,11 @@ describe("comparison plots", () => {
     expect(count(viscometry, /data-point="/g)).toBe(12);
     expect(viscometry).toContain('data-curve="identity"');
     const strip = renderToStaticMarkup(
-      <FigureStripChart points={points} limits={{ kind: "tukey", inner: [0.9, 1.1], outer: [0.8, 1.2], note: "Tukey's fences at k = 1.5 and 3" }} title="Strip" />,
+      <FigureStripChart
+        points={points}
+        limits={{ kind: "tukey", inner: [0.9, 1.1], outer: [0.8, 1.2], note: "Tukey's fences at k = 1.5 and 3" }}
+        title="Strip"
+      />,
     );
     expect(count(strip, /data-point="/g)).toBe(12);
     expect(count(strip, /data-limit="inner fence"/g)).toBe(2);

@@ -8,7 +8,19 @@ import type { ClassComparisonLabel } from "~/lib/reduction/class-comparison";
 import { referenceDragCoefficient, type DragModel } from "~/lib/reduction/drag";
 import type { ComparisonLimits } from "~/lib/comparison/class-labelling";
 import { formatNumber } from "~/lib/kits/part-display";
-import { Axes, ChartFigure, chartTableClass, LabelLegend, LabelMarker, labelWords, linePath, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
+import {
+  Axes,
+  ChartFigure,
+  chartTableClass,
+  LabelLegend,
+  LabelMarker,
+  labelWords,
+  linePath,
+  plotBottom,
+  plotLeft,
+  plotRight,
+  plotTop,
+} from "./chart-parts";
 
 export type ComparisonPoint = {
   id: string;
@@ -51,9 +63,14 @@ function PointLink({ point, x, y, text }: { point: ComparisonPoint; x: number; y
   );
 }
 
-
 /** The numbers behind a plot: one row per point, the student linking to the hand-in, the label last. */
-function PointTable({ points, columns }: { points: ComparisonPoint[]; columns: { header: string; value: (point: ComparisonPoint) => string }[] }) {
+function PointTable({
+  points,
+  columns,
+}: {
+  points: ComparisonPoint[];
+  columns: { header: string; value: (point: ComparisonPoint) => string }[];
+}) {
   return (
     <table className={chartTableClass}>
       <thead>
@@ -89,13 +106,22 @@ function PointTable({ points, columns }: { points: ComparisonPoint[]; columns: {
 /** The drag coefficient against Reynolds number, both log, with the three reference curves. */
 export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; title: string }) {
   const plotted = points.filter((point) => (point.reynolds ?? 0) > 0 && (point.dragCoefficient ?? 0) > 0);
-  const [reLow, reHigh] = extent(plotted.map((point) => point.reynolds!), [0.01, 10]);
-  const x = scaleLog().domain([reLow / 3, reHigh * 3]).range([plotLeft, plotRight]).nice();
+  const [reLow, reHigh] = extent(
+    plotted.map((point) => point.reynolds!),
+    [0.01, 10],
+  );
+  const x = scaleLog()
+    .domain([reLow / 3, reHigh * 3])
+    .range([plotLeft, plotRight])
+    .nice();
   const [domainLow, domainHigh] = x.domain();
   const curveRe = logSpace(domainLow, domainHigh, 80);
   const curveValues = referenceCurves.flatMap((curve) => curveRe.map((re) => referenceDragCoefficient(re, curve.model)));
   const [cdLow, cdHigh] = extent([...plotted.map((point) => point.dragCoefficient!), ...curveValues], [1, 1000]);
-  const y = scaleLog().domain([cdLow / 1.5, cdHigh * 1.5]).range([plotBottom, plotTop]).nice();
+  const y = scaleLog()
+    .domain([cdLow / 1.5, cdHigh * 1.5])
+    .range([plotBottom, plotTop])
+    .nice();
   return (
     <ChartFigure
       linked
@@ -129,7 +155,15 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
       <g fontSize="11" fill="currentColor">
         {referenceCurves.map((curve, index) => (
           <g key={curve.model}>
-            <line x1={plotLeft + 10} x2={plotLeft + 40} y1={plotBottom - 52 + index * 16} y2={plotBottom - 52 + index * 16} stroke="var(--color-ink-700)" strokeWidth="1.5" strokeDasharray={curve.dash} />
+            <line
+              x1={plotLeft + 10}
+              x2={plotLeft + 40}
+              y1={plotBottom - 52 + index * 16}
+              y2={plotBottom - 52 + index * 16}
+              stroke="var(--color-ink-700)"
+              strokeWidth="1.5"
+              strokeDasharray={curve.dash}
+            />
             <text x={plotLeft + 46} y={plotBottom - 52 + index * 16} dy="0.32em">
               {curve.name}
             </text>
@@ -138,7 +172,13 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
       </g>
       <LabelLegend />
       {plotted.map((point) => (
-        <PointLink key={point.id} point={point} x={x(point.reynolds!)} y={y(point.dragCoefficient!)} text={`Re ${formatNumber(point.reynolds)}, C_D ${formatNumber(point.dragCoefficient)}`} />
+        <PointLink
+          key={point.id}
+          point={point}
+          x={x(point.reynolds!)}
+          y={y(point.dragCoefficient!)}
+          text={`Re ${formatNumber(point.reynolds)}, C_D ${formatNumber(point.dragCoefficient)}`}
+        />
       ))}
     </ChartFigure>
   );
@@ -153,11 +193,17 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
   const plotted = points.filter((point) => (point.viscosityPaS ?? 0) > 0 && (point.referenceViscosityPaS ?? 0) > 0);
   const values = plotted.flatMap((point) => [point.viscosityPaS!, point.referenceViscosityPaS!]);
   const [low, high] = extent(values, [0.1, 10]);
-  const x = scaleLog().domain([low / 1.3, high * 1.3]).range([plotLeft, plotRight]).nice();
+  const x = scaleLog()
+    .domain([low / 1.3, high * 1.3])
+    .range([plotLeft, plotRight])
+    .nice();
   const y = scaleLog().domain(x.domain()).range([plotBottom, plotTop]).nice();
   const temperatures = plotted.map((point) => point.temperatureC).filter((value): value is number => value !== null);
   const [tLow, tHigh] = extent(temperatures, [15, 30]);
-  const temperatureColour = scaleSequential((t: number) => `hsl(${220 - 200 * t} 70% 45%)`).domain([tLow, tHigh === tLow ? tLow + 1 : tHigh]);
+  const temperatureColour = scaleSequential((t: number) => `hsl(${220 - 200 * t} 70% 45%)`).domain([
+    tLow,
+    tHigh === tLow ? tLow + 1 : tHigh,
+  ]);
   const [dLow, dHigh] = x.domain();
   return (
     <ChartFigure
@@ -179,12 +225,28 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
       }
     >
       <Axes x={x} y={y} xTitle="reference viscosity at the drop temperature (Pa·s, log)" yTitle="measured viscosity (Pa·s, log)" />
-      <path data-curve="identity" d={linePath([[x(dLow), y(dLow)], [x(dHigh), y(dHigh)]])} stroke="var(--color-ink-700)" strokeWidth="1.5" fill="none" />
+      <path
+        data-curve="identity"
+        d={linePath([
+          [x(dLow), y(dLow)],
+          [x(dHigh), y(dHigh)],
+        ])}
+        stroke="var(--color-ink-700)"
+        strokeWidth="1.5"
+        fill="none"
+      />
       <LabelLegend x={plotLeft + 10} />
       {plotted.map((point) => (
         <g key={point.id}>
           {point.temperatureC !== null ? (
-            <circle cx={x(point.referenceViscosityPaS!)} cy={y(point.viscosityPaS!)} r="9" fill="none" stroke={temperatureColour(point.temperatureC)} strokeWidth="2" />
+            <circle
+              cx={x(point.referenceViscosityPaS!)}
+              cy={y(point.viscosityPaS!)}
+              r="9"
+              fill="none"
+              stroke={temperatureColour(point.temperatureC)}
+              strokeWidth="2"
+            />
           ) : null}
           <PointLink
             point={point}
@@ -205,7 +267,9 @@ const jitter = (index: number) => ((index * 0.618034) % 1) - 0.5;
 export function FigureStripChart({ points, limits, title }: { points: ComparisonPoint[]; limits: ComparisonLimits; title: string }) {
   const limitValues = limits ? [...limits.inner, ...(limits.outer ?? [])] : [];
   const [low, high] = extent([...points.map((point) => point.figure), ...limitValues, 1], [0.5, 2]);
-  const x = scaleLog().domain([low / 1.1, high * 1.1]).range([plotLeft, plotRight]);
+  const x = scaleLog()
+    .domain([low / 1.1, high * 1.1])
+    .range([plotLeft, plotRight]);
   const y = scaleLinear().domain([-1, 1]).range([plotBottom, plotTop]);
   const noTicks = Object.assign((value: number) => y(value), { ticks: () => [] as number[], tickFormat: () => () => "" });
   const limitLines = limits
@@ -222,23 +286,27 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
       description={`${points.length} normalised figures on a logarithmic axis${limits ? `, with ${limits.note}` : ""}. Circles are consistent, triangles suspect, squares outliers.`}
       caption={
         <>
-          Each hand-in's normalised figure (1 means it agrees with the reference). {limits ? `${limits.note}: ${limitLines.map((line) => formatNumber(line.value, 3)).join(", ")}.` : "The class is too small to draw limits."}{" "}
+          Each hand-in's normalised figure (1 means it agrees with the reference).{" "}
+          {limits
+            ? `${limits.note}: ${limitLines.map((line) => formatNumber(line.value, 3)).join(", ")}.`
+            : "The class is too small to draw limits."}{" "}
           Points are spread vertically only so they do not cover each other.
         </>
       }
-      table={
-        <PointTable
-          points={points}
-          columns={[
-            { header: "Figure", value: (point) => formatNumber(point.figure) },
-          ]}
-        />
-      }
+      table={<PointTable points={points} columns={[{ header: "Figure", value: (point) => formatNumber(point.figure) }]} />}
     >
       <Axes x={x} y={noTicks} xTitle="normalised figure (log)" yTitle="" />
       {limitLines.map((line) => (
         <g key={`${line.name}${line.value}`} data-limit={line.name}>
-          <line x1={x(line.value)} x2={x(line.value)} y1={plotTop} y2={plotBottom} stroke="var(--color-ink-700)" strokeWidth="1.5" strokeDasharray={line.dash} />
+          <line
+            x1={x(line.value)}
+            x2={x(line.value)}
+            y1={plotTop}
+            y2={plotBottom}
+            stroke="var(--color-ink-700)"
+            strokeWidth="1.5"
+            strokeDasharray={line.dash}
+          />
           <text x={x(line.value)} y={plotTop + 12} dx="4" fontSize="11" fill="currentColor">
             {line.name}
           </text>
@@ -246,7 +314,13 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
       ))}
       <LabelLegend />
       {points.map((point, index) => (
-        <PointLink key={point.id} point={point} x={x(point.figure)} y={y(jitter(index) * 1.4)} text={`figure ${formatNumber(point.figure)}`} />
+        <PointLink
+          key={point.id}
+          point={point}
+          x={x(point.figure)}
+          y={y(jitter(index) * 1.4)}
+          text={`figure ${formatNumber(point.figure)}`}
+        />
       ))}
     </ChartFigure>
   );

@@ -6,14 +6,29 @@ import { scaleLinear } from "d3-scale";
 import { formatNumber } from "~/lib/kits/part-display";
 import { Axes, ChartFigure, chartTableClass, LabelMarker, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
 
-export function DropTimesChart({ drops, strayDrops, title, id = "drop-times" }: { drops: number[]; strayDrops: number[]; title: string; id?: string }) {
+export function DropTimesChart({
+  drops,
+  strayDrops,
+  title,
+  id = "drop-times",
+}: {
+  drops: number[];
+  strayDrops: number[];
+  title: string;
+  id?: string;
+}) {
   const stray = new Set(strayDrops);
   const mean = drops.reduce((sum, time) => sum + time, 0) / Math.max(drops.length, 1);
-  const x = scaleLinear().domain([0.5, Math.max(drops.length, 1) + 0.5]).range([plotLeft, plotRight]);
+  const x = scaleLinear()
+    .domain([0.5, Math.max(drops.length, 1) + 0.5])
+    .range([plotLeft, plotRight]);
   const low = Math.min(...drops, mean);
   const high = Math.max(...drops, mean);
   const pad = (high - low || Math.abs(mean) * 0.1 || 1) * 0.15;
-  const y = scaleLinear().domain([low - pad, high + pad]).nice().range([plotBottom, plotTop]);
+  const y = scaleLinear()
+    .domain([low - pad, high + pad])
+    .nice()
+    .range([plotBottom, plotTop]);
   return (
     <ChartFigure
       id={id}

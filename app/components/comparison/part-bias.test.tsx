@@ -21,7 +21,10 @@ const comparison = {
 describe("PartBiasEvidence", () => {
   it("names the peer comparison and Holm's level, and never a test against 1", () => {
     const markup = renderToStaticMarkup(
-      <PartBiasEvidence courseId="c" bias={{ alpha: 0.05, flagged: true, testsInFamily: 5, comparisons: [comparison], handIns: [], otherHandIns: 0 }} />,
+      <PartBiasEvidence
+        courseId="c"
+        bias={{ alpha: 0.05, flagged: true, testsInFamily: 5, comparisons: [comparison], handIns: [], otherHandIns: 0 }}
+      />,
     );
     expect(markup).toContain("re-measure: differs from peers");
     expect(markup).toContain("Welch&#x27;s t = 6.9, 7.4 degrees of freedom, p = 0.0002 against Holm&#x27;s level 0.01");
@@ -30,8 +33,23 @@ describe("PartBiasEvidence", () => {
   });
 
   it("says why a part was not tested", () => {
-    const untested = { ...comparison, peerCount: 0, peerParts: 1, relativeToPeers: null, t: null, degreesOfFreedom: null, pValue: null, holmLevel: null, flagged: false };
-    const markup = renderToStaticMarkup(<PartBiasEvidence courseId="c" bias={{ alpha: 0.05, flagged: false, testsInFamily: 0, comparisons: [untested], handIns: [], otherHandIns: 0 }} />);
+    const untested = {
+      ...comparison,
+      peerCount: 0,
+      peerParts: 1,
+      relativeToPeers: null,
+      t: null,
+      degreesOfFreedom: null,
+      pValue: null,
+      holmLevel: null,
+      flagged: false,
+    };
+    const markup = renderToStaticMarkup(
+      <PartBiasEvidence
+        courseId="c"
+        bias={{ alpha: 0.05, flagged: false, testsInFamily: 0, comparisons: [untested], handIns: [], otherHandIns: 0 }}
+      />,
+    );
     expect(markup).toContain("no test: it needs at least 3 hand-ins with this part and 3 with at least 2 other parts of its kind");
   });
 });

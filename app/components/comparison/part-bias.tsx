@@ -9,7 +9,10 @@ import type { PartBiasView } from "~/server/comparison/part-quality.server";
 
 export function PartBiasBadge() {
   return (
-    <span className="ml-2 inline-flex items-center rounded border border-outlier px-1.5 text-xs font-medium text-outlier" title="Results with this part differ from those with other parts of its kind: re-measure it">
+    <span
+      className="ml-2 inline-flex items-center rounded border border-outlier px-1.5 text-xs font-medium text-outlier"
+      title="Results with this part differ from those with other parts of its kind: re-measure it"
+    >
       re-measure: differs from peers
     </span>
   );
@@ -41,9 +44,9 @@ export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId:
         Results with this part {bias.flagged ? <PartBiasBadge /> : null}
       </h2>
       <p className="text-sm text-ink-700">
-        Each lab's hand-ins with this part are compared with the hand-ins of the same lab that used other parts of the same kind (Welch's two-sample t
-        test on ln figure, Holm's correction over every part tested in the course), not with the reference: a bias of the reference model moves every
-        part alike.
+        Each lab's hand-ins with this part are compared with the hand-ins of the same lab that used other parts of the same kind (Welch's
+        two-sample t test on ln figure, Holm's correction over every part tested in the course), not with the reference: a bias of the
+        reference model moves every part alike.
       </p>
       <ul className="list-disc pl-5 text-sm text-ink-700">
         {bias.comparisons.map((comparison) => (
@@ -63,7 +66,9 @@ export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId:
         <table className="text-sm [&_td]:pr-6 [&_th]:pr-6 [&_th]:text-left [&_th]:font-medium">
           <caption className="mb-1 text-left font-medium">
             Hand-ins read by the test
-            {bias.otherHandIns ? <span className="block font-normal text-ink-700">{`Not listed: ${bias.otherHandIns} from students of cohorts you do not mark.`}</span> : null}
+            {bias.otherHandIns ? (
+              <span className="block font-normal text-ink-700">{`Not listed: ${bias.otherHandIns} from students of cohorts you do not mark.`}</span>
+            ) : null}
           </caption>
           <thead>
             <tr>

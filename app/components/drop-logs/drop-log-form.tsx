@@ -24,7 +24,10 @@ export type FormColumn = { id: string; label: string; innerDiameterMm: number | 
 type FormState = Required<Omit<DropLogDraft, "useOwnMeasurements">> & { useOwnMeasurements: boolean };
 /** A column of times waiting for the student to say how it joins the drops already typed. */
 type IncomingColumn = { times: string[]; /** "from the clipboard", "from runs.csv" */ from: string; returnFocusTo: number };
-type Preview = { status: "idle" | "loading" } | { status: "ready"; result: DropLogReduction; rows: number[] } | { status: "error"; message: string; issues: Record<string, string> };
+type Preview =
+  | { status: "idle" | "loading" }
+  | { status: "ready"; result: DropLogReduction; rows: number[] }
+  | { status: "error"; message: string; issues: Record<string, string> };
 
 const PREVIEW_DELAY_MS = 400;
 const DRAFT_DELAY_MS = 1200;
@@ -165,9 +168,15 @@ export function DropLogForm({
         });
         const body = await response.json();
         if (response.ok) setPreview({ status: "ready", result: body as DropLogReduction, rows });
-        else setPreview({ status: "error", message: body.error?.message ?? "The preview failed.", issues: issuesByField(body.error?.issues ?? [], rows) });
+        else
+          setPreview({
+            status: "error",
+            message: body.error?.message ?? "The preview failed.",
+            issues: issuesByField(body.error?.issues ?? [], rows),
+          });
       } catch (error) {
-        if (!controller.signal.aborted) setPreview({ status: "error", message: "No connection: the preview will come back when you are online.", issues: {} });
+        if (!controller.signal.aborted)
+          setPreview({ status: "error", message: "No connection: the preview will come back when you are online.", issues: {} });
       }
     }, PREVIEW_DELAY_MS);
     return () => {
@@ -185,12 +194,14 @@ export function DropLogForm({
       const untouched = current.timedDistanceMm === "" || (before !== null && current.timedDistanceMm === String(before));
       return { ...current, columnId, timedDistanceMm: untouched && after !== null ? String(after) : current.timedDistanceMm };
     });
-  const setDrop = (index: number, value: string) => setState((current) => ({ ...current, drops: current.drops.map((drop, i) => (i === index ? value : drop)) }));
+  const setDrop = (index: number, value: string) =>
+    setState((current) => ({ ...current, drops: current.drops.map((drop, i) => (i === index ? value : drop)) }));
   const addRow = (focus = true) => {
     setState((current) => ({ ...current, drops: [...current.drops, ""] }));
     if (focus) setTimeout(() => dropRefs.current[state.drops.length]?.focus(), 0);
   };
-  const removeRow = (index: number) => setState((current) => ({ ...current, drops: current.drops.length > 1 ? current.drops.filter((_, i) => i !== index) : [""] }));
+  const removeRow = (index: number) =>
+    setState((current) => ({ ...current, drops: current.drops.length > 1 ? current.drops.filter((_, i) => i !== index) : [""] }));
 
   const typedCount = enteredTimes(state.drops).length;
   const joinColumn = (column: IncomingColumn, how: TimesJoin) => {
@@ -198,7 +209,9 @@ export function DropLogForm({
     update({ drops: joinTimes(state.drops, column.times, how) });
     setIncoming(null);
     const times = `${column.times.length} drop times ${column.from}`;
-    setColumnMessage(how === "append" ? `Added ${times} after drop ${kept}.` : typedCount ? `Replaced the drops with ${times}.` : `Entered ${times}.`);
+    setColumnMessage(
+      how === "append" ? `Added ${times} after drop ${kept}.` : typedCount ? `Replaced the drops with ${times}.` : `Entered ${times}.`,
+    );
     setTimeout(() => dropRefs.current[kept]?.focus(), 0);
   };
   // Into an empty log the column simply goes in; over typed drops the student is asked first.
@@ -223,7 +236,9 @@ export function DropLogForm({
         // The first column that holds numbers; a header row above them is skipped.
         const width = Math.max(0, ...data.map((row) => row.length));
         for (let column = 0; column < width; column++) {
-          const cells = data.map((row) => (row[column] ?? "").trim()).filter((cell) => typeof parseTypedNumber(cell) === "number" && !Number.isNaN(parseTypedNumber(cell)));
+          const cells = data
+            .map((row) => (row[column] ?? "").trim())
+            .filter((cell) => typeof parseTypedNumber(cell) === "number" && !Number.isNaN(parseTypedNumber(cell)));
           if (cells.length) {
             receiveColumn({ times: cells, from: `from ${file.name}`, returnFocusTo: 0 });
             return;
@@ -255,7 +270,13 @@ export function DropLogForm({
       {serverErrors?.form ? <Notice tone="error">{serverErrors.form.join(" ")}</Notice> : null}
 
       <div>
-        <SelectField label="Sphere" name="sphereId" value={state.sphereId} onChange={(event) => update({ sphereId: event.target.value })} error={fieldMessages("sphereId")}>
+        <SelectField
+          label="Sphere"
+          name="sphereId"
+          value={state.sphereId}
+          onChange={(event) => update({ sphereId: event.target.value })}
+          error={fieldMessages("sphereId")}
+        >
           {spheres.map((candidate) => (
             <option key={candidate.id} value={candidate.id}>
               {candidate.label}
@@ -274,7 +295,11 @@ export function DropLogForm({
           name="fluidLotId"
           value={state.fluidLotId}
           onChange={(fluidLotId) => update({ fluidLotId })}
-          options={fluidLots.map((lot) => ({ id: lot.id, label: [lot.label, lot.fluidName].filter(Boolean).join(" · "), record: `density ${lot.densityKgM3 ?? "?"} kg/m³` }))}
+          options={fluidLots.map((lot) => ({
+            id: lot.id,
+            label: [lot.label, lot.fluidName].filter(Boolean).join(" · "),
+            record: `density ${lot.densityKgM3 ?? "?"} kg/m³`,
+          }))}
           error={fieldMessages("fluidLotId")}
           prompt="Choose the bottle you used"
         />
@@ -283,22 +308,48 @@ export function DropLogForm({
           name="columnId"
           value={state.columnId}
           onChange={chooseColumn}
-          options={columns.map((candidate) => ({ id: candidate.id, label: candidate.label, record: `bore ${candidate.innerDiameterMm ?? "?"} mm, ${candidate.timedDistanceMm ?? "?"} mm between the bands` }))}
+          options={columns.map((candidate) => ({
+            id: candidate.id,
+            label: candidate.label,
+            record: `bore ${candidate.innerDiameterMm ?? "?"} mm, ${candidate.timedDistanceMm ?? "?"} mm between the bands`,
+          }))}
           error={fieldMessages("columnId")}
           prompt="Choose the column you used"
         />
         <label className="mt-2 flex items-center gap-2 py-1 text-sm">
-          <input type="checkbox" className="size-5 shrink-0" name="useOwnMeasurements" checked={state.useOwnMeasurements} onChange={(event) => update({ useOwnMeasurements: event.target.checked })} />
+          <input
+            type="checkbox"
+            className="size-5 shrink-0"
+            name="useOwnMeasurements"
+            checked={state.useOwnMeasurements}
+            onChange={(event) => update({ useOwnMeasurements: event.target.checked })}
+          />
           Enter my own measurements of the sphere as well
         </label>
         {state.useOwnMeasurements ? (
           <div className="mt-2 grid grid-cols-2 gap-3">
             <div>
-              <TextField label="My diameter" unit="mm" name="ownDiameterMm" inputMode="decimal" value={state.ownDiameterMm} onChange={(event) => update({ ownDiameterMm: event.target.value })} error={fieldMessages("ownDiameterMm")} />
+              <TextField
+                label="My diameter"
+                unit="mm"
+                name="ownDiameterMm"
+                inputMode="decimal"
+                value={state.ownDiameterMm}
+                onChange={(event) => update({ ownDiameterMm: event.target.value })}
+                error={fieldMessages("ownDiameterMm")}
+              />
               <WarningList warnings={warningsFor("ownDiameterMm")} />
             </div>
             <div>
-              <TextField label="My mass" unit="g" name="ownMassG" inputMode="decimal" value={state.ownMassG} onChange={(event) => update({ ownMassG: event.target.value })} error={fieldMessages("ownMassG")} />
+              <TextField
+                label="My mass"
+                unit="g"
+                name="ownMassG"
+                inputMode="decimal"
+                value={state.ownMassG}
+                onChange={(event) => update({ ownMassG: event.target.value })}
+                error={fieldMessages("ownMassG")}
+              />
               <WarningList warnings={warningsFor("ownMassG")} />
             </div>
           </div>
@@ -307,7 +358,16 @@ export function DropLogForm({
 
       <div className="grid grid-cols-2 gap-3">
         <div>
-          <TextField label="Fluid temperature" unit="°C" name="temperatureC" inputMode="decimal" required value={state.temperatureC} onChange={(event) => update({ temperatureC: event.target.value })} error={fieldMessages("temperatureC")} />
+          <TextField
+            label="Fluid temperature"
+            unit="°C"
+            name="temperatureC"
+            inputMode="decimal"
+            required
+            value={state.temperatureC}
+            onChange={(event) => update({ temperatureC: event.target.value })}
+            error={fieldMessages("temperatureC")}
+          />
           <WarningList warnings={warningsFor("temperatureC")} />
         </div>
         <div>
@@ -318,7 +378,11 @@ export function DropLogForm({
             inputMode="decimal"
             value={state.timedDistanceMm}
             onChange={(event) => update({ timedDistanceMm: event.target.value })}
-            hint={column && column.timedDistanceMm !== null ? `Column ${column.label}: ${column.timedDistanceMm} mm between the bands` : undefined}
+            hint={
+              column && column.timedDistanceMm !== null
+                ? `Column ${column.label}: ${column.timedDistanceMm} mm between the bands`
+                : undefined
+            }
             error={fieldMessages("timedDistanceMm")}
           />
           <WarningList warnings={warningsFor("timedDistanceMm")} />
@@ -344,8 +408,12 @@ export function DropLogForm({
         <table className="mt-2 w-full text-sm">
           <thead>
             <tr className="text-left text-ink-700">
-              <th scope="col" className="w-10 py-1">#</th>
-              <th scope="col" className="py-1">Time (s)</th>
+              <th scope="col" className="w-10 py-1">
+                #
+              </th>
+              <th scope="col" className="py-1">
+                Time (s)
+              </th>
               <th scope="col" className="w-20 py-1">
                 <span className="sr-only">Remove</span>
               </th>
@@ -387,7 +455,12 @@ export function DropLogForm({
                     ) : null}
                   </td>
                   <td className="py-1 text-right align-top">
-                    <button type="button" className="rounded px-2 py-2 text-ink-700 underline" onClick={() => removeRow(index)} aria-label={`Remove drop ${index + 1}`}>
+                    <button
+                      type="button"
+                      className="rounded px-2 py-2 text-ink-700 underline"
+                      onClick={() => removeRow(index)}
+                      aria-label={`Remove drop ${index + 1}`}
+                    >
                       Remove
                     </button>
                   </td>
@@ -422,21 +495,38 @@ export function DropLogForm({
         </div>
       </fieldset>
 
-      <TextAreaField label="Notes (optional)" name="notes" rows={3} value={state.notes} onChange={(event) => update({ notes: event.target.value })} error={fieldMessages("notes")} />
+      <TextAreaField
+        label="Notes (optional)"
+        name="notes"
+        rows={3}
+        value={state.notes}
+        onChange={(event) => update({ notes: event.target.value })}
+        error={fieldMessages("notes")}
+      />
 
       <section aria-labelledby="preview-heading" aria-live="polite" className="rounded-lg bg-paper-100 p-4 ring-1 ring-ink-900/10">
         <h3 id="preview-heading" className="font-semibold">
           Preview {preview.status === "loading" ? <span className="text-sm font-normal text-ink-600">(updating…)</span> : null}
         </h3>
-        {preview.status === "idle" ? <p className="text-sm text-ink-700">Enter the temperature and a drop time to see your result.</p> : null}
+        {preview.status === "idle" ? (
+          <p className="text-sm text-ink-700">Enter the temperature and a drop time to see your result.</p>
+        ) : null}
         {preview.status === "error" ? <p className="text-sm text-outlier">{preview.message}</p> : null}
         {preview.status === "ready" ? (
           <>
             <ReductionSummary reduction={preview.result.reduction} normalisedFigure={preview.result.normalisedFigure} />
             <WarningList warnings={warningsFor("form")} />
-            <StrayDropComparison reduction={preview.result.reduction} normalisedFigure={preview.result.normalisedFigure} referenceViscosity={preview.result.kitRecords.fluidLot.viscosityPaS} />
+            <StrayDropComparison
+              reduction={preview.result.reduction}
+              normalisedFigure={preview.result.normalisedFigure}
+              referenceViscosity={preview.result.kitRecords.fluidLot.viscosityPaS}
+            />
             <p className="mt-2 text-xs text-ink-600">
-              Computed by the server from your kit's records{kind === "drag" ? `, with the fluid's viscosity ${figure(preview.result.kitRecords.fluidLot.viscosityPaS)} Pa·s at your temperature` : ""}. Handing in stores this result.
+              Computed by the server from your kit's records
+              {kind === "drag"
+                ? `, with the fluid's viscosity ${figure(preview.result.kitRecords.fluidLot.viscosityPaS)} Pa·s at your temperature`
+                : ""}
+              . Handing in stores this result.
             </p>
           </>
         ) : null}
@@ -484,8 +574,8 @@ function JoinTimesChoice({
       }}
     >
       <p id="join-times-question" className="text-sm">
-        {incoming.times.length} drop times {incoming.from}, and the log already has {typedCount} {typedCount === 1 ? "drop" : "drops"}. Add them after
-        the last drop, or replace the drops with them?
+        {incoming.times.length} drop times {incoming.from}, and the log already has {typedCount} {typedCount === 1 ? "drop" : "drops"}. Add
+        them after the last drop, or replace the drops with them?
       </p>
       <div className="mt-2 flex flex-wrap gap-2">
         <Button ref={first} type="button" onClick={() => onChoose("append")}>
@@ -536,7 +626,15 @@ function PartChoice({
   }
   return (
     <div className="mt-2">
-      <SelectField label={label} name={name} value={value} required onChange={(event) => onChange(event.target.value)} error={error} hint={chosen ? `Kit record: ${chosen.record}.` : `Your kit holds ${options.length} this lab allows.`}>
+      <SelectField
+        label={label}
+        name={name}
+        value={value}
+        required
+        onChange={(event) => onChange(event.target.value)}
+        error={error}
+        hint={chosen ? `Kit record: ${chosen.record}.` : `Your kit holds ${options.length} this lab allows.`}
+      >
         <option value="" disabled>
           {prompt}
         </option>

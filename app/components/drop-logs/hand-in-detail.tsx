@@ -34,7 +34,14 @@ export function HandInDetail({ handIn, headingLevel = 2 }: { handIn: HandInDetai
         )}
       </section>
       {handIn.versions.length === 0 ? <p className="text-ink-700">Nothing handed in yet; drafts are the student&apos;s own.</p> : null}
-      <VersionHistory courseId={handIn.courseId} timeZone={handIn.timeZone} versions={handIn.versions} latestVersionId={handIn.latestVersionId} photos={handIn.photos} budgetOpen />
+      <VersionHistory
+        courseId={handIn.courseId}
+        timeZone={handIn.timeZone}
+        versions={handIn.versions}
+        latestVersionId={handIn.latestVersionId}
+        photos={handIn.photos}
+        budgetOpen
+      />
     </div>
   );
 }

@@ -13,14 +13,35 @@ const lab: LabSettings = {
 // Invented parts; the sixth drop is mistimed so a stray drop is flagged.
 const kit: KitRecordsInput = {
   sphere: { id: "s", label: "S-1", material: "steel", diameterMm: 2, diameterResolutionMm: null, massG: 0.0327, massResolutionG: null },
-  fluidLot: { id: "f", label: "GLY-1", fluidName: "glycerol", densityKgM3: 1261, calibration: [{ temperatureC: 20, viscosityPaS: 1.41 }, { temperatureC: 25, viscosityPaS: 0.95 }, { temperatureC: 30, viscosityPaS: 0.61 }] },
+  fluidLot: {
+    id: "f",
+    label: "GLY-1",
+    fluidName: "glycerol",
+    densityKgM3: 1261,
+    calibration: [
+      { temperatureC: 20, viscosityPaS: 1.41 },
+      { temperatureC: 25, viscosityPaS: 0.95 },
+      { temperatureC: 30, viscosityPaS: 0.61 },
+    ],
+  },
   column: { id: "c", label: "C-1", innerDiameterMm: 40, timedDistanceMm: 200, runInMm: null },
 };
-const result = reduceDropLog({ lab, kit, input: { sphereId: "s", temperatureC: 22, drops: [11.2, 11.3, 11.1, 11.25, 11.15, 11.2, 11.3, 11.1, 11.25, 12.9] } });
+const result = reduceDropLog({
+  lab,
+  kit,
+  input: { sphereId: "s", temperatureC: 22, drops: [11.2, 11.3, 11.1, 11.25, 11.15, 11.2, 11.3, 11.1, 11.25, 12.9] },
+});
 
 function render(reduction: DropLogReduction["reduction"], budgetOpen: boolean) {
   return renderToStaticMarkup(
-    <ReductionResult reduction={reduction} normalisedFigure={result.normalisedFigure} kitRecords={result.kitRecords} warnings={result.warnings} temperatureC={22} budgetOpen={budgetOpen} />,
+    <ReductionResult
+      reduction={reduction}
+      normalisedFigure={result.normalisedFigure}
+      kitRecords={result.kitRecords}
+      warnings={result.warnings}
+      temperatureC={22}
+      budgetOpen={budgetOpen}
+    />,
   );
 }
 
@@ -66,7 +87,7 @@ describe("ReductionResult", () => {
   it("reads ∞ back from a stored budget, where JSON has turned it into null", () => {
     const stored = JSON.parse(JSON.stringify(result.reduction)) as DropLogReduction["reduction"];
     expect(stored.uncertaintyBudget.rows[0].degreesOfFreedom).toBeNull();
-    expect(render(stored, true)).toContain("<td class=\"py-1 pr-3\">∞</td>");
+    expect(render(stored, true)).toContain('<td class="py-1 pr-3">∞</td>');
   });
 
   it("copes with a version stored before budgets were kept", () => {

@@ -31,10 +31,22 @@ export function ReductionResult({
     <div className="flex flex-col gap-3">
       <ReductionSummary reduction={reduction} normalisedFigure={normalisedFigure} />
       <WarningList warnings={warnings} />
-      <StrayDropComparison reduction={reduction} normalisedFigure={normalisedFigure} referenceViscosity={kitRecords.fluidLot.viscosityPaS} />
+      <StrayDropComparison
+        reduction={reduction}
+        normalisedFigure={normalisedFigure}
+        referenceViscosity={kitRecords.fluidLot.viscosityPaS}
+      />
       <details open={budgetOpen} className="rounded ring-1 ring-ink-900/10">
-        <summary className="cursor-pointer px-3 py-2 text-sm font-medium">Uncertainty budget{budget ? ` (${coverageNote(budget)})` : ""}</summary>
-        <div className="px-3 pb-3">{budget ? <BudgetTable budget={budget} /> : <p className="text-sm text-ink-700">Not computed for this version: it was reduced before budgets were kept.</p>}</div>
+        <summary className="cursor-pointer px-3 py-2 text-sm font-medium">
+          Uncertainty budget{budget ? ` (${coverageNote(budget)})` : ""}
+        </summary>
+        <div className="px-3 pb-3">
+          {budget ? (
+            <BudgetTable budget={budget} />
+          ) : (
+            <p className="text-sm text-ink-700">Not computed for this version: it was reduced before budgets were kept.</p>
+          )}
+        </div>
       </details>
       <PartsUsed kitRecords={kitRecords} temperatureC={temperatureC} />
     </div>
@@ -58,23 +70,40 @@ export function BudgetTable({ budget }: { budget: UncertaintyBudget }) {
     <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`Uncertainty budget of ${resultName}`}>
       <table className="w-full text-left text-sm tabular-nums">
         <caption className="mb-1 text-left text-ink-700">
-          Uncertainty budget of {resultName} (GUM first order): each contribution is the sensitivity times the standard uncertainty, and they combine in quadrature.
+          Uncertainty budget of {resultName} (GUM first order): each contribution is the sensitivity times the standard uncertainty, and
+          they combine in quadrature.
         </caption>
         <thead>
           <tr className="border-b border-ink-900/10">
-            <th scope="col" className="py-1 pr-3 font-medium">Input</th>
-            <th scope="col" className="py-1 pr-3 font-medium">Value</th>
-            <th scope="col" className="py-1 pr-3 font-medium">Standard uncertainty u</th>
-            <th scope="col" className="py-1 pr-3 font-medium">Type</th>
-            <th scope="col" className="py-1 pr-3 font-medium">Degrees of freedom ν</th>
-            <th scope="col" className="py-1 pr-3 font-medium">Sensitivity c</th>
-            <th scope="col" className="py-1 font-medium">Contribution c·u</th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Input
+            </th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Value
+            </th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Standard uncertainty u
+            </th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Type
+            </th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Degrees of freedom ν
+            </th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Sensitivity c
+            </th>
+            <th scope="col" className="py-1 font-medium">
+              Contribution c·u
+            </th>
           </tr>
         </thead>
         <tbody>
           {budget.rows.map((row) => (
             <tr key={row.input} className="border-b border-ink-900/5">
-              <th scope="row" className="py-1 pr-3 font-normal">{row.input}</th>
+              <th scope="row" className="py-1 pr-3 font-normal">
+                {row.input}
+              </th>
               <td className="py-1 pr-3">{withUnit(figure(row.value), row.unit)}</td>
               <td className="py-1 pr-3">{withUnit(figure(row.standardUncertainty, 2), row.unit)}</td>
               <td className="py-1 pr-3">{row.type}</td>
@@ -86,10 +115,16 @@ export function BudgetTable({ budget }: { budget: UncertaintyBudget }) {
         </tbody>
         <tfoot>
           <Total label="Combined standard uncertainty u_c">{withUnit(figure(budget.combined, 2), budget.unit)}</Total>
-          <Total label="Effective degrees of freedom ν_eff (Welch–Satterthwaite)">{degreesOfFreedom(budget.effectiveDegreesOfFreedom)}</Total>
-          <Total label={`Coverage factor k (Student t, ${Math.round(budget.coverageProbability * 100)} %)`}>{figure(budget.coverageFactor, 3)}</Total>
+          <Total label="Effective degrees of freedom ν_eff (Welch–Satterthwaite)">
+            {degreesOfFreedom(budget.effectiveDegreesOfFreedom)}
+          </Total>
+          <Total label={`Coverage factor k (Student t, ${Math.round(budget.coverageProbability * 100)} %)`}>
+            {figure(budget.coverageFactor, 3)}
+          </Total>
           <Total label="Expanded uncertainty U = k·u_c">{withUnit(figure(budget.expanded, 2), budget.unit)}</Total>
-          <Total label="Result">{rounded ? withUnit(`${rounded.value} ± ${rounded.uncertainty}`, budget.unit) : withUnit(figure(budget.value), budget.unit)}</Total>
+          <Total label="Result">
+            {rounded ? withUnit(`${rounded.value} ± ${rounded.uncertainty}`, budget.unit) : withUnit(figure(budget.value), budget.unit)}
+          </Total>
         </tfoot>
       </table>
     </div>
@@ -123,15 +158,31 @@ export function StrayDropComparison({
   const without = reduction.withoutStrayDrops;
   if (!without) return null;
   const figureOf = (results: NonNullable<Reduction["withoutStrayDrops"]>) =>
-    "referenceDragCoefficient" in results ? results.dragCoefficient / results.referenceDragCoefficient : referenceViscosity ? results.viscosity / referenceViscosity : null;
+    "referenceDragCoefficient" in results
+      ? results.dragCoefficient / results.referenceDragCoefficient
+      : referenceViscosity
+        ? results.viscosity / referenceViscosity
+        : null;
   const all = figureOf(reduction as NonNullable<Reduction["withoutStrayDrops"]>);
   const trimmed = figureOf(without);
   const close = (a: number | null, b: number | null) => a !== null && b !== null && Math.abs(a - b) <= 1e-9 * Math.abs(b);
   const countsWithout = close(normalisedFigure, trimmed) && !close(normalisedFigure, all);
   const stray = reduction.drops.strayDrops.map((index) => index + 1).join(", ");
   const columns = [
-    { key: "all", label: "All drops", results: reduction as NonNullable<Reduction["withoutStrayDrops"]>, figure: all, counts: !countsWithout },
-    { key: "without", label: `Without stray drop${reduction.drops.strayDrops.length > 1 ? "s" : ""} ${stray}`, results: without, figure: trimmed, counts: countsWithout },
+    {
+      key: "all",
+      label: "All drops",
+      results: reduction as NonNullable<Reduction["withoutStrayDrops"]>,
+      figure: all,
+      counts: !countsWithout,
+    },
+    {
+      key: "without",
+      label: `Without stray drop${reduction.drops.strayDrops.length > 1 ? "s" : ""} ${stray}`,
+      results: without,
+      figure: trimmed,
+      counts: countsWithout,
+    },
   ];
   const rows: [string, (results: (typeof columns)[number]["results"], figureValue: number | null) => string][] = [
     ["Drops", (results) => String(results.drops.n)],
@@ -140,17 +191,21 @@ export function StrayDropComparison({
     ["Reynolds number", (results) => figure(results.reynolds, 3)],
     ["Drag coefficient C_D", (results) => figure(results.dragCoefficient)],
   ];
-  if (reduction.mode === "viscometry") rows.push(["Viscosity μ (Stokes)", (results) => ("viscosity" in results ? `${figure(results.viscosity)} Pa·s` : "—")]);
+  if (reduction.mode === "viscometry")
+    rows.push(["Viscosity μ (Stokes)", (results) => ("viscosity" in results ? `${figure(results.viscosity)} Pa·s` : "—")]);
   rows.push([reduction.mode === "drag" ? "C_D/C_D,ref" : "μ/μ_ref(T)", (_, figureValue) => figure(figureValue, 4)]);
   return (
     <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Results with and without the stray drops">
       <table className="text-left text-sm tabular-nums">
         <caption className="mb-1 text-left text-ink-700">
-          Stray drops were flagged, so the results are given both ways. The column marked “counts” is the one the class comparison and marking use; the uncertainty budget is for all drops.
+          Stray drops were flagged, so the results are given both ways. The column marked “counts” is the one the class comparison and
+          marking use; the uncertainty budget is for all drops.
         </caption>
         <thead>
           <tr className="border-b border-ink-900/10">
-            <th scope="col" className="py-1 pr-4 font-medium">Result</th>
+            <th scope="col" className="py-1 pr-4 font-medium">
+              Result
+            </th>
             {columns.map((column) => (
               <th key={column.key} scope="col" className="py-1 pr-4 font-medium">
                 {column.label}
@@ -162,7 +217,9 @@ export function StrayDropComparison({
         <tbody>
           {rows.map(([label, value]) => (
             <tr key={label} className="border-b border-ink-900/5">
-              <th scope="row" className="py-1 pr-4 font-normal">{label}</th>
+              <th scope="row" className="py-1 pr-4 font-normal">
+                {label}
+              </th>
               {columns.map((column) => (
                 <td key={column.key} className="py-1 pr-4">
                   {value(column.results, column.figure)}

@@ -64,7 +64,12 @@ export function ReductionSummary({ reduction, normalisedFigure }: { reduction: R
   const figureBudget = budget?.normalisedFigure ?? null;
   const rows: [key: string, label: ReactNode, value: string, detail?: string][] = [
     ["drops", "Drops", String(reduction.drops.n)],
-    ["mean", "Mean time", `${figure(reduction.drops.mean)} s`, reduction.drops.ci95 ? `95 % interval ${figure(reduction.drops.ci95[0])}–${figure(reduction.drops.ci95[1])} s` : undefined],
+    [
+      "mean",
+      "Mean time",
+      `${figure(reduction.drops.mean)} s`,
+      reduction.drops.ci95 ? `95 % interval ${figure(reduction.drops.ci95[0])}–${figure(reduction.drops.ci95[1])} s` : undefined,
+    ],
     [
       "velocity",
       "Velocity",
@@ -103,10 +108,17 @@ export function ReductionSummary({ reduction, normalisedFigure }: { reduction: R
       "viscosity",
       "Viscosity μ (Stokes)",
       `${formatWithUncertainty(reduction.viscosity, budget?.expanded)} Pa·s`,
-      [coverageNote(budget), reduction.viscosityOseen !== null ? `Oseen-corrected ${figure(reduction.viscosityOseen)} Pa·s` : null].filter(Boolean).join("; "),
+      [coverageNote(budget), reduction.viscosityOseen !== null ? `Oseen-corrected ${figure(reduction.viscosityOseen)} Pa·s` : null]
+        .filter(Boolean)
+        .join("; "),
     ]);
     if (normalisedFigure !== null) {
-      rows.push(["normalised", "Measured / reference viscosity μ/μ_ref(T)", formatWithUncertainty(normalisedFigure, figureBudget?.expanded), figureBudget ? coverageNote(figureBudget) : undefined]);
+      rows.push([
+        "normalised",
+        "Measured / reference viscosity μ/μ_ref(T)",
+        formatWithUncertainty(normalisedFigure, figureBudget?.expanded),
+        figureBudget ? coverageNote(figureBudget) : undefined,
+      ]);
     }
   }
   return (

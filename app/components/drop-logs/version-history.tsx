@@ -30,8 +30,12 @@ export function VersionHistory({
         <li key={version.id} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10" aria-label={`Version ${version.version}`}>
           <h3 className="font-semibold">
             Version {version.version}{" "}
-            {version.id === latestVersionId ? <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal ring-1 ring-consistent">counts</span> : null}
-            {version.late ? <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal text-outlier ring-1 ring-outlier">late</span> : null}
+            {version.id === latestVersionId ? (
+              <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal ring-1 ring-consistent">counts</span>
+            ) : null}
+            {version.late ? (
+              <span className="ml-1 rounded px-2 py-0.5 text-sm font-normal text-outlier ring-1 ring-outlier">late</span>
+            ) : null}
           </h3>
           <p className="text-sm text-ink-700">
             Handed in <LabTime at={version.submittedAt} courseTimeZone={timeZone} />
@@ -54,7 +58,12 @@ export function VersionHistory({
             />
           </div>
           <div className="mt-3">
-            <DropTimesChart id={`drops-${version.id}`} title={`Drop times of version ${version.version}`} drops={version.input.drops} strayDrops={version.reduction.drops.strayDrops} />
+            <DropTimesChart
+              id={`drops-${version.id}`}
+              title={`Drop times of version ${version.version}`}
+              drops={version.input.drops}
+              strayDrops={version.reduction.drops.strayDrops}
+            />
           </div>
           <PhotoList courseId={courseId} photos={photos.filter((photo) => photo.versionId === version.id)} />
         </li>
@@ -70,7 +79,12 @@ export function PhotoList({ courseId, photos }: { courseId: string; photos: Pick
       {photos.map((photo) => (
         <li key={photo.id}>
           <a href={`/courses/${courseId}/photos/${photo.id}`} target="_blank" rel="noreferrer">
-            <img src={`/courses/${courseId}/photos/${photo.id}`} alt={photo.originalName ?? "Set-up photo"} className="h-20 w-20 rounded object-cover ring-1 ring-ink-900/10" loading="lazy" />
+            <img
+              src={`/courses/${courseId}/photos/${photo.id}`}
+              alt={photo.originalName ?? "Set-up photo"}
+              className="h-20 w-20 rounded object-cover ring-1 ring-ink-900/10"
+              loading="lazy"
+            />
           </a>
         </li>
       ))}

@@ -27,13 +27,25 @@ export function PartFields({
   return (
     <div className="flex flex-col gap-4">
       <input type="hidden" name="kind" value={kind} />
-      <TextField label="Label" {...field("label")} required maxLength={40} hint="The course's own name for the part, e.g. S-12; unique in the course." />
+      <TextField
+        label="Label"
+        {...field("label")}
+        required
+        maxLength={40}
+        hint="The course's own name for the part, e.g. S-12; unique in the course."
+      />
       {kind === "sphere" ? (
         <>
           <TextField label="Material" {...field("material")} required hint="e.g. steel, glass, nylon: the density check uses it." />
           <div className="grid gap-4 sm:grid-cols-2">
             <TextField label="Diameter" unit="mm" {...field("diameterMm")} {...number} required />
-            <TextField label="Diameter resolution" unit="mm" {...field("diameterResolutionMm")} {...number} hint="Of the calipers or micrometer; optional." />
+            <TextField
+              label="Diameter resolution"
+              unit="mm"
+              {...field("diameterResolutionMm")}
+              {...number}
+              hint="Of the calipers or micrometer; optional."
+            />
             <TextField label="Mass" unit="g" {...field("massG")} {...number} required />
             <TextField label="Mass resolution" unit="g" {...field("massResolutionG")} {...number} hint="Of the balance; optional." />
           </div>
@@ -43,8 +55,21 @@ export function PartFields({
         <>
           <TextField label="Fluid" {...field("fluidName")} required hint="e.g. glycerol–water 85 %, or the syrup's brand and batch." />
           <div className="grid gap-4 sm:grid-cols-3">
-            <TextField label="Density" unit="kg/m³" {...field("densityKgM3")} {...number} required hint="At 20 °C when a temperature coefficient is given." />
-            <TextField label="Density uncertainty" unit="kg/m³" {...field("densityUncertaintyKgM3")} {...number} hint="Standard uncertainty; optional (taken as exact without it)." />
+            <TextField
+              label="Density"
+              unit="kg/m³"
+              {...field("densityKgM3")}
+              {...number}
+              required
+              hint="At 20 °C when a temperature coefficient is given."
+            />
+            <TextField
+              label="Density uncertainty"
+              unit="kg/m³"
+              {...field("densityUncertaintyKgM3")}
+              {...number}
+              hint="Standard uncertainty; optional (taken as exact without it)."
+            />
             <TextField
               label="Density change per kelvin"
               unit="kg/m³ per K"
@@ -66,7 +91,13 @@ export function PartFields({
       {kind === "column" ? (
         <div className="grid gap-4 sm:grid-cols-2">
           <TextField label="Inner diameter (bore)" unit="mm" {...field("innerDiameterMm")} {...number} required />
-          <TextField label="Bore uncertainty" unit="mm" {...field("innerDiameterUncertaintyMm")} {...number} hint="Standard uncertainty; optional (the lab's diameter resolution is used without it)." />
+          <TextField
+            label="Bore uncertainty"
+            unit="mm"
+            {...field("innerDiameterUncertaintyMm")}
+            {...number}
+            hint="Standard uncertainty; optional (the lab's diameter resolution is used without it)."
+          />
           <TextField label="Timed distance between the bands" unit="mm" {...field("timedDistanceMm")} {...number} required />
           <TextField label="Run-in above the top band" unit="mm" {...field("runInMm")} {...number} required />
           <TextField label="Margin below the bottom band" unit="mm" {...field("marginBelowMm")} {...number} required />
@@ -102,8 +133,8 @@ function CalibrationFields({ rows: initialRows, errors }: { rows: CalibrationRow
     <fieldset className="flex flex-col gap-3 rounded-md p-3 ring-1 ring-ink-900/15">
       <legend className="px-1 text-sm font-medium">Viscosity calibration points</legend>
       <p className="text-xs text-ink-600">
-        One row per temperature, measured or from the supplier's sheet. Two or more temperatures give the Andrade fit ln μ = A + B/T; a row left
-        empty is left out.
+        One row per temperature, measured or from the supplier's sheet. Two or more temperatures give the Andrade fit ln μ = A + B/T; a row
+        left empty is left out.
       </p>
       {errors.calibration ? (
         <p className="text-sm text-outlier" role="alert">
@@ -132,7 +163,12 @@ function CalibrationFields({ rows: initialRows, errors }: { rows: CalibrationRow
               aria-label={`Point ${index + 1}: viscosity (Pa·s)`}
               error={errors[`calibration.${index}.viscosityPaS`]}
             />
-            <Button type="button" variant="secondary" onClick={() => setRows((current) => current.filter((other) => other.key !== row.key))} aria-label={`Remove point ${index + 1}`}>
+            <Button
+              type="button"
+              variant="secondary"
+              onClick={() => setRows((current) => current.filter((other) => other.key !== row.key))}
+              aria-label={`Remove point ${index + 1}`}
+            >
               Remove
             </Button>
           </li>

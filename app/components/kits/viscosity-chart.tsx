@@ -24,7 +24,10 @@ export function ViscosityChart({ calibration, title }: { calibration: FluidLotCa
     .nice()
     .range([margin.left, width - margin.right]);
   const [low, high] = x.domain();
-  const curve = Array.from({ length: 61 }, (_, i) => low + ((high - low) * i) / 60).map((temperatureC) => ({ temperatureC, viscosityPaS: viscosityAt(fit, temperatureC) }));
+  const curve = Array.from({ length: 61 }, (_, i) => low + ((high - low) * i) / 60).map((temperatureC) => ({
+    temperatureC,
+    viscosityPaS: viscosityAt(fit, temperatureC),
+  }));
   const viscosities = [...points.map((point) => point.viscosityPaS), ...curve.map((point) => point.viscosityPaS)];
   const y = scaleLog()
     .domain([Math.min(...viscosities) * 0.9, Math.max(...viscosities) * 1.1])
@@ -36,14 +39,21 @@ export function ViscosityChart({ calibration, title }: { calibration: FluidLotCa
     .domain([-largestResidual * 1.2, largestResidual * 1.2])
     .nice(4)
     .range([stripTop + stripHeight, stripTop]);
-  const path = curve.map((point, i) => `${i === 0 ? "M" : "L"}${x(point.temperatureC).toFixed(1)},${y(point.viscosityPaS).toFixed(1)}`).join("");
+  const path = curve
+    .map((point, i) => `${i === 0 ? "M" : "L"}${x(point.temperatureC).toFixed(1)},${y(point.viscosityPaS).toFixed(1)}`)
+    .join("");
 
   return (
-    <svg viewBox={`0 0 ${width} ${height}`} className="h-auto w-full max-w-2xl" role="img" aria-labelledby="viscosity-chart-title viscosity-chart-desc">
+    <svg
+      viewBox={`0 0 ${width} ${height}`}
+      className="h-auto w-full max-w-2xl"
+      role="img"
+      aria-labelledby="viscosity-chart-title viscosity-chart-desc"
+    >
       <title id="viscosity-chart-title">{title}</title>
       <desc id="viscosity-chart-desc">
-        {points.length} calibration points and the fitted curve, viscosity in Pa·s on a logarithmic axis against temperature in °C; below, each
-        point's residual in per cent. The table that follows lists the same values.
+        {points.length} calibration points and the fitted curve, viscosity in Pa·s on a logarithmic axis against temperature in °C; below,
+        each point's residual in per cent. The table that follows lists the same values.
       </desc>
       <g className="text-ink-600" fontSize="11" fill="currentColor">
         {y.ticks().map((tick) =>
@@ -61,7 +71,14 @@ export function ViscosityChart({ calibration, title }: { calibration: FluidLotCa
         </text>
         {residual.ticks(4).map((tick) => (
           <g key={`r${tick}`}>
-            <line x1={margin.left} x2={width - margin.right} y1={residual(tick)} y2={residual(tick)} stroke="currentColor" strokeOpacity={tick === 0 ? 0.5 : 0.15} />
+            <line
+              x1={margin.left}
+              x2={width - margin.right}
+              y1={residual(tick)}
+              y2={residual(tick)}
+              stroke="currentColor"
+              strokeOpacity={tick === 0 ? 0.5 : 0.15}
+            />
             <text x={margin.left - 6} y={residual(tick)} dy="0.32em" textAnchor="end">
               {tick > 0 ? `+${tick}` : tick} %
             </text>
@@ -83,7 +100,13 @@ export function ViscosityChart({ calibration, title }: { calibration: FluidLotCa
       {points.map((point) => (
         <g key={point.temperatureC} fill="var(--color-amber-500)" stroke="var(--color-ink-900)">
           <circle cx={x(point.temperatureC)} cy={y(point.viscosityPaS)} r="4.5" />
-          <line x1={x(point.temperatureC)} x2={x(point.temperatureC)} y1={residual(0)} y2={residual(point.residualPercent)} strokeWidth="1.5" />
+          <line
+            x1={x(point.temperatureC)}
+            x2={x(point.temperatureC)}
+            y1={residual(0)}
+            y2={residual(point.residualPercent)}
+            strokeWidth="1.5"
+          />
           <rect x={x(point.temperatureC) - 4} y={residual(point.residualPercent) - 4} width="8" height="8">
             <title>{`${point.temperatureC} °C: ${formatNumber(point.residualPercent, 2)} %`}</title>
           </rect>

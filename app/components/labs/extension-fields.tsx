@@ -7,7 +7,15 @@ import { WallClockField } from "./lab-form";
 
 type Errors = Record<string, string[] | undefined>;
 
-export function ExtensionWindowFields({ timeZone, values = {}, errors = {} }: { timeZone: string; values?: Record<string, string | undefined>; errors?: Errors }) {
+export function ExtensionWindowFields({
+  timeZone,
+  values = {},
+  errors = {},
+}: {
+  timeZone: string;
+  values?: Record<string, string | undefined>;
+  errors?: Errors;
+}) {
   return (
     <div className="grid gap-4 sm:grid-cols-2">
       <WallClockField label="New due time" name="dueAt" defaultValue={values.dueAt ?? ""} timeZone={timeZone} errors={errors} />

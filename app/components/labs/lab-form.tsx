@@ -21,13 +21,20 @@ import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import { afterReleaseHandInNames, afterReleaseHandInPolicies } from "~/lib/marking/release";
 
 type Errors = Record<string, string[] | undefined>;
-type PartOption = { id: string; kind: "sphere" | "fluid_lot" | "column" | "accessory"; label: string; material: string | null; fluidName: string | null };
+type PartOption = {
+  id: string;
+  kind: "sphere" | "fluid_lot" | "column" | "accessory";
+  label: string;
+  material: string | null;
+  fluidName: string | null;
+};
 
 const partKindHeadings = { sphere: "Spheres", fluid_lot: "Fluid lots", column: "Columns" } as const;
 /** What "none ticked" means for each kind, said where the instructor chooses. */
 const noneTickedHints = {
   sphere: "None ticked: any sphere of the student's kit; the student names the one dropped.",
-  fluid_lot: "None ticked: any fluid lot of the student's kit. When a kit holds more than one allowed lot, the student must say which bottle was used.",
+  fluid_lot:
+    "None ticked: any fluid lot of the student's kit. When a kit holds more than one allowed lot, the student must say which bottle was used.",
   column: "None ticked: any column of the student's kit. When a kit holds more than one allowed column, the student must say which.",
 } as const;
 
@@ -37,7 +44,21 @@ function messagesFor(errors: Errors, name: string): string[] {
 }
 
 /** A wall-clock time in the course's zone, with the instant it names shown beside it (also used by the extension forms). */
-export function WallClockField({ label, name, defaultValue, timeZone, errors, hint }: { label: string; name: string; defaultValue: string; timeZone: string; errors: Errors; hint?: string }) {
+export function WallClockField({
+  label,
+  name,
+  defaultValue,
+  timeZone,
+  errors,
+  hint,
+}: {
+  label: string;
+  name: string;
+  defaultValue: string;
+  timeZone: string;
+  errors: Errors;
+  hint?: string;
+}) {
   const [value, setValue] = useState(defaultValue);
   const instant = value ? wallClockToInstant(value, timeZone) : null;
   return (
@@ -58,7 +79,21 @@ export function WallClockField({ label, name, defaultValue, timeZone, errors, hi
   );
 }
 
-function CheckboxGroup({ legend, name, options, checked, errors, hint }: { legend: string; name: string; options: { id: string; label: string }[]; checked: string[]; errors: Errors; hint?: string }) {
+function CheckboxGroup({
+  legend,
+  name,
+  options,
+  checked,
+  errors,
+  hint,
+}: {
+  legend: string;
+  name: string;
+  options: { id: string; label: string }[];
+  checked: string[];
+  errors: Errors;
+  hint?: string;
+}) {
   const messages = messagesFor(errors, name);
   return (
     <fieldset aria-describedby={messages.length ? `${name}-error` : undefined}>
@@ -116,7 +151,12 @@ export function LabFields({
             </option>
           ))}
         </SelectField>
-        <TextAreaField label="Instructions" rows={6} {...field("instructions")} hint="Students read these on the lab page, always with the safety cautions below." />
+        <TextAreaField
+          label="Instructions"
+          rows={6}
+          {...field("instructions")}
+          hint="Students read these on the lab page, always with the safety cautions below."
+        />
         <SafetyCautions compact />
       </Section>
 
@@ -136,14 +176,28 @@ export function LabFields({
       </Section>
 
       <Section title="Cohorts and parts">
-        <CheckboxGroup legend="Cohorts" name="cohortIds" options={cohorts.map((cohort) => ({ id: cohort.id, label: cohort.name }))} checked={values.cohortIds} errors={errors} hint="Publishing needs at least one." />
-        <TextField label="Required drops" inputMode="numeric" {...field("requiredDrops")} hint="Fewer drops are still taken, with a warning." />
+        <CheckboxGroup
+          legend="Cohorts"
+          name="cohortIds"
+          options={cohorts.map((cohort) => ({ id: cohort.id, label: cohort.name }))}
+          checked={values.cohortIds}
+          errors={errors}
+          hint="Publishing needs at least one."
+        />
+        <TextField
+          label="Required drops"
+          inputMode="numeric"
+          {...field("requiredDrops")}
+          hint="Fewer drops are still taken, with a warning."
+        />
         {(["sphere", "fluid_lot", "column"] as const).map((kind) => (
           <CheckboxGroup
             key={kind}
             legend={`Allowed ${partKindHeadings[kind].toLowerCase()}`}
             name={allowedPartFields[kind]}
-            options={parts.filter((part) => part.kind === kind).map((part) => ({ id: part.id, label: [part.label, part.material ?? part.fluidName].filter(Boolean).join(" · ") }))}
+            options={parts
+              .filter((part) => part.kind === kind)
+              .map((part) => ({ id: part.id, label: [part.label, part.material ?? part.fluidName].filter(Boolean).join(" · ") }))}
             checked={values.allowedPartIds}
             errors={errors}
             hint={noneTickedHints[kind]}
@@ -169,8 +223,9 @@ export function LabFields({
           </SelectField>
         </div>
         <p className="text-sm text-ink-700">
-          Instrument resolutions feed the uncertainty budget (each reading taken as rectangular, u = r/√12), and so does the thermometer&apos;s accuracy ±a (rectangular, u = a/√3).
-          The defaults are common practice for a home kit: micrometer, milligram balance, ruler, hand stopwatch and a thermometer good to ±0.5 °C.
+          Instrument resolutions feed the uncertainty budget (each reading taken as rectangular, u = r/√12), and so does the
+          thermometer&apos;s accuracy ±a (rectangular, u = a/√3). The defaults are common practice for a home kit: micrometer, milligram
+          balance, ruler, hand stopwatch and a thermometer good to ±0.5 °C.
         </p>
         <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6">
           <TextField label="Diameter" unit="mm" inputMode="decimal" {...field("resolutions.diameterMm")} />
@@ -192,7 +247,11 @@ export function LabFields({
             ))}
           </SelectField>
           <TextField label="Grubbs / ESD α" inputMode="decimal" {...field("comparisonAlpha")} />
-          <TextField label="Grubbs: at most this many removals; ESD: upper bound r" inputMode="numeric" {...field("comparisonMaxOutliers")} />
+          <TextField
+            label="Grubbs: at most this many removals; ESD: upper bound r"
+            inputMode="numeric"
+            {...field("comparisonMaxOutliers")}
+          />
           <TextField label="Tukey k" inputMode="decimal" {...field("comparisonK")} hint="Suspect beyond k, outlier beyond 2k." />
         </div>
       </Section>
@@ -207,7 +266,11 @@ export function LabFields({
       </Section>
 
       <Section title="After the release">
-        <SelectField label="A hand-in from a student whose mark is released" {...field("afterReleaseHandIns")} hint="Either way the released mark keeps the version it was marked on.">
+        <SelectField
+          label="A hand-in from a student whose mark is released"
+          {...field("afterReleaseHandIns")}
+          hint="Either way the released mark keeps the version it was marked on."
+        >
           {afterReleaseHandInPolicies.map((policy) => (
             <option key={policy} value={policy}>
               {afterReleaseHandInNames[policy]}

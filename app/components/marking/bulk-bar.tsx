@@ -40,11 +40,20 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
     if (number === null || !Number.isFinite(number)) return criterion?.kind === "levels" ? "Choose a level." : "Enter a number of points.";
     if (what === "penalty") return { kind: "latePenalty", points: number };
     if (criterion?.kind === "levels") return { kind: "score", criterionId: criterion.id, level: number, points: null };
-    return { kind: "score", criterionId: criterion!.id, points: number, level: null, overrideReason: criterion?.kind === "auto" ? reason : null };
+    return {
+      kind: "score",
+      criterionId: criterion!.id,
+      points: number,
+      level: null,
+      overrideReason: criterion?.kind === "auto" ? reason : null,
+    };
   };
 
   return (
-    <section aria-label="Change the selected students" className="no-print flex flex-col gap-2 rounded-lg bg-paper-100 p-3 text-sm ring-1 ring-ink-900/10">
+    <section
+      aria-label="Change the selected students"
+      className="no-print flex flex-col gap-2 rounded-lg bg-paper-100 p-3 text-sm ring-1 ring-ink-900/10"
+    >
       <form
         className="flex flex-wrap items-end gap-3"
         onSubmit={(event) => {
@@ -53,7 +62,10 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           if (typeof change === "string") return setLocalError(change);
           setLocalError(null);
           sentCount.current = selectedIds.length;
-          fetcher.submit({ intent: "bulk", membershipIds: selectedIds, change, reason: reason.trim() || null }, { method: "post", action, encType: "application/json" });
+          fetcher.submit(
+            { intent: "bulk", membershipIds: selectedIds, change, reason: reason.trim() || null },
+            { method: "post", action, encType: "application/json" },
+          );
         }}
       >
         <span className="self-center font-medium">{selectedIds.length} selected</span>
@@ -88,7 +100,11 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           </label>
         ) : (
           <label className="flex flex-col gap-1">
-            <span>{what === "penalty" ? "Penalty (points)" : `Points (${criterion?.kind === "range" ? criterion.minPoints : 0}–${criterion?.maxPoints})`}</span>
+            <span>
+              {what === "penalty"
+                ? "Penalty (points)"
+                : `Points (${criterion?.kind === "range" ? criterion.minPoints : 0}–${criterion?.maxPoints})`}
+            </span>
             <input className={`${control} w-24`} inputMode="decimal" value={value} onChange={(event) => setValue(event.target.value)} />
           </label>
         )}
@@ -96,7 +112,11 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           <span>{criterion?.kind === "auto" ? "Why override the automatic points (required)" : "Reason (needed for released marks)"}</span>
           <input className={control} value={reason} onChange={(event) => setReason(event.target.value)} maxLength={500} />
         </label>
-        <button type="submit" disabled={busy || selectedIds.length === 0} className="rounded bg-ink-800 px-4 py-2 font-medium text-paper-50 hover:bg-ink-700 disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={busy || selectedIds.length === 0}
+          className="rounded bg-ink-800 px-4 py-2 font-medium text-paper-50 hover:bg-ink-700 disabled:opacity-60"
+        >
           Apply to {selectedIds.length}
         </button>
         <button type="button" onClick={clear} className="rounded px-3 py-2 underline">
@@ -113,7 +133,8 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           <span className="text-outlier">{localError}</span>
         ) : result && "intent" in result && result.status === "applied" ? (
           <span className="text-consistent">
-            Done: {result.changed} mark{result.changed === 1 ? "" : "s"} changed{result.unchanged ? `, ${result.unchanged} already had it` : ""}.
+            Done: {result.changed} mark{result.changed === 1 ? "" : "s"} changed
+            {result.unchanged ? `, ${result.unchanged} already had it` : ""}.
           </span>
         ) : result ? (
           <span className="text-outlier">Nothing was changed: {"intent" in result ? result.error.message : result.message}</span>

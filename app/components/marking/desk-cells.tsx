@@ -25,7 +25,13 @@ export type RowTools = {
 };
 
 export const RowContext = createContext<RowTools | null>(null);
-export type DeskTools = { canEdit: boolean; rubric: RubricCriterion[]; open: (membershipId: string) => void; kind: "drag" | "viscometry"; timeZone: string };
+export type DeskTools = {
+  canEdit: boolean;
+  rubric: RubricCriterion[];
+  open: (membershipId: string) => void;
+  kind: "drag" | "viscometry";
+  timeZone: string;
+};
 export const DeskContext = createContext<DeskTools | null>(null);
 const useRowTools = () => useContext(RowContext)!;
 export const useDesk = () => useContext(DeskContext)!;
@@ -40,7 +46,12 @@ function SortHeader({ label, by, sort }: { label: string; by: DeskSortKey; sort:
   params.set("sort", current === "asc" ? `-${by}` : by);
   params.delete("page");
   return (
-    <Link to={`?${params}`} preventScrollReset className="inline-flex min-h-6 items-center gap-1 underline-offset-2 hover:underline" aria-label={`${label}, sort ${current === "asc" ? "descending" : "ascending"}`}>
+    <Link
+      to={`?${params}`}
+      preventScrollReset
+      className="inline-flex min-h-6 items-center gap-1 underline-offset-2 hover:underline"
+      aria-label={`${label}, sort ${current === "asc" ? "descending" : "ascending"}`}
+    >
       {label}
       <span aria-hidden="true">{current === "asc" ? "▲" : current === "desc" ? "▼" : ""}</span>
     </Link>
@@ -49,7 +60,16 @@ function SortHeader({ label, by, sort }: { label: string; by: DeskSortKey; sort:
 
 function SelectCell({ checked, onChange, label }: { checked: boolean; onChange: (value: boolean) => void; label: string }) {
   const { index } = useRowTools();
-  return <input type="checkbox" className="h-5 w-5" checked={checked} onChange={(event) => onChange(event.target.checked)} aria-label={label} {...cellProps(index, 0)} />;
+  return (
+    <input
+      type="checkbox"
+      className="h-5 w-5"
+      checked={checked}
+      onChange={(event) => onChange(event.target.checked)}
+      aria-label={label}
+      {...cellProps(index, 0)}
+    />
+  );
 }
 
 function StudentCell() {
@@ -57,7 +77,12 @@ function StudentCell() {
   const { open } = useDesk();
   return (
     <div className="flex flex-col">
-      <button type="button" className="min-h-6 text-left font-medium underline underline-offset-2" onClick={() => open(row.membershipId)} {...cellProps(index, 1)}>
+      <button
+        type="button"
+        className="min-h-6 text-left font-medium underline underline-offset-2"
+        onClick={() => open(row.membershipId)}
+        {...cellProps(index, 1)}
+      >
         {row.studentName}
       </button>
       <span className="text-xs text-ink-600">{row.cohortName}</span>
@@ -70,9 +95,15 @@ function HandInCell() {
   const { timeZone } = useDesk();
   return (
     <div className="flex flex-col text-xs">
-      <span className={row.status === "missing" || row.status === "late" ? "font-medium text-outlier" : ""}>{handInStandingWords[row.status]}</span>
+      <span className={row.status === "missing" || row.status === "late" ? "font-medium text-outlier" : ""}>
+        {handInStandingWords[row.status]}
+      </span>
       <ExtendedTo deadline={row.deadline} timeZone={timeZone} />
-      {row.handIn ? <span className="text-ink-600">v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops</span> : null}
+      {row.handIn ? (
+        <span className="text-ink-600">
+          v{row.handIn.version} · {row.handIn.dropCount ?? "?"} drops
+        </span>
+      ) : null}
       {row.handInChangedSinceMarked ? (
         <span className="text-amber-700">
           {/* Which version the mark rests on, so a marker knows what they are re-marking from. */}
@@ -83,7 +114,8 @@ function HandInCell() {
       {row.handIn?.kitNotAtHome ? <span className="text-amber-700">kit {row.handIn.kitNotAtHome.toLowerCase()} at hand-in</span> : null}
       {row.resultChangedSinceMarked ? (
         <span className="text-amber-700" data-testid="result-changed">
-          result changed since it was marked: {figure(row.resultChangedSinceMarked.oldFigure, 3)} → {figure(row.resultChangedSinceMarked.newFigure, 3)} × ref
+          result changed since it was marked: {figure(row.resultChangedSinceMarked.oldFigure, 3)} →{" "}
+          {figure(row.resultChangedSinceMarked.newFigure, 3)} × ref
           {row.resultChangedSinceMarked.reofferedCriterionIds.length
             ? `; ${row.resultChangedSinceMarked.reofferedCriterionIds.length} automatic criteria now suggest other points`
             : ""}
@@ -100,7 +132,11 @@ function ResultCell() {
   return (
     <div className="flex flex-col text-xs tabular-nums">
       <span>{figure(row.handIn.figure, 3)} × ref</span>
-      <span className="text-ink-600">{kind === "drag" ? `C_D ${figure(row.handIn.dragCoefficient, 3)} at Re ${figure(row.handIn.reynolds, 2)}` : `μ ${figure(row.handIn.viscosityPaS, 3)} Pa·s`}</span>
+      <span className="text-ink-600">
+        {kind === "drag"
+          ? `C_D ${figure(row.handIn.dragCoefficient, 3)} at Re ${figure(row.handIn.reynolds, 2)}`
+          : `μ ${figure(row.handIn.viscosityPaS, 3)} Pa·s`}
+      </span>
     </div>
   );
 }
@@ -127,7 +163,9 @@ export function moveFocus(event: KeyboardEvent<HTMLElement>, table: HTMLElement)
   if (event.key === "ArrowDown" || event.key === "ArrowUp" || (event.key === "Enter" && input)) {
     found = inRow(row + (event.key === "ArrowUp" ? -1 : 1)).find((cell) => Number(cell.dataset.col) === col);
   } else if (event.key === "ArrowLeft" && (!input || input.selectionStart === 0)) {
-    found = inRow(row).filter((cell) => Number(cell.dataset.col) < col).at(-1);
+    found = inRow(row)
+      .filter((cell) => Number(cell.dataset.col) < col)
+      .at(-1);
   } else if (event.key === "ArrowRight" && (!input || input.selectionEnd === input.value.length)) {
     found = inRow(row).find((cell) => Number(cell.dataset.col) > col);
   } else if ((event.key === "Home" || event.key === "End") && !input) {
@@ -172,7 +210,8 @@ function LevelsCell({ criterion, col }: { criterion: RubricCriterion; col: numbe
       <option value="">—</option>
       {levels.map((level, number) => (
         <option key={number} value={number + 1}>
-          {number + 1} · {level.points} pt{level.points === 1 ? "" : "s"}: {level.description.length > 24 ? `${level.description.slice(0, 23)}…` : level.description}
+          {number + 1} · {level.points} pt{level.points === 1 ? "" : "s"}:{" "}
+          {level.description.length > 24 ? `${level.description.slice(0, 23)}…` : level.description}
         </option>
       ))}
     </select>
@@ -223,7 +262,14 @@ function PenaltyCell({ col }: { col: number }) {
   const { canEdit } = useDesk();
   const penalty = row.mark?.latePenaltyPoints ?? 0;
   if (!canEdit) return <span className="tabular-nums">{penalty || ""}</span>;
-  return <PointsInput value={penalty || null} label={`Late penalty for ${row.studentName}, in points`} onCommit={(value) => save({ kind: "latePenalty", points: value ?? 0 })} {...cellProps(index, col)} />;
+  return (
+    <PointsInput
+      value={penalty || null}
+      label={`Late penalty for ${row.studentName}, in points`}
+      onCommit={(value) => save({ kind: "latePenalty", points: value ?? 0 })}
+      {...cellProps(index, col)}
+    />
+  );
 }
 
 function TotalCell() {
@@ -246,7 +292,6 @@ function StatusCell() {
   );
 }
 
-
 const column = createColumnHelper<MarkingDeskRow>();
 
 /** The desk's columns: selection, student, evidence, one per criterion, penalty, total and the save. */
@@ -260,11 +305,23 @@ export function deskColumns(rubric: RubricCriterion[], sort: string | null, maxT
         <span title={criterion.description}>
           {criterion.title}
           <span className="block font-normal normal-case text-ink-600">
-            {criterion.kind === "levels" ? `levels 1–${criterion.levels?.length ?? 0}` : criterion.kind === "auto" ? "automatic" : `${criterion.minPoints}–${criterion.maxPoints}`} · max {criterion.maxPoints}
+            {criterion.kind === "levels"
+              ? `levels 1–${criterion.levels?.length ?? 0}`
+              : criterion.kind === "auto"
+                ? "automatic"
+                : `${criterion.minPoints}–${criterion.maxPoints}`}{" "}
+            · max {criterion.maxPoints}
           </span>
         </span>
       ),
-      cell: () => (criterion.kind === "levels" ? <LevelsCell criterion={criterion} col={at} /> : criterion.kind === "range" ? <RangeCell criterion={criterion} col={at} /> : <AutoCell criterion={criterion} col={at} />),
+      cell: () =>
+        criterion.kind === "levels" ? (
+          <LevelsCell criterion={criterion} col={at} />
+        ) : criterion.kind === "range" ? (
+          <RangeCell criterion={criterion} col={at} />
+        ) : (
+          <AutoCell criterion={criterion} col={at} />
+        ),
     });
   });
   const penaltyCol = col++;
@@ -283,7 +340,13 @@ export function deskColumns(rubric: RubricCriterion[], sort: string | null, maxT
           onChange={table.getToggleAllRowsSelectedHandler()}
         />
       ),
-      cell: ({ row }) => <SelectCell checked={row.getIsSelected()} onChange={(value) => row.toggleSelected(value)} label={`Select ${row.original.studentName}`} />,
+      cell: ({ row }) => (
+        <SelectCell
+          checked={row.getIsSelected()}
+          onChange={(value) => row.toggleSelected(value)}
+          label={`Select ${row.original.studentName}`}
+        />
+      ),
     }),
     column.display({ id: "student", header: () => <SortHeader label="Student" by="name" sort={sort} />, cell: () => <StudentCell /> }),
     column.display({ id: "status", header: () => <SortHeader label="Hand-in" by="status" sort={sort} />, cell: () => <HandInCell /> }),
@@ -291,7 +354,11 @@ export function deskColumns(rubric: RubricCriterion[], sort: string | null, maxT
     column.display({ id: "label", header: () => <SortHeader label="Class" by="label" sort={sort} />, cell: () => <LabelCell /> }),
     ...criterionColumns,
     column.display({ id: "penalty", header: "Late penalty", cell: () => <PenaltyCell col={penaltyCol} /> }),
-    column.display({ id: "total", header: () => <SortHeader label={`Total / ${maxTotal}`} by="total" sort={sort} />, cell: () => <TotalCell /> }),
+    column.display({
+      id: "total",
+      header: () => <SortHeader label={`Total / ${maxTotal}`} by="total" sort={sort} />,
+      cell: () => <TotalCell />,
+    }),
     column.display({ id: "saved", header: () => <span className="sr-only">Saving</span>, cell: () => <StatusCell /> }),
   ];
 }

@@ -13,7 +13,11 @@ export function PointsInput({
   label,
   className = "",
   ...rest
-}: { value: number | null; onCommit: (points: number | null) => void; label: string; className?: string } & { "data-row"?: number; "data-col"?: number; tabIndex?: number }) {
+}: { value: number | null; onCommit: (points: number | null) => void; label: string; className?: string } & {
+  "data-row"?: number;
+  "data-col"?: number;
+  tabIndex?: number;
+}) {
   const [text, setText] = useState(value === null ? "" : String(value));
   const [invalid, setInvalid] = useState(false);
   useEffect(() => setText(value === null ? "" : String(value)), [value]);
@@ -58,4 +62,3 @@ export function SaveStatus({ state, retry }: { state: SaveState; retry: () => vo
     </span>
   );
 }
-

@@ -23,7 +23,17 @@ const panelStatusWords: Record<HandInStanding, string> = {
   "on-time": "handed in on time",
 };
 
-function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCriterion; row: MarkingDeskRow; save: (change: MarkChange) => void; canEdit: boolean }) {
+function AutoOverride({
+  criterion,
+  row,
+  save,
+  canEdit,
+}: {
+  criterion: RubricCriterion;
+  row: MarkingDeskRow;
+  save: (change: MarkChange) => void;
+  canEdit: boolean;
+}) {
   const cell = row.cells[criterion.id];
   const [points, setPoints] = useState(cell?.source === "override" ? String(cell.points ?? "") : "");
   const [reason, setReason] = useState(cell?.overrideReason ?? "");
@@ -45,22 +55,38 @@ function AutoOverride({ criterion, row, save, canEdit }: { criterion: RubricCrit
             event.preventDefault();
             const typed = typedPoints(points);
             setInvalid(typed === null || !Number.isFinite(typed));
-            if (typed !== null && Number.isFinite(typed)) save({ kind: "score", criterionId: criterion.id, points: typed, level: null, overrideReason: reason });
+            if (typed !== null && Number.isFinite(typed))
+              save({ kind: "score", criterionId: criterion.id, points: typed, level: null, overrideReason: reason });
           }}
         >
           <label className="flex flex-col">
             <span className="text-xs">Points</span>
-            <input className={`w-20 rounded border px-1 py-1 ${invalid ? "border-outlier" : "border-ink-900/20"}`} inputMode="decimal" aria-invalid={invalid || undefined} value={points} onChange={(event) => setPoints(event.target.value)} />
+            <input
+              className={`w-20 rounded border px-1 py-1 ${invalid ? "border-outlier" : "border-ink-900/20"}`}
+              inputMode="decimal"
+              aria-invalid={invalid || undefined}
+              value={points}
+              onChange={(event) => setPoints(event.target.value)}
+            />
           </label>
           <label className="flex min-w-40 flex-1 flex-col">
             <span className="text-xs">Why (kept with the mark)</span>
-            <input className="rounded border border-ink-900/20 px-1 py-1" value={reason} onChange={(event) => setReason(event.target.value)} maxLength={500} />
+            <input
+              className="rounded border border-ink-900/20 px-1 py-1"
+              value={reason}
+              onChange={(event) => setReason(event.target.value)}
+              maxLength={500}
+            />
           </label>
           <button type="submit" className="rounded bg-white px-3 py-1.5 ring-1 ring-ink-800">
             Override
           </button>
           {cell?.source === "override" ? (
-            <button type="button" className="px-2 py-1.5 underline" onClick={() => save({ kind: "score", criterionId: criterion.id, points: null, level: null })}>
+            <button
+              type="button"
+              className="px-2 py-1.5 underline"
+              onClick={() => save({ kind: "score", criterionId: criterion.id, points: null, level: null })}
+            >
               Use the suggestion
             </button>
           ) : null}
@@ -135,10 +161,20 @@ export function MarkPanel({
           </p>
         </div>
         <div className="flex gap-1">
-          <button type="button" className="min-h-9 rounded px-2 ring-1 ring-ink-900/20 disabled:opacity-50" disabled={position.index <= 0} onClick={() => onStep(-1)}>
+          <button
+            type="button"
+            className="min-h-9 rounded px-2 ring-1 ring-ink-900/20 disabled:opacity-50"
+            disabled={position.index <= 0}
+            onClick={() => onStep(-1)}
+          >
             Previous
           </button>
-          <button type="button" className="min-h-9 rounded px-2 ring-1 ring-ink-900/20 disabled:opacity-50" disabled={position.index >= position.count - 1} onClick={() => onStep(1)}>
+          <button
+            type="button"
+            className="min-h-9 rounded px-2 ring-1 ring-ink-900/20 disabled:opacity-50"
+            disabled={position.index >= position.count - 1}
+            onClick={() => onStep(1)}
+          >
             Next
           </button>
           <button type="button" className="min-h-9 rounded px-2 ring-1 ring-ink-900/20" onClick={onClose} aria-label="Close the panel">
@@ -197,7 +233,11 @@ export function MarkPanel({
           <label className="flex flex-col gap-1">
             <span>Late penalty (points)</span>
             {canEdit ? (
-              <PointsInput value={row.mark?.latePenaltyPoints || null} label="Late penalty, in points" onCommit={(points) => save({ kind: "latePenalty", points: points ?? 0 })} />
+              <PointsInput
+                value={row.mark?.latePenaltyPoints || null}
+                label="Late penalty, in points"
+                onCommit={(points) => save({ kind: "latePenalty", points: points ?? 0 })}
+              />
             ) : (
               <span>{row.mark?.latePenaltyPoints ?? 0}</span>
             )}
@@ -225,8 +265,13 @@ export function MarkPanel({
       <section aria-label="The hand-in">
         {row.handInChangedSinceMarked ? (
           <Notice tone="warning">
-            {row.markedHandIn ? `This mark rests on version ${row.markedHandIn.version}` : "This mark was given before anything was handed in"}; version {row.handIn?.version} is newer and is shown below.
-            {row.needsRemarking ? " It was handed in after the release, so the mark is reopened: saving it marks the newer version (with a reason, as the student sees the change)." : " Saving the mark moves it onto the newer version."}
+            {row.markedHandIn
+              ? `This mark rests on version ${row.markedHandIn.version}`
+              : "This mark was given before anything was handed in"}
+            ; version {row.handIn?.version} is newer and is shown below.
+            {row.needsRemarking
+              ? " It was handed in after the release, so the mark is reopened: saving it marks the newer version (with a reason, as the student sees the change)."
+              : " Saving the mark moves it onto the newer version."}
           </Notice>
         ) : null}
         {!row.handIn ? (

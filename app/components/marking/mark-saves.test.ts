@@ -48,17 +48,26 @@ const score = (points: number | null) => ({ kind: "score" as const, criterionId:
 /** The row as the server answers once `points` is saved at `version`, by `marker`. */
 const stored = (points: number, version: number, marker = "Tess Assistant"): MarkingDeskRow => {
   const row = withChange(rubric, base, score(points));
-  return { ...row, expectedVersion: version, mark: { ...row.mark!, version, markedBy: { id: "00000000-0000-4000-8000-0000000000dd", name: marker } } };
+  return {
+    ...row,
+    expectedVersion: version,
+    mark: { ...row.mark!, version, markedBy: { id: "00000000-0000-4000-8000-0000000000dd", name: marker } },
+  };
 };
 const pointsShown = (saves: MarkSaves) => rowView(saves[membershipId], base).row.cells[discussion.id]?.points;
-const typed = (saves: MarkSaves, points: number | null) => markSaves(saves, { type: "changed", rubric, base, change: score(points), reason: null });
+const typed = (saves: MarkSaves, points: number | null) =>
+  markSaves(saves, { type: "changed", rubric, base, change: score(points), reason: null });
 const answered = (saves: MarkSaves, response: SaveResponse) => markSaves(saves, { type: "answered", membershipId, rubric, response });
 
 describe("the marking desk's saves", () => {
   it("show a change at once and put it in flight from the version the loader read", () => {
     const saves = typed({}, 3);
     expect(pointsShown(saves)).toBe(3);
-    expect(saves[membershipId]).toMatchObject({ save: { status: "saving" }, inFlight: { change: score(3), expectedVersion: 0 }, queue: [] });
+    expect(saves[membershipId]).toMatchObject({
+      save: { status: "saving" },
+      inFlight: { change: score(3), expectedVersion: 0 },
+      queue: [],
+    });
   });
 
   it("queue changes made while a save is in flight and send the next from the version the server returns", () => {
@@ -71,7 +80,11 @@ describe("the marking desk's saves", () => {
     expect(pointsShown(saves)).toBe(5);
 
     saves = answered(saves, { intent: "save", status: "saved", row: stored(3, 1) });
-    expect(saves[membershipId]).toMatchObject({ save: { status: "saving" }, inFlight: { change: score(4), expectedVersion: 1 }, queue: [{ change: score(5) }] });
+    expect(saves[membershipId]).toMatchObject({
+      save: { status: "saving" },
+      inFlight: { change: score(4), expectedVersion: 1 },
+      queue: [{ change: score(5) }],
+    });
     expect(pointsShown(saves)).toBe(5);
     saves = answered(saves, { intent: "save", status: "saved", row: stored(4, 2) });
     expect(saves[membershipId]).toMatchObject({ inFlight: { change: score(5), expectedVersion: 2 }, queue: [] });
@@ -89,7 +102,10 @@ describe("the marking desk's saves", () => {
     saves = answered(saves, { intent: "save", status: "conflict", row: stored(1, 7, "Olu Moderator") });
     expect(pointsShown(saves)).toBe(1);
     expect(saves[membershipId]).toMatchObject({ inFlight: null, queue: [], confirmed: { expectedVersion: 7 } });
-    expect(saves[membershipId].save).toMatchObject({ status: "conflict", message: expect.stringMatching(/^Olu Moderator changed this mark meanwhile/) });
+    expect(saves[membershipId].save).toMatchObject({
+      status: "conflict",
+      message: expect.stringMatching(/^Olu Moderator changed this mark meanwhile/),
+    });
     // The next change starts from their version.
     expect(typed(saves, 2)[membershipId].inFlight).toMatchObject({ expectedVersion: 7 });
   });
@@ -97,19 +113,29 @@ describe("the marking desk's saves", () => {
   it("keep a change lost to the network on screen, and retry it from the confirmed version", () => {
     let saves = answered(typed({}, 3), { status: "failed", message: "The connection failed; nothing was saved." });
     expect(pointsShown(saves)).toBe(3);
-    expect(saves[membershipId]).toMatchObject({ inFlight: null, save: { status: "failed", message: "The connection failed; nothing was saved.", change: score(3) } });
+    expect(saves[membershipId]).toMatchObject({
+      inFlight: null,
+      save: { status: "failed", message: "The connection failed; nothing was saved.", change: score(3) },
+    });
     // A fresh read by the loader does not throw the unsaved change away.
     expect(markSaves(saves, { type: "loaded", row: base })).toBe(saves);
 
     saves = markSaves(saves, { type: "retried", membershipId, rubric });
-    expect(saves[membershipId]).toMatchObject({ save: { status: "saving" }, inFlight: { change: score(3), expectedVersion: 0 }, retries: 1 });
+    expect(saves[membershipId]).toMatchObject({
+      save: { status: "saving" },
+      inFlight: { change: score(3), expectedVersion: 0 },
+      retries: 1,
+    });
     saves = answered(saves, { intent: "save", status: "saved", row: stored(3, 1) });
     expect(saves[membershipId]).toMatchObject({ save: { status: "saved" }, retries: 0 });
   });
 
   it("refuse a value the rubric does not take before sending anything", () => {
     const saves = typed({}, 9);
-    expect(saves[membershipId]).toMatchObject({ inFlight: null, save: { status: "failed", message: "Give between 0 and 5 points.", change: score(9) } });
+    expect(saves[membershipId]).toMatchObject({
+      inFlight: null,
+      save: { status: "failed", message: "Give between 0 and 5 points.", change: score(9) },
+    });
     expect(pointsShown(saves)).toBeUndefined();
   });
 

@@ -58,9 +58,35 @@ const contentOf = (row: MarkingDeskRow): MarkContent | null =>
 export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskRow, change: MarkChange): MarkingDeskRow {
   const content = applyMarkChange(rubric, contentOf(row), change, { released: row.mark?.releasedAt != null });
   const totals = markTotals(rubric, content, row.suggestions);
-  const mark = row.mark ? { ...row.mark, ...content } : ({ ...content, id: "", version: 0, storedTotal: 0, basedOnVersionId: null, basedOnRevision: null, basedOnFigure: null, markedBy: null, moderatedBy: null, moderatedAt: null, updatedAt: "", releasedAt: null, releasedSnapshot: null, reopenedAt: null } satisfies NonNullable<MarkingDeskRow["mark"]>);
+  const mark = row.mark
+    ? { ...row.mark, ...content }
+    : ({
+        ...content,
+        id: "",
+        version: 0,
+        storedTotal: 0,
+        basedOnVersionId: null,
+        basedOnRevision: null,
+        basedOnFigure: null,
+        markedBy: null,
+        moderatedBy: null,
+        moderatedAt: null,
+        updatedAt: "",
+        releasedAt: null,
+        releasedSnapshot: null,
+        reopenedAt: null,
+      } satisfies NonNullable<MarkingDeskRow["mark"]>);
   // A save rests the mark on the result shown now, so a "result changed since it was marked" flag goes.
-  return { ...row, mark, resultChangedSinceMarked: null, cells: totals.cells, subtotal: totals.subtotal, total: totals.total, complete: totals.complete, progress: markProgress(true, totals) };
+  return {
+    ...row,
+    mark,
+    resultChangedSinceMarked: null,
+    cells: totals.cells,
+    subtotal: totals.subtotal,
+    total: totals.total,
+    complete: totals.complete,
+    progress: markProgress(true, totals),
+  };
 }
 
 const idle: SaveState = { status: "idle" };
@@ -94,7 +120,14 @@ function answer(rubric: readonly RubricCriterion[], entry: RowSaves, response: S
     if (!waiting) return { confirmed: response.row, shown: response.row, inFlight: null, queue: [], save: { status: "saved" }, retries: 0 };
     // Show the waiting changes over the server's row, and send the next one on from its version.
     const shown = entry.queue.reduce((row, queued) => safeWithChange(rubric, row, queued.change) ?? row, response.row);
-    return { confirmed: response.row, shown, inFlight: { ...waiting, expectedVersion: response.row.expectedVersion }, queue: rest, save: { status: "saving" }, retries: 0 };
+    return {
+      confirmed: response.row,
+      shown,
+      inFlight: { ...waiting, expectedVersion: response.row.expectedVersion },
+      queue: rest,
+      save: { status: "saving" },
+      retries: 0,
+    };
   }
   if ("intent" in response && response.status === "conflict") {
     const message = `${response.row.mark?.markedBy?.name ?? "Someone"} changed this mark meanwhile: theirs is shown. Make your change again if it still applies.`;
@@ -111,15 +144,24 @@ export function markSaves(saves: MarkSaves, event: MarkSaveEvent): MarkSaves {
     if (!entry) return saves;
     const confirmed = event.row.expectedVersion >= entry.confirmed.expectedVersion ? event.row : entry.confirmed;
     // A fresher read supersedes what the row showed, unless a save is on its way or failed.
-    if (!entry.inFlight && entry.save.status !== "failed" && event.row.expectedVersion >= entry.shown.expectedVersion) return withRow(saves, event.row.membershipId, undefined);
+    if (!entry.inFlight && entry.save.status !== "failed" && event.row.expectedVersion >= entry.shown.expectedVersion)
+      return withRow(saves, event.row.membershipId, undefined);
     return confirmed === entry.confirmed ? saves : withRow(saves, event.row.membershipId, { ...entry, confirmed });
   }
   if (event.type === "changed") {
-    const entry = saves[event.base.membershipId] ?? { confirmed: event.base, shown: event.base, inFlight: null, queue: [], save: idle, retries: 0 };
+    const entry = saves[event.base.membershipId] ?? {
+      confirmed: event.base,
+      shown: event.base,
+      inFlight: null,
+      queue: [],
+      save: idle,
+      retries: 0,
+    };
     return withRow(saves, event.base.membershipId, edit(event.rubric, entry, event));
   }
   const entry = saves[event.membershipId];
-  if (event.type === "answered") return entry?.inFlight ? withRow(saves, event.membershipId, answer(event.rubric, entry, event.response)) : saves;
+  if (event.type === "answered")
+    return entry?.inFlight ? withRow(saves, event.membershipId, answer(event.rubric, entry, event.response)) : saves;
   if (entry?.save.status !== "failed") return saves;
   return withRow(saves, event.membershipId, { ...edit(event.rubric, entry, entry.save), retries: entry.retries + 1 });
 }

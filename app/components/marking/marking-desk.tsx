@@ -146,7 +146,12 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
         ) : null}
         {canEdit ? <BulkBar rubric={rubric} selectedIds={selectedIds} clear={clearSelection} /> : null}
         <div className="flex flex-col gap-4 xl:flex-row xl:items-start">
-          <div role="region" aria-label="Marks" tabIndex={-1} className="min-w-0 flex-1 overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
+          <div
+            role="region"
+            aria-label="Marks"
+            tabIndex={-1}
+            className="min-w-0 flex-1 overflow-x-auto rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10"
+          >
             <table
               ref={tableRef}
               className="min-w-full text-left text-sm"
@@ -168,7 +173,9 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
                 // Roving tab stop: the cell last focused is where Tab comes back to.
                 const target = event.target as HTMLElement;
                 if (target.dataset.row === undefined) return;
-                tableRef.current?.querySelectorAll<HTMLElement>('[data-row][tabindex="0"]').forEach((cell) => cell !== target && (cell.tabIndex = -1));
+                tableRef.current
+                  ?.querySelectorAll<HTMLElement>('[data-row][tabindex="0"]')
+                  .forEach((cell) => cell !== target && (cell.tabIndex = -1));
                 target.tabIndex = 0;
               }}
             >
@@ -193,7 +200,15 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
                   </tr>
                 ) : (
                   table.getRowModel().rows.map((row, index) => (
-                    <DeskRow key={row.id} base={row.original} index={index} saves={saves[row.id]} dispatch={dispatch} register={register} selected={row.getIsSelected()}>
+                    <DeskRow
+                      key={row.id}
+                      base={row.original}
+                      index={index}
+                      saves={saves[row.id]}
+                      dispatch={dispatch}
+                      register={register}
+                      selected={row.getIsSelected()}
+                    >
                       {row.getVisibleCells().map((cell) => (
                         <td key={cell.id} className="px-2 py-1.5 align-middle">
                           {flexRender(cell.column.columnDef.cell, cell.getContext())}
@@ -230,8 +245,8 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
           ) : null}
         </div>
         <p id="desk-keys" className="text-xs text-ink-700">
-          Keys: arrows move between cells and rows; a level&apos;s number sets it and Delete clears it; type points and press Enter; Enter on a student or an
-          automatic cell opens the hand-in beside the table; Space selects the row.
+          Keys: arrows move between cells and rows; a level&apos;s number sets it and Delete clears it; type points and press Enter; Enter
+          on a student or an automatic cell opens the hand-in beside the table; Space selects the row.
         </p>
       </div>
     </DeskContext.Provider>

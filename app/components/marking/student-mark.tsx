@@ -9,7 +9,11 @@ import type { StudentMark } from "~/server/marking/student-mark.server";
 export function StudentMarkView({ mark, timeZone }: { mark: StudentMark; timeZone: string }) {
   const basedOn = mark.basedOn;
   return (
-    <section id="mark" aria-labelledby="mark-heading" className="flex scroll-mt-4 flex-col gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
+    <section
+      id="mark"
+      aria-labelledby="mark-heading"
+      className="flex scroll-mt-4 flex-col gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10"
+    >
       <h2 id="mark-heading" className="text-lg font-semibold">
         Your mark: {mark.total} / {mark.maxTotal}
       </h2>
@@ -32,9 +36,15 @@ export function StudentMarkView({ mark, timeZone }: { mark: StudentMark; timeZon
       <table className="text-left text-sm">
         <thead className="text-xs uppercase tracking-wide text-ink-700">
           <tr>
-            <th scope="col" className="py-1 pr-4 font-medium">Criterion</th>
-            <th scope="col" className="py-1 pr-4 font-medium">Points</th>
-            <th scope="col" className="py-1 font-medium">Why</th>
+            <th scope="col" className="py-1 pr-4 font-medium">
+              Criterion
+            </th>
+            <th scope="col" className="py-1 pr-4 font-medium">
+              Points
+            </th>
+            <th scope="col" className="py-1 font-medium">
+              Why
+            </th>
           </tr>
         </thead>
         <tbody className="divide-y divide-ink-900/5">
@@ -48,14 +58,20 @@ export function StudentMarkView({ mark, timeZone }: { mark: StudentMark; timeZon
                 {criterion.points ?? "—"} / {criterion.maxPoints}
               </td>
               <td className="py-1.5 align-top">
-                {criterion.level ? `Level ${criterion.level.number}: ${criterion.level.description}` : criterion.automatic ? "Computed from your hand-in." : ""}
+                {criterion.level
+                  ? `Level ${criterion.level.number}: ${criterion.level.description}`
+                  : criterion.automatic
+                    ? "Computed from your hand-in."
+                    : ""}
                 {criterion.overrideReason ? ` Adjusted by your marker: ${criterion.overrideReason}` : ""}
               </td>
             </tr>
           ))}
           {mark.latePenaltyPoints ? (
             <tr>
-              <th scope="row" className="py-1.5 pr-4 font-medium">Late penalty</th>
+              <th scope="row" className="py-1.5 pr-4 font-medium">
+                Late penalty
+              </th>
               <td className="py-1.5 pr-4 tabular-nums">−{mark.latePenaltyPoints}</td>
               <td />
             </tr>
@@ -71,7 +87,10 @@ export function StudentMarkView({ mark, timeZone }: { mark: StudentMark; timeZon
       {basedOn ? (
         <p className="text-xs text-ink-700">
           Marked on version {basedOn.version} of your drop log ({basedOn.dropCount ?? "?"} drops
-          {basedOn.mode === "drag" ? `, C_D ${figure(basedOn.dragCoefficient, 3)} at Re ${figure(basedOn.reynolds, 2)}` : `, μ ${figure(basedOn.viscosityPaS, 3)} Pa·s`}, {figure(basedOn.normalisedFigure, 3)} × the reference
+          {basedOn.mode === "drag"
+            ? `, C_D ${figure(basedOn.dragCoefficient, 3)} at Re ${figure(basedOn.reynolds, 2)}`
+            : `, μ ${figure(basedOn.viscosityPaS, 3)} Pa·s`}
+          , {figure(basedOn.normalisedFigure, 3)} × the reference
           {basedOn.late ? ", handed in late" : ""}).
         </p>
       ) : (

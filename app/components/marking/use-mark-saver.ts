@@ -50,7 +50,10 @@ export function useMarkSaver({
     dispatch({ type: "answered", membershipId, rubric, response });
   }, [fetcher.state, fetcher.data, membershipId, rubric, dispatch]);
 
-  const save = useCallback((change: MarkChange, reason: string | null = null) => dispatch({ type: "changed", rubric, base, change, reason }), [dispatch, rubric, base]);
+  const save = useCallback(
+    (change: MarkChange, reason: string | null = null) => dispatch({ type: "changed", rubric, base, change, reason }),
+    [dispatch, rubric, base],
+  );
   const retry = useCallback(() => dispatch({ type: "retried", membershipId, rubric }), [dispatch, membershipId, rubric]);
   const { row, save: saveState } = rowView(saves, base);
   return { row, saveState, save, retry };

@@ -10,12 +10,7 @@ const variants = {
 const base = "inline-flex items-center justify-center rounded px-4 py-2 text-sm font-medium";
 
 export function Button({ variant = "primary", className = "", ...button }: ComponentProps<"button"> & { variant?: keyof typeof variants }) {
-  return (
-    <button
-      className={`${base} disabled:opacity-60 ${variants[variant]} ${className}`}
-      {...button}
-    />
-  );
+  return <button className={`${base} disabled:opacity-60 ${variants[variant]} ${className}`} {...button} />;
 }
 
 /** A link that starts a task (a form, a new page), drawn like a button. */

@@ -20,7 +20,14 @@ type FieldFrame = {
   controlClassName?: string;
 };
 
-type ControlProps = { id: string; className: string; name?: string; defaultValue?: string; "aria-invalid"?: true; "aria-describedby"?: string };
+type ControlProps = {
+  id: string;
+  className: string;
+  name?: string;
+  defaultValue?: string;
+  "aria-invalid"?: true;
+  "aria-describedby"?: string;
+};
 
 const controlClass = "mt-1 block w-full rounded border bg-white px-3 py-2 text-base text-ink-950 shadow-sm focus:border-ink-500";
 
@@ -72,11 +79,31 @@ function Frame({
   );
 }
 
-export function TextField({ label, field, error, hint, unit, className, controlClassName, ...input }: FieldFrame & Omit<InputHTMLAttributes<HTMLInputElement>, "className">) {
-  return <Frame {...{ label, field, error, hint, unit, className, controlClassName }} render={(control) => <input {...control} {...input} />} />;
+export function TextField({
+  label,
+  field,
+  error,
+  hint,
+  unit,
+  className,
+  controlClassName,
+  ...input
+}: FieldFrame & Omit<InputHTMLAttributes<HTMLInputElement>, "className">) {
+  return (
+    <Frame {...{ label, field, error, hint, unit, className, controlClassName }} render={(control) => <input {...control} {...input} />} />
+  );
 }
 
-export function SelectField({ label, field, error, hint, className, controlClassName, children, ...select }: FieldFrame & Omit<SelectHTMLAttributes<HTMLSelectElement>, "className">) {
+export function SelectField({
+  label,
+  field,
+  error,
+  hint,
+  className,
+  controlClassName,
+  children,
+  ...select
+}: FieldFrame & Omit<SelectHTMLAttributes<HTMLSelectElement>, "className">) {
   return (
     <Frame
       {...{ label, field, error, hint, className, controlClassName }}
@@ -89,6 +116,16 @@ export function SelectField({ label, field, error, hint, className, controlClass
   );
 }
 
-export function TextAreaField({ label, field, error, hint, className, controlClassName, ...area }: FieldFrame & Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, "className">) {
-  return <Frame {...{ label, field, error, hint, className, controlClassName }} render={(control) => <textarea {...control} {...area} />} />;
+export function TextAreaField({
+  label,
+  field,
+  error,
+  hint,
+  className,
+  controlClassName,
+  ...area
+}: FieldFrame & Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, "className">) {
+  return (
+    <Frame {...{ label, field, error, hint, className, controlClassName }} render={(control) => <textarea {...control} {...area} />} />
+  );
 }

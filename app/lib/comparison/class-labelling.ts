@@ -11,8 +11,18 @@ import { quantileType7 } from "~/lib/reduction/tukey";
 import { countLabels, describeSettings, type ComparisonSettings, type LabelCounts } from "./comparison-settings";
 
 /** The engine's labels for a class under one setting; `quantity` names the figure in the reasons. */
-export function labelClass(entries: readonly ClassComparisonEntry[], settings: ComparisonSettings, quantity: string): ClassComparisonResult[] {
-  return classComparison(entries, { method: settings.method, alpha: settings.alpha, maxOutliers: settings.maxOutliers, k: settings.k, quantity });
+export function labelClass(
+  entries: readonly ClassComparisonEntry[],
+  settings: ComparisonSettings,
+  quantity: string,
+): ClassComparisonResult[] {
+  return classComparison(entries, {
+    method: settings.method,
+    alpha: settings.alpha,
+    maxOutliers: settings.maxOutliers,
+    k: settings.k,
+    quantity,
+  });
 }
 
 /** The settings the preview compares with the chosen one: three Grubbs levels, three ESD levels and three fence factors. */
@@ -53,7 +63,12 @@ export function comparisonLimits(figures: readonly number[], settings: Compariso
     const q3 = quantileType7(logs, 0.75);
     const iqr = q3 - q1;
     const at = (factor: number): [number, number] => [Math.exp(q1 - factor * iqr), Math.exp(q3 + factor * iqr)];
-    return { kind: "tukey", inner: at(settings.k), outer: at(2 * settings.k), note: `Tukey's fences at k = ${settings.k} and ${2 * settings.k}` };
+    return {
+      kind: "tukey",
+      inner: at(settings.k),
+      outer: at(2 * settings.k),
+      note: `Tukey's fences at k = ${settings.k} and ${2 * settings.k}`,
+    };
   }
   let sum = 0;
   for (const value of logs) sum += value;

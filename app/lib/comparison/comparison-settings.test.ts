@@ -32,15 +32,31 @@ describe("class labels against published and hand-worked examples", () => {
 
   it("labels the hand-worked Tukey example: 0.09 suspect, 0.30 outlier", () => {
     const labels = labelClass(asFigures(worked), tukey, "drag").map((result) => result.label);
-    expect(labels).toEqual(["consistent", "consistent", "consistent", "consistent", "consistent", "consistent", "consistent", "suspect", "outlier"]);
-    const limits = comparisonLimits(asFigures(worked).map((entry) => entry.figure), tukey);
+    expect(labels).toEqual([
+      "consistent",
+      "consistent",
+      "consistent",
+      "consistent",
+      "consistent",
+      "consistent",
+      "consistent",
+      "suspect",
+      "outlier",
+    ]);
+    const limits = comparisonLimits(
+      asFigures(worked).map((entry) => entry.figure),
+      tukey,
+    );
     expect(Math.log(limits!.inner[1])).toBeCloseTo(0.065, 10);
     expect(Math.log(limits!.outer![1])).toBeCloseTo(0.11, 10);
     expect(Math.log(limits!.inner[0])).toBeCloseTo(-0.055, 10);
   });
 
   it("draws the Grubbs limits of the first step where the NIST example's critical value puts them", () => {
-    const limits = comparisonLimits(asFigures(nist).map((entry) => entry.figure), grubbs)!;
+    const limits = comparisonLimits(
+      asFigures(nist).map((entry) => entry.figure),
+      grubbs,
+    )!;
     const mean = nist.reduce((sum, value) => sum + value, 0) / nist.length;
     // G = (x₈ − mean)/s = 2.4687 (NIST), so s = (x₈ − mean)/2.4687 and the upper limit is mean + 2.126·s.
     const s = (nist[7] - mean) / 2.4687;

@@ -11,7 +11,11 @@ export const comparisonLabels = ["consistent", "suspect", "outlier"] as const sa
 export const comparisonSettings = z.object({
   method: z.enum(["grubbs", "esd", "iqr"], { error: "Choose Grubbs' test, the generalized ESD test or Tukey's fences." }),
   alpha: z.coerce.number({ error: "Enter a significance level." }).gt(0, "Use a level above 0.").max(0.2, "Use a level of at most 0.2."),
-  maxOutliers: z.coerce.number({ error: "Enter a whole number." }).int("Enter a whole number.").min(1, "Allow at least one removal.").max(100, "Allow at most 100 removals."),
+  maxOutliers: z.coerce
+    .number({ error: "Enter a whole number." })
+    .int("Enter a whole number.")
+    .min(1, "Allow at least one removal.")
+    .max(100, "Allow at most 100 removals."),
   k: z.coerce.number({ error: "Enter a fence factor." }).min(0.5, "Use a factor of at least 0.5.").max(10, "Use a factor of at most 10."),
 });
 export type ComparisonSettings = z.infer<typeof comparisonSettings>;
@@ -26,8 +30,10 @@ export const methodNames: Record<ComparisonSettings["method"], string> = {
 
 /** Plain words for a setting, as the page, the CSV and the API quote it. */
 export function describeSettings(settings: ComparisonSettings): string {
-  if (settings.method === "grubbs") return `Grubbs' test, α = ${settings.alpha}, at most ${settings.maxOutliers} removal${settings.maxOutliers === 1 ? "" : "s"}`;
-  if (settings.method === "esd") return `generalized ESD test, α = ${settings.alpha}, up to r = ${settings.maxOutliers} outlier${settings.maxOutliers === 1 ? "" : "s"}`;
+  if (settings.method === "grubbs")
+    return `Grubbs' test, α = ${settings.alpha}, at most ${settings.maxOutliers} removal${settings.maxOutliers === 1 ? "" : "s"}`;
+  if (settings.method === "esd")
+    return `generalized ESD test, α = ${settings.alpha}, up to r = ${settings.maxOutliers} outlier${settings.maxOutliers === 1 ? "" : "s"}`;
   return `Tukey's fences, k = ${settings.k} (outer ${2 * settings.k}), type-7 quartiles`;
 }
 

@@ -47,9 +47,14 @@ describe("holmBonferroni", () => {
   });
 });
 
-
 describe("partBiasByPeers", () => {
-  const handIn = (partId: string, figure: number, labId = "lab", mode: PartFigure["mode"] = "viscometry"): PartFigure => ({ partId, partKind: "fluid_lot", labId, mode, figure });
+  const handIn = (partId: string, figure: number, labId = "lab", mode: PartFigure["mode"] = "viscometry"): PartFigure => ({
+    partId,
+    partKind: "fluid_lot",
+    labId,
+    mode,
+    figure,
+  });
 
   it("flags the one part whose hand-ins sit apart from its peers, not the peers, whatever the shared model bias", () => {
     // Every figure 8 % high (a reference model's own bias): only lot C, a further 12 % off, is flagged.
@@ -104,7 +109,11 @@ describe("partBiasByPeers", () => {
       if (calibrated.some(Boolean)) classesWithCalibratedFlag++;
       if (result.get("lot0")!.flagged) offLotFlagged++;
     }
-    return { perPart: calibratedFlags / calibratedParts, perClass: classesWithCalibratedFlag / classes, offLotRate: offLotFlagged / classes };
+    return {
+      perPart: calibratedFlags / calibratedParts,
+      perClass: classesWithCalibratedFlag / classes,
+      offLotRate: offLotFlagged / classes,
+    };
   }
 
   // Each calibrated lot must be flagged at most at the nominal α. Holm's procedure (Holm 1979) aims at α for

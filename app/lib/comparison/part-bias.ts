@@ -136,11 +136,18 @@ export function partBiasByPeers(handIns: readonly PartFigure[], alpha: number): 
     latest = compareWithPeers(groups, flagged);
     const tested = latest.filter((entry) => entry.comparison.pValue !== null);
     testsInFamily = Math.max(testsInFamily, tested.length);
-    const decisions = holmBonferroni(tested.map((entry) => entry.comparison.pValue as number), alpha);
+    const decisions = holmBonferroni(
+      tested.map((entry) => entry.comparison.pValue as number),
+      alpha,
+    );
     let strongest: (typeof tested)[number] | null = null;
     tested.forEach((entry, i) => {
       entry.comparison.holmLevel = decisions[i].level;
-      if (decisions[i].rejected && !flagged.has(entry.key) && (!strongest || (entry.comparison.pValue as number) < (strongest.comparison.pValue as number))) {
+      if (
+        decisions[i].rejected &&
+        !flagged.has(entry.key) &&
+        (!strongest || (entry.comparison.pValue as number) < (strongest.comparison.pValue as number))
+      ) {
         strongest = entry;
       }
     });
@@ -165,7 +172,10 @@ export function partBiasByPeers(handIns: readonly PartFigure[], alpha: number): 
 type Group = { labId: string; mode: PartFigure["mode"]; byPart: Map<string, number[]> };
 
 /** One round: every part of every group against the hand-ins of the group's other parts not yet flagged. */
-function compareWithPeers(groups: Map<string, Group>, flagged: Map<string, unknown>): { key: string; partId: string; comparison: PeerComparison }[] {
+function compareWithPeers(
+  groups: Map<string, Group>,
+  flagged: Map<string, unknown>,
+): { key: string; partId: string; comparison: PeerComparison }[] {
   const comparisons: { key: string; partId: string; comparison: PeerComparison }[] = [];
   for (const [groupKey, group] of groups) {
     const peerIds = [...group.byPart.keys()].filter((id) => !flagged.has(`${groupKey}\u0000${id}`));

@@ -42,7 +42,9 @@ describe("the fluid lot and column a drop log names", () => {
 
   it("says at the field when the choice is not an id", () => {
     const result = dropLogInput.safeParse({ ...base, fluidLotId: "GLY-95A" });
-    expect(result.error?.issues.map((issue) => [issue.path.join("."), issue.message])).toEqual([["fluidLotId", "Choose the fluid lot you used from your kit."]]);
+    expect(result.error?.issues.map((issue) => [issue.path.join("."), issue.message])).toEqual([
+      ["fluidLotId", "Choose the fluid lot you used from your kit."],
+    ]);
   });
 });
 
@@ -74,10 +76,14 @@ describe("effectiveHandInWindow", () => {
     const extended = effectiveHandInWindow(classWithCutoff, { student });
     expect(extended.lateCutoffAt).toEqual(classWithCutoff.lateCutoffAt);
     expect(handInTiming(extended, new Date("2027-04-05T12:00:00Z"))).toBe("late");
-    const pastTheClassCutoff = effectiveHandInWindow(classWithCutoff, { student: { dueAt: new Date("2027-04-08T21:59:00Z"), lateCutoffAt: null } });
+    const pastTheClassCutoff = effectiveHandInWindow(classWithCutoff, {
+      student: { dueAt: new Date("2027-04-08T21:59:00Z"), lateCutoffAt: null },
+    });
     expect(pastTheClassCutoff.lateCutoffAt).toBeNull();
     // Its own cut-off wins, even one at the new due time itself.
-    expect(effectiveHandInWindow(classWithCutoff, { student: { ...student, lateCutoffAt: student.dueAt } }).lateCutoffAt).toEqual(student.dueAt);
+    expect(effectiveHandInWindow(classWithCutoff, { student: { ...student, lateCutoffAt: student.dueAt } }).lateCutoffAt).toEqual(
+      student.dueAt,
+    );
   });
   it("uses the cohort's extension, late window included", () => {
     const window = effectiveHandInWindow(lab, { cohort, student: null });

@@ -14,7 +14,10 @@ export const MAX_DROPS = 200;
 
 const dropTime = typed(
   z
-    .number({ error: (issue) => (issue.input === undefined ? "Enter the time in seconds, or remove this row." : "Enter the time as a number of seconds, e.g. 4.32.") })
+    .number({
+      error: (issue) =>
+        issue.input === undefined ? "Enter the time in seconds, or remove this row." : "Enter the time as a number of seconds, e.g. 4.32.",
+    })
     .superRefine((seconds, context) => {
       // One message per row, the most useful one: a negative time is a different slip from a huge one.
       const message =
@@ -42,12 +45,17 @@ const optionalMeasurement = (what: string, unit: string, min: number, max: numbe
 
 /** A part of the kit the student names; blank (the form's "one choice only") means "the only one the lab allows". */
 const chosenPart = (what: string) =>
-  z.preprocess((value) => (value === "" || value === null ? undefined : value), z.uuid({ error: `Choose the ${what} you used from your kit.` }).optional());
+  z.preprocess(
+    (value) => (value === "" || value === null ? undefined : value),
+    z.uuid({ error: `Choose the ${what} you used from your kit.` }).optional(),
+  );
 
 export const dropLogInput = z.object({
   sphereId: z.uuid({ error: "Choose the sphere you dropped." }),
   /** Required when the student's kit holds more than one fluid lot the lab allows; otherwise that one. */
-  fluidLotId: chosenPart("fluid lot").describe("The fluid lot (bottle) of the kit used. Required when the kit holds more than one lot the lab allows."),
+  fluidLotId: chosenPart("fluid lot").describe(
+    "The fluid lot (bottle) of the kit used. Required when the kit holds more than one lot the lab allows.",
+  ),
   /** Likewise for the column. */
   columnId: chosenPart("column").describe("The column of the kit used. Required when the kit holds more than one column the lab allows."),
   /** The student's own measurements, kept beside the kit's records; the reduction uses the kit's. */
@@ -71,12 +79,16 @@ export const dropLogInput = z.object({
     .array(dropTime, { error: "Enter your drop times." })
     .min(1, "Enter at least one drop time.")
     .max(MAX_DROPS, `At most ${MAX_DROPS} drops fit in one drop log.`),
-  notes: z.preprocess((value) => (value === "" ? undefined : value), storableText.trim().max(4000, "Keep the notes under 4000 characters.").optional()),
+  notes: z.preprocess(
+    (value) => (value === "" ? undefined : value),
+    storableText.trim().max(4000, "Keep the notes under 4000 characters.").optional(),
+  ),
 });
 export type DropLogInput = z.output<typeof dropLogInput>;
 
 /** The field a message belongs to, as the form names its inputs (`drops.3` for the fourth row). */
-export type DropLogField = "sphereId" | "fluidLotId" | "columnId" | "ownDiameterMm" | "ownMassG" | "temperatureC" | "timedDistanceMm" | "drops" | "notes" | "form";
+export type DropLogField =
+  "sphereId" | "fluidLotId" | "columnId" | "ownDiameterMm" | "ownMassG" | "temperatureC" | "timedDistanceMm" | "drops" | "notes" | "form";
 
 /**
  * The form as the student left it, saved as they type: strings exactly as typed, so a half-typed

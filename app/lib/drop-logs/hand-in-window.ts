@@ -52,7 +52,12 @@ export type StudentDeadline = {
   extensionReason: string | null;
 };
 
-export const handInStandingWords: Record<HandInStanding, string> = { "on-time": "on time", late: "late", "not-due": "not due yet", missing: "missing" };
+export const handInStandingWords: Record<HandInStanding, string> = {
+  "on-time": "on time",
+  late: "late",
+  "not-due": "not due yet",
+  missing: "missing",
+};
 
 /** An extension's times, as stored in `lab_extensions`. */
 export type ExtensionWindow = { dueAt: Date; lateCutoffAt: Date | null };
@@ -72,5 +77,10 @@ export function effectiveHandInWindow(
   const chosen = extensions.student ?? extensions.cohort ?? null;
   if (!chosen) return { ...lab, extendedBy: null };
   const classCutoffLater = lab.lateCutoffAt && lab.lateCutoffAt.getTime() > chosen.dueAt.getTime() ? lab.lateCutoffAt : null;
-  return { opensAt: lab.opensAt, dueAt: chosen.dueAt, lateCutoffAt: chosen.lateCutoffAt ?? classCutoffLater, extendedBy: extensions.student ? "student" : "cohort" };
+  return {
+    opensAt: lab.opensAt,
+    dueAt: chosen.dueAt,
+    lateCutoffAt: chosen.lateCutoffAt ?? classCutoffLater,
+    extendedBy: extensions.student ? "student" : "cohort",
+  };
 }

@@ -18,7 +18,15 @@ const calibration = [
 ];
 const kit: KitRecordsInput = {
   sphere: { id: "s", label: "S-1", material: "steel", diameterMm: 2, diameterResolutionMm: null, massG: 0.0327, massResolutionG: null },
-  fluidLot: { id: "f", label: "GLY-1", fluidName: "glycerol", densityKgM3: 1261, densityUncertaintyKgM3: 0.8, densityTemperatureCoefficientKgM3K: -0.65, calibration },
+  fluidLot: {
+    id: "f",
+    label: "GLY-1",
+    fluidName: "glycerol",
+    densityKgM3: 1261,
+    densityUncertaintyKgM3: 0.8,
+    densityTemperatureCoefficientKgM3K: -0.65,
+    calibration,
+  },
   column: { id: "c", label: "C-1", innerDiameterMm: 40, innerDiameterUncertaintyMm: 0.05, timedDistanceMm: 200, runInMm: 100 },
 };
 const input = { sphereId: "s", temperatureC: 23, drops: [11.2, 11.3, 11.1, 11.25, 11.15] };
@@ -43,16 +51,23 @@ describe("reduceDropLog — uncertainty inputs", () => {
   it("takes u(D) from the column record, and from the lab's diameter resolution without one", () => {
     expect(row("Column bore D")?.standardUncertainty).toBeCloseTo(0.05e-3, 15);
     const without = reduceDropLog({ lab, kit: { ...kit, column: { ...kit.column, innerDiameterUncertaintyMm: null } }, input });
-    expect(without.reduction.uncertaintyBudget.rows.find((candidate) => candidate.input === "Column bore D")?.standardUncertainty).toBeCloseTo(0.01e-3 / Math.sqrt(12), 15);
+    expect(
+      without.reduction.uncertaintyBudget.rows.find((candidate) => candidate.input === "Column bore D")?.standardUncertainty,
+    ).toBeCloseTo(0.01e-3 / Math.sqrt(12), 15);
   });
 
   it("gives μ/μ_ref(T) the lot's calibration uncertainty at T with N − 2 degrees of freedom", () => {
     const fit = fitFluidViscosity(calibration.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
-    expect(result.kitRecords.standardUncertainties.fluidViscosity).toBeCloseTo(calibrationUncertainty(fit, 23).relative * viscosityAt(fit, 23), 12);
+    expect(result.kitRecords.standardUncertainties.fluidViscosity).toBeCloseTo(
+      calibrationUncertainty(fit, 23).relative * viscosityAt(fit, 23),
+      12,
+    );
     const figure = result.reduction.uncertaintyBudget.normalisedFigure!;
     expect(figure.value).toBeCloseTo(result.normalisedFigure!, 12);
     // The figure's uncertainty exceeds μ's own relative one: it adds T (through μ_ref) and the calibration.
-    expect(figure.combined / figure.value).toBeGreaterThan(result.reduction.uncertaintyBudget.combined / result.reduction.uncertaintyBudget.value);
+    expect(figure.combined / figure.value).toBeGreaterThan(
+      result.reduction.uncertaintyBudget.combined / result.reduction.uncertaintyBudget.value,
+    );
   });
 
   it("reads a lab saved before the thermometer accuracy existed with the ±0.5 K default", () => {

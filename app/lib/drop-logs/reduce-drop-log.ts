@@ -176,17 +176,26 @@ export function reduceDropLog({
   const diameterMm = sphere.diameterMm ?? input.ownDiameterMm;
   const massG = sphere.massG ?? input.ownMassG;
   const usedStudentValues = sphere.diameterMm === null || sphere.massG === null;
-  if (diameterMm === undefined) missing.push({ path: "ownDiameterMm", message: `Sphere ${sphere.label} has no recorded diameter; enter your own measurement.` });
-  if (massG === undefined) missing.push({ path: "ownMassG", message: `Sphere ${sphere.label} has no recorded mass; enter your own measurement.` });
-  if (fluidLot.densityKgM3 === null) missing.push({ path: "form", message: `Fluid lot ${fluidLot.label} has no recorded density; tell your instructor.` });
+  if (diameterMm === undefined)
+    missing.push({ path: "ownDiameterMm", message: `Sphere ${sphere.label} has no recorded diameter; enter your own measurement.` });
+  if (massG === undefined)
+    missing.push({ path: "ownMassG", message: `Sphere ${sphere.label} has no recorded mass; enter your own measurement.` });
+  if (fluidLot.densityKgM3 === null)
+    missing.push({ path: "form", message: `Fluid lot ${fluidLot.label} has no recorded density; tell your instructor.` });
   const timedDistanceMm = input.timedDistanceMm ?? column.timedDistanceMm;
-  if (timedDistanceMm === null) missing.push({ path: "timedDistanceMm", message: `Column ${column.label} has no recorded timed distance; measure it between the bands.` });
+  if (timedDistanceMm === null)
+    missing.push({
+      path: "timedDistanceMm",
+      message: `Column ${column.label} has no recorded timed distance; measure it between the bands.`,
+    });
 
   const fit = fluidLot.calibration?.length
     ? fitFluidViscosity(fluidLot.calibration.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })))
     : null;
-  if (!fit && lab.kind === "drag") missing.push({ path: "form", message: `Fluid lot ${fluidLot.label} has no viscosity calibration; tell your instructor.` });
-  if (!WALL_METHODS.includes(lab.wallCorrection)) missing.push({ path: "form", message: `The lab's wall correction "${lab.wallCorrection}" is unknown.` });
+  if (!fit && lab.kind === "drag")
+    missing.push({ path: "form", message: `Fluid lot ${fluidLot.label} has no viscosity calibration; tell your instructor.` });
+  if (!WALL_METHODS.includes(lab.wallCorrection))
+    missing.push({ path: "form", message: `The lab's wall correction "${lab.wallCorrection}" is unknown.` });
   if (!DRAG_MODELS.includes(lab.dragModel)) missing.push({ path: "form", message: `The lab's drag model "${lab.dragModel}" is unknown.` });
   if (missing.length) throw new ReductionInputError(missing);
 
@@ -204,13 +213,14 @@ export function reduceDropLog({
   // sphere without its own resolution is; the thermometer reads to its resolution (r/√12) and is good to
   // ±a (a/√3), both rectangular and independent (GUM 4.3.7).
   const standardUncertainties = {
-    diameter: ((sphere.diameterResolutionMm ?? resolutions.diameterMm) / 1000) / SQRT12,
-    mass: ((sphere.massResolutionG ?? resolutions.massG) / 1000) / SQRT12,
+    diameter: (sphere.diameterResolutionMm ?? resolutions.diameterMm) / 1000 / SQRT12,
+    mass: (sphere.massResolutionG ?? resolutions.massG) / 1000 / SQRT12,
     distance: resolutions.distanceMm / 1000 / SQRT12,
     time: resolutions.timeS / SQRT12,
     temperature: Math.hypot(resolutions.temperatureC / SQRT12, resolutions.thermometerAccuracyC / SQRT3),
     fluidDensity: fluidLot.densityUncertaintyKgM3 ?? 0,
-    columnDiameter: column.innerDiameterUncertaintyMm != null ? column.innerDiameterUncertaintyMm / 1000 : resolutions.diameterMm / 1000 / SQRT12,
+    columnDiameter:
+      column.innerDiameterUncertaintyMm != null ? column.innerDiameterUncertaintyMm / 1000 : resolutions.diameterMm / 1000 / SQRT12,
     fluidViscosity: calibration && viscosityPaS !== null ? calibration.relative * viscosityPaS : 0,
   };
 
@@ -248,7 +258,12 @@ export function reduceDropLog({
 
   for (const check of reduction.checks) warnings.push({ ...check, field: checkFields[check.code] ?? "form" });
   if (usedStudentValues) {
-    warnings.push({ code: "kit-record-missing", level: "warn", field: "ownDiameterMm", message: `Sphere ${sphere.label} lacks a recorded value; your own measurement was used instead.` });
+    warnings.push({
+      code: "kit-record-missing",
+      level: "warn",
+      field: "ownDiameterMm",
+      message: `Sphere ${sphere.label} lacks a recorded value; your own measurement was used instead.`,
+    });
   }
   compareOwn(warnings, "ownDiameterMm", "diameter", "mm", input.ownDiameterMm, sphere.diameterMm);
   compareOwn(warnings, "ownMassG", "mass", "g", input.ownMassG, sphere.massG);
@@ -280,12 +295,24 @@ export function reduceDropLog({
     });
   }
 
-  const figure = reduction.mode === "drag" ? normalisedFigureOf(reduction) : viscosityPaS !== null ? normalisedFigureOf(reduction, { referenceViscosity: viscosityPaS }) : null;
+  const figure =
+    reduction.mode === "drag"
+      ? normalisedFigureOf(reduction)
+      : viscosityPaS !== null
+        ? normalisedFigureOf(reduction, { referenceViscosity: viscosityPaS })
+        : null;
 
   return {
     reduction,
     kitRecords: {
-      sphere: { id: sphere.id, label: sphere.label, material: sphere.material, diameterMm: diameterMm!, massG: massG!, source: usedStudentValues ? "student" : "kit" },
+      sphere: {
+        id: sphere.id,
+        label: sphere.label,
+        material: sphere.material,
+        diameterMm: diameterMm!,
+        massG: massG!,
+        source: usedStudentValues ? "student" : "kit",
+      },
       fluidLot: {
         id: fluidLot.id,
         label: fluidLot.label,
@@ -321,7 +348,14 @@ function disagrees(own: number, recorded: number): boolean {
   return Math.abs(own / recorded - 1) > OWN_MEASUREMENT_TOLERANCE;
 }
 
-function compareOwn(warnings: DropLogWarning[], field: DropLogField, what: string, unit: string, own: number | undefined, recorded: number | null) {
+function compareOwn(
+  warnings: DropLogWarning[],
+  field: DropLogField,
+  what: string,
+  unit: string,
+  own: number | undefined,
+  recorded: number | null,
+) {
   if (own === undefined || recorded === null || !disagrees(own, recorded)) return;
   const percent = ((own / recorded - 1) * 100).toFixed(1);
   warnings.push({

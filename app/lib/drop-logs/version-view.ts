@@ -32,5 +32,11 @@ export function versionView(version: StoredVersionRow) {
 }
 export type VersionView = ReturnType<typeof versionView>;
 
-export const photoView = (photo: StoredPhotoRow) => ({ id: photo.id, versionId: photo.versionId, originalName: photo.originalName, bytes: photo.bytes, createdAt: photo.createdAt.toISOString() });
+export const photoView = (photo: StoredPhotoRow) => ({
+  id: photo.id,
+  versionId: photo.versionId,
+  originalName: photo.originalName,
+  bytes: photo.bytes,
+  createdAt: photo.createdAt.toISOString(),
+});
 export type PhotoView = ReturnType<typeof photoView>;

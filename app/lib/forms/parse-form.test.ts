@@ -20,6 +20,10 @@ describe("parseForm", () => {
 
   it("gives one message per field and keeps typed values except passwords", () => {
     const result = parseForm(schema, form({ email: "not-an-address", password: "short" }));
-    expect(result).toEqual({ ok: false, errors: { email: "Enter an e-mail address.", password: "Too short." }, values: { email: "not-an-address" } });
+    expect(result).toEqual({
+      ok: false,
+      errors: { email: "Enter an e-mail address.", password: "Too short." },
+      values: { email: "not-an-address" },
+    });
   });
 });

@@ -8,4 +8,6 @@ import { z } from "zod";
 const unstorable = /\u0000|[\uD800-\uDFFF]/u;
 
 /** A string PostgreSQL can keep, in a text column or inside jsonb; chain `.trim().max(…)` as on any string. */
-export const storableText = z.string().refine((value) => !unstorable.test(value), "Remove the control character or broken symbol from this text.");
+export const storableText = z
+  .string()
+  .refine((value) => !unstorable.test(value), "Remove the control character or broken symbol from this text.");

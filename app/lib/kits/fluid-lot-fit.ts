@@ -19,7 +19,10 @@ export type FluidLotCalibration = {
   points: (CalibrationPointCheck & { fittedPaS: number; residualPercent: number })[];
 };
 
-export function fluidLotCalibration(calibration: CalibrationPoint[] | null, glycerolMassFraction: number | null = null): FluidLotCalibration | null {
+export function fluidLotCalibration(
+  calibration: CalibrationPoint[] | null,
+  glycerolMassFraction: number | null = null,
+): FluidLotCalibration | null {
   if (!calibration?.length) return null;
   const fit = fitFluidViscosity(calibration.map((point) => ({ temperature: point.temperatureC, viscosity: point.viscosityPaS })));
   const [low, high] = fit.temperatureRange;

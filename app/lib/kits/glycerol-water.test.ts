@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { calibrationCheckMessages, checkCalibrationPoints, chengTolerance, glycerolWaterViscosityPaS, waterViscosityPaS } from "./glycerol-water";
+import {
+  calibrationCheckMessages,
+  checkCalibrationPoints,
+  chengTolerance,
+  glycerolWaterViscosityPaS,
+  waterViscosityPaS,
+} from "./glycerol-water";
 
 /**
  * Viscosity of aqueous glycerol in mPa·s, Segur & Oberstar, Ind. Eng. Chem. 43 (1951) 2117, as reproduced
@@ -26,7 +32,8 @@ const segurTable: [massPercent: number, mPaS: number[]][] = [
   [100, [12070, 3900, 1410, 612, 284]],
 ];
 const segur = (massPercent: number) => segurTable.find(([percent]) => percent === massPercent)![1];
-const lot = (massPercent: number, scale = 1) => segur(massPercent).map((mPaS, index) => ({ temperatureC: segurTemperaturesC[index], viscosityPaS: (mPaS / 1000) * scale }));
+const lot = (massPercent: number, scale = 1) =>
+  segur(massPercent).map((mPaS, index) => ({ temperatureC: segurTemperaturesC[index], viscosityPaS: (mPaS / 1000) * scale }));
 
 describe("Cheng's (2008) glycerol–water viscosity", () => {
   it("gives pure glycerol ≈ 1410 mPa·s and water ≈ 1.005 mPa·s at 20 °C (Segur & Oberstar 1951)", () => {
@@ -56,7 +63,10 @@ describe("checkCalibrationPoints", () => {
   it("finds Segur's own values for 50, 85 and 95 % within tolerance of the declared mix", () => {
     for (const percent of [50, 85, 95]) {
       const checks = checkCalibrationPoints(lot(percent), percent / 100);
-      expect(checks.map((check) => check.finding.kind), `${percent} %`).toEqual(["agrees", "agrees", "agrees", "agrees", "agrees"]);
+      expect(
+        checks.map((check) => check.finding.kind),
+        `${percent} %`,
+      ).toEqual(["agrees", "agrees", "agrees", "agrees", "agrees"]);
     }
   });
 
@@ -75,7 +85,13 @@ describe("checkCalibrationPoints", () => {
   });
 
   it("calls a value 1000 times the declared mix's a mPa·s typed as Pa·s (Segur's 85 % at 20 °C, 109 mPa·s, typed as 109)", () => {
-    const checks = checkCalibrationPoints([{ temperatureC: 20, viscosityPaS: 109 }, { temperatureC: 30, viscosityPaS: 0.058 }], 0.85);
+    const checks = checkCalibrationPoints(
+      [
+        { temperatureC: 20, viscosityPaS: 109 },
+        { temperatureC: 30, viscosityPaS: 0.058 },
+      ],
+      0.85,
+    );
     expect(checks.map((check) => check.finding.kind)).toEqual(["unit-slip", "agrees"]);
     expect(calibrationCheckMessages(checks, 0.85)).toEqual([
       "The viscosity at 20 °C is about 1000 times the handbook value for a glycerol mass fraction of 0.85 (Cheng 2008): it looks like a value in mPa·s typed as Pa·s. Divide it by 1000.",

@@ -57,7 +57,11 @@ export function chengTolerance(glycerolMassFraction: number, temperatureC: numbe
   const high = Math.min(1, glycerolMassFraction + h);
   const perMassFraction = (ln(high, temperatureC) - ln(low, temperatureC)) / (high - low);
   const perKelvin = (ln(glycerolMassFraction, temperatureC + 0.5) - ln(glycerolMassFraction, temperatureC - 0.5)) / 1;
-  const combined = Math.hypot(correlationRelativeUncertainty, perMassFraction * massFractionUncertainty, perKelvin * calibrationTemperatureUncertaintyK);
+  const combined = Math.hypot(
+    correlationRelativeUncertainty,
+    perMassFraction * massFractionUncertainty,
+    perKelvin * calibrationTemperatureUncertaintyK,
+  );
   return toleranceCoverageFactor * combined;
 }
 
@@ -105,7 +109,8 @@ export function checkCalibrationPoints(calibration: CalibrationPoint[], glycerol
     .sort((a, b) => a.temperatureC - b.temperatureC)
     .map((point) => {
       const inRange = point.temperatureC >= lowest && point.temperatureC <= highest;
-      const handbookPaS = glycerolMassFraction !== null && inRange ? glycerolWaterViscosityPaS(glycerolMassFraction, point.temperatureC) : null;
+      const handbookPaS =
+        glycerolMassFraction !== null && inRange ? glycerolWaterViscosityPaS(glycerolMassFraction, point.temperatureC) : null;
       if (handbookPaS !== null) {
         const ratio = point.viscosityPaS / handbookPaS;
         const slip = looksLikeUnitSlip(ratio);
@@ -117,8 +122,10 @@ export function checkCalibrationPoints(calibration: CalibrationPoint[], glycerol
       }
       // Supercooled water is thicker than at 0 °C, so water at 0 °C still bounds the floor from below.
       const floor = minimumFractionOfWater * waterViscosityPaS(Math.min(Math.max(point.temperatureC, lowest), highest));
-      if (point.viscosityPaS > maximumKitFluidViscosityPaS) return { ...point, handbookPaS, finding: { kind: "unit-slip", direction: "too-high", basis: "plausible-range" } };
-      if (point.viscosityPaS < floor) return { ...point, handbookPaS, finding: { kind: "unit-slip", direction: "too-low", basis: "plausible-range" } };
+      if (point.viscosityPaS > maximumKitFluidViscosityPaS)
+        return { ...point, handbookPaS, finding: { kind: "unit-slip", direction: "too-high", basis: "plausible-range" } };
+      if (point.viscosityPaS < floor)
+        return { ...point, handbookPaS, finding: { kind: "unit-slip", direction: "too-low", basis: "plausible-range" } };
       return { ...point, handbookPaS, finding: { kind: "not-compared" } };
     });
 }
@@ -136,14 +143,18 @@ export function calibrationCheckMessages(checks: CalibrationPointCheck[], glycer
   if (high.length) {
     messages.push(
       `The viscosity at ${listTemperatures(high)} is ${
-        high.every((check) => check.finding.kind === "unit-slip" && check.finding.basis === "correlation") ? `about 1000 times ${against}` : `above ${maximumKitFluidViscosityPaS} Pa·s, thicker than any kit fluid`
+        high.every((check) => check.finding.kind === "unit-slip" && check.finding.basis === "correlation")
+          ? `about 1000 times ${against}`
+          : `above ${maximumKitFluidViscosityPaS} Pa·s, thicker than any kit fluid`
       }: it looks like a value in mPa·s typed as Pa·s. Divide it by 1000.`,
     );
   }
   if (low.length) {
     messages.push(
       `The viscosity at ${listTemperatures(low)} is ${
-        low.every((check) => check.finding.kind === "unit-slip" && check.finding.basis === "correlation") ? `about 1000 times below ${against}` : "less than half of water's at that temperature"
+        low.every((check) => check.finding.kind === "unit-slip" && check.finding.basis === "correlation")
+          ? `about 1000 times below ${against}`
+          : "less than half of water's at that temperature"
       }: it looks like a value in Pa·s divided by 1000 again. Check the unit.`,
     );
   }
@@ -155,7 +166,9 @@ export function calibrationCheckMessages(checks: CalibrationPointCheck[], glycer
         return `${check.temperatureC} °C: ${formatPercent(finding.differencePercent)} (tolerance ±${Number(finding.tolerancePercent.toPrecision(2))} %)`;
       })
       .join("; ");
-    messages.push(`The calibration differs from ${against} by more than its tolerance at ${details}. Check the declared mass fraction, the thermometer and the viscosity readings.`);
+    messages.push(
+      `The calibration differs from ${against} by more than its tolerance at ${details}. Check the declared mass fraction, the thermometer and the viscosity readings.`,
+    );
   }
   return messages;
 }

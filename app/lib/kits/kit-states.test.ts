@@ -30,7 +30,12 @@ describe("kit state machine", () => {
 
   it("lists exactly the legal moves from each state, and none out of retirement", () => {
     for (const from of kitStates) {
-      expect([...nextKitStates(from)].sort()).toEqual(legal.filter(([a]) => a === from).map(([, b]) => b).sort());
+      expect([...nextKitStates(from)].sort()).toEqual(
+        legal
+          .filter(([a]) => a === from)
+          .map(([, b]) => b)
+          .sort(),
+      );
     }
     expect(nextKitStates("retired")).toEqual([]);
     expect(illegal.length).toBe(kitStates.length ** 2 - legal.length);

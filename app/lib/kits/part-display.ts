@@ -43,7 +43,8 @@ export function formatNumber(value: number | null | undefined, significant = 4):
 /** A stored value as the history shows it. */
 export function formatFieldValue(value: unknown): string {
   if (value === null || value === undefined || value === "") return "—";
-  if (Array.isArray(value)) return (value as CalibrationPoint[]).map((point) => `${point.temperatureC} °C : ${point.viscosityPaS}`).join("; ");
+  if (Array.isArray(value))
+    return (value as CalibrationPoint[]).map((point) => `${point.temperatureC} °C : ${point.viscosityPaS}`).join("; ");
   return String(value);
 }
 
@@ -77,7 +78,10 @@ export function measurementSummary(part: StoredPartFields): string {
       const calibration = fluidLotCalibration(part.calibration);
       const at20 = calibration?.quoted.find((point) => point.temperatureC === 20);
       const density = `ρ ${formatNumber(part.densityKgM3)}${part.densityUncertaintyKgM3 != null ? ` (u ${formatNumber(part.densityUncertaintyKgM3)})` : ""} kg/m³`;
-      const coefficient = part.densityTemperatureCoefficientKgM3K != null ? ` at 20 °C, dρ/dT ${formatNumber(part.densityTemperatureCoefficientKgM3K)} kg/m³ per K` : "";
+      const coefficient =
+        part.densityTemperatureCoefficientKgM3K != null
+          ? ` at 20 °C, dρ/dT ${formatNumber(part.densityTemperatureCoefficientKgM3K)} kg/m³ per K`
+          : "";
       return `${part.fluidName ?? "—"} · ${density}${coefficient} · ${part.calibration?.length ?? 0} calibration points · μ(20 °C) ${formatNumber(at20?.viscosityPaS)} Pa·s`;
     }
     case "column":

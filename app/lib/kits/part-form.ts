@@ -19,6 +19,9 @@ export function calibrationRows(form: FormData): CalibrationRow[] {
 /** What `partInput` checks: the typed values, with an empty box read as "missing" rather than zero. */
 export function partFormCandidate(form: FormData): Record<string, unknown> {
   const values = Object.fromEntries(Object.entries(formValues(form)).map(([field, value]) => [field, blankAsMissing(field, value.trim())]));
-  const calibration = calibrationRows(form).map((row) => ({ temperatureC: row.temperatureC || undefined, viscosityPaS: row.viscosityPaS || undefined }));
+  const calibration = calibrationRows(form).map((row) => ({
+    temperatureC: row.temperatureC || undefined,
+    viscosityPaS: row.viscosityPaS || undefined,
+  }));
   return { ...values, calibration };
 }

@@ -11,7 +11,12 @@ const label = z
   .max(40, "Keep the label under 40 characters.")
   .regex(/^[\w.\- /]+$/u, "Use letters, digits, spaces, dots, dashes or slashes.");
 
-const notes = z.string().trim().max(2000).optional().transform((value) => value || null);
+const notes = z
+  .string()
+  .trim()
+  .max(2000)
+  .optional()
+  .transform((value) => value || null);
 
 /** A measured length or mass: a positive number, with a sanity ceiling so a unit slip is caught. */
 const measured = (what: string, unit: string, max: number) =>
@@ -79,17 +84,16 @@ export const fluidLotInput = z.object({
   notes,
 });
 
-export const columnInput = z
-  .object({
-    kind: z.literal("column"),
-    label,
-    innerDiameterMm: measured("inner diameter", "mm", 500),
-    innerDiameterUncertaintyMm: optionalMeasured("bore uncertainty", "mm", 10),
-    timedDistanceMm: measured("timed distance", "mm", 3000),
-    runInMm: measured("run-in distance", "mm", 3000),
-    marginBelowMm: measured("margin below the bottom band", "mm", 3000),
-    notes,
-  });
+export const columnInput = z.object({
+  kind: z.literal("column"),
+  label,
+  innerDiameterMm: measured("inner diameter", "mm", 500),
+  innerDiameterUncertaintyMm: optionalMeasured("bore uncertainty", "mm", 10),
+  timedDistanceMm: measured("timed distance", "mm", 3000),
+  runInMm: measured("run-in distance", "mm", 3000),
+  marginBelowMm: measured("margin below the bottom band", "mm", 3000),
+  notes,
+});
 
 export const accessoryInput = z.object({
   kind: z.literal("accessory"),

@@ -1,14 +1,60 @@
 import Papa from "papaparse";
 import { describe, expect, it } from "vitest";
 import type { PartInput } from "./part-input";
-import { checkImportHeaders, checkImportRows, csvRowToPartInput, inventoryCsv, parseCalibration, partToCsvRow, templateCsv } from "./parts-csv";
+import {
+  checkImportHeaders,
+  checkImportRows,
+  csvRowToPartInput,
+  inventoryCsv,
+  parseCalibration,
+  partToCsvRow,
+  templateCsv,
+} from "./parts-csv";
 
 const parts: PartInput[] = [
-  { kind: "sphere", label: "T-1", material: "glass", diameterMm: 4, diameterResolutionMm: 0.01, massG: 0.08, massResolutionG: undefined, notes: null },
-  { kind: "fluid_lot", label: "T-2", fluidName: "syrup, lot 7", densityKgM3: 1380, densityUncertaintyKgM3: 2.5, densityTemperatureCoefficientKgM3K: -0.7, calibration: [{ temperatureC: -5, viscosityPaS: 9 }, { temperatureC: 22.5, viscosityPaS: 2.5 }], notes: 'said "thick"' },
-  { kind: "column", label: "T-3", innerDiameterMm: 40, innerDiameterUncertaintyMm: 0.03, timedDistanceMm: 250, runInMm: 150, marginBelowMm: 60, notes: null },
+  {
+    kind: "sphere",
+    label: "T-1",
+    material: "glass",
+    diameterMm: 4,
+    diameterResolutionMm: 0.01,
+    massG: 0.08,
+    massResolutionG: undefined,
+    notes: null,
+  },
+  {
+    kind: "fluid_lot",
+    label: "T-2",
+    fluidName: "syrup, lot 7",
+    densityKgM3: 1380,
+    densityUncertaintyKgM3: 2.5,
+    densityTemperatureCoefficientKgM3K: -0.7,
+    calibration: [
+      { temperatureC: -5, viscosityPaS: 9 },
+      { temperatureC: 22.5, viscosityPaS: 2.5 },
+    ],
+    notes: 'said "thick"',
+  },
+  {
+    kind: "column",
+    label: "T-3",
+    innerDiameterMm: 40,
+    innerDiameterUncertaintyMm: 0.03,
+    timedDistanceMm: 250,
+    runInMm: 150,
+    marginBelowMm: 60,
+    notes: null,
+  },
   { kind: "accessory", label: "T 4/b", accessoryType: "thermometer", notes: "=1+1" },
-  { kind: "fluid_lot", label: "T-5", fluidName: "glycerol–water 85 %", densityKgM3: 1221, glycerolMassFraction: 0.85, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }], notes: null },
+  {
+    kind: "fluid_lot",
+    label: "T-5",
+    fluidName: "glycerol–water 85 %",
+    densityKgM3: 1221,
+    glycerolMassFraction: 0.85,
+    calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }],
+    notes: null,
+  },
 ];
 
 /** Reads a CSV as the import page does: header row, every cell text. */
@@ -25,14 +71,36 @@ describe("parts CSV", () => {
   });
 
   it("refuses a positive density temperature coefficient and a negative bore uncertainty, naming the column", () => {
-    const lot = csvRowToPartInput({ kind: "fluid_lot", label: "F", fluid_name: "oil", density_kg_m3: "900", density_temperature_coefficient_kg_m3_k: "0.6", calibration: "20:0.5" });
+    const lot = csvRowToPartInput({
+      kind: "fluid_lot",
+      label: "F",
+      fluid_name: "oil",
+      density_kg_m3: "900",
+      density_temperature_coefficient_kg_m3_k: "0.6",
+      calibration: "20:0.5",
+    });
     expect(lot).toEqual({ ok: false, problems: [expect.stringMatching(/^density_temperature_coefficient_kg_m3_k: Liquids get lighter/)] });
-    const column = csvRowToPartInput({ kind: "column", label: "C", inner_diameter_mm: "40", inner_diameter_uncertainty_mm: "-1", timed_distance_mm: "200", run_in_mm: "150", margin_below_mm: "50" });
+    const column = csvRowToPartInput({
+      kind: "column",
+      label: "C",
+      inner_diameter_mm: "40",
+      inner_diameter_uncertainty_mm: "-1",
+      timed_distance_mm: "200",
+      run_in_mm: "150",
+      margin_below_mm: "50",
+    });
     expect(column).toEqual({ ok: false, problems: [expect.stringMatching(/^inner_diameter_uncertainty_mm: /)] });
   });
 
   it("refuses a glycerol mass fraction written as a percentage, saying how to write it", () => {
-    const lot = csvRowToPartInput({ kind: "fluid_lot", label: "F", fluid_name: "glycerol–water", density_kg_m3: "1221", glycerol_mass_fraction: "85", calibration: "20:0.109" });
+    const lot = csvRowToPartInput({
+      kind: "fluid_lot",
+      label: "F",
+      fluid_name: "glycerol–water",
+      density_kg_m3: "1221",
+      glycerol_mass_fraction: "85",
+      calibration: "20:0.109",
+    });
     expect(lot).toEqual({ ok: false, problems: ["glycerol_mass_fraction: Enter the mass fraction from 0 to 1: 85 % glycerol is 0.85."] });
   });
 
@@ -67,10 +135,19 @@ describe("parts CSV", () => {
     expect(parseCalibration("20:0.5;25")).toBeNull();
     expect(csvRowToPartInput({ kind: "fluid_lot", label: "F", fluid_name: "oil", density_kg_m3: "900", calibration: "20=0.5" })).toEqual({
       ok: false,
-      problems: [expect.stringMatching(/^calibration: write the points as temperature/), expect.stringMatching(/^calibration: Add at least one/)],
+      problems: [
+        expect.stringMatching(/^calibration: write the points as temperature/),
+        expect.stringMatching(/^calibration: Add at least one/),
+      ],
     });
     expect(csvRowToPartInput({ kind: "bead", label: "B" })).toEqual({ ok: false, problems: [expect.stringMatching(/^kind: use sphere/)] });
-    const hot = csvRowToPartInput({ kind: "fluid lot", label: "F", fluid_name: "oil", density_kg_m3: "900", calibration: "20:0.5;120:0.1" });
+    const hot = csvRowToPartInput({
+      kind: "fluid lot",
+      label: "F",
+      fluid_name: "oil",
+      density_kg_m3: "900",
+      calibration: "20:0.5;120:0.1",
+    });
     expect(hot.ok ? [] : hot.problems).toEqual([expect.stringMatching(/^calibration \(point 2\): Calibration temperatures above 100/)]);
   });
 

@@ -74,7 +74,10 @@ const calibrationHint = "write the points as temperature °C:viscosity Pa·s pai
 
 /** "20:0.545;25:0.38" → points, or null when a pair is malformed. Numbers stay text for zod to check with its messages. */
 export function parseCalibration(cell: string): { temperatureC: string; viscosityPaS: string }[] | null {
-  const pairs = cell.split(";").map((pair) => pair.trim()).filter(Boolean);
+  const pairs = cell
+    .split(";")
+    .map((pair) => pair.trim())
+    .filter(Boolean);
   const points = pairs.map((pair) => pair.split(":").map((part) => part.trim()));
   if (points.some((point) => point.length !== 2 || point.some((part) => part === ""))) return null;
   return points.map(([temperatureC, viscosityPaS]) => ({ temperatureC, viscosityPaS }));
@@ -184,7 +187,8 @@ export function checkImportRows(rows: PartCsvRow[], existingLabels: Iterable<str
     const line = index + 2;
     const result = csvRowToPartInput(row);
     const problems = result.ok ? [] : [...result.problems];
-    if (row[extraCellsKey] !== undefined) problems.push("This line has more cells than the first line has column names; check for a stray comma.");
+    if (row[extraCellsKey] !== undefined)
+      problems.push("This line has more cells than the first line has column names; check for a stray comma.");
     const label = (row.label ?? "").trim();
     if (label) {
       if (taken.has(label)) problems.push(`label: ${label} is already used by a part in this course.`);
@@ -200,28 +204,70 @@ export function checkImportRows(rows: PartCsvRow[], existingLabels: Iterable<str
 export function checkImportHeaders(headers: string[]): string[] {
   const problems: string[] = [];
   const missing = (["kind", "label"] as const).filter((column) => !headers.includes(column));
-  if (missing.length) problems.push(`The file needs the column${missing.length > 1 ? "s" : ""} ${missing.join(" and ")} in its first line.`);
-  const unknown = headers.filter((header) => header !== "" && !(partCsvColumns as readonly string[]).includes(header) && !inventoryOnlyColumns.includes(header));
-  if (unknown.length) problems.push(`Unknown column${unknown.length > 1 ? "s" : ""} ${unknown.join(", ")}: check the spelling against the template.`);
+  if (missing.length)
+    problems.push(`The file needs the column${missing.length > 1 ? "s" : ""} ${missing.join(" and ")} in its first line.`);
+  const unknown = headers.filter(
+    (header) => header !== "" && !(partCsvColumns as readonly string[]).includes(header) && !inventoryOnlyColumns.includes(header),
+  );
+  if (unknown.length)
+    problems.push(`Unknown column${unknown.length > 1 ? "s" : ""} ${unknown.join(", ")}: check the spelling against the template.`);
   return problems;
 }
 
 /** Headers as people type them: "Diameter_mm " reads as diameter_mm. */
-export const normaliseHeader = (header: string) => header.trim().toLowerCase().replace(/^\uFEFF/, "");
+export const normaliseHeader = (header: string) =>
+  header
+    .trim()
+    .toLowerCase()
+    .replace(/^\uFEFF/, "");
 
 /** The export's extra columns; an exported file may be imported into another course, and these are ignored. */
 const inventoryOnlyColumns: string[] = ["status", "kit_number"];
 
 /** One example row per kind, so the template shows each kind's columns filled in. */
 const templateParts: PartInput[] = [
-  { kind: "sphere", label: "S-01", material: "steel", diameterMm: 3.175, diameterResolutionMm: 0.01, massG: 0.1305, massResolutionG: 0.0001, notes: null },
-  { kind: "fluid_lot", label: "FL-01", fluidName: "glycerol–water 85 %", densityKgM3: 1221, densityUncertaintyKgM3: 1, densityTemperatureCoefficientKgM3K: -0.6, glycerolMassFraction: 0.85, calibration: [{ temperatureC: 20, viscosityPaS: 0.109 }, { temperatureC: 25, viscosityPaS: 0.081 }], notes: null },
-  { kind: "column", label: "C-01", innerDiameterMm: 32, innerDiameterUncertaintyMm: 0.05, timedDistanceMm: 200, runInMm: 100, marginBelowMm: 50, notes: null },
+  {
+    kind: "sphere",
+    label: "S-01",
+    material: "steel",
+    diameterMm: 3.175,
+    diameterResolutionMm: 0.01,
+    massG: 0.1305,
+    massResolutionG: 0.0001,
+    notes: null,
+  },
+  {
+    kind: "fluid_lot",
+    label: "FL-01",
+    fluidName: "glycerol–water 85 %",
+    densityKgM3: 1221,
+    densityUncertaintyKgM3: 1,
+    densityTemperatureCoefficientKgM3K: -0.6,
+    glycerolMassFraction: 0.85,
+    calibration: [
+      { temperatureC: 20, viscosityPaS: 0.109 },
+      { temperatureC: 25, viscosityPaS: 0.081 },
+    ],
+    notes: null,
+  },
+  {
+    kind: "column",
+    label: "C-01",
+    innerDiameterMm: 32,
+    innerDiameterUncertaintyMm: 0.05,
+    timedDistanceMm: 200,
+    runInMm: 100,
+    marginBelowMm: 50,
+    notes: null,
+  },
   { kind: "accessory", label: "M-01", accessoryType: "retrieval magnet", notes: "Keep away from pacemakers." },
 ];
 
 export function templateCsv(): string {
-  return toCsv(templateParts, partCsvColumns.map((column) => ({ header: column, value: (part: PartInput) => partToCsvRow(part)[column] })));
+  return toCsv(
+    templateParts,
+    partCsvColumns.map((column) => ({ header: column, value: (part: PartInput) => partToCsvRow(part)[column] })),
+  );
 }
 
 /** The inventory export: the import columns plus status and kit number, formulas neutralised by `toCsv`. */

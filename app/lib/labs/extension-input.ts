@@ -27,7 +27,11 @@ export function extensionInputFor(lab: { timeZone: string; opensAt: Date }) {
       context.addIssue({ code: "custom", path: ["dueAt"], message: "The new due time must come after the lab opens." });
     }
     if (window.lateCutoffAt && window.lateCutoffAt.getTime() < window.dueAt.getTime()) {
-      context.addIssue({ code: "custom", path: ["lateCutoffAt"], message: "The late cut-off cannot come before the new due time; give it the new due time for no late hand-ins." });
+      context.addIssue({
+        code: "custom",
+        path: ["lateCutoffAt"],
+        message: "The late cut-off cannot come before the new due time; give it the new due time for no late hand-ins.",
+      });
     }
   };
   return z.discriminatedUnion(
@@ -44,7 +48,9 @@ export function extensionInputFor(lab: { timeZone: string; opensAt: Date }) {
           ...windowFields(lab.timeZone),
         })
         .superRefine(checkWindow),
-      z.object({ intent: z.literal("extend-cohort"), cohortId: z.uuid("Choose a cohort."), ...windowFields(lab.timeZone) }).superRefine(checkWindow),
+      z
+        .object({ intent: z.literal("extend-cohort"), cohortId: z.uuid("Choose a cohort."), ...windowFields(lab.timeZone) })
+        .superRefine(checkWindow),
       z.object({ intent: z.literal("remove"), extensionId: z.uuid("Choose an extension to remove.") }),
     ],
     { error: "Choose what to do: extend students, extend a cohort, or remove an extension." },

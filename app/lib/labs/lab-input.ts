@@ -35,7 +35,14 @@ export const dragModelNames: Record<(typeof dragModels)[number], string> = {
  * thermometer, and that thermometer's accuracy of ±0.5 K: common practice for home kits, and each lab
  * can change them.
  */
-export const DEFAULT_RESOLUTIONS: Required<LabResolutions> = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5, thermometerAccuracyC: 0.5 };
+export const DEFAULT_RESOLUTIONS: Required<LabResolutions> = {
+  diameterMm: 0.01,
+  massG: 0.001,
+  distanceMm: 1,
+  timeS: 0.01,
+  temperatureC: 0.5,
+  thermometerAccuracyC: 0.5,
+};
 
 /** A lab's resolutions with the thermometer accuracy filled in for labs saved before it was asked. */
 export function labResolutions(resolutions: LabResolutions): Required<LabResolutions> {
@@ -63,7 +70,10 @@ const reminderOffsets = z
     const parts = text.split(/[\s,;]+/).filter(Boolean);
     const hours = parts.map(Number);
     if (hours.some((value) => !Number.isInteger(value) || value < 1 || value > MAX_REMINDER_OFFSET_HOURS)) {
-      context.addIssue({ code: "custom", message: `Give whole hours between 1 and ${MAX_REMINDER_OFFSET_HOURS}, separated by commas, e.g. 48, 6.` });
+      context.addIssue({
+        code: "custom",
+        message: `Give whole hours between 1 and ${MAX_REMINDER_OFFSET_HOURS}, separated by commas, e.g. 48, 6.`,
+      });
       return z.NEVER;
     }
     if (hours.length > 5) {
@@ -94,7 +104,11 @@ export const wallClock = (timeZone: string, what: string) =>
  */
 export const allowedPartFields = { sphere: "allowedSphereIds", fluid_lot: "allowedFluidLotIds", column: "allowedColumnIds" } as const;
 export type AllowedPartKind = keyof typeof allowedPartFields;
-const allowedParts = (what: string) => z.array(z.uuid(`Choose ${what} from the list.`)).max(500, `Tick at most 500 ${what}.`).default([]);
+const allowedParts = (what: string) =>
+  z
+    .array(z.uuid(`Choose ${what} from the list.`))
+    .max(500, `Tick at most 500 ${what}.`)
+    .default([]);
 
 /** The lab's allowed parts, all kinds together, as `labs.allowed_part_ids` stores them. */
 export function allowedPartIdsOf(input: Pick<LabInput, (typeof allowedPartFields)[AllowedPartKind]>): string[] {
@@ -105,7 +119,11 @@ export function allowedPartIdsOf(input: Pick<LabInput, (typeof allowedPartFields
 export function labInputFor(timeZone: string) {
   return z
     .object({
-      title: z.string({ error: "Give the lab a title." }).trim().min(3, "Give the lab a title of at least 3 characters.").max(120, "Keep the title under 120 characters."),
+      title: z
+        .string({ error: "Give the lab a title." })
+        .trim()
+        .min(3, "Give the lab a title of at least 3 characters.")
+        .max(120, "Keep the title under 120 characters."),
       kind: z.enum(experimentKinds, { error: "Choose the experiment." }),
       instructions: z.string().trim().max(20_000, "Keep the instructions under 20,000 characters.").default(""),
       opensAt: wallClock(timeZone, "opening time"),
@@ -145,7 +163,11 @@ export function labInputFor(timeZone: string) {
         context.addIssue({ code: "custom", path: ["dueAt"], message: "The due time must come after the opening time." });
       }
       if (lab.lateCutoffAt && lab.lateCutoffAt.getTime() <= lab.dueAt.getTime()) {
-        context.addIssue({ code: "custom", path: ["lateCutoffAt"], message: "The late cut-off must come after the due time, or stay empty for no late hand-ins." });
+        context.addIssue({
+          code: "custom",
+          path: ["lateCutoffAt"],
+          message: "The late cut-off must come after the due time, or stay empty for no late hand-ins.",
+        });
       }
     });
 }

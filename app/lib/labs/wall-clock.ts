@@ -20,13 +20,24 @@ export function wallClockToInstant(wallClock: string, timeZone: string): WallClo
   if (!match) return { ok: false, reason: "format" };
   const [year, month, day, hour, minute] = match.slice(1).map(Number);
   const calendar = new Date(Date.UTC(year, month - 1, day, hour, minute));
-  if (calendar.getUTCMonth() !== month - 1 || calendar.getUTCDate() !== day || calendar.getUTCHours() !== hour || calendar.getUTCMinutes() !== minute) {
+  if (
+    calendar.getUTCMonth() !== month - 1 ||
+    calendar.getUTCDate() !== day ||
+    calendar.getUTCHours() !== hour ||
+    calendar.getUTCMinutes() !== minute
+  ) {
     return { ok: false, reason: "format" };
   }
   const local = new TZDate(year, month - 1, day, hour, minute, timeZone);
   if (Number.isNaN(local.getTime())) return { ok: false, reason: "format" };
   // TZDate moves a skipped time forward; reading the wall clock back tells a skipped time apart.
-  if (local.getFullYear() !== year || local.getMonth() !== month - 1 || local.getDate() !== day || local.getHours() !== hour || local.getMinutes() !== minute) {
+  if (
+    local.getFullYear() !== year ||
+    local.getMonth() !== month - 1 ||
+    local.getDate() !== day ||
+    local.getHours() !== hour ||
+    local.getMinutes() !== minute
+  ) {
     return { ok: false, reason: "skipped" };
   }
   return { ok: true, instant: new Date(local.getTime()) };

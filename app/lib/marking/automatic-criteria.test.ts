@@ -2,7 +2,11 @@ import { describe, expect, it } from "vitest";
 import { evaluateAutoCriterion, suggestAutomaticCriteria, type HandInEvidence } from "./automatic-criteria";
 import type { RubricCriterion } from "./rubric";
 
-const auto = (autoRule: RubricCriterion["autoRule"], maxPoints: number, autoParams: RubricCriterion["autoParams"] = {}): RubricCriterion => ({
+const auto = (
+  autoRule: RubricCriterion["autoRule"],
+  maxPoints: number,
+  autoParams: RubricCriterion["autoParams"] = {},
+): RubricCriterion => ({
   id: `c-${autoRule}`,
   position: 0,
   title: String(autoRule),
@@ -14,11 +18,24 @@ const auto = (autoRule: RubricCriterion["autoRule"], maxPoints: number, autoPara
   autoRule,
   autoParams,
 });
-const handIn: HandInEvidence = { handedIn: true, late: false, dropCount: 10, requiredDrops: 10, figure: 1.04, classLabel: "consistent", classReason: "drag 2 % above the class median" };
+const handIn: HandInEvidence = {
+  handedIn: true,
+  late: false,
+  dropCount: 10,
+  requiredDrops: 10,
+  figure: 1.04,
+  classLabel: "consistent",
+  classReason: "drag 2 % above the class median",
+};
 
 describe("automatic criteria", () => {
   it("give every rule 0 for a missing hand-in", () => {
-    const rubric = [auto("required_drops", 2), auto("within_reference", 3, { tolerancePercent: 10 }), auto("not_outlier", 2), auto("on_time", 1)];
+    const rubric = [
+      auto("required_drops", 2),
+      auto("within_reference", 3, { tolerancePercent: 10 }),
+      auto("not_outlier", 2),
+      auto("on_time", 1),
+    ];
     const suggestions = suggestAutomaticCriteria(rubric, { ...handIn, handedIn: false });
     expect(Object.values(suggestions).map((suggestion) => suggestion.points)).toEqual([0, 0, 0, 0]);
   });
@@ -40,7 +57,10 @@ describe("automatic criteria", () => {
   });
 
   it("follow the class label: consistent all, suspect the suspect points (half by default), outlier none", () => {
-    expect(evaluateAutoCriterion(auto("not_outlier", 3), handIn)).toMatchObject({ points: 3, reason: expect.stringContaining("2 % above the class median") });
+    expect(evaluateAutoCriterion(auto("not_outlier", 3), handIn)).toMatchObject({
+      points: 3,
+      reason: expect.stringContaining("2 % above the class median"),
+    });
     expect(evaluateAutoCriterion(auto("not_outlier", 3), { ...handIn, classLabel: "suspect" }).points).toBe(1.5);
     expect(evaluateAutoCriterion(auto("not_outlier", 3, { suspectPoints: 1 }), { ...handIn, classLabel: "suspect" }).points).toBe(1);
     expect(evaluateAutoCriterion(auto("not_outlier", 3), { ...handIn, classLabel: "outlier" }).points).toBe(0);
@@ -48,7 +68,10 @@ describe("automatic criteria", () => {
   });
 
   it("leave the class criterion to a marker when the mark rests on a version the class comparison no longer labels", () => {
-    expect(evaluateAutoCriterion(auto("not_outlier", 3), { ...handIn, classLabel: null, superseded: true })).toMatchObject({ points: null, reason: expect.stringContaining("earlier version") });
+    expect(evaluateAutoCriterion(auto("not_outlier", 3), { ...handIn, classLabel: null, superseded: true })).toMatchObject({
+      points: null,
+      reason: expect.stringContaining("earlier version"),
+    });
     // The other rules read the marked version itself, so they still decide.
     expect(evaluateAutoCriterion(auto("required_drops", 2), { ...handIn, superseded: true }).points).toBe(2);
   });

@@ -30,7 +30,10 @@ export type AutoSuggestion = { points: number | null; reason: string };
 const percent = (value: number) => `${(value * 100).toFixed(1)} %`;
 
 /** The points one automatic criterion suggests for a hand-in. */
-export function evaluateAutoCriterion(criterion: Pick<RubricCriterion, "autoRule" | "autoParams" | "maxPoints">, evidence: HandInEvidence): AutoSuggestion {
+export function evaluateAutoCriterion(
+  criterion: Pick<RubricCriterion, "autoRule" | "autoParams" | "maxPoints">,
+  evidence: HandInEvidence,
+): AutoSuggestion {
   const max = criterion.maxPoints;
   if (!evidence.handedIn) return { points: 0, reason: "Nothing handed in." };
   switch (criterion.autoRule) {
@@ -51,11 +54,14 @@ export function evaluateAutoCriterion(criterion: Pick<RubricCriterion, "autoRule
         : { points: 0, reason: `Normalised figure ${figure}: ${percent(off)} from the reference, beyond ±${percent(tolerance)}.` };
     }
     case "not_outlier": {
-      if (evidence.superseded) return { points: null, reason: "The mark rests on an earlier version; the class comparison labels the latest one. Mark it again." };
-      if (evidence.classLabel === null) return { points: null, reason: "The hand-in is not in the class comparison (no normalised figure)." };
+      if (evidence.superseded)
+        return { points: null, reason: "The mark rests on an earlier version; the class comparison labels the latest one. Mark it again." };
+      if (evidence.classLabel === null)
+        return { points: null, reason: "The hand-in is not in the class comparison (no normalised figure)." };
       const why = evidence.classReason ? ` ${evidence.classReason}` : "";
       if (evidence.classLabel === "consistent") return { points: max, reason: `Consistent with the class.${why}` };
-      if (evidence.classLabel === "suspect") return { points: roundPoints(criterion.autoParams.suspectPoints ?? max / 2), reason: `Suspect in the class comparison.${why}` };
+      if (evidence.classLabel === "suspect")
+        return { points: roundPoints(criterion.autoParams.suspectPoints ?? max / 2), reason: `Suspect in the class comparison.${why}` };
       return { points: 0, reason: `Outlier in the class comparison.${why}` };
     }
     case "on_time": {

@@ -44,15 +44,15 @@ export const markingDeskSearch = z
     page: pageNumber.default(1),
     pageSize: z.coerce.number().int().min(1).max(MAX_DESK_PAGE_SIZE).default(DEFAULT_DESK_PAGE_SIZE),
   })
-  .transform(
-    (parsed): MarkingDeskFilters => ({
-      cohortId: parsed.cohort,
-      status: parsed.status,
-      sort: parsed.sort ? { by: parsed.sort.replace(/^-/, "") as DeskSortKey, direction: parsed.sort.startsWith("-") ? "desc" : "asc" } : undefined,
-      page: parsed.page,
-      pageSize: parsed.pageSize,
-    }),
-  );
+  .transform((parsed): MarkingDeskFilters => ({
+    cohortId: parsed.cohort,
+    status: parsed.status,
+    sort: parsed.sort
+      ? { by: parsed.sort.replace(/^-/, "") as DeskSortKey, direction: parsed.sort.startsWith("-") ? "desc" : "asc" }
+      : undefined,
+    page: parsed.page,
+    pageSize: parsed.pageSize,
+  }));
 
 /** The search string for filters (defaults left out), the inverse of `markingDeskSearch`. */
 export function markingDeskSearchParams(filters: Partial<MarkingDeskFilters>): URLSearchParams {

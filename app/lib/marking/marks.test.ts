@@ -39,7 +39,13 @@ describe("mark totals", () => {
   });
 
   it("are incomplete while a criterion has neither points nor a suggestion", () => {
-    expect(markTotals(rubric, { scores: { [method.id]: { points: 2, level: 2 } }, latePenaltyPoints: 0 }, { [drops.id]: { points: 2, reason: "" } }).complete).toBe(false);
+    expect(
+      markTotals(
+        rubric,
+        { scores: { [method.id]: { points: 2, level: 2 } }, latePenaltyPoints: 0 },
+        { [drops.id]: { points: 2, reason: "" } },
+      ).complete,
+    ).toBe(false);
   });
 
   it("read a level's points from the rubric, so a changed level carries through", () => {
@@ -48,7 +54,11 @@ describe("mark totals", () => {
   });
 
   it("prefer an override to the suggestion", () => {
-    const totals = markTotals([drops], { scores: { [drops.id]: { points: 1, overrideReason: "two drops timed twice" } }, latePenaltyPoints: 0 }, { [drops.id]: { points: 2, reason: "" } });
+    const totals = markTotals(
+      [drops],
+      { scores: { [drops.id]: { points: 1, overrideReason: "two drops timed twice" } }, latePenaltyPoints: 0 },
+      { [drops.id]: { points: 2, reason: "" } },
+    );
     expect(totals.cells[drops.id]).toMatchObject({ points: 1, source: "override", suggestion: { points: 2 } });
   });
 });
@@ -61,23 +71,32 @@ describe("applying a change", () => {
   });
 
   it("keeps range points within the range", () => {
-    expect(applyMarkChange(rubric, null, { kind: "score", criterionId: discussion.id, points: 4.5 }).scores[discussion.id]).toEqual({ points: 4.5 });
+    expect(applyMarkChange(rubric, null, { kind: "score", criterionId: discussion.id, points: 4.5 }).scores[discussion.id]).toEqual({
+      points: 4.5,
+    });
     expect(() => applyMarkChange(rubric, null, { kind: "score", criterionId: discussion.id, points: 5.5 })).toThrow(/between 0 and 5/);
   });
 
   it("needs a reason to override an automatic criterion", () => {
     expect(() => applyMarkChange(rubric, null, { kind: "score", criterionId: drops.id, points: 1 })).toThrow(/why/);
-    expect(applyMarkChange(rubric, null, { kind: "score", criterionId: drops.id, points: 1, overrideReason: "two drops were timed twice" }).scores[drops.id]).toMatchObject({ points: 1 });
+    expect(
+      applyMarkChange(rubric, null, { kind: "score", criterionId: drops.id, points: 1, overrideReason: "two drops were timed twice" })
+        .scores[drops.id],
+    ).toMatchObject({ points: 1 });
   });
 
   it("clears a criterion, except on a released mark", () => {
     const before = applyMarkChange(rubric, null, { kind: "score", criterionId: discussion.id, points: 3 });
     expect(applyMarkChange(rubric, before, { kind: "score", criterionId: discussion.id, points: null }).scores).toEqual({});
-    expect(() => applyMarkChange(rubric, before, { kind: "score", criterionId: discussion.id, points: null }, { released: true })).toThrow(AppError);
+    expect(() => applyMarkChange(rubric, before, { kind: "score", criterionId: discussion.id, points: null }, { released: true })).toThrow(
+      AppError,
+    );
   });
 
   it("refuses a criterion of another rubric and a negative late penalty", () => {
-    expect(() => applyMarkChange(rubric, null, { kind: "score", criterionId: "00000000-0000-4000-8000-000000000009", points: 1 })).toThrow(/not in the lab's rubric/);
+    expect(() => applyMarkChange(rubric, null, { kind: "score", criterionId: "00000000-0000-4000-8000-000000000009", points: 1 })).toThrow(
+      /not in the lab's rubric/,
+    );
     expect(() => applyMarkChange(rubric, null, { kind: "latePenalty", points: -1 })).toThrow(AppError);
   });
 
@@ -91,7 +110,11 @@ describe("applying a change", () => {
 describe("release", () => {
   it("writes in the suggestions that are not overridden, and only those", () => {
     const other = criterion("00000000-0000-4000-8000-000000000004", { kind: "auto", autoRule: "on_time", maxPoints: 1 });
-    const frozen = freezeSuggestions([drops, other], { [other.id]: { points: 0, overrideReason: "handed in by e-mail" } }, { [drops.id]: { points: 2, reason: "" }, [other.id]: { points: 1, reason: "" } });
+    const frozen = freezeSuggestions(
+      [drops, other],
+      { [other.id]: { points: 0, overrideReason: "handed in by e-mail" } },
+      { [drops.id]: { points: 2, reason: "" }, [other.id]: { points: 1, reason: "" } },
+    );
     expect(frozen).toEqual({ [drops.id]: { points: 2, frozen: true }, [other.id]: { points: 0, overrideReason: "handed in by e-mail" } });
   });
 });

@@ -54,14 +54,22 @@ export type MarkTotals = {
 export type MarkProgress = "unmarked" | "partial" | "marked";
 
 const levelPoints = (criterion: RubricCriterion, level: number | undefined) =>
-  level !== undefined && criterion.levels && level >= 1 && level <= criterion.levels.length ? criterion.levels[level - 1].points : undefined;
+  level !== undefined && criterion.levels && level >= 1 && level <= criterion.levels.length
+    ? criterion.levels[level - 1].points
+    : undefined;
 
 /** One criterion's cell: a level's points are read from the rubric, so editing a level's points carries through to unreleased marks. */
 export function markCell(criterion: RubricCriterion, score: MarkScore | undefined, suggestion: AutoSuggestion | null): MarkCell {
   if (criterion.kind === "auto") {
     if (score?.frozen) return { points: score.points, level: null, source: "released", overrideReason: null, suggestion };
     if (score) return { points: score.points, level: null, source: "override", overrideReason: score.overrideReason ?? null, suggestion };
-    return { points: suggestion?.points ?? null, level: null, source: suggestion?.points === null || !suggestion ? "unmarked" : "suggestion", overrideReason: null, suggestion };
+    return {
+      points: suggestion?.points ?? null,
+      level: null,
+      source: suggestion?.points === null || !suggestion ? "unmarked" : "suggestion",
+      overrideReason: null,
+      suggestion,
+    };
   }
   if (!score) return { points: null, level: null, source: "unmarked", overrideReason: null, suggestion: null };
   const points = criterion.kind === "levels" ? (levelPoints(criterion, score.level) ?? score.points) : score.points;
@@ -86,20 +94,32 @@ export function markTotals(
     else subtotal += cell.points;
   }
   subtotal = roundPoints(subtotal);
-  return { cells, subtotal, total: Math.max(0, roundPoints(subtotal - (content?.latePenaltyPoints ?? 0))), maxTotal: roundPoints(maxTotal), complete };
+  return {
+    cells,
+    subtotal,
+    total: Math.max(0, roundPoints(subtotal - (content?.latePenaltyPoints ?? 0))),
+    maxTotal: roundPoints(maxTotal),
+    complete,
+  };
 }
 
-export const markProgress = (hasMark: boolean, totals: Pick<MarkTotals, "complete">): MarkProgress => (!hasMark ? "unmarked" : totals.complete ? "marked" : "partial");
+export const markProgress = (hasMark: boolean, totals: Pick<MarkTotals, "complete">): MarkProgress =>
+  !hasMark ? "unmarked" : totals.complete ? "marked" : "partial";
 
 /**
  * Release writes each automatic criterion's current suggestion into the scores (unless overridden), so
  * the released mark no longer moves with the class.
  */
-export function freezeSuggestions(rubric: readonly RubricCriterion[], scores: MarkScores, suggestions: Record<string, AutoSuggestion>): MarkScores {
+export function freezeSuggestions(
+  rubric: readonly RubricCriterion[],
+  scores: MarkScores,
+  suggestions: Record<string, AutoSuggestion>,
+): MarkScores {
   const frozen: MarkScores = { ...scores };
   for (const criterion of rubric) {
     const points = suggestions[criterion.id]?.points;
-    if (criterion.kind === "auto" && !frozen[criterion.id] && points !== null && points !== undefined) frozen[criterion.id] = { points, frozen: true };
+    if (criterion.kind === "auto" && !frozen[criterion.id] && points !== null && points !== undefined)
+      frozen[criterion.id] = { points, frozen: true };
   }
   return frozen;
 }
@@ -140,14 +160,22 @@ const MIN_REASON_LENGTH = 3;
  * The mark's content after `change`, or an `AppError` (code invalid_value). A released mark keeps a value for every
  * criterion it has one for: clearing is refused there, since the student has seen it.
  */
-export function applyMarkChange(rubric: readonly RubricCriterion[], before: MarkContent | null, change: MarkChange, { released = false } = {}): MarkContent {
-  const content: MarkContent = before ? { scores: { ...before.scores }, feedback: before.feedback, latePenaltyPoints: before.latePenaltyPoints } : { scores: {}, feedback: "", latePenaltyPoints: 0 };
+export function applyMarkChange(
+  rubric: readonly RubricCriterion[],
+  before: MarkContent | null,
+  change: MarkChange,
+  { released = false } = {},
+): MarkContent {
+  const content: MarkContent = before
+    ? { scores: { ...before.scores }, feedback: before.feedback, latePenaltyPoints: before.latePenaltyPoints }
+    : { scores: {}, feedback: "", latePenaltyPoints: 0 };
   if (change.kind === "feedback") {
     content.feedback = change.text.trim();
     return content;
   }
   if (change.kind === "latePenalty") {
-    if (change.points < 0 || change.points > MAX_CRITERION_POINTS) throw refusedValue(`The late penalty is between 0 and ${MAX_CRITERION_POINTS} points.`, "points");
+    if (change.points < 0 || change.points > MAX_CRITERION_POINTS)
+      throw refusedValue(`The late penalty is between 0 and ${MAX_CRITERION_POINTS} points.`, "points");
     content.latePenaltyPoints = roundPoints(change.points);
     return content;
   }
@@ -156,7 +184,8 @@ export function applyMarkChange(rubric: readonly RubricCriterion[], before: Mark
   const level = change.level ?? null;
   const points = change.points ?? null;
   if (level === null && points === null) {
-    if (released && content.scores[criterion.id]) throw refusedValue("This mark is released: give the criterion a value instead of clearing it.", "points");
+    if (released && content.scores[criterion.id])
+      throw refusedValue("This mark is released: give the criterion a value instead of clearing it.", "points");
     delete content.scores[criterion.id];
     return content;
   }
@@ -168,7 +197,8 @@ export function applyMarkChange(rubric: readonly RubricCriterion[], before: Mark
   }
   if (level !== null) throw refusedValue(`“${criterion.title}” is scored in points, not levels.`, "level");
   const low = criterion.kind === "range" ? criterion.minPoints : 0;
-  if (points! < low || points! > criterion.maxPoints) throw refusedValue(`Give between ${low} and ${criterion.maxPoints} points.`, "points");
+  if (points! < low || points! > criterion.maxPoints)
+    throw refusedValue(`Give between ${low} and ${criterion.maxPoints} points.`, "points");
   if (criterion.kind === "range") {
     content.scores[criterion.id] = { points: roundPoints(points!) };
     return content;
@@ -181,10 +211,17 @@ export function applyMarkChange(rubric: readonly RubricCriterion[], before: Mark
 
 function canonical(value: unknown): unknown {
   if (Array.isArray(value)) return value.map(canonical);
-  if (value && typeof value === "object") return Object.fromEntries(Object.keys(value).sort().map((key) => [key, canonical((value as Record<string, unknown>)[key])]));
+  if (value && typeof value === "object")
+    return Object.fromEntries(
+      Object.keys(value)
+        .sort()
+        .map((key) => [key, canonical((value as Record<string, unknown>)[key])]),
+    );
   return value;
 }
 
 /** Whether two contents say the same (key order aside): a change to the same values is not recorded. */
 export const sameContent = (a: MarkContent | null, b: MarkContent) =>
-  a !== null && JSON.stringify(canonical({ s: a.scores, f: a.feedback, l: a.latePenaltyPoints })) === JSON.stringify(canonical({ s: b.scores, f: b.feedback, l: b.latePenaltyPoints }));
+  a !== null &&
+  JSON.stringify(canonical({ s: a.scores, f: a.feedback, l: a.latePenaltyPoints })) ===
+    JSON.stringify(canonical({ s: b.scores, f: b.feedback, l: b.latePenaltyPoints }));

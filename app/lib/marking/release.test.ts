@@ -34,7 +34,15 @@ describe("releaseAction", () => {
   });
 
   it("counts what each choice releases", () => {
-    const counts = { ...emptyReleaseCounts(), "fully-marked": 5, "partly-marked": 2, "marked-on-earlier-version": 1, "no-hand-in": 3, "no-hand-in-still-open": 4, "not-marked": 6 };
+    const counts = {
+      ...emptyReleaseCounts(),
+      "fully-marked": 5,
+      "partly-marked": 2,
+      "marked-on-earlier-version": 1,
+      "no-hand-in": 3,
+      "no-hand-in-still-open": 4,
+      "not-marked": 6,
+    };
     expect(releasedCount(counts, { scope: "marked", zeroForNoHandIn: false })).toBe(5);
     expect(releasedCount(counts, { scope: "all", zeroForNoHandIn: false })).toBe(8);
     expect(releasedCount(counts, { scope: "all", zeroForNoHandIn: true })).toBe(11);
@@ -45,14 +53,28 @@ describe("releaseChoice", () => {
   it("needs a scope, and reads unticked boxes as no", () => {
     expect(releaseChoice.safeParse({}).success).toBe(false);
     expect(releaseChoice.parse({ scope: "all" })).toEqual({ scope: "all", zeroForNoHandIn: false, whileOpen: false });
-    expect(releaseChoice.parse({ scope: "marked", zeroForNoHandIn: "on", whileOpen: "on" })).toEqual({ scope: "marked", zeroForNoHandIn: true, whileOpen: true });
+    expect(releaseChoice.parse({ scope: "marked", zeroForNoHandIn: "on", whileOpen: "on" })).toEqual({
+      scope: "marked",
+      zeroForNoHandIn: true,
+      whileOpen: true,
+    });
   });
 });
 
 describe("zeroMark", () => {
   it("scores every criterion, totals 0, and picks a levels criterion's zero-point level", () => {
     const rubric = [
-      { id: "a", kind: "levels", title: "Set-up", levels: [{ points: 0, description: "None" }, { points: 2, description: "Full" }], minPoints: 0, maxPoints: 2 },
+      {
+        id: "a",
+        kind: "levels",
+        title: "Set-up",
+        levels: [
+          { points: 0, description: "None" },
+          { points: 2, description: "Full" },
+        ],
+        minPoints: 0,
+        maxPoints: 2,
+      },
       { id: "b", kind: "range", title: "Discussion", minPoints: 0, maxPoints: 4 },
       { id: "c", kind: "auto", title: "On time", autoRule: "on_time", minPoints: 0, maxPoints: 1, autoParams: {} },
     ] as unknown as RubricCriterion[];

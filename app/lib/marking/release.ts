@@ -49,11 +49,23 @@ export type ReleaseStanding =
   /** Nothing handed in yet, and they still may. */
   | "no-hand-in-still-open";
 
-export const releaseStandings: readonly ReleaseStanding[] = ["released", "fully-marked", "partly-marked", "marked-on-earlier-version", "not-marked", "no-hand-in", "no-hand-in-still-open"];
+export const releaseStandings: readonly ReleaseStanding[] = [
+  "released",
+  "fully-marked",
+  "partly-marked",
+  "marked-on-earlier-version",
+  "not-marked",
+  "no-hand-in",
+  "no-hand-in-still-open",
+];
 
 export type ReleaseCounts = Record<ReleaseStanding, number>;
 
-export function releaseStanding(student: { handedIn: boolean; stillOpen: boolean; mark: { released: boolean; complete: boolean; onCountedVersion: boolean } | null }): ReleaseStanding {
+export function releaseStanding(student: {
+  handedIn: boolean;
+  stillOpen: boolean;
+  mark: { released: boolean; complete: boolean; onCountedVersion: boolean } | null;
+}): ReleaseStanding {
   const { mark } = student;
   if (mark?.released) return "released";
   if (!student.handedIn) return student.stillOpen ? "no-hand-in-still-open" : "no-hand-in";
@@ -63,7 +75,11 @@ export function releaseStanding(student: { handedIn: boolean; stillOpen: boolean
 }
 
 /** What the choice releases for a student of `standing`: their mark as it stands, a zero written for them, or nothing. */
-export function releaseAction(standing: ReleaseStanding, hasMark: boolean, choice: Pick<ReleaseChoice, "scope" | "zeroForNoHandIn">): "mark" | "zero" | null {
+export function releaseAction(
+  standing: ReleaseStanding,
+  hasMark: boolean,
+  choice: Pick<ReleaseChoice, "scope" | "zeroForNoHandIn">,
+): "mark" | "zero" | null {
   switch (standing) {
     case "fully-marked":
       return "mark";
@@ -86,7 +102,8 @@ export function releasedCount(counts: ReleaseCounts, choice: Pick<ReleaseChoice,
   );
 }
 
-export const emptyReleaseCounts = (): ReleaseCounts => Object.fromEntries(releaseStandings.map((standing) => [standing, 0])) as ReleaseCounts;
+export const emptyReleaseCounts = (): ReleaseCounts =>
+  Object.fromEntries(releaseStandings.map((standing) => [standing, 0])) as ReleaseCounts;
 
 /**
  * The mark a student who handed in nothing is released with when the instructor chooses so: no points
@@ -97,7 +114,8 @@ export function zeroMark(rubric: readonly RubricCriterion[]): MarkContent {
   const scores: MarkScores = {};
   for (const criterion of rubric) {
     const zeroLevel = criterion.kind === "levels" ? (criterion.levels ?? []).findIndex((level) => level.points === 0) : -1;
-    scores[criterion.id] = criterion.kind === "auto" ? { points: 0, frozen: true } : zeroLevel >= 0 ? { points: 0, level: zeroLevel + 1 } : { points: 0 };
+    scores[criterion.id] =
+      criterion.kind === "auto" ? { points: 0, frozen: true } : zeroLevel >= 0 ? { points: 0, level: zeroLevel + 1 } : { points: 0 };
   }
   return { scores, feedback: "Nothing was handed in for this lab.", latePenaltyPoints: 0 };
 }

@@ -5,7 +5,14 @@ describe("the rubric schema", () => {
   it("accepts levels, a range and automatic rules, and stores a levels criterion's lowest and highest level", () => {
     const parsed = rubricInput.parse({
       criteria: [
-        { kind: "levels", title: "Method", levels: [{ points: 1, description: "Some" }, { points: 4, description: "All" }] },
+        {
+          kind: "levels",
+          title: "Method",
+          levels: [
+            { points: 1, description: "Some" },
+            { points: 4, description: "All" },
+          ],
+        },
         { kind: "range", title: "Discussion", minPoints: 0, maxPoints: 6 },
         { kind: "auto", title: "Close to the reference", rule: "within_reference", maxPoints: 3, params: { tolerancePercent: 10 } },
       ],
@@ -18,12 +25,21 @@ describe("the rubric schema", () => {
     const fails = (criteria: unknown[]) => !rubricInput.safeParse({ criteria }).success;
     expect(fails([{ kind: "auto", title: "Close", rule: "within_reference", maxPoints: 3 }])).toBe(true);
     expect(fails([{ kind: "range", title: "Discussion", minPoints: 5, maxPoints: 2 }])).toBe(true);
-    expect(fails([{ kind: "levels", title: "Method", levels: Array.from({ length: 10 }, (_, i) => ({ points: i, description: `L${i}` })) }])).toBe(true);
+    expect(
+      fails([{ kind: "levels", title: "Method", levels: Array.from({ length: 10 }, (_, i) => ({ points: i, description: `L${i}` })) }]),
+    ).toBe(true);
     const id = "00000000-0000-4000-8000-000000000001";
-    expect(fails([{ id, kind: "range", title: "A", minPoints: 0, maxPoints: 1 }, { id, kind: "range", title: "B", minPoints: 0, maxPoints: 1 }])).toBe(true);
+    expect(
+      fails([
+        { id, kind: "range", title: "A", minPoints: 0, maxPoints: 1 },
+        { id, kind: "range", title: "B", minPoints: 0, maxPoints: 1 },
+      ]),
+    ).toBe(true);
   });
 
   it("describes what an automatic rule awards", () => {
-    expect(describeAutoRule({ autoRule: "on_time", autoParams: { latePenaltyPoints: 1 }, maxPoints: 2 }, 10)).toBe("2 points when handed in on time, 1 when late.");
+    expect(describeAutoRule({ autoRule: "on_time", autoParams: { latePenaltyPoints: 1 }, maxPoints: 2 }, 10)).toBe(
+      "2 points when handed in on time, 1 when late.",
+    );
   });
 });

@@ -71,7 +71,10 @@ export const levelsCriterionInput = z.object({
 
 export const rangeCriterionInput = z
   .object({ ...common, kind: z.literal("range"), minPoints: points, maxPoints: points })
-  .refine((criterion) => criterion.maxPoints > criterion.minPoints, { message: "The maximum must be above the minimum.", path: ["maxPoints"] });
+  .refine((criterion) => criterion.maxPoints > criterion.minPoints, {
+    message: "The maximum must be above the minimum.",
+    path: ["maxPoints"],
+  });
 
 export const autoCriterionInput = z
   .object({
@@ -94,7 +97,8 @@ export const autoCriterionInput = z
     }
     for (const key of ["suspectPoints", "latePenaltyPoints"] as const) {
       const value = params[key];
-      if (value !== undefined && value > maxPoints) context.addIssue({ code: "custom", path: ["params", key], message: `At most the criterion's ${maxPoints} points.` });
+      if (value !== undefined && value > maxPoints)
+        context.addIssue({ code: "custom", path: ["params", key], message: `At most the criterion's ${maxPoints} points.` });
     }
   });
 
@@ -108,7 +112,8 @@ export const rubricInput = z
     const seen = new Set<string>();
     rubric.criteria.forEach((criterion, index) => {
       if (!criterion.id) return;
-      if (seen.has(criterion.id)) context.addIssue({ code: "custom", path: ["criteria", index, "id"], message: "This criterion appears twice." });
+      if (seen.has(criterion.id))
+        context.addIssue({ code: "custom", path: ["criteria", index, "id"], message: "This criterion appears twice." });
       seen.add(criterion.id);
     });
   });
@@ -119,9 +124,26 @@ export function criterionColumns(input: z.output<typeof rubricCriterionInput>) {
   const base = { title: input.title, description: input.description };
   if (input.kind === "levels") {
     const levelPoints = input.levels.map((level) => level.points);
-    return { ...base, kind: input.kind, levels: input.levels, minPoints: Math.min(...levelPoints), maxPoints: Math.max(...levelPoints), autoRule: null, autoParams: {} };
+    return {
+      ...base,
+      kind: input.kind,
+      levels: input.levels,
+      minPoints: Math.min(...levelPoints),
+      maxPoints: Math.max(...levelPoints),
+      autoRule: null,
+      autoParams: {},
+    };
   }
-  if (input.kind === "range") return { ...base, kind: input.kind, levels: null, minPoints: input.minPoints, maxPoints: input.maxPoints, autoRule: null, autoParams: {} };
+  if (input.kind === "range")
+    return {
+      ...base,
+      kind: input.kind,
+      levels: null,
+      minPoints: input.minPoints,
+      maxPoints: input.maxPoints,
+      autoRule: null,
+      autoParams: {},
+    };
   const params: AutoRuleParams = {};
   if (input.rule === "within_reference") params.tolerancePercent = input.params.tolerancePercent;
   if (input.rule === "not_outlier" && input.params.suspectPoints !== undefined) params.suspectPoints = input.params.suspectPoints;
@@ -138,7 +160,8 @@ export function criterionToInput(criterion: RubricCriterion, keepId = true): Rub
 }
 
 /** The most a mark can reach: the sum of every criterion's maximum. */
-export const maxTotalOf = (rubric: readonly RubricCriterion[]) => roundPoints(rubric.reduce((sum, criterion) => sum + criterion.maxPoints, 0));
+export const maxTotalOf = (rubric: readonly RubricCriterion[]) =>
+  roundPoints(rubric.reduce((sum, criterion) => sum + criterion.maxPoints, 0));
 
 /** Points are kept to two decimals, so that sums of halves and quarters print as typed. */
 export const roundPoints = (value: number) => Math.round(value * 100) / 100;

@@ -9,9 +9,9 @@ const CLASS = Array.from({ length: 37 }, (_, i) => ({ id: `s${i}`, figure: Math.
 // NIST/SEMATECH e-Handbook §1.3.5.17.3: Rosner's 54 values (see generalized-esd.test.ts). As figures e^x, the
 // comparison's ln(figure) is the published data itself, so the handbook's R_i and λ_i apply unchanged.
 const ROSNER = [
-  -0.25, 0.68, 0.94, 1.15, 1.2, 1.26, 1.26, 1.34, 1.38, 1.43, 1.49, 1.49, 1.55, 1.56, 1.58, 1.65, 1.69, 1.7, 1.76, 1.77, 1.81, 1.91,
-  1.94, 1.96, 1.99, 2.06, 2.09, 2.1, 2.14, 2.15, 2.23, 2.24, 2.26, 2.35, 2.37, 2.4, 2.47, 2.54, 2.62, 2.64, 2.9, 2.92, 2.92, 2.93, 3.21,
-  3.26, 3.3, 3.59, 3.68, 4.3, 4.64, 5.34, 5.42, 6.01,
+  -0.25, 0.68, 0.94, 1.15, 1.2, 1.26, 1.26, 1.34, 1.38, 1.43, 1.49, 1.49, 1.55, 1.56, 1.58, 1.65, 1.69, 1.7, 1.76, 1.77, 1.81, 1.91, 1.94,
+  1.96, 1.99, 2.06, 2.09, 2.1, 2.14, 2.15, 2.23, 2.24, 2.26, 2.35, 2.37, 2.4, 2.47, 2.54, 2.62, 2.64, 2.9, 2.92, 2.92, 2.93, 3.21, 3.26,
+  3.3, 3.59, 3.68, 4.3, 4.64, 5.34, 5.42, 6.01,
 ].map((value, i) => ({ id: `r${i}`, figure: Math.exp(value) }));
 
 describe("classComparison — Grubbs", () => {
@@ -44,11 +44,22 @@ describe("classComparison — Grubbs", () => {
       method: "grubbs",
       maxOutliers: 1,
     });
-    expect(results.slice(0, 2).map((entry) => entry.label).sort()).toEqual(["outlier", "suspect"]);
+    expect(
+      results
+        .slice(0, 2)
+        .map((entry) => entry.label)
+        .sort(),
+    ).toEqual(["outlier", "suspect"]);
   });
 
   it("calls everything consistent in a class too small to compare", () => {
-    const results = classComparison([{ id: "a", figure: 1 }, { id: "b", figure: 9 }], { method: "grubbs" });
+    const results = classComparison(
+      [
+        { id: "a", figure: 1 },
+        { id: "b", figure: 9 },
+      ],
+      { method: "grubbs" },
+    );
     expect(results.map((entry) => entry.label)).toEqual(["consistent", "consistent"]);
   });
 });
@@ -62,7 +73,10 @@ describe("classComparison — generalized ESD", () => {
   });
 
   it("finds both figures of a masked pair that Grubbs' test misses (the issue's masking example as figures)", () => {
-    const masked = [5.02, 4.98, 5.01, 4.99, 5.0, 5.03, 4.97, 5.02, 4.99, 5.01, 6.1, 6.2].map((value, i) => ({ id: `m${i}`, figure: Math.exp(value) }));
+    const masked = [5.02, 4.98, 5.01, 4.99, 5.0, 5.03, 4.97, 5.02, 4.99, 5.01, 6.1, 6.2].map((value, i) => ({
+      id: `m${i}`,
+      figure: Math.exp(value),
+    }));
     const esd = classComparison(masked, { method: "esd", maxOutliers: 2 });
     expect(esd.slice(10).map((entry) => entry.label)).toEqual(["outlier", "outlier"]);
     expect(esd.slice(0, 10).every((entry) => entry.label === "consistent")).toBe(true);
@@ -92,9 +106,15 @@ describe("classComparison — Tukey", () => {
 
 describe("classComparison — input", () => {
   it("refuses figures that are not positive", () => {
-    expect(() => classComparison([{ id: "a", figure: 0 }, { id: "b", figure: Number.NaN }], { method: "iqr" })).toThrow(
-      ReductionInputError,
-    );
+    expect(() =>
+      classComparison(
+        [
+          { id: "a", figure: 0 },
+          { id: "b", figure: Number.NaN },
+        ],
+        { method: "iqr" },
+      ),
+    ).toThrow(ReductionInputError);
   });
 });
 
@@ -121,7 +141,13 @@ describe("normalisedFigure", () => {
 
   it("reads the results without stray drops when asked, and all drops when none was flagged", () => {
     const drops = [10, 10.02, 9.98, 10.01, 9.99, 10, 10.02, 11.5];
-    const drag = reduceFallingSphere({ ...example, drops, mode: "drag", fluid: { density: 1260, viscosity: 1.237246215 }, dragModel: "stokes" });
+    const drag = reduceFallingSphere({
+      ...example,
+      drops,
+      mode: "drag",
+      fluid: { density: 1260, viscosity: 1.237246215 },
+      dragModel: "stokes",
+    });
     if (drag.mode !== "drag" || !drag.withoutStrayDrops) throw new Error("expected a stray drop");
     const kept = drag.withoutStrayDrops;
     expect(normalisedFigure(drag, { withoutStrayDrops: true })).toBe(kept.dragCoefficient / kept.referenceDragCoefficient);

@@ -57,12 +57,10 @@ const MINIMUM_CLASS_SIZE_FOR_DEVIATE_TESTS = MINIMUM_DROPS_FOR_STRAY_TEST;
  * - `iqr`: Tukey's fences on ln(figure) with type-7 quartiles (R's default): beyond Q1 − k·IQR or
  *   Q3 + k·IQR → **suspect**; beyond the outer fences at 2k (3 for k = 1.5) → **outlier**.
  */
-export function classComparison(
-  entries: readonly ClassComparisonEntry[],
-  options: ClassComparisonOptions,
-): ClassComparisonResult[] {
+export function classComparison(entries: readonly ClassComparisonEntry[], options: ClassComparisonOptions): ClassComparisonResult[] {
   const issues = new IssueList();
-  if (options.method !== "grubbs" && options.method !== "esd" && options.method !== "iqr") issues.add("method", 'must be "grubbs", "esd" or "iqr"');
+  if (options.method !== "grubbs" && options.method !== "esd" && options.method !== "iqr")
+    issues.add("method", 'must be "grubbs", "esd" or "iqr"');
   const n = entries.length;
   // Each figure is checked inline; its path string is only built for one that fails.
   for (let i = 0; i < n; i++) {

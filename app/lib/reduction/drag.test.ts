@@ -14,7 +14,8 @@ import { DRAG_MODEL_RANGES, referenceDragCoefficient, referenceDragLogSlope } fr
  *   Re = 800:  the same with w = 2.90309 → −0.30708 → 0.4930
  */
 const STANDARD_CURVE: Record<number, number> = { 0.1: 244.26, 1: 27.156, 5: 7.033, 10: 4.2584, 100: 1.087, 500: 0.5549, 800: 0.493 };
-const deviation = (reynolds: number, model: "stokes" | "oseen" | "schiller-naumann") => referenceDragCoefficient(reynolds, model) / STANDARD_CURVE[reynolds] - 1;
+const deviation = (reynolds: number, model: "stokes" | "oseen" | "schiller-naumann") =>
+  referenceDragCoefficient(reynolds, model) / STANDARD_CURVE[reynolds] - 1;
 
 describe("referenceDragCoefficient against the standard drag curve", () => {
   // Schiller–Naumann is quoted to lie within about −4 %…+5 % of that curve below Re ≈ 800
@@ -47,7 +48,10 @@ describe("referenceDragLogSlope", () => {
     [150, "schiller-naumann"],
   ] as const)("at Re = %s (%s) matches a central difference of ln C_D in ln Re", (reynolds, model) => {
     const h = 1e-5;
-    const numeric = (Math.log(referenceDragCoefficient(reynolds * Math.exp(h), model)) - Math.log(referenceDragCoefficient(reynolds * Math.exp(-h), model))) / (2 * h);
+    const numeric =
+      (Math.log(referenceDragCoefficient(reynolds * Math.exp(h), model)) -
+        Math.log(referenceDragCoefficient(reynolds * Math.exp(-h), model))) /
+      (2 * h);
     expect(referenceDragLogSlope(reynolds, model)).toBeCloseTo(numeric, 8);
   });
 });

@@ -5,7 +5,14 @@
  */
 import { DRAG_MODEL_RANGES } from "./drag";
 import { ReductionInputError } from "./errors";
-import type { DragKeyResults, FallingSphereInput, ReductionCheck, ReductionCheckCode, ReductionUncertainty, ViscometryKeyResults } from "./falling-sphere";
+import type {
+  DragKeyResults,
+  FallingSphereInput,
+  ReductionCheck,
+  ReductionCheckCode,
+  ReductionUncertainty,
+  ViscometryKeyResults,
+} from "./falling-sphere";
 import type { DropSets, Kinematics, RunIn } from "./falling-sphere-kinematics";
 import { format, formatPercent } from "./format";
 import { RUN_IN_VELOCITY_FRACTION } from "./run-in";
@@ -161,7 +168,9 @@ const CHECKS: readonly CheckRule[] = [
       const chosen = chosenWallMethod(facts);
       const diameterRatio = diameterRatioOf(facts);
       const creepingValue =
-        diameterRatio <= WALL_MODEL_RANGES[chosen].maxDiameterRatio ? `; ${WALL_FACTOR_NAMES[chosen]} would give K = ${format(wallFactor(diameterRatio, chosen))}` : "";
+        diameterRatio <= WALL_MODEL_RANGES[chosen].maxDiameterRatio
+          ? `; ${WALL_FACTOR_NAMES[chosen]} would give K = ${format(wallFactor(diameterRatio, chosen))}`
+          : "";
       return `Re = ${format(wall.reynolds)} is beyond the creeping flow ${WALL_FACTOR_NAMES[chosen]} assumes: at d/D = ${format(diameterRatio)} inertia weakens the wall effect by more than ${formatPercent(CREEPING_FLOW_WALL_TOLERANCE, false)} in K, so Di Felice's (1996) factor for finite Re was used, K = ${format(wall.factor)}${creepingValue}.`;
     },
   },
@@ -176,7 +185,10 @@ const CHECKS: readonly CheckRule[] = [
     code: "wall-correction-substituted",
     level: "warn",
     applies: ({ kinematics, wall }) =>
-      kinematics.diameterRatio !== null && kinematics.wallMethod !== "none" && wall.applied !== "di-felice" && wall.applied !== kinematics.wallMethod,
+      kinematics.diameterRatio !== null &&
+      kinematics.wallMethod !== "none" &&
+      wall.applied !== "di-felice" &&
+      wall.applied !== kinematics.wallMethod,
     message: (facts) => {
       const { wall } = facts;
       const chosen = chosenWallMethod(facts);
@@ -216,7 +228,8 @@ const CHECKS: readonly CheckRule[] = [
     code: "oseen-correction-not-applicable",
     level: "warn",
     applies: ({ kinematics, main }) => kinematics.mode === "viscometry" && (main as ViscometryKeyResults).viscosityOseen === null,
-    message: ({ main }) => `Re = ${format(main.reynolds)} ≥ 16/3: the Oseen correction would give a viscosity ≤ 0; this is no longer a creeping flow.`,
+    message: ({ main }) =>
+      `Re = ${format(main.reynolds)} ≥ 16/3: the Oseen correction would give a viscosity ≤ 0; this is no longer a creeping flow.`,
   },
   {
     code: "fluid-temperature-unknown",

@@ -176,6 +176,13 @@ export function runInOf(main: DragKeyResults | ViscometryKeyResults, kinematics:
   return {
     relaxationTime,
     relaxationLength: terminalVelocity * relaxationTime,
-    runInNeeded: runInLength({ sphereDensity: ρs, fluidDensity: ρf, g: kinematics.g, terminalVelocity, reynolds: main.reynolds, relaxationTime }),
+    runInNeeded: runInLength({
+      sphereDensity: ρs,
+      fluidDensity: ρf,
+      g: kinematics.g,
+      terminalVelocity,
+      reynolds: main.reynolds,
+      relaxationTime,
+    }),
   };
 }

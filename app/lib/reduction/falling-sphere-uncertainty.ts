@@ -210,10 +210,13 @@ export function densityExcessUncertainty(input: FallingSphereInput, kinematics: 
   const { fluid } = input;
   // Squares summed by hand, not Math.hypot: this runs once per drop log of a class page.
   const uFluidDensityGiven = input.uncertainties?.fluidDensity ?? DEFAULT_STANDARD_UNCERTAINTIES.fluidDensity;
-  const uFluidDensityByTemperature = fluid.temperature !== undefined ? (fluid.densityTemperatureCoefficient ?? 0) * uncertainty.temperature : 0;
+  const uFluidDensityByTemperature =
+    fluid.temperature !== undefined ? (fluid.densityTemperatureCoefficient ?? 0) * uncertainty.temperature : 0;
   const uSphereDensityAbsolute = uncertainty.sphereDensity * kinematics.sphereDensity;
   return Math.sqrt(
-    uSphereDensityAbsolute * uSphereDensityAbsolute + uFluidDensityGiven * uFluidDensityGiven + uFluidDensityByTemperature * uFluidDensityByTemperature,
+    uSphereDensityAbsolute * uSphereDensityAbsolute +
+      uFluidDensityGiven * uFluidDensityGiven +
+      uFluidDensityByTemperature * uFluidDensityByTemperature,
   );
 }
 
@@ -256,7 +259,11 @@ export function budgetContextOf(
 }
 
 /** What the normalised figure's reference depends on: the drag law at Re, or the lot's μ_ref(T). */
-function budgetReference(input: FallingSphereInput, kinematics: Kinematics, main: DragKeyResults | ViscometryKeyResults): FallingSphereBudgetContext["reference"] {
+function budgetReference(
+  input: FallingSphereInput,
+  kinematics: Kinematics,
+  main: DragKeyResults | ViscometryKeyResults,
+): FallingSphereBudgetContext["reference"] {
   const { fluid } = input;
   const value = kinematics.mode === "drag" ? (fluid.viscosity as number) : fluid.referenceViscosity;
   if (value === undefined) return null;

@@ -147,7 +147,12 @@ describe("reduceFallingSphere — wall effects and regimes", () => {
   });
 
   it("stands in Haberman–Sayre for Faxén at d/D = 0.8 (0.0204, not Faxén's 0.0756), with a warning naming both", () => {
-    const reduction = reduceFallingSphere({ ...WORKED_EXAMPLE, column: { ...WORKED_EXAMPLE.column, innerDiameter: 3.7e-3 / 0.8 }, drops: [2000, 2001], wallCorrection: "faxen" });
+    const reduction = reduceFallingSphere({
+      ...WORKED_EXAMPLE,
+      column: { ...WORKED_EXAMPLE.column, innerDiameter: 3.7e-3 / 0.8 },
+      drops: [2000, 2001],
+      wallCorrection: "faxen",
+    });
     expect(reduction.velocity.wallCorrection).toBe("haberman-sayre");
     expect(reduction.velocity.wallFactor).toBeCloseTo(0.0204, 4);
     const check = reduction.checks.find((entry) => entry.code === "wall-correction-substituted");
@@ -156,7 +161,12 @@ describe("reduceFallingSphere — wall effects and regimes", () => {
   });
 
   it("flags as an error a d/D no model covers, even without a correction (d/D = 0.99, `none`)", () => {
-    const reduction = reduceFallingSphere({ ...WORKED_EXAMPLE, column: { ...WORKED_EXAMPLE.column, innerDiameter: 3.7e-3 / 0.99 }, drops: [4000, 4001], wallCorrection: "none" });
+    const reduction = reduceFallingSphere({
+      ...WORKED_EXAMPLE,
+      column: { ...WORKED_EXAMPLE.column, innerDiameter: 3.7e-3 / 0.99 },
+      drops: [4000, 4001],
+      wallCorrection: "none",
+    });
     expect(reduction.velocity.wallFactor).toBe(1);
     expect(reduction.checks.find((entry) => entry.code === "diameter-ratio-outside-wall-model")?.level).toBe("error");
     expect(reduction.checks.find((entry) => entry.code === "wall-effect-neglected")?.level).toBe("warn");
@@ -172,8 +182,12 @@ describe("reduceFallingSphere — wall effects and regimes", () => {
 
   it("warns when the lower band is less than one column radius above the bottom (Tanner 1963)", () => {
     const near = reduceFallingSphere({ ...DRAG_LOG, column: { ...DRAG_LOG.column, marginBelow: 0.015 } });
-    expect(near.checks.find((entry) => entry.code === "margin-below-too-short")?.message).toMatch(/one column radius \(0\.02 m\).*Tanner 1963/);
-    expect(codes(reduceFallingSphere({ ...DRAG_LOG, column: { ...DRAG_LOG.column, marginBelow: 0.025 } }))).not.toContain("margin-below-too-short");
+    expect(near.checks.find((entry) => entry.code === "margin-below-too-short")?.message).toMatch(
+      /one column radius \(0\.02 m\).*Tanner 1963/,
+    );
+    expect(codes(reduceFallingSphere({ ...DRAG_LOG, column: { ...DRAG_LOG.column, marginBelow: 0.025 } }))).not.toContain(
+      "margin-below-too-short",
+    );
     expect(codes(reduceFallingSphere(DRAG_LOG))).not.toContain("margin-below-too-short");
   });
 });
@@ -226,7 +240,9 @@ describe("reduceFallingSphere — near-neutral buoyancy", () => {
   it("warns when Δρ is known to worse than 10 %", () => {
     const warned = reduceFallingSphere({ ...ACRYLIC, uncertainties: { sphereDensity: 20 } });
     // Δρ = 191.8 kg/m³ with u = 20 kg/m³: 10.4 %.
-    expect(warned.checks.find((entry) => entry.code === "near-neutral-buoyancy")?.message).toMatch(/ρs − ρf = 192 kg\/m³ .* 20 kg\/m³ \(10 %\)/);
+    expect(warned.checks.find((entry) => entry.code === "near-neutral-buoyancy")?.message).toMatch(
+      /ρs − ρf = 192 kg\/m³ .* 20 kg\/m³ \(10 %\)/,
+    );
     expect(codes(reduceFallingSphere({ ...ACRYLIC, uncertainties: { sphereDensity: 5 } }))).not.toContain("near-neutral-buoyancy");
   });
 
@@ -243,9 +259,9 @@ describe("reduceFallingSphere — near-neutral buoyancy", () => {
   });
 
   it("refuses when the sign of Δρ is uncertain, |Δρ| < 2u (about 95 % coverage)", () => {
-    expect(() => reduceFallingSphere({ ...ACRYLIC, sphere: { diameter: 6e-3, density: 1030 }, uncertainties: { sphereDensity: 20 } })).toThrow(
-      /ρs − ρf = 31\.8 kg\/m³ is within twice its standard uncertainty \(2u = 40 kg\/m³, about 95 % coverage\)/,
-    );
+    expect(() =>
+      reduceFallingSphere({ ...ACRYLIC, sphere: { diameter: 6e-3, density: 1030 }, uncertainties: { sphereDensity: 20 } }),
+    ).toThrow(/ρs − ρf = 31\.8 kg\/m³ is within twice its standard uncertainty \(2u = 40 kg\/m³, about 95 % coverage\)/);
   });
 });
 
@@ -284,7 +300,8 @@ describe("reduceFallingSphere — uncertainties by central differences", () => {
     let sum = 0;
     for (const name of inputs) {
       const h = value[name] * 1e-6;
-      const derivative = (result(reduceFallingSphere(perturb[name](LOG, h))) - result(reduceFallingSphere(perturb[name](LOG, -h)))) / (2 * h);
+      const derivative =
+        (result(reduceFallingSphere(perturb[name](LOG, h))) - result(reduceFallingSphere(perturb[name](LOG, -h)))) / (2 * h);
       sum += (derivative * standard[name]) ** 2;
     }
     return Math.sqrt(sum) / result(base);
@@ -311,7 +328,13 @@ describe("reduceFallingSphere — Oseen-corrected viscosity", () => {
   // is 5 or 5.5, either side of 16/3 where Oseen's correction μ_S − 3ρf v d/16 reaches zero.
   const atStokesReynolds = (reynolds: number): FallingSphereInput => {
     const velocity = Math.sqrt((reynolds * 6800 * 9.80665 * 3e-3) / (18 * 1000));
-    return { mode: "viscometry", sphere: { diameter: 3e-3, density: 7800 }, fluid: { density: 1000, temperature: 20 }, column: { timedDistance: 0.2, runIn: 1 }, drops: [0.2 / velocity] };
+    return {
+      mode: "viscometry",
+      sphere: { diameter: 3e-3, density: 7800 },
+      fluid: { density: 1000, temperature: 20 },
+      column: { timedDistance: 0.2, runIn: 1 },
+      drops: [0.2 / velocity],
+    };
   };
 
   it("balances the weight with Oseen's (1910) drag 3πμdv(1 + 3Re/16) below Re_Stokes = 16/3", () => {

@@ -121,10 +121,7 @@ export interface GrubbsStep {
  * Two-sided only: a one-sided critical value applied to whichever tail is farther has size 2α, so the
  * iterative test offers no one-sided variant ({@link grubbsTest} tests one named tail correctly).
  */
-export function grubbsIterativeSteps(
-  values: readonly number[],
-  options: GrubbsIterativeOptions = {},
-): GrubbsStep[] {
+export function grubbsIterativeSteps(values: readonly number[], options: GrubbsIterativeOptions = {}): GrubbsStep[] {
   if (values.length < 3 || (options.maxOutliers ?? Number.POSITIVE_INFINITY) < 1) return [];
   return grubbsIterativeStepsOfSorted(values, sortedCopy(values), options);
 }

@@ -30,7 +30,14 @@ export type {
 export { generalizedEsd } from "./generalized-esd";
 export type { GeneralizedEsdOptions, GeneralizedEsdResult } from "./generalized-esd";
 export { grubbsCriticalValue, grubbsIterative, grubbsIterativeSteps, grubbsTest } from "./grubbs";
-export type { GrubbsIterativeOptions, GrubbsSides, GrubbsStep, GrubbsTestOptions, GrubbsTestResult, StudentizedDeviateStep } from "./grubbs";
+export type {
+  GrubbsIterativeOptions,
+  GrubbsSides,
+  GrubbsStep,
+  GrubbsTestOptions,
+  GrubbsTestResult,
+  StudentizedDeviateStep,
+} from "./grubbs";
 export { describeDrops, studentTQuantile } from "./statistics";
 export { DEFAULT_TIME_RESOLUTION_S, findStrayDrops, MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
 export type { StrayDropFinding, StrayDropOptions } from "./stray-drops";
@@ -43,5 +50,13 @@ export { BudgetAccumulator, COVERAGE_PROBABILITY, fallingSphereBudget } from "./
 export type { UncertaintyBudget, UncertaintyBudgetRow, UncertaintyTotals } from "./uncertainty-budget";
 export { relaxationTime, RUN_IN_VELOCITY_FRACTION, runInLength } from "./run-in";
 export type { RunInContext } from "./run-in";
-export { CREEPING_FLOW_WALL_TOLERANCE, DI_FELICE_MAX_REYNOLDS, diFeliceWallFactor, inertialWallShift, resolveWallCorrection, WALL_MODEL_RANGES, wallFactor } from "./wall";
+export {
+  CREEPING_FLOW_WALL_TOLERANCE,
+  DI_FELICE_MAX_REYNOLDS,
+  diFeliceWallFactor,
+  inertialWallShift,
+  resolveWallCorrection,
+  WALL_MODEL_RANGES,
+  wallFactor,
+} from "./wall";
 export type { AppliedWallCorrection, WallCorrection, WallCorrectionMethod, WallModelRange } from "./wall";

@@ -27,7 +27,9 @@ describe("runInLength", () => {
   });
 
   it("shortens as inertia grows: the drag rises faster than v, so the approach is quicker than Stokes' (in v∞²/a₀)", () => {
-    const lengths = [1, 10, 100, 1000].map((reynolds) => runInLength({ ...STEEL, terminalVelocity: 1, reynolds, relaxationTime: 1 }) * initialAcceleration);
+    const lengths = [1, 10, 100, 1000].map(
+      (reynolds) => runInLength({ ...STEEL, terminalVelocity: 1, reynolds, relaxationTime: 1 }) * initialAcceleration,
+    );
     for (let i = 1; i < lengths.length; i++) expect(lengths[i]).toBeLessThan(lengths[i - 1]);
     expect(lengths[0]).toBeLessThan(Math.log(100) - 0.99);
   });

@@ -51,7 +51,8 @@ export interface RunInContext {
 export function runInLength(context: RunInContext): number {
   const { terminalVelocity: v, reynolds } = context;
   if (reynolds <= STOKES_FLOW_REYNOLDS) return STOKES_RUN_IN_RELAXATION_LENGTHS * v * context.relaxationTime;
-  const initialAcceleration = (Math.abs(context.sphereDensity - context.fluidDensity) * context.g) / (context.sphereDensity + 0.5 * context.fluidDensity);
+  const initialAcceleration =
+    (Math.abs(context.sphereDensity - context.fluidDensity) * context.g) / (context.sphereDensity + 0.5 * context.fluidDensity);
   const terminalDrag = dragRatio(reynolds);
   const halfWidth = 0.5 * -Math.log(1 - RUN_IN_VELOCITY_FRACTION);
   let integral = 0;

@@ -3,7 +3,6 @@ import { reduceFallingSphere } from "./falling-sphere";
 import { findStrayDrops, MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
 import { seededRandom } from "../../../tests/support/seeded-random";
 
-
 /** Standard normal deviates by the Box–Muller transform (Box & Muller 1958). */
 function normal(random: () => number): () => number {
   return () => Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());
@@ -11,7 +10,11 @@ function normal(random: () => number): () => number {
 
 describe("findStrayDrops", () => {
   it("flags nothing in the issue's equal-reading logs [5.00, 5.00, 5.01], [5, 5, 5, 5.01] and nine 6.62 with a 6.63", () => {
-    for (const times of [[5.0, 5.0, 5.01], [5, 5, 5, 5.01], [...new Array<number>(9).fill(6.62), 6.63]]) {
+    for (const times of [
+      [5.0, 5.0, 5.01],
+      [5, 5, 5, 5.01],
+      [...new Array<number>(9).fill(6.62), 6.63],
+    ]) {
       expect(findStrayDrops(times, { timeResolution: 0.01 }).strayDrops).toEqual([]);
     }
   });

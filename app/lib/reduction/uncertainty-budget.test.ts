@@ -51,7 +51,16 @@ const DRAG_LOG: FallingSphereInput = {
   column: { timedDistance: 0.2, innerDiameter: 12e-3, runIn: 0.05 },
   drops: [20.1, 19.8, 20.3, 20.0, 19.9, 20.2],
   wallCorrection: "haberman-sayre",
-  uncertainties: { diameter: 3e-6, mass: 3e-7, fluidDensity: 0.5, distance: 3e-4, time: 0.003, columnDiameter: 5e-5, fluidViscosity: 0.006, temperature: 0.3 },
+  uncertainties: {
+    diameter: 3e-6,
+    mass: 3e-7,
+    fluidDensity: 0.5,
+    distance: 3e-4,
+    time: 0.003,
+    columnDiameter: 5e-5,
+    fluidViscosity: 0.006,
+    temperature: 0.3,
+  },
 };
 
 type Perturbation = (input: FallingSphereInput, h: number) => FallingSphereInput;
@@ -64,7 +73,10 @@ const perturbations: Record<string, Perturbation> = {
   // Shifting every drop by h moves the mean by h and leaves the scatter as it is.
   "Timing, common to all drops (resolution)": (input, h) => ({ ...input, drops: input.drops.map((time) => time + h) }),
   "Column bore D": (input, h) => ({ ...input, column: { ...input.column, innerDiameter: (input.column.innerDiameter as number) + h } }),
-  "Fluid viscosity at T from the lot's calibration": (input, h) => ({ ...input, fluid: { ...input.fluid, viscosity: (input.fluid.viscosity as number) + h } }),
+  "Fluid viscosity at T from the lot's calibration": (input, h) => ({
+    ...input,
+    fluid: { ...input.fluid, viscosity: (input.fluid.viscosity as number) + h },
+  }),
 };
 
 function numericSensitivity(input: FallingSphereInput, perturb: Perturbation, h: number, result: (reduction: Reduction) => number): number {
@@ -117,7 +129,9 @@ describe("uncertaintyBudget of a drag-mode reduction (C_D), mass route", () => {
     const withoutColumn = reduceFallingSphere({ ...DRAG_LOG, column: { ...DRAG_LOG.column, innerDiameter: undefined } });
     const dRow = (r: Reduction) => r.uncertaintyBudget.rows.find((row) => row.input === "Sphere diameter d")!;
     // Haberman–Sayre at λ = 1/6: K falls with d, and C_D ∝ K², so ∂ln C_D/∂ln d gains 2·d ln K/d ln λ < 0.
-    expect(dRow(reduction).sensitivity / reduction.dragCoefficient).toBeLessThan(dRow(withoutColumn).sensitivity / withoutColumn.dragCoefficient);
+    expect(dRow(reduction).sensitivity / reduction.dragCoefficient).toBeLessThan(
+      dRow(withoutColumn).sensitivity / withoutColumn.dragCoefficient,
+    );
     expect(withoutColumn.uncertaintyBudget.rows.some((row) => row.input === "Column bore D")).toBe(false);
   });
 
@@ -131,8 +145,14 @@ describe("uncertaintyBudget of a drag-mode reduction (C_D), mass route", () => {
     const temperatureTerm = byViscosity * 1.2 * -0.097 * 0.3;
     // The figure's u² is C_D's (relative) plus the reference's: Re through d, ρf, L, t, D and μ.
     expect(figure.combined).toBeGreaterThan(Math.hypot(viscosityTerm, temperatureTerm));
-    const withExactViscosity = reduceFallingSphere({ ...DRAG_LOG, uncertainties: { ...DRAG_LOG.uncertainties, fluidViscosity: 0, temperature: 0 } });
-    expect(figure.combined ** 2 - withExactViscosity.uncertaintyBudget.normalisedFigure!.combined ** 2).toBeCloseTo(viscosityTerm ** 2 + temperatureTerm ** 2, 10);
+    const withExactViscosity = reduceFallingSphere({
+      ...DRAG_LOG,
+      uncertainties: { ...DRAG_LOG.uncertainties, fluidViscosity: 0, temperature: 0 },
+    });
+    expect(figure.combined ** 2 - withExactViscosity.uncertaintyBudget.normalisedFigure!.combined ** 2).toBeCloseTo(
+      viscosityTerm ** 2 + temperatureTerm ** 2,
+      10,
+    );
   });
 });
 
@@ -140,7 +160,13 @@ describe("uncertaintyBudget of a viscometry reduction (μ)", () => {
   const VISCOMETRY_LOG: FallingSphereInput = {
     ...DRAG_LOG,
     mode: "viscometry",
-    fluid: { density: 1260, temperature: 21, referenceViscosity: 1.2, viscosityTemperatureCoefficient: -0.097, densityTemperatureCoefficient: -0.65 },
+    fluid: {
+      density: 1260,
+      temperature: 21,
+      referenceViscosity: 1.2,
+      viscosityTemperatureCoefficient: -0.097,
+      densityTemperatureCoefficient: -0.65,
+    },
   };
 
   it("has each sensitivity equal to a central difference of μ, on the mass route", () => {
@@ -151,7 +177,11 @@ describe("uncertaintyBudget of a viscometry reduction (μ)", () => {
   });
 
   it("has each sensitivity equal to a central difference of μ, on the material-density route", () => {
-    const byDensity: FallingSphereInput = { ...VISCOMETRY_LOG, sphere: { diameter: 2e-3, density: 7800 }, uncertainties: { ...VISCOMETRY_LOG.uncertainties, sphereDensity: 20 } };
+    const byDensity: FallingSphereInput = {
+      ...VISCOMETRY_LOG,
+      sphere: { diameter: 2e-3, density: 7800 },
+      uncertainties: { ...VISCOMETRY_LOG.uncertainties, sphereDensity: 20 },
+    };
     const reduction = reduceFallingSphere(byDensity);
     expect(reduction.uncertaintyBudget.rows.map((row) => row.input)).toContain("Sphere material density ρs");
     expect(expectSensitivitiesToMatch(byDensity, (r) => (r.mode === "viscometry" ? r.viscosity : NaN))).toBe(6);
@@ -168,7 +198,13 @@ describe("uncertaintyBudget of a viscometry reduction (μ)", () => {
     const densityAt = (T: number) => 1261 - 0.65 * (T - 20);
     const inputAt = (T: number): FallingSphereInput => ({
       ...VISCOMETRY_LOG,
-      fluid: { density: densityAt(T), temperature: T, referenceViscosity: viscosityAt(fit, T), viscosityTemperatureCoefficient: viscosityTemperatureCoefficient(fit, T), densityTemperatureCoefficient: -0.65 },
+      fluid: {
+        density: densityAt(T),
+        temperature: T,
+        referenceViscosity: viscosityAt(fit, T),
+        viscosityTemperatureCoefficient: viscosityTemperatureCoefficient(fit, T),
+        densityTemperatureCoefficient: -0.65,
+      },
     });
     const figureAt = (T: number) => normalisedFigure(reduceFallingSphere(inputAt(T)), { referenceViscosity: viscosityAt(fit, T) });
     const viscosityAtT = (T: number) => (reduceFallingSphere(inputAt(T)) as { viscosity: number }).viscosity;
@@ -205,7 +241,16 @@ describe("uncertaintyBudget beyond creeping flow, with Di Felice's wall factor",
     column: { timedDistance: 0.5, innerDiameter: 0.05, runIn: 0.4 },
     drops: [1.73, 1.74, 1.735, 1.738, 1.732, 1.736],
     wallCorrection: "haberman-sayre",
-    uncertainties: { diameter: 5e-6, mass: 1e-6, fluidDensity: 0.5, distance: 5e-4, time: 0.003, columnDiameter: 5e-5, fluidViscosity: 4e-4, temperature: 0 },
+    uncertainties: {
+      diameter: 5e-6,
+      mass: 1e-6,
+      fluidDensity: 0.5,
+      distance: 5e-4,
+      time: 0.003,
+      columnDiameter: 5e-5,
+      fluidViscosity: 4e-4,
+      temperature: 0,
+    },
   };
 
   it("has each sensitivity of C_D equal to a central difference, the viscosity's too (d, m, ρf, L, t, D, μ)", () => {
@@ -227,12 +272,18 @@ describe("uncertaintyBudget beyond creeping flow, with Di Felice's wall factor",
       [perturbations["Column bore D"], 0.05, u.columnDiameter!],
       [perturbations["Fluid viscosity at T from the lot's calibration"], 0.02, u.fluidViscosity!],
     ];
-    const numeric = Math.sqrt(terms.reduce((sum, [perturb, value, standard]) => sum + (numericSensitivity(FAST, perturb, value * 1e-6, figure) * standard) ** 2, 0));
+    const numeric = Math.sqrt(
+      terms.reduce((sum, [perturb, value, standard]) => sum + (numericSensitivity(FAST, perturb, value * 1e-6, figure) * standard) ** 2, 0),
+    );
     expect(reduction.uncertaintyBudget.normalisedFigure!.combined / numeric).toBeCloseTo(1, 5);
   });
 
   it("has each sensitivity of the Stokes μ equal to a central difference in viscometry, where Re∞ ∝ v∞²", () => {
-    const viscometry: FallingSphereInput = { ...FAST, mode: "viscometry", fluid: { density: 1000, temperature: 20, referenceViscosity: 0.02 } };
+    const viscometry: FallingSphereInput = {
+      ...FAST,
+      mode: "viscometry",
+      fluid: { density: 1000, temperature: 20, referenceViscosity: 0.02 },
+    };
     const reduction = reduceFallingSphere(viscometry);
     expect(reduction.velocity.wallCorrection).toBe("di-felice");
     expect(expectSensitivitiesToMatch(viscometry, (r) => (r.mode === "viscometry" ? r.viscosity : NaN))).toBe(6);
@@ -242,7 +293,10 @@ describe("uncertaintyBudget beyond creeping flow, with Di Felice's wall factor",
 describe("calibrationUncertainty — the Andrade fit's residual standard error at T", () => {
   // Exact on ln μ = A + B/T but for ±δ alternating: s = δ·√(4/2) at N = 4, ν = 2.
   const kelvin = (t: number) => t + 273.15;
-  const points = [15, 20, 25, 30].map((t, i) => ({ temperature: t, viscosity: Math.exp(-17 + 5000 / kelvin(t) + (i % 2 === 0 ? 0.01 : -0.01)) }));
+  const points = [15, 20, 25, 30].map((t, i) => ({
+    temperature: t,
+    viscosity: Math.exp(-17 + 5000 / kelvin(t) + (i % 2 === 0 ? 0.01 : -0.01)),
+  }));
   const fit = fitFluidViscosity(points);
 
   it("has N − 2 degrees of freedom and is smallest at the centre of the calibration (1/T = mean of 1/Tᵢ)", () => {

@@ -73,7 +73,15 @@ export class BudgetAccumulator {
   ) {}
 
   /** One input; its sensitivity is given as ∂ln y/∂xᵢ, so a power law reads as exponent/xᵢ. */
-  add(input: string, value: number, unit: string, standardUncertainty: number, type: "A" | "B", degreesOfFreedom: number, logSensitivity: number): void {
+  add(
+    input: string,
+    value: number,
+    unit: string,
+    standardUncertainty: number,
+    type: "A" | "B",
+    degreesOfFreedom: number,
+    logSensitivity: number,
+  ): void {
     const sensitivity = this.y * logSensitivity;
     const contribution = sensitivity * standardUncertainty;
     if (contribution === 0 || !Number.isFinite(contribution)) return;
@@ -107,7 +115,13 @@ function totalsOf(combined: number, welchSatterthwaiteDenominator: number): Unce
   const effectiveDegreesOfFreedom =
     welchSatterthwaiteDenominator > 0 ? (combinedSquared * combinedSquared) / welchSatterthwaiteDenominator : Number.POSITIVE_INFINITY;
   const coverageFactor = coverageFactor95(effectiveDegreesOfFreedom);
-  return { combined, effectiveDegreesOfFreedom, coverageFactor, expanded: coverageFactor * combined, coverageProbability: COVERAGE_PROBABILITY };
+  return {
+    combined,
+    effectiveDegreesOfFreedom,
+    coverageFactor,
+    expanded: coverageFactor * combined,
+    coverageProbability: COVERAGE_PROBABILITY,
+  };
 }
 
 /** What {@link fallingSphereBudget} needs of a reduction, all SI (temperature in °C, its u in K). */
@@ -132,9 +146,7 @@ export interface FallingSphereBudgetContext {
   temperature: { value: number; u: number } | null;
   /** Drag mode: Re and d ln C_D,ref/d ln Re, the fluid viscosity and its calibration uncertainty. Viscometry: μ_ref(T). */
   reference:
-    | { kind: "drag"; ratio: number; slope: number; viscosity: LotViscosity }
-    | { kind: "viscometry"; viscosity: LotViscosity }
-    | null;
+    { kind: "drag"; ratio: number; slope: number; viscosity: LotViscosity } | { kind: "viscometry"; viscosity: LotViscosity } | null;
 }
 
 /** The lot's viscosity at T from its calibration, with what carries its uncertainty. */
@@ -175,9 +187,7 @@ export function fallingSphereBudget(context: FallingSphereBudgetContext): Uncert
     byFluid: (-sign * context.fluidDensity.value) / densityExcess,
     sphereByDiameter: context.sphere.source === "mass" ? -3 : 0,
   };
-  const main: Exponents = drag
-    ? { d: 1, Δρ: 1, ρf: -1, L: -2, t: 2, K: 2, μ: 0 }
-    : { d: 2, Δρ: 1, ρf: 0, L: -1, t: 1, K: 1, μ: 0 };
+  const main: Exponents = drag ? { d: 1, Δρ: 1, ρf: -1, L: -2, t: 2, K: 2, μ: 0 } : { d: 2, Δρ: 1, ρf: 0, L: -1, t: 1, K: 1, μ: 0 };
   const viscosity = reference?.viscosity ?? null;
 
   const mainBudget = new BudgetAccumulator(context.value);
@@ -244,7 +254,13 @@ interface DensitySplit {
  * folded in. A module function rather than a closure in {@link fallingSphereBudget}: the bundler names
  * each closure it creates, which cost more per drop log than the rows themselves.
  */
-function addInputs(budget: BudgetAccumulator, context: FallingSphereBudgetContext, split: DensitySplit, e: Exponents, viscosity: LotViscosity | null): void {
+function addInputs(
+  budget: BudgetAccumulator,
+  context: FallingSphereBudgetContext,
+  split: DensitySplit,
+  e: Exponents,
+  viscosity: LotViscosity | null,
+): void {
   const { diameter, sphere, fluidDensity, distance, meanTime, column, temperature, wall } = context;
   const feedback = 1 + wall.reynoldsPower * wall.byReynolds;
   const byλ = (e.K * wall.byDiameterRatio) / feedback;
@@ -259,8 +275,17 @@ function addInputs(budget: BudgetAccumulator, context: FallingSphereBudgetContex
   const μ = e.μ - (viscometryRe ? 0 : byRe);
   const byFluidDensity = (ρf + Δρ * split.byFluid) / fluidDensity.value;
 
-  budget.add("Sphere diameter d", diameter.value, "m", diameter.u, "B", Infinity, (d + Δρ * split.bySphere * split.sphereByDiameter) / diameter.value);
-  if (sphere.source === "mass") budget.add("Sphere mass m", sphere.value, "kg", sphere.u, "B", Infinity, (Δρ * split.bySphere) / sphere.value);
+  budget.add(
+    "Sphere diameter d",
+    diameter.value,
+    "m",
+    diameter.u,
+    "B",
+    Infinity,
+    (d + Δρ * split.bySphere * split.sphereByDiameter) / diameter.value,
+  );
+  if (sphere.source === "mass")
+    budget.add("Sphere mass m", sphere.value, "kg", sphere.u, "B", Infinity, (Δρ * split.bySphere) / sphere.value);
   else budget.add("Sphere material density ρs", sphere.value, "kg/m³", sphere.u, "B", Infinity, (Δρ * split.bySphere) / sphere.value);
   budget.add("Fluid density ρf", fluidDensity.value, "kg/m³", fluidDensity.u, "B", Infinity, byFluidDensity);
   budget.add("Timed distance L", distance.value, "m", distance.u, "B", Infinity, L / distance.value);
@@ -277,6 +302,14 @@ function addInputs(budget: BudgetAccumulator, context: FallingSphereBudgetContex
   if (viscosity) {
     // The Andrade fit's residual standard error is a type A evaluation with N − 2 degrees of freedom.
     const type = Number.isFinite(viscosity.degreesOfFreedom) ? "A" : "B";
-    budget.add("Fluid viscosity at T from the lot's calibration", viscosity.value, "Pa·s", viscosity.u, type, viscosity.degreesOfFreedom, μ / viscosity.value);
+    budget.add(
+      "Fluid viscosity at T from the lot's calibration",
+      viscosity.value,
+      "Pa·s",
+      viscosity.u,
+      type,
+      viscosity.degreesOfFreedom,
+      μ / viscosity.value,
+    );
   }
 }

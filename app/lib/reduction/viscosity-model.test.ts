@@ -71,10 +71,7 @@ describe("fitFluidViscosity", () => {
       expect.unreachable();
     } catch (error) {
       expect(error).toBeInstanceOf(ReductionInputError);
-      expect((error as ReductionInputError).issues.map((issue) => issue.path)).toEqual([
-        "points.0.temperature",
-        "points.1.viscosity",
-      ]);
+      expect((error as ReductionInputError).issues.map((issue) => issue.path)).toEqual(["points.0.temperature", "points.1.viscosity"]);
     }
   });
 });

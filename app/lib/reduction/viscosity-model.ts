@@ -73,7 +73,12 @@ export function fitFluidViscosity(points: readonly ViscosityCalibrationPoint[]):
       // Repeats at one temperature: the mean of ln μ, with sxx = 0 so only its own standard error remains.
       residual:
         degreesOfFreedom > 0
-          ? { standardError: Math.sqrt(sumOfSquares / degreesOfFreedom), degreesOfFreedom, meanInverseTemperature: 1 / (minimum + KELVIN_OFFSET), sxx: 0 }
+          ? {
+              standardError: Math.sqrt(sumOfSquares / degreesOfFreedom),
+              degreesOfFreedom,
+              meanInverseTemperature: 1 / (minimum + KELVIN_OFFSET),
+              sxx: 0,
+            }
           : null,
       warning: `Only one calibration temperature (${minimum} °C): the viscosity is taken as constant, so the drop temperature is not accounted for.`,
     };
@@ -107,9 +112,11 @@ export function fitFluidViscosity(points: readonly ViscosityCalibrationPoint[]):
     pointCount: points.length,
     temperatureRange: [minimum, maximum],
     maxRelativeResidual: maxRelativeResidual(points, a, b),
-    residual: degreesOfFreedom > 0 ? { standardError: Math.sqrt(sumOfSquares / degreesOfFreedom), degreesOfFreedom, meanInverseTemperature: meanX, sxx } : null,
-    warning:
-      points.length === 2 ? "Two calibration points: the Andrade line passes through both, with no check of its fit." : null,
+    residual:
+      degreesOfFreedom > 0
+        ? { standardError: Math.sqrt(sumOfSquares / degreesOfFreedom), degreesOfFreedom, meanInverseTemperature: meanX, sxx }
+        : null,
+    warning: points.length === 2 ? "Two calibration points: the Andrade line passes through both, with no check of its fit." : null,
   };
 }
 
@@ -143,7 +150,10 @@ export function viscosityTemperatureCoefficient(fit: FluidViscosityFit, temperat
  * freedom. Zero with no residual degrees of freedom: the fit cannot tell its own uncertainty then, which
  * the fit's `warning` already says.
  */
-export function calibrationUncertainty(fit: Pick<FluidViscosityFit, "pointCount" | "residual">, temperatureC: number): { relative: number; degreesOfFreedom: number } {
+export function calibrationUncertainty(
+  fit: Pick<FluidViscosityFit, "pointCount" | "residual">,
+  temperatureC: number,
+): { relative: number; degreesOfFreedom: number } {
   const residual = fit.residual;
   if (!residual) return { relative: 0, degreesOfFreedom: Number.POSITIVE_INFINITY };
   const offset = 1 / (temperatureC + KELVIN_OFFSET) - residual.meanInverseTemperature;

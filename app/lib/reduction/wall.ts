@@ -159,7 +159,14 @@ export function resolveWallCorrection(
   reynoldsPower: 1 | 2,
 ): WallCorrection {
   if (method === "none") {
-    return { factor: 1, applied: "none", reynolds: reynoldsAt(1, measuredVelocity, reynoldsScale, reynoldsPower), iterations: 0, byDiameterRatio: 0, byReynolds: 0 };
+    return {
+      factor: 1,
+      applied: "none",
+      reynolds: reynoldsAt(1, measuredVelocity, reynoldsScale, reynoldsPower),
+      iterations: 0,
+      byDiameterRatio: 0,
+      byReynolds: 0,
+    };
   }
   let creeping: CreepingFlowMethod = method;
   if (diameterRatio > WALL_MODEL_RANGES[method].maxDiameterRatio) {
@@ -219,7 +226,10 @@ function reynoldsAt(factor: number, measuredVelocity: number, reynoldsScale: num
 
 /** d ln K/d ln λ of a creeping-flow factor by a central difference in ln λ, step 10⁻⁶ (λ > 0). */
 function creepingFlowElasticity(method: CreepingFlowMethod, diameterRatio: number): number {
-  return Math.log(wallFactor(diameterRatio * (1 + ELASTICITY_STEP), method) / wallFactor(diameterRatio * (1 - ELASTICITY_STEP), method)) / LOG_STEP_WIDTH;
+  return (
+    Math.log(wallFactor(diameterRatio * (1 + ELASTICITY_STEP), method) / wallFactor(diameterRatio * (1 - ELASTICITY_STEP), method)) /
+    LOG_STEP_WIDTH
+  );
 }
 
 const ELASTICITY_STEP = 1e-6;

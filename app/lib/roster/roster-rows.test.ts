@@ -5,7 +5,11 @@ import { checkRosterRows, rosterRowsFromRecords, rosterTemplateCsv } from "./ros
 const course = { cohortNames: ["Tuesday bench", "Wednesday bench"], memberEmails: ["already@uni.example"] };
 
 function checksFor(csv: string) {
-  const parsed = Papa.parse<Record<string, string>>(csv, { header: true, skipEmptyLines: "greedy", transformHeader: (h) => h.trim().toLowerCase() });
+  const parsed = Papa.parse<Record<string, string>>(csv, {
+    header: true,
+    skipEmptyLines: "greedy",
+    transformHeader: (h) => h.trim().toLowerCase(),
+  });
   return checkRosterRows(rosterRowsFromRecords(parsed.data), course);
 }
 

@@ -29,14 +29,17 @@ const email = z.email();
 export function rosterRowsFromRecords(records: Record<string, string | undefined>[]): RosterRow[] {
   return records.map((record, index) => {
     const field = (name: string) => (record[name] ?? record[name.toUpperCase()] ?? "").trim();
-    return { line: index + 2, email: field("email").toLowerCase(), name: field("name"), cohort: field("cohort"), role: field("role").toLowerCase() };
+    return {
+      line: index + 2,
+      email: field("email").toLowerCase(),
+      name: field("name"),
+      cohort: field("cohort"),
+      role: field("role").toLowerCase(),
+    };
   });
 }
 
-export function checkRosterRows(
-  rows: RosterRow[],
-  course: { cohortNames: string[]; memberEmails: Iterable<string> },
-): RosterRowCheck[] {
+export function checkRosterRows(rows: RosterRow[], course: { cohortNames: string[]; memberEmails: Iterable<string> }): RosterRowCheck[] {
   const cohorts = new Set(course.cohortNames.map((name) => name.toLowerCase()));
   const members = new Set(course.memberEmails);
   const firstLine = new Map<string, number>();

@@ -25,7 +25,10 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
       labId: lab.id,
       membershipId: owner.membershipId,
       studentName: owner.studentName,
-      versions: dropLog.versions.map(({ dropLogId: _dropLogId, idempotencyKey: _key, submittedById: _by, submittedAt, ...version }) => ({ ...version, submittedAt: iso(submittedAt) })),
+      versions: dropLog.versions.map(({ dropLogId: _dropLogId, idempotencyKey: _key, submittedById: _by, submittedAt, ...version }) => ({
+        ...version,
+        submittedAt: iso(submittedAt),
+      })),
       photos: dropLog.photos.map((photo) => ({ ...photo, createdAt: iso(photo.createdAt) })),
     },
     { headers: { "Cache-Control": "no-store" } },

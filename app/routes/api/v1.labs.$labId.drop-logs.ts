@@ -15,7 +15,10 @@ const noStore = { "Cache-Control": "no-store" };
  */
 function jsonWithLength(body: unknown, status: number): Response {
   const text = JSON.stringify(body);
-  return new Response(text, { status, headers: { ...noStore, "Content-Type": "application/json", "Content-Length": String(Buffer.byteLength(text)) } });
+  return new Response(text, {
+    status,
+    headers: { ...noStore, "Content-Type": "application/json", "Content-Length": String(Buffer.byteLength(text)) },
+  });
 }
 
 /** A student's own drop log, or (staff) every handed-in drop log of the cohorts they see, with the counted reductions. */
@@ -33,7 +36,8 @@ export const action = withRefusals(async ({ request, context, params }: Route.Ac
   const { access, lab } = await requireLabApiAccess({ request, context }, params.labId);
   if (access.membership.role !== "student") return apiErrorResponse(403, "not_a_student", "Only students hand in drop logs.");
   const idempotencyKey = request.headers.get("Idempotency-Key");
-  if (!idempotencyKey) return apiErrorResponse(400, "idempotency_key_missing", "Send an Idempotency-Key header, e.g. a UUID made once per hand-in attempt.");
+  if (!idempotencyKey)
+    return apiErrorResponse(400, "idempotency_key_missing", "Send an Idempotency-Key header, e.g. a UUID made once per hand-in attempt.");
   const input = await request.json().catch(() => undefined);
   if (input === undefined) return apiErrorResponse(400, "invalid_json", "The body must be JSON.");
   const result = await handInDropLog(db, { access, labId: lab.id, input, idempotencyKey });

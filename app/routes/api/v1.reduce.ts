@@ -44,6 +44,11 @@ export const action = withRefusals(async ({ request, context }: Route.ActionArgs
     return Response.json({ reduction: reduceFallingSphere(engine.data) }, { headers: noStore });
   } catch (error) {
     if (!(error instanceof ReductionInputError)) throw error;
-    return apiErrorResponse(400, "not_reducible", "These values cannot be reduced.", error.issues.map((issue) => ({ path: issue.path.split("."), message: issue.message })));
+    return apiErrorResponse(
+      400,
+      "not_reducible",
+      "These values cannot be reduced.",
+      error.issues.map((issue) => ({ path: issue.path.split("."), message: issue.message })),
+    );
   }
 });

@@ -16,7 +16,10 @@ export const apiError = z
     error: z.object({
       code: z.string().describe("A stable, machine-readable reason, e.g. `not_found`, `past_cutoff`."),
       message: z.string().describe("What went wrong and what to do, in words for people."),
-      issues: z.array(z.object({ path: z.array(z.union([z.string(), z.number()])), message: z.string() })).optional().describe("Per-field problems, by the field's path."),
+      issues: z
+        .array(z.object({ path: z.array(z.union([z.string(), z.number()])), message: z.string() }))
+        .optional()
+        .describe("Per-field problems, by the field's path."),
     }),
   })
   .register(apiSchemas, { id: "Error" });
@@ -37,7 +40,11 @@ export const labSummary = z
     status: z.enum(["draft", "published", "closed"]),
     opensAt: timestamp,
     dueAt: timestamp.describe("For a student, their own due time: their extension's, else their cohort's, else the lab's."),
-    lateCutoffAt: timestamp.nullable().describe("Late hand-ins are accepted, and labelled late, until then (for a student, their own, as `dueAt`); null: none after the due time."),
+    lateCutoffAt: timestamp
+      .nullable()
+      .describe(
+        "Late hand-ins are accepted, and labelled late, until then (for a student, their own, as `dueAt`); null: none after the due time.",
+      ),
     dropLog: z
       .object({ status: z.enum(["not-started", "draft", "handed-in", "late"]), versionCount: z.int() })
       .nullable()
@@ -71,14 +78,18 @@ export const uncertaintyBudget = z
         type: z.enum(["A", "B"]),
         degreesOfFreedom,
         sensitivity: z.number().describe("∂y/∂xᵢ."),
-        contribution: z.number().describe("Sensitivity × standard uncertainty, in the result's unit; they combine in quadrature to `combined`."),
+        contribution: z
+          .number()
+          .describe("Sensitivity × standard uncertainty, in the result's unit; they combine in quadrature to `combined`."),
       }),
     ),
     ...uncertaintyTotals,
     normalisedFigure: z
       .object({ value: z.number(), ...uncertaintyTotals })
       .nullable()
-      .describe("The uncertainty of C_D/C_D,ref or μ/μ_ref(T), and so of the deviation from the reference; null in viscometry without a calibrated lot."),
+      .describe(
+        "The uncertainty of C_D/C_D,ref or μ/μ_ref(T), and so of the deviation from the reference; null in viscometry without a calibrated lot.",
+      ),
   })
   .register(apiSchemas, { id: "UncertaintyBudget", description: "The GUM uncertainty budget of a reduction's main result." });
 const storedReduction = z
@@ -102,7 +113,10 @@ export const storedVersion = z
     dragCoefficient: z.number().nullable(),
     viscosityPaS: z.number().nullable(),
     warningCount: z.int().min(0),
-    currentRevision: z.int().min(1).describe("The reduction revision shown: 1 at hand-in, one more each time a part it used was corrected."),
+    currentRevision: z
+      .int()
+      .min(1)
+      .describe("The reduction revision shown: 1 at hand-in, one more each time a part it used was corrected."),
   })
   .register(apiSchemas, { id: "DropLogVersion" });
 
@@ -125,7 +139,16 @@ export const dropLogDetail = z
     membershipId: uuid,
     studentName: z.string(),
     versions: z.array(storedVersion).describe("Every version, newest first. Versions are never changed or deleted."),
-    photos: z.array(z.object({ id: uuid, versionId: uuid.nullable(), contentType: z.string(), bytes: z.int(), originalName: z.string().nullable(), createdAt: timestamp })),
+    photos: z.array(
+      z.object({
+        id: uuid,
+        versionId: uuid.nullable(),
+        contentType: z.string(),
+        bytes: z.int(),
+        originalName: z.string().nullable(),
+        createdAt: timestamp,
+      }),
+    ),
   })
   .register(apiSchemas, { id: "DropLogDetail" });
 
@@ -139,15 +162,32 @@ export const handInResponse = z
 export const reduceResponse = z
   .union([
     z.object({ reduction: storedReduction }).describe("The engine's reduction of an SI input."),
-    z.object({ reduction: storedReduction, kitRecords: looseObject, normalisedFigure: z.number().nullable(), warnings: z.array(looseObject) }).describe("A drop-log preview against the caller's kit."),
+    z
+      .object({
+        reduction: storedReduction,
+        kitRecords: looseObject,
+        normalisedFigure: z.number().nullable(),
+        warnings: z.array(looseObject),
+      })
+      .describe("A drop-log preview against the caller's kit."),
   ])
   .register(apiSchemas, { id: "Reduction" });
 
-export const classComparisonResponse = z.looseObject({}).register(apiSchemas, { id: "ClassComparison", description: "The lab's class comparison: labels with reasons for each counted hand-in." });
+export const classComparisonResponse = z
+  .looseObject({})
+  .register(apiSchemas, {
+    id: "ClassComparison",
+    description: "The lab's class comparison: labels with reasons for each counted hand-in.",
+  });
 
 export const marksResponse = z
   .object({
-    lab: z.object({ id: uuid, courseId: uuid, title: z.string(), releasedAt: timestamp.nullable().describe("The latest release of the lab's marks; null before the first.") }),
+    lab: z.object({
+      id: uuid,
+      courseId: uuid,
+      title: z.string(),
+      releasedAt: timestamp.nullable().describe("The latest release of the lab's marks; null before the first."),
+    }),
     maxTotal: z.number().describe("The sum of the criteria's maximum points."),
     criteria: z.array(z.object({ id: uuid, title: z.string(), kind: z.enum(["levels", "range", "auto"]), maxPoints: z.number() })),
     marks: z.array(
@@ -164,10 +204,25 @@ export const marksResponse = z
         markedVersion: z
           .object({ id: uuid, number: z.int().min(1) })
           .nullable()
-          .describe("The drop-log version the mark rests on: its automatic criteria, `handIn` and `late` are this version's. Null without a mark, or for a mark given with nothing handed in."),
-        latestVersion: z.int().min(1).nullable().describe("The student's latest handed-in version; newer than `markedVersion` when they handed in again since marked. Null when nothing is handed in."),
-        needsRemarking: z.boolean().describe("A hand-in after the release reopened this released mark: it still rests on `markedVersion` until it is marked again."),
-        total: z.number().nullable().describe("Criteria points (given, overridden or suggested) minus the late penalty, at least 0; null before the student is marked."),
+          .describe(
+            "The drop-log version the mark rests on: its automatic criteria, `handIn` and `late` are this version's. Null without a mark, or for a mark given with nothing handed in.",
+          ),
+        latestVersion: z
+          .int()
+          .min(1)
+          .nullable()
+          .describe(
+            "The student's latest handed-in version; newer than `markedVersion` when they handed in again since marked. Null when nothing is handed in.",
+          ),
+        needsRemarking: z
+          .boolean()
+          .describe("A hand-in after the release reopened this released mark: it still rests on `markedVersion` until it is marked again."),
+        total: z
+          .number()
+          .nullable()
+          .describe(
+            "Criteria points (given, overridden or suggested) minus the late penalty, at least 0; null before the student is marked.",
+          ),
         complete: z.boolean().describe("Every criterion has points."),
         latePenaltyPoints: z.number(),
         points: z.record(z.string(), z.number().nullable()).describe("Points per criterion id."),

@@ -20,7 +20,10 @@ import {
 
 apiSchemas.add(dropLogInput, { id: "DropLogInput", description: "A drop log as a student hands it in; bench units (mm, g, °C, s)." });
 apiSchemas.add(reduceInput, { id: "ReduceInput", description: "The reduction engine's own input, in SI units." });
-apiSchemas.add(labReduceInput, { id: "LabReduceInput", description: "A drop log (`input`, as `DropLogInput`) to preview against the caller's kit and the lab's settings." });
+apiSchemas.add(labReduceInput, {
+  id: "LabReduceInput",
+  description: "A drop log (`input`, as `DropLogInput`) to preview against the caller's kit and the lab's settings.",
+});
 
 type Parameter = { name: string; in: "path" | "query" | "header"; required: boolean; description: string; schema: z.ZodType };
 type Answer = { description: string; schema: z.ZodType };
@@ -42,7 +45,11 @@ const errors = {
   401: { description: "Not signed in: send a session cookie or `Authorization: Bearer <personal token>`.", schema: apiError },
   403: { description: "Signed in, but without access to this (another cohort, another student's work, the wrong role).", schema: apiError },
   404: { description: "No such object, or one the caller may not know exists (a draft lab, for students).", schema: apiError },
-  409: { description: "The request is valid but the lab's state refuses it (not open yet, past the cut-off, no kit, or `mark_released`: the student's mark is released and the lab refuses hand-ins after it).", schema: apiError },
+  409: {
+    description:
+      "The request is valid but the lab's state refuses it (not open yet, past the cut-off, no kit, or `mark_released`: the student's mark is released and the lab refuses hand-ins after it).",
+    schema: apiError,
+  },
 } satisfies Record<number, Answer>;
 
 export const apiOperations: ApiOperation[] = [
@@ -57,7 +64,8 @@ export const apiOperations: ApiOperation[] = [
     method: "get",
     path: "/api/v1/courses/{courseId}/labs",
     summary: "Labs of a course",
-    description: "Students get the published and closed labs of their cohort, with where their drop log stands; staff get every lab of the course.",
+    description:
+      "Students get the published and closed labs of their cohort, with where their drop log stands; staff get every lab of the course.",
     parameters: [{ name: "courseId", in: "path", required: true, description: "The course's id.", schema: z.uuid() }],
     responses: { 200: { description: "The labs, by due time.", schema: labList }, 401: errors[401], 403: errors[403], 404: errors[404] },
   },
@@ -65,9 +73,15 @@ export const apiOperations: ApiOperation[] = [
     method: "get",
     path: "/api/v1/labs/{labId}/drop-logs",
     summary: "Drop logs of a lab",
-    description: "A student gets their own drop log; instructors get every handed-in drop log, TAs those of their cohorts. Each comes with its counted version and that version's reduction.",
+    description:
+      "A student gets their own drop log; instructors get every handed-in drop log, TAs those of their cohorts. Each comes with its counted version and that version's reduction.",
     parameters: [labId],
-    responses: { 200: { description: "The drop logs, by student name.", schema: dropLogList }, 401: errors[401], 403: errors[403], 404: errors[404] },
+    responses: {
+      200: { description: "The drop logs, by student name.", schema: dropLogList },
+      401: errors[401],
+      403: errors[403],
+      404: errors[404],
+    },
   },
   {
     method: "post",
@@ -77,7 +91,13 @@ export const apiOperations: ApiOperation[] = [
       "Students only. The server recomputes the reduction against the student's kit and stores a new immutable version. The sphere, and the fluid lot and column when named, must be of the student's kit and allowed by the lab; when the kit holds more than one lot or column the lab allows, naming it is required. Each refusal answers 400 with the field in `issues`. Repeating a request with the same `Idempotency-Key` stores nothing new and answers 200 with the version first stored.",
     parameters: [
       labId,
-      { name: "Idempotency-Key", in: "header", required: true, description: "The client's key for this hand-in (8 to 200 characters), e.g. a UUID made once per attempt.", schema: z.string().min(8).max(200) },
+      {
+        name: "Idempotency-Key",
+        in: "header",
+        required: true,
+        description: "The client's key for this hand-in (8 to 200 characters), e.g. a UUID made once per attempt.",
+        schema: z.string().min(8).max(200),
+      },
     ],
     requestBody: { description: "The drop log.", schema: dropLogInput },
     responses: {
@@ -92,7 +112,12 @@ export const apiOperations: ApiOperation[] = [
     summary: "One drop log with every version",
     description: "The student who owns it, the course's instructors, and the TAs of the student's cohort.",
     parameters: [labId, { name: "dropLogId", in: "path", required: true, description: "The drop log's id.", schema: z.uuid() }],
-    responses: { 200: { description: "The drop log, newest version first.", schema: dropLogDetail }, 401: errors[401], 403: errors[403], 404: errors[404] },
+    responses: {
+      200: { description: "The drop log, newest version first.", schema: dropLogDetail },
+      401: errors[401],
+      403: errors[403],
+      404: errors[404],
+    },
   },
   {
     method: "get",
@@ -102,9 +127,21 @@ export const apiOperations: ApiOperation[] = [
     parameters: [
       labId,
       { name: "cohort", in: "query", required: false, description: "Only this cohort's hand-ins.", schema: z.uuid() },
-      { name: "label", in: "query", required: false, description: "Only hand-ins with this label.", schema: z.enum(["consistent", "suspect", "outlier"]) },
+      {
+        name: "label",
+        in: "query",
+        required: false,
+        description: "Only hand-ins with this label.",
+        schema: z.enum(["consistent", "suspect", "outlier"]),
+      },
     ],
-    responses: { 200: { description: "The comparison.", schema: classComparisonResponse }, 400: errors[400], 401: errors[401], 403: errors[403], 404: errors[404] },
+    responses: {
+      200: { description: "The comparison.", schema: classComparisonResponse },
+      400: errors[400],
+      401: errors[401],
+      403: errors[403],
+      404: errors[404],
+    },
   },
   {
     method: "get",
@@ -113,13 +150,19 @@ export const apiOperations: ApiOperation[] = [
     description:
       "For the gradebook: instructors get every student of the lab's cohorts, TAs those of their cohorts; students are refused. Each mark gives its total, each criterion's points, the late penalty and when it was released.",
     parameters: [labId],
-    responses: { 200: { description: "The marks, by student name.", schema: marksResponse }, 401: errors[401], 403: errors[403], 404: errors[404] },
+    responses: {
+      200: { description: "The marks, by student name.", schema: marksResponse },
+      401: errors[401],
+      403: errors[403],
+      404: errors[404],
+    },
   },
   {
     method: "post",
     path: "/api/v1/reduce",
     summary: "Reduce without storing",
-    description: "Either `{ labId, input }` (a student's drop log against their own kit: the form's live preview) or the engine's own input in SI units, for anyone signed in.",
+    description:
+      "Either `{ labId, input }` (a student's drop log against their own kit: the form's live preview) or the engine's own input in SI units, for anyone signed in.",
     requestBody: { description: "A lab preview or an engine input.", schema: z.union([labReduceInput, reduceInput]) },
     responses: { 200: { description: "The reduction.", schema: reduceResponse }, ...errors },
   },
@@ -141,7 +184,10 @@ function refsToComponents(node: unknown): unknown {
   return Object.fromEntries(
     Object.entries(node)
       .filter(([key]) => key !== "$defs" && key !== "$schema" && key !== "$id")
-      .map(([key, value]) => [key, key === "$ref" && typeof value === "string" ? value.replace(/^#\/\$defs\//, "#/components/schemas/") : refsToComponents(value)]),
+      .map(([key, value]) => [
+        key,
+        key === "$ref" && typeof value === "string" ? value.replace(/^#\/\$defs\//, "#/components/schemas/") : refsToComponents(value),
+      ]),
   );
 }
 
@@ -152,7 +198,10 @@ function refsToComponents(node: unknown): unknown {
 function jsonSchema(schema: z.ZodType): Record<string, unknown> {
   const registered = apiSchemas.get(schema);
   if (registered) return { $ref: ref(registered.id) };
-  return refsToComponents(z.toJSONSchema(schema, { metadata: apiSchemas, unrepresentable: "any", io: "output" })) as Record<string, unknown>;
+  return refsToComponents(z.toJSONSchema(schema, { metadata: apiSchemas, unrepresentable: "any", io: "output" })) as Record<
+    string,
+    unknown
+  >;
 }
 
 export function openApiDocument(serverUrl: string) {
@@ -164,15 +213,27 @@ export function openApiDocument(serverUrl: string) {
     paths[operation.path][operation.method] = {
       summary: operation.summary,
       description: operation.description,
-      operationId: `${operation.method}${operation.path.replace(/^\/api\/v1/, "").replace(/[{}]/g, "").replace(/[/.-](\w)/g, (_, letter: string) => letter.toUpperCase())}`,
+      operationId: `${operation.method}${operation.path
+        .replace(/^\/api\/v1/, "")
+        .replace(/[{}]/g, "")
+        .replace(/[/.-](\w)/g, (_, letter: string) => letter.toUpperCase())}`,
       ...(operation.parameters?.length
         ? { parameters: operation.parameters.map(({ schema, ...parameter }) => ({ ...parameter, schema: jsonSchema(schema) })) }
         : {}),
       ...(operation.requestBody
-        ? { requestBody: { required: true, description: operation.requestBody.description, content: { "application/json": { schema: jsonSchema(operation.requestBody.schema) } } } }
+        ? {
+            requestBody: {
+              required: true,
+              description: operation.requestBody.description,
+              content: { "application/json": { schema: jsonSchema(operation.requestBody.schema) } },
+            },
+          }
         : {}),
       responses: Object.fromEntries(
-        Object.entries(operation.responses).map(([status, answer]) => [status, { description: answer.description, content: { "application/json": { schema: jsonSchema(answer.schema) } } }]),
+        Object.entries(operation.responses).map(([status, answer]) => [
+          status,
+          { description: answer.description, content: { "application/json": { schema: jsonSchema(answer.schema) } } },
+        ]),
       ),
       security: operation.path === "/api/v1/openapi.json" ? [] : [{ session: [] }, { personalToken: [] }],
     };

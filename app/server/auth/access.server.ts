@@ -71,7 +71,8 @@ function returnPath(request: Request): string {
 export async function requireUser(request: Request): Promise<SignedInUser> {
   const user = await getOptionalUser(request);
   if (user) return user;
-  if (isApiRequest(request)) throw apiErrorResponse(401, "unauthenticated", "Sign in, or send a personal API token as `Authorization: Bearer …`.");
+  if (isApiRequest(request))
+    throw apiErrorResponse(401, "unauthenticated", "Sign in, or send a personal API token as `Authorization: Bearer …`.");
   throw redirect(`/sign-in?${new URLSearchParams({ redirectTo: returnPath(request) })}`);
 }
 
@@ -142,12 +143,17 @@ function courseAccessRow({ context }: RequestScope, userId: string, courseId: st
 export const courseAccessMiddleware: MiddlewareFunction<Response> = async ({ request, params, context }, next) => {
   const user = await getOptionalUser(request);
   // Started, not awaited: a refusal is for the loaders to answer, each with its own roles.
-  if (user && params.courseId && uuidPattern.test(params.courseId)) courseAccessRow({ request, context }, user.id, params.courseId).catch(() => undefined);
+  if (user && params.courseId && uuidPattern.test(params.courseId))
+    courseAccessRow({ request, context }, user.id, params.courseId).catch(() => undefined);
   return next();
 };
 
 /** The user's membership in the course, if it has one of `roles`; otherwise a redirect or a 403. */
-export async function requireCourseRole(scope: RequestScope, courseId: string | undefined, roles: readonly CourseRole[]): Promise<CourseAccess> {
+export async function requireCourseRole(
+  scope: RequestScope,
+  courseId: string | undefined,
+  roles: readonly CourseRole[],
+): Promise<CourseAccess> {
   const { request } = scope;
   const user = await requireUser(request);
   if (!courseId || !uuidPattern.test(courseId)) notFound(request);
@@ -191,7 +197,8 @@ export function canOpenKit(access: CourseAccess, holderCohortId: string | null |
 }
 
 /** The holder cohorts a staff member's kit lists and counts are narrowed to: none for instructors (every kit), the assigned ones for TAs. */
-export const kitCohortScope = (access: CourseAccess): string[] | undefined => (access.membership.role === "instructor" ? undefined : access.cohortIds);
+export const kitCohortScope = (access: CourseAccess): string[] | undefined =>
+  access.membership.role === "instructor" ? undefined : access.cohortIds;
 
 /** Access to one student's own object (a hand-in, their membership…); `viewingOwnWork` tells the student apart from staff. */
 export async function requireStudentAccess(

@@ -8,8 +8,17 @@ export function isApiRequest(request: Request): boolean {
   return new URL(request.url).pathname.startsWith("/api/");
 }
 
-export function apiErrorResponse(status: number, code: string, message: string, issues?: ApiIssue[], headers?: Record<string, string>): Response {
-  return Response.json({ error: { code, message, ...(issues?.length ? { issues } : {}) } }, { status, headers: { "Cache-Control": "no-store", ...headers } });
+export function apiErrorResponse(
+  status: number,
+  code: string,
+  message: string,
+  issues?: ApiIssue[],
+  headers?: Record<string, string>,
+): Response {
+  return Response.json(
+    { error: { code, message, ...(issues?.length ? { issues } : {}) } },
+    { status, headers: { "Cache-Control": "no-store", ...headers } },
+  );
 }
 
 /** The methods an API route takes: GET routes answer HEAD too. */

@@ -60,14 +60,23 @@ export async function mayHaveApiTokens(user: SessionUser): Promise<boolean> {
  * One statement; nothing happens while the user is still staff somewhere.
  */
 export async function revokeTokensOfFormerStaff(tx: Executor, userId: string, actorId: string, request?: Request): Promise<void> {
-  const mayCreateCourses = tx.select({ found: sql`1` }).from(users).where(and(eq(users.id, userId), eq(users.mayCreateCourses, true)));
+  const mayCreateCourses = tx
+    .select({ found: sql`1` })
+    .from(users)
+    .where(and(eq(users.id, userId), eq(users.mayCreateCourses, true)));
   const revoked = await tx
     .delete(apiTokens)
     .where(and(eq(apiTokens.userId, userId), not(exists(mayCreateCourses)), not(isCourseStaff(userId))))
     .returning({ id: apiTokens.id, name: apiTokens.name });
   await recordAudit(
     tx,
-    revoked.map((token) => ({ action: "auth.api_token_revoked" as const, actorId, subject: `api_token:${token.id}`, detail: { name: token.name, reason: "no longer staff", userId }, request })),
+    revoked.map((token) => ({
+      action: "auth.api_token_revoked" as const,
+      actorId,
+      subject: `api_token:${token.id}`,
+      detail: { name: token.name, reason: "no longer staff", userId },
+      request,
+    })),
   );
 }
 
@@ -83,8 +92,17 @@ export function listApiTokens(userId: string) {
 export async function createApiToken(user: SessionUser, name: string, request: Request): Promise<{ id: string; token: string }> {
   const token = TOKEN_PREFIX + generateToken(32);
   return db.transaction(async (tx) => {
-    const [row] = await tx.insert(apiTokens).values({ userId: user.id, name, tokenHash: hashToken(token) }).returning({ id: apiTokens.id });
-    await recordAudit(tx, { action: "auth.api_token_created", actorId: user.id, subject: `api_token:${row.id}`, detail: { name }, request });
+    const [row] = await tx
+      .insert(apiTokens)
+      .values({ userId: user.id, name, tokenHash: hashToken(token) })
+      .returning({ id: apiTokens.id });
+    await recordAudit(tx, {
+      action: "auth.api_token_created",
+      actorId: user.id,
+      subject: `api_token:${row.id}`,
+      detail: { name },
+      request,
+    });
     return { id: row.id, token };
   });
 }
@@ -96,7 +114,13 @@ export async function revokeApiToken(user: SessionUser, tokenId: string, request
       .where(and(eq(apiTokens.id, tokenId), eq(apiTokens.userId, user.id)))
       .returning({ id: apiTokens.id, name: apiTokens.name });
     if (deleted.length === 0) return false;
-    await recordAudit(tx, { action: "auth.api_token_revoked", actorId: user.id, subject: `api_token:${tokenId}`, detail: { name: deleted[0].name }, request });
+    await recordAudit(tx, {
+      action: "auth.api_token_revoked",
+      actorId: user.id,
+      subject: `api_token:${tokenId}`,
+      detail: { name: deleted[0].name },
+      request,
+    });
     return true;
   });
 }

@@ -22,7 +22,8 @@ function isAllowedWrite(request: Request): boolean {
 
 export const requestGuard: MiddlewareFunction<Response> = async ({ request }, next) => {
   if (!isAllowedWrite(request)) {
-    if (isApiRequest(request)) return apiErrorResponse(403, "cross_origin", "Requests that change data must come from Benchpost's own pages.");
+    if (isApiRequest(request))
+      return apiErrorResponse(403, "cross_origin", "Requests that change data must come from Benchpost's own pages.");
     throw data(CROSS_ORIGIN_REFUSAL, { status: 403 });
   }
   const hadCookie = readCookie(request, SESSION_COOKIE) !== null;
@@ -33,7 +34,8 @@ export const requestGuard: MiddlewareFunction<Response> = async ({ request }, ne
   // An action that signed in or out has set the cookie itself; it knows better than the start of the request.
   const cookieSetByRoute = (response.headers.get("set-cookie") ?? "").includes(`${SESSION_COOKIE}=`);
   if (!cookieSetByRoute) {
-    if (validation?.renewed) response.headers.append("Set-Cookie", sessionCookie(readCookie(request, SESSION_COOKIE)!, validation.session.expiresAt));
+    if (validation?.renewed)
+      response.headers.append("Set-Cookie", sessionCookie(readCookie(request, SESSION_COOKIE)!, validation.session.expiresAt));
     else if (hadCookie && !validation) response.headers.append("Set-Cookie", blankSessionCookie());
   }
   if (validation || cookieSetByRoute) response.headers.set("Cache-Control", "private, no-store");

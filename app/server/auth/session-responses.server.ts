@@ -6,7 +6,11 @@ import { redirect } from "react-router";
 import { db } from "~/server/db.server";
 import { blankSessionCookie, getRequestSession, invalidateSession, sessionCookie, type Session } from "./session.server";
 
-export async function redirectWithNewSession(request: Request, to: string, started: { token: string; session: Session }): Promise<Response> {
+export async function redirectWithNewSession(
+  request: Request,
+  to: string,
+  started: { token: string; session: Session },
+): Promise<Response> {
   const previous = await getRequestSession(request);
   if (previous && previous.session.id !== started.session.id) await invalidateSession(db, previous.session.id);
   return redirect(to, { headers: { "Set-Cookie": sessionCookie(started.token, started.session.expiresAt) } });

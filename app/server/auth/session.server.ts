@@ -19,11 +19,7 @@ export type SessionUser = { id: string; email: string; name: string; mayCreateCo
 export type Session = { id: string; userId: string; expiresAt: Date };
 export type SessionValidation = { session: Session; user: SessionUser; renewed: boolean };
 
-export async function createSession(
-  executor: Executor,
-  userId: string,
-  request: Request,
-): Promise<{ token: string; session: Session }> {
+export async function createSession(executor: Executor, userId: string, request: Request): Promise<{ token: string; session: Session }> {
   const token = generateToken();
   const session = { id: hashToken(token), userId, expiresAt: new Date(Date.now() + SESSION_LIFETIME_MS) };
   await executor.insert(sessions).values({
@@ -71,7 +67,13 @@ export async function invalidateUserSessions(executor: Executor, userId: string,
 
 export function listUserSessions(userId: string) {
   return db
-    .select({ id: sessions.id, createdAt: sessions.createdAt, expiresAt: sessions.expiresAt, userAgent: sessions.userAgent, ip: sessions.ip })
+    .select({
+      id: sessions.id,
+      createdAt: sessions.createdAt,
+      expiresAt: sessions.expiresAt,
+      userAgent: sessions.userAgent,
+      ip: sessions.ip,
+    })
     .from(sessions)
     .where(eq(sessions.userId, userId))
     .orderBy(sessions.createdAt);

@@ -10,7 +10,13 @@ import { allowSignUp, appUrl } from "~/server/config.server";
 import { db, type Executor } from "~/server/db.server";
 import { sendEmail } from "~/server/email/send-email.server";
 import { clientIp } from "~/server/http.server";
-import { consumeEmailLink, createEmailLink, deleteUserEmailLinks, emailLinkLifetimeMinutes, type EmailLinkPurpose } from "./email-links.server";
+import {
+  consumeEmailLink,
+  createEmailLink,
+  deleteUserEmailLinks,
+  emailLinkLifetimeMinutes,
+  type EmailLinkPurpose,
+} from "./email-links.server";
 import { hashPassword, verifyAgainstDecoy, verifyPassword } from "./password.server";
 import { consume, firstLimited, refund, type LimitCheck } from "./rate-limit.server";
 import { createSession, invalidateSession, invalidateUserSessions, type Session } from "./session.server";
@@ -21,7 +27,10 @@ type Limited = Extract<LimitCheck, { limited: true }>;
 export const normaliseEmail = (email: string) => email.trim().toLowerCase();
 
 async function findUserByEmail(executor: Executor, email: string) {
-  const [user] = await executor.select().from(users).where(eq(users.email, normaliseEmail(email)));
+  const [user] = await executor
+    .select()
+    .from(users)
+    .where(eq(users.email, normaliseEmail(email)));
   return user;
 }
 
@@ -65,7 +74,11 @@ const linkPaths = { sign_in: "/sign-in/link", password_reset: "/reset-password" 
  * Sends a sign-in or reset link when the address has an account, and a notice saying there is none
  * otherwise; the answer is the same. Limited by address and by client, so that nobody can flood a mailbox.
  */
-export async function requestEmailLink(purpose: EmailLinkPurpose, rawEmail: string, request: Request): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
+export async function requestEmailLink(
+  purpose: EmailLinkPurpose,
+  rawEmail: string,
+  request: Request,
+): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(rawEmail);
   const limit = firstLimited(await Promise.all([consume("email-link-address", email), consume("email-link-ip", clientIp(request))]));
   if (limit.limited) return { outcome: "limited", ...limit };
@@ -78,7 +91,13 @@ export async function requestEmailLink(purpose: EmailLinkPurpose, rawEmail: stri
  * link's insert finds the account, see `createEmailLink`), so that how long the answer takes does not
  * tell whether the address has an account. `alsoRecord` joins the one audit insert.
  */
-async function queueEmailLink(tx: Executor, purpose: EmailLinkPurpose, email: string, request: Request, alsoRecord: AuditInput[] = []): Promise<void> {
+async function queueEmailLink(
+  tx: Executor,
+  purpose: EmailLinkPurpose,
+  email: string,
+  request: Request,
+  alsoRecord: AuditInput[] = [],
+): Promise<void> {
   const { token, user } = await createEmailLink(tx, email, purpose);
   await sendEmail(
     tx,
@@ -166,12 +185,19 @@ export async function signOutEverywhere(userId: string, request: Request): Promi
  * address that has an account already gets a sign-in link to it, and the same answer, so that sign-up
  * does not tell who has an account (nor lets anyone claim an address they cannot read).
  */
-export async function signUp(input: { name: string; email: string }, request: Request): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
+export async function signUp(
+  input: { name: string; email: string },
+  request: Request,
+): Promise<{ outcome: "sent" } | ({ outcome: "limited" } & Limited)> {
   const email = normaliseEmail(input.email);
   const limit = firstLimited(await Promise.all([consume("email-link-address", email), consume("email-link-ip", clientIp(request))]));
   if (limit.limited) return { outcome: "limited", ...limit };
   await db.transaction(async (tx) => {
-    const [created] = await tx.insert(users).values({ name: input.name, email, mayCreateCourses: true }).onConflictDoNothing().returning({ id: users.id });
+    const [created] = await tx
+      .insert(users)
+      .values({ name: input.name, email, mayCreateCourses: true })
+      .onConflictDoNothing()
+      .returning({ id: users.id });
     const signedUp: AuditInput[] = created ? [{ action: "auth.sign_up", actorId: created.id, subject: `user:${created.id}`, request }] : [];
     await queueEmailLink(tx, "sign_in", email, request, signedUp);
   });
@@ -195,6 +221,9 @@ export async function createInstructorAccount(executor: Executor, input: { email
     .onConflictDoNothing()
     .returning({ id: users.id });
   if (created) return "created";
-  await executor.update(users).set({ mayCreateCourses: true }).where(eq(users.email, normaliseEmail(input.email)));
+  await executor
+    .update(users)
+    .set({ mayCreateCourses: true })
+    .where(eq(users.email, normaliseEmail(input.email)));
   return "promoted";
 }

@@ -63,7 +63,12 @@ export type LabelledHandIn = CountedHandIn & { label: ClassComparisonLabel; reas
 /** The word for the figure in the reasons: "viscosity 31 % above the class median". */
 export const quantityOf = (kind: ComparisonLab["kind"]) => (kind === "viscometry" ? "viscosity" : "drag");
 
-export const settingsOf = (lab: { comparisonMethod: string; comparisonAlpha: number; comparisonMaxOutliers: number; comparisonK: number }): ComparisonSettings => ({
+export const settingsOf = (lab: {
+  comparisonMethod: string;
+  comparisonAlpha: number;
+  comparisonMaxOutliers: number;
+  comparisonK: number;
+}): ComparisonSettings => ({
   method: lab.comparisonMethod === "iqr" || lab.comparisonMethod === "esd" ? lab.comparisonMethod : "grubbs",
   alpha: lab.comparisonAlpha,
   maxOutliers: lab.comparisonMaxOutliers,
@@ -91,7 +96,15 @@ export async function loadComparisonLab(executor: Executor, courseId: string, la
     .from(labs)
     .where(and(eq(labs.id, labId), eq(labs.courseId, courseId)));
   if (!row) return null;
-  return { id: row.id, courseId: row.courseId, title: row.title, kind: row.kind, dragModel: row.dragModel, settings: settingsOf(row), cohortIds: row.cohortIds };
+  return {
+    id: row.id,
+    courseId: row.courseId,
+    title: row.title,
+    kind: row.kind,
+    dragModel: row.dragModel,
+    settings: settingsOf(row),
+    cohortIds: row.cohortIds,
+  };
 }
 
 type CountedRow = {
@@ -181,13 +194,22 @@ export async function loadCountedHandIns(executor: Executor, labId: string): Pro
 }
 
 /** Labels the whole class with the given settings (the lab's own unless a preview asks for others). */
-export function labelHandIns(lab: Pick<ComparisonLab, "kind">, handIns: readonly CountedHandIn[], settings: ComparisonSettings): LabelledHandIn[] {
+export function labelHandIns(
+  lab: Pick<ComparisonLab, "kind">,
+  handIns: readonly CountedHandIn[],
+  settings: ComparisonSettings,
+): LabelledHandIn[] {
   const results = labelClass(
     handIns.map((handIn) => ({ id: handIn.dropLogId, figure: handIn.figure })),
     settings,
     quantityOf(lab.kind),
   );
-  return handIns.map((handIn, index) => ({ ...handIn, label: results[index].label, reason: results[index].reason, relativeToClass: results[index].relativeToClass }));
+  return handIns.map((handIn, index) => ({
+    ...handIn,
+    label: results[index].label,
+    reason: results[index].reason,
+    relativeToClass: results[index].relativeToClass,
+  }));
 }
 
 export type ComparisonFilters = { cohortId?: string; label?: ClassComparisonLabel };
@@ -200,7 +222,6 @@ const comparisonSearch = z
 export function readComparisonFilters(request: Request): ComparisonFilters {
   return readSearchParams(request, comparisonSearch);
 }
-
 
 /** The comparison as the page, the API and the CSV give it: plain JSON, the same fields everywhere. */
 export function comparisonJson(comparison: LabComparison) {
@@ -271,18 +292,32 @@ export async function getLabComparison(
     description: describeSettings(lab.settings),
     classSize: labelled.length,
     counts: countLabels(visible),
-    limits: comparisonLimits(handIns.map((handIn) => handIn.figure), lab.settings),
-    cohorts: [...new Map(visible.filter((handIn) => handIn.cohortId).map((handIn) => [handIn.cohortId!, handIn.cohortName ?? ""])).entries()]
+    limits: comparisonLimits(
+      handIns.map((handIn) => handIn.figure),
+      lab.settings,
+    ),
+    cohorts: [
+      ...new Map(visible.filter((handIn) => handIn.cohortId).map((handIn) => [handIn.cohortId!, handIn.cohortName ?? ""])).entries(),
+    ]
       .map(([id, name]) => ({ id, name }))
       .sort((a, b) => a.name.localeCompare(b.name)),
-    handIns: visible.filter((handIn) => (!filters.cohortId || handIn.cohortId === filters.cohortId) && (!filters.label || handIn.label === filters.label)),
+    handIns: visible.filter(
+      (handIn) => (!filters.cohortId || handIn.cohortId === filters.cohortId) && (!filters.label || handIn.label === filters.label),
+    ),
   };
 }
 
 /** How many hand-ins the chosen settings and a few alternatives would flag, over the whole class. */
 export async function previewLabSettings(executor: Executor, lab: ComparisonLab, settings: ComparisonSettings) {
   const handIns = await loadCountedHandIns(executor, lab.id);
-  return { classSize: handIns.length, previews: previewSettings(handIns.map((handIn) => ({ id: handIn.dropLogId, figure: handIn.figure })), settings, quantityOf(lab.kind)) };
+  return {
+    classSize: handIns.length,
+    previews: previewSettings(
+      handIns.map((handIn) => ({ id: handIn.dropLogId, figure: handIn.figure })),
+      settings,
+      quantityOf(lab.kind),
+    ),
+  };
 }
 
 export type RelabelOutcome = { labelled: number; changed: number; removed: number };
@@ -297,7 +332,13 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
   const write = async (tx: Transaction): Promise<RelabelOutcome> => {
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`class-comparison:${labId}`}, 0))`);
     const [lab] = await tx
-      .select({ kind: labs.kind, comparisonMethod: labs.comparisonMethod, comparisonAlpha: labs.comparisonAlpha, comparisonMaxOutliers: labs.comparisonMaxOutliers, comparisonK: labs.comparisonK })
+      .select({
+        kind: labs.kind,
+        comparisonMethod: labs.comparisonMethod,
+        comparisonAlpha: labs.comparisonAlpha,
+        comparisonMaxOutliers: labs.comparisonMaxOutliers,
+        comparisonK: labs.comparisonK,
+      })
       .from(labs)
       .where(eq(labs.id, labId));
     if (!lab) return { labelled: 0, changed: 0, removed: 0 };
@@ -305,7 +346,13 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
     const method: ComparisonMethodSettings = settings;
     const labelled = labelHandIns(lab, await loadCountedHandIns(tx, labId), settings);
 
-    const payload = labelled.map((handIn) => ({ drop_log_id: handIn.dropLogId, version_id: handIn.versionId, figure: handIn.figure, label: handIn.label, reason: handIn.reason }));
+    const payload = labelled.map((handIn) => ({
+      drop_log_id: handIn.dropLogId,
+      version_id: handIn.versionId,
+      figure: handIn.figure,
+      label: handIn.label,
+      reason: handIn.reason,
+    }));
     if (payload.length > 0) {
       await tx.execute(sql`
         insert into comparison_labels (drop_log_id, lab_id, version_id, figure, label, reason, method, computed_at)
@@ -323,7 +370,15 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
     await insertMany(
       tx,
       comparisonLabelChanges,
-      changes.map((handIn) => ({ labId, dropLogId: handIn.dropLogId, versionId: handIn.versionId, fromLabel: handIn.storedLabel, toLabel: handIn.label, reason: handIn.reason, method })),
+      changes.map((handIn) => ({
+        labId,
+        dropLogId: handIn.dropLogId,
+        versionId: handIn.versionId,
+        fromLabel: handIn.storedLabel,
+        toLabel: handIn.label,
+        reason: handIn.reason,
+        method,
+      })),
     );
     // Labels of hand-ins that no longer count (a new version without a figure). NOT IN over a subquery
     // is hashed once, so this stays linear in the class size.
@@ -370,7 +425,13 @@ export async function updateComparisonSettings(
   return executor.transaction(async (tx) => {
     await tx
       .update(labs)
-      .set({ comparisonMethod: settings.method, comparisonAlpha: settings.alpha, comparisonMaxOutliers: settings.maxOutliers, comparisonK: settings.k, updatedAt: new Date() })
+      .set({
+        comparisonMethod: settings.method,
+        comparisonAlpha: settings.alpha,
+        comparisonMaxOutliers: settings.maxOutliers,
+        comparisonK: settings.k,
+        updatedAt: new Date(),
+      })
       .where(and(eq(labs.id, lab.id), eq(labs.courseId, access.course.id)));
     const outcome = await relabelLab(tx, lab.id);
     await recordAudit(tx, {

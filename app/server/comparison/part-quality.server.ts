@@ -11,9 +11,23 @@ import { canSeeStudentWork, type CourseAccess } from "~/server/auth/access.serve
 import type { Executor } from "~/server/db.server";
 import { canOpenComparison } from "./comparison-access.server";
 
-export type PartBiasHandIn = { dropLogId: string; labId: string; labTitle: string; studentName: string; userId: string; cohortId: string | null; figure: number; submittedAt: string };
+export type PartBiasHandIn = {
+  dropLogId: string;
+  labId: string;
+  labTitle: string;
+  studentName: string;
+  userId: string;
+  cohortId: string | null;
+  figure: number;
+  submittedAt: string;
+};
 export type PartLabComparison = PeerComparison & { labTitle: string; labCohortIds: string[] };
-export type PartBiasReport = Omit<PartBias, "comparisons"> & { partId: string; alpha: number; comparisons: PartLabComparison[]; handIns: PartBiasHandIn[] };
+export type PartBiasReport = Omit<PartBias, "comparisons"> & {
+  partId: string;
+  alpha: number;
+  comparisons: PartLabComparison[];
+  handIns: PartBiasHandIn[];
+};
 
 /**
  * A report as one staff member reads it: the tests stay the whole course's, but only the hand-ins they
@@ -100,7 +114,11 @@ export async function listPartBias(executor: Executor, courseId: string, partId?
     reports.set(id, {
       flagged: bias.flagged,
       testsInFamily: bias.testsInFamily,
-      comparisons: bias.comparisons.map((comparison) => ({ ...comparison, labTitle: labInfo.get(comparison.labId)?.title ?? "", labCohortIds: labInfo.get(comparison.labId)?.cohortIds ?? [] })),
+      comparisons: bias.comparisons.map((comparison) => ({
+        ...comparison,
+        labTitle: labInfo.get(comparison.labId)?.title ?? "",
+        labCohortIds: labInfo.get(comparison.labId)?.cohortIds ?? [],
+      })),
       partId: id,
       alpha,
       handIns,
@@ -113,7 +131,10 @@ export function partBiasFor(access: CourseAccess, { comparisons, handIns, ...rep
   const visible = handIns.filter((handIn) => canSeeStudentWork(access, { userId: handIn.userId, cohortId: handIn.cohortId }));
   return {
     ...report,
-    comparisons: comparisons.map(({ labCohortIds, ...comparison }) => ({ ...comparison, mayOpenComparison: canOpenComparison(access, labCohortIds) })),
+    comparisons: comparisons.map(({ labCohortIds, ...comparison }) => ({
+      ...comparison,
+      mayOpenComparison: canOpenComparison(access, labCohortIds),
+    })),
     handIns: visible.map(({ userId, cohortId, ...handIn }) => handIn),
     otherHandIns: handIns.length - visible.length,
   };

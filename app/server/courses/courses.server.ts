@@ -14,8 +14,12 @@ export type Course = typeof courses.$inferSelect;
 
 export async function createCourse(executor: Executor, { actorId, input }: { actorId: string; input: CourseInput }): Promise<Course> {
   return executor.transaction(async (tx) => {
-    const clash = await tx.select({ id: courses.id }).from(courses).where(and(eq(courses.code, input.code), eq(courses.term, input.term)));
-    if (clash.length) throw new AppError({ code: "course_exists", message: `A course ${input.code} already exists for ${input.term}.`, field: "code" });
+    const clash = await tx
+      .select({ id: courses.id })
+      .from(courses)
+      .where(and(eq(courses.code, input.code), eq(courses.term, input.term)));
+    if (clash.length)
+      throw new AppError({ code: "course_exists", message: `A course ${input.code} already exists for ${input.term}.`, field: "code" });
     const [course] = await tx.insert(courses).values(input).returning();
     await tx.insert(courseMemberships).values({ courseId: course.id, userId: actorId, role: "instructor" });
     await recordAudit(tx, { courseId: course.id, actorId, action: "course.created", subject: `course:${course.id}` });
@@ -23,13 +27,21 @@ export async function createCourse(executor: Executor, { actorId, input }: { act
   });
 }
 
-export async function updateCourse(executor: Executor, { courseId, actorId, input }: { courseId: string; actorId: string; input: CourseInput }): Promise<void> {
+export async function updateCourse(
+  executor: Executor,
+  { courseId, actorId, input }: { courseId: string; actorId: string; input: CourseInput },
+): Promise<void> {
   await executor.transaction(async (tx) => {
     const clash = await tx
       .select({ id: courses.id })
       .from(courses)
       .where(and(eq(courses.code, input.code), eq(courses.term, input.term), sql`${courses.id} <> ${courseId}`));
-    if (clash.length) throw new AppError({ code: "course_exists", message: `Another course ${input.code} already exists for ${input.term}.`, field: "code" });
+    if (clash.length)
+      throw new AppError({
+        code: "course_exists",
+        message: `Another course ${input.code} already exists for ${input.term}.`,
+        field: "code",
+      });
     await tx.update(courses).set(input).where(eq(courses.id, courseId));
     await recordAudit(tx, { courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
   });
@@ -37,16 +49,25 @@ export async function updateCourse(executor: Executor, { courseId, actorId, inpu
 
 export async function addCohort(executor: Executor, { courseId, name }: { courseId: string; name: string }): Promise<void> {
   const inserted = await executor.insert(cohorts).values({ courseId, name }).onConflictDoNothing().returning({ id: cohorts.id });
-  if (inserted.length === 0) throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+  if (inserted.length === 0)
+    throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
 }
 
 /** Renames one of the course's cohorts; a cohort of another course (or none) is refused with 404 and nothing changes. */
-export async function renameCohort(executor: Executor, { courseId, cohortId, name }: { courseId: string; cohortId: string; name: string }): Promise<void> {
+export async function renameCohort(
+  executor: Executor,
+  { courseId, cohortId, name }: { courseId: string; cohortId: string; name: string },
+): Promise<void> {
   let renamed: { id: string }[];
   try {
-    renamed = await executor.update(cohorts).set({ name }).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId))).returning({ id: cohorts.id });
+    renamed = await executor
+      .update(cohorts)
+      .set({ name })
+      .where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)))
+      .returning({ id: cohorts.id });
   } catch (error) {
-    if (isUniqueViolation(error)) throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+    if (isUniqueViolation(error))
+      throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
     throw error;
   }
   if (renamed.length === 0) throw new AppError({ code: "not_found", message: "There is no such cohort in this course.", status: 404 });
@@ -64,12 +85,22 @@ export async function setTaCohorts(
       .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)));
     if (member?.role !== "ta") throw new AppError({ code: "not_a_ta", message: "Only teaching assistants are assigned to cohorts." });
     const known = cohortIds.length
-      ? await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.courseId, courseId), inArray(cohorts.id, cohortIds)))
+      ? await tx
+          .select({ id: cohorts.id })
+          .from(cohorts)
+          .where(and(eq(cohorts.courseId, courseId), inArray(cohorts.id, cohortIds)))
       : [];
-    if (known.length !== cohortIds.length) throw new AppError({ code: "unknown_cohort", message: "Some of the chosen cohorts are not in this course.", field: "cohortIds" });
+    if (known.length !== cohortIds.length)
+      throw new AppError({ code: "unknown_cohort", message: "Some of the chosen cohorts are not in this course.", field: "cohortIds" });
     await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
     if (cohortIds.length) await tx.insert(taCohortAssignments).values(cohortIds.map((cohortId) => ({ membershipId, cohortId })));
-    await recordAudit(tx, { courseId, actorId, action: "course.ta_cohorts_changed", subject: `membership:${membershipId}`, detail: { cohortIds } });
+    await recordAudit(tx, {
+      courseId,
+      actorId,
+      action: "course.ta_cohorts_changed",
+      subject: `membership:${membershipId}`,
+      detail: { cohortIds },
+    });
   });
 }
 
@@ -93,7 +124,9 @@ export async function getCourseWithCohorts(executor: Executor, courseId: string)
         membershipId: courseMemberships.id,
         name: users.name,
         email: users.email,
-        cohortIds: sql<string[]>`coalesce(array_agg(${taCohortAssignments.cohortId}) filter (where ${taCohortAssignments.cohortId} is not null), '{}')`,
+        cohortIds: sql<
+          string[]
+        >`coalesce(array_agg(${taCohortAssignments.cohortId}) filter (where ${taCohortAssignments.cohortId} is not null), '{}')`,
       })
       .from(courseMemberships)
       .innerJoin(users, eq(users.id, courseMemberships.userId))
@@ -127,7 +160,11 @@ export async function courseOverview(executor: Executor, access: CourseAccess) {
       })
       .from(courseMemberships)
       .where(and(eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt))),
-    executor.select({ state: kits.state, count: count() }).from(kits).where(and(eq(kits.courseId, courseId), heldInScope(sql`${kits.holderMembershipId}`))).groupBy(kits.state),
+    executor
+      .select({ state: kits.state, count: count() })
+      .from(kits)
+      .where(and(eq(kits.courseId, courseId), heldInScope(sql`${kits.holderMembershipId}`)))
+      .groupBy(kits.state),
     executor.select({ number: kits.number, state: kits.state }).from(kits).where(eq(kits.holderMembershipId, access.membership.id)),
   ]);
   const { openReports, ...headline } = counts;

@@ -66,9 +66,18 @@ export async function listLabDropLogs(executor: Executor, access: CourseAccess, 
 }
 
 /** The owner of one drop log of the lab, for the access check before it is read; null when there is none. */
-export async function findDropLogOwner(executor: Executor, labId: string, dropLogId: string): Promise<(StudentOwner & { membershipId: string; studentName: string }) | null> {
+export async function findDropLogOwner(
+  executor: Executor,
+  labId: string,
+  dropLogId: string,
+): Promise<(StudentOwner & { membershipId: string; studentName: string }) | null> {
   const [row] = await executor
-    .select({ membershipId: dropLogs.membershipId, userId: courseMemberships.userId, cohortId: courseMemberships.cohortId, studentName: users.name })
+    .select({
+      membershipId: dropLogs.membershipId,
+      userId: courseMemberships.userId,
+      cohortId: courseMemberships.cohortId,
+      studentName: users.name,
+    })
     .from(dropLogs)
     .innerJoin(courseMemberships, eq(courseMemberships.id, dropLogs.membershipId))
     .innerJoin(users, eq(users.id, courseMemberships.userId))

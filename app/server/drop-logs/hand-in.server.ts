@@ -64,7 +64,8 @@ export function handInRefusal(code: HandInRefusalCode, message: string, issues: 
 
 /** An extension as json_build_object returns it: timestamps arrive as strings. */
 type ExtensionRow = { dueAt: string; lateCutoffAt: string | null };
-const extensionWindow = (row: ExtensionRow | null) => (row ? { dueAt: new Date(row.dueAt), lateCutoffAt: row.lateCutoffAt ? new Date(row.lateCutoffAt) : null } : null);
+const extensionWindow = (row: ExtensionRow | null) =>
+  row ? { dueAt: new Date(row.dueAt), lateCutoffAt: row.lateCutoffAt ? new Date(row.lateCutoffAt) : null } : null;
 
 export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
 
@@ -72,7 +73,8 @@ export type StudentLab = Awaited<ReturnType<typeof loadStudentLab>>;
 const markReleased = (labId: SQLWrapper | string, membershipId: string) =>
   sql<boolean>`exists (select 1 from marks mk where mk.lab_id = ${labId} and mk.membership_id = ${membershipId} and mk.released_at is not null)`;
 
-export const markReleasedMessage = "Your mark for this lab is released: it takes no more hand-ins from you. Ask your instructor if something went wrong.";
+export const markReleasedMessage =
+  "Your mark for this lab is released: it takes no more hand-ins from you. Ask your instructor if something went wrong.";
 export type KitPart = StudentLab["kitParts"][number];
 
 /** How the form and the messages name each kind of part a hand-in is reduced against (the kinds a lab limits). */
@@ -153,7 +155,10 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
   // The lab's policy decides what a hand-in after release does; the page says so before the student tries.
   const afterRelease = row.markReleased ? row.lab.afterReleaseHandIns : null;
   // The student's effective window decides late and cut-off: their extension, else their cohort's, else the lab's.
-  const handInWindow = effectiveHandInWindow(row.lab, { student: extensionWindow(row.studentExtension), cohort: extensionWindow(row.cohortExtension) });
+  const handInWindow = effectiveHandInWindow(row.lab, {
+    student: extensionWindow(row.studentExtension),
+    cohort: extensionWindow(row.cohortExtension),
+  });
   return { lab: row.lab, window: handInWindow, gravity: row.gravity, kitParts: kitPartRows, usableParts: usable, afterRelease };
 }
 
@@ -174,7 +179,10 @@ function choosePart(context: StudentLab, kind: ChoosableKind, chosenId: string |
     }
     if (!candidates.some((candidate) => candidate.id === part.id)) {
       throw handInRefusal("part_not_allowed", `This lab does not use ${name} ${part.label}.`, [
-        { path: [field], message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((candidate) => candidate.label).join(", ")}` : "another"}.` },
+        {
+          path: [field],
+          message: `This lab does not use ${name} ${part.label}; choose ${candidates.length ? `one of ${candidates.map((candidate) => candidate.label).join(", ")}` : "another"}.`,
+        },
       ]);
     }
     return part;
@@ -188,7 +196,8 @@ function choosePart(context: StudentLab, kind: ChoosableKind, chosenId: string |
 
 /** The sphere, fluid lot and column of the student's kit the drop log names (or the lab's only choice), and the kit's state. */
 function resolveKit(context: StudentLab, input: DropLogInput): KitRecordsInput {
-  if (context.kitParts.length === 0) throw handInRefusal("no_kit", "You hold no kit in this course yet, so there is nothing to reduce against.");
+  if (context.kitParts.length === 0)
+    throw handInRefusal("no_kit", "You hold no kit in this course yet, so there is nothing to reduce against.");
   const sphere = choosePart(context, "sphere", input.sphereId);
   const fluidLot = choosePart(context, "fluid_lot", input.fluidLotId);
   const column = choosePart(context, "column", input.columnId);
@@ -201,7 +210,10 @@ function parseInput(raw: unknown): DropLogInput {
   throw handInRefusal(
     "invalid_input",
     "Some of the drop log needs correcting.",
-    parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)), message: issue.message })),
+    parsed.error.issues.map((issue) => ({
+      path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)),
+      message: issue.message,
+    })),
   );
 }
 
@@ -220,7 +232,10 @@ function reduceFor(context: StudentLab, input: DropLogInput): DropLogReduction {
 }
 
 /** The live preview: the same reduction a hand-in stores, without storing anything. */
-export async function previewDropLog(executor: Executor, { access, labId, input }: { access: CourseAccess; labId: string; input: unknown }) {
+export async function previewDropLog(
+  executor: Executor,
+  { access, labId, input }: { access: CourseAccess; labId: string; input: unknown },
+) {
   const parsed = parseInput(input);
   const context = await loadStudentLab(executor, access, labId);
   return reduceFor(context, parsed);
@@ -230,7 +245,9 @@ const labClosed = () => handInRefusal("lab_closed", "This lab is closed: it take
 const pastCutoff = (window: HandInWindow) =>
   handInRefusal(
     "past_cutoff",
-    window.lateCutoffAt ? "The late cut-off has passed: this lab takes no more hand-ins." : "The due time has passed and this lab takes no late hand-ins.",
+    window.lateCutoffAt
+      ? "The late cut-off has passed: this lab takes no more hand-ins."
+      : "The due time has passed and this lab takes no late hand-ins.",
   );
 
 /**
@@ -255,7 +272,13 @@ const idempotencyKey = z.string().trim().min(8, "The hand-in key is missing; rel
  */
 export async function handInDropLog(
   executor: Executor,
-  { access, labId, input, idempotencyKey: key, now = new Date() }: { access: CourseAccess; labId: string; input: unknown; idempotencyKey: string; now?: Date },
+  {
+    access,
+    labId,
+    input,
+    idempotencyKey: key,
+    now = new Date(),
+  }: { access: CourseAccess; labId: string; input: unknown; idempotencyKey: string; now?: Date },
 ): Promise<HandInResult> {
   const keyCheck = idempotencyKey.safeParse(key);
   if (!keyCheck.success) throw handInRefusal("invalid_input", keyCheck.error.issues[0].message);
@@ -277,7 +300,12 @@ export async function handInDropLog(
       // release under way finishes first, so the statements below see whether it released this mark.
       .returning({ id: dropLogs.id, marking: sql`(${markingLock(labId, "shared")}) is null` });
     const [earlier] = await tx
-      .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
+      .select({
+        id: dropLogVersions.id,
+        version: dropLogVersions.version,
+        late: dropLogVersions.late,
+        submittedAt: dropLogVersions.submittedAt,
+      })
       .from(dropLogVersions)
       .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
     // A repeat is answered before the clock is read: a retry arriving after the cut-off still gets its version.
@@ -309,11 +337,21 @@ export async function handInDropLog(
         warningCount,
       })
       .onConflictDoNothing({ target: [dropLogVersions.dropLogId, dropLogVersions.idempotencyKey] })
-      .returning({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt });
+      .returning({
+        id: dropLogVersions.id,
+        version: dropLogVersions.version,
+        late: dropLogVersions.late,
+        submittedAt: dropLogVersions.submittedAt,
+      });
     if (!inserted) {
       // Only reachable if the lock was bypassed (another writer without it); the stored version still wins.
       const [stored] = await tx
-        .select({ id: dropLogVersions.id, version: dropLogVersions.version, late: dropLogVersions.late, submittedAt: dropLogVersions.submittedAt })
+        .select({
+          id: dropLogVersions.id,
+          version: dropLogVersions.version,
+          late: dropLogVersions.late,
+          submittedAt: dropLogVersions.submittedAt,
+        })
         .from(dropLogVersions)
         .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
       return { version: stored, duplicate: true };
@@ -373,7 +411,10 @@ export async function getDropLogForStudent(executor: Executor, { labId, membersh
     where: and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)),
     with: {
       versions: { orderBy: [desc(dropLogVersions.version)] },
-      photos: { orderBy: [asc(dropLogPhotos.createdAt)], columns: { id: true, versionId: true, contentType: true, bytes: true, originalName: true, createdAt: true } },
+      photos: {
+        orderBy: [asc(dropLogPhotos.createdAt)],
+        columns: { id: true, versionId: true, contentType: true, bytes: true, originalName: true, createdAt: true },
+      },
     },
   });
   if (!dropLog) return null;

@@ -7,7 +7,13 @@ import { AppError } from "~/lib/app-error";
 import { randomUUID } from "node:crypto";
 import path from "node:path";
 import { createFsFileStorage } from "@remix-run/file-storage/fs";
-import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededError, parseFormData, type FileUpload } from "@remix-run/form-data-parser";
+import {
+  MaxFileSizeExceededError,
+  MaxFilesExceededError,
+  MaxTotalSizeExceededError,
+  parseFormData,
+  type FileUpload,
+} from "@remix-run/form-data-parser";
 import { and, eq, sql } from "drizzle-orm";
 import { courseMemberships, dropLogPhotos, dropLogs, labs } from "~/db/schema";
 import {
@@ -84,13 +90,22 @@ const megabytes = (bytes: number) => `${Math.round(bytes / (1024 * 1024))} MB`;
 /** Refuses photos that would take the drop log or the student past their caps; `adding` empty asks whether any more fit. */
 function refuseOverCaps(usage: { dropLogPhotos: number; studentBytes: number }, adding: StoredPhoto[]) {
   const count = Math.max(adding.length, 1);
-  const bytes = Math.max(adding.reduce((sum, photo) => sum + photo.bytes, 0), 1);
+  const bytes = Math.max(
+    adding.reduce((sum, photo) => sum + photo.bytes, 0),
+    1,
+  );
   if (usage.dropLogPhotos + count > MAX_PHOTOS_PER_DROP_LOG) {
     const left = MAX_PHOTOS_PER_DROP_LOG - usage.dropLogPhotos;
-    throw uploadRefusal(409, `A drop log keeps at most ${MAX_PHOTOS_PER_DROP_LOG} photos; this one has ${usage.dropLogPhotos}${left > 0 ? `, so send at most ${left} more` : ""}.`);
+    throw uploadRefusal(
+      409,
+      `A drop log keeps at most ${MAX_PHOTOS_PER_DROP_LOG} photos; this one has ${usage.dropLogPhotos}${left > 0 ? `, so send at most ${left} more` : ""}.`,
+    );
   }
   if (usage.studentBytes + bytes > MAX_PHOTO_BYTES_PER_STUDENT) {
-    throw uploadRefusal(409, `Your photos in this course may take up ${megabytes(MAX_PHOTO_BYTES_PER_STUDENT)} in all, and ${megabytes(usage.studentBytes)} are used: send smaller photos.`);
+    throw uploadRefusal(
+      409,
+      `Your photos in this course may take up ${megabytes(MAX_PHOTO_BYTES_PER_STUDENT)} in all, and ${megabytes(usage.studentBytes)} are used: send smaller photos.`,
+    );
   }
 }
 
@@ -101,11 +116,15 @@ function refuseOverCaps(usage: { dropLogPhotos: number; studentBytes: number }, 
  * transaction that re-checks the caps under a per-student lock, so two uploads at once cannot both
  * squeeze past them. A refusal leaves no row behind and removes the files.
  */
-export async function uploadDraftPhotos(database: Database, { access, context, request, now = new Date() }: { access: CourseAccess; context: StudentLab; request: Request; now?: Date }) {
+export async function uploadDraftPhotos(
+  database: Database,
+  { access, context, request, now = new Date() }: { access: CourseAccess; context: StudentLab; request: Request; now?: Date },
+) {
   refuseWhenClosed(context, now);
   const owner = { labId: context.lab.id, membershipId: access.membership.id };
   const limit = await consume("photo-upload", access.user.id);
-  if (limit.limited) throw uploadRefusal(429, "You have uploaded many photos in a short time; wait a few minutes and try again.", limit.retryAfterSeconds);
+  if (limit.limited)
+    throw uploadRefusal(429, "You have uploaded many photos in a short time; wait a few minutes and try again.", limit.retryAfterSeconds);
   refuseOverCaps(await photoUsage(database, owner), []);
   const stored = await receivePhotos(request, `${owner.labId}/${owner.membershipId}`);
   try {
@@ -149,11 +168,18 @@ async function receivePhotos(request: Request, keyPrefix: string): Promise<Store
   };
   try {
     // The total too, for a body sent without its length (chunked).
-    await parseFormData(request, { maxFileSize: MAX_PHOTO_BYTES, maxFiles: MAX_PHOTOS_PER_UPLOAD, maxTotalSize: MAX_PHOTO_UPLOAD_BYTES }, handle);
+    await parseFormData(
+      request,
+      { maxFileSize: MAX_PHOTO_BYTES, maxFiles: MAX_PHOTOS_PER_UPLOAD, maxTotalSize: MAX_PHOTO_UPLOAD_BYTES },
+      handle,
+    );
   } catch (error) {
     await removeStored(stored);
     if (error instanceof MaxFileSizeExceededError || error instanceof MaxTotalSizeExceededError) {
-      throw uploadRefusal(413, `That photo is larger than ${MAX_PHOTO_MEGABYTES} MB; send a smaller one (most phones can share a reduced size).`);
+      throw uploadRefusal(
+        413,
+        `That photo is larger than ${MAX_PHOTO_MEGABYTES} MB; send a smaller one (most phones can share a reduced size).`,
+      );
     }
     if (error instanceof MaxFilesExceededError) throw uploadRefusal(400, `Send at most ${MAX_PHOTOS_PER_UPLOAD} photos at a time.`);
     throw uploadRefusal(400, "The upload could not be read; try again.");
@@ -174,7 +200,12 @@ async function recordPhotos(executor: Executor, dropLogId: string, photos: Store
   return executor
     .insert(dropLogPhotos)
     .values(photos.map((photo) => ({ dropLogId, ...photo })))
-    .returning({ id: dropLogPhotos.id, contentType: dropLogPhotos.contentType, bytes: dropLogPhotos.bytes, originalName: dropLogPhotos.originalName });
+    .returning({
+      id: dropLogPhotos.id,
+      contentType: dropLogPhotos.contentType,
+      bytes: dropLogPhotos.bytes,
+      originalName: dropLogPhotos.originalName,
+    });
 }
 
 /** A photo of the course with its owner, for the download route's access check. */

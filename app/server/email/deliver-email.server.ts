@@ -30,7 +30,12 @@ export class DeliveryInProgressError extends Error {
 
 const describe = (error: unknown) => (error instanceof Error ? `${error.name}: ${error.message}` : String(error)).slice(0, 2000);
 
-export async function deliverOutboxEmail(database: Database, transport: EmailTransport, outboxId: string, now = new Date()): Promise<DeliveryOutcome> {
+export async function deliverOutboxEmail(
+  database: Database,
+  transport: EmailTransport,
+  outboxId: string,
+  now = new Date(),
+): Promise<DeliveryOutcome> {
   // Claim the attempt in one committed statement, and learn whether an earlier one was cut off.
   const claimed = await database.execute<{ interrupted: boolean }>(sql`
     update email_outbox o set attempt_started_at = ${now}, attempts = o.attempts + 1
@@ -46,7 +51,14 @@ export async function deliverOutboxEmail(database: Database, transport: EmailTra
   const [row] = await database.select().from(emailOutbox).where(eq(emailOutbox.id, outboxId));
   try {
     const rendered = await renderStoredEmail(row.template, row.props);
-    const { providerMessageId } = await transport.deliver({ outboxId: row.id, to: row.toAddress, toName: row.toName, subject: row.subject, html: rendered.html, text: rendered.text });
+    const { providerMessageId } = await transport.deliver({
+      outboxId: row.id,
+      to: row.toAddress,
+      toName: row.toName,
+      subject: row.subject,
+      html: rendered.html,
+      text: rendered.text,
+    });
     await database
       .update(emailOutbox)
       .set({ status: "sent", attemptStartedAt: null, transport: transport.name, providerMessageId, sentAt: new Date(), lastError: null })

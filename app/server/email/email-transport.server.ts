@@ -8,7 +8,11 @@ import { Resend } from "resend";
 import { type Environment, environment } from "~/server/env.server";
 
 export type OutgoingEmail = { outboxId: string; to: string; toName: string | null; subject: string; html: string; text: string };
-export type EmailTransport = { name: "resend" | "smtp"; deliver(email: OutgoingEmail): Promise<{ providerMessageId: string }>; close?(): void };
+export type EmailTransport = {
+  name: "resend" | "smtp";
+  deliver(email: OutgoingEmail): Promise<{ providerMessageId: string }>;
+  close?(): void;
+};
 
 /** A failure worth retrying; its message goes into the outbox row's `last_error`. */
 export class EmailDeliveryError extends Error {
@@ -36,7 +40,8 @@ export function resendTransport(apiKey: string, from: string): EmailTransport {
         { from, to: [formatMailbox(email)], subject: email.subject, html: email.html, text: email.text },
         { idempotencyKey: email.outboxId },
       );
-      if (error || !data) throw new EmailDeliveryError(`Resend refused the message (${error?.statusCode ?? "no status"} ${error?.name}): ${error?.message}`);
+      if (error || !data)
+        throw new EmailDeliveryError(`Resend refused the message (${error?.statusCode ?? "no status"} ${error?.name}): ${error?.message}`);
       return { providerMessageId: data.id };
     },
   };

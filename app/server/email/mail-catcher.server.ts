@@ -12,7 +12,12 @@ export type MailCatcher = { port: number; close(): Promise<void> };
 
 const MAX_MESSAGE_BYTES = 10 * 1024 * 1024;
 
-export async function startMailCatcher(options: { connectionString: string; port: number; host?: string; log?: (message: string) => void }): Promise<MailCatcher> {
+export async function startMailCatcher(options: {
+  connectionString: string;
+  port: number;
+  host?: string;
+  log?: (message: string) => void;
+}): Promise<MailCatcher> {
   const log = options.log ?? ((message: string) => console.log(message));
   const pool = createPool(options.connectionString);
   pool.on("error", (error) => log(`database connection lost: ${error.message}`));
@@ -48,7 +53,9 @@ export async function startMailCatcher(options: { connectionString: string; port
           callback();
         })
         // A 4xx answer makes the sender retry later, which is what we want while the database is away.
-        .catch((error: unknown) => callback(Object.assign(new Error(`Could not store the message: ${String(error)}`), { responseCode: 451 })));
+        .catch((error: unknown) =>
+          callback(Object.assign(new Error(`Could not store the message: ${String(error)}`), { responseCode: 451 })),
+        );
     },
   });
   server.on("error", (error) => log(`SMTP: ${error.message}`));

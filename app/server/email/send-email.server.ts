@@ -27,14 +27,23 @@ const oneLine = (text: string) => text.replace(/[\p{Cc}\s]+/gu, " ").trim();
 
 function shortenSubject(subject: string): string {
   const flat = codePoints(oneLine(subject));
-  return flat.length <= SUBJECT_MAX_LENGTH ? flat.join("") : `${flat.slice(0, SUBJECT_MAX_LENGTH - 1).join("").trimEnd()}…`;
+  return flat.length <= SUBJECT_MAX_LENGTH
+    ? flat.join("")
+    : `${flat
+        .slice(0, SUBJECT_MAX_LENGTH - 1)
+        .join("")
+        .trimEnd()}…`;
 }
 
 /**
  * A display name is whatever a person typed (quotes and angle brackets included): the transport encodes
  * it. Here it is only made one line and cut to length, so that no name can stop a message.
  */
-const displayName = (name: string | null | undefined) => codePoints(oneLine(name ?? "")).slice(0, NAME_MAX_LENGTH).join("").trim() || null;
+const displayName = (name: string | null | undefined) =>
+  codePoints(oneLine(name ?? ""))
+    .slice(0, NAME_MAX_LENGTH)
+    .join("")
+    .trim() || null;
 
 const recipientAddress = z.email("not a valid e-mail address").max(254).toLowerCase();
 
@@ -59,7 +68,10 @@ const describeIssues = (issues: z.core.$ZodIssue[], path: string) =>
 function outboxRowFor(message: EmailMessage) {
   const address = recipientAddress.safeParse(message.to);
   const props = templatePropsSchemas[message.template].safeParse(message.props);
-  const problems = [address.success ? null : describeIssues(address.error.issues, "to"), props.success ? null : describeIssues(props.error.issues, "props")].filter(Boolean);
+  const problems = [
+    address.success ? null : describeIssues(address.error.issues, "to"),
+    props.success ? null : describeIssues(props.error.issues, "props"),
+  ].filter(Boolean);
   return {
     // The id is chosen here so that each message maps to its row without relying on RETURNING's order.
     id: randomUUID(),
@@ -68,7 +80,9 @@ function outboxRowFor(message: EmailMessage) {
     template: message.template,
     // JSON round trip: Dates become ISO strings, which the template's schema revives on delivery.
     props: props.success ? (JSON.parse(JSON.stringify(props.data)) as Record<string, unknown>) : {},
-    subject: props.success ? shortenSubject(emailSubject(message.template, props.data as EmailTemplates[EmailTemplateName])) : `(${message.template}: not sent)`,
+    subject: props.success
+      ? shortenSubject(emailSubject(message.template, props.data as EmailTemplates[EmailTemplateName]))
+      : `(${message.template}: not sent)`,
     courseId: message.courseId ?? null,
     dedupeKey: message.dedupeKey ?? null,
     status: problems.length ? ("failed" as const) : ("queued" as const),
@@ -93,15 +107,21 @@ export async function sendEmails(tx: Executor, messages: EmailMessage[]): Promis
     const inserted = new Set(await insertMany(inner, emailOutbox, rows, { onConflictDoNothing: true }));
     const duplicateKeys = rows.filter((row) => !inserted.has(row.id)).map((row) => row.dedupeKey!);
     const existing = duplicateKeys.length
-      ? await inner.select({ id: emailOutbox.id, dedupeKey: emailOutbox.dedupeKey }).from(emailOutbox).where(inArray(emailOutbox.dedupeKey, duplicateKeys))
+      ? await inner
+          .select({ id: emailOutbox.id, dedupeKey: emailOutbox.dedupeKey })
+          .from(emailOutbox)
+          .where(inArray(emailOutbox.dedupeKey, duplicateKeys))
       : [];
     const existingByKey = new Map(existing.map((row) => [row.dedupeKey, row.id]));
 
-    const jobs = rows.filter((row) => inserted.has(row.id) && row.status === "queued").map((row) => ({ name: queues.emailDelivery, data: { outboxId: row.id } satisfies EmailDeliveryJob }));
+    const jobs = rows
+      .filter((row) => inserted.has(row.id) && row.status === "queued")
+      .map((row) => ({ name: queues.emailDelivery, data: { outboxId: row.id } satisfies EmailDeliveryJob }));
     if (jobs.length) {
       // pg-boss's batch insert joins on the queue table and says nothing when the queue is missing.
       const queue = await inner.execute(sql`select 1 from pgboss.queue where name = ${queues.emailDelivery}`);
-      if (queue.rows.length === 0) throw new Error(`The job queue "${queues.emailDelivery}" does not exist: run the migrations (npm start does).`);
+      if (queue.rows.length === 0)
+        throw new Error(`The job queue "${queues.emailDelivery}" does not exist: run the migrations (npm start does).`);
       await enqueuer().insert(jobs, { db: transactionAdapter(inner) });
     }
     return rows.map((row) =>

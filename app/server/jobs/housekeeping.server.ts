@@ -13,7 +13,13 @@ import type { Executor } from "~/server/db.server";
  */
 export const housekeepingRetentionDays = { caughtEmails: 14, accessDeniedAudit: 120 } as const;
 
-export type HousekeepingOutcome = { sessions: number; emailLinks: number; rateLimits: number; caughtEmails: number; accessDeniedAudit: number };
+export type HousekeepingOutcome = {
+  sessions: number;
+  emailLinks: number;
+  rateLimits: number;
+  caughtEmails: number;
+  accessDeniedAudit: number;
+};
 
 /** One statement: each sweep is a data-modifying CTE, so all five happen or none does. */
 export async function sweepExpiredRows(executor: Executor, now = new Date()): Promise<HousekeepingOutcome> {

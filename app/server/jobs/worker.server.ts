@@ -115,7 +115,13 @@ export async function startWorker(options: {
       },
       log,
     ),
-    runJobs<ClassComparisonJob>(boss, queues.classComparisonRequested, pollingIntervalMs, (job) => scheduleRelabel(boss, job.data.labId), log),
+    runJobs<ClassComparisonJob>(
+      boss,
+      queues.classComparisonRequested,
+      pollingIntervalMs,
+      (job) => scheduleRelabel(boss, job.data.labId),
+      log,
+    ),
     runJobs<ClassComparisonJob>(
       boss,
       queues.classComparison,
@@ -132,7 +138,9 @@ export async function startWorker(options: {
       pollingIntervalMs,
       async (job, jobLog) => {
         const outcome = await sendLabReminders(database, job.data);
-        jobLog(`lab ${job.data.labId} reminder ${job.data.offsetHours} h: ${outcome.skipped ? `nothing sent (${outcome.skipped})` : `${outcome.sent} sent`}`);
+        jobLog(
+          `lab ${job.data.labId} reminder ${job.data.offsetHours} h: ${outcome.skipped ? `nothing sent (${outcome.skipped})` : `${outcome.sent} sent`}`,
+        );
       },
       log,
     ),
@@ -152,7 +160,11 @@ export async function startWorker(options: {
       pollingIntervalMs,
       async (_job, jobLog) => {
         const swept = await sweepExpiredRows(database);
-        jobLog(`housekeeping: ${Object.entries(swept).map(([table, count]) => `${count} ${table}`).join(", ")} swept`);
+        jobLog(
+          `housekeeping: ${Object.entries(swept)
+            .map(([table, count]) => `${count} ${table}`)
+            .join(", ")} swept`,
+        );
       },
       log,
     ),

@@ -24,32 +24,55 @@ export async function createKit(
   }: { courseId: string; actorId: string; number: string; partIds: string[]; note?: string | null },
 ): Promise<Kit> {
   return executor.transaction(async (tx) => {
-    const taken = await tx.select({ number: kits.number }).from(kits).where(and(eq(kits.courseId, courseId), eq(kits.number, number)));
-    if (taken.length) throw new AppError({ code: "kit_refused", message: `Kit ${number} already exists in this course; choose another number.` });
+    const taken = await tx
+      .select({ number: kits.number })
+      .from(kits)
+      .where(and(eq(kits.courseId, courseId), eq(kits.number, number)));
+    if (taken.length)
+      throw new AppError({ code: "kit_refused", message: `Kit ${number} already exists in this course; choose another number.` });
     const [kit] = await tx.insert(kits).values({ courseId, number }).returning();
     await putPartsInKit(tx, courseId, kit.id, partIds);
-    await tx.insert(kitEvents).values({ kitId: kit.id, actorId, toState: "on_shelf", action: "created", note: note ?? null, detail: { partIds } });
+    await tx
+      .insert(kitEvents)
+      .values({ kitId: kit.id, actorId, toState: "on_shelf", action: "created", note: note ?? null, detail: { partIds } });
     return kit;
   });
 }
-
 
 /** Puts parts in a kit after checking they belong to the course, are in service and (but for fluid lots) sit in no other kit. */
 async function putPartsInKit(tx: Transaction, courseId: string, kitId: string, partIds: string[]): Promise<void> {
   if (partIds.length === 0) return;
   const found = await tx
-    .select({ id: parts.id, label: parts.label, kind: parts.kind, status: parts.status, diameterMm: parts.diameterMm, innerDiameterMm: parts.innerDiameterMm, inKit: kitParts.kitId })
+    .select({
+      id: parts.id,
+      label: parts.label,
+      kind: parts.kind,
+      status: parts.status,
+      diameterMm: parts.diameterMm,
+      innerDiameterMm: parts.innerDiameterMm,
+      inKit: kitParts.kitId,
+    })
     .from(parts)
     .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
     .where(and(eq(parts.courseId, courseId), inArray(parts.id, partIds)));
-  if (found.length !== new Set(partIds).size) throw new AppError({ code: "kit_refused", message: "Some of the chosen parts are not in this course's inventory." });
+  if (found.length !== new Set(partIds).size)
+    throw new AppError({ code: "kit_refused", message: "Some of the chosen parts are not in this course's inventory." });
   const busy = found.filter((part) => part.inKit && part.inKit !== kitId);
-  if (busy.length) throw new AppError({ code: "kit_refused", message: `${busy.map((p) => p.label).join(", ")} already sit in another kit; take them out of it first.` });
+  if (busy.length)
+    throw new AppError({
+      code: "kit_refused",
+      message: `${busy.map((p) => p.label).join(", ")} already sit in another kit; take them out of it first.`,
+    });
   const unusable = found.filter((part) => part.status !== "in_service");
-  if (unusable.length) throw new AppError({ code: "kit_refused", message: `${unusable.map((p) => p.label).join(", ")} are not in service (retired or waiting for re-measurement).` });
+  if (unusable.length)
+    throw new AppError({
+      code: "kit_refused",
+      message: `${unusable.map((p) => p.label).join(", ")} are not in service (retired or waiting for re-measurement).`,
+    });
   const bores = found.filter((part) => part.kind === "column").map((part) => part.innerDiameterMm!);
   const tooWide = found.filter((part) => part.kind === "sphere" && bores.some((bore) => part.diameterMm! >= bore));
-  if (tooWide.length) throw new AppError({ code: "kit_refused", message: `${tooWide.map((p) => p.label).join(", ")} are wider than the kit's column bore.` });
+  if (tooWide.length)
+    throw new AppError({ code: "kit_refused", message: `${tooWide.map((p) => p.label).join(", ")} are wider than the kit's column bore.` });
   await tx
     .insert(kitParts)
     .values(found.map((part) => ({ kitId, partId: part.id, exclusive: part.kind !== "fluid_lot" })))
@@ -81,13 +104,18 @@ export async function moveKits(
       .where(and(eq(kits.courseId, courseId), inArray(kits.id, kitIds)))
       .orderBy(asc(kits.id))
       .for("update");
-    if (current.length !== new Set(kitIds).size) throw new AppError({ code: "kit_refused", message: "Some of the chosen kits are not in this course." });
+    if (current.length !== new Set(kitIds).size)
+      throw new AppError({ code: "kit_refused", message: "Some of the chosen kits are not in this course." });
     const refused = current.filter((kit) => !canMoveKit(kit.state, move.to));
     if (refused.length) {
-      throw new AppError({ code: "kit_refused", message: `${refused.map((kit) => `Kit ${kit.number} (${kitStateLabels[kit.state].toLowerCase()})`).join(", ")} cannot go to ${kitStateLabels[move.to].toLowerCase()}.` });
+      throw new AppError({
+        code: "kit_refused",
+        message: `${refused.map((kit) => `Kit ${kit.number} (${kitStateLabels[kit.state].toLowerCase()})`).join(", ")} cannot go to ${kitStateLabels[move.to].toLowerCase()}.`,
+      });
     }
     if (move.to === "packed") await checkHolder(tx, courseId, current, move.holderMembershipId);
-    if (move.to === "in_transit" && !move.shipping) throw new AppError({ code: "kit_refused", message: "Give the carrier, tracking number and date before marking a kit in transit." });
+    if (move.to === "in_transit" && !move.shipping)
+      throw new AppError({ code: "kit_refused", message: "Give the carrier, tracking number and date before marking a kit in transit." });
     if (move.to === "in_transit" && current.some((kit) => !kit.holderMembershipId)) {
       throw new AppError({ code: "kit_refused", message: "Pack a kit for a student before shipping it." });
     }
@@ -101,11 +129,18 @@ export async function moveKits(
         state: move.to,
         holderMembershipId:
           move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? sql`${kits.holderMembershipId}` : null,
-        ...(move.shipping ? { carrier: move.shipping.carrier, trackingNumber: move.shipping.trackingNumber, shippedOn: move.shipping.shippedOn } : {}),
+        ...(move.shipping
+          ? { carrier: move.shipping.carrier, trackingNumber: move.shipping.trackingNumber, shippedOn: move.shipping.shippedOn }
+          : {}),
         ...(move.to === "on_shelf" ? { carrier: null, trackingNumber: null, shippedOn: null } : {}),
         updatedAt: new Date(),
       })
-      .where(inArray(kits.id, current.map((kit) => kit.id)));
+      .where(
+        inArray(
+          kits.id,
+          current.map((kit) => kit.id),
+        ),
+      );
     await tx.insert(kitEvents).values(
       current.map((kit) => ({
         kitId: kit.id,
@@ -130,8 +165,10 @@ async function checkHolder(tx: Transaction, courseId: string, current: Kit[], ho
     .from(courseMemberships)
     .leftJoin(kits, eq(kits.holderMembershipId, courseMemberships.id))
     .where(and(eq(courseMemberships.id, holderMembershipId), eq(courseMemberships.courseId, courseId)));
-  if (!holder || holder.role !== "student" || holder.removedAt) throw new AppError({ code: "kit_refused", message: "Kits are packed for students of this course only." });
-  if (holder.kitNumber) throw new AppError({ code: "kit_refused", message: `This student already holds kit ${holder.kitNumber}; one kit per student.` });
+  if (!holder || holder.role !== "student" || holder.removedAt)
+    throw new AppError({ code: "kit_refused", message: "Kits are packed for students of this course only." });
+  if (holder.kitNumber)
+    throw new AppError({ code: "kit_refused", message: `This student already holds kit ${holder.kitNumber}; one kit per student.` });
 }
 
 async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Kit[], shipping: Shipping): Promise<void> {
@@ -141,7 +178,12 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
     .innerJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
     .innerJoin(users, eq(users.id, courseMemberships.userId))
     .innerJoin(courses, eq(courses.id, kits.courseId))
-    .where(inArray(kits.id, shipped.map((kit) => kit.id)));
+    .where(
+      inArray(
+        kits.id,
+        shipped.map((kit) => kit.id),
+      ),
+    );
   await sendEmails(
     tx,
     recipients.map((recipient) => ({
@@ -174,11 +216,21 @@ export async function checkInKit(
     conditions,
     remeasure,
     note,
-  }: { courseId: string; actorId: string; kitId: string; conditions: Record<string, PartCondition>; remeasure: string[]; note?: string | null },
+  }: {
+    courseId: string;
+    actorId: string;
+    kitId: string;
+    conditions: Record<string, PartCondition>;
+    remeasure: string[];
+    note?: string | null;
+  },
 ): Promise<void> {
   await executor.transaction(async (tx) => {
     await moveKits(tx, { courseId, actorId, kitIds: [kitId], move: { to: "checked_in", note } });
-    const inKit = await tx.select({ partId: kitParts.partId, exclusive: kitParts.exclusive }).from(kitParts).where(eq(kitParts.kitId, kitId));
+    const inKit = await tx
+      .select({ partId: kitParts.partId, exclusive: kitParts.exclusive })
+      .from(kitParts)
+      .where(eq(kitParts.kitId, kitId));
     const partIds = inKit.map((row) => row.partId);
     const unknown = [...Object.keys(conditions), ...remeasure].filter((id) => !partIds.includes(id));
     if (unknown.length) throw new AppError({ code: "kit_refused", message: "The check-in names parts that are not in this kit." });
@@ -188,9 +240,18 @@ export async function checkInKit(
     const retired = lost.filter((row) => row.exclusive).map((row) => row.partId);
     if (retired.length) await tx.update(parts).set({ status: "retired", updatedAt: new Date() }).where(inArray(parts.id, retired));
     if (lost.length) {
-      await tx.delete(kitParts).where(and(eq(kitParts.kitId, kitId), inArray(kitParts.partId, lost.map((row) => row.partId))));
+      await tx.delete(kitParts).where(
+        and(
+          eq(kitParts.kitId, kitId),
+          inArray(
+            kitParts.partId,
+            lost.map((row) => row.partId),
+          ),
+        ),
+      );
     }
-    if (toRemeasure.length) await tx.update(parts).set({ status: "remeasure", updatedAt: new Date() }).where(inArray(parts.id, toRemeasure));
+    if (toRemeasure.length)
+      await tx.update(parts).set({ status: "remeasure", updatedAt: new Date() }).where(inArray(parts.id, toRemeasure));
     await tx.insert(partEvents).values(
       partIds.map((partId) => ({
         partId,
@@ -199,18 +260,34 @@ export async function checkInKit(
         detail: { kitId, condition: conditions[partId] ?? "fine", remeasure: toRemeasure.includes(partId) },
       })),
     );
-    await tx.insert(kitEvents).values({ kitId, actorId, action: "checked_in", note: note ?? null, detail: { conditions, remeasure: toRemeasure } });
+    await tx
+      .insert(kitEvents)
+      .values({ kitId, actorId, action: "checked_in", note: note ?? null, detail: { conditions, remeasure: toRemeasure } });
   });
 }
 
 /** The student confirms the parcel arrived (and whether it was complete). */
 export async function confirmArrival(
   executor: Executor,
-  { courseId, actorId, kitId, complete, note }: { courseId: string; actorId: string; kitId: string; complete: boolean; note?: string | null },
+  {
+    courseId,
+    actorId,
+    kitId,
+    complete,
+    note,
+  }: { courseId: string; actorId: string; kitId: string; complete: boolean; note?: string | null },
 ): Promise<void> {
   await executor.transaction(async (tx) => {
     await moveKits(tx, { courseId, actorId, kitIds: [kitId], move: { to: "at_home", note } });
-    if (!complete) await reportKitProblem(tx, { courseId, kitId, actorId, partId: null, problem: "incomplete", note: note || "The parcel arrived incomplete." });
+    if (!complete)
+      await reportKitProblem(tx, {
+        courseId,
+        kitId,
+        actorId,
+        partId: null,
+        problem: "incomplete",
+        note: note || "The parcel arrived incomplete.",
+      });
   });
 }
 
@@ -227,7 +304,14 @@ export async function reportKitProblem(
     partId,
     problem,
     note,
-  }: { courseId: string; kitId: string; actorId: string; partId: string | null; problem: "missing" | "damaged" | "incomplete"; note: string },
+  }: {
+    courseId: string;
+    kitId: string;
+    actorId: string;
+    partId: string | null;
+    problem: "missing" | "damaged" | "incomplete";
+    note: string;
+  },
 ): Promise<void> {
   await executor.transaction(async (tx) => {
     await tx.insert(kitEvents).values({ kitId, actorId, action: "reported", note, detail: { partId, problem } });
@@ -326,7 +410,16 @@ export async function findKitOfMember(executor: Executor, membershipId: string):
 /** Parts that can go into a new kit: in service and in no kit; fluid lots in service (they fill many kits). */
 export async function listAvailableParts(executor: Executor, courseId: string) {
   return executor
-    .select({ id: parts.id, kind: parts.kind, label: parts.label, material: parts.material, diameterMm: parts.diameterMm, fluidName: parts.fluidName, accessoryType: parts.accessoryType, innerDiameterMm: parts.innerDiameterMm })
+    .select({
+      id: parts.id,
+      kind: parts.kind,
+      label: parts.label,
+      material: parts.material,
+      diameterMm: parts.diameterMm,
+      fluidName: parts.fluidName,
+      accessoryType: parts.accessoryType,
+      innerDiameterMm: parts.innerDiameterMm,
+    })
     .from(parts)
     .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
     .where(and(eq(parts.courseId, courseId), eq(parts.status, "in_service"), isNull(kitParts.kitId)))
@@ -341,6 +434,13 @@ export async function listStudentsWithoutKit(executor: Executor, courseId: strin
     .innerJoin(users, eq(users.id, courseMemberships.userId))
     .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
     .leftJoin(kits, eq(kits.holderMembershipId, courseMemberships.id))
-    .where(and(eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "student"), isNull(courseMemberships.removedAt), isNull(kits.id)))
+    .where(
+      and(
+        eq(courseMemberships.courseId, courseId),
+        eq(courseMemberships.role, "student"),
+        isNull(courseMemberships.removedAt),
+        isNull(kits.id),
+      ),
+    )
     .orderBy(asc(cohorts.name), asc(users.name));
 }

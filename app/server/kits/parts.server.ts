@@ -52,7 +52,10 @@ function columnsFor(input: PartInput) {
  * Checks a part against its material and the rest of the inventory. They are warnings: the instructor
  * may be about to add the fluid or column that makes the part usable.
  */
-export function partWarnings(input: PartInput, inventory: Pick<Part, "kind" | "label" | "densityKgM3" | "innerDiameterMm">[]): PartWarning[] {
+export function partWarnings(
+  input: PartInput,
+  inventory: Pick<Part, "kind" | "label" | "densityKgM3" | "innerDiameterMm">[],
+): PartWarning[] {
   const warnings: PartWarning[] = [];
   if (input.kind === "sphere") {
     const density = sphereDensityKgM3(input.massG, input.diameterMm);
@@ -65,18 +68,25 @@ export function partWarnings(input: PartInput, inventory: Pick<Part, "kind" | "l
     }
     const fluids = inventory.filter((part) => part.kind === "fluid_lot" && part.densityKgM3 !== null);
     if (fluids.length > 0 && fluids.every((fluid) => fluid.densityKgM3! >= density)) {
-      warnings.push({ field: "massG", message: `At ${Math.round(density)} kg/m³ this sphere is lighter than every fluid lot: it would float instead of settling.` });
+      warnings.push({
+        field: "massG",
+        message: `At ${Math.round(density)} kg/m³ this sphere is lighter than every fluid lot: it would float instead of settling.`,
+      });
     }
     const columns = inventory.filter((part) => part.kind === "column" && part.innerDiameterMm !== null);
     if (columns.length > 0 && columns.every((column) => column.innerDiameterMm! <= input.diameterMm)) {
-      warnings.push({ field: "diameterMm", message: "This sphere is wider than the bore of every column: it cannot be dropped in any of them." });
+      warnings.push({
+        field: "diameterMm",
+        message: "This sphere is wider than the bore of every column: it cannot be dropped in any of them.",
+      });
     }
   }
   if (input.kind === "fluid_lot") {
     if (input.calibration.length === 1) {
       warnings.push({
         field: "calibration",
-        message: "One calibration point gives a constant viscosity; viscous fluids change by several per cent per kelvin, so add points at other temperatures.",
+        message:
+          "One calibration point gives a constant viscosity; viscous fluids change by several per cent per kelvin, so add points at other temperatures.",
       });
     }
     const glycerolMassFraction = input.glycerolMassFraction ?? null;
@@ -85,7 +95,10 @@ export function partWarnings(input: PartInput, inventory: Pick<Part, "kind" | "l
     }
   }
   if (input.kind === "column" && input.runInMm < 3 * input.innerDiameterMm) {
-    warnings.push({ field: "runInMm", message: "The run-in above the top band is short for the bore; check the sphere reaches terminal velocity before the band." });
+    warnings.push({
+      field: "runInMm",
+      message: "The run-in above the top band is short for the bore; check the sphere reaches terminal velocity before the band.",
+    });
   }
   return warnings;
 }
@@ -98,7 +111,11 @@ async function inventoryForChecks(executor: Executor, courseId: string) {
 }
 
 const duplicateLabel = (label: string, afterwards = "") =>
-  new AppError({ code: "duplicate_label", message: `The label ${label} is already used by another part in this course.${afterwards}`, field: "label" });
+  new AppError({
+    code: "duplicate_label",
+    message: `The label ${label} is already used by another part in this course.${afterwards}`,
+    field: "label",
+  });
 
 export async function createPart(
   executor: Executor,
@@ -160,7 +177,13 @@ export async function updatePart(
         .returning({ id: partEvents.id });
       if (revises) {
         const runId = await queueRereduction(tx, { courseId, partId, partEventId: event.id });
-        await recordAudit(tx, { action: "part.rereduction_queued", actorId, courseId, subject: `part:${partId}`, detail: { partLabel: part.label, partEventId: event.id, runId, changes: reduction } });
+        await recordAudit(tx, {
+          action: "part.rereduction_queued",
+          actorId,
+          courseId,
+          subject: `part:${partId}`,
+          detail: { partLabel: part.label, partEventId: event.id, runId, changes: reduction },
+        });
       }
       return { part, warnings };
     });
@@ -172,7 +195,13 @@ export async function updatePart(
 
 export async function setPartStatus(
   executor: Executor,
-  { courseId, partId, actorId, status, note }: { courseId: string; partId: string; actorId: string; status: Part["status"]; note?: string | null },
+  {
+    courseId,
+    partId,
+    actorId,
+    status,
+    note,
+  }: { courseId: string; partId: string; actorId: string; status: Part["status"]; note?: string | null },
 ): Promise<boolean> {
   return executor.transaction(async (tx) => {
     const updated = await tx
@@ -258,7 +287,11 @@ export async function getPartPage(executor: Executor, access: CourseAccess, part
     // A check-in's kit id stays on the server; the page gets the kit as the viewer may see it.
     part: {
       ...part,
-      events: events.map(({ detail: { kitId, ...detail }, ...event }) => ({ ...event, detail, kit: typeof kitId === "string" ? (checkInKit.get(kitId) ?? null) : null })),
+      events: events.map(({ detail: { kitId, ...detail }, ...event }) => ({
+        ...event,
+        detail,
+        kit: typeof kitId === "string" ? (checkInKit.get(kitId) ?? null) : null,
+      })),
     },
     kit: kit ? mentionKit(access, kit) : null,
     warnings: stored.ok ? partWarnings(stored.input, inventory) : [],
@@ -278,7 +311,7 @@ export async function listInventory(executor: Executor, courseId: string) {
     .select({ part: parts, kitNumber: kits.number })
     .from(parts)
     // Fluid lots sit in many kits; only the exclusive parts name their one kit.
-      .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
+    .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
     .leftJoin(kits, eq(kits.id, kitParts.kitId))
     .where(eq(parts.courseId, courseId))
     .orderBy(asc(parts.kind), asc(parts.label));
@@ -298,9 +331,15 @@ export async function importParts(
     return await executor.transaction(async (tx) => {
       const labels = rows.map((row) => (row.label ?? "").trim()).filter(Boolean);
       const taken = labels.length
-        ? await tx.select({ label: parts.label }).from(parts).where(and(eq(parts.courseId, courseId), inArray(parts.label, labels)))
+        ? await tx
+            .select({ label: parts.label })
+            .from(parts)
+            .where(and(eq(parts.courseId, courseId), inArray(parts.label, labels)))
         : [];
-      const checks = checkImportRows(rows, taken.map((row) => row.label));
+      const checks = checkImportRows(
+        rows,
+        taken.map((row) => row.label),
+      );
       const rejected = checks.filter((check) => check.problems.length > 0);
       if (checks.length === 0) throw new AppError({ code: "empty_import", message: "The file has no parts in it." });
       // Refused as a whole, with each row's problems and its line in the file, for the page to list.
@@ -312,7 +351,14 @@ export async function importParts(
         ...(await inventoryForChecks(tx, courseId)),
         ...inputs.flatMap((input) =>
           input.kind === "fluid_lot" || input.kind === "column"
-            ? [{ kind: input.kind, label: input.label, densityKgM3: input.kind === "fluid_lot" ? input.densityKgM3 : null, innerDiameterMm: input.kind === "column" ? input.innerDiameterMm : null }]
+            ? [
+                {
+                  kind: input.kind,
+                  label: input.label,
+                  densityKgM3: input.kind === "fluid_lot" ? input.densityKgM3 : null,
+                  innerDiameterMm: input.kind === "column" ? input.innerDiameterMm : null,
+                },
+              ]
             : [],
         ),
       ];
@@ -321,9 +367,16 @@ export async function importParts(
         .insert(parts)
         .values(inputs.map((input) => ({ courseId, kind: input.kind, label: input.label, notes: input.notes, ...columnsFor(input) })))
         .returning({ id: parts.id, label: parts.label });
-      await tx.insert(partEvents).values(
-        created.map((part) => ({ partId: part.id, actorId, action: "created", detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] } })),
-      );
+      await tx
+        .insert(partEvents)
+        .values(
+          created.map((part) => ({
+            partId: part.id,
+            actorId,
+            action: "created",
+            detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] },
+          })),
+        );
       return {
         created: created.length,
         warnings: [...warningsByLabel].filter(([, warnings]) => warnings.length > 0).map(([label, warnings]) => ({ label, warnings })),

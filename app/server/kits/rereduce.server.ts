@@ -45,7 +45,10 @@ export function reductionChanges(changed: FieldChanges): FieldChanges {
  * On the re-measurement's transaction: the progress row (with how many versions used the part) and
  * the job, in two statements. Returns the run's id.
  */
-export async function queueRereduction(tx: Transaction, { courseId, partId, partEventId }: { courseId: string; partId: string; partEventId: string }): Promise<string> {
+export async function queueRereduction(
+  tx: Transaction,
+  { courseId, partId, partEventId }: { courseId: string; partId: string; partEventId: string },
+): Promise<string> {
   const result = await tx.execute<{ id: string }>(sql`
     insert into rereduction_runs (course_id, part_id, part_event_id, total)
     select ${courseId}, ${partId}, ${partEventId}, count(*)::int from drop_log_versions v
@@ -101,7 +104,8 @@ type RunRow = {
   changed: FieldChanges | null;
 };
 
-const partJson = (alias: string) => sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
+const partJson = (alias: string) =>
+  sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
   'diameter_mm', ${alias}.diameter_mm, 'diameter_resolution_mm', ${alias}.diameter_resolution_mm, 'mass_g', ${alias}.mass_g,
   'mass_resolution_g', ${alias}.mass_resolution_g, 'fluid_name', ${alias}.fluid_name, 'density_kg_m3', ${alias}.density_kg_m3,
   'density_uncertainty_kg_m3', ${alias}.density_uncertainty_kg_m3,
@@ -180,7 +184,11 @@ export type RereductionOutcome = { revised: number; unreducible: string[]; labId
  * them onto the versions and count the progress. The last transaction marks the run finished, asks for
  * the class comparison of every lab concerned and writes the audit entry; a finished run does nothing.
  */
-export async function runRereduction(executor: Executor, runId: string, { chunkSize = 500 }: { chunkSize?: number } = {}): Promise<RereductionOutcome> {
+export async function runRereduction(
+  executor: Executor,
+  runId: string,
+  { chunkSize = 500 }: { chunkSize?: number } = {},
+): Promise<RereductionOutcome> {
   const runs = await executor.execute<RunRow>(sql`
     select r.course_id, r.part_id, r.part_event_id, p.label as part_label, r.total, r.finished_at,
       e.actor_id, e.created_at as event_at, e.detail -> 'changed' as changed
@@ -265,7 +273,12 @@ export async function runRereduction(executor: Executor, runId: string, { chunkS
  * used the part (their automatic criteria are computed on read, so they are suggested again with the
  * new figures) and records the re-reduction in the audit log.
  */
-async function finishRun(executor: Executor, runId: string, run: RunRow, { revised, unreducible }: { revised: number; unreducible: string[] }) {
+async function finishRun(
+  executor: Executor,
+  runId: string,
+  run: RunRow,
+  { revised, unreducible }: { revised: number; unreducible: string[] },
+) {
   await executor.transaction(async (tx) => {
     const finished = await tx.execute<{ lab_ids: string[] }>(sql`
       update rereduction_runs r set finished_at = now(), done = total where r.id = ${runId} and r.finished_at is null
@@ -289,7 +302,13 @@ export type RereductionProgress = { id: string; total: number; done: number; fin
 
 /** The part's latest re-reductions, newest first, for its page. */
 export async function listRereductions(executor: Executor, partId: string, limit = 5): Promise<RereductionProgress[]> {
-  const result = await executor.execute<{ id: string; total: number; done: number; finished_at: Date | string | null; created_at: Date | string }>(sql`
+  const result = await executor.execute<{
+    id: string;
+    total: number;
+    done: number;
+    finished_at: Date | string | null;
+    created_at: Date | string;
+  }>(sql`
     select id, total, done, finished_at, created_at from rereduction_runs where part_id = ${partId} order by created_at desc limit ${limit}`);
   return result.rows.map((row) => ({
     id: row.id,

@@ -31,7 +31,9 @@ export function effectiveWindowJoin(aliases: { lab: string; member: string; as: 
 
 /** The joined window `as` as a `StudentDeadline` JSON object, reason included: for staff pages only. */
 export const staffDeadlineJson = (as: string): SQL =>
-  sql.raw(`json_build_object('dueAt', to_json(${as}.due_at)#>>'{}', 'lateCutoffAt', to_json(${as}.late_cutoff_at)#>>'{}', 'extendedBy', ${as}.extended_by, 'extensionReason', ${as}.reason)`);
+  sql.raw(
+    `json_build_object('dueAt', to_json(${as}.due_at)#>>'{}', 'lateCutoffAt', to_json(${as}.late_cutoff_at)#>>'{}', 'extendedBy', ${as}.extended_by, 'extensionReason', ${as}.reason)`,
+  );
 
 /**
  * Re-decides the late flag of every hand-in of a lab against its student's effective due time, after an

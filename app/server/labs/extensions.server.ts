@@ -43,7 +43,11 @@ const isInstructor = (access: CourseAccess) => access.membership.role === "instr
  * The lab's extensions the viewer may see, cohorts' first: all for an instructor, those of the TA's
  * own cohorts (a cohort's, or a student's of that cohort) for a TA. One statement.
  */
-export async function listExtensions(executor: Executor, access: CourseAccess, lab: Pick<LabWithCohorts, "id" | "cohortIds">): Promise<ExtensionRow[]> {
+export async function listExtensions(
+  executor: Executor,
+  access: CourseAccess,
+  lab: Pick<LabWithCohorts, "id" | "cohortIds">,
+): Promise<ExtensionRow[]> {
   const visible = isInstructor(access) ? sql`true` : sql`coalesce(e.cohort_id, m.cohort_id) in ${idList(visibleCohortIds(access, lab))}`;
   const result = await executor.execute<ExtensionRow>(sql`
     select e.id, e.membership_id as "membershipId", e.cohort_id as "cohortId", u.name as "studentName", coalesce(h.name, sh.name) as "cohortName",
@@ -69,7 +73,11 @@ export type ExtensionsPage = {
 };
 
 /** Everything the extensions page shows: three statements side by side, whatever the class size. */
-export async function getExtensionsPage(executor: Executor, access: CourseAccess, lab: Pick<LabWithCohorts, "id" | "courseId" | "cohortIds">): Promise<ExtensionsPage> {
+export async function getExtensionsPage(
+  executor: Executor,
+  access: CourseAccess,
+  lab: Pick<LabWithCohorts, "id" | "courseId" | "cohortIds">,
+): Promise<ExtensionsPage> {
   const cohortIds = visibleCohortIds(access, lab);
   const [extensions, cohorts, students] = await Promise.all([
     listExtensions(executor, access, lab),
@@ -86,7 +94,8 @@ export async function getExtensionsPage(executor: Executor, access: CourseAccess
 }
 
 function requireInstructor(access: CourseAccess): void {
-  if (!isInstructor(access)) throw new AppError({ code: "extension_refused", message: "Only the course's instructors set or remove extensions.", status: 403 });
+  if (!isInstructor(access))
+    throw new AppError({ code: "extension_refused", message: "Only the course's instructors set or remove extensions.", status: 403 });
 }
 
 /**
@@ -97,13 +106,22 @@ function requireInstructor(access: CourseAccess): void {
  */
 export async function setExtensions(
   executor: Executor,
-  { access, lab, target, window, request, now = new Date() }: { access: CourseAccess; lab: ExtensionLab; target: ExtensionTarget; window: ExtensionWindowInput; request?: Request; now?: Date },
+  {
+    access,
+    lab,
+    target,
+    window,
+    request,
+    now = new Date(),
+  }: { access: CourseAccess; lab: ExtensionLab; target: ExtensionTarget; window: ExtensionWindowInput; request?: Request; now?: Date },
 ): Promise<{ extended: number; relabelled: number; remindersScheduled: number }> {
   requireInstructor(access);
   const forCohort = "cohortId" in target;
-  if (forCohort && !lab.cohortIds.includes(target.cohortId)) throw new AppError({ code: "extension_refused", message: "Choose one of the cohorts this lab is set for.", field: "cohortId" });
+  if (forCohort && !lab.cohortIds.includes(target.cohortId))
+    throw new AppError({ code: "extension_refused", message: "Choose one of the cohorts this lab is set for.", field: "cohortId" });
   const membershipIds = forCohort ? [] : [...new Set(target.membershipIds)];
-  if (!forCohort && membershipIds.length === 0) throw new AppError({ code: "extension_refused", message: "Choose at least one student.", field: "membershipIds" });
+  if (!forCohort && membershipIds.length === 0)
+    throw new AppError({ code: "extension_refused", message: "Choose at least one student.", field: "membershipIds" });
   const lateCutoffAt = window.lateCutoffAt ?? null;
 
   return executor.transaction(async (tx) => {
@@ -132,12 +150,19 @@ export async function setExtensions(
         exists (select 1 from pgboss.job j where j.name = ${queues.labReminder} and j.data->>'labId' = ${lab.id}
           and (j.data->>'dueAt')::timestamptz = ${window.dueAt}::timestamptz) as queued`);
     const { written, queued } = result.rows[0];
-    if (!forCohort && written !== membershipIds.length) throw new AppError({ code: "extension_refused", message: "Choose active students of the cohorts this lab is set for.", field: "membershipIds" });
+    if (!forCohort && written !== membershipIds.length)
+      throw new AppError({
+        code: "extension_refused",
+        message: "Choose active students of the cohorts this lab is set for.",
+        field: "membershipIds",
+      });
 
     const relabelled = await recomputeLateness(tx, lab.id);
     const newDueTime = !queued && window.dueAt.getTime() !== lab.dueAt.getTime();
     const remindersScheduled =
-      lab.status === "published" && newDueTime ? await scheduleLabReminders(tx, { id: lab.id, dueAt: window.dueAt, reminderOffsetsHours: lab.reminderOffsetsHours }, now) : 0;
+      lab.status === "published" && newDueTime
+        ? await scheduleLabReminders(tx, { id: lab.id, dueAt: window.dueAt, reminderOffsetsHours: lab.reminderOffsetsHours }, now)
+        : 0;
     await recordAudit(tx, {
       action: "lab.extension_set",
       actorId: access.user.id,
@@ -159,17 +184,35 @@ export async function setExtensions(
 /** Removes one extension: its students fall back to their cohort's extension, else the lab's times, and their hand-ins are re-decided. */
 export async function removeExtension(
   executor: Executor,
-  { access, lab, extensionId, request }: { access: CourseAccess; lab: Pick<LabWithCohorts, "id" | "courseId">; extensionId: string; request?: Request },
+  {
+    access,
+    lab,
+    extensionId,
+    request,
+  }: { access: CourseAccess; lab: Pick<LabWithCohorts, "id" | "courseId">; extensionId: string; request?: Request },
 ): Promise<{ relabelled: number }> {
   requireInstructor(access);
   return executor.transaction(async (tx) => {
-    const removed = await tx.execute<{ membershipId: string | null; cohortId: string | null; dueAt: string; lateCutoffAt: string | null; reason: string }>(sql`
+    const removed = await tx.execute<{
+      membershipId: string | null;
+      cohortId: string | null;
+      dueAt: string;
+      lateCutoffAt: string | null;
+      reason: string;
+    }>(sql`
       delete from lab_extensions where id = ${extensionId} and lab_id = ${lab.id}
       returning membership_id as "membershipId", cohort_id as "cohortId", to_json(due_at)#>>'{}' as "dueAt", to_json(late_cutoff_at)#>>'{}' as "lateCutoffAt", reason`);
     const [extension] = removed.rows;
     if (!extension) throw new AppError({ code: "extension_refused", message: "That extension is no longer there." });
     const relabelled = await recomputeLateness(tx, lab.id);
-    await recordAudit(tx, { action: "lab.extension_removed", actorId: access.user.id, courseId: lab.courseId, subject: `lab:${lab.id}`, detail: { ...extension, relabelled }, request });
+    await recordAudit(tx, {
+      action: "lab.extension_removed",
+      actorId: access.user.id,
+      courseId: lab.courseId,
+      subject: `lab:${lab.id}`,
+      detail: { ...extension, relabelled },
+      request,
+    });
     return { relabelled };
   });
 }

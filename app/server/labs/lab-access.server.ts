@@ -6,13 +6,23 @@
  */
 import { z } from "zod";
 import { apiErrorResponse } from "~/server/auth/api-errors.server";
-import { anyRole, requireApiUser, requireCohortAccess, requireCourseRole, type CourseAccess, type RequestScope } from "~/server/auth/access.server";
+import {
+  anyRole,
+  requireApiUser,
+  requireCohortAccess,
+  requireCourseRole,
+  type CourseAccess,
+  type RequestScope,
+} from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { findLab, type LabWithCohorts } from "./labs.server";
 
 const noSuchLab = () => apiErrorResponse(404, "not_found", "There is no such lab.");
 
-export async function requireLabApiAccess(scope: RequestScope, labId: string | undefined): Promise<{ access: CourseAccess; lab: LabWithCohorts }> {
+export async function requireLabApiAccess(
+  scope: RequestScope,
+  labId: string | undefined,
+): Promise<{ access: CourseAccess; lab: LabWithCohorts }> {
   await requireApiUser(scope.request);
   // The lab first, by its id alone (one statement): it names the course whose role is checked next.
   const lab = labId && z.uuid().safeParse(labId).success ? await findLab(db, labId) : null;

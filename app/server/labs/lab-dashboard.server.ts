@@ -34,7 +34,15 @@ export type DashboardStudent = {
   status: HandInStanding;
 };
 
-export type CohortProgress = { cohortId: string; name: string; students: number; onTime: number; late: number; notDue: number; missing: number };
+export type CohortProgress = {
+  cohortId: string;
+  name: string;
+  students: number;
+  onTime: number;
+  late: number;
+  notDue: number;
+  missing: number;
+};
 
 export type LabDashboard = {
   students: DashboardStudent[];
@@ -44,10 +52,16 @@ export type LabDashboard = {
 };
 
 /** The cohorts of the lab the viewer may see: all of them for instructors, the assigned ones for TAs. */
-export const visibleCohortIds = (access: CourseAccess, lab: Pick<LabWithCohorts, "cohortIds">) => lab.cohortIds.filter((id) => access.cohortIds.includes(id));
+export const visibleCohortIds = (access: CourseAccess, lab: Pick<LabWithCohorts, "cohortIds">) =>
+  lab.cohortIds.filter((id) => access.cohortIds.includes(id));
 
 /** The dashboard as it stands at `now`: who is missing depends on whether their own due time has passed. */
-export async function getLabDashboard(executor: Executor, access: CourseAccess, lab: LabWithCohorts, now = new Date()): Promise<LabDashboard> {
+export async function getLabDashboard(
+  executor: Executor,
+  access: CourseAccess,
+  lab: LabWithCohorts,
+  now = new Date(),
+): Promise<LabDashboard> {
   const cohortIds = visibleCohortIds(access, lab);
   const [studentRows, sentReminders, scheduledReminders] = await Promise.all([
     executor.execute<Omit<DashboardStudent, "status">>(sql`
@@ -71,11 +85,22 @@ export async function getLabDashboard(executor: Executor, access: CourseAccess, 
     lab.status === "published" ? listScheduledReminders(executor, lab) : Promise.resolve([]),
   ]);
 
-  const students: DashboardStudent[] = studentRows.rows.map((student) => ({ ...student, status: handInStanding(student.version === null ? null : student.late, new Date(student.deadline.dueAt), now) }));
+  const students: DashboardStudent[] = studentRows.rows.map((student) => ({
+    ...student,
+    status: handInStanding(student.version === null ? null : student.late, new Date(student.deadline.dueAt), now),
+  }));
   const counted = { "on-time": "onTime", late: "late", "not-due": "notDue", missing: "missing" } as const;
   const progress = new Map<string, CohortProgress>();
   for (const student of students) {
-    const cohort = progress.get(student.cohortId) ?? { cohortId: student.cohortId, name: student.cohortName, students: 0, onTime: 0, late: 0, notDue: 0, missing: 0 };
+    const cohort = progress.get(student.cohortId) ?? {
+      cohortId: student.cohortId,
+      name: student.cohortName,
+      students: 0,
+      onTime: 0,
+      late: 0,
+      notDue: 0,
+      missing: 0,
+    };
     cohort.students++;
     cohort[counted[student.status]]++;
     progress.set(student.cohortId, cohort);

@@ -25,7 +25,11 @@ const HOUR_MS = 3_600_000;
  * `dueAt`), inside `tx`. An offset whose moment has already passed is skipped: a reminder arriving
  * after its time would say the wrong thing about the time left.
  */
-export async function scheduleLabReminders(tx: Transaction, lab: { id: string; dueAt: Date; reminderOffsetsHours: number[] }, now = new Date()): Promise<number> {
+export async function scheduleLabReminders(
+  tx: Transaction,
+  lab: { id: string; dueAt: Date; reminderOffsetsHours: number[] },
+  now = new Date(),
+): Promise<number> {
   let scheduled = 0;
   for (const offsetHours of lab.reminderOffsetsHours) {
     const startAfter = new Date(lab.dueAt.getTime() - offsetHours * HOUR_MS);
@@ -39,7 +43,10 @@ export async function scheduleLabReminders(tx: Transaction, lab: { id: string; d
   return scheduled;
 }
 
-export type ReminderOutcome = { sent: number; skipped: null | "lab-gone" | "not-published" | "due-time-changed" | "offset-removed" | "past-due" };
+export type ReminderOutcome = {
+  sent: number;
+  skipped: null | "lab-gone" | "not-published" | "due-time-changed" | "offset-removed" | "past-due";
+};
 
 function dueAtText(dueAt: Date, timeZone: string): string {
   const text = formatDateTime(dueAt, timeZone, "long");

@@ -32,20 +32,30 @@ export async function getLabFormOptions(executor: Executor, courseId: string) {
 
 async function selectLab(executor: Executor, where: SQL | undefined): Promise<LabWithCohorts | null> {
   const [row] = await executor
-    .select({ lab: labs, cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]` })
+    .select({
+      lab: labs,
+      cohortIds: sql<string[]>`array(select lc.cohort_id from lab_cohorts lc where lc.lab_id = ${labs.id} order by lc.cohort_id)::text[]`,
+    })
     .from(labs)
     .where(where);
   return row ? { ...row.lab, cohortIds: row.cohortIds } : null;
 }
 
 /** One lab of the course with the cohorts it is set for, in one statement; null when it is not the course's. */
-export const getLab = (executor: Executor, courseId: string, labId: string) => selectLab(executor, and(eq(labs.id, labId), eq(labs.courseId, courseId)));
+export const getLab = (executor: Executor, courseId: string, labId: string) =>
+  selectLab(executor, and(eq(labs.id, labId), eq(labs.courseId, courseId)));
 
 /** A lab by its id alone, for an API address that names no course: the caller checks the course role next. */
 export const findLab = (executor: Executor, labId: string) => selectLab(executor, eq(labs.id, labId));
 
 function columnsOf(input: LabInput) {
-  const { cohortIds: _cohortIds, allowedSphereIds: _spheres, allowedFluidLotIds: _fluidLots, allowedColumnIds: _columns, ...settings } = input;
+  const {
+    cohortIds: _cohortIds,
+    allowedSphereIds: _spheres,
+    allowedFluidLotIds: _fluidLots,
+    allowedColumnIds: _columns,
+    ...settings
+  } = input;
   return { ...settings, allowedPartIds: allowedPartIdsOf(input), lateCutoffAt: input.lateCutoffAt ?? null };
 }
 
@@ -54,15 +64,18 @@ async function checkOwnership(executor: Executor, courseId: string, input: LabIn
   const ids = (values: string[]) => sql`(select value::uuid from json_array_elements_text(${JSON.stringify([...new Set(values)])}::json))`;
   const kinds = Object.keys(allowedPartFields) as AllowedPartKind[];
   const partCounts = kinds.map(
-    (kind) => sql`(select count(*)::int from parts where course_id = ${courseId} and kind = ${kind} and id in ${ids(input[allowedPartFields[kind]])}) as ${sql.identifier(kind)}`,
+    (kind) =>
+      sql`(select count(*)::int from parts where course_id = ${courseId} and kind = ${kind} and id in ${ids(input[allowedPartFields[kind]])}) as ${sql.identifier(kind)}`,
   );
   const result = await executor.execute<Record<"cohorts" | AllowedPartKind, number>>(sql`
     select (select count(*)::int from cohorts where course_id = ${courseId} and id in ${ids(input.cohortIds)}) as cohorts, ${sql.join(partCounts, sql`, `)}`);
   const counts = result.rows[0];
-  if (counts.cohorts !== new Set(input.cohortIds).size) throw new AppError({ code: "lab_refused", message: "Choose cohorts of this course.", field: "cohortIds" });
+  if (counts.cohorts !== new Set(input.cohortIds).size)
+    throw new AppError({ code: "lab_refused", message: "Choose cohorts of this course.", field: "cohortIds" });
   for (const kind of kinds) {
     const field = allowedPartFields[kind];
-    if (counts[kind] !== new Set(input[field]).size) throw new AppError({ code: "lab_refused", message: `Choose ${partKindNames[kind]} of this course's inventory.`, field });
+    if (counts[kind] !== new Set(input[field]).size)
+      throw new AppError({ code: "lab_refused", message: `Choose ${partKindNames[kind]} of this course's inventory.`, field });
   }
 }
 
@@ -74,7 +87,10 @@ async function setCohorts(executor: Executor, labId: string, cohortIds: string[]
 }
 
 /** A new lab, always a draft: students see nothing until it is published. */
-export async function createLab(executor: Executor, { access, input, request }: { access: CourseAccess; input: LabInput; request?: Request }): Promise<LabRecord> {
+export async function createLab(
+  executor: Executor,
+  { access, input, request }: { access: CourseAccess; input: LabInput; request?: Request },
+): Promise<LabRecord> {
   return executor.transaction(async (tx) => {
     await checkOwnership(tx, access.course.id, input);
     const [lab] = await tx
@@ -82,7 +98,14 @@ export async function createLab(executor: Executor, { access, input, request }: 
       .values({ ...columnsOf(input), courseId: access.course.id, status: "draft" })
       .returning();
     await setCohorts(tx, lab.id, input.cohortIds);
-    await recordAudit(tx, { action: "lab.created", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: { title: lab.title, kind: lab.kind }, request });
+    await recordAudit(tx, {
+      action: "lab.created",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject: `lab:${lab.id}`,
+      detail: { title: lab.title, kind: lab.kind },
+      request,
+    });
     return lab;
   });
 }
@@ -99,14 +122,26 @@ const sameOffsets = (a: readonly number[], b: readonly number[]) => a.length ===
  */
 export async function updateLab(
   executor: Executor,
-  { access, labId, input, intent, request, now = new Date() }: { access: CourseAccess; labId: string; input: LabInput; intent: Exclude<LabIntent, "close">; request?: Request; now?: Date },
+  {
+    access,
+    labId,
+    input,
+    intent,
+    request,
+    now = new Date(),
+  }: { access: CourseAccess; labId: string; input: LabInput; intent: Exclude<LabIntent, "close">; request?: Request; now?: Date },
 ): Promise<LabRecord> {
   return executor.transaction(async (tx) => {
-    const [before] = await tx.select().from(labs).where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id))).for("update");
+    const [before] = await tx
+      .select()
+      .from(labs)
+      .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id)))
+      .for("update");
     if (!before) throw new AppError({ code: "lab_refused", message: "There is no such lab in this course." });
     await checkOwnership(tx, access.course.id, input);
     const publishing = intent === "publish";
-    if (publishing && input.cohortIds.length === 0) throw new AppError({ code: "lab_refused", message: "Choose at least one cohort to publish the lab to.", field: "cohortIds" });
+    if (publishing && input.cohortIds.length === 0)
+      throw new AppError({ code: "lab_refused", message: "Choose at least one cohort to publish the lab to.", field: "cohortIds" });
     const status = publishing ? "published" : before.status;
     const [lab] = await tx
       .update(labs)
@@ -129,7 +164,13 @@ export async function updateLab(
       actorId: access.user.id,
       courseId: access.course.id,
       subject: `lab:${labId}`,
-      detail: { title: lab.title, status: lab.status, dueAt: lab.dueAt.toISOString(), cohorts: input.cohortIds.length, ...(relabelled ? { latenessChanged: relabelled } : {}) },
+      detail: {
+        title: lab.title,
+        status: lab.status,
+        dueAt: lab.dueAt.toISOString(),
+        cohorts: input.cohortIds.length,
+        ...(relabelled ? { latenessChanged: relabelled } : {}),
+      },
       request,
     });
     return lab;
@@ -137,7 +178,10 @@ export async function updateLab(
 }
 
 /** Closes a published lab: it takes no more hand-ins, and its pending reminders do nothing. */
-export async function closeLab(executor: Executor, { access, labId, request, now = new Date() }: { access: CourseAccess; labId: string; request?: Request; now?: Date }): Promise<LabRecord> {
+export async function closeLab(
+  executor: Executor,
+  { access, labId, request, now = new Date() }: { access: CourseAccess; labId: string; request?: Request; now?: Date },
+): Promise<LabRecord> {
   return executor.transaction(async (tx) => {
     const [lab] = await tx
       .update(labs)
@@ -145,7 +189,14 @@ export async function closeLab(executor: Executor, { access, labId, request, now
       .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id), eq(labs.status, "published")))
       .returning();
     if (!lab) throw new AppError({ code: "lab_refused", message: "Only a published lab can be closed." });
-    await recordAudit(tx, { action: "lab.closed", actorId: access.user.id, courseId: access.course.id, subject: `lab:${labId}`, detail: { title: lab.title }, request });
+    await recordAudit(tx, {
+      action: "lab.closed",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject: `lab:${labId}`,
+      detail: { title: lab.title },
+      request,
+    });
     return lab;
   });
 }

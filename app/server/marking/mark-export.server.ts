@@ -48,13 +48,24 @@ export type MarksJson = {
 };
 
 /** Every student's mark of the lab that the viewer may see, by name. Staff only. */
-export async function loadMarksJson(executor: Executor, { access, lab, now = new Date() }: { access: CourseAccess; lab: MarkingLab; now?: Date }): Promise<MarksJson> {
+export async function loadMarksJson(
+  executor: Executor,
+  { access, lab, now = new Date() }: { access: CourseAccess; lab: MarkingLab; now?: Date },
+): Promise<MarksJson> {
   await assertMarkingStaff(executor, access, lab);
-  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: markableCohortIds(access, lab), now }), loadClassLabels(executor, lab)]);
+  const [students, labels] = await Promise.all([
+    loadStudentMarkRows(executor, lab, { cohortIds: markableCohortIds(access, lab), now }),
+    loadClassLabels(executor, lab),
+  ]);
   return {
     lab: { id: lab.id, courseId: lab.courseId, title: lab.title, releasedAt: lab.marking.releasedAt?.toISOString() ?? null },
     maxTotal: maxTotalOf(lab.rubric),
-    criteria: lab.rubric.map((criterion) => ({ id: criterion.id, title: criterion.title, kind: criterion.kind, maxPoints: criterion.maxPoints })),
+    criteria: lab.rubric.map((criterion) => ({
+      id: criterion.id,
+      title: criterion.title,
+      kind: criterion.kind,
+      maxPoints: criterion.maxPoints,
+    })),
     marks: students.map((student) => {
       const row = deskRow(lab, student, labels);
       const basis = row.markedHandIn;

@@ -6,7 +6,16 @@
  */
 import { sql, type SQL } from "drizzle-orm";
 import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } from "~/lib/marking/automatic-criteria";
-import { markProgress, markTotals, type MarkCell, type MarkContent, type MarkProgress, type MarkScores, type MarkTotals, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
+import {
+  markProgress,
+  markTotals,
+  type MarkCell,
+  type MarkContent,
+  type MarkProgress,
+  type MarkScores,
+  type MarkTotals,
+  type ReleasedMarkSnapshot,
+} from "~/lib/marking/marks";
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { labelClass } from "~/lib/comparison/class-labelling";
 import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
@@ -149,10 +158,19 @@ export async function loadStudentMarkRows(
       join course_memberships m on m.id = named.id`
     : sql`course_memberships m`;
   const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
-  type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & { markedById: string | null; markedByName: string | null; moderatedById: string | null; moderatedByName: string | null };
+  type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & {
+    markedById: string | null;
+    markedByName: string | null;
+    moderatedById: string | null;
+    moderatedByName: string | null;
+  };
   type HandInRow = Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null };
   const result = await executor.execute<
-    Omit<StudentMarkRow, "mark" | "handIn" | "markedHandIn" | "status"> & { handIn: HandInRow | null; markedVersion: HandInRow | null; mark: StoredMarkRow | null }
+    Omit<StudentMarkRow, "mark" | "handIn" | "markedHandIn" | "status"> & {
+      handIn: HandInRow | null;
+      markedVersion: HandInRow | null;
+      mark: StoredMarkRow | null;
+    }
   >(sql`
     select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
       m.cohort_id as "cohortId", h.name as "cohortName",
@@ -183,7 +201,11 @@ export async function loadStudentMarkRows(
       and m.cohort_id = any(${cohortArray}::uuid[])
     order by u.name, m.id`);
   return result.rows.map(({ mark, handIn: storedHandIn, markedVersion: storedMarkedVersion, ...rest }) => {
-    const row = { ...rest, handIn: storedHandIn ? handInOf(storedHandIn) : null, status: handInStanding(storedHandIn?.late ?? null, new Date(rest.deadline.dueAt), now) };
+    const row = {
+      ...rest,
+      handIn: storedHandIn ? handInOf(storedHandIn) : null,
+      status: handInStanding(storedHandIn?.late ?? null, new Date(rest.deadline.dueAt), now),
+    };
     const markedVersion = storedMarkedVersion ? handInOf(storedMarkedVersion) : null;
     if (!mark) return { ...row, markedHandIn: row.handIn, mark: null };
     const { markedById, markedByName, moderatedById, moderatedByName, ...stored } = mark;
@@ -227,7 +249,11 @@ export async function loadClassLabels(executor: Executor, lab: Pick<MarkingLab, 
  * What the automatic rules read about one student: the version the mark rests on, not a later one.
  * The class comparison labels only the counted versions, so a mark on an earlier version gets no label.
  */
-export function evidenceOf(lab: Pick<MarkingLab, "requiredDrops">, row: Pick<StudentMarkRow, "handIn" | "markedHandIn">, labels: ClassLabels): HandInEvidence {
+export function evidenceOf(
+  lab: Pick<MarkingLab, "requiredDrops">,
+  row: Pick<StudentMarkRow, "handIn" | "markedHandIn">,
+  labels: ClassLabels,
+): HandInEvidence {
   const handIn = row.markedHandIn;
   const counted = handIn !== null && handIn.versionId === row.handIn?.versionId;
   const label = handIn && counted ? labels.get(handIn.dropLogId) : undefined;
@@ -244,13 +270,23 @@ export function evidenceOf(lab: Pick<MarkingLab, "requiredDrops">, row: Pick<Stu
 }
 
 /** A student's desk row, with the suggestions and total computed from `content` (the stored mark unless given). */
-export function deskRow(lab: Pick<MarkingLab, "rubric" | "requiredDrops">, row: StudentMarkRow, labels: ClassLabels, content: MarkContent | null = row.mark): MarkingDeskRow {
+export function deskRow(
+  lab: Pick<MarkingLab, "rubric" | "requiredDrops">,
+  row: StudentMarkRow,
+  labels: ClassLabels,
+  content: MarkContent | null = row.mark,
+): MarkingDeskRow {
   const suggestions = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, row, labels));
   return deskRowWith(row, labels, suggestions, markTotals(lab.rubric, content, suggestions));
 }
 
 /** A desk row from suggestions and totals already computed (the write path computes them once per student). */
-export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestions: Record<string, AutoSuggestion>, totals: MarkTotals): MarkingDeskRow {
+export function deskRowWith(
+  row: StudentMarkRow,
+  labels: ClassLabels,
+  suggestions: Record<string, AutoSuggestion>,
+  totals: MarkTotals,
+): MarkingDeskRow {
   const label = row.handIn ? labels.get(row.handIn.dropLogId) : undefined;
   const classLabel = label ? { label: label.label, reason: label.reason } : null;
   return {
@@ -268,14 +304,22 @@ export function deskRowWith(row: StudentMarkRow, labels: ClassLabels, suggestion
     handInChangedSinceMarked: row.mark !== null && row.handIn !== null && row.mark.basedOnVersionId !== row.handIn.versionId,
     needsRemarking: row.mark?.reopenedAt != null,
     resultChangedSinceMarked:
-      row.mark?.basedOnRevision != null && row.handIn && row.mark.basedOnVersionId === row.handIn.versionId && row.mark.basedOnRevision < row.handIn.revision
+      row.mark?.basedOnRevision != null &&
+      row.handIn &&
+      row.mark.basedOnVersionId === row.handIn.versionId &&
+      row.mark.basedOnRevision < row.handIn.revision
         ? {
             fromRevision: row.mark.basedOnRevision,
             toRevision: row.handIn.revision,
             oldFigure: row.mark.basedOnFigure,
             newFigure: row.handIn.figure,
             reofferedCriterionIds: Object.entries(totals.cells)
-              .filter(([, cell]) => (cell.source === "override" || cell.source === "released") && cell.suggestion?.points != null && cell.suggestion.points !== cell.points)
+              .filter(
+                ([, cell]) =>
+                  (cell.source === "override" || cell.source === "released") &&
+                  cell.suggestion?.points != null &&
+                  cell.suggestion.points !== cell.points,
+              )
               .map(([id]) => id),
           }
         : null,

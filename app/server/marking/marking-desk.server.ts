@@ -5,7 +5,13 @@
  * on the server; whatever the class size it costs two statements (students with hand-ins and marks,
  * the class's counted hand-ins for the labels), run side by side.
  */
-import { deskStatusFilters, MAX_DESK_PAGE_SIZE, type DeskSortKey, type DeskStatusFilter, type MarkingDeskFilters } from "~/lib/marking/desk-filters";
+import {
+  deskStatusFilters,
+  MAX_DESK_PAGE_SIZE,
+  type DeskSortKey,
+  type DeskStatusFilter,
+  type MarkingDeskFilters,
+} from "~/lib/marking/desk-filters";
 import { maxTotalOf } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
@@ -96,9 +102,13 @@ export async function loadMarkingDesk(
   await assertMarkingStaff(executor, access, lab);
   const allowed = markableCohortIds(access, lab);
   // The filter offers only these cohorts: any other id is a URL made by hand, answered 400 like any bad filter.
-  if (filters.cohortId && !allowed.includes(filters.cohortId)) throw markingRefusal("invalid_value", "That cohort is not one you mark for this lab.", "cohort");
+  if (filters.cohortId && !allowed.includes(filters.cohortId))
+    throw markingRefusal("invalid_value", "That cohort is not one you mark for this lab.", "cohort");
   const cohortIds = filters.cohortId ? [filters.cohortId] : allowed;
-  const [students, labels] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: allowed, now }), loadClassLabels(executor, lab)]);
+  const [students, labels] = await Promise.all([
+    loadStudentMarkRows(executor, lab, { cohortIds: allowed, now }),
+    loadClassLabels(executor, lab),
+  ]);
 
   const cohorts = [...new Map(students.map((student) => [student.cohortId, student.cohortName])).entries()]
     .map(([id, name]) => ({ id, name }))

@@ -139,22 +139,33 @@ export async function refuse(executor: Executor, access: CourseAccess, refusal: 
       actorId: access.user.id,
       courseId: access.course.id,
       subject,
-      detail: { reason: refusal.code, message: refusal.message, ...(refusal.subjectIds.length ? { students: refusal.subjectIds.length } : {}) },
+      detail: {
+        reason: refusal.code,
+        message: refusal.message,
+        ...(refusal.subjectIds.length ? { students: refusal.subjectIds.length } : {}),
+      },
     });
   }
   throw refusal;
 }
 
 /** Staff of the lab: instructors, and TAs of one of its cohorts. Anyone else is refused (and recorded). */
-export async function assertMarkingStaff(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id" | "cohortIds">): Promise<void> {
+export async function assertMarkingStaff(
+  executor: Executor,
+  access: CourseAccess,
+  lab: Pick<MarkingLab, "id" | "cohortIds">,
+): Promise<void> {
   if (access.membership.role === "instructor") return;
-  if (access.membership.role === "student") await refuse(executor, access, markingRefusal("forbidden", "Marking is for the course's staff."), `lab:${lab.id}`);
-  if (markableCohortIds(access, lab).length === 0) await refuse(executor, access, markingRefusal("not_in_cohort", "None of this lab's cohorts is assigned to you."), `lab:${lab.id}`);
+  if (access.membership.role === "student")
+    await refuse(executor, access, markingRefusal("forbidden", "Marking is for the course's staff."), `lab:${lab.id}`);
+  if (markableCohortIds(access, lab).length === 0)
+    await refuse(executor, access, markingRefusal("not_in_cohort", "None of this lab's cohorts is assigned to you."), `lab:${lab.id}`);
 }
 
 /** Instructors of the course only (moderation, release, the mark history). */
 export async function assertInstructor(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id">): Promise<void> {
-  if (access.membership.role !== "instructor") await refuse(executor, access, markingRefusal("instructors_only", "Only the course's instructors may do this."), `lab:${lab.id}`);
+  if (access.membership.role !== "instructor")
+    await refuse(executor, access, markingRefusal("instructors_only", "Only the course's instructors may do this."), `lab:${lab.id}`);
 }
 
 /**
@@ -179,4 +190,3 @@ export async function requireMarkingAccess(
   }
   return { access, lab };
 }
-

@@ -10,7 +10,18 @@ import { sql } from "drizzle-orm";
 import { markChanges } from "~/db/schema";
 import { suggestAutomaticCriteria, type AutoSuggestion } from "~/lib/marking/automatic-criteria";
 import { MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
-import { applyMarkChange, freezeSuggestions, markChange as markChangeSchema, markTotals, sameContent, unfreezeSuggestions, type MarkChange, type MarkContent, type MarkState, type MarkTotals } from "~/lib/marking/marks";
+import {
+  applyMarkChange,
+  freezeSuggestions,
+  markChange as markChangeSchema,
+  markTotals,
+  sameContent,
+  unfreezeSuggestions,
+  type MarkChange,
+  type MarkContent,
+  type MarkState,
+  type MarkTotals,
+} from "~/lib/marking/marks";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
@@ -88,10 +99,20 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   if (!lab) throw markingRefusal("lab_not_found", "There is no such lab in this course.");
   const role = access.membership.role;
   if (role === "student") throw markingRefusal("forbidden", "Marking is for the course's staff.");
-  if (source === "moderation" && role !== "instructor") throw markingRefusal("instructors_only", "Only the course's instructors moderate marks.");
-  if (role === "ta" && lab.marking.readyAt) throw markingRefusal("marking_closed", "The instructor has marked this lab's marking as ready: marks can no longer be changed at the desk.");
+  if (source === "moderation" && role !== "instructor")
+    throw markingRefusal("instructors_only", "Only the course's instructors moderate marks.");
+  if (role === "ta" && lab.marking.readyAt)
+    throw markingRefusal(
+      "marking_closed",
+      "The instructor has marked this lab's marking as ready: marks can no longer be changed at the desk.",
+    );
   const parsed = markChangeSchema.safeParse(request.change);
-  if (!parsed.success) throw markingRefusal("invalid_value", parsed.error.issues[0]?.message ?? "The change cannot be read.", String(parsed.error.issues[0]?.path[0] ?? "form"));
+  if (!parsed.success)
+    throw markingRefusal(
+      "invalid_value",
+      parsed.error.issues[0]?.message ?? "The change cannot be read.",
+      String(parsed.error.issues[0]?.path[0] ?? "form"),
+    );
   const change: MarkChange = parsed.data;
 
   const cohortIds = markableCohortIds(access, lab);
@@ -105,7 +126,9 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   if (outside.length) {
     throw markingRefusal(
       "not_in_cohort",
-      outside.length === 1 ? "One of these students is not a student of your cohorts for this lab: nothing was changed." : `${outside.length} of these students are not students of your cohorts for this lab: nothing was changed.`,
+      outside.length === 1
+        ? "One of these students is not a student of your cohorts for this lab: nothing was changed."
+        : `${outside.length} of these students are not students of your cohorts for this lab: nothing was changed.`,
       "membershipIds",
       outside,
     );
@@ -127,7 +150,8 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   for (const target of targets) {
     const student = byMembership.get(target.membershipId)!;
     const mark = student.mark;
-    if (target.expectedVersion !== undefined && target.expectedVersion !== (mark?.version ?? 0)) throw new VersionConflict([target.membershipId]);
+    if (target.expectedVersion !== undefined && target.expectedVersion !== (mark?.version ?? 0))
+      throw new VersionConflict([target.membershipId]);
     const released = mark?.releasedAt != null;
     let content: MarkContent;
     try {
@@ -139,7 +163,10 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
     // A write marks the counted version: the suggestions after it are the counted version's.
     const rebased = { ...student, markedHandIn: student.handIn };
     const suggestionsBefore = suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, student, labels));
-    const suggestions = mark && mark.basedOnVersionId !== (student.handIn?.versionId ?? null) ? suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, rebased, labels)) : suggestionsBefore;
+    const suggestions =
+      mark && mark.basedOnVersionId !== (student.handIn?.versionId ?? null)
+        ? suggestAutomaticCriteria(lab.rubric, evidenceOf(lab, rebased, labels))
+        : suggestionsBefore;
     // A released mark moved onto a newer version (re-marking after a hand-in that reopened it) gets its
     // automatic criteria frozen again from that version, and is written even if nothing else changed.
     const remarking = released && suggestions !== suggestionsBefore;
@@ -159,7 +186,9 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
   if (needingReason.length) {
     throw markingRefusal(
       "reason_required",
-      source === "moderation" ? "Say why the mark is adjusted: it is kept with the change." : "This mark is released: say why it changes, the student is shown the reason.",
+      source === "moderation"
+        ? "Say why the mark is adjusted: it is kept with the change."
+        : "This mark is released: say why it changes, the student is shown the reason.",
       "reason",
       needingReason,
     );
@@ -195,7 +224,8 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
       where mk.version = excluded.version - 1
       returning mk.id, mk.membership_id as "membershipId", mk.version, to_json(mk.updated_at)#>>'{}' as "updatedAt"`);
     for (const row of result.rows) written.set(row.membershipId, row);
-    if (written.size !== changes.length) throw new VersionConflict(changes.map((entry) => entry.student.membershipId).filter((id) => !written.has(id)));
+    if (written.size !== changes.length)
+      throw new VersionConflict(changes.map((entry) => entry.student.membershipId).filter((id) => !written.has(id)));
 
     await insertMany(
       tx,
@@ -219,7 +249,13 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
     lab,
     labels,
     written: planned.map(({ student, original, suggestions, suggestionsBefore, before, content, after }) => {
-      if (!after) return { student: original, suggestions: suggestionsBefore, totals: before ?? markTotals(lab.rubric, null, suggestionsBefore), changed: false };
+      if (!after)
+        return {
+          student: original,
+          suggestions: suggestionsBefore,
+          totals: before ?? markTotals(lab.rubric, null, suggestionsBefore),
+          changed: false,
+        };
       const stored = written.get(student.membershipId)!;
       const previous = student.mark;
       const mark: StoredMark = {
@@ -270,10 +306,26 @@ export async function saveMark(
     expectedVersion,
     source = "desk",
     reason,
-  }: { access: CourseAccess; labId: string; membershipId: string; change: MarkChange; expectedVersion: number; source?: "desk" | "moderation"; reason?: string | null },
+  }: {
+    access: CourseAccess;
+    labId: string;
+    membershipId: string;
+    change: MarkChange;
+    expectedVersion: number;
+    source?: "desk" | "moderation";
+    reason?: string | null;
+  },
 ): Promise<SaveMarkResult> {
   try {
-    const { labels, written } = await runWrite(executor, { access, labId, targets: [{ membershipId, expectedVersion }], change, source, reason, deskRows: true });
+    const { labels, written } = await runWrite(executor, {
+      access,
+      labId,
+      targets: [{ membershipId, expectedVersion }],
+      change,
+      source,
+      reason,
+      deskRows: true,
+    });
     const [{ student, suggestions, totals, changed }] = written;
     // A save that changed nothing leaves a student without a mark (clearing an empty cell) unmarked.
     return { status: "saved", mark: student.mark, row: deskRowWith(student, labels, suggestions, totals), changed };
@@ -301,9 +353,26 @@ export function saveMarkCell(
     overrideReason,
     expectedVersion,
     reason,
-  }: { access: CourseAccess; labId: string; membershipId: string; criterionId: string; level?: number | null; points?: number | null; overrideReason?: string | null; expectedVersion: number; reason?: string | null },
+  }: {
+    access: CourseAccess;
+    labId: string;
+    membershipId: string;
+    criterionId: string;
+    level?: number | null;
+    points?: number | null;
+    overrideReason?: string | null;
+    expectedVersion: number;
+    reason?: string | null;
+  },
 ): Promise<SaveMarkResult> {
-  return saveMark(executor, { access, labId, membershipId, expectedVersion, reason, change: { kind: "score", criterionId, level, points, overrideReason } });
+  return saveMark(executor, {
+    access,
+    labId,
+    membershipId,
+    expectedVersion,
+    reason,
+    change: { kind: "score", criterionId, level, points, overrideReason },
+  });
 }
 
 /**
@@ -321,22 +390,48 @@ export async function applyToMany(
     change,
     reason,
     source = "bulk",
-  }: { access: CourseAccess; labId: string; membershipIds: string[]; change: MarkChange; reason?: string | null; source?: "bulk" | "moderation" },
+  }: {
+    access: CourseAccess;
+    labId: string;
+    membershipIds: string[];
+    change: MarkChange;
+    reason?: string | null;
+    source?: "bulk" | "moderation";
+  },
 ): Promise<ApplyToManyResult> {
   const unique = [...new Set(membershipIds)];
   if (unique.length === 0) throw markingRefusal("invalid_value", "Select at least one student.", "membershipIds");
-  if (unique.length > MAX_BULK_STUDENTS) throw markingRefusal("invalid_value", `Select at most ${MAX_BULK_STUDENTS} students at once.`, "membershipIds");
+  if (unique.length > MAX_BULK_STUDENTS)
+    throw markingRefusal("invalid_value", `Select at most ${MAX_BULK_STUDENTS} students at once.`, "membershipIds");
   try {
-    const { written } = await runWrite(executor, { access, labId, targets: unique.map((membershipId) => ({ membershipId })), change, source, reason });
+    const { written } = await runWrite(executor, {
+      access,
+      labId,
+      targets: unique.map((membershipId) => ({ membershipId })),
+      change,
+      source,
+      reason,
+    });
     const changed = written.filter((entry) => entry.changed).length;
     return {
       changed,
       unchanged: written.length - changed,
-      marks: written.map(({ student, totals }) => ({ membershipId: student.membershipId, markId: student.mark?.id ?? null, version: student.mark?.version ?? 0, total: totals.total, complete: totals.complete })),
+      marks: written.map(({ student, totals }) => ({
+        membershipId: student.membershipId,
+        markId: student.mark?.id ?? null,
+        version: student.mark?.version ?? 0,
+        total: totals.total,
+        complete: totals.complete,
+      })),
     };
   } catch (error) {
     if (error instanceof VersionConflict) {
-      throw markingRefusal("conflict", "Someone else changed some of these marks meanwhile: nothing was changed. Reload and try again.", "membershipIds", error.membershipIds);
+      throw markingRefusal(
+        "conflict",
+        "Someone else changed some of these marks meanwhile: nothing was changed. Reload and try again.",
+        "membershipIds",
+        error.membershipIds,
+      );
     }
     throw error;
   }

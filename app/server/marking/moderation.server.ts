@@ -13,7 +13,16 @@ import { alias } from "drizzle-orm/pg-core";
 import { courseMemberships, labMarking, markChanges, users } from "~/db/schema";
 import { studentMarkHref } from "~/lib/marking/links";
 import { freezeSuggestions, markTotals, sameContent, type MarkState, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
-import { emptyReleaseCounts, releaseAction, type AfterReleaseHandIns, releaseStanding, zeroMark, type ReleaseChoice, type ReleaseCounts, type ReleaseStanding } from "~/lib/marking/release";
+import {
+  emptyReleaseCounts,
+  releaseAction,
+  type AfterReleaseHandIns,
+  releaseStanding,
+  zeroMark,
+  type ReleaseChoice,
+  type ReleaseCounts,
+  type ReleaseStanding,
+} from "~/lib/marking/release";
 import { maxTotalOf, roundPoints } from "~/lib/marking/rubric";
 import { insertMany } from "~/server/bulk-insert.server";
 import { recordAudit } from "~/server/audit.server";
@@ -22,7 +31,16 @@ import { appUrl } from "~/server/config.server";
 import type { Executor } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { suggestAutomaticCriteria } from "~/lib/marking/automatic-criteria";
-import { deskRow, evidenceOf, loadClassLabels, loadStudentMarkRows, rubricNeedsLabels, type ClassLabels, type MarkingDeskRow, type StudentMarkRow } from "./mark-rows.server";
+import {
+  deskRow,
+  evidenceOf,
+  loadClassLabels,
+  loadStudentMarkRows,
+  rubricNeedsLabels,
+  type ClassLabels,
+  type MarkingDeskRow,
+  type StudentMarkRow,
+} from "./mark-rows.server";
 import { markingLock } from "./marks.server";
 import { assertInstructor, loadMarkingLab, markingRefusal, type MarkingLab, type MarkingState } from "./marking-lab.server";
 
@@ -55,7 +73,14 @@ export type Moderation = {
   /** Released marks reopened by a hand-in after release, waiting to be marked again. */
   needsRemarking: number;
   /** Marks whose hand-in was re-reduced (a part correction) since they were marked; released ones need the instructor's review. */
-  resultChanged: { membershipId: string; name: string; oldFigure: number | null; newFigure: number | null; released: boolean; reoffered: number }[];
+  resultChanged: {
+    membershipId: string;
+    name: string;
+    oldFigure: number | null;
+    newFigure: number | null;
+    released: boolean;
+    reoffered: number;
+  }[];
   /** Every student's row (all cohorts), for adjusting: the desk's own rows. */
   rows: MarkingDeskRow[];
   /** What a release would find now: the counts its choices act on, and who may still hand in. */
@@ -83,32 +108,53 @@ type HandInWindows = {
 /** The lab's hand-in windows, extensions included: one statement. */
 async function loadHandInWindows(executor: Executor, labId: string): Promise<HandInWindows> {
   type Extension = { membershipId: string | null; cohortId: string | null; dueAt: string; lateCutoffAt: string | null };
-  const result = await executor.execute<{ status: HandInWindows["status"]; policy: AfterReleaseHandIns; opensAt: string; dueAt: string; lateCutoffAt: string | null; extensions: Extension[] }>(sql`
+  const result = await executor.execute<{
+    status: HandInWindows["status"];
+    policy: AfterReleaseHandIns;
+    opensAt: string;
+    dueAt: string;
+    lateCutoffAt: string | null;
+    extensions: Extension[];
+  }>(sql`
     select l.status, l.after_release_hand_ins as policy, to_json(l.opens_at)#>>'{}' as "opensAt", to_json(l.due_at)#>>'{}' as "dueAt",
       to_json(l.late_cutoff_at)#>>'{}' as "lateCutoffAt",
       coalesce((select json_agg(json_build_object('membershipId', e.membership_id, 'cohortId', e.cohort_id, 'dueAt', e.due_at, 'lateCutoffAt', e.late_cutoff_at))
         from lab_extensions e where e.lab_id = l.id), '[]'::json) as extensions
     from labs l where l.id = ${labId}`);
   const row = result.rows[0];
-  const windowOf = (extension: Extension): ExtensionWindow => ({ dueAt: new Date(extension.dueAt), lateCutoffAt: extension.lateCutoffAt ? new Date(extension.lateCutoffAt) : null });
+  const windowOf = (extension: Extension): ExtensionWindow => ({
+    dueAt: new Date(extension.dueAt),
+    lateCutoffAt: extension.lateCutoffAt ? new Date(extension.lateCutoffAt) : null,
+  });
   return {
     status: row.status,
     afterReleaseHandIns: row.policy,
     lab: { opensAt: new Date(row.opensAt), dueAt: new Date(row.dueAt), lateCutoffAt: row.lateCutoffAt ? new Date(row.lateCutoffAt) : null },
-    byStudent: new Map(row.extensions.filter((extension) => extension.membershipId).map((extension) => [extension.membershipId!, windowOf(extension)])),
-    byCohort: new Map(row.extensions.filter((extension) => extension.cohortId).map((extension) => [extension.cohortId!, windowOf(extension)])),
+    byStudent: new Map(
+      row.extensions.filter((extension) => extension.membershipId).map((extension) => [extension.membershipId!, windowOf(extension)]),
+    ),
+    byCohort: new Map(
+      row.extensions.filter((extension) => extension.cohortId).map((extension) => [extension.cohortId!, windowOf(extension)]),
+    ),
   };
 }
 
 /** When the student's own window closes, or null when the lab takes no more hand-ins from them. */
 function stillOpenUntil(windows: HandInWindows, student: Pick<StudentMarkRow, "membershipId" | "cohortId">, now: Date): Date | null {
   if (windows.status !== "published") return null;
-  const window = effectiveHandInWindow(windows.lab, { student: windows.byStudent.get(student.membershipId), cohort: windows.byCohort.get(student.cohortId) });
+  const window = effectiveHandInWindow(windows.lab, {
+    student: windows.byStudent.get(student.membershipId),
+    cohort: windows.byCohort.get(student.cohortId),
+  });
   return handInTiming(window, now) === "closed" ? null : (window.lateCutoffAt ?? window.dueAt);
 }
 
 /** Each student's standing for release, and who may still hand in. */
-function previewRelease(rows: MarkingDeskRow[], windows: HandInWindows, now: Date): { preview: ReleasePreview; standings: Map<string, ReleaseStanding> } {
+function previewRelease(
+  rows: MarkingDeskRow[],
+  windows: HandInWindows,
+  now: Date,
+): { preview: ReleasePreview; standings: Map<string, ReleaseStanding> } {
   const counts = emptyReleaseCounts();
   const standings = new Map<string, ReleaseStanding>();
   let stillOpen = 0;
@@ -127,7 +173,14 @@ function previewRelease(rows: MarkingDeskRow[], windows: HandInWindows, now: Dat
     counts[standing]++;
     standings.set(row.membershipId, standing);
   }
-  return { preview: { counts, stillOpen: { students: stillOpen, until: until?.toISOString() ?? null }, afterReleaseHandIns: windows.afterReleaseHandIns }, standings };
+  return {
+    preview: {
+      counts,
+      stillOpen: { students: stillOpen, until: until?.toISOString() ?? null },
+      afterReleaseHandIns: windows.afterReleaseHandIns,
+    },
+    standings,
+  };
 }
 
 function summarise(totals: number[], bins: { from: number; to: number }[]): TotalsSummary {
@@ -143,7 +196,15 @@ function summarise(totals: number[], bins: { from: number; to: number }[]): Tota
   const mean = totals.reduce((sum, value) => sum + value, 0) / count;
   const variance = count > 1 ? totals.reduce((sum, value) => sum + (value - mean) ** 2, 0) / (count - 1) : null;
   const median = count % 2 ? sorted[(count - 1) / 2] : (sorted[count / 2 - 1] + sorted[count / 2]) / 2;
-  return { count, mean, standardDeviation: variance === null ? null : Math.sqrt(variance), median, min: sorted[0], max: sorted[count - 1], histogram };
+  return {
+    count,
+    mean,
+    standardDeviation: variance === null ? null : Math.sqrt(variance),
+    median,
+    min: sorted[0],
+    max: sorted[count - 1],
+    histogram,
+  };
 }
 
 /** Equal-width bins over 0 … max. */
@@ -153,7 +214,8 @@ export function totalBins(maxTotal: number, count = 10): { from: number; to: num
   return Array.from({ length: count }, (_, index) => ({ from: roundPoints(index * width), to: roundPoints((index + 1) * width) }));
 }
 
-const loadLabelsFor = (executor: Executor, lab: MarkingLab): Promise<ClassLabels> => (rubricNeedsLabels(lab) ? loadClassLabels(executor, lab) : Promise.resolve(new Map()));
+const loadLabelsFor = (executor: Executor, lab: MarkingLab): Promise<ClassLabels> =>
+  rubricNeedsLabels(lab) ? loadClassLabels(executor, lab) : Promise.resolve(new Map());
 
 /**
  * The moderation view of a lab, for instructors: each marker's totals (the marks they last marked
@@ -165,7 +227,11 @@ export async function loadModeration(
   { access, lab, binCount = 10, now = new Date() }: { access: CourseAccess; lab: MarkingLab; binCount?: number; now?: Date },
 ): Promise<Moderation> {
   await assertInstructor(executor, access, lab);
-  const [students, labels, windows] = await Promise.all([loadStudentMarkRows(executor, lab, { cohortIds: lab.cohortIds }), loadClassLabels(executor, lab), loadHandInWindows(executor, lab.id)]);
+  const [students, labels, windows] = await Promise.all([
+    loadStudentMarkRows(executor, lab, { cohortIds: lab.cohortIds }),
+    loadClassLabels(executor, lab),
+    loadHandInWindows(executor, lab.id),
+  ]);
   const rows = students.map((student) => deskRow(lab, student, labels));
   const maxTotal = maxTotalOf(lab.rubric);
   const bins = totalBins(maxTotal, binCount);
@@ -187,7 +253,10 @@ export async function loadModeration(
     markers: [...byMarker.values()]
       .map(({ marker, totals }) => ({ marker, ...summarise(totals, bins) }))
       .sort((a, b) => (a.marker?.name ?? "\uffff").localeCompare(b.marker?.name ?? "\uffff")),
-    overall: summarise(marked.map((row) => row.total), bins),
+    overall: summarise(
+      marked.map((row) => row.total),
+      bins,
+    ),
     students: rows.length,
     progress,
     released: released.length,
@@ -197,7 +266,16 @@ export async function loadModeration(
       const changed = row.resultChangedSinceMarked;
       if (!changed) return [];
       const { oldFigure, newFigure, reofferedCriterionIds } = changed;
-      return [{ membershipId: row.membershipId, name: row.studentName, oldFigure, newFigure, released: row.mark!.releasedAt !== null, reoffered: reofferedCriterionIds.length }];
+      return [
+        {
+          membershipId: row.membershipId,
+          name: row.studentName,
+          oldFigure,
+          newFigure,
+          released: row.mark!.releasedAt !== null,
+          reoffered: reofferedCriterionIds.length,
+        },
+      ];
     }),
     rows,
     release: previewRelease(rows, windows, now).preview,
@@ -221,7 +299,13 @@ export async function markLabReady(
       .insert(labMarking)
       .values({ labId: lab.id, readyAt, readyById: ready ? access.user.id : null })
       .onConflictDoUpdate({ target: labMarking.labId, set: { readyAt, readyById: ready ? access.user.id : null, updatedAt: new Date() } });
-    await recordAudit(tx, { action: ready ? "marking.ready" : "marking.reopened", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, request });
+    await recordAudit(tx, {
+      action: ready ? "marking.ready" : "marking.reopened",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject: `lab:${lab.id}`,
+      request,
+    });
     return (await loadMarkingLab(tx, access.course.id, lab.id))!.marking;
   });
 }
@@ -269,7 +353,11 @@ export async function releaseMarks(
     const lab = await loadMarkingLab(tx, access.course.id, labId);
     if (!lab) throw markingRefusal("lab_not_found", "There is no such lab in this course.");
     if (!lab.marking.readyAt) throw markingRefusal("not_ready", "Mark the lab's marking as ready before releasing it.");
-    const [students, labels, windows] = await Promise.all([loadStudentMarkRows(tx, lab, { cohortIds: lab.cohortIds }), loadLabelsFor(tx, lab), loadHandInWindows(tx, labId)]);
+    const [students, labels, windows] = await Promise.all([
+      loadStudentMarkRows(tx, lab, { cohortIds: lab.cohortIds }),
+      loadLabelsFor(tx, lab),
+      loadHandInWindows(tx, labId),
+    ]);
     const rows = students.map((student) => deskRow(lab, student, labels));
     const { preview, standings } = previewRelease(rows, windows, now);
     if (preview.stillOpen.students > 0 && !choice.whileOpen) {
@@ -289,7 +377,14 @@ export async function releaseMarks(
       const scores = freezeSuggestions(lab.rubric, mark.scores, suggestions);
       const total = markTotals(lab.rubric, { scores, latePenaltyPoints: mark.latePenaltyPoints }, suggestions).total;
       // The mark is released on the version it was marked on, never a later one.
-      const snapshot: ReleasedMarkSnapshot = { scores, feedback: mark.feedback, latePenaltyPoints: mark.latePenaltyPoints, total, dropLogVersionId: mark.basedOnVersionId, releasedAt };
+      const snapshot: ReleasedMarkSnapshot = {
+        scores,
+        feedback: mark.feedback,
+        latePenaltyPoints: mark.latePenaltyPoints,
+        total,
+        dropLogVersionId: mark.basedOnVersionId,
+        releasedAt,
+      };
       return { id: mark.id, version: mark.version, scores, total, snapshot };
     });
     if (payload.length) {
@@ -298,7 +393,8 @@ export async function releaseMarks(
         update marks mk set scores = r.scores, total = r.total, released_at = ${releasedAt}::timestamptz, released_snapshot = r.snapshot
         from json_to_recordset(${JSON.stringify(payload)}::json) as r(id uuid, version int, scores jsonb, total float8, snapshot jsonb)
         where mk.id = r.id and mk.version = r.version and mk.released_at is null`);
-      if ((result.rowCount ?? 0) !== payload.length) throw markingRefusal("conflict", "Marks changed while releasing: nothing was released. Try again.");
+      if ((result.rowCount ?? 0) !== payload.length)
+        throw markingRefusal("conflict", "Marks changed while releasing: nothing was released. Try again.");
     }
     if (toZero.length) {
       const zero = zeroMark(lab.rubric);
@@ -312,11 +408,22 @@ export async function releaseMarks(
         from json_to_recordset(${JSON.stringify(toZero.map((row) => ({ membership_id: row.membershipId })))}::json) as r(membership_id uuid)
         on conflict (lab_id, membership_id) do nothing
         returning id, membership_id as "membershipId"`);
-      if (created.rows.length !== toZero.length) throw markingRefusal("conflict", "Marks changed while releasing: nothing was released. Try again.");
+      if (created.rows.length !== toZero.length)
+        throw markingRefusal("conflict", "Marks changed while releasing: nothing was released. Try again.");
       await insertMany(
         tx,
         markChanges,
-        created.rows.map((mark) => ({ markId: mark.id, labId: lab.id, membershipId: mark.membershipId, changedById: access.user.id, changedAt: now, old: null, new: state, reason: zeroReason, source: "moderation" as const })),
+        created.rows.map((mark) => ({
+          markId: mark.id,
+          labId: lab.id,
+          membershipId: mark.membershipId,
+          changedById: access.user.id,
+          changedAt: now,
+          old: null,
+          new: state,
+          reason: zeroReason,
+          source: "moderation" as const,
+        })),
       );
     }
     await tx
@@ -344,7 +451,14 @@ export async function releaseMarks(
       withheld: students.length - alreadyReleased - toRelease.length - toZero.length,
       stillOpen: preview.stillOpen.students,
     };
-    await recordAudit(tx, { action: "marking.released", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: { ...outcome, choice }, request });
+    await recordAudit(tx, {
+      action: "marking.released",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject: `lab:${lab.id}`,
+      detail: { ...outcome, choice },
+      request,
+    });
     return outcome;
   });
 }
@@ -370,7 +484,13 @@ export type MarkChangeEntry = {
  */
 export async function listMarkChanges(
   executor: Executor,
-  { access, labId, membershipId, limit = 200, before }: { access: CourseAccess; labId: string; membershipId?: string; limit?: number; before?: Date },
+  {
+    access,
+    labId,
+    membershipId,
+    limit = 200,
+    before,
+  }: { access: CourseAccess; labId: string; membershipId?: string; limit?: number; before?: Date },
 ): Promise<MarkChangeEntry[]> {
   await assertInstructor(executor, access, { id: labId });
   const changer = alias(users, "changer");
@@ -403,5 +523,8 @@ export async function listMarkChanges(
     )
     .orderBy(desc(markChanges.changedAt), desc(markChanges.id))
     .limit(Math.min(Math.max(1, limit), 1000));
-  return rows.map(({ changedById, changedByName, ...row }) => ({ ...row, changedBy: changedById ? { id: changedById, name: changedByName ?? "" } : null }));
+  return rows.map(({ changedById, changedByName, ...row }) => ({
+    ...row,
+    changedBy: changedById ? { id: changedById, name: changedByName ?? "" } : null,
+  }));
 }

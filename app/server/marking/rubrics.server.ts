@@ -16,11 +16,19 @@ import { assertInstructor, loadMarkingLab, markingRefusal, type MarkingLab } fro
 
 /** A rubric the form sends that the schema refuses: the issues, by path, for the fields. */
 function rubricInputError(issues: ErrorIssue[]): AppError {
-  return new AppError({ code: "invalid_value", message: issues[0]?.message ?? "The rubric cannot be read.", field: issues[0]?.path.join("."), issues });
+  return new AppError({
+    code: "invalid_value",
+    message: issues[0]?.message ?? "The rubric cannot be read.",
+    field: issues[0]?.path.join("."),
+    issues,
+  });
 }
 
 async function assertUnreleased(executor: Executor, labId: string): Promise<void> {
-  const [row] = await executor.select({ released: count() }).from(marks).where(and(eq(marks.labId, labId), isNotNull(marks.releasedAt)));
+  const [row] = await executor
+    .select({ released: count() })
+    .from(marks)
+    .where(and(eq(marks.labId, labId), isNotNull(marks.releasedAt)));
   if (row.released > 0) throw markingRefusal("rubric_locked", "Marks of this lab are released: its rubric can no longer change.");
 }
 
@@ -35,7 +43,13 @@ export async function saveRubric(
 ): Promise<RubricCriterion[]> {
   await assertInstructor(executor, access, lab);
   const parsed = rubricInput.safeParse(input);
-  if (!parsed.success) throw rubricInputError(parsed.error.issues.map((issue) => ({ path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)), message: issue.message })));
+  if (!parsed.success)
+    throw rubricInputError(
+      parsed.error.issues.map((issue) => ({
+        path: issue.path.map((key) => (typeof key === "symbol" ? String(key) : key)),
+        message: issue.message,
+      })),
+    );
   const known = new Set(lab.rubric.map((criterion) => criterion.id));
   const foreign = parsed.data.criteria.findIndex((criterion) => criterion.id && !known.has(criterion.id));
   if (foreign >= 0) throw rubricInputError([{ path: ["criteria", foreign, "id"], message: "This criterion is not one of this lab's." }]);
@@ -46,7 +60,13 @@ export async function saveRubric(
     await assertUnreleased(tx, lab.id);
     const rows = parsed.data.criteria.map((criterion, position) => {
       const columns = criterionColumns(criterion);
-      return { id: criterion.id ?? randomUUID(), position, ...columns, levels: columns.levels ? JSON.stringify(columns.levels) : null, autoParams: JSON.stringify(columns.autoParams) };
+      return {
+        id: criterion.id ?? randomUUID(),
+        position,
+        ...columns,
+        levels: columns.levels ? JSON.stringify(columns.levels) : null,
+        autoParams: JSON.stringify(columns.autoParams),
+      };
     });
     await tx.execute(sql`
       delete from rubric_criteria
@@ -104,13 +124,23 @@ export async function copyRubric(
       select ${lab.id}, position, title, description, kind, levels, min_points, max_points, auto_rule, auto_params
       from rubric_criteria where lab_id = ${source.id}
       returning id, position, title, description, kind, levels, min_points as "minPoints", max_points as "maxPoints", auto_rule as "autoRule", auto_params as "autoParams"`);
-    await recordAudit(tx, { action: "marking.rubric_copied", actorId: access.user.id, courseId: access.course.id, subject: `lab:${lab.id}`, detail: { fromLabId: source.id, criteria: copied.rows.length }, request });
+    await recordAudit(tx, {
+      action: "marking.rubric_copied",
+      actorId: access.user.id,
+      courseId: access.course.id,
+      subject: `lab:${lab.id}`,
+      detail: { fromLabId: source.id, criteria: copied.rows.length },
+      request,
+    });
     return copied.rows.sort((a, b) => a.position - b.position);
   });
 }
 
 /** The course's other labs with a rubric, for "copy the rubric from…": one statement. */
-export async function listRubricSources(executor: Executor, { access, labId }: { access: CourseAccess; labId: string }): Promise<{ labId: string; title: string; criteria: number }[]> {
+export async function listRubricSources(
+  executor: Executor,
+  { access, labId }: { access: CourseAccess; labId: string },
+): Promise<{ labId: string; title: string; criteria: number }[]> {
   const rows = await executor
     .select({
       labId: labs.id,

@@ -57,7 +57,10 @@ export type StudentMark = {
   criteria: StudentMarkCriterion[];
   basedOn: MarkedHandIn | null;
   /** Set when the mark changed after it was released: the total then, and each change with its reason (newest first). */
-  changedAfterRelease: { releasedTotal: number; changes: { changedAt: string; reason: string | null; oldTotal: number | null; newTotal: number }[] } | null;
+  changedAfterRelease: {
+    releasedTotal: number;
+    changes: { changedAt: string; reason: string | null; oldTotal: number | null; newTotal: number }[];
+  } | null;
 };
 
 type Row = {
@@ -73,8 +76,12 @@ type Row = {
 };
 
 /** The signed-in student's released mark for the lab, or null before release (or when they have none). Staff are refused: they cannot act as a student. */
-export async function loadStudentMark(executor: Executor, { access, labId }: { access: CourseAccess; labId: string }): Promise<StudentMark | null> {
-  if (access.membership.role !== "student") await refuse(executor, access, markingRefusal("forbidden", "Only the student sees their own mark here."), `lab:${labId}`);
+export async function loadStudentMark(
+  executor: Executor,
+  { access, labId }: { access: CourseAccess; labId: string },
+): Promise<StudentMark | null> {
+  if (access.membership.role !== "student")
+    await refuse(executor, access, markingRefusal("forbidden", "Only the student sees their own mark here."), `lab:${labId}`);
   const result = await executor.execute<Row>(sql`
     select l.title as "labTitle", to_json(mk.released_at)#>>'{}' as "releasedAt", mk.scores, mk.feedback, mk.late_penalty_points as "latePenaltyPoints",
       mk.released_snapshot as "releasedSnapshot",
@@ -117,7 +124,10 @@ export async function loadStudentMark(executor: Executor, { access, labId }: { a
     feedback: row.feedback,
     criteria: rubric.map((criterion) => {
       const cell = totals.cells[criterion.id];
-      const level = cell.level !== null && criterion.levels?.[cell.level - 1] ? { number: cell.level, description: criterion.levels[cell.level - 1].description } : null;
+      const level =
+        cell.level !== null && criterion.levels?.[cell.level - 1]
+          ? { number: cell.level, description: criterion.levels[cell.level - 1].description }
+          : null;
       return {
         id: criterion.id,
         title: criterion.title,

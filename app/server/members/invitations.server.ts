@@ -75,7 +75,10 @@ export async function createInvitations(
     .where(
       and(
         eq(invitations.courseId, courseId),
-        inArray(invitations.email, accepted.map((row) => row.email)),
+        inArray(
+          invitations.email,
+          accepted.map((row) => row.email),
+        ),
         isNull(invitations.acceptedAt),
         gt(invitations.expiresAt, sql`now()`),
       ),
@@ -157,7 +160,9 @@ export async function findInvitation(token: string): Promise<InvitationView | nu
   const inviter = sql<string | null>`(select u.name from users u where u.id = ${invitations.invitedById})`;
   // Inviting someone again ends their open invitation (see createInvitations); the newer row says why.
   const replacedAt = sql<Date | null>`(select max(newer.created_at) from invitations newer
-    where newer.course_id = ${invitations.courseId} and newer.email = ${invitations.email} and newer.created_at > ${invitations.createdAt})`.mapWith(invitations.createdAt);
+    where newer.course_id = ${invitations.courseId} and newer.email = ${invitations.email} and newer.created_at > ${invitations.createdAt})`.mapWith(
+    invitations.createdAt,
+  );
   const [row] = await db
     .select({
       email: invitations.email,
@@ -186,9 +191,7 @@ export async function findInvitation(token: string): Promise<InvitationView | nu
 
 export type AcceptInput = { name?: string; password?: string | null };
 export type AcceptOutcome =
-  | ({ outcome: "accepted"; courseId: string } & NewSession)
-  | { outcome: "invalid" }
-  | { outcome: "other-account"; invitedEmail: string };
+  ({ outcome: "accepted"; courseId: string } & NewSession) | { outcome: "invalid" } | { outcome: "other-account"; invitedEmail: string };
 
 /**
  * Accepts the invitation: creates the account (name, optional password) or attaches the course to the
@@ -229,7 +232,12 @@ export async function acceptInvitation(
     }
     const [membership] = await tx
       .insert(courseMemberships)
-      .values({ courseId: invitation.courseId, userId: user.id, role: invitation.role, cohortId: invitation.role === "student" ? invitation.cohortId : null })
+      .values({
+        courseId: invitation.courseId,
+        userId: user.id,
+        role: invitation.role,
+        cohortId: invitation.role === "student" ? invitation.cohortId : null,
+      })
       .onConflictDoUpdate({
         target: [courseMemberships.courseId, courseMemberships.userId],
         set: { role: invitation.role, cohortId: invitation.role === "student" ? invitation.cohortId : null, removedAt: null },

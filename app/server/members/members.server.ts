@@ -21,7 +21,9 @@ export function listMembers(courseId: string) {
       role: courseMemberships.role,
       cohortId: courseMemberships.cohortId,
       cohortName: cohorts.name,
-      taCohortNames: sql<string[]>`array(select h.name from ${taCohortAssignments} a join ${cohorts} h on h.id = a.cohort_id where a.membership_id = ${courseMemberships.id} order by h.name)`,
+      taCohortNames: sql<
+        string[]
+      >`array(select h.name from ${taCohortAssignments} a join ${cohorts} h on h.id = a.cohort_id where a.membership_id = ${courseMemberships.id} order by h.name)`,
     })
     .from(courseMemberships)
     .innerJoin(users, eq(users.id, courseMemberships.userId))
@@ -33,7 +35,14 @@ export function listMembers(courseId: string) {
 /** Invitations sent and not yet accepted, still within their lifetime. */
 export function listOpenInvitations(courseId: string) {
   return db
-    .select({ id: invitations.id, email: invitations.email, name: invitations.name, role: invitations.role, cohortName: cohorts.name, expiresAt: invitations.expiresAt })
+    .select({
+      id: invitations.id,
+      email: invitations.email,
+      name: invitations.name,
+      role: invitations.role,
+      cohortName: cohorts.name,
+      expiresAt: invitations.expiresAt,
+    })
     .from(invitations)
     .leftJoin(cohorts, eq(cohorts.id, invitations.cohortId))
     .where(and(eq(invitations.courseId, courseId), isNull(invitations.acceptedAt), gt(invitations.expiresAt, sql`now()`)))
@@ -66,7 +75,13 @@ export async function getMember(courseId: string, membershipId: string) {
  * instructor cannot change their own role, so a course never loses its last one.
  */
 export async function changeMemberRole(
-  { courseId, actorId, membershipId, role, cohortId }: { courseId: string; actorId: string; membershipId: string; role: CourseRole; cohortId: string | null },
+  {
+    courseId,
+    actorId,
+    membershipId,
+    role,
+    cohortId,
+  }: { courseId: string; actorId: string; membershipId: string; role: CourseRole; cohortId: string | null },
   request?: Request,
 ): Promise<void> {
   await db.transaction(async (tx) => {
@@ -76,9 +91,13 @@ export async function changeMemberRole(
       .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)))
       .for("update");
     if (!member) throw new AppError({ code: "member_refused", message: "That person is not a member of this course." });
-    if (member.userId === actorId) throw new AppError({ code: "member_refused", message: "You cannot change your own role; ask another instructor." });
+    if (member.userId === actorId)
+      throw new AppError({ code: "member_refused", message: "You cannot change your own role; ask another instructor." });
     if (cohortId) {
-      const [cohort] = await tx.select({ id: cohorts.id }).from(cohorts).where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
+      const [cohort] = await tx
+        .select({ id: cohorts.id })
+        .from(cohorts)
+        .where(and(eq(cohorts.id, cohortId), eq(cohorts.courseId, courseId)));
       if (!cohort) throw new AppError({ code: "member_refused", message: "That cohort is not in this course." });
     }
     const newCohortId = role === "student" ? cohortId : null;
@@ -114,9 +133,11 @@ export async function removeMember(
       .from(courseMemberships)
       .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId)));
     if (!member) throw new AppError({ code: "member_refused", message: "That person is not a member of this course." });
-    if (member.userId === actorId) throw new AppError({ code: "member_refused", message: "You cannot remove yourself; ask another instructor." });
+    if (member.userId === actorId)
+      throw new AppError({ code: "member_refused", message: "You cannot remove yourself; ask another instructor." });
     const [holding] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderMembershipId, membershipId));
-    if (holding) throw new AppError({ code: "member_refused", message: `This student still holds kit ${holding.number}; check it in first.` });
+    if (holding)
+      throw new AppError({ code: "member_refused", message: `This student still holds kit ${holding.number}; check it in first.` });
     await tx.update(courseMemberships).set({ removedAt: new Date() }).where(eq(courseMemberships.id, membershipId));
     await tx.delete(taCohortAssignments).where(eq(taCohortAssignments.membershipId, membershipId));
     await revokeTokensOfFormerStaff(tx, member.userId, actorId, request);

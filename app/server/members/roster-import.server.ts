@@ -30,7 +30,13 @@ export async function rosterContext(executor: Executor, courseId: string) {
 
 export async function importRoster(
   db: Database,
-  { courseId, inviter, importKey, rows, request }: { courseId: string; inviter: Inviter; importKey: string; rows: RosterRow[]; request?: Request },
+  {
+    courseId,
+    inviter,
+    importKey,
+    rows,
+    request,
+  }: { courseId: string; inviter: Inviter; importKey: string; rows: RosterRow[]; request?: Request },
 ): Promise<RosterImportResult> {
   return db.transaction(async (tx) => {
     // The key is claimed first: a second commit of it waits here for the first one's transaction and
