@@ -4,7 +4,6 @@
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as schema from "~/db/schema";
-import { developmentDatabaseUrl } from "../../scripts/lib/database-url";
 import { environment } from "./env.server";
 import { logger } from "~/server/log.server";
 
@@ -19,7 +18,7 @@ export function isUniqueViolation(error: unknown): boolean {
   return (cause as { code?: string })?.code === "23505";
 }
 
-export function createPool(connectionString = developmentDatabaseUrl()): pg.Pool {
+export function createPool(connectionString = environment().DATABASE_URL): pg.Pool {
   const pool = new pg.Pool({ connectionString, max: environment().DATABASE_POOL_SIZE });
   // An idle connection dropped by a database restart must not take the process down; the pool reconnects.
   pool.on("error", (error) => logger.error({ reason: error.message }, "PostgreSQL connection lost"));

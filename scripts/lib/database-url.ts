@@ -1,6 +1,6 @@
 /**
  * Where the databases live. One definition shared by the database script, the start command,
- * the test harness and the app, so that they can never disagree.
+ * the test harness and drizzle-kit, so that they can never disagree; the app reads `environment().DATABASE_URL`.
  */
 import { LOCAL_DATABASE_USER, environment } from "../../app/server/env.server";
 

@@ -5,7 +5,7 @@
 import { sql } from "drizzle-orm";
 import PgBoss from "pg-boss";
 import type { Transaction } from "~/server/db.server";
-import { developmentDatabaseUrl } from "../../../scripts/lib/database-url";
+import { environment } from "~/server/env.server";
 import { logger } from "~/server/log.server";
 
 export const queues = {
@@ -37,7 +37,7 @@ export const housekeepingCron = "17 3 * * *";
  */
 export const emailDeliveryPolicy = { retryLimit: 5, retryDelay: 30, retryBackoff: true, expireInSeconds: 120 } as const;
 
-export function createBoss(connectionString = developmentDatabaseUrl(), options: Partial<PgBoss.ConstructorOptions> = {}): PgBoss {
+export function createBoss(connectionString = environment().DATABASE_URL, options: Partial<PgBoss.ConstructorOptions> = {}): PgBoss {
   return new PgBoss({ connectionString, application_name: "benchpost-jobs", ...options });
 }
 
