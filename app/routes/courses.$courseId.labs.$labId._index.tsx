@@ -13,7 +13,7 @@ import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { MAX_PHOTO_MEGABYTES, MAX_PHOTOS_PER_DROP_LOG } from "~/lib/drop-logs/photo-limits";
 import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
-import { anyRole, isStaff, requireCourseRole, type CourseAccess } from "~/server/auth/access.server";
+import { anyRole, isStaff, requireCourseRole } from "~/server/auth/access.server";
 import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { throwAsResponse } from "~/server/errors.server";

@@ -1,4 +1,4 @@
-import { data, Form, Link, useNavigation, useSearchParams } from "react-router";
+import { data, Form, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.edit";
 import { LabFields } from "~/components/labs/lab-form";

@@ -17,6 +17,7 @@ declare module "react-router" {
     /** The id our web server gave the request (also its X-Request-Id response header), for the logs. */
     requestId?: string;
   }
+  // eslint-disable-next-line @typescript-eslint/no-empty-object-type -- merges our fields into the provider's type
   interface RouterContextProvider extends AppLoadContext {}
 }
 

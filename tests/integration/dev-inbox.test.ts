@@ -22,15 +22,13 @@ const ask = (loader: typeof emailsLoader | typeof inboxLoader, path: string, rem
 
 beforeAll(async () => {
   delete process.env.RESEND_API_KEY;
-  await db
-    .insert(caughtEmails)
-    .values({
-      fromAddress: "no-reply@benchpost.localhost",
-      toAddresses: [to],
-      subject: "Choose a new Benchpost password",
-      text: `Open ${resetLink}`,
-      headers: {},
-    });
+  await db.insert(caughtEmails).values({
+    fromAddress: "no-reply@benchpost.localhost",
+    toAddresses: [to],
+    subject: "Choose a new Benchpost password",
+    text: `Open ${resetLink}`,
+    headers: {},
+  });
 });
 afterEach(() => {
   delete process.env.RESEND_API_KEY;

@@ -83,15 +83,13 @@ describe("hand-ins under an extension", () => {
 
   it("takes a hand-in after the class deadline as on time under the student's own extension, late up to its cut-off, refused after", async () => {
     const lab = await createLab();
-    await db
-      .insert(labExtensions)
-      .values({
-        labId: lab.id,
-        membershipId: fixture.membershipIds.ownStudent,
-        dueAt: extendedDue,
-        lateCutoffAt: dublin("2027-03-28T12:00"),
-        reason: "Illness",
-      });
+    await db.insert(labExtensions).values({
+      labId: lab.id,
+      membershipId: fixture.membershipIds.ownStudent,
+      dueAt: extendedDue,
+      lateCutoffAt: dublin("2027-03-28T12:00"),
+      reason: "Illness",
+    });
     // 07:59 UTC is 08:59 IST: before the extended due time, though after it by GMT wall reading.
     const onTime = await handIn(lab.id, "ext-own-1", new Date("2027-03-28T07:59:00Z"));
     expect(onTime.version.late).toBe(false);
@@ -117,15 +115,13 @@ describe("hand-ins under an extension", () => {
   it("shows the student their own due time and cut-off on the lab list and the lab page", async () => {
     const lab = await createLab();
     const cutoff = dublin("2027-03-28T12:00");
-    await db
-      .insert(labExtensions)
-      .values({
-        labId: lab.id,
-        membershipId: fixture.membershipIds.ownStudent,
-        dueAt: extendedDue,
-        lateCutoffAt: cutoff,
-        reason: "Illness",
-      });
+    await db.insert(labExtensions).values({
+      labId: lab.id,
+      membershipId: fixture.membershipIds.ownStudent,
+      dueAt: extendedDue,
+      lateCutoffAt: cutoff,
+      reason: "Illness",
+    });
     const row = (await listLabsForMember(db, studentAccess())).find((candidate) => candidate.id === lab.id);
     expect(row && new Date(row.dueAt).toISOString()).toBe(extendedDue.toISOString());
     expect(row?.lateCutoffAt && new Date(row.lateCutoffAt).toISOString()).toBe(cutoff.toISOString());

@@ -124,14 +124,12 @@ describe("photo caps", () => {
     const student = await newStudent("big-photos");
     // Photos already stored, as rows, up to a few bytes below the cap: the files themselves are not needed for the sum.
     const dropLogId = await ensureDropLog(db, { labId: fixture.labId, membershipId: student.membershipId });
-    await db
-      .insert(dropLogPhotos)
-      .values({
-        dropLogId,
-        storageKey: `${dropLogId}/earlier`,
-        contentType: "image/jpeg",
-        bytes: MAX_PHOTO_BYTES_PER_STUDENT - png.length + 1,
-      });
+    await db.insert(dropLogPhotos).values({
+      dropLogId,
+      storageKey: `${dropLogId}/earlier`,
+      contentType: "image/jpeg",
+      bytes: MAX_PHOTO_BYTES_PER_STUDENT - png.length + 1,
+    });
     const response = await upload(student, photos(1));
     expect(response.status).toBe(409);
     expect((await response.json()).error).toMatch(/200 MB in all/);

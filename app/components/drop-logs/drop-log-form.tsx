@@ -174,7 +174,7 @@ export function DropLogForm({
             message: body.error?.message ?? "The preview failed.",
             issues: issuesByField(body.error?.issues ?? [], rows),
           });
-      } catch (error) {
+      } catch {
         if (!controller.signal.aborted)
           setPreview({ status: "error", message: "No connection: the preview will come back when you are online.", issues: {} });
       }

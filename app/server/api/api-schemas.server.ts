@@ -173,12 +173,10 @@ export const reduceResponse = z
   ])
   .register(apiSchemas, { id: "Reduction" });
 
-export const classComparisonResponse = z
-  .looseObject({})
-  .register(apiSchemas, {
-    id: "ClassComparison",
-    description: "The lab's class comparison: labels with reasons for each counted hand-in.",
-  });
+export const classComparisonResponse = z.looseObject({}).register(apiSchemas, {
+  id: "ClassComparison",
+  description: "The lab's class comparison: labels with reasons for each counted hand-in.",
+});
 
 export const marksResponse = z
   .object({

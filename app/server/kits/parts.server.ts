@@ -367,16 +367,14 @@ export async function importParts(
         .insert(parts)
         .values(inputs.map((input) => ({ courseId, kind: input.kind, label: input.label, notes: input.notes, ...columnsFor(input) })))
         .returning({ id: parts.id, label: parts.label });
-      await tx
-        .insert(partEvents)
-        .values(
-          created.map((part) => ({
-            partId: part.id,
-            actorId,
-            action: "created",
-            detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] },
-          })),
-        );
+      await tx.insert(partEvents).values(
+        created.map((part) => ({
+          partId: part.id,
+          actorId,
+          action: "created",
+          detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] },
+        })),
+      );
       return {
         created: created.length,
         warnings: [...warningsByLabel].filter(([, warnings]) => warnings.length > 0).map(([label, warnings]) => ({ label, warnings })),
