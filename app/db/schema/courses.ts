@@ -1,0 +1,204 @@
+/**
+ * Courses, cohorts and who belongs where
+ */
+import { relations, sql } from "drizzle-orm";
+import {
+  boolean,
+  index,
+  inet,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  real,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+import { sessions, users } from "./accounts";
+import { createdAt } from "./columns";
+
+export const courseRole = pgEnum("course_role", ["instructor", "ta", "student"]);
+
+export const courses = pgTable(
+  "courses",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    title: text("title").notNull(),
+    /** The institution's course code, e.g. "ME 2140"; unique within a term. */
+    code: text("code").notNull(),
+    term: text("term").notNull(),
+    /** IANA zone name (e.g. "Europe/Lisbon"): opening and due times are entered and shown in it. */
+    timeZone: text("time_zone").notNull(),
+    /** Local gravitational acceleration in m/s²; null means standard gravity 9.80665. */
+    localGravity: real("local_gravity"),
+    /** Family significance of the kit-part bias tests (Welch t of a part against its peers per lab, Holm-corrected); a part beyond it is flagged for re-measurement. */
+    partBiasAlpha: real("part_bias_alpha").notNull().default(0.05),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("courses_code_term_unique").on(table.code, table.term)],
+);
+
+export const cohorts = pgTable(
+  "cohorts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("cohorts_course_name_unique").on(table.courseId, table.name)],
+);
+
+export const courseMemberships = pgTable(
+  "course_memberships",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    role: courseRole("role").notNull(),
+    /** A student's cohort; staff have none (TAs are assigned to cohorts in `ta_cohort_assignments`). */
+    cohortId: uuid("cohort_id").references(() => cohorts.id, { onDelete: "set null" }),
+    /** Removed members keep their row (and so their hand-ins); they simply lose access. */
+    removedAt: timestamp("removed_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (table) => [
+    uniqueIndex("course_memberships_course_user_unique").on(table.courseId, table.userId),
+    index("course_memberships_user_idx").on(table.userId),
+    index("course_memberships_cohort_idx").on(table.cohortId),
+  ],
+);
+
+export const taCohortAssignments = pgTable(
+  "ta_cohort_assignments",
+  {
+    membershipId: uuid("membership_id")
+      .notNull()
+      .references(() => courseMemberships.id, { onDelete: "cascade" }),
+    cohortId: uuid("cohort_id")
+      .notNull()
+      .references(() => cohorts.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+  },
+  (table) => [primaryKey({ columns: [table.membershipId, table.cohortId] })],
+);
+
+// Audit trail: who did what, when and from where. Never a password or a token.
+
+export const auditEvents = pgTable(
+  "audit_events",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    /** Null for course-less events such as a failed sign-in. */
+    courseId: uuid("course_id").references(() => courses.id, { onDelete: "cascade" }),
+    actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
+    /** A dotted name such as `auth.sign_in` or `course.member_added`. */
+    action: text("action").notNull(),
+    /** What the event is about, e.g. `kit:…` or `user:…`. */
+    subject: text("subject"),
+    ip: inet("ip"),
+    detail: jsonb("detail")
+      .$type<Record<string, unknown>>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
+    /** True when a staff member acted in "view as student" mode. */
+    viewedAs: boolean("viewed_as").notNull().default(false),
+    createdAt: createdAt(),
+  },
+  (table) => [
+    index("audit_events_course_created_idx").on(table.courseId, table.createdAt),
+    index("audit_events_actor_idx").on(table.actorId),
+  ],
+);
+
+/**
+ * An instructor's invitation to a course. The e-mailed link carries a token whose SHA-256 is kept here;
+ * accepting creates the account (or attaches the course to an existing one) with the chosen role and cohort.
+ */
+export const invitations = pgTable(
+  "invitations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    /** Lower-cased, like `users.email`. */
+    email: text("email").notNull(),
+    name: text("name"),
+    role: courseRole("role").notNull(),
+    cohortId: uuid("cohort_id").references(() => cohorts.id, { onDelete: "set null" }),
+    invitedById: uuid("invited_by_id").references(() => users.id, { onDelete: "set null" }),
+    /** SHA-256 of the token in the link, hex. */
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    acceptedAt: timestamp("accepted_at", { withTimezone: true }),
+    acceptedById: uuid("accepted_by_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [
+    uniqueIndex("invitations_token_hash_unique").on(table.tokenHash),
+    index("invitations_course_email_idx").on(table.courseId, table.email),
+  ],
+);
+
+/**
+ * A committed roster import. The preview names itself with a key made in the browser; committing the
+ * same key again (a second click, a resent form) finds this row and invites no one twice.
+ */
+export const rosterImports = pgTable(
+  "roster_imports",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    importKey: text("import_key").notNull(),
+    createdById: uuid("created_by_id").references(() => users.id, { onDelete: "set null" }),
+    rowCount: integer("row_count").notNull(),
+    committedAt: timestamp("committed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [uniqueIndex("roster_imports_course_key_unique").on(table.courseId, table.importKey)],
+);
+
+// Relations
+
+export const usersRelations = relations(users, ({ many }) => ({
+  memberships: many(courseMemberships),
+  sessions: many(sessions),
+}));
+
+export const sessionsRelations = relations(sessions, ({ one }) => ({
+  user: one(users, { fields: [sessions.userId], references: [users.id] }),
+}));
+
+export const coursesRelations = relations(courses, ({ many }) => ({
+  cohorts: many(cohorts),
+  memberships: many(courseMemberships),
+}));
+
+export const cohortsRelations = relations(cohorts, ({ one, many }) => ({
+  course: one(courses, { fields: [cohorts.courseId], references: [courses.id] }),
+  students: many(courseMemberships),
+  taAssignments: many(taCohortAssignments),
+}));
+
+export const courseMembershipsRelations = relations(courseMemberships, ({ one, many }) => ({
+  course: one(courses, { fields: [courseMemberships.courseId], references: [courses.id] }),
+  user: one(users, { fields: [courseMemberships.userId], references: [users.id] }),
+  cohort: one(cohorts, { fields: [courseMemberships.cohortId], references: [cohorts.id] }),
+  taAssignments: many(taCohortAssignments),
+}));
+
+export const taCohortAssignmentsRelations = relations(taCohortAssignments, ({ one }) => ({
+  membership: one(courseMemberships, { fields: [taCohortAssignments.membershipId], references: [courseMemberships.id] }),
+  cohort: one(cohorts, { fields: [taCohortAssignments.cohortId], references: [cohorts.id] }),
+}));
