@@ -23,12 +23,16 @@ const chromiumFlags = [
 
 export type BrowserSession = { context: BrowserContext; close: () => Promise<void> };
 
-export async function openBrowser(options: { viewport?: { width: number; height: number } } = {}): Promise<BrowserSession> {
+/** `javaScriptEnabled: false` serves the pages as a browser with scripts off: plain forms and links only. */
+export async function openBrowser(
+  options: { viewport?: { width: number; height: number }; javaScriptEnabled?: boolean } = {},
+): Promise<BrowserSession> {
   const profile = mkdtempSync(join(tmpdir(), "benchpost-chromium-"));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM_PATH,
     args: chromiumFlags,
     viewport: options.viewport ?? { width: 1280, height: 800 },
+    javaScriptEnabled: options.javaScriptEnabled ?? true,
   });
   return {
     context,
