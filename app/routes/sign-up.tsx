@@ -1,3 +1,4 @@
+import { getFormProps, useForm } from "@conform-to/react";
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sign-up";
@@ -5,11 +6,12 @@ import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { parseForm } from "~/lib/forms/parse-form";
+import { parseSubmission } from "~/lib/forms/submission";
 import { getOptionalUser } from "~/server/auth/access.server";
 import { describeWait, retryAfterHeaders } from "~/server/auth/session-responses.server";
 import { signUp } from "~/server/auth/sign-in.server";
 import { allowSignUp } from "~/server/config.server";
+import { formAction } from "~/server/errors.server";
 
 const signUpSchema = z.object({
   name: z.string().trim().min(1, "Enter your name as students should see it.").max(120),
@@ -26,28 +28,29 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export const action = formAction(async ({ request, formData }: Route.ActionArgs & { formData: FormData }) => {
   requireSignUpOpen();
-  const form = parseForm(signUpSchema, await request.formData());
-  if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
-  const result = await signUp(form.data, request);
-  const values = { name: form.data.name, email: form.data.email };
+  const submission = parseSubmission(formData, signUpSchema);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const result = await signUp(submission.value, request);
   if (result.outcome === "limited") {
-    return data(
-      { formError: `Too many attempts. Try again in ${describeWait(result.retryAfterSeconds)}.`, values },
-      { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) },
-    );
+    const formErrors = [`Too many attempts. Try again in ${describeWait(result.retryAfterSeconds)}.`];
+    return data(submission.reply({ formErrors }), { status: 429, headers: retryAfterHeaders(result.retryAfterSeconds) });
   }
   // The same answer whether or not the address had an account: the e-mailed link signs in to either.
-  return { sentTo: form.data.email };
-}
+  return { sentTo: submission.value.email };
+});
 
 // Passes Retry-After from a limited attempt on to the page.
 export const headers: Route.HeadersFunction = ({ actionHeaders }) => actionHeaders;
 
 export default function SignUp({ actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
-  const errors = actionData && "errors" in actionData ? actionData.errors : undefined;
+  const [form, fields] = useForm({
+    lastResult: actionData && "sentTo" in actionData ? undefined : actionData,
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, signUpSchema),
+  });
   return (
     <section className="mx-auto max-w-md" aria-labelledby="sign-up-title">
       <PageHeader id="sign-up-title" title="Create an instructor account">
@@ -59,25 +62,10 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
           you can choose a password on your account page.
         </Notice>
       ) : (
-        <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
-          {actionData && "formError" in actionData ? <Notice tone="error">{actionData.formError}</Notice> : null}
-          <TextField
-            label="Your name"
-            name="name"
-            autoComplete="name"
-            required
-            defaultValue={actionData?.values?.name}
-            error={errors?.name}
-          />
-          <TextField
-            label="E-mail address"
-            name="email"
-            type="email"
-            autoComplete="email"
-            required
-            defaultValue={actionData?.values?.email}
-            error={errors?.email}
-          />
+        <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10" {...getFormProps(form)}>
+          {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}
+          <TextField label="Your name" field={fields.name} autoComplete="name" required />
+          <TextField label="E-mail address" field={fields.email} type="email" autoComplete="email" required />
           <p className="text-sm text-ink-700">We e-mail you a link to sign in with; no password is needed to start.</p>
           <Button type="submit" disabled={busy}>
             Create the account
