@@ -44,8 +44,9 @@ function Frame({
   unit,
   className,
   controlClassName = "",
+  controlled = false,
   render,
-}: FieldFrame & { render: (control: ControlProps) => ReactNode }) {
+}: FieldFrame & { controlled?: boolean; render: (control: ControlProps) => ReactNode }) {
   const ownId = useId();
   const id = field?.id ?? ownId;
   const hintId = field?.descriptionId ?? `${id}-hint`;
@@ -60,7 +61,13 @@ function Frame({
       </label>
       {render({
         id,
-        ...(field ? { name: field.name, defaultValue: typeof field.initialValue === "string" ? field.initialValue : undefined } : {}),
+        // A control the page holds the value of (`value`) takes no default: React allows one or the other.
+        ...(field
+          ? {
+              name: field.name,
+              ...(controlled ? {} : { defaultValue: typeof field.initialValue === "string" ? field.initialValue : undefined }),
+            }
+          : {}),
         className: `${controlClass} ${messages.length ? "border-outlier" : "border-ink-900/20"} ${controlClassName}`,
         "aria-invalid": messages.length ? true : undefined,
         "aria-describedby": describedBy,
@@ -90,7 +97,11 @@ export function TextField({
   ...input
 }: FieldFrame & Omit<InputHTMLAttributes<HTMLInputElement>, "className">) {
   return (
-    <Frame {...{ label, field, error, hint, unit, className, controlClassName }} render={(control) => <input {...control} {...input} />} />
+    <Frame
+      {...{ label, field, error, hint, unit, className, controlClassName }}
+      controlled={input.value !== undefined}
+      render={(control) => <input {...control} {...input} />}
+    />
   );
 }
 
@@ -107,6 +118,7 @@ export function SelectField({
   return (
     <Frame
       {...{ label, field, error, hint, className, controlClassName }}
+      controlled={select.value !== undefined}
       render={(control) => (
         <select {...control} {...select}>
           {children}
@@ -126,6 +138,10 @@ export function TextAreaField({
   ...area
 }: FieldFrame & Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, "className">) {
   return (
-    <Frame {...{ label, field, error, hint, className, controlClassName }} render={(control) => <textarea {...control} {...area} />} />
+    <Frame
+      {...{ label, field, error, hint, className, controlClassName }}
+      controlled={area.value !== undefined}
+      render={(control) => <textarea {...control} {...area} />}
+    />
   );
 }
