@@ -17,8 +17,8 @@ export const middleware: Route.MiddlewareFunction[] = [databaseOutageGuard, body
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  return { viewer: await getShellViewer(request) };
+export async function loader({ request, context }: Route.LoaderArgs) {
+  return { viewer: await getShellViewer({ request, context }) };
 }
 
 export function Layout({ children }: { children: ReactNode }) {

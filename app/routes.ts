@@ -59,11 +59,14 @@ export default [
   route("courses/:courseId/photos/:photoId", "routes/courses.$courseId.photos.$photoId.ts"),
   route("api/v1/me", "routes/api/v1.me.ts"),
   route("api/v1/reduce", "routes/api/v1.reduce.ts"),
-  route("api/v1/labs/:labId/class-comparison", "routes/api/v1.labs.$labId.class-comparison.ts"),
-  route("api/v1/labs/:labId/marks", "routes/api/v1.labs.$labId.marks.ts"),
   route("api/v1/courses/:courseId/labs", "routes/api/v1.courses.$courseId.labs.ts"),
-  route("api/v1/labs/:labId/drop-logs", "routes/api/v1.labs.$labId.drop-logs.ts"),
-  route("api/v1/labs/:labId/drop-logs/:dropLogId", "routes/api/v1.labs.$labId.drop-logs.$dropLogId.ts"),
+  // Under one lab: its middleware resolves the lab and the caller's access to its course once.
+  route("api/v1/labs/:labId", "routes/api/v1.labs.$labId.ts", [
+    route("class-comparison", "routes/api/v1.labs.$labId.class-comparison.ts"),
+    route("marks", "routes/api/v1.labs.$labId.marks.ts"),
+    route("drop-logs", "routes/api/v1.labs.$labId.drop-logs.ts"),
+    route("drop-logs/:dropLogId", "routes/api/v1.labs.$labId.drop-logs.$dropLogId.ts"),
+  ]),
   route("api/v1/openapi.json", "routes/api/v1.openapi[.]json.ts"),
   ...(demoBuild ? [route("dev/inbox", "routes/dev.inbox.tsx"), route("api/dev/emails", "routes/api/dev.emails.ts")] : []),
   // Before the site's catch-all: an unknown API address answers JSON, not the 404 page.

@@ -38,8 +38,8 @@ const createTokenSchema = z.object({
 });
 const revokeTokenSchema = z.object({ intent: z.literal("revoke-token"), tokenId: z.uuid() });
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireUser({ request, context });
   const [sessions, canHaveTokens, passwordSet] = await Promise.all([
     listUserSessions(user.id),
     mayHaveApiTokens(user),
@@ -56,8 +56,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = await requireUser({ request, context });
   const formData = await request.formData();
   switch (formData.get("intent")) {
     case "profile": {
@@ -72,7 +72,7 @@ export async function action({ request }: Route.ActionArgs) {
       const result = await changePassword(user.id, form.data, request);
       if ("outcome" in result)
         return data({ intent: "password" as const, errors: { currentPassword: "This is not your current password." } }, { status: 400 });
-      return redirectWithNewSession(request, "/account?password=changed", result);
+      return redirectWithNewSession({ request, context }, "/account?password=changed", result);
     }
     case "end-session": {
       const form = parseForm(endSessionSchema, formData);

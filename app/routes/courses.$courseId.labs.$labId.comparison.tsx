@@ -20,11 +20,13 @@ import {
   readComparisonFilters,
   updateComparisonSettings,
 } from "~/server/comparison/class-comparison.server";
-import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { db } from "~/server/db.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadComparisonLab } from "~/server/comparison/class-comparison.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadComparisonLab);
   const filters = readComparisonFilters(request);
   const comparison = await getLabComparison(db, access, lab, filters);
   return { ...comparisonJson(comparison), filters, courseId: access.course.id, mayEdit: access.membership.role === "instructor" };
@@ -34,11 +36,11 @@ export async function action({ request, context, params }: Route.ActionArgs) {
   const form = await request.formData();
   const intent = form.get("intent");
   // Any staff member may preview; changing the lab's method is the instructor's.
-  const { access, lab } = await requireComparisonAccess(
+  const { access, lab } = await requireLabAccess(
     { request, context },
-    params.courseId,
-    params.labId,
+    params,
     intent === "save" ? ["instructor"] : ["instructor", "ta"],
+    loadComparisonLab,
   );
   if (intent !== "preview" && intent !== "save")
     return data({ intent: "unknown" as const, errors: { form: ["Unknown request."] } }, { status: 400 });

@@ -1,14 +1,16 @@
 import type { Route } from "./+types/courses.$courseId.labs.$labId.comparison[.]csv";
 import { csvResponse, toCsv } from "~/lib/csv";
 import { comparisonJson, getLabComparison, readComparisonFilters, type ComparisonJson } from "~/server/comparison/class-comparison.server";
-import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { db } from "~/server/db.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadComparisonLab } from "~/server/comparison/class-comparison.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 type Row = ComparisonJson["handIns"][number];
 
 /** The whole comparison table (or the filtered part of it) for a spreadsheet, formulas neutralised. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadComparisonLab);
   const comparison = comparisonJson(await getLabComparison(db, access, lab, readComparisonFilters(request)));
   const csv = toCsv<Row>(comparison.handIns, [
     { header: "student", value: (row) => row.student.name },

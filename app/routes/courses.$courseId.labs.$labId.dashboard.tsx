@@ -11,14 +11,16 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { handInHref } from "~/lib/comparison/links";
 import { experimentKindNames } from "~/lib/labs/lab-input";
-import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { db } from "~/server/db.server";
 import { getLabDashboard, type DashboardStudent } from "~/server/labs/lab-dashboard.server";
 import { getLab } from "~/server/labs/labs.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadComparisonLab } from "~/server/comparison/class-comparison.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Instructors, and the TAs of a cohort the lab is set for: the same people as its class comparison.
-  const { access } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
+  const { access } = await requireLabAccess({ request, context }, params, staffRoles, loadComparisonLab);
   const lab = await getLab(db, access.course.id, params.labId);
   if (!lab) throw data("Not found", { status: 404 });
   const dashboard = await getLabDashboard(db, access, lab);

@@ -16,15 +16,17 @@ import { PageHeader } from "~/components/ui/page-header";
 import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
 import { extensionInputFor, extensionInputFromForm } from "~/lib/labs/extension-input";
 import { requireCourseRole } from "~/server/auth/access.server";
-import { requireComparisonAccess } from "~/server/comparison/comparison-access.server";
 import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { getExtensionsPage, removeExtension, setExtensions, type ExtensionRow } from "~/server/labs/extensions.server";
 import { getLab } from "~/server/labs/labs.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadComparisonLab } from "~/server/comparison/class-comparison.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Instructors, and the TAs of a cohort the lab is set for: the same people as its hand-in dashboard.
-  const { access } = await requireComparisonAccess({ request, context }, params.courseId, params.labId);
+  const { access } = await requireLabAccess({ request, context }, params, staffRoles, loadComparisonLab);
   const lab = await getLab(db, access.course.id, params.labId);
   if (!lab) throw data("Not found", { status: 404 });
   const page = await getExtensionsPage(db, access, lab);

@@ -15,10 +15,12 @@ import { db } from "~/server/db.server";
 import { findDropLogOwner } from "~/server/drop-logs/drop-log-list.server";
 import { getDropLogForStudent } from "~/server/drop-logs/hand-in.server";
 import { loadClassLabels } from "~/server/marking/mark-rows.server";
-import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadMarkingLab);
   const owner = z.uuid().safeParse(params.dropLogId).success ? await findDropLogOwner(db, lab.id, params.dropLogId) : null;
   if (!owner) throw data("Not found", { status: 404 });
   // A TA of another cohort is refused here, and the refusal recorded, before anything is read.

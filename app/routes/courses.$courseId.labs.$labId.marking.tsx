@@ -19,11 +19,13 @@ import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
 import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
 import { throwAsResponse } from "~/server/errors.server";
-import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { applyToMany, saveMark } from "~/server/marking/marks.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadMarkingLab);
   const url = new URL(request.url);
   // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
   const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch(
@@ -66,7 +68,7 @@ const deskAction = z.discriminatedUnion("intent", [
 ]);
 
 export async function action({ request, context, params }: Route.ActionArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadMarkingLab);
   const parsed = deskAction.safeParse(await request.json().catch(() => null));
   if (!parsed.success) {
     const issue = parsed.error.issues[0];

@@ -2,13 +2,15 @@ import type { Route } from "./+types/courses.$courseId.labs.$labId.marks[.]csv";
 import { csvResponse, neutraliseCell, toCsv } from "~/lib/csv";
 import { db } from "~/server/db.server";
 import { loadMarksJson, type MarksJson } from "~/server/marking/mark-export.server";
-import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
+import { staffRoles } from "~/server/auth/access.server";
 
 type Row = MarksJson["marks"][number];
 
 /** The lab's marks for a spreadsheet or gradebook, one row per student, formulas neutralised. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadMarkingLab);
   const marks = await loadMarksJson(db, { access, lab });
   const csv = toCsv<Row>(marks.marks, [
     { header: "student_name", value: (row) => row.student.name },

@@ -21,12 +21,13 @@ import { afterReleaseHandInNames, releaseChoice, releasedCount, type ReleaseCoun
 import type { MarkChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
-import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { saveMark } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
+  const { access, lab } = await requireLabAccess({ request, context }, params, ["instructor"], loadMarkingLab);
   const [moderation, changes] = await Promise.all([
     loadModeration(db, { access, lab }),
     listMarkChanges(db, { access, labId: lab.id, limit: 100 }),
@@ -81,7 +82,7 @@ const moderationAction = z.discriminatedUnion("intent", [
 ]);
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
+  const { access, lab } = await requireLabAccess({ request, context }, params, ["instructor"], loadMarkingLab);
   const submission = parseSubmission(formData, moderationAction);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const input = submission.value;

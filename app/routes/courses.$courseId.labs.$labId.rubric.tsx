@@ -24,11 +24,12 @@ import {
 } from "~/lib/marking/rubric";
 import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { requireMarkingAccess } from "~/server/marking/marking-lab.server";
 import { copyRubric, listRubricSources, saveRubric } from "~/server/marking/rubrics.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
+  const { access, lab } = await requireLabAccess({ request, context }, params, ["instructor"], loadMarkingLab);
   const sources = await listRubricSources(db, { access, labId: lab.id });
   return {
     courseId: access.course.id,
@@ -44,7 +45,7 @@ const rubricAction = z.discriminatedUnion("intent", [
 ]);
 
 export async function action({ request, context, params }: Route.ActionArgs) {
-  const { access, lab } = await requireMarkingAccess({ request, context }, params.courseId, params.labId, ["instructor"]);
+  const { access, lab } = await requireLabAccess({ request, context }, params, ["instructor"], loadMarkingLab);
   const parsed = rubricAction.safeParse(
     request.headers.get("content-type")?.includes("json")
       ? await request.json().catch(() => null)

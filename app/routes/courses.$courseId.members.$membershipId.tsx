@@ -22,7 +22,7 @@ const memberAction = z.discriminatedUnion("intent", [
 
 /** The member page: the member themselves, the course's instructors, and the TAs of the member's cohort. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  await requireUser(request);
+  await requireUser({ request, context });
   const member = await getMember(params.courseId, params.membershipId);
   if (!member) throw data("Not found", { status: 404 });
   const access = await requireStudentAccess({ request, context }, params.courseId, member);

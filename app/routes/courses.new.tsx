@@ -7,24 +7,24 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { courseInput } from "~/lib/courses/course-input";
 import { parseSubmission } from "~/lib/forms/submission";
-import { requireUser } from "~/server/auth/access.server";
+import { requireUser, type RequestScope } from "~/server/auth/access.server";
 import { createCourse } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 
-async function requireCourseCreator(request: Request) {
-  const user = await requireUser(request);
+async function requireCourseCreator(scope: RequestScope) {
+  const user = await requireUser(scope);
   if (!user.mayCreateCourses) throw data("Only instructor accounts open new courses.", { status: 403 });
   return user;
 }
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireCourseCreator(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireCourseCreator({ request, context });
   return { timeZones: Intl.supportedValuesOf("timeZone") };
 }
 
-export const action = formAction(async ({ request, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const user = await requireCourseCreator(request);
+export const action = formAction(async ({ request, context, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const user = await requireCourseCreator({ request, context });
   const submission = parseSubmission(formData, courseInput);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const course = await createCourse(db, { actorId: user.id, input: submission.value });

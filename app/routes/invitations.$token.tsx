@@ -26,8 +26,8 @@ const acceptInvitationSchema = z
 
 const roleWords = { instructor: "an instructor", ta: "a teaching assistant", student: "a student" } as const;
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const [invitation, user] = await Promise.all([findInvitation(params.token), getOptionalUser(request)]);
+export async function loader({ request, context, params }: Route.LoaderArgs) {
+  const [invitation, user] = await Promise.all([findInvitation(params.token), getOptionalUser({ request, context })]);
   if (!invitation) throw data("Not found", { status: 404 });
   return {
     invitation: { ...invitation, replacedAt: invitation.replacedAt?.toISOString() ?? null },
@@ -35,10 +35,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, context, params }: Route.ActionArgs) {
   const form = parseForm(acceptInvitationSchema, await request.formData());
   if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
-  const user = await getOptionalUser(request);
+  const user = await getOptionalUser({ request, context });
   const result = await acceptInvitation(
     params.token,
     { name: form.data.name, password: form.data.password || null },
@@ -50,7 +50,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (result.outcome === "other-account") {
     return data({ formError: `This invitation is for ${result.invitedEmail}. Sign out first, then open the link again.` }, { status: 409 });
   }
-  return redirectWithNewSession(request, "/", result);
+  return redirectWithNewSession({ request, context }, "/", result);
 }
 
 // The token is in the address: other sites must not see it in a Referer header.

@@ -23,12 +23,12 @@ export async function loader({ params }: Route.LoaderArgs) {
   return { valid: await peekEmailLink(db, params.token, "password_reset") };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, context, params }: Route.ActionArgs) {
   const form = parseForm(resetPasswordSchema, await request.formData());
   if (!form.ok) return data({ errors: form.errors }, { status: 400 });
   const started = await resetPasswordWithLink(params.token, form.data.newPassword, request);
   if (!started) return data({ expired: true }, { status: 410 });
-  return redirectWithNewSession(request, "/account?password=reset", started);
+  return redirectWithNewSession({ request, context }, "/account?password=reset", started);
 }
 
 // The token is in the address: other sites must not see it in a Referer header.

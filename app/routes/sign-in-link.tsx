@@ -13,10 +13,10 @@ export async function loader({ params }: Route.LoaderArgs) {
   return { valid: await peekEmailLink(db, params.token, "sign_in") };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, context, params }: Route.ActionArgs) {
   const started = await signInWithEmailLink(params.token, request);
   if (!started) return data({ failed: true }, { status: 410 });
-  return redirectWithNewSession(request, "/", started);
+  return redirectWithNewSession({ request, context }, "/", started);
 }
 
 // The token is in the address: other sites must not see it in a Referer header.

@@ -27,9 +27,9 @@ const linkSignInSchema = z.object({ intent: z.literal("link"), email });
 /** `?redirectTo=/courses/…`: where to go once signed in (any other site falls back to the overview). */
 const signInSearch = z.object({ redirectTo: storableText.max(2000).optional() });
 
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   const redirectTo = safeRedirectPath(readSearchParams(request, signInSearch).redirectTo);
-  if (await getOptionalUser(request)) throw redirect(redirectTo);
+  if (await getOptionalUser({ request, context })) throw redirect(redirectTo);
   return { redirectTo, allowSignUp: allowSignUp() };
 }
 
@@ -37,7 +37,7 @@ const signInForm = z.discriminatedUnion("intent", [passwordSignInSchema, linkSig
 // A password never travels back into the page.
 const hideFields = ["password"];
 
-export const action = formAction(async ({ request, formData }: Route.ActionArgs & { formData: FormData }) => {
+export const action = formAction(async ({ request, context, formData }: Route.ActionArgs & { formData: FormData }) => {
   const submission = parseSubmission(formData, signInForm);
   if (submission.status !== "success") return data(submission.reply({ hideFields }), { status: 400 });
   const input = submission.value;
@@ -60,7 +60,7 @@ export const action = formAction(async ({ request, formData }: Route.ActionArgs 
     const formErrors = ["That e-mail address and password do not match. Check both, or sign in with an e-mailed link instead."];
     return data(submission.reply({ formErrors, hideFields }), { status: 401 });
   }
-  return redirectWithNewSession(request, safeRedirectPath(input.redirectTo), result);
+  return redirectWithNewSession({ request, context }, safeRedirectPath(input.redirectTo), result);
 });
 
 // Passes Retry-After from a limited attempt on to the page.

@@ -6,13 +6,13 @@ import { requireUser } from "~/server/auth/access.server";
 import { redirectSignedOut } from "~/server/auth/session-responses.server";
 import { signOut, signOutEverywhere } from "~/server/auth/sign-in.server";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireUser({ request, context });
   return { name: user.name };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = await requireUser({ request, context });
   const formData = await request.formData();
   if (formData.get("intent") === "everywhere") await signOutEverywhere(user.id, request);
   else if (user.sessionId) await signOut(user.id, user.sessionId, request);

@@ -22,9 +22,9 @@ function requireSignUpOpen() {
   if (!allowSignUp()) throw data("Not found", { status: 404 });
 }
 
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   requireSignUpOpen();
-  if (await getOptionalUser(request)) throw redirect("/");
+  if (await getOptionalUser({ request, context })) throw redirect("/");
   return null;
 }
 

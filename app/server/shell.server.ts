@@ -1,12 +1,12 @@
 import { and, asc, eq, isNull } from "drizzle-orm";
 import type { ShellViewer } from "~/components/app-shell";
 import { courseMemberships, courses } from "~/db/schema";
-import { getOptionalUser } from "~/server/auth/access.server";
+import { getOptionalUser, type RequestScope } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 
 /** The signed-in person and the courses they belong to (with their role in each), for the navigation. */
-export async function getShellViewer(request: Request): Promise<ShellViewer | null> {
-  const user = await getOptionalUser(request);
+export async function getShellViewer(scope: RequestScope): Promise<ShellViewer | null> {
+  const user = await getOptionalUser(scope);
   if (!user) return null;
   const memberships = await db
     .select({ id: courses.id, code: courses.code, title: courses.title, role: courseMemberships.role })

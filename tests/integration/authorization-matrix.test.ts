@@ -134,6 +134,7 @@ const matrix: MatrixRow[] = [
   // The probe is a form, not JSON: 400 for anyone signed in.
   row("POST", "/api/v1/reduce", { ...everyone(400), anonymous: 401 }),
   row("GET", "/api/v1/reduce", everyone(405)),
+  row("GET", "/api/v1/labs/:labId", everyone(404)),
   row("GET", "/api/v1/labs/:labId/class-comparison", { ...cohortStaff(200), anonymous: 401 }),
   row("POST", "/api/v1/labs/:labId/class-comparison", everyone(405)),
   row("GET", "/api/v1/labs/:labId/marks", { ...cohortStaff(200), anonymous: 401 }),

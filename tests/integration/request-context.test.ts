@@ -1,6 +1,8 @@
 /**
- * The course frame's middleware looks the viewer's course access up once per request, for the frame's
- * loader and the page's to share (they run side by side): a course page runs one access query.
+ * The router context carries what every check of a request needs, looked up once: the session (the
+ * root middleware's), the viewer's course access (the course frame's middleware, shared by the frame's
+ * loader and the page's, which run side by side) and, under /api/v1/labs/:labId, the lab the address
+ * names (its middleware's). A course page runs one session and one access query.
  */
 import pg from "pg";
 import { beforeAll, describe, expect, it, vi } from "vitest";
@@ -18,12 +20,22 @@ beforeAll(async () => {
 const textOf = (query: unknown) => (typeof query === "string" ? query : ((query as { text?: string })?.text ?? ""));
 // The course-access statement of app/server/auth/access.server.ts: the course joined to the viewer's membership.
 const isAccessQuery = (text: string) => /from courses c\s+left join course_memberships m/.test(text);
+// The session statement of app/server/auth/session.server.ts, and the lab lookup of app/server/labs/labs.server.ts by id alone.
+const isSessionQuery = (text: string) => /^select .* from "sessions" inner join "users"/.test(text);
+const isLabByIdQuery = (text: string) => /^select .* from "labs" where "labs"\."id" = \$1$/.test(text);
 
-async function accessQueriesOf(path: string, cookie: string) {
+async function queriesOf(path: string, cookie: string) {
   const spy = vi.spyOn(pg.Client.prototype, "query");
   try {
     const response = await handle(appRequest(path, { cookie }));
-    return { status: response.status, accessQueries: spy.mock.calls.filter(([query]) => isAccessQuery(textOf(query))).length };
+    const texts = spy.mock.calls.map(([query]) => textOf(query));
+    const count = (test: (text: string) => boolean) => texts.filter(test).length;
+    return {
+      status: response.status,
+      accessQueries: count(isAccessQuery),
+      sessionQueries: count(isSessionQuery),
+      labLookups: count(isLabByIdQuery),
+    };
   } finally {
     spy.mockRestore();
   }
@@ -37,11 +49,21 @@ describe("the course frame's request context", () => {
   ] as const)("%s runs one access query, frame and page together", async (_name, pattern, actor) => {
     const cookie = await sessionCookieFor(fixture.userIds[actor]);
     const path = pattern.replace(":c", fixture.courseId).replace(":l", fixture.labId);
-    expect(await accessQueriesOf(path, cookie)).toEqual({ status: 200, accessQueries: 1 });
+    expect(await queriesOf(path, cookie)).toMatchObject({ status: 200, accessQueries: 1, sessionQueries: 1 });
+  });
+
+  it.each([
+    ["the class comparison", "/api/v1/labs/:l/class-comparison", "instructor"],
+    ["the marks", "/api/v1/labs/:l/marks", "instructor"],
+    ["the drop logs", "/api/v1/labs/:l/drop-logs", "ownStudent"],
+  ] as const)("the API's %s of a lab finds the lab by its address once and runs one access query", async (_name, pattern, actor) => {
+    const cookie = await sessionCookieFor(fixture.userIds[actor]);
+    const path = pattern.replace(":l", fixture.labId);
+    expect(await queriesOf(path, cookie)).toEqual({ status: 200, accessQueries: 1, sessionQueries: 1, labLookups: 1 });
   });
 
   it("still refuses a student the staff pages, the role being each loader's own check", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.ownStudent);
-    expect((await accessQueriesOf(`/courses/${fixture.courseId}/kits`, cookie)).status).toBe(403);
+    expect((await queriesOf(`/courses/${fixture.courseId}/kits`, cookie)).status).toBe(403);
   });
 });

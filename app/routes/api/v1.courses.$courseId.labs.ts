@@ -7,7 +7,7 @@ import { listLabsForMember } from "~/server/drop-logs/lab-list.server";
 
 /** The labs the caller sees in a course (the lab list page's, as JSON). Session or personal API token. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  await requireApiUser(request);
+  await requireApiUser({ request, context });
   const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
   const rows = await listLabsForMember(db, access);
   const staff = isStaff(access);

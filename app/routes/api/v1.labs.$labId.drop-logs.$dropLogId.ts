@@ -5,13 +5,14 @@ import { apiErrorResponse, methodNotAllowed, readOnly } from "~/server/auth/api-
 import { db } from "~/server/db.server";
 import { findDropLogOwner } from "~/server/drop-logs/drop-log-list.server";
 import { getDropLogForStudent } from "~/server/drop-logs/hand-in.server";
-import { requireLabApiAccess } from "~/server/labs/lab-access.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { anyRole } from "~/server/auth/access.server";
 
 const noSuchDropLog = () => apiErrorResponse(404, "not_found", "There is no such drop log in this lab.");
 
 /** One drop log with every version (newest first) and its photos: for its student, the instructors and the TAs of the student's cohort. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { lab } = await requireLabApiAccess({ request, context }, params.labId);
+  const { lab } = await requireLabAccess({ request, context }, { labId: params.labId }, anyRole);
   if (!z.uuid().safeParse(params.dropLogId).success) return noSuchDropLog();
   const owner = await findDropLogOwner(db, lab.id, params.dropLogId);
   if (!owner) return noSuchDropLog();

@@ -4,7 +4,8 @@ import { db } from "~/server/db.server";
 import { withRefusals } from "~/server/errors.server";
 import { listLabDropLogs } from "~/server/drop-logs/drop-log-list.server";
 import { handInDropLog } from "~/server/drop-logs/hand-in.server";
-import { requireLabApiAccess } from "~/server/labs/lab-access.server";
+import { requireLabAccess } from "~/server/labs/lab-access.server";
+import { anyRole } from "~/server/auth/access.server";
 
 const noStore = { "Cache-Control": "no-store" };
 
@@ -23,7 +24,7 @@ function jsonWithLength(body: unknown, status: number): Response {
 
 /** A student's own drop log, or (staff) every handed-in drop log of the cohorts they see, with the counted reductions. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
-  const { access, lab } = await requireLabApiAccess({ request, context }, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, { labId: params.labId }, anyRole);
   return Response.json({ dropLogs: await listLabDropLogs(db, access, lab.id) }, { headers: noStore });
 }
 
@@ -33,7 +34,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
  */
 export const action = withRefusals(async ({ request, context, params }: Route.ActionArgs) => {
   if (request.method !== "POST") return methodNotAllowed([...readOnly, "POST"]);
-  const { access, lab } = await requireLabApiAccess({ request, context }, params.labId);
+  const { access, lab } = await requireLabAccess({ request, context }, { labId: params.labId }, anyRole);
   if (access.membership.role !== "student") return apiErrorResponse(403, "not_a_student", "Only students hand in drop logs.");
   const idempotencyKey = request.headers.get("Idempotency-Key");
   if (!idempotencyKey)

@@ -4,9 +4,9 @@ import { methodNotAllowed, readOnly } from "~/server/auth/api-errors.server";
 import { getShellViewer } from "~/server/shell.server";
 
 /** Who the caller is and their courses: the smallest useful check that a token or session works. */
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireApiUser(request);
-  const viewer = await getShellViewer(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireApiUser({ request, context });
+  const viewer = await getShellViewer({ request, context });
   return Response.json(
     { user: { id: user.id, name: user.name, email: user.email }, courses: viewer?.courses ?? [], authenticatedWith: user.via },
     { headers: { "Cache-Control": "no-store" } },

@@ -19,7 +19,7 @@ export const loader = () => methodNotAllowed(["POST"]);
  */
 export const action = withRefusals(async ({ request, context }: Route.ActionArgs) => {
   if (request.method !== "POST") return methodNotAllowed(["POST"]);
-  await requireApiUser(request);
+  await requireApiUser({ request, context });
   const body = await request.json().catch(() => undefined);
   if (body === undefined) return apiErrorResponse(400, "invalid_json", "The body must be JSON.");
 

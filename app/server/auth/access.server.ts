@@ -12,7 +12,7 @@ import { recordAudit } from "~/server/audit.server";
 import { db } from "~/server/db.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
 import { authenticateApiToken, readBearerToken } from "./api-tokens.server";
-import { getRequestSession, type SessionUser } from "./session.server";
+import { readRequestSession, type SessionUser, type SessionValidation } from "./session.server";
 
 export type CourseRole = "instructor" | "ta" | "student";
 export const staffRoles = ["instructor", "ta"] as const satisfies readonly CourseRole[];
@@ -37,26 +37,45 @@ export type StudentOwner = { userId: string; cohortId: string | null };
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-const requestUsers = new WeakMap<Request, Promise<SignedInUser | null>>();
+/**
+ * The request's session and signed-in user, each looked up at most once per request and kept in the
+ * router context: the root middleware asks for the session, and every check after reads it from there.
+ * Each is looked up when first asked for, so a promise nobody awaits never exists to fail unheard.
+ */
+type Viewer = { session?: Promise<SessionValidation | null>; user?: Promise<SignedInUser | null> };
+const viewerContext = createContext<Viewer | null>(null);
 
-async function resolveUser(request: Request): Promise<SignedInUser | null> {
-  const bearer = isApiRequest(request) ? readBearerToken(request) : null;
+function viewerOf({ context }: RequestScope): Viewer {
+  let viewer = context.get(viewerContext);
+  if (!viewer) {
+    viewer = {};
+    context.set(viewerContext, viewer);
+  }
+  return viewer;
+}
+
+/** The session the request's cookie names, or null. */
+export function getSession(scope: RequestScope): Promise<SessionValidation | null> {
+  const viewer = viewerOf(scope);
+  viewer.session ??= readRequestSession(scope.request);
+  return viewer.session;
+}
+
+async function resolveUser(scope: RequestScope): Promise<SignedInUser | null> {
+  const bearer = isApiRequest(scope.request) ? readBearerToken(scope.request) : null;
   if (bearer !== null) {
     const user = await authenticateApiToken(bearer);
     return user ? { ...user, sessionId: null, via: "api-token" } : null;
   }
-  const validation = await getRequestSession(request);
+  const validation = await getSession(scope);
   return validation ? { ...validation.user, sessionId: validation.session.id, via: "session" } : null;
 }
 
-/** The signed-in user, or null. Looked up once per request. */
-export function getOptionalUser(request: Request): Promise<SignedInUser | null> {
-  let pending = requestUsers.get(request);
-  if (!pending) {
-    pending = resolveUser(request);
-    requestUsers.set(request, pending);
-  }
-  return pending;
+/** The signed-in user (by session cookie, or by personal API token on /api/), or null. */
+export function getOptionalUser(scope: RequestScope): Promise<SignedInUser | null> {
+  const viewer = viewerOf(scope);
+  viewer.user ??= resolveUser(scope);
+  return viewer.user;
 }
 
 /** The page to come back to after signing in, without React Router's `.data` suffix. */
@@ -68,8 +87,9 @@ function returnPath(request: Request): string {
   return search ? `${path}?${search}` : path;
 }
 
-export async function requireUser(request: Request): Promise<SignedInUser> {
-  const user = await getOptionalUser(request);
+export async function requireUser(scope: RequestScope): Promise<SignedInUser> {
+  const { request } = scope;
+  const user = await getOptionalUser(scope);
   if (user) return user;
   if (isApiRequest(request))
     throw apiErrorResponse(401, "unauthenticated", "Sign in, or send a personal API token as `Authorization: Bearer …`.");
@@ -139,12 +159,16 @@ function courseAccessRow({ context }: RequestScope, userId: string, courseId: st
   return row;
 }
 
-/** The course frame's middleware: resolves the signed-in viewer's access to the course before its loaders run. */
-export const courseAccessMiddleware: MiddlewareFunction<Response> = async ({ request, params, context }, next) => {
-  const user = await getOptionalUser(request);
+/** Starts the signed-in viewer's access lookup for a course, for the checks that follow to share; never throws. */
+export async function beginCourseAccess(scope: RequestScope, courseId: string | undefined): Promise<void> {
+  const user = await getOptionalUser(scope);
   // Started, not awaited: a refusal is for the loaders to answer, each with its own roles.
-  if (user && params.courseId && uuidPattern.test(params.courseId))
-    courseAccessRow({ request, context }, user.id, params.courseId).catch(() => undefined);
+  if (user && courseId && uuidPattern.test(courseId)) courseAccessRow(scope, user.id, courseId).catch(() => undefined);
+}
+
+/** The course frame's middleware: resolves the viewer's access to the course before its loaders run. */
+export const courseAccessMiddleware: MiddlewareFunction<Response> = async ({ request, params, context }, next) => {
+  await beginCourseAccess({ request, context }, params.courseId);
   return next();
 };
 
@@ -155,7 +179,7 @@ export async function requireCourseRole(
   roles: readonly CourseRole[],
 ): Promise<CourseAccess> {
   const { request } = scope;
-  const user = await requireUser(request);
+  const user = await requireUser(scope);
   if (!courseId || !uuidPattern.test(courseId)) notFound(request);
   const row = await courseAccessRow(scope, user.id, courseId);
   if (!row) notFound(request);

@@ -8,7 +8,8 @@ import { isSafeMethod, isSameOriginRequest } from "~/server/http.server";
 import { strictTransportSecurity } from "~/server/security-headers.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
 import { readBearerToken } from "./api-tokens.server";
-import { SESSION_COOKIE, blankSessionCookie, getRequestSession, readCookie, sessionCookie } from "./session.server";
+import { getSession } from "./access.server";
+import { SESSION_COOKIE, blankSessionCookie, readCookie, sessionCookie } from "./session.server";
 
 /**
  * A write is accepted when it comes from our own pages, or when it is an API call with a personal token:
@@ -20,14 +21,14 @@ function isAllowedWrite(request: Request): boolean {
   return isSameOriginRequest(request);
 }
 
-export const requestGuard: MiddlewareFunction<Response> = async ({ request }, next) => {
+export const requestGuard: MiddlewareFunction<Response> = async ({ request, context }, next) => {
   if (!isAllowedWrite(request)) {
     if (isApiRequest(request))
       return apiErrorResponse(403, "cross_origin", "Requests that change data must come from Benchpost's own pages.");
     throw data(CROSS_ORIGIN_REFUSAL, { status: 403 });
   }
   const hadCookie = readCookie(request, SESSION_COOKIE) !== null;
-  const validation = await getRequestSession(request);
+  const validation = await getSession({ request, context });
 
   const response = await next();
 

@@ -4,14 +4,15 @@
  */
 import { redirect } from "react-router";
 import { db } from "~/server/db.server";
-import { blankSessionCookie, getRequestSession, invalidateSession, sessionCookie, type Session } from "./session.server";
+import { getSession, type RequestScope } from "./access.server";
+import { blankSessionCookie, invalidateSession, sessionCookie, type Session } from "./session.server";
 
 export async function redirectWithNewSession(
-  request: Request,
+  scope: RequestScope,
   to: string,
   started: { token: string; session: Session },
 ): Promise<Response> {
-  const previous = await getRequestSession(request);
+  const previous = await getSession(scope);
   if (previous && previous.session.id !== started.session.id) await invalidateSession(db, previous.session.id);
   return redirect(to, { headers: { "Set-Cookie": sessionCookie(started.token, started.session.expiresAt) } });
 }

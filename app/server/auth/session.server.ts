@@ -101,22 +101,10 @@ export function blankSessionCookie(): string {
   return `${SESSION_COOKIE}=; ${cookieAttributes(new Date(0))}; Max-Age=0`;
 }
 
-// --- the request's session, looked up once ------------------------------------------------------
-
-const requestSessions = new WeakMap<Request, Promise<SessionValidation | null>>();
-
-/**
- * The session of this request, or null. Memoised per Request object: React Router passes the same
- * object to middleware and loaders (future.v8_passThroughRequests), so one request costs one lookup.
- */
-export function getRequestSession(request: Request): Promise<SessionValidation | null> {
-  let pending = requestSessions.get(request);
-  if (!pending) {
-    const token = readCookie(request, SESSION_COOKIE);
-    pending = token ? validateSessionToken(token) : Promise.resolve(null);
-    requestSessions.set(request, pending);
-  }
-  return pending;
+/** The session a request's cookie names, or null. The router context keeps it for the rest of the request (see access.server). */
+export function readRequestSession(request: Request): Promise<SessionValidation | null> {
+  const token = readCookie(request, SESSION_COOKIE);
+  return token ? validateSessionToken(token) : Promise.resolve(null);
 }
 
 /** Ends one of the user's own sessions (from the account page); false when it was not theirs. */

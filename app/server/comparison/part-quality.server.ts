@@ -9,7 +9,7 @@ import { sql } from "drizzle-orm";
 import { partBiasByPeers, type PartBias, type PartKind, type PeerComparison } from "~/lib/comparison/part-bias";
 import { canSeeStudentWork, type CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
-import { canOpenComparison } from "./comparison-access.server";
+import { mayOpenLab } from "~/server/labs/lab-access.server";
 
 export type PartBiasHandIn = {
   dropLogId: string;
@@ -133,7 +133,7 @@ export function partBiasFor(access: CourseAccess, { comparisons, handIns, ...rep
     ...report,
     comparisons: comparisons.map(({ labCohortIds, ...comparison }) => ({
       ...comparison,
-      mayOpenComparison: canOpenComparison(access, labCohortIds),
+      mayOpenComparison: mayOpenLab(access, { cohortIds: labCohortIds }),
     })),
     handIns: visible.map(({ userId, cohortId, ...handIn }) => handIn),
     otherHandIns: handIns.length - visible.length,

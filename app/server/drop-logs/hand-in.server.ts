@@ -15,8 +15,9 @@ import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/li
 import type { AllowedPartKind } from "~/lib/labs/lab-input";
 import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
-import { queueClassComparison } from "~/server/comparison/class-comparison.server";
+import { comparisonLabColumns, queueClassComparison } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { labRefusal } from "~/server/labs/lab-access.server";
 import { markingLock } from "~/server/marking/marks.server";
 
 export type HandInRefusalCode =
@@ -99,7 +100,7 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
       .select({
         lab: labs,
         gravity: courses.localGravity,
-        inCohort: sql<boolean>`exists (select 1 from lab_cohorts lc where lc.lab_id = ${labs.id} and lc.cohort_id = ${access.membership.cohortId})`,
+        cohortIds: comparisonLabColumns.cohortIds,
         // Which kinds the lab limits: a kind with no ticked part allows any of that kind in the kit.
         limitedKinds: sql<ChoosableKind[]>`array(select distinct p.kind from parts p where p.id = any(${labs.allowedPartIds}))::text[]`,
         markReleased: markReleased(labs.id, access.membership.id),
@@ -140,9 +141,10 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
       .orderBy(asc(parts.label)),
   ]);
   const row = labRows[0];
-  // A draft lab is invisible to students: it answers like a lab that does not exist.
-  if (!row || row.lab.status === "draft") throw handInRefusal("lab_not_found", "There is no such lab in this course.");
-  if (!row.inCohort) throw handInRefusal("not_in_cohort", "This lab is not set for your cohort.");
+  // The same rule as every lab page's: a draft lab answers like a lab that does not exist.
+  const refusal = row ? labRefusal(access, { ...row.lab, cohortIds: row.cohortIds }) : "no_such_lab";
+  if (!row || refusal === "no_such_lab") throw handInRefusal("lab_not_found", "There is no such lab in this course.");
+  if (refusal === "not_in_cohort") throw handInRefusal("not_in_cohort", "This lab is not set for your cohort.");
   const allowed = new Set(row.lab.allowedPartIds);
   const limited = new Set(row.limitedKinds);
   // A shared part (a fluid lot) in two kits the student holds is one choice, not two.

@@ -5,16 +5,14 @@
  */
 import { AppError } from "~/lib/app-error";
 import { and, eq, sql } from "drizzle-orm";
-import { data } from "react-router";
 import { z } from "zod";
 import { labMarking, labs } from "~/db/schema";
 import type { ComparisonSettings } from "~/lib/comparison/comparison-settings";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import { recordAudit } from "~/server/audit.server";
-import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
-import { requireCohortAccess, requireCourseRole, staffRoles, type CourseAccess, type RequestScope } from "~/server/auth/access.server";
+import type { CourseAccess } from "~/server/auth/access.server";
 import { comparisonLabColumns, settingsOf } from "~/server/comparison/class-comparison.server";
-import { db, type Executor } from "~/server/db.server";
+import type { Executor } from "~/server/db.server";
 
 /** A lab with what marking needs; `rubric` is in order. */
 export type MarkingLab = {
@@ -166,27 +164,4 @@ export async function assertMarkingStaff(
 export async function assertInstructor(executor: Executor, access: CourseAccess, lab: Pick<MarkingLab, "id">): Promise<void> {
   if (access.membership.role !== "instructor")
     await refuse(executor, access, markingRefusal("instructors_only", "Only the course's instructors may do this."), `lab:${lab.id}`);
-}
-
-/**
- * For loaders and actions: the viewer's access and the lab, for instructors and the TAs of a cohort
- * the lab is set for (others get the usual recorded 403; no such lab a 404). Errors are JSON under /api/.
- */
-export async function requireMarkingAccess(
-  scope: RequestScope,
-  courseId: string | undefined,
-  labId: string | undefined,
-  roles: readonly ("instructor" | "ta")[] = staffRoles,
-): Promise<{ access: CourseAccess; lab: MarkingLab }> {
-  const access = await requireCourseRole(scope, courseId, roles);
-  const lab = labId ? await loadMarkingLab(db, access.course.id, labId) : null;
-  if (!lab) {
-    if (isApiRequest(scope.request)) throw apiErrorResponse(404, "not_found", "There is no such lab in this course.");
-    throw data("Not found", { status: 404 });
-  }
-  if (access.membership.role === "ta" && markableCohortIds(access, lab).length === 0) {
-    // A TA of none of the lab's cohorts: the cohort check refuses (and records the refusal) as elsewhere.
-    await requireCohortAccess(scope, access.course.id, lab.cohortIds[0] ?? "no-cohort");
-  }
-  return { access, lab };
 }
