@@ -12,6 +12,8 @@ const styles = {
   long: { weekday: "short", day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" },
   /** Thu 3 Dec, 09:05 — table cells */
   short: { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" },
+  /** 09:05:12 — a moment of the last few minutes, such as a draft's save */
+  time: { timeStyle: "medium" },
 } satisfies Record<string, Intl.DateTimeFormatOptions>;
 
 export type DateStyle = keyof typeof styles;

@@ -1,4 +1,4 @@
-import { data, redirect, useFetcher, type ShouldRevalidateFunctionArgs } from "react-router";
+import { redirect, useFetcher, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId._index";
 import { DropLogForm } from "~/components/drop-logs/drop-log-form";
 import { LabTime } from "~/components/drop-logs/lab-time";
@@ -8,17 +8,29 @@ import { SafetyCautions } from "~/components/safety-cautions";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { dropLogInputFromForm, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import {
+  dropLogDraft,
+  dropLogDraftFromForm,
+  dropLogInputFromForm,
+  type DropLogDraft,
+  type DropLogInput,
+} from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { MAX_PHOTO_MEGABYTES, MAX_PHOTOS_PER_DROP_LOG } from "~/lib/drop-logs/photo-limits";
 import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
 import { anyRole, isStaff, requireCourseRole } from "~/server/auth/access.server";
-import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
-import { throwAsResponse } from "~/server/errors.server";
+import { formAction, throwAsResponse } from "~/server/errors.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
-import { getDropLogForStudent, handInDropLog, loadStudentLab, markReleasedMessage, saveDraft } from "~/server/drop-logs/hand-in.server";
+import {
+  getDropLogForStudent,
+  handInDropLog,
+  handInRefusal,
+  loadStudentLab,
+  markReleasedMessage,
+  saveDraft,
+} from "~/server/drop-logs/hand-in.server";
 
 /** The handed-in input as the form's strings, to start from when there is no draft. */
 function draftFromInput(input: DropLogInput): DropLogDraft {
@@ -81,6 +93,8 @@ export async function loader({ request, params, context: routerContext }: Route.
     kitsNotHome: kitsNotHome.map(([number, state]) => ({ number, state: kitStateLabels[state] })),
     draft,
     latestVersionId: dropLog?.latestVersionId ?? null,
+    /** The next hand-in's idempotency key: new with each load of the page, so with each version handed in. */
+    attemptKey: crypto.randomUUID(),
     versions: versions.map(versionView),
     photos: dropLog?.photos.map(photoView) ?? [],
     mark,
@@ -88,38 +102,50 @@ export async function loader({ request, params, context: routerContext }: Route.
   };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
-  const access = await requireCourseRole({ request, context }, params.courseId, ["student"]);
-  const form = await request.formData();
-  const intent = form.get("intent");
+/** The draft the form's script sends as JSON as it saves while the student types. */
+function readDraft(raw: FormDataEntryValue | null): unknown {
   try {
-    if (intent === "save-draft") {
-      const raw = form.get("draft");
-      const draft = typeof raw === "string" ? JSON.parse(raw) : null;
-      const { savedAt } = await saveDraft(db, { access, labId: params.labId, draft });
-      return { draftSavedAt: savedAt.toISOString() };
-    }
-    if (intent === "hand-in") {
-      const { version, duplicate } = await handInDropLog(db, {
-        access,
-        labId: params.labId,
-        input: dropLogInputFromForm(form),
-        idempotencyKey: String(form.get("idempotencyKey") ?? ""),
-      });
-      return { handedIn: { version: version.version, late: version.late, submittedAt: version.submittedAt.toISOString(), duplicate } };
-    }
-    // An unknown form still answers only to those who may use this lab.
-    await loadStudentLab(db, access, params.labId);
-    return data({ errors: { form: ["This form is not one the lab page knows."] } as Record<string, string[]> }, { status: 400 });
-  } catch (error) {
-    if (error instanceof SyntaxError)
-      return data({ errors: { form: ["The draft could not be read."] } as Record<string, string[]> }, { status: 400 });
-    if (!(error instanceof AppError)) throw error;
-    const errors: Record<string, string[]> = { form: [error.message] };
-    for (const issue of error.issues ?? []) (errors[issue.path.join(".") || "form"] ??= []).push(issue.message);
-    return data({ errors }, { status: error.status });
+    return typeof raw === "string" ? JSON.parse(raw) : null;
+  } catch {
+    throw handInRefusal("invalid_input", "The draft could not be read.");
   }
 }
+
+/** The row buttons of the drop-times table, for a browser without JavaScript: the draft is saved with the row changed. */
+function changedRows(intent: string, drops: string[]): string[] | null {
+  if (intent === "add-drop") return [...drops, ""];
+  const removed = /^remove-drop-(\d+)$/.exec(intent);
+  if (!removed) return null;
+  const kept = drops.filter((_, row) => row !== Number(removed[1]));
+  return kept.length ? kept : [""];
+}
+
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const access = await requireCourseRole({ request, context }, params.courseId, ["student"]);
+  const intent = String(formData.get("intent") ?? "");
+  if (intent === "save-draft") {
+    const { savedAt } = await saveDraft(db, { access, labId: params.labId, draft: readDraft(formData.get("draft")) });
+    return { draftSavedAt: savedAt.toISOString() };
+  }
+  if (intent === "hand-in") {
+    const { version, duplicate } = await handInDropLog(db, {
+      access,
+      labId: params.labId,
+      input: dropLogInputFromForm(formData),
+      idempotencyKey: String(formData.get("idempotencyKey") ?? ""),
+    });
+    return { handedIn: { version: version.version, late: version.late, submittedAt: version.submittedAt.toISOString(), duplicate } };
+  }
+  const typed = dropLogDraftFromForm(formData);
+  const drops = changedRows(intent, typed.drops ?? []);
+  if (drops) {
+    await saveDraft(db, { access, labId: params.labId, draft: { ...typed, drops } });
+    return { rowsChanged: true };
+  }
+  // An unknown form still answers only to those who may use this lab.
+  await loadStudentLab(db, access, params.labId);
+  throw handInRefusal("invalid_input", "This form is not one the lab page knows.");
+});
 
 /** A draft save changes nothing the page shows; skipping the reload keeps typing smooth on a phone. */
 export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
@@ -148,13 +174,18 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
     versions,
     photos,
     latestVersionId,
+    attemptKey,
     mark,
     afterRelease,
     releasedMessage,
   } = loaderData;
   const open = timing === "on-time" || timing === "late";
   const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
-  const errors = actionData && "errors" in actionData ? actionData.errors : null;
+  // A refused hand-in: the errors at their fields, and what was sent, for the form to start from (without JavaScript, a new page).
+  const refused = actionData && "status" in actionData && actionData.status === "error" ? actionData : null;
+  const typed = refused
+    ? dropLogDraft.safeParse({ ...refused.initialValue, useOwnMeasurements: refused.initialValue?.useOwnMeasurements === "on" })
+    : null;
   const draftPhotos = photos.filter((photo) => photo.versionId === null);
   return (
     <div className="flex flex-col gap-6">
@@ -213,9 +244,11 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
             spheres={spheres}
             fluidLots={fluidLots}
             columns={columns}
-            draft={draft}
+            draft={typed?.success ? typed.data : draft}
+            attemptKey={attemptKey}
+            timeZone={timeZone}
             canHandIn={open && afterRelease !== "refuse"}
-            serverErrors={errors}
+            serverErrors={refused?.error ?? null}
           />
         </div>
       ) : (

@@ -2,18 +2,24 @@
  * The forms are plain HTML forms: with scripts off, Chromium posts them and the server's answer puts
  * each error at its field, keeps what was typed (never the password) and carries on when it is right.
  */
+import { sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { labCohorts, labs } from "~/db/schema";
+import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, demoCourse } from "../../seeds/demo-scenario";
-import { openBrowser, type BrowserSession } from "../support/browser";
+import { openBrowser, signInWithPassword, type BrowserSession } from "../support/browser";
 
 describe("forms without JavaScript", () => {
   let browser: BrowserSession;
   const base = inject("baseUrl");
+  const pool = createPool(inject("databaseUrl"));
+  const db = createDatabase(pool);
   beforeAll(async () => {
     browser = await openBrowser({ javaScriptEnabled: false });
   });
   afterAll(async () => {
     await browser.close();
+    await pool.end();
   });
 
   it("signs in: a wrong password is refused above the form with the e-mail kept, the right one signs in", async () => {
@@ -44,5 +50,74 @@ describe("forms without JavaScript", () => {
     await form.getByLabel("Password").fill(DEMO_PASSWORD);
     await form.getByRole("button", { name: "Sign in", exact: true }).click();
     await page.getByText(demoCourse.title).first().waitFor();
+  });
+
+  it("hands in a drop log: rows added by the form's own button, a bad time refused at its row with the log kept, then version 1", async () => {
+    // A demo student with a complete kit at home (the last by e-mail: the other browser suites take the first), and a lab for their cohort.
+    const [student] = (
+      await db.execute<{ email: string; course_id: string; cohort_id: string }>(sql`
+        select u.email, m.course_id, m.cohort_id
+        from courses c
+        join course_memberships m on m.course_id = c.id and m.role = 'student' and m.removed_at is null and m.cohort_id is not null
+        join users u on u.id = m.user_id
+        join kits k on k.holder_membership_id = m.id and k.state = 'at_home'
+        where c.code = ${demoCourse.code} and c.term = ${demoCourse.term}
+          and exists (select 1 from kit_parts ks join parts p on p.id = ks.part_id where ks.kit_id = k.id and p.kind = 'sphere' and p.diameter_mm is not null and p.mass_g is not null)
+          and exists (select 1 from kit_parts kc join parts p on p.id = kc.part_id where kc.kit_id = k.id and p.kind = 'column' and p.timed_distance_mm is not null)
+          and exists (select 1 from kit_parts kf join parts p on p.id = kf.part_id where kf.kit_id = k.id and p.kind = 'fluid_lot' and jsonb_array_length(p.calibration) > 0)
+        order by u.email desc
+        limit 1`)
+    ).rows;
+    const day = 24 * 3600 * 1000;
+    const [lab] = await db
+      .insert(labs)
+      .values({
+        courseId: student.course_id,
+        title: "Browser test: a hand-in without scripts",
+        kind: "drag",
+        status: "published",
+        opensAt: new Date(Date.now() - day),
+        dueAt: new Date(Date.now() + 3 * day),
+        requiredDrops: 3,
+        resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 },
+        publishedAt: new Date(),
+      })
+      .returning();
+    await db.insert(labCohorts).values({ labId: lab.id, cohortId: student.cohort_id });
+
+    const page = await browser.context.newPage();
+    await signInWithPassword(page, base, student.email, DEMO_PASSWORD);
+    await page.goto(`${base}/courses/${student.course_id}/labs/${lab.id}`);
+    const [lot] = (
+      await db.execute<{ id: string }>(
+        sql`select id from parts where course_id = ${student.course_id} and kind = 'fluid_lot' and label = 'GLY-95A'`,
+      )
+    ).rows;
+    await page.getByLabel("Fluid lot (bottle)").selectOption(lot.id);
+    await page.getByLabel("Fluid temperature").fill("21,5");
+    await page.getByLabel("Drop 1 time in seconds").fill("4.12");
+    // Each row button posts the form; the server keeps the log as a draft with the row added.
+    await page.getByRole("button", { name: "Add a drop" }).click();
+    await page.getByLabel("Drop 2 time in seconds").fill("-4.08");
+    await page.getByRole("button", { name: "Add a drop" }).click();
+    await page.getByLabel("Drop 3 time in seconds").fill("4.15");
+    expect(await page.getByLabel("Fluid temperature").inputValue()).toBe("21,5");
+
+    await page.getByRole("button", { name: "Hand in" }).click();
+    const refusedRow = page.getByLabel("Drop 2 time in seconds");
+    await expect.poll(() => refusedRow.getAttribute("aria-invalid")).toBe("true");
+    const describedBy = (await refusedRow.getAttribute("aria-describedby")) ?? "";
+    expect(await page.locator(`[id="${describedBy}"]`).innerText()).toBe("A time cannot be negative.");
+    expect(await refusedRow.inputValue()).toBe("-4.08");
+    expect(await page.getByLabel("Drop 3 time in seconds").inputValue()).toBe("4.15");
+    expect(await page.getByLabel("Fluid temperature").inputValue()).toBe("21,5");
+
+    await refusedRow.fill("4.08");
+    await page.getByRole("button", { name: "Hand in" }).click();
+    await page.getByText(/Version 1 is handed in/).waitFor();
+    const stored = await db.execute<{ version: number; drops: number[]; temperature: number }>(sql`
+      select v.version, v.input->'drops' as drops, (v.input->>'temperatureC')::float8 as temperature
+      from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${lab.id}`);
+    expect(stored.rows).toEqual([{ version: 1, drops: [4.12, 4.08, 4.15], temperature: 21.5 }]);
   });
 });

@@ -225,7 +225,7 @@ describe("the lab page's hand-in form", () => {
         temperatureC: "21.8",
         timedDistanceMm: "200",
       });
-      for (const drop of drops) body.append("drops", drop);
+      drops.forEach((drop, row) => body.append(`drops[${row}]`, drop));
       return new Request(new URL(`${labPath}.data`, appOrigin()), {
         method: "POST",
         body,
@@ -250,7 +250,7 @@ describe("the lab page's hand-in form", () => {
       columnId: twoLots.columns[0],
       temperatureC: "21.8",
     });
-    for (const drop of ["7.4", "7.5", "7.45"]) body.append("drops", drop);
+    ["7.4", "7.5", "7.45"].forEach((drop, row) => body.append(`drops[${row}]`, drop));
     const refused = await handle(
       new Request(new URL(`/courses/${fixture.courseId}/labs/${fixture.labId}.data`, appOrigin()), {
         method: "POST",

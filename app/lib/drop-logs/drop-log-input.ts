@@ -86,7 +86,7 @@ export const dropLogInput = z.object({
 });
 export type DropLogInput = z.output<typeof dropLogInput>;
 
-/** The field a message belongs to, as the form names its inputs (`drops.3` for the fourth row). */
+/** The field a message belongs to, as the form names its inputs (rows are `drops[3]`, see `dropFieldName`). */
 export type DropLogField =
   "sphereId" | "fluidLotId" | "columnId" | "ownDiameterMm" | "ownMassG" | "temperatureC" | "timedDistanceMm" | "drops" | "notes" | "form";
 
@@ -108,24 +108,40 @@ export const dropLogDraft = z.object({
 });
 export type DropLogDraft = z.output<typeof dropLogDraft>;
 
-/** The form's submission (FormData, drops as repeated `drops` fields) as the object `dropLogInput` checks. */
-export function dropLogInputFromForm(form: FormData): Record<string, unknown> {
+/** The hand-in form's row names: `drops[0]`, `drops[1]`… (Conform's list convention, and what its replies key errors by). */
+export const dropFieldName = (row: number) => `drops[${row}]`;
+
+/** The form as typed (FormData, with or without JavaScript) as a draft: strings, drops in row order. */
+export function dropLogDraftFromForm(form: FormData): DropLogDraft {
   const text = (name: string) => {
     const value = form.get(name);
     return typeof value === "string" ? value : undefined;
   };
-  const useOwn = text("useOwnMeasurements") === "on";
+  const drops = [...form.entries()]
+    .flatMap(([name, value]) => {
+      const row = /^drops\[(\d+)\]$/.exec(name);
+      return row && typeof value === "string" ? [{ row: Number(row[1]), value }] : [];
+    })
+    .sort((a, b) => a.row - b.row)
+    .map(({ value }) => value);
   return {
     sphereId: text("sphereId"),
     fluidLotId: text("fluidLotId"),
     columnId: text("columnId"),
-    ownDiameterMm: useOwn ? text("ownDiameterMm") : undefined,
-    ownMassG: useOwn ? text("ownMassG") : undefined,
+    useOwnMeasurements: text("useOwnMeasurements") === "on",
+    ownDiameterMm: text("ownDiameterMm"),
+    ownMassG: text("ownMassG"),
     temperatureC: text("temperatureC"),
     timedDistanceMm: text("timedDistanceMm"),
-    drops: form.getAll("drops").filter((value): value is string => typeof value === "string"),
+    drops,
     notes: text("notes"),
   };
+}
+
+/** The form's submission as the object `dropLogInput` checks: the student's own measurements only when they ticked the box. */
+export function dropLogInputFromForm(form: FormData): Record<string, unknown> {
+  const { useOwnMeasurements, ownDiameterMm, ownMassG, ...input } = dropLogDraftFromForm(form);
+  return { ...input, ownDiameterMm: useOwnMeasurements ? ownDiameterMm : undefined, ownMassG: useOwnMeasurements ? ownMassG : undefined };
 }
 
 // ---------------------------------------------------------------------------------------------
