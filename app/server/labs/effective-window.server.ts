@@ -41,6 +41,7 @@ export const staffDeadlineJson = (as: string): SQL =>
  * extension is on time. One statement; returns how many versions changed.
  */
 export async function recomputeLateness(executor: Executor, labId: string): Promise<number> {
+  // Raw: a set-based update over the lab's hand-ins, joined to the windows' raw lateral join.
   const result = await executor.execute(sql`
     update drop_log_versions v set late = v.submitted_at > w.due_at
     from drop_logs d
