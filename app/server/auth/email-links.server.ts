@@ -24,14 +24,28 @@ export async function createEmailLink(
 ): Promise<{ token: string; user: { id: string; name: string } | null }> {
   const token = generateToken();
   const expiresAt = new Date(Date.now() + emailLinkLifetimeMinutes[purpose] * 60_000);
-  const result = await executor.execute<{ id: string; name: string }>(sql`
-    with account as (select id, name from ${users} where email = ${email}),
-    link as (
-      insert into ${emailLinks} (id, user_id, purpose, expires_at)
-      select ${hashToken(token)}, account.id, ${purpose}, ${expiresAt.toISOString()}::timestamptz from account
-    )
-    select id, name from account`);
-  return { token, user: result.rows[0] ?? null };
+  const account = executor
+    .$with("account")
+    .as(executor.select({ id: users.id, name: users.name }).from(users).where(eq(users.email, email)));
+  // An insert … select names every column of the table, in the table's order.
+  const link = executor.$with("link").as(
+    executor
+      .insert(emailLinks)
+      .select(
+        executor
+          .select({
+            id: sql<string>`${hashToken(token)}`.as("id"),
+            userId: account.id,
+            purpose: sql<EmailLinkPurpose>`${purpose}`.as("purpose"),
+            expiresAt: sql<Date>`${expiresAt.toISOString()}::timestamptz`.as("expires_at"),
+            createdAt: sql<Date>`now()`.as("created_at"),
+          })
+          .from(account),
+      )
+      .returning({ id: emailLinks.id }),
+  );
+  const [user] = await executor.with(account, link).select().from(account);
+  return { token, user: user ?? null };
 }
 
 /** Uses up the link and returns its user, or null when it is unknown, used, expired or for another purpose. */

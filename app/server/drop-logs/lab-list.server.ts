@@ -2,10 +2,13 @@
  * The labs a member sees on the course's lab list: for a student, the labs set for their cohort with
  * where their drop log stands; for staff, every lab of the course. One statement either way.
  */
-import { sql } from "drizzle-orm";
+import { and, eq, exists, ne, or, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { courseMemberships, dropLogs, dropLogVersions, labCohorts, labs } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
-import { effectiveWindowJoin } from "~/server/labs/effective-window.server";
+import { effectiveWindow } from "~/server/labs/effective-window.server";
+import { isoText } from "~/server/sql.server";
 
 export type LabListRow = {
   id: string;
@@ -23,20 +26,47 @@ export type LabListRow = {
 
 export async function listLabsForMember(executor: Executor, access: CourseAccess): Promise<LabListRow[]> {
   const student = access.membership.role === "student";
-  const result = await executor.execute<LabListRow>(sql`
-    select l.id, l.title, l.kind, l.status,
-      to_json(l.opens_at)#>>'{}' as "opensAt", to_json(w.due_at)#>>'{}' as "dueAt", to_json(w.late_cutoff_at)#>>'{}' as "lateCutoffAt",
-      coalesce(d.draft is not null, false) as "hasDraft", v.late as "latestLate",
-      coalesce(v.version, 0) as "versionCount"
-    from labs l
-    left join drop_logs d on ${student} and d.lab_id = l.id and d.membership_id = ${access.membership.id}
-    left join drop_log_versions v on v.id = d.latest_version_id
-    -- A student sees their own times; staff (no membership row joined) see the lab's.
-    left join course_memberships me on ${student} and me.id = ${access.membership.id}
-    ${effectiveWindowJoin({ lab: "l", member: "me", as: "w" })}
-    where l.course_id = ${access.course.id}
-      and (not ${student} or (l.status <> 'draft'
-        and exists (select 1 from lab_cohorts lc where lc.lab_id = l.id and lc.cohort_id = ${access.membership.cohortId})))
-    order by l.due_at, l.title`);
-  return result.rows;
+  const me = access.membership;
+  // The window's joins name these aliases.
+  const lab = alias(labs, "l");
+  const member = alias(courseMemberships, "me");
+  return (
+    executor
+      .select({
+        id: lab.id,
+        title: lab.title,
+        kind: lab.kind,
+        status: lab.status,
+        opensAt: isoText(lab.opensAt),
+        dueAt: sql<string>`to_json(w.due_at)#>>'{}'`,
+        lateCutoffAt: sql<string | null>`to_json(w.late_cutoff_at)#>>'{}'`,
+        hasDraft: sql<boolean>`coalesce(${dropLogs.draft} is not null, false)`,
+        latestLate: dropLogVersions.late,
+        versionCount: sql<number>`coalesce(${dropLogVersions.version}, 0)`,
+      })
+      .from(lab)
+      .leftJoin(dropLogs, and(sql`${student}`, eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, me.id)))
+      .leftJoin(dropLogVersions, eq(dropLogVersions.id, dropLogs.latestVersionId))
+      // A student sees their own times; staff (no membership row joined) see the lab's.
+      .leftJoin(member, and(sql`${student}`, eq(member.id, me.id)))
+      .leftJoin(effectiveWindow({ lab: "l", member: "me", as: "w" }), sql`true`)
+      .where(
+        and(
+          eq(lab.courseId, access.course.id),
+          or(
+            sql`not ${student}`,
+            and(
+              ne(lab.status, "draft"),
+              exists(
+                executor
+                  .select({ found: sql`1` })
+                  .from(labCohorts)
+                  .where(and(eq(labCohorts.labId, lab.id), eq(labCohorts.cohortId, sql`${me.cohortId}`))),
+              ),
+            ),
+          ),
+        ),
+      )
+      .orderBy(lab.dueAt, lab.title)
+  );
 }

@@ -129,6 +129,7 @@ export async function uploadDraftPhotos(
   const stored = await receivePhotos(request, `${owner.labId}/${owner.membershipId}`);
   try {
     return await database.transaction(async (tx) => {
+      // Raw: an advisory lock has no query-builder form.
       await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`photos:${owner.membershipId}`}, 0))`);
       refuseOverCaps(await photoUsage(tx, owner), stored);
       return recordPhotos(tx, await ensureDropLog(tx, owner), stored);

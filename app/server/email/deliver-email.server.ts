@@ -8,7 +8,7 @@
  * same Message-ID (SMTP; receiving systems and the dev inbox can tell the copies apart) or the same
  * idempotency key (Resend, which then sends nothing twice).
  */
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, isNotNull, isNull, lte, or, sql } from "drizzle-orm";
 import { emailOutbox } from "~/db/schema";
 import type { Database } from "~/server/db.server";
 import { emailDeliveryPolicy } from "~/server/jobs/boss.server";
@@ -37,13 +37,26 @@ export async function deliverOutboxEmail(
   now = new Date(),
 ): Promise<DeliveryOutcome> {
   // Claim the attempt in one committed statement, and learn whether an earlier one was cut off.
-  const claimed = await database.execute<{ interrupted: boolean }>(sql`
-    update email_outbox o set attempt_started_at = ${now}, attempts = o.attempts + 1
-    from (select id, attempt_started_at from email_outbox where id = ${outboxId} for update) earlier
-    where o.id = earlier.id and o.status = 'queued'
-      and (earlier.attempt_started_at is null or earlier.attempt_started_at <= ${now}::timestamptz - make_interval(secs => ${ATTEMPT_LEASE_SECONDS}))
-    returning earlier.attempt_started_at is not null as interrupted`);
-  if (claimed.rows.length === 0) {
+  const earlier = database
+    .select({ id: emailOutbox.id, attemptStartedAt: emailOutbox.attemptStartedAt })
+    .from(emailOutbox)
+    .where(eq(emailOutbox.id, outboxId))
+    .for("update")
+    .as("earlier");
+  const leaseEnded = sql`${now}::timestamptz - make_interval(secs => ${ATTEMPT_LEASE_SECONDS})`;
+  const claimed = await database
+    .update(emailOutbox)
+    .set({ attemptStartedAt: now, attempts: sql`${emailOutbox.attempts} + 1` })
+    .from(earlier)
+    .where(
+      and(
+        eq(emailOutbox.id, earlier.id),
+        eq(emailOutbox.status, "queued"),
+        or(isNull(earlier.attemptStartedAt), lte(earlier.attemptStartedAt, leaseEnded)),
+      ),
+    )
+    .returning({ interrupted: isNotNull(earlier.attemptStartedAt) });
+  if (claimed.length === 0) {
     const [row] = await database.select({ status: emailOutbox.status }).from(emailOutbox).where(eq(emailOutbox.id, outboxId));
     if (row?.status === "queued") throw new DeliveryInProgressError(outboxId);
     return "already-handled";
@@ -63,7 +76,7 @@ export async function deliverOutboxEmail(
       .update(emailOutbox)
       .set({ status: "sent", attemptStartedAt: null, transport: transport.name, providerMessageId, sentAt: new Date(), lastError: null })
       .where(eq(emailOutbox.id, row.id));
-    return claimed.rows[0].interrupted ? "resent-after-interrupted-attempt" : "sent";
+    return claimed[0].interrupted ? "resent-after-interrupted-attempt" : "sent";
   } catch (error) {
     // The transport answered with a refusal (or rendering failed): nothing went out, so the lease ends
     // now and the retry need not wait. Best effort when the database is the problem.

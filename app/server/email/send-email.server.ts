@@ -119,6 +119,7 @@ export async function sendEmails(tx: Executor, messages: EmailMessage[]): Promis
       .map((row) => ({ name: queues.emailDelivery, data: { outboxId: row.id } satisfies EmailDeliveryJob }));
     if (jobs.length) {
       // pg-boss's batch insert joins on the queue table and says nothing when the queue is missing.
+      // Raw: pg-boss's own queue table is not in our schema.
       const queue = await inner.execute(sql`select 1 from pgboss.queue where name = ${queues.emailDelivery}`);
       if (queue.rows.length === 0)
         throw new Error(`The job queue "${queues.emailDelivery}" does not exist: run the migrations (npm start does).`);

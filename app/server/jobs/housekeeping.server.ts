@@ -21,7 +21,10 @@ export type HousekeepingOutcome = {
   accessDeniedAudit: number;
 };
 
-/** One statement: each sweep is a data-modifying CTE, so all five happen or none does. */
+/**
+ * One statement: each sweep is a data-modifying CTE, so all five happen or none does. Raw: five
+ * set-based deletes in one statement.
+ */
 export async function sweepExpiredRows(executor: Executor, now = new Date()): Promise<HousekeepingOutcome> {
   const result = await executor.execute<HousekeepingOutcome>(sql`
     with sessions_swept as (delete from sessions where expires_at < ${now} returning 1),

@@ -8,14 +8,14 @@ import { type SQL, sql } from "drizzle-orm";
 import type { Executor } from "~/server/db.server";
 
 /**
- * `left join lateral … as <as>` with columns `due_at`, `late_cutoff_at`, `extended_by`
+ * `lateral (…) as <as>`, for a query builder's `.leftJoin(effectiveWindow(…), sql\`true\`)`, with columns `due_at`, `late_cutoff_at`, `extended_by`
  * ('student' | 'cohort' | null) and `reason` (the extension's; staff only, never select it for a
  * student), for the lab aliased `lab` and the course membership aliased `member` (any relation with
  * `id` and `cohort_id`). Aliases are the caller's own constants, never user input.
  */
-export function effectiveWindowJoin(aliases: { lab: string; member: string; as: string }): SQL {
+export function effectiveWindow(aliases: { lab: string; member: string; as: string }): SQL {
   const { lab, member, as } = aliases;
-  return sql.raw(`left join lateral (
+  return sql.raw(`lateral (
       select coalesce(es.due_at, ec.due_at, ${lab}.due_at) as due_at,
         -- Without a cut-off of its own, an extension keeps the class's when that comes later.
         case when es.id is not null then coalesce(es.late_cutoff_at, case when ${lab}.late_cutoff_at > es.due_at then ${lab}.late_cutoff_at end)
@@ -26,8 +26,12 @@ export function effectiveWindowJoin(aliases: { lab: string; member: string; as: 
       from (select 1) as one
       left join lab_extensions es on es.lab_id = ${lab}.id and es.membership_id = ${member}.id
       left join lab_extensions ec on ec.lab_id = ${lab}.id and ec.cohort_id = ${member}.cohort_id
-    ) as ${as} on true`);
+    ) as ${as}`);
 }
+
+/** The same window as a join clause, for the statements written in SQL. */
+export const effectiveWindowJoin = (aliases: { lab: string; member: string; as: string }): SQL =>
+  sql`left join ${effectiveWindow(aliases)} on true`;
 
 /** The joined window `as` as a `StudentDeadline` JSON object, reason included: for staff pages only. */
 export const staffDeadlineJson = (as: string): SQL =>
@@ -41,6 +45,7 @@ export const staffDeadlineJson = (as: string): SQL =>
  * extension is on time. One statement; returns how many versions changed.
  */
 export async function recomputeLateness(executor: Executor, labId: string): Promise<number> {
+  // Raw: a set-based update over the lab's hand-ins, joined to the windows' raw lateral join.
   const result = await executor.execute(sql`
     update drop_log_versions v set late = v.submitted_at > w.due_at
     from drop_logs d

@@ -6,12 +6,15 @@
  * reminders for a new due time, and the audit entry.
  */
 import { AppError } from "~/lib/app-error";
-import { sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { cohorts, courseMemberships, labExtensions, users } from "~/db/schema";
 import type { ExtensionWindowInput } from "~/lib/labs/extension-input";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
 import { queues } from "~/server/jobs/boss.server";
+import { isoText, uuidList } from "~/server/sql.server";
 import { recomputeLateness } from "./effective-window.server";
 import { visibleCohortIds } from "./lab-dashboard.server";
 import { scheduleLabReminders } from "./lab-reminders.server";
@@ -36,7 +39,6 @@ export type ExtensionTarget = { membershipIds: string[] } | { cohortId: string }
 
 type ExtensionLab = Pick<LabWithCohorts, "id" | "courseId" | "status" | "dueAt" | "reminderOffsetsHours" | "cohortIds">;
 
-const idList = (ids: string[]) => sql`(select value::uuid from json_array_elements_text(${JSON.stringify(ids)}::json))`;
 const isInstructor = (access: CourseAccess) => access.membership.role === "instructor";
 
 /**
@@ -48,20 +50,36 @@ export async function listExtensions(
   access: CourseAccess,
   lab: Pick<LabWithCohorts, "id" | "cohortIds">,
 ): Promise<ExtensionRow[]> {
-  const visible = isInstructor(access) ? sql`true` : sql`coalesce(e.cohort_id, m.cohort_id) in ${idList(visibleCohortIds(access, lab))}`;
-  const result = await executor.execute<ExtensionRow>(sql`
-    select e.id, e.membership_id as "membershipId", e.cohort_id as "cohortId", u.name as "studentName", coalesce(h.name, sh.name) as "cohortName",
-      to_json(e.due_at)#>>'{}' as "dueAt", to_json(e.late_cutoff_at)#>>'{}' as "lateCutoffAt", e.reason,
-      b.name as "setBy", to_json(e.updated_at)#>>'{}' as "setAt"
-    from lab_extensions e
-    left join course_memberships m on m.id = e.membership_id
-    left join users u on u.id = m.user_id
-    left join cohorts h on h.id = e.cohort_id
-    left join cohorts sh on sh.id = m.cohort_id
-    left join users b on b.id = e.created_by_id
-    where e.lab_id = ${lab.id} and ${visible}
-    order by e.cohort_id is null, coalesce(h.name, sh.name), u.name`);
-  return result.rows;
+  const member = alias(courseMemberships, "m");
+  const student = alias(users, "u");
+  const setter = alias(users, "b");
+  const cohort = alias(cohorts, "h");
+  const studentCohort = alias(cohorts, "sh");
+  const cohortName = sql<string | null>`coalesce(${cohort.name}, ${studentCohort.name})`;
+  const visible = isInstructor(access)
+    ? undefined
+    : inArray(sql`coalesce(${labExtensions.cohortId}, ${member.cohortId})`, uuidList(visibleCohortIds(access, lab)));
+  return executor
+    .select({
+      id: labExtensions.id,
+      membershipId: labExtensions.membershipId,
+      cohortId: labExtensions.cohortId,
+      studentName: student.name,
+      cohortName,
+      dueAt: isoText(labExtensions.dueAt),
+      lateCutoffAt: isoText(labExtensions.lateCutoffAt),
+      reason: labExtensions.reason,
+      setBy: setter.name,
+      setAt: isoText(labExtensions.updatedAt),
+    })
+    .from(labExtensions)
+    .leftJoin(member, eq(member.id, labExtensions.membershipId))
+    .leftJoin(student, eq(student.id, member.userId))
+    .leftJoin(cohort, eq(cohort.id, labExtensions.cohortId))
+    .leftJoin(studentCohort, eq(studentCohort.id, member.cohortId))
+    .leftJoin(setter, eq(setter.id, labExtensions.createdById))
+    .where(and(eq(labExtensions.labId, lab.id), visible))
+    .orderBy(isNull(labExtensions.cohortId), cohortName, student.name);
 }
 
 export type ExtensionsPage = {
@@ -79,18 +97,31 @@ export async function getExtensionsPage(
   lab: Pick<LabWithCohorts, "id" | "courseId" | "cohortIds">,
 ): Promise<ExtensionsPage> {
   const cohortIds = visibleCohortIds(access, lab);
-  const [extensions, cohorts, students] = await Promise.all([
+  const [extensions, cohortRows, students] = await Promise.all([
     listExtensions(executor, access, lab),
-    executor.execute<{ id: string; name: string }>(sql`select id, name from cohorts where id in ${idList(cohortIds)} order by name`),
+    executor
+      .select({ id: cohorts.id, name: cohorts.name })
+      .from(cohorts)
+      .where(inArray(cohorts.id, uuidList(cohortIds)))
+      .orderBy(cohorts.name),
     isInstructor(access)
-      ? executor.execute<ExtensionsPage["students"][number]>(sql`
-          select m.id as "membershipId", u.name, h.name as "cohortName"
-          from course_memberships m join users u on u.id = m.user_id join cohorts h on h.id = m.cohort_id
-          where m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null and m.cohort_id in ${idList(cohortIds)}
-          order by h.name, u.name`)
-      : Promise.resolve({ rows: [] }),
+      ? executor
+          .select({ membershipId: courseMemberships.id, name: users.name, cohortName: cohorts.name })
+          .from(courseMemberships)
+          .innerJoin(users, eq(users.id, courseMemberships.userId))
+          .innerJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+          .where(
+            and(
+              eq(courseMemberships.courseId, lab.courseId),
+              eq(courseMemberships.role, "student"),
+              isNull(courseMemberships.removedAt),
+              inArray(courseMemberships.cohortId, uuidList(cohortIds)),
+            ),
+          )
+          .orderBy(cohorts.name, users.name)
+      : Promise.resolve([]),
   ]);
-  return { extensions, cohorts: cohorts.rows, students: students.rows };
+  return { extensions, cohorts: cohortRows, students };
 }
 
 function requireInstructor(access: CourseAccess): void {
@@ -130,11 +161,12 @@ export async function setExtensions(
       : [
           sql`membership_id`,
           sql`select m.id from course_memberships m
-            where m.id in ${idList(membershipIds)} and m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
-              and m.cohort_id in ${idList(lab.cohortIds)}`,
+            where m.id in ${uuidList(membershipIds)} and m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
+              and m.cohort_id in ${uuidList(lab.cohortIds)}`,
           sql`(lab_id, membership_id) where membership_id is not null`,
         ];
     // One statement: the upsert, and whether reminder jobs already wait for this due time (read before it, as a CTE sees the snapshot).
+    // Raw: a set-based upsert that also reads pg-boss's own job table.
     const result = await tx.execute<{ written: number; queued: boolean }>(sql`
       with chosen as (${chosen}),
       written as (
@@ -193,16 +225,16 @@ export async function removeExtension(
 ): Promise<{ relabelled: number }> {
   requireInstructor(access);
   return executor.transaction(async (tx) => {
-    const removed = await tx.execute<{
-      membershipId: string | null;
-      cohortId: string | null;
-      dueAt: string;
-      lateCutoffAt: string | null;
-      reason: string;
-    }>(sql`
-      delete from lab_extensions where id = ${extensionId} and lab_id = ${lab.id}
-      returning membership_id as "membershipId", cohort_id as "cohortId", to_json(due_at)#>>'{}' as "dueAt", to_json(late_cutoff_at)#>>'{}' as "lateCutoffAt", reason`);
-    const [extension] = removed.rows;
+    const [extension] = await tx
+      .delete(labExtensions)
+      .where(and(eq(labExtensions.id, extensionId), eq(labExtensions.labId, lab.id)))
+      .returning({
+        membershipId: labExtensions.membershipId,
+        cohortId: labExtensions.cohortId,
+        dueAt: isoText(labExtensions.dueAt),
+        lateCutoffAt: isoText(labExtensions.lateCutoffAt),
+        reason: labExtensions.reason,
+      });
     if (!extension) throw new AppError({ code: "extension_refused", message: "That extension is no longer there." });
     const relabelled = await recomputeLateness(tx, lab.id);
     await recordAudit(tx, {

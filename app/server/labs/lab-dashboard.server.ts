@@ -4,11 +4,14 @@
  * own due time, and the reminders sent and still to go. A TA sees only the cohorts assigned to them.
  * Three statements, run side by side, whatever the class size.
  */
-import { sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql, type SQLWrapper } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { cohorts, courseMemberships, dropLogs, dropLogVersions, labs, users } from "~/db/schema";
 import { handInStanding, type HandInStanding, type StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
-import { effectiveWindowJoin, staffDeadlineJson } from "./effective-window.server";
+import { isoText, uuidList } from "~/server/sql.server";
+import { effectiveWindow, staffDeadlineJson } from "./effective-window.server";
 import { listScheduledReminders, listSentReminders, type ScheduledReminder, type SentReminder } from "./lab-reminders.server";
 import type { LabWithCohorts } from "./labs.server";
 
@@ -51,6 +54,8 @@ export type LabDashboard = {
   scheduledReminders: ScheduledReminder[];
 };
 
+const float8 = (value: SQLWrapper) => sql<number | null>`${value}::float8`;
+
 /** The cohorts of the lab the viewer may see: all of them for instructors, the assigned ones for TAs. */
 export const visibleCohortIds = (access: CourseAccess, lab: Pick<LabWithCohorts, "cohortIds">) =>
   lab.cohortIds.filter((id) => access.cohortIds.includes(id));
@@ -63,29 +68,52 @@ export async function getLabDashboard(
   now = new Date(),
 ): Promise<LabDashboard> {
   const cohortIds = visibleCohortIds(access, lab);
+  // The window's joins name these aliases.
+  const member = alias(courseMemberships, "m");
+  const labRow = alias(labs, "l");
   const [studentRows, sentReminders, scheduledReminders] = await Promise.all([
-    executor.execute<Omit<DashboardStudent, "status">>(sql`
-      select m.id as "membershipId", u.name, u.email, m.cohort_id as "cohortId", h.name as "cohortName",
-        d.id as "dropLogId", coalesce(d.draft is not null, false) as "hasDraft",
-        v.version, to_json(v.submitted_at)#>>'{}' as "submittedAt", v.late, v.warning_count as "warningCount",
-        v.drag_coefficient::float8 as "dragCoefficient", v.reynolds::float8 as reynolds,
-        v.viscosity_pa_s::float8 as "viscosityPaS", v.normalised_figure::float8 as "normalisedFigure",
-        ${staffDeadlineJson("w")} as deadline
-      from course_memberships m
-      join users u on u.id = m.user_id
-      join cohorts h on h.id = m.cohort_id
-      join labs l on l.id = ${lab.id}
-      ${effectiveWindowJoin({ lab: "l", member: "m", as: "w" })}
-      left join drop_logs d on d.lab_id = ${lab.id} and d.membership_id = m.id
-      left join drop_log_versions v on v.id = d.latest_version_id
-      where m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
-        and m.cohort_id in (select value::uuid from json_array_elements_text(${JSON.stringify(cohortIds)}::json))
-      order by h.name, u.name`),
+    executor
+      .select({
+        membershipId: member.id,
+        name: users.name,
+        email: users.email,
+        // The joined cohort's: the member's, never null here.
+        cohortId: cohorts.id,
+        cohortName: cohorts.name,
+        dropLogId: dropLogs.id,
+        hasDraft: sql<boolean>`coalesce(${dropLogs.draft} is not null, false)`,
+        version: dropLogVersions.version,
+        submittedAt: isoText(dropLogVersions.submittedAt),
+        late: dropLogVersions.late,
+        warningCount: dropLogVersions.warningCount,
+        // float8, as the engine computed them, not the float4 text of a real.
+        dragCoefficient: float8(dropLogVersions.dragCoefficient),
+        reynolds: float8(dropLogVersions.reynolds),
+        viscosityPaS: float8(dropLogVersions.viscosityPaS),
+        normalisedFigure: float8(dropLogVersions.normalisedFigure),
+        deadline: sql<StudentDeadline>`${staffDeadlineJson("w")}`,
+      })
+      .from(member)
+      .innerJoin(users, eq(users.id, member.userId))
+      .innerJoin(cohorts, eq(cohorts.id, member.cohortId))
+      .innerJoin(labRow, eq(labRow.id, lab.id))
+      .leftJoin(effectiveWindow({ lab: "l", member: "m", as: "w" }), sql`true`)
+      .leftJoin(dropLogs, and(eq(dropLogs.labId, lab.id), eq(dropLogs.membershipId, member.id)))
+      .leftJoin(dropLogVersions, eq(dropLogVersions.id, dropLogs.latestVersionId))
+      .where(
+        and(
+          eq(member.courseId, lab.courseId),
+          eq(member.role, "student"),
+          isNull(member.removedAt),
+          inArray(member.cohortId, uuidList(cohortIds)),
+        ),
+      )
+      .orderBy(cohorts.name, users.name),
     listSentReminders(executor, { ...access, cohortIds }, lab.id),
     lab.status === "published" ? listScheduledReminders(executor, lab) : Promise.resolve([]),
   ]);
 
-  const students: DashboardStudent[] = studentRows.rows.map((student) => ({
+  const students: DashboardStudent[] = studentRows.map((student) => ({
     ...student,
     status: handInStanding(student.version === null ? null : student.late, new Date(student.deadline.dueAt), now),
   }));

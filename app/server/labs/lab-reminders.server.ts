@@ -7,13 +7,14 @@
  * (lab, membership, due time, offset) makes a repeat, a retry or a second worker a no-op.
  */
 import { formatDateTime } from "~/lib/format-date";
-import { eq, sql } from "drizzle-orm";
-import { courses, labs } from "~/db/schema";
+import { and, desc, eq, inArray, sql } from "drizzle-orm";
+import { cohorts, courseMemberships, courses, emailOutbox, labReminders, labs, users } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { appUrl } from "~/server/config.server";
 import type { Database, Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
+import { isoText, uuidList } from "~/server/sql.server";
 import { effectiveWindowJoin } from "./effective-window.server";
 
 export type LabReminderJob = { labId: string; offsetHours: number; dueAt: string };
@@ -82,6 +83,7 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
 
     // Claim the (lab, student, due time, offset) keys first: whoever inserts a key is the one who sends it.
     // Only students whose own due time is the job's: the class's job passes over an extended student.
+    // Raw: a set-based insert from the students' effective windows, one statement whatever the class size.
     const claimed = await tx.execute<{ membershipId: string; email: string; name: string }>(sql`
       with claimed as (
         insert into lab_reminders (lab_id, membership_id, due_at, offset_hours, sent_at)
@@ -119,6 +121,7 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
       })),
     );
     const links = claimed.rows.map((student, index) => ({ membership_id: student.membershipId, outbox_id: outbox[index].outboxId }));
+    // Raw: a bulk update from a JSON recordset.
     await tx.execute(sql`
       update lab_reminders r set outbox_id = x.outbox_id
       from json_to_recordset(${JSON.stringify(links)}::json) as x(membership_id uuid, outbox_id uuid)
@@ -141,18 +144,24 @@ export type SentReminder = {
 
 /** The reminders sent for a lab to the students of the cohorts the viewer may see, newest first: one statement. */
 export async function listSentReminders(executor: Executor, access: CourseAccess, labId: string): Promise<SentReminder[]> {
-  const result = await executor.execute<SentReminder>(sql`
-    select r.membership_id as "membershipId", u.name as "studentName", u.email, h.name as "cohortName", r.offset_hours as "offsetHours",
-      to_json(r.due_at)#>>'{}' as "dueAt", to_json(r.sent_at)#>>'{}' as "sentAt", o.status::text as "emailStatus"
-    from lab_reminders r
-    join course_memberships m on m.id = r.membership_id
-    join users u on u.id = m.user_id
-    left join cohorts h on h.id = m.cohort_id
-    left join email_outbox o on o.id = r.outbox_id
-    where r.lab_id = ${labId}
-      and m.cohort_id in (select value::uuid from json_array_elements_text(${JSON.stringify(access.cohortIds)}::json))
-    order by r.sent_at desc, u.name`);
-  return result.rows;
+  return executor
+    .select({
+      membershipId: labReminders.membershipId,
+      studentName: users.name,
+      email: users.email,
+      cohortName: cohorts.name,
+      offsetHours: labReminders.offsetHours,
+      dueAt: isoText(labReminders.dueAt),
+      sentAt: isoText(labReminders.sentAt),
+      emailStatus: emailOutbox.status,
+    })
+    .from(labReminders)
+    .innerJoin(courseMemberships, eq(courseMemberships.id, labReminders.membershipId))
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+    .leftJoin(emailOutbox, eq(emailOutbox.id, labReminders.outboxId))
+    .where(and(eq(labReminders.labId, labId), inArray(courseMemberships.cohortId, uuidList(access.cohortIds))))
+    .orderBy(desc(labReminders.sentAt), users.name);
 }
 
 export type ScheduledReminder = {
@@ -171,6 +180,7 @@ export type ScheduledReminder = {
  * share their jobs' effect, so each (due time, offset) is listed once.
  */
 export async function listScheduledReminders(executor: Executor, lab: { id: string; dueAt: Date }): Promise<ScheduledReminder[]> {
+  // Raw: it reads pg-boss's own job table.
   const result = await executor.execute<ScheduledReminder>(sql`
     select j.offset_hours as "offsetHours", to_json(min(j.start_after))#>>'{}' as "startAfter",
       to_json(j.due_at)#>>'{}' as "dueAt", j.due_at <> ${lab.dueAt} as extension

@@ -4,12 +4,13 @@
  * in `~/server/drop-logs/`; the reminders' job is in `./lab-reminders.server.ts`.
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, eq, inArray, ne, sql, type SQL } from "drizzle-orm";
 import { cohorts, labCohorts, labExtensions, labs, parts } from "~/db/schema";
 import { allowedPartFields, allowedPartIdsOf, type AllowedPartKind, type LabInput } from "~/lib/labs/lab-input";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
+import { uuidList } from "~/server/sql.server";
 import { recomputeLateness } from "./effective-window.server";
 import { scheduleLabReminders } from "./lab-reminders.server";
 
@@ -61,15 +62,14 @@ function columnsOf(input: LabInput) {
 
 /** Cohorts and parts must be the course's own, and each part of the kind its list says: a forged id is refused rather than silently dropped. */
 async function checkOwnership(executor: Executor, courseId: string, input: LabInput): Promise<void> {
-  const ids = (values: string[]) => sql`(select value::uuid from json_array_elements_text(${JSON.stringify([...new Set(values)])}::json))`;
+  const ids = (values: string[]) => uuidList([...new Set(values)]);
   const kinds = Object.keys(allowedPartFields) as AllowedPartKind[];
-  const partCounts = kinds.map(
-    (kind) =>
-      sql`(select count(*)::int from parts where course_id = ${courseId} and kind = ${kind} and id in ${ids(input[allowedPartFields[kind]])}) as ${sql.identifier(kind)}`,
-  );
-  const result = await executor.execute<Record<"cohorts" | AllowedPartKind, number>>(sql`
-    select (select count(*)::int from cohorts where course_id = ${courseId} and id in ${ids(input.cohortIds)}) as cohorts, ${sql.join(partCounts, sql`, `)}`);
-  const counts = result.rows[0];
+  const partCount = (kind: AllowedPartKind) =>
+    executor.$count(parts, and(eq(parts.courseId, courseId), eq(parts.kind, kind), inArray(parts.id, ids(input[allowedPartFields[kind]]))));
+  const [counts] = await executor
+    .select({ cohorts: count(), sphere: partCount("sphere"), fluid_lot: partCount("fluid_lot"), column: partCount("column") })
+    .from(cohorts)
+    .where(and(eq(cohorts.courseId, courseId), inArray(cohorts.id, ids(input.cohortIds))));
   if (counts.cohorts !== new Set(input.cohortIds).size)
     throw new AppError({ code: "lab_refused", message: "Choose cohorts of this course.", field: "cohortIds" });
   for (const kind of kinds) {

@@ -57,6 +57,7 @@ export type ApplyToManyResult = {
 export { MAX_BULK_STUDENTS };
 
 /** The lab's marking lock: saves take it shared (they never wait for each other), marking ready and release exclusively. */
+// Raw wherever it runs: an advisory lock has no query-builder form.
 export const markingLock = (labId: string, mode: "shared" | "exclusive") =>
   mode === "shared"
     ? sql`select pg_advisory_xact_lock_shared(hashtextextended(${`marking:${labId}`}, 0))`
@@ -209,6 +210,7 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
       late_penalty_points: content.latePenaltyPoints,
       total: after!.total,
     }));
+    // Raw: a bulk upsert from a JSON recordset.
     // The expected version travels as the new one (expected + 1): ON CONFLICT can compare only the proposed row's columns.
     const result = await tx.execute<{ id: string; membershipId: string; version: number; updatedAt: string }>(sql`
       insert into marks as mk (lab_id, membership_id, drop_log_version_id, reduction_revision, scores, feedback, late_penalty_points, total, version, marked_by_id, moderated_by_id, moderated_at, updated_at)

@@ -10,7 +10,7 @@
 import { and, desc, eq, lt, sql } from "drizzle-orm";
 import { effectiveHandInWindow, handInTiming, type ExtensionWindow, type HandInWindow } from "~/lib/drop-logs/hand-in-window";
 import { alias } from "drizzle-orm/pg-core";
-import { courseMemberships, labMarking, markChanges, users } from "~/db/schema";
+import { courseMemberships, labExtensions, labMarking, labs, markChanges, users } from "~/db/schema";
 import { studentMarkHref } from "~/lib/marking/links";
 import { freezeSuggestions, markTotals, sameContent, type MarkState, type ReleasedMarkSnapshot } from "~/lib/marking/marks";
 import {
@@ -30,6 +30,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { appUrl } from "~/server/config.server";
 import type { Executor } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
+import { isoText } from "~/server/sql.server";
 import { suggestAutomaticCriteria } from "~/lib/marking/automatic-criteria";
 import {
   deskRow,
@@ -108,20 +109,26 @@ type HandInWindows = {
 /** The lab's hand-in windows, extensions included: one statement. */
 async function loadHandInWindows(executor: Executor, labId: string): Promise<HandInWindows> {
   type Extension = { membershipId: string | null; cohortId: string | null; dueAt: string; lateCutoffAt: string | null };
-  const result = await executor.execute<{
-    status: HandInWindows["status"];
-    policy: AfterReleaseHandIns;
-    opensAt: string;
-    dueAt: string;
-    lateCutoffAt: string | null;
-    extensions: Extension[];
-  }>(sql`
-    select l.status, l.after_release_hand_ins as policy, to_json(l.opens_at)#>>'{}' as "opensAt", to_json(l.due_at)#>>'{}' as "dueAt",
-      to_json(l.late_cutoff_at)#>>'{}' as "lateCutoffAt",
-      coalesce((select json_agg(json_build_object('membershipId', e.membership_id, 'cohortId', e.cohort_id, 'dueAt', e.due_at, 'lateCutoffAt', e.late_cutoff_at))
-        from lab_extensions e where e.lab_id = l.id), '[]'::json) as extensions
-    from labs l where l.id = ${labId}`);
-  const row = result.rows[0];
+  const extensions = executor
+    .select({
+      list: sql<
+        Extension[]
+      >`coalesce(json_agg(json_build_object('membershipId', ${labExtensions.membershipId}, 'cohortId', ${labExtensions.cohortId},
+        'dueAt', ${labExtensions.dueAt}, 'lateCutoffAt', ${labExtensions.lateCutoffAt})), '[]'::json)`,
+    })
+    .from(labExtensions)
+    .where(eq(labExtensions.labId, labs.id));
+  const [row] = await executor
+    .select({
+      status: labs.status,
+      policy: labs.afterReleaseHandIns,
+      opensAt: isoText(labs.opensAt),
+      dueAt: isoText(labs.dueAt),
+      lateCutoffAt: isoText(labs.lateCutoffAt),
+      extensions: sql<Extension[]>`${extensions}`,
+    })
+    .from(labs)
+    .where(eq(labs.id, labId));
   const windowOf = (extension: Extension): ExtensionWindow => ({
     dueAt: new Date(extension.dueAt),
     lateCutoffAt: extension.lateCutoffAt ? new Date(extension.lateCutoffAt) : null,
@@ -389,6 +396,7 @@ export async function releaseMarks(
     });
     if (payload.length) {
       // The version is unchanged: release writes in what was already shown, it changes no value.
+      // Raw: a bulk update from a JSON recordset.
       const result = await tx.execute(sql`
         update marks mk set scores = r.scores, total = r.total, released_at = ${releasedAt}::timestamptz, released_snapshot = r.snapshot
         from json_to_recordset(${JSON.stringify(payload)}::json) as r(id uuid, version int, scores jsonb, total float8, snapshot jsonb)
@@ -401,6 +409,7 @@ export async function releaseMarks(
       const state: MarkState = { ...zero, total: 0, dropLogVersionId: null };
       const snapshot: ReleasedMarkSnapshot = { ...state, releasedAt };
       // Saves wait for the exclusive lock, so no mark can appear meanwhile; a missing row is still checked.
+      // Raw: a bulk insert from a JSON recordset.
       const created = await tx.execute<{ id: string; membershipId: string }>(sql`
         insert into marks (lab_id, membership_id, scores, feedback, late_penalty_points, total, version, marked_by_id, moderated_by_id, moderated_at, released_at, released_snapshot, updated_at)
         select ${lab.id}, r.membership_id, ${JSON.stringify(zero.scores)}::jsonb, ${zero.feedback}, 0, 0, 1, ${access.user.id}::uuid, ${access.user.id}::uuid,

@@ -5,12 +5,13 @@
  */
 import { AppError, type ErrorIssue } from "~/lib/app-error";
 import { randomUUID } from "node:crypto";
-import { and, count, eq, isNotNull, ne, sql } from "drizzle-orm";
+import { and, count, eq, isNotNull, ne, notInArray, sql } from "drizzle-orm";
 import { labs, marks, rubricCriteria } from "~/db/schema";
 import { criterionColumns, rubricInput, type RubricCriterion } from "~/lib/marking/rubric";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
+import { uuidList } from "~/server/sql.server";
 import { markingLock } from "./marks.server";
 import { assertInstructor, loadMarkingLab, markingRefusal, type MarkingLab } from "./marking-lab.server";
 
@@ -68,9 +69,10 @@ export async function saveRubric(
         autoParams: JSON.stringify(columns.autoParams),
       };
     });
-    await tx.execute(sql`
-      delete from rubric_criteria
-      where lab_id = ${lab.id} and id not in (select value::uuid from json_array_elements_text(${JSON.stringify(rows.map((row) => row.id))}::json))`);
+    await tx
+      .delete(rubricCriteria)
+      .where(and(eq(rubricCriteria.labId, lab.id), notInArray(rubricCriteria.id, uuidList(rows.map((row) => row.id)))));
+    // Raw: a bulk upsert from a JSON recordset.
     await tx.execute(sql`
       insert into rubric_criteria (id, lab_id, position, title, description, kind, levels, min_points, max_points, auto_rule, auto_params, updated_at)
       select r.id, ${lab.id}, r.position, r.title, r.description, r.kind::criterion_kind, r.levels::jsonb, r.min_points, r.max_points, r.auto_rule::auto_rule, r.auto_params::jsonb, now()
@@ -119,6 +121,7 @@ export async function copyRubric(
     const [row] = await tx.select({ marks: count() }).from(marks).where(eq(marks.labId, lab.id));
     if (row.marks > 0) throw markingRefusal("rubric_locked", "This lab already has marks: edit its rubric rather than replacing it.");
     await tx.delete(rubricCriteria).where(eq(rubricCriteria.labId, lab.id));
+    // Raw: a set-based copy of the other lab's rows (insert … select).
     const copied = await tx.execute<RubricCriterion>(sql`
       insert into rubric_criteria (lab_id, position, title, description, kind, levels, min_points, max_points, auto_rule, auto_params)
       select ${lab.id}, position, title, description, kind, levels, min_points, max_points, auto_rule, auto_params
