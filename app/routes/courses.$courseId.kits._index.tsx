@@ -96,6 +96,7 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
     id: "bulk-move",
     lastResult: fetcher.data && "moved" in fetcher.data ? undefined : fetcher.data,
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, bulkMove),
   });
   // Sending clears the selection, and with it the form: its errors are told above the table.

@@ -53,6 +53,7 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
     lastResult: replyFor(actionData, "change-role"),
     defaultValue: { role: member.role, cohortId: member.cohortId ?? "" },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, memberAction),
   });
   const [removeForm] = useForm({ id: "remove", lastResult: replyFor(actionData, "remove") });

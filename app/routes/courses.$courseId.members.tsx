@@ -69,6 +69,7 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
     lastResult: actionData && "invited" in actionData ? undefined : actionData,
     defaultValue: { people: [newPerson] },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, inviteSchema),
   });
   const people = fields.people.getFieldList();

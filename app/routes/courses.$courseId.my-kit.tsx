@@ -66,6 +66,7 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
     lastResult: replyFor(actionData, "arrived"),
     defaultValue: { complete: "yes" },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: validate,
   });
   const [reportForm, reportFields] = useForm({
@@ -73,6 +74,7 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
     lastResult: replyFor(actionData, "report"),
     defaultValue: { partId: "", problem: "damaged" },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: validate,
   });
   if (!kit) {

@@ -67,6 +67,8 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
     lastResult: actionData,
     defaultValue: { name: invitation.name ?? "" },
     shouldValidate: "onBlur",
+    // Once shown, an error goes as the field is corrected: clearing it on blur would move the button from under a click.
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, acceptInvitationSchema),
   });
   const heading = `Join ${invitation.courseCode} ${invitation.courseTitle}`;

@@ -44,6 +44,7 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   const [form, fields] = useForm({
     lastResult: actionData && "expired" in actionData ? undefined : actionData,
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, resetPasswordSchema),
   });
   if (!loaderData.valid || (actionData && "expired" in actionData)) {

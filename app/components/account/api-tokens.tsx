@@ -25,6 +25,7 @@ export function ApiTokens({
     id: "create-token",
     lastResult,
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, accountInput),
   });
   return (

@@ -22,6 +22,7 @@ export function NameForm({
     lastResult,
     defaultValue: { name },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, accountInput),
   });
   return (

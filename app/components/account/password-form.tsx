@@ -13,6 +13,7 @@ export function PasswordForm({ passwordSet, lastResult, busy }: { passwordSet: b
     id: "password",
     lastResult,
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, accountInput),
   });
   return (

@@ -15,6 +15,7 @@ export function CheckInForm({ parts, lastResult }: { parts: KitPart[]; lastResul
     lastResult,
     defaultValue: { parts: parts.map((part) => ({ partId: part.id, condition: "fine" })) },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, kitInput),
   });
   const rows = fields.parts.getFieldList();

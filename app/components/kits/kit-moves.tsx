@@ -21,7 +21,7 @@ export function PackForm({
   students: { membershipId: string; name: string; email: string; cohortName: string | null }[];
   lastResult?: SubmissionResult;
 }) {
-  const [form, fields] = useForm({ id: "pack", lastResult, shouldValidate: "onBlur", onValidate: validate });
+  const [form, fields] = useForm({ id: "pack", lastResult, shouldValidate: "onBlur", shouldRevalidate: "onInput", onValidate: validate });
   return (
     <>
       <FormErrors errors={form.errors} />
@@ -50,6 +50,7 @@ export function ShipForm({ today, lastResult }: { today: string; lastResult?: Su
     lastResult,
     defaultValue: { shippedOn: today },
     shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
     onValidate: validate,
   });
   return (
@@ -73,7 +74,7 @@ export function ShipForm({ today, lastResult }: { today: string; lastResult?: Su
 }
 
 export function SimpleMoves({ next, lastResult }: { next: readonly KitState[]; lastResult?: SubmissionResult }) {
-  const [form, fields] = useForm({ id: "move", lastResult, shouldValidate: "onBlur", onValidate: validate });
+  const [form, fields] = useForm({ id: "move", lastResult, shouldValidate: "onBlur", shouldRevalidate: "onInput", onValidate: validate });
   const moves = simpleMoves.filter((state) => next.includes(state));
   if (!moves.length) return null;
   return (
