@@ -1,30 +1,30 @@
+import type { FieldMetadata } from "@conform-to/react";
 import { SelectField } from "~/components/ui/field";
 import { courseRoles, roleWords } from "~/lib/courses/roles";
 
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- a field of any form's schema
+type Field = FieldMetadata<any, any, string[]>;
+
 /** A member's role and cohort, shared by the invitation form and the member's own page. */
 export function RoleAndCohortFields({
-  role,
-  cohortId,
+  fields,
   cohorts,
-  errors,
   cohortLabel,
 }: {
-  role: string;
-  cohortId: string;
+  fields: { role: Field; cohortId: Field };
   cohorts: { id: string; name: string }[];
-  errors: Record<string, string | string[] | undefined>;
   cohortLabel: string;
 }) {
   return (
     <>
-      <SelectField label="Role" name="role" defaultValue={role} error={errors.role}>
+      <SelectField label="Role" field={fields.role}>
         {courseRoles.map((value) => (
           <option key={value} value={value}>
             {roleWords[value]}
           </option>
         ))}
       </SelectField>
-      <SelectField label={cohortLabel} name="cohortId" defaultValue={cohortId} error={errors.cohortId}>
+      <SelectField label={cohortLabel} field={fields.cohortId}>
         <option value="">No cohort</option>
         {cohorts.map((cohort) => (
           <option key={cohort.id} value={cohort.id}>

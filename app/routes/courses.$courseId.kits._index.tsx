@@ -1,3 +1,4 @@
+import { getFormProps, getInputProps, getSelectProps, useForm } from "@conform-to/react";
 import type { ColumnDef } from "@tanstack/react-table";
 import { data, Form, Link, useFetcher, useSearchParams } from "react-router";
 import { z } from "zod";
@@ -8,10 +9,11 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { KitStateBadge } from "~/components/kit-state-badge";
 import { pagingSearch, searchText } from "~/lib/forms/search-params";
+import { formList, parseSubmission } from "~/lib/forms/submission";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
 import { kitCohortScope, requireCourseRole, staffRoles } from "~/server/auth/access.server";
-import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { listKits, moveKits } from "~/server/kits/kits.server";
 
@@ -21,7 +23,7 @@ const bulkTargets = ["at_home", "coming_back", "checked_in", "on_shelf", "retire
 const bulkMove = z.object({
   intent: z.literal("bulk-move"),
   to: z.enum(bulkTargets, { error: "Choose the state to move the kits to." }),
-  kitIds: z.array(z.uuid()).min(1, "Select at least one kit."),
+  kitIds: formList(z.uuid()).refine((ids) => ids.length > 0, "Select at least one kit."),
   note: z.string().trim().max(500).optional(),
 });
 
@@ -41,30 +43,14 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   return { kits: rows, pageInfo: { ...paging, total }, canChange: access.membership.role === "instructor", courseId: access.course.id };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const form = await request.formData();
-  const parsed = bulkMove.safeParse({
-    intent: form.get("intent"),
-    to: form.get("to"),
-    note: form.get("note") ?? undefined,
-    kitIds: form.getAll("kitIds"),
-  });
-  if (!parsed.success) return data({ ok: false as const, message: parsed.error.issues[0].message }, { status: 400 });
-  try {
-    const { moved } = await moveKits(db, {
-      courseId: access.course.id,
-      actorId: access.user.id,
-      kitIds: parsed.data.kitIds,
-      move: { to: parsed.data.to, note: parsed.data.note },
-    });
-    return { ok: true as const, message: `${moved} kits moved to ${kitStateLabels[parsed.data.to].toLowerCase()}.` };
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return data({ ok: false as const, message: `Nothing was changed: ${error.message}` }, { status: error.status });
-    throw error;
-  }
-}
+  const submission = parseSubmission(formData, bulkMove);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const { kitIds, to, note } = submission.value;
+  const { moved } = await moveKits(db, { courseId: access.course.id, actorId: access.user.id, kitIds, move: { to, note } });
+  return { moved: `${moved} kits moved to ${kitStateLabels[to].toLowerCase()}.` };
+});
 
 type KitRow = Route.ComponentProps["loaderData"]["kits"][number];
 
@@ -106,6 +92,15 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
   const { kits, pageInfo, canChange, courseId } = loaderData;
   const [search] = useSearchParams();
   const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useForm({
+    id: "bulk-move",
+    lastResult: fetcher.data && "moved" in fetcher.data ? undefined : fetcher.data,
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: ({ formData }) => parseSubmission(formData, bulkMove),
+  });
+  // Sending clears the selection, and with it the form: its errors are told above the table.
+  const refusals = Object.values(form.allErrors).flat();
   return (
     <div className="flex flex-col gap-4">
       <PageHeader
@@ -153,7 +148,8 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
           Show
         </Button>
       </Form>
-      {fetcher.data ? <Notice tone={fetcher.data.ok ? "success" : "error"}>{fetcher.data.message}</Notice> : null}
+      {fetcher.data && "moved" in fetcher.data ? <Notice tone="success">{fetcher.data.moved}</Notice> : null}
+      {refusals.length ? <Notice tone="error">Nothing was changed: {refusals.join(" ")}</Notice> : null}
       <DataTable
         caption="Kits of the course"
         columns={columns}
@@ -163,14 +159,22 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
         rowLabel={(kit) => `kit ${kit.number}`}
         empty="No kits match. Make up a kit from parts on the shelf."
         renderSelectionActions={(kitIds, clear) => (
-          <fetcher.Form method="post" className="flex flex-wrap items-center gap-2" onSubmit={() => clear()}>
+          <fetcher.Form
+            method="post"
+            className="flex flex-wrap items-center gap-2"
+            {...getFormProps(form)}
+            onSubmit={(event) => {
+              form.onSubmit(event);
+              if (!event.defaultPrevented) clear();
+            }}
+          >
             <input type="hidden" name="intent" value="bulk-move" />
             {kitIds.map((id) => (
               <input key={id} type="hidden" name="kitIds" value={id} />
             ))}
             <label className="flex items-center gap-2">
               Move to
-              <select name="to" required className="rounded-md border border-ink-900/20 bg-white px-2 py-1">
+              <select {...getSelectProps(fields.to)} required className="rounded-md border border-ink-900/20 bg-white px-2 py-1">
                 {bulkTargets.map((state) => (
                   <option key={state} value={state}>
                     {kitStateLabels[state]}
@@ -179,7 +183,7 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
               </select>
             </label>
             <input
-              name="note"
+              {...getInputProps(fields.note, { type: "text" })}
               placeholder="Note (optional)"
               aria-label="Note"
               className="rounded-md border border-ink-900/20 bg-white px-2 py-1"

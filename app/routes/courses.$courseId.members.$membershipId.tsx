@@ -1,14 +1,15 @@
-import { RoleAndCohortFields } from "~/components/member-fields";
-import { roleWords } from "~/lib/courses/roles";
+import { getFormProps, useForm } from "@conform-to/react";
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members.$membershipId";
+import { RoleAndCohortFields } from "~/components/member-fields";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { AppError } from "~/lib/app-error";
-import { parseForm } from "~/lib/forms/parse-form";
+import { roleWords } from "~/lib/courses/roles";
+import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
+import { formAction } from "~/server/errors.server";
 import { changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
 
 const memberAction = z.discriminatedUnion("intent", [
@@ -30,29 +31,32 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   return { course: access.course, member, canEdit, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const form = parseForm(memberAction, await request.formData());
-  if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
+  const submission = parseSubmission(formData, memberAction);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const input = submission.value;
   const target = { courseId: access.course.id, actorId: access.user.id, membershipId: params.membershipId };
-  try {
-    if (form.data.intent === "remove") {
-      await removeMember(target, request);
-      return redirect(`/courses/${access.course.id}/members?removed=1`);
-    }
-    await changeMemberRole({ ...target, role: form.data.role, cohortId: form.data.cohortId || null }, request);
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return data({ errors: { [form.data.intent === "remove" ? "remove" : "role"]: error.message } }, { status: error.status });
-    throw error;
+  if (input.intent === "remove") {
+    await removeMember(target, request);
+    return redirect(`/courses/${access.course.id}/members?removed=1`);
   }
+  await changeMemberRole({ ...target, role: input.role, cohortId: input.cohortId || null }, request);
   return { saved: true };
-}
+});
 
 export default function CourseMember({ loaderData, actionData }: Route.ComponentProps) {
   const { course, member, canEdit, cohorts } = loaderData;
   const busy = useNavigation().state !== "idle";
-  const errors = actionData && "errors" in actionData ? (actionData.errors as Record<string, string | undefined>) : {};
+  const [roleForm, roleFields] = useForm({
+    id: "change-role",
+    lastResult: replyFor(actionData, "change-role"),
+    defaultValue: { role: member.role, cohortId: member.cohortId ?? "" },
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: ({ formData }) => parseSubmission(formData, memberAction),
+  });
+  const [removeForm] = useForm({ id: "remove", lastResult: replyFor(actionData, "remove") });
   return (
     <div className="mx-auto max-w-2xl space-y-6">
       <PageHeader id="member-title" title={member.name}>
@@ -81,15 +85,14 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
               <Notice tone="success">Saved.</Notice>
             </div>
           ) : null}
-          <Form method="post" className="grid gap-3 sm:grid-cols-2 sm:items-end">
+          {roleForm.errors?.length ? (
+            <div className="mb-3">
+              <Notice tone="error">{roleForm.errors.join(" ")}</Notice>
+            </div>
+          ) : null}
+          <Form method="post" className="grid gap-3 sm:grid-cols-2 sm:items-end" {...getFormProps(roleForm)}>
             <input type="hidden" name="intent" value="change-role" />
-            <RoleAndCohortFields
-              role={member.role}
-              cohortId={member.cohortId ?? ""}
-              cohorts={cohorts}
-              errors={errors}
-              cohortLabel="Cohort (students only)"
-            />
+            <RoleAndCohortFields fields={roleFields} cohorts={cohorts} cohortLabel="Cohort (students only)" />
             <div className="sm:col-span-2">
               <Button type="submit" disabled={busy}>
                 Save
@@ -104,12 +107,12 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
             Remove from the course
           </h2>
           <p className="mb-3 text-sm text-ink-700">They lose access at once. Everything they handed in, and its marks, is kept.</p>
-          {errors.remove ? (
+          {removeForm.errors?.length ? (
             <div className="mb-3">
-              <Notice tone="error">{errors.remove}</Notice>
+              <Notice tone="error">{removeForm.errors.join(" ")}</Notice>
             </div>
           ) : null}
-          <Form method="post">
+          <Form method="post" {...getFormProps(removeForm)}>
             <input type="hidden" name="intent" value="remove" />
             <Button type="submit" disabled={busy}>
               Remove {member.name}

@@ -1,25 +1,34 @@
-import { RoleAndCohortFields } from "~/components/member-fields";
-import { roleWords } from "~/lib/courses/roles";
+import { getFormProps, useForm } from "@conform-to/react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members";
+import { RoleAndCohortFields } from "~/components/member-fields";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { parseForm } from "~/lib/forms/parse-form";
+import { AppError } from "~/lib/app-error";
+import { roleWords } from "~/lib/courses/roles";
+import { parseSubmission } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { normaliseEmail } from "~/server/auth/sign-in.server";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { createInvitations } from "~/server/members/invitations.server";
 import { listCohorts, listMembers, listOpenInvitations } from "~/server/members/members.server";
 
-const inviteSchema = z.object({
-  intent: z.literal("invite"),
+const person = z.object({
   email: z.email("Enter the person's e-mail address.").max(254),
   name: z.string().trim().max(120).optional(),
   role: z.enum(["student", "ta", "instructor"], "Choose a role."),
   cohortId: z.union([z.literal(""), z.uuid()]).optional(),
 });
+const inviteSchema = z.object({ intent: z.literal("invite"), people: z.array(person).min(1, "Add the person to invite.") });
+const newPerson = { email: "", name: "", role: "student", cohortId: "" };
+const skippedWords = {
+  "already a member": { field: "email", message: "This person is a member of the course already." },
+  "unknown cohort": { field: "cohortId", message: "Choose one of this course's cohorts." },
+} as const;
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
@@ -31,36 +40,39 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   return { course: access.course, members, invitations, cohorts };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const form = parseForm(inviteSchema, await request.formData());
-  if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
-  const { email, name, role, cohortId } = form.data;
-  const result = await db.transaction((tx) =>
-    createInvitations(
-      tx,
-      { id: access.user.id, name: access.user.name },
-      access.course.id,
-      [{ email, name, role, cohortId: cohortId || null }],
-      request,
-    ),
-  );
-  if (result.skipped.length > 0) {
-    const reason =
-      result.skipped[0].reason === "already a member"
-        ? "This person is a member of the course already."
-        : "Choose one of this course's cohorts.";
-    const field = result.skipped[0].reason === "already a member" ? "email" : "cohortId";
-    return data({ errors: { [field]: reason }, values: { email, name: name ?? "", role, cohortId: cohortId ?? "" } }, { status: 400 });
-  }
-  return { invited: email };
-}
+  const submission = parseSubmission(formData, inviteSchema);
+  // A row added or removed without JavaScript comes back as the form to go on with, not as a refusal.
+  if (submission.status !== "success") return data(submission.reply(), { status: submission.status === "error" ? 400 : 200 });
+  const { people } = submission.value;
+  await db.transaction(async (tx) => {
+    const inviter = { id: access.user.id, name: access.user.name };
+    const rows = people.map((row) => ({ ...row, cohortId: row.cohortId || null }));
+    const { skipped } = await createInvitations(tx, inviter, access.course.id, rows, request);
+    // All or none: a row refused rolls the others back, so that sending again invites nobody twice.
+    if (skipped.length > 0) {
+      const issues = skipped.map(({ email, reason }) => {
+        const index = people.findIndex((row) => normaliseEmail(row.email) === email);
+        return { path: ["people", index, skippedWords[reason].field], message: skippedWords[reason].message };
+      });
+      throw new AppError({ code: "invitation_refused", message: "No invitation was sent: see the marked rows.", issues });
+    }
+  });
+  return { invited: people.map((row) => row.email) };
+});
 
 export default function CourseMembers({ loaderData, actionData }: Route.ComponentProps) {
   const { course, members, invitations, cohorts } = loaderData;
   const busy = useNavigation().state !== "idle";
-  const errors = actionData && "errors" in actionData ? (actionData.errors as Record<string, string | undefined>) : {};
-  const values = actionData && "values" in actionData ? actionData.values : {};
+  const [form, fields] = useForm({
+    lastResult: actionData && "invited" in actionData ? undefined : actionData,
+    defaultValue: { people: [newPerson] },
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: ({ formData }) => parseSubmission(formData, inviteSchema),
+  });
+  const people = fields.people.getFieldList();
   return (
     <div className="space-y-8">
       <PageHeader id="members-title" title="Members">
@@ -73,24 +85,45 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
         </h2>
         {actionData && "invited" in actionData ? (
           <div className="mb-3">
-            <Notice tone="success">Invitation e-mailed to {actionData.invited}. The link works once, for 14 days.</Notice>
+            <Notice tone="success">
+              {actionData.invited.length === 1
+                ? `Invitation e-mailed to ${actionData.invited[0]}. The link works once, for 14 days.`
+                : `Invitations e-mailed to ${actionData.invited.join(", ")}. Each link works once, for 14 days.`}
+            </Notice>
           </div>
         ) : null}
-        <Form method="post" className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4 lg:items-end">
+        <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="invite" />
-          <TextField label="E-mail address" name="email" type="email" required defaultValue={values.email} error={errors.email} />
-          <TextField label="Name (optional)" name="name" defaultValue={values.name} error={errors.name} />
-          <RoleAndCohortFields
-            role={values.role ?? "student"}
-            cohortId={values.cohortId ?? ""}
-            cohorts={cohorts}
-            errors={errors}
-            cohortLabel="Cohort (students: their cohort; TAs: the cohort they mark)"
-          />
-          <div className="sm:col-span-2 lg:col-span-4">
+          {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}
+          {people.map((row, index) => {
+            const rowFields = row.getFieldset();
+            return (
+              <fieldset key={row.key} className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4 lg:items-end">
+                <legend className="sr-only">Person {index + 1}</legend>
+                <TextField label="E-mail address" field={rowFields.email} type="email" required />
+                <TextField label="Name (optional)" field={rowFields.name} />
+                <RoleAndCohortFields
+                  fields={rowFields}
+                  cohorts={cohorts}
+                  cohortLabel="Cohort (students: their cohort; TAs: the cohort they mark)"
+                />
+              </fieldset>
+            );
+          })}
+          {fields.people.errors?.length ? <Notice tone="error">{fields.people.errors.join(" ")}</Notice> : null}
+          {/* Sending comes first: Enter in a field presses the form's first button. */}
+          <div className="flex flex-wrap gap-3">
             <Button type="submit" disabled={busy}>
-              Send the invitation
+              {people.length === 1 ? "Send the invitation" : `Send the ${people.length} invitations`}
             </Button>
+            <Button variant="secondary" {...form.insert.getButtonProps({ name: fields.people.name, defaultValue: newPerson })}>
+              Add another person
+            </Button>
+            {people.length > 1 ? (
+              <Button variant="secondary" {...form.remove.getButtonProps({ name: fields.people.name, index: people.length - 1 })}>
+                Remove the last person
+              </Button>
+            ) : null}
           </div>
         </Form>
       </section>

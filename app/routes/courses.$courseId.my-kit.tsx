@@ -1,3 +1,4 @@
+import { getFormProps, getInputProps, useForm } from "@conform-to/react";
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.my-kit";
@@ -8,10 +9,11 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { describePart } from "~/lib/kits/describe-part";
-import { fieldErrors, formFailure, formValues } from "~/lib/forms/parse-form";
-import { requireCourseRole, type RequestScope } from "~/server/auth/access.server";
 import { AppError } from "~/lib/app-error";
+import { parseSubmission, replyFor } from "~/lib/forms/submission";
+import { requireCourseRole, type RequestScope } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { confirmArrival, findKitOfMember, getKit, reportKitProblem } from "~/server/kits/kits.server";
 
 const myKitAction = z.discriminatedUnion("intent", [
@@ -38,48 +40,43 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   return { kit: mine };
 }
 
-export async function action({ request, params, context }: Route.ActionArgs) {
+export const action = formAction(async ({ request, params, context, formData }: Route.ActionArgs & { formData: FormData }) => {
   const { access, kit } = await loadMyKit({ request, context }, params.courseId);
   if (!kit) throw data("You hold no kit in this course.", { status: 404 });
-  const form = await request.formData();
-  const values = formValues(form);
-  const parsed = myKitAction.safeParse(values);
-  if (!parsed.success) return formFailure(values, fieldErrors(parsed.error), { intent: values.intent });
-  const input = parsed.data;
-  const partIds = kit.parts.map(({ part }) => part.id);
-  try {
-    if (input.intent === "arrived") {
-      await confirmArrival(db, {
-        courseId: access.course.id,
-        actorId: access.user.id,
-        kitId: kit.id,
-        complete: input.complete === "yes",
-        note: input.note,
-      });
-      return { intent: input.intent, saved: "Thank you: your kit is marked as at home." };
-    }
-    if (input.partId && !partIds.includes(input.partId))
-      return formFailure(values, { partId: ["That part is not in your kit."] }, { intent: input.intent });
-    await reportKitProblem(db, {
-      courseId: access.course.id,
-      kitId: kit.id,
-      actorId: access.user.id,
-      partId: input.partId,
-      problem: input.problem,
-      note: input.note,
-    });
-    return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return formFailure(values, { form: [error.message] }, { intent: values.intent });
-    throw error;
+  const submission = parseSubmission(formData, myKitAction);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const input = submission.value;
+  const scope = { courseId: access.course.id, actorId: access.user.id, kitId: kit.id };
+  if (input.intent === "arrived") {
+    await confirmArrival(db, { ...scope, complete: input.complete === "yes", note: input.note });
+    return { intent: input.intent, saved: "Thank you: your kit is marked as at home." };
   }
-}
+  if (input.partId && !kit.parts.some(({ part }) => part.id === input.partId))
+    throw new AppError({ code: "kit_refused", message: "That part is not in your kit.", field: "partId" });
+  await reportKitProblem(db, { ...scope, partId: input.partId, problem: input.problem, note: input.note });
+  return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
+});
 
 export default function MyKit({ loaderData, actionData }: Route.ComponentProps) {
   const { kit } = loaderData;
   const navigation = useNavigation();
-  const failure = actionData && "errors" in actionData ? actionData : null;
+  const validate = ({ formData }: { formData: FormData }) => parseSubmission(formData, myKitAction);
+  const [arrivedForm, arrivedFields] = useForm({
+    id: "arrived",
+    lastResult: replyFor(actionData, "arrived"),
+    defaultValue: { complete: "yes" },
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: validate,
+  });
+  const [reportForm, reportFields] = useForm({
+    id: "report",
+    lastResult: replyFor(actionData, "report"),
+    defaultValue: { partId: "", problem: "damaged" },
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: validate,
+  });
   if (!kit) {
     return (
       <div className="flex flex-col gap-4">
@@ -101,22 +98,23 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
         ) : null}
       </PageHeader>
       {actionData && "saved" in actionData ? <Notice tone="success">{actionData.saved}</Notice> : null}
-      {failure?.errors.form ? <Notice tone="error">{failure.errors.form.join(" ")}</Notice> : null}
 
       {kit.state === "in_transit" ? (
-        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10" {...getFormProps(arrivedForm)}>
           <input type="hidden" name="intent" value="arrived" />
           <h2 className="font-semibold">Has your kit arrived?</h2>
+          {arrivedForm.errors?.length ? <Notice tone="error">{arrivedForm.errors.join(" ")}</Notice> : null}
           <fieldset className="flex flex-col gap-1 text-sm">
             <legend className="sr-only">Was it complete?</legend>
             <label className="flex items-center gap-2">
-              <input type="radio" name="complete" value="yes" defaultChecked /> Yes, and everything on the list below is there
+              <input {...getInputProps(arrivedFields.complete, { type: "radio", value: "yes" })} /> Yes, and everything on the list below is
+              there
             </label>
             <label className="flex items-center gap-2">
-              <input type="radio" name="complete" value="no" /> Yes, but something is missing or broken
+              <input {...getInputProps(arrivedFields.complete, { type: "radio", value: "no" })} /> Yes, but something is missing or broken
             </label>
           </fieldset>
-          <TextAreaField label="Anything to add (optional)" name="note" rows={2} />
+          <TextAreaField label="Anything to add (optional)" field={arrivedFields.note} rows={2} />
           <Button type="submit" disabled={navigation.state === "submitting"}>
             Confirm arrival
           </Button>
@@ -143,10 +141,11 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
       </section>
 
       {["in_transit", "at_home"].includes(kit.state) ? (
-        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10" {...getFormProps(reportForm)}>
           <input type="hidden" name="intent" value="report" />
           <h2 className="font-semibold">Report a missing or damaged part</h2>
-          <SelectField label="Which part" name="partId" defaultValue={failure?.values.partId ?? ""} error={failure?.errors.partId}>
+          {reportForm.errors?.length ? <Notice tone="error">{reportForm.errors.join(" ")}</Notice> : null}
+          <SelectField label="Which part" field={reportFields.partId}>
             <option value="">Not sure / the whole kit</option>
             {parts.map((part) => (
               <option key={part.id} value={part.id}>
@@ -154,23 +153,11 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
               </option>
             ))}
           </SelectField>
-          <SelectField
-            label="What happened"
-            name="problem"
-            defaultValue={failure?.values.problem ?? "damaged"}
-            error={failure?.errors.problem}
-          >
+          <SelectField label="What happened" field={reportFields.problem}>
             <option value="damaged">It is damaged</option>
             <option value="missing">It is missing</option>
           </SelectField>
-          <TextAreaField
-            label="Describe it"
-            name="note"
-            rows={3}
-            required
-            defaultValue={failure?.values.note ?? ""}
-            error={failure?.errors.note}
-          />
+          <TextAreaField label="Describe it" field={reportFields.note} rows={3} required />
           <Button type="submit" variant="secondary">
             Send the report
           </Button>

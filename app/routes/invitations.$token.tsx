@@ -1,3 +1,4 @@
+import { getFormProps, useForm } from "@conform-to/react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/invitations.$token";
@@ -7,9 +8,10 @@ import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { PASSWORD_MIN_LENGTH, newPasswordField } from "~/lib/auth/password-policy";
-import { parseForm } from "~/lib/forms/parse-form";
+import { parseSubmission } from "~/lib/forms/submission";
 import { getOptionalUser } from "~/server/auth/access.server";
 import { redirectWithNewSession } from "~/server/auth/session-responses.server";
+import { formAction } from "~/server/errors.server";
 import { acceptInvitation, findInvitation } from "~/server/members/invitations.server";
 
 const acceptInvitationSchema = z
@@ -35,23 +37,25 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
-  const form = parseForm(acceptInvitationSchema, await request.formData());
-  if (!form.ok) return data({ errors: form.errors, values: form.values }, { status: 400 });
+// Passwords never travel back into the page.
+const hideFields = ["password", "confirmPassword"];
+
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
+  const submission = parseSubmission(formData, acceptInvitationSchema);
+  if (submission.status !== "success") return data(submission.reply({ hideFields }), { status: 400 });
   const user = await getOptionalUser({ request, context });
-  const result = await acceptInvitation(
-    params.token,
-    { name: form.data.name, password: form.data.password || null },
-    user?.id ?? null,
-    request,
-  );
-  if (result.outcome === "invalid")
-    return data({ formError: "This invitation has been used already or has expired. Ask your instructor for a new one." }, { status: 410 });
+  const { name, password } = submission.value;
+  const result = await acceptInvitation(params.token, { name, password: password || null }, user?.id ?? null, request);
+  if (result.outcome === "invalid") {
+    const formErrors = ["This invitation has been used already or has expired. Ask your instructor for a new one."];
+    return data(submission.reply({ formErrors, hideFields }), { status: 410 });
+  }
   if (result.outcome === "other-account") {
-    return data({ formError: `This invitation is for ${result.invitedEmail}. Sign out first, then open the link again.` }, { status: 409 });
+    const formErrors = [`This invitation is for ${result.invitedEmail}. Sign out first, then open the link again.`];
+    return data(submission.reply({ formErrors, hideFields }), { status: 409 });
   }
   return redirectWithNewSession({ request, context }, "/", result);
-}
+});
 
 // The token is in the address: other sites must not see it in a Referer header.
 export const headers: Route.HeadersFunction = () => ({ "Referrer-Policy": "strict-origin" });
@@ -59,7 +63,14 @@ export const headers: Route.HeadersFunction = () => ({ "Referrer-Policy": "stric
 export default function AcceptInvitation({ loaderData, actionData }: Route.ComponentProps) {
   const { invitation, signedInAs } = loaderData;
   const busy = useNavigation().state !== "idle";
-  const errors = actionData && "errors" in actionData ? actionData.errors : undefined;
+  const [form, fields] = useForm({
+    lastResult: actionData,
+    defaultValue: { name: invitation.name ?? "" },
+    shouldValidate: "onBlur",
+    // Once shown, an error goes as the field is corrected: clearing it on blur would move the button from under a click.
+    shouldRevalidate: "onInput",
+    onValidate: ({ formData }) => parseSubmission(formData, acceptInvitationSchema),
+  });
   const heading = `Join ${invitation.courseCode} ${invitation.courseTitle}`;
   if (invitation.state !== "open") {
     return (
@@ -92,9 +103,9 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
       <PageHeader id="invitation-title" title={heading}>
         {`${invitation.inviterName ?? "Your instructor"} invited ${invitation.email} to join as ${roleWords[invitation.role]}${invitation.cohortName ? `, in ${invitation.cohortName}` : ""}.`}
       </PageHeader>
-      {actionData && "formError" in actionData ? (
+      {form.errors?.length ? (
         <div className="mb-4">
-          <Notice tone="error">{actionData.formError}</Notice>
+          <Notice tone="error">{form.errors.join(" ")}</Notice>
         </div>
       ) : null}
       {wrongAccount ? (
@@ -106,37 +117,23 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
           first, then open the link again.
         </Notice>
       ) : (
-        <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
+        <Form method="post" className="space-y-4 rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10" {...getFormProps(form)}>
           {invitation.hasAccount ? (
             <p className="text-ink-700">
               You already have a Benchpost account with this address: accepting adds the course to it and signs you in.
             </p>
           ) : (
             <>
-              <TextField
-                label="Your name"
-                name="name"
-                autoComplete="name"
-                required
-                defaultValue={actionData && "values" in actionData ? actionData.values.name : (invitation.name ?? "")}
-                error={errors?.name}
-              />
+              <TextField label="Your name" field={fields.name} autoComplete="name" required />
               <TextField
                 label="Choose a password (optional)"
-                name="password"
+                field={fields.password}
                 type="password"
                 autoComplete="new-password"
                 minLength={PASSWORD_MIN_LENGTH}
                 hint="Leave it empty to sign in with a link e-mailed to you each time."
-                error={errors?.password}
               />
-              <TextField
-                label="The same password again"
-                name="confirmPassword"
-                type="password"
-                autoComplete="new-password"
-                error={errors?.confirmPassword}
-              />
+              <TextField label="The same password again" field={fields.confirmPassword} type="password" autoComplete="new-password" />
             </>
           )}
           <Button type="submit" disabled={busy}>

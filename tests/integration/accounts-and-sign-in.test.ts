@@ -427,7 +427,13 @@ describe("invitations", () => {
     const response = await handle(
       appRequest(`/courses/${fixture.courseId}/members`, {
         cookie,
-        form: { intent: "invite", email, name: "Invited Person", role, cohortId },
+        form: {
+          intent: "invite",
+          "people[0].email": email,
+          "people[0].name": "Invited Person",
+          "people[0].role": role,
+          "people[0].cohortId": cohortId,
+        },
       }),
     );
     expect(response.status).toBe(200);
@@ -472,7 +478,13 @@ describe("invitations", () => {
     const quoted = await handle(
       appRequest(`/courses/${fixture.courseId}/members`, {
         cookie,
-        form: { intent: "invite", email: "nan@accounts.example", name: 'Ann "Nan" <Lee>', role: "student", cohortId: fixture.cohortId },
+        form: {
+          intent: "invite",
+          "people[0].email": "nan@accounts.example",
+          "people[0].name": 'Ann "Nan" <Lee>',
+          "people[0].role": "student",
+          "people[0].cohortId": fixture.cohortId,
+        },
       }),
     );
     expect(quoted.status).toBe(200);
@@ -491,7 +503,13 @@ describe("invitations", () => {
     const long = await handle(
       appRequest(`/courses/${fixture.otherCourseId}/members`, {
         cookie: otherCookie,
-        form: { intent: "invite", email: "long@accounts.example", name: "", role: "ta", cohortId: "" },
+        form: {
+          intent: "invite",
+          "people[0].email": "long@accounts.example",
+          "people[0].name": "",
+          "people[0].role": "ta",
+          "people[0].cohortId": "",
+        },
       }),
     );
     expect(long.status).toBe(200);
@@ -499,6 +517,42 @@ describe("invitations", () => {
     expect(email.status).toBe("queued");
     expect(email.subject.length).toBeLessThanOrEqual(180);
     expect(email.subject).toMatch(/^Professor Long.*…$/);
+  });
+
+  it("invites several people from one form, and none when a row is refused, with the refusal at that row", async () => {
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const rows = (first: string, second: string) => ({
+      intent: "invite",
+      "people[0].email": first,
+      "people[0].role": "student",
+      "people[0].cohortId": fixture.cohortId,
+      "people[1].email": second,
+      "people[1].role": "ta",
+      "people[1].cohortId": "",
+    });
+    const refused = await handle(
+      appRequest(`/courses/${fixture.courseId}/members`, {
+        cookie,
+        form: rows("left.out@accounts.example", "ownstudent@accounts.example"),
+      }),
+    );
+    expect(refused.status).toBe(400);
+    const page = await refused.text();
+    expect(page).toContain("This person is a member of the course already.");
+    // What was typed comes back, the refused row's address included.
+    expect(page).toContain('value="left.out@accounts.example"');
+    expect(page).toContain('value="ownstudent@accounts.example"');
+    expect(await latestEmailTo("left.out@accounts.example")).toBeUndefined();
+
+    const sent = await handle(
+      appRequest(`/courses/${fixture.courseId}/members`, {
+        cookie,
+        form: rows("first.of.two@accounts.example", "second.of.two@accounts.example"),
+      }),
+    );
+    expect(sent.status).toBe(200);
+    expect(await sent.text()).toContain("Invitations e-mailed to first.of.two@accounts.example, second.of.two@accounts.example.");
+    expect((await latestEmailTo("second.of.two@accounts.example")).template).toBe("course-invitation");
   });
 
   it("tells the holder of a replaced invitation that a newer one was sent, instead of calling it expired", async () => {

@@ -4,6 +4,7 @@ import { emailOutbox, kitEvents, kitParts, kits, partEvents, parts } from "~/db/
 import { db } from "~/server/db.server";
 import { checkInKit, confirmArrival, createKit, listKits, moveKits, reportKitProblem } from "~/server/kits/kits.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { type AppHandler, appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countStatements } from "../support/count-statements";
 
 let fixture: AccessFixture;
@@ -232,5 +233,51 @@ describe("the kits table", () => {
     expect(ofCohortTwo.total).toBe(0);
     const ofCohortOne = await listKits(db, course.courseId, { page: 1, pageSize: 25, cohortIds: [course.cohortId] });
     expect(ofCohortOne.rows.map((row) => row.number)).toEqual(["K-01"]);
+  });
+});
+
+describe("the kit page", () => {
+  it("answers a refused move at its form, then checks the kit in with one row per part", async () => {
+    const handle: AppHandler = await createAppHandler();
+    const course = await createAccessFixture("kitpage");
+    const cookie = await sessionCookieFor(course.userIds.instructor);
+    const post = (form: Record<string, string>) => handle(appRequest(`/courses/${course.courseId}/kits/${course.kitId}`, { cookie, form }));
+
+    const refused = await post({ intent: "move", to: "retired", note: "worn out" });
+    expect(refused.status).toBe(400);
+    const page = await refused.text();
+    expect(page).toMatch(/cannot go to retired/);
+    expect(page).toContain("worn out");
+    expect((await kitState(course.kitId)).state).toBe("at_home");
+
+    expect((await post({ intent: "move", to: "coming_back" })).status).toBe(200);
+    const inKit = await db
+      .select({ id: parts.id, label: parts.label })
+      .from(kitParts)
+      .innerJoin(parts, eq(parts.id, kitParts.partId))
+      .where(eq(kitParts.kitId, course.kitId));
+    const id = (label: string) => inKit.find((part) => part.label === label)!.id;
+    const checkedIn = await post({
+      intent: "check-in",
+      "parts[0].partId": id("S-1"),
+      "parts[0].condition": "damaged",
+      "parts[1].partId": id("C-1"),
+      "parts[1].condition": "fine",
+      "parts[1].remeasure": "on",
+      "parts[2].partId": id("F-1"),
+      "parts[2].condition": "fine",
+      note: "back by post",
+    });
+    expect(checkedIn.status).toBe(200);
+    expect((await kitState(course.kitId)).state).toBe("checked_in");
+    const statuses = await db
+      .select({ label: parts.label, status: parts.status })
+      .from(parts)
+      .where(inArray(parts.id, [id("S-1"), id("C-1"), id("F-1")]));
+    expect(Object.fromEntries(statuses.map((part) => [part.label, part.status]))).toEqual({
+      "S-1": "retired",
+      "C-1": "remeasure",
+      "F-1": "in_service",
+    });
   });
 });

@@ -1,0 +1,48 @@
+import { formatDateTime } from "~/lib/format-date";
+import { kitStateLabels, type KitState } from "~/lib/kits/kit-states";
+
+type KitEvent = {
+  id: string;
+  createdAt: Date | string;
+  action: string;
+  fromState: KitState | null;
+  toState: KitState | null;
+  detail: Record<string, unknown>;
+  note: string | null;
+  actor: { name: string } | null;
+};
+
+/** The kit's journey, newest first, in the course's time zone. */
+export function KitHistory({ events, timeZone }: { events: KitEvent[]; timeZone: string }) {
+  return (
+    <section aria-labelledby="history-heading">
+      <h2 id="history-heading" className="mb-2 text-lg font-semibold">
+        History
+      </h2>
+      <ol className="flex flex-col gap-2 text-sm">
+        {events.map((event) => (
+          <li key={event.id} className="rounded-md bg-white px-3 py-2 ring-1 ring-ink-900/10">
+            <time dateTime={new Date(event.createdAt).toISOString()} className="text-ink-600">
+              {formatDateTime(event.createdAt, timeZone)}
+            </time>{" "}
+            · {event.actor?.name ?? "someone"} · <EventWords event={event} />
+            {event.note ? <span className="block text-ink-700">“{event.note}”</span> : null}
+          </li>
+        ))}
+      </ol>
+    </section>
+  );
+}
+
+function EventWords({ event }: { event: KitEvent }) {
+  if (event.action === "moved" && event.fromState && event.toState) {
+    return (
+      <span>
+        {kitStateLabels[event.fromState]} → <strong>{kitStateLabels[event.toState]}</strong>
+      </span>
+    );
+  }
+  if (event.action === "reported") return <strong className="text-outlier">Problem reported: {String(event.detail.problem ?? "")}</strong>;
+  if (event.action === "checked_in") return <span>Parts' condition recorded</span>;
+  return <span>{event.action === "created" ? "Made up and put on the shelf" : event.action}</span>;
+}
