@@ -4,7 +4,7 @@
  */
 import { relations, sql } from "drizzle-orm";
 import { boolean, index, jsonb, pgEnum, pgTable, primaryKey, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
-import { kitStates } from "../../lib/kits/kit-states";
+import { kitStates, type PartCondition } from "../../lib/kits/kit-states";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
 import { courseMemberships, courses } from "./courses";
@@ -77,6 +77,19 @@ export const parts = pgTable(
   ],
 );
 
+/**
+ * A part event's detail, by action: `created` (the checks it raised, `source` for an import),
+ * `remeasured` (each changed value, old and new, and the checks), `checked_in` (the kit, the part's condition).
+ */
+export type PartEventDetail = {
+  warnings?: { field: string; message: string }[];
+  source?: "csv-import";
+  changed?: Record<string, { from: unknown; to: unknown }>;
+  kitId?: string;
+  condition?: PartCondition;
+  remeasure?: boolean;
+};
+
 /** What happened to a part: created, re-measured (old and new values), sent for re-measurement, retired. */
 export const partEvents = pgTable(
   "part_events",
@@ -89,7 +102,7 @@ export const partEvents = pgTable(
     action: text("action").notNull(),
     note: text("note"),
     detail: jsonb("detail")
-      .$type<Record<string, unknown>>()
+      .$type<PartEventDetail>()
       .notNull()
       .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
@@ -149,6 +162,20 @@ export const kitParts = pgTable(
   ],
 );
 
+/**
+ * A kit event's detail, by action: `created` (its parts), `moved` (the holder after, the shipping),
+ * `checked_in` (each part's condition, those sent for re-measurement), `reported` (the part and the problem).
+ */
+export type KitEventDetail = {
+  partIds?: string[];
+  holderMembershipId?: string | null;
+  shipping?: { carrier: string; trackingNumber: string; shippedOn: string };
+  conditions?: Record<string, PartCondition>;
+  remeasure?: string[];
+  partId?: string | null;
+  problem?: "missing" | "damaged" | "incomplete";
+};
+
 /** Every change of a kit's state (and every report about it), with who, when and why. */
 export const kitEvents = pgTable(
   "kit_events",
@@ -164,7 +191,7 @@ export const kitEvents = pgTable(
     action: text("action").notNull(),
     note: text("note"),
     detail: jsonb("detail")
-      .$type<Record<string, unknown>>()
+      .$type<KitEventDetail>()
       .notNull()
       .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),

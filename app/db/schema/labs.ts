@@ -18,6 +18,8 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import type { DropLogDraft, DropLogInput } from "../../lib/drop-logs/drop-log-input";
+import type { KitRecords, StoredReduction } from "../../lib/drop-logs/reduce-drop-log";
 import { afterReleaseHandInPolicies } from "../../lib/marking/release";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
@@ -104,8 +106,8 @@ export const labCohorts = pgTable(
  * every reader of versions sees the latest without a join. Fresh builders each call: a column belongs to one table.
  */
 const reductionColumns = () => ({
-  kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
-  reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
+  kitRecords: jsonb("kit_records").$type<KitRecords>().notNull(),
+  reduction: jsonb("reduction").$type<StoredReduction>().notNull(),
   /** measured/reference viscosity (viscometry) or C_D/C_D,ref (drag): comparable across kits and temperatures. */
   normalisedFigure: real("normalised_figure"),
   reynolds: real("reynolds"),
@@ -128,7 +130,7 @@ export const dropLogs = pgTable(
     /** The version that counts: the latest handed in. */
     latestVersionId: uuid("latest_version_id"),
     /** The student's unsent form, saved as they type so that nothing is lost to a reload or a dropped connection. */
-    draft: jsonb("draft").$type<Record<string, unknown>>(),
+    draft: jsonb("draft").$type<DropLogDraft>(),
     draftSavedAt: timestamp("draft_saved_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
@@ -162,7 +164,7 @@ export const dropLogVersions = pgTable(
     sphereId: uuid("sphere_id").references(() => parts.id, { onDelete: "restrict" }),
     fluidLotId: uuid("fluid_lot_id").references(() => parts.id, { onDelete: "restrict" }),
     columnId: uuid("column_id").references(() => parts.id, { onDelete: "restrict" }),
-    input: jsonb("input").$type<Record<string, unknown>>().notNull(),
+    input: jsonb("input").$type<DropLogInput>().notNull(),
     ...reductionColumns(),
     /** The revision the reduction columns copy: 1 at hand-in, one more for each part correction. */
     currentRevision: integer("current_revision").notNull().default(1),

@@ -9,7 +9,7 @@ import { AppError, type ErrorIssue } from "~/lib/app-error";
 import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
-import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { dropLogDraft, dropLogInput, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { effectiveHandInWindow, handInTiming, type HandInWindow } from "~/lib/drop-logs/hand-in-window";
 import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/lib/drop-logs/reduce-drop-log";
 import type { AllowedPartKind } from "~/lib/labs/lab-input";
@@ -329,7 +329,7 @@ export async function handInDropLog(
         columnId: kitRecords.column.id,
         input: parsed,
         kitRecords,
-        reduction: { ...reduction, warnings } as unknown as Record<string, unknown>,
+        reduction: { ...reduction, warnings },
         normalisedFigure,
         reynolds: reduction.reynolds,
         dragCoefficient: reduction.dragCoefficient,
@@ -419,7 +419,7 @@ export async function getDropLogForStudent(executor: Executor, { labId, membersh
   });
   if (!dropLog) return null;
   const draft = dropLogDraft.safeParse(dropLog.draft ?? {});
-  return { ...dropLog, draft: (draft.success ? draft.data : {}) as DropLogDraft };
+  return { ...dropLog, draft: draft.success ? draft.data : {} };
 }
 
 /** Every version of a drop log, newest first. Versions are never changed or deleted. */

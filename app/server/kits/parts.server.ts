@@ -372,7 +372,7 @@ export async function importParts(
           partId: part.id,
           actorId,
           action: "created",
-          detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] },
+          detail: { source: "csv-import" as const, warnings: warningsByLabel.get(part.label) ?? [] },
         })),
       );
       return {
