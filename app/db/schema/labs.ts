@@ -6,6 +6,7 @@ import { relations, sql } from "drizzle-orm";
 import {
   boolean,
   check,
+  doublePrecision,
   index,
   integer,
   jsonb,
@@ -20,6 +21,7 @@ import {
 } from "drizzle-orm/pg-core";
 import type { DropLogDraft, DropLogInput } from "../../lib/drop-logs/drop-log-input";
 import type { KitRecords, StoredReduction } from "../../lib/drop-logs/reduce-drop-log";
+import type { Reduction } from "../../lib/reduction";
 import { afterReleaseHandInPolicies } from "../../lib/marking/release";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
@@ -165,6 +167,13 @@ export const dropLogVersions = pgTable(
     fluidLotId: uuid("fluid_lot_id").references(() => parts.id, { onDelete: "restrict" }),
     columnId: uuid("column_id").references(() => parts.id, { onDelete: "restrict" }),
     input: jsonb("input").$type<DropLogInput>().notNull(),
+    // Copied out of the JSON at hand-in, so that pages filter and sort on columns; null in hand-ins without them.
+    /** The input's fluid temperature. */
+    temperatureC: doublePrecision("temperature_c"),
+    /** The kit records' g (m/s²), fed again to every re-reduction. */
+    gravity: doublePrecision("gravity"),
+    /** The reduction's mode; a re-reduction copies it with the rest of the reduction. */
+    reductionMode: text("reduction_mode").$type<Reduction["mode"]>(),
     ...reductionColumns(),
     /** The revision the reduction columns copy: 1 at hand-in, one more for each part correction. */
     currentRevision: integer("current_revision").notNull().default(1),
