@@ -413,7 +413,8 @@ export async function getDropLogForStudent(executor: Executor, { labId, membersh
   const dropLog = await executor.query.dropLogs.findFirst({
     where: and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)),
     with: {
-      versions: { orderBy: [desc(dropLogVersions.version)] },
+      // The columns copied out of the JSON are for filtering and sorting; a version reads as the JSON it copies.
+      versions: { columns: { temperatureC: false, gravity: false, reductionMode: false }, orderBy: [desc(dropLogVersions.version)] },
       photos: {
         orderBy: [asc(dropLogPhotos.createdAt)],
         columns: { id: true, versionId: true, contentType: true, bytes: true, originalName: true, createdAt: true },
