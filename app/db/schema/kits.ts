@@ -2,7 +2,7 @@
  * Kit inventory: measured parts, kits made of them, and the history of both.
  * Lengths are in mm and masses in g, as measured at the bench; the reduction converts to SI.
  */
-import { relations, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import { boolean, index, jsonb, pgEnum, pgTable, primaryKey, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { kitStates, type PartCondition } from "../../lib/kits/kit-states";
 import { users } from "./accounts";
@@ -198,31 +198,3 @@ export const kitEvents = pgTable(
   },
   (table) => [index("kit_events_kit_created_idx").on(table.kitId, table.createdAt)],
 );
-
-export const partsRelations = relations(parts, ({ one, many }) => ({
-  course: one(courses, { fields: [parts.courseId], references: [courses.id] }),
-  events: many(partEvents),
-  kitParts: many(kitParts),
-}));
-
-export const partEventsRelations = relations(partEvents, ({ one }) => ({
-  part: one(parts, { fields: [partEvents.partId], references: [parts.id] }),
-  actor: one(users, { fields: [partEvents.actorId], references: [users.id] }),
-}));
-
-export const kitsRelations = relations(kits, ({ one, many }) => ({
-  course: one(courses, { fields: [kits.courseId], references: [courses.id] }),
-  holder: one(courseMemberships, { fields: [kits.holderMembershipId], references: [courseMemberships.id] }),
-  parts: many(kitParts),
-  events: many(kitEvents),
-}));
-
-export const kitPartsRelations = relations(kitParts, ({ one }) => ({
-  kit: one(kits, { fields: [kitParts.kitId], references: [kits.id] }),
-  part: one(parts, { fields: [kitParts.partId], references: [parts.id] }),
-}));
-
-export const kitEventsRelations = relations(kitEvents, ({ one }) => ({
-  kit: one(kits, { fields: [kitEvents.kitId], references: [kits.id] }),
-  actor: one(users, { fields: [kitEvents.actorId], references: [users.id] }),
-}));

@@ -2,7 +2,7 @@
  * Labs and drop logs. A lab is an experiment kind published to cohorts; a drop log is one student's
  * hand-in for it, kept as immutable versions. The latest version handed in counts.
  */
-import { relations, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import {
   boolean,
   check,
@@ -322,32 +322,3 @@ export const labExtensions = pgTable(
     check("lab_extensions_cutoff_after_due", sql`${table.lateCutoffAt} is null or ${table.lateCutoffAt} >= ${table.dueAt}`),
   ],
 );
-
-export const labsRelations = relations(labs, ({ one, many }) => ({
-  course: one(courses, { fields: [labs.courseId], references: [courses.id] }),
-  cohorts: many(labCohorts),
-  dropLogs: many(dropLogs),
-}));
-
-export const labCohortsRelations = relations(labCohorts, ({ one }) => ({
-  lab: one(labs, { fields: [labCohorts.labId], references: [labs.id] }),
-  cohort: one(cohorts, { fields: [labCohorts.cohortId], references: [cohorts.id] }),
-}));
-
-export const dropLogsRelations = relations(dropLogs, ({ one, many }) => ({
-  lab: one(labs, { fields: [dropLogs.labId], references: [labs.id] }),
-  membership: one(courseMemberships, { fields: [dropLogs.membershipId], references: [courseMemberships.id] }),
-  versions: many(dropLogVersions),
-  photos: many(dropLogPhotos),
-}));
-
-export const dropLogVersionsRelations = relations(dropLogVersions, ({ one, many }) => ({
-  dropLog: one(dropLogs, { fields: [dropLogVersions.dropLogId], references: [dropLogs.id] }),
-  submittedBy: one(users, { fields: [dropLogVersions.submittedById], references: [users.id] }),
-  photos: many(dropLogPhotos),
-}));
-
-export const dropLogPhotosRelations = relations(dropLogPhotos, ({ one }) => ({
-  dropLog: one(dropLogs, { fields: [dropLogPhotos.dropLogId], references: [dropLogs.id] }),
-  version: one(dropLogVersions, { fields: [dropLogPhotos.versionId], references: [dropLogVersions.id] }),
-}));

@@ -6,7 +6,7 @@
  * it exclusively, waits for: a hand-in then sees whether that release covered the student's mark).
  */
 import { AppError, type ErrorIssue } from "~/lib/app-error";
-import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
+import { and, asc, desc, eq, getTableColumns, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
 import { dropLogDraft, dropLogInput, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
@@ -17,6 +17,7 @@ import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { queueClassComparison } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { jsonRows } from "~/server/json-rows.server";
 import { markingLock } from "~/server/marking/marks.server";
 
 export type HandInRefusalCode =
@@ -410,17 +411,30 @@ export type StoredVersion = typeof dropLogVersions.$inferSelect;
  * The caller has checked that the viewer may see this student's work.
  */
 export async function getDropLogForStudent(executor: Executor, { labId, membershipId }: { labId: string; membershipId: string }) {
-  const dropLog = await executor.query.dropLogs.findFirst({
-    where: and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)),
-    with: {
-      // The columns copied out of the JSON are for filtering and sorting; a version reads as the JSON it copies.
-      versions: { columns: { temperatureC: false, gravity: false, reductionMode: false }, orderBy: [desc(dropLogVersions.version)] },
-      photos: {
-        orderBy: [asc(dropLogPhotos.createdAt)],
-        columns: { id: true, versionId: true, contentType: true, bytes: true, originalName: true, createdAt: true },
-      },
+  // The columns copied out of the JSON are for filtering and sorting; a version reads as the JSON it copies.
+  const { temperatureC: _temperature, gravity: _gravity, reductionMode: _mode, ...versionColumns } = getTableColumns(dropLogVersions);
+  const versions = jsonRows(
+    versionColumns,
+    sql`from ${dropLogVersions} where ${dropLogVersions.dropLogId} = ${dropLogs.id}`,
+    sql`${dropLogVersions.version} desc`,
+  );
+  const photos = jsonRows(
+    {
+      id: dropLogPhotos.id,
+      versionId: dropLogPhotos.versionId,
+      contentType: dropLogPhotos.contentType,
+      bytes: dropLogPhotos.bytes,
+      originalName: dropLogPhotos.originalName,
+      createdAt: dropLogPhotos.createdAt,
     },
-  });
+    sql`from ${dropLogPhotos} where ${dropLogPhotos.dropLogId} = ${dropLogs.id}`,
+    sql`${dropLogPhotos.createdAt} asc`,
+  );
+  const [row] = await executor
+    .select({ dropLog: dropLogs, versions: versions.column, photos: photos.column })
+    .from(dropLogs)
+    .where(and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)));
+  const dropLog = row && { ...row.dropLog, versions: versions.read(row.versions), photos: photos.read(row.photos) };
   if (!dropLog) return null;
   const draft = dropLogDraft.safeParse(dropLog.draft ?? {});
   return { ...dropLog, draft: draft.success ? draft.data : {} };
