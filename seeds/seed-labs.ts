@@ -9,7 +9,7 @@
  */
 import type { Faker } from "@faker-js/faker";
 import { eq } from "drizzle-orm";
-import { cohorts, courseMemberships, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
+import { cohorts, courseMemberships, courses, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { fitFluidViscosity, viscosityAt } from "~/lib/reduction";
@@ -96,7 +96,7 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
   const byStudent = new Map<string, typeof holders>();
   for (const row of holders) byStudent.set(row.membershipId, [...(byStudent.get(row.membershipId) ?? []), row]);
 
-  const [course] = await db.query.courses.findMany({ where: (c, { eq: equals }) => equals(c.id, courseId) });
+  const [course] = await db.select().from(courses).where(eq(courses.id, courseId));
   const students = [...byStudent.values()];
   // Students whose kit has not reached them yet hand nothing in, but for one, who hands in the open lab
   // anyway (a borrowed kit): that hand-in carries the kit-not-at-home warning staff see.

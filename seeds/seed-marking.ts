@@ -8,7 +8,7 @@
  */
 import type { Faker } from "@faker-js/faker";
 import { and, eq, inArray } from "drizzle-orm";
-import { courseMemberships, courses, labs, taCohortAssignments, users } from "~/db/schema";
+import { cohorts, courseMemberships, courses, labs, taCohortAssignments, users } from "~/db/schema";
 import type { RubricInput } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Database } from "~/server/db.server";
@@ -149,7 +149,7 @@ export async function seedMarking(db: Database, faker: Faker, { courseId }: { co
         staffRows.map((row) => row.membershipId),
       ),
     );
-  const courseCohorts = await db.query.cohorts.findMany({ where: (cohort, { eq: equals }) => equals(cohort.courseId, courseId) });
+  const courseCohorts = await db.select().from(cohorts).where(eq(cohorts.courseId, courseId));
   const staff = (email: string): StaffRow => {
     const row = staffRows.find((candidate) => candidate.email === email)!;
     const cohortIds =

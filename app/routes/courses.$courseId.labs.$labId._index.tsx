@@ -66,8 +66,7 @@ export async function loader({ request, params, context: routerContext }: Route.
     ).entries(),
   ];
   const versions = dropLog?.versions ?? [];
-  const draft =
-    dropLog && Object.keys(dropLog.draft).length ? dropLog.draft : versions[0] ? draftFromInput(versions[0].input as DropLogInput) : {};
+  const draft = dropLog && Object.keys(dropLog.draft).length ? dropLog.draft : versions[0] ? draftFromInput(versions[0].input) : {};
   return {
     courseId: access.course.id,
     timeZone: access.course.timeZone,

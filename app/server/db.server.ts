@@ -3,11 +3,10 @@
  */
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import pg from "pg";
-import * as schema from "~/db/schema";
 import { environment } from "./env.server";
 import { logger } from "~/server/log.server";
 
-export type Database = NodePgDatabase<typeof schema>;
+export type Database = NodePgDatabase;
 /** A transaction handle: business changes and the e-mails or jobs they cause share one. */
 export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
 export type Executor = Database | Transaction;
@@ -26,7 +25,7 @@ export function createPool(connectionString = environment().DATABASE_URL): pg.Po
 }
 
 export function createDatabase(pool: pg.Pool): Database {
-  return drizzle(pool, { schema });
+  return drizzle(pool);
 }
 
 // Kept on globalThis so that hot reload in development does not open a new pool per edit.

@@ -144,7 +144,7 @@ describe("the server's reduction", () => {
       },
       requiredDrops: 5,
     });
-    const { warnings, ...reduction } = stored.reduction as Record<string, unknown>;
+    const { warnings, ...reduction } = stored.reduction;
     expect(reduction).toEqual(JSON.parse(JSON.stringify(expected)));
     expect(Array.isArray(warnings)).toBe(true);
     expect(stored.reynolds).toBeCloseTo(expected.reynolds, 6);

@@ -6,6 +6,8 @@
 import { randomUUID } from "node:crypto";
 import { eq, sql } from "drizzle-orm";
 import { courseMemberships, dropLogs, dropLogVersions, users } from "~/db/schema";
+import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import type { KitRecords, StoredReduction } from "~/lib/drop-logs/reduce-drop-log";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor } from "~/server/db.server";
 
@@ -64,9 +66,10 @@ export async function seedClass(
       idempotencyKey: `${label}-${row.index}`,
       sphereId: row.sphereId ?? null,
       fluidLotId: row.fluidLotId ?? null,
-      input: { temperatureC: 21 + (row.index % 4) },
-      kitRecords: { fluidLot: { viscosityPaS: 1.2 } },
-      reduction: {},
+      input: { temperatureC: 21 + (row.index % 4) } as DropLogInput,
+      temperatureC: 21 + (row.index % 4),
+      kitRecords: { fluidLot: { viscosityPaS: 1.2 } } as KitRecords,
+      reduction: {} as StoredReduction,
       normalisedFigure: row.figure,
       reynolds: 0.05 + (row.index % 10) / 100,
       dragCoefficient: (24 / (0.05 + (row.index % 10) / 100)) * row.figure,
@@ -84,9 +87,10 @@ export async function rehandIn(executor: Executor, dropLogId: string, figure: nu
     dropLogId,
     version: sql`(select coalesce(max(version), 0) + 1 from drop_log_versions where drop_log_id = ${dropLogId})`,
     idempotencyKey: versionId,
-    input: { temperatureC: 21 },
-    kitRecords: {},
-    reduction: {},
+    input: { temperatureC: 21 } as DropLogInput,
+    temperatureC: 21,
+    kitRecords: {} as KitRecords,
+    reduction: {} as StoredReduction,
     normalisedFigure: figure,
   });
   await executor.update(dropLogs).set({ latestVersionId: versionId }).where(eq(dropLogs.id, dropLogId));

@@ -1,7 +1,7 @@
 /**
  * Courses, cohorts and who belongs where
  */
-import { relations, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import {
   boolean,
   index,
@@ -17,7 +17,7 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
-import { sessions, users } from "./accounts";
+import { users } from "./accounts";
 import { createdAt } from "./columns";
 
 export const courseRole = pgEnum("course_role", ["instructor", "ta", "student"]);
@@ -170,35 +170,3 @@ export const rosterImports = pgTable(
 );
 
 // Relations
-
-export const usersRelations = relations(users, ({ many }) => ({
-  memberships: many(courseMemberships),
-  sessions: many(sessions),
-}));
-
-export const sessionsRelations = relations(sessions, ({ one }) => ({
-  user: one(users, { fields: [sessions.userId], references: [users.id] }),
-}));
-
-export const coursesRelations = relations(courses, ({ many }) => ({
-  cohorts: many(cohorts),
-  memberships: many(courseMemberships),
-}));
-
-export const cohortsRelations = relations(cohorts, ({ one, many }) => ({
-  course: one(courses, { fields: [cohorts.courseId], references: [courses.id] }),
-  students: many(courseMemberships),
-  taAssignments: many(taCohortAssignments),
-}));
-
-export const courseMembershipsRelations = relations(courseMemberships, ({ one, many }) => ({
-  course: one(courses, { fields: [courseMemberships.courseId], references: [courses.id] }),
-  user: one(users, { fields: [courseMemberships.userId], references: [users.id] }),
-  cohort: one(cohorts, { fields: [courseMemberships.cohortId], references: [cohorts.id] }),
-  taAssignments: many(taCohortAssignments),
-}));
-
-export const taCohortAssignmentsRelations = relations(taCohortAssignments, ({ one }) => ({
-  membership: one(courseMemberships, { fields: [taCohortAssignments.membershipId], references: [courseMemberships.id] }),
-  cohort: one(cohorts, { fields: [taCohortAssignments.cohortId], references: [cohorts.id] }),
-}));

@@ -1,7 +1,6 @@
 /**
  * E-mail: the outbox every message passes through, and the development mail catcher's inbox.
  */
-import { relations } from "drizzle-orm";
 import { index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { createdAt } from "./columns";
 import { courses } from "./courses";
@@ -65,7 +64,3 @@ export const caughtEmails = pgTable(
   },
   (table) => [index("caught_emails_received_idx").on(table.receivedAt), index("caught_emails_to_idx").using("gin", table.toAddresses)],
 );
-
-export const emailOutboxRelations = relations(emailOutbox, ({ one }) => ({
-  course: one(courses, { fields: [emailOutbox.courseId], references: [courses.id] }),
-}));

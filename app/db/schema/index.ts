@@ -1,5 +1,5 @@
 /**
- * Benchpost's tables, enums and relations, one file per area; `~/db/schema` is all of them.
+ * Benchpost's tables and enums, one file per area; `~/db/schema` is all of them.
  * Measured values are stored in SI units unless the column name carries another unit.
  * Times are `timestamptz`; a course's IANA time zone decides how they are shown.
  */

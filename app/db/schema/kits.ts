@@ -2,9 +2,9 @@
  * Kit inventory: measured parts, kits made of them, and the history of both.
  * Lengths are in mm and masses in g, as measured at the bench; the reduction converts to SI.
  */
-import { relations, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import { boolean, index, jsonb, pgEnum, pgTable, primaryKey, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
-import { kitStates } from "../../lib/kits/kit-states";
+import { kitStates, type PartCondition } from "../../lib/kits/kit-states";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
 import { courseMemberships, courses } from "./courses";
@@ -77,6 +77,19 @@ export const parts = pgTable(
   ],
 );
 
+/**
+ * A part event's detail, by action: `created` (the checks it raised, `source` for an import),
+ * `remeasured` (each changed value, old and new, and the checks), `checked_in` (the kit, the part's condition).
+ */
+export type PartEventDetail = {
+  warnings?: { field: string; message: string }[];
+  source?: "csv-import";
+  changed?: Record<string, { from: unknown; to: unknown }>;
+  kitId?: string;
+  condition?: PartCondition;
+  remeasure?: boolean;
+};
+
 /** What happened to a part: created, re-measured (old and new values), sent for re-measurement, retired. */
 export const partEvents = pgTable(
   "part_events",
@@ -89,7 +102,7 @@ export const partEvents = pgTable(
     action: text("action").notNull(),
     note: text("note"),
     detail: jsonb("detail")
-      .$type<Record<string, unknown>>()
+      .$type<PartEventDetail>()
       .notNull()
       .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
@@ -149,6 +162,20 @@ export const kitParts = pgTable(
   ],
 );
 
+/**
+ * A kit event's detail, by action: `created` (its parts), `moved` (the holder after, the shipping),
+ * `checked_in` (each part's condition, those sent for re-measurement), `reported` (the part and the problem).
+ */
+export type KitEventDetail = {
+  partIds?: string[];
+  holderMembershipId?: string | null;
+  shipping?: { carrier: string; trackingNumber: string; shippedOn: string };
+  conditions?: Record<string, PartCondition>;
+  remeasure?: string[];
+  partId?: string | null;
+  problem?: "missing" | "damaged" | "incomplete";
+};
+
 /** Every change of a kit's state (and every report about it), with who, when and why. */
 export const kitEvents = pgTable(
   "kit_events",
@@ -164,38 +191,10 @@ export const kitEvents = pgTable(
     action: text("action").notNull(),
     note: text("note"),
     detail: jsonb("detail")
-      .$type<Record<string, unknown>>()
+      .$type<KitEventDetail>()
       .notNull()
       .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
   },
   (table) => [index("kit_events_kit_created_idx").on(table.kitId, table.createdAt)],
 );
-
-export const partsRelations = relations(parts, ({ one, many }) => ({
-  course: one(courses, { fields: [parts.courseId], references: [courses.id] }),
-  events: many(partEvents),
-  kitParts: many(kitParts),
-}));
-
-export const partEventsRelations = relations(partEvents, ({ one }) => ({
-  part: one(parts, { fields: [partEvents.partId], references: [parts.id] }),
-  actor: one(users, { fields: [partEvents.actorId], references: [users.id] }),
-}));
-
-export const kitsRelations = relations(kits, ({ one, many }) => ({
-  course: one(courses, { fields: [kits.courseId], references: [courses.id] }),
-  holder: one(courseMemberships, { fields: [kits.holderMembershipId], references: [courseMemberships.id] }),
-  parts: many(kitParts),
-  events: many(kitEvents),
-}));
-
-export const kitPartsRelations = relations(kitParts, ({ one }) => ({
-  kit: one(kits, { fields: [kitParts.kitId], references: [kits.id] }),
-  part: one(parts, { fields: [kitParts.partId], references: [parts.id] }),
-}));
-
-export const kitEventsRelations = relations(kitEvents, ({ one }) => ({
-  kit: one(kits, { fields: [kitEvents.kitId], references: [kits.id] }),
-  actor: one(users, { fields: [kitEvents.actorId], references: [users.id] }),
-}));

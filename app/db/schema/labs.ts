@@ -2,10 +2,11 @@
  * Labs and drop logs. A lab is an experiment kind published to cohorts; a drop log is one student's
  * hand-in for it, kept as immutable versions. The latest version handed in counts.
  */
-import { relations, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import {
   boolean,
   check,
+  doublePrecision,
   index,
   integer,
   jsonb,
@@ -18,6 +19,9 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import type { DropLogDraft, DropLogInput } from "../../lib/drop-logs/drop-log-input";
+import type { KitRecords, StoredReduction } from "../../lib/drop-logs/reduce-drop-log";
+import type { Reduction } from "../../lib/reduction";
 import { afterReleaseHandInPolicies } from "../../lib/marking/release";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
@@ -104,8 +108,8 @@ export const labCohorts = pgTable(
  * every reader of versions sees the latest without a join. Fresh builders each call: a column belongs to one table.
  */
 const reductionColumns = () => ({
-  kitRecords: jsonb("kit_records").$type<Record<string, unknown>>().notNull(),
-  reduction: jsonb("reduction").$type<Record<string, unknown>>().notNull(),
+  kitRecords: jsonb("kit_records").$type<KitRecords>().notNull(),
+  reduction: jsonb("reduction").$type<StoredReduction>().notNull(),
   /** measured/reference viscosity (viscometry) or C_D/C_D,ref (drag): comparable across kits and temperatures. */
   normalisedFigure: real("normalised_figure"),
   reynolds: real("reynolds"),
@@ -128,7 +132,7 @@ export const dropLogs = pgTable(
     /** The version that counts: the latest handed in. */
     latestVersionId: uuid("latest_version_id"),
     /** The student's unsent form, saved as they type so that nothing is lost to a reload or a dropped connection. */
-    draft: jsonb("draft").$type<Record<string, unknown>>(),
+    draft: jsonb("draft").$type<DropLogDraft>(),
     draftSavedAt: timestamp("draft_saved_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
@@ -162,7 +166,14 @@ export const dropLogVersions = pgTable(
     sphereId: uuid("sphere_id").references(() => parts.id, { onDelete: "restrict" }),
     fluidLotId: uuid("fluid_lot_id").references(() => parts.id, { onDelete: "restrict" }),
     columnId: uuid("column_id").references(() => parts.id, { onDelete: "restrict" }),
-    input: jsonb("input").$type<Record<string, unknown>>().notNull(),
+    input: jsonb("input").$type<DropLogInput>().notNull(),
+    // Copied out of the JSON at hand-in, so that pages filter and sort on columns; null in hand-ins without them.
+    /** The input's fluid temperature. */
+    temperatureC: doublePrecision("temperature_c"),
+    /** The kit records' g (m/s²), fed again to every re-reduction. */
+    gravity: doublePrecision("gravity"),
+    /** The reduction's mode; a re-reduction copies it with the rest of the reduction. */
+    reductionMode: text("reduction_mode").$type<Reduction["mode"]>(),
     ...reductionColumns(),
     /** The revision the reduction columns copy: 1 at hand-in, one more for each part correction. */
     currentRevision: integer("current_revision").notNull().default(1),
@@ -311,32 +322,3 @@ export const labExtensions = pgTable(
     check("lab_extensions_cutoff_after_due", sql`${table.lateCutoffAt} is null or ${table.lateCutoffAt} >= ${table.dueAt}`),
   ],
 );
-
-export const labsRelations = relations(labs, ({ one, many }) => ({
-  course: one(courses, { fields: [labs.courseId], references: [courses.id] }),
-  cohorts: many(labCohorts),
-  dropLogs: many(dropLogs),
-}));
-
-export const labCohortsRelations = relations(labCohorts, ({ one }) => ({
-  lab: one(labs, { fields: [labCohorts.labId], references: [labs.id] }),
-  cohort: one(cohorts, { fields: [labCohorts.cohortId], references: [cohorts.id] }),
-}));
-
-export const dropLogsRelations = relations(dropLogs, ({ one, many }) => ({
-  lab: one(labs, { fields: [dropLogs.labId], references: [labs.id] }),
-  membership: one(courseMemberships, { fields: [dropLogs.membershipId], references: [courseMemberships.id] }),
-  versions: many(dropLogVersions),
-  photos: many(dropLogPhotos),
-}));
-
-export const dropLogVersionsRelations = relations(dropLogVersions, ({ one, many }) => ({
-  dropLog: one(dropLogs, { fields: [dropLogVersions.dropLogId], references: [dropLogs.id] }),
-  submittedBy: one(users, { fields: [dropLogVersions.submittedById], references: [users.id] }),
-  photos: many(dropLogPhotos),
-}));
-
-export const dropLogPhotosRelations = relations(dropLogPhotos, ({ one }) => ({
-  dropLog: one(dropLogs, { fields: [dropLogPhotos.dropLogId], references: [dropLogs.id] }),
-  version: one(dropLogVersions, { fields: [dropLogPhotos.versionId], references: [dropLogVersions.id] }),
-}));

@@ -2,7 +2,7 @@
  * Marking: a lab's rubric, one mark per student and lab, every change of a mark, and the lab's
  * marking state (ready for moderation, released to students). Points are plain numbers (two decimals).
  */
-import { relations, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import {
   boolean,
   check,
@@ -157,24 +157,3 @@ export const labMarking = pgTable("lab_marking", {
   releasedById: uuid("released_by_id").references(() => users.id, { onDelete: "set null" }),
   updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
 });
-
-export const rubricCriteriaRelations = relations(rubricCriteria, ({ one }) => ({
-  lab: one(labs, { fields: [rubricCriteria.labId], references: [labs.id] }),
-}));
-
-export const marksRelations = relations(marks, ({ one, many }) => ({
-  lab: one(labs, { fields: [marks.labId], references: [labs.id] }),
-  membership: one(courseMemberships, { fields: [marks.membershipId], references: [courseMemberships.id] }),
-  basedOn: one(dropLogVersions, { fields: [marks.dropLogVersionId], references: [dropLogVersions.id] }),
-  markedBy: one(users, { fields: [marks.markedById], references: [users.id] }),
-  changes: many(markChanges),
-}));
-
-export const markChangesRelations = relations(markChanges, ({ one }) => ({
-  mark: one(marks, { fields: [markChanges.markId], references: [marks.id] }),
-  changedBy: one(users, { fields: [markChanges.changedById], references: [users.id] }),
-}));
-
-export const labMarkingRelations = relations(labMarking, ({ one }) => ({
-  lab: one(labs, { fields: [labMarking.labId], references: [labs.id] }),
-}));

@@ -114,6 +114,9 @@ export type DropLogReduction = {
   warnings: DropLogWarning[];
 };
 
+/** A reduction as a version and its revisions store it: the engine's output with the warnings shown beside the form. */
+export type StoredReduction = Reduction & { warnings: DropLogWarning[] };
+
 const STANDARD_GRAVITY = 9.80665;
 /**
  * The temperature a lot's density is recorded at when it gives dρ/dT: 20 °C, the usual reference of

@@ -3,17 +3,16 @@
  * student's own page and the staff's view of a hand-in alike.
  */
 import type { DropLogInput } from "./drop-log-input";
-import type { DropLogWarning, KitRecords } from "./reduce-drop-log";
-import type { Reduction } from "~/lib/reduction";
+import type { KitRecords, StoredReduction } from "./reduce-drop-log";
 
 type StoredVersionRow = {
   id: string;
   version: number;
   late: boolean;
   submittedAt: Date;
-  input: Record<string, unknown>;
-  kitRecords: Record<string, unknown>;
-  reduction: Record<string, unknown>;
+  input: DropLogInput;
+  kitRecords: KitRecords;
+  reduction: StoredReduction;
   normalisedFigure: number | null;
 };
 type StoredPhotoRow = { id: string; versionId: string | null; originalName: string | null; bytes: number; createdAt: Date };
@@ -24,9 +23,9 @@ export function versionView(version: StoredVersionRow) {
     version: version.version,
     late: version.late,
     submittedAt: version.submittedAt.toISOString(),
-    input: version.input as DropLogInput,
-    kitRecords: version.kitRecords as KitRecords,
-    reduction: version.reduction as unknown as Reduction & { warnings: DropLogWarning[] },
+    input: version.input,
+    kitRecords: version.kitRecords,
+    reduction: version.reduction,
     normalisedFigure: version.normalisedFigure,
   };
 }

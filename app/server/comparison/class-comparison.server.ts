@@ -148,7 +148,7 @@ export async function loadCountedHandIns(executor: Executor, labId: string): Pro
       v.normalised_figure::float8 as figure, v.reynolds::float8 as reynolds, v.drag_coefficient::float8 as drag_coefficient,
       v.viscosity_pa_s::float8 as viscosity_pa_s,
       (v.kit_records #>> '{fluidLot,viscosityPaS}')::float8 as reference_viscosity,
-      (v.input ->> 'temperatureC')::float8 as temperature_c,
+      v.temperature_c,
       (v.reduction #>> '{uncertaintyBudget,expanded}')::float8 as result_expanded,
       (v.reduction #>> '{uncertaintyBudget,coverageFactor}')::float8 as coverage_factor,
       (v.reduction #>> '{uncertaintyBudget,normalisedFigure,expanded}')::float8 as figure_expanded,

@@ -6,10 +6,10 @@
  * it exclusively, waits for: a hand-in then sees whether that release covered the student's mark).
  */
 import { AppError, type ErrorIssue } from "~/lib/app-error";
-import { and, asc, desc, eq, sql, type SQLWrapper } from "drizzle-orm";
+import { and, asc, desc, eq, getTableColumns, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
 import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labs, parts } from "~/db/schema";
-import { dropLogDraft, dropLogInput, type DropLogDraft, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
+import { dropLogDraft, dropLogInput, type DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { effectiveHandInWindow, handInTiming, type HandInWindow } from "~/lib/drop-logs/hand-in-window";
 import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/lib/drop-logs/reduce-drop-log";
 import type { AllowedPartKind } from "~/lib/labs/lab-input";
@@ -17,6 +17,7 @@ import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { comparisonLabColumns, queueClassComparison } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { jsonRows } from "~/server/json-rows.server";
 import { labRefusal } from "~/server/labs/lab-access.server";
 import { markingLock } from "~/server/marking/marks.server";
 
@@ -330,8 +331,11 @@ export async function handInDropLog(
         fluidLotId: kitRecords.fluidLot.id,
         columnId: kitRecords.column.id,
         input: parsed,
+        temperatureC: parsed.temperatureC,
+        gravity: kitRecords.gravity,
+        reductionMode: reduction.mode,
         kitRecords,
-        reduction: { ...reduction, warnings } as unknown as Record<string, unknown>,
+        reduction: { ...reduction, warnings },
         normalisedFigure,
         reynolds: reduction.reynolds,
         dragCoefficient: reduction.dragCoefficient,
@@ -409,19 +413,33 @@ export type StoredVersion = typeof dropLogVersions.$inferSelect;
  * The caller has checked that the viewer may see this student's work.
  */
 export async function getDropLogForStudent(executor: Executor, { labId, membershipId }: { labId: string; membershipId: string }) {
-  const dropLog = await executor.query.dropLogs.findFirst({
-    where: and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)),
-    with: {
-      versions: { orderBy: [desc(dropLogVersions.version)] },
-      photos: {
-        orderBy: [asc(dropLogPhotos.createdAt)],
-        columns: { id: true, versionId: true, contentType: true, bytes: true, originalName: true, createdAt: true },
-      },
+  // The columns copied out of the JSON are for filtering and sorting; a version reads as the JSON it copies.
+  const { temperatureC: _temperature, gravity: _gravity, reductionMode: _mode, ...versionColumns } = getTableColumns(dropLogVersions);
+  const versions = jsonRows(
+    versionColumns,
+    sql`from ${dropLogVersions} where ${dropLogVersions.dropLogId} = ${dropLogs.id}`,
+    sql`${dropLogVersions.version} desc`,
+  );
+  const photos = jsonRows(
+    {
+      id: dropLogPhotos.id,
+      versionId: dropLogPhotos.versionId,
+      contentType: dropLogPhotos.contentType,
+      bytes: dropLogPhotos.bytes,
+      originalName: dropLogPhotos.originalName,
+      createdAt: dropLogPhotos.createdAt,
     },
-  });
+    sql`from ${dropLogPhotos} where ${dropLogPhotos.dropLogId} = ${dropLogs.id}`,
+    sql`${dropLogPhotos.createdAt} asc`,
+  );
+  const [row] = await executor
+    .select({ dropLog: dropLogs, versions: versions.column, photos: photos.column })
+    .from(dropLogs)
+    .where(and(eq(dropLogs.labId, labId), eq(dropLogs.membershipId, membershipId)));
+  const dropLog = row && { ...row.dropLog, versions: versions.read(row.versions), photos: photos.read(row.photos) };
   if (!dropLog) return null;
   const draft = dropLogDraft.safeParse(dropLog.draft ?? {});
-  return { ...dropLog, draft: (draft.success ? draft.data : {}) as DropLogDraft };
+  return { ...dropLog, draft: draft.success ? draft.data : {} };
 }
 
 /** Every version of a drop log, newest first. Versions are never changed or deleted. */

@@ -79,7 +79,7 @@ function outboxRowFor(message: EmailMessage) {
     toName: displayName(message.toName),
     template: message.template,
     // JSON round trip: Dates become ISO strings, which the template's schema revives on delivery.
-    props: props.success ? (JSON.parse(JSON.stringify(props.data)) as Record<string, unknown>) : {},
+    props: props.success ? JSON.parse(JSON.stringify(props.data)) : {},
     subject: props.success
       ? shortenSubject(emailSubject(message.template, props.data as EmailTemplates[EmailTemplateName]))
       : `(${message.template}: not sent)`,

@@ -3,12 +3,14 @@
  * checks the state machine, keeps the history and sends the kit-shipped e-mail in the same transaction.
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, count, eq, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
 import { cohorts, courseMemberships, courses, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
 import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
 import { appUrl } from "~/server/config.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
+import { jsonRows, orNull } from "~/server/json-rows.server";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -388,17 +390,39 @@ export async function listKits(executor: Executor, courseId: string, query: KitL
   return { rows, total };
 }
 
-/** A kit with its parts, holder and history, for the kit page, the packing slip and "My kit". */
+/** A kit with its parts, holder and history, for the kit page, the packing slip and "My kit": one statement. */
 export async function getKit(executor: Executor, courseId: string, kitId: string) {
-  const kit = await executor.query.kits.findFirst({
-    where: and(eq(kits.id, kitId), eq(kits.courseId, courseId)),
-    with: {
-      holder: { with: { user: { columns: { id: true, name: true, email: true, studentNumber: true } }, cohort: true } },
-      parts: { with: { part: true } },
-      events: { orderBy: (events, { desc }) => [desc(events.createdAt)], with: { actor: { columns: { name: true } } } },
-    },
-  });
-  return kit ?? null;
+  const actor = alias(users, "actor");
+  const contents = jsonRows(
+    { ...getTableColumns(kitParts), part: getTableColumns(parts) },
+    sql`from ${kitParts} join ${parts} on ${parts.id} = ${kitParts.partId} where ${kitParts.kitId} = ${kits.id}`,
+  );
+  const history = jsonRows(
+    { ...getTableColumns(kitEvents), actor: orNull({ name: actor.name }, actor.id) },
+    sql`from ${kitEvents} left join ${users} ${actor} on ${actor.id} = ${kitEvents.actorId} where ${kitEvents.kitId} = ${kits.id}`,
+    sql`${kitEvents.createdAt} desc`,
+  );
+  const [row] = await executor
+    .select({
+      kit: kits,
+      holder: courseMemberships,
+      user: { id: users.id, name: users.name, email: users.email, studentNumber: users.studentNumber },
+      cohort: cohorts,
+      parts: contents.column,
+      events: history.column,
+    })
+    .from(kits)
+    .leftJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+    .leftJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+    .where(and(eq(kits.id, kitId), eq(kits.courseId, courseId)));
+  if (!row) return null;
+  return {
+    ...row.kit,
+    holder: row.holder && row.user ? { ...row.holder, user: row.user, cohort: row.cohort } : null,
+    parts: contents.read(row.parts),
+    events: history.read(row.events),
+  };
 }
 
 /** The kit a student holds in a course, if any. */

@@ -3,8 +3,9 @@
  * and the checks that catch a mis-typed measurement before a student's reduction depends on it.
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, count, eq, ilike, inArray, sql, type SQL } from "drizzle-orm";
-import { kitParts, kits, partEvents, parts } from "~/db/schema";
+import { and, asc, count, eq, getTableColumns, ilike, inArray, sql, type SQL } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { courseMemberships, kitParts, kits, partEvents, parts, users } from "~/db/schema";
 import { materialDensityRanges, sphereDensityKgM3, type PartInput, type PartKind } from "~/lib/kits/part-input";
 import { fluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import { calibrationCheckMessages, checkCalibrationPoints } from "~/lib/kits/glycerol-water";
@@ -12,6 +13,7 @@ import { checkImportRows, csvRowToPartInput, partToCsvRow, type ImportRowCheck, 
 import { recordAudit } from "~/server/audit.server";
 import { canOpenKit, type CourseAccess } from "~/server/auth/access.server";
 import { isUniqueViolation, type Executor } from "~/server/db.server";
+import { jsonRows, orNull } from "~/server/json-rows.server";
 import { queueRereduction, reductionChanges } from "~/server/kits/rereduce.server";
 
 export type Part = typeof parts.$inferSelect;
@@ -241,14 +243,26 @@ export async function listParts(executor: Executor, courseId: string, query: Par
 }
 
 export async function getPart(executor: Executor, courseId: string, partId: string) {
-  const part = await executor.query.parts.findFirst({
-    where: and(eq(parts.id, partId), eq(parts.courseId, courseId)),
-    with: {
-      events: { orderBy: (events, { desc }) => [desc(events.createdAt)], with: { actor: { columns: { name: true } } } },
-      kitParts: { with: { kit: { columns: { id: true, number: true, state: true }, with: { holder: { columns: { cohortId: true } } } } } },
+  const actor = alias(users, "actor");
+  const holder = alias(courseMemberships, "holder");
+  const history = jsonRows(
+    { ...getTableColumns(partEvents), actor: orNull({ name: actor.name }, actor.id) },
+    sql`from ${partEvents} left join ${users} ${actor} on ${actor.id} = ${partEvents.actorId} where ${partEvents.partId} = ${parts.id}`,
+    sql`${partEvents.createdAt} desc`,
+  );
+  const inKits = jsonRows(
+    {
+      ...getTableColumns(kitParts),
+      kit: { id: kits.id, number: kits.number, state: kits.state, holder: orNull({ cohortId: holder.cohortId }, holder.id) },
     },
-  });
-  return part ?? null;
+    sql`from ${kitParts} join ${kits} on ${kits.id} = ${kitParts.kitId} left join ${courseMemberships} ${holder} on ${holder.id} = ${kits.holderMembershipId}
+      where ${kitParts.partId} = ${parts.id}`,
+  );
+  const [row] = await executor
+    .select({ part: parts, events: history.column, kitParts: inKits.column })
+    .from(parts)
+    .where(and(eq(parts.id, partId), eq(parts.courseId, courseId)));
+  return row ? { ...row.part, events: history.read(row.events), kitParts: inKits.read(row.kitParts) } : null;
 }
 
 /** A kit as a page names it: its number for every staff member, its id (and so a link) only for one who may open it. */
@@ -275,11 +289,11 @@ export async function getPartPage(executor: Executor, access: CourseAccess, part
   const [inventory, checkInKits] = await Promise.all([
     stored.ok ? inventoryForChecks(executor, access.course.id) : Promise.resolve([]),
     checkInKitIds.length
-      ? executor.query.kits.findMany({
-          where: and(eq(kits.courseId, access.course.id), inArray(kits.id, checkInKitIds)),
-          columns: { id: true, number: true },
-          with: { holder: { columns: { cohortId: true } } },
-        })
+      ? executor
+          .select({ id: kits.id, number: kits.number, holder: { cohortId: courseMemberships.cohortId } })
+          .from(kits)
+          .leftJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+          .where(and(eq(kits.courseId, access.course.id), inArray(kits.id, checkInKitIds)))
       : Promise.resolve([]),
   ]);
   const checkInKit = new Map(checkInKits.map((entry) => [entry.id, mentionKit(access, entry)]));
@@ -372,7 +386,7 @@ export async function importParts(
           partId: part.id,
           actorId,
           action: "created",
-          detail: { source: "csv-import", warnings: warningsByLabel.get(part.label) ?? [] },
+          detail: { source: "csv-import" as const, warnings: warningsByLabel.get(part.label) ?? [] },
         })),
       );
       return {

@@ -168,6 +168,7 @@ function revise(row: VersionRow) {
     revision: row.current_revision + 1,
     kit_records: kitRecords,
     reduction: { ...reduction, warnings },
+    reduction_mode: reduction.mode,
     normalised_figure: normalisedFigure,
     reynolds: reduction.reynolds,
     drag_coefficient: reduction.dragCoefficient,
@@ -211,7 +212,7 @@ export async function runRereduction(
   for (;;) {
     const chunk = await executor.transaction(async (tx) => {
       const rows = await tx.execute<VersionRow>(sql`
-        select v.id, dl.lab_id, v.current_revision, v.input, v.kit_records -> 'kit' as kit, (v.kit_records ->> 'gravity')::float8 as gravity,
+        select v.id, dl.lab_id, v.current_revision, v.input, v.kit_records -> 'kit' as kit, v.gravity,
           json_build_object('kind', l.kind, 'wall_correction', l.wall_correction, 'drag_model', l.drag_model,
             'required_drops', l.required_drops, 'resolutions', l.resolutions) as lab,
           ${partJson("sp")} as sphere, ${partJson("fl")} as fluid_lot, ${partJson("co")} as column
@@ -242,7 +243,7 @@ export async function runRereduction(
       const written = await tx.execute<{ count: number }>(sql`
         with data as (
           select * from json_to_recordset(${JSON.stringify(revisions)}::json) as d(version_id uuid, revision int, kit_records jsonb,
-            reduction jsonb, normalised_figure real, reynolds real, drag_coefficient real, viscosity_pa_s real, warning_count int)),
+            reduction jsonb, reduction_mode text, normalised_figure real, reynolds real, drag_coefficient real, viscosity_pa_s real, warning_count int)),
         inserted as (
           insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient,
             viscosity_pa_s, warning_count, cause, part_event_id)
@@ -252,7 +253,7 @@ export async function runRereduction(
           on conflict do nothing
           returning version_id),
         copied as (
-          update drop_log_versions v set current_revision = d.revision, kit_records = d.kit_records, reduction = d.reduction,
+          update drop_log_versions v set current_revision = d.revision, kit_records = d.kit_records, reduction = d.reduction, reduction_mode = d.reduction_mode,
             normalised_figure = d.normalised_figure, reynolds = d.reynolds, drag_coefficient = d.drag_coefficient,
             viscosity_pa_s = d.viscosity_pa_s, warning_count = d.warning_count
           from data d where v.id = d.version_id and d.version_id in (select version_id from inserted)),

@@ -135,7 +135,7 @@ const handInJson = (alias: SQL) => sql`case when ${alias}.id is null then null e
         'strayDropCount', case when jsonb_typeof(${alias}.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${alias}.reduction #> '{drops,strayDrops}') end,
         'warningCount', ${alias}.warning_count, 'kitState', ${alias}.kit_records #>> '{kit,state}', 'figure', ${alias}.normalised_figure::float8, 'reynolds', ${alias}.reynolds::float8,
         'dragCoefficient', ${alias}.drag_coefficient::float8, 'viscosityPaS', ${alias}.viscosity_pa_s::float8,
-        'temperatureC', case when jsonb_typeof(${alias}.input -> 'temperatureC') = 'number' then (${alias}.input ->> 'temperatureC')::float8 end,
+        'temperatureC', ${alias}.temperature_c,
         'revision', ${alias}.current_revision
       ) end`;
 

@@ -91,13 +91,13 @@ export async function loadStudentMark(
         ) order by rc.position, rc.id) from rubric_criteria rc where rc.lab_id = l.id), '[]'::json) as rubric,
       case when v.id is null then null else json_build_object(
         'versionId', v.id, 'version', v.version, 'submittedAt', to_json(v.submitted_at)#>>'{}', 'late', v.late,
-        'mode', v.reduction ->> 'mode',
+        'mode', v.reduction_mode,
         'dropCount', case when jsonb_typeof(v.reduction #> '{drops,n}') = 'number' then (v.reduction #>> '{drops,n}')::int end,
         'strayDropCount', case when jsonb_typeof(v.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(v.reduction #> '{drops,strayDrops}') end,
         'meanTimeS', case when jsonb_typeof(v.reduction #> '{drops,mean}') = 'number' then (v.reduction #>> '{drops,mean}')::float8 end,
         'normalisedFigure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8, 'dragCoefficient', v.drag_coefficient::float8,
         'viscosityPaS', v.viscosity_pa_s::float8,
-        'temperatureC', case when jsonb_typeof(v.input -> 'temperatureC') = 'number' then (v.input ->> 'temperatureC')::float8 end,
+        'temperatureC', v.temperature_c,
         'sphere', v.kit_records #>> '{sphere,label}', 'fluidLot', v.kit_records #>> '{fluidLot,label}',
         'warnings', coalesce((select json_agg(json_build_object('code', w ->> 'code', 'level', w ->> 'level', 'message', w ->> 'message'))
           from jsonb_array_elements(case when jsonb_typeof(v.reduction -> 'warnings') = 'array' then v.reduction -> 'warnings' else '[]'::jsonb end) w), '[]'::json)
