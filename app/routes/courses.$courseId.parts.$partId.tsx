@@ -1,7 +1,7 @@
 import { formatDateTime } from "~/lib/format-date";
+import { FormProvider, getFormProps, useForm, type SubmissionResult } from "@conform-to/react";
 import { useEffect } from "react";
 import { data, Form, Link, redirect, useNavigation, useRevalidator, useSearchParams } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.parts.$partId";
 import { PartFields } from "~/components/kits/part-fields";
 import { StatusBadge } from "~/components/kits/status-badge";
@@ -11,36 +11,28 @@ import { TextAreaField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { fieldErrors, formValues } from "~/lib/forms/parse-form";
+import { readId } from "~/lib/forms/ids";
+import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import type { FluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import type { CalibrationFinding } from "~/lib/kits/glycerol-water";
 import { formatFieldValue, formatNumber, measurementSummary, partFieldLabels, partStatusLabels } from "~/lib/kits/part-display";
-import { calibrationRows, partFormCandidate } from "~/lib/kits/part-form";
-import { partInput, partKindLabels, type PartKind } from "~/lib/kits/part-input";
+import { partRemeasure, partStatusChange, storedPartValues, type PartRemeasure, type PartRemeasureInput } from "~/lib/kits/part-form";
+import { partKindLabels, type PartKind } from "~/lib/kits/part-input";
 import { partToCsvRow } from "~/lib/kits/parts-csv";
 import { requireCourseRole } from "~/server/auth/access.server";
-import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { listPartBias, partBiasFor } from "~/server/comparison/part-quality.server";
 import { getPartPage, setPartStatus, updatePart, type KitMention } from "~/server/kits/parts.server";
 import { listRereductions, type RereductionProgress } from "~/server/kits/rereduce.server";
-
-const note = z
-  .string()
-  .trim()
-  .max(500, "Keep the note under 500 characters.")
-  .optional()
-  .transform((value) => value || null);
-const statusChange = z.object({ intent: z.literal("status"), status: z.enum(["in_service", "remeasure", "retired"]), note });
-const remeasure = z.object({ intent: z.literal("remeasure"), note });
 
 /** Spare empty calibration rows on the re-measure form, for adding points without JavaScript. */
 const spareCalibrationRows = 2;
 
 function partIdFrom(params: { partId?: string }): string {
-  const parsed = z.uuid().safeParse(params.partId);
-  if (!parsed.success) throw data("Not found", { status: 404 });
-  return parsed.data;
+  const partId = readId(params.partId);
+  if (!partId) throw data("Not found", { status: 404 });
+  return partId;
 }
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
@@ -63,35 +55,20 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const partId = partIdFrom(params);
-  const form = await request.formData();
+  const submission = parseSubmission(formData, formData.get("intent") === "status" ? partStatusChange : partRemeasure);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const scope = { courseId: access.course.id, partId, actorId: access.user.id };
-  const partPath = `/courses/${access.course.id}/parts/${partId}`;
-
-  if (form.get("intent") === "status") {
-    const parsed = statusChange.safeParse(formValues(form));
-    if (!parsed.success) return data({ intent: "status" as const, errors: fieldErrors(parsed.error) }, { status: 400 });
-    if (!(await setPartStatus(db, { ...scope, status: parsed.data.status, note: parsed.data.note })))
-      throw data("Not found", { status: 404 });
-    return redirect(`${partPath}?saved=status`);
-  }
-
-  const failure = (errors: Record<string, string[]>) =>
-    data({ intent: "remeasure" as const, errors, values: formValues(form), calibration: calibrationRows(form) }, { status: 400 });
-  const parsed = remeasure.safeParse(formValues(form));
-  const input = partInput.safeParse(partFormCandidate(form));
-  if (!parsed.success || !input.success)
-    return failure({ ...(parsed.error ? fieldErrors(parsed.error) : {}), ...(input.error ? fieldErrors(input.error) : {}) });
-  try {
-    if (!(await updatePart(db, { ...scope, input: input.data, note: parsed.data.note }))) throw data("Not found", { status: 404 });
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return failure({ [error.field ?? "form"]: [error.message] });
-  }
-  return redirect(`${partPath}?saved=remeasured`);
-}
+  const input = submission.value;
+  const done =
+    input.intent === "status"
+      ? await setPartStatus(db, { ...scope, status: input.status, note: input.note })
+      : await updatePart(db, { ...scope, input, note: input.note });
+  if (!done) throw data("Not found", { status: 404 });
+  return redirect(`/courses/${access.course.id}/parts/${partId}?saved=${input.intent === "status" ? "status" : "remeasured"}`);
+});
 
 const savedMessages: Record<string, string> = {
   created: "The part is recorded.",
@@ -155,16 +132,14 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
             </dd>
           </dl>
         </div>
-        {mayEdit ? <StatusActions status={part.status} failed={actionData?.intent === "status" ? actionData.errors : undefined} /> : null}
+        {mayEdit ? <StatusActions status={part.status} lastResult={replyFor(actionData, "status")} /> : null}
       </section>
 
       {bias ? <PartBiasEvidence bias={bias} courseId={courseId} /> : null}
 
       {calibration ? <CalibrationSection calibration={calibration} label={part.label} /> : null}
 
-      {mayEdit ? (
-        <RemeasureForm kind={part.kind} defaults={part} failure={actionData?.intent === "remeasure" ? actionData : undefined} />
-      ) : null}
+      {mayEdit ? <RemeasureForm kind={part.kind} defaults={part} lastResult={replyFor(actionData, "remeasure")} /> : null}
 
       <History events={part.events} courseId={courseId} timeZone={timeZone} />
     </div>
@@ -185,22 +160,29 @@ function KitName({ kit, courseId }: { kit: KitMention; courseId: string }) {
 /** `diameter_mm` → `diameterMm`, to look up the on-screen label of a CSV column. */
 const columnField = (column: string) => column.replace(/_(\w)/g, (_, letter: string) => letter.toUpperCase());
 
-function StatusActions({ status, failed }: { status: keyof typeof partStatusLabels; failed?: Record<string, string[]> }) {
+function StatusActions({ status, lastResult }: { status: keyof typeof partStatusLabels; lastResult?: SubmissionResult }) {
   const navigation = useNavigation();
+  const [form, fields] = useForm({
+    id: "status",
+    lastResult,
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, partStatusChange),
+  });
   const actions = [
     { to: "remeasure", label: "Send for re-measurement", show: status === "in_service" },
     { to: "in_service", label: "Return to service", show: status !== "in_service" },
     { to: "retired", label: "Retire the part", show: status !== "retired" },
   ] as const;
   return (
-    <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+    <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10" {...getFormProps(form)}>
       <h2 className="text-lg font-semibold">Status</h2>
       <p className="text-sm text-ink-700">
         Now: {partStatusLabels[status]}. A part that needs re-measuring or is retired cannot be packed into a kit; saving new measurements
         returns it to service.
       </p>
       <input type="hidden" name="intent" value="status" />
-      <TextAreaField label="Why (kept in the history)" name="note" rows={2} maxLength={500} error={failed?.note} />
+      {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}
+      <TextAreaField label="Why (kept in the history)" field={fields.note} rows={2} maxLength={500} />
       <div className="flex flex-wrap gap-2">
         {actions
           .filter((action) => action.show)
@@ -352,53 +334,28 @@ function CalibrationSection({ calibration, label }: { calibration: FluidLotCalib
 
 type StoredPart = Route.ComponentProps["loaderData"]["part"];
 
-function RemeasureForm({
-  kind,
-  defaults,
-  failure,
-}: {
-  kind: PartKind;
-  defaults: StoredPart;
-  failure?: {
-    errors: Record<string, string[] | undefined>;
-    values: Record<string, string>;
-    calibration: { temperatureC: string; viscosityPaS: string }[];
-  };
-}) {
+function RemeasureForm({ kind, defaults, lastResult }: { kind: PartKind; defaults: StoredPart; lastResult?: SubmissionResult }) {
   const navigation = useNavigation();
-  const stored = Object.fromEntries(
-    Object.entries(defaults).map(([field, value]) => [field, value === null || typeof value === "object" ? "" : String(value)]),
-  );
-  const storedCalibration = [
-    ...(defaults.calibration ?? []).map((point) => ({
-      temperatureC: String(point.temperatureC),
-      viscosityPaS: String(point.viscosityPaS),
-    })),
-    ...Array.from({ length: spareCalibrationRows }, () => ({ temperatureC: "", viscosityPaS: "" })),
-  ];
+  const [form, fields] = useForm<PartRemeasureInput, PartRemeasure>({
+    id: "remeasure",
+    lastResult,
+    defaultValue: storedPartValues(defaults, spareCalibrationRows),
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, partRemeasure),
+  });
   return (
     <section aria-labelledby="remeasure-heading" className="max-w-2xl">
-      <details open={failure !== undefined} className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
+      <details open={lastResult !== undefined} className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
         <summary id="remeasure-heading" className="cursor-pointer text-lg font-semibold">
           Re-measure
         </summary>
-        <Form method="post" className="mt-4 flex flex-col gap-4">
+        <Form method="post" className="mt-4 flex flex-col gap-4" {...getFormProps(form)}>
           <input type="hidden" name="intent" value="remeasure" />
-          {failure?.errors.form ? <Notice tone="error">{failure.errors.form.join(" ")}</Notice> : null}
-          <PartFields
-            kind={kind}
-            values={failure?.values ?? stored}
-            calibration={failure?.calibration ?? storedCalibration}
-            errors={failure?.errors ?? {}}
-          />
-          <TextAreaField
-            label="What was re-measured, and why (kept in the history)"
-            name="note"
-            rows={2}
-            maxLength={500}
-            defaultValue={failure?.values.note ?? ""}
-            error={failure?.errors.note}
-          />
+          {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}
+          <FormProvider context={form.context}>
+            <PartFields kind={kind} fields={fields} />
+          </FormProvider>
+          <TextAreaField label="What was re-measured, and why (kept in the history)" field={fields.note} rows={2} maxLength={500} />
           <Button type="submit" className="self-start" disabled={navigation.state === "submitting"}>
             Save the new measurements
           </Button>

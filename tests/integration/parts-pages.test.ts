@@ -96,8 +96,10 @@ describe("parts screens", () => {
           fluidName: "glycerol–water 85 %",
           densityKgM3: "1221",
           glycerolMassFraction: "0.85",
-          calibrationTemperatureC: ["20", "30"],
-          calibrationViscosityPaS: ["109", "0.058"],
+          "calibration[0].temperatureC": "20",
+          "calibration[0].viscosityPaS": "109",
+          "calibration[1].temperatureC": "30",
+          "calibration[1].viscosityPaS": "0.058",
         },
       }),
     );
@@ -122,8 +124,8 @@ describe("parts screens", () => {
           fluidName: "glycerol–water",
           densityKgM3: "1221",
           glycerolMassFraction: "85",
-          calibrationTemperatureC: "20",
-          calibrationViscosityPaS: "0.109",
+          "calibration[0].temperatureC": "20",
+          "calibration[0].viscosityPaS": "0.109",
         },
       }),
     );

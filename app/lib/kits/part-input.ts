@@ -30,6 +30,13 @@ const measuredNumber = (what: string, unit: string, max: number) =>
 const measured = (what: string, unit: string, max: number) => typedNumber(measuredNumber(what, unit, max));
 const optionalMeasured = (what: string, unit: string, max: number) => typedNumber(measuredNumber(what, unit, max).optional());
 
+/**
+ * A calibration row the form sent with both boxes empty (a spare row) is left out. It is dropped after
+ * each row is checked, so that an error keeps the number of the row it belongs to.
+ */
+const isBlankRow = (row: unknown) =>
+  typeof row === "object" && row !== null && Object.values(row).every((value) => value === undefined || String(value).trim() === "");
+
 export const calibrationPointSchema = z.object({
   temperatureC: typedNumber(
     z
@@ -77,12 +84,18 @@ export const fluidLotInput = z.object({
       .optional(),
   ),
   calibration: z
-    .array(calibrationPointSchema)
-    .min(1, "Add at least one calibration point (temperature and viscosity).")
-    .max(50)
-    .refine(
-      (points) => new Set(points.map((p) => p.temperatureC)).size === points.length,
-      "Two calibration points share a temperature; keep one per temperature.",
+    .array(z.preprocess((row: z.input<typeof calibrationPointSchema>) => (isBlankRow(row) ? null : row), calibrationPointSchema.nullable()))
+    .optional()
+    .transform((rows) => (rows ?? []).filter((row) => row !== null))
+    .pipe(
+      z
+        .array(z.object({ temperatureC: z.number(), viscosityPaS: z.number() }))
+        .min(1, "Add at least one calibration point (temperature and viscosity).")
+        .max(50)
+        .refine(
+          (points) => new Set(points.map((p) => p.temperatureC)).size === points.length,
+          "Two calibration points share a temperature; keep one per temperature.",
+        ),
     ),
   notes,
 });
@@ -109,6 +122,8 @@ export const accessoryInput = z.object({
 
 export const partInput = z.discriminatedUnion("kind", [sphereInput, fluidLotInput, columnInput, accessoryInput]);
 export type PartInput = z.infer<typeof partInput>;
+/** The part form's values as typed, before `partInput` reads them. */
+export type PartFormInput = z.input<typeof partInput>;
 export type PartKind = PartInput["kind"];
 
 export const partKindLabels: Record<PartKind, string> = {
