@@ -148,6 +148,54 @@ describe("parts screens", () => {
     expect(html).toMatch(/value="glass"/);
   });
 
+  it("adds and removes calibration rows without JavaScript, keeping what was typed", async () => {
+    // The rows' buttons submit Conform's intent; the server answers with the form one row longer (or shorter).
+    const typed = { kind: "fluid_lot", label: "GLY-R", "calibration[0].temperatureC": "20,5", "calibration[0].viscosityPaS": "0.11" };
+    const added = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
+        cookie: instructor,
+        form: { ...typed, __intent__: JSON.stringify({ type: "insert", payload: { name: "calibration" } }) },
+      }),
+    );
+    const addedHtml = await added.text();
+    expect(addedHtml).toMatch(/name="calibration\[1\]\.temperatureC"/);
+    expect(addedHtml).toMatch(
+      /name="calibration\[0\]\.temperatureC"[^>]*value="20,5"|value="20,5"[^>]*name="calibration\[0\]\.temperatureC"/,
+    );
+    const removed = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
+        cookie: instructor,
+        form: { ...typed, __intent__: JSON.stringify({ type: "remove", payload: { name: "calibration", index: 0 } }) },
+      }),
+    );
+    expect(await removed.text()).not.toMatch(/name="calibration\[0\]\.temperatureC"/);
+    expect(await db.select({ id: parts.id }).from(parts).where(eq(parts.label, "GLY-R"))).toEqual([]);
+  });
+
+  it("refuses a re-measurement with the error at its calibration row and the note kept", async () => {
+    const response = await handle(
+      appRequest(`/courses/${courseId}/parts/${fluidLotId}`, {
+        cookie: instructor,
+        form: {
+          intent: "remeasure",
+          kind: "fluid_lot",
+          label: "FL-1",
+          fluidName: "syrup",
+          densityKgM3: "1380",
+          "calibration[0].temperatureC": "18",
+          "calibration[0].viscosityPaS": "6",
+          "calibration[1].temperatureC": "",
+          "calibration[1].viscosityPaS": "3,5",
+          note: "new viscometer",
+        },
+      }),
+    );
+    expect(response.status).toBe(400);
+    const html = await response.text();
+    expect(html).toMatch(/id="[^"]*calibration\[1\]\.temperatureC[^"]*"[^>]*>Enter the temperature in °C\./);
+    expect(html).toContain("new viscometer");
+  });
+
   it("commits an import through the page's action", async () => {
     const rows = [partToCsvRow({ kind: "accessory", label: "TH-1", accessoryType: "thermometer", notes: null })];
     const response = await handle(
