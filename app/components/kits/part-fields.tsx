@@ -14,7 +14,7 @@ export function PartFields({ kind, fields }: { kind: PartKind; fields: PartField
   const number = { type: "text", inputMode: "decimal" as const, autoComplete: "off" };
   return (
     <div className="flex flex-col gap-4">
-      {/* Enter in a box saves the form: the first submit button is the default, and the calibration rows' buttons come before the form's own. */}
+      {/* Enter in a box presses the form's first submit button: it must save, not add or remove a calibration row. */}
       <button type="submit" hidden tabIndex={-1} />
       <input type="hidden" name="kind" value={kind} />
       <TextField

@@ -1,7 +1,7 @@
 /**
- * What the part forms show first. Numbers are shown as text, as typed; calibration points come as rows
- * of two boxes, with spare empty rows (left out when sent empty) so that points can be added without
- * JavaScript too.
+ * The part forms beyond `partInput`: what they show first and the part page's two forms. Numbers are
+ * shown as text, as typed; calibration points come as rows of two boxes, with spare empty rows (left
+ * out when sent empty).
  */
 import { z } from "zod";
 import { partInput } from "~/lib/kits/part-input";
