@@ -1,3 +1,4 @@
+import { FormProvider, getFormProps, useForm } from "@conform-to/react";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.parts.new";
@@ -5,12 +6,12 @@ import { PartFields } from "~/components/kits/part-fields";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { fieldErrors, formValues } from "~/lib/forms/parse-form";
-import { calibrationRows, partFormCandidate } from "~/lib/kits/part-form";
-import { partInput, partKindLabels } from "~/lib/kits/part-input";
+import { parseSubmission } from "~/lib/forms/submission";
+import { blankCalibrationRows } from "~/lib/kits/part-form";
+import { partInput, partKindLabels, type PartFormInput, type PartInput, type PartKind } from "~/lib/kits/part-input";
 import { requireCourseRole } from "~/server/auth/access.server";
-import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { createPart } from "~/server/kits/parts.server";
 
@@ -18,7 +19,7 @@ const chosenKind = z.enum(["sphere", "fluid_lot", "column", "accessory"]);
 const newPartSearch = z.object({ kind: chosenKind.optional() });
 
 /** Empty rows offered for calibration points on a new fluid lot, so the form works without JavaScript. */
-const blankCalibrationRows = 4;
+const blankCalibrationRowCount = 4;
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
@@ -26,27 +27,17 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   return { courseId: access.course.id, kind: kind ?? null };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const form = await request.formData();
-  const failure = (errors: Record<string, string[]>) =>
-    data({ errors, values: formValues(form), calibration: calibrationRows(form) }, { status: 400 });
-  const parsed = partInput.safeParse(partFormCandidate(form));
-  if (!parsed.success) return failure(fieldErrors(parsed.error));
-  let partId: string;
-  try {
-    partId = (await createPart(db, { courseId: access.course.id, actorId: access.user.id, input: parsed.data })).part.id;
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return failure({ [error.field ?? "form"]: [error.message] });
-  }
+  const submission = parseSubmission(formData, partInput);
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const { part } = await createPart(db, { courseId: access.course.id, actorId: access.user.id, input: submission.value });
   // The part page shows the checks (warnings) against today's inventory, so the redirect only says "saved".
-  return redirect(`/courses/${access.course.id}/parts/${partId}?saved=created`);
-}
+  return redirect(`/courses/${access.course.id}/parts/${part.id}?saved=created`);
+});
 
 export default function NewPart({ loaderData, actionData }: Route.ComponentProps) {
   const { courseId, kind } = loaderData;
-  const navigation = useNavigation();
   const base = `/courses/${courseId}/parts`;
   return (
     <div className="flex max-w-2xl flex-col gap-6">
@@ -72,29 +63,38 @@ export default function NewPart({ loaderData, actionData }: Route.ComponentProps
         </fieldset>
       </Form>
       {kind ? (
-        <Form method="post" className="flex flex-col gap-4" key={kind}>
-          {actionData?.errors.form ? <Notice tone="error">{actionData.errors.form.join(" ")}</Notice> : null}
-          <PartFields
-            kind={kind}
-            values={actionData?.values ?? {}}
-            calibration={
-              actionData?.calibration ?? Array.from({ length: blankCalibrationRows }, () => ({ temperatureC: "", viscosityPaS: "" }))
-            }
-            errors={actionData?.errors ?? {}}
-          />
-          <div className="flex gap-3">
-            <Button type="submit" disabled={navigation.state === "submitting"}>
-              Save the part
-            </Button>
-            <Link to={base} className="px-4 py-2 text-sm underline">
-              Cancel
-            </Link>
-          </div>
-        </Form>
+        <NewPartForm key={kind} kind={kind} lastResult={actionData} cancelTo={base} />
       ) : (
         <p className="text-ink-700">Choose the kind first: each asks for its own measurements.</p>
       )}
     </div>
+  );
+}
+
+/** The form of one kind; choosing another kind starts a fresh one. */
+function NewPartForm({ kind, lastResult, cancelTo }: { kind: PartKind; lastResult: Route.ComponentProps["actionData"]; cancelTo: string }) {
+  const navigation = useNavigation();
+  const [form, fields] = useForm<PartFormInput, PartInput>({
+    lastResult,
+    defaultValue: { kind, calibration: blankCalibrationRows(blankCalibrationRowCount) },
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, partInput),
+  });
+  return (
+    <Form method="post" className="flex flex-col gap-4" {...getFormProps(form)}>
+      {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}
+      <FormProvider context={form.context}>
+        <PartFields kind={kind} fields={fields} />
+      </FormProvider>
+      <div className="flex gap-3">
+        <Button type="submit" disabled={navigation.state === "submitting"}>
+          Save the part
+        </Button>
+        <Link to={cancelTo} className="px-4 py-2 text-sm underline">
+          Cancel
+        </Link>
+      </div>
+    </Form>
   );
 }
 

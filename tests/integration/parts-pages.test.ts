@@ -96,8 +96,10 @@ describe("parts screens", () => {
           fluidName: "glycerol–water 85 %",
           densityKgM3: "1221",
           glycerolMassFraction: "0.85",
-          calibrationTemperatureC: ["20", "30"],
-          calibrationViscosityPaS: ["109", "0.058"],
+          "calibration[0].temperatureC": "20",
+          "calibration[0].viscosityPaS": "109",
+          "calibration[1].temperatureC": "30",
+          "calibration[1].viscosityPaS": "0.058",
         },
       }),
     );
@@ -122,8 +124,8 @@ describe("parts screens", () => {
           fluidName: "glycerol–water",
           densityKgM3: "1221",
           glycerolMassFraction: "85",
-          calibrationTemperatureC: "20",
-          calibrationViscosityPaS: "0.109",
+          "calibration[0].temperatureC": "20",
+          "calibration[0].viscosityPaS": "0.109",
         },
       }),
     );
@@ -144,6 +146,54 @@ describe("parts screens", () => {
     const html = await response.text();
     expect(html).toContain("Enter the diameter in mm.");
     expect(html).toMatch(/value="glass"/);
+  });
+
+  it("adds and removes calibration rows without JavaScript, keeping what was typed", async () => {
+    // The rows' buttons submit Conform's intent; the server answers with the form one row longer (or shorter).
+    const typed = { kind: "fluid_lot", label: "GLY-R", "calibration[0].temperatureC": "20,5", "calibration[0].viscosityPaS": "0.11" };
+    const added = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
+        cookie: instructor,
+        form: { ...typed, __intent__: JSON.stringify({ type: "insert", payload: { name: "calibration" } }) },
+      }),
+    );
+    const addedHtml = await added.text();
+    expect(addedHtml).toMatch(/name="calibration\[1\]\.temperatureC"/);
+    expect(addedHtml).toMatch(
+      /name="calibration\[0\]\.temperatureC"[^>]*value="20,5"|value="20,5"[^>]*name="calibration\[0\]\.temperatureC"/,
+    );
+    const removed = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=fluid_lot`, {
+        cookie: instructor,
+        form: { ...typed, __intent__: JSON.stringify({ type: "remove", payload: { name: "calibration", index: 0 } }) },
+      }),
+    );
+    expect(await removed.text()).not.toMatch(/name="calibration\[0\]\.temperatureC"/);
+    expect(await db.select({ id: parts.id }).from(parts).where(eq(parts.label, "GLY-R"))).toEqual([]);
+  });
+
+  it("refuses a re-measurement with the error at its calibration row and the note kept", async () => {
+    const response = await handle(
+      appRequest(`/courses/${courseId}/parts/${fluidLotId}`, {
+        cookie: instructor,
+        form: {
+          intent: "remeasure",
+          kind: "fluid_lot",
+          label: "FL-1",
+          fluidName: "syrup",
+          densityKgM3: "1380",
+          "calibration[0].temperatureC": "18",
+          "calibration[0].viscosityPaS": "6",
+          "calibration[1].temperatureC": "",
+          "calibration[1].viscosityPaS": "3,5",
+          note: "new viscometer",
+        },
+      }),
+    );
+    expect(response.status).toBe(400);
+    const html = await response.text();
+    expect(html).toMatch(/id="[^"]*calibration\[1\]\.temperatureC[^"]*"[^>]*>Enter the temperature in °C\./);
+    expect(html).toContain("new viscometer");
   });
 
   it("commits an import through the page's action", async () => {

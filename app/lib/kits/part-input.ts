@@ -3,6 +3,7 @@
  * Shared by the forms (instant feedback), the server actions and the CSV import.
  */
 import { z } from "zod";
+import { typedNumber } from "~/lib/forms/typed-number";
 
 const label = z
   .string()
@@ -19,21 +20,30 @@ const notes = z
   .transform((value) => value || null);
 
 /** A measured length or mass: a positive number, with a sanity ceiling so a unit slip is caught. */
-const measured = (what: string, unit: string, max: number) =>
-  z.coerce
+const measuredNumber = (what: string, unit: string, max: number) =>
+  z
     .number({ error: `Enter the ${what} in ${unit}.` })
     .refine(Number.isFinite, `Enter the ${what} in ${unit}.`)
     .positive(`The ${what} must be greater than zero.`)
     .max(max, `A ${what} above ${max} ${unit} looks like a unit slip; enter it in ${unit}.`);
 
-const optionalMeasured = (what: string, unit: string, max: number) =>
-  z.preprocess((value) => (value === "" || value === null ? undefined : value), measured(what, unit, max).optional());
+const measured = (what: string, unit: string, max: number) => typedNumber(measuredNumber(what, unit, max));
+const optionalMeasured = (what: string, unit: string, max: number) => typedNumber(measuredNumber(what, unit, max).optional());
+
+/**
+ * A calibration row the form sent with both boxes empty (a spare row) is left out. It is dropped after
+ * each row is checked, so that an error keeps the number of the row it belongs to.
+ */
+const isBlankRow = (row: unknown) =>
+  typeof row === "object" && row !== null && Object.values(row).every((value) => value === undefined || String(value).trim() === "");
 
 export const calibrationPointSchema = z.object({
-  temperatureC: z.coerce
-    .number({ error: "Enter the temperature in °C." })
-    .min(-20, "Calibration temperatures below −20 °C are outside what a home lab sees.")
-    .max(100, "Calibration temperatures above 100 °C are outside what a home lab sees."),
+  temperatureC: typedNumber(
+    z
+      .number({ error: "Enter the temperature in °C." })
+      .min(-20, "Calibration temperatures below −20 °C are outside what a home lab sees.")
+      .max(100, "Calibration temperatures above 100 °C are outside what a home lab sees."),
+  ),
   viscosityPaS: measured("viscosity", "Pa·s", 1000),
 });
 
@@ -52,21 +62,21 @@ export const fluidLotInput = z.object({
   kind: z.literal("fluid_lot"),
   label,
   fluidName: z.string().trim().min(1, "Name the fluid, e.g. glycerol–water 85 %.").max(80),
-  densityKgM3: measured("density", "kg/m³", 25000).min(500, "A density below 500 kg/m³ is not a lab fluid; enter it in kg/m³."),
+  densityKgM3: typedNumber(
+    measuredNumber("density", "kg/m³", 25000).min(500, "A density below 500 kg/m³ is not a lab fluid; enter it in kg/m³."),
+  ),
   densityUncertaintyKgM3: optionalMeasured("density uncertainty", "kg/m³", 100),
   // Liquids expand when warmed: dρ/dT is negative, glycerol's about −0.65 kg/m³/K (common practice).
-  densityTemperatureCoefficientKgM3K: z.preprocess(
-    (value) => (value === "" || value === null ? undefined : value),
-    z.coerce
+  densityTemperatureCoefficientKgM3K: typedNumber(
+    z
       .number({ error: "Enter the density's temperature coefficient in kg/m³ per K." })
       .refine(Number.isFinite, "Enter the density's temperature coefficient in kg/m³ per K.")
       .min(-10, "A coefficient below −10 kg/m³ per K is not a lab fluid; check the sign and unit.")
       .max(0, "Liquids get lighter when warmed: the coefficient is zero or negative.")
       .optional(),
   ),
-  glycerolMassFraction: z.preprocess(
-    (value) => (value === "" || value === null ? undefined : value),
-    z.coerce
+  glycerolMassFraction: typedNumber(
+    z
       .number({ error: "Enter glycerol's mass fraction as a number from 0 to 1, e.g. 0.85." })
       .refine(Number.isFinite, "Enter glycerol's mass fraction as a number from 0 to 1, e.g. 0.85.")
       .min(0, "A mass fraction runs from 0 to 1.")
@@ -74,12 +84,18 @@ export const fluidLotInput = z.object({
       .optional(),
   ),
   calibration: z
-    .array(calibrationPointSchema)
-    .min(1, "Add at least one calibration point (temperature and viscosity).")
-    .max(50)
-    .refine(
-      (points) => new Set(points.map((p) => p.temperatureC)).size === points.length,
-      "Two calibration points share a temperature; keep one per temperature.",
+    .array(z.preprocess((row: z.input<typeof calibrationPointSchema>) => (isBlankRow(row) ? null : row), calibrationPointSchema.nullable()))
+    .optional()
+    .transform((rows) => (rows ?? []).filter((row) => row !== null))
+    .pipe(
+      z
+        .array(z.object({ temperatureC: z.number(), viscosityPaS: z.number() }))
+        .min(1, "Add at least one calibration point (temperature and viscosity).")
+        .max(50)
+        .refine(
+          (points) => new Set(points.map((p) => p.temperatureC)).size === points.length,
+          "Two calibration points share a temperature; keep one per temperature.",
+        ),
     ),
   notes,
 });
@@ -106,6 +122,8 @@ export const accessoryInput = z.object({
 
 export const partInput = z.discriminatedUnion("kind", [sphereInput, fluidLotInput, columnInput, accessoryInput]);
 export type PartInput = z.infer<typeof partInput>;
+/** The part form's values as typed, before `partInput` reads them. */
+export type PartFormInput = z.input<typeof partInput>;
 export type PartKind = PartInput["kind"];
 
 export const partKindLabels: Record<PartKind, string> = {
