@@ -16,8 +16,8 @@ import { dropFieldName, type DropLogDraft, type DropLogField } from "~/lib/drop-
 import { formatDateTime } from "~/lib/format-date";
 import { DropTimesField } from "./drop-times-field";
 import { PartChoice } from "./part-choice";
-import { ReductionSummary, WarningList, figure } from "./reduction-summary";
-import { StrayDropComparison } from "./reduction-result";
+import { PreviewPanel } from "./preview-panel";
+import { WarningList } from "./reduction-summary";
 import { useDraftAutosave } from "./use-draft-autosave";
 import { useDropLogState, type FormColumn, type FormFluidLot, type FormSphere } from "./use-drop-log-state";
 import { useReductionPreview } from "./use-reduction-preview";
@@ -208,33 +208,7 @@ export function DropLogForm({
         error={fieldMessages("notes")}
       />
 
-      <section aria-labelledby="preview-heading" aria-live="polite" className="rounded-lg bg-paper-100 p-4 ring-1 ring-ink-900/10">
-        <h3 id="preview-heading" className="font-semibold">
-          Preview {preview.status === "loading" ? <span className="text-sm font-normal text-ink-600">(updating…)</span> : null}
-        </h3>
-        {preview.status === "idle" ? (
-          <p className="text-sm text-ink-700">Enter the temperature and a drop time to see your result.</p>
-        ) : null}
-        {preview.status === "error" ? <p className="text-sm text-outlier">{preview.message}</p> : null}
-        {preview.status === "ready" ? (
-          <>
-            <ReductionSummary reduction={preview.result.reduction} normalisedFigure={preview.result.normalisedFigure} />
-            <WarningList warnings={warningsFor("form")} />
-            <StrayDropComparison
-              reduction={preview.result.reduction}
-              normalisedFigure={preview.result.normalisedFigure}
-              referenceViscosity={preview.result.kitRecords.fluidLot.viscosityPaS}
-            />
-            <p className="mt-2 text-xs text-ink-600">
-              Computed by the server from your kit's records
-              {kind === "drag"
-                ? `, with the fluid's viscosity ${figure(preview.result.kitRecords.fluidLot.viscosityPaS)} Pa·s at your temperature`
-                : ""}
-              . Handing in stores this result.
-            </p>
-          </>
-        ) : null}
-      </section>
+      <PreviewPanel preview={preview} kind={kind} formWarnings={warningsFor("form")} />
 
       <div className="flex flex-wrap items-center gap-3">
         <Button {...handInButton}>{handingIn ? "Handing in…" : "Hand in"}</Button>
