@@ -64,7 +64,7 @@ export function ExtensionForm({
         <SelectField
           label={target.label}
           name={targetField.name}
-          defaultValue={[targetField.initialValue].flat()[0] ?? ""}
+          defaultValue={typeof targetField.initialValue === "string" ? targetField.initialValue : ""}
           error={Object.values(targetField.allErrors).flat()}
         >
           <option value="">{target.choose}</option>
