@@ -6,7 +6,7 @@ import { sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, demoCourse } from "../../seeds/demo-scenario";
-import { openBrowser, signInWithPassword, type BrowserSession } from "../support/browser";
+import { openBrowser, type BrowserSession } from "../support/browser";
 
 describe("forms without JavaScript", () => {
   let browser: BrowserSession;
@@ -14,7 +14,7 @@ describe("forms without JavaScript", () => {
   beforeAll(async () => {
     browser = await openBrowser({ javaScriptEnabled: false });
   });
-  const pool = createPool();
+  const pool = createPool(inject("databaseUrl"));
   const db = createDatabase(pool);
   afterAll(async () => {
     await browser.close();
@@ -61,8 +61,7 @@ describe("forms without JavaScript", () => {
         order by l.due_at limit 1`)
     ).rows;
     const page = await browser.context.newPage();
-    await signInWithPassword(page, base, "instructor@harrowgate.example", DEMO_PASSWORD);
-
+    // Signed in as the instructor by the test above (the browser context keeps the session).
     await page.goto(`${base}/courses/${lab.course_id}/labs/new`);
     await page.getByLabel("Title").fill("Settling in castor oil");
     await page.getByLabel("Opens").fill("2027-03-10T09:00");

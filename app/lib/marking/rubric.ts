@@ -108,7 +108,8 @@ export const autoCriterionInput = z
     }
   });
 
-export const rubricCriterionInput = z.union([levelsCriterionInput, rangeCriterionInput, autoCriterionInput]);
+// Told apart by `kind`, so that a refusal names the field of the chosen kind rather than the whole criterion.
+export const rubricCriterionInput = z.discriminatedUnion("kind", [levelsCriterionInput, rangeCriterionInput, autoCriterionInput]);
 export type RubricCriterionInput = z.input<typeof rubricCriterionInput>;
 
 /** The rubric's criteria in their order. An `id` keeps a criterion (and the scores given for it). */
