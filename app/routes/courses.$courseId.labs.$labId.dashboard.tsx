@@ -301,7 +301,7 @@ function ExtendSelected({
 }) {
   const fetcher = useFetcher<typeof extensionsAction>();
   const result = fetcher.data;
-  const errors = result && "errors" in result ? result.errors : {};
+  const errors = result && "error" in result ? (result.error ?? {}) : {};
   const done =
     result && "done" in result && result.done
       ? { count: result.count ?? 0, dueAt: typeof result.dueAt === "string" ? result.dueAt : null }
@@ -339,9 +339,9 @@ function ExtendSelected({
           </Notice>
         </div>
       ) : null}
-      {[...(errors.membershipIds ?? []), ...(errors.form ?? [])].length ? (
+      {[...(errors.membershipIds ?? []), ...(errors[""] ?? [])].length ? (
         <div className="mb-3">
-          <Notice tone="error">{[...(errors.membershipIds ?? []), ...(errors.form ?? [])].join(" ")}</Notice>
+          <Notice tone="error">{[...(errors.membershipIds ?? []), ...(errors[""] ?? [])].join(" ")}</Notice>
         </div>
       ) : null}
       <fetcher.Form key={round} id={extendFormId} method="post" action={extensionsHref} className="flex flex-col gap-4">

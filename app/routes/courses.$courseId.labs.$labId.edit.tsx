@@ -1,3 +1,4 @@
+import { getFormProps, useForm, type SubmissionResult } from "@conform-to/react";
 import { data, Form, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.edit";
@@ -6,11 +7,12 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
 import { PageHeader } from "~/components/ui/page-header";
-import { fieldErrors, formFailure } from "~/lib/forms/parse-form";
-import { labInputFor, labInputFromForm, storedLabFormValues, submittedLabFormValues } from "~/lib/labs/lab-input";
+import { parseSubmission, replyFor } from "~/lib/forms/submission";
+import { labInputFor, storedLabFormValues } from "~/lib/labs/lab-input";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
+import { formAction } from "~/server/errors.server";
 import { closeLab, getLab, getLabFormOptions, updateLab } from "~/server/labs/labs.server";
 
 const labIntent = z.enum(["save", "publish", "close"], { error: "Choose save, publish or close." });
@@ -35,28 +37,20 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, context, params }: Route.ActionArgs) {
+export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   const lab = await loadOwnLab(access.course.id, params.labId);
-  const form = await request.formData();
-  const values = submittedLabFormValues(form);
-  const intent = labIntent.safeParse(form.get("intent"));
-  if (!intent.success) return formFailure(values.fields, { form: [intent.error.issues[0].message] }, { submitted: values });
-  try {
-    if (intent.data === "close") {
-      await closeLab(db, { access, labId: lab.id, request });
-      return { done: "closed" as const };
-    }
-    const parsed = labInputFor(access.course.timeZone).safeParse(labInputFromForm(form));
-    if (!parsed.success) return formFailure(values.fields, fieldErrors(parsed.error), { submitted: values });
-    const saved = await updateLab(db, { access, labId: lab.id, input: parsed.data, intent: intent.data, request });
-    return { done: intent.data === "publish" ? ("published" as const) : ("saved" as const), status: saved.status };
-  } catch (error) {
-    if (!(error instanceof AppError)) throw error;
-    return formFailure(values.fields, { [error.field ?? "form"]: [error.message] }, { submitted: values });
-    throw error;
+  const intent = labIntent.safeParse(formData.get("intent"));
+  if (!intent.success) throw new AppError({ code: "invalid_value", message: intent.error.issues[0].message });
+  if (intent.data === "close") {
+    await closeLab(db, { access, labId: lab.id, request });
+    return { done: "closed" as const };
   }
-}
+  const submission = parseSubmission(formData, labInputFor(access.course.timeZone));
+  if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+  const saved = await updateLab(db, { access, labId: lab.id, input: submission.value, intent: intent.data, request });
+  return { done: intent.data === "publish" ? ("published" as const) : ("saved" as const), status: saved.status };
+});
 
 const doneMessages = {
   saved: "Saved.",
@@ -65,11 +59,12 @@ const doneMessages = {
 } as const;
 
 export default function EditLab({ loaderData, actionData }: Route.ComponentProps) {
-  const { courseId, timeZone, lab, cohorts, parts } = loaderData;
-  const navigation = useNavigation();
+  const { courseId, lab } = loaderData;
   const [search] = useSearchParams();
-  const failed = actionData && "errors" in actionData ? actionData : null;
-  const errors = failed?.errors ?? {};
+  // A refused close is told above the page; any other refusal belongs to the settings form.
+  const closeReply = replyFor(actionData, "close");
+  const reply = closeReply || !actionData || "done" in actionData ? undefined : actionData;
+  const closeErrors = Object.values(closeReply?.error ?? {}).flatMap((messages) => messages ?? []);
   return (
     <div className="flex max-w-4xl flex-col gap-6">
       <PageHeader
@@ -83,30 +78,9 @@ export default function EditLab({ loaderData, actionData }: Route.ComponentProps
         <Notice tone="success">The draft is saved. Check it, then publish it to its cohorts.</Notice>
       ) : null}
       {actionData && "done" in actionData ? <Notice tone="success">{doneMessages[actionData.done]}</Notice> : null}
-      {errors.form ? <Notice tone="error">{errors.form.join(" ")}</Notice> : null}
-      {Object.keys(errors).length && !errors.form ? (
-        <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice>
-      ) : null}
+      {closeErrors.length ? <Notice tone="error">{closeErrors.join(" ")}</Notice> : null}
       {/* Keyed on the stored values so that a successful save shows what was stored. */}
-      <Form method="post" className="flex flex-col gap-6" key={failed ? "failed" : JSON.stringify(loaderData.values)}>
-        <LabFields values={failed?.submitted ?? loaderData.values} errors={errors} timeZone={timeZone} cohorts={cohorts} parts={parts} />
-        <div className="flex flex-wrap gap-3">
-          <Button
-            type="submit"
-            name="intent"
-            value="save"
-            variant={lab.status === "draft" ? "secondary" : "primary"}
-            disabled={navigation.state === "submitting"}
-          >
-            Save
-          </Button>
-          {lab.status !== "published" ? (
-            <Button type="submit" name="intent" value="publish" disabled={navigation.state === "submitting"}>
-              {lab.status === "closed" ? "Save and publish again" : "Save and publish"}
-            </Button>
-          ) : null}
-        </div>
-      </Form>
+      <LabSettingsForm key={JSON.stringify(loaderData.values)} loaderData={loaderData} reply={reply} />
       {lab.status === "published" ? (
         <Form method="post" className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
           <p className="mb-2 text-sm">Closing stops hand-ins at once, late ones too, and cancels the reminders still to go.</p>
@@ -116,6 +90,43 @@ export default function EditLab({ loaderData, actionData }: Route.ComponentProps
         </Form>
       ) : null}
     </div>
+  );
+}
+
+function LabSettingsForm({ loaderData, reply }: { loaderData: Route.ComponentProps["loaderData"]; reply: SubmissionResult | undefined }) {
+  const { timeZone, lab, cohorts, parts } = loaderData;
+  const navigation = useNavigation();
+  const [form, fields] = useForm({
+    lastResult: reply,
+    defaultValue: loaderData.values,
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, labInputFor(timeZone)),
+  });
+  return (
+    <Form method="post" className="flex flex-col gap-6" {...getFormProps(form)}>
+      {form.errors?.length ? (
+        <Notice tone="error">{form.errors.join(" ")}</Notice>
+      ) : reply?.error ? (
+        <Notice tone="error">Some fields need correcting; see the messages beside them.</Notice>
+      ) : null}
+      <LabFields fields={fields} timeZone={timeZone} cohorts={cohorts} parts={parts} />
+      <div className="flex flex-wrap gap-3">
+        <Button
+          type="submit"
+          name="intent"
+          value="save"
+          variant={lab.status === "draft" ? "secondary" : "primary"}
+          disabled={navigation.state === "submitting"}
+        >
+          Save
+        </Button>
+        {lab.status !== "published" ? (
+          <Button type="submit" name="intent" value="publish" disabled={navigation.state === "submitting"}>
+            {lab.status === "closed" ? "Save and publish again" : "Save and publish"}
+          </Button>
+        ) : null}
+      </div>
+    </Form>
   );
 }
 

@@ -52,6 +52,42 @@ describe("forms without JavaScript", () => {
     await page.getByText(demoCourse.title).first().waitFor();
   });
 
+  it("lab settings and the rubric: a refused form keeps what was typed with the error at its field, and a criterion is added by its button", async () => {
+    const [lab] = (
+      await db.execute<{ id: string; course_id: string; criteria: number }>(sql`
+        select l.id, l.course_id, (select count(*)::int from rubric_criteria rc where rc.lab_id = l.id) as criteria
+        from labs l join courses c on c.id = l.course_id
+        where c.code = ${demoCourse.code} and c.term = ${demoCourse.term}
+          and not exists (select 1 from marks m where m.lab_id = l.id and m.released_at is not null)
+        order by l.due_at limit 1`)
+    ).rows;
+    const page = await browser.context.newPage();
+    // Signed in as the instructor by the test above (the browser context keeps the session).
+    await page.goto(`${base}/courses/${lab.course_id}/labs/new`);
+    await page.getByLabel("Title").fill("Settling in castor oil");
+    await page.getByLabel("Opens").fill("2027-03-10T09:00");
+    await page.getByLabel("Due", { exact: true }).fill("2027-03-09T09:00");
+    await page.getByRole("button", { name: "Save the draft" }).click();
+    await page.getByText("The due time must come after the opening time.").waitFor();
+    expect(await page.getByLabel("Title").inputValue()).toBe("Settling in castor oil");
+    expect(await page.getByLabel("Due", { exact: true }).getAttribute("aria-invalid")).toBe("true");
+
+    await page.goto(`${base}/courses/${lab.course_id}/labs/${lab.id}/rubric`);
+    await page.getByRole("button", { name: "Add a points criterion" }).click();
+    const added = page.getByLabel(`Criterion ${lab.criteria + 1}`, { exact: true });
+    await added.waitFor();
+    await added.fill("Discussion of the wall effect");
+    await page.getByRole("button", { name: "Save the rubric", exact: true }).last().click();
+    await page.getByText("Some criteria need correcting").waitFor();
+    // The new criterion's most points are left empty: the message stands there, and the title typed stays.
+    const mostPoints = page.getByLabel("Most points").last();
+    expect(await mostPoints.getAttribute("aria-invalid")).toBe("true");
+    expect(await page.getByLabel(`Criterion ${lab.criteria + 1}`, { exact: true }).inputValue()).toBe("Discussion of the wall effect");
+    const stored = await db.execute<{ n: number }>(sql`select count(*)::int as n from rubric_criteria where lab_id = ${lab.id}`);
+    expect(stored.rows[0].n).toBe(lab.criteria);
+    await page.close();
+  });
+
   it("hands in a drop log: rows added by the form's own button, a bad time refused at its row with the log kept, then version 1", async () => {
     // A demo student with a complete kit at home (the last by e-mail: the other browser suites take the first), and a lab for their cohort.
     const [student] = (

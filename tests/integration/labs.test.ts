@@ -53,13 +53,7 @@ const instructor = () => staffAccess("instructor", [fixture.cohortId, fixture.ot
 
 /** The form as an instructor fills it, with the new-lab defaults. */
 function rawForm(overrides: Record<string, unknown>): Record<string, unknown> {
-  const { fields } = newLabFormValues("drag", []);
-  const resolutions = Object.fromEntries(
-    Object.entries(fields)
-      .filter(([key]) => key.startsWith("resolutions."))
-      .map(([key, value]) => [key.slice(12), value]),
-  );
-  return { ...fields, resolutions, title: "Settling in glycerol", cohortIds: [], ...overrides };
+  return { ...newLabFormValues("drag", []), title: "Settling in glycerol", ...overrides };
 }
 const labForm = (overrides: Record<string, unknown>, timeZone = "UTC"): LabInput => labInputFor(timeZone).parse(rawForm(overrides));
 

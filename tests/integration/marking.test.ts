@@ -34,7 +34,7 @@ import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/s
 import { copyRubric, listRubricSources, saveRubric } from "~/server/marking/rubrics.server";
 import { loadStudentMark } from "~/server/marking/student-mark.server";
 import { createAccessFixture, type AccessFixture } from "../support/access-fixture";
-import { appRequest, sessionCookieFor } from "../support/app-requests";
+import { appOrigin, appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { quietClass, rehandIn } from "../support/comparison-class";
 import { countStatements } from "../support/count-statements";
 import { seedMarkingClass } from "../support/marking-class";
@@ -884,6 +884,46 @@ describe("the rubric", () => {
     expect((await refusal(copyRubric(db, { access: accessOf("instructor"), lab: { id: lab.id }, fromLabId: target.id }))).code).toBe(
       "rubric_locked",
     );
+  });
+
+  it("is saved from the rubric form's field list, typed numbers as typed, with a refusal at its criterion's field", async () => {
+    const lab = await newLab("Rubric over HTTP");
+    const handle = await createAppHandler();
+    const post = async (fields: Record<string, string>) =>
+      handle(
+        new Request(new URL(`/courses/${fixture.courseId}/labs/${lab.id}/rubric.data`, appOrigin()), {
+          method: "POST",
+          body: new URLSearchParams(fields),
+          headers: { Cookie: await sessionCookieFor(fixture.userIds.instructor), Origin: appOrigin() },
+        }),
+      );
+    const form = {
+      intent: "save",
+      "criteria[0].kind": "levels",
+      "criteria[0].title": "Method",
+      "criteria[0].levels[0].points": "0",
+      "criteria[0].levels[0].description": "Not described",
+      "criteria[0].levels[1].points": "2,5",
+      "criteria[0].levels[1].description": "Fully",
+      "criteria[1].kind": "range",
+      "criteria[1].title": "Discussion",
+      "criteria[1].minPoints": "5",
+      "criteria[1].maxPoints": "2",
+    };
+    const refused = await post(form);
+    expect(refused.status).toBe(400);
+    const text = await refused.text();
+    expect(text).toContain("criteria[1].maxPoints");
+    expect(text).toContain("The maximum must be above the minimum.");
+    expect(text).toContain("Not described");
+    expect((await db.select({ n: count() }).from(rubricCriteria).where(eq(rubricCriteria.labId, lab.id)))[0].n).toBe(0);
+
+    expect((await post({ ...form, "criteria[1].maxPoints": "6" })).status).toBe(200);
+    const saved = (await loadMarkingLab(db, fixture.courseId, lab.id))!.rubric;
+    expect(saved.map(({ title, kind, minPoints, maxPoints }) => ({ title, kind, minPoints, maxPoints }))).toEqual([
+      { title: "Method", kind: "levels", minPoints: 0, maxPoints: 2.5 },
+      { title: "Discussion", kind: "range", minPoints: 5, maxPoints: 6 },
+    ]);
   });
 });
 

@@ -2,6 +2,7 @@
  * The fields of a lab, shared by the "new lab" and "edit lab" pages. Times are typed in the course's
  * time zone; beside each, the instant it names is shown in the viewer's own zone too.
  */
+import { getCollectionProps, type FieldMetadata } from "@conform-to/react";
 import { useState, type ReactNode } from "react";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { SafetyCautions } from "~/components/safety-cautions";
@@ -20,7 +21,8 @@ import {
 import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import { afterReleaseHandInNames, afterReleaseHandInPolicies } from "~/lib/marking/release";
 
-type Errors = Record<string, string[] | undefined>;
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- a field of any form's schema
+type Field = FieldMetadata<any, any, string[]>;
 type PartOption = {
   id: string;
   kind: "sphere" | "fluid_lot" | "column" | "accessory";
@@ -38,37 +40,36 @@ const noneTickedHints = {
   column: "None ticked: any column of the student's kit. When a kit holds more than one allowed column, the student must say which.",
 } as const;
 
-/** Messages of a field and of its items (`cohortIds.0`), so an array field shows all of them. */
-function messagesFor(errors: Errors, name: string): string[] {
-  return Object.entries(errors).flatMap(([key, messages]) => (key === name || key.startsWith(`${name}.`) ? (messages ?? []) : []));
-}
+/** The messages of a list field and of its items (`cohortIds[0]`), so that all of them show. */
+const messagesOf = (field: Field) => Object.values(field.allErrors).flat();
 
-/** A wall-clock time in the course's zone, with the instant it names shown beside it (also used by the extension forms). */
+/**
+ * A wall-clock time in the course's zone, with the instant it names shown beside it (also used by the
+ * extension forms). On a Conform form pass `field`; the hand-in dashboard's fetcher form passes `name` and `error`.
+ */
 export function WallClockField({
   label,
-  name,
-  defaultValue,
   timeZone,
-  errors,
   hint,
+  field,
+  name,
+  error,
 }: {
   label: string;
-  name: string;
-  defaultValue: string;
   timeZone: string;
-  errors: Errors;
   hint?: string;
+  field?: Field;
+  name?: string;
+  error?: string[];
 }) {
-  const [value, setValue] = useState(defaultValue);
+  const [value, setValue] = useState(typeof field?.initialValue === "string" ? field.initialValue : "");
   const instant = value ? wallClockToInstant(value, timeZone) : null;
   return (
     <TextField
       label={label}
-      name={name}
       type="datetime-local"
-      defaultValue={defaultValue}
+      {...(field ? { field } : { name, defaultValue: "", error })}
       onChange={(event) => setValue(event.currentTarget.value)}
-      error={messagesFor(errors, name)}
       hint={
         <>
           {hint ? <span className="block">{hint}</span> : null}
@@ -81,34 +82,34 @@ export function WallClockField({
 
 function CheckboxGroup({
   legend,
-  name,
+  field,
   options,
-  checked,
-  errors,
   hint,
 }: {
   legend: string;
-  name: string;
+  field: Field;
   options: { id: string; label: string }[];
-  checked: string[];
-  errors: Errors;
   hint?: string;
 }) {
-  const messages = messagesFor(errors, name);
+  const messages = messagesOf(field);
+  const boxes = getCollectionProps(field, { type: "checkbox", options: options.map((option) => option.id) });
   return (
-    <fieldset aria-describedby={messages.length ? `${name}-error` : undefined}>
+    <fieldset aria-describedby={messages.length ? field.errorId : undefined}>
       <legend className="text-sm font-medium text-ink-900">{legend}</legend>
       {hint ? <p className="text-sm text-ink-600">{hint}</p> : null}
       <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
-        {options.map((option) => (
-          <label key={option.id} className="flex items-center gap-1.5 text-sm">
-            <input type="checkbox" name={name} value={option.id} defaultChecked={checked.includes(option.id)} />
-            {option.label}
-          </label>
-        ))}
+        {options.map((option, index) => {
+          const { key, ...box } = boxes[index];
+          return (
+            <label key={key} className="flex items-center gap-1.5 text-sm">
+              <input {...box} aria-describedby={undefined} aria-invalid={undefined} />
+              {option.label}
+            </label>
+          );
+        })}
       </div>
       {messages.length ? (
-        <p id={`${name}-error`} className="mt-1 text-sm font-medium text-outlier">
+        <p id={field.errorId} className="mt-1 text-sm font-medium text-outlier">
           {messages.join(" ")}
         </p>
       ) : null}
@@ -126,25 +127,24 @@ function Section({ title, children }: { title: string; children: ReactNode }) {
 }
 
 export function LabFields({
-  values,
-  errors,
+  fields,
   timeZone,
   cohorts,
   parts,
 }: {
-  values: LabFormValues;
-  errors: Errors;
+  fields: { [Key in keyof LabFormValues]: Field };
   timeZone: string;
   cohorts: { id: string; name: string }[];
   parts: PartOption[];
 }) {
-  const text = (name: string) => values.fields[name] ?? "";
-  const field = (name: string) => ({ name, defaultValue: text(name), error: messagesFor(errors, name) });
+  const resolutions = (
+    fields.resolutions as Field & { getFieldset: () => Record<keyof LabFormValues["resolutions"], Field> }
+  ).getFieldset();
   return (
     <>
       <Section title="The lab">
-        <TextField label="Title" required {...field("title")} />
-        <SelectField label="Experiment" {...field("kind")}>
+        <TextField label="Title" required field={fields.title} />
+        <SelectField label="Experiment" field={fields.kind}>
           {experimentKinds.map((kind) => (
             <option key={kind} value={kind}>
               {experimentKindNames[kind]}
@@ -154,7 +154,7 @@ export function LabFields({
         <TextAreaField
           label="Instructions"
           rows={6}
-          {...field("instructions")}
+          field={fields.instructions}
           hint="Students read these on the lab page, always with the safety cautions below."
         />
         <SafetyCautions compact />
@@ -162,14 +162,12 @@ export function LabFields({
 
       <Section title={`Times (${timeZone})`}>
         <div className="grid gap-4 sm:grid-cols-3">
-          <WallClockField label="Opens" name="opensAt" defaultValue={text("opensAt")} timeZone={timeZone} errors={errors} />
-          <WallClockField label="Due" name="dueAt" defaultValue={text("dueAt")} timeZone={timeZone} errors={errors} />
+          <WallClockField label="Opens" field={fields.opensAt} timeZone={timeZone} />
+          <WallClockField label="Due" field={fields.dueAt} timeZone={timeZone} />
           <WallClockField
             label="Late cut-off"
-            name="lateCutoffAt"
-            defaultValue={text("lateCutoffAt")}
+            field={fields.lateCutoffAt}
             timeZone={timeZone}
-            errors={errors}
             hint="Hand-ins until then are accepted and labelled late. Empty: none after the due time."
           />
         </div>
@@ -178,28 +176,24 @@ export function LabFields({
       <Section title="Cohorts and parts">
         <CheckboxGroup
           legend="Cohorts"
-          name="cohortIds"
+          field={fields.cohortIds}
           options={cohorts.map((cohort) => ({ id: cohort.id, label: cohort.name }))}
-          checked={values.cohortIds}
-          errors={errors}
           hint="Publishing needs at least one."
         />
         <TextField
           label="Required drops"
           inputMode="numeric"
-          {...field("requiredDrops")}
+          field={fields.requiredDrops}
           hint="Fewer drops are still taken, with a warning."
         />
         {(["sphere", "fluid_lot", "column"] as const).map((kind) => (
           <CheckboxGroup
             key={kind}
             legend={`Allowed ${partKindHeadings[kind].toLowerCase()}`}
-            name={allowedPartFields[kind]}
+            field={fields[allowedPartFields[kind]]}
             options={parts
               .filter((part) => part.kind === kind)
               .map((part) => ({ id: part.id, label: [part.label, part.material ?? part.fluidName].filter(Boolean).join(" · ") }))}
-            checked={values.allowedPartIds}
-            errors={errors}
             hint={noneTickedHints[kind]}
           />
         ))}
@@ -207,14 +201,14 @@ export function LabFields({
 
       <Section title="Reduction">
         <div className="grid gap-4 sm:grid-cols-2">
-          <SelectField label="Wall correction" {...field("wallCorrection")}>
+          <SelectField label="Wall correction" field={fields.wallCorrection}>
             {wallCorrections.map((method) => (
               <option key={method} value={method}>
                 {wallCorrectionNames[method]}
               </option>
             ))}
           </SelectField>
-          <SelectField label="Reference drag model" {...field("dragModel")}>
+          <SelectField label="Reference drag model" field={fields.dragModel}>
             {dragModels.map((model) => (
               <option key={model} value={model}>
                 {dragModelNames[model]}
@@ -228,31 +222,31 @@ export function LabFields({
           balance, ruler, hand stopwatch and a thermometer good to ±0.5 °C.
         </p>
         <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6">
-          <TextField label="Diameter" unit="mm" inputMode="decimal" {...field("resolutions.diameterMm")} />
-          <TextField label="Mass" unit="g" inputMode="decimal" {...field("resolutions.massG")} />
-          <TextField label="Distance" unit="mm" inputMode="decimal" {...field("resolutions.distanceMm")} />
-          <TextField label="Time" unit="s" inputMode="decimal" {...field("resolutions.timeS")} />
-          <TextField label="Temperature" unit="°C" inputMode="decimal" {...field("resolutions.temperatureC")} />
-          <TextField label="Thermometer accuracy ±" unit="°C" inputMode="decimal" {...field("resolutions.thermometerAccuracyC")} />
+          <TextField label="Diameter" unit="mm" inputMode="decimal" field={resolutions.diameterMm} />
+          <TextField label="Mass" unit="g" inputMode="decimal" field={resolutions.massG} />
+          <TextField label="Distance" unit="mm" inputMode="decimal" field={resolutions.distanceMm} />
+          <TextField label="Time" unit="s" inputMode="decimal" field={resolutions.timeS} />
+          <TextField label="Temperature" unit="°C" inputMode="decimal" field={resolutions.temperatureC} />
+          <TextField label="Thermometer accuracy ±" unit="°C" inputMode="decimal" field={resolutions.thermometerAccuracyC} />
         </div>
       </Section>
 
       <Section title="Class comparison">
         <div className="grid gap-4 sm:grid-cols-4">
-          <SelectField label="Method" {...field("comparisonMethod")}>
+          <SelectField label="Method" field={fields.comparisonMethod}>
             {comparisonMethods.map((method) => (
               <option key={method} value={method}>
                 {methodNames[method]}
               </option>
             ))}
           </SelectField>
-          <TextField label="Grubbs / ESD α" inputMode="decimal" {...field("comparisonAlpha")} />
+          <TextField label="Grubbs / ESD α" inputMode="decimal" field={fields.comparisonAlpha} />
           <TextField
             label="Grubbs: at most this many removals; ESD: upper bound r"
             inputMode="numeric"
-            {...field("comparisonMaxOutliers")}
+            field={fields.comparisonMaxOutliers}
           />
-          <TextField label="Tukey k" inputMode="decimal" {...field("comparisonK")} hint="Suspect beyond k, outlier beyond 2k." />
+          <TextField label="Tukey k" inputMode="decimal" field={fields.comparisonK} hint="Suspect beyond k, outlier beyond 2k." />
         </div>
       </Section>
 
@@ -260,7 +254,7 @@ export function LabFields({
         <TextField
           label="Remind students without a hand-in"
           unit="hours before the due time"
-          {...field("reminderOffsetsHours")}
+          field={fields.reminderOffsetsHours}
           hint="Whole hours, separated by commas; empty for none. Each student gets each reminder at most once."
         />
       </Section>
@@ -268,7 +262,7 @@ export function LabFields({
       <Section title="After the release">
         <SelectField
           label="A hand-in from a student whose mark is released"
-          {...field("afterReleaseHandIns")}
+          field={fields.afterReleaseHandIns}
           hint="Either way the released mark keeps the version it was marked on."
         >
           {afterReleaseHandInPolicies.map((policy) => (

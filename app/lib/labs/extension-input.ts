@@ -5,6 +5,7 @@
  * turned into instants exactly as the lab form does it.
  */
 import { z } from "zod";
+import { formList } from "~/lib/forms/submission";
 import { blankToUndefined, wallClock } from "./lab-input";
 
 /** More than any class; a larger selection is a mistake. */
@@ -40,11 +41,13 @@ export function extensionInputFor(lab: { timeZone: string; opensAt: Date }) {
       z
         .object({
           intent: z.literal("extend-students"),
-          membershipIds: z
-            .array(z.uuid("Choose students from the list."))
-            .min(1, "Choose at least one student.")
-            .max(MAX_EXTENDED_STUDENTS, `Choose at most ${MAX_EXTENDED_STUDENTS} students at once.`)
-            .transform((ids) => [...new Set(ids)]),
+          membershipIds: formList(z.uuid("Choose students from the list.")).pipe(
+            z
+              .array(z.string())
+              .min(1, "Choose at least one student.")
+              .max(MAX_EXTENDED_STUDENTS, `Choose at most ${MAX_EXTENDED_STUDENTS} students at once.`)
+              .transform((ids) => [...new Set(ids)]),
+          ),
           ...windowFields(lab.timeZone),
         })
         .superRefine(checkWindow),
@@ -59,20 +62,3 @@ export function extensionInputFor(lab: { timeZone: string; opensAt: Date }) {
 export type ExtensionInput = z.output<ReturnType<typeof extensionInputFor>>;
 /** The times and reason every extension carries. */
 export type ExtensionWindowInput = { dueAt: Date; lateCutoffAt?: Date; reason: string };
-
-/** A submission as the object `extensionInputFor` checks: the ticked students as an array, a blank choice as none. */
-export function extensionInputFromForm(form: FormData): Record<string, unknown> {
-  const text = (name: string) => {
-    const value = form.get(name);
-    return typeof value === "string" ? value : undefined;
-  };
-  return {
-    intent: text("intent"),
-    membershipIds: form.getAll("membershipIds").filter((value): value is string => typeof value === "string" && value !== ""),
-    cohortId: text("cohortId") || undefined,
-    extensionId: text("extensionId"),
-    dueAt: text("dueAt"),
-    lateCutoffAt: text("lateCutoffAt"),
-    reason: text("reason"),
-  };
-}

@@ -5,6 +5,7 @@
 import { z } from "zod";
 import type { LabResolutions } from "~/db/schema";
 import { comparisonSettings } from "~/lib/comparison/comparison-settings";
+import { formList } from "~/lib/forms/submission";
 import { MAX_DROPS } from "~/lib/drop-logs/drop-log-input";
 import { afterReleaseHandInPolicies, type AfterReleaseHandIns } from "~/lib/marking/release";
 import { instantToWallClock, wallClockToInstant } from "./wall-clock";
@@ -65,6 +66,7 @@ const resolution = (what: string, unit: string, max: number) =>
 const reminderOffsets = z
   .string()
   .trim()
+  .default("")
   .transform((text, context) => {
     if (text === "") return [];
     const parts = text.split(/[\s,;]+/).filter(Boolean);
@@ -105,10 +107,7 @@ export const wallClock = (timeZone: string, what: string) =>
 export const allowedPartFields = { sphere: "allowedSphereIds", fluid_lot: "allowedFluidLotIds", column: "allowedColumnIds" } as const;
 export type AllowedPartKind = keyof typeof allowedPartFields;
 const allowedParts = (what: string) =>
-  z
-    .array(z.uuid(`Choose ${what} from the list.`))
-    .max(500, `Tick at most 500 ${what}.`)
-    .default([]);
+  formList(z.uuid(`Choose ${what} from the list.`)).pipe(z.array(z.string()).max(500, `Tick at most 500 ${what}.`));
 
 /** The lab's allowed parts, all kinds together, as `labs.allowed_part_ids` stores them. */
 export function allowedPartIdsOf(input: Pick<LabInput, (typeof allowedPartFields)[AllowedPartKind]>): string[] {
@@ -156,7 +155,7 @@ export function labInputFor(timeZone: string) {
       }),
       reminderOffsetsHours: reminderOffsets,
       afterReleaseHandIns: z.enum(afterReleaseHandInPolicies, { error: "Choose what a hand-in after the release does." }).default("refuse"),
-      cohortIds: z.array(z.uuid("Choose cohorts from the list.")).default([]),
+      cohortIds: formList(z.uuid("Choose cohorts from the list.")),
     })
     .superRefine((lab, context) => {
       if (lab.dueAt.getTime() <= lab.opensAt.getTime()) {
@@ -173,65 +172,44 @@ export function labInputFor(timeZone: string) {
 }
 export type LabInput = z.output<ReturnType<typeof labInputFor>>;
 
-/** The form's submission as the object `labInputFor` checks: repeated fields as arrays, resolutions nested. */
-export function labInputFromForm(form: FormData): Record<string, unknown> {
-  const text = (name: string) => {
-    const value = form.get(name);
-    return typeof value === "string" ? value : undefined;
-  };
-  const all = (name: string) => form.getAll(name).filter((value): value is string => typeof value === "string");
-  return {
-    title: text("title"),
-    kind: text("kind"),
-    instructions: text("instructions"),
-    opensAt: text("opensAt"),
-    dueAt: text("dueAt"),
-    lateCutoffAt: text("lateCutoffAt"),
-    requiredDrops: text("requiredDrops"),
-    allowedSphereIds: all(allowedPartFields.sphere),
-    allowedFluidLotIds: all(allowedPartFields.fluid_lot),
-    allowedColumnIds: all(allowedPartFields.column),
-    wallCorrection: text("wallCorrection"),
-    dragModel: text("dragModel"),
-    comparisonMethod: text("comparisonMethod"),
-    comparisonAlpha: text("comparisonAlpha"),
-    comparisonMaxOutliers: text("comparisonMaxOutliers"),
-    comparisonK: text("comparisonK"),
-    resolutions: {
-      diameterMm: text("resolutions.diameterMm"),
-      massG: text("resolutions.massG"),
-      distanceMm: text("resolutions.distanceMm"),
-      timeS: text("resolutions.timeS"),
-      temperatureC: text("resolutions.temperatureC"),
-      thermometerAccuracyC: text("resolutions.thermometerAccuracyC"),
-    },
-    reminderOffsetsHours: text("reminderOffsetsHours") ?? "",
-    afterReleaseHandIns: text("afterReleaseHandIns"),
-    cohortIds: all("cohortIds"),
-  };
-}
+/**
+ * What the lab form shows, as the form's default value: text as typed (or as stored, in the course's
+ * zone) and the ticked ids.
+ */
+export type LabFormValues = Omit<
+  { [Key in keyof LabInput]: string },
+  "resolutions" | "cohortIds" | (typeof allowedPartFields)[AllowedPartKind]
+> & {
+  resolutions: Record<keyof LabResolutions, string>;
+  cohortIds: string[];
+} & Record<(typeof allowedPartFields)[AllowedPartKind], string[]>;
 
-/** What the lab form shows: text as typed (or as stored, in the course's zone) and the ticked ids. */
-export type LabFormValues = { fields: Record<string, string>; cohortIds: string[]; allowedPartIds: string[] };
+const resolutionTexts = (resolutions: Required<LabResolutions>) =>
+  Object.fromEntries(Object.entries(resolutions).map(([key, value]) => [key, String(value)])) as LabFormValues["resolutions"];
 
 /** A new lab's form: the defaults above; the times are left for the instructor to type. */
 export function newLabFormValues(kind: ExperimentKind, cohortIds: string[]): LabFormValues {
   return {
-    fields: {
-      kind,
-      requiredDrops: String(DEFAULT_REQUIRED_DROPS),
-      wallCorrection: "faxen",
-      dragModel: kind === "viscometry" ? "stokes" : "schiller-naumann",
-      comparisonMethod: "grubbs",
-      comparisonAlpha: "0.05",
-      comparisonMaxOutliers: "3",
-      comparisonK: "1.5",
-      reminderOffsetsHours: DEFAULT_REMINDER_OFFSETS_HOURS.join(", "),
-      afterReleaseHandIns: "refuse",
-      ...Object.fromEntries(Object.entries(DEFAULT_RESOLUTIONS).map(([key, value]) => [`resolutions.${key}`, String(value)])),
-    },
+    title: "",
+    kind,
+    instructions: "",
+    opensAt: "",
+    dueAt: "",
+    lateCutoffAt: "",
+    requiredDrops: String(DEFAULT_REQUIRED_DROPS),
+    wallCorrection: "faxen",
+    dragModel: kind === "viscometry" ? "stokes" : "schiller-naumann",
+    comparisonMethod: "grubbs",
+    comparisonAlpha: "0.05",
+    comparisonMaxOutliers: "3",
+    comparisonK: "1.5",
+    reminderOffsetsHours: DEFAULT_REMINDER_OFFSETS_HOURS.join(", "),
+    afterReleaseHandIns: "refuse",
+    resolutions: resolutionTexts(DEFAULT_RESOLUTIONS),
     cohortIds,
-    allowedPartIds: [],
+    allowedSphereIds: [],
+    allowedFluidLotIds: [],
+    allowedColumnIds: [],
   };
 }
 
@@ -260,32 +238,26 @@ export function storedLabFormValues(
   timeZone: string,
 ): LabFormValues {
   return {
-    fields: {
-      title: lab.title,
-      kind: lab.kind,
-      instructions: lab.instructions,
-      opensAt: instantToWallClock(lab.opensAt, timeZone),
-      dueAt: instantToWallClock(lab.dueAt, timeZone),
-      lateCutoffAt: lab.lateCutoffAt ? instantToWallClock(lab.lateCutoffAt, timeZone) : "",
-      requiredDrops: String(lab.requiredDrops),
-      wallCorrection: lab.wallCorrection,
-      dragModel: lab.dragModel,
-      comparisonMethod: lab.comparisonMethod,
-      comparisonAlpha: String(lab.comparisonAlpha),
-      comparisonMaxOutliers: String(lab.comparisonMaxOutliers),
-      comparisonK: String(lab.comparisonK),
-      reminderOffsetsHours: lab.reminderOffsetsHours.join(", "),
-      afterReleaseHandIns: lab.afterReleaseHandIns,
-      ...Object.fromEntries(Object.entries(labResolutions(lab.resolutions)).map(([key, value]) => [`resolutions.${key}`, String(value)])),
-    },
+    title: lab.title,
+    kind: lab.kind,
+    instructions: lab.instructions,
+    opensAt: instantToWallClock(lab.opensAt, timeZone),
+    dueAt: instantToWallClock(lab.dueAt, timeZone),
+    lateCutoffAt: lab.lateCutoffAt ? instantToWallClock(lab.lateCutoffAt, timeZone) : "",
+    requiredDrops: String(lab.requiredDrops),
+    wallCorrection: lab.wallCorrection,
+    dragModel: lab.dragModel,
+    comparisonMethod: lab.comparisonMethod,
+    comparisonAlpha: String(lab.comparisonAlpha),
+    comparisonMaxOutliers: String(lab.comparisonMaxOutliers),
+    comparisonK: String(lab.comparisonK),
+    reminderOffsetsHours: lab.reminderOffsetsHours.join(", "),
+    afterReleaseHandIns: lab.afterReleaseHandIns,
+    resolutions: resolutionTexts(labResolutions(lab.resolutions)),
     cohortIds: lab.cohortIds,
-    allowedPartIds: lab.allowedPartIds,
+    // The stored list holds every kind; each kind's boxes show only parts of that kind, so each may get all of it.
+    allowedSphereIds: lab.allowedPartIds,
+    allowedFluidLotIds: lab.allowedPartIds,
+    allowedColumnIds: lab.allowedPartIds,
   };
-}
-
-/** A failed submission as the form shows it again: exactly what was typed and ticked. */
-export function submittedLabFormValues(form: FormData): LabFormValues {
-  const fields = Object.fromEntries([...form.entries()].filter((entry): entry is [string, string] => typeof entry[1] === "string"));
-  const all = (name: string) => form.getAll(name).filter((value): value is string => typeof value === "string");
-  return { fields, cohortIds: all("cohortIds"), allowedPartIds: Object.values(allowedPartFields).flatMap(all) };
 }

@@ -4,6 +4,7 @@
  * comparison. Pure, so the rubric form and the server check the same schema.
  */
 import { z } from "zod";
+import { typedNumber } from "~/lib/forms/typed-number";
 
 export const criterionKinds = ["levels", "range", "auto"] as const;
 export type CriterionKind = (typeof criterionKinds)[number];
@@ -49,11 +50,14 @@ export const MAX_CRITERION_POINTS = 1000;
 /** Level numbers are typed on the keyboard, 1 to 9. */
 export const MAX_LEVELS = 9;
 
-const points = z
+const pointsNumber = z
   .number({ error: "Enter a number of points." })
   .finite()
   .min(0, "Points cannot be negative.")
   .max(MAX_CRITERION_POINTS, `At most ${MAX_CRITERION_POINTS} points.`);
+// Numbers as the rubric form types them (a blank, a decimal comma) or as code passes them.
+const points = typedNumber(pointsNumber);
+const optionalPoints = typedNumber(pointsNumber.optional());
 const common = {
   id: z.uuid().optional(),
   title: z.string().trim().min(1, "Give the criterion a title.").max(120, "At most 120 characters."),
@@ -81,12 +85,14 @@ export const autoCriterionInput = z
     ...common,
     kind: z.literal("auto"),
     rule: z.enum(autoRules, { error: "Choose one of the automatic rules." }),
-    maxPoints: points.refine((value) => value > 0, "Give the criterion some points."),
+    maxPoints: typedNumber(pointsNumber.refine((value) => value > 0, "Give the criterion some points.")),
     params: z
       .object({
-        tolerancePercent: z.number().finite().positive("The tolerance must be above 0 %.").max(100, "At most 100 %.").optional(),
-        suspectPoints: points.optional(),
-        latePenaltyPoints: points.optional(),
+        tolerancePercent: typedNumber(
+          z.number().finite().positive("The tolerance must be above 0 %.").max(100, "At most 100 %.").optional(),
+        ),
+        suspectPoints: optionalPoints,
+        latePenaltyPoints: optionalPoints,
       })
       .default({}),
   })
@@ -102,22 +108,33 @@ export const autoCriterionInput = z
     }
   });
 
-export const rubricCriterionInput = z.union([levelsCriterionInput, rangeCriterionInput, autoCriterionInput]);
+// Told apart by `kind`, so that a refusal names the field of the chosen kind rather than the whole criterion.
+export const rubricCriterionInput = z.discriminatedUnion("kind", [levelsCriterionInput, rangeCriterionInput, autoCriterionInput]);
 export type RubricCriterionInput = z.input<typeof rubricCriterionInput>;
 
-/** The whole rubric as the rubric form sends it; criteria keep their order. An `id` keeps a criterion (and the scores given for it). */
-export const rubricInput = z
-  .object({ criteria: z.array(rubricCriterionInput).min(1, "Add at least one criterion.").max(30, "At most 30 criteria.") })
-  .superRefine((rubric, context) => {
+/** The rubric's criteria in their order. An `id` keeps a criterion (and the scores given for it). */
+const rubricCriteriaInput = z
+  .array(rubricCriterionInput)
+  .min(1, "Add at least one criterion.")
+  .max(30, "At most 30 criteria.")
+  .superRefine((criteria, context) => {
     const seen = new Set<string>();
-    rubric.criteria.forEach((criterion, index) => {
+    criteria.forEach((criterion, index) => {
       if (!criterion.id) return;
-      if (seen.has(criterion.id))
-        context.addIssue({ code: "custom", path: ["criteria", index, "id"], message: "This criterion appears twice." });
+      if (seen.has(criterion.id)) context.addIssue({ code: "custom", path: [index, "id"], message: "This criterion appears twice." });
       seen.add(criterion.id);
     });
   });
+
+/** The whole rubric, as `saveRubric` takes it. */
+export const rubricInput = z.object({ criteria: rubricCriteriaInput });
 export type RubricInput = z.output<typeof rubricInput>;
+
+/**
+ * The rubric form's submission, its field list named `criteria[0].title`, `criteria[0].levels[1].points`…;
+ * `intent` tells it from the copy form on the same page.
+ */
+export const rubricFormInput = rubricInput.extend({ intent: z.literal("save") });
 
 /** The columns a criterion input is stored as (without lab and position). */
 export function criterionColumns(input: z.output<typeof rubricCriterionInput>) {
