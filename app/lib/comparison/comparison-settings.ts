@@ -4,19 +4,26 @@
  * setting is in `class-labelling.ts`, which the server runs.
  */
 import { z } from "zod";
+import { typedNumber } from "~/lib/forms/typed-number";
 import type { ClassComparisonLabel } from "~/lib/reduction/class-comparison";
 
 export const comparisonLabels = ["consistent", "suspect", "outlier"] as const satisfies readonly ClassComparisonLabel[];
 
 export const comparisonSettings = z.object({
   method: z.enum(["grubbs", "esd", "iqr"], { error: "Choose Grubbs' test, the generalized ESD test or Tukey's fences." }),
-  alpha: z.coerce.number({ error: "Enter a significance level." }).gt(0, "Use a level above 0.").max(0.2, "Use a level of at most 0.2."),
-  maxOutliers: z.coerce
-    .number({ error: "Enter a whole number." })
-    .int("Enter a whole number.")
-    .min(1, "Allow at least one removal.")
-    .max(100, "Allow at most 100 removals."),
-  k: z.coerce.number({ error: "Enter a fence factor." }).min(0.5, "Use a factor of at least 0.5.").max(10, "Use a factor of at most 10."),
+  alpha: typedNumber(
+    z.number({ error: "Enter a significance level." }).gt(0, "Use a level above 0.").max(0.2, "Use a level of at most 0.2."),
+  ),
+  maxOutliers: typedNumber(
+    z
+      .number({ error: "Enter a whole number." })
+      .int("Enter a whole number.")
+      .min(1, "Allow at least one removal.")
+      .max(100, "Allow at most 100 removals."),
+  ),
+  k: typedNumber(
+    z.number({ error: "Enter a fence factor." }).min(0.5, "Use a factor of at least 0.5.").max(10, "Use a factor of at most 10."),
+  ),
 });
 export type ComparisonSettings = z.infer<typeof comparisonSettings>;
 

@@ -1,5 +1,6 @@
 /** What an instructor types to create or edit a course and its cohorts; shared by form and server. */
 import { z } from "zod";
+import { typedNumber } from "~/lib/forms/typed-number";
 
 /** IANA names the runtime knows (Node and browsers share the ICU list), so a typo is caught. */
 export function isTimeZone(value: string): boolean {
@@ -20,17 +21,21 @@ export const courseInput = z.object({
   timeZone: z.string().trim().refine(isTimeZone, "Choose a time zone by its IANA name, e.g. Europe/Dublin."),
   localGravity: z.preprocess(
     (value) => (value === "" || value === null || value === undefined ? null : value),
-    z.coerce
-      .number({ error: "Enter local gravity in m/s², or leave it empty for 9.80665." })
-      .min(9.76, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
-      .max(9.84, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
-      .nullable(),
+    typedNumber(
+      z
+        .number({ error: "Enter local gravity in m/s², or leave it empty for 9.80665." })
+        .min(9.76, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
+        .max(9.84, "Gravity on Earth's surface lies between 9.76 and 9.84 m/s².")
+        .nullable(),
+    ),
   ),
   /** Significance of the kit-part bias test; the usual choices only, so that a typo cannot silence it. */
-  partBiasAlpha: z.coerce
-    .number()
-    .refine((alpha) => partBiasAlphas.includes(alpha as (typeof partBiasAlphas)[number]), "Choose 0.01, 0.05 or 0.10.")
-    .default(0.05),
+  partBiasAlpha: typedNumber(
+    z
+      .number()
+      .refine((alpha) => partBiasAlphas.includes(alpha as (typeof partBiasAlphas)[number]), "Choose 0.01, 0.05 or 0.10.")
+      .default(0.05),
+  ),
 });
 export type CourseInput = z.infer<typeof courseInput>;
 

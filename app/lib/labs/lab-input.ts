@@ -3,6 +3,7 @@
  * Times are wall-clock times in the course's time zone, so the schema is made for that zone.
  */
 import { z } from "zod";
+import { typedNumber } from "~/lib/forms/typed-number";
 import type { LabResolutions } from "~/db/schema";
 import { comparisonSettings } from "~/lib/comparison/comparison-settings";
 import { formList } from "~/lib/forms/submission";
@@ -57,10 +58,12 @@ export const MAX_REMINDER_OFFSET_HOURS = 720;
 export const blankToUndefined = (value: unknown) => (typeof value === "string" && value.trim() === "" ? undefined : value);
 
 const resolution = (what: string, unit: string, max: number) =>
-  z.coerce
-    .number({ error: `Enter the ${what} resolution in ${unit}.` })
-    .gt(0, `The ${what} resolution must be more than 0 ${unit}.`)
-    .max(max, `A ${what} resolution over ${max} ${unit} is not a measurement.`);
+  typedNumber(
+    z
+      .number({ error: `Enter the ${what} resolution in ${unit}.` })
+      .gt(0, `The ${what} resolution must be more than 0 ${unit}.`)
+      .max(max, `A ${what} resolution over ${max} ${unit} is not a measurement.`),
+  );
 
 /** "48, 6" → [48, 6]: whole hours before the due time, each once, largest first. */
 const reminderOffsets = z
@@ -128,11 +131,13 @@ export function labInputFor(timeZone: string) {
       opensAt: wallClock(timeZone, "opening time"),
       dueAt: wallClock(timeZone, "due time"),
       lateCutoffAt: z.preprocess(blankToUndefined, wallClock(timeZone, "late cut-off").optional()),
-      requiredDrops: z.coerce
-        .number({ error: "Enter the number of drops." })
-        .int("Enter a whole number of drops.")
-        .min(3, "Ask for at least 3 drops (the stray-drop test is made from 7).")
-        .max(MAX_DROPS, `Ask for at most ${MAX_DROPS} drops.`),
+      requiredDrops: typedNumber(
+        z
+          .number({ error: "Enter the number of drops." })
+          .int("Enter a whole number of drops.")
+          .min(3, "Ask for at least 3 drops (the stray-drop test is made from 7).")
+          .max(MAX_DROPS, `Ask for at most ${MAX_DROPS} drops.`),
+      ),
       allowedSphereIds: allowedParts("spheres"),
       allowedFluidLotIds: allowedParts("fluid lots"),
       allowedColumnIds: allowedParts("columns"),
@@ -148,10 +153,12 @@ export function labInputFor(timeZone: string) {
         distanceMm: resolution("distance", "mm", 10),
         timeS: resolution("time", "s", 1),
         temperatureC: resolution("temperature", "°C", 5),
-        thermometerAccuracyC: z.coerce
-          .number({ error: "Enter the thermometer's accuracy in °C." })
-          .gt(0, "The thermometer's accuracy must be more than 0 °C.")
-          .max(10, "A thermometer accuracy over ±10 °C is not a measurement."),
+        thermometerAccuracyC: typedNumber(
+          z
+            .number({ error: "Enter the thermometer's accuracy in °C." })
+            .gt(0, "The thermometer's accuracy must be more than 0 °C.")
+            .max(10, "A thermometer accuracy over ±10 °C is not a measurement."),
+        ),
       }),
       reminderOffsetsHours: reminderOffsets,
       afterReleaseHandIns: z.enum(afterReleaseHandInPolicies, { error: "Choose what a hand-in after the release does." }).default("refuse"),
