@@ -19,7 +19,7 @@ beforeAll(async () => {
 
 const textOf = (query: unknown) => (typeof query === "string" ? query : ((query as { text?: string })?.text ?? ""));
 // The course-access statement of app/server/auth/access.server.ts: the course joined to the viewer's membership.
-const isAccessQuery = (text: string) => /from courses c\s+left join course_memberships m/.test(text);
+const isAccessQuery = (text: string) => /from "courses" left join "course_memberships"/.test(text);
 // The session statement of app/server/auth/session.server.ts, and the lab lookup of app/server/labs/labs.server.ts by id alone.
 const isSessionQuery = (text: string) => /^select .* from "sessions" inner join "users"/.test(text);
 const isLabByIdQuery = (text: string) => /^select .* from "labs" where "labs"\."id" = \$1$/.test(text);

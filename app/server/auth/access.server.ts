@@ -6,8 +6,9 @@
  *
  * Staff cannot act as a student: there is no "view as" mode.
  */
-import { sql } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import { createContext, data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
+import { cohorts, courseMemberships, courses, taCohortAssignments } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { db } from "~/server/db.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
@@ -117,32 +118,29 @@ function notFound(request: Request): never {
   throw data("Not found", { status: 404 });
 }
 
-type CourseAccessRow = {
-  id: string;
-  title: string;
-  code: string;
-  term: string;
-  time_zone: string;
-  membership_id: string | null;
-  role: CourseRole | null;
-  cohort_id: string | null;
-  cohort_ids: string[];
-};
-
 /** The course and the user's active membership in it, with the cohorts that membership opens, in one query. */
-async function loadCourseAccess(userId: string, courseId: string): Promise<CourseAccessRow | undefined> {
-  const result = await db.execute<CourseAccessRow>(sql`
-    select c.id, c.title, c.code, c.term, c.time_zone, m.id as membership_id, m.role, m.cohort_id,
-      case m.role
-        when 'instructor' then array(select h.id from cohorts h where h.course_id = c.id)
-        when 'ta' then array(select a.cohort_id from ta_cohort_assignments a where a.membership_id = m.id)
-        else array_remove(array[m.cohort_id], null)
-      end::text[] as cohort_ids
-    from courses c
-    left join course_memberships m on m.course_id = c.id and m.user_id = ${userId} and m.removed_at is null
-    where c.id = ${courseId}`);
-  return result.rows[0];
+async function loadCourseAccess(userId: string, courseId: string) {
+  const [row] = await db
+    .select({
+      course: { id: courses.id, title: courses.title, code: courses.code, term: courses.term, timeZone: courses.timeZone },
+      membershipId: courseMemberships.id,
+      role: courseMemberships.role,
+      cohortId: courseMemberships.cohortId,
+      cohortIds: sql<string[]>`case ${courseMemberships.role}
+        when 'instructor' then array(select ${cohorts.id} from ${cohorts} where ${cohorts.courseId} = ${courses.id})
+        when 'ta' then array(select ${taCohortAssignments.cohortId} from ${taCohortAssignments} where ${taCohortAssignments.membershipId} = ${courseMemberships.id})
+        else array_remove(array[${courseMemberships.cohortId}], null)
+      end::text[]`,
+    })
+    .from(courses)
+    .leftJoin(
+      courseMemberships,
+      and(eq(courseMemberships.courseId, courses.id), eq(courseMemberships.userId, userId), isNull(courseMemberships.removedAt)),
+    )
+    .where(eq(courses.id, courseId));
+  return row;
 }
+type CourseAccessRow = Awaited<ReturnType<typeof loadCourseAccess>>;
 
 /**
  * The viewer's access to one course, looked up once per request: the course frame's middleware starts
@@ -183,13 +181,13 @@ export async function requireCourseRole(
   if (!courseId || !uuidPattern.test(courseId)) notFound(request);
   const row = await courseAccessRow(scope, user.id, courseId);
   if (!row) notFound(request);
-  if (!row.membership_id || !row.role) return deny(request, user, courseId, "not a member");
+  if (!row.membershipId || !row.role) return deny(request, user, courseId, "not a member");
   if (!roles.includes(row.role)) return deny(request, user, courseId, `role ${row.role}`);
   return {
     user,
-    course: { id: row.id, title: row.title, code: row.code, term: row.term, timeZone: row.time_zone },
-    membership: { id: row.membership_id, role: row.role, cohortId: row.cohort_id },
-    cohortIds: row.cohort_ids,
+    course: row.course,
+    membership: { id: row.membershipId, role: row.role, cohortId: row.cohortId },
+    cohortIds: row.cohortIds,
   };
 }
 
