@@ -4,7 +4,6 @@
  * which posts to this action); the TAs of the lab's cohorts read those of their own cohorts.
  */
 import { data, useNavigation } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.extensions";
 import { ExtensionForm } from "~/components/labs/extension-forms";
 import { ClassTimes, DoneNotice, ExtensionTable } from "~/components/labs/extension-list";
@@ -13,20 +12,16 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { extensionInputFor } from "~/lib/labs/extension-input";
-import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { getExtensionsPage, removeExtension, setExtensions } from "~/server/labs/extensions.server";
 import { getLab } from "~/server/labs/labs.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
-import { loadComparisonLab } from "~/server/comparison/class-comparison.server";
 import { staffRoles } from "~/server/auth/access.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Instructors, and the TAs of a cohort the lab is set for: the same people as its hand-in dashboard.
-  const { access } = await requireLabAccess({ request, context }, params, staffRoles, loadComparisonLab);
-  const lab = await getLab(db, access.course.id, params.labId);
-  if (!lab) throw data("Not found", { status: 404 });
+  const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, getLab);
   const page = await getExtensionsPage(db, access, lab);
   return {
     courseId: access.course.id,
@@ -45,9 +40,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 
 // The action lets only instructors in, so a refusal from the rules is about the input: 400.
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const lab = z.uuid().safeParse(params.labId).success ? await getLab(db, access.course.id, params.labId) : null;
-  if (!lab) throw data("Not found", { status: 404 });
+  const { access, lab } = await requireLabAccess({ request, context }, params, ["instructor"], getLab);
   const submission = parseSubmission(formData, extensionInputFor({ timeZone: access.course.timeZone, opensAt: lab.opensAt }));
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const input = submission.value;
