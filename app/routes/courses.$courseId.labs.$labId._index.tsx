@@ -1,11 +1,11 @@
-import { redirect, useFetcher, type ShouldRevalidateFunctionArgs } from "react-router";
+import { redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId._index";
 import { DropLogForm } from "~/components/drop-logs/drop-log-form";
 import { LabTime } from "~/components/drop-logs/lab-time";
-import { PhotoList, VersionHistory } from "~/components/drop-logs/version-history";
+import { PhotoUpload } from "~/components/drop-logs/photo-upload";
+import { VersionHistory } from "~/components/drop-logs/version-history";
 import { StudentMarkView } from "~/components/marking/student-mark";
 import { SafetyCautions } from "~/components/safety-cautions";
-import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import {
@@ -17,8 +17,7 @@ import {
 } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
-import { MAX_PHOTO_MEGABYTES, MAX_PHOTOS_PER_DROP_LOG } from "~/lib/drop-logs/photo-limits";
-import { photoView, versionView, type PhotoView } from "~/lib/drop-logs/version-view";
+import { photoView, versionView } from "~/lib/drop-logs/version-view";
 import { anyRole, isStaff, requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction, throwAsResponse } from "~/server/errors.server";
@@ -269,40 +268,6 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
         <VersionHistory courseId={courseId} timeZone={timeZone} versions={versions} latestVersionId={latestVersionId} photos={photos} />
       </section>
     </div>
-  );
-}
-
-function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string; labId: string; draftPhotos: PhotoView[] }) {
-  const fetcher = useFetcher<{ error?: string; photos?: unknown[] }>();
-  return (
-    <section aria-labelledby="photos-heading" className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
-      <h2 id="photos-heading" className="text-lg font-semibold">
-        Photos of your set-up
-      </h2>
-      <p className="text-sm text-ink-700">
-        JPEG, PNG or WebP, up to {MAX_PHOTO_MEGABYTES} MB each and {MAX_PHOTOS_PER_DROP_LOG} per drop log. They go with your next hand-in.
-      </p>
-      <fetcher.Form
-        method="post"
-        encType="multipart/form-data"
-        action={`/courses/${courseId}/labs/${labId}/photos`}
-        className="mt-2 flex flex-wrap items-center gap-3"
-      >
-        <input
-          type="file"
-          name="photo"
-          accept="image/jpeg,image/png,image/webp"
-          multiple
-          aria-label="Photos to upload"
-          className="text-sm file:mr-3 file:cursor-pointer file:rounded-md file:border-0 file:bg-white file:px-4 file:py-2 file:text-sm file:font-medium file:ring-1 file:ring-ink-900/20"
-        />
-        <Button type="submit" variant="secondary" disabled={fetcher.state !== "idle"}>
-          {fetcher.state !== "idle" ? "Uploading…" : "Upload"}
-        </Button>
-      </fetcher.Form>
-      {fetcher.data?.error ? <p className="mt-1 text-sm font-medium text-outlier">{fetcher.data.error}</p> : null}
-      <PhotoList courseId={courseId} photos={draftPhotos} />
-    </section>
   );
 }
 
