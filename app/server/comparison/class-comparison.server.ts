@@ -5,7 +5,7 @@
  * writes the same labels, with their history, for marking and exports.
  */
 import { handInHref } from "~/lib/comparison/links";
-import { and, eq, gt, sql, type SQLWrapper } from "drizzle-orm";
+import { and, eq, gt, notInArray, sql, type SQLWrapper } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type PgBoss from "pg-boss";
 import { z } from "zod";
@@ -31,6 +31,7 @@ import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
+import { uuidList } from "~/server/sql.server";
 
 export type ComparisonLab = {
   id: string;
@@ -335,6 +336,7 @@ export type RelabelOutcome = { labelled: number; changed: number; removed: numbe
  */
 export async function relabelLab(executor: Executor, labId: string): Promise<RelabelOutcome> {
   const write = async (tx: Transaction): Promise<RelabelOutcome> => {
+    // Raw: an advisory lock has no query-builder form.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`class-comparison:${labId}`}, 0))`);
     const [lab] = await tx
       .select({
@@ -359,6 +361,7 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
       reason: handIn.reason,
     }));
     if (payload.length > 0) {
+      // Raw: a bulk upsert from a JSON recordset, one statement whatever the class size.
       await tx.execute(sql`
         insert into comparison_labels (drop_log_id, lab_id, version_id, figure, label, reason, method, computed_at)
         select r.drop_log_id, ${labId}, r.version_id, r.figure, r.label::comparison_label, r.reason, ${JSON.stringify(method)}::jsonb, now()
@@ -387,10 +390,14 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
     );
     // Labels of hand-ins that no longer count (a new version without a figure). NOT IN over a subquery
     // is hashed once, so this stays linear in the class size.
-    const removed = await tx.execute(sql`
-      delete from comparison_labels
-      where lab_id = ${labId}
-        and drop_log_id not in (select value::uuid from json_array_elements_text(${JSON.stringify(labelled.map((handIn) => handIn.dropLogId))}::json))`);
+    const removed = await tx
+      .delete(comparisonLabels)
+      .where(
+        and(
+          eq(comparisonLabels.labId, labId),
+          notInArray(comparisonLabels.dropLogId, uuidList(labelled.map((handIn) => handIn.dropLogId))),
+        ),
+      );
     return { labelled: labelled.length, changed: changes.length, removed: removed.rowCount ?? 0 };
   };
   return executor.transaction(write);
