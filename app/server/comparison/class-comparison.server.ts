@@ -5,10 +5,22 @@
  * writes the same labels, with their history, for marking and exports.
  */
 import { handInHref } from "~/lib/comparison/links";
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, gt, notInArray, sql, type SQLWrapper } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
 import type PgBoss from "pg-boss";
 import { z } from "zod";
-import { comparisonLabelChanges, labs, type ComparisonMethodSettings } from "~/db/schema";
+import {
+  cohorts,
+  comparisonLabelChanges,
+  comparisonLabels,
+  courseMemberships,
+  dropLogs,
+  dropLogVersions,
+  labs,
+  parts,
+  users,
+  type ComparisonMethodSettings,
+} from "~/db/schema";
 import { comparisonLimits, labelClass, previewSettings, type ComparisonLimits } from "~/lib/comparison/class-labelling";
 import { countLabels, describeSettings, type ComparisonSettings, type LabelCounts } from "~/lib/comparison/comparison-settings";
 import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
@@ -19,6 +31,7 @@ import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
+import { uuidList } from "~/server/sql.server";
 
 export type ComparisonLab = {
   id: string;
@@ -107,89 +120,82 @@ export async function loadComparisonLab(executor: Executor, courseId: string, la
   };
 }
 
-type CountedRow = {
-  drop_log_id: string;
-  version_id: string;
-  version: number;
-  submitted_at: Date | string;
-  late: boolean;
-  figure: number;
-  reynolds: number | null;
-  drag_coefficient: number | null;
-  viscosity_pa_s: number | null;
-  reference_viscosity: number | null;
-  temperature_c: number | null;
-  result_expanded: number | null;
-  coverage_factor: number | null;
-  figure_expanded: number | null;
-  membership_id: string;
-  student_name: string;
-  cohort_id: string | null;
-  cohort_name: string | null;
-  sphere_id: string | null;
-  sphere_label: string | null;
-  fluid_lot_id: string | null;
-  fluid_lot_label: string | null;
-  column_id: string | null;
-  column_label: string | null;
-  kit_state: string | null;
-  stored_label: ClassComparisonLabel | null;
-  stored_version_id: string | null;
-};
-
 /**
  * Every counted hand-in of the lab, with its student, cohort, kit parts and stored label: one statement
  * whatever the class size. A version without a positive figure (viscometry with an uncalibrated lot)
  * cannot be compared and is left out.
  */
 export async function loadCountedHandIns(executor: Executor, labId: string): Promise<CountedHandIn[]> {
-  const result = await executor.execute<CountedRow>(sql`
-    select dl.id as drop_log_id, v.id as version_id, v.version, v.submitted_at, v.late,
-      v.normalised_figure::float8 as figure, v.reynolds::float8 as reynolds, v.drag_coefficient::float8 as drag_coefficient,
-      v.viscosity_pa_s::float8 as viscosity_pa_s,
-      (v.kit_records #>> '{fluidLot,viscosityPaS}')::float8 as reference_viscosity,
-      v.temperature_c,
-      (v.reduction #>> '{uncertaintyBudget,expanded}')::float8 as result_expanded,
-      (v.reduction #>> '{uncertaintyBudget,coverageFactor}')::float8 as coverage_factor,
-      (v.reduction #>> '{uncertaintyBudget,normalisedFigure,expanded}')::float8 as figure_expanded,
-      m.id as membership_id, u.name as student_name, m.cohort_id, h.name as cohort_name,
-      v.sphere_id, sp.label as sphere_label, v.fluid_lot_id, fl.label as fluid_lot_label, v.column_id, co.label as column_label,
-      v.kit_records #>> '{kit,state}' as kit_state,
-      cl.label as stored_label, cl.version_id as stored_version_id
-    from drop_logs dl
-    join drop_log_versions v on v.id = dl.latest_version_id
-    join course_memberships m on m.id = dl.membership_id
-    join users u on u.id = m.user_id
-    left join cohorts h on h.id = m.cohort_id
-    left join parts sp on sp.id = v.sphere_id
-    left join parts fl on fl.id = v.fluid_lot_id
-    left join parts co on co.id = v.column_id
-    left join comparison_labels cl on cl.drop_log_id = dl.id
-    where dl.lab_id = ${labId} and v.normalised_figure > 0
-    order by u.name, dl.id`);
-  return result.rows.map((row) => ({
-    dropLogId: row.drop_log_id,
-    versionId: row.version_id,
+  const sphere = alias(parts, "sp");
+  const fluidLot = alias(parts, "fl");
+  const column = alias(parts, "co");
+  const v = dropLogVersions;
+  // The figures are `real`: read as float8 so that they keep the digits the comparison computed with.
+  const float8 = (value: SQLWrapper) => sql<number | null>`(${value})::float8`;
+  const rows = await executor
+    .select({
+      dropLogId: dropLogs.id,
+      versionId: v.id,
+      version: v.version,
+      submittedAt: v.submittedAt,
+      late: v.late,
+      figure: sql<number>`${v.normalisedFigure}::float8`,
+      reynolds: float8(v.reynolds),
+      dragCoefficient: float8(v.dragCoefficient),
+      viscosityPaS: float8(v.viscosityPaS),
+      referenceViscosityPaS: float8(sql`${v.kitRecords} #>> '{fluidLot,viscosityPaS}'`),
+      temperatureC: v.temperatureC,
+      resultExpanded: float8(sql`${v.reduction} #>> '{uncertaintyBudget,expanded}'`),
+      coverageFactor: float8(sql`${v.reduction} #>> '{uncertaintyBudget,coverageFactor}'`),
+      figureExpanded: float8(sql`${v.reduction} #>> '{uncertaintyBudget,normalisedFigure,expanded}'`),
+      membershipId: courseMemberships.id,
+      studentName: users.name,
+      cohortId: courseMemberships.cohortId,
+      cohortName: cohorts.name,
+      sphereId: v.sphereId,
+      sphereLabel: sphere.label,
+      fluidLotId: v.fluidLotId,
+      fluidLotLabel: fluidLot.label,
+      columnId: v.columnId,
+      columnLabel: column.label,
+      kitState: sql<string | null>`${v.kitRecords} #>> '{kit,state}'`,
+      storedLabel: comparisonLabels.label,
+      storedVersionId: comparisonLabels.versionId,
+    })
+    .from(dropLogs)
+    .innerJoin(v, eq(v.id, dropLogs.latestVersionId))
+    .innerJoin(courseMemberships, eq(courseMemberships.id, dropLogs.membershipId))
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(cohorts, eq(cohorts.id, courseMemberships.cohortId))
+    .leftJoin(sphere, eq(sphere.id, v.sphereId))
+    .leftJoin(fluidLot, eq(fluidLot.id, v.fluidLotId))
+    .leftJoin(column, eq(column.id, v.columnId))
+    .leftJoin(comparisonLabels, eq(comparisonLabels.dropLogId, dropLogs.id))
+    .where(and(eq(dropLogs.labId, labId), gt(v.normalisedFigure, 0)))
+    .orderBy(users.name, dropLogs.id);
+  return rows.map((row) => ({
+    dropLogId: row.dropLogId,
+    versionId: row.versionId,
     version: row.version,
-    submittedAt: new Date(row.submitted_at).toISOString(),
+    submittedAt: row.submittedAt.toISOString(),
     late: row.late,
     figure: row.figure,
     reynolds: row.reynolds,
-    dragCoefficient: row.drag_coefficient,
-    viscosityPaS: row.viscosity_pa_s,
-    referenceViscosityPaS: row.reference_viscosity,
-    temperatureC: row.temperature_c,
-    uncertainty: { resultExpanded: row.result_expanded, coverageFactor: row.coverage_factor, figureExpanded: row.figure_expanded },
-    membershipId: row.membership_id,
-    studentName: row.student_name,
-    cohortId: row.cohort_id,
-    cohortName: row.cohort_name,
-    sphere: row.sphere_id ? { id: row.sphere_id, label: row.sphere_label ?? "" } : null,
-    fluidLot: row.fluid_lot_id ? { id: row.fluid_lot_id, label: row.fluid_lot_label ?? "" } : null,
-    column: row.column_id ? { id: row.column_id, label: row.column_label ?? "" } : null,
-    kitNotAtHome: kitNotAtHomeLabel(row.kit_state),
-    storedLabel: row.stored_label,
-    storedVersionId: row.stored_version_id,
+    dragCoefficient: row.dragCoefficient,
+    viscosityPaS: row.viscosityPaS,
+    referenceViscosityPaS: row.referenceViscosityPaS,
+    temperatureC: row.temperatureC,
+    uncertainty: { resultExpanded: row.resultExpanded, coverageFactor: row.coverageFactor, figureExpanded: row.figureExpanded },
+    membershipId: row.membershipId,
+    studentName: row.studentName,
+    cohortId: row.cohortId,
+    cohortName: row.cohortName,
+    sphere: row.sphereId ? { id: row.sphereId, label: row.sphereLabel ?? "" } : null,
+    fluidLot: row.fluidLotId ? { id: row.fluidLotId, label: row.fluidLotLabel ?? "" } : null,
+    column: row.columnId ? { id: row.columnId, label: row.columnLabel ?? "" } : null,
+    kitNotAtHome: kitNotAtHomeLabel(row.kitState),
+    storedLabel: row.storedLabel,
+    storedVersionId: row.storedVersionId,
   }));
 }
 
@@ -330,6 +336,7 @@ export type RelabelOutcome = { labelled: number; changed: number; removed: numbe
  */
 export async function relabelLab(executor: Executor, labId: string): Promise<RelabelOutcome> {
   const write = async (tx: Transaction): Promise<RelabelOutcome> => {
+    // Raw: an advisory lock has no query-builder form.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`class-comparison:${labId}`}, 0))`);
     const [lab] = await tx
       .select({
@@ -354,6 +361,7 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
       reason: handIn.reason,
     }));
     if (payload.length > 0) {
+      // Raw: a bulk upsert from a JSON recordset, one statement whatever the class size.
       await tx.execute(sql`
         insert into comparison_labels (drop_log_id, lab_id, version_id, figure, label, reason, method, computed_at)
         select r.drop_log_id, ${labId}, r.version_id, r.figure, r.label::comparison_label, r.reason, ${JSON.stringify(method)}::jsonb, now()
@@ -382,10 +390,14 @@ export async function relabelLab(executor: Executor, labId: string): Promise<Rel
     );
     // Labels of hand-ins that no longer count (a new version without a figure). NOT IN over a subquery
     // is hashed once, so this stays linear in the class size.
-    const removed = await tx.execute(sql`
-      delete from comparison_labels
-      where lab_id = ${labId}
-        and drop_log_id not in (select value::uuid from json_array_elements_text(${JSON.stringify(labelled.map((handIn) => handIn.dropLogId))}::json))`);
+    const removed = await tx
+      .delete(comparisonLabels)
+      .where(
+        and(
+          eq(comparisonLabels.labId, labId),
+          notInArray(comparisonLabels.dropLogId, uuidList(labelled.map((handIn) => handIn.dropLogId))),
+        ),
+      );
     return { labelled: labelled.length, changed: changes.length, removed: removed.rowCount ?? 0 };
   };
   return executor.transaction(write);

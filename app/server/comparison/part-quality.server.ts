@@ -5,7 +5,8 @@
  * parts and hand-ins; a part re-measured since counts only the revisions made after its change. The
  * Holm family is always the whole course, also when one part is asked for.
  */
-import { sql } from "drizzle-orm";
+import { and, eq, exists, gt, gte, isNotNull, isNull, or, sql } from "drizzle-orm";
+import { courseMemberships, courses, dropLogs, dropLogVersions, labCohorts, labs, parts, reductionRevisions, users } from "~/db/schema";
 import { partBiasByPeers, type PartBias, type PartKind, type PeerComparison } from "~/lib/comparison/part-bias";
 import { canSeeStudentWork, type CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
@@ -40,72 +41,91 @@ export type PartBiasView = Omit<PartBiasReport, "comparisons" | "handIns"> & {
   otherHandIns: number;
 };
 
-type Row = {
-  part_id: string;
-  part_kind: PartKind;
-  drop_log_id: string;
-  lab_id: string;
-  lab_title: string;
-  lab_kind: "drag" | "viscometry";
-  student_name: string;
-  user_id: string;
-  cohort_id: string | null;
-  lab_cohort_ids: string[];
-  figure: number;
-  submitted_at: Date | string;
-  alpha: number;
-};
-
 /**
  * The bias report of every part of the course that some counted hand-in used (or of one part), with the
  * course's significance level. A version names its sphere, fluid lot and column; each is tested among
  * the parts of its own kind.
  */
 export async function listPartBias(executor: Executor, courseId: string, partId?: string): Promise<Map<string, PartBiasReport>> {
+  const v = dropLogVersions;
+  // Each version once per part it names: its sphere, fluid lot and column.
+  const used = { partId: sql<string>`p.part_id`, partKind: sql<PartKind>`p.part_kind` };
+  const labSets = executor
+    .select({ labId: labCohorts.labId, cohortIds: sql<string[]>`array_agg(${labCohorts.cohortId})::text[]`.as("cohort_ids") })
+    .from(labCohorts)
+    .innerJoin(labs, eq(labs.id, labCohorts.labId))
+    .where(eq(labs.courseId, courseId))
+    .groupBy(labCohorts.labId)
+    .as("lab_sets");
   // The hand-ins that count: the latest version of each drop log of the course's labs, with a figure.
   // A re-measured part is judged only on figures reduced with its new record: revisions made after the change.
-  const counted = sql`l.course_id = ${courseId} and v.normalised_figure > 0 and p.part_id is not null
-    and (pp.reduction_changed_at is null or exists (
-      select 1 from reduction_revisions rr
-      where rr.version_id = v.id and rr.revision = v.current_revision and rr.created_at >= pp.reduction_changed_at))`;
-  const result = await executor.execute<Row>(sql`
-    select p.part_id, p.part_kind, dl.id as drop_log_id, l.id as lab_id, l.title as lab_title, l.kind as lab_kind,
-      u.name as student_name, m.user_id, m.cohort_id, coalesce(lab_sets.cohort_ids, '{}') as lab_cohort_ids,
-      v.normalised_figure::float8 as figure, v.submitted_at, c.part_bias_alpha::float8 as alpha
-    from labs l
-    join courses c on c.id = l.course_id
-    join drop_logs dl on dl.lab_id = l.id
-    join drop_log_versions v on v.id = dl.latest_version_id
-    join course_memberships m on m.id = dl.membership_id
-    join users u on u.id = m.user_id
-    left join (select lc.lab_id, array_agg(lc.cohort_id)::text[] as cohort_ids from lab_cohorts lc join labs cl on cl.id = lc.lab_id
-      where cl.course_id = ${courseId} group by lc.lab_id) lab_sets on lab_sets.lab_id = l.id
-    cross join lateral (values (v.sphere_id, 'sphere'), (v.fluid_lot_id, 'fluid_lot'), (v.column_id, 'column')) as p(part_id, part_kind)
-    join parts pp on pp.id = p.part_id
-    where ${counted}
-    order by p.part_id, v.submitted_at`);
-  const rows = result.rows;
+  const reducedSinceChange = executor
+    .select({ one: sql`1` })
+    .from(reductionRevisions)
+    .where(
+      and(
+        eq(reductionRevisions.versionId, v.id),
+        eq(reductionRevisions.revision, v.currentRevision),
+        gte(reductionRevisions.createdAt, parts.reductionChangedAt),
+      ),
+    );
+  const rows = await executor
+    .select({
+      partId: used.partId,
+      partKind: used.partKind,
+      dropLogId: dropLogs.id,
+      labId: labs.id,
+      labTitle: labs.title,
+      labKind: labs.kind,
+      studentName: users.name,
+      userId: courseMemberships.userId,
+      cohortId: courseMemberships.cohortId,
+      labCohortIds: labSets.cohortIds,
+      figure: sql<number>`${v.normalisedFigure}::float8`,
+      submittedAt: v.submittedAt,
+      alpha: sql<number>`${courses.partBiasAlpha}::float8`,
+    })
+    .from(labs)
+    .innerJoin(courses, eq(courses.id, labs.courseId))
+    .innerJoin(dropLogs, eq(dropLogs.labId, labs.id))
+    .innerJoin(v, eq(v.id, dropLogs.latestVersionId))
+    .innerJoin(courseMemberships, eq(courseMemberships.id, dropLogs.membershipId))
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(labSets, eq(labSets.labId, labs.id))
+    .crossJoinLateral(
+      sql`(values (${v.sphereId}, 'sphere'), (${v.fluidLotId}, 'fluid_lot'), (${v.columnId}, 'column')) as p(part_id, part_kind)`,
+    )
+    .innerJoin(parts, eq(parts.id, used.partId))
+    .where(
+      and(
+        eq(labs.courseId, courseId),
+        gt(v.normalisedFigure, 0),
+        isNotNull(used.partId),
+        or(isNull(parts.reductionChangedAt), exists(reducedSinceChange)),
+      ),
+    )
+    .orderBy(used.partId, v.submittedAt);
   const alpha = rows[0]?.alpha ?? 0.05;
   const biases = partBiasByPeers(
-    rows.map((row) => ({ partId: row.part_id, partKind: row.part_kind, labId: row.lab_id, mode: row.lab_kind, figure: row.figure })),
+    rows.map((row) => ({ partId: row.partId, partKind: row.partKind, labId: row.labId, mode: row.labKind, figure: row.figure })),
     alpha,
   );
   const labInfo = new Map<string, { title: string; cohortIds: string[] }>();
   const handInsByPart = new Map<string, PartBiasHandIn[]>();
   for (const row of rows) {
-    labInfo.set(row.lab_id, { title: row.lab_title, cohortIds: row.lab_cohort_ids });
-    if (partId && row.part_id !== partId) continue;
-    let handIns = handInsByPart.get(row.part_id);
-    if (!handIns) handInsByPart.set(row.part_id, (handIns = []));
+    labInfo.set(row.labId, { title: row.labTitle, cohortIds: row.labCohortIds ?? [] });
+    if (partId && row.partId !== partId) continue;
+    let handIns = handInsByPart.get(row.partId);
+    if (!handIns) handInsByPart.set(row.partId, (handIns = []));
     handIns.push({
-      dropLogId: row.drop_log_id,
-      labId: row.lab_id,
-      labTitle: row.lab_title,
-      studentName: row.student_name,
-      userId: row.user_id,
-      cohortId: row.cohort_id,
+      dropLogId: row.dropLogId,
+      labId: row.labId,
+      labTitle: row.labTitle,
+      studentName: row.studentName,
+      userId: row.userId,
+      cohortId: row.cohortId,
       figure: row.figure,
-      submittedAt: new Date(row.submitted_at).toISOString(),
+      submittedAt: row.submittedAt.toISOString(),
     });
   }
   const reports = new Map<string, PartBiasReport>();
