@@ -4,15 +4,16 @@
  * fetchers (a save does not reload the desk: its answer carries the student's new row), and a bulk
  * action reloads it.
  */
-import { data, Link, useLocation, useNavigate, type ShouldRevalidateFunctionArgs } from "react-router";
+import { data, Link, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.marking";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
+import { DeskFilters, Pages } from "~/components/marking/desk-navigation";
 import { MarkingDesk } from "~/components/marking/marking-desk";
 import { ButtonLink } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { deskStatusFilters, markingDeskSearch, MAX_BULK_STUDENTS, type DeskStatusFilter } from "~/lib/marking/desk-filters";
+import { markingDeskSearch, MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
 import { AppError } from "~/lib/app-error";
 import { markChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
@@ -135,102 +136,6 @@ export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: Shou
   if (actionResult && typeof actionResult === "object" && "intent" in actionResult && actionResult.intent === "save") return false;
   if (actionResult && typeof actionResult === "object" && "status" in actionResult && actionResult.status === "failed") return false;
   return defaultShouldRevalidate;
-}
-
-const statusNames: Record<DeskStatusFilter, string> = {
-  unmarked: "Not fully marked",
-  flagged: "Flagged by the class comparison",
-  late: "Late",
-  missing: "Missing",
-  "not-due": "Not due yet",
-};
-
-function DeskFilters({ cohorts, counts, filters }: Pick<Route.ComponentProps["loaderData"], "cohorts" | "counts" | "filters">) {
-  const location = useLocation();
-  const navigate = useNavigate();
-  const withParam = (key: string, value: string | null) => {
-    const params = new URLSearchParams(location.search);
-    if (value) params.set(key, value);
-    else params.delete(key);
-    params.delete("page");
-    return `?${params}`;
-  };
-  const chip = (active: boolean) =>
-    `inline-flex min-h-9 items-center rounded-full px-3 text-sm ring-1 ${active ? "bg-ink-800 text-paper-50 ring-ink-800" : "bg-white ring-ink-900/20 hover:bg-paper-100"}`;
-  return (
-    <div className="no-print flex flex-wrap items-end gap-4">
-      {cohorts.length > 1 ? (
-        <label className="flex flex-col gap-1 text-sm">
-          <span>Cohort</span>
-          <select
-            className="rounded border border-ink-900/20 bg-white px-2 py-1.5"
-            value={filters.cohort ?? ""}
-            onChange={(event) => navigate(withParam("cohort", event.target.value || null), { preventScrollReset: true })}
-          >
-            <option value="">All my cohorts</option>
-            {cohorts.map((cohort) => (
-              <option key={cohort.id} value={cohort.id}>
-                {cohort.name}
-              </option>
-            ))}
-          </select>
-        </label>
-      ) : null}
-      <nav aria-label="Show" className="flex flex-wrap gap-2">
-        <Link
-          to={withParam("status", null)}
-          preventScrollReset
-          className={chip(!filters.status)}
-          aria-current={!filters.status ? "page" : undefined}
-        >
-          Everyone ({counts.all})
-        </Link>
-        {deskStatusFilters.map((status) => (
-          <Link
-            key={status}
-            to={withParam("status", status)}
-            preventScrollReset
-            className={chip(filters.status === status)}
-            aria-current={filters.status === status ? "page" : undefined}
-          >
-            {statusNames[status]} ({counts[status]})
-          </Link>
-        ))}
-      </nav>
-    </div>
-  );
-}
-
-function Pages({ page, pageCount, totalRows }: { page: number; pageCount: number; totalRows: number }) {
-  const location = useLocation();
-  if (pageCount <= 1)
-    return (
-      <p className="text-sm text-ink-700">
-        {totalRows} student{totalRows === 1 ? "" : "s"}
-      </p>
-    );
-  const to = (target: number) => {
-    const params = new URLSearchParams(location.search);
-    params.set("page", String(target));
-    return `?${params}`;
-  };
-  return (
-    <nav aria-label="Pages" className="no-print flex items-center gap-3 text-sm">
-      {page > 1 ? (
-        <Link to={to(page - 1)} className="underline">
-          Previous page
-        </Link>
-      ) : null}
-      <span>
-        Page {page} of {pageCount} · {totalRows} students
-      </span>
-      {page < pageCount ? (
-        <Link to={to(page + 1)} className="underline">
-          Next page
-        </Link>
-      ) : null}
-    </nav>
-  );
 }
 
 export default function MarkingPage({ loaderData }: Route.ComponentProps) {
