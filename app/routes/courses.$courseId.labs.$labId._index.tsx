@@ -1,6 +1,7 @@
 import { redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId._index";
 import { DropLogForm } from "~/components/drop-logs/drop-log-form";
+import { HandInNotices } from "~/components/drop-logs/hand-in-notices";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { PhotoUpload } from "~/components/drop-logs/photo-upload";
 import { VersionHistory } from "~/components/drop-logs/version-history";
@@ -8,13 +9,7 @@ import { StudentMarkView } from "~/components/marking/student-mark";
 import { SafetyCautions } from "~/components/safety-cautions";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import {
-  dropLogDraft,
-  dropLogDraftFromForm,
-  dropLogInputFromForm,
-  type DropLogDraft,
-  type DropLogInput,
-} from "~/lib/drop-logs/drop-log-input";
+import { draftFromInput, dropLogDraft, dropLogDraftFromForm, dropLogInputFromForm } from "~/lib/drop-logs/drop-log-input";
 import { handInTiming } from "~/lib/drop-logs/hand-in-window";
 import { kitStateLabels, kitStatesBeforeHome } from "~/lib/kits/kit-states";
 import { photoView, versionView } from "~/lib/drop-logs/version-view";
@@ -30,23 +25,6 @@ import {
   markReleasedMessage,
   saveDraft,
 } from "~/server/drop-logs/hand-in.server";
-
-/** The handed-in input as the form's strings, to start from when there is no draft. */
-function draftFromInput(input: DropLogInput): DropLogDraft {
-  const text = (value: number | undefined) => (value === undefined ? undefined : String(value));
-  return {
-    sphereId: input.sphereId,
-    fluidLotId: input.fluidLotId,
-    columnId: input.columnId,
-    useOwnMeasurements: input.ownDiameterMm !== undefined || input.ownMassG !== undefined,
-    ownDiameterMm: text(input.ownDiameterMm),
-    ownMassG: text(input.ownMassG),
-    temperatureC: text(input.temperatureC),
-    timedDistanceMm: text(input.timedDistanceMm),
-    drops: input.drops.map(String),
-    notes: input.notes,
-  };
-}
 
 export async function loader({ request, params, context: routerContext }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context: routerContext }, params.courseId, anyRole);
@@ -150,13 +128,6 @@ export function shouldRevalidate({ formData, defaultShouldRevalidate }: ShouldRe
   return formData?.get("intent") === "save-draft" ? false : defaultShouldRevalidate;
 }
 
-const timingNotes = {
-  "not-open": "This lab is not open for hand-ins yet; you can fill in your drop log and see the preview.",
-  "on-time": null,
-  late: "The due time has passed: a hand-in now is accepted but marked late.",
-  closed: "This lab takes no more hand-ins.",
-} as const;
-
 export default function LabPage({ loaderData, actionData }: Route.ComponentProps) {
   const {
     courseId,
@@ -178,7 +149,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
     releasedMessage,
   } = loaderData;
   const open = timing === "on-time" || timing === "late";
-  const handedIn = actionData && "handedIn" in actionData ? actionData.handedIn : null;
+  const handedIn = (actionData && "handedIn" in actionData && actionData.handedIn) || null;
   // A refused hand-in: the errors at their fields, and what was sent, for the form to start from (without JavaScript, a new page).
   const refused = actionData && "status" in actionData && actionData.status === "error" ? actionData : null;
   const typed = refused
@@ -202,19 +173,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
       </PageHeader>
       {mark ? <StudentMarkView mark={mark} timeZone={timeZone} /> : null}
 
-      {handedIn ? (
-        <Notice tone="success">
-          Version {handedIn.version} is handed in{handedIn.late ? " (late)" : ""}
-          {handedIn.duplicate ? " — it was already stored, nothing new was added" : ""}. The server's result is below.
-        </Notice>
-      ) : null}
-      {timingNotes[timing] ? <Notice tone={timing === "closed" ? "error" : "warning"}>{timingNotes[timing]}</Notice> : null}
-      {open && afterRelease === "refuse" ? <Notice tone="error">{releasedMessage}</Notice> : null}
-      {open && afterRelease === "reopen" ? (
-        <Notice tone="warning">
-          Your mark for this lab is released. A new hand-in is still taken: your mark is then reopened and marked again on the new version.
-        </Notice>
-      ) : null}
+      <HandInNotices handedIn={handedIn} timing={timing} afterRelease={afterRelease} releasedMessage={releasedMessage} />
 
       {lab.instructions ? (
         <section aria-labelledby="instructions-heading">

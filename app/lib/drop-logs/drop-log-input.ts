@@ -108,6 +108,23 @@ export const dropLogDraft = z.object({
 });
 export type DropLogDraft = z.output<typeof dropLogDraft>;
 
+/** The handed-in input as the form's strings, to start from when there is no draft. */
+export function draftFromInput(input: DropLogInput): DropLogDraft {
+  const text = (value: number | undefined) => (value === undefined ? undefined : String(value));
+  return {
+    sphereId: input.sphereId,
+    fluidLotId: input.fluidLotId,
+    columnId: input.columnId,
+    useOwnMeasurements: input.ownDiameterMm !== undefined || input.ownMassG !== undefined,
+    ownDiameterMm: text(input.ownDiameterMm),
+    ownMassG: text(input.ownMassG),
+    temperatureC: text(input.temperatureC),
+    timedDistanceMm: text(input.timedDistanceMm),
+    drops: input.drops.map(String),
+    notes: input.notes,
+  };
+}
+
 /** The hand-in form's row names: `drops[0]`, `drops[1]`… (Conform's list convention, and what its replies key errors by). */
 export const dropFieldName = (row: number) => `drops[${row}]`;
 
