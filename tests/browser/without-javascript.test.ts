@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { labCohorts, labs } from "~/db/schema";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, demoCourse } from "../../seeds/demo-scenario";
-import { openBrowser, signInWithPassword, type BrowserSession } from "../support/browser";
+import { openBrowser, signInWithPassword, signOut, type BrowserSession } from "../support/browser";
 
 describe("forms without JavaScript", () => {
   let browser: BrowserSession;
@@ -122,6 +122,8 @@ describe("forms without JavaScript", () => {
     await db.insert(labCohorts).values({ labId: lab.id, cohortId: student.cohort_id });
 
     const page = await browser.context.newPage();
+    // The tests above left the instructor signed in in this browser.
+    await signOut(page, base);
     await signInWithPassword(page, base, student.email, DEMO_PASSWORD);
     await page.goto(`${base}/courses/${student.course_id}/labs/${lab.id}`);
     const [lot] = (
