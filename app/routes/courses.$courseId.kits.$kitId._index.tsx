@@ -1,5 +1,4 @@
 import { data, Link } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits.$kitId._index";
 import { KitStateBadge } from "~/components/kit-state-badge";
 import { CheckInForm } from "~/components/kits/check-in-form";
@@ -16,9 +15,10 @@ import { canOpenKit, requireCourseRole, staffRoles, type CourseAccess } from "~/
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { checkInKit, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 async function loadKitFor(access: CourseAccess, kitId: string | undefined) {
-  const kit = kitId && z.uuid().safeParse(kitId).success ? await getKit(db, access.course.id, kitId) : null;
+  const kit = kitId && isEntityId(kitId) ? await getKit(db, access.course.id, kitId) : null;
   if (!kit) throw data("Not found", { status: 404 });
   if (!canOpenKit(access, kit.holder?.cohortId)) throw data("Forbidden", { status: 403 });
   return kit;

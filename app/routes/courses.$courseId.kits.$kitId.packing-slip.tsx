@@ -1,15 +1,15 @@
 import { data } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits.$kitId.packing-slip";
 import { SafetyCautions } from "~/components/safety-cautions";
 import { describePart } from "~/lib/kits/describe-part";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { getKit } from "~/server/kits/kits.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const kit = z.uuid().safeParse(params.kitId).success ? await getKit(db, access.course.id, params.kitId) : null;
+  const kit = isEntityId(params.kitId) ? await getKit(db, access.course.id, params.kitId) : null;
   if (!kit) throw data("Not found", { status: 404 });
   return { kit, course: access.course };
 }

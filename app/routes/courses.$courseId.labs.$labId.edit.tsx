@@ -14,13 +14,14 @@ import { AppError } from "~/lib/app-error";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { closeLab, getLab, getLabFormOptions, updateLab } from "~/server/labs/labs.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 const labIntent = z.enum(["save", "publish", "close"], { error: "Choose save, publish or close." });
 
 const statusNames = { draft: "Draft: students do not see it", published: "Published", closed: "Closed: no more hand-ins" } as const;
 
 async function loadOwnLab(courseId: string, labId: string) {
-  const lab = z.uuid().safeParse(labId).success ? await getLab(db, courseId, labId) : null;
+  const lab = isEntityId(labId) ? await getLab(db, courseId, labId) : null;
   if (!lab) throw data("Not found", { status: 404 });
   return lab;
 }

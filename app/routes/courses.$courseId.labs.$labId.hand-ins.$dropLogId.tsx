@@ -4,7 +4,6 @@
  * this route's data with a fetcher, so it shows the same thing.
  */
 import { data } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.hand-ins.$dropLogId";
 import { HandInDetail, type HandInDetailData } from "~/components/drop-logs/hand-in-detail";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
@@ -18,10 +17,11 @@ import { loadClassLabels } from "~/server/marking/mark-rows.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
 import { loadMarkingLab } from "~/server/marking/marking-lab.server";
 import { staffRoles } from "~/server/auth/access.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadMarkingLab);
-  const owner = z.uuid().safeParse(params.dropLogId).success ? await findDropLogOwner(db, lab.id, params.dropLogId) : null;
+  const owner = isEntityId(params.dropLogId) ? await findDropLogOwner(db, lab.id, params.dropLogId) : null;
   if (!owner) throw data("Not found", { status: 404 });
   // A TA of another cohort is refused here, and the refusal recorded, before anything is read.
   await requireStudentAccess({ request, context }, access.course.id, owner);

@@ -10,7 +10,7 @@ import { RereductionList } from "~/components/parts/rereduction-list";
 import { StatusActions } from "~/components/parts/status-actions";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { readId } from "~/lib/forms/ids";
+import { isEntityId } from "~/lib/forms/ids";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { measurementSummary } from "~/lib/kits/part-display";
 import { partRemeasure, partStatusChange } from "~/lib/kits/part-form";
@@ -23,7 +23,7 @@ import { getPartPage, setPartStatus, updatePart } from "~/server/kits/parts.serv
 import { listRereductions } from "~/server/kits/rereduce.server";
 
 function partIdFrom(params: { partId?: string }): string {
-  const partId = readId(params.partId);
+  const partId = isEntityId(params.partId) ? params.partId : null;
   if (!partId) throw data("Not found", { status: 404 });
   return partId;
 }

@@ -1,15 +1,15 @@
 import { data } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.photos.$photoId";
 import { anyRole, requireCourseRole, requireStudentAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { findPhoto, readPhoto } from "~/server/drop-logs/photos.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 /** A set-up photo, for its student, the course's instructors and the TAs of the student's cohort. */
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Membership first, so that people outside the course learn nothing about which photos exist.
   const access = await requireCourseRole({ request, context }, params.courseId, anyRole);
-  const photo = z.uuid().safeParse(params.photoId).success ? await findPhoto(db, access.course.id, params.photoId) : null;
+  const photo = isEntityId(params.photoId) ? await findPhoto(db, access.course.id, params.photoId) : null;
   if (!photo) throw data("Not found", { status: 404 });
   await requireStudentAccess({ request, context }, access.course.id, { userId: photo.ownerUserId, cohortId: photo.ownerCohortId });
   const file = await readPhoto(photo.storageKey);

@@ -6,7 +6,5 @@ import { z } from "zod";
 
 export const entityId = z.uuid();
 
-/** The id when it is well formed, else null (the caller answers 404). */
-export function readId(value: string | undefined | null): string | null {
-  return entityId.safeParse(value).success ? value! : null;
-}
+/** Whether an id from an address or a form is well formed; when it is not, the caller answers 404. */
+export const isEntityId = (value: unknown): value is string => entityId.safeParse(value).success;

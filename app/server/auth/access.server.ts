@@ -14,6 +14,7 @@ import { db } from "~/server/db.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
 import { authenticateApiToken, readBearerToken } from "./api-tokens.server";
 import { readRequestSession, type SessionUser, type SessionValidation } from "./session.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 export type CourseRole = "instructor" | "ta" | "student";
 export const staffRoles = ["instructor", "ta"] as const satisfies readonly CourseRole[];
@@ -35,8 +36,6 @@ export type RequestScope = { request: Request; context: Readonly<RouterContextPr
 
 /** The owner of a piece of student work (a membership, a drop log…), as the access check needs it. */
 export type StudentOwner = { userId: string; cohortId: string | null };
-
-const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /**
  * The request's session and signed-in user, each looked up at most once per request and kept in the
@@ -161,7 +160,7 @@ function courseAccessRow({ context }: RequestScope, userId: string, courseId: st
 export async function beginCourseAccess(scope: RequestScope, courseId: string | undefined): Promise<void> {
   const user = await getOptionalUser(scope);
   // Started, not awaited: a refusal is for the loaders to answer, each with its own roles.
-  if (user && courseId && uuidPattern.test(courseId)) courseAccessRow(scope, user.id, courseId).catch(() => undefined);
+  if (user && courseId && isEntityId(courseId)) courseAccessRow(scope, user.id, courseId).catch(() => undefined);
 }
 
 /** The course frame's middleware: resolves the viewer's access to the course before its loaders run. */
@@ -178,7 +177,7 @@ export async function requireCourseRole(
 ): Promise<CourseAccess> {
   const { request } = scope;
   const user = await requireUser(scope);
-  if (!courseId || !uuidPattern.test(courseId)) notFound(request);
+  if (!courseId || !isEntityId(courseId)) notFound(request);
   const row = await courseAccessRow(scope, user.id, courseId);
   if (!row) notFound(request);
   if (!row.membershipId || !row.role) return deny(request, user, courseId, "not a member");

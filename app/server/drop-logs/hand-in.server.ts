@@ -20,6 +20,7 @@ import type { Executor } from "~/server/db.server";
 import { jsonRows } from "~/server/json-rows.server";
 import { labRefusal } from "~/server/labs/lab-access.server";
 import { markingLock } from "~/server/marking/marks.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 export type HandInRefusalCode =
   | "invalid_input"
@@ -95,7 +96,7 @@ const partWords: Record<ChoosableKind, { name: string; field: "sphereId" | "flui
  */
 export async function loadStudentLab(executor: Executor, access: CourseAccess, labId: string) {
   if (access.membership.role !== "student") throw handInRefusal("not_a_student", "Only students hand in drop logs.");
-  if (!z.uuid().safeParse(labId).success) throw handInRefusal("lab_not_found", "There is no such lab in this course.");
+  if (!isEntityId(labId)) throw handInRefusal("lab_not_found", "There is no such lab in this course.");
   const [labRows, kitPartRows] = await Promise.all([
     executor
       .select({
@@ -449,7 +450,7 @@ export async function listVersions(executor: Executor, dropLogId: string): Promi
 
 /** The course a lab belongs to, so an API call naming only the lab can check the caller's role in it. */
 export async function findLabCourseId(executor: Executor, labId: string): Promise<string | null> {
-  if (!z.uuid().safeParse(labId).success) return null;
+  if (!isEntityId(labId)) return null;
   const [row] = await executor.select({ courseId: labs.courseId }).from(labs).where(eq(labs.id, labId));
   return row?.courseId ?? null;
 }

@@ -6,13 +6,13 @@
  * JSON under /api/.
  */
 import { createContext, data, type MiddlewareFunction } from "react-router";
-import { z } from "zod";
 import type { labStatus } from "~/db/schema";
 import { beginCourseAccess, getOptionalUser, requireApiUser, requireCohortAccess, requireCourseRole } from "~/server/auth/access.server";
 import type { CourseAccess, CourseRole, RequestScope } from "~/server/auth/access.server";
 import { apiErrorResponse, isApiRequest } from "~/server/auth/api-errors.server";
 import { db, type Executor } from "~/server/db.server";
 import { findLab, type LabWithCohorts } from "./labs.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 /** What the check reads of a lab; each area loads the lab in its own shape, with at least these. */
 export type LabGate = { id: string; courseId: string; cohortIds: readonly string[]; status?: (typeof labStatus.enumValues)[number] };
@@ -40,15 +40,13 @@ function addressedLab({ context }: RequestScope, labId: string): Promise<LabWith
   return lab;
 }
 
-const isUuid = (value: string | undefined): value is string => z.uuid().safeParse(value).success;
-
 /**
  * The middleware of /api/v1/labs/:labId: for a signed-in caller, resolves the lab (which names its
  * course) and starts the caller's access to that course, before the route's loader or action runs.
  */
 export const labAddressMiddleware: MiddlewareFunction<Response> = async ({ request, params, context }, next) => {
   const scope = { request, context };
-  if (isUuid(params.labId) && (await getOptionalUser(scope))) {
+  if (isEntityId(params.labId) && (await getOptionalUser(scope))) {
     // A refusal is for the route to answer, with its own roles: nothing here throws.
     const lab = await addressedLab(scope, params.labId).catch(() => null);
     if (lab) beginCourseAccess(scope, lab.courseId);
@@ -88,11 +86,11 @@ export async function requireLabAccess(
   let addressed: LabWithCohorts | null = null;
   if (!inCourse) {
     await requireApiUser(scope);
-    addressed = isUuid(labId) ? await addressedLab(scope, labId) : null;
+    addressed = isEntityId(labId) ? await addressedLab(scope, labId) : null;
     if (!addressed) noSuchLab(scope.request, false);
   }
   const access = await requireCourseRole(scope, courseId ?? addressed!.courseId, roles);
-  const lab = !isUuid(labId) ? null : load ? await load(db, access.course.id, labId) : (addressed ?? (await findLab(db, labId)));
+  const lab = !isEntityId(labId) ? null : load ? await load(db, access.course.id, labId) : (addressed ?? (await findLab(db, labId)));
   if (!lab || lab.courseId !== access.course.id) noSuchLab(scope.request, inCourse);
   const refusal = labRefusal(access, lab);
   if (refusal === "no_such_lab") noSuchLab(scope.request, inCourse);

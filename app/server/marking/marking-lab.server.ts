@@ -5,7 +5,6 @@
  */
 import { AppError } from "~/lib/app-error";
 import { and, eq, sql } from "drizzle-orm";
-import { z } from "zod";
 import { labMarking, labs } from "~/db/schema";
 import type { ComparisonSettings } from "~/lib/comparison/comparison-settings";
 import type { RubricCriterion } from "~/lib/marking/rubric";
@@ -13,6 +12,7 @@ import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { comparisonLabColumns, settingsOf } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 /** A lab with what marking needs; `rubric` is in order. */
 export type MarkingLab = {
@@ -78,7 +78,7 @@ type CriterionRow = Omit<RubricCriterion, "autoParams"> & { autoParams: RubricCr
 
 /** The lab with its cohorts, rubric and marking state, in one statement; null when it is not the course's. */
 export async function loadMarkingLab(executor: Executor, courseId: string, labId: string): Promise<MarkingLab | null> {
-  if (!z.uuid().safeParse(labId).success) return null;
+  if (!isEntityId(labId)) return null;
   const [row] = await executor
     .select({
       ...comparisonLabColumns,
