@@ -6,8 +6,8 @@
  * counts its progress for the part's page, and is idempotent: a revision is keyed on the part event, so
  * a re-run (a retry, a second worker) skips the versions already revised.
  */
-import { sql } from "drizzle-orm";
-import type { CalibrationPoint, LabResolutions, ReductionRevisionCause } from "~/db/schema";
+import { desc, eq, sql } from "drizzle-orm";
+import { rereductionRuns, type CalibrationPoint, type LabResolutions, type ReductionRevisionCause } from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { reduceDropLog, type KitRecord, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
@@ -303,19 +303,17 @@ export type RereductionProgress = { id: string; total: number; done: number; fin
 
 /** The part's latest re-reductions, newest first, for its page. */
 export async function listRereductions(executor: Executor, partId: string, limit = 5): Promise<RereductionProgress[]> {
-  const result = await executor.execute<{
-    id: string;
-    total: number;
-    done: number;
-    finished_at: Date | string | null;
-    created_at: Date | string;
-  }>(sql`
-    select id, total, done, finished_at, created_at from rereduction_runs where part_id = ${partId} order by created_at desc limit ${limit}`);
-  return result.rows.map((row) => ({
-    id: row.id,
-    total: row.total,
-    done: row.done,
-    finishedAt: row.finished_at ? new Date(row.finished_at).toISOString() : null,
-    createdAt: new Date(row.created_at).toISOString(),
-  }));
+  const rows = await executor
+    .select({
+      id: rereductionRuns.id,
+      total: rereductionRuns.total,
+      done: rereductionRuns.done,
+      finishedAt: rereductionRuns.finishedAt,
+      createdAt: rereductionRuns.createdAt,
+    })
+    .from(rereductionRuns)
+    .where(eq(rereductionRuns.partId, partId))
+    .orderBy(desc(rereductionRuns.createdAt))
+    .limit(limit);
+  return rows.map((row) => ({ ...row, finishedAt: row.finishedAt?.toISOString() ?? null, createdAt: row.createdAt.toISOString() }));
 }

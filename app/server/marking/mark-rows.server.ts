@@ -4,7 +4,8 @@
  * desk, the saves, moderation, release and export all read marks through here, so a total is always
  * computed the same way.
  */
-import { sql, type SQL } from "drizzle-orm";
+import { and, eq, gt, sql, type SQL } from "drizzle-orm";
+import { dropLogs, dropLogVersions } from "~/db/schema";
 import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } from "~/lib/marking/automatic-criteria";
 import {
   markProgress,
@@ -236,13 +237,13 @@ export const rubricNeedsLabels = (lab: Pick<MarkingLab, "rubric">) => lab.rubric
  * the comparison page shows. One statement.
  */
 export async function loadClassLabels(executor: Executor, lab: Pick<MarkingLab, "id" | "kind" | "settings">): Promise<ClassLabels> {
-  const result = await executor.execute<{ id: string; figure: number }>(sql`
-    select dl.id, v.normalised_figure::float8 as figure
-    from drop_logs dl
-    join drop_log_versions v on v.id = dl.latest_version_id
-    where dl.lab_id = ${lab.id} and v.normalised_figure > 0`);
-  const labelled = labelClass(result.rows, lab.settings, quantityOf(lab.kind));
-  return new Map(result.rows.map((row, index) => [row.id, { label: labelled[index].label, reason: labelled[index].reason }]));
+  const rows = await executor
+    .select({ id: dropLogs.id, figure: sql<number>`${dropLogVersions.normalisedFigure}::float8` })
+    .from(dropLogs)
+    .innerJoin(dropLogVersions, eq(dropLogVersions.id, dropLogs.latestVersionId))
+    .where(and(eq(dropLogs.labId, lab.id), gt(dropLogVersions.normalisedFigure, 0)));
+  const labelled = labelClass(rows, lab.settings, quantityOf(lab.kind));
+  return new Map(rows.map((row, index) => [row.id, { label: labelled[index].label, reason: labelled[index].reason }]));
 }
 
 /**
