@@ -7,7 +7,7 @@
  * a re-run (a retry, a second worker) skips the versions already revised.
  */
 import { desc, eq, sql } from "drizzle-orm";
-import { rereductionRuns, type CalibrationPoint, type LabResolutions, type ReductionRevisionCause } from "~/db/schema";
+import { partEvents, parts, rereductionRuns, type CalibrationPoint, type LabResolutions, type ReductionRevisionCause } from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { reduceDropLog, type KitRecord, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
@@ -49,6 +49,7 @@ export async function queueRereduction(
   tx: Transaction,
   { courseId, partId, partEventId }: { courseId: string; partId: string; partEventId: string },
 ): Promise<string> {
+  // Raw: an insert from a set-based count, one statement.
   const result = await tx.execute<{ id: string }>(sql`
     insert into rereduction_runs (course_id, part_id, part_event_id, total)
     select ${courseId}, ${partId}, ${partEventId}, count(*)::int from drop_log_versions v
@@ -92,17 +93,7 @@ type VersionRow = {
   column: PartRow;
 };
 
-type RunRow = {
-  course_id: string;
-  part_id: string;
-  part_event_id: string;
-  part_label: string;
-  total: number;
-  finished_at: Date | string | null;
-  actor_id: string | null;
-  event_at: Date | string;
-  changed: FieldChanges | null;
-};
+type RunRow = NonNullable<Awaited<ReturnType<typeof loadRun>>>;
 
 const partJson = (alias: string) =>
   sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
@@ -177,6 +168,27 @@ function revise(row: VersionRow) {
   };
 }
 
+/** The run with its part's label and the correction's author, time and changed fields. */
+async function loadRun(executor: Executor, runId: string) {
+  const [run] = await executor
+    .select({
+      courseId: rereductionRuns.courseId,
+      partId: rereductionRuns.partId,
+      partEventId: rereductionRuns.partEventId,
+      partLabel: parts.label,
+      total: rereductionRuns.total,
+      finishedAt: rereductionRuns.finishedAt,
+      actorId: partEvents.actorId,
+      eventAt: partEvents.createdAt,
+      changed: sql<FieldChanges | null>`${partEvents.detail} -> 'changed'`,
+    })
+    .from(rereductionRuns)
+    .innerJoin(parts, eq(parts.id, rereductionRuns.partId))
+    .innerJoin(partEvents, eq(partEvents.id, rereductionRuns.partEventId))
+    .where(eq(rereductionRuns.id, runId));
+  return run;
+}
+
 export type RereductionOutcome = { revised: number; unreducible: string[]; labIds: string[]; finished: boolean };
 
 /**
@@ -190,20 +202,15 @@ export async function runRereduction(
   runId: string,
   { chunkSize = 500 }: { chunkSize?: number } = {},
 ): Promise<RereductionOutcome> {
-  const runs = await executor.execute<RunRow>(sql`
-    select r.course_id, r.part_id, r.part_event_id, p.label as part_label, r.total, r.finished_at,
-      e.actor_id, e.created_at as event_at, e.detail -> 'changed' as changed
-    from rereduction_runs r join parts p on p.id = r.part_id join part_events e on e.id = r.part_event_id
-    where r.id = ${runId}`);
-  const run = runs.rows[0];
-  if (!run || run.finished_at) return { revised: 0, unreducible: [], labIds: [], finished: true };
+  const run = await loadRun(executor, runId);
+  if (!run || run.finishedAt) return { revised: 0, unreducible: [], labIds: [], finished: true };
   const cause: ReductionRevisionCause = {
-    partId: run.part_id,
-    partLabel: run.part_label,
-    partEventId: run.part_event_id,
+    partId: run.partId,
+    partLabel: run.partLabel,
+    partEventId: run.partEventId,
     changes: reductionChanges(run.changed ?? {}),
-    changedById: run.actor_id,
-    changedAt: new Date(run.event_at).toISOString(),
+    changedById: run.actorId,
+    changedAt: run.eventAt.toISOString(),
   };
   let cursor = "00000000-0000-0000-0000-000000000000";
   let revised = 0;
@@ -211,6 +218,7 @@ export async function runRereduction(
   const labIds = new Set<string>();
   for (;;) {
     const chunk = await executor.transaction(async (tx) => {
+      // Raw: the chunk's locking read (`for update of v`), with three part aliases built by `partJson`.
       const rows = await tx.execute<VersionRow>(sql`
         select v.id, dl.lab_id, v.current_revision, v.input, v.kit_records -> 'kit' as kit, v.gravity,
           json_build_object('kind', l.kind, 'wall_correction', l.wall_correction, 'drag_model', l.drag_model,
@@ -222,9 +230,9 @@ export async function runRereduction(
         join parts sp on sp.id = v.sphere_id
         join parts fl on fl.id = v.fluid_lot_id
         join parts co on co.id = v.column_id
-        where (v.sphere_id = ${run.part_id} or v.fluid_lot_id = ${run.part_id} or v.column_id = ${run.part_id})
+        where (v.sphere_id = ${run.partId} or v.fluid_lot_id = ${run.partId} or v.column_id = ${run.partId})
           and v.id > ${cursor}
-          and not exists (select 1 from reduction_revisions rr where rr.version_id = v.id and rr.part_event_id = ${run.part_event_id})
+          and not exists (select 1 from reduction_revisions rr where rr.version_id = v.id and rr.part_event_id = ${run.partEventId})
         order by v.id
         limit ${chunkSize}
         for update of v`);
@@ -240,6 +248,7 @@ export async function runRereduction(
           unreducible.push(row.id);
         }
       }
+      // Raw: the chunk's set-based write (insert, copy and progress in data-modifying CTEs over a JSON recordset).
       const written = await tx.execute<{ count: number }>(sql`
         with data as (
           select * from json_to_recordset(${JSON.stringify(revisions)}::json) as d(version_id uuid, revision int, kit_records jsonb,
@@ -248,7 +257,7 @@ export async function runRereduction(
           insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient,
             viscosity_pa_s, warning_count, cause, part_event_id)
           select version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count,
-            ${JSON.stringify(cause)}::jsonb, ${run.part_event_id}
+            ${JSON.stringify(cause)}::jsonb, ${run.partEventId}
           from data
           on conflict do nothing
           returning version_id),
@@ -281,6 +290,7 @@ async function finishRun(
   { revised, unreducible }: { revised: number; unreducible: string[] },
 ) {
   await executor.transaction(async (tx) => {
+    // Raw: a guarded update returning an array subquery over every version that used the part.
     const finished = await tx.execute<{ lab_ids: string[] }>(sql`
       update rereduction_runs r set finished_at = now(), done = total where r.id = ${runId} and r.finished_at is null
       returning array(
@@ -291,10 +301,10 @@ async function finishRun(
     for (const labId of labIds) await queueClassComparison(tx, labId);
     await recordAudit(tx, {
       action: "part.rereduced",
-      actorId: run.actor_id,
-      courseId: run.course_id,
-      subject: `part:${run.part_id}`,
-      detail: { partLabel: run.part_label, partEventId: run.part_event_id, total: run.total, revised, unreducible, labIds },
+      actorId: run.actorId,
+      courseId: run.courseId,
+      subject: `part:${run.partId}`,
+      detail: { partLabel: run.partLabel, partEventId: run.partEventId, total: run.total, revised, unreducible, labIds },
     });
   });
 }
