@@ -6,8 +6,20 @@
  * counts its progress for the part's page, and is idempotent: a revision is keyed on the part event, so
  * a re-run (a retry, a second worker) skips the versions already revised.
  */
-import { desc, eq, sql } from "drizzle-orm";
-import { partEvents, parts, rereductionRuns, type CalibrationPoint, type LabResolutions, type ReductionRevisionCause } from "~/db/schema";
+import { and, desc, eq, gt, notExists, or, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import {
+  dropLogs,
+  dropLogVersions,
+  labs,
+  partEvents,
+  parts,
+  reductionRevisions,
+  rereductionRuns,
+  type CalibrationPoint,
+  type LabResolutions,
+  type ReductionRevisionCause,
+} from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { reduceDropLog, type KitRecord, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
@@ -95,14 +107,18 @@ type VersionRow = {
 
 type RunRow = NonNullable<Awaited<ReturnType<typeof loadRun>>>;
 
-const partJson = (alias: string) =>
-  sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
-  'diameter_mm', ${alias}.diameter_mm, 'diameter_resolution_mm', ${alias}.diameter_resolution_mm, 'mass_g', ${alias}.mass_g,
-  'mass_resolution_g', ${alias}.mass_resolution_g, 'fluid_name', ${alias}.fluid_name, 'density_kg_m3', ${alias}.density_kg_m3,
-  'density_uncertainty_kg_m3', ${alias}.density_uncertainty_kg_m3,
-  'density_temperature_coefficient_kg_m3_k', ${alias}.density_temperature_coefficient_kg_m3_k,
-  'calibration', ${alias}.calibration, 'inner_diameter_mm', ${alias}.inner_diameter_mm, 'inner_diameter_uncertainty_mm', ${alias}.inner_diameter_uncertainty_mm, 'timed_distance_mm', ${alias}.timed_distance_mm,
-  'run_in_mm', ${alias}.run_in_mm, 'margin_below_mm', ${alias}.margin_below_mm)`);
+const sp = alias(parts, "sp");
+const fl = alias(parts, "fl");
+const co = alias(parts, "co");
+
+const partJson = (part: typeof sp | typeof fl | typeof co) =>
+  sql<PartRow>`json_build_object('id', ${part.id}, 'label', ${part.label}, 'material', ${part.material},
+  'diameter_mm', ${part.diameterMm}, 'diameter_resolution_mm', ${part.diameterResolutionMm}, 'mass_g', ${part.massG},
+  'mass_resolution_g', ${part.massResolutionG}, 'fluid_name', ${part.fluidName}, 'density_kg_m3', ${part.densityKgM3},
+  'density_uncertainty_kg_m3', ${part.densityUncertaintyKgM3},
+  'density_temperature_coefficient_kg_m3_k', ${part.densityTemperatureCoefficientKgM3K},
+  'calibration', ${part.calibration}, 'inner_diameter_mm', ${part.innerDiameterMm}, 'inner_diameter_uncertainty_mm', ${part.innerDiameterUncertaintyMm}, 'timed_distance_mm', ${part.timedDistanceMm},
+  'run_in_mm', ${part.runInMm}, 'margin_below_mm', ${part.marginBelowMm})`;
 
 /**
  * The revision of one version with the parts' current records. The changed part's record is its new
@@ -218,27 +234,47 @@ export async function runRereduction(
   const labIds = new Set<string>();
   for (;;) {
     const chunk = await executor.transaction(async (tx) => {
-      // Raw: the chunk's locking read (`for update of v`), with three part aliases built by `partJson`.
-      const rows = await tx.execute<VersionRow>(sql`
-        select v.id, dl.lab_id, v.current_revision, v.input, v.kit_records -> 'kit' as kit, v.gravity,
-          json_build_object('kind', l.kind, 'wall_correction', l.wall_correction, 'drag_model', l.drag_model,
-            'required_drops', l.required_drops, 'resolutions', l.resolutions) as lab,
-          ${partJson("sp")} as sphere, ${partJson("fl")} as fluid_lot, ${partJson("co")} as column
-        from drop_log_versions v
-        join drop_logs dl on dl.id = v.drop_log_id
-        join labs l on l.id = dl.lab_id
-        join parts sp on sp.id = v.sphere_id
-        join parts fl on fl.id = v.fluid_lot_id
-        join parts co on co.id = v.column_id
-        where (v.sphere_id = ${run.partId} or v.fluid_lot_id = ${run.partId} or v.column_id = ${run.partId})
-          and v.id > ${cursor}
-          and not exists (select 1 from reduction_revisions rr where rr.version_id = v.id and rr.part_event_id = ${run.partEventId})
-        order by v.id
-        limit ${chunkSize}
-        for update of v`);
-      if (rows.rows.length === 0) return null;
+      const v = dropLogVersions;
+      const rows: VersionRow[] = await tx
+        .select({
+          id: v.id,
+          lab_id: dropLogs.labId,
+          current_revision: v.currentRevision,
+          input: v.input,
+          kit: sql<KitRecord | null>`${v.kitRecords} -> 'kit'`,
+          gravity: v.gravity,
+          lab: sql<
+            VersionRow["lab"]
+          >`json_build_object('kind', ${labs.kind}, 'wall_correction', ${labs.wallCorrection}, 'drag_model', ${labs.dragModel},
+            'required_drops', ${labs.requiredDrops}, 'resolutions', ${labs.resolutions})`,
+          sphere: partJson(sp),
+          fluid_lot: partJson(fl),
+          column: partJson(co),
+        })
+        .from(v)
+        .innerJoin(dropLogs, eq(dropLogs.id, v.dropLogId))
+        .innerJoin(labs, eq(labs.id, dropLogs.labId))
+        .innerJoin(sp, eq(sp.id, v.sphereId))
+        .innerJoin(fl, eq(fl.id, v.fluidLotId))
+        .innerJoin(co, eq(co.id, v.columnId))
+        .where(
+          and(
+            or(eq(v.sphereId, run.partId), eq(v.fluidLotId, run.partId), eq(v.columnId, run.partId)),
+            gt(v.id, cursor),
+            notExists(
+              tx
+                .select({ one: sql`1` })
+                .from(reductionRevisions)
+                .where(and(eq(reductionRevisions.versionId, v.id), eq(reductionRevisions.partEventId, run.partEventId))),
+            ),
+          ),
+        )
+        .orderBy(v.id)
+        .limit(chunkSize)
+        .for("update", { of: v });
+      if (rows.length === 0) return null;
       const revisions = [];
-      for (const row of rows.rows) {
+      for (const row of rows) {
         labIds.add(row.lab_id);
         try {
           revisions.push(revise(row));
@@ -266,9 +302,9 @@ export async function runRereduction(
             normalised_figure = d.normalised_figure, reynolds = d.reynolds, drag_coefficient = d.drag_coefficient,
             viscosity_pa_s = d.viscosity_pa_s, warning_count = d.warning_count
           from data d where v.id = d.version_id and d.version_id in (select version_id from inserted)),
-        progress as (update rereduction_runs set done = least(total, done + ${rows.rows.length}) where id = ${runId})
+        progress as (update rereduction_runs set done = least(total, done + ${rows.length}) where id = ${runId})
         select count(*)::int as count from inserted`);
-      return { last: rows.rows[rows.rows.length - 1].id, revised: written.rows[0].count };
+      return { last: rows[rows.length - 1].id, revised: written.rows[0].count };
     });
     if (!chunk) break;
     cursor = chunk.last;
