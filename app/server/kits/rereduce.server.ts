@@ -6,8 +6,20 @@
  * counts its progress for the part's page, and is idempotent: a revision is keyed on the part event, so
  * a re-run (a retry, a second worker) skips the versions already revised.
  */
-import { sql } from "drizzle-orm";
-import type { CalibrationPoint, LabResolutions, ReductionRevisionCause } from "~/db/schema";
+import { and, desc, eq, gt, notExists, or, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import {
+  dropLogs,
+  dropLogVersions,
+  labs,
+  partEvents,
+  parts,
+  reductionRevisions,
+  rereductionRuns,
+  type CalibrationPoint,
+  type LabResolutions,
+  type ReductionRevisionCause,
+} from "~/db/schema";
 import type { DropLogInput } from "~/lib/drop-logs/drop-log-input";
 import { reduceDropLog, type KitRecord, type LabSettings } from "~/lib/drop-logs/reduce-drop-log";
 import { ReductionInputError } from "~/lib/reduction";
@@ -49,6 +61,7 @@ export async function queueRereduction(
   tx: Transaction,
   { courseId, partId, partEventId }: { courseId: string; partId: string; partEventId: string },
 ): Promise<string> {
+  // Raw: an insert from a set-based count, one statement.
   const result = await tx.execute<{ id: string }>(sql`
     insert into rereduction_runs (course_id, part_id, part_event_id, total)
     select ${courseId}, ${partId}, ${partEventId}, count(*)::int from drop_log_versions v
@@ -92,26 +105,20 @@ type VersionRow = {
   column: PartRow;
 };
 
-type RunRow = {
-  course_id: string;
-  part_id: string;
-  part_event_id: string;
-  part_label: string;
-  total: number;
-  finished_at: Date | string | null;
-  actor_id: string | null;
-  event_at: Date | string;
-  changed: FieldChanges | null;
-};
+type RunRow = NonNullable<Awaited<ReturnType<typeof loadRun>>>;
 
-const partJson = (alias: string) =>
-  sql.raw(`json_build_object('id', ${alias}.id, 'label', ${alias}.label, 'material', ${alias}.material,
-  'diameter_mm', ${alias}.diameter_mm, 'diameter_resolution_mm', ${alias}.diameter_resolution_mm, 'mass_g', ${alias}.mass_g,
-  'mass_resolution_g', ${alias}.mass_resolution_g, 'fluid_name', ${alias}.fluid_name, 'density_kg_m3', ${alias}.density_kg_m3,
-  'density_uncertainty_kg_m3', ${alias}.density_uncertainty_kg_m3,
-  'density_temperature_coefficient_kg_m3_k', ${alias}.density_temperature_coefficient_kg_m3_k,
-  'calibration', ${alias}.calibration, 'inner_diameter_mm', ${alias}.inner_diameter_mm, 'inner_diameter_uncertainty_mm', ${alias}.inner_diameter_uncertainty_mm, 'timed_distance_mm', ${alias}.timed_distance_mm,
-  'run_in_mm', ${alias}.run_in_mm, 'margin_below_mm', ${alias}.margin_below_mm)`);
+const sp = alias(parts, "sp");
+const fl = alias(parts, "fl");
+const co = alias(parts, "co");
+
+const partJson = (part: typeof sp | typeof fl | typeof co) =>
+  sql<PartRow>`json_build_object('id', ${part.id}, 'label', ${part.label}, 'material', ${part.material},
+  'diameter_mm', ${part.diameterMm}, 'diameter_resolution_mm', ${part.diameterResolutionMm}, 'mass_g', ${part.massG},
+  'mass_resolution_g', ${part.massResolutionG}, 'fluid_name', ${part.fluidName}, 'density_kg_m3', ${part.densityKgM3},
+  'density_uncertainty_kg_m3', ${part.densityUncertaintyKgM3},
+  'density_temperature_coefficient_kg_m3_k', ${part.densityTemperatureCoefficientKgM3K},
+  'calibration', ${part.calibration}, 'inner_diameter_mm', ${part.innerDiameterMm}, 'inner_diameter_uncertainty_mm', ${part.innerDiameterUncertaintyMm}, 'timed_distance_mm', ${part.timedDistanceMm},
+  'run_in_mm', ${part.runInMm}, 'margin_below_mm', ${part.marginBelowMm})`;
 
 /**
  * The revision of one version with the parts' current records. The changed part's record is its new
@@ -177,6 +184,27 @@ function revise(row: VersionRow) {
   };
 }
 
+/** The run with its part's label and the correction's author, time and changed fields. */
+async function loadRun(executor: Executor, runId: string) {
+  const [run] = await executor
+    .select({
+      courseId: rereductionRuns.courseId,
+      partId: rereductionRuns.partId,
+      partEventId: rereductionRuns.partEventId,
+      partLabel: parts.label,
+      total: rereductionRuns.total,
+      finishedAt: rereductionRuns.finishedAt,
+      actorId: partEvents.actorId,
+      eventAt: partEvents.createdAt,
+      changed: sql<FieldChanges | null>`${partEvents.detail} -> 'changed'`,
+    })
+    .from(rereductionRuns)
+    .innerJoin(parts, eq(parts.id, rereductionRuns.partId))
+    .innerJoin(partEvents, eq(partEvents.id, rereductionRuns.partEventId))
+    .where(eq(rereductionRuns.id, runId));
+  return run;
+}
+
 export type RereductionOutcome = { revised: number; unreducible: string[]; labIds: string[]; finished: boolean };
 
 /**
@@ -190,20 +218,15 @@ export async function runRereduction(
   runId: string,
   { chunkSize = 500 }: { chunkSize?: number } = {},
 ): Promise<RereductionOutcome> {
-  const runs = await executor.execute<RunRow>(sql`
-    select r.course_id, r.part_id, r.part_event_id, p.label as part_label, r.total, r.finished_at,
-      e.actor_id, e.created_at as event_at, e.detail -> 'changed' as changed
-    from rereduction_runs r join parts p on p.id = r.part_id join part_events e on e.id = r.part_event_id
-    where r.id = ${runId}`);
-  const run = runs.rows[0];
-  if (!run || run.finished_at) return { revised: 0, unreducible: [], labIds: [], finished: true };
+  const run = await loadRun(executor, runId);
+  if (!run || run.finishedAt) return { revised: 0, unreducible: [], labIds: [], finished: true };
   const cause: ReductionRevisionCause = {
-    partId: run.part_id,
-    partLabel: run.part_label,
-    partEventId: run.part_event_id,
+    partId: run.partId,
+    partLabel: run.partLabel,
+    partEventId: run.partEventId,
     changes: reductionChanges(run.changed ?? {}),
-    changedById: run.actor_id,
-    changedAt: new Date(run.event_at).toISOString(),
+    changedById: run.actorId,
+    changedAt: run.eventAt.toISOString(),
   };
   let cursor = "00000000-0000-0000-0000-000000000000";
   let revised = 0;
@@ -211,26 +234,47 @@ export async function runRereduction(
   const labIds = new Set<string>();
   for (;;) {
     const chunk = await executor.transaction(async (tx) => {
-      const rows = await tx.execute<VersionRow>(sql`
-        select v.id, dl.lab_id, v.current_revision, v.input, v.kit_records -> 'kit' as kit, v.gravity,
-          json_build_object('kind', l.kind, 'wall_correction', l.wall_correction, 'drag_model', l.drag_model,
-            'required_drops', l.required_drops, 'resolutions', l.resolutions) as lab,
-          ${partJson("sp")} as sphere, ${partJson("fl")} as fluid_lot, ${partJson("co")} as column
-        from drop_log_versions v
-        join drop_logs dl on dl.id = v.drop_log_id
-        join labs l on l.id = dl.lab_id
-        join parts sp on sp.id = v.sphere_id
-        join parts fl on fl.id = v.fluid_lot_id
-        join parts co on co.id = v.column_id
-        where (v.sphere_id = ${run.part_id} or v.fluid_lot_id = ${run.part_id} or v.column_id = ${run.part_id})
-          and v.id > ${cursor}
-          and not exists (select 1 from reduction_revisions rr where rr.version_id = v.id and rr.part_event_id = ${run.part_event_id})
-        order by v.id
-        limit ${chunkSize}
-        for update of v`);
-      if (rows.rows.length === 0) return null;
+      const v = dropLogVersions;
+      const rows: VersionRow[] = await tx
+        .select({
+          id: v.id,
+          lab_id: dropLogs.labId,
+          current_revision: v.currentRevision,
+          input: v.input,
+          kit: sql<KitRecord | null>`${v.kitRecords} -> 'kit'`,
+          gravity: v.gravity,
+          lab: sql<
+            VersionRow["lab"]
+          >`json_build_object('kind', ${labs.kind}, 'wall_correction', ${labs.wallCorrection}, 'drag_model', ${labs.dragModel},
+            'required_drops', ${labs.requiredDrops}, 'resolutions', ${labs.resolutions})`,
+          sphere: partJson(sp),
+          fluid_lot: partJson(fl),
+          column: partJson(co),
+        })
+        .from(v)
+        .innerJoin(dropLogs, eq(dropLogs.id, v.dropLogId))
+        .innerJoin(labs, eq(labs.id, dropLogs.labId))
+        .innerJoin(sp, eq(sp.id, v.sphereId))
+        .innerJoin(fl, eq(fl.id, v.fluidLotId))
+        .innerJoin(co, eq(co.id, v.columnId))
+        .where(
+          and(
+            or(eq(v.sphereId, run.partId), eq(v.fluidLotId, run.partId), eq(v.columnId, run.partId)),
+            gt(v.id, cursor),
+            notExists(
+              tx
+                .select({ one: sql`1` })
+                .from(reductionRevisions)
+                .where(and(eq(reductionRevisions.versionId, v.id), eq(reductionRevisions.partEventId, run.partEventId))),
+            ),
+          ),
+        )
+        .orderBy(v.id)
+        .limit(chunkSize)
+        .for("update", { of: v });
+      if (rows.length === 0) return null;
       const revisions = [];
-      for (const row of rows.rows) {
+      for (const row of rows) {
         labIds.add(row.lab_id);
         try {
           revisions.push(revise(row));
@@ -240,6 +284,7 @@ export async function runRereduction(
           unreducible.push(row.id);
         }
       }
+      // Raw: the chunk's set-based write (insert, copy and progress in data-modifying CTEs over a JSON recordset).
       const written = await tx.execute<{ count: number }>(sql`
         with data as (
           select * from json_to_recordset(${JSON.stringify(revisions)}::json) as d(version_id uuid, revision int, kit_records jsonb,
@@ -248,7 +293,7 @@ export async function runRereduction(
           insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient,
             viscosity_pa_s, warning_count, cause, part_event_id)
           select version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count,
-            ${JSON.stringify(cause)}::jsonb, ${run.part_event_id}
+            ${JSON.stringify(cause)}::jsonb, ${run.partEventId}
           from data
           on conflict do nothing
           returning version_id),
@@ -257,9 +302,9 @@ export async function runRereduction(
             normalised_figure = d.normalised_figure, reynolds = d.reynolds, drag_coefficient = d.drag_coefficient,
             viscosity_pa_s = d.viscosity_pa_s, warning_count = d.warning_count
           from data d where v.id = d.version_id and d.version_id in (select version_id from inserted)),
-        progress as (update rereduction_runs set done = least(total, done + ${rows.rows.length}) where id = ${runId})
+        progress as (update rereduction_runs set done = least(total, done + ${rows.length}) where id = ${runId})
         select count(*)::int as count from inserted`);
-      return { last: rows.rows[rows.rows.length - 1].id, revised: written.rows[0].count };
+      return { last: rows[rows.length - 1].id, revised: written.rows[0].count };
     });
     if (!chunk) break;
     cursor = chunk.last;
@@ -281,6 +326,7 @@ async function finishRun(
   { revised, unreducible }: { revised: number; unreducible: string[] },
 ) {
   await executor.transaction(async (tx) => {
+    // Raw: a guarded update returning an array subquery over every version that used the part.
     const finished = await tx.execute<{ lab_ids: string[] }>(sql`
       update rereduction_runs r set finished_at = now(), done = total where r.id = ${runId} and r.finished_at is null
       returning array(
@@ -291,10 +337,10 @@ async function finishRun(
     for (const labId of labIds) await queueClassComparison(tx, labId);
     await recordAudit(tx, {
       action: "part.rereduced",
-      actorId: run.actor_id,
-      courseId: run.course_id,
-      subject: `part:${run.part_id}`,
-      detail: { partLabel: run.part_label, partEventId: run.part_event_id, total: run.total, revised, unreducible, labIds },
+      actorId: run.actorId,
+      courseId: run.courseId,
+      subject: `part:${run.partId}`,
+      detail: { partLabel: run.partLabel, partEventId: run.partEventId, total: run.total, revised, unreducible, labIds },
     });
   });
 }
@@ -303,19 +349,17 @@ export type RereductionProgress = { id: string; total: number; done: number; fin
 
 /** The part's latest re-reductions, newest first, for its page. */
 export async function listRereductions(executor: Executor, partId: string, limit = 5): Promise<RereductionProgress[]> {
-  const result = await executor.execute<{
-    id: string;
-    total: number;
-    done: number;
-    finished_at: Date | string | null;
-    created_at: Date | string;
-  }>(sql`
-    select id, total, done, finished_at, created_at from rereduction_runs where part_id = ${partId} order by created_at desc limit ${limit}`);
-  return result.rows.map((row) => ({
-    id: row.id,
-    total: row.total,
-    done: row.done,
-    finishedAt: row.finished_at ? new Date(row.finished_at).toISOString() : null,
-    createdAt: new Date(row.created_at).toISOString(),
-  }));
+  const rows = await executor
+    .select({
+      id: rereductionRuns.id,
+      total: rereductionRuns.total,
+      done: rereductionRuns.done,
+      finishedAt: rereductionRuns.finishedAt,
+      createdAt: rereductionRuns.createdAt,
+    })
+    .from(rereductionRuns)
+    .where(eq(rereductionRuns.partId, partId))
+    .orderBy(desc(rereductionRuns.createdAt))
+    .limit(limit);
+  return rows.map((row) => ({ ...row, finishedAt: row.finishedAt?.toISOString() ?? null, createdAt: row.createdAt.toISOString() }));
 }

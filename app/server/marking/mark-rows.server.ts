@@ -4,7 +4,9 @@
  * desk, the saves, moderation, release and export all read marks through here, so a total is always
  * computed the same way.
  */
-import { sql, type SQL } from "drizzle-orm";
+import { and, eq, gt, inArray, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { cohorts, courseMemberships, dropLogs, dropLogVersions, labs, marks, reductionRevisions, users } from "~/db/schema";
 import { suggestAutomaticCriteria, type AutoSuggestion, type HandInEvidence } from "~/lib/marking/automatic-criteria";
 import {
   markProgress,
@@ -22,7 +24,8 @@ import { kitNotAtHomeLabel } from "~/lib/kits/kit-states";
 import { handInStanding, type HandInStanding, type StudentDeadline } from "~/lib/drop-logs/hand-in-window";
 import { quantityOf } from "~/server/comparison/class-comparison.server";
 import type { Executor } from "~/server/db.server";
-import { effectiveWindowJoin, staffDeadlineJson } from "~/server/labs/effective-window.server";
+import { effectiveWindow, staffDeadlineJson } from "~/server/labs/effective-window.server";
+import { uuidList } from "~/server/sql.server";
 import type { MarkingLab } from "./marking-lab.server";
 
 /** A student's counted hand-in as the desk shows it (key results, not the whole reduction). */
@@ -127,17 +130,38 @@ export type MarkingDeskRow = StudentMarkRow & {
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-/** A drop-log version (aliased `alias`, joined to its drop log `d`) as a `DeskHandIn`, or null. */
-const handInJson = (alias: SQL) => sql`case when ${alias}.id is null then null else json_build_object(
-        'dropLogId', d.id, 'versionId', ${alias}.id, 'version', ${alias}.version, 'submittedAt', to_json(${alias}.submitted_at)#>>'{}', 'late', ${alias}.late,
-        'dropCount', case when jsonb_typeof(${alias}.reduction #> '{drops,n}') = 'number' then (${alias}.reduction #>> '{drops,n}')::int
-                          when jsonb_typeof(${alias}.input -> 'drops') = 'array' then jsonb_array_length(${alias}.input -> 'drops') end,
-        'strayDropCount', case when jsonb_typeof(${alias}.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${alias}.reduction #> '{drops,strayDrops}') end,
-        'warningCount', ${alias}.warning_count, 'kitState', ${alias}.kit_records #>> '{kit,state}', 'figure', ${alias}.normalised_figure::float8, 'reynolds', ${alias}.reynolds::float8,
-        'dragCoefficient', ${alias}.drag_coefficient::float8, 'viscosityPaS', ${alias}.viscosity_pa_s::float8,
-        'temperatureC', ${alias}.temperature_c,
-        'revision', ${alias}.current_revision
+// The statement's aliases: the window's lateral join names the lab `l` and the membership `m`.
+const m = alias(courseMemberships, "m");
+const l = alias(labs, "l");
+const d = alias(dropLogs, "d");
+const v = alias(dropLogVersions, "v");
+const mv = alias(dropLogVersions, "mv");
+const mk = alias(marks, "mk");
+const mb = alias(users, "mb");
+const mm = alias(users, "mm");
+const rr = reductionRevisions;
+
+/** A drop-log version (`v` or `mv`, joined to its drop log `d`) as a `DeskHandIn` before its kit label, or null. */
+const handInJson = (
+  version: typeof v | typeof mv,
+) => sql<HandInRow | null>`case when ${version.id} is null then null else json_build_object(
+        'dropLogId', ${d.id}, 'versionId', ${version.id}, 'version', ${version.version}, 'submittedAt', to_json(${version.submittedAt})#>>'{}', 'late', ${version.late},
+        'dropCount', case when jsonb_typeof(${version.reduction} #> '{drops,n}') = 'number' then (${version.reduction} #>> '{drops,n}')::int
+                          when jsonb_typeof(${version.input} -> 'drops') = 'array' then jsonb_array_length(${version.input} -> 'drops') end,
+        'strayDropCount', case when jsonb_typeof(${version.reduction} #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${version.reduction} #> '{drops,strayDrops}') end,
+        'warningCount', ${version.warningCount}, 'kitState', ${version.kitRecords} #>> '{kit,state}', 'figure', ${version.normalisedFigure}::float8, 'reynolds', ${version.reynolds}::float8,
+        'dragCoefficient', ${version.dragCoefficient}::float8, 'viscosityPaS', ${version.viscosityPaS}::float8,
+        'temperatureC', ${version.temperatureC},
+        'revision', ${version.currentRevision}
       ) end`;
+
+type HandInRow = Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null };
+type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & {
+  markedById: string | null;
+  markedByName: string | null;
+  moderatedById: string | null;
+  moderatedByName: string | null;
+};
 
 export type ClassLabels = Map<string, { label: ClassComparisonLabel; reason: string }>;
 
@@ -151,56 +175,52 @@ export async function loadStudentMarkRows(
   lab: Pick<MarkingLab, "id" | "courseId">,
   { cohortIds, membershipIds, now = new Date() }: { cohortIds: readonly string[]; membershipIds?: readonly string[]; now?: Date },
 ): Promise<StudentMarkRow[]> {
-  // Named students drive the query (one index lookup each, whatever the planner guesses of a JSON list);
-  // cohorts are few, and a constant array is matched by hashing.
-  const students = membershipIds
-    ? sql`(select distinct value::uuid as id from json_array_elements_text(${JSON.stringify(membershipIds)}::json)) named
-      join course_memberships m on m.id = named.id`
-    : sql`course_memberships m`;
+  // Cohorts are few, and a constant array is matched by hashing; named students are one parameter, looked up by index.
   const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
-  type StoredMarkRow = Omit<StoredMark, "markedBy" | "moderatedBy"> & {
-    markedById: string | null;
-    markedByName: string | null;
-    moderatedById: string | null;
-    moderatedByName: string | null;
-  };
-  type HandInRow = Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null };
-  const result = await executor.execute<
-    Omit<StudentMarkRow, "mark" | "handIn" | "markedHandIn" | "status"> & {
-      handIn: HandInRow | null;
-      markedVersion: HandInRow | null;
-      mark: StoredMarkRow | null;
-    }
-  >(sql`
-    select m.id as "membershipId", u.id as "userId", u.name as "studentName", u.email, u.student_number as "studentNumber",
-      m.cohort_id as "cohortId", h.name as "cohortName",
-      ${staffDeadlineJson("w")} as deadline,
-      ${handInJson(sql`v`)} as "handIn",
-      case when mk.drop_log_version_id is distinct from v.id then ${handInJson(sql`mv`)} end as "markedVersion",
-      case when mk.id is null then null else json_build_object(
-        'id', mk.id, 'version', mk.version, 'scores', mk.scores, 'feedback', mk.feedback, 'latePenaltyPoints', mk.late_penalty_points,
-        'storedTotal', mk.total, 'basedOnVersionId', mk.drop_log_version_id, 'basedOnRevision', mk.reduction_revision,
-        'basedOnFigure', (select rr.normalised_figure::float8 from reduction_revisions rr
-          where rr.version_id = mk.drop_log_version_id and rr.revision = mk.reduction_revision),
-        'markedById', mk.marked_by_id, 'markedByName', mb.name, 'moderatedById', mk.moderated_by_id, 'moderatedByName', mm.name,
-        'moderatedAt', to_json(mk.moderated_at)#>>'{}', 'updatedAt', to_json(mk.updated_at)#>>'{}', 'releasedAt', to_json(mk.released_at)#>>'{}',
-        'releasedSnapshot', mk.released_snapshot, 'reopenedAt', to_json(mk.reopened_at)#>>'{}'
-      ) end as mark
-    from ${students}
-    join users u on u.id = m.user_id
-    join cohorts h on h.id = m.cohort_id
-    join labs l on l.id = ${lab.id}
-    ${effectiveWindowJoin({ lab: "l", member: "m", as: "w" })}
-    left join drop_logs d on d.lab_id = ${lab.id} and d.membership_id = m.id
-    left join drop_log_versions v on v.id = d.latest_version_id
-    left join marks mk on mk.lab_id = ${lab.id} and mk.membership_id = m.id
-    left join drop_log_versions mv on mv.id = mk.drop_log_version_id
-    left join users mb on mb.id = mk.marked_by_id
-    left join users mm on mm.id = mk.moderated_by_id
-    where m.course_id = ${lab.courseId} and m.role = 'student' and m.removed_at is null
-      and m.cohort_id = any(${cohortArray}::uuid[])
-    order by u.name, m.id`);
-  return result.rows.map(({ mark, handIn: storedHandIn, markedVersion: storedMarkedVersion, ...rest }) => {
+  const rows = await executor
+    .select({
+      membershipId: m.id,
+      userId: users.id,
+      studentName: users.name,
+      email: users.email,
+      studentNumber: users.studentNumber,
+      cohortId: cohorts.id,
+      cohortName: cohorts.name,
+      deadline: sql<StudentDeadline>`${staffDeadlineJson("w")}`,
+      handIn: handInJson(v),
+      markedVersion: sql<HandInRow | null>`case when ${mk.dropLogVersionId} is distinct from ${v.id} then ${handInJson(mv)} end`,
+      mark: sql<StoredMarkRow | null>`case when ${mk.id} is null then null else json_build_object(
+        'id', ${mk.id}, 'version', ${mk.version}, 'scores', ${mk.scores}, 'feedback', ${mk.feedback}, 'latePenaltyPoints', ${mk.latePenaltyPoints},
+        'storedTotal', ${mk.total}, 'basedOnVersionId', ${mk.dropLogVersionId}, 'basedOnRevision', ${mk.reductionRevision},
+        'basedOnFigure', (select ${rr.normalisedFigure}::float8 from ${rr}
+          where ${rr.versionId} = ${mk.dropLogVersionId} and ${rr.revision} = ${mk.reductionRevision}),
+        'markedById', ${mk.markedById}, 'markedByName', ${mb.name}, 'moderatedById', ${mk.moderatedById}, 'moderatedByName', ${mm.name},
+        'moderatedAt', to_json(${mk.moderatedAt})#>>'{}', 'updatedAt', to_json(${mk.updatedAt})#>>'{}', 'releasedAt', to_json(${mk.releasedAt})#>>'{}',
+        'releasedSnapshot', ${mk.releasedSnapshot}, 'reopenedAt', to_json(${mk.reopenedAt})#>>'{}'
+      ) end`,
+    })
+    .from(m)
+    .innerJoin(users, eq(users.id, m.userId))
+    .innerJoin(cohorts, eq(cohorts.id, m.cohortId))
+    .innerJoin(l, eq(l.id, lab.id))
+    .leftJoin(effectiveWindow({ lab: "l", member: "m", as: "w" }), sql`true`)
+    .leftJoin(d, and(eq(d.labId, lab.id), eq(d.membershipId, m.id)))
+    .leftJoin(v, eq(v.id, d.latestVersionId))
+    .leftJoin(mk, and(eq(mk.labId, lab.id), eq(mk.membershipId, m.id)))
+    .leftJoin(mv, eq(mv.id, mk.dropLogVersionId))
+    .leftJoin(mb, eq(mb.id, mk.markedById))
+    .leftJoin(mm, eq(mm.id, mk.moderatedById))
+    .where(
+      and(
+        eq(m.courseId, lab.courseId),
+        eq(m.role, "student"),
+        isNull(m.removedAt),
+        sql`${m.cohortId} = any(${cohortArray}::uuid[])`,
+        membershipIds && inArray(m.id, uuidList([...membershipIds])),
+      ),
+    )
+    .orderBy(users.name, m.id);
+  return rows.map(({ mark, handIn: storedHandIn, markedVersion: storedMarkedVersion, ...rest }) => {
     const row = {
       ...rest,
       handIn: storedHandIn ? handInOf(storedHandIn) : null,
@@ -222,7 +242,7 @@ export async function loadStudentMarkRows(
   });
 }
 
-function handInOf({ kitState, ...handIn }: Omit<DeskHandIn, "kitNotAtHome"> & { kitState: string | null }): DeskHandIn {
+function handInOf({ kitState, ...handIn }: HandInRow): DeskHandIn {
   return { ...handIn, kitNotAtHome: kitNotAtHomeLabel(kitState) };
 }
 
@@ -236,13 +256,13 @@ export const rubricNeedsLabels = (lab: Pick<MarkingLab, "rubric">) => lab.rubric
  * the comparison page shows. One statement.
  */
 export async function loadClassLabels(executor: Executor, lab: Pick<MarkingLab, "id" | "kind" | "settings">): Promise<ClassLabels> {
-  const result = await executor.execute<{ id: string; figure: number }>(sql`
-    select dl.id, v.normalised_figure::float8 as figure
-    from drop_logs dl
-    join drop_log_versions v on v.id = dl.latest_version_id
-    where dl.lab_id = ${lab.id} and v.normalised_figure > 0`);
-  const labelled = labelClass(result.rows, lab.settings, quantityOf(lab.kind));
-  return new Map(result.rows.map((row, index) => [row.id, { label: labelled[index].label, reason: labelled[index].reason }]));
+  const rows = await executor
+    .select({ id: dropLogs.id, figure: sql<number>`${dropLogVersions.normalisedFigure}::float8` })
+    .from(dropLogs)
+    .innerJoin(dropLogVersions, eq(dropLogVersions.id, dropLogs.latestVersionId))
+    .where(and(eq(dropLogs.labId, lab.id), gt(dropLogVersions.normalisedFigure, 0)));
+  const labelled = labelClass(rows, lab.settings, quantityOf(lab.kind));
+  return new Map(rows.map((row, index) => [row.id, { label: labelled[index].label, reason: labelled[index].reason }]));
 }
 
 /**

@@ -3,8 +3,8 @@
  * level or points and feedback, the hand-in the mark was based on, and any change made after release
  * with its reason. Before release there is nothing to see. One statement.
  */
-import { sql } from "drizzle-orm";
-import type { MarkScores, ReleasedMarkSnapshot } from "~/lib/marking/marks";
+import { and, eq, isNotNull, sql } from "drizzle-orm";
+import { dropLogVersions, labs, markChanges, marks, rubricCriteria } from "~/db/schema";
 import { markTotals } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -63,17 +63,9 @@ export type StudentMark = {
   } | null;
 };
 
-type Row = {
-  labTitle: string;
-  releasedAt: string;
-  scores: MarkScores;
-  feedback: string;
-  latePenaltyPoints: number;
-  releasedSnapshot: ReleasedMarkSnapshot | null;
-  rubric: (Omit<RubricCriterion, "autoParams"> & { autoParams: RubricCriterion["autoParams"] | null })[];
-  basedOn: MarkedHandIn | null;
-  changes: { changedAt: string; reason: string | null; oldTotal: number | null; newTotal: number }[];
-};
+/** The rubric as the statement returns it: a criterion without automatic parameters reads null. */
+type RubricRow = Omit<RubricCriterion, "autoParams"> & { autoParams: RubricCriterion["autoParams"] | null };
+type ChangeRow = NonNullable<StudentMark["changedAfterRelease"]>["changes"][number];
 
 /** The signed-in student's released mark for the lab, or null before release (or when they have none). Staff are refused: they cannot act as a student. */
 export async function loadStudentMark(
@@ -82,35 +74,51 @@ export async function loadStudentMark(
 ): Promise<StudentMark | null> {
   if (access.membership.role !== "student")
     await refuse(executor, access, markingRefusal("forbidden", "Only the student sees their own mark here."), `lab:${labId}`);
-  const result = await executor.execute<Row>(sql`
-    select l.title as "labTitle", to_json(mk.released_at)#>>'{}' as "releasedAt", mk.scores, mk.feedback, mk.late_penalty_points as "latePenaltyPoints",
-      mk.released_snapshot as "releasedSnapshot",
-      coalesce((select json_agg(json_build_object(
-          'id', rc.id, 'position', rc.position, 'title', rc.title, 'description', rc.description, 'kind', rc.kind, 'levels', rc.levels,
-          'minPoints', rc.min_points, 'maxPoints', rc.max_points, 'autoRule', rc.auto_rule, 'autoParams', rc.auto_params
-        ) order by rc.position, rc.id) from rubric_criteria rc where rc.lab_id = l.id), '[]'::json) as rubric,
-      case when v.id is null then null else json_build_object(
-        'versionId', v.id, 'version', v.version, 'submittedAt', to_json(v.submitted_at)#>>'{}', 'late', v.late,
-        'mode', v.reduction_mode,
-        'dropCount', case when jsonb_typeof(v.reduction #> '{drops,n}') = 'number' then (v.reduction #>> '{drops,n}')::int end,
-        'strayDropCount', case when jsonb_typeof(v.reduction #> '{drops,strayDrops}') = 'array' then jsonb_array_length(v.reduction #> '{drops,strayDrops}') end,
-        'meanTimeS', case when jsonb_typeof(v.reduction #> '{drops,mean}') = 'number' then (v.reduction #>> '{drops,mean}')::float8 end,
-        'normalisedFigure', v.normalised_figure::float8, 'reynolds', v.reynolds::float8, 'dragCoefficient', v.drag_coefficient::float8,
-        'viscosityPaS', v.viscosity_pa_s::float8,
-        'temperatureC', v.temperature_c,
-        'sphere', v.kit_records #>> '{sphere,label}', 'fluidLot', v.kit_records #>> '{fluidLot,label}',
+  const rc = rubricCriteria;
+  const v = dropLogVersions;
+  const c = markChanges;
+  const [row] = await executor
+    .select({
+      labTitle: labs.title,
+      releasedAt: sql<string>`to_json(${marks.releasedAt})#>>'{}'`,
+      scores: marks.scores,
+      feedback: marks.feedback,
+      latePenaltyPoints: marks.latePenaltyPoints,
+      releasedSnapshot: marks.releasedSnapshot,
+      rubric: sql<RubricRow[]>`coalesce((select json_agg(json_build_object(
+          'id', ${rc.id}, 'position', ${rc.position}, 'title', ${rc.title}, 'description', ${rc.description}, 'kind', ${rc.kind}, 'levels', ${rc.levels},
+          'minPoints', ${rc.minPoints}, 'maxPoints', ${rc.maxPoints}, 'autoRule', ${rc.autoRule}, 'autoParams', ${rc.autoParams}
+        ) order by ${rc.position}, ${rc.id}) from ${rc} where ${rc.labId} = ${labs.id}), '[]'::json)`,
+      basedOn: sql<MarkedHandIn | null>`case when ${v.id} is null then null else json_build_object(
+        'versionId', ${v.id}, 'version', ${v.version}, 'submittedAt', to_json(${v.submittedAt})#>>'{}', 'late', ${v.late},
+        'mode', ${v.reductionMode},
+        'dropCount', case when jsonb_typeof(${v.reduction} #> '{drops,n}') = 'number' then (${v.reduction} #>> '{drops,n}')::int end,
+        'strayDropCount', case when jsonb_typeof(${v.reduction} #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${v.reduction} #> '{drops,strayDrops}') end,
+        'meanTimeS', case when jsonb_typeof(${v.reduction} #> '{drops,mean}') = 'number' then (${v.reduction} #>> '{drops,mean}')::float8 end,
+        'normalisedFigure', ${v.normalisedFigure}::float8, 'reynolds', ${v.reynolds}::float8, 'dragCoefficient', ${v.dragCoefficient}::float8,
+        'viscosityPaS', ${v.viscosityPaS}::float8,
+        'temperatureC', ${v.temperatureC},
+        'sphere', ${v.kitRecords} #>> '{sphere,label}', 'fluidLot', ${v.kitRecords} #>> '{fluidLot,label}',
         'warnings', coalesce((select json_agg(json_build_object('code', w ->> 'code', 'level', w ->> 'level', 'message', w ->> 'message'))
-          from jsonb_array_elements(case when jsonb_typeof(v.reduction -> 'warnings') = 'array' then v.reduction -> 'warnings' else '[]'::jsonb end) w), '[]'::json)
-      ) end as "basedOn",
-      coalesce((select json_agg(json_build_object('changedAt', to_json(c.changed_at)#>>'{}', 'reason', c.reason,
-          'oldTotal', (c.old ->> 'total')::float8, 'newTotal', (c.new ->> 'total')::float8) order by c.changed_at desc, c.id desc)
-        from mark_changes c where c.mark_id = mk.id and c.after_release), '[]'::json) as changes
-    from marks mk
-    join labs l on l.id = mk.lab_id
-    left join drop_log_versions v on v.id = mk.drop_log_version_id
-    where mk.lab_id = ${labId} and mk.membership_id = ${access.membership.id} and l.course_id = ${access.course.id}
-      and mk.released_at is not null`);
-  const row = result.rows[0];
+          from jsonb_array_elements(case when jsonb_typeof(${v.reduction} -> 'warnings') = 'array' then ${v.reduction} -> 'warnings' else '[]'::jsonb end) w), '[]'::json)
+      ) end`,
+      changes: sql<
+        ChangeRow[]
+      >`coalesce((select json_agg(json_build_object('changedAt', to_json(${c.changedAt})#>>'{}', 'reason', ${c.reason},
+          'oldTotal', (${c.old} ->> 'total')::float8, 'newTotal', (${c.new} ->> 'total')::float8) order by ${c.changedAt} desc, ${c.id} desc)
+        from ${c} where ${c.markId} = ${marks.id} and ${c.afterRelease}), '[]'::json)`,
+    })
+    .from(marks)
+    .innerJoin(labs, eq(labs.id, marks.labId))
+    .leftJoin(v, eq(v.id, marks.dropLogVersionId))
+    .where(
+      and(
+        eq(marks.labId, labId),
+        eq(marks.membershipId, access.membership.id),
+        eq(labs.courseId, access.course.id),
+        isNotNull(marks.releasedAt),
+      ),
+    );
   if (!row) return null;
   const rubric: RubricCriterion[] = row.rubric.map((criterion) => ({ ...criterion, autoParams: criterion.autoParams ?? {} }));
   // Released marks carry every automatic criterion's points (frozen at release), so no suggestion is needed here.
