@@ -27,6 +27,7 @@ import type { Executor } from "~/server/db.server";
 import { effectiveWindow, staffDeadlineJson } from "~/server/labs/effective-window.server";
 import { uuidList } from "~/server/sql.server";
 import type { MarkingLab } from "./marking-lab.server";
+import { isEntityId } from "~/lib/forms/ids";
 
 /** A student's counted hand-in as the desk shows it (key results, not the whole reduction). */
 export type DeskHandIn = {
@@ -128,8 +129,6 @@ export type MarkingDeskRow = StudentMarkRow & {
   } | null;
 };
 
-const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 // The statement's aliases: the window's lateral join names the lab `l` and the membership `m`.
 const m = alias(courseMemberships, "m");
 const l = alias(labs, "l");
@@ -176,7 +175,7 @@ export async function loadStudentMarkRows(
   { cohortIds, membershipIds, now = new Date() }: { cohortIds: readonly string[]; membershipIds?: readonly string[]; now?: Date },
 ): Promise<StudentMarkRow[]> {
   // Cohorts are few, and a constant array is matched by hashing; named students are one parameter, looked up by index.
-  const cohortArray = `{${cohortIds.filter((id) => uuidPattern.test(id)).join(",")}}`;
+  const cohortArray = `{${cohortIds.filter(isEntityId).join(",")}}`;
   const rows = await executor
     .select({
       membershipId: m.id,
