@@ -368,6 +368,7 @@ export async function handInDropLog(
     // mark is released: "refuse" then rolls the hand-in back, "reopen" reopens that mark (which keeps the
     // version it was marked on) in the same statement.
     const reopen = lab.afterReleaseHandIns === "reopen";
+    // Raw: data-modifying CTEs over three tables in one statement; the builder writes one table per statement.
     const counted = await tx.execute<{ markReleased: boolean }>(sql`
       with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null),
       first_revision as (
