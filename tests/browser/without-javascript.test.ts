@@ -53,14 +53,24 @@ describe("forms without JavaScript", () => {
   });
 
   it("lab settings and the rubric: a refused form keeps what was typed with the error at its field, and a criterion is added by its button", async () => {
-    const [lab] = (
-      await db.execute<{ id: string; course_id: string; criteria: number }>(sql`
-        select l.id, l.course_id, (select count(*)::int from rubric_criteria rc where rc.lab_id = l.id) as criteria
-        from labs l join courses c on c.id = l.course_id
-        where c.code = ${demoCourse.code} and c.term = ${demoCourse.term}
-          and not exists (select 1 from marks m where m.lab_id = l.id and m.released_at is not null)
-        order by l.due_at limit 1`)
+    // A lab of its own, with no rubric yet: what other suites did to the demo's labs (a released mark) does not matter here.
+    const [course] = (
+      await db.execute<{ id: string }>(sql`select id from courses where code = ${demoCourse.code} and term = ${demoCourse.term}`)
     ).rows;
+    const day = 24 * 3600 * 1000;
+    const [created] = await db
+      .insert(labs)
+      .values({
+        courseId: course.id,
+        title: "Browser test: a rubric without scripts",
+        kind: "drag",
+        opensAt: new Date(Date.now() + day),
+        dueAt: new Date(Date.now() + 8 * day),
+        requiredDrops: 5,
+        resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.1 },
+      })
+      .returning();
+    const lab = { id: created.id, course_id: course.id, criteria: 0 };
     const page = await browser.context.newPage();
     // Signed in as the instructor by the test above (the browser context keeps the session).
     await page.goto(`${base}/courses/${lab.course_id}/labs/new`);
