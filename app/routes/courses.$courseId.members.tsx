@@ -98,7 +98,7 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
           {people.map((row, index) => {
             const rowFields = row.getFieldset();
             return (
-              <fieldset key={row.key} className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4 lg:items-end">
+              <fieldset key={row.key ?? index} className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4 lg:items-end">
                 <legend className="sr-only">Person {index + 1}</legend>
                 <TextField label="E-mail address" field={rowFields.email} type="email" required />
                 <TextField label="Name (optional)" field={rowFields.name} />

@@ -41,7 +41,7 @@ export function CheckInForm({ parts, lastResult }: { parts: KitPart[]; lastResul
               const cells = row.getFieldset();
               const label = parts[index]?.label ?? "";
               return (
-                <tr key={row.key}>
+                <tr key={row.key ?? index}>
                   <td className="py-1 pr-3">
                     {label}
                     <input {...getInputProps(cells.partId, { type: "hidden" })} />

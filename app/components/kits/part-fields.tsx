@@ -130,7 +130,7 @@ function CalibrationFields({ calibration }: { calibration: PartFieldset["calibra
         {calibration.getFieldList().map((row, index) => {
           const point = row.getFieldset();
           return (
-            <li key={row.key} className="grid grid-cols-[1fr_1fr_auto] items-end gap-2">
+            <li key={row.key ?? index} className="grid grid-cols-[1fr_1fr_auto] items-end gap-2">
               <TextField
                 label={`Point ${index + 1}: temperature`}
                 unit="°C"

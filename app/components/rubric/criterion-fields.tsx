@@ -137,7 +137,7 @@ function LevelFields({ form, levels }: { form: RubricForm; levels: Fieldset["lev
       {list.map((level, levelIndex) => {
         const { points, description } = level.getFieldset();
         return (
-          <div key={level.key} className="grid items-start gap-2 sm:grid-cols-[7rem_1fr_auto]">
+          <div key={level.key ?? levelIndex} className="grid items-start gap-2 sm:grid-cols-[7rem_1fr_auto]">
             <TextField label={`Level ${levelIndex + 1}`} unit="pts" inputMode="decimal" field={points} />
             <TextField label="Description" field={description} />
             <button

@@ -65,7 +65,7 @@ export function RubricEditor({
         </button>
         <ol className="flex flex-col gap-4">
           {criteria.map((criterion, index) => (
-            <li key={criterion.key} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
+            <li key={criterion.key ?? index} className="rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
               <CriterionFields
                 form={form}
                 criteria={fields.criteria}
