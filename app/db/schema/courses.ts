@@ -4,6 +4,7 @@
 import { sql } from "drizzle-orm";
 import {
   boolean,
+  date,
   index,
   inet,
   integer,
@@ -17,6 +18,7 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import type { PostalAddress } from "../../lib/shipping/postal-address";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
 
@@ -36,6 +38,15 @@ export const courses = pgTable(
     localGravity: real("local_gravity"),
     /** Family significance of the kit-part bias tests (Welch t of a part against its peers per lab, Holm-corrected); a part beyond it is flagged for re-measurement. */
     partBiasAlpha: real("part_bias_alpha").notNull().default(0.05),
+    /** The address kits leave from and come back to: the sender on every label. Null until set. */
+    returnAddress: jsonb("return_address").$type<PostalAddress>(),
+    /** The day kits must be back, in the course's time zone (the whole day counts); null: no return date. */
+    kitReturnBy: date("kit_return_by", { mode: "string" }),
+    /** Days after the return-by date on which a student whose kit is not on its way back is reminded. */
+    kitReturnReminderDays: integer("kit_return_reminder_days")
+      .array()
+      .notNull()
+      .default(sql`'{1,7}'::integer[]`),
     createdAt: createdAt(),
   },
   (table) => [uniqueIndex("courses_code_term_unique").on(table.code, table.term)],

@@ -8,5 +8,6 @@ export * from "./courses";
 export * from "./kits";
 export * from "./email";
 export * from "./labs";
+export * from "./shipping";
 export * from "./comparison";
 export * from "./marking";

@@ -3,11 +3,11 @@
  * Lengths are in mm and masses in g, as measured at the bench; the reduction converts to SI.
  */
 import { sql } from "drizzle-orm";
-import { boolean, index, jsonb, pgEnum, pgTable, primaryKey, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { boolean, check, index, integer, jsonb, pgEnum, pgTable, primaryKey, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { kitStates, type PartCondition } from "../../lib/kits/kit-states";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
-import { courseMemberships, courses } from "./courses";
+import { courseMemberships, courses, invitations } from "./courses";
 
 export const partKind = pgEnum("part_kind", ["sphere", "fluid_lot", "column", "accessory"]);
 export const partStatus = pgEnum("part_status", ["in_service", "remeasure", "retired"]);
@@ -63,6 +63,8 @@ export const parts = pgTable(
     marginBelowMm: real("margin_below_mm"),
     // accessory
     accessoryType: text("accessory_type"),
+    /** A fluid lot's filled bottles on the shelf; packing a kit takes one. Null: not counted. */
+    bottlesOnHand: integer("bottles_on_hand"),
     /**
      * When a value that enters reductions (d, m, density, calibration, bore, distances) last changed:
      * the part's bias then counts only figures revised after it, so a corrected part's flag can clear.
@@ -122,18 +124,29 @@ export const kits = pgTable(
     state: kitState("state").notNull().default("on_shelf"),
     /** The student the kit is packed for or held by; cleared when it is checked in. */
     holderMembershipId: uuid("holder_membership_id").references(() => courseMemberships.id, { onDelete: "set null" }),
+    /** Or the invited student it is packed for, before they accept; accepting moves it to the membership. */
+    holderInvitationId: uuid("holder_invitation_id").references(() => invitations.id, { onDelete: "set null" }),
     carrier: text("carrier"),
     trackingNumber: text("tracking_number"),
     shippedOn: text("shipped_on"),
+    /** The parcel back to the course, tracked like the outbound one. */
+    returnCarrier: text("return_carrier"),
+    returnTrackingNumber: text("return_tracking_number"),
+    returnShippedOn: text("return_shipped_on"),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (table) => [
     uniqueIndex("kits_course_number_unique").on(table.courseId, table.number),
-    // One active kit per student per course: a membership belongs to exactly one course.
+    // One active kit per student per course (a membership belongs to exactly one course); a kit coming
+    // back does not count, so a replacement kit can go out before the first is home.
     uniqueIndex("kits_holder_unique")
       .on(table.holderMembershipId)
-      .where(sql`${table.holderMembershipId} is not null`),
+      .where(sql`${table.holderMembershipId} is not null and ${table.state} <> 'coming_back'`),
+    uniqueIndex("kits_holder_invitation_unique")
+      .on(table.holderInvitationId)
+      .where(sql`${table.holderInvitationId} is not null and ${table.state} <> 'coming_back'`),
+    check("kits_one_holder", sql`num_nonnulls(${table.holderMembershipId}, ${table.holderInvitationId}) <= 1`),
     index("kits_course_state_idx").on(table.courseId, table.state),
   ],
 );
