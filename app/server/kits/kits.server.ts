@@ -86,9 +86,29 @@ export type KitMove = {
   note?: string | null;
   /** The student a kit is packed for (required when packing). */
   holderMembershipId?: string;
-  /** Required when the kit goes into transit. */
-  shipping?: Shipping;
+  /**
+   * The parcel's carrier, tracking number and date: required when kits go into transit, kept as the
+   * return parcel's when they are coming back. One for every kit, or one per kit id.
+   */
+  shipping?: Shipping | Record<string, Shipping>;
 };
+
+const isOneShipping = (shipping: KitMove["shipping"]): shipping is Shipping =>
+  typeof shipping?.trackingNumber === "string" && typeof shipping.carrier === "string";
+
+/** Each kit's parcel under a move, or null when the move names none for it. */
+function shippingOf(move: KitMove, kitId: string): Shipping | null {
+  if (!move.shipping) return null;
+  return isOneShipping(move.shipping) ? move.shipping : (move.shipping[kitId] ?? null);
+}
+
+/** The value of a kit column that differs per kit, as one CASE over the ids (one UPDATE for all kits). */
+function perKit(kitIds: string[], value: (kitId: string) => string | null): SQL {
+  return sql`(case ${kits.id} ${sql.join(
+    kitIds.map((id) => sql`when ${id}::uuid then ${value(id)}`),
+    sql` `,
+  )} end)`;
+}
 
 /**
  * Moves one or many kits in one transaction: all move or none do, and each move is kept as history.
@@ -116,45 +136,65 @@ export async function moveKits(
       });
     }
     if (move.to === "packed") await checkHolder(tx, courseId, current, move.holderMembershipId);
-    if (move.to === "in_transit" && !move.shipping)
-      throw new AppError({ code: "kit_refused", message: "Give the carrier, tracking number and date before marking a kit in transit." });
+    const unshipped = move.to === "in_transit" ? current.filter((kit) => !shippingOf(move, kit.id)) : [];
+    if (unshipped.length)
+      throw new AppError({
+        code: "kit_refused",
+        message: `Give the carrier, tracking number and date before marking ${unshipped.map((kit) => `kit ${kit.number}`).join(", ")} in transit.`,
+      });
     if (move.to === "in_transit" && current.some((kit) => !kit.holderMembershipId)) {
       throw new AppError({ code: "kit_refused", message: "Pack a kit for a student before shipping it." });
     }
 
+    const ids = current.map((kit) => kit.id);
+    const shipped = ids.filter((id) => shippingOf(move, id));
+    const parcelColumns = (prefix: "outbound" | "return") => {
+      if (shipped.length === 0) return {};
+      const column = (pick: (shipping: Shipping) => string) =>
+        perKit(ids, (id) => {
+          const shipping = shippingOf(move, id);
+          return shipping ? pick(shipping) : null;
+        });
+      const values = {
+        carrier: column((s) => s.carrier),
+        trackingNumber: column((s) => s.trackingNumber),
+        shippedOn: column((s) => s.shippedOn),
+      };
+      return prefix === "outbound"
+        ? values
+        : { returnCarrier: values.carrier, returnTrackingNumber: values.trackingNumber, returnShippedOn: values.shippedOn };
+    };
     const holderAfter = (kit: Kit) =>
       move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? kit.holderMembershipId : null;
-    // One UPDATE for all kits: the values that differ per kit (the holder) come from a CASE over the ids.
     await tx
       .update(kits)
       .set({
         state: move.to,
         holderMembershipId:
           move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? sql`${kits.holderMembershipId}` : null,
-        ...(move.shipping
-          ? { carrier: move.shipping.carrier, trackingNumber: move.shipping.trackingNumber, shippedOn: move.shipping.shippedOn }
+        ...(move.to === "in_transit" ? parcelColumns("outbound") : {}),
+        ...(move.to === "coming_back" ? parcelColumns("return") : {}),
+        ...(move.to === "on_shelf"
+          ? { carrier: null, trackingNumber: null, shippedOn: null, returnCarrier: null, returnTrackingNumber: null, returnShippedOn: null }
           : {}),
-        ...(move.to === "on_shelf" ? { carrier: null, trackingNumber: null, shippedOn: null } : {}),
         updatedAt: new Date(),
       })
-      .where(
-        inArray(
-          kits.id,
-          current.map((kit) => kit.id),
-        ),
-      );
+      .where(inArray(kits.id, ids));
     await tx.insert(kitEvents).values(
-      current.map((kit) => ({
-        kitId: kit.id,
-        actorId,
-        fromState: kit.state,
-        toState: move.to,
-        action: "moved",
-        note: move.note ?? null,
-        detail: { holderMembershipId: holderAfter(kit), ...(move.shipping ? { shipping: move.shipping } : {}) },
-      })),
+      current.map((kit) => {
+        const shipping = shippingOf(move, kit.id);
+        return {
+          kitId: kit.id,
+          actorId,
+          fromState: kit.state,
+          toState: move.to,
+          action: "moved",
+          note: move.note ?? null,
+          detail: { holderMembershipId: holderAfter(kit), ...(shipping ? { shipping } : {}) },
+        };
+      }),
     );
-    if (move.to === "in_transit") await queueShippedEmails(tx, courseId, current, move.shipping!);
+    if (move.to === "in_transit") await queueShippedEmails(tx, courseId, current, move);
     return { moved: current.length };
   });
 }
@@ -173,7 +213,7 @@ async function checkHolder(tx: Transaction, courseId: string, current: Kit[], ho
     throw new AppError({ code: "kit_refused", message: `This student already holds kit ${holder.kitNumber}; one kit per student.` });
 }
 
-async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Kit[], shipping: Shipping): Promise<void> {
+async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Kit[], move: KitMove): Promise<void> {
   const recipients = await tx
     .select({ kitId: kits.id, kitNumber: kits.number, email: users.email, name: users.name, courseTitle: courses.title })
     .from(kits)
@@ -188,20 +228,23 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
     );
   await sendEmails(
     tx,
-    recipients.map((recipient) => ({
-      to: recipient.email,
-      toName: recipient.name,
-      template: "kit-shipped" as const,
-      courseId,
-      props: {
-        courseTitle: recipient.courseTitle,
-        kitNumber: recipient.kitNumber,
-        carrier: shipping.carrier,
-        trackingNumber: shipping.trackingNumber,
-        shippedOn: shipping.shippedOn,
-        kitUrl: `${appUrl()}/courses/${courseId}/my-kit`,
-      },
-    })),
+    recipients.map((recipient) => {
+      const shipping = shippingOf(move, recipient.kitId)!;
+      return {
+        to: recipient.email,
+        toName: recipient.name,
+        template: "kit-shipped" as const,
+        courseId,
+        props: {
+          courseTitle: recipient.courseTitle,
+          kitNumber: recipient.kitNumber,
+          carrier: shipping.carrier,
+          trackingNumber: shipping.trackingNumber,
+          shippedOn: shipping.shippedOn,
+          kitUrl: `${appUrl()}/courses/${courseId}/my-kit`,
+        },
+      };
+    }),
   );
 }
 
