@@ -5,7 +5,7 @@
 import { AppError } from "~/lib/app-error";
 import { and, asc, count, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
-import { cohorts, courseMemberships, courses, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
+import { cohorts, courseMemberships, courses, invitations, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
 import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
 import { appUrl } from "~/server/config.server";
 import type { Executor, Transaction } from "~/server/db.server";
@@ -81,11 +81,16 @@ async function putPartsInKit(tx: Transaction, courseId: string, kitId: string, p
     .onConflictDoNothing();
 }
 
+/** Whom a kit is packed for: a student of the course, or an invited student who has not accepted yet. */
+export type KitHolder = { membershipId: string; invitationId?: never } | { invitationId: string; membershipId?: never };
+
 export type KitMove = {
   to: KitState;
   note?: string | null;
-  /** The student a kit is packed for (required when packing). */
+  /** The student a kit is packed for (packing one kit)… */
   holderMembershipId?: string;
+  /** …or, packing many kits at once, each kit's own student by kit id. */
+  holders?: Record<string, KitHolder>;
   /**
    * The parcel's carrier, tracking number and date: required when kits go into transit, kept as the
    * return parcel's when they are coming back. One for every kit, or one per kit id.
@@ -100,6 +105,11 @@ const isOneShipping = (shipping: KitMove["shipping"]): shipping is Shipping =>
 function shippingOf(move: KitMove, kitId: string): Shipping | null {
   if (!move.shipping) return null;
   return isOneShipping(move.shipping) ? move.shipping : (move.shipping[kitId] ?? null);
+}
+
+function holderOf(move: KitMove, kitId: string): KitHolder | null {
+  if (move.holders) return move.holders[kitId] ?? null;
+  return move.holderMembershipId ? { membershipId: move.holderMembershipId } : null;
 }
 
 /** The value of a kit column that differs per kit, as one CASE over the ids (one UPDATE for all kits). */
@@ -135,14 +145,14 @@ export async function moveKits(
         message: `${refused.map((kit) => `Kit ${kit.number} (${kitStateLabels[kit.state].toLowerCase()})`).join(", ")} cannot go to ${kitStateLabels[move.to].toLowerCase()}.`,
       });
     }
-    if (move.to === "packed") await checkHolder(tx, courseId, current, move.holderMembershipId);
+    if (move.to === "packed") await checkHolders(tx, courseId, current, move);
     const unshipped = move.to === "in_transit" ? current.filter((kit) => !shippingOf(move, kit.id)) : [];
     if (unshipped.length)
       throw new AppError({
         code: "kit_refused",
         message: `Give the carrier, tracking number and date before marking ${unshipped.map((kit) => `kit ${kit.number}`).join(", ")} in transit.`,
       });
-    if (move.to === "in_transit" && current.some((kit) => !kit.holderMembershipId)) {
+    if (move.to === "in_transit" && current.some((kit) => !kit.holderMembershipId && !kit.holderInvitationId)) {
       throw new AppError({ code: "kit_refused", message: "Pack a kit for a student before shipping it." });
     }
 
@@ -165,13 +175,25 @@ export async function moveKits(
         : { returnCarrier: values.carrier, returnTrackingNumber: values.trackingNumber, returnShippedOn: values.shippedOn };
     };
     const holderAfter = (kit: Kit) =>
-      move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? kit.holderMembershipId : null;
+      move.to === "packed"
+        ? (holderOf(move, kit.id)!.membershipId ?? null)
+        : kitStatesWithHolder.includes(move.to)
+          ? kit.holderMembershipId
+          : null;
+    const packedHolder = (pick: (holder: KitHolder) => string | undefined) =>
+      sql`${perKit(ids, (id) => pick(holderOf(move, id)!) ?? null)}::uuid`;
     await tx
       .update(kits)
       .set({
         state: move.to,
-        holderMembershipId:
-          move.to === "packed" ? move.holderMembershipId! : kitStatesWithHolder.includes(move.to) ? sql`${kits.holderMembershipId}` : null,
+        ...(move.to === "packed"
+          ? {
+              holderMembershipId: packedHolder((holder) => holder.membershipId),
+              holderInvitationId: packedHolder((holder) => holder.invitationId),
+            }
+          : kitStatesWithHolder.includes(move.to)
+            ? {}
+            : { holderMembershipId: null, holderInvitationId: null }),
         ...(move.to === "in_transit" ? parcelColumns("outbound") : {}),
         ...(move.to === "coming_back" ? parcelColumns("return") : {}),
         ...(move.to === "on_shelf"
@@ -199,26 +221,60 @@ export async function moveKits(
   });
 }
 
-async function checkHolder(tx: Transaction, courseId: string, current: Kit[], holderMembershipId: string | undefined): Promise<void> {
-  if (!holderMembershipId) throw new AppError({ code: "kit_refused", message: "Choose the student the kit is packed for." });
-  if (current.length > 1) throw new AppError({ code: "kit_refused", message: "Pack kits one at a time: each goes to its own student." });
-  const [holder] = await tx
-    .select({ role: courseMemberships.role, removedAt: courseMemberships.removedAt, kitNumber: kits.number })
-    .from(courseMemberships)
-    .leftJoin(kits, eq(kits.holderMembershipId, courseMemberships.id))
-    .where(and(eq(courseMemberships.id, holderMembershipId), eq(courseMemberships.courseId, courseId)));
-  if (!holder || holder.role !== "student" || holder.removedAt)
+/** Each kit goes to its own student, who holds no other kit: checked for all kits in two statements. */
+async function checkHolders(tx: Transaction, courseId: string, current: Kit[], move: KitMove): Promise<void> {
+  const holders = current.map((kit) => holderOf(move, kit.id));
+  if (holders.some((holder) => !holder)) throw new AppError({ code: "kit_refused", message: "Choose the student the kit is packed for." });
+  const membershipIds = holders.flatMap((holder) => (holder!.membershipId ? [holder!.membershipId] : []));
+  const invitationIds = holders.flatMap((holder) => (holder!.invitationId ? [holder!.invitationId] : []));
+  if (new Set(membershipIds).size + new Set(invitationIds).size !== current.length)
+    throw new AppError({ code: "kit_refused", message: "Pack one kit per student: each kit goes to its own student." });
+  // A kit coming back does not count, as in the one-kit-per-student index.
+  const active = sql`${kits.state} <> 'coming_back'`;
+  const [members, invited] = await Promise.all([
+    membershipIds.length
+      ? tx
+          .select({
+            eligible: sql<boolean>`${courseMemberships.role} = 'student' and ${courseMemberships.removedAt} is null`,
+            kitNumber: kits.number,
+          })
+          .from(courseMemberships)
+          .leftJoin(kits, and(eq(kits.holderMembershipId, courseMemberships.id), active))
+          .where(and(eq(courseMemberships.courseId, courseId), inArray(courseMemberships.id, membershipIds)))
+      : [],
+    invitationIds.length
+      ? tx
+          .select({ eligible: sql<boolean>`${invitations.role} = 'student' and ${invitations.acceptedAt} is null`, kitNumber: kits.number })
+          .from(invitations)
+          .leftJoin(kits, and(eq(kits.holderInvitationId, invitations.id), active))
+          .where(and(eq(invitations.courseId, courseId), inArray(invitations.id, invitationIds)))
+      : [],
+  ]);
+  const found = [...members, ...invited];
+  if (found.length !== current.length || found.some((holder) => !holder.eligible))
     throw new AppError({ code: "kit_refused", message: "Kits are packed for students of this course only." });
-  if (holder.kitNumber)
-    throw new AppError({ code: "kit_refused", message: `This student already holds kit ${holder.kitNumber}; one kit per student.` });
+  const held = found.flatMap((holder) => (holder.kitNumber ? [holder.kitNumber] : []));
+  if (held.length)
+    throw new AppError({
+      code: "kit_refused",
+      message: `${held.length === 1 ? "This student already holds kit" : "These students already hold kits"} ${held.join(", ")}; one kit per student.`,
+    });
 }
 
 async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Kit[], move: KitMove): Promise<void> {
   const recipients = await tx
-    .select({ kitId: kits.id, kitNumber: kits.number, email: users.email, name: users.name, courseTitle: courses.title })
+    .select({
+      kitId: kits.id,
+      kitNumber: kits.number,
+      // An invited student who has not accepted yet is written to at the invitation's address.
+      email: sql<string>`coalesce(${users.email}, ${invitations.email})`,
+      name: sql<string | null>`coalesce(${users.name}, ${invitations.name})`,
+      courseTitle: courses.title,
+    })
     .from(kits)
-    .innerJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
-    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
+    .leftJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(invitations, eq(invitations.id, kits.holderInvitationId))
     .innerJoin(courses, eq(courses.id, kits.courseId))
     .where(
       inArray(
