@@ -24,6 +24,8 @@ export const queues = {
   labReminder: "lab-reminder",
   /** One job per part correction that enters reductions: re-reduces every version that used the part. */
   reductionRevision: "reduction-revision",
+  /** One job per shipment (and per "Retry failed"): buys the labels of its queued items. */
+  labelPurchase: "label-purchase",
   /** The nightly sweep of expired sessions, links, rate-limit counters, caught mail and old refusals. */
   housekeeping: "housekeeping",
 } as const;
@@ -48,6 +50,8 @@ const queueSettings: PgBoss.Queue[] = [
   { name: queues.classComparison, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 300 },
   { name: queues.labReminder, retryLimit: 5, retryDelay: 60, retryBackoff: true, expireInSeconds: 300 },
   { name: queues.reductionRevision, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 600 },
+  // A run that dies leaves its items `buying` for ten minutes before another run takes them: the retries outlast that.
+  { name: queues.labelPurchase, retryLimit: 5, retryDelay: 60, retryBackoff: true, expireInSeconds: 900 },
   { name: queues.housekeeping, retryLimit: 2, retryDelay: 300, expireInSeconds: 600 },
 ];
 
