@@ -231,25 +231,24 @@ async function checkHolders(tx: Transaction, courseId: string, current: Kit[], m
     throw new AppError({ code: "kit_refused", message: "Pack one kit per student: each kit goes to its own student." });
   // A kit coming back does not count, as in the one-kit-per-student index.
   const active = sql`${kits.state} <> 'coming_back'`;
-  const [members, invited] = await Promise.all([
-    membershipIds.length
-      ? tx
-          .select({
-            eligible: sql<boolean>`${courseMemberships.role} = 'student' and ${courseMemberships.removedAt} is null`,
-            kitNumber: kits.number,
-          })
-          .from(courseMemberships)
-          .leftJoin(kits, and(eq(kits.holderMembershipId, courseMemberships.id), active))
-          .where(and(eq(courseMemberships.courseId, courseId), inArray(courseMemberships.id, membershipIds)))
-      : [],
-    invitationIds.length
-      ? tx
-          .select({ eligible: sql<boolean>`${invitations.role} = 'student' and ${invitations.acceptedAt} is null`, kitNumber: kits.number })
-          .from(invitations)
-          .leftJoin(kits, and(eq(kits.holderInvitationId, invitations.id), active))
-          .where(and(eq(invitations.courseId, courseId), inArray(invitations.id, invitationIds)))
-      : [],
-  ]);
+  // One after the other: a transaction's client runs one statement at a time.
+  const members = membershipIds.length
+    ? await tx
+        .select({
+          eligible: sql<boolean>`${courseMemberships.role} = 'student' and ${courseMemberships.removedAt} is null`,
+          kitNumber: kits.number,
+        })
+        .from(courseMemberships)
+        .leftJoin(kits, and(eq(kits.holderMembershipId, courseMemberships.id), active))
+        .where(and(eq(courseMemberships.courseId, courseId), inArray(courseMemberships.id, membershipIds)))
+    : [];
+  const invited = invitationIds.length
+    ? await tx
+        .select({ eligible: sql<boolean>`${invitations.role} = 'student' and ${invitations.acceptedAt} is null`, kitNumber: kits.number })
+        .from(invitations)
+        .leftJoin(kits, and(eq(kits.holderInvitationId, invitations.id), active))
+        .where(and(eq(invitations.courseId, courseId), inArray(invitations.id, invitationIds)))
+    : [];
   const found = [...members, ...invited];
   if (found.length !== current.length || found.some((holder) => !holder.eligible))
     throw new AppError({ code: "kit_refused", message: "Kits are packed for students of this course only." });

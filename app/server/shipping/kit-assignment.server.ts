@@ -309,49 +309,48 @@ export async function commitKitAssignment(
     const shelfIds = plan.flatMap((kit) => (kit.kitId ? [kit.kitId] : []));
     const fresh = plan.filter((kit) => !kit.kitId);
     const partIds = [...new Set(plan.flatMap((kit) => kit.partIds))];
-    const [lab, shelfKits, contents, partRows, takenNumbers] = await Promise.all([
-      readLab(tx, courseId, labId),
-      shelfIds.length
-        ? tx
-            .select({
-              id: kits.id,
-              number: kits.number,
-              state: kits.state,
-              membership: kits.holderMembershipId,
-              invitation: kits.holderInvitationId,
-            })
-            .from(kits)
-            .where(and(eq(kits.courseId, courseId), inArray(kits.id, shelfIds)))
-            .orderBy(kits.id)
-            .for("update")
-        : [],
-      shelfIds.length
-        ? tx.select({ kitId: kitParts.kitId, partId: kitParts.partId }).from(kitParts).where(inArray(kitParts.kitId, shelfIds))
-        : [],
-      tx
-        .select({
-          ...partColumns,
-          inKit: sql<string | null>`(select kp.kit_id from kit_parts kp where kp.part_id = ${parts.id} and kp.exclusive)`,
-        })
-        .from(parts)
-        .where(and(eq(parts.courseId, courseId), inArray(parts.id, partIds)))
-        .orderBy(parts.id)
-        .for("update"),
-      fresh.length
-        ? tx
-            .select({ number: kits.number })
-            .from(kits)
-            .where(
-              and(
-                eq(kits.courseId, courseId),
-                inArray(
-                  kits.number,
-                  fresh.map((kit) => kit.number),
-                ),
+    // One after the other: a transaction's client runs one statement at a time.
+    const lab = await readLab(tx, courseId, labId);
+    const shelfKits = shelfIds.length
+      ? await tx
+          .select({
+            id: kits.id,
+            number: kits.number,
+            state: kits.state,
+            membership: kits.holderMembershipId,
+            invitation: kits.holderInvitationId,
+          })
+          .from(kits)
+          .where(and(eq(kits.courseId, courseId), inArray(kits.id, shelfIds)))
+          .orderBy(kits.id)
+          .for("update")
+      : [];
+    const contents = shelfIds.length
+      ? await tx.select({ kitId: kitParts.kitId, partId: kitParts.partId }).from(kitParts).where(inArray(kitParts.kitId, shelfIds))
+      : [];
+    const partRows = await tx
+      .select({
+        ...partColumns,
+        inKit: sql<string | null>`(select kp.kit_id from kit_parts kp where kp.part_id = ${parts.id} and kp.exclusive)`,
+      })
+      .from(parts)
+      .where(and(eq(parts.courseId, courseId), inArray(parts.id, partIds)))
+      .orderBy(parts.id)
+      .for("update");
+    const takenNumbers = fresh.length
+      ? await tx
+          .select({ number: kits.number })
+          .from(kits)
+          .where(
+            and(
+              eq(kits.courseId, courseId),
+              inArray(
+                kits.number,
+                fresh.map((kit) => kit.number),
               ),
-            )
-        : [],
-    ]);
+            ),
+          )
+      : [];
     const byId = new Map(partRows.map((part) => [part.id, part]));
     if (byId.size !== partIds.length) throw stale("some of its parts are no longer in this course's inventory.");
     const shelfById = new Map(shelfKits.map((kit) => [kit.id, kit]));
