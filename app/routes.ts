@@ -35,6 +35,11 @@ export default [
       route("import", "routes/courses.$courseId.parts.import.tsx"),
       route(":partId", "routes/courses.$courseId.parts.$partId.tsx"),
     ]),
+    ...prefix("shipments", [
+      index("routes/courses.$courseId.shipments._index.tsx"),
+      route("new", "routes/courses.$courseId.shipments.new.tsx"),
+      route(":shipmentId", "routes/courses.$courseId.shipments.$shipmentId.tsx"),
+    ]),
     route("my-kit", "routes/courses.$courseId.my-kit.tsx"),
     route("labs", "routes/courses.$courseId.labs._index.tsx"),
     route("labs/new", "routes/courses.$courseId.labs.new.tsx"),

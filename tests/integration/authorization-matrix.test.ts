@@ -81,6 +81,12 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/kits/:kitId", cohortStaff(200)),
   row("POST", "/courses/:courseId/kits/:kitId", instructorOnly(400)),
   row("GET", "/courses/:courseId/kits/:kitId/packing-slip", instructorOnly(200)),
+  // Shipping names students and buys labels: instructors only. The probe names no known intent: 400.
+  row("GET", "/courses/:courseId/shipments", instructorOnly(200)),
+  row("GET", "/courses/:courseId/shipments/new", instructorOnly(200)),
+  row("POST", "/courses/:courseId/shipments/new", instructorOnly(400)),
+  row("GET", "/courses/:courseId/shipments/:shipmentId", instructorOnly(200)),
+  row("POST", "/courses/:courseId/shipments/:shipmentId", instructorOnly(400)),
   row("GET", "/courses/:courseId/parts", staffOnly(200)),
   row("GET", "/courses/:courseId/parts/new", instructorOnly(200)),
   row("POST", "/courses/:courseId/parts/new", instructorOnly(400)),
@@ -186,6 +192,7 @@ function concretePath(path: string, fixture: AccessFixture): string {
     labId: fixture.labId,
     photoId: fixture.photoId,
     dropLogId: fixture.dropLogId,
+    shipmentId: fixture.shipmentId,
     token: "not-a-real-token-aaaaaaaaaaaaaaaa",
   };
   return path

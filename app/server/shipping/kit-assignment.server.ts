@@ -7,7 +7,7 @@
  */
 import { randomUUID } from "node:crypto";
 import { and, eq, inArray, isNull, sql } from "drizzle-orm";
-import { kitEvents, kitParts, kits, labs, parts } from "~/db/schema";
+import { cohorts, kitEvents, kitParts, kits, labs, parts } from "~/db/schema";
 import { AppError } from "~/lib/app-error";
 import { isEntityId } from "~/lib/forms/ids";
 import { nextKitNumbers } from "~/lib/kits/next-kit-numbers";
@@ -303,7 +303,7 @@ export async function commitKitAssignment(
     labId,
     kits: plan,
   }: { courseId: string; actorId: string; labId: string; kits: Pick<PlannedKit, "key" | "kitId" | "number" | "partIds">[] },
-): Promise<{ packed: number; made: number }> {
+): Promise<{ packed: number; made: number; kitIds: string[] }> {
   if (plan.length === 0) throw new AppError({ code: "plan_empty", message: "The plan has no kit to pack." });
   return executor.transaction(async (tx) => {
     const shelfIds = plan.flatMap((kit) => (kit.kitId ? [kit.kitId] : []));
@@ -429,6 +429,15 @@ export async function commitKitAssignment(
       kitIds: all.map((kit) => kit.kitId),
       move: { to: "packed", holders: Object.fromEntries(all.map((kit) => [kit.kitId, holderOfKey(kit.key)])) },
     });
-    return { packed: all.length, made: made.length };
+    return { packed: all.length, made: made.length, kitIds: all.map((kit) => kit.kitId) };
   });
+}
+
+/** What the "Ship a cohort" page offers to choose from: the course's labs and cohorts (two statements). */
+export async function shippingChoices(executor: Executor, courseId: string) {
+  const [labRows, cohortRows] = await Promise.all([
+    executor.select({ id: labs.id, title: labs.title }).from(labs).where(eq(labs.courseId, courseId)).orderBy(labs.title),
+    executor.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(cohorts.name),
+  ]);
+  return { labs: labRows, cohorts: cohortRows };
 }
