@@ -11,11 +11,12 @@ import { formatDateTime } from "~/lib/format-date";
 import { isEntityId } from "~/lib/forms/ids";
 import { pagingSearch } from "~/lib/forms/search-params";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
+import { labelFailureLabels } from "~/lib/shipping/shipping-states";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
-import { getShipment, labelFailureLabels, retryFailedItems } from "~/server/shipping/shipments.server";
+import { getShipment, retryFailedItems } from "~/server/shipping/shipments.server";
 
 const retry = z.object({ intent: z.literal("retry-failed") });
 const shipmentSearch = z.object(pagingSearch(50));

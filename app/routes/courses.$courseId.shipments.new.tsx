@@ -13,12 +13,12 @@ import { entityId } from "~/lib/forms/ids";
 import { pagingSearch } from "~/lib/forms/search-params";
 import { formList, parseSubmission, replyFor } from "~/lib/forms/submission";
 import { kitStateLabels } from "~/lib/kits/kit-states";
+import { candidateKitStates } from "~/lib/shipping/shipping-states";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import {
-  candidateKitStates,
   commitKitAssignment,
   listCandidates,
   planKitAssignment,

@@ -11,7 +11,8 @@ import { cohorts, kitEvents, kitParts, kits, labs, parts } from "~/db/schema";
 import { AppError } from "~/lib/app-error";
 import { isEntityId } from "~/lib/forms/ids";
 import { nextKitNumbers } from "~/lib/kits/next-kit-numbers";
-import { kitStates, type KitState } from "~/lib/kits/kit-states";
+import type { KitState } from "~/lib/kits/kit-states";
+import type { CandidateKitState } from "~/lib/shipping/shipping-states";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor } from "~/server/db.server";
 import { moveKits, type KitHolder } from "~/server/kits/kits.server";
@@ -21,10 +22,6 @@ export type CandidateKey = `m:${string}` | `i:${string}`;
 
 export const holderOfKey = (key: CandidateKey): KitHolder =>
   key.startsWith("m:") ? { membershipId: key.slice(2) } : { invitationId: key.slice(2) };
-
-/** Students by the kit they hold: none yet, or a kit in one of its states. */
-export const candidateKitStates = ["none", ...kitStates] as const;
-export type CandidateKitState = (typeof candidateKitStates)[number];
 
 export type CandidateFilter = {
   cohortId?: string;

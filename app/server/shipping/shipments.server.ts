@@ -8,6 +8,7 @@ import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
 import { kits, shipmentItems, shipments } from "~/db/schema";
 import { AppError } from "~/lib/app-error";
 import type { PostalAddress } from "~/lib/shipping/postal-address";
+import type { LabelFailureCode } from "~/lib/shipping/shipping-states";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
@@ -81,22 +82,6 @@ export async function createShipment(
     return { shipmentId: inserted.id, created: true };
   });
 }
-
-/**
- * The reasons an item fails: the carrier's (`refused_address`, `rate_limited`, `timeout`,
- * `carrier_error`) and ours, found before asking it.
- */
-export type LabelFailureCode = Extract<LabelOutcome, { ok: false }>["code"] | "no_address" | "no_return_address" | "no_carrier";
-
-export const labelFailureLabels: Record<LabelFailureCode, string> = {
-  refused_address: "Address refused",
-  rate_limited: "Carrier busy",
-  timeout: "No answer",
-  carrier_error: "Carrier error",
-  no_address: "No address",
-  no_return_address: "No return address",
-  no_carrier: "No carrier",
-};
 
 /** Failures a retry cannot mend until someone fixes an address. */
 const needsAddressFix: LabelFailureCode[] = ["refused_address", "no_address"];
