@@ -333,13 +333,16 @@ function drawBars(page: PDFPage, text: string, x: number, y: number, width: numb
   });
 }
 
+/** Letters with no decomposition to a base letter that WinAnsi has. */
+const BASE_LETTERS: Record<string, string> = { Ł: "L", ł: "l", Đ: "D", đ: "d", Ħ: "H", ħ: "h", ı: "i" };
+
 /** The standard fonts only know WinAnsi: accents fall back to their base letter, anything else to "?". */
 function printable(text: string, font: PDFFont): string {
   const known = new Set(font.getCharacterSet());
   return [...text.normalize("NFC")]
     .map((character) => {
       if (known.has(character.codePointAt(0)!)) return character;
-      const base = character.normalize("NFD").replace(/\p{M}/gu, "");
+      const base = BASE_LETTERS[character] ?? character.normalize("NFD").replace(/\p{M}/gu, "");
       return base && [...base].every((part) => known.has(part.codePointAt(0)!)) ? base : "?";
     })
     .join("");
