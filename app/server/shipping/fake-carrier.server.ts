@@ -291,9 +291,11 @@ export async function drawLabel(
   const width = page.getWidth() - 2 * margin;
   let y = page.getHeight() - margin;
 
+  // A long line shrinks to the label's width rather than wrapping over the line below.
   const write = (text: string, font: PDFFont, size: number) => {
+    const line = printable(text, font);
     y -= size * 1.25;
-    page.drawText(printable(text, font), { x: margin, y, size, font, maxWidth: width });
+    page.drawText(line, { x: margin, y, size: Math.min(size, (size * width) / Math.max(1, font.widthOfTextAtSize(line, size))), font });
   };
   write("FROM", bold, 7);
   for (const line of addressLines(shipment.from_address)) write(line, regular, 8);
