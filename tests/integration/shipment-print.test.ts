@@ -112,7 +112,7 @@ async function shipmentOf(specs: KitSpec[]) {
       ),
     ),
   );
-  return { shipmentId: shipment.id, membershipIds: memberships.map((membership) => membership.id) };
+  return { shipmentId: shipment.id, membershipIds: memberships.map((membership) => membership.id), kitIds: kitRows.map((kit) => kit.id) };
 }
 
 const course = () => ({ id: fixture.courseId, code: "print-A", title: "Settling Spheres" });
@@ -166,6 +166,28 @@ describe("a shipment's print job", () => {
     const six = await countAllStatements(print(large.shipmentId));
     expect(six.statements).toBe(one.statements);
     expect(await pageTexts(six.result!)).toHaveLength(6);
+  });
+
+  it("keeps a kit of many parts on one page with every caution, naming the parts it had no room for", async () => {
+    const { shipmentId, kitIds } = await shipmentOf([{ number: "M-1", name: "Many Parts", city: "Brindle", label: "bought" }]);
+    const accessories = await db
+      .insert(parts)
+      .values(
+        Array.from({ length: 45 }, (_, index) => ({
+          courseId: fixture.courseId,
+          kind: "accessory" as const,
+          label: `A-M-${index}`,
+          accessoryType: "stopwatch",
+        })),
+      )
+      .returning();
+    await db.insert(kitParts).values(accessories.map((part) => ({ kitId: kitIds[0], partId: part.id })));
+    const pdf = await shipmentPrintPdf(db, { course: course(), shipmentId, actorId: fixture.userIds.instructor });
+    const pages = await pageTexts(pdf!);
+    expect(pages).toHaveLength(1);
+    expect(pages[0]).toMatch(/…and \d+ more parts: the kit's page in Benchpost lists them all\./);
+    expect(pages[0]).toContain("Children. Children use the kit only");
+    expect(pages[0]).toContain("These are general cautions.");
   });
 
   it("is a PDF for the course's instructors, refused to TAs, students and other courses' instructors", async () => {

@@ -180,15 +180,18 @@ function wrap(font: PDFFont, text: string, size: number, width: number): string[
   return lines;
 }
 
+type Fonts = { regular: PDFFont; bold: PDFFont };
+
 /** Writes wrapped lines from the top down, moving the cursor (the next line's baseline) below them. */
 type Writer = (text: string, options?: { size?: number; bold?: boolean; color?: typeof ink; x?: number; width?: number }) => void;
 
-function writerFor(page: PDFPage, fonts: { regular: PDFFont; bold: PDFFont }, start: { x: number; y: number; width: number }) {
+/** Without a page it only measures: the cursor moves as if the lines were drawn. */
+function writerFor(page: PDFPage | null, fonts: Fonts, start: { x: number; y: number; width: number }) {
   const cursor = { y: start.y };
   const write: Writer = (text, { size = 9, bold = false, color = ink, x = start.x, width = start.width } = {}) => {
     const font = bold ? fonts.bold : fonts.regular;
     for (const line of wrap(font, printableText(font, text), size, width)) {
-      page.drawText(line, { x, y: cursor.y, size, font, color });
+      page?.drawText(line, { x, y: cursor.y, size, font, color });
       cursor.y -= size * 1.25;
     }
   };
@@ -253,40 +256,70 @@ async function renderShipmentPdf(course: { code: string; title: string }, items:
       dashArray: [4, 3],
     });
 
-    const slip = writerFor(page, fonts, { x: margin, y: cutY - 22, width: a4.width - 2 * margin });
-    slip.write(`${course.code} · ${course.title}`, { size: 8, color: grey });
-    slip.write(`Packing slip · Kit ${item.kitNumber}`, { size: 14, bold: true });
-    slip.write(`For ${item.holderName ?? "no student yet"}`, { bold: true });
-    slip.cursor.y -= 4;
-    slip.write("Parts and their recorded measurements", { bold: true, size: 9 });
-    for (const part of item.parts) {
-      const { kind, values } = describePart(part);
-      const rowY = slip.cursor.y;
-      page.drawRectangle({ x: margin, y: rowY - 1, width: 7, height: 7, borderColor: ink, borderWidth: 0.6 });
-      slip.write(part.label, { bold: true, x: margin + 12, width: 60 });
-      slip.cursor.y = rowY;
-      slip.write(`${kind}: ${values}`, { x: margin + 78, width: a4.width - 2 * margin - 78 });
-    }
-    if (item.parts.length === 0) slip.write("No parts recorded in this kit.", { color: grey });
-    slip.cursor.y -= 4;
-    slip.write("When the kit arrives, open Benchpost, go to “My kit” and confirm it is complete, or report what is missing or damaged.", {
-      size: 8,
-    });
-    slip.cursor.y -= 4;
-    slip.write("Safety", { bold: true, size: 9 });
-    for (const caution of safetyCautions) slip.write(`${caution.topic}. ${caution.text}`, { size: 7 });
-    slip.write(safetyCautionsDeferral, { size: 7, color: grey });
+    drawSlip(page, fonts, course, item, { top: cutY - 22, ...slipFit(fonts, course, item, cutY - 22) });
   }
   return pdf.save();
 }
 
-async function drawLabel(
-  pdf: PDFDocument,
-  page: PDFPage,
-  fonts: { regular: PDFFont; bold: PDFFont },
+type SlipFit = { scale: number; shownParts: number };
+
+/**
+ * The packing slip below the cut line, from `top` down; returns the baseline below its last line. The
+ * cautions must be on it, so a kit of many parts shrinks the slip's type (to 70 %) rather than losing
+ * them, and only past that lists its last parts as "and N more".
+ */
+function drawSlip(
+  page: PDFPage | null,
+  fonts: Fonts,
+  course: { code: string; title: string },
   item: PrintItem,
-  at: { x: number; y: number },
-): Promise<void> {
+  fit: SlipFit & { top: number },
+) {
+  const { scale, shownParts } = fit;
+  const slip = writerFor(page, fonts, { x: margin, y: fit.top, width: a4.width - 2 * margin });
+  slip.write(`${course.code} · ${course.title}`, { size: 8, color: grey });
+  slip.write(`Packing slip · Kit ${item.kitNumber}`, { size: 14, bold: true });
+  slip.write(`For ${item.holderName ?? "no student yet"}`, { bold: true });
+  slip.cursor.y -= 4 * scale;
+  slip.write("Parts and their recorded measurements", { bold: true, size: 9 * scale });
+  for (const part of item.parts.slice(0, shownParts)) {
+    const { kind, values } = describePart(part);
+    const rowY = slip.cursor.y;
+    // A box to tick by hand as each part goes into the box.
+    page?.drawRectangle({ x: margin, y: rowY - 1, width: 7 * scale, height: 7 * scale, borderColor: ink, borderWidth: 0.6 });
+    slip.write(part.label, { bold: true, size: 9 * scale, x: margin + 12, width: 60 });
+    const labelBottom = slip.cursor.y;
+    slip.cursor.y = rowY;
+    slip.write(`${kind}: ${values}`, { size: 9 * scale, x: margin + 78, width: a4.width - 2 * margin - 78 });
+    slip.cursor.y = Math.min(slip.cursor.y, labelBottom);
+  }
+  if (item.parts.length === 0) slip.write("No parts recorded in this kit.", { color: grey, size: 9 * scale });
+  if (shownParts < item.parts.length)
+    slip.write(`…and ${item.parts.length - shownParts} more parts: the kit's page in Benchpost lists them all.`, {
+      bold: true,
+      size: 9 * scale,
+    });
+  slip.cursor.y -= 4 * scale;
+  slip.write("When the kit arrives, open Benchpost, go to “My kit” and confirm it is complete, or report what is missing or damaged.", {
+    size: 8 * scale,
+  });
+  slip.cursor.y -= 4 * scale;
+  slip.write("Safety", { bold: true, size: 9 * scale });
+  for (const caution of safetyCautions) slip.write(`${caution.topic}. ${caution.text}`, { size: 7 * scale });
+  slip.write(safetyCautionsDeferral, { size: 7 * scale, color: grey });
+  return slip.cursor.y;
+}
+
+/** The largest type, then the most parts, with which the slip ends above the bottom margin. */
+function slipFit(fonts: Fonts, course: { code: string; title: string }, item: PrintItem, top: number): SlipFit {
+  const fits = (fit: SlipFit) => drawSlip(null, fonts, course, item, { top, ...fit }) >= margin;
+  const scale = [1, 0.9, 0.8, 0.7].find((candidate) => fits({ scale: candidate, shownParts: item.parts.length })) ?? 0.7;
+  let shownParts = item.parts.length;
+  while (shownParts > 0 && !fits({ scale, shownParts })) shownParts--;
+  return { scale, shownParts };
+}
+
+async function drawLabel(pdf: PDFDocument, page: PDFPage, fonts: Fonts, item: PrintItem, at: { x: number; y: number }): Promise<void> {
   if (item.status === "bought" && item.labelPdf) {
     try {
       const [label] = await pdf.embedPdf(item.labelPdf, [0]);
@@ -308,7 +341,7 @@ async function drawLabel(
   );
 }
 
-function drawMissingLabel(page: PDFPage, fonts: { regular: PDFFont; bold: PDFFont }, at: { x: number; y: number }, reason: string): void {
+function drawMissingLabel(page: PDFPage, fonts: Fonts, at: { x: number; y: number }, reason: string): void {
   page.drawRectangle({ x: at.x, y: at.y, width: labelBox.width, height: labelBox.height, borderColor: ink, borderWidth: 2 });
   const box = writerFor(page, fonts, { x: at.x + 18, y: at.y + labelBox.height / 2 + 20, width: labelBox.width - 36 });
   box.write("NO LABEL YET", { size: 24, bold: true });
