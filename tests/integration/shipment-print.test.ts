@@ -5,6 +5,7 @@ import { PDFDocument, StandardFonts } from "pdf-lib";
 import { getDocument } from "pdfjs-dist/legacy/build/pdf.mjs";
 import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, courseMemberships, kitParts, kits, parts, shipmentItems, shipments, shippingAddresses, users } from "~/db/schema";
+import { safetyCautions, safetyCautionsDeferral } from "~/lib/safety/cautions";
 import { db } from "~/server/db.server";
 import { shipmentPrintPdf } from "~/server/shipping/print.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
@@ -19,7 +20,12 @@ async function pageTexts(bytes: Uint8Array): Promise<string[]> {
   const texts: string[] = [];
   for (let number = 1; number <= document.numPages; number++) {
     const content = await (await document.getPage(number)).getTextContent();
-    texts.push(content.items.map((item) => ("str" in item ? item.str : "")).join(" "));
+    texts.push(
+      content.items
+        .map((item) => ("str" in item ? item.str : ""))
+        .filter(Boolean)
+        .join(" "),
+    );
   }
   return texts;
 }
@@ -136,8 +142,11 @@ describe("a shipment's print job", () => {
     expect(pages[1]).toMatch(/7 Kettle Lane.*ZZ1 1ZZ Brindle/);
     expect(pages[1]).toContain("S-P-2");
     expect(pages[1]).toContain("d = 3.00 mm, m = 0.110 g (rho ~ 7781 kg/m³)");
-    expect(pages[1]).toContain("Magnets.");
-    expect(pages[1]).toContain("Your institution's lab-safety rules");
+    // Every caution, whole, on every kit's slip (the lines are wrapped at spaces, so they join back).
+    for (const page of pages) {
+      for (const caution of safetyCautions) expect(page, caution.topic).toContain(`${caution.topic}. ${caution.text}`);
+      expect(page).toContain(safetyCautionsDeferral);
+    }
     // What the standard fonts cannot draw is replaced, visibly, and the page still prints.
     expect(pages[0]).toContain("For ?ucja ?wik");
     expect(pages[0]).toContain("ZZ1 1ZZ ?ód? ??");
