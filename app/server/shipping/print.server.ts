@@ -238,7 +238,7 @@ async function renderShipmentPdf(course: { code: string; title: string }, items:
     side.write(`${item.kind === "return" ? "Return" : item.kind === "replacement" ? "Replacement" : "Outbound"} parcel`, { color: grey });
     side.write(
       item.trackingNumber
-        ? `Tracking ${item.carrier ?? ""} ${item.trackingNumber}${item.service ? ` (${item.service})` : ""}`
+        ? ["Tracking", item.carrier, item.trackingNumber, item.service ? `(${item.service})` : null].filter(Boolean).join(" ")
         : "No tracking number yet",
     );
     side.cursor.y -= 8;
