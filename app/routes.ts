@@ -27,6 +27,7 @@ export default [
     ...prefix("kits", [
       index("routes/courses.$courseId.kits._index.tsx"),
       route("new", "routes/courses.$courseId.kits.new.tsx"),
+      route("tracking-import", "routes/courses.$courseId.kits.tracking-import.tsx"),
       route(":kitId", "routes/courses.$courseId.kits.$kitId._index.tsx"),
     ]),
     ...prefix("parts", [
@@ -50,6 +51,8 @@ export default [
   ]),
   // Outside the frame: a printable page and file downloads.
   route("courses/:courseId/kits/:kitId/packing-slip", "routes/courses.$courseId.kits.$kitId.packing-slip.tsx"),
+  route("courses/:courseId/kits/tracking-template.csv", "routes/courses.$courseId.kits.tracking-template[.]csv.ts"),
+  route("courses/:courseId/shipments/:shipmentId/print.pdf", "routes/courses.$courseId.shipments.$shipmentId.print[.]pdf.ts"),
   route("courses/:courseId/roster-template.csv", "routes/courses.$courseId.roster-template[.]csv.ts"),
   route("courses/:courseId/parts/template.csv", "routes/courses.$courseId.parts.template[.]csv.ts"),
   route("courses/:courseId/inventory.csv", "routes/courses.$courseId.inventory[.]csv.ts"),
