@@ -40,7 +40,12 @@ export type AuditAction =
   | "marking.reopened"
   | "marking.released"
   | "part.rereduction_queued"
-  | "part.rereduced";
+  | "part.rereduced"
+  | "address.viewed"
+  | "address.changed"
+  | "address.deleted"
+  | "address.exported"
+  | "address.imported";
 
 export type AuditInput = {
   action: AuditAction;
