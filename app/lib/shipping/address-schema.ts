@@ -192,3 +192,9 @@ export const addressFields = [
   "country",
   "phone",
 ] as const satisfies readonly (keyof PostalAddress)[];
+
+/** Every country with its English name, by name, for a form's list. Read in a loader, so server and browser show the same names. */
+export function countryOptions(): { code: string; name: string }[] {
+  const names = new Intl.DisplayNames(["en"], { type: "region", fallback: "code" });
+  return countryCodes.map((code) => ({ code, name: names.of(code) ?? code })).sort((a, b) => a.name.localeCompare(b.name, "en"));
+}

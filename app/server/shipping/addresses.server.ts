@@ -9,6 +9,7 @@
  * longer matches it, and an import key committed before writes nothing again.
  */
 import { createHash } from "node:crypto";
+import Papa from "papaparse";
 import { and, desc, eq, gt, inArray, isNull, or, sql } from "drizzle-orm";
 import { auditEvents, courseMemberships, invitations, shippingAddresses, users } from "~/db/schema";
 import { addressFields, postalAddressSchema } from "~/lib/shipping/address-schema";
@@ -52,6 +53,17 @@ export async function getAddress(executor: Executor, courseId: string, owner: Ad
     .from(shippingAddresses)
     .where(ownerCondition(courseId, owner));
   return row ?? null;
+}
+
+/** One owner's address to show a person: read, and the view audited when there is one to see. */
+export async function viewAddress(
+  executor: Executor,
+  { courseId, actorId, owner, request }: { courseId: string; actorId: string; owner: AddressOwner; request?: Request },
+): Promise<StoredAddress | null> {
+  const address = await getAddress(executor, courseId, owner);
+  const ownerId = "membershipId" in owner ? owner.membershipId : owner.invitationId;
+  if (address) await auditAddressViews(executor, { courseId, actorId, request, subjects: [ownerId] });
+  return address;
 }
 
 /** The addresses of these members and invitations, by their id, in one statement and without audit: for work no person sees. */
@@ -195,6 +207,27 @@ export const addressTemplateCsv = [
   "ada.student@example.edu,Ada Student,12 Kiln Street,Flat 2,Fernwick,,FW1 2AB,GB,",
   "sam.student@example.edu,,40 Weir Road,,Fernwick,NY,12345,US,+1 555 0100",
 ].join("\r\n");
+
+/** At most this many rows in one import: a term's cohort is a few hundred. */
+export const maxAddressImportRows = 10_000;
+
+/**
+ * A CSV file's rows as text cells by lower-cased header, or what is wrong with the file as a whole.
+ * Refused: no `email` column, a missing required column, more rows than `maxAddressImportRows`.
+ */
+export function readAddressCsv(text: string): { records: Record<string, string>[]; problem: string | null } {
+  const parsed = Papa.parse<Record<string, string>>(text.replace(/^\uFEFF/, ""), {
+    header: true,
+    skipEmptyLines: "greedy",
+    transformHeader: (header) => header.trim().toLowerCase(),
+  });
+  const headers = parsed.meta.fields ?? [];
+  const missing = ["email", "line1", "city", "country"].filter((column) => !headers.includes(column));
+  if (missing.length) return { records: [], problem: `The file has no ${missing.join(", ")} column; start from the template.` };
+  if (parsed.data.length > maxAddressImportRows)
+    return { records: [], problem: `Import at most ${maxAddressImportRows.toLocaleString("en")} addresses at a time.` };
+  return { records: parsed.data, problem: null };
+}
 
 export type AddressImportStatus = "new" | "changed" | "unchanged" | "error";
 
