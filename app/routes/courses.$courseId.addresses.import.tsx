@@ -13,14 +13,9 @@ import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
-import {
-  addressImportColumns,
-  type AddressImportPreview,
-  type AddressImportRow,
-  importAddresses,
-  previewAddressImport,
-  readAddressCsv,
-} from "~/server/shipping/addresses.server";
+import { addressImportColumns } from "~/lib/shipping/address-import";
+import { importAddresses, previewAddressImport, readAddressCsv } from "~/server/shipping/addresses.server";
+import type { AddressImportPreview, AddressImportRow } from "~/server/shipping/addresses.server";
 
 const previewInput = z.object({ intent: z.literal("preview"), csv: z.string().optional(), file: z.unknown().optional() });
 const commitInput = z.object({

@@ -200,14 +200,6 @@ export async function moveInvitationAddress(
 
 // ——— The instructor's CSV import ———
 
-export const addressImportColumns = ["email", ...addressFields] as const;
-
-export const addressTemplateCsv = [
-  addressImportColumns.join(","),
-  "ada.student@example.edu,Ada Student,12 Kiln Street,Flat 2,Fernwick,,FW1 2AB,GB,",
-  "sam.student@example.edu,,40 Weir Road,,Fernwick,NY,12345,US,+1 555 0100",
-].join("\r\n");
-
 /** At most this many rows in one import: a term's cohort is a few hundred. */
 export const maxAddressImportRows = 10_000;
 
