@@ -95,7 +95,11 @@ describe("addresses for server work", () => {
     expect((await addressesFor(db, fixture.courseId, { invitationIds: [invited.id] })).size).toBe(0);
 
     const audited = await countStatements(() =>
-      auditAddressViews(db, { courseId: course.courseId, actorId: actor, subjects: [course.membershipIds.ownStudent, invited.id] }),
+      auditAddressViews(db, {
+        courseId: course.courseId,
+        actorId: actor,
+        subjects: [course.membershipIds.ownStudent, `invitation:${invited.id}`],
+      }),
     );
     expect(audited.statements).toBe(1);
     expect(await auditOf("address.viewed", `membership:${course.membershipIds.ownStudent}`)).toEqual([{ actorId: actor, detail: {} }]);

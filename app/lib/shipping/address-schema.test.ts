@@ -23,6 +23,11 @@ describe("postal address: required fields", () => {
     });
   });
 
+  it("refuses what is not an address at all, without reading a country's rule", () => {
+    expect(postalAddressSchema.safeParse(null).success).toBe(false);
+    expect(postalAddressSchema.safeParse("1 Bench Lane").success).toBe(false);
+  });
+
   it("refuses a country that is not an ISO 3166-1 alpha-2 code", () => {
     expect(problems({ ...base, country: "XX" })).toEqual({
       country: "Give the country as its two-letter code (ISO 3166-1), such as DE or US.",

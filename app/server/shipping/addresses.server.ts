@@ -91,7 +91,8 @@ export async function addressesFor(
 /**
  * Records that a person was shown these addresses: one `address.viewed` (or `address.exported`) event
  * per owner, in one INSERT. `subjects` are the owners' ids, membership or invitation, as `addressesFor`
- * keys them; the event's subject says which kind (`membership:…` or `invitation:…`).
+ * keys them (an id already written as `membership:…` or `invitation:…` is read too); the event's
+ * subject says which kind.
  */
 export async function auditAddressViews(
   executor: Executor,
@@ -112,13 +113,14 @@ export async function auditAddressViews(
   },
 ): Promise<void> {
   if (subjects.length === 0) return;
+  const ownerIds = subjects.map((subject) => subject.replace(/^(membership|invitation):/, ""));
   const ip = request ? clientIp(request) : null;
   await executor.execute(sql`
     insert into ${auditEvents} (course_id, actor_id, action, subject, ip, detail)
     select ${courseId}::uuid, ${actorId}::uuid, ${action}::text,
       case when exists (select 1 from ${courseMemberships} where ${courseMemberships.id} = owner_id) then 'membership:' else 'invitation:' end || owner_id,
       ${ip}::inet, ${JSON.stringify(detail)}::jsonb
-    from unnest(${`{${subjects.join(",")}}`}::uuid[]) as owner_id`);
+    from unnest(${`{${ownerIds.join(",")}}`}::uuid[]) as owner_id`);
 }
 
 type AddressWrite = { owner: AddressOwner; address: PostalAddress };
