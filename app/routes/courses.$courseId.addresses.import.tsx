@@ -96,7 +96,8 @@ export default function ImportAddresses({ loaderData, actionData }: Route.Compon
 
       {done && !done.duplicate ? (
         <Notice tone="success">
-          Imported: {done.written} addresses written, {done.unchanged} unchanged, {done.skipped} rows with problems left out.
+          Imported: {plural(done.written, "address", "addresses")} written, {done.unchanged} unchanged,{" "}
+          {plural(done.skipped, "row", "rows")} with problems left out.
         </Notice>
       ) : null}
       {done && done.duplicate ? (
@@ -131,6 +132,8 @@ export default function ImportAddresses({ loaderData, actionData }: Route.Compon
   );
 }
 
+const plural = (count: number, one: string, many: string) => `${count} ${count === 1 ? one : many}`;
+
 const statusWords: Record<AddressImportRow["status"], string> = {
   new: "New",
   changed: "Changed",
@@ -159,7 +162,7 @@ function Preview({ preview, csv, importKey, busy }: { preview: AddressImportPrev
             <p className="text-sm">The rows with problems are left out; fix them in the file and import it again.</p>
           ) : null}
           <Button type="submit" disabled={busy} className="self-start">
-            {busy ? "Importing…" : `Write ${toWrite} addresses`}
+            {busy ? "Importing…" : `Write ${plural(toWrite, "address", "addresses")}`}
           </Button>
         </Form>
       ) : (

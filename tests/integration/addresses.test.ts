@@ -396,7 +396,7 @@ describe("the instructor's address import", () => {
       appRequest(path, { cookie, form: { intent: "commit", csv, importKey: importKey!, fingerprint: fingerprint! } }),
     );
     expect(commit.status).toBe(200);
-    expect(words(await commit.text())).toContain("Imported: 1 addresses written, 0 unchanged, 1 rows with problems left out.");
+    expect(words(await commit.text())).toContain("Imported: 1 address written, 0 unchanged, 1 row with problems left out.");
     expect(await getAddress(db, course.courseId, { membershipId: course.membershipIds.ownStudent })).toMatchObject({
       line1: "3 Mill Lane",
     });
