@@ -63,7 +63,6 @@ async function auditOf(action: string, subject: string) {
 const csvOf = (rows: string[]) => ["email,name,line1,line2,city,region,postcode,country,phone", ...rows].join("\n");
 /** A page's text without the comments React puts between adjacent text pieces. */
 const words = (html: string) => html.replaceAll("<!-- -->", "");
-const records = (rows: Record<string, string>[]) => rows;
 
 describe("addresses for server work", () => {
   it("reads many owners' addresses in one statement, and audits many views in one INSERT naming whose", async () => {
@@ -244,20 +243,16 @@ describe("the instructor's address import", () => {
       phone: "",
       ...extra,
     });
-    const preview = await previewAddressImport(
-      db,
-      course.courseId,
-      records([
-        row("OwnStudent@addresses-preview.example"),
-        row("samecohortstudent@addresses-preview.example", { city: "Lower Fernwick" }),
-        row("invited.one@addresses-preview.example", { country: "US", postcode: "1234", region: "NY" }),
-        row("invited.one@addresses-preview.example"),
-        row("expired.one@addresses-preview.example"),
-        row("assignedta@addresses-preview.example"),
-        row("othercohortstudent@addresses-preview.example", { postcode: "fw12ab" }),
-        row(""),
-      ]),
-    );
+    const preview = await previewAddressImport(db, course.courseId, [
+      row("OwnStudent@addresses-preview.example"),
+      row("samecohortstudent@addresses-preview.example", { city: "Lower Fernwick" }),
+      row("invited.one@addresses-preview.example", { country: "US", postcode: "1234", region: "NY" }),
+      row("invited.one@addresses-preview.example"),
+      row("expired.one@addresses-preview.example"),
+      row("assignedta@addresses-preview.example"),
+      row("othercohortstudent@addresses-preview.example", { postcode: "fw12ab" }),
+      row(""),
+    ]);
     expect(expired.id).toBeTruthy();
     const summary = preview.rows.map(({ line, status, problems, changedFields }) => ({ line, status, problems, changedFields }));
     const noMatch = ["No student of this course, or pending invitation, has this e-mail."];

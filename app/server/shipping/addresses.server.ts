@@ -249,37 +249,35 @@ type Match = { owner: AddressOwner; name: string; current: PostalAddress | null 
 /** The students (members, then pending invitations) these e-mails belong to, with the address each has now: two statements. */
 async function matchStudents(executor: Executor, courseId: string, emails: string[]): Promise<Map<string, Match>> {
   if (emails.length === 0) return new Map();
-  const current = addressColumns;
-  const [members, invited] = await Promise.all([
-    executor
-      .select({ id: courseMemberships.id, email: users.email, name: users.name, current })
-      .from(courseMemberships)
-      .innerJoin(users, eq(users.id, courseMemberships.userId))
-      .leftJoin(shippingAddresses, eq(shippingAddresses.membershipId, courseMemberships.id))
-      .where(
-        and(
-          eq(courseMemberships.courseId, courseId),
-          eq(courseMemberships.role, "student"),
-          isNull(courseMemberships.removedAt),
-          inArray(users.email, emails),
-        ),
+  // One after the other: inside the import's transaction both go through the one client.
+  const members = await executor
+    .select({ id: courseMemberships.id, email: users.email, name: users.name, current: addressColumns })
+    .from(courseMemberships)
+    .innerJoin(users, eq(users.id, courseMemberships.userId))
+    .leftJoin(shippingAddresses, eq(shippingAddresses.membershipId, courseMemberships.id))
+    .where(
+      and(
+        eq(courseMemberships.courseId, courseId),
+        eq(courseMemberships.role, "student"),
+        isNull(courseMemberships.removedAt),
+        inArray(users.email, emails),
       ),
-    executor
-      .select({ id: invitations.id, email: invitations.email, name: invitations.name, current })
-      .from(invitations)
-      .leftJoin(shippingAddresses, eq(shippingAddresses.invitationId, invitations.id))
-      .where(
-        and(
-          eq(invitations.courseId, courseId),
-          eq(invitations.role, "student"),
-          isNull(invitations.acceptedAt),
-          gt(invitations.expiresAt, sql`now()`),
-          inArray(invitations.email, emails),
-        ),
-      )
-      // Newest first: of two pending invitations to one address, the later one is the one to be accepted.
-      .orderBy(desc(invitations.createdAt), invitations.id),
-  ]);
+    );
+  const invited = await executor
+    .select({ id: invitations.id, email: invitations.email, name: invitations.name, current: addressColumns })
+    .from(invitations)
+    .leftJoin(shippingAddresses, eq(shippingAddresses.invitationId, invitations.id))
+    .where(
+      and(
+        eq(invitations.courseId, courseId),
+        eq(invitations.role, "student"),
+        isNull(invitations.acceptedAt),
+        gt(invitations.expiresAt, sql`now()`),
+        inArray(invitations.email, emails),
+      ),
+    )
+    // Newest first: of two pending invitations to one address, the later one is the one to be accepted.
+    .orderBy(desc(invitations.createdAt), invitations.id);
   const matches = new Map<string, Match>();
   // A member wins over an invitation to the same address (`current` has a null name when there is no address).
   for (const member of members)
