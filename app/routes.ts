@@ -27,6 +27,7 @@ export default [
     ...prefix("kits", [
       index("routes/courses.$courseId.kits._index.tsx"),
       route("new", "routes/courses.$courseId.kits.new.tsx"),
+      route("tracking-import", "routes/courses.$courseId.kits.tracking-import.tsx"),
       route(":kitId", "routes/courses.$courseId.kits.$kitId._index.tsx"),
     ]),
     ...prefix("parts", [
@@ -41,6 +42,8 @@ export default [
       route(":shipmentId", "routes/courses.$courseId.shipments.$shipmentId.tsx"),
     ]),
     route("my-kit", "routes/courses.$courseId.my-kit.tsx"),
+    route("my-address", "routes/courses.$courseId.my-address.tsx"),
+    route("addresses/import", "routes/courses.$courseId.addresses.import.tsx"),
     route("labs", "routes/courses.$courseId.labs._index.tsx"),
     route("labs/new", "routes/courses.$courseId.labs.new.tsx"),
     route("labs/:labId", "routes/courses.$courseId.labs.$labId._index.tsx"),
@@ -55,9 +58,13 @@ export default [
   ]),
   // Outside the frame: a printable page and file downloads.
   route("courses/:courseId/kits/:kitId/packing-slip", "routes/courses.$courseId.kits.$kitId.packing-slip.tsx"),
+  route("courses/:courseId/kits/tracking-template.csv", "routes/courses.$courseId.kits.tracking-template[.]csv.ts"),
+  route("courses/:courseId/shipments/:shipmentId/print.pdf", "routes/courses.$courseId.shipments.$shipmentId.print[.]pdf.ts"),
   route("courses/:courseId/roster-template.csv", "routes/courses.$courseId.roster-template[.]csv.ts"),
   route("courses/:courseId/parts/template.csv", "routes/courses.$courseId.parts.template[.]csv.ts"),
   route("courses/:courseId/inventory.csv", "routes/courses.$courseId.inventory[.]csv.ts"),
+  route("courses/:courseId/my-address.json", "routes/courses.$courseId.my-address[.]json.ts"),
+  route("courses/:courseId/addresses/template.csv", "routes/courses.$courseId.addresses.template[.]csv.ts"),
   route("courses/:courseId/labs/:labId/photos", "routes/courses.$courseId.labs.$labId.photos.ts"),
   route("courses/:courseId/labs/:labId/comparison.csv", "routes/courses.$courseId.labs.$labId.comparison[.]csv.ts"),
   route("courses/:courseId/labs/:labId/marks.csv", "routes/courses.$courseId.labs.$labId.marks[.]csv.ts"),

@@ -22,9 +22,9 @@ const schema = await import("~/db/schema");
 const { insertMany } = await import("~/server/bulk-insert.server");
 const { planKitAssignment, commitKitAssignment } = await import("~/server/shipping/kit-assignment.server");
 const { createShipment, buyLabels } = await import("~/server/shipping/shipments.server");
+const { kitParcel } = await import("~/server/shipping/carrier.server");
 type Carrier = import("~/server/shipping/shipments.server").Carrier;
 
-const parcel = { lengthCm: 30, widthCm: 20, heightCm: 15, weightG: 1500 };
 const labelPdf = Buffer.from("%PDF-1.4\n% a label\n");
 const instantCarrier: Carrier = {
   async buyLabel(request) {
@@ -160,7 +160,7 @@ for (let round = 0; round < ROUNDS; round++) {
     requestKey: `bench-${round}`,
     items: packed.map((kit) => ({ kitId: kit.id })),
   });
-  const outcome = await buyLabels(db, instantCarrier, shipmentId, { parcel });
+  const outcome = await buyLabels(db, instantCarrier, shipmentId);
   timings.push(performance.now() - started);
 
   const [{ inTransit }] = await db
@@ -184,7 +184,7 @@ for (let round = 0; round < ROUNDS; round++) {
   const insertMs = performance.now() - insertStarted;
   const callsStarted = performance.now();
   for (const kit of packed)
-    await instantCarrier.buyLabel({ reference: kit.id, from: address("a"), to: address("b"), parcel, carrierShipmentId: null });
+    await instantCarrier.buyLabel({ reference: kit.id, from: address("a"), to: address("b"), parcel: kitParcel, carrierShipmentId: null });
   floors.push({ insert: insertMs, carrier: performance.now() - callsStarted });
   await db.execute(sql`delete from kit_events where action = 'bench'`);
 }

@@ -40,7 +40,13 @@ export type AuditAction =
   | "marking.reopened"
   | "marking.released"
   | "part.rereduction_queued"
-  | "part.rereduced";
+  | "part.rereduced"
+  | "kit.tracking_imported"
+  | "address.viewed"
+  | "address.changed"
+  | "address.deleted"
+  | "address.exported"
+  | "address.imported";
 
 export type AuditInput = {
   action: AuditAction;

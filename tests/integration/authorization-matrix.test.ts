@@ -87,6 +87,11 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/shipments/new", instructorOnly(400)),
   row("GET", "/courses/:courseId/shipments/:shipmentId", instructorOnly(200)),
   row("POST", "/courses/:courseId/shipments/:shipmentId", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/tracking-import", instructorOnly(200)),
+  row("POST", "/courses/:courseId/kits/tracking-import", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/tracking-template.csv", instructorOnly(200)),
+  // Every label and slip of a shipment, with the students' addresses: the instructors' alone.
+  row("GET", "/courses/:courseId/shipments/:shipmentId/print.pdf", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts", staffOnly(200)),
   row("GET", "/courses/:courseId/parts/new", instructorOnly(200)),
   row("POST", "/courses/:courseId/parts/new", instructorOnly(400)),
@@ -97,6 +102,14 @@ const matrix: MatrixRow[] = [
   // Only ownStudent holds a kit; the other students have none to report on.
   row("GET", "/courses/:courseId/my-kit", studentsOnly(200)),
   row("POST", "/courses/:courseId/my-kit", { ...studentsOnly(404), ownStudent: 400 }),
+  // A student's own address: nobody else's is reached through it, and staff have none here (403, not an empty page).
+  row("GET", "/courses/:courseId/my-address", studentsOnly(200)),
+  row("POST", "/courses/:courseId/my-address", studentsOnly(400)),
+  // The fixture's students have entered no address: nothing to download.
+  row("GET", "/courses/:courseId/my-address.json", studentsOnly(404)),
+  row("GET", "/courses/:courseId/addresses/import", instructorOnly(200)),
+  row("POST", "/courses/:courseId/addresses/import", instructorOnly(400)),
+  row("GET", "/courses/:courseId/addresses/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/labs", anyMember(200)),
   row("GET", "/courses/:courseId/labs/new", instructorOnly(200)),
   row("POST", "/courses/:courseId/labs/new", instructorOnly(400)),

@@ -27,7 +27,6 @@ import { countAllStatements } from "../support/count-statements";
 type LabelRequest = Parameters<Carrier["buyLabel"]>[0];
 type LabelOutcome = Awaited<ReturnType<Carrier["buyLabel"]>>;
 
-const parcel = { lengthCm: 30, widthCm: 20, heightCm: 15, weightG: 1500 };
 const address = (name: string) => ({ name, line1: "4 Quarry Lane", city: "Tillbury", postcode: "TB1 4QL", country: "GB" });
 
 /** A course with an instructor, a cohort, `students` members (with addresses unless told) and one invited student. */
@@ -303,7 +302,7 @@ describe("buying a shipment's labels", () => {
     const { carrier, calls } = standInCarrier();
     const slept: number[] = [];
     const sleep = async (ms: number) => void slept.push(ms);
-    const outcome = await buyLabels(db, carrier, shipmentId, { parcel, sleep });
+    const outcome = await buyLabels(db, carrier, shipmentId, { sleep });
     expect(outcome).toEqual({ bought: 3, failed: 2, moved: 3 });
     expect(slept).toEqual([2000]);
 
@@ -346,7 +345,7 @@ describe("buying a shipment's labels", () => {
       .where(eq(shippingAddresses.membershipId, course.membershipOf.Refused));
     expect(await retryFailedItems(db, { courseId: course.courseId, shipmentId })).toEqual({ requeued: 1, waitingForAddress: 1 });
     const before = calls.length;
-    expect(await buyLabels(db, carrier, shipmentId, { parcel, sleep })).toEqual({ bought: 1, failed: 0, moved: 1 });
+    expect(await buyLabels(db, carrier, shipmentId, { sleep })).toEqual({ bought: 1, failed: 0, moved: 1 });
     expect(calls.slice(before).map((call) => call.to.name)).toEqual(["Mended"]);
     const mailAfter = await db
       .select({ to: emailOutbox.toAddress })

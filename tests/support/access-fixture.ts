@@ -50,7 +50,7 @@ export type AccessFixture = {
   /** `ownStudent`'s drop log of that lab, with one version and one photo. */
   dropLogId: string;
   photoId: string;
-  /** A shipment of `ownStudent`'s kit, its label not bought yet. */
+  /** An outbound shipment of `ownStudent`'s kit, its label not bought yet. */
   shipmentId: string;
 };
 
@@ -177,7 +177,7 @@ export async function createAccessFixture(label = "matrix"): Promise<AccessFixtu
   });
   const [shipment] = await db
     .insert(shipments)
-    .values({ courseId: course.id, kind: "outbound", requestKey: `${label}-fixture`, createdById: userIds.instructor })
+    .values({ courseId: course.id, kind: "outbound", requestKey: `${label}-fixture-shipment`, createdById: userIds.instructor })
     .returning();
   await db.insert(shipmentItems).values({ shipmentId: shipment.id, kitId: kit.id });
   return {

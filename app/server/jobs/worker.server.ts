@@ -11,6 +11,8 @@ import type { EmailDeliveryJob } from "~/server/email/send-email.server";
 import { runRereduction, type RereductionJob } from "~/server/kits/rereduce.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
 import { logger } from "~/server/log.server";
+import { carrierFromEnv, type Carrier } from "~/server/shipping/carrier.server";
+import { buyLabels, type LabelPurchaseJob } from "~/server/shipping/shipments.server";
 import { createBoss, createQueues, housekeepingCron, queues } from "./boss.server";
 import { sweepExpiredRows } from "./housekeeping.server";
 
@@ -76,6 +78,8 @@ function runJobs<Data extends object>(
 export async function startWorker(options: {
   connectionString: string;
   transport: EmailTransport;
+  /** Where labels are bought; the configured carrier unless told (null: none, each label fails saying so). */
+  carrier?: Carrier | null;
   /** How often an idle worker asks for new jobs. */
   pollingIntervalSeconds?: number;
   log?: WorkerLog;
@@ -94,6 +98,7 @@ export async function startWorker(options: {
   await boss.schedule(queues.housekeeping, housekeepingCron, {}, { tz: "UTC" });
 
   const pollingIntervalMs = (options.pollingIntervalSeconds ?? 2) * 1000;
+  const carrier = options.carrier === undefined ? carrierFromEnv() : options.carrier;
   const stoppers = [
     runJobs<EmailDeliveryJob>(
       boss,
@@ -151,6 +156,16 @@ export async function startWorker(options: {
       async (job, jobLog) => {
         const outcome = await runRereduction(database, job.data.runId);
         jobLog(`re-reduction ${job.data.runId}: ${outcome.revised} revised, ${outcome.unreducible.length} not reducible`);
+      },
+      log,
+    ),
+    runJobs<LabelPurchaseJob>(
+      boss,
+      queues.labelPurchase,
+      pollingIntervalMs,
+      async (job, jobLog) => {
+        const outcome = await buyLabels(database, carrier, job.data.shipmentId);
+        jobLog(`shipment ${job.data.shipmentId}: ${outcome.bought} labels bought, ${outcome.failed} failed, ${outcome.moved} kits moved`);
       },
       log,
     ),

@@ -13,21 +13,9 @@ import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
 import { moveKits, type Shipping } from "~/server/kits/kits.server";
+import { kitParcel, type Carrier, type LabelOutcome, type LabelRequest, type Parcel } from "./carrier.server";
 
-// The carrier's interface as agreed for issue 17 (app/server/shipping/carrier.server.ts, built alongside):
-// written out here until that module is merged, then imported from it.
-type Parcel = { lengthCm: number; widthCm: number; heightCm: number; weightG: number };
-type LabelRequest = { reference: string; from: PostalAddress; to: PostalAddress; parcel: Parcel; carrierShipmentId: string | null };
-type LabelOutcome =
-  | { ok: true; carrierShipmentId: string; carrier: string; service: string; trackingNumber: string; labelPdf: Buffer }
-  | {
-      ok: false;
-      carrierShipmentId: string | null;
-      code: "refused_address" | "rate_limited" | "timeout" | "carrier_error";
-      message: string;
-      retryAfterSeconds?: number;
-    };
-export type Carrier = { buyLabel(request: LabelRequest): Promise<LabelOutcome> };
+export type { Carrier };
 
 export type ShipmentKind = (typeof shipments.$inferSelect)["kind"];
 export type LabelPurchaseJob = { shipmentId: string };
@@ -141,7 +129,8 @@ async function saveResult(executor: Executor, result: ItemResult): Promise<void>
 }
 
 export type LabelJobOptions = {
-  parcel: Parcel;
+  /** One kit's box; `kitParcel` unless told. */
+  parcel?: Parcel;
   /** Labels bought at once: the carrier's API is not flooded, and a slow answer does not hold up the rest. */
   concurrency?: number;
   /** Carrier calls per item in one run, counting the first: rate limits and timeouts are retried up to it. */
@@ -173,9 +162,9 @@ export async function buyLabels(
   executor: Executor,
   carrier: Carrier | null,
   shipmentId: string,
-  options: LabelJobOptions,
+  options: LabelJobOptions = {},
 ): Promise<{ bought: number; failed: number; moved: number }> {
-  const { parcel, concurrency = 8, maxAttempts = 3, maxRetryAfterSeconds = 60, sleep = wait } = options;
+  const { parcel = kitParcel, concurrency = 8, maxAttempts = 3, maxRetryAfterSeconds = 60, sleep = wait } = options;
   const claimed = await claimItems(executor, shipmentId);
   let bought = 0;
   let failed = 0;
