@@ -384,3 +384,39 @@ describe("buying a shipment's labels", () => {
     ).rejects.toThrow(/no such lab/);
   });
 });
+
+describe("the shipping pages", () => {
+  it("previews, packs and buys labels through the pages, each step a plain form", async () => {
+    const { createAppHandler, appRequest, sessionCookieFor } = await import("../support/app-requests");
+    const handle = await createAppHandler();
+    const course = await shippingCourse("pages", ["Gil"]);
+    const part = await addParts(course.courseId, [sphere("S-P", 3), column("C-P", 40), lot("F-P", null)]);
+    const labId = await addLab(course.courseId, []);
+    const cookie = await sessionCookieFor(course.instructorId);
+    const path = `/courses/${course.courseId}/shipments/new`;
+    expect((await handle(appRequest(path, { cookie }))).status).toBe(200);
+
+    const missingLab = await handle(appRequest(path, { cookie, form: { intent: "preview", kitState: "none" } }));
+    expect(missingLab.status).toBe(400);
+    const preview = await handle(
+      appRequest(`${path}.data`, { cookie, form: { intent: "preview", labId, kitState: "none", keys: `m:${course.membershipOf.Gil}` } }),
+    );
+    expect(preview.status).toBe(200);
+    const plan = await planKitAssignment(db, { courseId: course.courseId, labId, filter: { keys: [`m:${course.membershipOf.Gil}`] } });
+    expect(plan.kits.map((kit) => kit.partIds)).toEqual([[part["S-P"], part["F-P"], part["C-P"]]]);
+    const packed = await handle(appRequest(path, { cookie, form: { intent: "pack", labId, plan: JSON.stringify(plan.kits) } }));
+    expect(packed.status).toBe(200);
+    const [kit] = await db.select().from(kits).where(eq(kits.holderMembershipId, course.membershipOf.Gil));
+    expect(kit.state).toBe("packed");
+
+    const requestKey = crypto.randomUUID();
+    const buy = () => handle(appRequest(path, { cookie, form: { intent: "buy", requestKey, kitIds: kit.id, kitState: "none" } }));
+    const first = await buy();
+    expect(first.status).toBe(302);
+    const again = await buy();
+    expect(again.headers.get("location")).toBe(first.headers.get("location"));
+    const shipmentPage = await handle(appRequest(first.headers.get("location")!, { cookie }));
+    // React separates adjacent text with comments in the server's HTML.
+    expect((await shipmentPage.text()).replaceAll("<!-- -->", "")).toContain("0 of 1 labels bought");
+  });
+});
