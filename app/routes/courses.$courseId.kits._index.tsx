@@ -109,6 +109,9 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
           canChange ? (
             <>
               <ButtonLink to="new">Make up a kit</ButtonLink>
+              <Link to="problems" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+                Kit problems
+              </Link>
               <a href={`/courses/${courseId}/inventory.csv`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Export inventory (CSV)
               </a>

@@ -44,5 +44,6 @@ function EventWords({ event }: { event: KitEvent }) {
   }
   if (event.action === "reported") return <strong className="text-outlier">Problem reported: {String(event.detail.problem ?? "")}</strong>;
   if (event.action === "checked_in") return <span>Parts' condition recorded</span>;
+  if (event.action === "part_replaced") return <span>Replacement part sent for a reported one</span>;
   return <span>{event.action === "created" ? "Made up and put on the shelf" : event.action}</span>;
 }
