@@ -3,7 +3,22 @@
  * Lengths are in mm and masses in g, as measured at the bench; the reduction converts to SI.
  */
 import { sql } from "drizzle-orm";
-import { boolean, check, index, integer, jsonb, pgEnum, pgTable, primaryKey, real, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import {
+  boolean,
+  check,
+  date,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  real,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
 import { kitStates, type PartCondition } from "../../lib/kits/kit-states";
 import { users } from "./accounts";
 import { createdAt } from "./columns";
@@ -133,6 +148,11 @@ export const kits = pgTable(
     returnCarrier: text("return_carrier"),
     returnTrackingNumber: text("return_tracking_number"),
     returnShippedOn: text("return_shipped_on"),
+    /**
+     * The day this kit must be back when it is not the course's return-by date: a student who left the
+     * course, a kit swapped for a replacement. Null: the course's date.
+     */
+    returnBy: date("return_by", { mode: "string" }),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },

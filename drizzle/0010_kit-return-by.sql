@@ -1,0 +1,1 @@
+ALTER TABLE "kits" ADD COLUMN "return_by" date;
