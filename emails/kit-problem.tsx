@@ -22,7 +22,7 @@ export default function KitProblemEmail(props: Props) {
           ["Problem", props.problem],
         ]}
       />
-      <ActionButton href={props.kitUrl}>Open the kit</ActionButton>
+      <ActionButton href={props.kitUrl}>Open the problem</ActionButton>
     </EmailLayout>
   );
 }
