@@ -47,7 +47,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   const problem = await loadProblemFor(access, params.problemId);
   const canChange = access.membership.role === "instructor";
   const canReplace = canChange && problem.status === "received" && ["in_transit", "at_home"].includes(problem.kitState);
-  const candidates = canReplace ? await listReplacementCandidates(db, access.course.id, problem.partKind) : [];
+  const candidates = canReplace ? await listReplacementCandidates(db, access.course.id, problem) : [];
   return { problem, canChange, canReplace, candidates, requestKey: crypto.randomUUID(), timeZone: access.course.timeZone };
 }
 

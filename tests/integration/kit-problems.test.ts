@@ -286,6 +286,27 @@ describe("a replacement sent from the problem", () => {
   });
 });
 
+describe("the problem page", () => {
+  it("offers the instructor only shelf parts of the reported kind, and a TA of the student's cohort no forms", async () => {
+    const { fixture } = await courseWithShelf();
+    const { problemId } = await reportDamagedSphere(fixture);
+    const path = `/courses/${fixture.courseId}/kits/problems/${problemId}`;
+    const pageFor = async (actor: "instructor" | "assignedTa") =>
+      (await handle(appRequest(path, { cookie: await sessionCookieFor(fixture.userIds[actor]) }))).text();
+
+    const instructorPage = await pageFor("instructor");
+    const offered = [...instructorPage.matchAll(/<option value="[0-9a-f-]{36}"[^>]*>([^<—]+)/g)].map((match) => match[1].trim());
+    // S-2 is on the shelf; S-50 too, but wider than the kit's column; S-9 sits in K-02; C-2 is a column.
+    expect(offered).toEqual(["S-2"]);
+    expect(instructorPage).toContain("Send a replacement");
+
+    const taPage = await pageFor("assignedTa");
+    expect(taPage).toContain("The sphere arrived chipped.");
+    expect(taPage).not.toContain("Send a replacement");
+    expect(taPage).not.toContain("Change the status");
+  });
+});
+
 describe("who sees and changes a problem", () => {
   it("lets a student see only their own problems, and change none", async () => {
     const { fixture } = await courseWithShelf();
@@ -344,16 +365,14 @@ describe("the instructors' lists", () => {
     expect(html.indexOf(`kits/problems/${first.problemId}`)).toBeLessThan(html.indexOf(`kits/problems/${second.problemId}`));
 
     const few = await countStatements(() => openProblemsDigest(db, fixture.courseId, undefined));
-    await db
-      .insert(kitProblems)
-      .values(
-        Array.from({ length: 40 }, (_, i) => ({
-          courseId: fixture.courseId,
-          kitId: fixture.kitId,
-          kind: "missing" as const,
-          note: `Lost ${i}`,
-        })),
-      );
+    await db.insert(kitProblems).values(
+      Array.from({ length: 40 }, (_, i) => ({
+        courseId: fixture.courseId,
+        kitId: fixture.kitId,
+        kind: "missing" as const,
+        note: `Lost ${i}`,
+      })),
+    );
     const many = await countStatements(() => openProblemsDigest(db, fixture.courseId, undefined));
     expect(few.result.open).toBe(2);
     expect(many.result.open).toBe(42);

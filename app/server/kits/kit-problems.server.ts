@@ -36,6 +36,8 @@ import type { Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { jsonRows, orNull } from "~/server/json-rows.server";
 
+type KitProblemPartKind = (typeof parts.$inferSelect)["kind"];
+
 const refused = (message: string, field?: string, status = 400) => new AppError({ code: "kit_problem_refused", message, field, status });
 
 /** Kit states in which the kit is on its way to or at the student's home: the only ones a part can be sent to. */
@@ -254,22 +256,20 @@ export async function sendReplacement(
         .update(parts)
         .set({ bottlesOnHand: sql`${parts.bottlesOnHand} - 1`, updatedAt: new Date() })
         .where(eq(parts.id, replacement.id));
-    await tx
-      .insert(partEvents)
-      .values([
-        { partId: replacement.id, actorId, action: "replacement_sent", note, detail: { kitId: problem.kitId } },
-        ...(reportedLeaves
-          ? [
-              {
-                partId: problem.partId!,
-                actorId,
-                action: "replaced",
-                note: null,
-                detail: { kitId: problem.kitId, condition: conditionOf(problem.kind) },
-              },
-            ]
-          : []),
-      ]);
+    await tx.insert(partEvents).values([
+      { partId: replacement.id, actorId, action: "replacement_sent", note, detail: { kitId: problem.kitId } },
+      ...(reportedLeaves
+        ? [
+            {
+              partId: problem.partId!,
+              actorId,
+              action: "replaced",
+              note: null,
+              detail: { kitId: problem.kitId, condition: conditionOf(problem.kind) },
+            },
+          ]
+        : []),
+    ]);
     await tx.insert(kitEvents).values({
       kitId: problem.kitId,
       actorId,
@@ -297,6 +297,14 @@ export async function sendReplacement(
 
 const conditionOf = (kind: KitProblemKind) => (kind === "missing" ? ("missing" as const) : ("damaged" as const));
 
+/** The kit's narrowest column bore and widest sphere, leaving out the reported part: what a replacement must fit. */
+function kitFit({ kitId, partId }: { kitId: string; partId: string | null }) {
+  const extreme = (aggregate: "min" | "max", column: "inner_diameter_mm" | "diameter_mm", kind: "column" | "sphere") =>
+    sql<number | null>`(select ${sql.raw(`${aggregate}(p.${column})`)} from kit_parts kp join parts p on p.id = kp.part_id
+      where kp.kit_id = ${kitId} and p.kind = ${kind} and p.id is distinct from ${partId}::uuid)`;
+  return { kitBoreMm: extreme("min", "inner_diameter_mm", "column"), kitSphereMm: extreme("max", "diameter_mm", "sphere") };
+}
+
 /** The chosen replacement, checked against the problem and the shelf: one statement. */
 async function findReplacement(tx: Transaction, courseId: string, problem: LockedProblem, partId: string) {
   const [part] = await tx
@@ -309,11 +317,7 @@ async function findReplacement(tx: Transaction, courseId: string, problem: Locke
       diameterMm: parts.diameterMm,
       innerDiameterMm: parts.innerDiameterMm,
       inKitNumber: kits.number,
-      // The kit's narrowest bore and widest sphere, leaving out the part being replaced.
-      kitBoreMm: sql<number | null>`(select min(p.inner_diameter_mm) from kit_parts kp join parts p on p.id = kp.part_id
-        where kp.kit_id = ${problem.kitId} and p.kind = 'column' and p.id is distinct from ${problem.partId})`,
-      kitSphereMm: sql<number | null>`(select max(p.diameter_mm) from kit_parts kp join parts p on p.id = kp.part_id
-        where kp.kit_id = ${problem.kitId} and p.kind = 'sphere' and p.id is distinct from ${problem.partId})`,
+      ...kitFit(problem),
     })
     .from(parts)
     .leftJoin(kitParts, and(eq(kitParts.partId, parts.id), eq(kitParts.exclusive, true)))
@@ -336,8 +340,16 @@ async function findReplacement(tx: Transaction, courseId: string, problem: Locke
   return part;
 }
 
-/** Parts that can replace the reported one: of its kind (any, when none was named), in service, in no kit; fluid lots with stock. */
-export async function listReplacementCandidates(executor: Executor, courseId: string, partKind: string | null) {
+/**
+ * Parts that can replace the reported one: of its kind (any, when none was named), in service, in no
+ * kit, fitting the kit's column or spheres; fluid lots with stock. One statement.
+ */
+export async function listReplacementCandidates(
+  executor: Executor,
+  courseId: string,
+  problem: { kitId: string; partId: string | null; partKind: KitProblemPartKind | null },
+) {
+  const fit = kitFit(problem);
   return executor
     .select(getTableColumns(parts))
     .from(parts)
@@ -348,7 +360,9 @@ export async function listReplacementCandidates(executor: Executor, courseId: st
         eq(parts.status, "in_service"),
         isNull(kitParts.kitId),
         or(isNull(parts.bottlesOnHand), sql`${parts.bottlesOnHand} > 0`),
-        partKind ? eq(parts.kind, partKind as typeof parts.$inferSelect.kind) : undefined,
+        problem.partKind ? eq(parts.kind, problem.partKind) : undefined,
+        sql`(${parts.kind} <> 'sphere' or ${fit.kitBoreMm} is null or ${parts.diameterMm} < ${fit.kitBoreMm})`,
+        sql`(${parts.kind} <> 'column' or ${fit.kitSphereMm} is null or ${parts.innerDiameterMm} > ${fit.kitSphereMm})`,
       ),
     )
     .orderBy(asc(parts.kind), asc(parts.label))
