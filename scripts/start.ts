@@ -1,7 +1,7 @@
 /**
  * `npm start`: the demo, everything a newcomer needs to see Benchpost. Ensures the database, migrates,
  * seeds when empty, builds the demo (which has the development inbox), and runs the web server, the
- * worker and the mail catcher until Ctrl-C. It listens on 127.0.0.1 unless HOST says otherwise.
+ * worker, the mail catcher and the fake carrier until Ctrl-C. It listens on 127.0.0.1 unless HOST says otherwise.
  * `npm run dev` is the same with Vite's dev server (hot reload) in place of the build.
  * Production is another path: `npm run build`, `npm run db:migrate`, `start:web`, `start:worker`.
  */
@@ -12,10 +12,13 @@ import { prepareDevelopmentDatabase } from "../seeds/seed-demo";
 import { buildApp } from "./lib/build";
 import { SetupError } from "./lib/postgres";
 import { bin, portIsFree, startService } from "./lib/processes";
+import { FAKE_CARRIER_API_KEY } from "~/server/shipping/fake-carrier.server";
 
 const development = process.argv.includes("--dev");
 // Without a mail service of the user's, mail goes to the local catcher and can be read at /dev/inbox.
 const catchesMail = !env.RESEND_API_KEY && !env.SMTP_URL;
+// Without a carrier account of the user's, labels are bought from the local fake carrier.
+const fakesCarrier = !env.CARRIER_API_KEY;
 
 async function prepare(): Promise<void> {
   if (!(await portIsFree(env.PORT, env.HOST)))
@@ -23,6 +26,11 @@ async function prepare(): Promise<void> {
   if (catchesMail && !(await portIsFree(env.MAIL_CATCHER_PORT, "127.0.0.1"))) {
     throw new SetupError(
       `Port ${env.MAIL_CATCHER_PORT} (the mail catcher) is already in use: stop what is running there, or set MAIL_CATCHER_PORT.`,
+    );
+  }
+  if (fakesCarrier && !(await portIsFree(env.FAKE_CARRIER_PORT, "127.0.0.1"))) {
+    throw new SetupError(
+      `Port ${env.FAKE_CARRIER_PORT} (the fake carrier) is already in use: stop what is running there, or set FAKE_CARRIER_PORT.`,
     );
   }
   console.log(`Demo scenario: ${await prepareDevelopmentDatabase()}.`);
@@ -45,6 +53,9 @@ function printWelcome(): void {
     catchesMail
       ? `E-mail is caught locally: read it at ${env.APP_URL}/dev/inbox (only from this machine).`
       : `E-mail goes out through ${env.RESEND_API_KEY ? "Resend" : env.SMTP_URL}.`,
+    fakesCarrier
+      ? `Labels are bought from the local fake carrier (TEST LABEL PDFs); a postcode 00000 or "REFUSE" in an address is refused.`
+      : "Labels are bought through EasyPost with CARRIER_API_KEY.",
     "",
     "Press Ctrl-C to stop.",
   ];
@@ -63,6 +74,9 @@ function run(): void {
     DATABASE_URL: env.DATABASE_URL,
     SMTP_URL: env.SMTP_URL ?? `smtp://127.0.0.1:${env.MAIL_CATCHER_PORT}`,
     MAIL_CATCHER_PORT: String(env.MAIL_CATCHER_PORT),
+    CARRIER_API_KEY: env.CARRIER_API_KEY ?? FAKE_CARRIER_API_KEY,
+    CARRIER_API_URL: fakesCarrier ? `http://127.0.0.1:${env.FAKE_CARRIER_PORT}/v2/` : env.CARRIER_API_URL,
+    FAKE_CARRIER_PORT: String(env.FAKE_CARRIER_PORT),
     // Vite's dev server reads the route table as it runs; the build has read it already.
     BENCHPOST_DEMO_BUILD: "1",
   };
@@ -73,6 +87,7 @@ function run(): void {
       ]
     : [startService("web", "build/web.js", [], childEnv), startService("worker", "build/worker.js", [], childEnv)];
   if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], childEnv));
+  if (fakesCarrier) services.push(startService("fake-carrier", bin.tsx, ["scripts/fake-carrier.ts"], childEnv));
   // Ctrl-C reaches every process of the terminal's group at once, so the children also stop on their
   // own (tsx answers SIGINT with code 130): once we are stopping, their exit codes are no news.
   let stopping = false;

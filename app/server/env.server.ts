@@ -34,6 +34,11 @@ const schema = z.object({
     .default(DEFAULT_FROM),
   SMTP_URL: z.url({ protocol: /^smtps?$/, error: "must be an smtp:// or smtps:// address" }).optional(),
   MAIL_CATCHER_PORT: port.default(1025),
+  /** EasyPost's API key; without one no labels are bought (npm start and the tests give the fake's). */
+  CARRIER_API_KEY: z.string().optional(),
+  /** The carrier API's base address, e.g. the local fake's http://127.0.0.1:1026/v2/; unset, the SDK's own. */
+  CARRIER_API_URL: z.url({ protocol: /^https?$/, error: "must be an http(s) address" }).optional(),
+  FAKE_CARRIER_PORT: port.default(1026),
   STORAGE_DIR: z.string().optional(),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
 });

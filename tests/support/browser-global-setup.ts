@@ -1,6 +1,6 @@
 /**
  * Before the browser suite: a fresh database with the demo scenario, and the built app served from
- * it on a free loopback port, with the mail catcher and the worker beside it. The suite reads the
+ * it on a free loopback port, with the mail catcher, the fake carrier and the worker beside it. The suite reads the
  * address with `inject("baseUrl")`, and the mail the app sent at `/api/dev/emails?to=…`.
  */
 import { spawn } from "node:child_process";
@@ -9,6 +9,7 @@ import type { TestProject } from "vitest/node";
 import { createDatabase, createPool } from "~/server/db.server";
 import { startMailCatcher } from "~/server/email/mail-catcher.server";
 import { migrateDatabase } from "~/server/migrate.server";
+import { FAKE_CARRIER_API_KEY, startFakeCarrier } from "~/server/shipping/fake-carrier.server";
 import { seedDemo } from "../../seeds/seed-demo";
 import { ensureChromium } from "../../scripts/lib/chromium";
 import { freePort, waitForHealth } from "./app-server";
@@ -31,6 +32,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
   await pool.end();
 
   const catcher = await startMailCatcher({ connectionString: databaseUrl, port: 0, log: () => undefined });
+  const carrier = await startFakeCarrier({ port: 0, log: () => undefined });
   const port = await freePort();
   const baseUrl = `http://localhost:${port}`;
   // The demo build run as `npm start` runs it, each half with the node binary itself (not npx), so
@@ -45,6 +47,8 @@ export default async function setup(project: TestProject): Promise<() => Promise
     DATABASE_URL: databaseUrl,
     SMTP_URL: `smtp://127.0.0.1:${catcher.port}`,
     RESEND_API_KEY: "",
+    CARRIER_API_URL: carrier.apiUrl,
+    CARRIER_API_KEY: FAKE_CARRIER_API_KEY,
   };
   const worker = spawn(process.execPath, ["build/worker.js"], { env, stdio: ["ignore", "ignore", "inherit"] });
   const server = spawn(process.execPath, ["build/web.js"], { env, stdio: ["ignore", "ignore", "inherit"] });
@@ -58,6 +62,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
       await new Promise((resolve) => (child.exitCode !== null ? resolve(null) : child.once("exit", resolve)));
     }
     await catcher.close();
+    await carrier.close();
     await dropTestDatabase(databaseUrl);
   };
 }

@@ -2,9 +2,11 @@
  * Vitest setup file of the integration suite and the production check: before a test file imports any
  * app module, point DATABASE_URL at a database of the file's own, and drop it when the file is done.
  * Integration tests get a fresh copy of the migrated template; the production check (which provides
- * `emptyDatabase`) an empty database, which its release step migrates.
+ * `emptyDatabase`) an empty database, which its release step migrates. Labels are bought from the
+ * fake carrier that the global setup started.
  */
 import { afterAll, inject } from "vitest";
+import { FAKE_CARRIER_API_KEY } from "~/server/shipping/fake-carrier.server";
 import { createEmptyDatabase, createTestDatabase, dropTestDatabase } from "./test-database";
 
 declare module "vitest" {
@@ -15,6 +17,8 @@ declare module "vitest" {
 
 const url = inject("emptyDatabase") ? await createEmptyDatabase("production") : await createTestDatabase("it");
 process.env.DATABASE_URL = url;
+process.env.CARRIER_API_URL = inject("carrierApiUrl");
+process.env.CARRIER_API_KEY = FAKE_CARRIER_API_KEY;
 
 afterAll(async () => {
   const { pool } = await import("~/server/db.server");
