@@ -17,6 +17,7 @@ import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
 import { seedMarking } from "./seed-marking";
 import { seedRevisions } from "./seed-revisions";
+import { seedShipping } from "./seed-shipping";
 
 export async function seedDemo(db: Database): Promise<"seeded" | "already there"> {
   // Its accounts share a password printed in the README: a production process never writes them.
@@ -31,7 +32,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   // One hash for everyone: argon2id is slow by design, and the demo password is public anyway.
   const passwordHash = await hashPassword(DEMO_PASSWORD);
 
-  const courseId = await db.transaction(async (tx) => {
+  const { courseId, instructorId } = await db.transaction(async (tx) => {
     const [course] = await tx.insert(courses).values(demoCourse).returning();
     const cohortRows = await tx
       .insert(cohorts)
@@ -84,8 +85,11 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
       instructorId: userIdOf(scenario.instructor.email),
       studentMembershipIds: scenario.students.map((student) => membershipOf(student.email)),
     });
-    return course.id;
+    return { courseId: course.id, instructorId: userIdOf(scenario.instructor.email) };
   });
+  const shippingFaker = new Faker({ locale: [en] });
+  shippingFaker.seed(2144);
+  await seedShipping(db, shippingFaker, { courseId, instructorId });
   // After the people and kits are committed: hand-ins go through the server's own hand-in path.
   const labFaker = new Faker({ locale: [en] });
   labFaker.seed(2142);
