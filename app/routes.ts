@@ -29,6 +29,7 @@ export default [
       route("new", "routes/courses.$courseId.kits.new.tsx"),
       route("problems", "routes/courses.$courseId.kits.problems._index.tsx"),
       route("problems/:problemId", "routes/courses.$courseId.kits.problems.$problemId.tsx"),
+      route("tracking-import", "routes/courses.$courseId.kits.tracking-import.tsx"),
       route(":kitId", "routes/courses.$courseId.kits.$kitId._index.tsx"),
     ]),
     ...prefix("parts", [
@@ -52,6 +53,8 @@ export default [
   ]),
   // Outside the frame: a printable page and file downloads.
   route("courses/:courseId/kits/:kitId/packing-slip", "routes/courses.$courseId.kits.$kitId.packing-slip.tsx"),
+  route("courses/:courseId/kits/tracking-template.csv", "routes/courses.$courseId.kits.tracking-template[.]csv.ts"),
+  route("courses/:courseId/shipments/:shipmentId/print.pdf", "routes/courses.$courseId.shipments.$shipmentId.print[.]pdf.ts"),
   route("courses/:courseId/roster-template.csv", "routes/courses.$courseId.roster-template[.]csv.ts"),
   route("courses/:courseId/parts/template.csv", "routes/courses.$courseId.parts.template[.]csv.ts"),
   route("courses/:courseId/inventory.csv", "routes/courses.$courseId.inventory[.]csv.ts"),

@@ -112,6 +112,9 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
               <Link to="problems" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Kit problems
               </Link>
+              <Link to="tracking-import" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+                Import tracking numbers (CSV)
+              </Link>
               <a href={`/courses/${courseId}/inventory.csv`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Export inventory (CSV)
               </a>

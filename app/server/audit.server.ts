@@ -40,7 +40,9 @@ export type AuditAction =
   | "marking.reopened"
   | "marking.released"
   | "part.rereduction_queued"
-  | "part.rereduced";
+  | "part.rereduced"
+  | "kit.tracking_imported"
+  | "shipping.address_viewed";
 
 export type AuditInput = {
   action: AuditAction;

@@ -87,6 +87,11 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/kits/problems", staffOnly(200)),
   row("GET", "/courses/:courseId/kits/problems/:problemId", cohortStaff(200)),
   row("POST", "/courses/:courseId/kits/problems/:problemId", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/tracking-import", instructorOnly(200)),
+  row("POST", "/courses/:courseId/kits/tracking-import", instructorOnly(400)),
+  row("GET", "/courses/:courseId/kits/tracking-template.csv", instructorOnly(200)),
+  // Every label and slip of a shipment, with the students' addresses: the instructors' alone.
+  row("GET", "/courses/:courseId/shipments/:shipmentId/print.pdf", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts", staffOnly(200)),
   row("GET", "/courses/:courseId/parts/new", instructorOnly(200)),
   row("POST", "/courses/:courseId/parts/new", instructorOnly(400)),
@@ -193,6 +198,7 @@ function concretePath(path: string, fixture: AccessFixture, problemId: string): 
     labId: fixture.labId,
     photoId: fixture.photoId,
     dropLogId: fixture.dropLogId,
+    shipmentId: fixture.shipmentId,
     token: "not-a-real-token-aaaaaaaaaaaaaaaa",
   };
   return path

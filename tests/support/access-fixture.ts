@@ -12,6 +12,8 @@ import {
   labCohorts,
   labs,
   parts,
+  shipmentItems,
+  shipments,
   taCohortAssignments,
   users,
 } from "~/db/schema";
@@ -48,6 +50,8 @@ export type AccessFixture = {
   /** `ownStudent`'s drop log of that lab, with one version and one photo. */
   dropLogId: string;
   photoId: string;
+  /** An outbound shipment of `ownStudent`'s kit, its label not bought yet. */
+  shipmentId: string;
 };
 
 export async function createAccessFixture(label = "matrix"): Promise<AccessFixture> {
@@ -171,6 +175,11 @@ export async function createAccessFixture(label = "matrix"): Promise<AccessFixtu
     idempotencyKey: `${label}-fixture-hand-in`,
     input: { sphereId: sphere.id, temperatureC: 22, drops: [7.41, 7.52, 7.47, 7.38, 7.5] },
   });
+  const [shipment] = await db
+    .insert(shipments)
+    .values({ courseId: course.id, kind: "outbound", requestKey: `${label}-fixture-shipment`, createdById: userIds.instructor })
+    .returning();
+  await db.insert(shipmentItems).values({ shipmentId: shipment.id, kitId: kit.id });
   return {
     courseId: course.id,
     otherCourseId: otherCourse.id,
@@ -184,5 +193,6 @@ export async function createAccessFixture(label = "matrix"): Promise<AccessFixtu
     sphereId: sphere.id,
     dropLogId,
     photoId: photo.id,
+    shipmentId: shipment.id,
   };
 }

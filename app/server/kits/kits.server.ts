@@ -104,7 +104,7 @@ function shippingOf(move: KitMove, kitId: string): Shipping | null {
 }
 
 /** The value of a kit column that differs per kit, as one CASE over the ids (one UPDATE for all kits). */
-function perKit(kitIds: string[], value: (kitId: string) => string | null): SQL {
+export function perKit(kitIds: string[], value: (kitId: string) => string | null): SQL {
   return sql`(case ${kits.id} ${sql.join(
     kitIds.map((id) => sql`when ${id}::uuid then ${value(id)}`),
     sql` `,
