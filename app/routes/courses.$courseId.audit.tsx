@@ -21,6 +21,11 @@ const actionWords: Record<string, string> = {
   "course.settings_changed": "changed the course settings",
   "lab.extension_set": "gave students a later due time",
   "lab.extension_removed": "removed an extension",
+  "address.viewed": "saw a shipping address",
+  "address.changed": "entered or changed a shipping address",
+  "address.deleted": "deleted a shipping address",
+  "address.exported": "downloaded a shipping address",
+  "address.imported": "imported a shipping address",
 };
 
 export default function CourseAudit({ loaderData }: Route.ComponentProps) {

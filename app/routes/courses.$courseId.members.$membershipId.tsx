@@ -3,14 +3,17 @@ import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members.$membershipId";
 import { RoleAndCohortFields } from "~/components/member-fields";
+import { AddressLines } from "~/components/shipping/address-fields";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { roleWords } from "~/lib/courses/roles";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
+import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
+import { viewAddress } from "~/server/shipping/addresses.server";
 
 const memberAction = z.discriminatedUnion("intent", [
   z.object({
@@ -28,7 +31,12 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   if (!member) throw data("Not found", { status: 404 });
   const access = await requireStudentAccess({ request, context }, params.courseId, member);
   const canEdit = access.membership.role === "instructor" && member.userId !== access.user.id;
-  return { course: access.course, member, canEdit, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
+  // A student's address is for the instructors (never a TA), and each view of it is recorded.
+  const address =
+    canEdit && member.role === "student"
+      ? await viewAddress(db, { courseId: access.course.id, actorId: access.user.id, owner: { membershipId: member.membershipId }, request })
+      : null;
+  return { course: access.course, member, canEdit, address, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
 }
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -46,7 +54,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
 });
 
 export default function CourseMember({ loaderData, actionData }: Route.ComponentProps) {
-  const { course, member, canEdit, cohorts } = loaderData;
+  const { course, member, canEdit, address, cohorts } = loaderData;
   const busy = useNavigation().state !== "idle";
   const [roleForm, roleFields] = useForm({
     id: "change-role",
@@ -67,6 +75,12 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
         <dd className="break-all">{member.email}</dd>
         <dt className="text-ink-600">Cohort</dt>
         <dd>{member.cohortName ?? "—"}</dd>
+        {canEdit && member.role === "student" ? (
+          <>
+            <dt className="text-ink-600">Shipping address</dt>
+            <dd>{address ? <AddressLines address={address} /> : "None entered yet."}</dd>
+          </>
+        ) : null}
         {member.studentNumber ? (
           <>
             <dt className="text-ink-600">Student number</dt>

@@ -75,7 +75,15 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
   const people = fields.people.getFieldList();
   return (
     <div className="space-y-8">
-      <PageHeader id="members-title" title="Members">
+      <PageHeader
+        id="members-title"
+        title="Members"
+        actions={
+          <Link to={`/courses/${course.id}/addresses/import`} className="text-sm underline">
+            Import shipping addresses
+          </Link>
+        }
+      >
         {`${course.code} ${course.title} · ${course.term}`}
       </PageHeader>
 

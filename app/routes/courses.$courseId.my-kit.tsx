@@ -1,5 +1,5 @@
 import { getFormProps, getInputProps, useForm } from "@conform-to/react";
-import { data, Form, useNavigation } from "react-router";
+import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.my-kit";
 import { KitStateBadge } from "~/components/kit-state-badge";
@@ -62,6 +62,12 @@ export const action = formAction(async ({ request, params, context, formData }: 
   return { intent: input.intent, saved: "Reported. Your instructor has been told; you will see each step below and by e-mail." };
 });
 
+const addressLink = (
+  <Link to="../my-address" relative="path" className="text-sm underline">
+    My shipping address
+  </Link>
+);
+
 export default function MyKit({ loaderData, actionData }: Route.ComponentProps) {
   const { kit, problems, timeZone } = loaderData;
   const navigation = useNavigation();
@@ -85,7 +91,7 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
   if (!kit) {
     return (
       <div className="flex flex-col gap-4">
-        <PageHeader title="My kit" />
+        <PageHeader title="My kit" actions={addressLink} />
         <p>No kit has been packed for you yet. You will get an e-mail with its tracking number when it ships.</p>
         <KitProblemList problems={problems} timeZone={timeZone} heading="Your reports" />
         <SafetyCautions />
@@ -95,7 +101,7 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
   const parts = kit.parts.map(({ part }) => part);
   return (
     <div className="flex flex-col gap-6">
-      <PageHeader title={`My kit: ${kit.number}`}>
+      <PageHeader title={`My kit: ${kit.number}`} actions={addressLink}>
         <KitStateBadge state={kit.state} />
         {kit.trackingNumber ? (
           <span className="ml-2 text-sm">

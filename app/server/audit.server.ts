@@ -42,7 +42,11 @@ export type AuditAction =
   | "part.rereduction_queued"
   | "part.rereduced"
   | "kit.tracking_imported"
-  | "shipping.address_viewed";
+  | "address.viewed"
+  | "address.changed"
+  | "address.deleted"
+  | "address.exported"
+  | "address.imported";
 
 export type AuditInput = {
   action: AuditAction;

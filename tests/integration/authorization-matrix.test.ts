@@ -102,6 +102,14 @@ const matrix: MatrixRow[] = [
   // Only ownStudent holds a kit; the other students have none to report on.
   row("GET", "/courses/:courseId/my-kit", studentsOnly(200)),
   row("POST", "/courses/:courseId/my-kit", { ...studentsOnly(404), ownStudent: 400 }),
+  // A student's own address: nobody else's is reached through it, and staff have none here (403, not an empty page).
+  row("GET", "/courses/:courseId/my-address", studentsOnly(200)),
+  row("POST", "/courses/:courseId/my-address", studentsOnly(400)),
+  // The fixture's students have entered no address: nothing to download.
+  row("GET", "/courses/:courseId/my-address.json", studentsOnly(404)),
+  row("GET", "/courses/:courseId/addresses/import", instructorOnly(200)),
+  row("POST", "/courses/:courseId/addresses/import", instructorOnly(400)),
+  row("GET", "/courses/:courseId/addresses/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/labs", anyMember(200)),
   row("GET", "/courses/:courseId/labs/new", instructorOnly(200)),
   row("POST", "/courses/:courseId/labs/new", instructorOnly(400)),

@@ -160,7 +160,7 @@ describe("a shipment's print job", () => {
     const audit = await db
       .select({ subject: auditEvents.subject, actorId: auditEvents.actorId })
       .from(auditEvents)
-      .where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.action, "shipping.address_viewed")));
+      .where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.action, "address.viewed")));
     expect(audit.map((event) => event.subject).sort()).toEqual(membershipIds.map((id) => `membership:${id}`).sort());
     expect(new Set(audit.map((event) => event.actorId))).toEqual(new Set([fixture.userIds.instructor]));
   });

@@ -6,7 +6,7 @@
  */
 import { randomUUID } from "node:crypto";
 import { and, eq, gt, inArray, isNull, sql } from "drizzle-orm";
-import { cohorts, courseMemberships, courses, invitations, taCohortAssignments, users } from "~/db/schema";
+import { cohorts, courseMemberships, courses, invitations, kits, taCohortAssignments, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseRole } from "~/server/auth/access.server";
 import { createSession } from "~/server/auth/session.server";
@@ -17,6 +17,7 @@ import { insertMany } from "~/server/bulk-insert.server";
 import { appUrl } from "~/server/config.server";
 import { db, type Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
+import { moveInvitationAddress } from "~/server/shipping/addresses.server";
 
 export const INVITATION_LIFETIME_DAYS = 14;
 
@@ -247,6 +248,18 @@ export async function acceptInvitation(
       await tx.insert(taCohortAssignments).values({ membershipId: membership.id, cohortId: invitation.cohortId }).onConflictDoNothing();
     }
     await tx.update(invitations).set({ acceptedById: user.id }).where(eq(invitations.id, invitation.id));
+    // What was kept for the invited student is now the member's: the address, and a kit packed for them
+    // (unless an earlier membership still holds one out, which the one-kit-per-student index forbids).
+    await moveInvitationAddress(tx, { invitationId: invitation.id, membershipId: membership.id });
+    await tx
+      .update(kits)
+      .set({ holderMembershipId: membership.id, holderInvitationId: null })
+      .where(
+        and(
+          eq(kits.holderInvitationId, invitation.id),
+          sql`not exists (select 1 from ${kits} held where held.holder_membership_id = ${membership.id} and held.state <> 'coming_back')`,
+        ),
+      );
     await recordAudit(tx, {
       action: "course.invitation_accepted",
       actorId: user.id,

@@ -5,70 +5,15 @@
  * through one stack in kit order and sees at the kit itself what is missing, instead of matching a
  * separate list at the end. Everything is read in a constant number of statements.
  */
-import { and, asc, eq, getTableColumns, inArray, or, sql } from "drizzle-orm";
+import { and, asc, eq, getTableColumns, sql } from "drizzle-orm";
 import { PDFDocument, StandardFonts, rgb, type PDFFont, type PDFPage } from "pdf-lib";
-import {
-  cohorts,
-  courseMemberships,
-  invitations,
-  kitParts,
-  kits,
-  parts,
-  shipmentItems,
-  shipments,
-  shippingAddresses,
-  users,
-} from "~/db/schema";
+import { cohorts, courseMemberships, invitations, kitParts, kits, parts, shipmentItems, shipments, users } from "~/db/schema";
 import { describePart } from "~/lib/kits/describe-part";
 import { safetyCautions, safetyCautionsDeferral } from "~/lib/safety/cautions";
 import type { PostalAddress } from "~/lib/shipping/postal-address";
-import { recordAudit } from "~/server/audit.server";
 import type { Executor } from "~/server/db.server";
 import { jsonRows } from "~/server/json-rows.server";
-
-// Until b1's app/server/shipping/addresses.server.ts lands, these two stand in for its functions of the
-// same names and signatures; swapping means deleting them and importing those.
-
-/** The addresses of the given members and invited students of a course, by membership or invitation id: one statement, no audit. */
-async function addressesFor(
-  executor: Executor,
-  courseId: string,
-  { membershipIds = [], invitationIds = [] }: { membershipIds?: string[]; invitationIds?: string[] },
-): Promise<Map<string, PostalAddress>> {
-  if (membershipIds.length === 0 && invitationIds.length === 0) return new Map();
-  const rows = await executor
-    .select()
-    .from(shippingAddresses)
-    .where(
-      and(
-        eq(shippingAddresses.courseId, courseId),
-        or(
-          membershipIds.length ? inArray(shippingAddresses.membershipId, membershipIds) : sql`false`,
-          invitationIds.length ? inArray(shippingAddresses.invitationId, invitationIds) : sql`false`,
-        ),
-      ),
-    );
-  return new Map(rows.map(({ membershipId, invitationId, ...address }) => [(membershipId ?? invitationId)!, address]));
-}
-
-/** One audit row per address shown to a person, in one INSERT. */
-async function auditAddressViews(
-  executor: Executor,
-  { courseId, actorId, request, subjects }: { courseId: string; actorId: string; request?: Request; subjects: string[] },
-): Promise<void> {
-  if (subjects.length === 0) return;
-  await recordAudit(
-    executor,
-    subjects.map((subject) => ({
-      action: "shipping.address_viewed",
-      actorId,
-      courseId,
-      subject,
-      detail: { via: "shipment print" },
-      request,
-    })),
-  );
-}
+import { addressesFor, auditAddressViews } from "~/server/shipping/addresses.server";
 
 /** Each kit of a shipment with its label, holder and parts, in kit-number order: one statement. */
 async function shipmentPrintItems(executor: Executor, courseId: string, shipmentId: string) {
@@ -136,6 +81,7 @@ export async function shipmentPrintPdf(
     subjects: printed
       .filter((item) => item.address)
       .map((item) => (item.membershipId ? `membership:${item.membershipId}` : `invitation:${item.invitationId}`)),
+    detail: { via: "shipment print" },
   });
   return renderShipmentPdf(course, printed);
 }
