@@ -307,6 +307,28 @@ describe("the problem page", () => {
   });
 });
 
+describe("a resent replacement form", () => {
+  it("finds the replacement already sent and changes nothing", async () => {
+    const { fixture, spareSphereId } = await courseWithShelf();
+    const { problemId } = await reportDamagedSphere(fixture);
+    const input = {
+      courseId: fixture.courseId,
+      actorId: fixture.userIds.instructor,
+      problemId,
+      replacementPartId: spareSphereId,
+      carrier: "Parcelwise",
+      trackingNumber: "PW-R-5",
+      requestKey: crypto.randomUUID(),
+      note: "On its way.",
+    };
+    await sendReplacement(db, input);
+    await sendReplacement(db, input);
+    expect(await db.select().from(shipmentItems).where(eq(shipmentItems.problemId, problemId))).toHaveLength(1);
+    expect((await updatesOf(problemId)).map((update) => update.to)).toEqual(["received", "replacement_sent"]);
+    expect(await studentMail(fixture)).toHaveLength(1);
+  });
+});
+
 describe("who sees and changes a problem", () => {
   it("lets a student see only their own problems, and change none", async () => {
     const { fixture } = await courseWithShelf();

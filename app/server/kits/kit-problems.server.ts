@@ -210,6 +210,7 @@ export async function changeProblemStatus(
  * it goes into the kit in the reported part's place. A broken or lost sphere, column or accessory is
  * retired, as a check-in does; a fluid lot stays in service. The parcel's carrier and tracking number
  * are kept as a replacement shipment for the problem, and the problem becomes "Replacement sent".
+ * The same `requestKey` again finds the replacement already sent and changes nothing.
  */
 export async function sendReplacement(
   executor: Executor,
@@ -235,6 +236,12 @@ export async function sendReplacement(
 ): Promise<void> {
   await executor.transaction(async (tx) => {
     const problem = await lockProblem(tx, courseId, problemId);
+    // The same form sent again (a double click, a resend after a lost answer) finds its replacement sent.
+    const [sent] = await tx
+      .select({ id: shipments.id })
+      .from(shipments)
+      .where(and(eq(shipments.courseId, courseId), eq(shipments.requestKey, requestKey)));
+    if (sent) return;
     if (!canChangeProblem(problem.status, "replacement_sent"))
       throw refused(`This problem is ${kitProblemStatusLabels[problem.status].toLowerCase()}: no replacement can be sent from it now.`);
     if (!(kitStatesAtStudent as readonly string[]).includes(problem.kitState))
