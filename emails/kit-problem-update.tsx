@@ -28,6 +28,9 @@ export default function KitProblemUpdateEmail(props: Props) {
     >
       <Heading>{headings[props.status]}</Heading>
       {props.note ? <Paragraph>{props.note}</Paragraph> : null}
+      {props.replacementLabel && !props.trackingNumber ? (
+        <Paragraph>Its tracking number will show on your kit page as soon as the carrier gives one.</Paragraph>
+      ) : null}
       <FactList facts={facts} />
       <ActionButton href={props.kitUrl}>Open your kit page</ActionButton>
     </EmailLayout>

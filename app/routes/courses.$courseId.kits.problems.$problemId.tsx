@@ -5,7 +5,7 @@ import type { Route } from "./+types/courses.$courseId.kits.problems.$problemId"
 import { FormErrors } from "~/components/kits/kit-moves";
 import { ProblemHistory, ProblemStatusBadge, ReplacementParcel } from "~/components/kits/kit-problems";
 import { Button } from "~/components/ui/button";
-import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
+import { SelectField, TextAreaField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { describePart } from "~/lib/kits/describe-part";
@@ -24,8 +24,6 @@ const problemInput = z.discriminatedUnion("intent", [
   z.object({
     intent: z.literal("replacement"),
     replacementPartId: z.uuid({ error: "Choose the part to send." }),
-    carrier: z.string().trim().min(1, "Name the carrier.").max(60),
-    trackingNumber: z.string().trim().min(3, "Enter the tracking number.").max(60),
     // Made when the page is shown: the same form sent twice is the same replacement.
     requestKey: z.uuid(),
     note: noteToStudent,
@@ -62,9 +60,12 @@ export const action = formAction(async ({ request, context, params, formData }: 
     await changeProblemStatus(db, { ...scope, to: input.to, note: input.note });
     return { intent: input.intent, saved: `Marked ${kitProblemStatusLabels[input.to].toLowerCase()}; the student has been e-mailed.` };
   }
-  const { replacementPartId, carrier, trackingNumber, requestKey, note } = input;
-  await sendReplacement(db, { ...scope, replacementPartId, carrier, trackingNumber, requestKey, note });
-  return { intent: input.intent, saved: "Replacement sent: it is in the kit now, and the student has been e-mailed the tracking number." };
+  const { replacementPartId, requestKey, note } = input;
+  await sendReplacement(db, { ...scope, replacementPartId, requestKey, note });
+  return {
+    intent: input.intent,
+    saved: "Replacement sent: it is in the kit now, its label is being bought, and the student has been e-mailed.",
+  };
 });
 
 export default function KitProblemPage({ loaderData, actionData }: Route.ComponentProps) {
@@ -96,6 +97,11 @@ export default function KitProblemPage({ loaderData, actionData }: Route.Compone
         </h2>
         <p>“{problem.note}”</p>
         <ReplacementParcel replacementLabel={problem.replacementLabel} parcel={problem.parcel} />
+        {problem.parcel ? (
+          <Link to={`/courses/${problem.courseId}/shipments/${problem.parcel.shipmentId}`} className="text-sm underline">
+            The replacement's shipment
+          </Link>
+        ) : null}
       </section>
 
       {canReplace ? (
@@ -136,7 +142,8 @@ function ReplacementForm({
       <input type="hidden" name="requestKey" value={requestKey} />
       <h2 className="font-semibold">Send a replacement</h2>
       <p className="text-sm text-ink-700">
-        The part goes into the kit in place of the reported one; a broken or lost sphere, column or accessory is retired.
+        The part goes into the kit in place of the reported one; a broken or lost sphere, column or accessory is retired. A label for the
+        student's address is bought through the carrier; its tracking number shows here and on the student's kit page.
       </p>
       <FormErrors errors={form.errors} />
       <SelectField label="Part from the shelf" field={fields.replacementPartId} required>
@@ -150,10 +157,6 @@ function ReplacementForm({
           );
         })}
       </SelectField>
-      <div className="grid gap-3 sm:grid-cols-2">
-        <TextField label="Carrier" field={fields.carrier} required />
-        <TextField label="Tracking number" field={fields.trackingNumber} required />
-      </div>
       <TextAreaField label="Note to the student" field={fields.note} rows={2} required />
       <Button type="submit" disabled={navigation.state === "submitting"}>
         Send the replacement and tell the student

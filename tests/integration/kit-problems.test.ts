@@ -1,6 +1,6 @@
 import { and, asc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { emailOutbox, kitEvents, kitParts, kitProblems, kitProblemUpdates, kits, parts, shipmentItems } from "~/db/schema";
+import { emailOutbox, kitEvents, kitParts, kitProblems, kitProblemUpdates, kits, parts, shipmentItems, shipments } from "~/db/schema";
 import { db } from "~/server/db.server";
 import {
   changeProblemStatus,
@@ -155,8 +155,6 @@ describe("status changes", () => {
     await sendReplacement(db, {
       ...scope,
       replacementPartId: spareSphereId,
-      carrier: "Parcelwise",
-      trackingNumber: "PW-R-1",
       requestKey: crypto.randomUUID(),
       note: "A new sphere is in the post.",
     });
@@ -172,7 +170,8 @@ describe("status changes", () => {
       [`ownstudent@problems${fixtures}.example`, "replacement_sent", "A new sphere is in the post."],
       [`ownstudent@problems${fixtures}.example`, "resolved", "Glad it arrived."],
     ]);
-    expect(mail[0].props).toMatchObject({ replacementLabel: "S-2", carrier: "Parcelwise", trackingNumber: "PW-R-1" });
+    // The label is bought after the commit: the e-mail names the part, the kit page gets the tracking.
+    expect(mail[0].props).toMatchObject({ replacementLabel: "S-2", carrier: null, trackingNumber: null });
   });
 
   it("refuses changes the table does not allow, and keeps nothing of them", async () => {
@@ -193,8 +192,6 @@ describe("status changes", () => {
       sendReplacement(db, {
         ...scope,
         replacementPartId: spareSphereId,
-        carrier: "Parcelwise",
-        trackingNumber: "PW-R-2",
         requestKey: crypto.randomUUID(),
         note: "Late.",
       }),
@@ -213,8 +210,6 @@ describe("a replacement sent from the problem", () => {
       actorId: fixture.userIds.instructor,
       problemId,
       replacementPartId,
-      carrier: "Parcelwise",
-      trackingNumber: "PW-R-9",
       requestKey: crypto.randomUUID(),
       note: "On its way.",
     });
@@ -254,6 +249,16 @@ describe("a replacement sent from the problem", () => {
       (row) => row.toStatus === "replacement_sent",
     );
     expect(update.detail).toMatchObject({ replacementPartId: spareSphereId, shipmentItemId: expect.any(String) });
+    const items = await db.select().from(shipmentItems).where(eq(shipmentItems.problemId, problemId));
+    expect(items.map((item) => [item.id, item.kitId, item.status])).toEqual([[update.detail.shipmentItemId, fixture.kitId, "queued"]]);
+    const [shipment] = await db.select().from(shipments).where(eq(shipments.id, items[0].shipmentId));
+    expect(shipment.kind).toBe("replacement");
+
+    // The label job's answer, as it keeps it on the item.
+    await db
+      .update(shipmentItems)
+      .set({ status: "bought", carrier: "Parcelwise", trackingNumber: "PW-R-9" })
+      .where(eq(shipmentItems.id, items[0].id));
 
     const [mine] = await listKitProblems(db, fixture.courseId, { membershipId: fixture.membershipIds.ownStudent });
     expect(mine).toMatchObject({
@@ -316,8 +321,6 @@ describe("a resent replacement form", () => {
       actorId: fixture.userIds.instructor,
       problemId,
       replacementPartId: spareSphereId,
-      carrier: "Parcelwise",
-      trackingNumber: "PW-R-5",
       requestKey: crypto.randomUUID(),
       note: "On its way.",
     };

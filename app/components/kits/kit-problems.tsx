@@ -11,7 +11,7 @@ type ProblemUpdate = {
   note: string | null;
   actor: { name: string } | null;
 };
-type Parcel = { status: string; carrier: string | null; trackingNumber: string | null } | null;
+type Parcel = { status: "queued" | "buying" | "bought" | "failed"; carrier: string | null; trackingNumber: string | null } | null;
 type Problem = {
   id: string;
   kind: KitProblemKind;
@@ -38,7 +38,7 @@ export function ProblemStatusBadge({ status }: { status: KitProblemStatus }) {
   );
 }
 
-/** The replacement parcel's tracking, or why there is none yet (the label is still being bought). */
+/** The replacement parcel's tracking, or why there is none yet: its label is still being bought, or could not be (staff retry it). */
 export function ReplacementParcel({ replacementLabel, parcel }: { replacementLabel: string | null; parcel: Parcel }) {
   if (!replacementLabel && !parcel) return null;
   return (
@@ -46,7 +46,9 @@ export function ReplacementParcel({ replacementLabel, parcel }: { replacementLab
       Replacement{replacementLabel ? ` ${replacementLabel}` : ""}:{" "}
       {parcel?.trackingNumber
         ? `sent with ${parcel.carrier}, tracking number ${parcel.trackingNumber}`
-        : "the parcel's tracking number follows soon"}
+        : parcel?.status === "failed"
+          ? "its label could not be bought yet"
+          : "the parcel's tracking number follows soon"}
     </p>
   );
 }

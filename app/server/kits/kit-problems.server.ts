@@ -2,8 +2,9 @@
  * A student's problem with their kit, followed to the end. A report becomes a problem the instructors
  * are e-mailed about; each change of its status (the rule is in app/lib/kits/kit-problem-states.ts)
  * is kept with a note to the student, who is e-mailed through the outbox. A replacement part is sent
- * from the problem: it takes the reported part's place in the kit, and its parcel's tracking is kept
- * on a shipment item for the problem.
+ * from the problem: it takes the reported part's place in the kit, and its label is bought through
+ * the carrier as a replacement shipment (app/server/shipping/shipments.server.ts), whose item keeps
+ * the tracking for the problem.
  */
 import { and, asc, count, desc, eq, getTableColumns, inArray, isNull, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
@@ -35,6 +36,7 @@ import { appUrl } from "~/server/config.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { jsonRows, orNull } from "~/server/json-rows.server";
+import { createShipment } from "~/server/shipping/shipments.server";
 
 type KitProblemPartKind = (typeof parts.$inferSelect)["kind"];
 
@@ -208,8 +210,8 @@ export async function changeProblemStatus(
  * Sends a replacement part from the shelf for a problem, in one transaction: the part must be of the
  * reported part's kind, in service and in no kit (a fluid lot: with a bottle in stock, which it takes);
  * it goes into the kit in the reported part's place. A broken or lost sphere, column or accessory is
- * retired, as a check-in does; a fluid lot stays in service. The parcel's carrier and tracking number
- * are kept as a replacement shipment for the problem, and the problem becomes "Replacement sent".
+ * retired, as a check-in does; a fluid lot stays in service. A label is bought for it as a replacement
+ * shipment (after the commit, by the label job), and the problem becomes "Replacement sent".
  * The same `requestKey` again finds the replacement already sent and changes nothing.
  */
 export async function sendReplacement(
@@ -219,20 +221,9 @@ export async function sendReplacement(
     actorId,
     problemId,
     replacementPartId,
-    carrier,
-    trackingNumber,
     requestKey,
     note,
-  }: {
-    courseId: string;
-    actorId: string;
-    problemId: string;
-    replacementPartId: string;
-    carrier: string;
-    trackingNumber: string;
-    requestKey: string;
-    note: string;
-  },
+  }: { courseId: string; actorId: string; problemId: string; replacementPartId: string; requestKey: string; note: string },
 ): Promise<void> {
   await executor.transaction(async (tx) => {
     const problem = await lockProblem(tx, courseId, problemId);
@@ -284,20 +275,23 @@ export async function sendReplacement(
       note,
       detail: { partId: problem.partId, partIds: [replacement.id] },
     });
-    const [shipment] = await tx
-      .insert(shipments)
-      .values({ courseId, kind: "replacement", requestKey, createdById: actorId })
-      .returning({ id: shipments.id });
+    const { shipmentId } = await createShipment(tx, {
+      courseId,
+      actorId,
+      kind: "replacement",
+      requestKey,
+      items: [{ kitId: problem.kitId, problemId }],
+    });
     const [item] = await tx
-      .insert(shipmentItems)
-      .values({ shipmentId: shipment.id, kitId: problem.kitId, problemId, status: "bought", carrier, trackingNumber })
-      .returning({ id: shipmentItems.id });
+      .select({ id: shipmentItems.id })
+      .from(shipmentItems)
+      .where(and(eq(shipmentItems.shipmentId, shipmentId), eq(shipmentItems.kitId, problem.kitId)));
     await recordChange(tx, courseId, problem, {
       actorId,
       to: "replacement_sent",
       note,
       detail: { replacementPartId: replacement.id, shipmentItemId: item.id },
-      replacement: { partId: replacement.id, label: replacement.label, carrier, trackingNumber },
+      replacement: { partId: replacement.id, label: replacement.label, carrier: null, trackingNumber: null },
     });
   });
 }
@@ -386,7 +380,13 @@ function problemChildren() {
       sql`${kitProblemUpdates.createdAt}`,
     ),
     parcels: jsonRows(
-      { id: shipmentItems.id, status: shipmentItems.status, carrier: shipmentItems.carrier, trackingNumber: shipmentItems.trackingNumber },
+      {
+        id: shipmentItems.id,
+        shipmentId: shipmentItems.shipmentId,
+        status: shipmentItems.status,
+        carrier: shipmentItems.carrier,
+        trackingNumber: shipmentItems.trackingNumber,
+      },
       sql`from ${shipmentItems} where ${shipmentItems.problemId} = ${kitProblems.id}`,
       sql`${shipmentItems.createdAt} desc`,
     ),
