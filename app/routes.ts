@@ -27,6 +27,8 @@ export default [
     ...prefix("kits", [
       index("routes/courses.$courseId.kits._index.tsx"),
       route("new", "routes/courses.$courseId.kits.new.tsx"),
+      route("overdue", "routes/courses.$courseId.kits.overdue.tsx"),
+      route("check-in", "routes/courses.$courseId.kits.check-in.tsx"),
       route(":kitId", "routes/courses.$courseId.kits.$kitId._index.tsx"),
     ]),
     ...prefix("parts", [

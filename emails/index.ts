@@ -2,6 +2,7 @@
 import type { ComponentType } from "react";
 import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
 import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
+import KitOverdueEmail, { subject as kitOverdueSubject } from "./kit-overdue";
 import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
 import KitShippedEmail, { subject as kitShippedSubject } from "./kit-shipped";
 import MarksReleasedEmail, { subject as marksReleasedSubject } from "./marks-released";
@@ -28,5 +29,6 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
   },
   "kit-shipped": { Component: KitShippedEmail, subject: kitShippedSubject, previewProps: KitShippedEmail.PreviewProps },
   "kit-problem": { Component: KitProblemEmail, subject: kitProblemSubject, previewProps: KitProblemEmail.PreviewProps },
+  "kit-overdue": { Component: KitOverdueEmail, subject: kitOverdueSubject, previewProps: KitOverdueEmail.PreviewProps },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
 };

@@ -51,6 +51,14 @@ export const templatePropsSchemas = {
     note: z.string().trim().min(1).max(1000),
     kitUrl: link,
   }),
+  "kit-overdue": z.object({
+    courseTitle: oneLine,
+    kitNumber: oneLine,
+    returnBy: oneLine,
+    daysOverdue: z.number().int().positive(),
+    returnAddress: z.array(oneLine).max(8),
+    kitUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -76,6 +84,15 @@ export type EmailTemplates = {
     partLabel: string | null;
     problem: "missing" | "damaged" | "incomplete";
     note: string;
+    kitUrl: string;
+  };
+  "kit-overdue": {
+    courseTitle: string;
+    kitNumber: string;
+    returnBy: string;
+    daysOverdue: number;
+    /** The course's return address, one line each; empty when the course has not set one. */
+    returnAddress: string[];
     kitUrl: string;
   };
 };

@@ -9,9 +9,10 @@ import { deliverOutboxEmail, markEmailFailed } from "~/server/email/deliver-emai
 import type { EmailTransport } from "~/server/email/email-transport.server";
 import type { EmailDeliveryJob } from "~/server/email/send-email.server";
 import { runRereduction, type RereductionJob } from "~/server/kits/rereduce.server";
+import { sendOverdueReminders } from "~/server/kits/returns.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
 import { logger } from "~/server/log.server";
-import { createBoss, createQueues, housekeepingCron, queues } from "./boss.server";
+import { createBoss, createQueues, housekeepingCron, kitReturnRemindersCron, queues } from "./boss.server";
 import { sweepExpiredRows } from "./housekeeping.server";
 
 export type Worker = { stop(): Promise<void> };
@@ -92,6 +93,7 @@ export async function startWorker(options: {
   await createQueues(boss);
   // Idempotent: every worker (re)writes the same schedule, and pg-boss's cron sends one job per tick.
   await boss.schedule(queues.housekeeping, housekeepingCron, {}, { tz: "UTC" });
+  await boss.schedule(queues.kitReturnReminders, kitReturnRemindersCron, {}, { tz: "UTC" });
 
   const pollingIntervalMs = (options.pollingIntervalSeconds ?? 2) * 1000;
   const stoppers = [
@@ -151,6 +153,16 @@ export async function startWorker(options: {
       async (job, jobLog) => {
         const outcome = await runRereduction(database, job.data.runId);
         jobLog(`re-reduction ${job.data.runId}: ${outcome.revised} revised, ${outcome.unreducible.length} not reducible`);
+      },
+      log,
+    ),
+    runJobs(
+      boss,
+      queues.kitReturnReminders,
+      pollingIntervalMs,
+      async (_job, jobLog) => {
+        const outcome = await sendOverdueReminders(database);
+        jobLog(`kit return reminders: ${outcome.sent} sent`);
       },
       log,
     ),
