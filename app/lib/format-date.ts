@@ -12,7 +12,7 @@ const styles = {
   long: { weekday: "short", day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" },
   /** Thu 3 Dec, 09:05 — table cells */
   short: { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" },
-  /** Friday 28 May 2027 — a calendar day, such as a return-by date */
+  /** Friday, 28 May 2027 — a calendar day, such as a return-by date */
   day: { weekday: "long", day: "numeric", month: "long", year: "numeric" },
   /** 09:05:12 — a moment of the last few minutes, such as a draft's save */
   time: { timeStyle: "medium" },

@@ -129,7 +129,7 @@ export default function BulkCheckIn({ loaderData, actionData }: Route.ComponentP
               {comingBack.map((kit) => (
                 <label key={kit.id} className="flex items-center gap-2 py-1">
                   <input type="checkbox" name="kit" value={kit.id} className="size-5" />
-                  Kit {kit.number}
+                  {`Kit ${kit.number}`}
                   <span className="text-sm text-ink-600">{kit.holderName ?? ""}</span>
                 </label>
               ))}
@@ -157,8 +157,9 @@ export default function BulkCheckIn({ loaderData, actionData }: Route.ComponentP
       ) : null}
       {leftOut > 0 && done === null ? (
         <Notice tone="error">
-          {leftOut === 1 ? "1 chosen kit is" : `${leftOut} chosen kits are`} not coming back (or not in this course) and{" "}
-          {leftOut === 1 ? "is" : "are"} left out.
+          {leftOut === 1
+            ? "1 chosen kit is not coming back (or not in this course) and is left out."
+            : `${leftOut} chosen kits are not coming back (or not in this course) and are left out.`}
         </Notice>
       ) : null}
       {kits.length === 0 ? null : (
@@ -172,7 +173,7 @@ export default function BulkCheckIn({ loaderData, actionData }: Route.ComponentP
             return (
               <fieldset key={row.key ?? kitIndex} className="rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
                 <legend className="px-1 font-semibold">
-                  Kit {kit.number}
+                  {`Kit ${kit.number}`}
                   {kit.studentName ? <span className="font-normal text-ink-600"> from {kit.studentName}</span> : null}
                   {kit.returnTrackingNumber ? (
                     <span className="ml-2 text-sm font-normal text-ink-600">

@@ -126,6 +126,8 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
         ) : null}
       </PageHeader>
       {actionData && "saved" in actionData ? <Notice tone="success">{actionData.saved}</Notice> : null}
+      {/* A refused return of a kit that is no longer at home: its form is gone, so the reason is told here. */}
+      {kit.state !== "at_home" && backForm.errors?.length ? <Notice tone="error">{backForm.errors.join(" ")}</Notice> : null}
 
       {kit.state === "in_transit" ? (
         <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10" {...getFormProps(arrivedForm)}>
