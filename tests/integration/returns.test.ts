@@ -2,10 +2,13 @@
  * Kits coming back: the course's return settings, a student's return parcel, the overdue list at a
  * fixed clock, the reminders (once per kit and day), and the bulk check-in that records every part.
  */
-import { and, eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, courseMemberships, courses, emailOutbox, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
 import { db } from "~/server/db.server";
+import { smtpTransport } from "~/server/email/email-transport.server";
+import { kitReturnRemindersCron, queues } from "~/server/jobs/boss.server";
+import { startWorker } from "~/server/jobs/worker.server";
 import { checkInKits, createKit, moveKits } from "~/server/kits/kits.server";
 import { listOverdueKits, sendKitBack, sendOverdueReminders } from "~/server/kits/returns.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
@@ -31,6 +34,25 @@ const address = {
   "returnAddress.postcode": "H91 TK33",
   "returnAddress.country": "ie",
 };
+
+describe("the reminder job", () => {
+  it("is put on pg-boss's cron by the worker, every hour", async () => {
+    // No mail is sent here: the transport only has to exist.
+    const worker = await startWorker({
+      connectionString: process.env.DATABASE_URL!,
+      transport: smtpTransport("smtp://127.0.0.1:9", "Benchpost <no-reply@benchpost.example>"),
+      log: () => undefined,
+    });
+    try {
+      const schedule = await db.execute<{ cron: string; timezone: string }>(
+        sql`select cron, timezone from pgboss.schedule where name = ${queues.kitReturnReminders}`,
+      );
+      expect(schedule.rows).toEqual([{ cron: kitReturnRemindersCron, timezone: "UTC" }]);
+    } finally {
+      await worker.stop();
+    }
+  });
+});
 
 describe("the course's return settings", () => {
   let fixture: AccessFixture;

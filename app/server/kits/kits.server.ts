@@ -3,7 +3,7 @@
  * checks the state machine, keeps the history and sends the kit-shipped e-mail in the same transaction.
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, count, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { cohorts, courseMemberships, courses, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
 import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
@@ -497,9 +497,14 @@ export async function getKit(executor: Executor, courseId: string, kitId: string
   };
 }
 
-/** The kit a student holds in a course, if any. */
+/** The kit a student holds in a course, if any: a kit still coming back gives way to a new one sent since. */
 export async function findKitOfMember(executor: Executor, membershipId: string): Promise<{ id: string; courseId: string } | null> {
-  const [kit] = await executor.select({ id: kits.id, courseId: kits.courseId }).from(kits).where(eq(kits.holderMembershipId, membershipId));
+  const [kit] = await executor
+    .select({ id: kits.id, courseId: kits.courseId })
+    .from(kits)
+    .where(eq(kits.holderMembershipId, membershipId))
+    .orderBy(sql`${kits.state} = 'coming_back'`, desc(kits.updatedAt))
+    .limit(1);
   return kit ?? null;
 }
 
