@@ -271,15 +271,14 @@ export async function checkInKits(
       .from(kitParts)
       .innerJoin(kits, eq(kits.id, kitParts.kitId))
       .where(inArray(kitParts.kitId, kitIds));
-    for (const checkIn of checkIns) {
-      const partIds = inKits.filter((row) => row.kitId === checkIn.kitId).map((row) => row.partId);
-      const named = [...Object.keys(checkIn.conditions), ...checkIn.remeasure];
-      if (named.some((id) => !partIds.includes(id)))
-        throw new AppError({
-          code: "kit_refused",
-          message: "The check-in names parts that are not in the kit; reload the page and try again.",
-        });
-    }
+    const pair = (kitId: string, partId: string) => `${kitId}:${partId}`;
+    const inKitPairs = new Set(inKits.map((row) => pair(row.kitId, row.partId)));
+    const named = checkIns.flatMap((kit) => [...Object.keys(kit.conditions), ...kit.remeasure].map((partId) => pair(kit.kitId, partId)));
+    if (named.some((key) => !inKitPairs.has(key)))
+      throw new AppError({
+        code: "kit_refused",
+        message: "The check-in names parts that are not in the kit; reload the page and try again.",
+      });
     const conditionOf = (row: (typeof inKits)[number]) => checkInOf.get(row.kitId)?.conditions[row.partId];
     const unrecorded = inKits.filter((row) => !conditionOf(row));
     if (unrecorded.length)
@@ -288,10 +287,11 @@ export async function checkInKits(
         message: `Record the condition of every part: ${[...new Set(unrecorded.map((row) => `kit ${row.kitNumber}`))].join(", ")} has parts without one.`,
       });
     const lost = inKits.filter((row) => conditionOf(row) !== "fine");
-    const isLost = (kitId: string, partId: string) => lost.some((row) => row.kitId === kitId && row.partId === partId);
-    const toRemeasure = checkIns.flatMap((kit) =>
-      kit.remeasure.filter((partId) => !isLost(kit.kitId, partId)).map((partId) => ({ kitId: kit.kitId, partId })),
+    const lostPairs = new Set(lost.map((row) => pair(row.kitId, row.partId)));
+    const remeasured = new Set(
+      checkIns.flatMap((kit) => kit.remeasure.map((partId) => pair(kit.kitId, partId))).filter((key) => !lostPairs.has(key)),
     );
+    const toRemeasure = inKits.filter((row) => remeasured.has(pair(row.kitId, row.partId)));
     // A broken sphere or column is retired; a spilled bottle leaves the rest of its fluid lot in service.
     const retired = lost.filter((row) => row.exclusive).map((row) => row.partId);
     if (retired.length) await tx.update(parts).set({ status: "retired", updatedAt: new Date() }).where(inArray(parts.id, retired));
@@ -317,7 +317,7 @@ export async function checkInKits(
           detail: {
             kitId: row.kitId,
             condition: conditionOf(row)!,
-            remeasure: toRemeasure.some((item) => item.kitId === row.kitId && item.partId === row.partId),
+            remeasure: remeasured.has(pair(row.kitId, row.partId)),
           },
         })),
       );
