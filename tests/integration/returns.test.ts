@@ -488,6 +488,51 @@ describe("checking kits in together", () => {
     expect(kitHistory[0].detail.conditions).toEqual({ [partIdOf("S-2")]: "damaged", [partIdOf("C-2")]: "fine" });
   });
 
+  it("runs the same statements for two kits as for twenty", async () => {
+    const course = await createAccessFixture("check-in-statements");
+    const kitsWithParts = async (count: number, prefix: string) => {
+      const made = await db
+        .insert(kits)
+        .values(
+          Array.from({ length: count }, (_, index) => ({
+            courseId: course.courseId,
+            number: `${prefix}-${index}`,
+            state: "coming_back" as const,
+          })),
+        )
+        .returning({ id: kits.id });
+      const spheres = await db
+        .insert(parts)
+        .values(
+          made.map((_, index) => ({
+            courseId: course.courseId,
+            kind: "sphere" as const,
+            label: `${prefix}-S${index}`,
+            material: "steel",
+            diameterMm: 3,
+            massG: 0.11,
+          })),
+        )
+        .returning({ id: parts.id });
+      await db.insert(kitParts).values(made.map((kit, index) => ({ kitId: kit.id, partId: spheres[index].id })));
+      // One damaged sphere and one sent for re-measuring in every batch, so that every statement runs.
+      return made.map((kit, index) => ({
+        kitId: kit.id,
+        conditions: { [spheres[index].id]: index === 0 ? ("damaged" as const) : ("fine" as const) },
+        remeasure: index === made.length - 1 && index > 0 ? [spheres[index].id] : [],
+      }));
+    };
+    const run = (checkIns: Awaited<ReturnType<typeof kitsWithParts>>) =>
+      countStatements(() => checkInKits(db, { courseId: course.courseId, actorId: course.userIds.instructor, kits: checkIns }));
+    const two = await run([
+      ...(await kitsWithParts(1, "ONE")),
+      ...(await kitsWithParts(1, "TWO")).map((kit) => ({ ...kit, remeasure: Object.keys(kit.conditions) })),
+    ]);
+    const twenty = await run(await kitsWithParts(20, "MANY"));
+    expect(twenty.result.checkedIn).toBe(20);
+    expect(twenty.statements).toBe(two.statements);
+  });
+
   it("is no longer offered as a plain bulk move on the kits list", async () => {
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
     const [kit] = await db.insert(kits).values({ courseId: fixture.courseId, number: "K-06", state: "coming_back" }).returning();
