@@ -90,9 +90,10 @@ export const action = formAction(async ({ request, context, params, formData }: 
     kits: kits.map((kit) => ({
       kitId: kit.kitId,
       conditions: Object.fromEntries(
-        kit.parts
-          .map((part) => [part.partId, part.condition ?? (kit.allFine ? "fine" : undefined)] as const)
-          .filter((entry): entry is [string, PartCondition] => entry[1] !== undefined),
+        kit.parts.flatMap((part) => {
+          const condition: PartCondition | null = part.condition ?? (kit.allFine ? "fine" : null);
+          return condition ? [[part.partId, condition] as const] : [];
+        }),
       ),
       remeasure: kit.parts.filter((part) => part.remeasure).map((part) => part.partId),
     })),
