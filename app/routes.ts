@@ -30,6 +30,8 @@ export default [
       route("problems", "routes/courses.$courseId.kits.problems._index.tsx"),
       route("problems/:problemId", "routes/courses.$courseId.kits.problems.$problemId.tsx"),
       route("tracking-import", "routes/courses.$courseId.kits.tracking-import.tsx"),
+      route("overdue", "routes/courses.$courseId.kits.overdue.tsx"),
+      route("check-in", "routes/courses.$courseId.kits.check-in.tsx"),
       route(":kitId", "routes/courses.$courseId.kits.$kitId._index.tsx"),
     ]),
     ...prefix("parts", [

@@ -2,6 +2,7 @@
 import type { ComponentType } from "react";
 import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
 import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
+import KitOverdueEmail, { subject as kitOverdueSubject } from "./kit-overdue";
 import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
 import KitProblemUpdateEmail, { subject as kitProblemUpdateSubject } from "./kit-problem-update";
 import KitShippedEmail, { subject as kitShippedSubject } from "./kit-shipped";
@@ -34,5 +35,6 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
     subject: kitProblemUpdateSubject,
     previewProps: KitProblemUpdateEmail.PreviewProps,
   },
+  "kit-overdue": { Component: KitOverdueEmail, subject: kitOverdueSubject, previewProps: KitOverdueEmail.PreviewProps },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
 };

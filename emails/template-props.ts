@@ -62,6 +62,14 @@ export const templatePropsSchemas = {
     trackingNumber: oneLine.nullable(),
     kitUrl: link,
   }),
+  "kit-overdue": z.object({
+    courseTitle: oneLine,
+    kitNumber: oneLine,
+    returnBy: oneLine,
+    daysOverdue: z.number().int().positive(),
+    returnAddress: z.array(oneLine).max(8),
+    kitUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -98,6 +106,15 @@ export type EmailTemplates = {
     replacementLabel: string | null;
     carrier: string | null;
     trackingNumber: string | null;
+    kitUrl: string;
+  };
+  "kit-overdue": {
+    courseTitle: string;
+    kitNumber: string;
+    returnBy: string;
+    daysOverdue: number;
+    /** The course's return address, one line each; empty when the course has not set one. */
+    returnAddress: string[];
     kitUrl: string;
   };
 };

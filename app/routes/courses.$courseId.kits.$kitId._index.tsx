@@ -16,7 +16,7 @@ import { canOpenKit, requireCourseRole, staffRoles, type CourseAccess } from "~/
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { listKitProblems } from "~/server/kits/kit-problems.server";
-import { checkInKit, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
+import { checkInKits, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
 import { isEntityId } from "~/lib/forms/ids";
 
 async function loadKitFor(access: CourseAccess, kitId: string | undefined) {
@@ -53,7 +53,12 @@ export const action = formAction(async ({ request, context, params, formData }: 
   else {
     const conditions = Object.fromEntries(input.parts.map((part) => [part.partId, part.condition]));
     const remeasure = input.parts.filter((part) => part.remeasure).map((part) => part.partId);
-    await checkInKit(db, { courseId: base.courseId, actorId: base.actorId, kitId: kit.id, conditions, remeasure, note: input.note });
+    await checkInKits(db, {
+      courseId: base.courseId,
+      actorId: base.actorId,
+      kits: [{ kitId: kit.id, conditions, remeasure }],
+      note: input.note,
+    });
   }
   return { intent: input.intent, saved: true as const };
 });
@@ -84,6 +89,11 @@ export default function KitPage({ loaderData, actionData }: Route.ComponentProps
         {kit.trackingNumber ? (
           <span className="ml-2 text-sm">
             · {kit.carrier} {kit.trackingNumber}, sent {kit.shippedOn}
+          </span>
+        ) : null}
+        {kit.returnTrackingNumber ? (
+          <span className="ml-2 text-sm">
+            · back with {kit.returnCarrier} {kit.returnTrackingNumber}, sent {kit.returnShippedOn}
           </span>
         ) : null}
       </PageHeader>

@@ -17,8 +17,11 @@ import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { listKits, moveKits } from "~/server/kits/kits.server";
 
-/** Moves that need nothing more than a note can be applied to many kits at once. */
-const bulkTargets = ["at_home", "coming_back", "checked_in", "on_shelf", "retired"] as const;
+/**
+ * Moves that need nothing more than a note can be applied to many kits at once. Checking in needs each
+ * part's condition: it has its own page (`kits/check-in`).
+ */
+const bulkTargets = ["at_home", "coming_back", "on_shelf", "retired"] as const;
 
 const bulkMove = z.object({
   intent: z.literal("bulk-move"),
@@ -79,8 +82,19 @@ const columns: ColumnDef<KitRow, unknown>[] = [
   { header: "Parts", cell: ({ row }) => row.original.partCount },
   {
     header: "Shipping",
-    cell: ({ row }) =>
-      row.original.trackingNumber ? `${row.original.carrier} ${row.original.trackingNumber} (${row.original.shippedOn})` : "",
+    cell: ({ row }) => {
+      const kit = row.original;
+      return (
+        <>
+          {kit.trackingNumber ? `${kit.carrier} ${kit.trackingNumber} (${kit.shippedOn})` : ""}
+          {kit.returnTrackingNumber ? (
+            <span className="block text-xs text-ink-600">
+              Back: {kit.returnCarrier} {kit.returnTrackingNumber} ({kit.returnShippedOn})
+            </span>
+          ) : null}
+        </>
+      );
+    },
   },
   {
     header: "Reports",
@@ -118,6 +132,12 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
               <Link to="tracking-import" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Import tracking numbers (CSV)
               </Link>
+              <Link to="check-in" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+                Check kits in
+              </Link>
+              <Link to="overdue" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+                Overdue kits
+              </Link>
               <a href={`/courses/${courseId}/inventory.csv`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Export inventory (CSV)
               </a>
@@ -125,7 +145,14 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
           ) : undefined
         }
       >
-        {canChange ? null : "You see the kits of your cohorts' students; only instructors change them."}
+        {canChange ? null : (
+          <>
+            You see the kits of your cohorts' students; only instructors change them.{" "}
+            <Link to="overdue" className="underline">
+              Overdue kits
+            </Link>
+          </>
+        )}
       </PageHeader>
       <Form method="get" className="no-print flex flex-wrap items-end gap-3" role="search">
         <label className="flex flex-col text-sm">
@@ -168,39 +195,49 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
         rowLabel={(kit) => `kit ${kit.number}`}
         empty="No kits match. Make up a kit from parts on the shelf."
         renderSelectionActions={(kitIds, clear) => (
-          <fetcher.Form
-            method="post"
-            className="flex flex-wrap items-center gap-2"
-            {...getFormProps(form)}
-            onSubmit={(event) => {
-              form.onSubmit(event);
-              if (!event.defaultPrevented) clear();
-            }}
-          >
-            <input type="hidden" name="intent" value="bulk-move" />
-            {kitIds.map((id) => (
-              <input key={id} type="hidden" name="kitIds" value={id} />
-            ))}
-            <label className="flex items-center gap-2">
-              Move to
-              <select {...getSelectProps(fields.to)} required className="rounded-md border border-ink-900/20 bg-white px-2 py-1">
-                {bulkTargets.map((state) => (
-                  <option key={state} value={state}>
-                    {kitStateLabels[state]}
-                  </option>
-                ))}
-              </select>
-            </label>
-            <input
-              {...getInputProps(fields.note, { type: "text" })}
-              placeholder="Note (optional)"
-              aria-label="Note"
-              className="rounded-md border border-ink-900/20 bg-white px-2 py-1"
-            />
-            <Button type="submit" disabled={fetcher.state !== "idle"}>
-              {fetcher.state !== "idle" ? "Moving…" : "Apply"}
-            </Button>
-          </fetcher.Form>
+          <>
+            <Form method="get" action="check-in">
+              {kitIds.map((id) => (
+                <input key={id} type="hidden" name="kit" value={id} />
+              ))}
+              <Button type="submit" variant="secondary">
+                Check in…
+              </Button>
+            </Form>
+            <fetcher.Form
+              method="post"
+              className="flex flex-wrap items-center gap-2"
+              {...getFormProps(form)}
+              onSubmit={(event) => {
+                form.onSubmit(event);
+                if (!event.defaultPrevented) clear();
+              }}
+            >
+              <input type="hidden" name="intent" value="bulk-move" />
+              {kitIds.map((id) => (
+                <input key={id} type="hidden" name="kitIds" value={id} />
+              ))}
+              <label className="flex items-center gap-2">
+                Move to
+                <select {...getSelectProps(fields.to)} required className="rounded-md border border-ink-900/20 bg-white px-2 py-1">
+                  {bulkTargets.map((state) => (
+                    <option key={state} value={state}>
+                      {kitStateLabels[state]}
+                    </option>
+                  ))}
+                </select>
+              </label>
+              <input
+                {...getInputProps(fields.note, { type: "text" })}
+                placeholder="Note (optional)"
+                aria-label="Note"
+                className="rounded-md border border-ink-900/20 bg-white px-2 py-1"
+              />
+              <Button type="submit" disabled={fetcher.state !== "idle"}>
+                {fetcher.state !== "idle" ? "Moving…" : "Apply"}
+              </Button>
+            </fetcher.Form>
+          </>
         )}
       />
     </div>

@@ -5,18 +5,21 @@ import type { Route } from "./+types/courses.$courseId.my-kit";
 import { KitStateBadge } from "~/components/kit-state-badge";
 import { KitProblemList } from "~/components/kits/kit-problems";
 import { SafetyCautions } from "~/components/safety-cautions";
-import { SelectField, TextAreaField } from "~/components/ui/field";
+import { parcelInput } from "~/components/kits/kit-input";
+import { SelectField, TextAreaField, TextField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { describePart } from "~/lib/kits/describe-part";
 import { AppError } from "~/lib/app-error";
+import { calendarDayIn, formatCalendarDay } from "~/lib/format-date";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole, type RequestScope } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { listKitProblems, reportKitProblem } from "~/server/kits/kit-problems.server";
 import { confirmArrival, findKitOfMember, getKit } from "~/server/kits/kits.server";
+import { addressLines, returnSettingsOf, sendKitBack } from "~/server/kits/returns.server";
 
 const myKitAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("arrived"), complete: z.enum(["yes", "no"]), note: z.string().trim().max(1000).optional() }),
@@ -26,6 +29,7 @@ const myKitAction = z.discriminatedUnion("intent", [
     problem: z.enum(["missing", "damaged"], { error: "Say whether the part is missing or damaged." }),
     note: z.string().trim().min(3, "Describe what is wrong in a few words.").max(1000),
   }),
+  z.object({ intent: z.literal("send-back"), ...parcelInput }),
 ]);
 
 async function loadMyKit(scope: RequestScope, courseId: string | undefined) {
@@ -39,10 +43,20 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   // Their own reports only: a problem is the student's who reported it, whichever kit it was on.
   const problems = await listKitProblems(db, access.course.id, { membershipId: access.membership.id });
   const timeZone = access.course.timeZone;
-  if (!kit) return { kit: null, problems, timeZone };
+  if (!kit) return { kit: null, problems, timeZone, returnBy: null, returnAddress: [], today: "" };
+  const settings = await returnSettingsOf(db, access.course.id);
+  // A kit asked back early has its own date.
+  const returnBy = kit.returnBy ?? settings.kitReturnBy;
   // The student sees their kit's parts and its journey, not the staff's notes on it.
   const { events: _events, holder: _holder, ...mine } = kit;
-  return { kit: mine, problems, timeZone };
+  return {
+    kit: mine,
+    problems,
+    timeZone,
+    returnBy: returnBy ? formatCalendarDay(returnBy) : null,
+    returnAddress: addressLines(settings.returnAddress),
+    today: calendarDayIn(new Date(), timeZone),
+  };
 }
 
 export const action = formAction(async ({ request, params, context, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -52,6 +66,11 @@ export const action = formAction(async ({ request, params, context, formData }: 
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const input = submission.value;
   const scope = { courseId: access.course.id, actorId: access.user.id, kitId: kit.id };
+  if (input.intent === "send-back") {
+    const { intent: _intent, ...shipping } = input;
+    await sendKitBack(db, { ...scope, shipping });
+    return { intent: input.intent, saved: "Thank you: your kit is marked as on its way back." };
+  }
   if (input.intent === "arrived") {
     await confirmArrival(db, { ...scope, complete: input.complete === "yes", note: input.note });
     return { intent: input.intent, saved: "Thank you: your kit is marked as at home." };
@@ -69,7 +88,7 @@ const addressLink = (
 );
 
 export default function MyKit({ loaderData, actionData }: Route.ComponentProps) {
-  const { kit, problems, timeZone } = loaderData;
+  const { kit, problems, timeZone, returnBy, returnAddress, today } = loaderData;
   const navigation = useNavigation();
   const validate = ({ formData }: { formData: FormData }) => parseSubmission(formData, myKitAction);
   const [arrivedForm, arrivedFields] = useForm({
@@ -84,6 +103,14 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
     id: "report",
     lastResult: replyFor(actionData, "report"),
     defaultValue: { partId: "", problem: "damaged" },
+    shouldValidate: "onBlur",
+    shouldRevalidate: "onInput",
+    onValidate: validate,
+  });
+  const [backForm, backFields] = useForm({
+    id: "send-back",
+    lastResult: replyFor(actionData, "send-back"),
+    defaultValue: { shippedOn: today },
     shouldValidate: "onBlur",
     shouldRevalidate: "onInput",
     onValidate: validate,
@@ -108,8 +135,15 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
             Sent {kit.shippedOn} with {kit.carrier}, tracking number {kit.trackingNumber}
           </span>
         ) : null}
+        {kit.returnTrackingNumber ? (
+          <span className="ml-2 text-sm">
+            · Sent back {kit.returnShippedOn} with {kit.returnCarrier}, tracking number {kit.returnTrackingNumber}
+          </span>
+        ) : null}
       </PageHeader>
       {actionData && "saved" in actionData ? <Notice tone="success">{actionData.saved}</Notice> : null}
+      {/* A refused return of a kit that is no longer at home: its form is gone, so the reason is told here. */}
+      {kit.state !== "at_home" && backForm.errors?.length ? <Notice tone="error">{backForm.errors.join(" ")}</Notice> : null}
 
       {kit.state === "in_transit" ? (
         <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10" {...getFormProps(arrivedForm)}>
@@ -129,6 +163,41 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
           <TextAreaField label="Anything to add (optional)" field={arrivedFields.note} rows={2} />
           <Button type="submit" disabled={navigation.state === "submitting"}>
             Confirm arrival
+          </Button>
+        </Form>
+      ) : null}
+
+      {returnBy && ["in_transit", "at_home"].includes(kit.state) ? (
+        <p className="rounded-lg bg-paper-100 p-3 text-sm">
+          Please send your kit back by <strong>{returnBy}</strong>.
+        </p>
+      ) : null}
+
+      {kit.state === "at_home" ? (
+        <Form method="post" className="flex flex-col gap-3 rounded-lg bg-white p-4 ring-1 ring-ink-900/10" {...getFormProps(backForm)}>
+          <input type="hidden" name="intent" value="send-back" />
+          <h2 className="font-semibold">Sending your kit back</h2>
+          {returnAddress.length ? (
+            <p className="text-sm">
+              Pack every part as it came and send the parcel to:
+              {returnAddress.map((line) => (
+                <span key={line} className="block font-medium">
+                  {line}
+                </span>
+              ))}
+            </p>
+          ) : (
+            <p className="text-sm">Your instructor will tell you where to send it.</p>
+          )}
+          <p className="text-sm text-ink-700">Once it has left, give the carrier's details so that the course can follow it.</p>
+          {backForm.errors?.length ? <Notice tone="error">{backForm.errors.join(" ")}</Notice> : null}
+          <div className="grid gap-3 sm:grid-cols-3">
+            <TextField label="Carrier" field={backFields.carrier} required />
+            <TextField label="Tracking number" field={backFields.trackingNumber} required />
+            <TextField label="Sent on" field={backFields.shippedOn} type="date" required />
+          </div>
+          <Button type="submit" disabled={navigation.state === "submitting"}>
+            My kit is on its way back
           </Button>
         </Form>
       ) : null}

@@ -8,14 +8,25 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { cohortName, courseInput } from "~/lib/courses/course-input";
+import { reminderDaysText, returnSettingsInput, type ReturnSettingsForm } from "~/lib/courses/return-settings-input";
 import { formList, parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
-import { addCohort, getCourseWithCohorts, renameCohort, setTaCohorts, updateCourse } from "~/server/courses/courses.server";
+import {
+  addCohort,
+  getCourseWithCohorts,
+  renameCohort,
+  setTaCohorts,
+  updateCourse,
+  updateReturnSettings,
+} from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 
+const returnsIntent = returnSettingsInput.extend({ intent: z.literal("returns") });
+
 const settingsIntent = z.discriminatedUnion("intent", [
   courseInput.extend({ intent: z.literal("course") }),
+  returnsIntent,
   z.object({ intent: z.literal("add-cohort"), name: cohortName }),
   z.object({ intent: z.literal("rename-cohort"), cohortId: z.uuid(), name: cohortName }),
   z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: formList(z.uuid()) }),
@@ -38,6 +49,9 @@ export const action = formAction(async ({ request, context, params, formData }: 
   if (input.intent === "course") {
     const { intent: _intent, ...course } = input;
     await updateCourse(db, { courseId, actorId, input: course });
+  } else if (input.intent === "returns") {
+    const { intent: _intent, ...returns } = input;
+    await updateReturnSettings(db, { courseId, actorId, input: returns });
   } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
   else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
   else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
@@ -48,7 +62,7 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
   const { course, cohorts, tas, timeZones } = loaderData;
   const [search] = useSearchParams();
   const navigation = useNavigation();
-  const { createdAt: _createdAt, ...courseValues } = course;
+  const { createdAt: _createdAt, returnAddress, kitReturnBy, kitReturnReminderDays, ...courseValues } = course;
   const [courseForm, courseFields] = useForm({
     id: "course",
     lastResult: replyFor(actionData, "course"),
@@ -60,6 +74,14 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
     shouldValidate: "onBlur",
     onValidate: ({ formData }) => parseSubmission(formData, settingsIntent),
   });
+  const [returnsForm, returnsFields] = useForm<ReturnSettingsForm, z.output<typeof returnsIntent>>({
+    id: "returns",
+    lastResult: replyFor(actionData, "returns"),
+    defaultValue: { kitReturnBy: kitReturnBy ?? "", kitReturnReminderDays: reminderDaysText(kitReturnReminderDays), returnAddress },
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, returnsIntent),
+  });
+  const address = returnsFields.returnAddress.getFieldset();
   const [addForm, addFields] = useForm({ id: "add-cohort", lastResult: replyFor(actionData, "add-cohort") });
   const renameErrors = replyFor(actionData, "rename-cohort")?.error;
   return (
@@ -78,6 +100,47 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
           <CourseFields fields={courseFields} timeZones={timeZones} />
           <Button type="submit" disabled={navigation.state === "submitting"}>
             Save the course
+          </Button>
+        </Form>
+      </section>
+
+      <section aria-labelledby="returns-heading" className="max-w-xl">
+        <h2 id="returns-heading" className="mb-1 text-lg font-semibold">
+          Kit returns
+        </h2>
+        <p className="mb-3 text-sm text-ink-700">
+          Students see the return-by date and the return address on My kit. A kit still at home after that day is on the overdue list, and
+          its student is e-mailed on each reminder day.
+        </p>
+        <Form method="post" className="flex flex-col gap-4" {...getFormProps(returnsForm)}>
+          <input type="hidden" name="intent" value="returns" />
+          {returnsForm.errors?.length ? <Notice tone="error">{returnsForm.errors.join(" ")}</Notice> : null}
+          <TextField
+            label="Return by"
+            type="date"
+            field={returnsFields.kitReturnBy}
+            hint={`The whole day counts, in the course's time zone (${course.timeZone}). Leave it empty for no return date.`}
+          />
+          <TextField
+            label="Reminder days"
+            field={returnsFields.kitReturnReminderDays}
+            hint="Days after the return-by date on which a student whose kit is still at home is reminded, e.g. 1, 7."
+          />
+          <fieldset className="flex flex-col gap-3">
+            <legend className="mb-1 text-sm font-medium">Return address (the sender on every label, and where kits come back)</legend>
+            <TextField label="Name" field={address.name} placeholder="e.g. Fluids Lab, Department of Physics" />
+            <TextField label="Address line 1" field={address.line1} />
+            <TextField label="Address line 2 (optional)" field={address.line2} />
+            <div className="grid gap-3 sm:grid-cols-2">
+              <TextField label="Town or city" field={address.city} />
+              <TextField label="County, state or region (optional)" field={address.region} />
+              <TextField label="Postcode (where the country has one)" field={address.postcode} />
+              <TextField label="Country (two-letter code)" field={address.country} placeholder="e.g. IE" />
+            </div>
+            <TextField label="Phone (optional)" field={address.phone} type="tel" />
+          </fieldset>
+          <Button type="submit" disabled={navigation.state === "submitting"}>
+            Save kit returns
           </Button>
         </Form>
       </section>

@@ -80,6 +80,11 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/kits", instructorOnly(400)),
   row("GET", "/courses/:courseId/kits/new", instructorOnly(200)),
   row("POST", "/courses/:courseId/kits/new", instructorOnly(400)),
+  // Kits not back after the return-by date: staff (a TA sees their cohorts' kits), read-only.
+  row("GET", "/courses/:courseId/kits/overdue", staffOnly(200)),
+  // Checking kits in at the bench is the instructors'; the probe names no kits: 400.
+  row("GET", "/courses/:courseId/kits/check-in", instructorOnly(200)),
+  row("POST", "/courses/:courseId/kits/check-in", instructorOnly(400)),
   row("GET", "/courses/:courseId/kits/:kitId", cohortStaff(200)),
   row("POST", "/courses/:courseId/kits/:kitId", instructorOnly(400)),
   row("GET", "/courses/:courseId/kits/:kitId/packing-slip", instructorOnly(200)),

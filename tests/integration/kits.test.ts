@@ -3,7 +3,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { emailOutbox, kitEvents, kitParts, kits, partEvents, parts } from "~/db/schema";
 import { db } from "~/server/db.server";
 import { reportKitProblem } from "~/server/kits/kit-problems.server";
-import { checkInKit, confirmArrival, createKit, listKits, moveKits } from "~/server/kits/kits.server";
+import { checkInKits, confirmArrival, createKit, listKits, moveKits } from "~/server/kits/kits.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { type AppHandler, appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countStatements } from "../support/count-statements";
@@ -79,11 +79,9 @@ describe("a kit's journey", () => {
 
     await confirmArrival(db, { ...base(), actorId: fixture.userIds.sameCohortStudent, kitId: kit.id, complete: true });
     await moveKits(db, { ...base(), kitIds: [kit.id], move: { to: "coming_back" } });
-    await checkInKit(db, {
+    await checkInKits(db, {
       ...base(),
-      kitId: kit.id,
-      conditions: { [sphereId]: "damaged", [fluidLotId]: "missing" },
-      remeasure: [columnId],
+      kits: [{ kitId: kit.id, conditions: { [sphereId]: "damaged", [columnId]: "fine", [fluidLotId]: "missing" }, remeasure: [columnId] }],
     });
 
     const after = await kitState(kit.id);

@@ -12,7 +12,7 @@ import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
 import { courseOverview } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
 import { ensureDropLog, handInDropLog } from "~/server/drop-logs/hand-in.server";
-import { checkInKit } from "~/server/kits/kits.server";
+import { checkInKits } from "~/server/kits/kits.server";
 import { createPart } from "~/server/kits/parts.server";
 import { createAccessFixture } from "../support/access-fixture";
 import { appRequest, createAppHandler, sessionCookieFor, type AppHandler } from "../support/app-requests";
@@ -239,7 +239,11 @@ describe("links on the staff's kit and part pages", () => {
       { kitId: shelfKit.id, partId: shelfSphere.id },
       { kitId: shelfKit.id, partId: fluidLotId, exclusive: false },
     ]);
-    await checkInKit(db, { courseId: course, actorId: fixture.userIds.instructor, kitId: shelfKit.id, conditions: {}, remeasure: [] });
+    await checkInKits(db, {
+      courseId: course,
+      actorId: fixture.userIds.instructor,
+      kits: [{ kitId: shelfKit.id, conditions: { [shelfSphere.id]: "fine", [fluidLotId]: "fine" }, remeasure: [] }],
+    });
     const day = 24 * 3600 * 1000;
     const [otherLab] = await db
       .insert(labs)

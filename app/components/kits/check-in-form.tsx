@@ -13,7 +13,7 @@ export function CheckInForm({ parts, lastResult }: { parts: KitPart[]; lastResul
   const [form, fields] = useForm({
     id: "check-in",
     lastResult,
-    defaultValue: { parts: parts.map((part) => ({ partId: part.id, condition: "fine" })) },
+    defaultValue: { parts: parts.map((part) => ({ partId: part.id })) },
     shouldValidate: "onBlur",
     shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, kitInput),
@@ -52,12 +52,18 @@ export function CheckInForm({ parts, lastResult }: { parts: KitPart[]; lastResul
                       aria-label={`Condition of ${label}`}
                       className="rounded border border-ink-900/20 px-2 py-1"
                     >
+                      <option value="">Choose…</option>
                       {partConditions.map((condition) => (
                         <option key={condition} value={condition}>
                           {condition}
                         </option>
                       ))}
                     </select>
+                    {cells.condition.errors?.length ? (
+                      <p id={cells.condition.errorId} className="mt-1 text-outlier">
+                        {cells.condition.errors.join(" ")}
+                      </p>
+                    ) : null}
                   </td>
                   <td className="py-1">
                     <input {...getInputProps(cells.remeasure, { type: "checkbox" })} aria-label={`Send ${label} for re-measurement`} />

@@ -5,6 +5,7 @@ import { AppError } from "~/lib/app-error";
 import { and, asc, count, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { cohorts, courseMemberships, courses, kits, taCohortAssignments, users } from "~/db/schema";
 import type { CourseInput } from "~/lib/courses/course-input";
+import type { ReturnSettingsInput } from "~/lib/courses/return-settings-input";
 import type { KitState } from "~/lib/kits/kit-states";
 import { recordAudit } from "~/server/audit.server";
 import { kitCohortScope, type CourseAccess } from "~/server/auth/access.server";
@@ -43,6 +44,17 @@ export async function updateCourse(
         message: `Another course ${input.code} already exists for ${input.term}.`,
         field: "code",
       });
+    await tx.update(courses).set(input).where(eq(courses.id, courseId));
+    await recordAudit(tx, { courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
+  });
+}
+
+/** The kits' return-by date, reminder days and return address, audited like the other settings. */
+export async function updateReturnSettings(
+  executor: Executor,
+  { courseId, actorId, input }: { courseId: string; actorId: string; input: ReturnSettingsInput },
+): Promise<void> {
+  await executor.transaction(async (tx) => {
     await tx.update(courses).set(input).where(eq(courses.id, courseId));
     await recordAudit(tx, { courseId, actorId, action: "course.settings_changed", subject: `course:${courseId}`, detail: { ...input } });
   });

@@ -26,12 +26,20 @@ export const queues = {
   reductionRevision: "reduction-revision",
   /** One job per shipment (and per "Retry failed"): buys the labels of its queued items. */
   labelPurchase: "label-purchase",
+  /** The hourly round of reminders for kits still at home after their course's return-by date. */
+  kitReturnReminders: "kit-return-reminders",
   /** The nightly sweep of expired sessions, links, rate-limit counters, caught mail and old refusals. */
   housekeeping: "housekeeping",
 } as const;
 
 /** When the worker runs housekeeping: 03:17 UTC, off the hour when other cron work piles up (common practice). */
 export const housekeepingCron = "17 3 * * *";
+
+/**
+ * When the worker sends kit return reminders: every hour (at :41, off the busy hour marks), so that each
+ * course's reminders go out soon after 09:00 in its own time zone (`reminderHour`).
+ */
+export const kitReturnRemindersCron = "41 * * * *";
 
 /**
  * Six attempts over roughly half an hour: 30 s, then about 1, 2, 4 and 8 minutes later (pg-boss doubles
@@ -52,6 +60,7 @@ const queueSettings: PgBoss.Queue[] = [
   { name: queues.reductionRevision, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 600 },
   // A run that dies leaves its items `buying` for ten minutes before another run takes them: the retries outlast that.
   { name: queues.labelPurchase, retryLimit: 5, retryDelay: 60, retryBackoff: true, expireInSeconds: 900 },
+  { name: queues.kitReturnReminders, retryLimit: 2, retryDelay: 300, expireInSeconds: 600 },
   { name: queues.housekeeping, retryLimit: 2, retryDelay: 300, expireInSeconds: 600 },
 ];
 

@@ -9,11 +9,12 @@ import { deliverOutboxEmail, markEmailFailed } from "~/server/email/deliver-emai
 import type { EmailTransport } from "~/server/email/email-transport.server";
 import type { EmailDeliveryJob } from "~/server/email/send-email.server";
 import { runRereduction, type RereductionJob } from "~/server/kits/rereduce.server";
+import { sendOverdueReminders } from "~/server/kits/returns.server";
 import { sendLabReminders, type LabReminderJob } from "~/server/labs/lab-reminders.server";
 import { logger } from "~/server/log.server";
 import { carrierFromEnv, type Carrier } from "~/server/shipping/carrier.server";
 import { buyLabels, type LabelPurchaseJob } from "~/server/shipping/shipments.server";
-import { createBoss, createQueues, housekeepingCron, queues } from "./boss.server";
+import { createBoss, createQueues, housekeepingCron, kitReturnRemindersCron, queues } from "./boss.server";
 import { sweepExpiredRows } from "./housekeeping.server";
 
 export type Worker = { stop(): Promise<void> };
@@ -96,6 +97,7 @@ export async function startWorker(options: {
   await createQueues(boss);
   // Idempotent: every worker (re)writes the same schedule, and pg-boss's cron sends one job per tick.
   await boss.schedule(queues.housekeeping, housekeepingCron, {}, { tz: "UTC" });
+  await boss.schedule(queues.kitReturnReminders, kitReturnRemindersCron, {}, { tz: "UTC" });
 
   const pollingIntervalMs = (options.pollingIntervalSeconds ?? 2) * 1000;
   const carrier = options.carrier === undefined ? carrierFromEnv() : options.carrier;
@@ -166,6 +168,16 @@ export async function startWorker(options: {
       async (job, jobLog) => {
         const outcome = await buyLabels(database, carrier, job.data.shipmentId);
         jobLog(`shipment ${job.data.shipmentId}: ${outcome.bought} labels bought, ${outcome.failed} failed, ${outcome.moved} kits moved`);
+      },
+      log,
+    ),
+    runJobs(
+      boss,
+      queues.kitReturnReminders,
+      pollingIntervalMs,
+      async (_job, jobLog) => {
+        const outcome = await sendOverdueReminders(database);
+        jobLog(`kit return reminders: ${outcome.sent} sent`);
       },
       log,
     ),

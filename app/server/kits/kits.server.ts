@@ -3,7 +3,7 @@
  * checks the state machine, keeps the history and sends the kit-shipped e-mail in the same transaction.
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, count, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import {
   cohorts,
@@ -316,66 +316,92 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
   );
 }
 
+/** One kit back on the bench: the condition of every part, and the parts to send for re-measurement. */
+export type KitCheckIn = { kitId: string; conditions: Record<string, PartCondition>; remeasure: string[] };
+
 /**
- * Checking a kit in: the condition of each part is recorded; a damaged or missing part is taken out
- * of service, and a part can be sent back for re-measurement. The holder is released.
+ * Checking kits in, all in one transaction: every part of every kit needs its condition, given
+ * explicitly (no part is taken as fine by default), so a damaged or missing part cannot be skipped. A
+ * damaged or missing part leaves its kit, and a sphere or column is taken out of service; a part can be
+ * sent for re-measurement. Holders are released. A constant number of statements whatever the number of kits.
  */
-export async function checkInKit(
+export async function checkInKits(
   executor: Executor,
-  {
-    courseId,
-    actorId,
-    kitId,
-    conditions,
-    remeasure,
-    note,
-  }: {
-    courseId: string;
-    actorId: string;
-    kitId: string;
-    conditions: Record<string, PartCondition>;
-    remeasure: string[];
-    note?: string | null;
-  },
-): Promise<void> {
-  await executor.transaction(async (tx) => {
-    await moveKits(tx, { courseId, actorId, kitIds: [kitId], move: { to: "checked_in", note } });
-    const inKit = await tx
-      .select({ partId: kitParts.partId, exclusive: kitParts.exclusive })
+  { courseId, actorId, kits: checkIns, note }: { courseId: string; actorId: string; kits: KitCheckIn[]; note?: string | null },
+): Promise<{ checkedIn: number }> {
+  if (checkIns.length === 0) throw new AppError({ code: "kit_refused", message: "Choose the kits to check in." });
+  const kitIds = checkIns.map((kit) => kit.kitId);
+  const checkInOf = new Map(checkIns.map((kit) => [kit.kitId, kit]));
+  return executor.transaction(async (tx) => {
+    await moveKits(tx, { courseId, actorId, kitIds, move: { to: "checked_in", note } });
+    const inKits = await tx
+      .select({ kitId: kitParts.kitId, kitNumber: kits.number, partId: kitParts.partId, exclusive: kitParts.exclusive })
       .from(kitParts)
-      .where(eq(kitParts.kitId, kitId));
-    const partIds = inKit.map((row) => row.partId);
-    const unknown = [...Object.keys(conditions), ...remeasure].filter((id) => !partIds.includes(id));
-    if (unknown.length) throw new AppError({ code: "kit_refused", message: "The check-in names parts that are not in this kit." });
-    const lost = inKit.filter((row) => conditions[row.partId] === "damaged" || conditions[row.partId] === "missing");
-    const toRemeasure = remeasure.filter((id) => !lost.some((row) => row.partId === id));
+      .innerJoin(kits, eq(kits.id, kitParts.kitId))
+      .where(inArray(kitParts.kitId, kitIds));
+    const pair = (kitId: string, partId: string) => `${kitId}:${partId}`;
+    const inKitPairs = new Set(inKits.map((row) => pair(row.kitId, row.partId)));
+    const named = checkIns.flatMap((kit) => [...Object.keys(kit.conditions), ...kit.remeasure].map((partId) => pair(kit.kitId, partId)));
+    if (named.some((key) => !inKitPairs.has(key)))
+      throw new AppError({
+        code: "kit_refused",
+        message: "The check-in names parts that are not in the kit; reload the page and try again.",
+      });
+    const conditionOf = (row: (typeof inKits)[number]) => checkInOf.get(row.kitId)?.conditions[row.partId];
+    const unrecorded = inKits.filter((row) => !conditionOf(row));
+    if (unrecorded.length)
+      throw new AppError({
+        code: "kit_refused",
+        message: `Record the condition of every part: ${[...new Set(unrecorded.map((row) => `kit ${row.kitNumber}`))].join(", ")} has parts without one.`,
+      });
+    const lost = inKits.filter((row) => conditionOf(row) !== "fine");
+    const lostPairs = new Set(lost.map((row) => pair(row.kitId, row.partId)));
+    const remeasured = new Set(
+      checkIns.flatMap((kit) => kit.remeasure.map((partId) => pair(kit.kitId, partId))).filter((key) => !lostPairs.has(key)),
+    );
+    const toRemeasure = inKits.filter((row) => remeasured.has(pair(row.kitId, row.partId)));
     // A broken sphere or column is retired; a spilled bottle leaves the rest of its fluid lot in service.
     const retired = lost.filter((row) => row.exclusive).map((row) => row.partId);
     if (retired.length) await tx.update(parts).set({ status: "retired", updatedAt: new Date() }).where(inArray(parts.id, retired));
     if (lost.length) {
-      await tx.delete(kitParts).where(
-        and(
-          eq(kitParts.kitId, kitId),
-          inArray(
-            kitParts.partId,
-            lost.map((row) => row.partId),
-          ),
-        ),
+      // By (kit, part): a fluid lot lost from one kit stays in the others.
+      const pairs = sql.join(
+        lost.map((row) => sql`(${row.kitId}::uuid, ${row.partId}::uuid)`),
+        sql`, `,
       );
+      await tx.delete(kitParts).where(sql`(${kitParts.kitId}, ${kitParts.partId}) in (${pairs})`);
     }
     if (toRemeasure.length)
-      await tx.update(parts).set({ status: "remeasure", updatedAt: new Date() }).where(inArray(parts.id, toRemeasure));
-    await tx.insert(partEvents).values(
-      partIds.map((partId) => ({
-        partId,
+      await tx
+        .update(parts)
+        .set({ status: "remeasure", updatedAt: new Date() })
+        .where(inArray(parts.id, [...new Set(toRemeasure.map((row) => row.partId))]));
+    if (inKits.length)
+      await tx.insert(partEvents).values(
+        inKits.map((row) => ({
+          partId: row.partId,
+          actorId,
+          action: "checked_in",
+          detail: {
+            kitId: row.kitId,
+            condition: conditionOf(row)!,
+            remeasure: remeasured.has(pair(row.kitId, row.partId)),
+          },
+        })),
+      );
+    await tx.insert(kitEvents).values(
+      checkIns.map((kit) => ({
+        kitId: kit.kitId,
         actorId,
         action: "checked_in",
-        detail: { kitId, condition: conditions[partId] ?? "fine", remeasure: toRemeasure.includes(partId) },
+        note: note ?? null,
+        detail: {
+          conditions: kit.conditions,
+          remeasure: toRemeasure.filter((item) => item.kitId === kit.kitId).map((item) => item.partId),
+        },
       })),
     );
-    await tx
-      .insert(kitEvents)
-      .values({ kitId, actorId, action: "checked_in", note: note ?? null, detail: { conditions, remeasure: toRemeasure } });
+    return { checkedIn: checkIns.length };
   });
 }
 
@@ -425,6 +451,9 @@ export async function listKits(executor: Executor, courseId: string, query: KitL
         carrier: kits.carrier,
         trackingNumber: kits.trackingNumber,
         shippedOn: kits.shippedOn,
+        returnCarrier: kits.returnCarrier,
+        returnTrackingNumber: kits.returnTrackingNumber,
+        returnShippedOn: kits.returnShippedOn,
         updatedAt: kits.updatedAt,
         holderName: users.name,
         holderEmail: users.email,
@@ -487,9 +516,14 @@ export async function getKit(executor: Executor, courseId: string, kitId: string
   };
 }
 
-/** The kit a student holds in a course, if any. */
+/** The kit a student holds in a course, if any: a kit still coming back gives way to a new one sent since. */
 export async function findKitOfMember(executor: Executor, membershipId: string): Promise<{ id: string; courseId: string } | null> {
-  const [kit] = await executor.select({ id: kits.id, courseId: kits.courseId }).from(kits).where(eq(kits.holderMembershipId, membershipId));
+  const [kit] = await executor
+    .select({ id: kits.id, courseId: kits.courseId })
+    .from(kits)
+    .where(eq(kits.holderMembershipId, membershipId))
+    .orderBy(sql`${kits.state} = 'coming_back'`, desc(kits.updatedAt))
+    .limit(1);
   return kit ?? null;
 }
 
