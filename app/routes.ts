@@ -27,6 +27,8 @@ export default [
     ...prefix("kits", [
       index("routes/courses.$courseId.kits._index.tsx"),
       route("new", "routes/courses.$courseId.kits.new.tsx"),
+      route("problems", "routes/courses.$courseId.kits.problems._index.tsx"),
+      route("problems/:problemId", "routes/courses.$courseId.kits.problems.$problemId.tsx"),
       route("tracking-import", "routes/courses.$courseId.kits.tracking-import.tsx"),
       route(":kitId", "routes/courses.$courseId.kits.$kitId._index.tsx"),
     ]),

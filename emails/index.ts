@@ -3,6 +3,7 @@ import type { ComponentType } from "react";
 import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
 import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
 import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
+import KitProblemUpdateEmail, { subject as kitProblemUpdateSubject } from "./kit-problem-update";
 import KitShippedEmail, { subject as kitShippedSubject } from "./kit-shipped";
 import MarksReleasedEmail, { subject as marksReleasedSubject } from "./marks-released";
 import NoAccountEmail, { subject as noAccountSubject } from "./no-account";
@@ -28,5 +29,10 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
   },
   "kit-shipped": { Component: KitShippedEmail, subject: kitShippedSubject, previewProps: KitShippedEmail.PreviewProps },
   "kit-problem": { Component: KitProblemEmail, subject: kitProblemSubject, previewProps: KitProblemEmail.PreviewProps },
+  "kit-problem-update": {
+    Component: KitProblemUpdateEmail,
+    subject: kitProblemUpdateSubject,
+    previewProps: KitProblemUpdateEmail.PreviewProps,
+  },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
 };

@@ -22,7 +22,7 @@ export default function KitProblemEmail(props: Props) {
           ["Problem", props.problem],
         ]}
       />
-      <ActionButton href={props.kitUrl}>Open the kit</ActionButton>
+      <ActionButton href={props.kitUrl}>Open the problem</ActionButton>
     </EmailLayout>
   );
 }
@@ -34,5 +34,5 @@ KitProblemEmail.PreviewProps = {
   partLabel: "DEMO-S-3",
   problem: "damaged",
   note: "The glass sphere arrived chipped.",
-  kitUrl: "https://benchpost.example/courses/demo/kits/demo-kit",
+  kitUrl: "https://benchpost.example/courses/demo/kits/problems/demo-problem",
 } satisfies Props;

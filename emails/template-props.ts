@@ -51,6 +51,17 @@ export const templatePropsSchemas = {
     note: z.string().trim().min(1).max(1000),
     kitUrl: link,
   }),
+  "kit-problem-update": z.object({
+    courseTitle: oneLine,
+    kitNumber: oneLine,
+    partLabel: oneLine.nullable(),
+    status: z.enum(["received", "replacement_sent", "resolved"]),
+    note: z.string().trim().min(1).max(1000).nullable(),
+    replacementLabel: oneLine.nullable(),
+    carrier: oneLine.nullable(),
+    trackingNumber: oneLine.nullable(),
+    kitUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -76,6 +87,17 @@ export type EmailTemplates = {
     partLabel: string | null;
     problem: "missing" | "damaged" | "incomplete";
     note: string;
+    kitUrl: string;
+  };
+  "kit-problem-update": {
+    courseTitle: string;
+    kitNumber: string;
+    partLabel: string | null;
+    status: "received" | "replacement_sent" | "resolved";
+    note: string | null;
+    replacementLabel: string | null;
+    carrier: string | null;
+    trackingNumber: string | null;
     kitUrl: string;
   };
 };

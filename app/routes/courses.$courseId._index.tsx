@@ -2,6 +2,8 @@ import { Link } from "react-router";
 import type { Route } from "./+types/courses.$courseId._index";
 import { FailedEmailsPanel } from "~/components/failed-emails-panel";
 import { PageHeader } from "~/components/ui/page-header";
+import { formatDateTime } from "~/lib/format-date";
+import { kitProblemKindLabels, kitProblemStatusLabels } from "~/lib/kits/kit-problem-states";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
 import { anyRole, requireCourseRole } from "~/server/auth/access.server";
 import { courseOverview } from "~/server/courses/courses.server";
@@ -16,7 +18,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 }
 
 export default function CourseOverview({ loaderData }: Route.ComponentProps) {
-  const { role, timeZone, counts, kitsByState, myKit, failedEmails, openReports } = loaderData;
+  const { role, timeZone, counts, kitsByState, myKit, failedEmails, openProblems } = loaderData;
   if (role === "student") {
     return (
       <section>
@@ -41,14 +43,7 @@ export default function CourseOverview({ loaderData }: Route.ComponentProps) {
     <section className="flex flex-col gap-6">
       <PageHeader title="Overview" />
       <FailedEmailsPanel failedEmails={failedEmails} timeZone={timeZone} />
-      {openReports > 0 ? (
-        <p role="status" className="rounded-md bg-red-50 px-4 py-3 text-sm text-outlier ring-1 ring-outlier/30">
-          Students reported {openReports} problem{openReports === 1 ? "" : "s"} with their kits.{" "}
-          <Link to="kits" className="underline">
-            See the kits
-          </Link>
-        </p>
-      ) : null}
+      {openProblems ? <OpenProblems {...openProblems} timeZone={timeZone} /> : null}
       <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4">
         {[
           ["Students", counts.students],
@@ -74,6 +69,32 @@ export default function CourseOverview({ loaderData }: Route.ComponentProps) {
           ))}
         </ul>
       </div>
+    </section>
+  );
+}
+
+/** Kit problems students reported that are not resolved yet: the count, and the ones waiting longest. */
+function OpenProblems({ open, oldest, timeZone }: NonNullable<Route.ComponentProps["loaderData"]["openProblems"]> & { timeZone: string }) {
+  if (open === 0) return null;
+  return (
+    <section aria-labelledby="open-problems" className="rounded-md bg-red-50 px-4 py-3 text-sm ring-1 ring-outlier/30">
+      <h2 id="open-problems" className="font-medium text-outlier">
+        {open} open kit problem{open === 1 ? "" : "s"}
+      </h2>
+      <ul className="mt-1 flex flex-col gap-0.5">
+        {oldest.map((problem) => (
+          <li key={problem.id}>
+            <Link to={`kits/problems/${problem.id}`} className="underline">
+              Kit {problem.kitNumber}: {kitProblemKindLabels[problem.kind].toLowerCase()}
+            </Link>{" "}
+            · {problem.studentName ?? "former student"} · {kitProblemStatusLabels[problem.status]} · reported{" "}
+            {formatDateTime(problem.createdAt, timeZone)}
+          </li>
+        ))}
+      </ul>
+      <Link to="kits/problems" className="mt-1 inline-block underline">
+        See all kit problems
+      </Link>
     </section>
   );
 }

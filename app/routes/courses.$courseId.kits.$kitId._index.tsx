@@ -3,6 +3,7 @@ import type { Route } from "./+types/courses.$courseId.kits.$kitId._index";
 import { KitStateBadge } from "~/components/kit-state-badge";
 import { CheckInForm } from "~/components/kits/check-in-form";
 import { KitHistory } from "~/components/kits/kit-history";
+import { KitProblemList } from "~/components/kits/kit-problems";
 import { kitInput } from "~/components/kits/kit-input";
 import { PackForm, ShipForm, SimpleMoves } from "~/components/kits/kit-moves";
 import { KitParts } from "~/components/kits/kit-parts";
@@ -14,6 +15,7 @@ import { nextKitStates } from "~/lib/kits/kit-states";
 import { canOpenKit, requireCourseRole, staffRoles, type CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
+import { listKitProblems } from "~/server/kits/kit-problems.server";
 import { checkInKit, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
 import { isEntityId } from "~/lib/forms/ids";
 
@@ -28,8 +30,11 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, staffRoles);
   const kit = await loadKitFor(access, params.kitId);
   const canChange = access.membership.role === "instructor";
-  const students = canChange && kit.state === "on_shelf" ? await listStudentsWithoutKit(db, access.course.id) : [];
-  return { kit, canChange, students, timeZone: access.course.timeZone, today: new Date().toISOString().slice(0, 10) };
+  const [students, problems] = await Promise.all([
+    canChange && kit.state === "on_shelf" ? listStudentsWithoutKit(db, access.course.id) : [],
+    listKitProblems(db, access.course.id, { kitId: kit.id, openOnly: true }),
+  ]);
+  return { kit, canChange, students, problems, timeZone: access.course.timeZone, today: new Date().toISOString().slice(0, 10) };
 }
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -54,7 +59,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
 });
 
 export default function KitPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { kit, canChange, students, timeZone, today } = loaderData;
+  const { kit, canChange, students, problems, timeZone, today } = loaderData;
   const next = nextKitStates(kit.state);
   return (
     <div className="flex flex-col gap-6">
@@ -84,6 +89,13 @@ export default function KitPage({ loaderData, actionData }: Route.ComponentProps
       </PageHeader>
 
       {actionData && "saved" in actionData ? <Notice tone="success">Saved.</Notice> : null}
+
+      <KitProblemList
+        problems={problems}
+        timeZone={timeZone}
+        heading="Open problems"
+        linkToProblem={(id) => `/courses/${kit.courseId}/kits/problems/${id}`}
+      />
 
       <KitParts parts={kit.parts.map(({ part }) => part)} />
 

@@ -112,6 +112,9 @@ export default function Kits({ loaderData }: Route.ComponentProps) {
               <ButtonLink to={`/courses/${courseId}/shipments/new`} variant="secondary">
                 Ship a cohort
               </ButtonLink>
+              <ButtonLink to="problems" variant="secondary">
+                Kit problems
+              </ButtonLink>
               <Link to="tracking-import" className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
                 Import tracking numbers (CSV)
               </Link>

@@ -3,6 +3,7 @@ import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.my-kit";
 import { KitStateBadge } from "~/components/kit-state-badge";
+import { KitProblemList } from "~/components/kits/kit-problems";
 import { SafetyCautions } from "~/components/safety-cautions";
 import { SelectField, TextAreaField } from "~/components/ui/field";
 import { Button } from "~/components/ui/button";
@@ -14,7 +15,8 @@ import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole, type RequestScope } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
-import { confirmArrival, findKitOfMember, getKit, reportKitProblem } from "~/server/kits/kits.server";
+import { listKitProblems, reportKitProblem } from "~/server/kits/kit-problems.server";
+import { confirmArrival, findKitOfMember, getKit } from "~/server/kits/kits.server";
 
 const myKitAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("arrived"), complete: z.enum(["yes", "no"]), note: z.string().trim().max(1000).optional() }),
@@ -33,11 +35,14 @@ async function loadMyKit(scope: RequestScope, courseId: string | undefined) {
 }
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { kit } = await loadMyKit({ request, context }, params.courseId);
-  if (!kit) return { kit: null };
+  const { access, kit } = await loadMyKit({ request, context }, params.courseId);
+  // Their own reports only: a problem is the student's who reported it, whichever kit it was on.
+  const problems = await listKitProblems(db, access.course.id, { membershipId: access.membership.id });
+  const timeZone = access.course.timeZone;
+  if (!kit) return { kit: null, problems, timeZone };
   // The student sees their kit's parts and its journey, not the staff's notes on it.
   const { events: _events, holder: _holder, ...mine } = kit;
-  return { kit: mine };
+  return { kit: mine, problems, timeZone };
 }
 
 export const action = formAction(async ({ request, params, context, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -54,7 +59,7 @@ export const action = formAction(async ({ request, params, context, formData }: 
   if (input.partId && !kit.parts.some(({ part }) => part.id === input.partId))
     throw new AppError({ code: "kit_refused", message: "That part is not in your kit.", field: "partId" });
   await reportKitProblem(db, { ...scope, partId: input.partId, problem: input.problem, note: input.note });
-  return { intent: input.intent, saved: "Reported. Your instructor has been told and will be in touch." };
+  return { intent: input.intent, saved: "Reported. Your instructor has been told; you will see each step below and by e-mail." };
 });
 
 const addressLink = (
@@ -64,7 +69,7 @@ const addressLink = (
 );
 
 export default function MyKit({ loaderData, actionData }: Route.ComponentProps) {
-  const { kit } = loaderData;
+  const { kit, problems, timeZone } = loaderData;
   const navigation = useNavigation();
   const validate = ({ formData }: { formData: FormData }) => parseSubmission(formData, myKitAction);
   const [arrivedForm, arrivedFields] = useForm({
@@ -88,6 +93,7 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
       <div className="flex flex-col gap-4">
         <PageHeader title="My kit" actions={addressLink} />
         <p>No kit has been packed for you yet. You will get an e-mail with its tracking number when it ships.</p>
+        <KitProblemList problems={problems} timeZone={timeZone} heading="Your reports" />
         <SafetyCautions />
       </div>
     );
@@ -169,6 +175,8 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
           </Button>
         </Form>
       ) : null}
+
+      <KitProblemList problems={problems} timeZone={timeZone} heading="Your reports" />
 
       <SafetyCautions />
     </div>

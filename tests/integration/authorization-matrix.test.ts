@@ -7,6 +7,8 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import type { ServerBuild } from "react-router";
 import { appRequest, createAppHandler, loadBuild, sessionCookieFor, type AppHandler } from "../support/app-requests";
+import { db } from "~/server/db.server";
+import { reportKitProblem } from "~/server/kits/kit-problems.server";
 import { type AccessFixture, type Actor, actors, createAccessFixture } from "../support/access-fixture";
 
 type Expectation = Record<Actor, number>;
@@ -87,6 +89,10 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/shipments/new", instructorOnly(400)),
   row("GET", "/courses/:courseId/shipments/:shipmentId", instructorOnly(200)),
   row("POST", "/courses/:courseId/shipments/:shipmentId", instructorOnly(400)),
+  // Kit problems: read by the staff who may open the kit (a TA, their cohorts' students'), changed by instructors.
+  row("GET", "/courses/:courseId/kits/problems", staffOnly(200)),
+  row("GET", "/courses/:courseId/kits/problems/:problemId", cohortStaff(200)),
+  row("POST", "/courses/:courseId/kits/problems/:problemId", instructorOnly(400)),
   row("GET", "/courses/:courseId/kits/tracking-import", instructorOnly(200)),
   row("POST", "/courses/:courseId/kits/tracking-import", instructorOnly(400)),
   row("GET", "/courses/:courseId/kits/tracking-template.csv", instructorOnly(200)),
@@ -196,8 +202,9 @@ function builtRoutes(build: ServerBuild): string[] {
   return [...keys].sort();
 }
 
-function concretePath(path: string, fixture: AccessFixture): string {
+function concretePath(path: string, fixture: AccessFixture, problemId: string): string {
   const values: Record<string, string> = {
+    problemId,
     courseId: fixture.courseId,
     membershipId: fixture.membershipIds.ownStudent,
     kitId: fixture.kitId,
@@ -220,6 +227,7 @@ describe("authorization matrix", () => {
   let build: ServerBuild;
   let handle: AppHandler;
   let fixture: AccessFixture;
+  let problemId: string;
 
   beforeAll(async () => {
     // Pinned so that the rows do not depend on the machine: open sign-up, mail to the local catcher.
@@ -228,6 +236,14 @@ describe("authorization matrix", () => {
     build = await loadBuild();
     handle = await createAppHandler();
     fixture = await createAccessFixture();
+    ({ problemId } = await reportKitProblem(db, {
+      courseId: fixture.courseId,
+      kitId: fixture.kitId,
+      actorId: fixture.userIds.ownStudent,
+      partId: fixture.sphereId,
+      problem: "damaged",
+      note: "The sphere arrived chipped.",
+    }));
   });
 
   it("lists every route of the built app, and no route that is gone", () => {
@@ -244,7 +260,7 @@ describe("authorization matrix", () => {
   });
 
   it.each(matrix.map((entry) => [`${entry.method} ${entry.path}`, entry] as const))("%s", async (_name, entry) => {
-    const path = concretePath(entry.path, fixture) + (entry.query ?? "");
+    const path = concretePath(entry.path, fixture, problemId) + (entry.query ?? "");
     const actual = {} as Expectation;
     for (const actor of actors) {
       // A fresh session per request: some rows (sign-out) end the session they are sent with.

@@ -5,12 +5,25 @@
 import { AppError } from "~/lib/app-error";
 import { and, asc, count, eq, getTableColumns, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
-import { cohorts, courseMemberships, courses, invitations, kitEvents, kitParts, kits, partEvents, parts, users } from "~/db/schema";
+import {
+  cohorts,
+  courseMemberships,
+  courses,
+  invitations,
+  kitEvents,
+  kitParts,
+  kitProblems,
+  kits,
+  partEvents,
+  parts,
+  users,
+} from "~/db/schema";
 import { canMoveKit, kitStateLabels, kitStatesWithHolder, type KitState, type PartCondition } from "~/lib/kits/kit-states";
 import { appUrl } from "~/server/config.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { jsonRows, orNull } from "~/server/json-rows.server";
+import { reportKitProblem } from "~/server/kits/kit-problems.server";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -391,55 +404,6 @@ export async function confirmArrival(
   });
 }
 
-/**
- * A student reports a missing or damaged part (or an incomplete parcel): kept on the kit's history,
- * counted on the kits table and the course overview, and e-mailed to the course's instructors.
- */
-export async function reportKitProblem(
-  executor: Executor,
-  {
-    courseId,
-    kitId,
-    actorId,
-    partId,
-    problem,
-    note,
-  }: {
-    courseId: string;
-    kitId: string;
-    actorId: string;
-    partId: string | null;
-    problem: "missing" | "damaged" | "incomplete";
-    note: string;
-  },
-): Promise<void> {
-  await executor.transaction(async (tx) => {
-    await tx.insert(kitEvents).values({ kitId, actorId, action: "reported", note, detail: { partId, problem } });
-    const [context] = await tx
-      .select({ kitNumber: kits.number, courseTitle: courses.title, studentName: users.name, partLabel: parts.label })
-      .from(kits)
-      .innerJoin(courses, eq(courses.id, kits.courseId))
-      .innerJoin(users, eq(users.id, actorId))
-      .leftJoin(parts, partId ? eq(parts.id, partId) : sql`false`)
-      .where(eq(kits.id, kitId));
-    const instructors = await tx
-      .select({ email: users.email, name: users.name })
-      .from(courseMemberships)
-      .innerJoin(users, eq(users.id, courseMemberships.userId))
-      .where(and(eq(courseMemberships.courseId, courseId), eq(courseMemberships.role, "instructor"), isNull(courseMemberships.removedAt)));
-    await sendEmails(
-      tx,
-      instructors.map((instructor) => ({
-        to: instructor.email,
-        toName: instructor.name,
-        template: "kit-problem" as const,
-        courseId,
-        props: { ...context, problem, note, kitUrl: `${appUrl()}/courses/${courseId}/kits/${kitId}` },
-      })),
-    );
-  });
-}
-
 export type KitListQuery = { state?: KitState; cohortIds?: string[]; search?: string; page: number; pageSize: number };
 
 /** One page of kits with their holder and cohort, and the total: two statements whatever the size. */
@@ -466,7 +430,7 @@ export async function listKits(executor: Executor, courseId: string, query: KitL
         holderEmail: users.email,
         cohortName: cohorts.name,
         partCount: sql<number>`(select count(*)::int from ${kitParts} where ${kitParts.kitId} = ${kits.id})`,
-        openReports: sql<number>`(select count(*)::int from ${kitEvents} where ${kitEvents.kitId} = ${kits.id} and ${kitEvents.action} = 'reported' and ${kitEvents.createdAt} > ${kits.updatedAt})`,
+        openReports: sql<number>`(select count(*)::int from ${kitProblems} where ${kitProblems.kitId} = ${kits.id} and ${kitProblems.status} <> 'resolved')`,
       })
       .from(kits)
       .leftJoin(courseMemberships, eq(courseMemberships.id, kits.holderMembershipId))
