@@ -12,6 +12,7 @@ import { isEntityId } from "~/lib/forms/ids";
 import { pagingSearch } from "~/lib/forms/search-params";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { labelFailureLabels } from "~/lib/shipping/shipping-states";
+import { recordAudit } from "~/server/audit.server";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
@@ -44,7 +45,16 @@ export const action = formAction(async ({ request, context, params, formData }: 
   const submission = parseSubmission(formData, retry);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   if (!isEntityId(params.shipmentId)) throw data("Not found", { status: 404 });
-  return await retryFailedItems(db, { courseId: access.course.id, shipmentId: params.shipmentId });
+  const retried = await retryFailedItems(db, { courseId: access.course.id, shipmentId: params.shipmentId });
+  await recordAudit(db, {
+    action: "shipment.retried",
+    actorId: access.user.id,
+    courseId: access.course.id,
+    subject: params.shipmentId,
+    detail: retried,
+    request,
+  });
+  return retried;
 });
 
 const kindTitles = { outbound: "Kits to students", return: "Return labels", replacement: "Replacement parts" } as const;

@@ -14,6 +14,7 @@ import { pagingSearch } from "~/lib/forms/search-params";
 import { formList, parseSubmission, replyFor } from "~/lib/forms/submission";
 import { kitStateLabels } from "~/lib/kits/kit-states";
 import { candidateKitStates } from "~/lib/shipping/shipping-states";
+import { recordAudit } from "~/server/audit.server";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
@@ -100,6 +101,14 @@ export const action = formAction(async ({ request, context, params, formData }: 
   }
   if (input.intent === "pack") {
     const packed = await commitKitAssignment(db, { courseId, actorId: access.user.id, labId: input.labId, kits: input.plan });
+    await recordAudit(db, {
+      action: "kit.cohort_packed",
+      actorId: access.user.id,
+      courseId,
+      subject: input.labId,
+      detail: { packed: packed.packed, made: packed.made },
+      request,
+    });
     return { packed };
   }
   // Labels for the kits just packed, or for the packed kits of the chosen students.
@@ -112,13 +121,22 @@ export const action = formAction(async ({ request, context, params, formData }: 
           keys: input.keys.length ? input.keys : undefined,
         })
       ).rows.map((candidate) => candidate.kitId!);
-  const { shipmentId } = await createShipment(db, {
+  const { shipmentId, created } = await createShipment(db, {
     courseId,
     actorId: access.user.id,
     kind: "outbound",
     requestKey: input.requestKey,
     items: kitIds.map((kitId) => ({ kitId })),
   });
+  if (created)
+    await recordAudit(db, {
+      action: "shipment.created",
+      actorId: access.user.id,
+      courseId,
+      subject: shipmentId,
+      detail: { kits: kitIds.length },
+      request,
+    });
   return redirect(`/courses/${courseId}/shipments/${shipmentId}`);
 });
 

@@ -13,6 +13,7 @@ import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
 import { moveKits, type Shipping } from "~/server/kits/kits.server";
+import { addressesFor } from "./addresses.server";
 import { kitParcel, type Carrier, type LabelOutcome, type LabelRequest, type Parcel } from "./carrier.server";
 
 export type { Carrier };
@@ -77,31 +78,37 @@ const needsAddressFix: LabelFailureCode[] = ["refused_address", "no_address"];
 type ClaimedItem = {
   id: string;
   kit_id: string;
-  kit_number: string;
+  course_id: string;
+  holder_membership_id: string | null;
+  holder_invitation_id: string | null;
   carrier_shipment_id: string | null;
-  to_address: PostalAddress | null;
   from_address: PostalAddress | null;
 };
 
 /**
- * Takes the shipment's queued items for this run (and items a crashed run left `buying` long ago),
- * with each student's address and the course's return address: one statement. Reading addresses
- * straight from `shipping_addresses` stays in this one function, for server-side use (no one sees them).
+ * Takes the shipment's queued items for this run (and items a crashed run left `buying` long ago), with
+ * the course's return address, then their students' addresses: two statements. No one sees them here,
+ * so reading them is not audited.
  */
-async function claimItems(executor: Executor, shipmentId: string): Promise<ClaimedItem[]> {
-  // Raw: an UPDATE … FROM that claims and joins what buying needs in one round trip.
+async function claimItems(executor: Executor, shipmentId: string): Promise<(ClaimedItem & { to_address: PostalAddress | null })[]> {
+  // Raw: an UPDATE … FROM that claims the items and joins what buying needs in one round trip.
   const result = await executor.execute<ClaimedItem>(sql`
     update shipment_items si set status = 'buying', updated_at = now()
     from shipments s, kits k, courses c
     where si.shipment_id = ${shipmentId} and s.id = si.shipment_id and k.id = si.kit_id and c.id = s.course_id
       and (si.status = 'queued' or (si.status = 'buying' and si.updated_at < now() - interval '10 minutes'))
-    returning si.id, si.kit_id, k.number as kit_number, si.carrier_shipment_id,
-      (select to_jsonb(a) - 'id' - 'course_id' - 'membership_id' - 'invitation_id' - 'updated_by_id' - 'created_at' - 'updated_at'
-         from shipping_addresses a
-         where (a.membership_id = k.holder_membership_id or a.invitation_id = k.holder_invitation_id) and a.course_id = c.id
-         limit 1) as to_address,
+    returning si.id, si.kit_id, c.id as course_id, k.holder_membership_id, k.holder_invitation_id, si.carrier_shipment_id,
       c.return_address as from_address`);
-  return result.rows;
+  const items = result.rows;
+  if (items.length === 0) return [];
+  const addresses = await addressesFor(executor, items[0].course_id, {
+    membershipIds: items.flatMap((item) => (item.holder_membership_id ? [item.holder_membership_id] : [])),
+    invitationIds: items.flatMap((item) => (item.holder_invitation_id ? [item.holder_invitation_id] : [])),
+  });
+  return items.map((item) => ({
+    ...item,
+    to_address: addresses.get((item.holder_membership_id ?? item.holder_invitation_id)!) ?? null,
+  }));
 }
 
 type ItemResult =
