@@ -1,8 +1,5 @@
-import { createRequire } from "node:module";
-import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { PDFDocument, StandardFonts } from "pdf-lib";
-import { getDocument } from "pdfjs-dist/legacy/build/pdf.mjs";
 import { beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, courseMemberships, kitParts, kits, parts, shipmentItems, shipments, shippingAddresses, users } from "~/db/schema";
 import { safetyCautions, safetyCautionsDeferral } from "~/lib/safety/cautions";
@@ -11,24 +8,7 @@ import { shipmentPrintPdf } from "~/server/shipping/print.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
 import { type AppHandler, appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countAllStatements } from "../support/count-statements";
-
-const standardFontDataUrl = path.join(path.dirname(createRequire(import.meta.url).resolve("pdfjs-dist/package.json")), "standard_fonts/");
-
-/** Each page's text, read back by a PDF parser other than the one that wrote it. */
-async function pageTexts(bytes: Uint8Array): Promise<string[]> {
-  const document = await getDocument({ data: new Uint8Array(bytes), standardFontDataUrl }).promise;
-  const texts: string[] = [];
-  for (let number = 1; number <= document.numPages; number++) {
-    const content = await (await document.getPage(number)).getTextContent();
-    texts.push(
-      content.items
-        .map((item) => ("str" in item ? item.str : ""))
-        .filter(Boolean)
-        .join(" "),
-    );
-  }
-  return texts;
-}
+import { pageTexts } from "../support/pdf-text";
 
 /** A carrier's label as the carrier sends it: a 4×6 in PDF naming its tracking number. */
 async function labelPdf(trackingNumber: string): Promise<Buffer> {

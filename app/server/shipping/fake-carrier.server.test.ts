@@ -1,9 +1,7 @@
-import { createRequire } from "node:module";
-import { dirname, join } from "node:path";
 import { PDFDocument } from "pdf-lib";
-import { getDocument } from "pdfjs-dist/legacy/build/pdf.mjs";
 import { afterEach, describe, expect, it } from "vitest";
 import type { PostalAddress } from "~/lib/shipping/postal-address";
+import { pageTexts } from "../../../tests/support/pdf-text";
 import { type LabelRequest, createEasyPostCarrier, kitParcel } from "./carrier.server";
 import { FAKE_CARRIER_API_KEY, type FakeCarrier, type FakeCarrierOptions, startFakeCarrier } from "./fake-carrier.server";
 
@@ -29,11 +27,8 @@ afterEach(async () => {
 });
 
 async function pdfWords(pdf: Buffer): Promise<string> {
-  const standardFontDataUrl = join(dirname(createRequire(import.meta.url).resolve("pdfjs-dist/package.json")), "standard_fonts/");
-  const document = await getDocument({ data: new Uint8Array(pdf), standardFontDataUrl }).promise;
-  const page = await document.getPage(1);
-  const content = await page.getTextContent();
-  return content.items.map((item) => ("str" in item ? item.str : "")).join(" ");
+  const [first] = await pageTexts(pdf);
+  return first;
 }
 
 describe("the fake carrier through the EasyPost SDK", () => {
