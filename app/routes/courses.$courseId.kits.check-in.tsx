@@ -102,7 +102,12 @@ export const action = formAction(async ({ request, context, params, formData }: 
   return { checkedIn };
 });
 
-export default function BulkCheckIn({ loaderData, actionData }: Route.ComponentProps) {
+// The form's rows are its initial value: choosing other kits (a client-side navigation) starts a new form.
+export default function BulkCheckIn(props: Route.ComponentProps) {
+  return <CheckInPage key={props.loaderData.kits.map((kit) => kit.id).join()} {...props} />;
+}
+
+function CheckInPage({ loaderData, actionData }: Route.ComponentProps) {
   const { courseId, chosen, comingBack, kits, leftOut } = loaderData;
   const navigation = useNavigation();
   const done = actionData && "checkedIn" in actionData ? actionData.checkedIn : null;
@@ -176,6 +181,7 @@ export default function BulkCheckIn({ loaderData, actionData }: Route.ComponentP
                 <legend className="px-1 font-semibold">
                   {`Kit ${kit.number}`}
                   {kit.studentName ? <span className="font-normal text-ink-600"> from {kit.studentName}</span> : null}
+                  {kit.returnTrackingNumber ? " " : null}
                   {kit.returnTrackingNumber ? (
                     <span className="ml-2 text-sm font-normal text-ink-600">
                       {kit.returnCarrier} {kit.returnTrackingNumber}
@@ -185,7 +191,7 @@ export default function BulkCheckIn({ loaderData, actionData }: Route.ComponentP
                 <input {...getInputProps(kitFields.kitId, { type: "hidden" })} />
                 <label className="mb-2 flex items-center gap-2 text-sm">
                   <input {...getInputProps(kitFields.allFine, { type: "checkbox" })} className="size-5" />
-                  All parts fine (every part without a condition of its own below)
+                  All parts fine (untick it to mark a part damaged or missing)
                 </label>
                 {kit.parts.length === 0 ? <p className="text-sm text-ink-600">This kit holds no parts.</p> : null}
                 <table className="text-sm">
