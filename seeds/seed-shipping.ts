@@ -72,16 +72,14 @@ export async function seedShipping(db: Database, faker: Faker, { courseId, instr
     .update(courses)
     .set({ returnAddress: demoReturnAddress, kitReturnBy: dayOf(new Date(Date.now() + 40 * DAY_MS)) })
     .where(eq(courses.id, courseId));
-  await db
-    .insert(shippingAddresses)
-    .values(
-      students.map((student) => ({
-        courseId,
-        membershipId: student.membershipId,
-        updatedById: instructorId,
-        ...addressOf.get(student.membershipId)!,
-      })),
-    );
+  await db.insert(shippingAddresses).values(
+    students.map((student) => ({
+      courseId,
+      membershipId: student.membershipId,
+      updatedById: instructorId,
+      ...addressOf.get(student.membershipId)!,
+    })),
+  );
 
   const thursday = students.filter((student) => student.cohortName === demoCohortNames[2] && student.kitId);
   const shipped = thursday.filter((student) => ["in_transit", "at_home", "coming_back"].includes(student.kitState!));

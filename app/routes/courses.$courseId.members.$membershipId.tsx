@@ -34,7 +34,12 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   // A student's address is for the instructors (never a TA), and each view of it is recorded.
   const address =
     canEdit && member.role === "student"
-      ? await viewAddress(db, { courseId: access.course.id, actorId: access.user.id, owner: { membershipId: member.membershipId }, request })
+      ? await viewAddress(db, {
+          courseId: access.course.id,
+          actorId: access.user.id,
+          owner: { membershipId: member.membershipId },
+          request,
+        })
       : null;
   return { course: access.course, member, canEdit, address, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
 }

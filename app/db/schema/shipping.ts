@@ -128,10 +128,7 @@ export const kitProblems = pgTable(
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (table) => [
-    index("kit_problems_course_status_idx").on(table.courseId, table.status),
-    index("kit_problems_kit_idx").on(table.kitId),
-  ],
+  (table) => [index("kit_problems_course_status_idx").on(table.courseId, table.status), index("kit_problems_kit_idx").on(table.kitId)],
 );
 
 export type KitProblemUpdateDetail = { replacementPartId?: string; shipmentItemId?: string; replacementKitId?: string };
