@@ -404,6 +404,12 @@ describe("checking kits in together", () => {
     for (const label of ["Kit K-01", "Kit K-02", "S-1", "C-1", "F-1", "S-2", "C-2"]) expect(page).toContain(label);
     expect(page).not.toContain("Kit K-09");
     expect(page).toContain("1 chosen kit is not coming back");
+
+    // Nothing chosen (the kits list's selection needs JavaScript): the kits coming back, to tick here.
+    const chooser = await (await handle(appRequest(`/courses/${fixture.courseId}/kits/check-in`, { cookie }))).text();
+    expect(chooser).toContain("Kits coming back");
+    expect(chooser).toContain("Kit K-02");
+    expect(chooser).not.toContain("Kit K-09");
   });
 
   it("refuses a part without a condition, at that part, and changes nothing", async () => {
