@@ -45,6 +45,7 @@ function EventWords({ event }: { event: KitEvent }) {
   if (event.action === "reported") return <strong className="text-outlier">Problem reported: {String(event.detail.problem ?? "")}</strong>;
   if (event.action === "checked_in") return <span>Parts' condition recorded</span>;
   if (event.action === "part_replaced") return <span>Replacement part sent for a reported one</span>;
+  if (event.action === "return_requested") return <span>Asked back before the course's return-by date</span>;
   if (event.action === "tracking_corrected" || event.action === "return_tracking_corrected") {
     const shipping = event.detail.shipping as { carrier: string; trackingNumber: string } | undefined;
     return (
