@@ -53,12 +53,13 @@ describe("roster import and shipping a kit in Chromium", () => {
     const student = (await packFor.locator("option").nth(1).textContent())!;
     await packFor.selectOption({ index: 1 });
     await page.getByRole("button", { name: "Mark packed" }).click();
-    await page.getByText(/On shelf → Packed/).waitFor();
+    // Another suite may have sent this kit out before, so the move is awaited at the top of the history.
+    const newestMove = page.locator("ol li").first();
+    await newestMove.filter({ hasText: "On shelf → Packed" }).waitFor();
     await page.getByLabel("Carrier").fill("Parcelwise");
     await page.getByLabel("Tracking number").fill("PW0000012345");
     await page.getByRole("button", { name: "Mark in transit and tell the student" }).click();
-    // The history, newest first, shows this journey's moves (another suite may have sent the kit out before).
-    await page.getByText(/Packed → In transit/).waitFor();
+    await newestMove.filter({ hasText: "Packed → In transit" }).waitFor();
     const history = (await page.locator("ol li").allTextContents()).map((entry) => entry.split(" · ").pop());
     expect(history.slice(0, 2)).toEqual(["Packed → In transit", "On shelf → Packed"]);
     expect(history.at(-1)).toBe("Made up and put on the shelf");
