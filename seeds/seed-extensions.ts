@@ -33,7 +33,7 @@ export async function seedExtensions(db: Database, { courseId }: { courseId: str
       sessionId: null,
       via: "session",
     },
-    course: { id: course.id, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
+    course: { id: course.id, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone, archivedAt: null },
     membership: { id: instructor.membershipId, role: "instructor", cohortId: null },
     cohortIds: courseCohorts.map((cohort) => cohort.id),
   };

@@ -108,7 +108,7 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
     if (earlyHandIn) earlyHandInTaken = true;
     const access: CourseAccess = {
       user: { id: userId, email, name, mayCreateCourses: false, sessionId: null, via: "session" },
-      course: { id: courseId, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
+      course: { id: courseId, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone, archivedAt: null },
       membership: { id: membershipId, role: "student", cohortId },
       cohortIds: cohortId ? [cohortId] : [],
     };

@@ -121,7 +121,7 @@ function accessOf(course: typeof courses.$inferSelect, person: StaffRow): Course
       sessionId: null,
       via: "session",
     },
-    course: { id: course.id, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone },
+    course: { id: course.id, title: course.title, code: course.code, term: course.term, timeZone: course.timeZone, archivedAt: null },
     membership: { id: person.membershipId, role: person.role, cohortId: null },
     cohortIds: person.cohortIds,
   };

@@ -44,7 +44,7 @@ function staffAccess(actor: "instructor" | "assignedTa", cohortIds: string[]): C
       sessionId: null,
       via: "session",
     },
-    course: { id: fixture.courseId, title: "Settling Spheres", code: "labs-A", term: "Test term", timeZone: "UTC" },
+    course: { id: fixture.courseId, title: "Settling Spheres", code: "labs-A", term: "Test term", timeZone: "UTC", archivedAt: null },
     membership: { id: fixture.membershipIds[actor], role: actor === "instructor" ? "instructor" : "ta", cohortId: null },
     cohortIds,
   };

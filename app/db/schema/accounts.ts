@@ -17,9 +17,14 @@ export const users = pgTable(
     studentNumber: text("student_number"),
     /** May open new courses (open sign-up or `npm run user:create-instructor`); roles inside a course live in memberships. */
     mayCreateCourses: boolean("may_create_courses").notNull().default(false),
+    /** SHA-256 (hex) of the secret in the user's private calendar feed address; null until they make one. Reset replaces it. */
+    calendarFeedTokenHash: text("calendar_feed_token_hash"),
     createdAt: createdAt(),
   },
-  (table) => [uniqueIndex("users_email_unique").on(table.email)],
+  (table) => [
+    uniqueIndex("users_email_unique").on(table.email),
+    uniqueIndex("users_calendar_feed_token_unique").on(table.calendarFeedTokenHash),
+  ],
 );
 
 export const sessions = pgTable(

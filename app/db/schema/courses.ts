@@ -3,7 +3,9 @@
  */
 import { sql } from "drizzle-orm";
 import {
+  type AnyPgColumn,
   boolean,
+  check,
   date,
   index,
   inet,
@@ -47,9 +49,19 @@ export const courses = pgTable(
       .array()
       .notNull()
       .default(sql`'{1,7}'::integer[]`),
+    /** The term mark book leaves out each student's lowest this many lab percentages (among labs with weight). */
+    markBookDropLowest: integer("mark_book_drop_lowest").notNull().default(0),
+    /** The course this one was started from ("start next term from this course"); null for a course begun afresh. */
+    carriedFromId: uuid("carried_from_id").references((): AnyPgColumn => courses.id, { onDelete: "set null" }),
+    /** Set when an instructor archives the finished course: it becomes read-only and leaves the overviews, and stays exportable. */
+    archivedAt: timestamp("archived_at", { withTimezone: true }),
+    archivedById: uuid("archived_by_id").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
-  (table) => [uniqueIndex("courses_code_term_unique").on(table.code, table.term)],
+  (table) => [
+    uniqueIndex("courses_code_term_unique").on(table.code, table.term),
+    check("courses_drop_lowest_not_negative", sql`${table.markBookDropLowest} >= 0`),
+  ],
 );
 
 export const cohorts = pgTable(
@@ -150,7 +162,14 @@ export const invitations = pgTable(
     invitedById: uuid("invited_by_id").references(() => users.id, { onDelete: "set null" }),
     /** SHA-256 of the token in the link, hex. */
     tokenHash: text("token_hash").notNull(),
+    /** The institution's number for the invited student, moved to the account on acceptance. */
+    studentNumber: text("student_number"),
     expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    /** Withdrawn by an instructor: the link then says so and opens nothing. */
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+    revokedById: uuid("revoked_by_id").references(() => users.id, { onDelete: "set null" }),
+    /** Sent again with a new token: the new invitation. The old link then says it was replaced. */
+    replacedById: uuid("replaced_by_id").references((): AnyPgColumn => invitations.id, { onDelete: "set null" }),
     acceptedAt: timestamp("accepted_at", { withTimezone: true }),
     acceptedById: uuid("accepted_by_id").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
@@ -178,6 +197,53 @@ export const rosterImports = pgTable(
     committedAt: timestamp("committed_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (table) => [uniqueIndex("roster_imports_course_key_unique").on(table.courseId, table.importKey)],
+);
+
+/**
+ * A message written by an instructor or TA to a cohort or a filtered set of students ("not handed in
+ * lab 2"). Each recipient's copy goes through the outbox; `course_message_recipients` keeps who got it,
+ * so it shows on each student's record. The send key, made with the preview, makes a resent form send once.
+ */
+export const courseMessages = pgTable(
+  "course_messages",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    courseId: uuid("course_id")
+      .notNull()
+      .references(() => courses.id, { onDelete: "cascade" }),
+    authorId: uuid("author_id").references(() => users.id, { onDelete: "set null" }),
+    subject: text("subject").notNull(),
+    body: text("body").notNull(),
+    /** The filter as chosen (cohorts, lab, hand-in state), to show and to audit; the recipients are fixed at sending. */
+    audience: jsonb("audience").$type<Record<string, unknown>>().notNull(),
+    /** The filter in words, as the author saw it in the preview. */
+    audienceLabel: text("audience_label").notNull(),
+    recipientCount: integer("recipient_count").notNull(),
+    sendKey: text("send_key").notNull(),
+    createdAt: createdAt(),
+  },
+  (table) => [
+    uniqueIndex("course_messages_course_send_key_unique").on(table.courseId, table.sendKey),
+    index("course_messages_course_created_idx").on(table.courseId, table.createdAt),
+  ],
+);
+
+export const courseMessageRecipients = pgTable(
+  "course_message_recipients",
+  {
+    messageId: uuid("message_id")
+      .notNull()
+      .references(() => courseMessages.id, { onDelete: "cascade" }),
+    membershipId: uuid("membership_id")
+      .notNull()
+      .references(() => courseMemberships.id, { onDelete: "cascade" }),
+    /** The recipient's copy in the outbox (its delivery status); null only if the outbox row was purged. */
+    outboxId: uuid("outbox_id"),
+  },
+  (table) => [
+    primaryKey({ columns: [table.messageId, table.membershipId] }),
+    index("course_message_recipients_membership_idx").on(table.membershipId),
+  ],
 );
 
 // Relations

@@ -83,10 +83,12 @@ export const labs = pgTable(
     /** A hand-in after the student's mark is released: refused (the default), or taken and the mark reopened. */
     afterReleaseHandIns: afterReleaseHandIns("after_release_hand_ins").notNull().default("refuse"),
     publishedAt: timestamp("published_at", { withTimezone: true }),
+    /** The lab's weight in the term mark book, relative to the course's other labs; 0 leaves it out of the term total. */
+    markWeight: doublePrecision("mark_weight").notNull().default(1),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (table) => [index("labs_course_idx").on(table.courseId)],
+  (table) => [index("labs_course_idx").on(table.courseId), check("labs_mark_weight_not_negative", sql`${table.markWeight} >= 0`)],
 );
 
 export const labCohorts = pgTable(

@@ -25,7 +25,7 @@ export type SignedInUser = SessionUser & { sessionId: string | null; via: "sessi
 
 export type CourseAccess = {
   user: SignedInUser;
-  course: { id: string; title: string; code: string; term: string; timeZone: string };
+  course: { id: string; title: string; code: string; term: string; timeZone: string; archivedAt: Date | null };
   membership: { id: string; role: CourseRole; cohortId: string | null };
   /** Cohorts whose students this member may see: all for instructors, the assigned ones for TAs, their own for students. */
   cohortIds: string[];
@@ -121,7 +121,14 @@ function notFound(request: Request): never {
 async function loadCourseAccess(userId: string, courseId: string) {
   const [row] = await db
     .select({
-      course: { id: courses.id, title: courses.title, code: courses.code, term: courses.term, timeZone: courses.timeZone },
+      course: {
+        id: courses.id,
+        title: courses.title,
+        code: courses.code,
+        term: courses.term,
+        timeZone: courses.timeZone,
+        archivedAt: courses.archivedAt,
+      },
       membershipId: courseMemberships.id,
       role: courseMemberships.role,
       cohortId: courseMemberships.cohortId,
@@ -169,11 +176,25 @@ export const courseAccessMiddleware: MiddlewareFunction<Response> = async ({ req
   return next();
 };
 
-/** The user's membership in the course, if it has one of `roles`; otherwise a redirect or a 403. */
+/** Reading methods: everything else changes something, which an archived course refuses. */
+const readingMethods = new Set(["GET", "HEAD", "OPTIONS"]);
+
+function refuseArchived(request: Request): never {
+  const message = "This course is archived and read-only. An instructor can restore it in the course settings.";
+  if (isApiRequest(request)) throw apiErrorResponse(409, "course_archived", message);
+  throw data(message, { status: 409 });
+}
+
+/**
+ * The user's membership in the course, if it has one of `roles`; otherwise a redirect or a 403. In an
+ * archived course every change is refused with a 409, except by the one action that restores it
+ * (`whileArchived`).
+ */
 export async function requireCourseRole(
   scope: RequestScope,
   courseId: string | undefined,
   roles: readonly CourseRole[],
+  { whileArchived = false }: { whileArchived?: boolean } = {},
 ): Promise<CourseAccess> {
   const { request } = scope;
   const user = await requireUser(scope);
@@ -182,6 +203,7 @@ export async function requireCourseRole(
   if (!row) notFound(request);
   if (!row.membershipId || !row.role) return deny(request, user, courseId, "not a member");
   if (!roles.includes(row.role)) return deny(request, user, courseId, `role ${row.role}`);
+  if (row.course.archivedAt && !whileArchived && !readingMethods.has(request.method)) refuseArchived(request);
   return {
     user,
     course: row.course,
