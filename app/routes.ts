@@ -22,6 +22,7 @@ export default [
     route("settings", "routes/courses.$courseId.settings.tsx"),
     route("members", "routes/courses.$courseId.members.tsx"),
     route("members/:membershipId", "routes/courses.$courseId.members.$membershipId.tsx"),
+    route("members/:membershipId/record", "routes/courses.$courseId.members.$membershipId.record.tsx"),
     route("roster", "routes/courses.$courseId.roster.tsx"),
     route("audit", "routes/courses.$courseId.audit.tsx"),
     ...prefix("kits", [

@@ -3,30 +3,12 @@ import { formatDateTime } from "~/lib/format-date";
 import { PageHeader } from "~/components/ui/page-header";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { listCourseAudit } from "~/server/audit.server";
+import { actionWords } from "~/lib/audit/action-words";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
   return { course: access.course, events: await listCourseAudit(access.course.id) };
 }
-
-/** Plain words for the trail's dotted action names; unknown ones are shown as they are. */
-const actionWords: Record<string, string> = {
-  "access.denied": "was refused access",
-  "course.invitation_sent": "sent an invitation",
-  "course.invitation_accepted": "accepted an invitation",
-  "course.member_role_changed": "changed a member's role",
-  "course.member_moved": "moved a student to another cohort",
-  "course.member_removed": "removed a member",
-  "course.created": "created the course",
-  "course.settings_changed": "changed the course settings",
-  "lab.extension_set": "gave students a later due time",
-  "lab.extension_removed": "removed an extension",
-  "address.viewed": "saw a shipping address",
-  "address.changed": "entered or changed a shipping address",
-  "address.deleted": "deleted a shipping address",
-  "address.exported": "downloaded a shipping address",
-  "address.imported": "imported a shipping address",
-};
 
 export default function CourseAudit({ loaderData }: Route.ComponentProps) {
   const { course, events } = loaderData;

@@ -41,7 +41,8 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
           request,
         })
       : null;
-  return { course: access.course, member, canEdit, address, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
+  const showRecord = !access.viewingOwnWork && member.role === "student";
+  return { course: access.course, member, canEdit, showRecord, address, cohorts: canEdit ? await listCohorts(access.course.id) : [] };
 }
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -59,7 +60,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
 });
 
 export default function CourseMember({ loaderData, actionData }: Route.ComponentProps) {
-  const { course, member, canEdit, address, cohorts } = loaderData;
+  const { course, member, canEdit, showRecord, address, cohorts } = loaderData;
   const busy = useNavigation().state !== "idle";
   const [roleForm, roleFields] = useForm({
     id: "change-role",
@@ -93,6 +94,13 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
           </>
         ) : null}
       </dl>
+      {showRecord ? (
+        <p className="text-sm">
+          <Link to={`/courses/${course.id}/members/${member.membershipId}/record`} className="underline">
+            Their record: kits, hand-ins, marks, extensions, e-mails
+          </Link>
+        </p>
+      ) : null}
 
       {canEdit ? (
         <section aria-labelledby="role-title" className="rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">

@@ -49,7 +49,9 @@ export type AuditAction =
   | "address.changed"
   | "address.deleted"
   | "address.exported"
-  | "address.imported";
+  | "address.imported"
+  // Issue 18, a record per student.
+  | "member.record_viewed";
 
 export type AuditInput = {
   action: AuditAction;

@@ -25,7 +25,7 @@ export function KitHistory({ events, timeZone }: { events: KitEvent[]; timeZone:
             <time dateTime={new Date(event.createdAt).toISOString()} className="text-ink-600">
               {formatDateTime(event.createdAt, timeZone)}
             </time>{" "}
-            · {event.actor?.name ?? "someone"} · <EventWords event={event} />
+            · {event.actor?.name ?? "someone"} · <KitEventWords event={event} />
             {event.note ? <span className="block text-ink-700">“{event.note}”</span> : null}
           </li>
         ))}
@@ -34,7 +34,8 @@ export function KitHistory({ events, timeZone }: { events: KitEvent[]; timeZone:
   );
 }
 
-function EventWords({ event }: { event: KitEvent }) {
+/** One move of a kit in words, as its history says it (also on a student's record). */
+export function KitEventWords({ event }: { event: Pick<KitEvent, "action" | "fromState" | "toState" | "detail"> }) {
   if (event.action === "moved" && event.fromState && event.toState) {
     return (
       <span>
