@@ -73,6 +73,8 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/members", instructorOnly(400)),
   row("GET", "/courses/:courseId/members/:membershipId", ownWork(200)),
   row("POST", "/courses/:courseId/members/:membershipId", instructorOnly(400)),
+  // A student's record: the instructors and the TAs of the student's cohort (not the student: they have their own pages).
+  row("GET", "/courses/:courseId/members/:membershipId/record", cohortStaff(200)),
   row("GET", "/courses/:courseId/roster", instructorOnly(200)),
   row("POST", "/courses/:courseId/roster", instructorOnly(400)),
   row("GET", "/courses/:courseId/audit", instructorOnly(200)),
