@@ -73,6 +73,8 @@ export default [
   route("courses/:courseId/labs/:labId/comparison.csv", "routes/courses.$courseId.labs.$labId.comparison[.]csv.ts"),
   route("courses/:courseId/labs/:labId/marks.csv", "routes/courses.$courseId.labs.$labId.marks[.]csv.ts"),
   route("courses/:courseId/photos/:photoId", "routes/courses.$courseId.photos.$photoId.ts"),
+  // A user's private calendar feed: the token is the key, no session needed.
+  route("calendar/:token.ics", "routes/calendar.$token[.]ics.ts"),
   route("api/v1/me", "routes/api/v1.me.ts"),
   route("api/v1/reduce", "routes/api/v1.reduce.ts"),
   route("api/v1/courses/:courseId/labs", "routes/api/v1.courses.$courseId.labs.ts"),

@@ -49,7 +49,10 @@ export type AuditAction =
   | "address.changed"
   | "address.deleted"
   | "address.exported"
-  | "address.imported";
+  | "address.imported"
+  // Issue 18, calendar feeds and course messages (b6)
+  | "account.calendar_feed_reset"
+  | "course.message_sent";
 
 export type AuditInput = {
   action: AuditAction;
