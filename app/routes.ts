@@ -59,6 +59,8 @@ export default [
     route("labs/:labId/marking", "routes/courses.$courseId.labs.$labId.marking.tsx"),
     route("labs/:labId/rubric", "routes/courses.$courseId.labs.$labId.rubric.tsx"),
     route("labs/:labId/moderation", "routes/courses.$courseId.labs.$labId.moderation.tsx"),
+    route("messages", "routes/courses.$courseId.messages._index.tsx"),
+    route("messages/new", "routes/courses.$courseId.messages.new.tsx"),
   ]),
   // Outside the frame: a printable page and file downloads.
   route("courses/:courseId/kits/:kitId/packing-slip", "routes/courses.$courseId.kits.$kitId.packing-slip.tsx"),
