@@ -60,6 +60,8 @@ export default [
     route("labs/:labId/marking", "routes/courses.$courseId.labs.$labId.marking.tsx"),
     route("labs/:labId/rubric", "routes/courses.$courseId.labs.$labId.rubric.tsx"),
     route("labs/:labId/moderation", "routes/courses.$courseId.labs.$labId.moderation.tsx"),
+    route("messages", "routes/courses.$courseId.messages._index.tsx"),
+    route("messages/new", "routes/courses.$courseId.messages.new.tsx"),
   ]),
   // Outside the frame: a printable page and file downloads.
   route("courses/:courseId/kits/:kitId/packing-slip", "routes/courses.$courseId.kits.$kitId.packing-slip.tsx"),
@@ -74,6 +76,8 @@ export default [
   route("courses/:courseId/labs/:labId/comparison.csv", "routes/courses.$courseId.labs.$labId.comparison[.]csv.ts"),
   route("courses/:courseId/labs/:labId/marks.csv", "routes/courses.$courseId.labs.$labId.marks[.]csv.ts"),
   route("courses/:courseId/photos/:photoId", "routes/courses.$courseId.photos.$photoId.ts"),
+  // A user's private calendar feed: the token is the key, no session needed.
+  route("calendar/:token.ics", "routes/calendar.$token[.]ics.ts"),
   route("api/v1/me", "routes/api/v1.me.ts"),
   route("api/v1/reduce", "routes/api/v1.reduce.ts"),
   route("api/v1/courses/:courseId/labs", "routes/api/v1.courses.$courseId.labs.ts"),

@@ -1,6 +1,7 @@
 /** Every e-mail template by name, with its subject line and the invented props its preview shows. */
 import type { ComponentType } from "react";
 import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
+import CourseMessageEmail, { subject as courseMessageSubject } from "./course-message";
 import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
 import KitOverdueEmail, { subject as kitOverdueSubject } from "./kit-overdue";
 import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
@@ -37,4 +38,5 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
   },
   "kit-overdue": { Component: KitOverdueEmail, subject: kitOverdueSubject, previewProps: KitOverdueEmail.PreviewProps },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
+  "course-message": { Component: CourseMessageEmail, subject: courseMessageSubject, previewProps: CourseMessageEmail.PreviewProps },
 };

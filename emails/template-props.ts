@@ -70,6 +70,13 @@ export const templatePropsSchemas = {
     returnAddress: z.array(oneLine).max(8),
     kitUrl: link,
   }),
+  "course-message": z.object({
+    courseTitle: oneLine,
+    authorName: oneLine,
+    subject: oneLine,
+    body: z.string().trim().min(1).max(5000),
+    courseUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -117,6 +124,7 @@ export type EmailTemplates = {
     returnAddress: string[];
     kitUrl: string;
   };
+  "course-message": { courseTitle: string; authorName: string; subject: string; body: string; courseUrl: string };
 };
 export type EmailTemplateName = keyof EmailTemplates;
 

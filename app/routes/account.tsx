@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { Route } from "./+types/account";
 import { accountInput, passwordFields } from "~/components/account/account-input";
 import { ApiTokens } from "~/components/account/api-tokens";
+import { CalendarFeed } from "~/components/account/calendar-feed";
 import { NameForm } from "~/components/account/name-form";
 import { PasswordForm } from "~/components/account/password-form";
 import { Sessions } from "~/components/account/sessions";
@@ -14,6 +15,7 @@ import { createApiToken, listApiTokens, mayHaveApiTokens, revokeApiToken } from 
 import { endOwnSession, listUserSessions } from "~/server/auth/session.server";
 import { redirectSignedOut, redirectWithNewSession } from "~/server/auth/session-responses.server";
 import { changePassword, hasPassword, signOutEverywhere, updateName } from "~/server/auth/sign-in.server";
+import { hasCalendarFeed, resetCalendarFeed } from "~/server/calendar/feed.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
@@ -23,10 +25,11 @@ const accountSearch = z.object({ password: z.enum(["reset", "changed"]).optional
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const user = await requireUser({ request, context });
-  const [sessions, canHaveTokens, passwordSet] = await Promise.all([
+  const [sessions, canHaveTokens, passwordSet, calendarFeedMade] = await Promise.all([
     listUserSessions(user.id),
     mayHaveApiTokens(user),
     hasPassword(user.id),
+    hasCalendarFeed(user.id),
   ]);
   const tokens = canHaveTokens ? await listApiTokens(user.id) : null;
   const { password: notice } = readSearchParams(request, accountSearch);
@@ -36,6 +39,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     passwordNotice: notice ?? null,
     sessions: sessions.map((session) => ({ ...session, current: session.id === user.sessionId })),
     tokens,
+    calendarFeedMade,
   };
 }
 
@@ -72,12 +76,14 @@ export const action = formAction(async ({ request, context, formData }: Route.Ac
     case "revoke-token":
       await revokeApiToken(user, input.tokenId, request);
       return { intent: input.intent, revoked: true as const };
+    case "calendar-feed":
+      return { intent: input.intent, calendarFeedUrl: await resetCalendarFeed(user.id, request) };
   }
 });
 
 export default function Account({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
-  const { user, passwordSet, passwordNotice, sessions, tokens } = loaderData;
+  const { user, passwordSet, passwordNotice, sessions, tokens, calendarFeedMade } = loaderData;
   return (
     <div className="mx-auto max-w-3xl space-y-8">
       <PageHeader id="account-title" title="Your account">
@@ -97,6 +103,11 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
       />
       <PasswordForm passwordSet={passwordSet} lastResult={replyFor(actionData, "password")} busy={busy} />
       <Sessions sessions={sessions} busy={busy} />
+      <CalendarFeed
+        made={calendarFeedMade}
+        url={actionData && "calendarFeedUrl" in actionData ? actionData.calendarFeedUrl : undefined}
+        busy={busy}
+      />
       {tokens ? (
         <ApiTokens
           tokens={tokens}

@@ -50,8 +50,9 @@ export type AuditAction =
   | "address.deleted"
   | "address.exported"
   | "address.imported"
-  // Issue 18, a record per student.
-  | "member.record_viewed";
+  | "member.record_viewed"
+  | "account.calendar_feed_reset"
+  | "course.message_sent";
 
 export type AuditInput = {
   action: AuditAction;

@@ -160,6 +160,8 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
+  // A calendar feed needs no session: its token is the key, and an unknown token is a bare 404 for anyone.
+  row("GET", "/calendar/:token.ics", everyone(404)),
   // A method an API address does not take is 405 for everyone: it says nothing about the data.
   row("GET", "/api/v1/me", { ...everyone(200), anonymous: 401 }),
   row("POST", "/api/v1/me", everyone(405)),

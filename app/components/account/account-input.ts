@@ -21,10 +21,15 @@ const createToken = z.object({
   tokenName: z.string().trim().min(1, "Name the token after what will use it.").max(80),
 });
 const revokeToken = z.object({ intent: z.literal("revoke-token"), tokenId: z.uuid() });
+const calendarFeed = z.object({ intent: z.literal("calendar-feed") });
 
-export const accountInput = z.discriminatedUnion("intent", [profile, password, endSession, signOutEverywhere, createToken, revokeToken], {
-  error: "Unknown action.",
-});
+export const accountInput = z.discriminatedUnion(
+  "intent",
+  [profile, password, endSession, signOutEverywhere, createToken, revokeToken, calendarFeed],
+  {
+    error: "Unknown action.",
+  },
+);
 
 /** Passwords never travel back into the page. */
 export const passwordFields = ["currentPassword", "newPassword", "confirmPassword"];
