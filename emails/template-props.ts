@@ -70,6 +70,16 @@ export const templatePropsSchemas = {
     returnAddress: z.array(oneLine).max(8),
     kitUrl: link,
   }),
+  "hand-in-receipt": z.object({
+    studentName: oneLine,
+    courseTitle: oneLine,
+    labTitle: oneLine,
+    version: z.number().int().positive(),
+    handedInAt: z.coerce.date(),
+    timeZone: oneLine,
+    late: z.boolean(),
+    receiptUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -116,6 +126,17 @@ export type EmailTemplates = {
     /** The course's return address, one line each; empty when the course has not set one. */
     returnAddress: string[];
     kitUrl: string;
+  };
+  "hand-in-receipt": {
+    studentName: string;
+    courseTitle: string;
+    labTitle: string;
+    version: number;
+    handedInAt: Date;
+    /** The course's IANA zone, named beside the time. */
+    timeZone: string;
+    late: boolean;
+    receiptUrl: string;
   };
 };
 export type EmailTemplateName = keyof EmailTemplates;
