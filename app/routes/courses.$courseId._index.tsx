@@ -35,7 +35,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     const [overview, marking] = await Promise.all([courseOverview(db, access), taOverview(db, access)]);
     return { view: "ta" as const, timeZone, ...overview, ...marking };
   }
-  return { view: "instructor" as const, timeZone, ...(await instructorOverview(db, access)) };
+  return { view: "instructor" as const, timeZone, recentDeadlineDays: RECENT_DEADLINE_DAYS, ...(await instructorOverview(db, access)) };
 }
 
 export default function CourseOverview({ loaderData }: Route.ComponentProps) {
@@ -71,7 +71,7 @@ function Item({ id, title, children }: { id: string; title: ReactNode; children:
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 function InstructorView(props: Of<"instructor">) {
-  const { timeZone, counts, deadlines, tas, comparisonFlags, flaggedParts, failedEmails, invitations } = props;
+  const { timeZone, recentDeadlineDays, counts, deadlines, tas, comparisonFlags, flaggedParts, failedEmails, invitations } = props;
   return (
     <>
       <p className="text-sm text-ink-700">
@@ -81,7 +81,7 @@ function InstructorView(props: Of<"instructor">) {
       <FailedEmailsPanel failedEmails={failedEmails} timeZone={timeZone} />
       <Item id="deadlines" title="Deadlines">
         {deadlines.length === 0 ? (
-          <p className="text-sm text-ink-700">No published lab is due, or was due in the last {RECENT_DEADLINE_DAYS} days.</p>
+          <p className="text-sm text-ink-700">No published lab is due, or was due in the last {recentDeadlineDays} days.</p>
         ) : (
           <ul className="flex flex-col gap-4">
             {deadlines.map((lab) => (
