@@ -25,7 +25,10 @@ import {
 import type { CourseAccess } from "~/server/auth/access.server";
 import { instructorOverview, studentOverview, taOverview } from "~/server/courses/overview.server";
 import { db } from "~/server/db.server";
+import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
+import { loadMarkingLab } from "~/server/marking/marking-lab.server";
 import { type AccessFixture, createAccessFixture } from "../support/access-fixture";
+import { appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countStatements } from "../support/count-statements";
 import { seedMarkingClass } from "../support/marking-class";
 
@@ -202,6 +205,47 @@ describe("the overviews of a seeded class", () => {
     expect(overview.failedEmails).toEqual([]);
     // Only the one invitation neither expired, revoked, replaced nor accepted.
     expect(overview.invitations).toEqual({ open: 1, students: 1 });
+  });
+
+  it("the pages say so to each role, linking each item to where it is dealt with", async () => {
+    const handle = await createAppHandler();
+    const html = async (actor: "instructor" | "assignedTa" | "ownStudent") => {
+      const response = await handle(appRequest(`/courses/${fixture.courseId}`, { cookie: await sessionCookieFor(fixture.userIds[actor]) }));
+      expect(response.status).toBe(200);
+      // React marks where text pieces meet with empty comments.
+      return (await response.text()).replaceAll("<!-- -->", "");
+    };
+    const forInstructor = await html("instructor");
+    expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/dashboard"`);
+    expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking?status=unmarked"`);
+    expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${fixture.labId}/comparison"`);
+    expect(forInstructor).toContain("nothing marked yet");
+    expect(forInstructor).toContain("1 invitation not accepted yet");
+    expect(forInstructor).toContain("1 kit not delivered yet");
+    const forTa = await html("assignedTa");
+    expect(forTa).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking?student=${fixture.membershipIds.ownStudent}"`);
+    expect(forTa).not.toContain("invitation");
+    const forStudent = await html("ownStudent");
+    expect(forStudent).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}#receipt"`);
+    expect(forStudent).toContain("Marked; your mark shows once it is released");
+    expect(forStudent).not.toContain("Test assignedTa");
+  });
+
+  it("the desk opens the student a next-to-mark link names, on their page, and knows who is still to mark", async () => {
+    const lab = (await loadMarkingLab(db, fixture.courseId, fixture.labId))!;
+    const filters = { page: 1, pageSize: 1 };
+    const whole = await loadMarkingDesk(db, { access: who("instructor"), lab, filters });
+    // ownStudent's hand-in is fully marked; sameCohortStudent has handed nothing in: neither is to mark.
+    expect(whole.toMarkIds).toEqual([]);
+    const last = whole.matchingIds.at(-1)!;
+    const opened = await loadMarkingDesk(db, { access: who("instructor"), lab, filters: { ...filters, studentId: last } });
+    expect(opened.openId).toBe(last);
+    expect(opened.page).toBe(whole.matchingIds.length);
+    expect(opened.rows.map((row) => row.membershipId)).toEqual([last]);
+    const recent = (await loadMarkingLab(db, fixture.courseId, recentLab))!;
+    expect((await loadMarkingDesk(db, { access: who("instructor"), lab: recent, filters })).toMarkIds).toEqual([
+      fixture.membershipIds.ownStudent,
+    ]);
   });
 
   it("a TA's lists their cohorts' hand-ins still to mark, oldest first, and their progress per lab", async () => {
