@@ -3,6 +3,7 @@ import type { ComponentType } from "react";
 import CourseInvitationEmail, { subject as courseInvitationSubject } from "./course-invitation";
 import CourseMessageEmail, { subject as courseMessageSubject } from "./course-message";
 import DeadlineReminderEmail, { subject as deadlineReminderSubject } from "./deadline-reminder";
+import HandInReceiptEmail, { subject as handInReceiptSubject } from "./hand-in-receipt";
 import KitOverdueEmail, { subject as kitOverdueSubject } from "./kit-overdue";
 import KitProblemEmail, { subject as kitProblemSubject } from "./kit-problem";
 import KitProblemUpdateEmail, { subject as kitProblemUpdateSubject } from "./kit-problem-update";
@@ -39,4 +40,5 @@ export const emailTemplates: { [Name in EmailTemplateName]: EmailTemplate<EmailT
   "kit-overdue": { Component: KitOverdueEmail, subject: kitOverdueSubject, previewProps: KitOverdueEmail.PreviewProps },
   "marks-released": { Component: MarksReleasedEmail, subject: marksReleasedSubject, previewProps: MarksReleasedEmail.PreviewProps },
   "course-message": { Component: CourseMessageEmail, subject: courseMessageSubject, previewProps: CourseMessageEmail.PreviewProps },
+  "hand-in-receipt": { Component: HandInReceiptEmail, subject: handInReceiptSubject, previewProps: HandInReceiptEmail.PreviewProps },
 };

@@ -77,6 +77,16 @@ export const templatePropsSchemas = {
     body: z.string().trim().min(1).max(5000),
     courseUrl: link,
   }),
+  "hand-in-receipt": z.object({
+    studentName: oneLine,
+    courseTitle: oneLine,
+    labTitle: oneLine,
+    version: z.number().int().positive(),
+    handedInAt: z.coerce.date(),
+    timeZone: oneLine,
+    late: z.boolean(),
+    receiptUrl: link,
+  }),
 } as const;
 
 export type EmailTemplates = {
@@ -125,6 +135,17 @@ export type EmailTemplates = {
     kitUrl: string;
   };
   "course-message": { courseTitle: string; authorName: string; subject: string; body: string; courseUrl: string };
+  "hand-in-receipt": {
+    studentName: string;
+    courseTitle: string;
+    labTitle: string;
+    version: number;
+    handedInAt: Date;
+    /** The course's IANA zone, named beside the time. */
+    timeZone: string;
+    late: boolean;
+    receiptUrl: string;
+  };
 };
 export type EmailTemplateName = keyof EmailTemplates;
 

@@ -2,6 +2,7 @@ import { redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId._index";
 import { DropLogForm } from "~/components/drop-logs/drop-log-form";
 import { HandInNotices } from "~/components/drop-logs/hand-in-notices";
+import { HandInReceipt } from "~/components/drop-logs/hand-in-receipt";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { PhotoUpload } from "~/components/drop-logs/photo-upload";
 import { VersionHistory } from "~/components/drop-logs/version-history";
@@ -156,6 +157,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
     ? dropLogDraft.safeParse({ ...refused.initialValue, useOwnMeasurements: refused.initialValue?.useOwnMeasurements === "on" })
     : null;
   const draftPhotos = photos.filter((photo) => photo.versionId === null);
+  const counted = versions.find((version) => version.id === latestVersionId);
   return (
     <div className="flex flex-col gap-6">
       <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}>
@@ -174,6 +176,7 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
       {mark ? <StudentMarkView mark={mark} timeZone={timeZone} /> : null}
 
       <HandInNotices handedIn={handedIn} timing={timing} afterRelease={afterRelease} releasedMessage={releasedMessage} />
+      {counted ? <HandInReceipt version={counted} timeZone={timeZone} /> : null}
 
       {lab.instructions ? (
         <section aria-labelledby="instructions-heading">

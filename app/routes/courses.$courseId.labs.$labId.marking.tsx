@@ -51,6 +51,8 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     pageCount: desk.pageCount,
     totalRows: desk.totalRows,
     matchingIds: desk.matchingIds,
+    toMarkIds: desk.toMarkIds,
+    openId: desk.openId,
     maxTotal: desk.maxTotal,
     canEdit: desk.canEdit,
     filters: { cohort: url.searchParams.get("cohort"), status: url.searchParams.get("status"), sort: url.searchParams.get("sort") },
@@ -191,6 +193,8 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
           rubric={lab.rubric}
           rows={rows}
           matchingIds={loaderData.matchingIds}
+          toMarkIds={loaderData.toMarkIds}
+          openId={loaderData.openId}
           canEdit={canEdit}
           maxTotal={maxTotal}
           sort={filters.sort}

@@ -8,9 +8,9 @@ import { mkdtemp } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { TZDate } from "@date-fns/tz";
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { courses, dropLogPhotos, dropLogs, dropLogVersions, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
+import { courses, dropLogPhotos, emailOutbox, dropLogs, dropLogVersions, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
 import {
   calibrationUncertainty,
   fitFluidViscosity,
@@ -392,18 +392,56 @@ describe("idempotent hand-in", () => {
 });
 
 describe("a hand-in's statements", () => {
-  it("are nine for a new version and six for a repeat, begin and commit included", async () => {
+  it("are ten for a new version and six for a repeat, begin and commit included", async () => {
     // At the deadline every hand-in pays per statement, so the budget is pinned here: the lab and the
     // kit (two), then begin, the drop log created or locked, the look-up of the key, the version, the
-    // latest-version pointer with the photos, the relabel job and commit. A repeat stops at the look-up.
+    // latest-version pointer with the photos and the receipt's outbox row, the relabel job, the
+    // receipt's delivery job (the one statement the receipt adds) and commit. A repeat stops at the look-up.
     const lab = await createLab();
     const args = { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "statement-budget-1" };
     const first = await countAllStatements(() => handInDropLog(db, args));
     expect(first.result.duplicate).toBe(false);
-    expect(first.statements).toBe(9);
+    expect(first.statements).toBe(10);
     const repeat = await countAllStatements(() => handInDropLog(db, args));
     expect(repeat.result).toEqual({ version: first.result.version, duplicate: true });
     expect(repeat.statements).toBe(6);
+  });
+});
+
+describe("the hand-in receipt", () => {
+  it("is queued once per version, with its number, time and zone, and not again when the hand-in is replayed", async () => {
+    const lab = await createLab({ title: "Receipt lab" });
+    const access = accessOf("ownStudent");
+    // The outbox keeps addresses lower-cased.
+    const address = access.user.email.toLowerCase();
+    const receipts = () =>
+      db
+        .select({ dedupeKey: emailOutbox.dedupeKey, props: emailOutbox.props, subject: emailOutbox.subject, status: emailOutbox.status })
+        .from(emailOutbox)
+        .where(
+          and(eq(emailOutbox.courseId, fixture.courseId), eq(emailOutbox.template, "hand-in-receipt"), eq(emailOutbox.toAddress, address)),
+        )
+        .orderBy(asc(emailOutbox.createdAt));
+    const before = (await receipts()).length;
+    const args = { access, labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "receipt-key-1" };
+    const first = await handInDropLog(db, args);
+    const replay = await handInDropLog(db, args);
+    expect(replay.duplicate).toBe(true);
+    const second = await handInDropLog(db, { ...args, idempotencyKey: "receipt-key-2" });
+    const sent = (await receipts()).slice(before);
+    expect(sent.map((row) => row.dedupeKey)).toEqual([`hand-in-receipt:${first.version.id}`, `hand-in-receipt:${second.version.id}`]);
+    expect(sent[1]).toMatchObject({
+      status: "queued",
+      subject: "Receipt: Receipt lab, version 2 handed in",
+      props: { version: 2, timeZone: "Europe/Dublin", late: false, labTitle: "Receipt lab", courseTitle: "Settling Spheres" },
+    });
+    expect(sent[1].props.handedInAt).toBe(second.version.submittedAt.toISOString());
+    expect(String(sent[1].props.receiptUrl)).toMatch(new RegExp(`/courses/${fixture.courseId}/labs/${lab.id}#receipt$`));
+    // Each queued receipt has its delivery job, inserted on the hand-in's transaction.
+    const jobs = await db.execute<{ n: number }>(
+      sql`select count(*)::int as n from pgboss.job where name = 'email-delivery' and data->>'outboxId' in (select id::text from email_outbox where dedupe_key like 'hand-in-receipt:%' and to_address = ${address})`,
+    );
+    expect(jobs.rows[0].n).toBe(before + 2);
   });
 });
 

@@ -9,7 +9,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { courseMemberships, courses, kitParts, kits, labCohorts, labs, parts, users } from "~/db/schema";
 import { partToCsvRow } from "~/lib/kits/parts-csv";
 import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
-import { courseOverview } from "~/server/courses/courses.server";
+import { courseOverview } from "~/server/courses/overview.server";
 import { db } from "~/server/db.server";
 import { ensureDropLog, handInDropLog } from "~/server/drop-logs/hand-in.server";
 import { checkInKits } from "~/server/kits/kits.server";

@@ -22,7 +22,9 @@ export function DeskFilters({
     const params = new URLSearchParams(location.search);
     if (value) params.set(key, value);
     else params.delete(key);
+    // A new filter starts at its first page, not at the student a "next to mark" link opened.
     params.delete("page");
+    params.delete("student");
     return `?${params}`;
   };
   const chip = (active: boolean) =>
@@ -81,6 +83,7 @@ export function Pages({ page, pageCount, totalRows }: { page: number; pageCount:
     );
   const to = (target: number) => {
     const params = new URLSearchParams(location.search);
+    params.delete("student");
     params.set("page", String(target));
     return `?${params}`;
   };

@@ -6,7 +6,8 @@
  */
 import { flexRender, getCoreRowModel, useReactTable, type RowSelectionState } from "@tanstack/react-table";
 import { useCallback, useEffect, useMemo, useReducer, useRef, useState, type Dispatch } from "react";
-import { useLocation } from "react-router";
+import { useLocation, useNavigate } from "react-router";
+import { isToMark } from "~/lib/marking/desk-filters";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
 import { tableHeadClass } from "~/components/ui/table-head";
@@ -26,6 +27,10 @@ export type DeskProps = {
   rows: MarkingDeskRow[];
   /** Every student passing the filters, on all pages. */
   matchingIds: string[];
+  /** Those of them still to mark as the page was loaded, in the same order. */
+  toMarkIds: string[];
+  /** The student to open beside the table as the page loads (a "next to mark" link). */
+  openId: string | null;
   canEdit: boolean;
   maxTotal: number;
   /** The current `sort` search parameter, e.g. `-total`. */
@@ -64,12 +69,27 @@ function DeskRow({
   );
 }
 
-export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, matchingIds, canEdit, maxTotal, sort }: DeskProps) {
+export function MarkingDesk({
+  courseId,
+  labId,
+  kind,
+  timeZone,
+  rubric,
+  rows,
+  matchingIds,
+  toMarkIds,
+  openId: initialOpenId,
+  canEdit,
+  maxTotal,
+  sort,
+}: DeskProps) {
   const [saves, dispatch] = useReducer(markSaves, {});
   const [selection, setSelection] = useState<RowSelectionState>({});
   /** Every student matching the filters is selected, beyond this page. */
   const [allMatching, setAllMatching] = useState(false);
-  const [openId, setOpenId] = useState<string | null>(null);
+  const [openId, setOpenId] = useState<string | null>(initialOpenId);
+  useEffect(() => setOpenId(initialOpenId), [initialOpenId]);
+  const [nextNote, setNextNote] = useState("");
   const [tools, setTools] = useState<Record<string, RowTools>>({});
   const tableRef = useRef<HTMLTableElement>(null);
   const register = useCallback((membershipId: string, entry: RowTools | null) => {
@@ -115,6 +135,38 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
   const desk = useMemo(() => ({ canEdit, rubric, open, kind, timeZone }), [canEdit, rubric, open, kind, timeZone]);
   const openIndex = rows.findIndex((row) => row.membershipId === openId);
   const openTools = openId ? tools[openId] : undefined;
+
+  // Alt+N, from anywhere on the desk: the next hand-in still to mark after the open (or focused) student,
+  // in the desk's order, wrapping round. This page's rows are judged as saved since; other pages as loaded.
+  const navigate = useNavigate();
+  const location = useLocation();
+  useEffect(() => {
+    const onKeyDown = (event: KeyboardEvent) => {
+      if (!event.altKey || event.ctrlKey || event.metaKey || event.code !== "KeyN") return;
+      event.preventDefault();
+      const focusedRow = (document.activeElement as HTMLElement | null)?.closest("[data-row]") as HTMLElement | null;
+      const current = openId ?? (focusedRow ? rows[Number(focusedRow.dataset.row)]?.membershipId : undefined);
+      const waiting = new Set(toMarkIds);
+      const stillToMark = (id: string) => (tools[id] ? isToMark(tools[id].row) : waiting.has(id));
+      const from = current ? matchingIds.indexOf(current) : -1;
+      const order = [...matchingIds.slice(from + 1), ...matchingIds.slice(0, Math.max(from, 0))];
+      const next = order.find(stillToMark);
+      if (!next) {
+        setNextNote("No other hand-in is waiting to be marked among the students shown.");
+        return;
+      }
+      setNextNote("");
+      if (rows.some((row) => row.membershipId === next)) setOpenId(next);
+      else {
+        const params = new URLSearchParams(location.search);
+        params.delete("page");
+        params.set("student", next);
+        navigate(`?${params}`, { preventScrollReset: true });
+      }
+    };
+    document.addEventListener("keydown", onKeyDown);
+    return () => document.removeEventListener("keydown", onKeyDown);
+  }, [openId, rows, tools, toMarkIds, matchingIds, location.search, navigate]);
 
   // The first control of the grid is its one tab stop, until another cell has had focus.
   useEffect(() => {
@@ -246,7 +298,11 @@ export function MarkingDesk({ courseId, labId, kind, timeZone, rubric, rows, mat
         </div>
         <p id="desk-keys" className="text-xs text-ink-700">
           Keys: arrows move between cells and rows; a level&apos;s number sets it and Delete clears it; type points and press Enter; Enter
-          on a student or an automatic cell opens the hand-in beside the table; Space selects the row.
+          on a student or an automatic cell opens the hand-in beside the table; Space selects the row; Alt+N, from anywhere on the desk,
+          opens the next hand-in still to mark.
+        </p>
+        <p role="status" className="text-sm">
+          {nextNote}
         </p>
       </div>
     </DeskContext.Provider>

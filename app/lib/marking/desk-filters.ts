@@ -21,7 +21,16 @@ export type MarkingDeskFilters = {
   /** 1-based. */
   page: number;
   pageSize: number;
+  /** A student to open beside the table: the page shown is theirs ("next to mark" links here). */
+  studentId?: string;
 };
+
+/**
+ * A hand-in still to mark: handed in, and not fully marked or reopened by a hand-in after release. The
+ * desk's "next to mark" key goes to these; the course overview counts the same in SQL.
+ */
+export const isToMark = (row: { handIn: unknown; progress: "unmarked" | "partial" | "marked"; needsRemarking: boolean }) =>
+  row.handIn !== null && (row.progress !== "marked" || row.needsRemarking);
 
 export const DEFAULT_DESK_PAGE_SIZE = 50;
 export const MAX_DESK_PAGE_SIZE = 200;
@@ -43,6 +52,7 @@ export const markingDeskSearch = z
       .optional(),
     page: pageNumber.default(1),
     pageSize: z.coerce.number().int().min(1).max(MAX_DESK_PAGE_SIZE).default(DEFAULT_DESK_PAGE_SIZE),
+    student: z.uuid().optional(),
   })
   .transform((parsed): MarkingDeskFilters => ({
     cohortId: parsed.cohort,
@@ -52,6 +62,7 @@ export const markingDeskSearch = z
       : undefined,
     page: parsed.page,
     pageSize: parsed.pageSize,
+    studentId: parsed.student,
   }));
 
 /** The search string for filters (defaults left out), the inverse of `markingDeskSearch`. */
@@ -62,5 +73,6 @@ export function markingDeskSearchParams(filters: Partial<MarkingDeskFilters>): U
   if (filters.sort) params.set("sort", `${filters.sort.direction === "desc" ? "-" : ""}${filters.sort.by}`);
   if (filters.page && filters.page > 1) params.set("page", String(filters.page));
   if (filters.pageSize && filters.pageSize !== DEFAULT_DESK_PAGE_SIZE) params.set("pageSize", String(filters.pageSize));
+  if (filters.studentId) params.set("student", filters.studentId);
   return params;
 }

@@ -2,15 +2,12 @@
  * Courses and their cohorts: creating them, their settings, and which TA marks which cohort.
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, count, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
-import { cohorts, courseMemberships, courses, kits, taCohortAssignments, users } from "~/db/schema";
+import { and, asc, eq, inArray, isNull, sql } from "drizzle-orm";
+import { cohorts, courseMemberships, courses, taCohortAssignments, users } from "~/db/schema";
 import type { CourseInput } from "~/lib/courses/course-input";
 import type { ReturnSettingsInput } from "~/lib/courses/return-settings-input";
-import type { KitState } from "~/lib/kits/kit-states";
 import { recordAudit } from "~/server/audit.server";
-import { kitCohortScope, type CourseAccess } from "~/server/auth/access.server";
 import { isUniqueViolation, type Executor } from "~/server/db.server";
-import { openProblemsDigest } from "~/server/kits/kit-problems.server";
 
 export type Course = typeof courses.$inferSelect;
 
@@ -149,41 +146,4 @@ export async function getCourseWithCohorts(executor: Executor, courseId: string)
       .orderBy(asc(users.name)),
   ]);
   return { course, cohorts: cohortRows, tas: taRows };
-}
-
-/**
- * The course overview's headline counts and open kit problems: four statements whatever the course's size.
- * A TA's kit counts and problems are those of their cohorts' students, as their kits list shows.
- */
-export async function courseOverview(executor: Executor, access: CourseAccess) {
-  const courseId = access.course.id;
-  const cohortIds = kitCohortScope(access);
-  const heldInScope = (holder: SQL) =>
-    cohortIds === undefined
-      ? sql`true`
-      : sql`${holder} in (select cm.id from course_memberships cm where cm.cohort_id in (select value::uuid from json_array_elements_text(${JSON.stringify(cohortIds)}::json)))`;
-  const [[counts], kitRows, [myKit], openProblems] = await Promise.all([
-    executor
-      .select({
-        students: sql<number>`count(*) filter (where ${courseMemberships.role} = 'student')::int`,
-        tas: sql<number>`count(*) filter (where ${courseMemberships.role} = 'ta')::int`,
-        instructors: sql<number>`count(*) filter (where ${courseMemberships.role} = 'instructor')::int`,
-        kits: sql<number>`(select count(*)::int from ${kits} k where k.course_id = ${courseId} and ${heldInScope(sql`k.holder_membership_id`)})`,
-      })
-      .from(courseMemberships)
-      .where(and(eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt))),
-    executor
-      .select({ state: kits.state, count: count() })
-      .from(kits)
-      .where(and(eq(kits.courseId, courseId), heldInScope(sql`${kits.holderMembershipId}`)))
-      .groupBy(kits.state),
-    executor.select({ number: kits.number, state: kits.state }).from(kits).where(eq(kits.holderMembershipId, access.membership.id)),
-    access.membership.role === "student" ? null : openProblemsDigest(executor, courseId, cohortIds),
-  ]);
-  return {
-    counts,
-    openProblems,
-    kitsByState: Object.fromEntries(kitRows.map((row) => [row.state, row.count])) as Partial<Record<KitState, number>>,
-    myKit: myKit ?? null,
-  };
 }

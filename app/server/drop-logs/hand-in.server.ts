@@ -16,7 +16,10 @@ import type { AllowedPartKind } from "~/lib/labs/lab-input";
 import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { comparisonLabColumns, queueClassComparison } from "~/server/comparison/class-comparison.server";
+import { appUrl } from "~/server/config.server";
 import type { Executor } from "~/server/db.server";
+import { outboxEntry } from "~/server/email/send-email.server";
+import { enqueuer, transactionAdapter } from "~/server/jobs/boss.server";
 import { jsonRows } from "~/server/json-rows.server";
 import { labRefusal } from "~/server/labs/lab-access.server";
 import { markingLock } from "~/server/marking/marks.server";
@@ -368,9 +371,12 @@ export async function handInDropLog(
     // mark is released: "refuse" then rolls the hand-in back, "reopen" reopens that mark (which keeps the
     // version it was marked on) in the same statement.
     const reopen = lab.afterReleaseHandIns === "reopen";
-    // Raw: data-modifying CTEs over three tables in one statement; the builder writes one table per statement.
+    // The student's receipt is written in the same statement (the builder parenthesises it); it rolls back with a refused hand-in.
+    const receipt = receiptEmail(tx, access, { id: labId, title: lab.title }, inserted);
+    // Raw: data-modifying CTEs over four tables in one statement; the builder writes one table per statement.
     const counted = await tx.execute<{ markReleased: boolean }>(sql`
       with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null),
+      receipt as ${receipt.insert},
       first_revision as (
         insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, created_at)
         select id, 1, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, submitted_at
@@ -380,7 +386,32 @@ export async function handInDropLog(
       returning ${markReleased(labId, access.membership.id)} as "markReleased"`);
     if (counted.rows[0].markReleased && !reopen) throw handInRefusal("mark_released", markReleasedMessage);
     await queueClassComparison(tx, labId);
+    if (receipt.job) await enqueuer().insert([receipt.job], { db: transactionAdapter(tx) });
     return { version: inserted, duplicate: false };
+  });
+}
+
+/**
+ * The hand-in's receipt to the student, once per version (its dedupe key names the version): a
+ * replayed hand-in returns the stored version before this is reached, so it sends nothing new.
+ */
+function receiptEmail(tx: Executor, access: CourseAccess, lab: { id: string; title: string }, version: HandInResult["version"]) {
+  return outboxEntry(tx, {
+    to: access.user.email,
+    toName: access.user.name,
+    template: "hand-in-receipt",
+    courseId: access.course.id,
+    dedupeKey: `hand-in-receipt:${version.id}`,
+    props: {
+      studentName: access.user.name,
+      courseTitle: access.course.title,
+      labTitle: lab.title,
+      version: version.version,
+      handedInAt: version.submittedAt,
+      timeZone: access.course.timeZone,
+      late: version.late,
+      receiptUrl: `${appUrl()}/courses/${access.course.id}/labs/${lab.id}#receipt`,
+    },
   });
 }
 

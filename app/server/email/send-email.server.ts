@@ -94,6 +94,19 @@ function outboxRowFor(message: EmailMessage) {
 export type QueuedEmail = { outboxId: string; duplicate: boolean; refused: boolean };
 
 /**
+ * One message as an outbox insert (`on conflict do nothing` on its dedupe key) and its delivery job
+ * (null when the message is refused), for a caller that writes the row inside a statement it runs
+ * anyway: the hand-in, whose statements are budgeted. The caller inserts the job with `enqueuer().insert`.
+ */
+export function outboxEntry(tx: Executor, message: EmailMessage) {
+  const row = outboxRowFor(message);
+  return {
+    insert: tx.insert(emailOutbox).values(row).onConflictDoNothing(),
+    job: row.status === "queued" ? { name: queues.emailDelivery, data: { outboxId: row.id } satisfies EmailDeliveryJob } : null,
+  };
+}
+
+/**
  * Writes the outbox rows and enqueues their delivery jobs inside `tx`, in a constant number of
  * statements whatever the batch's size (a roster import queues thousands). A message that cannot be
  * sent is written as failed (`refused`) and gets no job; it never stops the others. A message whose

@@ -7,6 +7,7 @@
  */
 import {
   deskStatusFilters,
+  isToMark,
   MAX_DESK_PAGE_SIZE,
   type DeskSortKey,
   type DeskStatusFilter,
@@ -40,6 +41,10 @@ export type MarkingDesk = {
   totalRows: number;
   /** Every student passing the filters, on every page: what "select all that match" selects. */
   matchingIds: string[];
+  /** Those of them whose hand-in is still to mark, in the same order: where the "next to mark" key goes beyond this page. */
+  toMarkIds: string[];
+  /** The student asked for in the URL, when they pass the filters: opened beside the table. */
+  openId: string | null;
   page: number;
   pageSize: number;
   pageCount: number;
@@ -120,13 +125,16 @@ export async function loadMarkingDesk(
   const filtered = sortRows(filters.status ? inCohort.filter((row) => passes(row, filters.status!)) : inCohort, filters.sort);
   const pageSize = Math.min(Math.max(1, Math.floor(filters.pageSize)), MAX_DESK_PAGE_SIZE);
   const pageCount = Math.max(1, Math.ceil(filtered.length / pageSize));
-  const page = Math.min(Math.max(1, Math.floor(filters.page)), pageCount);
+  const asked = filters.studentId ? filtered.findIndex((row) => row.membershipId === filters.studentId) : -1;
+  const page = asked >= 0 ? Math.floor(asked / pageSize) + 1 : Math.min(Math.max(1, Math.floor(filters.page)), pageCount);
   return {
     lab,
     cohorts,
     rows: filtered.slice((page - 1) * pageSize, page * pageSize),
     totalRows: filtered.length,
     matchingIds: filtered.map((row) => row.membershipId),
+    toMarkIds: filtered.filter(isToMark).map((row) => row.membershipId),
+    openId: asked >= 0 ? filtered[asked].membershipId : null,
     page,
     pageSize,
     pageCount,
