@@ -24,6 +24,8 @@ export default [
     route("members/:membershipId", "routes/courses.$courseId.members.$membershipId.tsx"),
     route("roster", "routes/courses.$courseId.roster.tsx"),
     route("audit", "routes/courses.$courseId.audit.tsx"),
+    route("mark-book", "routes/courses.$courseId.mark-book.tsx"),
+    route("mark-book/settings", "routes/courses.$courseId.mark-book.settings.tsx"),
     ...prefix("kits", [
       index("routes/courses.$courseId.kits._index.tsx"),
       route("new", "routes/courses.$courseId.kits.new.tsx"),
@@ -73,6 +75,8 @@ export default [
   route("courses/:courseId/labs/:labId/comparison.csv", "routes/courses.$courseId.labs.$labId.comparison[.]csv.ts"),
   route("courses/:courseId/labs/:labId/marks.csv", "routes/courses.$courseId.labs.$labId.marks[.]csv.ts"),
   route("courses/:courseId/photos/:photoId", "routes/courses.$courseId.photos.$photoId.ts"),
+  route("courses/:courseId/mark-book.csv", "routes/courses.$courseId.mark-book[.]csv.ts"),
+  route("courses/:courseId/mark-book/oneroster-results.csv", "routes/courses.$courseId.mark-book.oneroster-results[.]csv.ts"),
   route("api/v1/me", "routes/api/v1.me.ts"),
   route("api/v1/reduce", "routes/api/v1.reduce.ts"),
   route("api/v1/courses/:courseId/labs", "routes/api/v1.courses.$courseId.labs.ts"),

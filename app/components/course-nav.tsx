@@ -16,6 +16,7 @@ export function courseRooms(courseId: string, role: ViewerRole): { to: string; l
     { to: `${base}/labs`, label: "Labs" },
     { to: `${base}/kits`, label: "Kits" },
     { to: `${base}/parts`, label: "Parts" },
+    { to: `${base}/mark-book`, label: "Mark book" },
   ];
   if (role === "ta") return staff;
   return [

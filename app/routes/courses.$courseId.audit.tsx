@@ -26,6 +26,8 @@ const actionWords: Record<string, string> = {
   "address.deleted": "deleted a shipping address",
   "address.exported": "downloaded a shipping address",
   "address.imported": "imported a shipping address",
+  "markbook.settings_changed": "changed the mark book's weights",
+  "markbook.exported": "downloaded the mark book",
 };
 
 export default function CourseAudit({ loaderData }: Route.ComponentProps) {

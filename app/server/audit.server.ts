@@ -49,7 +49,10 @@ export type AuditAction =
   | "address.changed"
   | "address.deleted"
   | "address.exported"
-  | "address.imported";
+  | "address.imported"
+  // The term mark book (issue 18).
+  | "markbook.settings_changed"
+  | "markbook.exported";
 
 export type AuditInput = {
   action: AuditAction;
