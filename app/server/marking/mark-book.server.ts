@@ -89,10 +89,10 @@ export async function markBookFrame(executor: Executor, access: CourseAccess): P
         select json_agg(json_build_object('id', l.id, 'title', l.title, 'dueAt', l.due_at, 'status', l.status, 'weight', l.mark_weight,
           'maximum', (select coalesce(sum(rc.max_points), 0) from rubric_criteria rc where rc.lab_id = l.id))
           order by l.due_at, l.title, l.id)
-        from labs l where l.course_id = ${courses.id} and l.status <> 'draft'), '[]'::json)`,
+        from labs l where l.course_id = ${access.course.id} and l.status <> 'draft'), '[]'::json)`,
       cohorts: sql<{ id: string; name: string }[]>`coalesce((
         select json_agg(json_build_object('id', c.id, 'name', c.name) order by c.name)
-        from cohorts c where c.course_id = ${courses.id} ${scope ? sql`and c.id in ${uuidList(scope)}` : sql``}), '[]'::json)`,
+        from cohorts c where c.course_id = ${access.course.id} ${scope ? sql`and c.id in ${uuidList(scope)}` : sql``}), '[]'::json)`,
     })
     .from(courses)
     .where(eq(courses.id, access.course.id));
