@@ -133,9 +133,7 @@ export async function markBookRows(
   const sortLabId = typeof by === "object" ? by.labId : null;
   const sortKey = typeof by === "object" ? sql`sl.percent` : sortColumns[by];
   const order = sql`${sortKey} ${sql.raw(direction === "desc" ? "desc" : "asc")} nulls last, lower(s.name), s.membership_id`;
-  const page = query.paging
-    ? sql`where o.position > ${(query.paging.page - 1) * query.paging.pageSize} and o.position <= ${query.paging.page * query.paging.pageSize}`
-    : sql``;
+  const page = query.paging ? sql`limit ${query.paging.pageSize} offset ${(query.paging.page - 1) * query.paging.pageSize}` : sql``;
 
   const result = await executor.execute<MarkBookRow & { matching: number }>(sql`
     with students as (
@@ -151,8 +149,8 @@ export async function markBookRows(
       where l.course_id = ${courseId} and l.status <> 'draft'
       group by l.id
     ),
-    released as (
-      select mk.id as mark_id, mk.membership_id, mk.lab_id, mk.total as points, mk.released_at, mk.updated_at, lm.weight,
+    scored as (
+      select mk.membership_id, mk.lab_id, lm.weight,
         case when lm.maximum > 0 then 100 * mk.total / lm.maximum end as percent
       from marks mk
       join students s on s.membership_id = mk.membership_id
@@ -162,56 +160,65 @@ export async function markBookRows(
     -- Each student's weighted labs from the lowest percentage up. Between equal percentages the
     -- heavier lab goes first, which leaves the student the better total.
     ranked as (
-      select membership_id, lab_id, weight, percent,
-        row_number() over (partition by membership_id order by percent, weight desc, lab_id) as from_lowest,
-        count(*) over (partition by membership_id) as weighted
-      from released
-      where weight > 0 and percent is not null
+      select sc.*, sc.weight > 0 and sc.percent is not null as weighted,
+        row_number() over (partition by sc.membership_id, sc.weight > 0 and sc.percent is not null order by sc.percent, sc.weight desc, sc.lab_id)
+          as from_lowest,
+        count(*) over (partition by sc.membership_id, sc.weight > 0 and sc.percent is not null) as weighted_labs
+      from scored sc
     ),
-    kept as (
-      select r.*, r.from_lowest > least((select mark_book_drop_lowest from courses where id = ${courseId}), r.weighted - 1) as kept
+    released as (
+      select r.*, case
+          when not r.weighted then 'left-out'
+          when r.from_lowest > least((select mark_book_drop_lowest from courses where id = ${courseId}), r.weighted_labs - 1) then 'counted'
+          else 'dropped' end as use
       from ranked r
     ),
     totals as (
       select membership_id,
-        sum(weight * percent) filter (where kept) / sum(weight) filter (where kept) as total,
-        (count(*) filter (where kept))::int as counted,
-        (count(*) filter (where not kept))::int as dropped
-      from kept
+        sum(weight * percent) filter (where use = 'counted') / sum(weight) filter (where use = 'counted') as total,
+        (count(*) filter (where use = 'counted'))::int as counted,
+        (count(*) filter (where use = 'dropped'))::int as dropped,
+        array_agg(lab_id) filter (where use = 'dropped') as dropped_lab_ids
+      from released
+      where weighted
       group by membership_id
     ),
     ordered as (
-      select s.*, t.total, coalesce(t.counted, 0) as counted, coalesce(t.dropped, 0) as dropped,
+      select s.*, t.total, coalesce(t.counted, 0) as counted, coalesce(t.dropped, 0) as dropped, t.dropped_lab_ids,
         (count(*) over ())::int as matching,
         row_number() over (order by ${order}) as position
       from students s
       left join totals t on t.membership_id = s.membership_id
-      left join released sl on sl.membership_id = s.membership_id and sl.lab_id = ${sortLabId}
+      ${sortLabId ? sql`left join released sl on sl.membership_id = s.membership_id and sl.lab_id = ${sortLabId}` : sql``}
     )
+    -- The cells of the rows shown only, each found by index: a page costs the same whatever the class.
     select o.membership_id as "membershipId", o.user_id as "userId", o.name, o.email, o.student_number as "studentNumber",
       o.cohort_id as "cohortId", o.cohort_name as "cohortName", o.total, o.counted, o.dropped, o.matching,
       coalesce((
         select json_object_agg(lm.lab_id, json_build_object(
           'standing', case
-            when rl.mark_id is not null then 'released'
-            when not exists (select 1 from lab_cohorts lc where lc.lab_id = lm.lab_id and lc.cohort_id = o.cohort_id) then 'not-set'
+            when mk.released_at is not null then 'released'
+            when lc.lab_id is null then 'not-set'
             when mk.id is not null or d.latest_version_id is not null then 'unreleased'
             else 'missing' end,
-          'points', rl.points,
-          'percent', rl.percent,
-          'use', case when rl.mark_id is null then null when k.lab_id is null then 'left-out' when k.kept then 'counted' else 'dropped' end,
-          'markId', rl.mark_id,
-          'releasedAt', rl.released_at,
-          'updatedAt', rl.updated_at))
+          'points', case when mk.released_at is not null then mk.total end,
+          'percent', case when mk.released_at is not null and lm.maximum > 0 then 100 * mk.total / lm.maximum end,
+          'use', case
+            when mk.released_at is null then null
+            when lm.weight = 0 or lm.maximum = 0 then 'left-out'
+            when lm.lab_id = any(o.dropped_lab_ids) then 'dropped'
+            else 'counted' end,
+          'markId', case when mk.released_at is not null then mk.id end,
+          'releasedAt', mk.released_at,
+          'updatedAt', case when mk.released_at is not null then mk.updated_at end))
         from lab_maxima lm
-        left join released rl on rl.lab_id = lm.lab_id and rl.membership_id = o.membership_id
-        left join kept k on k.lab_id = lm.lab_id and k.membership_id = o.membership_id
         left join marks mk on mk.lab_id = lm.lab_id and mk.membership_id = o.membership_id
         left join drop_logs d on d.lab_id = lm.lab_id and d.membership_id = o.membership_id
+        left join lab_cohorts lc on lc.lab_id = lm.lab_id and lc.cohort_id = o.cohort_id
       ), '{}'::json) as cells
     from ordered o
-    ${page}
-    order by o.position`);
+    order by o.position
+    ${page}`);
   const rows = result.rows.map(({ matching: _matching, ...row }) => row);
   // A page past the last has no rows to carry the count: the count is then asked for again, once.
   if (result.rows.length === 0 && query.paging && query.paging.page > 1) {
