@@ -25,6 +25,8 @@ export default [
     route("members/:membershipId/record", "routes/courses.$courseId.members.$membershipId.record.tsx"),
     route("roster", "routes/courses.$courseId.roster.tsx"),
     route("audit", "routes/courses.$courseId.audit.tsx"),
+    route("mark-book", "routes/courses.$courseId.mark-book.tsx"),
+    route("mark-book/settings", "routes/courses.$courseId.mark-book.settings.tsx"),
     ...prefix("kits", [
       index("routes/courses.$courseId.kits._index.tsx"),
       route("new", "routes/courses.$courseId.kits.new.tsx"),
@@ -78,6 +80,8 @@ export default [
   route("courses/:courseId/photos/:photoId", "routes/courses.$courseId.photos.$photoId.ts"),
   // A user's private calendar feed: the token is the key, no session needed.
   route("calendar/:token.ics", "routes/calendar.$token[.]ics.ts"),
+  route("courses/:courseId/mark-book.csv", "routes/courses.$courseId.mark-book[.]csv.ts"),
+  route("courses/:courseId/mark-book/oneroster-results.csv", "routes/courses.$courseId.mark-book.oneroster-results[.]csv.ts"),
   route("api/v1/me", "routes/api/v1.me.ts"),
   route("api/v1/reduce", "routes/api/v1.reduce.ts"),
   route("api/v1/courses/:courseId/labs", "routes/api/v1.courses.$courseId.labs.ts"),

@@ -17,6 +17,7 @@ export function courseRooms(courseId: string, role: ViewerRole): { to: string; l
     { to: `${base}/kits`, label: "Kits" },
     { to: `${base}/parts`, label: "Parts" },
     { to: `${base}/messages`, label: "Messages" },
+    { to: `${base}/mark-book`, label: "Mark book" },
   ];
   if (role === "ta") return staff;
   return [

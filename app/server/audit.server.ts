@@ -52,7 +52,9 @@ export type AuditAction =
   | "address.imported"
   | "member.record_viewed"
   | "account.calendar_feed_reset"
-  | "course.message_sent";
+  | "course.message_sent"
+  | "markbook.settings_changed"
+  | "markbook.exported";
 
 export type AuditInput = {
   action: AuditAction;

@@ -162,6 +162,12 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),
   // A calendar feed needs no session: its token is the key, and an unknown token is a bare 404 for anyone.
   row("GET", "/calendar/:token.ics", everyone(404)),
+  // The term mark book: staff (a TA sees their cohorts' students); its weights are the instructors'. The probe fails the form: 400.
+  row("GET", "/courses/:courseId/mark-book", staffOnly(200)),
+  row("GET", "/courses/:courseId/mark-book/settings", instructorOnly(200)),
+  row("POST", "/courses/:courseId/mark-book/settings", instructorOnly(400)),
+  row("GET", "/courses/:courseId/mark-book.csv", staffOnly(200)),
+  row("GET", "/courses/:courseId/mark-book/oneroster-results.csv", staffOnly(200)),
   // A method an API address does not take is 405 for everyone: it says nothing about the data.
   row("GET", "/api/v1/me", { ...everyone(200), anonymous: 401 }),
   row("POST", "/api/v1/me", everyone(405)),

@@ -16,4 +16,6 @@ export const actionWords: Record<string, string> = {
   "address.exported": "downloaded a shipping address",
   "address.imported": "imported a shipping address",
   "member.record_viewed": "opened a student's record",
+  "markbook.settings_changed": "changed the mark book's weights",
+  "markbook.exported": "downloaded the mark book",
 };
