@@ -49,7 +49,12 @@ export type AuditAction =
   | "address.changed"
   | "address.deleted"
   | "address.exported"
-  | "address.imported";
+  | "address.imported"
+  // Roster updates mid-term (issue 18, part 4)
+  | "course.invitation_resent"
+  | "course.invitation_revoked"
+  | "course.member_updated"
+  | "course.roster_updated";
 
 export type AuditInput = {
   action: AuditAction;

@@ -18,6 +18,7 @@ const row = (line: number, email: string, cohort = "Cohort one", role = "student
   name: `Person ${line}`,
   cohort,
   role,
+  studentNumber: "",
 });
 const inviter = (of = fixture) => ({ id: of.userIds.instructor, name: "Test instructor" });
 
