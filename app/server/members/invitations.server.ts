@@ -175,13 +175,13 @@ async function pendingInvitation(tx: Transaction, courseId: string, invitationId
 
 /**
  * Sends the invitation again with a new token and a new e-mail (for a lost e-mail or an expired link):
- * the old link then says it was replaced. Returns the new invitation's id.
+ * the old link then says it was replaced.
  */
 export async function resendInvitation(
   executor: Database,
   { courseId, inviter, invitationId }: { courseId: string; inviter: Inviter; invitationId: string },
   request?: Request,
-): Promise<string> {
+): Promise<{ email: string; invitationId: string }> {
   return executor.transaction(async (tx) => {
     const invitation = await pendingInvitation(tx, courseId, invitationId);
     const { invited, skipped } = await createInvitations(tx, inviter, courseId, [invitation], request);
@@ -195,7 +195,7 @@ export async function resendInvitation(
       detail: { email: invitation.email, newInvitationId: invited[0].invitationId },
       request,
     });
-    return invited[0].invitationId;
+    return invited[0];
   });
 }
 
@@ -207,8 +207,8 @@ export async function revokeInvitation(
   executor: Database,
   { courseId, actorId, invitationId }: { courseId: string; actorId: string; invitationId: string },
   request?: Request,
-): Promise<void> {
-  await executor.transaction(async (tx) => {
+): Promise<{ email: string }> {
+  return executor.transaction(async (tx) => {
     const invitation = await pendingInvitation(tx, courseId, invitationId);
     const [held] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderInvitationId, invitation.id));
     if (held)
@@ -229,6 +229,7 @@ export async function revokeInvitation(
       detail: { email: invitation.email, role: invitation.role },
       request,
     });
+    return { email: invitation.email };
   });
 }
 

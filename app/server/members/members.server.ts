@@ -117,6 +117,40 @@ export async function changeMemberRole(
   });
 }
 
+/**
+ * Sets (or, with null, clears) a member's student number. It lives on their account, as the institution
+ * gives one number per person, so every course of theirs shows it.
+ */
+export async function setStudentNumber(
+  {
+    courseId,
+    actorId,
+    membershipId,
+    studentNumber,
+  }: { courseId: string; actorId: string; membershipId: string; studentNumber: string | null },
+  request?: Request,
+): Promise<void> {
+  await db.transaction(async (tx) => {
+    const [member] = await tx
+      .select({ userId: users.id, studentNumber: users.studentNumber })
+      .from(courseMemberships)
+      .innerJoin(users, eq(users.id, courseMemberships.userId))
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)))
+      .for("update", { of: users });
+    if (!member) throw new AppError({ code: "member_refused", message: "That person is not a member of this course.", status: 404 });
+    if (member.studentNumber === studentNumber) return;
+    await tx.update(users).set({ studentNumber }).where(eq(users.id, member.userId));
+    await recordAudit(tx, {
+      action: "course.member_updated",
+      actorId,
+      courseId,
+      subject: `membership:${membershipId}`,
+      detail: { changes: [{ field: "student number", from: member.studentNumber, to: studentNumber }], via: "member page" },
+      request,
+    });
+  });
+}
+
 export function listCohorts(courseId: string) {
   return db.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name));
 }
