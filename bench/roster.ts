@@ -22,6 +22,7 @@ for (let round = 0; round < ROUNDS; round++) {
     name: `Student ${index}`,
     cohort: index % 2 ? "Cohort one" : "Cohort two",
     role: "student",
+    studentNumber: `s${round}${index}`,
   }));
   const started = performance.now();
   const result = await importRoster(db, {

@@ -5,14 +5,16 @@ import type { Route } from "./+types/courses.$courseId.members.$membershipId";
 import { RoleAndCohortFields } from "~/components/member-fields";
 import { AddressLines } from "~/components/shipping/address-fields";
 import { Button } from "~/components/ui/button";
+import { TextField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { roleWords } from "~/lib/courses/roles";
+import { studentNumber, studentNumberMaxLength } from "~/lib/roster/student-number";
 import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole, requireStudentAccess, requireUser } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
-import { changeMemberRole, getMember, listCohorts, removeMember } from "~/server/members/members.server";
+import { changeMemberRole, getMember, listCohorts, removeMember, setStudentNumber } from "~/server/members/members.server";
 import { viewAddress } from "~/server/shipping/addresses.server";
 
 const memberAction = z.discriminatedUnion("intent", [
@@ -22,6 +24,7 @@ const memberAction = z.discriminatedUnion("intent", [
     cohortId: z.union([z.literal(""), z.uuid()]).optional(),
   }),
   z.object({ intent: z.literal("remove") }),
+  z.object({ intent: z.literal("student-number"), studentNumber: z.union([z.literal(""), studentNumber]).optional() }),
 ]);
 
 /** The member page: the member themselves, the course's instructors, and the TAs of the member's cohort. */
@@ -55,8 +58,12 @@ export const action = formAction(async ({ request, context, params, formData }: 
     await removeMember(target, request);
     return redirect(`/courses/${access.course.id}/members?removed=1`);
   }
+  if (input.intent === "student-number") {
+    await setStudentNumber({ ...target, studentNumber: input.studentNumber || null }, request);
+    return { saved: "student-number" };
+  }
   await changeMemberRole({ ...target, role: input.role, cohortId: input.cohortId || null }, request);
-  return { saved: true };
+  return { saved: "change-role" };
 });
 
 export default function CourseMember({ loaderData, actionData }: Route.ComponentProps) {
@@ -71,6 +78,14 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
     onValidate: ({ formData }) => parseSubmission(formData, memberAction),
   });
   const [removeForm] = useForm({ id: "remove", lastResult: replyFor(actionData, "remove") });
+  const [numberForm, numberFields] = useForm({
+    id: "student-number",
+    lastResult: replyFor(actionData, "student-number"),
+    defaultValue: { studentNumber: member.studentNumber ?? "" },
+    shouldValidate: "onBlur",
+    onValidate: ({ formData }) => parseSubmission(formData, memberAction),
+  });
+  const saved = actionData && "saved" in actionData ? actionData.saved : undefined;
   return (
     <div className="mx-auto max-w-2xl space-y-6">
       <PageHeader id="member-title" title={member.name}>
@@ -107,7 +122,7 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
           <h2 id="role-title" className="mb-3 text-lg font-medium">
             Role and cohort
           </h2>
-          {actionData && "saved" in actionData ? (
+          {saved === "change-role" ? (
             <div className="mb-3">
               <Notice tone="success">Saved.</Notice>
             </div>
@@ -125,6 +140,35 @@ export default function CourseMember({ loaderData, actionData }: Route.Component
                 Save
               </Button>
             </div>
+          </Form>
+        </section>
+      ) : null}
+      {canEdit ? (
+        <section aria-labelledby="student-number-title" className="rounded-lg bg-white p-5 shadow-sm ring-1 ring-ink-900/10">
+          <h2 id="student-number-title" className="mb-3 text-lg font-medium">
+            Student number
+          </h2>
+          {saved === "student-number" ? (
+            <div className="mb-3">
+              <Notice tone="success">Saved.</Notice>
+            </div>
+          ) : null}
+          {numberForm.errors?.length ? (
+            <div className="mb-3">
+              <Notice tone="error">{numberForm.errors.join(" ")}</Notice>
+            </div>
+          ) : null}
+          <Form method="post" className="flex flex-wrap items-end gap-3" {...getFormProps(numberForm)}>
+            <input type="hidden" name="intent" value="student-number" />
+            <TextField
+              label="Student number"
+              field={numberFields.studentNumber}
+              maxLength={studentNumberMaxLength}
+              hint="The institution's number for this person, as the mark export shows it. Leave it empty to remove it."
+            />
+            <Button type="submit" disabled={busy}>
+              Save the student number
+            </Button>
           </Form>
         </section>
       ) : null}

@@ -1,4 +1,5 @@
 import { getFormProps, useForm } from "@conform-to/react";
+import type { ReactNode } from "react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.members";
@@ -9,12 +10,14 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { AppError } from "~/lib/app-error";
 import { roleWords } from "~/lib/courses/roles";
-import { parseSubmission } from "~/lib/forms/submission";
+import { formatDateTime } from "~/lib/format-date";
+import { entityId } from "~/lib/forms/ids";
+import { parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { normaliseEmail } from "~/server/auth/sign-in.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
-import { createInvitations } from "~/server/members/invitations.server";
+import { createInvitations, resendInvitation, revokeInvitation } from "~/server/members/invitations.server";
 import { listCohorts, listMembers, listOpenInvitations } from "~/server/members/members.server";
 
 const person = z.object({
@@ -24,6 +27,11 @@ const person = z.object({
   cohortId: z.union([z.literal(""), z.uuid()]).optional(),
 });
 const inviteSchema = z.object({ intent: z.literal("invite"), people: z.array(person).min(1, "Add the person to invite.") });
+const membersAction = z.discriminatedUnion("intent", [
+  inviteSchema,
+  z.object({ intent: z.literal("resend-invitation"), invitationId: entityId }),
+  z.object({ intent: z.literal("revoke-invitation"), invitationId: entityId }),
+]);
 const newPerson = { email: "", name: "", role: "student", cohortId: "" };
 const skippedWords = {
   "already a member": { field: "email", message: "This person is a member of the course already." },
@@ -42,12 +50,25 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const submission = parseSubmission(formData, inviteSchema);
+  const submission = parseSubmission(formData, membersAction);
   // A row added or removed without JavaScript comes back as the form to go on with, not as a refusal.
   if (submission.status !== "success") return data(submission.reply(), { status: submission.status === "error" ? 400 : 200 });
-  const { people } = submission.value;
+  const input = submission.value;
+  const inviter = { id: access.user.id, name: access.user.name };
+  if (input.intent === "resend-invitation") {
+    const { email } = await resendInvitation(db, { courseId: access.course.id, inviter, invitationId: input.invitationId }, request);
+    return { resent: email };
+  }
+  if (input.intent === "revoke-invitation") {
+    const { email } = await revokeInvitation(
+      db,
+      { courseId: access.course.id, actorId: access.user.id, invitationId: input.invitationId },
+      request,
+    );
+    return { revoked: email };
+  }
+  const { people } = input;
   await db.transaction(async (tx) => {
-    const inviter = { id: access.user.id, name: access.user.name };
     const rows = people.map((row) => ({ ...row, cohortId: row.cohortId || null }));
     const { skipped } = await createInvitations(tx, inviter, access.course.id, rows, request);
     // All or none: a row refused rolls the others back, so that sending again invites nobody twice.
@@ -66,13 +87,17 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
   const { course, members, invitations, cohorts } = loaderData;
   const busy = useNavigation().state !== "idle";
   const [form, fields] = useForm({
-    lastResult: actionData && "invited" in actionData ? undefined : actionData,
+    lastResult: replyFor(actionData, "invite"),
     defaultValue: { people: [newPerson] },
     shouldValidate: "onBlur",
     shouldRevalidate: "onInput",
     onValidate: ({ formData }) => parseSubmission(formData, inviteSchema),
   });
   const people = fields.people.getFieldList();
+  const invited = actionData && "invited" in actionData ? actionData.invited : undefined;
+  const resent = actionData && "resent" in actionData ? actionData.resent : undefined;
+  const revoked = actionData && "revoked" in actionData ? actionData.revoked : undefined;
+  const invitationReply = replyFor(actionData, "resend-invitation") ?? replyFor(actionData, "revoke-invitation");
   return (
     <div className="space-y-8">
       <PageHeader
@@ -91,12 +116,12 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
         <h2 id="invite-title" className="mb-3 text-lg font-medium">
           Invite someone
         </h2>
-        {actionData && "invited" in actionData ? (
+        {invited ? (
           <div className="mb-3">
             <Notice tone="success">
-              {actionData.invited.length === 1
-                ? `Invitation e-mailed to ${actionData.invited[0]}. The link works once, for 14 days.`
-                : `Invitations e-mailed to ${actionData.invited.join(", ")}. Each link works once, for 14 days.`}
+              {invited.length === 1
+                ? `Invitation e-mailed to ${invited[0]}. The link works once, for 14 days.`
+                : `Invitations e-mailed to ${invited.join(", ")}. Each link works once, for 14 days.`}
             </Notice>
           </div>
         ) : null}
@@ -184,24 +209,73 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
         </div>
       </section>
 
-      {invitations.length > 0 ? (
+      {invitations.length > 0 || resent || revoked || invitationReply ? (
         <section aria-labelledby="pending-title">
           <h2 id="pending-title" className="mb-3 text-lg font-medium">
             Invitations not yet accepted
           </h2>
+          {resent ? (
+            <div className="mb-3">
+              <Notice tone="success">{`Invitation sent again to ${resent}, with a new link; the old link no longer works.`}</Notice>
+            </div>
+          ) : null}
+          {revoked ? (
+            <div className="mb-3">
+              <Notice tone="success">{`Invitation to ${revoked} withdrawn: its link no longer opens the course.`}</Notice>
+            </div>
+          ) : null}
+          {invitationReply?.error?.[""]?.length ? (
+            <div className="mb-3">
+              <Notice tone="error">{invitationReply.error[""].join(" ")}</Notice>
+            </div>
+          ) : null}
           <ul className="divide-y divide-ink-900/10 rounded-lg bg-white shadow-sm ring-1 ring-ink-900/10">
             {invitations.map((invitation) => (
-              <li key={invitation.id} className="px-3 py-2 text-sm">
-                {invitation.name ? `${invitation.name} · ` : ""}
-                {invitation.email} · {roleWords[invitation.role]}
-                {invitation.cohortName ? ` · ${invitation.cohortName}` : ""} · until{" "}
-                {new Date(invitation.expiresAt).toISOString().slice(0, 10)}
+              <li key={invitation.id} className="flex flex-wrap items-center justify-between gap-2 px-3 py-2 text-sm">
+                <span>
+                  {invitation.name ? `${invitation.name} · ` : ""}
+                  {invitation.email} · {roleWords[invitation.role]}
+                  {invitation.cohortName ? ` · ${invitation.cohortName}` : ""}
+                  {invitation.studentNumber ? ` · ${invitation.studentNumber}` : ""} · until{" "}
+                  {formatDateTime(invitation.expiresAt, course.timeZone)}
+                </span>
+                <span className="flex gap-2">
+                  <InvitationButton intent="resend-invitation" invitationId={invitation.id} busy={busy}>
+                    Send again<span className="sr-only"> to {invitation.email}</span>
+                  </InvitationButton>
+                  <InvitationButton intent="revoke-invitation" invitationId={invitation.id} busy={busy}>
+                    Withdraw<span className="sr-only"> the invitation to {invitation.email}</span>
+                  </InvitationButton>
+                </span>
               </li>
             ))}
           </ul>
         </section>
       ) : null}
     </div>
+  );
+}
+
+/** One invitation's action: a form of its own, so that it works without JavaScript. */
+function InvitationButton({
+  intent,
+  invitationId,
+  busy,
+  children,
+}: {
+  intent: "resend-invitation" | "revoke-invitation";
+  invitationId: string;
+  busy: boolean;
+  children: ReactNode;
+}) {
+  return (
+    <Form method="post">
+      <input type="hidden" name="intent" value={intent} />
+      <input type="hidden" name="invitationId" value={invitationId} />
+      <Button type="submit" variant="secondary" disabled={busy}>
+        {children}
+      </Button>
+    </Form>
   );
 }
 

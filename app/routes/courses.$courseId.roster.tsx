@@ -6,15 +6,22 @@ import { CsvImport, type CsvColumn, type CsvFile } from "~/components/import/csv
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { checkRosterRows, rosterCommitInput, rosterImportKey, rosterRowsFromRecords, type RosterRowCheck } from "~/lib/roster/roster-rows";
+import {
+  checkRosterRows,
+  rosterCommitInput,
+  rosterImportKey,
+  rosterRowsFromRecords,
+  type RosterChange,
+  type RosterRowCheck,
+} from "~/lib/roster/roster-rows";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { importRoster, rosterContext } from "~/server/members/roster-import.server";
 import { db } from "~/server/db.server";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
-  const { cohortNames, memberEmails } = await rosterContext(db, access.course.id);
-  return { courseId: access.course.id, timeZone: access.course.timeZone, cohortNames, memberEmails };
+  const { cohortNames, people } = await rosterContext(db, access.course.id);
+  return { courseId: access.course.id, timeZone: access.course.timeZone, cohortNames, people };
 }
 
 export async function action({ request, context, params }: Route.ActionArgs) {
@@ -51,11 +58,11 @@ export async function action({ request, context, params }: Route.ActionArgs) {
 }
 
 export default function RosterImport({ loaderData }: Route.ComponentProps) {
-  const { courseId, timeZone, cohortNames, memberEmails } = loaderData;
+  const { courseId, timeZone, cohortNames, people } = loaderData;
   const fetcher = useFetcher<typeof action>();
   const review = useCallback(
-    (file: CsvFile) => ({ checks: checkRosterRows(rosterRowsFromRecords(file.records), { cohortNames, memberEmails }), problems: [] }),
-    [cohortNames, memberEmails],
+    (file: CsvFile) => ({ checks: checkRosterRows(rosterRowsFromRecords(file.records), { cohortNames, people }), problems: [] }),
+    [cohortNames, people],
   );
   const result = fetcher.data;
   return (
@@ -69,19 +76,17 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
         }
       >
         Columns: <code>email</code>, <code>name</code>, <code>cohort</code> (one of:{" "}
-        {cohortNames.join(", ") || "no cohorts yet — add them in Settings"}), <code>role</code> (student or ta; empty means student).
-        Nothing is written until you confirm the preview; everyone in the file then gets an invitation by e-mail.
+        {cohortNames.join(", ") || "no cohorts yet — add them in Settings"}), <code>role</code> (student or ta; empty means student), and
+        optionally <code>student_number</code>. People are matched by e-mail: someone new gets an invitation by e-mail; for a member or an
+        open invitation, the name, cohort and student number are updated to the file's (an empty cell keeps what is there). Roles are not
+        changed by an import. Nothing is written until you confirm the preview.
       </PageHeader>
 
-      {result && result.ok && !result.duplicate ? (
-        <Notice tone="success">
-          Imported: {result.invited} invitations sent ({result.students} students, {result.tas} TAs).
-        </Notice>
-      ) : null}
+      {result && result.ok && !result.duplicate ? <Notice tone="success">{importedWords(result)}</Notice> : null}
       {result && result.ok && result.duplicate ? (
         <Notice tone="info">
           Already imported on <LabTime at={result.committedAt} courseTimeZone={timeZone} /> ({result.rowCount} rows): no invitations were
-          sent again.
+          written again.
         </Notice>
       ) : null}
       {result && !result.ok ? <Notice tone="error">{result.message}</Notice> : null}
@@ -91,26 +96,60 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
         review={review}
         columns={rosterPreviewColumns}
         line={(check) => check.row.line}
-        commit={({ checks }, file) => (
+        leavesOutProblems
+        commit={({ checks }, file) => {
+          const chosen = checks.filter((check) => check.status === "new" || check.status === "updated");
+          if (chosen.length === 0) return <Notice tone="info">Every row matches the course already: there is nothing to import.</Notice>;
           // The file's reading names this preview: committing it twice imports it once.
-          <fetcher.Form method="post">
-            <input type="hidden" name="rows" value={JSON.stringify(checks.map((check) => check.row))} />
-            <input type="hidden" name="importKey" value={file.readId} />
-            <Button type="submit" disabled={fetcher.state !== "idle"}>
-              {fetcher.state !== "idle" ? "Importing…" : `Import ${checks.length} people and send their invitations`}
-            </Button>
-          </fetcher.Form>
-        )}
+          return (
+            <fetcher.Form method="post">
+              <input type="hidden" name="rows" value={JSON.stringify(chosen.map((check) => check.row))} />
+              <input type="hidden" name="importKey" value={file.readId} />
+              <Button type="submit" disabled={fetcher.state !== "idle"}>
+                {fetcher.state !== "idle" ? "Importing…" : commitWords(chosen)}
+              </Button>
+            </fetcher.Form>
+          );
+        }}
       />
     </div>
   );
 }
+
+function commitWords(chosen: RosterRowCheck[]) {
+  const invited = chosen.filter((check) => check.status === "new").length;
+  const updated = chosen.length - invited;
+  if (updated === 0) return `Import ${invited} people and send their invitations`;
+  if (invited === 0) return `Update ${updated} people`;
+  return `Import ${chosen.length} people: send ${invited} invitations and update ${updated}`;
+}
+
+function importedWords(result: { invited: number; students: number; tas: number; updated: number; unchanged: number }) {
+  const parts = [
+    result.invited ? `${result.invited} invitations sent (${result.students} students, ${result.tas} TAs)` : null,
+    result.updated ? `${result.updated} people updated` : null,
+    result.unchanged ? `${result.unchanged} unchanged` : null,
+  ];
+  return `Imported: ${parts.filter(Boolean).join("; ") || "nothing to change"}.`;
+}
+
+const changeWords = (change: RosterChange) => `${change.field} ${change.from ? `“${change.from}”` : "(none)"} → “${change.to}”`;
+
+const outcomeWords = {
+  new: () => "New: an invitation is sent",
+  unchanged: ({ match }: RosterRowCheck) => (match?.kind === "invitation" ? "Invited already, unchanged" : "Member already, unchanged"),
+  updated: ({ match, changes }: RosterRowCheck) =>
+    `${match?.kind === "invitation" ? "Invitation updated" : "Member updated"}: ${changes.map(changeWords).join("; ")}`,
+  problem: () => "Left out",
+} satisfies Record<RosterRowCheck["status"], (check: RosterRowCheck) => string>;
 
 const rosterPreviewColumns: CsvColumn<RosterRowCheck>[] = [
   { header: "E-mail", cell: ({ row }) => row.email },
   { header: "Name", cell: ({ row }) => row.name },
   { header: "Cohort", cell: ({ row }) => row.cohort },
   { header: "Role", cell: ({ row }) => row.role || "student" },
+  { header: "Student number", cell: ({ row }) => row.studentNumber },
+  { header: "What happens", cell: (check) => outcomeWords[check.status](check) },
 ];
 
 export function meta() {

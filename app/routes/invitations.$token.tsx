@@ -79,8 +79,13 @@ export default function AcceptInvitation({ loaderData, actionData }: Route.Compo
         <Notice tone="warning">
           {invitation.state === "replaced" && invitation.replacedAt ? (
             <>
-              A newer invitation was sent to you on <LabTime at={invitation.replacedAt} courseTimeZone={invitation.courseTimeZone} />; use
-              the link in the latest e-mail.
+              This invitation was replaced by a newer one, sent to you on{" "}
+              <LabTime at={invitation.replacedAt} courseTimeZone={invitation.courseTimeZone} />; use the link in the latest e-mail.
+            </>
+          ) : invitation.state === "revoked" ? (
+            <>
+              This invitation was withdrawn by the course&apos;s instructors and no longer opens the course. If you think that is a mistake,
+              ask your instructor.
             </>
           ) : (
             <>

@@ -54,7 +54,11 @@ export type AuditAction =
   | "account.calendar_feed_reset"
   | "course.message_sent"
   | "markbook.settings_changed"
-  | "markbook.exported";
+  | "markbook.exported"
+  | "course.invitation_resent"
+  | "course.invitation_revoked"
+  | "course.member_updated"
+  | "course.roster_updated";
 
 export type AuditInput = {
   action: AuditAction;

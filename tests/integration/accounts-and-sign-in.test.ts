@@ -566,12 +566,12 @@ describe("invitations", () => {
     expect(await findInvitation(tokenIn(secondPath))).toMatchObject({ state: "open", replacedAt: null });
 
     const page = await (await handle(appRequest(firstPath))).text();
-    expect(page).toContain("A newer invitation was sent to you on");
+    expect(page).toContain("This invitation was replaced by a newer one, sent to you on");
     expect(page).toContain(`dateTime="${newer.createdAt.toISOString()}"`);
     expect(page).not.toContain("has expired");
     const refused = await handle(appRequest(firstPath, { form: { name: "Invited Twice", password: "" } }));
     expect(refused.status).toBe(410);
-    expect(await refused.text()).toContain("A newer invitation was sent to you");
+    expect(await refused.text()).toContain("This invitation was replaced by a newer one");
     expect((await handle(appRequest(secondPath, { form: { name: "Invited Twice", password: "" } }))).status).toBe(302);
   });
 

@@ -75,6 +75,12 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/members/:membershipId", instructorOnly(400)),
   // A student's record: the instructors and the TAs of the student's cohort (not the student: they have their own pages).
   row("GET", "/courses/:courseId/members/:membershipId/record", cohortStaff(200)),
+  // Roster updates mid-term: each new intent is for instructors only (a malformed form: 400, nothing changes).
+  row("POST", "/courses/:courseId/members", instructorOnly(400), { form: { intent: "resend-invitation", invitationId: "not-an-id" } }),
+  row("POST", "/courses/:courseId/members", instructorOnly(400), { form: { intent: "revoke-invitation", invitationId: "not-an-id" } }),
+  row("POST", "/courses/:courseId/members/:membershipId", instructorOnly(400), {
+    form: { intent: "student-number", studentNumber: "no;such" },
+  }),
   row("GET", "/courses/:courseId/roster", instructorOnly(200)),
   row("POST", "/courses/:courseId/roster", instructorOnly(400)),
   row("GET", "/courses/:courseId/audit", instructorOnly(200)),

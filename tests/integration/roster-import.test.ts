@@ -18,6 +18,7 @@ const row = (line: number, email: string, cohort = "Cohort one", role = "student
   name: `Person ${line}`,
   cohort,
   role,
+  studentNumber: "",
 });
 const inviter = (of = fixture) => ({ id: of.userIds.instructor, name: "Test instructor" });
 
@@ -41,9 +42,14 @@ describe("roster import", () => {
       courseId: fixture.courseId,
       inviter: inviter(),
       importKey: randomUUID(),
-      rows: [row(2, "fresh.one@uni.example"), row(3, "ownstudent@roster.example"), row(4, "fresh.two@uni.example")],
+      rows: [row(2, "fresh.one@uni.example"), row(3, "ownstudent@roster.example", "Cohort one", "ta"), row(4, "fresh.two@uni.example")],
     });
-    expect(result).toMatchObject({ ok: false, problems: [{ row: { line: 3 }, problems: ["Already a member of this course."] }] });
+    expect(result).toMatchObject({
+      ok: false,
+      problems: [
+        { row: { line: 3 }, problems: ["Already a student in this course: an import does not change roles (do that on the member page)."] },
+      ],
+    });
     expect(await invitationsOf(fixture.courseId)).toEqual([]);
     expect(await db.select().from(emailOutbox).where(eq(emailOutbox.courseId, fixture.courseId))).toEqual([]);
   });
@@ -59,7 +65,7 @@ describe("roster import", () => {
         row(4, "c.assistant@uni.example", "Cohort one", "ta"),
       ],
     });
-    expect(result).toEqual({ ok: true, duplicate: false, invited: 3, students: 2, tas: 1 });
+    expect(result).toEqual({ ok: true, duplicate: false, invited: 3, students: 2, tas: 1, updated: 0, unchanged: 0 });
     const rows = await invitationsOf(fixture.courseId);
     expect(rows).toEqual(
       expect.arrayContaining([

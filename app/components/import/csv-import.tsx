@@ -1,7 +1,8 @@
 /**
  * The CSV import both the parts and the roster pages use: a file or pasted rows, read in the browser
  * by papaparse with its progress shown, checked by the page, previewed row by row (problems first),
- * then committed by the page's own form. Nothing is sent before the preview has no problems.
+ * then committed by the page's own form. Nothing is sent before the preview has no problems, unless the
+ * page commits only the rows without problems (`leavesOutProblems`), as the roster import does.
  */
 import Papa from "papaparse";
 import { useEffect, useId, useMemo, useState, type ReactNode } from "react";
@@ -65,6 +66,7 @@ export function CsvImport<Review extends CsvReview>({
   commit,
   previewLimit = 500,
   clearWhen,
+  leavesOutProblems = false,
 }: {
   transformHeader: (header: string) => string;
   /** Checks a file; keep it stable (useCallback), it runs again only when it or the file changes. */
@@ -77,6 +79,8 @@ export function CsvImport<Review extends CsvReview>({
   previewLimit?: number;
   /** A new value (the reply of a finished import) empties the preview, which would only repeat rows now taken. */
   clearWhen?: unknown;
+  /** The commit takes only the rows without problems, so it is offered beside rows that have some. */
+  leavesOutProblems?: boolean;
 }) {
   const fileId = useId();
   const [reading, setReading] = useState<Reading | null>(null);
@@ -144,7 +148,15 @@ export function CsvImport<Review extends CsvReview>({
 
       {reading && "unreadable" in reading ? <Notice tone="error">{reading.unreadable}</Notice> : null}
       {file && checked ? (
-        <Preview file={file} review={checked} columns={columns} line={line} commit={commit} previewLimit={previewLimit} />
+        <Preview
+          file={file}
+          review={checked}
+          columns={columns}
+          line={line}
+          commit={commit}
+          previewLimit={previewLimit}
+          leavesOutProblems={leavesOutProblems}
+        />
       ) : null}
     </>
   );
@@ -157,6 +169,7 @@ function Preview<Review extends CsvReview>({
   line,
   commit,
   previewLimit,
+  leavesOutProblems,
 }: {
   file: CsvFile;
   review: Review;
@@ -164,6 +177,7 @@ function Preview<Review extends CsvReview>({
   line: (check: Review["checks"][number]) => number;
   commit: (review: Review, file: CsvFile) => ReactNode;
   previewLimit: number;
+  leavesOutProblems: boolean;
 }) {
   const { checks, problems } = review;
   const withProblems = checks.filter((check) => check.problems.length > 0);
@@ -187,10 +201,18 @@ function Preview<Review extends CsvReview>({
       ) : null}
       {checks.length === 0 ? (
         <Notice tone="warning">The file has no rows under its header.</Notice>
-      ) : withProblems.length || problems.length ? (
+      ) : problems.length || (withProblems.length && !leavesOutProblems) ? (
         <Notice tone="warning">Fix the problems marked here in your file, then read it again. Nothing has been written.</Notice>
       ) : (
-        commit(review, file)
+        <>
+          {withProblems.length ? (
+            <Notice tone="warning">
+              {withProblems.length === 1 ? "1 row with problems is" : `${withProblems.length} rows with problems are`} left out: fix them in
+              your file and import it again to add them.
+            </Notice>
+          ) : null}
+          {commit(review, file)}
+        </>
       )}
       <div
         role="region"

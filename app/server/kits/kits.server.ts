@@ -257,7 +257,10 @@ async function checkHolders(tx: Transaction, courseId: string, current: Kit[], m
     : [];
   const invited = invitationIds.length
     ? await tx
-        .select({ eligible: sql<boolean>`${invitations.role} = 'student' and ${invitations.acceptedAt} is null`, kitNumber: kits.number })
+        .select({
+          eligible: sql<boolean>`${invitations.role} = 'student' and ${invitations.acceptedAt} is null and ${invitations.revokedAt} is null and ${invitations.replacedById} is null`,
+          kitNumber: kits.number,
+        })
         .from(invitations)
         .leftJoin(kits, and(eq(kits.holderInvitationId, invitations.id), active))
         .where(and(eq(invitations.courseId, courseId), inArray(invitations.id, invitationIds)))

@@ -5,8 +5,9 @@
  * so two clicks racing each other cannot both succeed.
  */
 import { randomUUID } from "node:crypto";
-import { and, eq, gt, inArray, isNull, sql } from "drizzle-orm";
-import { cohorts, courseMemberships, courses, invitations, kits, taCohortAssignments, users } from "~/db/schema";
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
+import { cohorts, courseMemberships, courses, invitations, kits, shippingAddresses, taCohortAssignments, users } from "~/db/schema";
+import { AppError } from "~/lib/app-error";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseRole } from "~/server/auth/access.server";
 import { createSession } from "~/server/auth/session.server";
@@ -15,13 +16,21 @@ import { normaliseEmail, type NewSession } from "~/server/auth/sign-in.server";
 import { generateToken, hashToken } from "~/server/auth/tokens.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import { appUrl } from "~/server/config.server";
-import { db, type Transaction } from "~/server/db.server";
+import { db, type Database, type Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { moveInvitationAddress } from "~/server/shipping/addresses.server";
+import { openInvitation } from "./open-invitation.server";
 
 export const INVITATION_LIFETIME_DAYS = 14;
 
-export type InvitationInput = { email: string; name?: string | null; role: CourseRole; cohortId?: string | null };
+export type InvitationInput = {
+  email: string;
+  name?: string | null;
+  role: CourseRole;
+  cohortId?: string | null;
+  studentNumber?: string | null;
+};
+
 export type Inviter = { id: string; name: string };
 export type InvitationResult = {
   invited: { invitationId: string; email: string }[];
@@ -70,20 +79,6 @@ export async function createInvitations(
   }
   if (accepted.length === 0) return result;
 
-  await tx
-    .update(invitations)
-    .set({ expiresAt: sql`now()` })
-    .where(
-      and(
-        eq(invitations.courseId, courseId),
-        inArray(
-          invitations.email,
-          accepted.map((row) => row.email),
-        ),
-        isNull(invitations.acceptedAt),
-        gt(invitations.expiresAt, sql`now()`),
-      ),
-    );
   const expiresAt = new Date(Date.now() + INVITATION_LIFETIME_DAYS * 24 * 60 * 60 * 1000);
   const tokens = accepted.map(() => generateToken());
   const inserted = accepted.map((row) => ({ id: randomUUID(), email: row.email }));
@@ -99,9 +94,11 @@ export async function createInvitations(
       cohortId: row.cohortId,
       invitedById: inviter.id,
       tokenHash: hashToken(tokens[index]),
+      studentNumber: row.studentNumber ?? null,
       expiresAt,
     })),
   );
+  await replaceEarlierInvitations(tx, courseId, inserted);
 
   // One batch for all the e-mails: a roster of thousands costs the same few statements as one person.
   await sendEmails(
@@ -138,6 +135,104 @@ export async function createInvitations(
   return result;
 }
 
+/**
+ * Earlier invitations of the same people that were neither accepted nor withdrawn now point at the new
+ * one, so their links say they were replaced, and stop working. What was kept for the latest of them,
+ * the kit packed and the shipping address, passes to the new invitation. One statement.
+ */
+async function replaceEarlierInvitations(tx: Transaction, courseId: string, newer: { id: string; email: string }[]) {
+  await tx.execute(sql`
+    with replaced as (
+      update ${invitations} old set replaced_by_id = v.id, expires_at = least(old.expires_at, now())
+      from json_to_recordset(${JSON.stringify(newer)}::json) as v(id uuid, email text)
+      where old.course_id = ${courseId} and old.email = v.email and old.id <> v.id
+        and old.accepted_at is null and old.revoked_at is null and old.replaced_by_id is null
+      returning old.id, old.email, old.created_at, v.id as newer_id
+    ),
+    latest as (select distinct on (email) id, newer_id from replaced order by email, created_at desc),
+    kits_moved as (update ${kits} k set holder_invitation_id = latest.newer_id from latest where k.holder_invitation_id = latest.id)
+    update ${shippingAddresses} a set invitation_id = latest.newer_id, updated_at = now() from latest where a.invitation_id = latest.id`);
+}
+
+/** The invitation an instructor acts on: one of the course's, neither accepted nor withdrawn nor sent again. */
+async function pendingInvitation(tx: Transaction, courseId: string, invitationId: string) {
+  const [invitation] = await tx
+    .select()
+    .from(invitations)
+    .where(and(eq(invitations.id, invitationId), eq(invitations.courseId, courseId)))
+    .for("update");
+  if (!invitation) throw new AppError({ code: "not_found", message: "There is no such invitation in this course.", status: 404 });
+  const ended = invitation.acceptedAt
+    ? "It has been accepted already."
+    : invitation.revokedAt
+      ? "It was withdrawn already."
+      : invitation.replacedById
+        ? "It was sent again already; act on the newer one."
+        : null;
+  if (ended) throw new AppError({ code: "invitation_ended", message: ended, status: 409 });
+  return invitation;
+}
+
+/**
+ * Sends the invitation again with a new token and a new e-mail (for a lost e-mail or an expired link):
+ * the old link then says it was replaced.
+ */
+export async function resendInvitation(
+  executor: Database,
+  { courseId, inviter, invitationId }: { courseId: string; inviter: Inviter; invitationId: string },
+  request?: Request,
+): Promise<{ email: string; invitationId: string }> {
+  return executor.transaction(async (tx) => {
+    const invitation = await pendingInvitation(tx, courseId, invitationId);
+    const { invited, skipped } = await createInvitations(tx, inviter, courseId, [invitation], request);
+    if (skipped.length)
+      throw new AppError({ code: "invitation_ended", message: "This person is a member of the course already.", status: 409 });
+    await recordAudit(tx, {
+      action: "course.invitation_resent",
+      actorId: inviter.id,
+      courseId,
+      subject: `invitation:${invitation.id}`,
+      detail: { email: invitation.email, newInvitationId: invited[0].invitationId },
+      request,
+    });
+    return invited[0];
+  });
+}
+
+/**
+ * Withdraws the invitation: its link then says so and opens nothing. Refused while a kit is packed for
+ * the invited student: the kit would be left with no one to deliver it to or ask it back from.
+ */
+export async function revokeInvitation(
+  executor: Database,
+  { courseId, actorId, invitationId }: { courseId: string; actorId: string; invitationId: string },
+  request?: Request,
+): Promise<{ email: string }> {
+  return executor.transaction(async (tx) => {
+    const invitation = await pendingInvitation(tx, courseId, invitationId);
+    const [held] = await tx.select({ number: kits.number }).from(kits).where(eq(kits.holderInvitationId, invitation.id));
+    if (held)
+      throw new AppError({
+        code: "invitation_refused",
+        message: `Kit ${held.number} is packed for ${invitation.name ?? invitation.email}; check it in first, then withdraw the invitation.`,
+        status: 409,
+      });
+    await tx
+      .update(invitations)
+      .set({ revokedAt: sql`now()`, revokedById: actorId, expiresAt: sql`least(${invitations.expiresAt}, now())` })
+      .where(eq(invitations.id, invitation.id));
+    await recordAudit(tx, {
+      action: "course.invitation_revoked",
+      actorId,
+      courseId,
+      subject: `invitation:${invitation.id}`,
+      detail: { email: invitation.email, role: invitation.role },
+      request,
+    });
+    return { email: invitation.email };
+  });
+}
+
 export type InvitationView = {
   email: string;
   name: string | null;
@@ -149,9 +244,9 @@ export type InvitationView = {
   inviterName: string | null;
   courseTimeZone: string;
   expiresAt: Date;
-  /** "replaced": a newer invitation to the same course went to the same address, which ended this one. */
-  state: "open" | "accepted" | "expired" | "replaced";
-  /** When the latest newer invitation was sent, if there is one. */
+  /** "replaced": a newer invitation to the same course went to the same address, which ended this one; "revoked": an instructor withdrew it. */
+  state: "open" | "accepted" | "expired" | "replaced" | "revoked";
+  /** When the invitation that replaced this one was sent, if one did. */
   replacedAt: Date | null;
   hasAccount: boolean;
 };
@@ -159,11 +254,10 @@ export type InvitationView = {
 /** What the invitation page shows before anyone accepts. */
 export async function findInvitation(token: string): Promise<InvitationView | null> {
   const inviter = sql<string | null>`(select u.name from users u where u.id = ${invitations.invitedById})`;
-  // Inviting someone again ends their open invitation (see createInvitations); the newer row says why.
-  const replacedAt = sql<Date | null>`(select max(newer.created_at) from invitations newer
-    where newer.course_id = ${invitations.courseId} and newer.email = ${invitations.email} and newer.created_at > ${invitations.createdAt})`.mapWith(
-    invitations.createdAt,
-  );
+  const replacedAt =
+    sql<Date | null>`(select newer.created_at from invitations newer where newer.id = ${invitations.replacedById})`.mapWith(
+      invitations.createdAt,
+    );
   const [row] = await db
     .select({
       email: invitations.email,
@@ -177,6 +271,7 @@ export async function findInvitation(token: string): Promise<InvitationView | nu
       inviterName: inviter,
       expiresAt: invitations.expiresAt,
       acceptedAt: invitations.acceptedAt,
+      revokedAt: invitations.revokedAt,
       replacedAt,
       hasAccount: sql<boolean>`exists (select 1 from users u where u.email = ${invitations.email})`,
     })
@@ -185,8 +280,16 @@ export async function findInvitation(token: string): Promise<InvitationView | nu
     .leftJoin(cohorts, eq(cohorts.id, invitations.cohortId))
     .where(eq(invitations.tokenHash, hashToken(token)));
   if (!row) return null;
-  const { acceptedAt, ...view } = row;
-  const state = acceptedAt ? "accepted" : row.expiresAt.getTime() > Date.now() ? "open" : row.replacedAt ? "replaced" : "expired";
+  const { acceptedAt, revokedAt, ...view } = row;
+  const state = acceptedAt
+    ? "accepted"
+    : revokedAt
+      ? "revoked"
+      : row.replacedAt
+        ? "replaced"
+        : row.expiresAt.getTime() > Date.now()
+          ? "open"
+          : "expired";
   return { ...view, state };
 }
 
@@ -220,7 +323,7 @@ export async function acceptInvitation(
     const [invitation] = await tx
       .update(invitations)
       .set({ acceptedAt: sql`now()` })
-      .where(and(eq(invitations.tokenHash, hashToken(token)), isNull(invitations.acceptedAt), gt(invitations.expiresAt, sql`now()`)))
+      .where(and(eq(invitations.tokenHash, hashToken(token)), openInvitation))
       .returning();
     if (!invitation) return { outcome: "invalid" as const };
 
@@ -228,8 +331,15 @@ export async function acceptInvitation(
     if (!user) {
       [user] = await tx
         .insert(users)
-        .values({ email: invitation.email, name: input.name?.trim() || invitation.name || invitation.email, passwordHash })
+        .values({
+          email: invitation.email,
+          name: input.name?.trim() || invitation.name || invitation.email,
+          passwordHash,
+          studentNumber: invitation.studentNumber,
+        })
         .returning({ id: users.id });
+    } else if (invitation.studentNumber) {
+      await tx.update(users).set({ studentNumber: invitation.studentNumber }).where(eq(users.id, user.id));
     }
     const [membership] = await tx
       .insert(courseMemberships)

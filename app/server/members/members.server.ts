@@ -3,12 +3,13 @@
  * and removing members live with the course rules (`~/server/courses/courses.server`).
  */
 import { AppError } from "~/lib/app-error";
-import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
+import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import { cohorts, courseMemberships, invitations, kits, taCohortAssignments, users } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseRole } from "~/server/auth/access.server";
 import { revokeTokensOfFormerStaff } from "~/server/auth/api-tokens.server";
 import { db } from "~/server/db.server";
+import { openInvitation } from "./open-invitation.server";
 
 /** Every active member with their cohort, or the cohorts a TA marks: one statement. */
 export function listMembers(courseId: string) {
@@ -32,7 +33,7 @@ export function listMembers(courseId: string) {
     .orderBy(sql`case ${courseMemberships.role} when 'instructor' then 0 when 'ta' then 1 else 2 end`, asc(users.name));
 }
 
-/** Invitations sent and not yet accepted, still within their lifetime. */
+/** Invitations sent and not yet accepted, still within their lifetime, neither withdrawn nor sent again. */
 export function listOpenInvitations(courseId: string) {
   return db
     .select({
@@ -41,11 +42,12 @@ export function listOpenInvitations(courseId: string) {
       name: invitations.name,
       role: invitations.role,
       cohortName: cohorts.name,
+      studentNumber: invitations.studentNumber,
       expiresAt: invitations.expiresAt,
     })
     .from(invitations)
     .leftJoin(cohorts, eq(cohorts.id, invitations.cohortId))
-    .where(and(eq(invitations.courseId, courseId), isNull(invitations.acceptedAt), gt(invitations.expiresAt, sql`now()`)))
+    .where(and(eq(invitations.courseId, courseId), openInvitation))
     .orderBy(asc(invitations.email));
 }
 
@@ -110,6 +112,40 @@ export async function changeMemberRole(
       courseId,
       subject: `membership:${membershipId}`,
       detail: { from: member.role, to: role, fromCohortId: member.cohortId, toCohortId: newCohortId },
+      request,
+    });
+  });
+}
+
+/**
+ * Sets (or, with null, clears) a member's student number. It lives on their account, as the institution
+ * gives one number per person, so every course of theirs shows it.
+ */
+export async function setStudentNumber(
+  {
+    courseId,
+    actorId,
+    membershipId,
+    studentNumber,
+  }: { courseId: string; actorId: string; membershipId: string; studentNumber: string | null },
+  request?: Request,
+): Promise<void> {
+  await db.transaction(async (tx) => {
+    const [member] = await tx
+      .select({ userId: users.id, studentNumber: users.studentNumber })
+      .from(courseMemberships)
+      .innerJoin(users, eq(users.id, courseMemberships.userId))
+      .where(and(eq(courseMemberships.id, membershipId), eq(courseMemberships.courseId, courseId), isNull(courseMemberships.removedAt)))
+      .for("update", { of: users });
+    if (!member) throw new AppError({ code: "member_refused", message: "That person is not a member of this course.", status: 404 });
+    if (member.studentNumber === studentNumber) return;
+    await tx.update(users).set({ studentNumber }).where(eq(users.id, member.userId));
+    await recordAudit(tx, {
+      action: "course.member_updated",
+      actorId,
+      courseId,
+      subject: `membership:${membershipId}`,
+      detail: { changes: [{ field: "student number", from: member.studentNumber, to: studentNumber }], via: "member page" },
       request,
     });
   });

@@ -10,13 +10,14 @@
  */
 import { createHash } from "node:crypto";
 import Papa from "papaparse";
-import { and, desc, eq, gt, inArray, isNull, or, sql } from "drizzle-orm";
+import { and, desc, eq, inArray, isNull, or, sql } from "drizzle-orm";
 import { auditEvents, courseMemberships, invitations, shippingAddresses, users } from "~/db/schema";
 import { addressFields, postalAddressSchema } from "~/lib/shipping/address-schema";
 import type { PostalAddress } from "~/lib/shipping/postal-address";
 import { recordAudit } from "~/server/audit.server";
 import type { Database, Executor } from "~/server/db.server";
 import { clientIp } from "~/server/http.server";
+import { openInvitation } from "~/server/members/open-invitation.server";
 
 /** Whose address: a student member's, or a pending invitation's (until it is accepted). */
 export type AddressOwner = { membershipId: string } | { invitationId: string };
@@ -267,15 +268,7 @@ async function matchStudents(executor: Executor, courseId: string, emails: strin
     .select({ id: invitations.id, email: invitations.email, name: invitations.name, current: addressColumns })
     .from(invitations)
     .leftJoin(shippingAddresses, eq(shippingAddresses.invitationId, invitations.id))
-    .where(
-      and(
-        eq(invitations.courseId, courseId),
-        eq(invitations.role, "student"),
-        isNull(invitations.acceptedAt),
-        gt(invitations.expiresAt, sql`now()`),
-        inArray(invitations.email, emails),
-      ),
-    )
+    .where(and(eq(invitations.courseId, courseId), eq(invitations.role, "student"), openInvitation, inArray(invitations.email, emails)))
     // Newest first: of two pending invitations to one address, the later one is the one to be accepted.
     .orderBy(desc(invitations.createdAt), invitations.id);
   const matches = new Map<string, Match>();

@@ -87,6 +87,7 @@ export async function listCandidates(
       from invitations i
       left join kits k on k.holder_invitation_id = i.id and k.state <> 'coming_back'
       where i.course_id = ${courseId} and i.role = 'student' and i.accepted_at is null and i.expires_at > now()
+        and i.revoked_at is null and i.replaced_by_id is null
         ${invited ? sql`and i.id = any(${invited}::uuid[])` : sql``}
     )
     select c.kind, c.id, c.name, c.email, co.name as cohort_name, c.kit_id, c.kit_number, c.kit_state, count(*) over ()::int as total
