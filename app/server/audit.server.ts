@@ -49,7 +49,11 @@ export type AuditAction =
   | "address.changed"
   | "address.deleted"
   | "address.exported"
-  | "address.imported";
+  | "address.imported"
+  // Carrying a course over, archiving and restoring it (issue 18, part 5)
+  | "course.carried_over"
+  | "course.archived"
+  | "course.restored";
 
 export type AuditInput = {
   action: AuditAction;

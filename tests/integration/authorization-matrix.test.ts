@@ -69,6 +69,9 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId", anyMember(200)),
   row("GET", "/courses/:courseId/settings", instructorOnly(200)),
   row("POST", "/courses/:courseId/settings", instructorOnly(400)),
+  // Starting next term from the course (and, above, archiving and restoring it) is the instructors'.
+  row("GET", "/courses/:courseId/carry-over", instructorOnly(200)),
+  row("POST", "/courses/:courseId/carry-over", instructorOnly(400)),
   row("GET", "/courses/:courseId/members", instructorOnly(200)),
   row("POST", "/courses/:courseId/members", instructorOnly(400)),
   row("GET", "/courses/:courseId/members/:membershipId", ownWork(200)),
