@@ -69,7 +69,10 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId", anyMember(200)),
   row("GET", "/courses/:courseId/settings", instructorOnly(200)),
   row("POST", "/courses/:courseId/settings", instructorOnly(400)),
-  // Starting next term from the course (and, above, archiving and restoring it) is the instructors'.
+  // Archiving (unconfirmed: 400) and restoring (the course is not archived: 409) are the instructors'.
+  row("POST", "/courses/:courseId/settings", instructorOnly(400), { form: { intent: "archive" } }),
+  row("POST", "/courses/:courseId/settings", instructorOnly(409), { form: { intent: "restore" } }),
+  // Starting next term from the course is the instructors'.
   row("GET", "/courses/:courseId/carry-over", instructorOnly(200)),
   row("POST", "/courses/:courseId/carry-over", instructorOnly(400)),
   row("GET", "/courses/:courseId/members", instructorOnly(200)),
