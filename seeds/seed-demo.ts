@@ -15,6 +15,7 @@ import { DEMO_PASSWORD, buildDemoScenario, demoCohortNames, demoCourse } from ".
 import { seedExtensions } from "./seed-extensions";
 import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
+import { seedLastTerm } from "./seed-last-term";
 import { seedMarking } from "./seed-marking";
 import { seedRevisions } from "./seed-revisions";
 import { seedShipping } from "./seed-shipping";
@@ -99,6 +100,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   markingFaker.seed(2143);
   await seedMarking(db, markingFaker, { courseId });
   await seedRevisions(db, { courseId });
+  await seedLastTerm(db, { courseId, instructorId });
   return "seeded";
 }
 

@@ -67,7 +67,9 @@ export async function carryOverCourse(
   const from = access.course;
   const actorId = access.user.id;
   return executor.transaction(async (tx) => {
-    const [[old], labRows] = await Promise.all([tx.select().from(courses).where(eq(courses.id, from.id)), sourceLabs(tx, from.id)]);
+    // One after the other: a transaction's statements share one connection.
+    const [old] = await tx.select().from(courses).where(eq(courses.id, from.id));
+    const labRows = await sourceLabs(tx, from.id);
     const [created] = await tx
       .insert(courses)
       .values({
