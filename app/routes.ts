@@ -20,6 +20,7 @@ export default [
   route("courses/:courseId", "routes/courses.$courseId.tsx", [
     index("routes/courses.$courseId._index.tsx"),
     route("settings", "routes/courses.$courseId.settings.tsx"),
+    route("carry-over", "routes/courses.$courseId.carry-over.tsx"),
     route("members", "routes/courses.$courseId.members.tsx"),
     route("members/:membershipId", "routes/courses.$courseId.members.$membershipId.tsx"),
     route("members/:membershipId/record", "routes/courses.$courseId.members.$membershipId.record.tsx"),

@@ -16,6 +16,7 @@ import { seedExtensions } from "./seed-extensions";
 import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
 import { seedMarkBook } from "./seed-mark-book";
+import { seedLastTerm } from "./seed-last-term";
 import { seedMarking } from "./seed-marking";
 import { seedRevisions } from "./seed-revisions";
 import { seedShipping } from "./seed-shipping";
@@ -101,6 +102,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   await seedMarking(db, markingFaker, { courseId });
   await seedRevisions(db, { courseId });
   await seedMarkBook(db, { courseId });
+  await seedLastTerm(db, { courseId, instructorId });
   return "seeded";
 }
 

@@ -11,7 +11,8 @@ export type ShellViewer = {
   email: string;
   /** An instructor account, which may open new courses. */
   mayCreateCourses: boolean;
-  courses: { id: string; code: string; title: string; role: ViewerRole }[];
+  /** `archived`: a finished course, kept out of the navigation and listed apart on the home page. */
+  courses: { id: string; code: string; title: string; term: string; role: ViewerRole; archived: boolean }[];
 };
 
 export type NavItem = { to: string; label: string };
@@ -24,7 +25,7 @@ export function navigationFor(viewer: ShellViewer | null): NavItem[] {
   if (!viewer) return [{ to: "/sign-in", label: "Sign in" }];
   return [
     { to: "/", label: "Overview" },
-    ...viewer.courses.map((course) => ({ to: `/courses/${course.id}`, label: course.code })),
+    ...viewer.courses.filter((course) => !course.archived).map((course) => ({ to: `/courses/${course.id}`, label: course.code })),
     { to: "/account", label: "Account" },
   ];
 }

@@ -1,5 +1,5 @@
-import { getFormProps, useForm } from "@conform-to/react";
-import { data, Form, useNavigation, useSearchParams } from "react-router";
+import { getFormProps, getInputProps, useForm } from "@conform-to/react";
+import { data, Form, Link, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.settings";
 import { CourseFields } from "~/components/course-fields";
@@ -8,9 +8,11 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { cohortName, courseInput } from "~/lib/courses/course-input";
+import { formatDateTime } from "~/lib/format-date";
 import { reminderDaysText, returnSettingsInput, type ReturnSettingsForm } from "~/lib/courses/return-settings-input";
 import { formList, parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
+import { archiveCourse, restoreCourse } from "~/server/courses/archive.server";
 import {
   addCohort,
   getCourseWithCohorts,
@@ -30,6 +32,8 @@ const settingsIntent = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("add-cohort"), name: cohortName }),
   z.object({ intent: z.literal("rename-cohort"), cohortId: z.uuid(), name: cohortName }),
   z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: formList(z.uuid()) }),
+  z.object({ intent: z.literal("archive"), confirm: z.literal("on", { error: "Tick the box to confirm that the course is finished." }) }),
+  z.object({ intent: z.literal("restore") }),
 ]);
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
@@ -40,7 +44,9 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 }
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
-  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
+  // Restoring is the one change an archived course takes.
+  const whileArchived = formData.get("intent") === "restore";
+  const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"], { whileArchived });
   const submission = parseSubmission(formData, settingsIntent);
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const courseId = access.course.id;
@@ -54,6 +60,8 @@ export const action = formAction(async ({ request, context, params, formData }: 
     await updateReturnSettings(db, { courseId, actorId, input: returns });
   } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
   else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
+  else if (input.intent === "archive") await archiveCourse(db, { courseId, actorId, request });
+  else if (input.intent === "restore") await restoreCourse(db, { courseId, actorId, request });
   else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
   return { intent: input.intent, saved: true as const };
 });
@@ -62,7 +70,15 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
   const { course, cohorts, tas, timeZones } = loaderData;
   const [search] = useSearchParams();
   const navigation = useNavigation();
-  const { createdAt: _createdAt, returnAddress, kitReturnBy, kitReturnReminderDays, ...courseValues } = course;
+  const {
+    createdAt: _createdAt,
+    archivedAt,
+    archivedById: _archivedById,
+    returnAddress,
+    kitReturnBy,
+    kitReturnReminderDays,
+    ...courseValues
+  } = course;
   const [courseForm, courseFields] = useForm({
     id: "course",
     lastResult: replyFor(actionData, "course"),
@@ -84,11 +100,43 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
   const address = returnsFields.returnAddress.getFieldset();
   const [addForm, addFields] = useForm({ id: "add-cohort", lastResult: replyFor(actionData, "add-cohort") });
   const renameErrors = replyFor(actionData, "rename-cohort")?.error;
-  return (
-    <div className="flex flex-col gap-10">
+  const [archiveForm, archiveFields] = useForm({ id: "archive", lastResult: replyFor(actionData, "archive") });
+  const header = (
+    <>
       <PageHeader title="Course settings" />
       {search.get("created") ? <Notice tone="success">The course is open. Add its cohorts below, then import the roster.</Notice> : null}
+      {search.get("carried") ? (
+        <Notice tone="success">
+          The new course is open, its labs as drafts. Check their dates and publish them, then import the roster.
+        </Notice>
+      ) : null}
       {actionData && "saved" in actionData ? <Notice tone="success">Saved.</Notice> : null}
+    </>
+  );
+  if (archivedAt)
+    return (
+      <div className="flex flex-col gap-10">
+        {header}
+        <NextTerm courseId={course.id} />
+        <section aria-labelledby="archive-heading" className="max-w-xl">
+          <h2 id="archive-heading" className="mb-1 text-lg font-semibold">
+            Archived
+          </h2>
+          <p className="mb-3 text-sm text-ink-700">
+            Archived on {formatDateTime(archivedAt, course.timeZone, "medium")}. Restore the course to change anything in it again.
+          </p>
+          <Form method="post">
+            <input type="hidden" name="intent" value="restore" />
+            <Button type="submit" variant="secondary" disabled={navigation.state === "submitting"}>
+              Restore the course
+            </Button>
+          </Form>
+        </section>
+      </div>
+    );
+  return (
+    <div className="flex flex-col gap-10">
+      {header}
 
       <section aria-labelledby="course-heading" className="max-w-xl">
         <h2 id="course-heading" className="mb-3 text-lg font-semibold">
@@ -214,7 +262,51 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
           ))}
         </ul>
       </section>
+
+      <NextTerm courseId={course.id} />
+
+      <section aria-labelledby="archive-heading" className="max-w-xl">
+        <h2 id="archive-heading" className="mb-1 text-lg font-semibold">
+          Archive the course
+        </h2>
+        <p className="mb-3 text-sm text-ink-700">
+          When the term is over: the course becomes read-only and leaves everyone's course list (it stays under “Archived courses”). Its
+          pages and exports still open, reminders stop, and an instructor can restore it.
+        </p>
+        <Form method="post" className="flex flex-col gap-3" {...getFormProps(archiveForm)}>
+          <input type="hidden" name="intent" value="archive" />
+          {archiveForm.errors?.length ? <Notice tone="error">{archiveForm.errors.join(" ")}</Notice> : null}
+          <label className="flex items-center gap-2 text-sm">
+            <input {...getInputProps(archiveFields.confirm, { type: "checkbox" })} className="size-5" />
+            The course is finished: make it read-only
+          </label>
+          {archiveFields.confirm.errors?.length ? (
+            <p id={archiveFields.confirm.errorId} className="text-sm text-outlier">
+              {archiveFields.confirm.errors.join(" ")}
+            </p>
+          ) : null}
+          <Button type="submit" variant="danger" className="self-start" disabled={navigation.state === "submitting"}>
+            Archive the course
+          </Button>
+        </Form>
+      </section>
     </div>
+  );
+}
+
+function NextTerm({ courseId }: { courseId: string }) {
+  return (
+    <section aria-labelledby="next-term-heading" className="max-w-xl">
+      <h2 id="next-term-heading" className="mb-1 text-lg font-semibold">
+        Next term
+      </h2>
+      <p className="text-sm text-ink-700">
+        <Link to={`/courses/${courseId}/carry-over`} className="underline">
+          Start next term from this course
+        </Link>
+        : a new course with these settings, labs, rubrics and kit inventory, and none of the students.
+      </p>
+    </section>
   );
 }
 

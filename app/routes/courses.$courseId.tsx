@@ -1,6 +1,7 @@
 import { Outlet } from "react-router";
 import type { Route } from "./+types/courses.$courseId";
 import { CourseNav } from "~/components/course-nav";
+import { Notice } from "~/components/ui/notice";
 import { anyRole, courseAccessMiddleware, requireCourseRole } from "~/server/auth/access.server";
 
 /** The viewer's access to the course is looked up once, here, for the frame and the page to share. */
@@ -21,6 +22,14 @@ export default function CourseFrame({ loaderData }: Route.ComponentProps) {
       </p>
       <p className="no-print mb-2 text-lg font-medium">{course.title}</p>
       <CourseNav courseId={course.id} role={role} />
+      {course.archivedAt ? (
+        <div className="mb-4">
+          <Notice tone="warning">
+            This course is archived and read-only: nothing in it can be changed. Its pages and exports still open.
+            {role === "instructor" ? " Restore it in the course settings to change it again." : null}
+          </Notice>
+        </div>
+      ) : null}
       <Outlet />
     </>
   );

@@ -2,10 +2,13 @@ import { roleWords } from "~/lib/courses/roles";
 import { ButtonLink } from "~/components/ui/button";
 import { Link, useRouteLoaderData } from "react-router";
 import type { loader as rootLoader } from "~/root";
+import type { ShellViewer } from "~/components/app-shell";
 
 export default function Home() {
   const viewer = useRouteLoaderData<typeof rootLoader>("root")?.viewer ?? null;
   if (!viewer) return <Welcome />;
+  const current = viewer.courses.filter((course) => !course.archived);
+  const archived = viewer.courses.filter((course) => course.archived);
   return (
     <section aria-labelledby="courses-title">
       <div className="flex flex-wrap items-center justify-between gap-3">
@@ -14,25 +17,41 @@ export default function Home() {
         </h1>
         {viewer.mayCreateCourses ? <ButtonLink to="/courses/new">Open a new course</ButtonLink> : null}
       </div>
-      {viewer.courses.length === 0 ? (
-        <p className="mt-4 text-ink-700">You do not belong to any course yet. Your instructor's invitation adds you to one.</p>
+      {current.length === 0 ? (
+        <p className="mt-4 text-ink-700">
+          {archived.length === 0
+            ? "You do not belong to any course yet. Your instructor's invitation adds you to one."
+            : "You have no current course."}
+        </p>
       ) : (
-        <ul className="mt-4 grid gap-3 sm:grid-cols-2">
-          {viewer.courses.map((course) => (
-            <li key={course.id}>
-              <Link
-                to={`/courses/${course.id}`}
-                className="block rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 hover:ring-ink-500"
-              >
-                <span className="text-sm text-ink-600">{course.code}</span>
-                <span className="mt-1 block font-medium">{course.title}</span>
-                <span className="mt-2 inline-block rounded bg-paper-100 px-2 py-0.5 text-xs">{roleWords[course.role]}</span>
-              </Link>
-            </li>
-          ))}
-        </ul>
+        <CourseList courses={current} />
       )}
+      {archived.length ? (
+        <details className="mt-8">
+          <summary className="cursor-pointer font-medium">Archived courses ({archived.length})</summary>
+          <p className="mt-2 text-sm text-ink-700">Finished courses: read-only, with their pages and exports.</p>
+          <CourseList courses={archived} />
+        </details>
+      ) : null}
     </section>
+  );
+}
+
+function CourseList({ courses }: { courses: ShellViewer["courses"] }) {
+  return (
+    <ul className="mt-4 grid gap-3 sm:grid-cols-2">
+      {courses.map((course) => (
+        <li key={course.id}>
+          <Link to={`/courses/${course.id}`} className="block rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10 hover:ring-ink-500">
+            <span className="text-sm text-ink-600">
+              {course.code} · {course.term}
+            </span>
+            <span className="mt-1 block font-medium">{course.title}</span>
+            <span className="mt-2 inline-block rounded bg-paper-100 px-2 py-0.5 text-xs">{roleWords[course.role]}</span>
+          </Link>
+        </li>
+      ))}
+    </ul>
   );
 }
 

@@ -58,7 +58,10 @@ export type AuditAction =
   | "course.invitation_resent"
   | "course.invitation_revoked"
   | "course.member_updated"
-  | "course.roster_updated";
+  | "course.roster_updated"
+  | "course.carried_over"
+  | "course.archived"
+  | "course.restored";
 
 export type AuditInput = {
   action: AuditAction;

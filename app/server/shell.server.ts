@@ -1,4 +1,4 @@
-import { and, asc, eq, isNull } from "drizzle-orm";
+import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import type { ShellViewer } from "~/components/app-shell";
 import { courseMemberships, courses } from "~/db/schema";
 import { getOptionalUser, type RequestScope } from "~/server/auth/access.server";
@@ -9,7 +9,14 @@ export async function getShellViewer(scope: RequestScope): Promise<ShellViewer |
   const user = await getOptionalUser(scope);
   if (!user) return null;
   const memberships = await db
-    .select({ id: courses.id, code: courses.code, title: courses.title, role: courseMemberships.role })
+    .select({
+      id: courses.id,
+      code: courses.code,
+      title: courses.title,
+      term: courses.term,
+      role: courseMemberships.role,
+      archived: sql<boolean>`${courses.archivedAt} is not null`,
+    })
     .from(courseMemberships)
     .innerJoin(courses, eq(courses.id, courseMemberships.courseId))
     .where(and(eq(courseMemberships.userId, user.id), isNull(courseMemberships.removedAt)))

@@ -69,6 +69,12 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId", anyMember(200)),
   row("GET", "/courses/:courseId/settings", instructorOnly(200)),
   row("POST", "/courses/:courseId/settings", instructorOnly(400)),
+  // Archiving (unconfirmed: 400) and restoring (the course is not archived: 409) are the instructors'.
+  row("POST", "/courses/:courseId/settings", instructorOnly(400), { form: { intent: "archive" } }),
+  row("POST", "/courses/:courseId/settings", instructorOnly(409), { form: { intent: "restore" } }),
+  // Starting next term from the course is the instructors'.
+  row("GET", "/courses/:courseId/carry-over", instructorOnly(200)),
+  row("POST", "/courses/:courseId/carry-over", instructorOnly(400)),
   row("GET", "/courses/:courseId/members", instructorOnly(200)),
   row("POST", "/courses/:courseId/members", instructorOnly(400)),
   row("GET", "/courses/:courseId/members/:membershipId", ownWork(200)),

@@ -27,7 +27,17 @@ export const apiError = z
 export const meResponse = z
   .object({
     user: z.object({ id: uuid, name: z.string(), email: z.string() }),
-    courses: z.array(z.object({ id: uuid, code: z.string(), title: z.string(), role: z.enum(["instructor", "ta", "student"]) })),
+    courses: z.array(
+      z.object({
+        id: uuid,
+        code: z.string(),
+        title: z.string(),
+        term: z.string(),
+        role: z.enum(["instructor", "ta", "student"]),
+        /** Archived: finished and read-only (every change answers 409 `course_archived`). */
+        archived: z.boolean(),
+      }),
+    ),
     authenticatedWith: z.enum(["session", "api-token"]),
   })
   .register(apiSchemas, { id: "Me" });

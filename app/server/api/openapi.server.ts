@@ -47,7 +47,7 @@ const errors = {
   404: { description: "No such object, or one the caller may not know exists (a draft lab, for students).", schema: apiError },
   409: {
     description:
-      "The request is valid but the lab's state refuses it (not open yet, past the cut-off, no kit, or `mark_released`: the student's mark is released and the lab refuses hand-ins after it).",
+      "The request is valid but the lab's state refuses it (not open yet, past the cut-off, no kit, `mark_released`: the student's mark is released and the lab refuses hand-ins after it, or `course_archived`: the course is archived and read-only).",
     schema: apiError,
   },
 } satisfies Record<number, Answer>;

@@ -3,7 +3,7 @@
  * see which kits are overdue after the course's return-by date, the worker reminds their students, and
  * the kits are checked in together at the bench (`checkInKits`).
  */
-import { and, asc, count, eq, getTableColumns, inArray, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, eq, getTableColumns, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import type { PgSelect } from "drizzle-orm/pg-core";
 import { cohorts, courseMemberships, courses, invitations, kitParts, kits, parts, users } from "~/db/schema";
 import { AppError } from "~/lib/app-error";
@@ -162,6 +162,8 @@ export async function sendOverdueReminders(database: Database, now = new Date())
       .where(
         and(
           eq(kits.state, "at_home"),
+          // An archived course is finished: nobody is chased for its kits any more.
+          isNull(courses.archivedAt),
           sql`${courseMemberships.removedAt} is null`,
           sql`${returnByOf} is not null and ${localToday(now)} > ${returnByOf}`,
           sql`extract(hour from ${now.toISOString()}::timestamptz at time zone ${courses.timeZone}) >= ${reminderHour}`,

@@ -46,7 +46,7 @@ export async function scheduleLabReminders(
 
 export type ReminderOutcome = {
   sent: number;
-  skipped: null | "lab-gone" | "not-published" | "due-time-changed" | "offset-removed" | "past-due";
+  skipped: null | "lab-gone" | "course-archived" | "not-published" | "due-time-changed" | "offset-removed" | "past-due";
 };
 
 function dueAtText(dueAt: Date, timeZone: string): string {
@@ -55,8 +55,9 @@ function dueAtText(dueAt: Date, timeZone: string): string {
 }
 
 /**
- * Runs one reminder job: checks that the lab is still published, that the job's due time is still the
- * lab's or one of its extensions', and that its offset is still the lab's; then, in one transaction,
+ * Runs one reminder job: checks that the lab's course is not archived, that the lab is still published,
+ * that the job's due time is still the lab's or one of its extensions', and that its offset is still the
+ * lab's; then, in one transaction,
  * records and queues a reminder for each student without a hand-in whose effective due time is the
  * job's. A constant number of statements whatever the class size.
  */
@@ -68,6 +69,7 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
         lab: labs,
         courseTitle: courses.title,
         timeZone: courses.timeZone,
+        archived: sql<boolean>`${courses.archivedAt} is not null`,
         extensionDue: sql<boolean>`exists (select 1 from lab_extensions e where e.lab_id = ${labs.id} and e.due_at = ${dueAt})`,
       })
       .from(labs)
@@ -76,6 +78,8 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
       .for("share", { of: labs });
     if (!row) return { sent: 0, skipped: "lab-gone" };
     const { lab } = row;
+    // An archived course is finished: its students are not reminded of anything.
+    if (row.archived) return { sent: 0, skipped: "course-archived" };
     if (lab.status !== "published") return { sent: 0, skipped: "not-published" };
     if (lab.dueAt.getTime() !== dueAt.getTime() && !row.extensionDue) return { sent: 0, skipped: "due-time-changed" };
     if (!lab.reminderOffsetsHours.includes(job.offsetHours)) return { sent: 0, skipped: "offset-removed" };
