@@ -83,7 +83,11 @@ export default function KitPage({ loaderData, actionData }: Route.ComponentProps
         <KitStateBadge state={kit.state} />
         {kit.holder ? (
           <span className="ml-2">
-            for {kit.holder.user.name} ({kit.holder.cohort?.name ?? "no cohort"})
+            for{" "}
+            <Link to={`/courses/${kit.courseId}/members/${kit.holder.id}/record`} className="underline">
+              {kit.holder.user.name}
+            </Link>{" "}
+            ({kit.holder.cohort?.name ?? "no cohort"})
           </span>
         ) : null}
         {kit.trackingNumber ? (

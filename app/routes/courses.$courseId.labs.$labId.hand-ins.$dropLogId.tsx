@@ -3,7 +3,7 @@
  * photos, and the counted version's class label with its reason. The marking desk's side panel loads
  * this route's data with a fetcher, so it shows the same thing.
  */
-import { data } from "react-router";
+import { data, Link } from "react-router";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.hand-ins.$dropLogId";
 import { HandInDetail, type HandInDetailData } from "~/components/drop-logs/hand-in-detail";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
@@ -40,11 +40,11 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     versions: dropLog.versions.map(versionView),
     photos: dropLog.photos.map(photoView),
   };
-  return { ...detail, instructor: access.membership.role === "instructor" };
+  return { ...detail, instructor: access.membership.role === "instructor", membershipId: owner.membershipId };
 }
 
 export default function HandInPage({ loaderData }: Route.ComponentProps) {
-  const { courseId, lab, studentName, instructor } = loaderData;
+  const { courseId, lab, studentName, instructor, membershipId } = loaderData;
   return (
     <div>
       <PageHeader
@@ -54,6 +54,11 @@ export default function HandInPage({ loaderData }: Route.ComponentProps) {
           { to: `/courses/${courseId}/labs/${lab.id}/dashboard`, label: lab.title },
         ]}
         tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}
+        actions={
+          <Link to={`/courses/${courseId}/members/${membershipId}/record`} className="rounded-md px-4 py-2 text-sm ring-1 ring-ink-900/20">
+            Student record
+          </Link>
+        }
       >
         Hand-in for {lab.title}
       </PageHeader>

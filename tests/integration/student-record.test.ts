@@ -125,32 +125,30 @@ beforeAll(async () => {
     note,
     createdAt: minutes(at),
   });
-  await db
-    .insert(kitEvents)
-    .values([
-      { kitId: shared.id, actorId: instructor, toState: "on_shelf", action: "created", createdAt: minutes(10) },
-      move("on_shelf", "packed", other, 11, "First use by the other student"),
-      move("packed", "in_transit", other, 12),
-      move("in_transit", "at_home", other, 13),
-      move("at_home", "coming_back", other, 14),
-      move("coming_back", "checked_in", null, 15, "Other student's kit back"),
-      move("checked_in", "on_shelf", null, 16),
-      move("on_shelf", "packed", own, 20, "Second kit for own"),
-      move("packed", "in_transit", own, 21),
-      move("in_transit", "at_home", own, 22),
-      {
-        kitId: shared.id,
-        actorId: fixture.userIds.ownStudent,
-        action: "reported",
-        detail: { problem: "damaged" as const },
-        note: "Own's chipped sphere",
-        createdAt: minutes(23),
-      },
-      move("at_home", "coming_back", own, 24),
-      move("coming_back", "checked_in", null, 25, "Own's kit back"),
-      move("checked_in", "on_shelf", null, 26),
-      move("on_shelf", "packed", other, 30, "Second use by the other student"),
-    ]);
+  await db.insert(kitEvents).values([
+    { kitId: shared.id, actorId: instructor, toState: "on_shelf", action: "created", createdAt: minutes(10) },
+    move("on_shelf", "packed", other, 11, "First use by the other student"),
+    move("packed", "in_transit", other, 12),
+    move("in_transit", "at_home", other, 13),
+    move("at_home", "coming_back", other, 14),
+    move("coming_back", "checked_in", null, 15, "Other student's kit back"),
+    move("checked_in", "on_shelf", null, 16),
+    move("on_shelf", "packed", own, 20, "Second kit for own"),
+    move("packed", "in_transit", own, 21),
+    move("in_transit", "at_home", own, 22),
+    {
+      kitId: shared.id,
+      actorId: fixture.userIds.ownStudent,
+      action: "reported",
+      detail: { problem: "damaged" as const },
+      note: "Own's chipped sphere",
+      createdAt: minutes(23),
+    },
+    move("at_home", "coming_back", own, 24),
+    move("coming_back", "checked_in", null, 25, "Own's kit back"),
+    move("checked_in", "on_shelf", null, 26),
+    move("on_shelf", "packed", other, 30, "Second use by the other student"),
+  ]);
 
   // Hand-ins: ownStudent's is the fixture's real one; the other student hands in too.
   const [otherLog] = await db.insert(dropLogs).values({ labId: fixture.labId, membershipId: other }).returning();
