@@ -16,6 +16,7 @@ import { seedExtensions } from "./seed-extensions";
 import { seedKits } from "./seed-kits";
 import { seedLabs } from "./seed-labs";
 import { seedMarking } from "./seed-marking";
+import { seedMessages } from "./seed-messages";
 import { seedRevisions } from "./seed-revisions";
 import { seedShipping } from "./seed-shipping";
 
@@ -99,6 +100,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   markingFaker.seed(2143);
   await seedMarking(db, markingFaker, { courseId });
   await seedRevisions(db, { courseId });
+  await seedMessages(db, { courseId });
   return "seeded";
 }
 

@@ -33,7 +33,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   const audience = { cohortIds, labId, handInState };
   if (intent === "preview") return { ...submission.reply(), preview: await previewCourseMessage(db, access, { audience, subject, body }) };
   const { sendKey, expectedCount } = submission.value;
-  const sent = await sendCourseMessage(access, { audience, subject, body, sendKey, expectedCount }, request);
+  const sent = await sendCourseMessage(db, access, { audience, subject, body, sendKey, expectedCount }, request);
   return redirect(`/courses/${access.course.id}/messages?sent=${sent.recipientCount}`);
 });
 

@@ -108,7 +108,7 @@ describe("sending", () => {
   it("writes one outbox row and one recipient row per student, audits it, and sends once per send key", async () => {
     const audience = { cohortIds: [fixture.cohortId] };
     const preview = await previewCourseMessage(db, instructor(), { audience, ...text });
-    const sent = await sendCourseMessage(instructor(), { audience, ...text, sendKey: preview.sendKey, expectedCount: preview.count });
+    const sent = await sendCourseMessage(db, instructor(), { audience, ...text, sendKey: preview.sendKey, expectedCount: preview.count });
     expect(sent).toMatchObject({ recipientCount: 2, duplicate: false });
 
     const recipients = await db
@@ -138,7 +138,7 @@ describe("sending", () => {
     expect(audits.map((event) => event.action)).toEqual(["course.message_sent"]);
 
     // The same form again (a second click, a resent page): the first message, nothing new.
-    const again = await sendCourseMessage(instructor(), { audience, ...text, sendKey: preview.sendKey, expectedCount: preview.count });
+    const again = await sendCourseMessage(db, instructor(), { audience, ...text, sendKey: preview.sendKey, expectedCount: preview.count });
     expect(again).toEqual({ messageId: sent.messageId, recipientCount: 2, duplicate: true });
     const [{ outboxRows }] = await db
       .select({ outboxRows: sql<number>`count(*)::int` })
@@ -157,7 +157,7 @@ describe("sending", () => {
       .set({ cohortId: fixture.otherCohortId })
       .where(eq(courseMemberships.id, fixture.membershipIds.sameCohortStudent));
     try {
-      const refusal = await sendCourseMessage(instructor(), { audience, ...text, sendKey: preview.sendKey, expectedCount: 1 }).catch(
+      const refusal = await sendCourseMessage(db, instructor(), { audience, ...text, sendKey: preview.sendKey, expectedCount: 1 }).catch(
         (error) => error,
       );
       expect(refusal).toBeInstanceOf(AppError);
@@ -209,7 +209,7 @@ describe("sending", () => {
       const preview = await previewCourseMessage(db, access, { audience, ...text });
       expect(preview.count).toBe(size);
       const { statements, result } = await countAllStatements(() =>
-        sendCourseMessage(access, { audience, ...text, sendKey: preview.sendKey, expectedCount: size }),
+        sendCourseMessage(db, access, { audience, ...text, sendKey: preview.sendKey, expectedCount: size }),
       );
       expect(result.recipientCount).toBe(size);
       const [{ rows }] = await db

@@ -15,7 +15,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { generateToken } from "~/server/auth/tokens.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import { appUrl } from "~/server/config.server";
-import { type Executor, db } from "~/server/db.server";
+import type { Database, Executor } from "~/server/db.server";
 import { renderEmail } from "~/server/email/email-templates.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { isoText, uuidList } from "~/server/sql.server";
@@ -149,11 +149,12 @@ export type SentMessage = { messageId: string; recipientCount: number; duplicate
  * preview's is refused with the new count.
  */
 export async function sendCourseMessage(
+  database: Database,
   access: CourseAccess,
   input: { audience: Audience; subject: string; body: string; sendKey: string; expectedCount: number },
   request?: Request,
 ): Promise<SentMessage> {
-  return db.transaction(async (tx) => {
+  return database.transaction(async (tx) => {
     const sentBefore = async () => {
       const [row] = await tx
         .select({ id: courseMessages.id, recipientCount: courseMessages.recipientCount })
