@@ -164,10 +164,9 @@ export async function sendCourseMessage(
     };
     const earlier = await sentBefore();
     if (earlier) return earlier;
-    const [{ label }, members] = await Promise.all([
-      resolveAudience(tx, access, input.audience),
-      audienceMembers(tx, access.course.id, input.audience),
-    ]);
+    // One after the other: a transaction's client runs one statement at a time.
+    const { label } = await resolveAudience(tx, access, input.audience);
+    const members = await audienceMembers(tx, access.course.id, input.audience);
     if (members.length !== input.expectedCount)
       throw new AppError({
         code: "audience_changed",
