@@ -18,6 +18,7 @@ import { seedLabs } from "./seed-labs";
 import { seedMarkBook } from "./seed-mark-book";
 import { seedLastTerm } from "./seed-last-term";
 import { seedMarking } from "./seed-marking";
+import { seedMessages } from "./seed-messages";
 import { seedRevisions } from "./seed-revisions";
 import { seedShipping } from "./seed-shipping";
 
@@ -103,6 +104,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
   await seedRevisions(db, { courseId });
   await seedMarkBook(db, { courseId });
   await seedLastTerm(db, { courseId, instructorId });
+  await seedMessages(db, { courseId });
   return "seeded";
 }
 

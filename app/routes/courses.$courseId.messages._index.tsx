@@ -28,9 +28,7 @@ export default function CourseMessages({ loaderData }: Route.ComponentProps) {
         student's record.
       </PageHeader>
       {sent !== null ? (
-        <Notice tone="success">
-          Your message is on its way to {sent} {sent === 1 ? "student" : "students"}.
-        </Notice>
+        <Notice tone="success">{`Your message is on its way to ${sent} ${sent === 1 ? "student" : "students"}.`}</Notice>
       ) : null}
       {messages.length === 0 ? (
         <p className="text-sm text-ink-700">No messages sent yet.</p>

@@ -33,7 +33,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   const audience = { cohortIds, labId, handInState };
   if (intent === "preview") return { ...submission.reply(), preview: await previewCourseMessage(db, access, { audience, subject, body }) };
   const { sendKey, expectedCount } = submission.value;
-  const sent = await sendCourseMessage(access, { audience, subject, body, sendKey, expectedCount }, request);
+  const sent = await sendCourseMessage(db, access, { audience, subject, body, sendKey, expectedCount }, request);
   return redirect(`/courses/${access.course.id}/messages?sent=${sent.recipientCount}`);
 });
 
@@ -114,7 +114,7 @@ export default function NewCourseMessage({ loaderData, actionData }: Route.Compo
               Preview
             </h2>
             <p className="text-sm" data-testid="message-count">
-              {preview.audienceLabel}: <strong>{preview.count}</strong> {preview.count === 1 ? "student" : "students"}
+              {preview.audienceLabel}: <strong>{studentCount(preview.count)}</strong>
               {preview.names.length ? `, among them ${preview.names.join(", ")}${preview.count > preview.names.length ? "…" : ""}` : ""}.
             </p>
             <p className="text-sm text-ink-700">Subject line: {preview.email.subject}</p>
@@ -138,7 +138,7 @@ export default function NewCourseMessage({ loaderData, actionData }: Route.Compo
           </Button>
           {preview && preview.count > 0 ? (
             <Button type="submit" name="intent" value="send" disabled={busy}>
-              Send to {preview.count} {preview.count === 1 ? "student" : "students"}
+              {`Send to ${studentCount(preview.count)}`}
             </Button>
           ) : null}
         </div>
@@ -146,6 +146,8 @@ export default function NewCourseMessage({ loaderData, actionData }: Route.Compo
     </div>
   );
 }
+
+const studentCount = (count: number) => `${count} ${count === 1 ? "student" : "students"}`;
 
 export function meta() {
   return [{ title: "Write to students · Benchpost" }];

@@ -169,6 +169,10 @@ const matrix: MatrixRow[] = [
   row("POST", "/courses/:courseId/labs/:labId/rubric", instructorOnly(400)),
   row("GET", "/courses/:courseId/labs/:labId/moderation", instructorOnly(200)),
   row("POST", "/courses/:courseId/labs/:labId/moderation", instructorOnly(400)),
+  // Messages to students: instructors and TAs (a TA writes to, and sees the messages of, their cohorts only); the probe has no intent: 400.
+  row("GET", "/courses/:courseId/messages", staffOnly(200)),
+  row("GET", "/courses/:courseId/messages/new", staffOnly(200)),
+  row("POST", "/courses/:courseId/messages/new", staffOnly(400)),
   row("GET", "/courses/:courseId/roster-template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/parts/template.csv", instructorOnly(200)),
   row("GET", "/courses/:courseId/inventory.csv", staffOnly(200)),

@@ -15,7 +15,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { generateToken } from "~/server/auth/tokens.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import { appUrl } from "~/server/config.server";
-import { type Executor, db } from "~/server/db.server";
+import type { Database, Executor } from "~/server/db.server";
 import { renderEmail } from "~/server/email/email-templates.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { isoText, uuidList } from "~/server/sql.server";
@@ -149,11 +149,12 @@ export type SentMessage = { messageId: string; recipientCount: number; duplicate
  * preview's is refused with the new count.
  */
 export async function sendCourseMessage(
+  database: Database,
   access: CourseAccess,
   input: { audience: Audience; subject: string; body: string; sendKey: string; expectedCount: number },
   request?: Request,
 ): Promise<SentMessage> {
-  return db.transaction(async (tx) => {
+  return database.transaction(async (tx) => {
     const sentBefore = async () => {
       const [row] = await tx
         .select({ id: courseMessages.id, recipientCount: courseMessages.recipientCount })
@@ -163,10 +164,9 @@ export async function sendCourseMessage(
     };
     const earlier = await sentBefore();
     if (earlier) return earlier;
-    const [{ label }, members] = await Promise.all([
-      resolveAudience(tx, access, input.audience),
-      audienceMembers(tx, access.course.id, input.audience),
-    ]);
+    // One after the other: a transaction's client runs one statement at a time.
+    const { label } = await resolveAudience(tx, access, input.audience);
+    const members = await audienceMembers(tx, access.course.id, input.audience);
     if (members.length !== input.expectedCount)
       throw new AppError({
         code: "audience_changed",
