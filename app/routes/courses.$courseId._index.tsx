@@ -178,7 +178,11 @@ function InstructorView(props: Of<"instructor">) {
                 <Link to={`labs/${lab.labId}/comparison`} className="underline">
                   {lab.title}
                 </Link>
-                : {plural(lab.outliers, "outlier")}, {plural(lab.suspects, "suspect")} in the class comparison
+                :{" "}
+                {[lab.outliers ? plural(lab.outliers, "outlier") : null, lab.suspects ? plural(lab.suspects, "suspect") : null]
+                  .filter(Boolean)
+                  .join(", ")}{" "}
+                in the class comparison
               </li>
             ))}
             {flaggedParts.map((part) => (

@@ -157,7 +157,8 @@ export default function LabPage({ loaderData, actionData }: Route.ComponentProps
     ? dropLogDraft.safeParse({ ...refused.initialValue, useOwnMeasurements: refused.initialValue?.useOwnMeasurements === "on" })
     : null;
   const draftPhotos = photos.filter((photo) => photo.versionId === null);
-  const counted = versions.find((version) => version.id === latestVersionId);
+  // The hand-in's own answer first: the receipt shows before the page's data is read again.
+  const counted = handedIn ?? versions.find((version) => version.id === latestVersionId);
   return (
     <div className="flex flex-col gap-6">
       <PageHeader title={lab.title} trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}>

@@ -220,6 +220,8 @@ describe("the overviews of a seeded class", () => {
     expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking?status=unmarked"`);
     expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${fixture.labId}/comparison"`);
     expect(forInstructor).toContain("nothing marked yet");
+    // Only the labels that occur are named.
+    expect(forInstructor).toContain("</a>: 1 outlier in the class comparison");
     expect(forInstructor).toContain("1 invitation not accepted yet");
     expect(forInstructor).toContain("1 kit not delivered yet");
     const forTa = await html("assignedTa");
