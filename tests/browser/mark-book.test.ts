@@ -86,4 +86,28 @@ describe("the term mark book in Chromium", () => {
     expect(Number(line?.percent)).toBeCloseTo(student.percent, 1);
     await page.close();
   });
+
+  it("sorts and filters without JavaScript, through links and a GET form", async () => {
+    const plain = await openBrowser({ viewport: { width: 1400, height: 1000 }, javaScriptEnabled: false });
+    try {
+      const page = await plain.context.newPage();
+      await signInWithPassword(page, base, `instructor@${DEMO_DOMAIN}`, DEMO_PASSWORD);
+      await page.goto(`${base}/courses/${courseId}/mark-book`);
+      await page.getByRole("link", { name: /^Cohort, sort ascending/ }).click();
+      await page.waitForURL(/sort=cohort/);
+      const [first] = (
+        await db.execute<{ email: string }>(sql`
+          select u.email from course_memberships m join users u on u.id = m.user_id
+          where m.course_id = ${courseId} and m.role = 'student' and m.removed_at is null order by u.email limit 1`)
+      ).rows;
+      await page.getByLabel("Name or e-mail contains").fill(first.email);
+      await page.getByRole("button", { name: "Show" }).click();
+      await page.waitForURL(/search=/);
+      expect(new URL(page.url()).searchParams.get("sort"), "the form carries the order").toBe("cohort");
+      expect(await page.locator("tbody tr").count()).toBe(1);
+      expect(await page.locator("tbody tr").first().textContent()).toContain(first.email);
+    } finally {
+      await plain.close();
+    }
+  });
 });
