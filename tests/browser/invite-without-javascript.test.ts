@@ -4,7 +4,7 @@
  * until every row is right.
  */
 import { and, eq } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, inject, it, onTestFinished } from "vitest";
 import { courses } from "~/db/schema";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, buildDemoScenario, demoCourse } from "../../seeds/demo-scenario";
@@ -59,5 +59,38 @@ describe("inviting people without JavaScript", () => {
       .waitFor();
     for (const address of ["no.script.one@students.harrowgate.example", "no.script.two@students.harrowgate.example"])
       expect((await emailTo(base, address, /invit/i)).links.some((link) => link.includes("/invitations/"))).toBe(true);
+  });
+
+  it("sends an invitation again and withdraws another from the list of invitations not yet accepted", async () => {
+    const [course] = await createDatabase(pool)
+      .select({ id: courses.id })
+      .from(courses)
+      .where(and(eq(courses.code, demoCourse.code), eq(courses.term, demoCourse.term)));
+    // A browser of its own, so that this test signs in whatever ran before it.
+    const own = await openBrowser({ javaScriptEnabled: false });
+    onTestFinished(() => own.close());
+    const page = await own.context.newPage();
+    await signInWithPassword(page, base, buildDemoScenario().instructor.email, DEMO_PASSWORD);
+    await page.goto(`${base}/courses/${course.id}/members`);
+    await page.getByRole("group", { name: "Person 1" }).getByLabel("E-mail address").fill("no.script.again@students.harrowgate.example");
+    await page.getByRole("button", { name: "Add another person" }).click();
+    await page.getByRole("group", { name: "Person 2" }).getByLabel("E-mail address").fill("no.script.gone@students.harrowgate.example");
+    await page.getByRole("button", { name: "Send the 2 invitations" }).click();
+    await page.getByText(/^Invitations e-mailed to no\.script\.again/).waitFor();
+    const firstLink = (await emailTo(base, "no.script.again@students.harrowgate.example", /invit/i)).links.find((link) =>
+      link.includes("/invitations/"),
+    )!;
+
+    await page.getByRole("button", { name: "Send again to no.script.again@students.harrowgate.example" }).click();
+    await page.getByText("Invitation sent again to no.script.again@students.harrowgate.example, with a new link").waitFor();
+    await page.getByRole("button", { name: "Withdraw the invitation to no.script.gone@students.harrowgate.example" }).click();
+    await page.getByText("Invitation to no.script.gone@students.harrowgate.example withdrawn").waitFor();
+    const pending = page.getByRole("region", { name: "Invitations not yet accepted" });
+    const listed = (address: string) => pending.getByRole("listitem").filter({ hasText: address }).count();
+    expect(await listed("no.script.gone@students.harrowgate.example")).toBe(0);
+    expect(await listed("no.script.again@students.harrowgate.example")).toBe(1);
+
+    await page.goto(firstLink);
+    await page.getByText("This invitation was replaced by a newer one").waitFor();
   });
 });
