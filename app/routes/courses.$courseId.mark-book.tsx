@@ -50,7 +50,7 @@ export default function MarkBook({ loaderData }: Route.ComponentProps) {
     {
       id: "name",
       header: () => <SortHeader label="Student" by="name" sort={filters.sort} />,
-      cell: ({ row }) => <Student row={row.original} />,
+      cell: ({ row }) => <Student row={row.original} recordTo={`${base}/members/${row.original.membershipId}/record`} />,
     },
     {
       id: "number",
@@ -155,10 +155,12 @@ function TotalRule({ dropLowest }: { dropLowest: number }) {
   );
 }
 
-function Student({ row }: { row: Row }) {
+function Student({ row, recordTo }: { row: Row; recordTo: string }) {
   return (
     <div className="flex flex-col">
-      <span className="font-medium">{row.name}</span>
+      <Link to={recordTo} className="font-medium underline">
+        {row.name}
+      </Link>
       <span className="text-xs text-ink-600">{row.email}</span>
     </div>
   );

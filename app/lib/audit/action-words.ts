@@ -18,4 +18,13 @@ export const actionWords: Record<string, string> = {
   "member.record_viewed": "opened a student's record",
   "markbook.settings_changed": "changed the mark book's weights",
   "markbook.exported": "downloaded the mark book",
+  "course.invitation_resent": "sent an invitation again",
+  "course.invitation_revoked": "withdrew an invitation",
+  "course.member_updated": "changed a member's details",
+  "course.roster_updated": "updated the roster from a file",
+  "course.carried_over": "started next term from this course",
+  "course.archived": "archived the course",
+  "course.restored": "restored the archived course",
+  "course.message_sent": "wrote to students",
+  "account.calendar_feed_reset": "made a new calendar address",
 };
