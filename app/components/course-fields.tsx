@@ -4,6 +4,20 @@ import { partBiasAlphas, type CourseInput } from "~/lib/courses/course-input";
 
 type CourseFieldset = { [Key in keyof CourseInput]: FieldMetadata<unknown, Record<string, unknown>, string[]> };
 
+/** A course's IANA time zone, typed with the zones this server knows offered as suggestions. */
+export function TimeZoneField({ field, timeZones, hint }: { field: CourseFieldset["timeZone"]; timeZones: string[]; hint: string }) {
+  return (
+    <>
+      <TextField label="Time zone" field={field} required list="time-zones" hint={hint} />
+      <datalist id="time-zones">
+        {timeZones.map((zone) => (
+          <option key={zone} value={zone} />
+        ))}
+      </datalist>
+    </>
+  );
+}
+
 /** The course's own fields, shared by this page and the settings page. */
 export function CourseFields({ fields, timeZones }: { fields: CourseFieldset; timeZones: string[] }) {
   return (
@@ -13,18 +27,7 @@ export function CourseFields({ fields, timeZones }: { fields: CourseFieldset; ti
         <TextField label="Course code" field={fields.code} required hint="As in the institution's catalogue." />
         <TextField label="Term" field={fields.term} required placeholder="2027 Spring" />
       </div>
-      <TextField
-        label="Time zone"
-        field={fields.timeZone}
-        required
-        list="time-zones"
-        hint="Opening and due times are entered and shown in this zone."
-      />
-      <datalist id="time-zones">
-        {timeZones.map((zone) => (
-          <option key={zone} value={zone} />
-        ))}
-      </datalist>
+      <TimeZoneField field={fields.timeZone} timeZones={timeZones} hint="Opening and due times are entered and shown in this zone." />
       <TextField
         label="Local gravity"
         unit="m/s²"

@@ -1,4 +1,5 @@
 import { getFormProps, getInputProps, useForm } from "@conform-to/react";
+import { TimeZoneField } from "~/components/course-fields";
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.carry-over";
@@ -65,18 +66,11 @@ export default function CarryOver({ loaderData, actionData }: Route.ComponentPro
           <TextField label="Course code" field={fields.code} required />
           <TextField label="Term" field={fields.term} required placeholder="2027 Autumn" hint={`This course is ${course.term}.`} />
         </div>
-        <TextField
-          label="Time zone"
+        <TimeZoneField
           field={fields.timeZone}
-          required
-          list="time-zones"
+          timeZones={timeZones}
           hint="The labs keep their local times (23:59 stays 23:59) in this zone."
         />
-        <datalist id="time-zones">
-          {timeZones.map((zone) => (
-            <option key={zone} value={zone} />
-          ))}
-        </datalist>
         <TextField
           label="Move every date by"
           unit="days"

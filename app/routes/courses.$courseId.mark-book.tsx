@@ -1,4 +1,5 @@
 import type { ColumnDef } from "@tanstack/react-table";
+import { SortHeader } from "~/components/ui/sort-header";
 import { Form, Link, useLocation } from "react-router";
 import type { Route } from "./+types/courses.$courseId.mark-book";
 import { DataTable } from "~/components/ui/data-table";
@@ -187,26 +188,6 @@ function LabCell({ cell }: { cell: Pick<MarkBookCell, "standing" | "percent" | "
       </span>
     );
   return <span className={cell.use === "left-out" ? "text-ink-600" : undefined}>{formatPercent(cell.percent)}</span>;
-}
-
-/** A column heading that sorts the mark book by it (again: the other way), through the URL, so it works without JavaScript. */
-function SortHeader({ label, by, sort }: { label: string; by: string; sort: string }) {
-  const location = useLocation();
-  const current = sort === by ? "asc" : sort === `-${by}` ? "desc" : null;
-  const params = new URLSearchParams(location.search);
-  params.set("sort", current === "asc" ? `-${by}` : by);
-  params.delete("page");
-  return (
-    <Link
-      to={`?${params}`}
-      preventScrollReset
-      className="inline-flex items-center gap-1 underline-offset-2 hover:underline"
-      aria-label={`${label}, sort ${current === "asc" ? "descending" : "ascending"}`}
-    >
-      {label}
-      <span aria-hidden="true">{current === "asc" ? "▲" : current === "desc" ? "▼" : ""}</span>
-    </Link>
-  );
 }
 
 export function meta() {

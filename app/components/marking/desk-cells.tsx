@@ -3,13 +3,12 @@
  * and the desk from context, so TanStack Table's column definitions stay static per rubric.
  */
 import { createColumnHelper } from "@tanstack/react-table";
+import { SortHeader } from "~/components/ui/sort-header";
 import { createContext, useContext, type KeyboardEvent } from "react";
-import { Link, useLocation } from "react-router";
 import { ClassLabelTag } from "~/components/comparison/class-label";
 import { figure } from "~/components/drop-logs/reduction-summary";
 import { ExtendedTo } from "~/components/labs/extended-to";
 import { handInStandingWords } from "~/lib/drop-logs/hand-in-window";
-import type { DeskSortKey } from "~/lib/marking/desk-filters";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
@@ -38,25 +37,6 @@ export const useDesk = () => useContext(DeskContext)!;
 
 /** A control of the grid: `col` counts only the cells that take focus, so arrows skip plain text. */
 const cellProps = (row: number, col: number) => ({ "data-row": row, "data-col": col, tabIndex: -1 });
-
-function SortHeader({ label, by, sort }: { label: string; by: DeskSortKey; sort: string | null }) {
-  const location = useLocation();
-  const current = sort === by ? "asc" : sort === `-${by}` ? "desc" : null;
-  const params = new URLSearchParams(location.search);
-  params.set("sort", current === "asc" ? `-${by}` : by);
-  params.delete("page");
-  return (
-    <Link
-      to={`?${params}`}
-      preventScrollReset
-      className="inline-flex min-h-6 items-center gap-1 underline-offset-2 hover:underline"
-      aria-label={`${label}, sort ${current === "asc" ? "descending" : "ascending"}`}
-    >
-      {label}
-      <span aria-hidden="true">{current === "asc" ? "▲" : current === "desc" ? "▼" : ""}</span>
-    </Link>
-  );
-}
 
 function SelectCell({ checked, onChange, label }: { checked: boolean; onChange: (value: boolean) => void; label: string }) {
   const { index } = useRowTools();
