@@ -1,4 +1,5 @@
-import { getFormProps, getInputProps, getSelectProps, useForm } from "@conform-to/react";
+import { getFormProps, getInputProps, useForm } from "@conform-to/react";
+import { PartConditionHead, PartConditionRow } from "~/components/kits/check-in-form";
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.kits.check-in";
@@ -196,51 +197,16 @@ function CheckInPage({ loaderData, actionData }: Route.ComponentProps) {
                 {kit.parts.length === 0 ? <p className="text-sm text-ink-600">This kit holds no parts.</p> : null}
                 <table className="text-sm">
                   <caption className="sr-only">Condition of each part of kit {kit.number}</caption>
-                  <thead>
-                    <tr className="text-left text-ink-600">
-                      <th scope="col">Part</th>
-                      <th scope="col">Condition</th>
-                      <th scope="col">Re-measure</th>
-                    </tr>
-                  </thead>
+                  <PartConditionHead />
                   <tbody>
-                    {partRows.map((partRow, partIndex) => {
-                      const cells = partRow.getFieldset();
-                      const label = kit.parts[partIndex]?.label ?? "";
-                      return (
-                        <tr key={partRow.key ?? partIndex}>
-                          <td className="py-1 pr-3">
-                            {label}
-                            <input {...getInputProps(cells.partId, { type: "hidden" })} />
-                          </td>
-                          <td className="py-1 pr-3">
-                            <select
-                              {...getSelectProps(cells.condition)}
-                              aria-label={`Condition of ${label} in kit ${kit.number}`}
-                              className="rounded border border-ink-900/20 px-2 py-1"
-                            >
-                              <option value="">Choose…</option>
-                              {partConditions.map((condition) => (
-                                <option key={condition} value={condition}>
-                                  {condition}
-                                </option>
-                              ))}
-                            </select>
-                            {cells.condition.errors?.length ? (
-                              <p id={cells.condition.errorId} className="mt-1 text-outlier">
-                                {cells.condition.errors.join(" ")}
-                              </p>
-                            ) : null}
-                          </td>
-                          <td className="py-1">
-                            <input
-                              {...getInputProps(cells.remeasure, { type: "checkbox" })}
-                              aria-label={`Send ${label} of kit ${kit.number} for re-measurement`}
-                            />
-                          </td>
-                        </tr>
-                      );
-                    })}
+                    {partRows.map((partRow, partIndex) => (
+                      <PartConditionRow
+                        key={partRow.key ?? partIndex}
+                        label={kit.parts[partIndex]?.label ?? ""}
+                        cells={partRow.getFieldset()}
+                        kitNumber={kit.number}
+                      />
+                    ))}
                   </tbody>
                 </table>
               </fieldset>

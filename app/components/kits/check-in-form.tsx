@@ -1,4 +1,4 @@
-import { getFormProps, getInputProps, getSelectProps, useForm, type SubmissionResult } from "@conform-to/react";
+import { getFormProps, getInputProps, getSelectProps, useForm, type FieldMetadata, type SubmissionResult } from "@conform-to/react";
 import { Form } from "react-router";
 import { kitInput } from "~/components/kits/kit-input";
 import { FormErrors } from "~/components/kits/kit-moves";
@@ -29,53 +29,76 @@ export function CheckInForm({ parts, lastResult }: { parts: KitPart[]; lastResul
         </p>
         <table className="text-sm">
           <caption className="sr-only">Condition of each part</caption>
-          <thead>
-            <tr className="text-left text-ink-600">
-              <th scope="col">Part</th>
-              <th scope="col">Condition</th>
-              <th scope="col">Re-measure</th>
-            </tr>
-          </thead>
+          <PartConditionHead />
           <tbody>
-            {rows.map((row, index) => {
-              const cells = row.getFieldset();
-              const label = parts[index]?.label ?? "";
-              return (
-                <tr key={row.key ?? index}>
-                  <td className="py-1 pr-3">
-                    {label}
-                    <input {...getInputProps(cells.partId, { type: "hidden" })} />
-                  </td>
-                  <td className="py-1 pr-3">
-                    <select
-                      {...getSelectProps(cells.condition)}
-                      aria-label={`Condition of ${label}`}
-                      className="rounded border border-ink-900/20 px-2 py-1"
-                    >
-                      <option value="">Choose…</option>
-                      {partConditions.map((condition) => (
-                        <option key={condition} value={condition}>
-                          {condition}
-                        </option>
-                      ))}
-                    </select>
-                    {cells.condition.errors?.length ? (
-                      <p id={cells.condition.errorId} className="mt-1 text-outlier">
-                        {cells.condition.errors.join(" ")}
-                      </p>
-                    ) : null}
-                  </td>
-                  <td className="py-1">
-                    <input {...getInputProps(cells.remeasure, { type: "checkbox" })} aria-label={`Send ${label} for re-measurement`} />
-                  </td>
-                </tr>
-              );
-            })}
+            {rows.map((row, index) => (
+              <PartConditionRow key={row.key ?? index} label={parts[index]?.label ?? ""} cells={row.getFieldset()} />
+            ))}
           </tbody>
         </table>
         <TextField label="Note" field={fields.note} />
         <Button type="submit">Check the kit in</Button>
       </Form>
     </>
+  );
+}
+
+export function PartConditionHead() {
+  return (
+    <thead>
+      <tr className="text-left text-ink-600">
+        <th scope="col">Part</th>
+        <th scope="col">Condition</th>
+        <th scope="col">Re-measure</th>
+      </tr>
+    </thead>
+  );
+}
+
+type Cell = FieldMetadata<unknown, Record<string, unknown>, string[]>;
+
+/** One part of a kit being checked in: its condition and whether to re-measure it. `kitNumber` names the kit where a form holds several. */
+export function PartConditionRow({
+  label,
+  cells,
+  kitNumber,
+}: {
+  label: string;
+  cells: { partId: Cell; condition: Cell; remeasure: Cell };
+  kitNumber?: string;
+}) {
+  const ofKit = kitNumber ? ` in kit ${kitNumber}` : "";
+  return (
+    <tr>
+      <td className="py-1 pr-3">
+        {label}
+        <input {...getInputProps(cells.partId, { type: "hidden" })} />
+      </td>
+      <td className="py-1 pr-3">
+        <select
+          {...getSelectProps(cells.condition)}
+          aria-label={`Condition of ${label}${ofKit}`}
+          className="rounded border border-ink-900/20 px-2 py-1"
+        >
+          <option value="">Choose…</option>
+          {partConditions.map((condition) => (
+            <option key={condition} value={condition}>
+              {condition}
+            </option>
+          ))}
+        </select>
+        {cells.condition.errors?.length ? (
+          <p id={cells.condition.errorId} className="mt-1 text-outlier">
+            {cells.condition.errors.join(" ")}
+          </p>
+        ) : null}
+      </td>
+      <td className="py-1">
+        <input
+          {...getInputProps(cells.remeasure, { type: "checkbox" })}
+          aria-label={kitNumber ? `Send ${label} of kit ${kitNumber} for re-measurement` : `Send ${label} for re-measurement`}
+        />
+      </td>
+    </tr>
   );
 }
