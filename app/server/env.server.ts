@@ -19,6 +19,8 @@ const schema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   PORT: port.default(3000),
   HOST: z.string().default("127.0.0.1"),
+  /** Web processes behind PORT (scripts/web.ts); production only: `npm run dev` is one process. */
+  WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   APP_URL: z.url({ protocol: /^https?$/, error: "must be an http(s) address" }).optional(),
   TRUST_PROXY: z.enum(["0", "1"], { error: "must be 0 or 1" }).optional(),
   DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: "must be a postgresql:// address" }).optional(),

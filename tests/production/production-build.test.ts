@@ -77,6 +77,8 @@ beforeAll(async () => {
     DATABASE_URL: process.env.DATABASE_URL,
     SMTP_URL: `smtp://127.0.0.1:${mailPort}`,
     STORAGE_DIR: storage,
+    // Every test below goes through two web processes behind one port, as a deployment runs them.
+    WEB_CONCURRENCY: "2",
   };
 
   const releases = await Promise.all([runEntry("migrate", [], env), runEntry("migrate", [], env)]);
@@ -103,6 +105,24 @@ describe("the production build", () => {
   it("refuses to start without APP_URL, naming what is missing", async () => {
     const refused = await runEntry("web", [], { ...env, APP_URL: "" }).catch((error: { code: number; stderr: string }) => error);
     expect(refused).toMatchObject({ code: 1, stderr: expect.stringContaining("APP_URL: required in production") });
+  });
+
+  it("runs WEB_CONCURRENCY web processes behind one port, and replaces one that dies", async () => {
+    const primary = services.find((child) => child.spawnargs.includes(entry("web")))!;
+    const webProcesses = async () =>
+      (await execute("ps", ["-o", "pid=", "--ppid", String(primary.pid)], { encoding: "utf8" })).stdout.trim().split(/\s+/).map(Number);
+    const first = await webProcesses();
+    expect(first).toHaveLength(2);
+
+    process.kill(first[0], "SIGKILL");
+    let now = first;
+    for (let tries = 0; tries < 100 && (now.includes(first[0]) || now.length < 2); tries++) {
+      await new Promise((resolve) => setTimeout(resolve, 100));
+      now = await webProcesses().catch(() => []);
+    }
+    expect(now).toHaveLength(2);
+    expect(now).not.toContain(first[0]);
+    await waitForHealth(baseUrl, primary);
   });
 
   it("answers its health check", async () => {
