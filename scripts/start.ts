@@ -1,7 +1,7 @@
 /**
  * `npm start`: the demo, everything a newcomer needs to see Benchpost. Ensures the database, migrates,
  * seeds when empty, builds the demo (which has the development inbox), and runs the web server, the
- * worker, the mail catcher and the fake carrier until Ctrl-C. It listens on 127.0.0.1 unless HOST says otherwise.
+ * worker, the mail catcher, the fake carrier and the fake S3 (photos) until Ctrl-C. It listens on 127.0.0.1 unless HOST says otherwise.
  * `npm run dev` is the same with Vite's dev server (hot reload) in place of the build.
  * Production is another path: `npm run build`, `npm run db:migrate`, `start:web`, `start:worker`.
  */
@@ -13,12 +13,15 @@ import { buildApp } from "./lib/build";
 import { SetupError } from "./lib/postgres";
 import { bin, portIsFree, startService } from "./lib/processes";
 import { FAKE_CARRIER_API_KEY } from "~/server/shipping/fake-carrier.server";
+import { FAKE_S3_BUCKET, FAKE_S3_CREDENTIALS } from "~/server/storage/fake-s3.server";
 
 const development = process.argv.includes("--dev");
 // Without a mail service of the user's, mail goes to the local catcher and can be read at /dev/inbox.
 const catchesMail = !env.RESEND_API_KEY && !env.SMTP_URL;
 // Without a carrier account of the user's, labels are bought from the local fake carrier.
 const fakesCarrier = !env.CARRIER_API_KEY;
+// Without a bucket of the user's, photos go to the local fake S3.
+const fakesS3 = !env.S3_BUCKET;
 
 async function prepare(): Promise<void> {
   if (!(await portIsFree(env.PORT, env.HOST)))
@@ -33,6 +36,8 @@ async function prepare(): Promise<void> {
       `Port ${env.FAKE_CARRIER_PORT} (the fake carrier) is already in use: stop what is running there, or set FAKE_CARRIER_PORT.`,
     );
   }
+  if (fakesS3 && !(await portIsFree(env.FAKE_S3_PORT, "127.0.0.1")))
+    throw new SetupError(`Port ${env.FAKE_S3_PORT} (the fake S3) is already in use: stop what is running there, or set FAKE_S3_PORT.`);
   console.log(`Demo scenario: ${await prepareDevelopmentDatabase()}.`);
   if (!development) await buildApp({ demo: true });
 }
@@ -56,6 +61,7 @@ function printWelcome(): void {
     fakesCarrier
       ? `Labels are bought from the local fake carrier (TEST LABEL PDFs); a postcode 00000 or "REFUSE" in an address is refused.`
       : "Labels are bought through EasyPost with CARRIER_API_KEY.",
+    fakesS3 ? `Photos are kept in the local fake S3 on 127.0.0.1:${env.FAKE_S3_PORT}.` : `Photos are kept in the bucket ${env.S3_BUCKET}.`,
     "",
     "Press Ctrl-C to stop.",
   ];
@@ -77,6 +83,14 @@ function run(): void {
     CARRIER_API_KEY: env.CARRIER_API_KEY ?? FAKE_CARRIER_API_KEY,
     CARRIER_API_URL: fakesCarrier ? `http://127.0.0.1:${env.FAKE_CARRIER_PORT}/v2/` : env.CARRIER_API_URL,
     FAKE_CARRIER_PORT: String(env.FAKE_CARRIER_PORT),
+    ...(fakesS3
+      ? {
+          S3_BUCKET: FAKE_S3_BUCKET,
+          S3_ENDPOINT: `http://127.0.0.1:${env.FAKE_S3_PORT}`,
+          S3_ACCESS_KEY_ID: FAKE_S3_CREDENTIALS.accessKeyId,
+          S3_SECRET_ACCESS_KEY: FAKE_S3_CREDENTIALS.secretAccessKey,
+        }
+      : {}),
     // Vite's dev server reads the route table as it runs; the build has read it already.
     BENCHPOST_DEMO_BUILD: "1",
   };
@@ -88,6 +102,7 @@ function run(): void {
     : [startService("web", "build/web.js", [], childEnv), startService("worker", "build/worker.js", [], childEnv)];
   if (catchesMail) services.push(startService("mail-catcher", bin.tsx, ["scripts/mail-catcher.ts"], childEnv));
   if (fakesCarrier) services.push(startService("fake-carrier", bin.tsx, ["scripts/fake-carrier.ts"], childEnv));
+  if (fakesS3) services.push(startService("fake-s3", bin.tsx, ["scripts/fake-s3.ts"], childEnv));
   // Ctrl-C reaches every process of the terminal's group at once, so the children also stop on their
   // own (tsx answers SIGINT with code 130): once we are stopping, their exit codes are no news.
   let stopping = false;

@@ -7,6 +7,7 @@ const production = {
   TRUST_PROXY: "1",
   DATABASE_URL: "postgresql://app@db.example.org:5432/benchpost",
   SMTP_URL: "smtp://mail.example.org:587",
+  S3_BUCKET: "benchpost-photos",
 };
 
 function problemsOf(source: Record<string, string | undefined>): string[] {
@@ -46,7 +47,7 @@ describe("environment", () => {
     });
   });
 
-  it.each(["APP_URL", "TRUST_PROXY", "DATABASE_URL"] as const)("refuses production without %s", (name) => {
+  it.each(["APP_URL", "TRUST_PROXY", "DATABASE_URL", "S3_BUCKET"] as const)("refuses production without %s", (name) => {
     const problems = problemsOf({ ...production, [name]: undefined });
     expect(problems).toHaveLength(1);
     expect(problems[0]).toMatch(new RegExp(`^${name}: required in production`));
@@ -59,9 +60,23 @@ describe("environment", () => {
     expect(problemsOf({ ...production, SMTP_URL: "", RESEND_API_KEY: "" })).toHaveLength(1);
   });
 
+  it("takes S3 keys in pairs: both, or neither for the SDK's own credentials", () => {
+    expect(problemsOf({ ...production, S3_ACCESS_KEY_ID: "AKIA" })).toEqual([
+      expect.stringMatching(/^S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY: give both/),
+    ]);
+    expect(problemsOf({ ...production, S3_ACCESS_KEY_ID: "AKIA", S3_SECRET_ACCESS_KEY: "secret" })).toEqual([]);
+  });
+
   it("names every problem at once, invalid values included", () => {
     const problems = problemsOf({ NODE_ENV: "production", TRUST_PROXY: "yes", PORT: "eighty", SMTP_URL: "mail.example.org" });
-    expect(problems.map((problem) => problem.split(":")[0]).sort()).toEqual(["APP_URL", "DATABASE_URL", "PORT", "SMTP_URL", "TRUST_PROXY"]);
+    expect(problems.map((problem) => problem.split(":")[0]).sort()).toEqual([
+      "APP_URL",
+      "DATABASE_URL",
+      "PORT",
+      "S3_BUCKET",
+      "SMTP_URL",
+      "TRUST_PROXY",
+    ]);
     expect(() => parseEnvironment({ NODE_ENV: "production" })).toThrow(/Run in production/);
   });
 });

@@ -152,6 +152,8 @@ const matrix: MatrixRow[] = [
   // The probe is not multipart: those who may upload get 400.
   row("POST", "/courses/:courseId/labs/:labId/photos", { ...signedIn(403), ownStudent: 400, sameCohortStudent: 400 }),
   row("GET", "/courses/:courseId/photos/:photoId", ownWork(200)),
+  // Only a student takes a photo off their own draft (the probe is no removal: 400); staff may not.
+  row("POST", "/courses/:courseId/photos/:photoId", studentsOnly(400)),
   // The class comparison names students: instructors, and the TAs of a cohort the lab is set for.
   row("GET", "/courses/:courseId/labs/:labId/comparison", cohortStaff(200)),
   // The probe's intent is unknown: 400 for the staff who may preview (saving is the instructor's).

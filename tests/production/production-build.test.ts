@@ -14,10 +14,11 @@ import path from "node:path";
 import { promisify } from "node:util";
 import { arrayContains, eq } from "drizzle-orm";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { caughtEmails, dropLogVersions } from "~/db/schema";
+import { caughtEmails, dropLogPhotos, dropLogVersions } from "~/db/schema";
 import { db } from "~/server/db.server";
 import { linksIn } from "~/server/email/dev-inbox.server";
 import { type MailCatcher, startMailCatcher } from "~/server/email/mail-catcher.server";
+import { FAKE_S3_BUCKET, startFakeS3 } from "~/server/storage/fake-s3.server";
 import { PRODUCTION_CHECK_DIRECTORY } from "../../scripts/lib/build";
 import { createAccessFixture } from "../support/access-fixture";
 import { sessionCookieFor } from "../support/app-requests";
@@ -36,6 +37,7 @@ let baseUrl: string;
 let env: NodeJS.ProcessEnv;
 let storage: string;
 let catcher: MailCatcher;
+let s3: Awaited<ReturnType<typeof startFakeS3>>;
 const services: ChildProcess[] = [];
 let output = "";
 
@@ -67,6 +69,8 @@ beforeAll(async () => {
   baseUrl = `http://127.0.0.1:${port}`;
   // A catcher's port for SMTP_URL before it runs: it writes to tables the release step makes.
   const mailPort = await freePort();
+  // Production keeps photos in S3-compatible storage only: here, the local fake.
+  s3 = await startFakeS3({ port: 0, directory: storage, bucket: FAKE_S3_BUCKET });
   env = {
     PATH: process.env.PATH,
     NODE_ENV: "production",
@@ -76,7 +80,7 @@ beforeAll(async () => {
     TRUST_PROXY: "0",
     DATABASE_URL: process.env.DATABASE_URL,
     SMTP_URL: `smtp://127.0.0.1:${mailPort}`,
-    STORAGE_DIR: storage,
+    ...s3.environment,
     // Every test below goes through two web processes behind one port, as a deployment runs them.
     WEB_CONCURRENCY: "2",
   };
@@ -98,6 +102,7 @@ afterAll(async () => {
     await new Promise((resolve) => (child.exitCode !== null || child.signalCode !== null ? resolve(null) : child.once("exit", resolve)));
   }
   await catcher?.close();
+  await s3?.close();
   if (storage) await rm(storage, { recursive: true, force: true });
 });
 
@@ -229,5 +234,36 @@ describe("the production build", () => {
       .from(dropLogVersions)
       .where(eq(dropLogVersions.id, version.id));
     expect(stored).toEqual([{ dropLogId: fixture.dropLogId }]);
+  });
+
+  it("keeps a student's photo in object storage, serves it back, and deletes the object when the draft lets it go", async () => {
+    const fixture = await createAccessFixture("production-photos");
+    const cookie = await sessionCookieFor(fixture.userIds.ownStudent);
+    const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]);
+    const form = new FormData();
+    form.append("photo", new File([png], "set-up.png", { type: "image/png" }));
+    const uploaded = await fetch(`${baseUrl}/courses/${fixture.courseId}/labs/${fixture.labId}/photos`, {
+      method: "POST",
+      headers: { Cookie: cookie, Origin: baseUrl },
+      body: form,
+    });
+    expect(uploaded.status).toBe(200);
+    const [photo] = await db.select().from(dropLogPhotos).where(eq(dropLogPhotos.originalName, "set-up.png"));
+    // In the bucket, under the key the row names; nothing was written to the local disk.
+    const object = await fetch(`${s3.endpoint}/${FAKE_S3_BUCKET}/${photo.storageKey}`);
+    expect(new Uint8Array(await object.arrayBuffer())).toEqual(png);
+
+    const served = await fetch(`${baseUrl}/courses/${fixture.courseId}/photos/${photo.id}`, { headers: { Cookie: cookie } });
+    expect(served.headers.get("content-type")).toBe("image/png");
+    expect(new Uint8Array(await served.arrayBuffer())).toEqual(png);
+
+    const removed = await fetch(`${baseUrl}/courses/${fixture.courseId}/photos/${photo.id}`, {
+      method: "POST",
+      headers: { Cookie: cookie, Origin: baseUrl },
+      body: new URLSearchParams({ intent: "remove" }),
+    });
+    expect(removed.status).toBe(200);
+    expect((await fetch(`${s3.endpoint}/${FAKE_S3_BUCKET}/${photo.storageKey}`)).status).toBe(404);
+    expect(await db.select().from(dropLogPhotos).where(eq(dropLogPhotos.id, photo.id))).toEqual([]);
   });
 });

@@ -5,11 +5,15 @@
  */
 import { spawn } from "node:child_process";
 import { existsSync } from "node:fs";
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import path from "node:path";
 import type { TestProject } from "vitest/node";
 import { createDatabase, createPool } from "~/server/db.server";
 import { startMailCatcher } from "~/server/email/mail-catcher.server";
 import { migrateDatabase } from "~/server/migrate.server";
 import { FAKE_CARRIER_API_KEY, startFakeCarrier } from "~/server/shipping/fake-carrier.server";
+import { FAKE_S3_BUCKET, startFakeS3 } from "~/server/storage/fake-s3.server";
 import { seedDemo } from "../../seeds/seed-demo";
 import { ensureChromium } from "../../scripts/lib/chromium";
 import { freePort, waitForHealth } from "./app-server";
@@ -33,6 +37,8 @@ export default async function setup(project: TestProject): Promise<() => Promise
 
   const catcher = await startMailCatcher({ connectionString: databaseUrl, port: 0, log: () => undefined });
   const carrier = await startFakeCarrier({ port: 0, log: () => undefined });
+  const s3Objects = await mkdtemp(path.join(tmpdir(), "benchpost-browser-s3-"));
+  const s3 = await startFakeS3({ port: 0, directory: s3Objects, bucket: FAKE_S3_BUCKET });
   const port = await freePort();
   const baseUrl = `http://localhost:${port}`;
   // The demo build run as `npm start` runs it, each half with the node binary itself (not npx), so
@@ -49,6 +55,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
     RESEND_API_KEY: "",
     CARRIER_API_URL: carrier.apiUrl,
     CARRIER_API_KEY: FAKE_CARRIER_API_KEY,
+    ...s3.environment,
   };
   const worker = spawn(process.execPath, ["build/worker.js"], { env, stdio: ["ignore", "ignore", "inherit"] });
   const server = spawn(process.execPath, ["build/web.js"], { env, stdio: ["ignore", "ignore", "inherit"] });
@@ -63,6 +70,8 @@ export default async function setup(project: TestProject): Promise<() => Promise
     }
     await catcher.close();
     await carrier.close();
+    await s3.close();
+    await rm(s3Objects, { recursive: true, force: true });
     await dropTestDatabase(databaseUrl);
   };
 }

@@ -34,7 +34,24 @@ export function PhotoUpload({ courseId, labId, draftPhotos }: { courseId: string
         </Button>
       </fetcher.Form>
       {fetcher.data?.error ? <p className="mt-1 text-sm font-medium text-outlier">{fetcher.data.error}</p> : null}
-      <PhotoList courseId={courseId} photos={draftPhotos} />
+      <PhotoList courseId={courseId} photos={draftPhotos} action={(photo) => <RemovePhoto courseId={courseId} photo={photo} />} />
     </section>
+  );
+}
+
+function RemovePhoto({ courseId, photo }: { courseId: string; photo: Pick<PhotoView, "id" | "originalName"> }) {
+  const fetcher = useFetcher();
+  return (
+    <fetcher.Form method="post" action={`/courses/${courseId}/photos/${photo.id}`} className="mt-1">
+      <input type="hidden" name="intent" value="remove" />
+      <button
+        type="submit"
+        disabled={fetcher.state !== "idle"}
+        aria-label={`Remove ${photo.originalName ?? "this photo"} from the draft`}
+        className="text-sm text-ink-700 underline hover:text-ink-900"
+      >
+        {fetcher.state !== "idle" ? "Removing…" : "Remove"}
+      </button>
+    </fetcher.Form>
   );
 }

@@ -3,6 +3,7 @@
  * warnings, the drop times with the stray ones marked, and the photos. The student reads it under
  * their form; staff read it on a hand-in's page and in the marking desk's side panel.
  */
+import type { ReactNode } from "react";
 import { DropTimesChart } from "~/components/comparison/drop-times-chart";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { ReductionResult } from "~/components/drop-logs/reduction-result";
@@ -72,7 +73,16 @@ export function VersionHistory({
   );
 }
 
-export function PhotoList({ courseId, photos }: { courseId: string; photos: Pick<PhotoView, "id" | "originalName">[] }) {
+export function PhotoList({
+  courseId,
+  photos,
+  action,
+}: {
+  courseId: string;
+  photos: Pick<PhotoView, "id" | "originalName">[];
+  /** Shown under each photo, e.g. the draft's Remove button. */
+  action?: (photo: Pick<PhotoView, "id" | "originalName">) => ReactNode;
+}) {
   if (!photos.length) return null;
   return (
     <ul className="mt-2 flex flex-wrap gap-2">
@@ -86,6 +96,7 @@ export function PhotoList({ courseId, photos }: { courseId: string; photos: Pick
               loading="lazy"
             />
           </a>
+          {action?.(photo)}
         </li>
       ))}
     </ul>

@@ -1,11 +1,13 @@
 /**
  * Photos of a student's set-up: checked by their content (not their name or the browser's word),
- * kept in a folder outside the web root, and listed in drop_log_photos. They hang on the drop log's
+ * kept in S3-compatible object storage (S3_BUCKET; the local disk outside the web root serves
+ * development only), and listed in drop_log_photos. They hang on the drop log's
  * draft until a hand-in attaches them to the version it creates.
  */
 import { AppError } from "~/lib/app-error";
 import { randomUUID } from "node:crypto";
 import path from "node:path";
+import type { FileStorage } from "@remix-run/file-storage";
 import { createFsFileStorage } from "@remix-run/file-storage/fs";
 import {
   MaxFileSizeExceededError,
@@ -14,7 +16,7 @@ import {
   parseFormData,
   type FileUpload,
 } from "@remix-run/form-data-parser";
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
 import { courseMemberships, dropLogPhotos, dropLogs, labs } from "~/db/schema";
 import {
   MAX_PHOTO_BYTES,
@@ -29,15 +31,25 @@ import { consume } from "~/server/auth/rate-limit.server";
 import type { Database, Executor } from "~/server/db.server";
 import { ensureDropLog, refuseWhenClosed, type StudentLab } from "./hand-in.server";
 import { environment } from "~/server/env.server";
+import { logger } from "~/server/log.server";
+import { createS3Client, createS3FileStorage } from "~/server/storage/s3-file-storage.server";
 
 export const photoTypes = ["image/jpeg", "image/png", "image/webp"] as const;
 export type PhotoType = (typeof photoTypes)[number];
 
-const uploadCodes = { 400: "unreadable_upload", 409: "photo_limit", 413: "too_large", 415: "not_a_photo", 429: "rate_limited" } as const;
+const uploadCodes = {
+  400: "unreadable_upload",
+  409: "photo_limit",
+  413: "too_large",
+  415: "not_a_photo",
+  429: "rate_limited",
+  503: "storage_unavailable",
+} as const;
 
 /**
  * A refused upload, with the HTTP status that names why: 413 too large, 415 not a photo, 400 malformed,
- * 409 the drop log or the student's space is full, 429 too many uploads (with the wait).
+ * 409 the drop log or the student's space is full, 429 too many uploads (with the wait), 503 the photo
+ * store did not take the file.
  */
 function uploadRefusal(status: keyof typeof uploadCodes, message: string, retryAfterSeconds?: number): AppError {
   return new AppError({ code: uploadCodes[status], status, message, retryAfterSeconds });
@@ -48,16 +60,28 @@ export function storageDirectory(): string {
   return path.resolve(environment().STORAGE_DIR ?? path.join(process.cwd(), "storage"), "photos");
 }
 
-let storage: ReturnType<typeof createFsFileStorage> | undefined;
-let storageRoot: string | undefined;
-function photoStorage() {
-  const root = storageDirectory();
-  // Re-created when the directory changes (tests point STORAGE_DIR at a folder of their own).
-  if (!storage || storageRoot !== root) {
-    storage = createFsFileStorage(root);
-    storageRoot = root;
+let storage: { settings: string; store: FileStorage } | undefined;
+/** The configured store, made once per setting (tests point STORAGE_DIR or S3_* at stores of their own). */
+function photoStorage(): FileStorage {
+  const env = environment();
+  const settings = env.S3_BUCKET ? `s3 ${env.S3_ENDPOINT} ${env.S3_BUCKET}` : `fs ${storageDirectory()}`;
+  if (storage?.settings !== settings) {
+    const store = env.S3_BUCKET
+      ? createS3FileStorage(
+          createS3Client({
+            region: env.S3_REGION,
+            endpoint: env.S3_ENDPOINT,
+            credentials:
+              env.S3_ACCESS_KEY_ID && env.S3_SECRET_ACCESS_KEY
+                ? { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY }
+                : undefined,
+          }),
+          env.S3_BUCKET,
+        )
+      : createFsFileStorage(storageDirectory());
+    storage = { settings, store };
   }
-  return storage;
+  return storage.store;
 }
 
 /** The type a file's first bytes announce (JPEG SOI marker, PNG signature, RIFF…WEBP), or null. */
@@ -163,7 +187,12 @@ async function receivePhotos(request: Request, keyPrefix: string): Promise<Store
       return null;
     }
     const storageKey = `${keyPrefix}/${randomUUID()}`;
-    await storePhoto(storageKey, file);
+    try {
+      await storePhoto(storageKey, file);
+    } catch (error) {
+      logger.error({ err: error, storageKey }, "The photo store refused a photo");
+      throw uploadRefusal(503, "Photos cannot be stored just now; nothing was kept. Try again in a few minutes.", 60);
+    }
     stored.push({ storageKey, contentType: sniffed, bytes: file.size, originalName: file.name ? file.name.slice(0, 200) : null });
     return null;
   };
@@ -176,6 +205,7 @@ async function receivePhotos(request: Request, keyPrefix: string): Promise<Store
     );
   } catch (error) {
     await removeStored(stored);
+    if (error instanceof AppError) throw error;
     if (error instanceof MaxFileSizeExceededError || error instanceof MaxTotalSizeExceededError) {
       throw uploadRefusal(
         413,
@@ -225,6 +255,34 @@ export async function findPhoto(executor: Executor, courseId: string, photoId: s
     .innerJoin(courseMemberships, eq(courseMemberships.id, dropLogs.membershipId))
     .where(and(eq(dropLogPhotos.id, photoId), eq(labs.courseId, courseId)));
   return photo ?? null;
+}
+
+/**
+ * Removes a photo from the student's own draft (never one a hand-in has attached to its version): the
+ * row first, then the stored object. An object the store fails to delete is logged and left, unseen:
+ * the photo is gone from the draft either way. False when the student has no such draft photo.
+ */
+export async function removeDraftPhoto(database: Database, access: CourseAccess, photoId: string): Promise<boolean> {
+  const [removed] = await database
+    .delete(dropLogPhotos)
+    .where(
+      and(
+        eq(dropLogPhotos.id, photoId),
+        isNull(dropLogPhotos.versionId),
+        inArray(
+          dropLogPhotos.dropLogId,
+          database.select({ id: dropLogs.id }).from(dropLogs).where(eq(dropLogs.membershipId, access.membership.id)),
+        ),
+      ),
+    )
+    .returning({ storageKey: dropLogPhotos.storageKey });
+  if (!removed) return false;
+  try {
+    await photoStorage().remove(removed.storageKey);
+  } catch (error) {
+    logger.error({ err: error, storageKey: removed.storageKey }, "A removed photo's object could not be deleted");
+  }
+  return true;
 }
 
 export async function storePhoto(storageKey: string, file: File) {
