@@ -18,7 +18,9 @@ export async function seedLastTerm(db: Database, { courseId, instructorId }: { c
       .insert(courses)
       .values({ ...demoCourse, term: lastTerm, kitReturnBy: null, archivedAt: new Date(), archivedById: instructorId })
       .returning();
-    await tx.execute(sql`insert into cohorts (course_id, name) select ${course.id}::uuid, name from cohorts where course_id = ${courseId}`);
+    await tx.execute(
+      sql`insert into cohorts (course_id, name, position) select ${course.id}::uuid, name, position from cohorts where course_id = ${courseId}`,
+    );
     await tx.insert(courseMemberships).values({ courseId: course.id, userId: instructorId, role: "instructor" });
     // Moved by calendar days in the course's zone, as a carry-over moves them, so 23:59 stays 23:59.
     const earlier = (column: string) =>
