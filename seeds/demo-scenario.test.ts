@@ -1,8 +1,16 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
-import { buildDemoScenario, demoCohortNames } from "./demo-scenario";
+import { buildDemoScenario, demoCohortNames, termOf } from "./demo-scenario";
 
 describe("demo scenario", () => {
+  it("names the term after the month its labs are held in, in the course's zone", () => {
+    expect(termOf(new Date("2026-11-18T09:00:00Z"), "Europe/Dublin")).toBe("2026 Autumn");
+    expect(termOf(new Date("2026-05-20T09:00:00Z"), "Europe/Dublin")).toBe("2026 Spring");
+    expect(termOf(new Date("2026-07-01T09:00:00Z"), "Europe/Dublin")).toBe("2026 Summer");
+    // 31 July, 23:30 UTC is already 1 August in Dublin.
+    expect(termOf(new Date("2026-07-31T23:30:00Z"), "Europe/Dublin")).toBe("2026 Autumn");
+  });
+
   it("is the same on every run (one seeded generator)", () => {
     expect(buildDemoScenario()).toEqual(buildDemoScenario());
     expect(buildDemoScenario(1)).not.toEqual(buildDemoScenario());

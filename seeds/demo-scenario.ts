@@ -8,11 +8,30 @@ import { Faker, en } from "@faker-js/faker";
 export const DEMO_PASSWORD = "settle-slowly-42";
 export const DEMO_DOMAIN = "harrowgate.example";
 
+const DAY_MS = 86_400_000;
+/** The demo's first lab opens this many days before the seeding (seeds/seed-labs.ts); the term is named after it. */
+export const DEMO_TERM_OPENED_DAYS_AGO = 16;
+
+/**
+ * The term a day falls in, as the demo institute names its terms: Spring from January to May, Summer
+ * in June and July, Autumn from August to December.
+ */
+export function termOf(day: Date, timeZone: string): string {
+  const [year, month] = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "numeric" })
+    .formatToParts(day)
+    .filter((part) => part.type !== "literal")
+    .map((part) => Number(part.value));
+  return `${year} ${month <= 5 ? "Spring" : month <= 7 ? "Summer" : "Autumn"}`;
+}
+
+const demoTimeZone = "Europe/Dublin";
+
+/** The demo's dates follow the day it is seeded, so its term label does too (labs in November read "Autumn"). */
 export const demoCourse = {
   title: "Fluid Mechanics at Home",
   code: "HIT-FM210",
-  term: "2027 Spring",
-  timeZone: "Europe/Dublin",
+  term: termOf(new Date(Date.now() - DEMO_TERM_OPENED_DAYS_AGO * DAY_MS), demoTimeZone),
+  timeZone: demoTimeZone,
   localGravity: null,
 } as const;
 

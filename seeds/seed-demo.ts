@@ -39,7 +39,7 @@ export async function seedDemo(db: Database): Promise<"seeded" | "already there"
     const [course] = await tx.insert(courses).values(demoCourse).returning();
     const cohortRows = await tx
       .insert(cohorts)
-      .values(demoCohortNames.map((name) => ({ courseId: course.id, name })))
+      .values(demoCohortNames.map((name, position) => ({ courseId: course.id, name, position })))
       .returning();
     const cohortIdAt = (index: number) => cohortRows.find((row) => row.name === demoCohortNames[index])!.id;
 

@@ -8,6 +8,8 @@ import type { Faker } from "@faker-js/faker";
 import { kitEvents, kitParts, kits, partEvents, parts } from "~/db/schema";
 import type { KitState } from "~/lib/kits/kit-states";
 import type { Transaction } from "~/server/db.server";
+import { calendarDayIn } from "~/lib/format-date";
+import { demoCourse } from "./demo-scenario";
 
 const KIT_COUNT = 48;
 
@@ -45,6 +47,12 @@ const pathTo: Record<KitState, KitState[]> = {
 
 /** Demo history is dated back from the day the demo is seeded, so "shipped last week" stays true. */
 const daysAgo = (days: number, minutes = 0) => new Date(Date.now() - days * 86_400_000 + minutes * 60_000);
+
+// Every kit's history starts three weeks ago with one step every three days: on shelf, packed, in transit, …
+const historyStartDaysAgo = 21;
+const daysPerStep = 3;
+/** The day a kit was sent is the day it moved to in transit (the third step); the Thursday shipment uses it too. */
+export const KIT_SENT_DAYS_AGO = historyStartDaysAgo - 2 * daysPerStep;
 
 export async function seedKits(
   tx: Transaction,
@@ -121,6 +129,20 @@ export async function seedKits(
   await tx.insert(partEvents).values(inserted.map((part) => ({ partId: part.id, actorId: instructorId, action: "created" })));
   const idOf = new Map(inserted.map((part) => [part.label, part.id]));
 
+  // Each kit's moves, dated first so that its "sent" day is the day of its move to in transit.
+  let minute = 0;
+  const histories = journey.map((state) =>
+    (["on_shelf", ...pathTo[state]] as KitState[]).map((toState, step) => ({
+      toState,
+      // The latest no later than yesterday, a few minutes apart so the timeline has an order.
+      at: daysAgo(historyStartDaysAgo - step * daysPerStep, (minute++ % 50) + 5),
+    })),
+  );
+  const sentOn = (index: number) => {
+    const sent = histories[index].find((move) => move.toState === "in_transit");
+    return sent ? calendarDayIn(sent.at, demoCourse.timeZone) : null;
+  };
+
   const kitRows = await tx
     .insert(kits)
     .values(
@@ -134,7 +156,7 @@ export async function seedKits(
           holderMembershipId: holding ? studentMembershipIds[index] : null,
           carrier: shipped ? "Parcelwise" : null,
           trackingNumber: shipped ? `PW${faker.string.numeric(10)}` : null,
-          shippedOn: shipped ? daysAgo(14).toISOString().slice(0, 10) : null,
+          shippedOn: shipped ? sentOn(index) : null,
         };
       }),
     )
@@ -155,20 +177,17 @@ export async function seedKits(
     ]),
   );
 
-  let minute = 0;
   await tx.insert(kitEvents).values(
-    kitRows.flatMap((kit, index) => {
-      const steps: KitState[] = ["on_shelf", ...pathTo[journey[index]]];
-      return steps.map((toState, step) => ({
+    kitRows.flatMap((kit, index) =>
+      histories[index].map((move, step) => ({
         kitId: kit.id,
         actorId: instructorId,
-        fromState: step === 0 ? null : steps[step - 1],
-        toState,
+        fromState: step === 0 ? null : histories[index][step - 1].toState,
+        toState: move.toState,
         action: step === 0 ? "created" : "moved",
         detail: { holderMembershipId: kit.holderMembershipId },
-        // Made up three weeks ago, one step every few days, the latest no later than yesterday.
-        createdAt: daysAgo(21 - step * 3, (minute++ % 50) + 5),
-      }));
-    }),
+        createdAt: move.at,
+      })),
+    ),
   );
 }

@@ -18,6 +18,7 @@ import type { Database } from "~/server/db.server";
 import { handInDropLog } from "~/server/drop-logs/hand-in.server";
 import { scheduleLabReminders } from "~/server/labs/lab-reminders.server";
 import { settlingVelocity, stopwatch, thermometerReading } from "./demo-physics";
+import { DEMO_TERM_OPENED_DAYS_AGO } from "./demo-scenario";
 
 const DAY_MS = 86_400_000;
 const resolutions = { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 };
@@ -44,7 +45,7 @@ export async function seedLabs(db: Database, faker: Faker, { courseId }: { cours
         kind: "drag" as const,
         status: "published" as const,
         instructions: "Drop the 3 mm steel sphere ten times through the glycerol–water column and time it between the bands.",
-        opensAt: new Date(now - 16 * DAY_MS),
+        opensAt: new Date(now - DEMO_TERM_OPENED_DAYS_AGO * DAY_MS),
         dueAt: new Date(now - 2 * DAY_MS),
         lateCutoffAt: new Date(now + 5 * DAY_MS),
         // Any sphere and column of the kit; the glycerol lot only.

@@ -7,10 +7,11 @@
 import { eq, sql } from "drizzle-orm";
 import { courseMemberships, courses } from "~/db/schema";
 import type { Database } from "~/server/db.server";
-import { demoCourse } from "./demo-scenario";
+import { DEMO_TERM_OPENED_DAYS_AGO, demoCourse, termOf } from "./demo-scenario";
 
-export const lastTerm = "2026 Autumn";
 const weeksEarlier = 26;
+/** Named, like the demo's own term, after the day its first lab opened. */
+export const lastTerm = termOf(new Date(Date.now() - (DEMO_TERM_OPENED_DAYS_AGO + weeksEarlier * 7) * 86_400_000), demoCourse.timeZone);
 
 export async function seedLastTerm(db: Database, { courseId, instructorId }: { courseId: string; instructorId: string }): Promise<void> {
   await db.transaction(async (tx) => {
@@ -18,7 +19,9 @@ export async function seedLastTerm(db: Database, { courseId, instructorId }: { c
       .insert(courses)
       .values({ ...demoCourse, term: lastTerm, kitReturnBy: null, archivedAt: new Date(), archivedById: instructorId })
       .returning();
-    await tx.execute(sql`insert into cohorts (course_id, name) select ${course.id}::uuid, name from cohorts where course_id = ${courseId}`);
+    await tx.execute(
+      sql`insert into cohorts (course_id, name, position) select ${course.id}::uuid, name, position from cohorts where course_id = ${courseId}`,
+    );
     await tx.insert(courseMemberships).values({ courseId: course.id, userId: instructorId, role: "instructor" });
     // Moved by calendar days in the course's zone, as a carry-over moves them, so 23:59 stays 23:59.
     const earlier = (column: string) =>

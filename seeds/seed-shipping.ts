@@ -27,6 +27,7 @@ import type { Database } from "~/server/db.server";
 import { createEasyPostCarrier, kitParcel, type Carrier } from "~/server/shipping/carrier.server";
 import { FAKE_CARRIER_API_KEY, startFakeCarrier } from "~/server/shipping/fake-carrier.server";
 import { demoCohortNames } from "./demo-scenario";
+import { KIT_SENT_DAYS_AGO } from "./seed-kits";
 
 const DAY_MS = 86_400_000;
 const daysAgo = (days: number) => new Date(Date.now() - days * DAY_MS);
@@ -138,7 +139,8 @@ async function shipCohort(
   buy: BuyDemoLabel,
   input: { courseId: string; instructorId: string; kits: { kitId: string | null; membershipId: string }[] },
 ) {
-  const shippedAt = daysAgo(12);
+  // Labels bought the day the kits were sent, that is the day they moved to in transit (seeds/seed-kits.ts).
+  const shippedAt = daysAgo(KIT_SENT_DAYS_AGO);
   const [shipment] = await db
     .insert(shipments)
     .values({
@@ -156,10 +158,8 @@ async function shipCohort(
   const membershipOfKit = new Map(input.kits.map((kit) => [kit.kitId!, kit.membershipId]));
   for (const item of items) {
     const label = await buy({ item, membershipId: membershipOfKit.get(item.kitId)!, at: shippedAt });
-    await db
-      .update(kits)
-      .set({ carrier: label.carrier, trackingNumber: label.trackingNumber, shippedOn: dayOf(shippedAt) })
-      .where(eq(kits.id, item.kitId));
+    // The kit's "sent" day stays the one its history gives.
+    await db.update(kits).set({ carrier: label.carrier, trackingNumber: label.trackingNumber }).where(eq(kits.id, item.kitId));
   }
 }
 

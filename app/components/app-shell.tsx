@@ -1,6 +1,6 @@
 import { roleWords } from "~/lib/courses/roles";
 import type { ReactNode } from "react";
-import { Link, NavLink } from "react-router";
+import { Form, Link, NavLink } from "react-router";
 import { BenchpostMark } from "./benchpost-mark";
 
 export type ViewerRole = "instructor" | "ta" | "student";
@@ -55,6 +55,11 @@ export function AppShell({ viewer, children }: { viewer: ShellViewer | null; chi
                     <ShellLink item={item} />
                   </li>
                 ))}
+                {viewer ? (
+                  <li className="mt-1 border-t border-paper-50/20 pt-1">
+                    <SignOutButton />
+                  </li>
+                ) : null}
               </ul>
             </details>
             <ul className="hidden items-center gap-1 sm:flex">
@@ -63,6 +68,11 @@ export function AppShell({ viewer, children }: { viewer: ShellViewer | null; chi
                   <ShellLink item={item} />
                 </li>
               ))}
+              {viewer ? (
+                <li>
+                  <SignOutButton />
+                </li>
+              ) : null}
             </ul>
           </nav>
           {viewer ? (
@@ -80,6 +90,22 @@ export function AppShell({ viewer, children }: { viewer: ShellViewer | null; chi
         Benchpost — lab courses done at home, with kits sent by post.
       </footer>
     </div>
+  );
+}
+
+/** Ends this device's session (a POST, as every change is); "everywhere" stays on the sign-out and account pages. */
+function SignOutButton() {
+  return (
+    <Form method="post" action="/sign-out">
+      <button
+        type="submit"
+        name="intent"
+        value="this-device"
+        className="block w-full rounded px-3 py-1.5 text-left text-sm text-paper-50 ring-1 ring-paper-50/30 hover:bg-ink-700"
+      >
+        Sign out
+      </button>
+    </Form>
   );
 }
 

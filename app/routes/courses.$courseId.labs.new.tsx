@@ -24,10 +24,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     courseId: access.course.id,
     timeZone: access.course.timeZone,
     ...options,
-    values: newLabFormValues(
-      kind,
-      options.cohorts.map((cohort) => cohort.id),
-    ),
+    values: newLabFormValues(kind),
   };
 }
 

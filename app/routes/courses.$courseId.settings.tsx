@@ -9,6 +9,7 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { cohortName, courseInput } from "~/lib/courses/course-input";
 import { formatDateTime } from "~/lib/format-date";
+import { counted } from "~/lib/plural";
 import { reminderDaysText, returnSettingsInput, type ReturnSettingsForm } from "~/lib/courses/return-settings-input";
 import { formList, parseSubmission, replyFor } from "~/lib/forms/submission";
 import { requireCourseRole } from "~/server/auth/access.server";
@@ -16,6 +17,7 @@ import { archiveCourse, restoreCourse } from "~/server/courses/archive.server";
 import {
   addCohort,
   getCourseWithCohorts,
+  moveCohort,
   renameCohort,
   setTaCohorts,
   updateCourse,
@@ -31,6 +33,7 @@ const settingsIntent = z.discriminatedUnion("intent", [
   returnsIntent,
   z.object({ intent: z.literal("add-cohort"), name: cohortName }),
   z.object({ intent: z.literal("rename-cohort"), cohortId: z.uuid(), name: cohortName }),
+  z.object({ intent: z.literal("move-cohort"), cohortId: z.uuid(), direction: z.enum(["up", "down"]) }),
   z.object({ intent: z.literal("ta-cohorts"), membershipId: z.uuid(), cohortIds: formList(z.uuid()) }),
   z.object({ intent: z.literal("archive"), confirm: z.literal("on", { error: "Tick the box to confirm that the course is finished." }) }),
   z.object({ intent: z.literal("restore") }),
@@ -60,6 +63,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
     await updateReturnSettings(db, { courseId, actorId, input: returns });
   } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
   else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
+  else if (input.intent === "move-cohort") await moveCohort(db, { courseId, cohortId: input.cohortId, direction: input.direction });
   else if (input.intent === "archive") await archiveCourse(db, { courseId, actorId, request });
   else if (input.intent === "restore") await restoreCourse(db, { courseId, actorId, request });
   else await setTaCohorts(db, { courseId, actorId, membershipId: input.membershipId, cohortIds: input.cohortIds });
@@ -98,7 +102,8 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
     onValidate: ({ formData }) => parseSubmission(formData, returnsIntent),
   });
   const address = returnsFields.returnAddress.getFieldset();
-  const [addForm, addFields] = useForm({ id: "add-cohort", lastResult: replyFor(actionData, "add-cohort") });
+  // A fresh form after each cohort added (a new id, so a new state and new element): the field is empty for the next name.
+  const [addForm, addFields] = useForm({ id: `add-cohort-${cohorts.length}`, lastResult: replyFor(actionData, "add-cohort") });
   const renameErrors = replyFor(actionData, "rename-cohort")?.error;
   const [archiveForm, archiveFields] = useForm({ id: "archive", lastResult: replyFor(actionData, "archive") });
   const header = (
@@ -198,23 +203,39 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
           Cohorts
         </h2>
         {renameErrors ? <Notice tone="error">{Object.values(renameErrors).flat().join(" ")}</Notice> : null}
+        <p className="mb-3 text-sm text-ink-700">Every list of cohorts in the course follows this order.</p>
         <ul className="flex flex-col gap-2">
-          {cohorts.map((cohort) => (
-            <li key={cohort.id}>
-              <Form method="post" className="flex items-end gap-2">
+          {cohorts.map((cohort, index) => (
+            <li key={cohort.id} className="flex flex-wrap items-end gap-2">
+              <Form method="post" className="flex min-w-0 flex-1 items-end gap-2">
                 <input type="hidden" name="intent" value="rename-cohort" />
                 <input type="hidden" name="cohortId" value={cohort.id} />
-                <div className="flex-1">
-                  <TextField label={`Cohort (${cohort.students} students)`} name="name" defaultValue={cohort.name} required />
+                <div className="min-w-0 flex-1">
+                  <TextField
+                    label={`Cohort (${counted(cohort.students, "student", "students")})`}
+                    name="name"
+                    defaultValue={cohort.name}
+                    required
+                  />
                 </div>
                 <Button type="submit" variant="secondary">
                   Rename
                 </Button>
               </Form>
+              <Form method="post" className="flex gap-1">
+                <input type="hidden" name="intent" value="move-cohort" />
+                <input type="hidden" name="cohortId" value={cohort.id} />
+                <Button type="submit" variant="secondary" name="direction" value="up" disabled={index === 0}>
+                  Earlier<span className="sr-only"> in the order: {cohort.name}</span>
+                </Button>
+                <Button type="submit" variant="secondary" name="direction" value="down" disabled={index === cohorts.length - 1}>
+                  Later<span className="sr-only"> in the order: {cohort.name}</span>
+                </Button>
+              </Form>
             </li>
           ))}
         </ul>
-        <Form method="post" className="mt-4 flex items-end gap-2" {...getFormProps(addForm)}>
+        <Form key={addForm.id} method="post" className="mt-4 flex items-end gap-2" {...getFormProps(addForm)}>
           <input type="hidden" name="intent" value="add-cohort" />
           <div className="flex-1">
             <TextField label="New cohort" field={addFields.name} placeholder="e.g. Friday bench" required />

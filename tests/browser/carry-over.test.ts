@@ -6,6 +6,7 @@
 import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD, DEMO_DOMAIN } from "../../seeds/demo-scenario";
+import { lastTerm } from "../../seeds/seed-last-term";
 import { axeViolations, openBrowser, seriousOrCritical, signInWithPassword, type BrowserSession } from "../support/browser";
 
 describe("starting next term from an archived course", () => {
@@ -23,7 +24,7 @@ describe("starting next term from an archived course", () => {
     await signInWithPassword(page, baseUrl, `instructor@${DEMO_DOMAIN}`, DEMO_PASSWORD);
     await page.goto(baseUrl);
     await page.getByText(/^Archived courses/).click();
-    await page.getByRole("link", { name: /2026 Autumn/ }).click();
+    await page.getByRole("link", { name: new RegExp(lastTerm) }).click();
     await page.getByText("This course is archived and read-only").waitFor();
 
     await page.getByRole("link", { name: "Settings" }).click();

@@ -53,7 +53,7 @@ const instructor = () => staffAccess("instructor", [fixture.cohortId, fixture.ot
 
 /** The form as an instructor fills it, with the new-lab defaults. */
 function rawForm(overrides: Record<string, unknown>): Record<string, unknown> {
-  return { ...newLabFormValues("drag", []), title: "Settling in glycerol", ...overrides };
+  return { ...newLabFormValues("drag"), title: "Settling in glycerol", ...overrides };
 }
 const labForm = (overrides: Record<string, unknown>, timeZone = "UTC"): LabInput => labInputFor(timeZone).parse(rawForm(overrides));
 

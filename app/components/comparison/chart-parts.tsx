@@ -3,14 +3,39 @@
  * from d3-scale ticks, and a marker that shows a hand-in's label by shape and colour (so the plots
  * still read in grey print and for people who do not tell the colours apart).
  */
-import type { ReactNode } from "react";
+import type { ReactNode, RefObject } from "react";
+import { useMeasuredWidth } from "~/components/ui/use-measured-width";
 import type { ClassComparisonLabel } from "~/lib/reduction";
 
-export const chartSize = { width: 640, height: 380, margin: { top: 16, right: 20, bottom: 44, left: 68 } };
-export const plotLeft = chartSize.margin.left;
-export const plotRight = chartSize.width - chartSize.margin.right;
-export const plotTop = chartSize.margin.top;
-export const plotBottom = chartSize.height - chartSize.margin.bottom;
+/** The plot area inside an SVG drawn at its rendered width (one unit is one CSS pixel). */
+export type ChartLayout = {
+  width: number;
+  height: number;
+  left: number;
+  right: number;
+  top: number;
+  bottom: number;
+  /** A phone-wide plot: fewer ticks, a shorter plot. */
+  narrow: boolean;
+};
+
+/** The width drawn on the server and before the page's script measures the figure (and without script). */
+const defaultWidth = 640;
+/** Every label in the plots, in CSS pixels: the SVG is not scaled, so this is what the reader sees. */
+export const chartFontSize = 12;
+
+export function chartLayout(width: number = defaultWidth): ChartLayout {
+  const narrow = width < 520;
+  const height = narrow ? 320 : 380;
+  const margin = narrow ? { top: 16, right: 12, bottom: 44, left: 58 } : { top: 16, right: 20, bottom: 44, left: 68 };
+  return { width, height, left: margin.left, right: width - margin.right, top: margin.top, bottom: height - margin.bottom, narrow };
+}
+
+/** A plot's layout at its figure's current width (at most max-w-3xl), and the ref that goes on the figure. */
+export function useChartLayout() {
+  const { ref, width } = useMeasuredWidth<HTMLElement>(defaultWidth);
+  return { ref, layout: chartLayout(width) };
+}
 
 export const labelWords: Record<ClassComparisonLabel, string> = { consistent: "consistent", suspect: "suspect", outlier: "outlier" };
 
@@ -26,10 +51,10 @@ export function LabelMarker({ label, x, y, size = 5 }: { label: ClassComparisonL
   return <rect x={x - size} y={y - size} width={size * 2} height={size * 2} {...common} />;
 }
 
-/** The legend of the three labels, top right inside the plot. */
-export function LabelLegend({ x = plotRight - 110, y = plotTop + 8 }: { x?: number; y?: number }) {
+/** The legend of the three labels, top right inside the plot unless placed. */
+export function LabelLegend({ layout, x = layout.right - 110, y = layout.top + 8 }: { layout: ChartLayout; x?: number; y?: number }) {
   return (
-    <g fontSize="11" fill="currentColor">
+    <g fontSize={chartFontSize} fill="currentColor">
       {(["consistent", "suspect", "outlier"] as const).map((label, index) => (
         <g key={label}>
           <LabelMarker label={label} x={x + 6} y={y + index * 16 + 4} size={4} />
@@ -47,15 +72,28 @@ type Scale = ((value: number) => number) & {
   tickFormat(count?: number, specifier?: string): (value: number) => string;
 };
 
+const tickNumber = new Intl.NumberFormat("en", { maximumSignificantDigits: 6 });
+
+/**
+ * A tick's label in plain decimals (10, not "1e+1"). The scale's own format still decides which ticks
+ * get a label: on a log axis it leaves out the ones that would crowd (it returns "" for them).
+ */
+function tickLabeller(scale: Scale, count: number): (value: number) => string {
+  const shown = scale.tickFormat(count);
+  return (value) => (shown(value) === "" ? "" : tickNumber.format(value));
+}
+
 /** Grid lines and labelled ticks for both axes, with the axis titles. Log scales label only 1, 2, 5 × 10ⁿ. */
 export function Axes({
+  layout,
   x,
   y,
   xTitle,
   yTitle,
-  xTicks = 8,
-  yTicks = 6,
+  xTicks = layout.narrow ? 4 : 8,
+  yTicks = layout.narrow ? 5 : 6,
 }: {
+  layout: ChartLayout;
   x: Scale;
   y: Scale;
   xTitle: string;
@@ -63,10 +101,11 @@ export function Axes({
   xTicks?: number;
   yTicks?: number;
 }) {
-  const xLabel = x.tickFormat(xTicks, "~g");
-  const yLabel = y.tickFormat(yTicks, "~g");
+  const { left: plotLeft, right: plotRight, top: plotTop, bottom: plotBottom } = layout;
+  const xLabel = tickLabeller(x, xTicks);
+  const yLabel = tickLabeller(y, yTicks);
   return (
-    <g className="text-ink-600" fontSize="11" fill="currentColor">
+    <g className="text-ink-600" fontSize={chartFontSize} fill="currentColor">
       {y.ticks(yTicks).map((tick) => (
         <g key={`y${tick}`}>
           <line x1={plotLeft} x2={plotRight} y1={y(tick)} y2={y(tick)} stroke="currentColor" strokeOpacity="0.12" />
@@ -96,7 +135,7 @@ export function Axes({
         stroke="currentColor"
         strokeOpacity="0.4"
       />
-      <text x={(plotLeft + plotRight) / 2} y={chartSize.height - 6} textAnchor="middle">
+      <text x={(plotLeft + plotRight) / 2} y={layout.height - 6} textAnchor="middle">
         {xTitle}
       </text>
       <text transform={`translate(16 ${(plotTop + plotBottom) / 2}) rotate(-90)`} textAnchor="middle">
@@ -123,6 +162,8 @@ export const chartTableClass = "text-sm [&_td]:pr-4 [&_th]:pr-4 [&_th]:text-left
  */
 export function ChartFigure({
   id,
+  layout,
+  figureRef,
   title,
   description,
   caption,
@@ -131,6 +172,8 @@ export function ChartFigure({
   children,
 }: {
   id: string;
+  layout: ChartLayout;
+  figureRef: RefObject<HTMLElement | null>;
   title: string;
   description: string;
   caption: ReactNode;
@@ -140,10 +183,10 @@ export function ChartFigure({
   children: ReactNode;
 }) {
   return (
-    <figure className="flex flex-col gap-2" aria-labelledby={`${id}-caption`}>
+    <figure ref={figureRef} className="flex w-full max-w-3xl flex-col gap-2" aria-labelledby={`${id}-caption`}>
       <svg
-        viewBox={`0 0 ${chartSize.width} ${chartSize.height}`}
-        className="h-auto w-full max-w-3xl text-ink-900"
+        viewBox={`0 0 ${layout.width} ${layout.height}`}
+        className="h-auto w-full text-ink-900"
         role={linked ? "group" : "img"}
         aria-labelledby={`${id}-title ${id}-desc`}
       >
@@ -151,10 +194,10 @@ export function ChartFigure({
         <desc id={`${id}-desc`}>{description}</desc>
         {children}
       </svg>
-      <figcaption id={`${id}-caption`} className="max-w-3xl text-sm text-ink-700">
+      <figcaption id={`${id}-caption`} className="text-sm text-ink-700">
         {caption}
       </figcaption>
-      <details className="max-w-3xl text-sm">
+      <details className="text-sm">
         <summary className="no-print cursor-pointer text-ink-700 underline underline-offset-2">The numbers behind this plot</summary>
         <div className="mt-2 overflow-x-auto">{table}</div>
       </details>

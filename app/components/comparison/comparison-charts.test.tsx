@@ -89,6 +89,15 @@ describe("comparison plots", () => {
     expect(count(strip, /data-limit="outer fence"/g)).toBe(2);
   });
 
+  it("labels log-axis ticks in plain decimals (10, not 1e+1)", () => {
+    const span = [point(1, { id: "a", reynolds: 0.05, dragCoefficient: 500 }), point(2, { id: "b", reynolds: 40, dragCoefficient: 2 })];
+    const markup = renderToStaticMarkup(<DragCurveChart points={span} title="Drag" />);
+    const tickLabels = [...markup.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((match) => match[1]);
+    expect(tickLabels).toContain("10");
+    expect(tickLabels).toContain("0.1");
+    expect(tickLabels.filter((label) => /\de[+-]/.test(label))).toEqual([]);
+  });
+
   it("marks a drop log's stray drops", () => {
     const markup = renderToStaticMarkup(<DropTimesChart drops={[7.4, 7.5, 7.45, 9.9, 7.38]} strayDrops={[3]} title="Drops" />);
     expect(count(markup, /data-drop="/g)).toBe(5);

@@ -16,10 +16,8 @@ import {
   LabelMarker,
   labelWords,
   linePath,
-  plotBottom,
-  plotLeft,
-  plotRight,
-  plotTop,
+  useChartLayout,
+  chartFontSize,
 } from "./chart-parts";
 
 export type ComparisonPoint = {
@@ -35,10 +33,11 @@ export type ComparisonPoint = {
   temperatureC: number | null;
 };
 
-const referenceCurves: { model: DragModel; name: string; dash: string }[] = [
-  { model: "stokes", name: "Stokes 24/Re", dash: "" },
-  { model: "oseen", name: "Oseen 24/Re·(1 + 3Re/16)", dash: "6 4" },
-  { model: "schiller-naumann", name: "Schiller–Naumann 24/Re·(1 + 0.15Re^0.687)", dash: "2 3" },
+/** A phone-wide plot names the curves only; the formulas do not fit beside the key. */
+const referenceCurves: { model: DragModel; name: string; formula: string; dash: string }[] = [
+  { model: "stokes", name: "Stokes", formula: "24/Re", dash: "" },
+  { model: "oseen", name: "Oseen", formula: "24/Re·(1 + 3Re/16)", dash: "6 4" },
+  { model: "schiller-naumann", name: "Schiller–Naumann", formula: "24/Re·(1 + 0.15Re^0.687)", dash: "2 3" },
 ];
 
 /** Log-spaced values from low to high, for drawing a curve on a log axis. */
@@ -105,6 +104,8 @@ function PointTable({
 
 /** The drag coefficient against Reynolds number, both log, with the three reference curves. */
 export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; title: string }) {
+  const { ref, layout } = useChartLayout();
+  const { left: plotLeft, right: plotRight, top: plotTop, bottom: plotBottom } = layout;
   const plotted = points.filter((point) => (point.reynolds ?? 0) > 0 && (point.dragCoefficient ?? 0) > 0);
   const [reLow, reHigh] = extent(
     plotted.map((point) => point.reynolds!),
@@ -125,6 +126,8 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
   return (
     <ChartFigure
       linked
+      layout={layout}
+      figureRef={ref}
       id="drag-curve"
       title={title}
       description={`${plotted.length} hand-ins as points, drag coefficient against Reynolds number on logarithmic axes, with the Stokes, Oseen and Schiller–Naumann reference curves. Circles are consistent, triangles suspect, squares outliers.`}
@@ -140,7 +143,7 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
         />
       }
     >
-      <Axes x={x} y={y} xTitle="Reynolds number Re (log)" yTitle="drag coefficient C_D (log)" />
+      <Axes layout={layout} x={x} y={y} xTitle="Reynolds number Re (log)" yTitle="drag coefficient C_D (log)" />
       {referenceCurves.map((curve) => (
         <path
           key={curve.model}
@@ -152,7 +155,7 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
           strokeDasharray={curve.dash}
         />
       ))}
-      <g fontSize="11" fill="currentColor">
+      <g fontSize={chartFontSize} fill="currentColor">
         {referenceCurves.map((curve, index) => (
           <g key={curve.model}>
             <line
@@ -165,12 +168,12 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
               strokeDasharray={curve.dash}
             />
             <text x={plotLeft + 46} y={plotBottom - 52 + index * 16} dy="0.32em">
-              {curve.name}
+              {layout.narrow ? curve.name : `${curve.name} ${curve.formula}`}
             </text>
           </g>
         ))}
       </g>
-      <LabelLegend />
+      <LabelLegend layout={layout} />
       {plotted.map((point) => (
         <PointLink
           key={point.id}
@@ -190,6 +193,8 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
  * label keeps its shape and palette colour inside.
  */
 export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; title: string }) {
+  const { ref, layout } = useChartLayout();
+  const { left: plotLeft, right: plotRight, top: plotTop, bottom: plotBottom } = layout;
   const plotted = points.filter((point) => (point.viscosityPaS ?? 0) > 0 && (point.referenceViscosityPaS ?? 0) > 0);
   const values = plotted.flatMap((point) => [point.viscosityPaS!, point.referenceViscosityPaS!]);
   const [low, high] = extent(values, [0.1, 10]);
@@ -208,6 +213,8 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
   return (
     <ChartFigure
       linked
+      layout={layout}
+      figureRef={ref}
       id="viscometry"
       title={title}
       description={`${plotted.length} hand-ins, measured viscosity against the fluid lot's reference viscosity at the drop temperature, logarithmic axes, with the line where they are equal. A coloured ring gives each drop's temperature from ${formatNumber(tLow, 3)} °C (blue) to ${formatNumber(tHigh, 3)} °C (red).`}
@@ -224,7 +231,13 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
         />
       }
     >
-      <Axes x={x} y={y} xTitle="reference viscosity at the drop temperature (Pa·s, log)" yTitle="measured viscosity (Pa·s, log)" />
+      <Axes
+        layout={layout}
+        x={x}
+        y={y}
+        xTitle="reference viscosity at the drop temperature (Pa·s, log)"
+        yTitle="measured viscosity (Pa·s, log)"
+      />
       <path
         data-curve="identity"
         d={linePath([
@@ -235,7 +248,7 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
         strokeWidth="1.5"
         fill="none"
       />
-      <LabelLegend x={plotLeft + 10} />
+      <LabelLegend layout={layout} x={plotLeft + 10} />
       {plotted.map((point) => (
         <g key={point.id}>
           {point.temperatureC !== null ? (
@@ -265,6 +278,8 @@ const jitter = (index: number) => ((index * 0.618034) % 1) - 0.5;
 
 /** The normalised figures on a log axis, one row, with the Tukey fences or the Grubbs limits drawn. */
 export function FigureStripChart({ points, limits, title }: { points: ComparisonPoint[]; limits: ComparisonLimits; title: string }) {
+  const { ref, layout } = useChartLayout();
+  const { left: plotLeft, right: plotRight, top: plotTop, bottom: plotBottom } = layout;
   const limitValues = limits ? [...limits.inner, ...(limits.outer ?? [])] : [];
   const [low, high] = extent([...points.map((point) => point.figure), ...limitValues, 1], [0.5, 2]);
   const x = scaleLog()
@@ -281,6 +296,8 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
   return (
     <ChartFigure
       linked
+      layout={layout}
+      figureRef={ref}
       id="figure-strip"
       title={title}
       description={`${points.length} normalised figures on a logarithmic axis${limits ? `, with ${limits.note}` : ""}. Circles are consistent, triangles suspect, squares outliers.`}
@@ -295,7 +312,7 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
       }
       table={<PointTable points={points} columns={[{ header: "Figure", value: (point) => formatNumber(point.figure) }]} />}
     >
-      <Axes x={x} y={noTicks} xTitle="normalised figure (log)" yTitle="" />
+      <Axes layout={layout} x={x} y={noTicks} xTitle="normalised figure (log)" yTitle="" />
       {limitLines.map((line) => (
         <g key={`${line.name}${line.value}`} data-limit={line.name}>
           <line
@@ -307,12 +324,20 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
             strokeWidth="1.5"
             strokeDasharray={line.dash}
           />
-          <text x={x(line.value)} y={plotTop + 12} dx="4" fontSize="11" fill="currentColor">
+          {/* Along the bottom, clear of the legend at the top; on the inner side of the line, so it stays on the plot. */}
+          <text
+            x={x(line.value)}
+            y={plotBottom - (line.dash ? 8 : 24)}
+            dx={x(line.value) > (plotLeft + plotRight) / 2 ? -4 : 4}
+            textAnchor={x(line.value) > (plotLeft + plotRight) / 2 ? "end" : "start"}
+            fontSize={chartFontSize}
+            fill="currentColor"
+          >
             {line.name}
           </text>
         </g>
       ))}
-      <LabelLegend />
+      <LabelLegend layout={layout} />
       {points.map((point, index) => (
         <PointLink
           key={point.id}

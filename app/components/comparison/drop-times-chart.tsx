@@ -4,7 +4,7 @@
  */
 import { scaleLinear } from "d3-scale";
 import { formatNumber } from "~/lib/kits/part-display";
-import { Axes, ChartFigure, chartTableClass, LabelMarker, plotBottom, plotLeft, plotRight, plotTop } from "./chart-parts";
+import { Axes, ChartFigure, chartTableClass, LabelMarker, useChartLayout } from "./chart-parts";
 
 export function DropTimesChart({
   drops,
@@ -17,6 +17,8 @@ export function DropTimesChart({
   title: string;
   id?: string;
 }) {
+  const { ref, layout } = useChartLayout();
+  const { left: plotLeft, right: plotRight, top: plotTop, bottom: plotBottom } = layout;
   const stray = new Set(strayDrops);
   const mean = drops.reduce((sum, time) => sum + time, 0) / Math.max(drops.length, 1);
   const x = scaleLinear()
@@ -32,6 +34,8 @@ export function DropTimesChart({
   return (
     <ChartFigure
       id={id}
+      layout={layout}
+      figureRef={ref}
       title={title}
       description={`${drops.length} drop times in seconds in the order timed, with their mean ${formatNumber(mean)} s; ${stray.size} stray drop${stray.size === 1 ? "" : "s"} marked as squares.`}
       caption={`Circles: drops; squares: stray drops flagged by the generalized ESD test (kept in the log, reported separately). Line: the mean of all drops, ${formatNumber(mean)} s.`}
@@ -56,7 +60,14 @@ export function DropTimesChart({
         </table>
       }
     >
-      <Axes x={x} y={y} xTitle="drop, in the order timed" yTitle="time (s)" xTicks={Math.min(drops.length, 12)} />
+      <Axes
+        layout={layout}
+        x={x}
+        y={y}
+        xTitle="drop, in the order timed"
+        yTitle="time (s)"
+        xTicks={Math.min(drops.length, layout.narrow ? 6 : 12)}
+      />
       <line data-curve="mean" x1={plotLeft} x2={plotRight} y1={y(mean)} y2={y(mean)} stroke="var(--color-ink-700)" strokeDasharray="6 4" />
       {drops.map((time, index) => (
         <g key={index} data-drop={index}>

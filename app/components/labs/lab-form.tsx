@@ -20,6 +20,8 @@ import {
 } from "~/lib/labs/lab-input";
 import { wallClockToInstant } from "~/lib/labs/wall-clock";
 import { afterReleaseHandInNames, afterReleaseHandInPolicies } from "~/lib/marking/release";
+import { formatNumber } from "~/lib/kits/part-display";
+import { counted } from "~/lib/plural";
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any -- a field of any form's schema
 type Field = FieldMetadata<any, any, string[]>;
@@ -29,9 +31,10 @@ type PartOption = {
   label: string;
   material: string | null;
   fluidName: string | null;
+  diameterMm: number | null;
 };
 
-const partKindHeadings = { sphere: "Spheres", fluid_lot: "Fluid lots", column: "Columns" } as const;
+const partKindHeadings = { fluid_lot: "Fluid lots", column: "Columns" } as const;
 /** What "none ticked" means for each kind, said where the instructor chooses. */
 const noneTickedHints = {
   sphere: "None ticked: any sphere of the student's kit; the student names the one dropped.",
@@ -117,6 +120,95 @@ function CheckboxGroup({
   );
 }
 
+/** Spheres of one material and nominal size (measured diameters rounded to 0.1 mm), in material then size order. */
+function sphereGroups(spheres: PartOption[]) {
+  const groups = new Map<string, { material: string; sizeMm: number | null; spheres: PartOption[] }>();
+  for (const sphere of spheres) {
+    const material = sphere.material ?? "unnamed material";
+    const sizeMm = sphere.diameterMm === null ? null : Math.round(sphere.diameterMm * 10) / 10;
+    const key = `${material} ${sizeMm}`;
+    const group = groups.get(key) ?? { material, sizeMm, spheres: [] };
+    group.spheres.push(sphere);
+    groups.set(key, group);
+  }
+  return [...groups.values()].sort((a, b) => a.material.localeCompare(b.material) || (a.sizeMm ?? 0) - (b.sizeMm ?? 0));
+}
+
+/**
+ * The allowed spheres, a fieldset per material and size. Its "all of this size" box sends the whole
+ * group's ids in one value, so it works without script; with script it also ticks the spheres below
+ * it, and ticking every one of them ticks it.
+ */
+function SphereGroups({ field, spheres, hint }: { field: Field; spheres: PartOption[]; hint: string }) {
+  const messages = messagesOf(field);
+  const initial = field.initialValue;
+  const ticked = new Set((Array.isArray(initial) ? initial : initial ? [initial] : []).flatMap((value) => String(value).split(" ")));
+  const boxesOf = (element: HTMLElement) => [
+    ...(element.closest("fieldset")?.querySelectorAll<HTMLInputElement>("input[data-sphere]") ?? []),
+  ];
+  return (
+    <fieldset aria-describedby={messages.length ? field.errorId : undefined}>
+      <legend className="text-sm font-medium text-ink-900">Allowed spheres</legend>
+      <p className="text-sm text-ink-600">{hint}</p>
+      <div className="mt-2 flex flex-col gap-2">
+        {sphereGroups(spheres).map((group) => {
+          const ids = group.spheres.map((sphere) => sphere.id);
+          const all = ids.every((id) => ticked.has(id)) || ticked.has(ids.join(" "));
+          const some = ids.some((id) => ticked.has(id));
+          const name = `${group.material}${group.sizeMm === null ? "" : `, ${formatNumber(group.sizeMm, 3)} mm`}`;
+          return (
+            <fieldset key={`${group.material}${group.sizeMm}`} className="rounded border border-ink-900/15 px-3 py-2">
+              <legend className="px-1 text-sm font-medium">
+                {name} ({counted(ids.length, "sphere", "spheres")})
+              </legend>
+              <label className="flex items-center gap-1.5 text-sm">
+                <input
+                  type="checkbox"
+                  name={field.name}
+                  value={ids.join(" ")}
+                  defaultChecked={all}
+                  onChange={(event) => {
+                    for (const box of boxesOf(event.currentTarget)) box.checked = event.currentTarget.checked;
+                  }}
+                />
+                All of this size
+              </label>
+              <details className="mt-1 text-sm" open={some && !all}>
+                <summary className="cursor-pointer text-ink-700 underline underline-offset-2">Choose single spheres</summary>
+                <div className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
+                  {group.spheres.map((sphere) => (
+                    <label key={sphere.id} className="flex items-center gap-1.5">
+                      <input
+                        type="checkbox"
+                        name={field.name}
+                        value={sphere.id}
+                        data-sphere=""
+                        defaultChecked={all || ticked.has(sphere.id)}
+                        onChange={(event) => {
+                          const groupBox = event.currentTarget
+                            .closest("fieldset")
+                            ?.querySelector<HTMLInputElement>("input:not([data-sphere])");
+                          if (groupBox) groupBox.checked = boxesOf(event.currentTarget).every((box) => box.checked);
+                        }}
+                      />
+                      {sphere.label}
+                    </label>
+                  ))}
+                </div>
+              </details>
+            </fieldset>
+          );
+        })}
+      </div>
+      {messages.length ? (
+        <p id={field.errorId} className="mt-1 text-sm font-medium text-outlier">
+          {messages.join(" ")}
+        </p>
+      ) : null}
+    </fieldset>
+  );
+}
+
 function Section({ title, children }: { title: string; children: ReactNode }) {
   return (
     <fieldset className="flex flex-col gap-4 rounded-lg bg-white p-4 ring-1 ring-ink-900/10">
@@ -186,7 +278,12 @@ export function LabFields({
           field={fields.requiredDrops}
           hint="Fewer drops are still taken, with a warning."
         />
-        {(["sphere", "fluid_lot", "column"] as const).map((kind) => (
+        <SphereGroups
+          field={fields.allowedSphereIds}
+          spheres={parts.filter((part) => part.kind === "sphere")}
+          hint={`${noneTickedHints.sphere} "All of this size" allows every sphere of its group, ticked below or not.`}
+        />
+        {(["fluid_lot", "column"] as const).map((kind) => (
           <CheckboxGroup
             key={kind}
             legend={`Allowed ${partKindHeadings[kind].toLowerCase()}`}
@@ -232,7 +329,8 @@ export function LabFields({
       </Section>
 
       <Section title="Class comparison">
-        <div className="grid gap-4 sm:grid-cols-4">
+        {/* The method's column is as wide as its longest name, so the select never cuts it off. */}
+        <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-[max-content_repeat(3,minmax(0,1fr))]">
           <SelectField label="Method" field={fields.comparisonMethod}>
             {comparisonMethods.map((method) => (
               <option key={method} value={method}>

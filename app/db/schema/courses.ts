@@ -72,6 +72,8 @@ export const cohorts = pgTable(
       .notNull()
       .references(() => courses.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
+    /** The instructor's order of the course's cohorts (0 first): every list of cohorts follows it. */
+    position: integer("position").notNull().default(0),
     createdAt: createdAt(),
   },
   (table) => [uniqueIndex("cohorts_course_name_unique").on(table.courseId, table.name)],

@@ -109,8 +109,18 @@ export const wallClock = (timeZone: string, what: string) =>
  */
 export const allowedPartFields = { sphere: "allowedSphereIds", fluid_lot: "allowedFluidLotIds", column: "allowedColumnIds" } as const;
 export type AllowedPartKind = keyof typeof allowedPartFields;
+/**
+ * A list of part ids. One box may send several ids in one value, separated by spaces: the lab form's
+ * "all of this size" box, so that ticking it allows the whole group without script. Repeats count once.
+ */
 const allowedParts = (what: string) =>
-  formList(z.uuid(`Choose ${what} from the list.`)).pipe(z.array(z.string()).max(500, `Tick at most 500 ${what}.`));
+  z.preprocess(
+    (value) => {
+      const items = value === undefined || value === "" ? [] : Array.isArray(value) ? value : [value];
+      return [...new Set(items.flatMap((item) => (typeof item === "string" ? item.split(" ").filter(Boolean) : [item])))];
+    },
+    z.array(z.uuid(`Choose ${what} from the list.`)).max(500, `Tick at most 500 ${what}.`),
+  );
 
 /** The lab's allowed parts, all kinds together, as `labs.allowed_part_ids` stores them. */
 export function allowedPartIdsOf(input: Pick<LabInput, (typeof allowedPartFields)[AllowedPartKind]>): string[] {
@@ -194,8 +204,11 @@ export type LabFormValues = Omit<
 const resolutionTexts = (resolutions: Required<LabResolutions>) =>
   Object.fromEntries(Object.entries(resolutions).map(([key, value]) => [key, String(value)])) as LabFormValues["resolutions"];
 
-/** A new lab's form: the defaults above; the times are left for the instructor to type. */
-export function newLabFormValues(kind: ExperimentKind, cohortIds: string[]): LabFormValues {
+/**
+ * A new lab's form: the defaults above; the times are left for the instructor to type, and no cohort
+ * is ticked, so the instructor chooses whom the lab is for rather than unticking the others.
+ */
+export function newLabFormValues(kind: ExperimentKind): LabFormValues {
   return {
     title: "",
     kind,
@@ -213,7 +226,7 @@ export function newLabFormValues(kind: ExperimentKind, cohortIds: string[]): Lab
     reminderOffsetsHours: DEFAULT_REMINDER_OFFSETS_HOURS.join(", "),
     afterReleaseHandIns: "refuse",
     resolutions: resolutionTexts(DEFAULT_RESOLUTIONS),
-    cohortIds,
+    cohortIds: [],
     allowedSphereIds: [],
     allowedFluidLotIds: [],
     allowedColumnIds: [],

@@ -102,7 +102,9 @@ export async function carryOverCourse(
     const labMapRows = sql`json_to_recordset(${labMap}::json) as m(old_id uuid, new_id uuid, "opensAt" timestamptz, "dueAt" timestamptz, "lateCutoffAt" timestamptz)`;
 
     if (input.copyCohorts)
-      await tx.execute(sql`insert into cohorts (course_id, name) select ${newId}, name from cohorts where course_id = ${from.id}`);
+      await tx.execute(
+        sql`insert into cohorts (course_id, name, position) select ${newId}, name, position from cohorts where course_id = ${from.id}`,
+      );
 
     // Parts are matched between the courses by label, unique within a course.
     const partColumns = copiedColumns(parts, ["id", "course_id"]);

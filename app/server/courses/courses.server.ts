@@ -57,10 +57,38 @@ export async function updateReturnSettings(
   });
 }
 
+/** Adds a cohort at the end of the course's order. */
 export async function addCohort(executor: Executor, { courseId, name }: { courseId: string; name: string }): Promise<void> {
-  const inserted = await executor.insert(cohorts).values({ courseId, name }).onConflictDoNothing().returning({ id: cohorts.id });
+  const position = sql<number>`(select coalesce(max(c.position) + 1, 0) from cohorts c where c.course_id = ${courseId})`;
+  const inserted = await executor.insert(cohorts).values({ courseId, name, position }).onConflictDoNothing().returning({ id: cohorts.id });
   if (inserted.length === 0)
     throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+}
+
+/**
+ * Moves a cohort one place earlier or later in the course's order, swapping positions with its
+ * neighbour in one statement; at either end nothing changes.
+ */
+export async function moveCohort(
+  executor: Executor,
+  { courseId, cohortId, direction }: { courseId: string; cohortId: string; direction: "up" | "down" },
+): Promise<void> {
+  const step = direction === "up" ? -1 : 1;
+  // Renumbers the course's cohorts 0…n−1 in their current order while swapping the two places.
+  const moved = await executor.execute<{ id: string }>(sql`
+    with ordered as (
+      select id, (row_number() over (order by position, name) - 1)::int as place from cohorts where course_id = ${courseId}
+    ), target as (
+      select place + ${step} as place from ordered where id = ${cohortId} and place + ${step} between 0 and (select count(*) - 1 from ordered)
+    )
+    update cohorts set position = case
+        when ordered.id = ${cohortId} and exists (select 1 from target) then ordered.place + ${step}
+        when ordered.place = (select place from target) then ordered.place - ${step}
+        else ordered.place end
+    from ordered where cohorts.id = ordered.id
+    returning cohorts.id`);
+  if (!moved.rows.some((row) => row.id === cohortId))
+    throw new AppError({ code: "not_found", message: "There is no such cohort in this course.", status: 404 });
 }
 
 /** Renames one of the course's cohorts; a cohort of another course (or none) is refused with 404 and nothing changes. */
@@ -128,7 +156,7 @@ export async function getCourseWithCohorts(executor: Executor, courseId: string)
       })
       .from(cohorts)
       .where(eq(cohorts.courseId, courseId))
-      .orderBy(asc(cohorts.name)),
+      .orderBy(asc(cohorts.position), asc(cohorts.name)),
     executor
       .select({
         membershipId: courseMemberships.id,

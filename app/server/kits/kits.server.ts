@@ -565,5 +565,5 @@ export async function listStudentsWithoutKit(executor: Executor, courseId: strin
         isNull(kits.id),
       ),
     )
-    .orderBy(asc(cohorts.name), asc(users.name));
+    .orderBy(asc(cohorts.position), asc(cohorts.name), asc(users.name));
 }

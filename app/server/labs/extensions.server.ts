@@ -103,7 +103,7 @@ export async function getExtensionsPage(
       .select({ id: cohorts.id, name: cohorts.name })
       .from(cohorts)
       .where(inArray(cohorts.id, uuidList(cohortIds)))
-      .orderBy(cohorts.name),
+      .orderBy(cohorts.position, cohorts.name),
     isInstructor(access)
       ? executor
           .select({ membershipId: courseMemberships.id, name: users.name, cohortName: cohorts.name })
@@ -118,7 +118,7 @@ export async function getExtensionsPage(
               inArray(courseMemberships.cohortId, uuidList(cohortIds)),
             ),
           )
-          .orderBy(cohorts.name, users.name)
+          .orderBy(cohorts.position, cohorts.name, users.name)
       : Promise.resolve([]),
   ]);
   return { extensions, cohorts: cohortRows, students };

@@ -108,7 +108,7 @@ export async function getLabDashboard(
           inArray(member.cohortId, uuidList(cohortIds)),
         ),
       )
-      .orderBy(cohorts.name, users.name),
+      .orderBy(cohorts.position, cohorts.name, users.name),
     listSentReminders(executor, { ...access, cohortIds }, lab.id),
     lab.status === "published" ? listScheduledReminders(executor, lab) : Promise.resolve([]),
   ]);

@@ -21,9 +21,20 @@ export type LabIntent = "save" | "publish" | "close";
 /** The course's cohorts and the in-service parts a lab may be limited to, for the lab form: two statements side by side. */
 export async function getLabFormOptions(executor: Executor, courseId: string) {
   const [cohortRows, partRows] = await Promise.all([
-    executor.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name)),
     executor
-      .select({ id: parts.id, kind: parts.kind, label: parts.label, material: parts.material, fluidName: parts.fluidName })
+      .select({ id: cohorts.id, name: cohorts.name })
+      .from(cohorts)
+      .where(eq(cohorts.courseId, courseId))
+      .orderBy(asc(cohorts.position), asc(cohorts.name)),
+    executor
+      .select({
+        id: parts.id,
+        kind: parts.kind,
+        label: parts.label,
+        material: parts.material,
+        fluidName: parts.fluidName,
+        diameterMm: parts.diameterMm,
+      })
       .from(parts)
       .where(and(eq(parts.courseId, courseId), inArray(parts.kind, ["sphere", "fluid_lot", "column"]), ne(parts.status, "retired")))
       .orderBy(asc(parts.kind), asc(parts.label)),

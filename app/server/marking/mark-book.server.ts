@@ -91,7 +91,7 @@ export async function markBookFrame(executor: Executor, access: CourseAccess): P
           order by l.due_at, l.title, l.id)
         from labs l where l.course_id = ${access.course.id} and l.status <> 'draft'), '[]'::json)`,
       cohorts: sql<{ id: string; name: string }[]>`coalesce((
-        select json_agg(json_build_object('id', c.id, 'name', c.name) order by c.name)
+        select json_agg(json_build_object('id', c.id, 'name', c.name) order by c.position, c.name)
         from cohorts c where c.course_id = ${access.course.id} ${scope ? sql`and c.id in ${uuidList(scope)}` : sql``}), '[]'::json)`,
     })
     .from(courses)

@@ -152,7 +152,11 @@ export async function setStudentNumber(
 }
 
 export function listCohorts(courseId: string) {
-  return db.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name));
+  return db
+    .select({ id: cohorts.id, name: cohorts.name })
+    .from(cohorts)
+    .where(eq(cohorts.courseId, courseId))
+    .orderBy(asc(cohorts.position), asc(cohorts.name));
 }
 
 /**

@@ -25,7 +25,11 @@ export async function rosterContext(
   courseId: string,
 ): Promise<RosterCourse & { cohorts: { id: string; name: string }[] }> {
   const [cohortRows, memberRows, invitationRows] = await Promise.all([
-    executor.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(asc(cohorts.name)),
+    executor
+      .select({ id: cohorts.id, name: cohorts.name })
+      .from(cohorts)
+      .where(eq(cohorts.courseId, courseId))
+      .orderBy(asc(cohorts.position), asc(cohorts.name)),
     executor
       .select({
         id: courseMemberships.id,

@@ -30,7 +30,7 @@ export async function messageChoices(executor: Executor, access: CourseAccess) {
       .select({ id: cohorts.id, name: cohorts.name })
       .from(cohorts)
       .where(and(eq(cohorts.courseId, access.course.id), inArray(cohorts.id, uuidList(access.cohortIds))))
-      .orderBy(cohorts.name),
+      .orderBy(cohorts.position, cohorts.name),
     executor
       .select({ id: labs.id, title: labs.title })
       .from(labs)

@@ -435,7 +435,11 @@ export async function commitKitAssignment(
 export async function shippingChoices(executor: Executor, courseId: string) {
   const [labRows, cohortRows] = await Promise.all([
     executor.select({ id: labs.id, title: labs.title }).from(labs).where(eq(labs.courseId, courseId)).orderBy(labs.title),
-    executor.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)).orderBy(cohorts.name),
+    executor
+      .select({ id: cohorts.id, name: cohorts.name })
+      .from(cohorts)
+      .where(eq(cohorts.courseId, courseId))
+      .orderBy(cohorts.position, cohorts.name),
   ]);
   return { labs: labRows, cohorts: cohortRows };
 }
