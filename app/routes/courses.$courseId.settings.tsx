@@ -23,6 +23,7 @@ import {
 } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
+import { counted } from "~/lib/plural";
 
 const returnsIntent = returnSettingsInput.extend({ intent: z.literal("returns") });
 
@@ -205,7 +206,12 @@ export default function CourseSettings({ loaderData, actionData }: Route.Compone
                 <input type="hidden" name="intent" value="rename-cohort" />
                 <input type="hidden" name="cohortId" value={cohort.id} />
                 <div className="flex-1">
-                  <TextField label={`Cohort (${cohort.students} students)`} name="name" defaultValue={cohort.name} required />
+                  <TextField
+                    label={`Cohort (${counted(cohort.students, "student", "students")})`}
+                    name="name"
+                    defaultValue={cohort.name}
+                    required
+                  />
                 </div>
                 <Button type="submit" variant="secondary">
                   Rename

@@ -231,7 +231,8 @@ export default function ShipCohort({ loaderData, actionData }: Route.ComponentPr
         </SelectField>
         {fields.keys.errors?.length ? <Notice tone="error">{fields.keys.errors.join(" ")}</Notice> : null}
         <p className="text-sm text-ink-600">
-          Tick students to choose them by hand; with none ticked, all {pageInfo.total} students shown by the filter are chosen (every page).
+          Tick students to choose them by hand; with none ticked, {plural(pageInfo.total, "the student", `all ${pageInfo.total} students`)}{" "}
+          shown by the filter {plural(pageInfo.total, "is", "are")} chosen (every page).
         </p>
         <div
           role="region"
