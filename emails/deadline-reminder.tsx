@@ -1,11 +1,10 @@
 import { ActionButton, EmailLayout, FactList, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
+import { timeLeftSentence, timeLeftWords } from "../app/lib/labs/deadline-words";
 
 type Props = EmailTemplates["deadline-reminder"];
 
-const describeTimeLeft = (hours: number) => (hours < 1 ? "less than an hour" : hours === 1 ? "1 hour" : `${Math.floor(hours)} hours`);
-
-export const subject = (props: Props) => `${props.labTitle} is due in ${describeTimeLeft(props.hoursLeft)}`;
+export const subject = (props: Props) => `${props.labTitle} is due in ${timeLeftWords(props.hoursLeft)}`;
 
 export default function DeadlineReminderEmail(props: Props) {
   return (
@@ -15,8 +14,7 @@ export default function DeadlineReminderEmail(props: Props) {
     >
       <Heading>{props.labTitle} is due soon</Heading>
       <Paragraph>
-        There is {describeTimeLeft(props.hoursLeft)} left to hand in your drop log. You can hand in from your phone; a later hand-in
-        replaces the earlier one until the deadline.
+        {timeLeftSentence(props.hoursLeft)} You can hand in from your phone; a later hand-in replaces the earlier one until the deadline.
       </Paragraph>
       <FactList
         facts={[

@@ -1,6 +1,7 @@
 import { Text } from "@react-email/components";
 import { ActionButton, EmailLayout, FactList, Heading, Paragraph, palette } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
+import { counted } from "../app/lib/plural";
 
 type Props = EmailTemplates["kit-overdue"];
 
@@ -8,7 +9,7 @@ export const subject = (props: Props) => `Please send back your ${props.courseTi
 
 /** To a student whose kit is still at home after the course's return-by date, on each reminder day. */
 export default function KitOverdueEmail(props: Props) {
-  const days = props.daysOverdue === 1 ? "1 day" : `${props.daysOverdue} days`;
+  const days = counted(props.daysOverdue, "day", "days");
   return (
     <EmailLayout
       preview={`Kit ${props.kitNumber} was due back on ${props.returnBy}`}

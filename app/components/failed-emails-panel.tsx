@@ -1,5 +1,6 @@
 import { formatDateTime } from "~/lib/format-date";
 import type { FailedEmail } from "~/server/email/failed-emails.server";
+import { counted } from "~/lib/plural";
 
 /**
  * Shown to instructors on a course page: messages the course sent that never arrived, so that someone
@@ -12,7 +13,7 @@ export function FailedEmailsPanel({ failedEmails, timeZone }: { failedEmails: Fa
   return (
     <section aria-labelledby="failed-emails-heading" className="rounded-lg border border-amber-400 bg-paper-50 p-4 text-ink-800">
       <h2 id="failed-emails-heading" className="font-semibold">
-        {failedEmails.length === 1 ? "1 e-mail could not be delivered" : `${failedEmails.length} e-mails could not be delivered`}
+        {counted(failedEmails.length, "e-mail", "e-mails")} could not be delivered
       </h2>
       <p className="mt-1 text-sm text-ink-600">
         Benchpost tried each one several times, or could not send it at all (the reason is below). Check the address, or reach the person
@@ -26,7 +27,7 @@ export function FailedEmailsPanel({ failedEmails, timeZone }: { failedEmails: Fa
               To {email.toName ? `${email.toName} <${email.toAddress}>` : email.toAddress} ·{" "}
               {email.attempts === 0
                 ? `not sent: refused ${formatTime(email.failedAt)}`
-                : `gave up ${formatTime(email.failedAt)} after ${email.attempts} ${email.attempts === 1 ? "attempt" : "attempts"}`}
+                : `gave up ${formatTime(email.failedAt)} after ${counted(email.attempts, "attempt", "attempts")}`}
             </p>
             {email.lastError ? <p className="mt-1 break-words font-mono text-xs text-ink-600">{email.lastError}</p> : null}
           </li>

@@ -13,6 +13,7 @@ import { formatDateTime } from "~/lib/format-date";
 import { kitProblemKindLabels, kitProblemStatusLabels } from "~/lib/kits/kit-problem-states";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
 import { partKindLabels } from "~/lib/kits/part-input";
+import { counted } from "~/lib/plural";
 import { anyRole, requireCourseRole } from "~/server/auth/access.server";
 import {
   courseOverview,
@@ -68,15 +69,13 @@ function Item({ id, title, children }: { id: string; title: ReactNode; children:
   );
 }
 
-const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
-
 function InstructorView(props: Of<"instructor">) {
   const { timeZone, recentDeadlineDays, counts, deadlines, tas, comparisonFlags, flaggedParts, failedEmails, invitations } = props;
   return (
     <>
       <p className="text-sm text-ink-700">
-        {plural(counts.students, "student")} · {plural(counts.tas, "teaching assistant")} · {plural(counts.instructors, "instructor")} ·{" "}
-        {plural(counts.kits, "kit")}
+        {counted(counts.students, "student", "students")} · {counted(counts.tas, "teaching assistant", "teaching assistants")} ·{" "}
+        {counted(counts.instructors, "instructor", "instructors")} · {counted(counts.kits, "kit", "kits")}
       </p>
       <FailedEmailsPanel failedEmails={failedEmails} timeZone={timeZone} />
       <Item id="deadlines" title="Deadlines">
@@ -179,7 +178,10 @@ function InstructorView(props: Of<"instructor">) {
                   {lab.title}
                 </Link>
                 :{" "}
-                {[lab.outliers ? plural(lab.outliers, "outlier") : null, lab.suspects ? plural(lab.suspects, "suspect") : null]
+                {[
+                  lab.outliers ? counted(lab.outliers, "outlier", "outliers") : null,
+                  lab.suspects ? counted(lab.suspects, "suspect", "suspects") : null,
+                ]
                   .filter(Boolean)
                   .join(", ")}{" "}
                 in the class comparison
@@ -202,9 +204,9 @@ function InstructorView(props: Of<"instructor">) {
         <Item id="invitations" title="Invitations">
           <p className="text-sm">
             <Link to="members" className="underline">
-              {plural(invitations.open, "invitation")} not accepted yet
+              {counted(invitations.open, "invitation", "invitations")} not accepted yet
             </Link>{" "}
-            ({plural(invitations.students, "student")}).
+            ({counted(invitations.students, "student", "students")}).
           </p>
         </Item>
       ) : null}
@@ -222,7 +224,7 @@ function KitsItem({ timeZone, openProblems, kitsByState, ...rest }: Of<"instruct
         {openProblems && openProblems.open > 0 ? (
           <li>
             <Link to="kits/problems" className="font-medium text-outlier underline">
-              {plural(openProblems.open, "open kit problem")}
+              {counted(openProblems.open, "open kit problem", "open kit problems")}
             </Link>
             <ul className="ml-4 list-disc">
               {openProblems.oldest.map((problem) => (
@@ -239,7 +241,7 @@ function KitsItem({ timeZone, openProblems, kitsByState, ...rest }: Of<"instruct
         ) : null}
         {notDelivered > 0 ? (
           <li>
-            {plural(notDelivered, "kit")} not delivered yet:{" "}
+            {counted(notDelivered, "kit", "kits")} not delivered yet:{" "}
             <Link to="kits?state=packed" className="underline">
               {kitsByState.packed ?? 0} packed
             </Link>
@@ -252,7 +254,7 @@ function KitsItem({ timeZone, openProblems, kitsByState, ...rest }: Of<"instruct
         {overdue > 0 ? (
           <li>
             <Link to="kits/overdue" className="underline">
-              {plural(overdue, "kit")} not back after the return-by date
+              {counted(overdue, "kit", "kits")} not back after the return-by date
             </Link>
           </li>
         ) : null}

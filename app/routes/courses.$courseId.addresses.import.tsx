@@ -14,6 +14,8 @@ import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { addressImportColumns } from "~/lib/shipping/address-import";
+import { addressesImportedSentence, addressPreviewHeading } from "~/lib/shipping/address-words";
+import { counted } from "~/lib/plural";
 import { importAddresses, previewAddressImport, readAddressCsv } from "~/server/shipping/addresses.server";
 import type { AddressImportPreview, AddressImportRow } from "~/server/shipping/addresses.server";
 
@@ -94,12 +96,7 @@ export default function ImportAddresses({ loaderData, actionData }: Route.Compon
         together, or none is.
       </PageHeader>
 
-      {done && !done.duplicate ? (
-        <Notice tone="success">
-          Imported: {plural(done.written, "address", "addresses")} written, {done.unchanged} unchanged,{" "}
-          {plural(done.skipped, "row", "rows")} with problems left out.
-        </Notice>
-      ) : null}
+      {done && !done.duplicate ? <Notice tone="success">{addressesImportedSentence(done)}</Notice> : null}
       {done && done.duplicate ? (
         <Notice tone="info">Already imported on {formatDateTime(done.committedAt, timeZone)}: nothing was written again.</Notice>
       ) : null}
@@ -132,8 +129,6 @@ export default function ImportAddresses({ loaderData, actionData }: Route.Compon
   );
 }
 
-const plural = (count: number, one: string, many: string) => `${count} ${count === 1 ? one : many}`;
-
 const statusWords: Record<AddressImportRow["status"], string> = {
   new: "New",
   changed: "Changed",
@@ -149,8 +144,12 @@ function Preview({ preview, csv, importKey, busy }: { preview: AddressImportPrev
   return (
     <section aria-labelledby="preview-title" className="flex flex-col gap-3">
       <h2 id="preview-title" className="text-lg font-semibold">
-        Preview: {preview.rows.length} rows — {count("new")} new, {count("changed")} changed, {count("unchanged")} unchanged,{" "}
-        {count("error")} with problems
+        {addressPreviewHeading(preview.rows.length, {
+          new: count("new"),
+          changed: count("changed"),
+          unchanged: count("unchanged"),
+          error: count("error"),
+        })}
       </h2>
       {toWrite ? (
         <Form method="post" className="flex flex-col gap-2">
@@ -162,7 +161,7 @@ function Preview({ preview, csv, importKey, busy }: { preview: AddressImportPrev
             <p className="text-sm">The rows with problems are left out; fix them in the file and import it again.</p>
           ) : null}
           <Button type="submit" disabled={busy} className="self-start">
-            {busy ? "Importing…" : `Write ${plural(toWrite, "address", "addresses")}`}
+            {busy ? "Importing…" : `Write ${counted(toWrite, "address", "addresses")}`}
           </Button>
         </Form>
       ) : (

@@ -17,6 +17,7 @@ import { requireCourseRole } from "~/server/auth/access.server";
 import { carryOverCourse, carryOverSource } from "~/server/courses/carry-over.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
+import { counted, plural } from "~/lib/plural";
 
 const carryOverForm = carryOverInput.extend({ intent: z.enum(["preview", "carry"]) });
 
@@ -55,8 +56,9 @@ export default function CarryOver({ loaderData, actionData }: Route.ComponentPro
       <PageHeader title="Start next term from this course" trail={[{ to: `/courses/${course.id}/settings`, label: "Course settings" }]}>
         <p className="mt-2 max-w-2xl text-ink-700">
           A new course with this one's settings, cohorts (if you choose), labs as drafts with their dates moved, rubrics, method settings
-          and kit inventory: {source.parts} parts and {source.shelfKits} kits on the shelf. You become its instructor, with this course's
-          other instructors. No students, TAs, invitations, hand-ins or marks come along; kits still with students stay here.
+          and kit inventory: {counted(source.parts, "part", "parts")} and {counted(source.shelfKits, "kit", "kits")} on the shelf. You
+          become its instructor, with this course's other instructors. No students, TAs, invitations, hand-ins or marks come along; kits
+          still with students stay here.
         </p>
       </PageHeader>
       <Form method="post" className="flex max-w-xl flex-col gap-4" {...getFormProps(form)}>
@@ -81,7 +83,7 @@ export default function CarryOver({ loaderData, actionData }: Route.ComponentPro
         />
         <label className="flex items-center gap-2 text-sm">
           <input {...getInputProps(fields.copyCohorts, { type: "checkbox" })} className="size-5" />
-          Copy the {source.cohorts} cohorts, and which labs are set for each
+          Copy {plural(source.cohorts, "the cohort", `the ${source.cohorts} cohorts`)}, and which labs are set for each
         </label>
         {fields.copyCohorts.errors?.length ? <p className="text-sm text-outlier">{fields.copyCohorts.errors.join(" ")}</p> : null}
 

@@ -16,6 +16,7 @@ import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { listKits, moveKits } from "~/server/kits/kits.server";
+import { counted } from "~/lib/plural";
 
 /**
  * Moves that need nothing more than a note can be applied to many kits at once. Checking in needs each
@@ -52,7 +53,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const { kitIds, to, note } = submission.value;
   const { moved } = await moveKits(db, { courseId: access.course.id, actorId: access.user.id, kitIds, move: { to, note } });
-  return { moved: `${moved} kits moved to ${kitStateLabels[to].toLowerCase()}.` };
+  return { moved: `${counted(moved, "kit", "kits")} moved to ${kitStateLabels[to].toLowerCase()}.` };
 });
 
 type KitRow = Route.ComponentProps["loaderData"]["kits"][number];

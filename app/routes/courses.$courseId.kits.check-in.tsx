@@ -16,6 +16,7 @@ import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { checkInKits, listKits } from "~/server/kits/kits.server";
 import { kitsForCheckIn } from "~/server/kits/returns.server";
+import { counted, plural } from "~/lib/plural";
 
 /** Kits on one check-in page: a morning's parcels, and a form that stays quick to fill and to send. */
 const maxKitsPerCheckIn = 100;
@@ -156,7 +157,7 @@ function CheckInPage({ loaderData, actionData }: Route.ComponentProps) {
       </PageHeader>
       {done !== null ? (
         <Notice tone="success">
-          {done === 1 ? "1 kit checked in." : `${done} kits checked in.`}{" "}
+          {counted(done, "kit", "kits")} checked in.{" "}
           <Link to={`/courses/${courseId}/kits?state=checked_in`} className="underline">
             See the kits checked in
           </Link>
@@ -214,7 +215,7 @@ function CheckInPage({ loaderData, actionData }: Route.ComponentProps) {
           })}
           <TextField label="Note (kept on every kit's history)" field={fields.note} />
           <Button type="submit" disabled={navigation.state === "submitting"}>
-            {kits.length === 1 ? "Check the kit in" : `Check the ${kits.length} kits in`}
+            Check {plural(kits.length, "the kit", `the ${kits.length} kits`)} in
           </Button>
         </Form>
       )}

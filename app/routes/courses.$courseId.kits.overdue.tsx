@@ -11,6 +11,7 @@ import { kitCohortScope, requireCourseRole, staffRoles } from "~/server/auth/acc
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
 import { listOverdueKits, returnSettingsOf } from "~/server/kits/returns.server";
+import { plural } from "~/lib/plural";
 
 const overdueSearch = z.object(pagingSearch());
 
@@ -98,8 +99,10 @@ export default function OverdueKits({ loaderData }: Route.ComponentProps) {
           <>
             Kits were due back by {formatCalendarDay(returnBy)} ({timeZone}). A kit still at its student's home counts as overdue, and its
             student is e-mailed{" "}
-            {reminderDays.length ? `${reminderDays.join(", ")} days after that date` : "no reminder (no reminder days are set)"}. Kits on
-            their way out or back are listed with their parcel, not counted.
+            {reminderDays.length
+              ? `${reminderDays.join(", ")} ${plural(Math.max(...reminderDays), "day", "days")} after that date`
+              : "no reminder (no reminder days are set)"}
+            . Kits on their way out or back are listed with their parcel, not counted.
           </>
         ) : (
           <>

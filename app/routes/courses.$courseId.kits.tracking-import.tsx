@@ -18,6 +18,9 @@ import {
   type TrackingDirection,
   type TrackingRowCheck,
 } from "~/lib/shipping/tracking-rows";
+import { nothingImportedSentence } from "~/lib/import/import-words";
+import { counted } from "~/lib/plural";
+import { trackingImportedSentence } from "~/lib/shipping/tracking-words";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
@@ -39,7 +42,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   const result = await importTracking(db, { courseId: access.course.id, actorId: access.user.id, direction, importKey, rows, request });
   if (!result.ok) {
     const reply = submission.reply({
-      formErrors: [`Nothing was imported: ${result.problems.length} rows have problems (the kits changed since the preview?).`],
+      formErrors: [nothingImportedSentence(result.problems.length, "kits")],
     });
     return data({ ...reply, problems: result.problems.slice(0, previewLimit) }, { status: 400 });
   }
@@ -88,8 +91,7 @@ export default function TrackingImport({ loaderData, actionData }: Route.Compone
 
       {imported && !imported.duplicate ? (
         <Notice tone="success">
-          Imported: {imported.moved} kits {imported.direction === "outbound" ? "in transit (their students are e-mailed)" : "coming back"},{" "}
-          {imported.corrected} parcels corrected, {imported.unchanged} already up to date.{" "}
+          {trackingImportedSentence(imported)}{" "}
           <Link to={`/courses/${courseId}/kits`} className="underline">
             Back to the kits
           </Link>
@@ -141,7 +143,7 @@ export default function TrackingImport({ loaderData, actionData }: Route.Compone
             <input type="hidden" name="importKey" value={file.readId} />
             <input type="hidden" name="rows" value={JSON.stringify(checks.map((check) => check.row))} />
             <Button type="submit" disabled={navigation.state === "submitting"}>
-              Import {checks.length} {direction === "outbound" ? "outbound" : "return"} parcels
+              Import {counted(checks.length, `${direction} parcel`, `${direction} parcels`)}
             </Button>
           </Form>
         )}

@@ -22,6 +22,7 @@ import { db } from "~/server/db.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
 import { staffRoles } from "~/server/auth/access.server";
 import { formAction } from "~/server/errors.server";
+import { counted } from "~/lib/plural";
 
 /** The method form, sent to count ("preview") or to save. */
 const methodSubmission = comparisonSettings.extend({ intent: z.enum(["preview", "save"], { error: "Unknown request." }) });
@@ -67,13 +68,12 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
           </a>
         }
       >
-        {classSize} counted hand-in{classSize === 1 ? "" : "s"}, compared by {method.description}. Labels are computed from the latest
+        {counted(classSize, "counted hand-in", "counted hand-ins")}, compared by {method.description}. Labels are computed from the latest
         versions each time this page opens.
       </PageHeader>
       {actionData && "saved" in actionData && actionData.saved ? (
         <Notice tone="success">
-          The method is saved and every hand-in relabelled: {actionData.saved.changed} label{actionData.saved.changed === 1 ? "" : "s"}{" "}
-          changed.
+          The method is saved and every hand-in relabelled: {counted(actionData.saved.changed, "label", "labels")} changed.
         </Notice>
       ) : null}
 

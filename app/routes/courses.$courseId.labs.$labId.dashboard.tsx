@@ -10,6 +10,7 @@ import { db } from "~/server/db.server";
 import { getLabDashboard } from "~/server/labs/lab-dashboard.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
 import { getLab } from "~/server/labs/labs.server";
+import { counted } from "~/lib/plural";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   // Instructors, and the TAs of a cohort the lab is set for: the same people as its class comparison.
@@ -42,7 +43,8 @@ export default function LabDashboard({ loaderData }: Route.ComponentProps) {
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
         tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}
       >
-        {experimentKindNames[lab.kind]} · {lab.status === "draft" ? "draft, not published" : lab.status} · {lab.requiredDrops} drops
+        {experimentKindNames[lab.kind]} · {lab.status === "draft" ? "draft, not published" : lab.status} ·{" "}
+        {counted(lab.requiredDrops, "drop", "drops")}
       </PageHeader>
 
       <LabTimesList lab={lab} timeZone={timeZone} />

@@ -24,6 +24,8 @@ import { saveMark } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
 import { loadMarkingLab } from "~/server/marking/marking-lab.server";
+import { releasedSentence } from "~/lib/marking/moderation-words";
+import { counted } from "~/lib/plural";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { access, lab } = await requireLabAccess({ request, context }, params, ["instructor"], loadMarkingLab);
@@ -87,7 +89,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
     const { intent: _intent, ...choice } = input;
     const outcome = await releaseMarks(db, { access, lab, choice, request });
     return {
-      done: `Released ${plural(outcome.released, "mark")}${outcome.zeros ? ` (${outcome.zeros} of them zero for no hand-in)` : ""} and queued ${plural(outcome.emailed, "e-mail")}${outcome.withheld ? `; ${plural(outcome.withheld, "student")} see nothing yet` : ""}.`,
+      done: releasedSentence(outcome),
     };
   }
   const criterion = lab.rubric.find((entry) => `criterion:${entry.id}` === input.target);
@@ -113,8 +115,6 @@ export const action = formAction(async ({ request, context, params, formData }: 
   return { done: `${result.row.studentName}'s mark is now ${result.row.total}.` };
 });
 
-const plural = (count: number, word: string) => `${count} ${word}${count === 1 ? "" : "s"}`;
-
 export default function ModerationPage({ loaderData, actionData }: Route.ComponentProps) {
   const { courseId, timeZone, lab, students, progress, resultChanged, marked, changes } = loaderData;
   const busy = useNavigation().state === "submitting";
@@ -127,7 +127,8 @@ export default function ModerationPage({ loaderData, actionData }: Route.Compone
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
         tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}
       >
-        Moderation · {students} students · {progress.marked} fully marked, {progress.partial} partly, {progress.unmarked} not yet
+        Moderation · {counted(students, "student", "students")} · {progress.marked} fully marked, {progress.partial} partly,{" "}
+        {progress.unmarked} not yet
       </PageHeader>
       {actionData && "done" in actionData ? <Notice tone="success">{actionData.done}</Notice> : null}
       {refusal && typed?.intent !== "adjust" ? (

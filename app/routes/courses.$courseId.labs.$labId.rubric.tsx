@@ -17,6 +17,7 @@ import { formAction } from "~/server/errors.server";
 import { copyRubric, listRubricSources, saveRubric } from "~/server/marking/rubrics.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
 import { loadMarkingLab } from "~/server/marking/marking-lab.server";
+import { counted } from "~/lib/plural";
 
 const rubricAction = z.discriminatedUnion("intent", [
   rubricFormInput,
@@ -41,10 +42,10 @@ export const action = formAction(async ({ request, context, params, formData }: 
   const input = submission.value;
   if (input.intent === "copy") {
     const copied = await copyRubric(db, { access, lab, fromLabId: input.fromLabId, request });
-    return { done: `Copied ${copied.length} criteria.` };
+    return { done: `Copied ${counted(copied.length, "criterion", "criteria")}.` };
   }
   const saved = await saveRubric(db, { access, lab, input: { criteria: input.criteria }, request });
-  return { done: `The rubric is saved: ${saved.length} criteria.` };
+  return { done: `The rubric is saved: ${counted(saved.length, "criterion", "criteria")}.` };
 });
 
 export default function RubricPage({ loaderData, actionData }: Route.ComponentProps) {

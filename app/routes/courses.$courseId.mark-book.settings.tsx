@@ -12,6 +12,7 @@ import { requireCourseRole } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { markBookFrame, saveMarkBookSettings } from "~/server/marking/mark-book.server";
+import { counted } from "~/lib/plural";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
@@ -63,7 +64,7 @@ export default function MarkBookSettings({ loaderData, actionData }: Route.Compo
                   field={row.weight}
                   inputMode="decimal"
                   className="w-72"
-                  hint={`Due ${formatDateTime(lab.dueAt, timeZone, "long")}${lab.maximum > 0 ? `, out of ${lab.maximum} points` : ", no rubric yet"}`}
+                  hint={`Due ${formatDateTime(lab.dueAt, timeZone, "long")}${lab.maximum > 0 ? `, out of ${counted(lab.maximum, "point", "points")}` : ", no rubric yet"}`}
                 />
               </div>
             );

@@ -12,6 +12,7 @@ import { db } from "~/server/db.server";
 import { throwAsResponse } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { markBookPage, type MarkBookCell, type MarkBookLab } from "~/server/marking/mark-book.server";
+import { counted } from "~/lib/plural";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, staffRoles);
@@ -172,7 +173,7 @@ function LabHeader({ lab, sort }: { lab: MarkBookLab; sort: string }) {
     <div className="flex flex-col">
       <SortHeader label={lab.title} by={lab.id} sort={sort} />
       <span className="text-xs font-normal text-ink-600">
-        {lab.maximum > 0 ? `of ${lab.maximum} points` : "no rubric yet"} · weight {lab.weight}
+        {lab.maximum > 0 ? `of ${counted(lab.maximum, "point", "points")}` : "no rubric yet"} · weight {lab.weight}
       </span>
     </div>
   );

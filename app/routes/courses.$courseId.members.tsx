@@ -19,6 +19,7 @@ import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { createInvitations, resendInvitation, revokeInvitation } from "~/server/members/invitations.server";
 import { listCohorts, listMembers, listOpenInvitations } from "~/server/members/members.server";
+import { counted, plural } from "~/lib/plural";
 
 const person = z.object({
   email: z.email("Enter the person's e-mail address.").max(254),
@@ -147,7 +148,7 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
           {/* Sending comes first: Enter in a field presses the form's first button. */}
           <div className="flex flex-wrap gap-3">
             <Button type="submit" disabled={busy}>
-              {people.length === 1 ? "Send the invitation" : `Send the ${people.length} invitations`}
+              Send {plural(people.length, "the invitation", `the ${people.length} invitations`)}
             </Button>
             <Button variant="secondary" {...form.insert.getButtonProps({ name: fields.people.name, defaultValue: newPerson })}>
               Add another person
@@ -163,7 +164,7 @@ export default function CourseMembers({ loaderData, actionData }: Route.Componen
 
       <section aria-labelledby="roster-title">
         <h2 id="roster-title" className="mb-3 text-lg font-medium">
-          {members.length} {members.length === 1 ? "member" : "members"}
+          {counted(members.length, "member", "members")}
         </h2>
         <div
           role="region"

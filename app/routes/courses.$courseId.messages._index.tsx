@@ -8,6 +8,7 @@ import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
 import { listCourseMessages } from "~/server/messages/course-messages.server";
+import { counted } from "~/lib/plural";
 
 /** `?sent=N`: where sending lands, to say to how many it went. */
 const messagesSearch = z.object({ sent: z.coerce.number<string>().int().min(0).optional() });
@@ -27,9 +28,7 @@ export default function CourseMessages({ loaderData }: Route.ComponentProps) {
         Messages to a cohort, or to the students of a lab by where their hand-in stands. Each goes out by e-mail and is kept on each
         student's record.
       </PageHeader>
-      {sent !== null ? (
-        <Notice tone="success">{`Your message is on its way to ${sent} ${sent === 1 ? "student" : "students"}.`}</Notice>
-      ) : null}
+      {sent !== null ? <Notice tone="success">{`Your message is on its way to ${counted(sent, "student", "students")}.`}</Notice> : null}
       {messages.length === 0 ? (
         <p className="text-sm text-ink-700">No messages sent yet.</p>
       ) : (

@@ -19,6 +19,7 @@ import { requireCourseRole, staffRoles } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { messageChoices, previewCourseMessage, sendCourseMessage } from "~/server/messages/course-messages.server";
+import { counted } from "~/lib/plural";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, staffRoles);
@@ -147,7 +148,7 @@ export default function NewCourseMessage({ loaderData, actionData }: Route.Compo
   );
 }
 
-const studentCount = (count: number) => `${count} ${count === 1 ? "student" : "students"}`;
+const studentCount = (count: number) => counted(count, "student", "students");
 
 export function meta() {
   return [{ title: "Write to students · Benchpost" }];

@@ -7,6 +7,8 @@ import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { maxImportRows, normaliseHeader, type ImportRowCheck } from "~/lib/kits/parts-csv";
+import { counted } from "~/lib/plural";
+import { nothingImportedSentence, partsImportedSentence } from "~/lib/import/import-words";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { parseSubmission } from "~/lib/forms/submission";
 import { db } from "~/server/db.server";
@@ -47,7 +49,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   if (submission.status !== "success") return data(submission.reply(), { status: 400 });
   const result = await importParts(db, { courseId: access.course.id, actorId: access.user.id, rows: submission.value.rows });
   if (result.rejected.length) {
-    const reply = submission.reply({ formErrors: [`${result.rejected.length} rows have problems; nothing was imported.`] });
+    const reply = submission.reply({ formErrors: [nothingImportedSentence(result.rejected.length, "parts")] });
     return data({ ...reply, rejected: result.rejected.slice(0, previewLimit) }, { status: 400 });
   }
   return { ok: true as const, ...result };
@@ -69,10 +71,10 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
 
       {imported ? (
         <Notice tone="success">
-          {imported.created} parts imported.{" "}
-          {imported.warnings.length
-            ? `${imported.warnings.length} of them raise checks (${imported.warnings.map((w) => w.label).join(", ")}); open them to see why.`
-            : null}{" "}
+          {partsImportedSentence(
+            imported.created,
+            imported.warnings.map((warning) => warning.label),
+          )}{" "}
           <Link to={base} className="underline">
             Back to the parts
           </Link>
@@ -100,7 +102,7 @@ export default function ImportParts({ loaderData, actionData }: Route.ComponentP
           <Form method="post">
             <input type="hidden" name="rows" value={JSON.stringify(rows)} />
             <Button type="submit" disabled={navigation.state === "submitting"}>
-              Import {checks.length} parts
+              Import {counted(checks.length, "part", "parts")}
             </Button>
           </Form>
         )}

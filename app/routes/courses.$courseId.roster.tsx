@@ -14,6 +14,9 @@ import {
   type RosterChange,
   type RosterRowCheck,
 } from "~/lib/roster/roster-rows";
+import { counted } from "~/lib/plural";
+import { rosterCommitLabel, rosterImportedSentence } from "~/lib/roster/roster-words";
+import { nothingImportedSentence } from "~/lib/import/import-words";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { importRoster, rosterContext } from "~/server/members/roster-import.server";
 import { db } from "~/server/db.server";
@@ -48,7 +51,7 @@ export async function action({ request, context, params }: Route.ActionArgs) {
     return data(
       {
         ok: false as const,
-        message: `Nothing was imported: ${result.problems.length} rows have problems (the course changed since the preview?).`,
+        message: nothingImportedSentence(result.problems.length, "course"),
         problems: result.problems,
       },
       { status: 400 },
@@ -82,11 +85,11 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
         changed by an import. Nothing is written until you confirm the preview.
       </PageHeader>
 
-      {result && result.ok && !result.duplicate ? <Notice tone="success">{importedWords(result)}</Notice> : null}
+      {result && result.ok && !result.duplicate ? <Notice tone="success">{rosterImportedSentence(result)}</Notice> : null}
       {result && result.ok && result.duplicate ? (
         <Notice tone="info">
-          Already imported on <LabTime at={result.committedAt} courseTimeZone={timeZone} /> ({result.rowCount} rows): no invitations were
-          written again.
+          Already imported on <LabTime at={result.committedAt} courseTimeZone={timeZone} /> ({counted(result.rowCount, "row", "rows")}): no
+          invitations were written again.
         </Notice>
       ) : null}
       {result && !result.ok ? <Notice tone="error">{result.message}</Notice> : null}
@@ -118,19 +121,7 @@ export default function RosterImport({ loaderData }: Route.ComponentProps) {
 
 function commitWords(chosen: RosterRowCheck[]) {
   const invited = chosen.filter((check) => check.status === "new").length;
-  const updated = chosen.length - invited;
-  if (updated === 0) return `Import ${invited} people and send their invitations`;
-  if (invited === 0) return `Update ${updated} people`;
-  return `Import ${chosen.length} people: send ${invited} invitations and update ${updated}`;
-}
-
-function importedWords(result: { invited: number; students: number; tas: number; updated: number; unchanged: number }) {
-  const parts = [
-    result.invited ? `${result.invited} invitations sent (${result.students} students, ${result.tas} TAs)` : null,
-    result.updated ? `${result.updated} people updated` : null,
-    result.unchanged ? `${result.unchanged} unchanged` : null,
-  ];
-  return `Imported: ${parts.filter(Boolean).join("; ") || "nothing to change"}.`;
+  return rosterCommitLabel(invited, chosen.length - invited);
 }
 
 const changeWords = (change: RosterChange) => `${change.field} ${change.from ? `“${change.from}”` : "(none)"} → “${change.to}”`;

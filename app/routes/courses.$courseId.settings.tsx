@@ -25,6 +25,7 @@ import {
 } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
+import { counted } from "~/lib/plural";
 
 const returnsIntent = returnSettingsInput.extend({ intent: z.literal("returns") });
 

@@ -27,6 +27,7 @@ import {
   type CandidateKey,
 } from "~/server/shipping/kit-assignment.server";
 import { createShipment } from "~/server/shipping/shipments.server";
+import { counted, plural } from "~/lib/plural";
 
 const candidateKey = z.string().regex(/^[mi]:[0-9a-f-]{36}$/i, "Choose students from the list.") as z.ZodType<CandidateKey>;
 const selection = {
@@ -194,7 +195,8 @@ export default function ShipCohort({ loaderData, actionData }: Route.ComponentPr
 
       {packed ? (
         <Notice tone="success">
-          {packed.packed} kits packed ({packed.made} made up from loose parts). Buy their labels next.
+          {counted(packed.packed, "kit", "kits")} packed ({packed.made} made up from loose parts). Buy{" "}
+          {plural(packed.packed, "its label", "their labels")} next.
         </Notice>
       ) : null}
       {packRefusals.length ? <Notice tone="error">{packRefusals.join(" ")}</Notice> : null}
@@ -208,7 +210,7 @@ export default function ShipCohort({ loaderData, actionData }: Route.ComponentPr
             <input key={kitId} type="hidden" name="kitIds" value={kitId} />
           ))}
           <Button type="submit" disabled={busy}>
-            {busy ? "Starting…" : `Buy labels for the ${packed.packed} kits packed`}
+            {busy ? "Starting…" : `Buy ${plural(packed.packed, "the label for the kit", `labels for the ${packed.packed} kits`)} packed`}
           </Button>
         </Form>
       ) : null}
@@ -229,7 +231,8 @@ export default function ShipCohort({ loaderData, actionData }: Route.ComponentPr
         </SelectField>
         {fields.keys.errors?.length ? <Notice tone="error">{fields.keys.errors.join(" ")}</Notice> : null}
         <p className="text-sm text-ink-600">
-          Tick students to choose them by hand; with none ticked, all {pageInfo.total} students shown by the filter are chosen (every page).
+          Tick students to choose them by hand; with none ticked, {plural(pageInfo.total, "the student", `all ${pageInfo.total} students`)}{" "}
+          shown by the filter {plural(pageInfo.total, "is", "are")} chosen (every page).
         </p>
         <div
           role="region"
@@ -313,7 +316,8 @@ function PlanPreview({ plan, busy }: { plan: Plan; busy: boolean }) {
   return (
     <section aria-labelledby="plan-title" className="flex flex-col gap-3 rounded-lg bg-white p-4 shadow-sm ring-1 ring-ink-900/10">
       <h2 id="plan-title" className="text-lg font-medium">
-        The plan: {plan.kits.length} kits{plan.refused.length ? `, ${plan.refused.length} students without one` : ""}
+        The plan: {counted(plan.kits.length, "kit", "kits")}
+        {plan.refused.length ? `, ${counted(plan.refused.length, "student", "students")} without one` : ""}
       </h2>
       {plan.kits.length ? (
         <table className="min-w-full text-left text-sm">
@@ -363,7 +367,7 @@ function PlanPreview({ plan, busy }: { plan: Plan; busy: boolean }) {
             value={JSON.stringify(plan.kits.map(({ key, kitId, number, partIds }) => ({ key, kitId, number, partIds })))}
           />
           <Button type="submit" disabled={busy}>
-            {busy ? "Packing…" : `Pack these ${plan.kits.length} kits`}
+            {busy ? "Packing…" : `Pack ${plural(plan.kits.length, "this kit", `these ${plan.kits.length} kits`)}`}
           </Button>
         </Form>
       ) : null}

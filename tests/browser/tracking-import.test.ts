@@ -44,8 +44,8 @@ describe("the tracking import in Chromium", () => {
 
     await page.getByLabel(/paste the rows/).fill([header, good].join("\n"));
     await page.getByRole("button", { name: "Preview the pasted rows" }).click();
-    await page.getByRole("button", { name: "Import 1 outbound parcels" }).click();
-    await page.getByText(/Imported: 1 kits in transit/).waitFor();
+    await page.getByRole("button", { name: "Import 1 outbound parcel" }).click();
+    await page.getByText(/Imported: 1 kit in transit/).waitFor();
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
     const [kit] = await database
       .select({ state: kits.state, trackingNumber: kits.trackingNumber })

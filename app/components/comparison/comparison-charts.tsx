@@ -19,6 +19,7 @@ import {
   useChartLayout,
   chartFontSize,
 } from "./chart-parts";
+import { counted } from "~/lib/plural";
 
 export type ComparisonPoint = {
   id: string;
@@ -130,7 +131,7 @@ export function DragCurveChart({ points, title }: { points: ComparisonPoint[]; t
       figureRef={ref}
       id="drag-curve"
       title={title}
-      description={`${plotted.length} hand-ins as points, drag coefficient against Reynolds number on logarithmic axes, with the Stokes, Oseen and Schiller–Naumann reference curves. Circles are consistent, triangles suspect, squares outliers.`}
+      description={`${counted(plotted.length, "hand-in", "hand-ins")} as points, drag coefficient against Reynolds number on logarithmic axes, with the Stokes, Oseen and Schiller–Naumann reference curves. Circles are consistent, triangles suspect, squares outliers.`}
       caption="Each point is a hand-in (circle consistent, triangle suspect, square outlier); the lines are the reference correlations. Select a point to open the hand-in."
       table={
         <PointTable
@@ -217,7 +218,7 @@ export function ViscometryChart({ points, title }: { points: ComparisonPoint[]; 
       figureRef={ref}
       id="viscometry"
       title={title}
-      description={`${plotted.length} hand-ins, measured viscosity against the fluid lot's reference viscosity at the drop temperature, logarithmic axes, with the line where they are equal. A coloured ring gives each drop's temperature from ${formatNumber(tLow, 3)} °C (blue) to ${formatNumber(tHigh, 3)} °C (red).`}
+      description={`${counted(plotted.length, "hand-in", "hand-ins")}, measured viscosity against the fluid lot's reference viscosity at the drop temperature, logarithmic axes, with the line where they are equal. A coloured ring gives each drop's temperature from ${formatNumber(tLow, 3)} °C (blue) to ${formatNumber(tHigh, 3)} °C (red).`}
       caption={`Points on the diagonal measured what the lot's calibration predicts. Ring colour: fluid temperature, blue ${formatNumber(tLow, 3)} °C to red ${formatNumber(tHigh, 3)} °C. Select a point to open the hand-in.`}
       table={
         <PointTable

@@ -5,6 +5,7 @@
 import { scaleLinear } from "d3-scale";
 import { formatNumber } from "~/lib/kits/part-display";
 import { Axes, ChartFigure, chartTableClass, LabelMarker, useChartLayout } from "./chart-parts";
+import { counted } from "~/lib/plural";
 
 export function DropTimesChart({
   drops,
@@ -37,7 +38,7 @@ export function DropTimesChart({
       layout={layout}
       figureRef={ref}
       title={title}
-      description={`${drops.length} drop times in seconds in the order timed, with their mean ${formatNumber(mean)} s; ${stray.size} stray drop${stray.size === 1 ? "" : "s"} marked as squares.`}
+      description={`${counted(drops.length, "drop time", "drop times")} in seconds in the order timed, with their mean ${formatNumber(mean)} s; ${counted(stray.size, "stray drop", "stray drops")} marked as squares.`}
       caption={`Circles: drops; squares: stray drops flagged by the generalized ESD test (kept in the log, reported separately). Line: the mean of all drops, ${formatNumber(mean)} s.`}
       table={
         <table className={chartTableClass}>

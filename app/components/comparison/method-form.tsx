@@ -10,6 +10,7 @@ import { SelectField, TextField } from "~/components/ui/field";
 import { comparisonMethods, comparisonSettings, methodNames, type ComparisonSettings } from "~/lib/comparison/comparison-settings";
 import { parseSubmission } from "~/lib/forms/submission";
 import type { previewLabSettings } from "~/server/comparison/class-comparison.server";
+import { counted } from "~/lib/plural";
 
 export type SettingsPreview = Awaited<ReturnType<typeof previewLabSettings>>;
 
@@ -45,7 +46,7 @@ export function MethodForm({
   // The counts for the saved method show as soon as the page is interactive; later counts follow the form's changes.
   // eslint-disable-next-line react-hooks/exhaustive-deps -- once, on mount: the fetcher changes with every answer
   useEffect(askPreview, []);
-  const counted = preview.data?.preview ?? countedWithoutScript;
+  const flagCounts = preview.data?.preview ?? countedWithoutScript;
   return (
     <section aria-labelledby="method-heading" className="no-print max-w-3xl">
       <h2 id="method-heading" className="mb-2 text-lg font-semibold">
@@ -76,8 +77,8 @@ export function MethodForm({
           />
         </div>
         <div aria-live="polite">
-          {counted ? (
-            <PreviewCounts counted={counted} />
+          {flagCounts ? (
+            <PreviewCounts flagCounts={flagCounts} />
           ) : (
             <p className="text-sm text-ink-600">
               {preview.state === "idle" ? "Change a field to see how many hand-ins it would flag." : "Counting…"}
@@ -99,10 +100,10 @@ export function MethodForm({
   );
 }
 
-function PreviewCounts({ counted }: { counted: SettingsPreview }) {
+function PreviewCounts({ flagCounts }: { flagCounts: SettingsPreview }) {
   return (
     <table className="text-sm [&_td]:py-1 [&_td]:pr-6 [&_th]:pr-6 [&_th]:text-left [&_th]:font-medium">
-      <caption className="mb-1 text-left font-medium">Would flag, of {counted.classSize} hand-ins</caption>
+      <caption className="mb-1 text-left font-medium">Would flag, of {counted(flagCounts.classSize, "hand-in", "hand-ins")}</caption>
       <thead>
         <tr>
           <th scope="col">Setting</th>
@@ -111,7 +112,7 @@ function PreviewCounts({ counted }: { counted: SettingsPreview }) {
         </tr>
       </thead>
       <tbody>
-        {counted.previews.map((row, index) => (
+        {flagCounts.previews.map((row, index) => (
           <tr key={`${index}-${row.description}`} className={index === 0 ? "font-semibold" : undefined}>
             <td>
               {index === 0 ? "Your choice: " : ""}

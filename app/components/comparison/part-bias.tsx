@@ -6,6 +6,7 @@ import { handInHref } from "~/lib/comparison/links";
 import { MINIMUM_HAND_INS_FOR_BIAS, MINIMUM_PEER_PARTS } from "~/lib/comparison/part-bias-thresholds";
 import { formatNumber } from "~/lib/kits/part-display";
 import type { PartBiasView } from "~/server/comparison/part-quality.server";
+import { counted, plural } from "~/lib/plural";
 
 export function PartBiasBadge() {
   return (
@@ -25,7 +26,7 @@ const percent = (fraction: number) => `${fraction >= 0 ? "+" : "−"}${formatNum
 
 /** One sentence per lab: the Welch test against the peers and Holm's verdict, or why there was no test. */
 function comparisonText(comparison: Evidence["comparisons"][number], alpha: number, testsInFamily: number): string {
-  const used = `${comparison.n} hand-in${comparison.n === 1 ? "" : "s"} with this part`;
+  const used = `${counted(comparison.n, "hand-in", "hand-ins")} with this part`;
   if (comparison.t === null || comparison.pValue === null || comparison.degreesOfFreedom === null || comparison.relativeToPeers === null) {
     return `${used}; no test: it needs at least ${MINIMUM_HAND_INS_FOR_BIAS} hand-ins with this part and ${MINIMUM_HAND_INS_FOR_BIAS} with at least ${MINIMUM_PEER_PARTS} other parts of its kind in the lab, with some spread.`;
   }
@@ -34,7 +35,7 @@ function comparisonText(comparison: Evidence["comparisons"][number], alpha: numb
     : comparison.holmLevel === null
       ? "not reached by Holm's procedure: no evidence of a difference."
       : "no evidence of a difference.";
-  return `${used}, ${percent(comparison.relativeToPeers)} from the ${comparison.peerCount} hand-ins with ${comparison.peerParts} other parts of its kind (geometric means). Welch's t = ${formatNumber(comparison.t, 3)}, ${formatNumber(comparison.degreesOfFreedom, 3)} degrees of freedom, p = ${formatNumber(comparison.pValue, 2)}${comparison.holmLevel !== null ? ` against Holm's level ${formatNumber(comparison.holmLevel, 2)}` : ""} (α = ${formatNumber(alpha, 2)} over the course's ${testsInFamily} test${testsInFamily === 1 ? "" : "s"}): ${verdict}`;
+  return `${used}, ${percent(comparison.relativeToPeers)} from the ${counted(comparison.peerCount, "hand-in", "hand-ins")} with ${comparison.peerParts} other ${plural(comparison.peerParts, "part", "parts")} of its kind (geometric means). Welch's t = ${formatNumber(comparison.t, 3)}, ${formatNumber(comparison.degreesOfFreedom, 3)} degrees of freedom, p = ${formatNumber(comparison.pValue, 2)}${comparison.holmLevel !== null ? ` against Holm's level ${formatNumber(comparison.holmLevel, 2)}` : ""} (α = ${formatNumber(alpha, 2)} over the course's ${counted(testsInFamily, "test", "tests")}): ${verdict}`;
 }
 
 export function PartBiasEvidence({ bias, courseId }: { bias: Evidence; courseId: string }) {

@@ -10,6 +10,8 @@ import { Button } from "~/components/ui/button";
 import { dropFieldName } from "~/lib/drop-logs/drop-log-input";
 import { enteredTimes, joinTimes, splitPastedTimes, type TimesJoin } from "~/lib/drop-logs/pasted-times";
 import { parseTypedNumber } from "~/lib/forms/typed-number";
+import { plural } from "~/lib/plural";
+import { joinTimesQuestion } from "~/lib/drop-logs/drop-log-words";
 
 /** A column of times waiting for the student to say how it joins the drops already typed. */
 type IncomingColumn = { times: string[]; /** "from the clipboard", "from runs.csv" */ from: string; returnFocusTo: number };
@@ -239,15 +241,14 @@ function JoinTimesChoice({
       }}
     >
       <p id="join-times-question" className="text-sm">
-        {incoming.times.length} drop times {incoming.from}, and the log already has {typedCount} {typedCount === 1 ? "drop" : "drops"}. Add
-        them after the last drop, or replace the drops with them?
+        {joinTimesQuestion(incoming.times.length, incoming.from, typedCount)}
       </p>
       <div className="mt-2 flex flex-wrap gap-2">
         <Button ref={first} type="button" onClick={() => onChoose("append")}>
           Add after drop {typedCount}
         </Button>
         <Button type="button" variant="danger" onClick={() => onChoose("replace")}>
-          Replace {typedCount === 1 ? "the drop" : `all ${typedCount} drops`}
+          Replace {plural(typedCount, "the drop", `all ${typedCount} drops`)}
         </Button>
         <Button type="button" variant="secondary" onClick={onCancel}>
           Cancel

@@ -9,6 +9,7 @@ import { useEffect, useId, useMemo, useState, type ReactNode } from "react";
 import { Button } from "~/components/ui/button";
 import { TextAreaField } from "~/components/ui/field";
 import { Notice } from "~/components/ui/notice";
+import { leftOutSentence, previewHeading, shownRowsSentence } from "~/lib/import/import-words";
 
 /** One reading of a file: `readId` is new each time, so a page can tell two previews apart (e.g. to import one once). */
 export type CsvFile = { name: string; readId: string; headers: string[]; records: Record<string, string>[] };
@@ -187,7 +188,7 @@ function Preview<Review extends CsvReview>({
   return (
     <section aria-labelledby="preview-heading" className="flex flex-col gap-3">
       <h2 id="preview-heading" className="text-lg font-semibold">
-        Preview: {checks.length} rows, {withProblems.length} with problems
+        {previewHeading(checks.length, withProblems.length)}
       </h2>
       <p className="text-sm text-ink-700">From {file.name}.</p>
       {problems.length ? (
@@ -205,12 +206,7 @@ function Preview<Review extends CsvReview>({
         <Notice tone="warning">Fix the problems marked here in your file, then read it again. Nothing has been written.</Notice>
       ) : (
         <>
-          {withProblems.length ? (
-            <Notice tone="warning">
-              {withProblems.length === 1 ? "1 row with problems is" : `${withProblems.length} rows with problems are`} left out: fix them in
-              your file and import it again to add them.
-            </Notice>
-          ) : null}
+          {withProblems.length ? <Notice tone="warning">{leftOutSentence(withProblems.length)}</Notice> : null}
           {commit(review, file)}
         </>
       )}
@@ -256,9 +252,7 @@ function Preview<Review extends CsvReview>({
           </tbody>
         </table>
         {ordered.length > shown.length ? (
-          <p className="px-3 py-2 text-sm text-ink-700">
-            The first {shown.length} of {ordered.length} rows are shown, those with problems first.
-          </p>
+          <p className="px-3 py-2 text-sm text-ink-700">{shownRowsSentence(shown.length, ordered.length)}</p>
         ) : null}
       </div>
     </section>

@@ -1,6 +1,7 @@
 /** The parts page's side of the CSV import: its columns, how it checks a file, and the rows the server refused. */
 import { useCallback } from "react";
 import type { CsvColumn, CsvFile } from "~/components/import/csv-import";
+import { tooManyRowsSentence } from "~/lib/import/import-words";
 import { partKindLabels, type PartKind } from "~/lib/kits/part-input";
 import { checkImportHeaders, checkImportRows, maxImportRows, partCsvColumns, type ImportRowCheck } from "~/lib/kits/parts-csv";
 
@@ -15,7 +16,7 @@ export function usePartReview(existingLabels: string[]) {
     (file: CsvFile) => {
       const rows = file.records;
       const problems = checkImportHeaders(file.headers);
-      if (rows.length > maxImportRows) problems.push(`The file has ${rows.length} rows; import at most ${maxImportRows} at a time.`);
+      if (rows.length > maxImportRows) problems.push(tooManyRowsSentence(rows.length, maxImportRows));
       return { rows, checks: checkImportRows(rows, existingLabels), problems };
     },
     [existingLabels],

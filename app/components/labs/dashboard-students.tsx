@@ -12,6 +12,7 @@ import { Notice } from "~/components/ui/notice";
 import { handInHref } from "~/lib/comparison/links";
 import type { action as extensionsAction } from "~/routes/courses.$courseId.labs.$labId.extensions";
 import type { DashboardStudent } from "~/server/labs/lab-dashboard.server";
+import { extendedWho, selectedStudentsWords } from "~/lib/labs/extension-words";
 
 export function DashboardStudents({
   courseId,
@@ -164,8 +165,7 @@ function ExtendSelected({
       {done ? (
         <div className="mb-3">
           <Notice tone="success">
-            {done.count === 1 ? "The student is" : `${done.count} students are`} now due{" "}
-            {done.dueAt ? <LabTime at={done.dueAt} courseTimeZone={timeZone} /> : null}.{" "}
+            {extendedWho(done.count)} now due {done.dueAt ? <LabTime at={done.dueAt} courseTimeZone={timeZone} /> : null}.{" "}
             <Link to={extensionsHref} className="underline">
               See every extension
             </Link>
@@ -181,8 +181,7 @@ function ExtendSelected({
         <input type="hidden" name="intent" value="extend-students" />
         <ExtensionWindowFields timeZone={timeZone} errors={errors} />
         <Button type="submit" disabled={selected.size === 0 || fetcher.state !== "idle"} className="self-start">
-          Give {selected.size === 0 ? "the selected students" : selected.size === 1 ? "this student" : `these ${selected.size} students`}{" "}
-          the new due time
+          Give {selectedStudentsWords(selected.size)} the new due time
         </Button>
       </fetcher.Form>
     </section>

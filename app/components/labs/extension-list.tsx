@@ -4,6 +4,7 @@ import { LabTime } from "~/components/drop-logs/lab-time";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import type { ExtensionRow } from "~/server/labs/extensions.server";
+import { extendedWho } from "~/lib/labs/extension-words";
 
 export function ClassTimes({ lab, timeZone }: { lab: { opensAt: string; dueAt: string; lateCutoffAt: string | null }; timeZone: string }) {
   return (
@@ -135,7 +136,7 @@ export function DoneNotice({
         them.
       </Notice>
     );
-  const who = done === "extend-cohort" ? "The cohort is" : count === 1 ? "The student is" : `${count} students are`;
+  const who = done === "extend-cohort" ? "The cohort is" : extendedWho(count);
   return (
     <Notice tone="success">
       {who} now due <LabTime at={dueAt!} courseTimeZone={timeZone} />; hand-ins already made are judged by the new time.

@@ -15,6 +15,7 @@ import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
 import { PointsInput, SaveStatus, typedPoints } from "./mark-inputs";
 import type { SaveState } from "./mark-saves";
+import { counted } from "~/lib/plural";
 
 const panelStatusWords: Record<HandInStanding, string> = {
   missing: "nothing handed in",
@@ -45,7 +46,7 @@ function AutoOverride({
       </p>
       {cell?.source === "override" ? (
         <p className="text-amber-700">
-          Overridden to {cell.points} points: “{cell.overrideReason}”
+          Overridden to {counted(cell.points ?? 0, "point", "points")}: “{cell.overrideReason}”
         </p>
       ) : null}
       {canEdit && cell?.source !== "released" ? (
@@ -208,7 +209,7 @@ export function MarkPanel({
                         onChange={() => save({ kind: "score", criterionId: criterion.id, level: index + 1, points: null })}
                       />
                       <span>
-                        <strong>{index + 1}</strong> · {level.points} pts — {level.description}
+                        <strong>{index + 1}</strong> · {counted(level.points, "point", "points")} — {level.description}
                       </span>
                     </label>
                   ))}

@@ -5,6 +5,7 @@
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { figure } from "~/components/drop-logs/reduction-summary";
 import type { StudentMark } from "~/server/marking/student-mark.server";
+import { counted } from "~/lib/plural";
 
 export function StudentMarkView({ mark, timeZone }: { mark: StudentMark; timeZone: string }) {
   const basedOn = mark.basedOn;
@@ -86,7 +87,8 @@ export function StudentMarkView({ mark, timeZone }: { mark: StudentMark; timeZon
       ) : null}
       {basedOn ? (
         <p className="text-xs text-ink-700">
-          Marked on version {basedOn.version} of your drop log ({basedOn.dropCount ?? "?"} drops
+          Marked on version {basedOn.version} of your drop log (
+          {basedOn.dropCount === null ? "? drops" : counted(basedOn.dropCount, "drop", "drops")}
           {basedOn.mode === "drag"
             ? `, C_D ${figure(basedOn.dragCoefficient, 3)} at Re ${figure(basedOn.reynolds, 2)}`
             : `, μ ${figure(basedOn.viscosityPaS, 3)} Pa·s`}

@@ -5,6 +5,8 @@ import { LabTime } from "~/components/drop-logs/lab-time";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { afterReleaseHandInNames, releasedCount, type ReleaseCounts } from "~/lib/marking/release";
+import { changedSinceWords, releaseButtonLabel, reopenedWords, stillOpenWords } from "~/lib/marking/moderation-words";
+import { counted } from "~/lib/plural";
 import type { Moderation, ReleasePreview } from "~/server/marking/moderation.server";
 
 type Standing = Pick<Moderation, "released" | "changedAfterRelease" | "needsRemarking" | "release">;
@@ -39,9 +41,9 @@ export function MarkingState({
         )}{" "}
         {lab.releasedAt ? (
           <>
-            {released} marks released, last on <LabTime at={lab.releasedAt} courseTimeZone={timeZone} />
-            {changedAfterRelease ? `; ${changedAfterRelease} changed since, shown to their students with the reason` : ""}
-            {needsRemarking ? `; ${needsRemarking} reopened by a hand-in after the release: mark them again at the desk` : ""}.
+            {counted(released, "mark", "marks")} released, last on <LabTime at={lab.releasedAt} courseTimeZone={timeZone} />
+            {changedAfterRelease ? `; ${changedSinceWords(changedAfterRelease)}` : ""}
+            {needsRemarking ? `; ${reopenedWords(needsRemarking)}` : ""}.
           </>
         ) : (
           "Nothing released: students see no marks."
@@ -115,7 +117,7 @@ function ReleaseForm({
       </ul>
       {stillOpen.students ? (
         <Notice tone="warning">
-          {stillOpen.students} student{stillOpen.students === 1 ? "" : "s"} may still hand in (extensions counted)
+          {stillOpenWords(stillOpen.students)}
           {stillOpen.until ? (
             <>
               , until <LabTime at={stillOpen.until} courseTimeZone={timeZone} />
@@ -153,7 +155,7 @@ function ReleaseForm({
       </fieldset>
       <div>
         <Button type="submit" disabled={busy || count === null}>
-          {count === null ? "Choose whom to release" : `Release ${count} mark${count === 1 ? "" : "s"} and e-mail their students`}
+          {count === null ? "Choose whom to release" : releaseButtonLabel(count)}
         </Button>
       </div>
     </Form>

@@ -3,6 +3,7 @@ import { Notice } from "~/components/ui/notice";
 import type { FluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import type { CalibrationFinding } from "~/lib/kits/glycerol-water";
 import { formatNumber } from "~/lib/kits/part-display";
+import { counted } from "~/lib/plural";
 
 /** A calibration point's handbook check in words (the warnings above say what to do). */
 const calibrationFindingWords: Record<CalibrationFinding["kind"], string> = {
@@ -23,7 +24,7 @@ export function CalibrationSection({ calibration, label }: { calibration: FluidL
       <p className="text-sm text-ink-700">
         {fit.kind === "andrade" ? (
           <>
-            Andrade fit ln(μ / Pa·s) = A + B/T with T in kelvin, by least squares over {fit.pointCount} points from{" "}
+            Andrade fit ln(μ / Pa·s) = A + B/T with T in kelvin, by least squares over {counted(fit.pointCount, "point", "points")} from{" "}
             {fit.temperatureRange[0]} to {fit.temperatureRange[1]} °C: A = {formatNumber(fit.a, 5)}, B = {formatNumber(fit.b, 5)} K. The
             largest residual is {formatNumber(fit.maxRelativeResidual * 100, 2)} %.
           </>

@@ -2,6 +2,7 @@ import { useEffect } from "react";
 import { useRevalidator } from "react-router";
 import { formatDateTime } from "~/lib/format-date";
 import type { RereductionProgress } from "~/server/kits/rereduce.server";
+import { counted } from "~/lib/plural";
 
 /** How often the page reloads its data while a re-reduction runs. */
 const PROGRESS_POLL_MS = 1500;
@@ -26,7 +27,8 @@ export function RereductionList({ runs, timeZone }: { runs: RereductionProgress[
       <ul className="flex flex-col gap-1 text-sm" aria-live="polite">
         {runs.map((run) => (
           <li key={run.id} data-testid="rereduction-progress">
-            <time dateTime={run.createdAt}>{formatDateTime(run.createdAt, timeZone)}</time>: {run.done} of {run.total} hand-ins recomputed
+            <time dateTime={run.createdAt}>{formatDateTime(run.createdAt, timeZone)}</time>: {run.done} of{" "}
+            {counted(run.total, "hand-in", "hand-ins")} recomputed
             {run.finishedAt ? " — finished; the class comparison is relabelled." : " — running…"}
           </li>
         ))}

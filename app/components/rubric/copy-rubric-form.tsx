@@ -2,6 +2,7 @@ import { getFormProps, useForm, type SubmissionResult } from "@conform-to/react"
 import { Form } from "react-router";
 import { Button } from "~/components/ui/button";
 import { SelectField } from "~/components/ui/field";
+import { counted } from "~/lib/plural";
 
 /** "Copy the rubric of another lab": replaces this lab's criteria, only before anyone is marked. */
 export function CopyRubricForm({
@@ -24,7 +25,7 @@ export function CopyRubricForm({
       <SelectField label="Copy the rubric of another lab" field={fields.fromLabId} className="min-w-64">
         {sources.map((source) => (
           <option key={source.labId} value={source.labId}>
-            {source.title} ({source.criteria} criteria)
+            {source.title} ({counted(source.criteria, "criterion", "criteria")})
           </option>
         ))}
       </SelectField>

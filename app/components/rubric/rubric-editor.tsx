@@ -13,6 +13,7 @@ import { PageHeader } from "~/components/ui/page-header";
 import { parseSubmission } from "~/lib/forms/submission";
 import { rubricFormInput, type RubricCriterionInput } from "~/lib/marking/rubric";
 import { CriterionFields, starterCriterion, typedMaxPoints } from "./criterion-fields";
+import { counted } from "~/lib/plural";
 
 export function RubricEditor({
   courseId,
@@ -48,7 +49,7 @@ export function RubricEditor({
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
         tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor />}
       >
-        Rubric · {criteria.length} criteria · out of {maxTotal} points
+        Rubric · {counted(criteria.length, "criterion", "criteria")} · out of {counted(maxTotal, "point", "points")}
       </PageHeader>
       {notices}
       {form.errors?.length ? <Notice tone="error">{form.errors.join(" ")}</Notice> : null}

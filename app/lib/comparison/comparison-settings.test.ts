@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { comparisonLimits, labelClass, previewSettings } from "./class-labelling";
-import { countLabels, type ComparisonSettings } from "./comparison-settings";
+import { countLabels, describeSettings, type ComparisonSettings } from "./comparison-settings";
 
 const grubbs: ComparisonSettings = { method: "grubbs", alpha: 0.05, maxOutliers: 3, k: 1.5 };
 const tukey: ComparisonSettings = { ...grubbs, method: "iqr" };
@@ -69,5 +69,20 @@ describe("class labels against published and hand-worked examples", () => {
     expect(previews[4].description).toBe("generalized ESD test, α = 0.01, up to r = 3 outliers");
     expect(previews[0].counts).toEqual(countLabels(labelClass(asFigures(worked), tukey, "drag")));
     expect(previews[0].counts).toEqual({ consistent: 7, suspect: 1, outlier: 1 });
+  });
+});
+
+describe("the comparison settings in words", () => {
+  it("count the removals and outliers allowed at 0, 1 and 2", () => {
+    expect([0, 1, 2].map((maxOutliers) => describeSettings({ ...grubbs, maxOutliers }))).toEqual([
+      "Grubbs' test, α = 0.05, at most 0 removals",
+      "Grubbs' test, α = 0.05, at most 1 removal",
+      "Grubbs' test, α = 0.05, at most 2 removals",
+    ]);
+    expect([0, 1, 2].map((maxOutliers) => describeSettings({ ...grubbs, method: "esd", maxOutliers }))).toEqual([
+      "generalized ESD test, α = 0.05, up to r = 0 outliers",
+      "generalized ESD test, α = 0.05, up to r = 1 outlier",
+      "generalized ESD test, α = 0.05, up to r = 2 outliers",
+    ]);
   });
 });

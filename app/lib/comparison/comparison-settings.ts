@@ -6,6 +6,7 @@
 import { z } from "zod";
 import { typedNumber } from "~/lib/forms/typed-number";
 import type { ClassComparisonLabel } from "~/lib/reduction/class-comparison";
+import { counted } from "../plural";
 
 export const comparisonLabels = ["consistent", "suspect", "outlier"] as const satisfies readonly ClassComparisonLabel[];
 
@@ -38,9 +39,9 @@ export const methodNames: Record<ComparisonSettings["method"], string> = {
 /** Plain words for a setting, as the page, the CSV and the API quote it. */
 export function describeSettings(settings: ComparisonSettings): string {
   if (settings.method === "grubbs")
-    return `Grubbs' test, α = ${settings.alpha}, at most ${settings.maxOutliers} removal${settings.maxOutliers === 1 ? "" : "s"}`;
+    return `Grubbs' test, α = ${settings.alpha}, at most ${counted(settings.maxOutliers, "removal", "removals")}`;
   if (settings.method === "esd")
-    return `generalized ESD test, α = ${settings.alpha}, up to r = ${settings.maxOutliers} outlier${settings.maxOutliers === 1 ? "" : "s"}`;
+    return `generalized ESD test, α = ${settings.alpha}, up to r = ${counted(settings.maxOutliers, "outlier", "outliers")}`;
   return `Tukey's fences, k = ${settings.k} (outer ${2 * settings.k}), type-7 quartiles`;
 }
 

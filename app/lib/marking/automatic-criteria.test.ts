@@ -81,4 +81,16 @@ describe("automatic criteria", () => {
     expect(evaluateAutoCriterion(auto("on_time", 2, { latePenaltyPoints: 0.5 }), { ...handIn, late: true }).points).toBe(1.5);
     expect(evaluateAutoCriterion(auto("on_time", 2), { ...handIn, late: true }).points).toBe(0);
   });
+
+  it("give their reasons in words that agree with the counts at 0, 1 and 2", () => {
+    const drops = auto("required_drops", 2);
+    expect([0, 1, 2].map((n) => evaluateAutoCriterion(drops, { ...handIn, dropCount: n, requiredDrops: 1 }).reason)).toEqual([
+      "0 drops, fewer than the 1 required.",
+      "1 drop, at least the 1 required.",
+      "2 drops, at least the 1 required.",
+    ]);
+    expect(
+      [0, 1, 2].map((n) => evaluateAutoCriterion(auto("on_time", 2, { latePenaltyPoints: n }), { ...handIn, late: true }).reason),
+    ).toEqual(["Handed in late: 0 points off.", "Handed in late: 1 point off.", "Handed in late: 2 points off."]);
+  });
 });

@@ -5,6 +5,7 @@
  */
 import type { ClassComparisonLabel } from "~/lib/reduction";
 import { roundPoints, type RubricCriterion } from "./rubric";
+import { counted } from "../plural";
 
 /** What the automatic rules read about one student's hand-in for the lab. */
 export type HandInEvidence = {
@@ -40,8 +41,8 @@ export function evaluateAutoCriterion(
     case "required_drops": {
       if (evidence.dropCount === null) return { points: null, reason: "The hand-in's drop count is unknown." };
       return evidence.dropCount >= evidence.requiredDrops
-        ? { points: max, reason: `${evidence.dropCount} drops, at least the ${evidence.requiredDrops} required.` }
-        : { points: 0, reason: `${evidence.dropCount} drops, fewer than the ${evidence.requiredDrops} required.` };
+        ? { points: max, reason: `${counted(evidence.dropCount, "drop", "drops")}, at least the ${evidence.requiredDrops} required.` }
+        : { points: 0, reason: `${counted(evidence.dropCount, "drop", "drops")}, fewer than the ${evidence.requiredDrops} required.` };
     }
     case "within_reference": {
       if (evidence.figure === null) return { points: null, reason: "The hand-in has no normalised figure to compare with the reference." };
@@ -67,7 +68,7 @@ export function evaluateAutoCriterion(
     case "on_time": {
       if (!evidence.late) return { points: max, reason: "Handed in on time." };
       const penalty = criterion.autoParams.latePenaltyPoints ?? max;
-      return { points: roundPoints(Math.max(0, max - penalty)), reason: `Handed in late: ${penalty} points off.` };
+      return { points: roundPoints(Math.max(0, max - penalty)), reason: `Handed in late: ${counted(penalty, "point", "points")} off.` };
     }
     default:
       return { points: null, reason: "Not an automatic criterion." };

@@ -42,4 +42,17 @@ describe("the rubric schema", () => {
       "2 points when handed in on time, 1 when late.",
     );
   });
+
+  it("describes the points and drops of a rule in words that agree at 0, 1 and 2", () => {
+    expect([0, 1, 2].map((n) => describeAutoRule({ autoRule: "required_drops", autoParams: {}, maxPoints: n }, n))).toEqual([
+      "0 points when the counted hand-in has at least the lab's 0 drops, none otherwise.",
+      "1 point when the counted hand-in has at least the lab's 1 drop, none otherwise.",
+      "2 points when the counted hand-in has at least the lab's 2 drops, none otherwise.",
+    ]);
+    expect(
+      rubricInput.safeParse({
+        criteria: [{ kind: "auto", title: "On time", rule: "on_time", maxPoints: 1, params: { latePenaltyPoints: 2 } }],
+      }).error?.issues[0].message,
+    ).toBe("At most the criterion's 1 point.");
+  });
 });

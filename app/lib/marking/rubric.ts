@@ -5,6 +5,7 @@
  */
 import { z } from "zod";
 import { typedNumber } from "~/lib/forms/typed-number";
+import { counted } from "../plural";
 
 export const criterionKinds = ["levels", "range", "auto"] as const;
 export type CriterionKind = (typeof criterionKinds)[number];
@@ -104,7 +105,11 @@ export const autoCriterionInput = z
     for (const key of ["suspectPoints", "latePenaltyPoints"] as const) {
       const value = params[key];
       if (value !== undefined && value > maxPoints)
-        context.addIssue({ code: "custom", path: ["params", key], message: `At most the criterion's ${maxPoints} points.` });
+        context.addIssue({
+          code: "custom",
+          path: ["params", key],
+          message: `At most the criterion's ${counted(maxPoints, "point", "points")}.`,
+        });
     }
   });
 
@@ -186,15 +191,16 @@ export const roundPoints = (value: number) => Math.round(value * 100) / 100;
 /** A sentence for people: what an automatic rule awards, with its parameters filled in. */
 export function describeAutoRule(criterion: Pick<RubricCriterion, "autoRule" | "autoParams" | "maxPoints">, requiredDrops: number): string {
   const { autoParams: params, maxPoints } = criterion;
+  const points = counted(maxPoints, "point", "points");
   switch (criterion.autoRule) {
     case "required_drops":
-      return `${maxPoints} points when the counted hand-in has at least the lab's ${requiredDrops} drops, none otherwise.`;
+      return `${points} when the counted hand-in has at least the lab's ${counted(requiredDrops, "drop", "drops")}, none otherwise.`;
     case "within_reference":
-      return `${maxPoints} points when the normalised figure is within ±${params.tolerancePercent ?? 0} % of the reference (1), none otherwise.`;
+      return `${points} when the normalised figure is within ±${params.tolerancePercent ?? 0} % of the reference (1), none otherwise.`;
     case "not_outlier":
-      return `${maxPoints} points when the class comparison labels the hand-in consistent, ${params.suspectPoints ?? maxPoints / 2} when suspect, none when outlier.`;
+      return `${points} when the class comparison labels the hand-in consistent, ${params.suspectPoints ?? maxPoints / 2} when suspect, none when outlier.`;
     case "on_time":
-      return `${maxPoints} points when handed in on time, ${Math.max(0, maxPoints - (params.latePenaltyPoints ?? maxPoints))} when late.`;
+      return `${points} when handed in on time, ${Math.max(0, maxPoints - (params.latePenaltyPoints ?? maxPoints))} when late.`;
     default:
       return "";
   }

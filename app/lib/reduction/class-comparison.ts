@@ -4,6 +4,7 @@ import { generalizedEsdOfSorted } from "./generalized-esd";
 import { grubbsIterativeStepsOfSorted, type GrubbsStep } from "./grubbs";
 import { MINIMUM_DROPS_FOR_STRAY_TEST } from "./stray-drops";
 import { quantileType7 } from "./tukey";
+import { counted } from "../plural";
 
 export interface ClassComparisonEntry {
   id: string;
@@ -126,7 +127,7 @@ export function classComparison(entries: readonly ClassComparisonEntry[], option
   const budgetText =
     options.method === "esd"
       ? ` (not an outlier at α = ${alpha} with r = ${maxOutliers})`
-      : ` (not removed at α = ${alpha} within ${maxOutliers} removal${maxOutliers === 1 ? "" : "s"})`;
+      : ` (not removed at α = ${alpha} within ${counted(maxOutliers, "removal", "removals")})`;
   let outlierSteps: GrubbsStep[];
   let looseSteps: GrubbsStep[];
   let stepText: (step: GrubbsStep, level: number, steps: readonly GrubbsStep[]) => string;

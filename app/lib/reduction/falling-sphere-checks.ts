@@ -26,6 +26,7 @@ import {
   type AppliedWallCorrection,
   type WallCorrection,
 } from "./wall";
+import { counted } from "../plural";
 
 /** The wall slowing a sphere by more than this is worth saying when no correction was chosen (our threshold). */
 const NEGLIGIBLE_WALL_EFFECT = 0.01;
@@ -85,7 +86,7 @@ const CHECKS: readonly CheckRule[] = [
     applies: ({ input }) => input.drops.length < requiredDrops(input),
     message: ({ input }) => {
       const n = input.drops.length;
-      return `${n} drop${n === 1 ? "" : "s"} timed; the lab asks for at least ${requiredDrops(input)}.`;
+      return `${counted(n, "drop", "drops")} timed; the lab asks for at least ${requiredDrops(input)}.`;
     },
   },
   {

@@ -86,4 +86,12 @@ describe("findStrayDrops", () => {
     const five = reduceFallingSphere({ ...base, drops: [5, 5.01, 4.99, 5.02, 7] });
     expect(five.checks.find((check) => check.code === "stray-drop-test-not-applicable")?.level).toBe("info");
   });
+
+  it("says it makes no test in words that agree with the drops at 0, 1 and 2", () => {
+    expect([[], [5], [5, 5.01]].map((times) => findStrayDrops(times).check?.message.split(":")[0])).toEqual([
+      "No stray-drop test with 0 drops",
+      "No stray-drop test with 1 drop",
+      "No stray-drop test with 2 drops",
+    ]);
+  });
 });

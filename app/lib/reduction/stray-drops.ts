@@ -2,6 +2,7 @@ import type { ReductionCheck } from "./falling-sphere";
 import { format } from "./format";
 import { generalizedEsd } from "./generalized-esd";
 import type { StudentizedDeviateStep } from "./grubbs";
+import { counted } from "../plural";
 
 /**
  * Fewest drops the stray-drop test is made on. The NIST/SEMATECH e-Handbook §1.3.5.17.1 warns that
@@ -56,7 +57,7 @@ export function findStrayDrops(times: readonly number[], options: StrayDropOptio
       check: {
         code: "stray-drop-test-not-applicable",
         level: "info",
-        message: `No stray-drop test with ${n} drop${n === 1 ? "" : "s"}: the test needs at least ${MINIMUM_DROPS_FOR_STRAY_TEST}, because Grubbs-type tests tag too many points at six or fewer (NIST/SEMATECH e-Handbook §1.3.5.17.1). Look over the drop times yourself.`,
+        message: `No stray-drop test with ${counted(n, "drop", "drops")}: the test needs at least ${MINIMUM_DROPS_FOR_STRAY_TEST}, because Grubbs-type tests tag too many points at six or fewer (NIST/SEMATECH e-Handbook §1.3.5.17.1). Look over the drop times yourself.`,
       },
     };
   }
@@ -82,7 +83,7 @@ export function findStrayDrops(times: readonly number[], options: StrayDropOptio
     check: {
       code: "stray-drops",
       level: "warn",
-      message: `The generalized ESD test (Rosner 1983) at α = ${alpha}${stepAlpha === alpha ? "" : ` (λ at α/${maxStrayDrops} below ${ROSNER_ACCURATE_FROM} drops)`}, up to ${maxStrayDrops} stray drop${maxStrayDrops === 1 ? "" : "s"}, flags ${listed}: R${outlierCount} = ${format(deciding.statistic)} > λ${outlierCount} = ${format(deciding.critical)} (n = ${deciding.n}). Deviations within the timing resolution (${format(resolution)} s) are never flagged. Results are given with all drops and without the stray ones.`,
+      message: `The generalized ESD test (Rosner 1983) at α = ${alpha}${stepAlpha === alpha ? "" : ` (λ at α/${maxStrayDrops} below ${ROSNER_ACCURATE_FROM} drops)`}, up to ${counted(maxStrayDrops, "stray drop", "stray drops")}, flags ${listed}: R${outlierCount} = ${format(deciding.statistic)} > λ${outlierCount} = ${format(deciding.critical)} (n = ${deciding.n}). Deviations within the timing resolution (${format(resolution)} s) are never flagged. Results are given with all drops and without the stray ones.`,
     },
   };
 }

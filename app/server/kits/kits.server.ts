@@ -24,6 +24,7 @@ import type { Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { jsonRows, orNull } from "~/server/json-rows.server";
 import { reportKitProblem } from "~/server/kits/kit-problems.server";
+import { plural } from "~/lib/plural";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -272,7 +273,7 @@ async function checkHolders(tx: Transaction, courseId: string, current: Kit[], m
   if (held.length)
     throw new AppError({
       code: "kit_refused",
-      message: `${held.length === 1 ? "This student already holds kit" : "These students already hold kits"} ${held.join(", ")}; one kit per student.`,
+      message: `${plural(held.length, "This student already holds kit", "These students already hold kits")} ${held.join(", ")}; one kit per student.`,
     });
 }
 

@@ -24,6 +24,7 @@ import {
   type ReleaseStanding,
 } from "~/lib/marking/release";
 import { maxTotalOf, roundPoints } from "~/lib/marking/rubric";
+import { stillOpenWords } from "~/lib/marking/moderation-words";
 import { insertMany } from "~/server/bulk-insert.server";
 import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
@@ -370,7 +371,7 @@ export async function releaseMarks(
     if (preview.stillOpen.students > 0 && !choice.whileOpen) {
       throw markingRefusal(
         "still_open",
-        `${preview.stillOpen.students} student${preview.stillOpen.students === 1 ? "" : "s"} may still hand in (extensions counted). Confirm that you release while hand-ins are still possible.`,
+        `${stillOpenWords(preview.stillOpen.students)}. Confirm that you release while hand-ins are still possible.`,
         "whileOpen",
       );
     }

@@ -19,6 +19,7 @@ import type { Database, Executor } from "~/server/db.server";
 import { renderEmail } from "~/server/email/email-templates.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { isoText, uuidList } from "~/server/sql.server";
+import { counted } from "~/lib/plural";
 
 /** How many names the preview shows. */
 const PREVIEW_NAMES = 5;
@@ -171,7 +172,7 @@ export async function sendCourseMessage(
       throw new AppError({
         code: "audience_changed",
         status: 409,
-        message: `The audience changed since the preview: it is now ${members.length} ${members.length === 1 ? "student" : "students"}, not ${input.expectedCount}. Nothing was sent; preview again.`,
+        message: `The audience changed since the preview: it is now ${counted(members.length, "student", "students")}, not ${input.expectedCount}. Nothing was sent; preview again.`,
       });
     const [message] = await tx
       .insert(courseMessages)

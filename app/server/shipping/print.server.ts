@@ -14,6 +14,7 @@ import type { PostalAddress } from "~/lib/shipping/postal-address";
 import type { Executor } from "~/server/db.server";
 import { jsonRows } from "~/server/json-rows.server";
 import { addressesFor, auditAddressViews } from "~/server/shipping/addresses.server";
+import { counted } from "~/lib/plural";
 
 /** Each kit of a shipment with its label, holder and parts, in kit-number order: one statement. */
 async function shipmentPrintItems(executor: Executor, courseId: string, shipmentId: string) {
@@ -164,7 +165,7 @@ const labelMissingWords: Record<string, string> = {
 
 async function renderShipmentPdf(course: { code: string; title: string }, items: PrintItem[]): Promise<Uint8Array> {
   const pdf = await PDFDocument.create();
-  pdf.setTitle(`Shipment of ${items.length} kits · ${course.code}`);
+  pdf.setTitle(`Shipment of ${counted(items.length, "kit", "kits")} · ${course.code}`);
   pdf.setCreator("Benchpost");
   const fonts = { regular: await pdf.embedFont(StandardFonts.Helvetica), bold: await pdf.embedFont(StandardFonts.HelveticaBold) };
 
