@@ -14,9 +14,10 @@ export default function DeadlineReminderEmail(props: Props) {
       reason={`You got this e-mail because you are a student in ${props.courseTitle} and have not handed in a drop log for ${props.labTitle} yet.`}
     >
       <Heading>{props.labTitle} is due soon</Heading>
+      <Paragraph>There is {describeTimeLeft(props.hoursLeft)} left to hand in your drop log. You can hand in from your phone.</Paragraph>
       <Paragraph>
-        There is {describeTimeLeft(props.hoursLeft)} left to hand in your drop log. You can hand in from your phone; a later hand-in
-        replaces the earlier one until the deadline.
+        Every hand-in is kept as a version of its own, and your latest one is the one that counts. A hand-in after the due time is taken and
+        labelled late; the lab page says until when late hand-ins are taken.
       </Paragraph>
       <FactList
         facts={[
