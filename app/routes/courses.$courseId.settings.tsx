@@ -58,7 +58,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   } else if (input.intent === "returns") {
     const { intent: _intent, ...returns } = input;
     await updateReturnSettings(db, { courseId, actorId, input: returns });
-  } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
+  } else if (input.intent === "add-cohort") await addCohort(db, { courseId, actorId, name: input.name });
   else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
   else if (input.intent === "archive") await archiveCourse(db, { courseId, actorId, request });
   else if (input.intent === "restore") await restoreCourse(db, { courseId, actorId, request });

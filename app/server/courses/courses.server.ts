@@ -57,10 +57,16 @@ export async function updateReturnSettings(
   });
 }
 
-export async function addCohort(executor: Executor, { courseId, name }: { courseId: string; name: string }): Promise<void> {
-  const inserted = await executor.insert(cohorts).values({ courseId, name }).onConflictDoNothing().returning({ id: cohorts.id });
-  if (inserted.length === 0)
-    throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+export async function addCohort(
+  executor: Executor,
+  { courseId, actorId, name }: { courseId: string; actorId: string; name: string },
+): Promise<void> {
+  await executor.transaction(async (tx) => {
+    const inserted = await tx.insert(cohorts).values({ courseId, name }).onConflictDoNothing().returning({ id: cohorts.id });
+    if (inserted.length === 0)
+      throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+    await recordAudit(tx, { courseId, actorId, action: "course.cohort_created", subject: `cohort:${inserted[0].id}` });
+  });
 }
 
 /** Renames one of the course's cohorts; a cohort of another course (or none) is refused with 404 and nothing changes. */
