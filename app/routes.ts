@@ -78,6 +78,7 @@ export default [
   route("courses/:courseId/labs/:labId/photos", "routes/courses.$courseId.labs.$labId.photos.ts"),
   route("courses/:courseId/labs/:labId/comparison.csv", "routes/courses.$courseId.labs.$labId.comparison[.]csv.ts"),
   route("courses/:courseId/labs/:labId/marks.csv", "routes/courses.$courseId.labs.$labId.marks[.]csv.ts"),
+  route("courses/:courseId/labs/:labId/marks-summary.csv", "routes/courses.$courseId.labs.$labId.marks-summary[.]csv.ts"),
   route("courses/:courseId/photos/:photoId", "routes/courses.$courseId.photos.$photoId.ts"),
   // A user's private calendar feed: the token is the key, no session needed.
   route("calendar/:token.ics", "routes/calendar.$token[.]ics.ts"),

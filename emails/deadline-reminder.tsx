@@ -14,7 +14,9 @@ export default function DeadlineReminderEmail(props: Props) {
     >
       <Heading>{props.labTitle} is due soon</Heading>
       <Paragraph>
-        {timeLeftSentence(props.hoursLeft)} You can hand in from your phone; a later hand-in replaces the earlier one until the deadline.
+        {timeLeftSentence(props.hoursLeft)} You can hand in from your phone. Every hand-in is kept as a version of its own, and your latest
+        one is the one that counts. A hand-in after the due time is taken and labelled late; the lab page says until when late hand-ins are
+        taken.
       </Paragraph>
       <FactList
         facts={[

@@ -1,9 +1,9 @@
 import type { Route } from "./+types/courses.$courseId.audit";
 import { formatDateTime } from "~/lib/format-date";
+import { counted } from "~/lib/plural";
 import { PageHeader } from "~/components/ui/page-header";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { listCourseAudit } from "~/server/audit.server";
-import { actionWords } from "~/lib/audit/action-words";
 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const access = await requireCourseRole({ request, context }, params.courseId, ["instructor"]);
@@ -15,7 +15,7 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-6">
       <PageHeader id="audit-title" title="Audit log">
-        {`${course.code} ${course.title}: ${events.length === 1 ? "the latest event" : `the latest ${events.length} events, newest first`}. Times in ${course.timeZone}.`}
+        {`${course.code} ${course.title}: ${events.length === 1 ? "the latest event" : `the latest ${counted(events.length, "event", "events")}, newest first`}. Times in ${course.timeZone}.`}
       </PageHeader>
       {/* Focusable so that a keyboard can scroll the table sideways on a phone. */}
       <div
@@ -31,14 +31,8 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
               <th scope="col" className="px-3 py-2 font-medium">
                 When
               </th>
-              <th scope="col" className="px-3 py-2 font-medium">
-                Who
-              </th>
-              <th scope="col" className="px-3 py-2 font-medium">
-                What
-              </th>
               <th scope="col" className="min-w-64 px-3 py-2 font-medium">
-                Details
+                What happened
               </th>
               <th scope="col" className="px-3 py-2 font-medium">
                 From
@@ -46,18 +40,15 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-900/10">
-            {events.map((event) => (
-              <tr key={event.id} className="align-top">
+            {events.map((event, index) => (
+              // The list is read once, newest first, and never reordered: its position is its key.
+              <tr key={index} className="align-top">
                 <td className="whitespace-nowrap px-3 py-2">
                   <time dateTime={new Date(event.createdAt).toISOString()}>
                     {formatDateTime(event.createdAt, course.timeZone, "seconds")}
                   </time>
                 </td>
-                <td className="px-3 py-2">{event.actorName ?? "—"}</td>
-                <td className="px-3 py-2">{actionWords[event.action] ?? event.action}</td>
-                <td className="px-3 py-2 font-mono text-xs break-all text-ink-700">
-                  {[event.subject, Object.keys(event.detail).length ? JSON.stringify(event.detail) : null].filter(Boolean).join(" ")}
-                </td>
+                <td className="px-3 py-2">{event.sentence}</td>
                 <td className="px-3 py-2 text-ink-700">{event.ip ?? "—"}</td>
               </tr>
             ))}

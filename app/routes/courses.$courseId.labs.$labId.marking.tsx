@@ -152,7 +152,10 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
         actions={
           <>
             <a href={`${base}/marks.csv`} className="px-3 py-2 text-sm underline" download>
-              Download marks (CSV)
+              Marks by criterion (CSV)
+            </a>
+            <a href={`${base}/marks-summary.csv`} className="px-3 py-2 text-sm underline" download>
+              Marks summary (CSV)
             </a>
             {instructor ? (
               <ButtonLink to={`${base}/rubric`} variant="secondary">

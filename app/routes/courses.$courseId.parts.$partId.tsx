@@ -107,7 +107,7 @@ export default function PartPage({ loaderData, actionData }: Route.ComponentProp
 
       {mayEdit ? <RemeasureForm kind={part.kind} defaults={part} lastResult={replyFor(actionData, "remeasure")} /> : null}
 
-      <PartHistory events={part.events} courseId={courseId} timeZone={timeZone} />
+      <PartHistory kind={part.kind} events={part.events} courseId={courseId} timeZone={timeZone} />
     </div>
   );
 }

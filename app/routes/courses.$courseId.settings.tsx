@@ -25,7 +25,6 @@ import {
 } from "~/server/courses/courses.server";
 import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
-import { counted } from "~/lib/plural";
 
 const returnsIntent = returnSettingsInput.extend({ intent: z.literal("returns") });
 
@@ -62,7 +61,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
   } else if (input.intent === "returns") {
     const { intent: _intent, ...returns } = input;
     await updateReturnSettings(db, { courseId, actorId, input: returns });
-  } else if (input.intent === "add-cohort") await addCohort(db, { courseId, name: input.name });
+  } else if (input.intent === "add-cohort") await addCohort(db, { courseId, actorId, name: input.name });
   else if (input.intent === "rename-cohort") await renameCohort(db, { courseId, cohortId: input.cohortId, name: input.name });
   else if (input.intent === "move-cohort") await moveCohort(db, { courseId, cohortId: input.cohortId, direction: input.direction });
   else if (input.intent === "archive") await archiveCourse(db, { courseId, actorId, request });

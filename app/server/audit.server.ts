@@ -1,8 +1,10 @@
 /**
  * The audit trail: who did what, when and from where. Callers pass facts, never a password or a token.
  */
-import { desc, eq } from "drizzle-orm";
-import { auditEvents, users } from "~/db/schema";
+import { and, desc, eq, sql, type AnyColumn } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { auditEvents, cohorts, courseMemberships, courses, invitations, kits, labs, parts, users } from "~/db/schema";
+import { auditSentence } from "~/lib/audit/audit-sentence";
 import { insertMany } from "~/server/bulk-insert.server";
 import { db, type Executor } from "~/server/db.server";
 import { clientIp } from "~/server/http.server";
@@ -61,7 +63,12 @@ export type AuditAction =
   | "course.roster_updated"
   | "course.carried_over"
   | "course.archived"
-  | "course.restored";
+  | "course.restored"
+  | "course.cohort_created"
+  | "marking.mark_adjusted"
+  | "part.created"
+  | "part.changed"
+  | "kit.moved";
 
 export type AuditInput = {
   action: AuditAction;
@@ -88,22 +95,61 @@ export async function recordAudit(executor: Executor, event: AuditInput | AuditI
   await insertMany(executor, auditEvents, rows);
 }
 
-/** The latest events of a course, newest first, with the actor's name. */
-export function listCourseAudit(courseId: string, limit = 200) {
-  return db
+// What an event is about, named in the same statement: `subject` is "kind:id".
+const subjectKind = sql`split_part(${auditEvents.subject}, ':', 1)`;
+const subjectId = sql`split_part(${auditEvents.subject}, ':', 2)`;
+// Ids compared as text, so an odd subject can never make the cast fail and the whole page with it.
+const aboutSubject = (kind: string, id: AnyColumn) => and(sql`${subjectKind} = ${kind}`, sql`${id}::text = ${subjectId}`);
+const subjectLab = alias(labs, "subject_lab");
+const detailLab = alias(labs, "detail_lab");
+const member = alias(courseMemberships, "member");
+const memberUser = alias(users, "member_user");
+const otherCourse = alias(courses, "other_course");
+
+/**
+ * The latest events of a course, newest first, each as a sentence that names its objects. One
+ * statement whatever the number of events: the lab, part, kit, member, invitee, cohort and course an
+ * event names are joined in by kind.
+ */
+export async function listCourseAudit(courseId: string, limit = 200): Promise<{ createdAt: Date; sentence: string; ip: string | null }[]> {
+  const sameCourse = (column: AnyColumn) => eq(column, auditEvents.courseId);
+  const rows = await db
     .select({
-      id: auditEvents.id,
       action: auditEvents.action,
-      subject: auditEvents.subject,
       detail: auditEvents.detail,
       ip: auditEvents.ip,
       createdAt: auditEvents.createdAt,
       actorName: users.name,
-      actorEmail: users.email,
+      names: {
+        lab: subjectLab.title,
+        otherLab: detailLab.title,
+        part: parts.label,
+        kit: kits.number,
+        member: memberUser.name,
+        invitee: sql<string | null>`coalesce(${invitations.name}, ${invitations.email})`,
+        course: otherCourse.title,
+        cohort: cohorts.name,
+      },
     })
     .from(auditEvents)
     .leftJoin(users, eq(users.id, auditEvents.actorId))
+    .leftJoin(subjectLab, and(aboutSubject("lab", subjectLab.id), sameCourse(subjectLab.courseId)))
+    .leftJoin(detailLab, sql`${detailLab.id}::text = coalesce(${auditEvents.detail} ->> 'labId', ${auditEvents.detail} ->> 'fromLabId')`)
+    .leftJoin(parts, and(aboutSubject("part", parts.id), sameCourse(parts.courseId)))
+    .leftJoin(kits, and(aboutSubject("kit", kits.id), sameCourse(kits.courseId)))
+    .leftJoin(member, and(aboutSubject("membership", member.id), sameCourse(member.courseId)))
+    .leftJoin(memberUser, eq(memberUser.id, member.userId))
+    .leftJoin(invitations, and(aboutSubject("invitation", invitations.id), sameCourse(invitations.courseId)))
+    .leftJoin(otherCourse, aboutSubject("course", otherCourse.id))
+    .leftJoin(
+      cohorts,
+      and(
+        sameCourse(cohorts.courseId),
+        sql`${cohorts.id}::text = case when ${subjectKind} = 'cohort' then ${subjectId} else coalesce(${auditEvents.detail} ->> 'cohortId', ${auditEvents.detail} ->> 'toCohortId') end`,
+      ),
+    )
     .where(eq(auditEvents.courseId, courseId))
     .orderBy(desc(auditEvents.createdAt))
     .limit(limit);
+  return rows.map(({ createdAt, ip, ...entry }) => ({ createdAt, ip, sentence: auditSentence(entry) }));
 }

@@ -101,6 +101,7 @@ describe("archiving a course", () => {
     for (const path of [
       `/courses/${fixture.courseId}/inventory.csv`,
       `/courses/${fixture.courseId}/labs/${fixture.labId}/marks.csv`,
+      `/courses/${fixture.courseId}/labs/${fixture.labId}/marks-summary.csv`,
       `/courses/${fixture.courseId}/labs/${fixture.labId}/comparison.csv`,
       `/courses/${fixture.courseId}/audit`,
       `/api/v1/labs/${fixture.labId}/drop-logs`,

@@ -161,6 +161,7 @@ const matrix: MatrixRow[] = [
   row("GET", "/courses/:courseId/labs/:labId/comparison.csv", cohortStaff(200)),
   // Marks name students: instructors, and the TAs of a cohort the lab is set for (their cohorts' rows).
   row("GET", "/courses/:courseId/labs/:labId/marks.csv", cohortStaff(200)),
+  row("GET", "/courses/:courseId/labs/:labId/marks-summary.csv", cohortStaff(200)),
   // One hand-in with every version: instructors and the TAs of the student's cohort (the student has their lab page).
   row("GET", "/courses/:courseId/labs/:labId/hand-ins/:dropLogId", cohortStaff(200)),
   // The marking desk: instructors, and the TAs of a cohort the lab is set for. The probe is not JSON: 400.

@@ -4,6 +4,7 @@
  * limits for TAs, moderation, release with one e-mail per student, what students see, the history and
  * the CSV export.
  */
+import Papa from "papaparse";
 import { RouterContextProvider } from "react-router";
 import { AppError } from "~/lib/app-error";
 import { and, count, eq, inArray, like, sql } from "drizzle-orm";
@@ -26,7 +27,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { db } from "~/server/db.server";
 import { listFailedEmails } from "~/server/email/failed-emails.server";
 import { handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
-import { loadMarksJson } from "~/server/marking/mark-export.server";
+import { loadMarkLines, loadMarkSummary, loadMarksJson } from "~/server/marking/mark-export.server";
 import { loadMarkingDesk, markingDeskSearch, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
 import { loadMarkingLab, type MarkingLab } from "~/server/marking/marking-lab.server";
 import { applyToMany, markingLock, saveMark, saveMarkCell } from "~/server/marking/marks.server";
@@ -927,8 +928,26 @@ describe("the rubric", () => {
   });
 });
 
-describe("the marks CSV", () => {
-  it("has the generic columns, a column per criterion, and neutralises formulas in names and titles", async () => {
+describe("the marks CSVs", () => {
+  /** A CSV route's rows as records, read back with the project's CSV parser; the BOM is dropped. */
+  async function csvRows(route: "marks" | "marks-summary", labId: string) {
+    const { loader } =
+      route === "marks"
+        ? await import("~/routes/courses.$courseId.labs.$labId.marks[.]csv")
+        : await import("~/routes/courses.$courseId.labs.$labId.marks-summary[.]csv");
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const response = (await loader({
+      request: appRequest(`/courses/${fixture.courseId}/labs/${labId}/${route}.csv`, { cookie }),
+      params: { courseId: fixture.courseId, labId },
+      context: new RouterContextProvider(),
+    } as never)) as Response;
+    expect(response.headers.get("content-type")).toMatch(/^text\/csv/);
+    const text = (await response.text()).replace(/^\uFEFF/, "");
+    const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
+    return { header: text.split(/\r?\n/)[0], rows: parsed.data };
+  }
+
+  it("give one line per student and criterion with the late penalty as a line of its own, a summary sheet, and neutralise formulas", async () => {
     const lab = await newLab("Export");
     const bare = (await loadMarkingLab(db, fixture.courseId, lab.id))!;
     await saveRubric(db, {
@@ -936,6 +955,14 @@ describe("the marks CSV", () => {
       lab: bare,
       input: {
         criteria: [
+          {
+            kind: "levels",
+            title: "Method",
+            levels: [
+              { points: 0, description: "Not described" },
+              { points: 2, description: "-Fully" },
+            ],
+          },
           { kind: "range", title: "=SUM(A1:A9)", minPoints: 0, maxPoints: 5 },
           { kind: "auto", title: "On time", rule: "on_time", maxPoints: 1 },
         ],
@@ -945,41 +972,102 @@ describe("the marks CSV", () => {
     await db.execute(
       sql`update users set name = '=HYPERLINK("http://evil.example","x")', student_number = '+4420' where id = ${fixture.userIds.sameCohortStudent}`,
     );
+    const membershipId = fixture.membershipIds.sameCohortStudent;
+    const instructor = accessOf("instructor");
     await saveMarkCell(db, {
-      access: accessOf("instructor"),
+      access: instructor,
       labId: lab.id,
-      membershipId: fixture.membershipIds.sameCohortStudent,
-      criterionId: marked.rubric[0].id,
+      membershipId,
+      criterionId: marked.rubric[1].id,
       points: 4,
       expectedVersion: 0,
     });
-    await saveMark(db, {
-      access: accessOf("instructor"),
+    await saveMarkCell(db, {
+      access: instructor,
       labId: lab.id,
-      membershipId: fixture.membershipIds.sameCohortStudent,
+      membershipId,
+      criterionId: marked.rubric[0].id,
+      level: 2,
       expectedVersion: 1,
+    });
+    await saveMark(db, {
+      access: instructor,
+      labId: lab.id,
+      membershipId,
+      expectedVersion: 2,
       change: { kind: "latePenalty", points: 0.5 },
     });
 
-    const { loader } = await import("~/routes/courses.$courseId.labs.$labId.marks[.]csv");
-    const cookie = await sessionCookieFor(fixture.userIds.instructor);
-    const response = (await loader({
-      request: appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/marks.csv`, { cookie }),
-      params: { courseId: fixture.courseId, labId: lab.id },
-      context: new RouterContextProvider(),
-    } as never)) as Response;
-    expect(response.headers.get("content-type")).toMatch(/^text\/csv/);
-    const lines = (await response.text()).replace(/^\uFEFF/, "").split(/\r?\n/);
-    expect(lines[0]).toBe(
-      "student_name,email,student_number,cohort,total,'=SUM(A1:A9),On time,late,late_penalty,released_at,marked_version,latest_version",
+    const { header, rows } = await csvRows("marks", lab.id);
+    expect(header).toBe(
+      "cohort,student_number,student,email,hand_in,marked_version,line,criterion_no,criterion,level,level_description,points,out_of,scored,marker,released_at",
     );
-    const student = lines.find((line) => line.includes("HYPERLINK"))!;
-    expect(student.startsWith(`"'=HYPERLINK(""http://evil.example"",""x"")"`)).toBe(true);
-    // 4 points, 1 for an on-time hand-in (none: a student without a hand-in gets 0 there), minus the 0.5 penalty.
-    expect(student).toContain(",'+4420,Cohort one,3.5,4,0,no,0.5,");
+    const students = new Set(rows.map((row) => row.email));
+    // Every student: one line per criterion; the marked one has a late-penalty line too.
+    expect(rows).toHaveLength(students.size * 3 + 1);
+    const own = rows.filter((row) => row.student.includes("HYPERLINK"));
+    expect(
+      own.map((row) => [row.line, row.criterion_no, row.criterion, row.level, row.level_description, row.points, row.out_of, row.scored]),
+    ).toEqual([
+      ["criterion", "1", "Method", "2", "'-Fully", "2", "2", "by hand"],
+      ["criterion", "2", "'=SUM(A1:A9)", "", "", "4", "5", "by hand"],
+      // Nothing handed in: the automatic criterion gives 0.
+      ["criterion", "3", "On time", "", "", "0", "1", "automatic"],
+      ["late penalty", "", "", "", "", "-0.5", "", "by hand"],
+    ]);
+    expect(own.every((row) => row.student === `'=HYPERLINK("http://evil.example","x")` && row.student_number === "'+4420")).toBe(true);
+    expect(own.every((row) => row.cohort === "Cohort one" && row.hand_in === "not due yet" && row.marker === "Test instructor")).toBe(true);
+    // A student's points add up to their total.
+    expect(own.reduce((sum, row) => sum + Number(row.points), 0)).toBe(5.5);
+    const unmarked = rows.filter((row) => row.student === "Test ownStudent");
+    expect(unmarked.map((row) => [row.points, row.scored])).toEqual([
+      ["", "not scored"],
+      ["", "not scored"],
+      ["", "not scored"],
+    ]);
+
+    const summary = await csvRows("marks-summary", lab.id);
+    expect(summary.header).toBe("section,subject,measure,value");
+    const figure = (section: string, subject: string, measure: string) =>
+      summary.rows.find((row) => row.section === section && row.subject === subject && row.measure === measure)?.value;
+    expect(figure("hand-ins", "all cohorts", "students")).toBe(String(students.size));
+    // Nobody has handed in this lab, which is due tomorrow.
+    expect(figure("hand-ins", "all cohorts", "not due yet")).toBe(String(students.size));
+    expect(figure("hand-ins", "all cohorts", "on time")).toBe("0");
+    expect(figure("criterion", "1. Method", "scored")).toBe("1");
+    expect(figure("criterion", "1. Method", "not scored")).toBe(String(students.size - 1));
+    expect(figure("criterion", "1. Method", "level 1: Not described")).toBe("0");
+    expect(figure("criterion", "1. Method", "level 2: -Fully")).toBe("1");
+    expect(figure("criterion", "2. =SUM(A1:A9)", "mean points")).toBe("4");
+    expect(figure("totals", "Cohort one", "marked")).toBe("1");
+    expect(figure("totals", "all cohorts", "mean total")).toBe("5.5");
+    expect(figure("totals", "Cohort two", "mean total")).toBe("");
     await db.execute(
       sql`update users set name = 'Test sameCohortStudent', student_number = null where id = ${fixture.userIds.sameCohortStudent}`,
     );
+  });
+
+  it("run the same number of SQL statements for 10 and for 100 students", async () => {
+    const statementsFor = async (size: number) => {
+      const cohortId = await freshCohort(`Export size ${size}`);
+      const lab = await labWithRubric(`Export size ${size}`, { cohortIds: [cohortId] });
+      await seedMarkingClass(db, {
+        courseId: fixture.courseId,
+        labId: lab.id,
+        cohortId,
+        figures: quietClass(size),
+        label: `export${size}`,
+      });
+      const access = accessOf("instructor");
+      const lines = await countStatements(() => loadMarkLines(db, { access, lab }));
+      const summary = await countStatements(() => loadMarkSummary(db, { access, lab }));
+      expect(lines.result).toHaveLength(size * lab.rubric.length);
+      expect(
+        summary.result.find((line) => line.section === "hand-ins" && line.subject === "all cohorts" && line.measure === "students")?.value,
+      ).toBe(size);
+      return [lines.statements, summary.statements];
+    };
+    expect(await statementsFor(100)).toEqual(await statementsFor(10));
   });
 });
 

@@ -207,6 +207,45 @@ describe("parts screens", () => {
   });
 });
 
+describe("a part's history", () => {
+  it("says in words how a part came back from a check-in: a damaged bottle of a lot, a missing sphere", async () => {
+    const [{ id: actorId }] = await db.select({ id: users.id }).from(users).where(eq(users.email, "pp-instructor@parts.example"));
+    const [sphere] = await db
+      .insert(parts)
+      .values({ courseId, kind: "sphere", label: "S-history", material: "steel", diameterMm: 3, massG: 0.11 })
+      .returning();
+    const [kit] = await db.insert(kits).values({ courseId, number: "K-history", state: "coming_back" }).returning();
+    await db.insert(kitParts).values([
+      { kitId: kit.id, partId: sphere.id },
+      { kitId: kit.id, partId: fluidLotId, exclusive: false },
+    ]);
+    await checkInKits(db, {
+      courseId,
+      actorId,
+      kits: [{ kitId: kit.id, conditions: { [sphere.id]: "missing", [fluidLotId]: "damaged" }, remeasure: [] }],
+    });
+    const text = async (partId: string) => {
+      const { status, html } = await page(`/courses/${courseId}/parts/${partId}`, instructor);
+      expect(status).toBe(200);
+      // The history section's text alone: the page's data (in a script) holds the stored codes.
+      const history = html.slice(html.indexOf('id="history-heading"'), html.indexOf("</section>", html.indexOf('id="history-heading"')));
+      return history
+        .replaceAll("<!-- -->", "")
+        .replaceAll("&#x27;", "'")
+        .replace(/<[^>]+>/g, "");
+    };
+    const lot = await text(fluidLotId);
+    expect(lot).toContain(
+      "Came back damaged: A bottle of this lot was checked in damaged with Kit K-history, taken out of the kit; the rest of the lot stays in service, by Test instructor",
+    );
+    const lost = await text(sphere.id);
+    expect(lost).toContain(
+      "Missing at check-in: It was not in Kit K-history when it came back, taken off the kit's list and retired, by Test instructor",
+    );
+    for (const page of [lot, lost]) expect(page).not.toMatch(/checked_in|\(damaged\)|\(missing\)/);
+  });
+});
+
 describe("links on the staff's kit and part pages", () => {
   it("show an assigned TA only their cohorts' kits, hand-ins and comparisons, and link nothing they may not open", async () => {
     const fixture = await createAccessFixture("part-links");
@@ -288,7 +327,7 @@ describe("links on the staff's kit and part pages", () => {
     for (const trace of otherCohortTraces) expect(lotForTa).not.toContain(trace);
     expect(lotForTa).toContain(`/labs/${fixture.labId}/hand-ins/${fixture.dropLogId}`);
     expect(lotForTa).toContain("Not listed: 1 from students of cohorts you do not mark.");
-    expect(lotForTa).toContain("Checked in</span> with Kit K-03 by");
+    expect(lotForTa).toContain("Checked in</strong> with Kit K-03, in good condition, by");
 
     const otherSphereForTa = await html(`/courses/${course}/parts/${otherSphere.id}`, ta);
     for (const trace of otherCohortTraces) expect(otherSphereForTa).not.toContain(trace);

@@ -1,4 +1,4 @@
-/** Plain words for the trail's dotted action names (the course's audit log, a student's record); unknown ones are shown as they are. */
+/** Plain words for the trail's dotted action names (a student's record; the course's audit log writes sentences with them, see `auditSentence`). */
 export const actionWords: Record<string, string> = {
   "access.denied": "was refused access",
   "course.invitation_sent": "sent an invitation",
@@ -27,4 +27,24 @@ export const actionWords: Record<string, string> = {
   "course.restored": "restored the archived course",
   "course.message_sent": "wrote to students",
   "account.calendar_feed_reset": "made a new calendar address",
+  "course.cohort_created": "created a cohort",
+  "course.ta_cohorts_changed": "changed which cohorts a TA marks",
+  "lab.created": "created a lab",
+  "lab.updated": "changed a lab",
+  "lab.published": "published a lab",
+  "lab.closed": "closed a lab",
+  "lab.comparison_method_changed": "changed how a lab compares the class",
+  "marking.rubric_saved": "saved a rubric",
+  "marking.rubric_copied": "copied a rubric",
+  "marking.ready": "closed a lab's marking for TAs",
+  "marking.reopened": "reopened a lab's marking",
+  "marking.released": "released a lab's marks",
+  "marking.mark_adjusted": "adjusted a mark",
+  "part.created": "recorded a part",
+  "part.changed": "changed a part",
+  "part.rereduction_queued": "corrected a part",
+  "part.rereduced": "had hand-ins reduced again",
+  "kit.moved": "moved a kit",
+  "kit.tracking_imported": "imported tracking numbers",
+  "shipment.retried": "sent a failed shipment again",
 };

@@ -58,11 +58,17 @@ export async function updateReturnSettings(
 }
 
 /** Adds a cohort at the end of the course's order. */
-export async function addCohort(executor: Executor, { courseId, name }: { courseId: string; name: string }): Promise<void> {
+export async function addCohort(
+  executor: Executor,
+  { courseId, actorId, name }: { courseId: string; actorId: string; name: string },
+): Promise<void> {
   const position = sql<number>`(select coalesce(max(c.position) + 1, 0) from cohorts c where c.course_id = ${courseId})`;
-  const inserted = await executor.insert(cohorts).values({ courseId, name, position }).onConflictDoNothing().returning({ id: cohorts.id });
-  if (inserted.length === 0)
-    throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+  await executor.transaction(async (tx) => {
+    const inserted = await tx.insert(cohorts).values({ courseId, name, position }).onConflictDoNothing().returning({ id: cohorts.id });
+    if (inserted.length === 0)
+      throw new AppError({ code: "cohort_exists", message: `There is already a cohort called ${name}.`, field: "name" });
+    await recordAudit(tx, { courseId, actorId, action: "course.cohort_created", subject: `cohort:${inserted[0].id}` });
+  });
 }
 
 /**

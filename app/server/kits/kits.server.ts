@@ -23,6 +23,7 @@ import { appUrl } from "~/server/config.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { sendEmails } from "~/server/email/send-email.server";
 import { jsonRows, orNull } from "~/server/json-rows.server";
+import { recordAudit } from "~/server/audit.server";
 import { reportKitProblem } from "~/server/kits/kit-problems.server";
 import { plural } from "~/lib/plural";
 
@@ -229,6 +230,17 @@ export async function moveKits(
           detail: { holderMembershipId: holderAfter(kit), ...(shipping ? { shipping } : {}) },
         };
       }),
+    );
+    // Each kit's move in the course's audit log too, in the same transaction and one statement for all of them.
+    await recordAudit(
+      tx,
+      current.map((kit) => ({
+        action: "kit.moved" as const,
+        actorId,
+        courseId,
+        subject: `kit:${kit.id}`,
+        detail: { from: kit.state, to: move.to },
+      })),
     );
     if (move.to === "in_transit") await queueShippedEmails(tx, courseId, current, move);
     return { moved: current.length };

@@ -131,6 +131,7 @@ export async function createPart(
         .values({ courseId, kind: input.kind, label: input.label, notes: input.notes, ...columnsFor(input) })
         .returning();
       await tx.insert(partEvents).values({ partId: part.id, actorId, action: "created", detail: { warnings } });
+      await recordAudit(tx, { action: "part.created", actorId, courseId, subject: `part:${part.id}` });
       return { part, warnings };
     });
   } catch (error) {
@@ -177,6 +178,7 @@ export async function updatePart(
         .insert(partEvents)
         .values({ partId, actorId, action: "remeasured", note: note ?? null, detail: { changed, warnings } })
         .returning({ id: partEvents.id });
+      await recordAudit(tx, { action: "part.changed", actorId, courseId, subject: `part:${partId}`, detail: { change: "remeasured" } });
       if (revises) {
         const runId = await queueRereduction(tx, { courseId, partId, partEventId: event.id });
         await recordAudit(tx, {
@@ -213,6 +215,7 @@ export async function setPartStatus(
       .returning({ id: parts.id });
     if (updated.length === 0) return false;
     await tx.insert(partEvents).values({ partId, actorId, action: `status:${status}`, note: note ?? null });
+    await recordAudit(tx, { action: "part.changed", actorId, courseId, subject: `part:${partId}`, detail: { change: `status:${status}` } });
     return true;
   });
 }
@@ -387,6 +390,16 @@ export async function importParts(
           actorId,
           action: "created",
           detail: { source: "csv-import" as const, warnings: warningsByLabel.get(part.label) ?? [] },
+        })),
+      );
+      await recordAudit(
+        tx,
+        created.map((part) => ({
+          action: "part.created" as const,
+          actorId,
+          courseId,
+          subject: `part:${part.id}`,
+          detail: { source: "csv-import" },
         })),
       );
       return {

@@ -22,6 +22,7 @@ import {
   type MarkState,
   type MarkTotals,
 } from "~/lib/marking/marks";
+import { recordAudit } from "~/server/audit.server";
 import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
@@ -244,6 +245,18 @@ async function writeMarks(tx: Transaction, request: WriteRequest): Promise<{ lab
         afterRelease: student.mark?.releasedAt != null,
       })),
     );
+    // An instructor's adjustment is a decision about a student's mark: the course's audit log keeps it too, one row per student in one statement.
+    if (moderation)
+      await recordAudit(
+        tx,
+        changes.map(({ student, before, after }) => ({
+          action: "marking.mark_adjusted" as const,
+          actorId: access.user.id,
+          courseId: access.course.id,
+          subject: `membership:${student.membershipId}`,
+          detail: { labId: lab.id, fromTotal: before?.total ?? null, toTotal: after!.total, reason: reasonGiven || null },
+        })),
+      );
   }
 
   const actor = { id: access.user.id, name: access.user.name };
