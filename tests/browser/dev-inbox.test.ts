@@ -30,7 +30,7 @@ describe("development inbox in Chromium", () => {
       props: { url: `${inject("baseUrl")}/reset/browser-test`, expiresInMinutes: 30 },
     });
     let emails: CaughtForTest[] = [];
-    for (let tries = 0; tries < 60 && emails.length === 0; tries++) {
+    for (let tries = 0; tries < 160 && emails.length === 0; tries++) {
       await new Promise((resolve) => setTimeout(resolve, 250));
       emails = await caughtFor(to);
     }
@@ -46,9 +46,22 @@ describe("development inbox in Chromium", () => {
       "Choose a new password",
     );
     expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
+    // One column: the message read comes first, full width, above the caught slips; no list beside a reading pane.
+    await expect(page.locator("aside").count()).resolves.toBe(0);
+    const order = await page.evaluate(() => {
+      const shown = document.getElementById("shown-heading")!.getBoundingClientRect();
+      const caught = document.getElementById("caught-heading")!.getBoundingClientRect();
+      return { shownAbove: shown.bottom <= caught.top, sameLeft: Math.abs(shown.left - caught.left) < 40 };
+    });
+    expect(order).toEqual({ shownAbove: true, sameLeft: true });
+    // The slip of the message being read says so in words, not only by its frame.
+    await expect(page.locator('section[aria-labelledby="caught-heading"] a[aria-current="page"]').textContent()).resolves.toBe(
+      "Reading it above: Choose a new Benchpost password",
+    );
 
     await page.getByRole("link", { name: "kit-shipped" }).click();
     await page.waitForURL(/preview=kit-shipped/);
     await expect(page.getByRole("heading", { level: 2, name: /Preview: Your Demo/ }).textContent()).resolves.toMatch(/kit DEMO-K-007/);
+    expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
   });
 });
