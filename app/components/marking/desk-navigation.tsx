@@ -122,7 +122,7 @@ export function StateLegend({
         {entry(null, <span>Everyone</span>, counts.all)}
         {entry("waiting", <span>Waiting for a score</span>, counts.waiting)}
       </ul>
-      <div className="grid grid-cols-1 gap-3 sm:grid-cols-3 lg:grid-cols-1">
+      <div className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-1">
         {(Object.keys(stateFamilies) as (keyof typeof stateFamilies)[]).map((family) => (
           <div key={family}>
             <h3 className="mb-0.5 text-xs font-medium text-ink-700">{stateFamilyTitles[family]}</h3>

@@ -4,7 +4,7 @@
  * The card saves itself as the marker works (see `mark-saves`): number keys on the focused card set a
  * level or points, 0 clears, and an entry the criterion cannot take is explained here, not sent.
  */
-import { useState, type Dispatch, type KeyboardEvent } from "react";
+import { useEffect, useState, type Dispatch, type KeyboardEvent } from "react";
 import { Link, useLocation } from "react-router";
 import { ClassLabelTag } from "~/components/comparison/class-label";
 import { figure } from "~/components/drop-logs/reduction-summary";
@@ -81,6 +81,8 @@ export function HandInCard({
   const action = useLocation().pathname;
   const { row, saveState, save, retry } = useMarkSaver({ action, rubric: desk.rubric, base, saves, dispatch });
   const [explanation, setExplanation] = useState<string | null>(null);
+  // A mark changed elsewhere (a bulk action) answers whatever the last keystroke was told.
+  useEffect(() => setExplanation(null), [base.expectedVersion]);
   const cell = row.cells[criterion.id];
   const keys = keysOf(criterion);
   const handIn = row.handIn;
@@ -238,8 +240,8 @@ function Flags({ row }: { row: MarkingDeskRow }) {
   if (row.resultChangedSinceMarked)
     flags.push(
       <span key="result" data-testid="result-changed">
-        result changed since it was scored: {figure(row.resultChangedSinceMarked.oldFigure, 3)} →{" "}
-        {figure(row.resultChangedSinceMarked.newFigure, 3)}
+        result changed since it was marked: {figure(row.resultChangedSinceMarked.oldFigure, 3)} →{" "}
+        {figure(row.resultChangedSinceMarked.newFigure, 3)} × ref
       </span>,
     );
   if (flags.length === 0) return null;
@@ -283,6 +285,7 @@ function CriterionKeys({
           type="button"
           disabled={!canEdit}
           title={key.title}
+          aria-label={`${key.label}: ${key.title}`}
           aria-pressed={current === key.key}
           onClick={() => give(key.key)}
           tabIndex={-1}
@@ -291,7 +294,6 @@ function CriterionKeys({
           }`}
         >
           {key.label}
-          <span className="sr-only">: {key.title}</span>
         </button>
       ))}
       {criterion.kind === "range" ? (
