@@ -108,6 +108,11 @@ describe("marking at the desk in Chromium", () => {
     await card(0).focus();
     await page.keyboard.press("7");
     await expect.poll(() => card(0).getByRole("status").textContent()).toBe("7 is outside this criterion's 0–3 points: nothing was saved.");
+    // Nothing of this criterion is scored yet: Alt+N goes on to the next card, and Space there selects it.
+    await page.keyboard.press("Alt+KeyN");
+    await expect.poll(() => page.evaluate(() => document.activeElement?.getAttribute("data-card"))).toBe("1");
+    await page.keyboard.press(" ");
+    expect(await card(1).getByRole("checkbox").isChecked()).toBe(true);
 
     // On a phone the desk stacks: still no sideways scroll, and the cards still take keys.
     await page.setViewportSize({ width: 390, height: 844 });
