@@ -386,6 +386,50 @@ describe("the marking desk", () => {
   });
 });
 
+describe("the desk over HTTP", () => {
+  it("serves one criterion's cards to the instructor, refuses a value the criterion cannot take, and applies a band in one bulk action", async () => {
+    const cohortId = await freshCohort("Desk over HTTP");
+    const lab = await labWithRubric("Desk over HTTP", { cohortIds: [cohortId] });
+    const { membershipIds } = await seedMarkingClass(db, {
+      courseId: fixture.courseId,
+      labId: lab.id,
+      cohortId,
+      figures: quietClass(6),
+      label: "http-desk",
+    });
+    const handle = await createAppHandler();
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const discussion = byTitle(lab, "Discussion");
+    const path = `/courses/${fixture.courseId}/labs/${lab.id}/marking`;
+    const page = await handle(appRequest(`${path}?criterion=${discussion.id}`, { cookie }));
+    expect(page.status).toBe(200);
+    const html = (await page.text()).replaceAll("<!-- -->", "");
+    // The ladder marks the criterion chosen; the cards come under their band, one per student.
+    expect(html).toMatch(/<a[^>]*aria-current="step"[^>]*>(?:(?!<\/a>).)*Discussion/s);
+    expect(html).toContain("Clean drop logs");
+    expect(html.match(/<article /g)).toHaveLength(6);
+    expect(html).not.toContain("<table");
+
+    const post = async (body: unknown) =>
+      handle(
+        new Request(new URL(`${path}.data`, appOrigin()), {
+          method: "POST",
+          body: JSON.stringify(body),
+          headers: { Cookie: cookie, Origin: appOrigin(), "Content-Type": "application/json" },
+        }),
+      );
+    const change = (points: number) => ({ kind: "score", criterionId: discussion.id, points, level: null });
+    const refused = await post({ intent: "save", membershipId: membershipIds[0], expectedVersion: 0, change: change(7) });
+    expect(refused.status).toBe(400);
+    expect(await refused.text()).toContain("Give between 0 and 4 points.");
+    expect(await markCount(lab.id)).toBe(0);
+
+    const bulk = await post({ intent: "bulk", membershipIds, change: change(3) });
+    expect(bulk.status).toBe(200);
+    expect(await markCount(lab.id)).toBe(6);
+  });
+});
+
 describe("a bulk action", () => {
   it("applies a level to 500 students in one transaction, with the same statements as for 5", async () => {
     const lab = await labWithRubric("Bulk 500", { cohortIds: [fixture.cohortId] });
