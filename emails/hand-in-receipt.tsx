@@ -1,4 +1,5 @@
 import { receiptTimeText } from "../app/lib/drop-logs/receipt";
+import { stateWords } from "../app/lib/marking/status-words";
 import { ActionButton, EmailLayout, FactList, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
 
@@ -22,7 +23,8 @@ export default function HandInReceiptEmail(props: Props) {
           ["Lab", props.labTitle],
           ["Version", String(props.version)],
           ["Handed in", receiptTimeText(props.handedInAt, props.timeZone)],
-          ["On time", props.late ? "No, late" : "Yes"],
+          // The same word staff read on the desk, and the sentence in the student's own terms.
+          ["Timing", props.late ? `${stateWords["after-due"].word}: handed in after your due time` : "By your due time"],
         ]}
       />
       <ActionButton href={props.receiptUrl}>See your receipt</ActionButton>

@@ -7,6 +7,7 @@ import { Link } from "react-router";
 import type { Route } from "./+types/courses.$courseId._index";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { FailedEmailsPanel } from "~/components/failed-emails-panel";
+import { StateMark } from "~/components/marking/state-mark";
 import { PageHeader } from "~/components/ui/page-header";
 import { tableHeadClass } from "~/components/ui/table-head";
 import { formatDateTime } from "~/lib/format-date";
@@ -106,10 +107,10 @@ function InstructorView(props: Of<"instructor">) {
                           Handed in
                         </th>
                         <th scope="col" className="px-2 py-1 font-medium">
-                          Late
+                          <StateMark state="after-due" explain />
                         </th>
                         <th scope="col" className="px-2 py-1 font-medium">
-                          Missing
+                          <StateMark state="absent" explain />
                         </th>
                         <th scope="col" className="px-2 py-1 font-medium">
                           With an extension
@@ -154,7 +155,7 @@ function InstructorView(props: Of<"instructor">) {
                   <ul className="ml-4 list-disc">
                     {ta.labs.map((lab) => (
                       <li key={lab.labId}>
-                        <Link to={`labs/${lab.labId}/marking?status=unmarked`} className="underline">
+                        <Link to={`labs/${lab.labId}/marking?status=waiting`} className="underline">
                           {lab.title}
                         </Link>
                         : {lab.toMark} to mark

@@ -1,16 +1,17 @@
 /**
- * The marking desk of a lab, for its instructors and the TAs of its cohorts. Filters, sorting and
- * pages travel in the URL and are served by the loader; marks are saved cell by cell through
- * fetchers (a save does not reload the desk: its answer carries the student's new row), and a bulk
- * action reloads it.
+ * The marking desk of a lab, for its instructors and the TAs of its cohorts: one criterion at a time
+ * across the class. The criterion, the cohort, a hand-in state and the page travel in the URL and are
+ * served by the loader; marks are saved card by card through fetchers (a save does not reload the
+ * desk: its answer carries the student's new row), and a bulk action reloads it.
  */
 import { data, Link, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.marking";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
-import { DeskFilters, Pages } from "~/components/marking/desk-navigation";
+import { CriterionLadder, Pages, StateLegend } from "~/components/marking/desk-navigation";
 import { MarkingDesk } from "~/components/marking/marking-desk";
 import { ButtonLink } from "~/components/ui/button";
+import { counted } from "~/lib/plural";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { markingDeskSearch, MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
@@ -45,7 +46,11 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
       releasedAt: lab.marking.releasedAt?.toISOString() ?? null,
     },
     cohorts: desk.cohorts,
+    criterion: desk.criterion,
+    criteria: desk.criteria,
     rows: desk.rows,
+    bands: desk.bands,
+    groups: desk.groups,
     counts: desk.counts,
     page: desk.page,
     pageCount: desk.pageCount,
@@ -55,7 +60,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     openId: desk.openId,
     maxTotal: desk.maxTotal,
     canEdit: desk.canEdit,
-    filters: { cohort: url.searchParams.get("cohort"), status: url.searchParams.get("status"), sort: url.searchParams.get("sort") },
+    filters: { cohort: url.searchParams.get("cohort"), status: url.searchParams.get("status") },
   };
 }
 
@@ -141,10 +146,10 @@ export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: Shou
 }
 
 export default function MarkingPage({ loaderData }: Route.ComponentProps) {
-  const { courseId, timeZone, instructor, lab, rows, canEdit, maxTotal, filters } = loaderData;
+  const { courseId, timeZone, instructor, lab, criterion, canEdit, maxTotal, filters } = loaderData;
   const base = `/courses/${courseId}/labs/${lab.id}`;
   return (
-    <div className="flex flex-col gap-4">
+    <div className="flex min-w-0 flex-col gap-4">
       <PageHeader
         title={lab.title}
         trail={[{ to: `/courses/${courseId}/labs`, label: "Labs" }]}
@@ -158,14 +163,19 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
               Marks summary (CSV)
             </a>
             {instructor ? (
-              <ButtonLink to={`${base}/rubric`} variant="secondary">
-                Edit the rubric
-              </ButtonLink>
+              <>
+                <Link to={`${base}/moderation`} className="px-3 py-2 text-sm underline">
+                  Moderate and release
+                </Link>
+                <ButtonLink to={`${base}/rubric`} variant="secondary">
+                  Edit the rubric
+                </ButtonLink>
+              </>
             ) : null}
           </>
         }
       >
-        Marking desk · out of {maxTotal} points
+        Marking desk · one criterion at a time · out of {counted(maxTotal, "point", "points")}
         {lab.releasedAt ? " · marks released" : lab.readyAt ? " · marking closed for TAs" : ""}
       </PageHeader>
       {lab.rubric.length === 0 ? (
@@ -186,24 +196,24 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
           The instructor has closed this lab&apos;s marking for moderation: marks are shown but cannot be changed here.
         </Notice>
       ) : null}
-      <DeskFilters cohorts={loaderData.cohorts} counts={loaderData.counts} filters={filters} />
-      {lab.rubric.length ? (
-        <MarkingDesk
-          courseId={courseId}
-          labId={lab.id}
-          kind={lab.kind}
-          timeZone={timeZone}
-          rubric={lab.rubric}
-          rows={rows}
-          matchingIds={loaderData.matchingIds}
-          toMarkIds={loaderData.toMarkIds}
-          openId={loaderData.openId}
-          canEdit={canEdit}
-          maxTotal={maxTotal}
-          sort={filters.sort}
-        />
-      ) : null}
-      <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />
+      <CriterionLadder criteria={loaderData.criteria} current={criterion?.id ?? null} />
+      <div className="grid min-w-0 grid-cols-1 gap-4 lg:grid-cols-[14rem_minmax(0,1fr)] lg:items-start">
+        <StateLegend cohorts={loaderData.cohorts} counts={loaderData.counts} filters={filters} />
+        <div className="flex min-w-0 flex-col gap-3">
+          {criterion ? (
+            <MarkingDesk
+              desk={{ courseId, labId: lab.id, kind: lab.kind, timeZone, rubric: lab.rubric, criterion, canEdit }}
+              rows={loaderData.rows}
+              bands={loaderData.bands}
+              groups={loaderData.groups}
+              matchingIds={loaderData.matchingIds}
+              toMarkIds={loaderData.toMarkIds}
+              openId={loaderData.openId}
+            />
+          ) : null}
+          <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />
+        </div>
+      </div>
     </div>
   );
 }

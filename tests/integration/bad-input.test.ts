@@ -37,6 +37,8 @@ describe("search parameters", () => {
     ["a cohort the lab does not have, on the marking desk", (f: AccessFixture) => `${page(f).marking}?cohort=${randomUUID()}`],
     ["a cohort that is not a cohort id, on the marking desk", (f: AccessFixture) => `${page(f).marking}?cohort=%00`],
     ["a 25-digit page on the marking desk", (f: AccessFixture) => `${page(f).marking}?page=${twentyFiveDigits}`],
+    ["a criterion of no rubric, on the marking desk", (f: AccessFixture) => `${page(f).marking}?criterion=${randomUUID()}`],
+    ["a state the desk does not know", (f: AccessFixture) => `${page(f).marking}?status=late`],
     ["a NUL in the comparison's cohort", (f: AccessFixture) => `${page(f).comparison}?cohort=%00`],
   ])("answers %s with the 400 page", async (_, path) => {
     const response = await handle(appRequest(path(fixture), { cookie: cookies.instructor }));

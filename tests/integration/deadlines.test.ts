@@ -339,7 +339,7 @@ describe("missing only after the student's own due time", () => {
     expect(saturday.desk).toEqual(every("missing", "not-due", "not-due"));
     expect(saturday.dashboard).toEqual(saturday.desk);
     expect(saturday.exported).toEqual(saturday.desk);
-    expect(saturday.counts).toMatchObject({ missing: 1, "not-due": 2 });
+    expect(saturday.counts).toMatchObject({ absent: 1, awaited: 2 });
     expect(saturday.cohorts).toEqual({ [fixture.cohortId]: { notDue: 1, missing: 1 }, [fixture.otherCohortId]: { notDue: 1, missing: 0 } });
     // The desk names the student's own due time and why (staff see the reason); the class's students have none.
     const row = (id: string) => saturday.deskRows.find((candidate) => candidate.membershipId === id)!;
@@ -381,7 +381,7 @@ describe("missing only after the student's own due time", () => {
     expect(many.desk.statements).toBe(few.desk.statements);
     expect(many.dashboard.statements).toBe(few.dashboard.statements);
     // 66 of the big cohort are extended past Saturday; the other 131 and the fixture's 3 are missing.
-    expect(many.desk.result.counts).toMatchObject({ all: 200, "not-due": 66, missing: 134 });
+    expect(many.desk.result.counts).toMatchObject({ all: 200, awaited: 66, absent: 134 });
     expect(many.dashboard.result.cohorts.find((cohort) => cohort.cohortId === bigCohort)).toMatchObject({
       students: 197,
       notDue: 66,
@@ -488,9 +488,9 @@ describe("the staff pages", () => {
 
     const dashboard = await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/dashboard`, { cookie }))).text();
     // Each within the student's own table row.
-    expect(dashboard).toMatch(/Test ownStudent<\/th>(?:(?!<\/tr>).)*Missing/s);
+    expect(dashboard).toMatch(/Test ownStudent<\/th>(?:(?!<\/tr>).)*No drop log/s);
     expect(dashboard).toMatch(
-      /Test sameCohortStudent<\/th>(?:(?!<\/tr>).)*Not due yet(?:(?!<\/tr>).)*title="own extension: Flooded lab bench"[^>]*>extended to <time/s,
+      /Test sameCohortStudent<\/th>(?:(?!<\/tr>).)*Awaited(?:(?!<\/tr>).)*title="own extension: Flooded lab bench"[^>]*>extended to <time/s,
     );
     expect(dashboard).toContain(ownDue);
 
@@ -499,8 +499,11 @@ describe("the staff pages", () => {
       "<!-- -->",
       "",
     );
-    expect(desk).toContain("Not due yet (1)");
-    expect(desk).toContain("Missing (1)");
-    expect(desk).toMatch(/not due yet<\/span><span[^>]*title="own extension: Flooded lab bench"[^>]*>extended to <time[^>]*>/);
+    // The legend counts each state; the student's card names theirs beside the extension.
+    expect(desk).toMatch(/>Awaited<\/span><\/span><span class="tabular-nums">1<\/span>/);
+    expect(desk).toMatch(/>No drop log<\/span><\/span><span class="tabular-nums">1<\/span>/);
+    expect(desk).toMatch(
+      /Test sameCohortStudent<\/a>(?:(?!<\/article>).)*title="own extension: Flooded lab bench"[^>]*>extended to <time(?:(?!<\/article>).)*Awaited/s,
+    );
   });
 });

@@ -290,14 +290,16 @@ describe("the marking desk", () => {
         loadMarkingDesk(db, {
           access: accessOf("assignedTa"),
           lab,
-          filters: page({ page: 2, pageSize: 5, sort: { by: "name", direction: "desc" } }),
+          filters: page({ page: 2, pageSize: 5, criterionId: byTitle(lab, "Set-up described").id }),
         }),
       );
       expect(result.totalRows).toBe(size);
       expect(result.rows).toHaveLength(5);
+      expect(result.bands).toHaveLength(5);
       expect(result.pageCount).toBe(size / 5);
-      // Names are numbered: descending, page 2 starts at the sixth from the end.
-      expect(result.rows[0].studentName).toBe(`desk${size} student ${String(size - 6).padStart(4, "0")}`);
+      // Every log is clean and of ten drops, so a manual criterion keeps the names' order: page 2 starts at the sixth.
+      expect(result.rows[0].studentName).toBe(`desk${size} student ${String(5).padStart(4, "0")}`);
+      expect(result.groups).toEqual([{ key: "clean", title: "Clean drop logs", membershipIds: result.matchingIds }]);
       return statements;
     };
     const small = await statementsFor(10);
@@ -305,7 +307,7 @@ describe("the marking desk", () => {
     expect(await statementsFor(1000)).toBe(small);
   });
 
-  it("filters and sorts on the server: missing (after the due time; not due yet before it), late, unmarked, by total", async () => {
+  it("marks one criterion at a time, in its order and bands, and filters by hand-in state on the server", async () => {
     const cohortId = await freshCohort("Filters");
     const lab = await labWithRubric("Filters", { cohortIds: [cohortId] });
     const { membershipIds, dropLogIds } = await seedMarkingClass(db, {
@@ -325,33 +327,107 @@ describe("the marking desk", () => {
     const afterDue = new Date(lab.dueAt.getTime() + 60_000);
     const desk = (filters: Partial<MarkingDeskFilters>, now = afterDue) =>
       loadMarkingDesk(db, { access, lab, filters: page(filters), now });
-    // Up to and including the due instant they may still hand in on time: not missing yet.
-    const atDue = await desk({ status: "not-due" }, lab.dueAt);
-    expect(atDue.rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
-    expect(atDue.counts).toMatchObject({ missing: 0, "not-due": 2 });
-    expect((await desk({ status: "late" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(0, 3).sort());
-    expect((await desk({ status: "missing" })).rows.map((row) => row.membershipId).sort()).toEqual(membershipIds.slice(8).sort());
-    // "Select all that match" reaches past the page: every late student, though a page holds two.
-    expect((await desk({ status: "late", pageSize: 2 })).matchingIds.sort()).toEqual(membershipIds.slice(0, 3).sort());
+    const ids = (found: { rows: { membershipId: string }[] }) => found.rows.map((row) => row.membershipId).sort();
+    // Up to and including the due instant they may still hand in on time: awaited, not absent yet.
+    const atDue = await desk({ status: "awaited" }, lab.dueAt);
+    expect(ids(atDue)).toEqual(membershipIds.slice(8).sort());
+    expect(atDue.counts).toMatchObject({ absent: 0, awaited: 2 });
+    expect(ids(await desk({ status: "after-due" }))).toEqual(membershipIds.slice(0, 3).sort());
+    expect(ids(await desk({ status: "absent" }))).toEqual(membershipIds.slice(8).sort());
+    // A group or "every hand-in shown" reaches past the page: every late student, though a page holds two.
+    expect((await desk({ status: "after-due", pageSize: 2 })).matchingIds.sort()).toEqual(membershipIds.slice(0, 3).sort());
+
+    // Nothing scored yet: the desk opens on the first criterion.
+    const discussion = byTitle(lab, "Discussion");
+    expect((await desk({})).criterion?.id).toBe(byTitle(lab, "Set-up described").id);
     await applyToMany(db, {
       access,
       labId: lab.id,
       membershipIds: [membershipIds[5]],
-      change: { kind: "score", criterionId: byTitle(lab, "Discussion").id, points: 4 },
+      change: { kind: "score", criterionId: discussion.id, points: 4 },
     });
-    const byTotal = await desk({ sort: { by: "total", direction: "desc" } });
-    expect(byTotal.rows[0].membershipId).toBe(membershipIds[5]);
-    // Missing hand-ins get 0 from every automatic criterion, so they sort last.
-    expect(byTotal.rows.slice(-2).map((row) => row.total)).toEqual([0, 0]);
-    expect((await desk({ status: "unmarked" })).totalRows).toBe(10);
-    expect((await desk({})).counts).toEqual({ all: 10, unmarked: 10, flagged: 0, late: 3, missing: 2, "not-due": 0 });
-    expect(markingDeskSearch.parse({ status: "late", sort: "-total", page: "3", pageSize: "100" })).toEqual({
+    const opened = await desk({});
+    expect(opened.criteria.find((criterion) => criterion.id === discussion.id)).toMatchObject({ scored: 1, handedIn: 8 });
+    expect(opened.counts).toEqual({
+      all: 10,
+      waiting: 8,
+      awaited: 0,
+      absent: 2,
+      "after-due": 3,
+      "to-score": 7,
+      "part-scored": 1,
+      scored: 0,
+      relogged: 0,
+      flagged: 0,
+    });
+    expect((await desk({ status: "part-scored" })).rows.map((row) => row.membershipId)).toEqual([membershipIds[5]]);
+    // Scored on Discussion: the next-to-score list of that criterion passes them by.
+    expect((await desk({ criterionId: discussion.id })).toMarkIds).not.toContain(membershipIds[5]);
+
+    // The timing criterion lays the class out by timing: after the due time first, nothing handed in last.
+    const onTime = await desk({ criterionId: byTitle(lab, "On time").id });
+    expect(onTime.groups.map((group) => [group.key, [...group.membershipIds].sort()])).toEqual([
+      ["after-due", membershipIds.slice(0, 3).sort()],
+      ["in-time", membershipIds.slice(3, 8).sort()],
+      ["nothing", membershipIds.slice(8).sort()],
+    ]);
+    expect(onTime.bands.slice(0, 4)).toEqual(["after-due", "after-due", "after-due", "in-time"]);
+
+    // A criterion of another lab (or none at all) is a URL made by hand: refused.
+    expect((await refusal(desk({ criterionId: "00000000-0000-4000-8000-000000000009" }))).code).toBe("invalid_value");
+    const criterionId = discussion.id;
+    expect(markingDeskSearch.parse({ criterion: criterionId, status: "after-due", page: "3", pageSize: "100" })).toEqual({
+      criterionId,
       cohortId: undefined,
-      status: "late",
-      sort: { by: "total", direction: "desc" },
+      status: "after-due",
       page: 3,
       pageSize: 100,
+      studentId: undefined,
     });
+  });
+});
+
+describe("the desk over HTTP", () => {
+  it("serves one criterion's cards to the instructor, refuses a value the criterion cannot take, and applies a band in one bulk action", async () => {
+    const cohortId = await freshCohort("Desk over HTTP");
+    const lab = await labWithRubric("Desk over HTTP", { cohortIds: [cohortId] });
+    const { membershipIds } = await seedMarkingClass(db, {
+      courseId: fixture.courseId,
+      labId: lab.id,
+      cohortId,
+      figures: quietClass(6),
+      label: "http-desk",
+    });
+    const handle = await createAppHandler();
+    const cookie = await sessionCookieFor(fixture.userIds.instructor);
+    const discussion = byTitle(lab, "Discussion");
+    const path = `/courses/${fixture.courseId}/labs/${lab.id}/marking`;
+    const page = await handle(appRequest(`${path}?criterion=${discussion.id}`, { cookie }));
+    expect(page.status).toBe(200);
+    const html = (await page.text()).replaceAll("<!-- -->", "");
+    // The ladder marks the criterion chosen; the cards come under their band, one per student.
+    expect(html).toMatch(/<a[^>]*aria-current="step"[^>]*>(?:(?!<\/a>).)*Discussion/s);
+    expect(html).toContain("Clean drop logs");
+    expect(html.match(/<article /g)).toHaveLength(6);
+    expect(html).not.toContain("<table");
+
+    const post = async (body: unknown) =>
+      handle(
+        new Request(new URL(`${path}.data`, appOrigin()), {
+          method: "POST",
+          body: JSON.stringify(body),
+          headers: { Cookie: cookie, Origin: appOrigin(), "Content-Type": "application/json" },
+        }),
+      );
+    const change = (points: number) => ({ kind: "score", criterionId: discussion.id, points, level: null });
+    const refused = await post({ intent: "save", membershipId: membershipIds[0], expectedVersion: 0, change: change(7) });
+    expect(refused.status).toBe(400);
+    expect(await refused.text()).toContain("Give between 0 and 4 points.");
+    expect(await markCount(lab.id)).toBe(0);
+
+    const bulk = await post({ intent: "bulk", membershipIds, change: change(3) });
+    expect(bulk.status).toBe(200);
+    expect(await markCount(lab.id)).toBe(6);
   });
 });
 

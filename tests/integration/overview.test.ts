@@ -217,7 +217,7 @@ describe("the overviews of a seeded class", () => {
     };
     const forInstructor = await html("instructor");
     expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/dashboard"`);
-    expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking?status=unmarked"`);
+    expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking?status=waiting"`);
     expect(forInstructor).toContain(`href="/courses/${fixture.courseId}/labs/${fixture.labId}/comparison"`);
     expect(forInstructor).toContain("nothing marked yet");
     // Only the labels that occur are named.

@@ -7,6 +7,7 @@ import { Link, useFetcher } from "react-router";
 import { LabTime } from "~/components/drop-logs/lab-time";
 import { ExtensionWindowFields } from "~/components/labs/extension-fields";
 import { ExtendedTo } from "~/components/labs/extended-to";
+import { StateMark } from "~/components/marking/state-mark";
 import { Button } from "~/components/ui/button";
 import { Notice } from "~/components/ui/notice";
 import { handInHref } from "~/lib/comparison/links";
@@ -227,12 +228,16 @@ function StudentRow({
         {handedIn ? (
           <>
             <LabTime at={student.submittedAt!} courseTimeZone={timeZone} />
-            {student.late ? <span className="ml-2 rounded px-1.5 text-xs text-outlier ring-1 ring-outlier">late</span> : null}
+            {student.late ? (
+              <span className="ml-2 text-xs">
+                <StateMark state="after-due" explain />
+              </span>
+            ) : null}
             {student.version! > 1 ? <span className="ml-2 text-xs text-ink-600">version {student.version}</span> : null}
           </>
         ) : (
-          <span className={student.status === "missing" ? "text-outlier" : ""}>
-            {student.status === "missing" ? "Missing" : "Not due yet"}
+          <span>
+            <StateMark state={student.status === "missing" ? "absent" : "awaited"} explain />
             {student.hasDraft ? " (draft started)" : ""}
           </span>
         )}

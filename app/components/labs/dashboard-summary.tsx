@@ -1,5 +1,6 @@
 /** The lab dashboard's summary: its times, and the hand-ins of each cohort by how they stand. */
 import { LabTime } from "~/components/drop-logs/lab-time";
+import { StateMark } from "~/components/marking/state-mark";
 import type { CohortProgress } from "~/server/labs/lab-dashboard.server";
 
 type LabTimes = { opensAt: string; dueAt: string; lateCutoffAt: string | null };
@@ -41,13 +42,13 @@ export function CohortProgressTable({ cohorts }: { cohorts: CohortProgress[] }) 
               On time
             </th>
             <th scope="col" className="py-1 text-right">
-              Late
+              <StateMark state="after-due" explain />
             </th>
             <th scope="col" className="py-1 text-right">
-              Not due yet
+              <StateMark state="awaited" explain />
             </th>
             <th scope="col" className="py-1 text-right">
-              Missing
+              <StateMark state="absent" explain />
             </th>
           </tr>
         </thead>
@@ -67,7 +68,7 @@ export function CohortProgressTable({ cohorts }: { cohorts: CohortProgress[] }) 
         </tbody>
       </table>
       <p className="mt-1 text-xs text-ink-700">
-        Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. Missing: nothing handed in by then.
+        Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. No drop log: nothing handed in by then.
       </p>
     </section>
   );

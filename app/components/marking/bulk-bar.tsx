@@ -1,5 +1,6 @@
 /**
- * One change for every selected student: a criterion's level or points, a late penalty, or a comment.
+ * One change for every selected student: a level or points of the criterion being marked (or another),
+ * a late penalty, or a comment.
  * The server applies it in one transaction, all or nothing; the bar shows the work under way and what
  * came of it.
  */
@@ -7,6 +8,7 @@ import { useEffect, useRef, useState } from "react";
 import { useFetcher, useLocation } from "react-router";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
+import { counted } from "~/lib/plural";
 import { typedPoints } from "./mark-inputs";
 
 export type BulkResponse =
@@ -14,12 +16,23 @@ export type BulkResponse =
   | { intent: "bulk"; status: "refused"; error: { code: string; message: string; membershipIds: string[] } }
   | { status: "failed"; message: string };
 
-const control = "rounded border border-ink-900/20 bg-white px-2 py-1.5 text-sm";
+const control = "max-w-full rounded border border-ink-900/20 bg-white px-2 py-1.5 text-sm";
 
-export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterion[]; selectedIds: string[]; clear: () => void }) {
+export function BulkBar({
+  rubric,
+  criterion: marking,
+  selectedIds,
+  clear,
+}: {
+  rubric: RubricCriterion[];
+  /** The criterion the desk is marking: what the bar changes unless told otherwise. */
+  criterion: RubricCriterion;
+  selectedIds: string[];
+  clear: () => void;
+}) {
   const fetcher = useFetcher<BulkResponse>({ key: "bulk-marks" });
   const action = useLocation().pathname;
-  const [what, setWhat] = useState(rubric[0] ? `criterion:${rubric[0].id}` : "penalty");
+  const [what, setWhat] = useState(`criterion:${marking.id}`);
   const [value, setValue] = useState("");
   const [reason, setReason] = useState("");
   const [localError, setLocalError] = useState<string | null>(null);
@@ -68,8 +81,8 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           );
         }}
       >
-        <span className="self-center font-medium">{selectedIds.length} selected</span>
-        <label className="flex flex-col gap-1">
+        <span className="self-center font-medium">{counted(selectedIds.length, "card", "cards")} selected</span>
+        <label className="flex min-w-0 max-w-full flex-col gap-1">
           <span>Change</span>
           <select className={control} value={what} onChange={(event) => (setWhat(event.target.value), setValue(""))}>
             {rubric.map((entry) => (
@@ -82,24 +95,24 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           </select>
         </label>
         {criterion?.kind === "levels" ? (
-          <label className="flex flex-col gap-1">
+          <label className="flex min-w-0 max-w-full flex-col gap-1">
             <span>Level</span>
             <select className={control} value={value} onChange={(event) => setValue(event.target.value)}>
               <option value="">Choose…</option>
               {(criterion.levels ?? []).map((level, index) => (
                 <option key={index} value={index + 1}>
-                  {index + 1} · {level.points} pts: {level.description}
+                  {index + 1} · {counted(level.points, "point", "points")}: {level.description}
                 </option>
               ))}
             </select>
           </label>
         ) : what === "feedback" ? (
-          <label className="flex min-w-64 flex-1 flex-col gap-1">
+          <label className="flex min-w-0 flex-1 flex-col gap-1 sm:min-w-64">
             <span>Comment (replaces each one&apos;s feedback)</span>
             <textarea className={control} rows={2} value={value} onChange={(event) => setValue(event.target.value)} maxLength={5000} />
           </label>
         ) : (
-          <label className="flex flex-col gap-1">
+          <label className="flex min-w-0 max-w-full flex-col gap-1">
             <span>
               {what === "penalty"
                 ? "Penalty (points)"
@@ -108,7 +121,7 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
             <input className={`${control} w-24`} inputMode="decimal" value={value} onChange={(event) => setValue(event.target.value)} />
           </label>
         )}
-        <label className="flex min-w-48 flex-col gap-1">
+        <label className="flex min-w-0 flex-col gap-1 sm:min-w-48">
           <span>{criterion?.kind === "auto" ? "Why override the automatic points (required)" : "Reason (needed for released marks)"}</span>
           <input className={control} value={reason} onChange={(event) => setReason(event.target.value)} maxLength={500} />
         </label>
@@ -117,7 +130,7 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
           disabled={busy || selectedIds.length === 0}
           className="rounded bg-ink-800 px-4 py-2 font-medium text-paper-50 hover:bg-ink-700 disabled:opacity-60"
         >
-          Apply to {selectedIds.length}
+          Apply to {counted(selectedIds.length, "card", "cards")}
         </button>
         <button type="button" onClick={clear} className="rounded px-3 py-2 underline">
           Clear the selection
@@ -127,13 +140,13 @@ export function BulkBar({ rubric, selectedIds, clear }: { rubric: RubricCriterio
         {busy ? (
           <span className="flex items-center gap-2">
             <progress className="h-2 w-40" aria-label="Applying the change" />
-            Applying to {sentCount.current} student{sentCount.current === 1 ? "" : "s"} in one go…
+            Applying to {counted(sentCount.current, "student", "students")} in one go…
           </span>
         ) : localError ? (
           <span className="text-outlier">{localError}</span>
         ) : result && "intent" in result && result.status === "applied" ? (
           <span className="text-consistent">
-            Done: {result.changed} mark{result.changed === 1 ? "" : "s"} changed
+            Done: {counted(result.changed, "mark", "marks")} changed
             {result.unchanged ? `, ${result.unchanged} already had it` : ""}.
           </span>
         ) : result ? (

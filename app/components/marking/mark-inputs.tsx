@@ -1,4 +1,4 @@
-/** The marking desk's small inputs, shared by the grid and the side panel. */
+/** The marking desk's small inputs, shared by its cards and the per-student marks. */
 import { useEffect, useState } from "react";
 import { parseTypedNumber } from "~/lib/forms/typed-number";
 import type { SaveState } from "./mark-saves";
@@ -6,14 +6,27 @@ import type { SaveState } from "./mark-saves";
 /** Points as typed, with a decimal comma or point: null when blank, NaN when not a number. */
 export const typedPoints = (text: string): number | null => (parseTypedNumber(text) as number | undefined) ?? null;
 
-/** A points field that saves on Enter, on leaving it, or when an arrow moves on; Escape puts back the saved value. */
+/**
+ * A points field that saves on Enter, on leaving it, or when an arrow moves on; Escape puts back the
+ * saved value. `refuse` names what is wrong with a number before anything is sent (out of the
+ * criterion's range, say); the field then keeps the entry, marked invalid, and `onRefused` hears why.
+ */
 export function PointsInput({
   value,
   onCommit,
   label,
   className = "",
+  refuse,
+  onRefused,
   ...rest
-}: { value: number | null; onCommit: (points: number | null) => void; label: string; className?: string } & {
+}: {
+  value: number | null;
+  onCommit: (points: number | null) => void;
+  label: string;
+  className?: string;
+  refuse?: (points: number) => string | null;
+  onRefused?: (message: string | null) => void;
+} & {
   "data-row"?: number;
   "data-col"?: number;
   tabIndex?: number;
@@ -23,8 +36,11 @@ export function PointsInput({
   useEffect(() => setText(value === null ? "" : String(value)), [value]);
   const commit = () => {
     const points = typedPoints(text);
-    if (points !== null && !Number.isFinite(points)) return setInvalid(true);
-    setInvalid(false);
+    const problem =
+      points === null ? null : !Number.isFinite(points) ? "Type a number of points, such as 2 or 2,5." : (refuse?.(points) ?? null);
+    setInvalid(problem !== null);
+    onRefused?.(problem);
+    if (problem) return;
     if (points !== value) onCommit(points);
   };
   return (
@@ -41,7 +57,8 @@ export function PointsInput({
         if (event.key === "Escape") {
           setText(value === null ? "" : String(value));
           setInvalid(false);
-        }
+          onRefused?.(null);
+        } else if (event.key === "Enter") commit();
       }}
       {...rest}
     />
@@ -53,12 +70,15 @@ export function SaveStatus({ state, retry }: { state: SaveState; retry: () => vo
   if (state.status === "saving") return <span className="text-xs text-ink-600">Saving…</span>;
   if (state.status === "saved") return <span className="text-xs text-consistent">Saved</span>;
   if (state.status === "conflict") return <span className="text-xs text-amber-700">{state.message}</span>;
+  // The message wraps in its card; Retry only where sending again can help (a lost connection).
   return (
-    <span className="flex flex-col items-start text-xs text-outlier">
+    <span className="flex flex-col items-start text-xs break-words text-outlier">
       Not saved: {state.message}
-      <button type="button" className="underline" onClick={retry}>
-        Retry
-      </button>
+      {state.retryable ? (
+        <button type="button" className="underline" onClick={retry}>
+          Retry
+        </button>
+      ) : null}
     </span>
   );
 }

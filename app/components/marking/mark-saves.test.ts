@@ -115,7 +115,7 @@ describe("the marking desk's saves", () => {
     expect(pointsShown(saves)).toBe(3);
     expect(saves[membershipId]).toMatchObject({
       inFlight: null,
-      save: { status: "failed", message: "The connection failed; nothing was saved.", change: score(3) },
+      save: { status: "failed", message: "The connection failed; nothing was saved.", retryable: true, change: score(3) },
     });
     // A fresh read by the loader does not throw the unsaved change away.
     expect(markSaves(saves, { type: "loaded", row: base })).toBe(saves);
@@ -134,7 +134,8 @@ describe("the marking desk's saves", () => {
     const saves = typed({}, 9);
     expect(saves[membershipId]).toMatchObject({
       inFlight: null,
-      save: { status: "failed", message: "Give between 0 and 5 points.", change: score(9) },
+      // Sending it again could only be refused again: no retry is offered.
+      save: { status: "failed", message: "Give between 0 and 5 points.", retryable: false, change: score(9) },
     });
     expect(pointsShown(saves)).toBeUndefined();
   });

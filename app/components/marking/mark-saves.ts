@@ -19,7 +19,8 @@ export type SaveState =
   | { status: "saving" }
   | { status: "saved" }
   | { status: "conflict"; message: string }
-  | ({ status: "failed"; message: string } & MarkEdit);
+  /** `retryable`: only a save lost on the way may succeed when sent again; a refused value never does. */
+  | ({ status: "failed"; message: string; retryable: boolean } & MarkEdit);
 
 /** What the desk's action answers to one save; `failed` is the client action's word for a lost connection. */
 export type SaveResponse =
@@ -107,7 +108,7 @@ function edit(rubric: readonly RubricCriterion[], entry: RowSaves, { change, rea
     shown = withChange(rubric, entry.shown, change);
   } catch (error) {
     if (!(error instanceof AppError)) throw error;
-    return { ...entry, save: { status: "failed", message: error.message, change, reason } };
+    return { ...entry, save: { status: "failed", message: error.message, retryable: false, change, reason } };
   }
   if (entry.inFlight) return { ...entry, shown, save: { status: "saving" }, queue: [...entry.queue, { change, reason }] };
   return { ...entry, shown, save: { status: "saving" }, inFlight: { change, reason, expectedVersion: entry.confirmed.expectedVersion } };
@@ -135,7 +136,8 @@ function answer(rubric: readonly RubricCriterion[], entry: RowSaves, response: S
   }
   // Refused or lost on the way: what the marker entered stays on screen, marked unsaved, with a retry.
   const message = "error" in response ? response.error.message : "message" in response ? response.message : "The save was not taken.";
-  return { ...entry, inFlight: null, queue: [], save: { status: "failed", message, change: sent.change, reason: sent.reason } };
+  const retryable = !("error" in response);
+  return { ...entry, inFlight: null, queue: [], save: { status: "failed", message, retryable, change: sent.change, reason: sent.reason } };
 }
 
 export function markSaves(saves: MarkSaves, event: MarkSaveEvent): MarkSaves {

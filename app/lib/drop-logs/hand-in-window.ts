@@ -52,13 +52,6 @@ export type StudentDeadline = {
   extensionReason: string | null;
 };
 
-export const handInStandingWords: Record<HandInStanding, string> = {
-  "on-time": "on time",
-  late: "late",
-  "not-due": "not due yet",
-  missing: "missing",
-};
-
 /** An extension's times, as stored in `lab_extensions`. */
 export type ExtensionWindow = { dueAt: Date; lateCutoffAt: Date | null };
 export type EffectiveHandInWindow = HandInWindow & { extendedBy: "student" | "cohort" | null };

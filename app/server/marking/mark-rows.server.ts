@@ -38,11 +38,16 @@ export type DeskHandIn = {
   late: boolean;
   dropCount: number | null;
   strayDropCount: number | null;
+  /** The drop times as handed in (s), and the indices of the stray drops among them: the desk's strip. */
+  dropTimes: number[] | null;
+  strayDrops: number[] | null;
   warningCount: number;
   /** The kit's state at the hand-in when it was not yet at home ("Packed"), else null. */
   kitNotAtHome: string | null;
   /** C_D/C_D,ref (drag) or μ/μ_ref (viscometry). */
   figure: number | null;
+  /** The figure's expanded uncertainty U (95 %) from the reduction's budget, when it has one. */
+  figureExpanded: number | null;
   reynolds: number | null;
   dragCoefficient: number | null;
   viscosityPaS: number | null;
@@ -148,6 +153,10 @@ const handInJson = (
         'dropCount', case when jsonb_typeof(${version.reduction} #> '{drops,n}') = 'number' then (${version.reduction} #>> '{drops,n}')::int
                           when jsonb_typeof(${version.input} -> 'drops') = 'array' then jsonb_array_length(${version.input} -> 'drops') end,
         'strayDropCount', case when jsonb_typeof(${version.reduction} #> '{drops,strayDrops}') = 'array' then jsonb_array_length(${version.reduction} #> '{drops,strayDrops}') end,
+        'dropTimes', case when jsonb_typeof(${version.input} -> 'drops') = 'array' then ${version.input} -> 'drops' end,
+        'strayDrops', case when jsonb_typeof(${version.reduction} #> '{drops,strayDrops}') = 'array' then ${version.reduction} #> '{drops,strayDrops}' end,
+        'figureExpanded', case when jsonb_typeof(${version.reduction} #> '{uncertaintyBudget,normalisedFigure,expanded}') = 'number'
+                               then (${version.reduction} #>> '{uncertaintyBudget,normalisedFigure,expanded}')::float8 end,
         'warningCount', ${version.warningCount}, 'kitState', ${version.kitRecords} #>> '{kit,state}', 'figure', ${version.normalisedFigure}::float8, 'reynolds', ${version.reynolds}::float8,
         'dragCoefficient', ${version.dragCoefficient}::float8, 'viscosityPaS', ${version.viscosityPaS}::float8,
         'temperatureC', ${version.temperatureC},

@@ -1,19 +1,22 @@
 /**
- * The marking desk: one row per student of the viewer's cohorts among the lab's (instructors see
- * every cohort), with the hand-in's status and key results, the class label and its reason, the
- * automatic criteria's suggestions, the rubric's cells and the total. Filters, sorting and paging run
- * on the server; whatever the class size it costs two statements (students with hand-ins and marks,
- * the class's counted hand-ins for the labels), run side by side.
+ * The marking desk, criterion first: one criterion marked across the viewer's cohorts among the lab's
+ * (instructors see every cohort), the hand-ins laid out in that criterion's order and bands (see
+ * `criterion-order`), with every criterion's progress for the switcher and the counts of each hand-in
+ * state for the legend. Filters and paging run on the server; whatever the class size it costs two
+ * statements (students with hand-ins and marks, the class's counted hand-ins for the labels), run side
+ * by side.
  */
+import { orderForCriterion, type Band } from "~/lib/marking/criterion-order";
 import {
   deskStatusFilters,
   isToMark,
+  isToScoreFor,
   MAX_DESK_PAGE_SIZE,
-  type DeskSortKey,
   type DeskStatusFilter,
   type MarkingDeskFilters,
 } from "~/lib/marking/desk-filters";
-import { maxTotalOf } from "~/lib/marking/rubric";
+import { maxTotalOf, type RubricCriterion } from "~/lib/marking/rubric";
+import { handInStatesOf } from "~/lib/marking/status-words";
 import type { CourseAccess } from "~/server/auth/access.server";
 import type { Executor } from "~/server/db.server";
 import { deskRow, loadClassLabels, loadStudentMarkRows, type MarkingDeskRow } from "./mark-rows.server";
@@ -22,83 +25,55 @@ import { assertMarkingStaff, markableCohortIds, markingRefusal, type MarkingLab 
 // The filter definitions are pure (the page uses them in the browser); re-exported here for the loader.
 export {
   DEFAULT_DESK_PAGE_SIZE,
-  deskSortKeys,
   deskStatusFilters,
   MAX_DESK_PAGE_SIZE,
   markingDeskSearch,
-  type DeskSortKey,
   type DeskStatusFilter,
   type MarkingDeskFilters,
 } from "~/lib/marking/desk-filters";
+
+/** A band of the criterion's order, with every student in it on every page: what "the whole group" selects. */
+export type DeskGroup = Band & { membershipIds: string[] };
+
+/** A criterion as the switcher shows it: how many of the hand-ins shown have its points. */
+export type CriterionProgress = Pick<RubricCriterion, "id" | "title" | "kind" | "maxPoints"> & { scored: number; handedIn: number };
 
 export type MarkingDesk = {
   lab: MarkingLab;
   /** The lab's cohorts the viewer may mark, for the cohort filter. */
   cohorts: { id: string; name: string }[];
-  /** The rows of the requested page. */
+  /** The criterion marked across the class (null while the rubric is empty), and every criterion's progress. */
+  criterion: RubricCriterion | null;
+  criteria: CriterionProgress[];
+  /** The cards of the requested page, in the criterion's order, each with the key of its band. */
   rows: MarkingDeskRow[];
+  bands: string[];
+  /** Every band of the order (all pages), in order. */
+  groups: DeskGroup[];
   /** Rows passing the filters (all pages). */
   totalRows: number;
-  /** Every student passing the filters, on every page: what "select all that match" selects. */
+  /** Every student passing the filters, on every page, in order: what "select all that match" selects. */
   matchingIds: string[];
-  /** Those of them whose hand-in is still to mark, in the same order: where the "next to mark" key goes beyond this page. */
+  /** Those of them still to score on this criterion, in the same order: where the "next to score" key goes beyond this page. */
   toMarkIds: string[];
-  /** The student asked for in the URL, when they pass the filters: opened beside the table. */
+  /** The student asked for in the URL, when they pass the filters: their card takes the focus. */
   openId: string | null;
   page: number;
   pageSize: number;
   pageCount: number;
-  /** Counts over the viewer's students in the chosen cohort, before the status filter: for the filter buttons. */
+  /** Counts over the viewer's students in the chosen cohort, before the state filter: for the legend. */
   counts: { all: number } & Record<DeskStatusFilter, number>;
   maxTotal: number;
   /** TAs may change marks until the lab's marking is marked ready; instructors always. */
   canEdit: boolean;
 };
 
-const labelRank = { outlier: 0, suspect: 1, consistent: 2 } as const;
-const statusRank = { missing: 0, "not-due": 1, late: 2, "on-time": 3 } as const;
-const progressRank = { unmarked: 0, partial: 1, marked: 2 } as const;
-
-function sortValue(row: MarkingDeskRow, by: DeskSortKey): string | number | null {
-  switch (by) {
-    case "name":
-      return row.studentName.toLocaleLowerCase();
-    case "cohort":
-      return row.cohortName.toLocaleLowerCase();
-    case "status":
-      return statusRank[row.status];
-    case "submittedAt":
-      return row.handIn?.submittedAt ?? null;
-    case "figure":
-      return row.handIn?.figure ?? null;
-    case "label":
-      return row.classLabel ? labelRank[row.classLabel.label] : null;
-    case "total":
-      return row.total;
-    case "progress":
-      return progressRank[row.progress];
-  }
-}
-
-/** Sorts by the key, then by name; empty values (no hand-in, no label) go last either way. */
-function sortRows(rows: MarkingDeskRow[], sort: MarkingDeskFilters["sort"]): MarkingDeskRow[] {
-  if (!sort || (sort.by === "name" && sort.direction === "asc")) return rows; // the statement's own order
-  const sign = sort.direction === "desc" ? -1 : 1;
-  return [...rows].sort((a, b) => {
-    const x = sortValue(a, sort.by);
-    const y = sortValue(b, sort.by);
-    if (x === null || y === null) return x === y ? 0 : x === null ? 1 : -1;
-    const order = x < y ? -1 : x > y ? 1 : 0;
-    return order !== 0 ? sign * order : a.studentName.localeCompare(b.studentName);
-  });
-}
-
 const passes = (row: MarkingDeskRow, status: DeskStatusFilter) =>
-  status === "unmarked" ? row.progress !== "marked" : status === "flagged" ? row.flagged : row.status === status;
+  status === "waiting" ? isToMark(row) : handInStatesOf(row).includes(status);
 
 /**
  * The desk for `access`: TAs get the students of their cohorts, instructors everyone's. Students are
- * refused (and recorded); a cohort filter naming a cohort the viewer may not mark is refused as bad input.
+ * refused (and recorded); a cohort or criterion the viewer may not choose is refused as bad input.
  */
 export async function loadMarkingDesk(
   executor: Executor,
@@ -109,6 +84,8 @@ export async function loadMarkingDesk(
   // The filter offers only these cohorts: any other id is a URL made by hand, answered 400 like any bad filter.
   if (filters.cohortId && !allowed.includes(filters.cohortId))
     throw markingRefusal("invalid_value", "That cohort is not one you mark for this lab.", "cohort");
+  if (filters.criterionId && !lab.rubric.some((criterion) => criterion.id === filters.criterionId))
+    throw markingRefusal("invalid_value", "That criterion is not in this lab's rubric.", "criterion");
   const cohortIds = filters.cohortId ? [filters.cohortId] : allowed;
   const [students, labels] = await Promise.all([
     loadStudentMarkRows(executor, lab, { cohortIds: allowed, now }),
@@ -119,22 +96,52 @@ export async function loadMarkingDesk(
     .map(([id, name]) => ({ id, name }))
     .sort((a, b) => a.name.localeCompare(b.name));
   const inCohort = students.filter((student) => cohortIds.includes(student.cohortId)).map((student) => deskRow(lab, student, labels));
-  const counts: MarkingDesk["counts"] = { all: inCohort.length, unmarked: 0, flagged: 0, late: 0, missing: 0, "not-due": 0 };
+  const counts = Object.fromEntries([["all", inCohort.length], ...deskStatusFilters.map((status) => [status, 0])]) as MarkingDesk["counts"];
   for (const row of inCohort) for (const status of deskStatusFilters) if (passes(row, status)) counts[status]++;
 
-  const filtered = sortRows(filters.status ? inCohort.filter((row) => passes(row, filters.status!)) : inCohort, filters.sort);
+  const handedIn = inCohort.filter((row) => row.handIn !== null);
+  const criteria = lab.rubric.map((criterion) => ({
+    id: criterion.id,
+    title: criterion.title,
+    kind: criterion.kind,
+    maxPoints: criterion.maxPoints,
+    scored: handedIn.filter((row) => !isToScoreFor(row, criterion.id)).length,
+    handedIn: handedIn.length,
+  }));
+  const criterion =
+    lab.rubric.find((candidate) => candidate.id === filters.criterionId) ??
+    lab.rubric[criteria.findIndex((entry) => entry.scored < entry.handedIn)] ??
+    lab.rubric[0] ??
+    null;
+
+  const filtered = filters.status ? inCohort.filter((row) => passes(row, filters.status!)) : inCohort;
+  const ordered = criterion
+    ? orderForCriterion(criterion, filtered, lab.requiredDrops)
+    : { rows: filtered.map((row) => ({ row, band: "nothing" })), bands: [] };
+  const groups = ordered.bands.map((band) => ({
+    ...band,
+    membershipIds: ordered.rows.filter((entry) => entry.band === band.key).map((entry) => entry.row.membershipId),
+  }));
   const pageSize = Math.min(Math.max(1, Math.floor(filters.pageSize)), MAX_DESK_PAGE_SIZE);
-  const pageCount = Math.max(1, Math.ceil(filtered.length / pageSize));
-  const asked = filters.studentId ? filtered.findIndex((row) => row.membershipId === filters.studentId) : -1;
+  const pageCount = Math.max(1, Math.ceil(ordered.rows.length / pageSize));
+  const asked = filters.studentId ? ordered.rows.findIndex((entry) => entry.row.membershipId === filters.studentId) : -1;
   const page = asked >= 0 ? Math.floor(asked / pageSize) + 1 : Math.min(Math.max(1, Math.floor(filters.page)), pageCount);
+  const shown = ordered.rows.slice((page - 1) * pageSize, page * pageSize);
   return {
     lab,
     cohorts,
-    rows: filtered.slice((page - 1) * pageSize, page * pageSize),
-    totalRows: filtered.length,
-    matchingIds: filtered.map((row) => row.membershipId),
-    toMarkIds: filtered.filter(isToMark).map((row) => row.membershipId),
-    openId: asked >= 0 ? filtered[asked].membershipId : null,
+    criterion,
+    criteria,
+    rows: shown.map((entry) => entry.row),
+    bands: shown.map((entry) => entry.band),
+    groups,
+    totalRows: ordered.rows.length,
+    matchingIds: ordered.rows.map((entry) => entry.row.membershipId),
+    // Without a rubric there is no criterion to score, but a hand-in still waits for its mark.
+    toMarkIds: ordered.rows
+      .filter((entry) => (criterion ? isToScoreFor(entry.row, criterion.id) : isToMark(entry.row)))
+      .map((entry) => entry.row.membershipId),
+    openId: asked >= 0 ? ordered.rows[asked].row.membershipId : null,
     page,
     pageSize,
     pageCount,
