@@ -1092,7 +1092,7 @@ describe("the marks CSVs", () => {
       ["late penalty", "", "", "", "", "-0.5", "", "by hand"],
     ]);
     expect(own.every((row) => row.student === `'=HYPERLINK("http://evil.example","x")` && row.student_number === "'+4420")).toBe(true);
-    expect(own.every((row) => row.cohort === "Cohort one" && row.hand_in === "not due yet" && row.marker === "Test instructor")).toBe(true);
+    expect(own.every((row) => row.cohort === "Cohort one" && row.hand_in === "Awaited" && row.marker === "Test instructor")).toBe(true);
     // A student's points add up to their total.
     expect(own.reduce((sum, row) => sum + Number(row.points), 0)).toBe(5.5);
     const unmarked = rows.filter((row) => row.student === "Test ownStudent");
@@ -1108,8 +1108,8 @@ describe("the marks CSVs", () => {
       summary.rows.find((row) => row.section === section && row.subject === subject && row.measure === measure)?.value;
     expect(figure("hand-ins", "all cohorts", "students")).toBe(String(students.size));
     // Nobody has handed in this lab, which is due tomorrow.
-    expect(figure("hand-ins", "all cohorts", "not due yet")).toBe(String(students.size));
-    expect(figure("hand-ins", "all cohorts", "on time")).toBe("0");
+    expect(figure("hand-ins", "all cohorts", "Awaited")).toBe(String(students.size));
+    expect(figure("hand-ins", "all cohorts", "On time")).toBe("0");
     expect(figure("criterion", "1. Method", "scored")).toBe("1");
     expect(figure("criterion", "1. Method", "not scored")).toBe(String(students.size - 1));
     expect(figure("criterion", "1. Method", "level 1: Not described")).toBe("0");

@@ -49,6 +49,12 @@ export function timingState(standing: HandInStanding): HandInState | null {
   return null;
 }
 
+/** The timing of a hand-in in one word, "On time" included (the marks exports name every student's). */
+export function standingWord(standing: HandInStanding): string {
+  const state = timingState(standing);
+  return state ? stateWords[state].word : "On time";
+}
+
 /** What a desk row tells about a student's hand-in. */
 export type StateEvidence = {
   status: HandInStanding;

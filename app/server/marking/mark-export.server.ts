@@ -5,7 +5,8 @@
  * Every figure of a mark is of the version it was marked on, which each row names beside the latest
  * one, so a later hand-in never mixes in. Two statements whatever the class size.
  */
-import { handInStandingWords, type HandInStanding } from "~/lib/drop-logs/hand-in-window";
+import type { HandInStanding } from "~/lib/drop-logs/hand-in-window";
+import { standingWord } from "~/lib/marking/status-words";
 import type { CellSource } from "~/lib/marking/marks";
 import { maxTotalOf, roundPoints } from "~/lib/marking/rubric";
 import { quantileType7 } from "~/lib/reduction/tukey";
@@ -147,7 +148,7 @@ export async function loadMarkLines(executor: Executor, args: ExportArgs): Promi
       studentNumber: row.studentNumber,
       student: row.studentName,
       email: row.email,
-      handIn: handInStandingWords[standingOf(row)],
+      handIn: standingWord(standingOf(row)),
       markedVersion: row.mark ? (row.markedHandIn?.version ?? null) : null,
       marker: row.mark?.markedBy?.name ?? null,
       releasedAt: row.mark?.releasedAt ?? null,
@@ -219,7 +220,7 @@ export async function loadMarkSummary(executor: Executor, args: ExportArgs): Pro
     ...standings.map((standing): SummaryLine => ({
       section: "hand-ins",
       subject,
-      measure: handInStandingWords[standing],
+      measure: standingWord(standing),
       value: group.filter((row) => standingOf(row) === standing).length,
     })),
   ]);
