@@ -1,50 +1,84 @@
-/** The marking desk's small inputs, shared by the grid and the side panel. */
-import { useEffect, useState } from "react";
+/** The marking desk's small inputs, shared by the grid, the side panel and the per-student view. */
+import { useEffect, useId, useState } from "react";
 import { parseTypedNumber } from "~/lib/forms/typed-number";
+import { counted } from "~/lib/plural";
 import type { SaveState } from "./mark-saves";
 
 /** Points as typed, with a decimal comma or point: null when blank, NaN when not a number. */
 export const typedPoints = (text: string): number | null => (parseTypedNumber(text) as number | undefined) ?? null;
 
-/** A points field that saves on Enter, on leaving it, or when an arrow moves on; Escape puts back the saved value. */
+/**
+ * A points field that saves on Enter, on leaving it, or when an arrow moves on; Escape puts back the saved value.
+ * With `bounds`, a keystroke that would make the number leave them is not taken, and the field says why
+ * beside itself, so an impossible value never reaches a save that can only fail.
+ */
 export function PointsInput({
   value,
   onCommit,
   label,
+  bounds,
   className = "",
   ...rest
-}: { value: number | null; onCommit: (points: number | null) => void; label: string; className?: string } & {
+}: {
+  value: number | null;
+  onCommit: (points: number | null) => void;
+  label: string;
+  bounds?: { min: number; max: number };
+  className?: string;
+} & {
   "data-row"?: number;
   "data-col"?: number;
   tabIndex?: number;
 }) {
   const [text, setText] = useState(value === null ? "" : String(value));
   const [invalid, setInvalid] = useState(false);
+  const [refusal, setRefusal] = useState("");
+  const refusalId = useId();
   useEffect(() => setText(value === null ? "" : String(value)), [value]);
+  const change = (typed: string) => {
+    const points = typedPoints(typed);
+    if (bounds && points !== null && Number.isFinite(points) && (points < bounds.min || points > bounds.max)) {
+      setRefusal(`${typed.trim()} is not taken: give between ${bounds.min} and ${counted(bounds.max, "point", "points")}.`);
+      return;
+    }
+    setRefusal("");
+    setText(typed);
+  };
   const commit = () => {
     const points = typedPoints(text);
     if (points !== null && !Number.isFinite(points)) return setInvalid(true);
     setInvalid(false);
     if (points !== value) onCommit(points);
   };
-  return (
+  const input = (
     <input
       type="text"
       inputMode="decimal"
       aria-label={label}
       aria-invalid={invalid || undefined}
+      aria-describedby={bounds && refusal ? refusalId : undefined}
       className={`w-16 rounded border px-1 py-1 text-right text-sm tabular-nums ${invalid ? "border-outlier" : "border-ink-900/20"} ${className}`}
       value={text}
-      onChange={(event) => setText(event.target.value)}
+      onChange={(event) => change(event.target.value)}
       onBlur={commit}
       onKeyDown={(event) => {
         if (event.key === "Escape") {
           setText(value === null ? "" : String(value));
           setInvalid(false);
+          setRefusal("");
         }
       }}
       {...rest}
     />
+  );
+  if (!bounds) return input;
+  return (
+    <span className="inline-flex flex-col items-start gap-1">
+      {input}
+      <span id={refusalId} role="status" className="text-xs text-ink-800">
+        {refusal}
+      </span>
+    </span>
   );
 }
 
