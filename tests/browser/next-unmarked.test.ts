@@ -155,6 +155,18 @@ describe("a student's marking view and next to mark, with the keyboard, in Chrom
           );
         });
 
+      // Someone else saves this mark meanwhile (its version moves on): the next change is refused as a
+      // conflict, their mark is shown with who made it, and a change made again then saves.
+      await db.execute(sql`update marks set version = version + 1, marked_by_id = (select id from users where email = ${ta})
+        where lab_id = ${lab.id} and membership_id = ${target!.id}`);
+      await setUp.getByRole("button").first().focus();
+      await page.keyboard.press("3");
+      await expect.poll(() => page.getByRole("status").filter({ hasText: "changed this mark meanwhile" }).count()).toBe(1);
+      await expect.poll(() => setUp.getByRole("button", { pressed: true }).textContent()).toContain("1 point");
+      await page.keyboard.press("3");
+      await saved.waitFor();
+      await expect.poll(() => setUp.getByRole("button", { pressed: true }).textContent()).toContain("2 points");
+
       expect(seriousOrCritical(await axeViolations(page))).toEqual([]);
       expect(await noSideScroll(page)).toBe(true);
       await page.setViewportSize({ width: 390, height: 844 });
