@@ -119,9 +119,11 @@ export default function MarkingStudentPage({ loaderData }: Route.ComponentProps)
           </Link>
         ) : null}
         {/* On a phone the evidence comes first and is long: a way straight to the criteria. */}
-        <a href="#marks-heading" className={`${stepClass} xl:hidden`}>
-          To the criteria
-        </a>
+        {lab.rubric.length ? (
+          <a href="#marks-heading" className={`${stepClass} xl:hidden`}>
+            To the criteria
+          </a>
+        ) : null}
         <span className="text-sm text-ink-700">
           {order.index + 1} of {counted(order.count, "student", "students")} in the desk&apos;s order
         </span>
