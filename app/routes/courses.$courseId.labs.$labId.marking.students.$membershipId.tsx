@@ -127,10 +127,10 @@ export default function MarkingStudentPage({ loaderData }: Route.ComponentProps)
         <span className="text-sm text-ink-700">
           {order.index + 1} of {counted(order.count, "student", "students")} in the desk&apos;s order
         </span>
+        <span role="status" className="text-sm">
+          {nextNote}
+        </span>
       </nav>
-      <p role="status" className="text-sm empty:hidden">
-        {nextNote}
-      </p>
       {!canEdit ? (
         <Notice tone="info">
           The instructor has closed this lab&apos;s marking for moderation: the mark is shown but cannot be changed here.

@@ -2,11 +2,11 @@
  * An automatic criterion of one student's mark: the suggestion with its reason, and the override,
  * which needs a reason kept with the mark. The desk's side panel and the per-student view show it.
  */
-import { useState } from "react";
+import { useId, useState } from "react";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
-import { typedPoints } from "./mark-inputs";
+import { outOfBounds, typedPoints } from "./mark-inputs";
 
 export function AutoOverride({
   criterion,
@@ -23,6 +23,9 @@ export function AutoOverride({
   const [points, setPoints] = useState(cell?.source === "override" ? String(cell.points ?? "") : "");
   const [reason, setReason] = useState(cell?.overrideReason ?? "");
   const [invalid, setInvalid] = useState(false);
+  // An override is within the criterion's points, like any score: a keystroke leaving them is not taken.
+  const [refusal, setRefusal] = useState("");
+  const refusalId = useId();
   return (
     <div className="flex flex-col gap-1 text-sm">
       <p>
@@ -50,8 +53,13 @@ export function AutoOverride({
               className={`w-20 rounded border px-1 py-1 ${invalid ? "border-outlier" : "border-ink-900/20"}`}
               inputMode="decimal"
               aria-invalid={invalid || undefined}
+              aria-describedby={refusal ? refusalId : undefined}
               value={points}
-              onChange={(event) => setPoints(event.target.value)}
+              onChange={(event) => {
+                const refused = outOfBounds(event.target.value, { min: 0, max: criterion.maxPoints });
+                setRefusal(refused ?? "");
+                if (!refused) setPoints(event.target.value);
+              }}
             />
           </label>
           <label className="flex min-w-40 flex-1 flex-col">
@@ -75,6 +83,9 @@ export function AutoOverride({
               Use the suggestion
             </button>
           ) : null}
+          <span id={refusalId} role="status" className="basis-full text-xs text-ink-800">
+            {refusal}
+          </span>
         </form>
       ) : null}
     </div>

@@ -7,6 +7,15 @@ import type { SaveState } from "./mark-saves";
 /** Points as typed, with a decimal comma or point: null when blank, NaN when not a number. */
 export const typedPoints = (text: string): number | null => (parseTypedNumber(text) as number | undefined) ?? null;
 
+export type PointsBounds = { min: number; max: number };
+
+/** Why `typed` is refused as points within `bounds`, or null when it is within them (or not a whole number yet). */
+export function outOfBounds(typed: string, bounds: PointsBounds): string | null {
+  const points = typedPoints(typed);
+  if (points === null || !Number.isFinite(points) || (points >= bounds.min && points <= bounds.max)) return null;
+  return `${typed.trim()} is not taken: give between ${bounds.min} and ${counted(bounds.max, "point", "points")}.`;
+}
+
 /**
  * A points field that saves on Enter, on leaving it, or when an arrow moves on; Escape puts back the saved value.
  * With `bounds`, a keystroke that would make the number leave them is not taken, and the field says why
@@ -23,7 +32,7 @@ export function PointsInput({
   value: number | null;
   onCommit: (points: number | null) => void;
   label: string;
-  bounds?: { min: number; max: number };
+  bounds?: PointsBounds;
   className?: string;
 } & {
   "data-row"?: number;
@@ -36,13 +45,9 @@ export function PointsInput({
   const refusalId = useId();
   useEffect(() => setText(value === null ? "" : String(value)), [value]);
   const change = (typed: string) => {
-    const points = typedPoints(typed);
-    if (bounds && points !== null && Number.isFinite(points) && (points < bounds.min || points > bounds.max)) {
-      setRefusal(`${typed.trim()} is not taken: give between ${bounds.min} and ${counted(bounds.max, "point", "points")}.`);
-      return;
-    }
-    setRefusal("");
-    setText(typed);
+    const refused = bounds ? outOfBounds(typed, bounds) : null;
+    setRefusal(refused ?? "");
+    if (!refused) setText(typed);
   };
   const commit = () => {
     const points = typedPoints(text);
