@@ -61,6 +61,7 @@ export default [
     route("labs/:labId/extensions", "routes/courses.$courseId.labs.$labId.extensions.tsx"),
     route("labs/:labId/hand-ins/:dropLogId", "routes/courses.$courseId.labs.$labId.hand-ins.$dropLogId.tsx"),
     route("labs/:labId/marking", "routes/courses.$courseId.labs.$labId.marking.tsx"),
+    route("labs/:labId/marking/students/:membershipId", "routes/courses.$courseId.labs.$labId.marking.students.$membershipId.tsx"),
     route("labs/:labId/rubric", "routes/courses.$courseId.labs.$labId.rubric.tsx"),
     route("labs/:labId/moderation", "routes/courses.$courseId.labs.$labId.moderation.tsx"),
     route("messages", "routes/courses.$courseId.messages._index.tsx"),

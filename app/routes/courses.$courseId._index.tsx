@@ -11,6 +11,7 @@ import { StateMark } from "~/components/marking/state-mark";
 import { PageHeader } from "~/components/ui/page-header";
 import { tableHeadClass } from "~/components/ui/table-head";
 import { formatDateTime } from "~/lib/format-date";
+import { markingStudentHref } from "~/lib/marking/links";
 import { kitProblemKindLabels, kitProblemStatusLabels } from "~/lib/kits/kit-problem-states";
 import { kitStateLabels, kitStates } from "~/lib/kits/kit-states";
 import { partKindLabels } from "~/lib/kits/part-input";
@@ -35,7 +36,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
   }
   if (access.membership.role === "ta") {
     const [overview, marking] = await Promise.all([courseOverview(db, access), taOverview(db, access)]);
-    return { view: "ta" as const, timeZone, ...overview, ...marking };
+    return { view: "ta" as const, timeZone, courseId: access.course.id, ...overview, ...marking };
   }
   return { view: "instructor" as const, timeZone, recentDeadlineDays: RECENT_DEADLINE_DAYS, ...(await instructorOverview(db, access)) };
 }
@@ -274,7 +275,7 @@ function KitsItem({ timeZone, openProblems, kitsByState, ...rest }: Of<"instruct
 }
 
 function TaView(props: Of<"ta">) {
-  const { timeZone, nextToMark, progress } = props;
+  const { timeZone, courseId, nextToMark, progress } = props;
   return (
     <>
       <Item id="next-to-mark" title="Next to mark">
@@ -284,7 +285,7 @@ function TaView(props: Of<"ta">) {
           <ol className="flex flex-col gap-1 text-sm">
             {nextToMark.map((handIn) => (
               <li key={`${handIn.labId}:${handIn.membershipId}`}>
-                <Link to={`labs/${handIn.labId}/marking?student=${handIn.membershipId}`} className="underline">
+                <Link to={markingStudentHref(courseId, handIn.labId, handIn.membershipId)} className="underline">
                   {handIn.studentName}, {handIn.labTitle}
                 </Link>{" "}
                 · version {handIn.version}, handed in {formatDateTime(handIn.submittedAt, timeZone, "short")}
@@ -293,7 +294,9 @@ function TaView(props: Of<"ta">) {
             ))}
           </ol>
         )}
-        <p className="mt-2 text-xs text-ink-700">Oldest hand-in first. On the marking desk, Alt+N goes to the next one still to mark.</p>
+        <p className="mt-2 text-xs text-ink-700">
+          Oldest hand-in first. On a student's marking view, Alt+N goes to the next one still to mark.
+        </p>
       </Item>
       <Item id="progress" title="Your progress">
         {progress.length === 0 ? (

@@ -4,7 +4,7 @@
  * served by the loader; marks are saved card by card through fetchers (a save does not reload the
  * desk: its answer carries the student's new row), and a bulk action reloads it.
  */
-import { data, Link, type ShouldRevalidateFunctionArgs } from "react-router";
+import { data, Link, redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/courses.$courseId.labs.$labId.marking";
 import { LabStaffNav } from "~/components/labs/lab-staff-nav";
@@ -16,6 +16,8 @@ import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { markingDeskSearch, MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
 import { AppError } from "~/lib/app-error";
+import { isEntityId } from "~/lib/forms/ids";
+import { markingStudentHref } from "~/lib/marking/links";
 import { markChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
@@ -29,6 +31,12 @@ import { staffRoles } from "~/server/auth/access.server";
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadMarkingLab);
   const url = new URL(request.url);
+  // A student named in the address (older "next to mark" links) opens their own marking view, in the desk's order.
+  const student = url.searchParams.get("student");
+  if (student && isEntityId(student)) {
+    url.searchParams.delete("student");
+    throw redirect(markingStudentHref(access.course.id, lab.id, student, url.search));
+  }
   // A cohort filter the viewer may not choose: the error page says so with the refusal's status.
   const desk = await loadMarkingDesk(db, { access, lab, filters: readSearchParams(request, markingDeskSearch) }).catch(
     throwAsResponse(request),

@@ -167,6 +167,8 @@ const matrix: MatrixRow[] = [
   // The marking desk: instructors, and the TAs of a cohort the lab is set for. The probe is not JSON: 400.
   row("GET", "/courses/:courseId/labs/:labId/marking", cohortStaff(200)),
   row("POST", "/courses/:courseId/labs/:labId/marking", cohortStaff(400)),
+  // One student's marking view (ownStudent, of cohort one): instructors, and the TAs of the student's cohort.
+  row("GET", "/courses/:courseId/labs/:labId/marking/students/:membershipId", cohortStaff(200)),
   // The rubric and moderation (release included) are the instructors'; the probe names no intent: 400.
   row("GET", "/courses/:courseId/labs/:labId/rubric", instructorOnly(200)),
   row("POST", "/courses/:courseId/labs/:labId/rubric", instructorOnly(400)),

@@ -225,7 +225,7 @@ describe("the overviews of a seeded class", () => {
     expect(forInstructor).toContain("1 invitation not accepted yet");
     expect(forInstructor).toContain("1 kit not delivered yet");
     const forTa = await html("assignedTa");
-    expect(forTa).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking?student=${fixture.membershipIds.ownStudent}"`);
+    expect(forTa).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}/marking/students/${fixture.membershipIds.ownStudent}"`);
     expect(forTa).not.toContain("invitation");
     const forStudent = await html("ownStudent");
     expect(forStudent).toContain(`href="/courses/${fixture.courseId}/labs/${recentLab}#receipt"`);
