@@ -10,6 +10,7 @@ import { ClassLabelTag } from "~/components/comparison/class-label";
 import { figure } from "~/components/drop-logs/reduction-summary";
 import { ExtendedTo } from "~/components/labs/extended-to";
 import type { RubricCriterion } from "~/lib/marking/rubric";
+import { markingStudentHref } from "~/lib/marking/links";
 import { handInStatesOf } from "~/lib/marking/status-words";
 import { counted } from "~/lib/plural";
 import { formatWithUncertainty } from "~/lib/round-to-uncertainty";
@@ -53,10 +54,6 @@ export function outOfRange(criterion: RubricCriterion, points: number): string |
   return `${points} is outside this criterion's ${criterion.minPoints}–${counted(criterion.maxPoints, "point", "points")}: nothing was saved.`;
 }
 
-/** Where b5's per-student evidence view lives (`/marking/students/:membershipId`). */
-const studentHref = (courseId: string, labId: string, membershipId: string) =>
-  `/courses/${courseId}/labs/${labId}/marking/students/${membershipId}`;
-
 export function HandInCard({
   desk,
   base,
@@ -78,7 +75,8 @@ export function HandInCard({
   onMove: (from: number, step: -1 | 1) => void;
 }) {
   const { criterion, canEdit } = desk;
-  const action = useLocation().pathname;
+  const location = useLocation();
+  const action = location.pathname;
   const { row, saveState, save, retry } = useMarkSaver({ action, rubric: desk.rubric, base, saves, dispatch });
   const [explanation, setExplanation] = useState<string | null>(null);
   // A mark changed elsewhere (a bulk action) answers whatever the last keystroke was told.
@@ -162,7 +160,10 @@ export function HandInCard({
         ) : null}
         <div className="flex min-w-0 flex-1 flex-col">
           <h3 id={titleId} className="font-semibold break-words">
-            <Link to={studentHref(desk.courseId, desk.labId, row.membershipId)} className="underline underline-offset-2">
+            <Link
+              to={markingStudentHref(desk.courseId, desk.labId, row.membershipId, location.search)}
+              className="underline underline-offset-2"
+            >
               {row.studentName}
             </Link>
           </h3>
