@@ -15,8 +15,9 @@ import { handInStatesOf } from "~/lib/marking/status-words";
 import { counted } from "~/lib/plural";
 import { formatWithUncertainty } from "~/lib/round-to-uncertainty";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
+import { OverrideForm } from "./auto-override";
 import { DropStrip } from "./drop-strip";
-import { PointsInput, SaveStatus, typedPoints } from "./mark-inputs";
+import { PointsInput, SaveStatus } from "./mark-inputs";
 import type { MarkSaveEvent, RowSaves } from "./mark-saves";
 import { StateMark } from "./state-mark";
 import { useMarkSaver } from "./use-mark-saver";
@@ -330,9 +331,6 @@ function AutoScore({
 }) {
   const cell = row.cells[criterion.id];
   const [open, setOpen] = useState(false);
-  const [points, setPoints] = useState(cell?.source === "override" ? String(cell.points ?? "") : "");
-  const [reason, setReason] = useState(cell?.overrideReason ?? "");
-  const [problem, setProblem] = useState<string | null>(null);
   const shown = cell?.points === null || cell?.points === undefined ? "no points yet" : counted(cell.points, "point", "points");
   return (
     <div className="flex flex-col gap-1 text-xs">
@@ -349,49 +347,7 @@ function AutoScore({
       <p className="text-ink-700">{cell?.suggestion?.reason}</p>
       {canEdit && cell?.source !== "released" ? (
         open ? (
-          <form
-            className="flex flex-wrap items-end gap-2"
-            onSubmit={(event) => {
-              event.preventDefault();
-              const typed = typedPoints(points);
-              const refused =
-                typed === null || !Number.isFinite(typed)
-                  ? "Type a number of points."
-                  : typed < 0 || typed > criterion.maxPoints
-                    ? `${typed} is outside this criterion's 0–${counted(criterion.maxPoints, "point", "points")}.`
-                    : !reason.trim()
-                      ? "Say why the automatic points do not fit."
-                      : null;
-              setProblem(refused);
-              if (refused || typed === null) return;
-              save({ kind: "score", criterionId: criterion.id, points: typed, level: null, overrideReason: reason });
-              setOpen(false);
-            }}
-          >
-            <label className="flex flex-col">
-              <span>Points</span>
-              <input
-                className="w-16 rounded border border-ink-900/20 px-1 py-1"
-                inputMode="decimal"
-                aria-invalid={problem ? true : undefined}
-                value={points}
-                onChange={(event) => setPoints(event.target.value)}
-              />
-            </label>
-            <label className="flex min-w-32 flex-1 flex-col">
-              <span>Why (kept with the mark)</span>
-              <input
-                className="rounded border border-ink-900/20 px-1 py-1"
-                value={reason}
-                onChange={(event) => setReason(event.target.value)}
-                maxLength={500}
-              />
-            </label>
-            <button type="submit" className="min-h-8 rounded bg-white px-2 ring-1 ring-ink-800">
-              Override
-            </button>
-            {problem ? <p className="w-full text-ink-900">{problem}</p> : null}
-          </form>
+          <OverrideForm criterion={criterion} cell={cell} save={save} onSaved={() => setOpen(false)} />
         ) : (
           <p className="flex flex-wrap gap-3">
             <button type="button" className="underline" onClick={() => setOpen(true)}>
