@@ -1,4 +1,4 @@
-import { receiptTimeText } from "../app/lib/drop-logs/receipt";
+import { formatDateTime } from "../app/lib/format-date";
 import { ActionButton, EmailLayout, FactList, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
 
@@ -21,7 +21,7 @@ export default function HandInReceiptEmail(props: Props) {
         facts={[
           ["Lab", props.labTitle],
           ["Version", String(props.version)],
-          ["Handed in", receiptTimeText(props.handedInAt, props.timeZone)],
+          ["Handed in", formatDateTime(props.handedInAt, props.timeZone, "seconds")],
           ["On time", props.late ? "No, late" : "Yes"],
         ]}
       />

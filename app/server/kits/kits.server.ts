@@ -25,6 +25,7 @@ import { sendEmails } from "~/server/email/send-email.server";
 import { jsonRows, orNull } from "~/server/json-rows.server";
 import { reportKitProblem } from "~/server/kits/kit-problems.server";
 import { plural } from "~/lib/plural";
+import { formatCalendarDay } from "~/lib/format-date";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -312,7 +313,7 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
           kitNumber: recipient.kitNumber,
           carrier: shipping.carrier,
           trackingNumber: shipping.trackingNumber,
-          shippedOn: shipping.shippedOn,
+          shippedOn: formatCalendarDay(shipping.shippedOn),
           kitUrl: `${appUrl()}/courses/${courseId}/my-kit`,
         },
       };
