@@ -26,6 +26,7 @@ import { type AccessFixture, createAccessFixture } from "../support/access-fixtu
 import { dublin } from "../support/dublin-time";
 import { appRequest, createAppHandler, sessionCookieFor } from "../support/app-requests";
 import { countStatements } from "../support/count-statements";
+import { formatDateTime } from "~/lib/format-date";
 
 const HOUR = 3_600_000;
 let fixture: AccessFixture;
@@ -477,14 +478,8 @@ describe("the staff pages", () => {
     await markingLabOf(lab.id);
     const handle = await createAppHandler();
     const cookie = await sessionCookieFor(fixture.userIds.instructor);
-    const ownDue = new Intl.DateTimeFormat("en-GB", {
-      timeZone: "Europe/Dublin",
-      weekday: "short",
-      day: "numeric",
-      month: "short",
-      hour: "2-digit",
-      minute: "2-digit",
-    }).format(tomorrow);
+    // The student's own due time, in the course's zone (Dublin), not the class's.
+    const ownDue = formatDateTime(tomorrow, "Europe/Dublin", "short");
 
     const dashboard = await (await handle(appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/dashboard`, { cookie }))).text();
     // Each within the student's own table row.
