@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { calendarDayIn, formatCalendarDay, formatDateTime } from "./format-date";
+import { calendarDayIn, clocksDiffer, formatCalendarDay, formatDateTime } from "./format-date";
 
 describe("dates and times in one style", () => {
   // 09:05:12 UTC on 3 December 2026: 09:05 in London (GMT), 10:05 in Paris (CET), 04:05 in New York (UTC−5).
@@ -24,6 +24,14 @@ describe("dates and times in one style", () => {
   it("moves the day with the zone and keeps midnight at 00, not 24", () => {
     expect(formatDateTime("2026-12-03T00:30:00Z", "Europe/London", "long")).toBe("Thu, 3 Dec 2026, 00:30 GMT");
     expect(formatDateTime("2026-12-03T00:30:00Z", "America/New_York", "long")).toBe("Wed, 2 Dec 2026, 19:30 GMT-5");
+  });
+});
+
+describe("two zones' clocks", () => {
+  it("agree when they read the same time under two names, and differ with the season", () => {
+    expect(clocksDiffer("2026-12-03T09:05:00Z", "Europe/London", "UTC")).toBe(false);
+    expect(clocksDiffer("2027-06-03T09:05:00Z", "Europe/London", "UTC")).toBe(true);
+    expect(clocksDiffer("2026-12-03T09:05:00Z", "Europe/London", "Europe/Paris")).toBe(true);
   });
 });
 

@@ -68,6 +68,16 @@ export function formatDateTime(at: Date | string, timeZone: string, style: DateS
   return [shape.weekday ? part.weekday : null, day, time].filter(Boolean).join(", ");
 }
 
+/** Whether two zones' clocks read differently at an instant: London and UTC agree in winter, under two names. */
+export function clocksDiffer(at: Date | string, zone: string, otherZone: string): boolean {
+  const instant = typeof at === "string" ? new Date(at) : at;
+  const reading = (timeZone: string) => {
+    const { timeZoneName: _name, ...clock } = partsOf(instant, timeZone);
+    return JSON.stringify(clock);
+  };
+  return reading(zone) !== reading(otherZone);
+}
+
 /**
  * A calendar day ("2027-05-28") as words. It names a day in its course's zone already, so it is read at
  * noon UTC and shown in UTC: no zone can move it to the day before or after.

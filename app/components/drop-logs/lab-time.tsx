@@ -1,5 +1,5 @@
 import { useEffect, useState } from "react";
-import { formatDateTime } from "~/lib/format-date";
+import { clocksDiffer, formatDateTime } from "~/lib/format-date";
 
 /**
  * An opening or due time in the course's time zone, and in the viewer's own when it differs, each
@@ -9,11 +9,12 @@ export function LabTime({ at, courseTimeZone }: { at: string; courseTimeZone: st
   const [viewerZone, setViewerZone] = useState<string | null>(null);
   useEffect(() => setViewerZone(Intl.DateTimeFormat().resolvedOptions().timeZone), []);
   const courseText = formatDateTime(at, courseTimeZone, "long");
-  const own = viewerZone && viewerZone !== courseTimeZone ? formatDateTime(at, viewerZone, "long") : null;
+  // Only when the viewer's clock reads another time: UTC beside London's GMT would say the same twice.
+  const own = viewerZone && clocksDiffer(at, courseTimeZone, viewerZone) ? formatDateTime(at, viewerZone, "long") : null;
   return (
     <span>
       <time dateTime={at}>{courseText}</time>
-      {own && own !== courseText ? <span className="block text-sm text-ink-700">{own}, where you are</span> : null}
+      {own ? <span className="block text-sm text-ink-700">{own}, where you are</span> : null}
     </span>
   );
 }
