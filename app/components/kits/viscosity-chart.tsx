@@ -7,6 +7,7 @@ import { scaleLinear, scaleLog } from "d3-scale";
 import { viscosityAt } from "~/lib/reduction/viscosity-model";
 import type { FluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import { formatNumber } from "~/lib/kits/part-display";
+import { counted } from "~/lib/plural";
 
 const width = 560;
 const plotHeight = 240;
@@ -52,8 +53,8 @@ export function ViscosityChart({ calibration, title }: { calibration: FluidLotCa
     >
       <title id="viscosity-chart-title">{title}</title>
       <desc id="viscosity-chart-desc">
-        {points.length} calibration points and the fitted curve, viscosity in Pa·s on a logarithmic axis against temperature in °C; below,
-        each point's residual in per cent. The table that follows lists the same values.
+        {counted(points.length, "calibration point", "calibration points")} and the fitted curve, viscosity in Pa·s on a logarithmic axis
+        against temperature in °C; below, each point's residual in per cent. The table that follows lists the same values.
       </desc>
       <g className="text-ink-600" fontSize="11" fill="currentColor">
         {y.ticks().map((tick) =>
