@@ -1,13 +1,10 @@
 import { ActionButton, EmailLayout, FactList, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
+import { formatDateTime } from "../app/lib/format-date";
 
 type Props = EmailTemplates["course-invitation"];
 
 const roleNames: Record<Props["role"], string> = { instructor: "an instructor", ta: "a teaching assistant", student: "a student" };
-
-// E-mails have no viewer time zone; UTC written out is unambiguous wherever the invitee reads it.
-const formatExpiry = (date: Date) =>
-  `${new Intl.DateTimeFormat("en-GB", { dateStyle: "long", timeStyle: "short", timeZone: "UTC" }).format(date)} UTC`;
 
 export const subject = (props: Props) => `${props.inviterName} invited you to ${props.courseCode} ${props.courseTitle}`;
 
@@ -17,7 +14,7 @@ export default function CourseInvitationEmail(props: Props) {
     ["Your role", roleNames[props.role]],
   ];
   if (props.cohortName) facts.push(["Cohort", props.cohortName]);
-  facts.push(["Invitation valid until", formatExpiry(props.expiresAt)]);
+  facts.push(["Invitation valid until", formatDateTime(props.expiresAt, props.timeZone)]);
   return (
     <EmailLayout
       preview={`Join ${props.courseTitle} on Benchpost`}
@@ -42,4 +39,5 @@ CourseInvitationEmail.PreviewProps = {
   cohortName: "Demo cohort A",
   acceptUrl: "https://benchpost.example/invitations/demo-token",
   expiresAt: new Date("2030-01-15T17:00:00Z"),
+  timeZone: "Europe/Lisbon",
 } satisfies Props;

@@ -33,7 +33,7 @@ export default function DeadlineReminderEmail(props: Props) {
 DeadlineReminderEmail.PreviewProps = {
   courseTitle: "Demo: Fluids at the Kitchen Table",
   labTitle: "Demo lab: Falling-ball viscometry",
-  dueAtText: "Friday 18 January 2030, 17:00 (Europe/Lisbon)",
+  dueAtText: "Fri, 18 Jan 2030, 17:00 WET",
   hoursLeft: 24,
   labUrl: "https://benchpost.example/courses/demo/labs/demo-lab",
 } satisfies Props;

@@ -1,4 +1,4 @@
-import { receiptTimeText } from "../app/lib/drop-logs/receipt";
+import { formatDateTime } from "../app/lib/format-date";
 import { stateWords } from "../app/lib/marking/status-words";
 import { ActionButton, EmailLayout, FactList, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
@@ -22,7 +22,7 @@ export default function HandInReceiptEmail(props: Props) {
         facts={[
           ["Lab", props.labTitle],
           ["Version", String(props.version)],
-          ["Handed in", receiptTimeText(props.handedInAt, props.timeZone)],
+          ["Handed in", formatDateTime(props.handedInAt, props.timeZone, "seconds")],
           // The same word staff read on the desk, and the sentence in the student's own terms.
           ["Timing", props.late ? `${stateWords["after-due"].word}: handed in after your due time` : "By your due time"],
         ]}

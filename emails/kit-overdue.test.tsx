@@ -6,7 +6,7 @@ describe("kit-overdue e-mail", () => {
   it("says where to send the kit back, line by line, and how late it is", async () => {
     const { text } = await renderEmail("kit-overdue", KitOverdueEmail.PreviewProps);
     const read = text.replace(/\s+/g, " ");
-    expect(read).toContain("Friday, 28 May 2027");
+    expect(read).toContain("Fri, 28 May 2027");
     expect(read).toContain("7 days");
     expect(read).toMatch(/Demo Fluids Lab\s+1 Example Quay\s+D00 DEMO Demotown\s+IE/);
   });

@@ -49,7 +49,7 @@ export default function KitOverdueEmail(props: Props) {
 KitOverdueEmail.PreviewProps = {
   courseTitle: "Demo: Fluids at the Kitchen Table",
   kitNumber: "DEMO-K-007",
-  returnBy: "Friday, 28 May 2027",
+  returnBy: "Fri, 28 May 2027",
   daysOverdue: 7,
   returnAddress: ["Demo Fluids Lab", "1 Example Quay", "D00 DEMO Demotown", "IE"],
   kitUrl: "https://benchpost.example/courses/demo/my-kit",

@@ -60,6 +60,6 @@ KitShippedEmail.PreviewProps = {
   kitNumber: "DEMO-K-007",
   carrier: "Demo Parcel Post",
   trackingNumber: "DEMO0000000007",
-  shippedOn: "Monday 7 January 2030",
+  shippedOn: "Mon, 7 Jan 2030",
   kitUrl: "https://benchpost.example/courses/demo/kits/demo-kit",
 } satisfies Props;

@@ -1,5 +1,6 @@
 import { ActionButton, EmailLayout, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
+import { counted } from "../app/lib/plural";
 
 type Props = EmailTemplates["password-reset"];
 
@@ -13,8 +14,8 @@ export default function PasswordResetEmail(props: Props) {
     >
       <Heading>Choose a new password</Heading>
       <Paragraph>
-        Use the button below to choose a new password. The link works once and expires in {props.expiresInMinutes} minutes; after that, ask
-        for a new one from the sign-in page.
+        Use the button below to choose a new password. The link works once and expires in{" "}
+        {counted(props.expiresInMinutes, "minute", "minutes")}; after that, ask for a new one from the sign-in page.
       </Paragraph>
       <ActionButton href={props.url}>Choose a new password</ActionButton>
     </EmailLayout>

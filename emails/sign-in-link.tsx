@@ -1,5 +1,6 @@
 import { ActionButton, EmailLayout, Heading, Paragraph } from "./components/email-layout";
 import type { EmailTemplates } from "./template-props";
+import { counted } from "../app/lib/plural";
 
 type Props = EmailTemplates["sign-in-link"];
 
@@ -12,7 +13,9 @@ export default function SignInLinkEmail(props: Props) {
       reason="You got this e-mail because someone asked to sign in to Benchpost with this address. If it was not you, ignore it: nobody can sign in without the link."
     >
       <Heading>Sign in to Benchpost</Heading>
-      <Paragraph>Use the button below to sign in. The link works once and expires in {props.expiresInMinutes} minutes.</Paragraph>
+      <Paragraph>
+        Use the button below to sign in. The link works once and expires in {counted(props.expiresInMinutes, "minute", "minutes")}.
+      </Paragraph>
       <ActionButton href={props.url}>Sign in</ActionButton>
     </EmailLayout>
   );

@@ -22,6 +22,8 @@ export const templatePropsSchemas = {
     cohortName: oneLine.nullable(),
     acceptUrl: link,
     expiresAt: z.coerce.date(),
+    // Invitations queued before the e-mails named the course's zone revive in UTC.
+    timeZone: oneLine.default("UTC"),
   }),
   "sign-in-link": z.object({ url: link, expiresInMinutes: z.number().int().positive() }),
   "password-reset": z.object({ url: link, expiresInMinutes: z.number().int().positive() }),
@@ -98,6 +100,8 @@ export type EmailTemplates = {
     cohortName: string | null;
     acceptUrl: string;
     expiresAt: Date;
+    /** The course's IANA zone, in which the expiry is written. */
+    timeZone: string;
   };
   "sign-in-link": { url: string; expiresInMinutes: number };
   "password-reset": { url: string; expiresInMinutes: number };

@@ -18,6 +18,7 @@ import { formAction } from "~/server/errors.server";
 import { listKitProblems } from "~/server/kits/kit-problems.server";
 import { checkInKits, getKit, listStudentsWithoutKit, moveKits } from "~/server/kits/kits.server";
 import { isEntityId } from "~/lib/forms/ids";
+import { calendarDayIn, formatCalendarDay } from "~/lib/format-date";
 
 async function loadKitFor(access: CourseAccess, kitId: string | undefined) {
   const kit = kitId && isEntityId(kitId) ? await getKit(db, access.course.id, kitId) : null;
@@ -34,7 +35,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     canChange && kit.state === "on_shelf" ? listStudentsWithoutKit(db, access.course.id) : [],
     listKitProblems(db, access.course.id, { kitId: kit.id, openOnly: true }),
   ]);
-  return { kit, canChange, students, problems, timeZone: access.course.timeZone, today: new Date().toISOString().slice(0, 10) };
+  return { kit, canChange, students, problems, timeZone: access.course.timeZone, today: calendarDayIn(new Date(), access.course.timeZone) };
 }
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -92,12 +93,12 @@ export default function KitPage({ loaderData, actionData }: Route.ComponentProps
         ) : null}
         {kit.trackingNumber ? (
           <span className="ml-2 text-sm">
-            · {kit.carrier} {kit.trackingNumber}, sent {kit.shippedOn}
+            · {kit.carrier} {kit.trackingNumber}, sent {kit.shippedOn && formatCalendarDay(kit.shippedOn)}
           </span>
         ) : null}
         {kit.returnTrackingNumber ? (
           <span className="ml-2 text-sm">
-            · back with {kit.returnCarrier} {kit.returnTrackingNumber}, sent {kit.returnShippedOn}
+            · back with {kit.returnCarrier} {kit.returnTrackingNumber}, sent {kit.returnShippedOn && formatCalendarDay(kit.returnShippedOn)}
           </span>
         ) : null}
       </PageHeader>

@@ -17,6 +17,7 @@ import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { listKits, moveKits } from "~/server/kits/kits.server";
 import { counted } from "~/lib/plural";
+import { formatCalendarDay } from "~/lib/format-date";
 
 /**
  * Moves that need nothing more than a note can be applied to many kits at once. Checking in needs each
@@ -87,10 +88,12 @@ const columns: ColumnDef<KitRow, unknown>[] = [
       const kit = row.original;
       return (
         <>
-          {kit.trackingNumber ? `${kit.carrier} ${kit.trackingNumber} (${kit.shippedOn})` : ""}
+          {kit.trackingNumber
+            ? `${kit.carrier} ${kit.trackingNumber} (${kit.shippedOn ? formatCalendarDay(kit.shippedOn) : "no date"})`
+            : ""}
           {kit.returnTrackingNumber ? (
             <span className="block text-xs text-ink-600">
-              Back: {kit.returnCarrier} {kit.returnTrackingNumber} ({kit.returnShippedOn})
+              Back: {kit.returnCarrier} {kit.returnTrackingNumber} ({kit.returnShippedOn && formatCalendarDay(kit.returnShippedOn)})
             </span>
           ) : null}
         </>

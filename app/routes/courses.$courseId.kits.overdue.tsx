@@ -38,7 +38,7 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 type OverdueRow = Route.ComponentProps["loaderData"]["kits"][number];
 
 function parcel(carrier: string | null, trackingNumber: string | null, sentOn: string | null) {
-  return trackingNumber ? `${carrier} ${trackingNumber}, sent ${sentOn}` : null;
+  return trackingNumber ? `${carrier} ${trackingNumber}, sent ${sentOn ? formatCalendarDay(sentOn) : "on a date not given"}` : null;
 }
 
 function columnsFor(courseId: string, timeZone: string): ColumnDef<OverdueRow, unknown>[] {
@@ -97,8 +97,8 @@ export default function OverdueKits({ loaderData }: Route.ComponentProps) {
       <PageHeader title="Overdue kits" trail={[{ to: `/courses/${courseId}/kits`, label: "Kits" }]}>
         {returnBy ? (
           <>
-            Kits were due back by {formatCalendarDay(returnBy)} ({timeZone}). A kit still at its student's home counts as overdue, and its
-            student is e-mailed{" "}
+            Kits were due back by {formatCalendarDay(returnBy)}. A kit still at its student's home counts as overdue, and its student is
+            e-mailed{" "}
             {reminderDays.length
               ? `${reminderDays.join(", ")} ${plural(Math.max(...reminderDays), "day", "days")} after that date`
               : "no reminder (no reminder days are set)"}

@@ -78,7 +78,7 @@ export default function LabExtensions({ loaderData, actionData }: Route.Componen
         tabs={<LabStaffNav courseId={courseId} labId={lab.id} instructor={instructor} />}
       >
         Extensions: later due times for some students or a whole cohort. A student&apos;s own extension comes first, then their
-        cohort&apos;s, then the class&apos;s times. Times in {timeZone}.
+        cohort&apos;s, then the class&apos;s times.
       </PageHeader>
 
       <ClassTimes lab={lab} timeZone={timeZone} />

@@ -43,7 +43,7 @@ export default function StudentRecordPage({ loaderData }: Route.ComponentProps) 
         title={member.name}
         trail={[{ to: `/courses/${course.id}/members/${member.membershipId}`, label: member.name }]}
       >
-        {`Student record in ${course.code} ${course.title}. Times in ${course.timeZone}.`}
+        {`Student record in ${course.code} ${course.title}.`}
       </PageHeader>
 
       <Section id="who" title="Who">

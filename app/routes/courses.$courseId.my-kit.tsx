@@ -132,12 +132,13 @@ export default function MyKit({ loaderData, actionData }: Route.ComponentProps) 
         <KitStateBadge state={kit.state} />
         {kit.trackingNumber ? (
           <span className="ml-2 text-sm">
-            Sent {kit.shippedOn} with {kit.carrier}, tracking number {kit.trackingNumber}
+            Sent {kit.shippedOn && formatCalendarDay(kit.shippedOn)} with {kit.carrier}, tracking number {kit.trackingNumber}
           </span>
         ) : null}
         {kit.returnTrackingNumber ? (
           <span className="ml-2 text-sm">
-            · Sent back {kit.returnShippedOn} with {kit.returnCarrier}, tracking number {kit.returnTrackingNumber}
+            · Sent back {kit.returnShippedOn && formatCalendarDay(kit.returnShippedOn)} with {kit.returnCarrier}, tracking number{" "}
+            {kit.returnTrackingNumber}
           </span>
         ) : null}
       </PageHeader>

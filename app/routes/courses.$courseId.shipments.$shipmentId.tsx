@@ -18,6 +18,7 @@ import { db } from "~/server/db.server";
 import { formAction } from "~/server/errors.server";
 import { readSearchParams } from "~/server/http.server";
 import { getShipment, retryFailedItems } from "~/server/shipping/shipments.server";
+import { counted } from "~/lib/plural";
 
 const retry = z.object({ intent: z.literal("retry-failed") });
 const shipmentSearch = z.object(pagingSearch(50));
@@ -95,7 +96,7 @@ export default function Shipment({ loaderData, actionData }: Route.ComponentProp
         }
       />
       <p role="status" className="text-lg">
-        {shipment.bought} of {shipment.total} labels bought
+        {shipment.bought} of {counted(shipment.total, "label", "labels")} bought
         {shipment.failed ? `, ${shipment.failed} failed` : ""}
         {working ? ` — buying the other ${shipment.queued + shipment.buying}…` : "."}
       </p>

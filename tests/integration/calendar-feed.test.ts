@@ -92,7 +92,7 @@ describe("calendar feed", () => {
     const due = eventByUid(events, `${fixture.labId}-due@benchpost`)!;
     expect(due.summary).toBe("Due: Drag on a steel sphere (feed-A)");
     expect(due.start).toBe("2027-03-14T17:00:00.000Z");
-    expect(due.description).toContain("This is your extension; the class is due Wed, 10 Mar 2027, 17:00 (UTC).");
+    expect(due.description).toContain("This is your extension; the class is due Wed, 10 Mar 2027, 17:00 UTC.");
     expect(due.description).not.toContain("Kit arrived late");
     expect(due.url).toMatch(new RegExp(`/courses/${fixture.courseId}/labs/${fixture.labId}$`));
     expect(eventByUid(events, `${fixture.labId}-cutoff@benchpost`)!.start).toBe("2027-03-15T17:00:00.000Z");
@@ -122,7 +122,7 @@ describe("calendar feed", () => {
     const { events } = await feedOf(fixture.userIds.otherCohortStudent);
     expect(events.map((event) => event.uid)).toEqual([`${bothCohortsLab}-due@benchpost`]);
     expect(events[0].start).toBe("2027-03-22T17:00:00.000Z");
-    expect(events[0].description).toContain("Your cohort's extension; the class is due Sat, 20 Mar 2027, 17:00 (UTC).");
+    expect(events[0].description).toContain("Your cohort's extension; the class is due Sat, 20 Mar 2027, 17:00 UTC.");
   });
 
   it("gives staff the class's times of the labs they see, their cohorts' extensions as events of their own, and the course's return-by day", async () => {

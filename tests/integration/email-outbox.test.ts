@@ -17,6 +17,7 @@ const invitation = (overrides: Partial<{ courseTitle: string; inviterName: strin
       cohortName: null,
       acceptUrl: "http://localhost:3000/invitations/abc",
       expiresAt: new Date("2031-02-03T04:05:06Z"),
+      timeZone: "Europe/Lisbon",
       ...overrides,
     },
   }) as const;

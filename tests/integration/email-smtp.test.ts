@@ -69,6 +69,7 @@ describe("delivery through the local mail catcher", () => {
         cohortName: null,
         acceptUrl: "http://localhost:3000/invitations/round-trip",
         expiresAt: new Date("2031-01-01T00:00:00Z"),
+        timeZone: "UTC",
       },
     });
     const row = await waitFor(async () => {

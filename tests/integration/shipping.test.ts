@@ -417,6 +417,6 @@ describe("the shipping pages", () => {
     expect(again.headers.get("location")).toBe(first.headers.get("location"));
     const shipmentPage = await handle(appRequest(first.headers.get("location")!, { cookie }));
     // React separates adjacent text with comments in the server's HTML.
-    expect((await shipmentPage.text()).replaceAll("<!-- -->", "")).toContain("0 of 1 labels bought");
+    expect((await shipmentPage.text()).replaceAll("<!-- -->", "")).toContain("0 of 1 label bought");
   });
 });

@@ -301,7 +301,7 @@ export function FigureStripChart({ points, limits, title }: { points: Comparison
       figureRef={ref}
       id="figure-strip"
       title={title}
-      description={`${points.length} normalised figures on a logarithmic axis${limits ? `, with ${limits.note}` : ""}. Circles are consistent, triangles suspect, squares outliers.`}
+      description={`${counted(points.length, "normalised figure", "normalised figures")} on a logarithmic axis${limits ? `, with ${limits.note}` : ""}. Circles are consistent, triangles suspect, squares outliers.`}
       caption={
         <>
           Each hand-in's normalised figure (1 means it agrees with the reference).{" "}

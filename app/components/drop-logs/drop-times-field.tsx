@@ -10,7 +10,7 @@ import { Button } from "~/components/ui/button";
 import { dropFieldName } from "~/lib/drop-logs/drop-log-input";
 import { enteredTimes, joinTimes, splitPastedTimes, type TimesJoin } from "~/lib/drop-logs/pasted-times";
 import { parseTypedNumber } from "~/lib/forms/typed-number";
-import { plural } from "~/lib/plural";
+import { counted, plural } from "~/lib/plural";
 import { joinTimesQuestion } from "~/lib/drop-logs/drop-log-words";
 
 /** A column of times waiting for the student to say how it joins the drops already typed. */
@@ -57,7 +57,7 @@ export function DropTimesField({
     const kept = how === "append" ? typedCount : 0;
     onChange(joinTimes(drops, column.times, how));
     setIncoming(null);
-    const times = `${column.times.length} drop times ${column.from}`;
+    const times = `${counted(column.times.length, "drop time", "drop times")} ${column.from}`;
     setColumnMessage(
       how === "append" ? `Added ${times} after drop ${kept}.` : typedCount ? `Replaced the drops with ${times}.` : `Entered ${times}.`,
     );

@@ -1,5 +1,5 @@
 /** The receipt of the student's counted hand-in: its version and when it was stored, the course's zone named. */
-import { receiptTimeText } from "~/lib/drop-logs/receipt";
+import { formatDateTime } from "~/lib/format-date";
 
 export function HandInReceipt({
   version,
@@ -15,7 +15,7 @@ export function HandInReceipt({
       </h2>
       <p className="mt-1">
         Version <strong>{version.version}</strong> handed in on{" "}
-        <time dateTime={version.submittedAt}>{receiptTimeText(version.submittedAt, timeZone)}</time>
+        <time dateTime={version.submittedAt}>{formatDateTime(version.submittedAt, timeZone, "seconds")}</time>
         {version.late ? ", late" : ", on time"}.
       </p>
       <p className="mt-1 text-sm text-ink-700">

@@ -1,23 +1,20 @@
 import { useEffect, useState } from "react";
-import { formatDateTime } from "~/lib/format-date";
+import { clocksDiffer, formatDateTime } from "~/lib/format-date";
 
 /**
- * An opening or due time in the course's time zone, and in the viewer's own when it differs. The
- * viewer's zone is only known in the browser, so it appears after hydration.
+ * An opening or due time in the course's time zone, and in the viewer's own when it differs, each
+ * with its zone named. The viewer's zone is only known in the browser, so it appears after hydration.
  */
 export function LabTime({ at, courseTimeZone }: { at: string; courseTimeZone: string }) {
   const [viewerZone, setViewerZone] = useState<string | null>(null);
   useEffect(() => setViewerZone(Intl.DateTimeFormat().resolvedOptions().timeZone), []);
   const courseText = formatDateTime(at, courseTimeZone, "long");
-  const own = viewerZone && viewerZone !== courseTimeZone ? formatDateTime(at, viewerZone, "long") : null;
+  // Only when the viewer's clock reads another time: UTC beside London's GMT would say the same twice.
+  const own = viewerZone && clocksDiffer(at, courseTimeZone, viewerZone) ? formatDateTime(at, viewerZone, "long") : null;
   return (
     <span>
-      <time dateTime={at}>{courseText}</time> <span className="text-ink-600">({courseTimeZone})</span>
-      {own && own !== courseText ? (
-        <span className="block text-sm text-ink-700">
-          {own} your time ({viewerZone})
-        </span>
-      ) : null}
+      <time dateTime={at}>{courseText}</time>
+      {own ? <span className="block text-sm text-ink-700">{own}, where you are</span> : null}
     </span>
   );
 }

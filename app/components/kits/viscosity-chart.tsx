@@ -9,6 +9,7 @@ import type { FluidLotCalibration } from "~/lib/kits/fluid-lot-fit";
 import { formatNumber } from "~/lib/kits/part-display";
 import { useMeasuredWidth } from "~/components/ui/use-measured-width";
 import { chartFontSize } from "~/components/comparison/chart-parts";
+import { counted } from "~/lib/plural";
 
 const plotHeight = 240;
 const stripHeight = 90;
@@ -60,8 +61,8 @@ export function ViscosityChart({ calibration, title }: { calibration: FluidLotCa
       >
         <title id="viscosity-chart-title">{title}</title>
         <desc id="viscosity-chart-desc">
-          {points.length} calibration points and the fitted curve, viscosity in Pa·s on a logarithmic axis against temperature in °C; below,
-          each point's residual in per cent. The table that follows lists the same values.
+          {counted(points.length, "calibration point", "calibration points")} and the fitted curve, viscosity in Pa·s on a logarithmic axis
+          against temperature in °C; below, each point's residual in per cent. The table that follows lists the same values.
         </desc>
         <g className="text-ink-600" fontSize={chartFontSize} fill="currentColor">
           {y.ticks().map((tick) =>

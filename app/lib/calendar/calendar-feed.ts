@@ -31,7 +31,7 @@ export type CalendarFeedRow = {
   returnBy: string | null;
 };
 
-const when = (at: string, timeZone: string) => `${formatDateTime(at, timeZone, "long")} (${timeZone})`;
+const when = (at: string, timeZone: string) => formatDateTime(at, timeZone, "long");
 
 /** The day after a calendar day: an all-day event ends (exclusively) on it (RFC 5545, 3.6.1). */
 function nextDay(day: string): string {

@@ -78,16 +78,18 @@ interface CheckRule {
   message(facts: CheckFacts): string;
 }
 
+/** The too-few-drops warning, in words that agree with the count. */
+export function tooFewDropsMessage(timed: number, required: number): string {
+  return `${counted(timed, "drop", "drops")} timed; the lab asks for at least ${required}.`;
+}
+
 /** The checks in the order a reduction lists them; the stray-drop test's own finding comes third. */
 const CHECKS: readonly CheckRule[] = [
   {
     code: "too-few-drops",
     level: "warn",
     applies: ({ input }) => input.drops.length < requiredDrops(input),
-    message: ({ input }) => {
-      const n = input.drops.length;
-      return `${counted(n, "drop", "drops")} timed; the lab asks for at least ${requiredDrops(input)}.`;
-    },
+    message: ({ input }) => tooFewDropsMessage(input.drops.length, requiredDrops(input)),
   },
   {
     code: "single-drop",

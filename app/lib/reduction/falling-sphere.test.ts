@@ -2,6 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { ReductionInputError } from "./errors";
 import { reduceFallingSphere, type FallingSphereInput, type Reduction } from "./falling-sphere";
+import { tooFewDropsMessage } from "./falling-sphere-checks";
 
 // Worked example, wyzant.com answer 929424 ("Viscosity of a liquid"): a 205 mg sphere of radius 1.85 mm
 // settles at 3.9 cm/s in glycerol of density 1260 kg/m³, g = 9.80665 m/s² → ρs = 7729.47624 kg/m³ and
@@ -463,5 +464,15 @@ describe("reduceFallingSphere — invariants", () => {
         },
       ),
     );
+  });
+});
+
+describe("the too-few-drops warning", () => {
+  it("agrees with the drops timed at 0, 1 and 2", () => {
+    expect([0, 1, 2].map((n) => tooFewDropsMessage(n, 5))).toEqual([
+      "0 drops timed; the lab asks for at least 5.",
+      "1 drop timed; the lab asks for at least 5.",
+      "2 drops timed; the lab asks for at least 5.",
+    ]);
   });
 });

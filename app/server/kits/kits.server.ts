@@ -26,6 +26,7 @@ import { jsonRows, orNull } from "~/server/json-rows.server";
 import { recordAudit } from "~/server/audit.server";
 import { reportKitProblem } from "~/server/kits/kit-problems.server";
 import { plural } from "~/lib/plural";
+import { formatCalendarDay } from "~/lib/format-date";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -324,7 +325,7 @@ async function queueShippedEmails(tx: Transaction, courseId: string, shipped: Ki
           kitNumber: recipient.kitNumber,
           carrier: shipping.carrier,
           trackingNumber: shipping.trackingNumber,
-          shippedOn: shipping.shippedOn,
+          shippedOn: formatCalendarDay(shipping.shippedOn),
           kitUrl: `${appUrl()}/courses/${courseId}/my-kit`,
         },
       };

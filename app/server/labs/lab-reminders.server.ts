@@ -49,11 +49,6 @@ export type ReminderOutcome = {
   skipped: null | "lab-gone" | "course-archived" | "not-published" | "due-time-changed" | "offset-removed" | "past-due";
 };
 
-function dueAtText(dueAt: Date, timeZone: string): string {
-  const text = formatDateTime(dueAt, timeZone, "long");
-  return `${text} (${timeZone})`;
-}
-
 /**
  * Runs one reminder job: checks that the lab's course is not archived, that the lab is still published,
  * that the job's due time is still the lab's or one of its extensions', and that its offset is still the
@@ -109,7 +104,7 @@ export async function sendLabReminders(database: Database, job: LabReminderJob, 
       courseTitle: row.courseTitle,
       labTitle: lab.title,
       // Every claimed student's own due time is the job's.
-      dueAtText: dueAtText(dueAt, row.timeZone),
+      dueAtText: formatDateTime(dueAt, row.timeZone, "long"),
       hoursLeft: Math.max(0, Math.round((dueAt.getTime() - now.getTime()) / HOUR_MS)),
       labUrl: `${appUrl()}/courses/${lab.courseId}/labs/${lab.id}`,
     };

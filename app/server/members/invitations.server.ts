@@ -52,7 +52,10 @@ export async function createInvitations(
 ): Promise<InvitationResult> {
   const rows = inputs.map((input) => ({ ...input, email: normaliseEmail(input.email), cohortId: input.cohortId ?? null }));
   const emails = [...new Set(rows.map((row) => row.email))];
-  const [course] = await tx.select({ title: courses.title, code: courses.code }).from(courses).where(eq(courses.id, courseId));
+  const [course] = await tx
+    .select({ title: courses.title, code: courses.code, timeZone: courses.timeZone })
+    .from(courses)
+    .where(eq(courses.id, courseId));
   if (!course) throw new Error(`No course ${courseId}`);
   const [courseCohorts, members] = await Promise.all([
     tx.select({ id: cohorts.id, name: cohorts.name }).from(cohorts).where(eq(cohorts.courseId, courseId)),
@@ -117,6 +120,7 @@ export async function createInvitations(
         cohortName: row.cohortId ? (cohortName.get(row.cohortId) ?? null) : null,
         acceptUrl: `${appUrl()}/invitations/${tokens[index]}`,
         expiresAt,
+        timeZone: course.timeZone,
       },
     })),
   );
