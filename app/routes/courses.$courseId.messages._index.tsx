@@ -32,28 +32,30 @@ export default function CourseMessages({ loaderData }: Route.ComponentProps) {
       {messages.length === 0 ? (
         <p className="text-sm text-ink-700">No messages sent yet.</p>
       ) : (
-        <table className="w-full text-left text-sm">
-          <thead>
-            <tr className="text-ink-600">
-              <th className="py-2 pr-3 font-medium">Sent</th>
-              <th className="py-2 pr-3 font-medium">Subject</th>
-              <th className="py-2 pr-3 font-medium">To</th>
-              <th className="py-2 pr-3 text-right font-medium">Students</th>
-              <th className="py-2 font-medium">By</th>
-            </tr>
-          </thead>
-          <tbody className="divide-y divide-ink-900/10">
-            {messages.map((message) => (
-              <tr key={message.id}>
-                <td className="py-2 pr-3 whitespace-nowrap">{formatDateTime(message.sentAt, timeZone, "short")}</td>
-                <td className="py-2 pr-3">{message.subject}</td>
-                <td className="py-2 pr-3">{message.audienceLabel}</td>
-                <td className="py-2 pr-3 text-right tabular-nums">{message.recipientCount}</td>
-                <td className="py-2">{message.authorName ?? "a former member"}</td>
+        <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Messages sent">
+          <table className="w-full text-left text-sm">
+            <thead>
+              <tr className="text-ink-600">
+                <th className="py-2 pr-3 font-medium">Sent</th>
+                <th className="py-2 pr-3 font-medium">Subject</th>
+                <th className="py-2 pr-3 font-medium">To</th>
+                <th className="py-2 pr-3 text-right font-medium">Students</th>
+                <th className="py-2 font-medium">By</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody className="divide-y divide-ink-900/10">
+              {messages.map((message) => (
+                <tr key={message.id}>
+                  <td className="py-2 pr-3 whitespace-nowrap">{formatDateTime(message.sentAt, timeZone, "short")}</td>
+                  <td className="py-2 pr-3">{message.subject}</td>
+                  <td className="py-2 pr-3">{message.audienceLabel}</td>
+                  <td className="py-2 pr-3 text-right tabular-nums">{message.recipientCount}</td>
+                  <td className="py-2">{message.authorName ?? "a former member"}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
       )}
     </div>
   );

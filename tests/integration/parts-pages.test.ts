@@ -148,6 +148,18 @@ describe("parts screens", () => {
     expect(html).toMatch(/value="glass"/);
   });
 
+  it("saves a sphere typed with decimal commas (0,5)", async () => {
+    const response = await handle(
+      appRequest(`/courses/${courseId}/parts/new?kind=sphere`, {
+        cookie: instructor,
+        form: { kind: "sphere", label: "S-COMMA", material: "glass", diameterMm: "4,5", diameterResolutionMm: "0,5", massG: "0,12" },
+      }),
+    );
+    expect(response.status).toBe(302);
+    const [saved] = await db.select().from(parts).where(eq(parts.label, "S-COMMA"));
+    expect([saved.diameterMm, saved.diameterResolutionMm, saved.massG]).toEqual([4.5, 0.5, 0.12]);
+  });
+
   it("adds and removes calibration rows without JavaScript, keeping what was typed", async () => {
     // The rows' buttons submit Conform's intent; the server answers with the form one row longer (or shorter).
     const typed = { kind: "fluid_lot", label: "GLY-R", "calibration[0].temperatureC": "20,5", "calibration[0].viscosityPaS": "0.11" };

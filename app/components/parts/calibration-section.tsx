@@ -34,7 +34,8 @@ export function CalibrationSection({ calibration, label }: { calibration: FluidL
         Every reduction with this lot uses this fit at the drop's temperature.
       </p>
       {fit.warning ? <Notice tone="warning">{fit.warning}</Notice> : null}
-      <div className="overflow-x-auto">
+      {/* Focusable, so a keyboard can scroll the table when it is wider than a phone. */}
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Fitted viscosity at room temperatures">
         <table className="text-sm">
           <caption className="mb-1 text-left font-medium">Fitted viscosity at room temperatures</caption>
           <thead>
@@ -72,7 +73,7 @@ export function CalibrationSection({ calibration, label }: { calibration: FluidL
           half a kelvin, so it is wider for strong mixes.
         </p>
       ) : null}
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Calibration points">
         <table className="text-sm">
           <caption className="mb-1 text-left font-medium">
             {glycerolMassFraction !== null ? "Calibration points, residuals and handbook values" : "Calibration points and residuals"}
