@@ -1,6 +1,6 @@
 import type { Route } from "./+types/courses.$courseId.audit";
 import { formatDateTime } from "~/lib/format-date";
-import { counted } from "~/lib/plural";
+import { counted, plural } from "~/lib/plural";
 import { PageHeader } from "~/components/ui/page-header";
 import { requireCourseRole } from "~/server/auth/access.server";
 import { listCourseAudit } from "~/server/audit.server";
@@ -15,7 +15,7 @@ export default function CourseAudit({ loaderData }: Route.ComponentProps) {
   return (
     <div className="space-y-6">
       <PageHeader id="audit-title" title="Audit log">
-        {`${course.code} ${course.title}: ${events.length === 1 ? "the latest event" : `the latest ${counted(events.length, "event", "events")}, newest first`}. Times in ${course.timeZone}.`}
+        {`${course.code} ${course.title}: ${plural(events.length, "the latest event", `the latest ${counted(events.length, "event", "events")}, newest first`)}.`}
       </PageHeader>
       {/* Focusable so that a keyboard can scroll the table sideways on a phone. */}
       <div

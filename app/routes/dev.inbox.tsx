@@ -84,9 +84,7 @@ export default function DevInbox() {
                   <p className="mt-1 font-medium">{email.subject || "Without a subject"}</p>
                   <p className="mt-1 text-sm text-ink-700">
                     Caught{" "}
-                    <time dateTime={new Date(email.receivedAt).toISOString()}>
-                      {formatDateTime(email.receivedAt, "UTC", "seconds")} UTC
-                    </time>
+                    <time dateTime={new Date(email.receivedAt).toISOString()}>{formatDateTime(email.receivedAt, "UTC", "seconds")}</time>
                   </p>
                   <Link
                     to={`?message=${email.id}`}

@@ -13,7 +13,7 @@ export function AccountSection({ id, title, children }: { id: string; title: str
   );
 }
 
-/** The account belongs to no course, so its times are in UTC and say so. */
+/** The account belongs to no course, so its times are in UTC (which the formatter names). */
 export function formatUtc(value: Date | string): string {
-  return `${formatDateTime(value, "UTC")} UTC`;
+  return formatDateTime(value, "UTC");
 }
