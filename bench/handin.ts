@@ -9,6 +9,9 @@
 import { spawn, spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import { existsSync, readdirSync, statSync } from "node:fs";
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import path from "node:path";
 import { freePort, waitForHealth } from "../tests/support/app-server";
 import { bin } from "../scripts/lib/processes";
 import { startCpuAccount, createBenchDatabase } from "./support";
@@ -138,7 +141,11 @@ for (const s of students) {
   cookies.set(s.index, `${SESSION_COOKIE}=${token}`);
 }
 
-// The server: the node binary itself (so the PID is the server's), loopback only.
+// The server: the node binary itself (so the PID is the server's), loopback only. A production
+// process needs its photo bucket, though no hand-in here sends a photo: the local fake's.
+const { startFakeS3, FAKE_S3_BUCKET } = await import("~/server/storage/fake-s3.server");
+const s3Objects = await mkdtemp(path.join(tmpdir(), "benchpost-bench-s3-"));
+const s3 = await startFakeS3({ port: 0, directory: s3Objects, bucket: FAKE_S3_BUCKET });
 const port = await freePort();
 const baseUrl = `http://127.0.0.1:${port}`;
 const server = spawn(process.execPath, ["build/web.js"], {
@@ -151,6 +158,7 @@ const server = spawn(process.execPath, ["build/web.js"], {
     TRUST_PROXY: "0",
     DATABASE_URL: bench.url,
     SMTP_URL: "smtp://127.0.0.1:1025",
+    ...s3.environment,
   },
   stdio: ["ignore", "ignore", "inherit"],
 });
@@ -254,6 +262,8 @@ try {
 } finally {
   server.kill("SIGTERM");
   await new Promise((resolve) => (server.exitCode !== null ? resolve(null) : server.once("exit", resolve)));
+  await s3.close();
+  await rm(s3Objects, { recursive: true, force: true });
   await bench.drop();
 }
 if (failed) process.exitCode = 1;

@@ -13,6 +13,7 @@ describe("seedDemo", () => {
       TRUST_PROXY: "0",
       DATABASE_URL: "postgresql://app@db.example.org/benchpost",
       SMTP_URL: "smtp://mail.example.org",
+      S3_BUCKET: "benchpost-photos",
     };
     for (const [name, value] of Object.entries(production)) vi.stubEnv(name, value);
     const untouchable = new Proxy(

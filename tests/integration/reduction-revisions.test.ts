@@ -193,7 +193,8 @@ describe("a re-measured fluid lot", () => {
       .select({ action: auditEvents.action })
       .from(auditEvents)
       .where(and(eq(auditEvents.courseId, fixture.courseId), eq(auditEvents.subject, `part:${lotId}`)));
-    expect(audit.map((entry) => entry.action).sort()).toEqual(["part.rereduced", "part.rereduction_queued"]);
+    // The re-measurement itself, the revision queued, and the run that revised the versions.
+    expect(audit.map((entry) => entry.action).sort()).toEqual(["part.changed", "part.rereduced", "part.rereduction_queued"]);
 
     // The job again, after it finished or as a retry of one that stopped before finishing: no second revision.
     expect(await runRereduction(db, run.id)).toMatchObject({ revised: 0 });
