@@ -80,7 +80,7 @@ export default function DevInbox() {
                   key={email.id}
                   className={`rounded-lg bg-white p-4 shadow-sm ring-1 ${open ? "ring-2 ring-ink-800" : "ring-ink-900/10"}`}
                 >
-                  <p className="text-sm text-ink-700">For {email.toAddresses.join(", ")}</p>
+                  <p className="text-sm wrap-anywhere text-ink-700">For {email.toAddresses.join(", ")}</p>
                   <p className="mt-1 font-medium">{email.subject || "Without a subject"}</p>
                   <p className="mt-1 text-sm text-ink-700">
                     Caught{" "}
@@ -134,7 +134,7 @@ function ShownMessage({ shown }: { shown: Shown }) {
           <h2 id="shown-heading" className="text-xl font-semibold">
             {shown.kind === "preview" ? `Preview: ${subject}` : subject}
           </h2>
-          {shown.kind === "message" ? <p className="text-sm text-ink-700">For {shown.email.toAddresses.join(", ")}</p> : null}
+          {shown.kind === "message" ? <p className="text-sm wrap-anywhere text-ink-700">For {shown.email.toAddresses.join(", ")}</p> : null}
         </div>
         <Link to="." className="text-sm underline">
           Put it away

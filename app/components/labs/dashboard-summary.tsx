@@ -29,44 +29,47 @@ export function CohortProgressTable({ cohorts }: { cohorts: CohortProgress[] }) 
         Hand-ins by cohort
       </h2>
       {cohorts.length === 0 ? <p className="text-ink-700">No students in the cohorts you see.</p> : null}
-      <table className="w-full max-w-2xl text-left text-sm">
-        <thead>
-          <tr className="border-b border-ink-900/20">
-            <th scope="col" className="py-1">
-              Cohort
-            </th>
-            <th scope="col" className="py-1 text-right">
-              Students
-            </th>
-            <th scope="col" className="py-1 text-right">
-              On time
-            </th>
-            <th scope="col" className="py-1 text-right">
-              <StateMark state="after-due" explain />
-            </th>
-            <th scope="col" className="py-1 text-right">
-              <StateMark state="awaited" explain />
-            </th>
-            <th scope="col" className="py-1 text-right">
-              <StateMark state="absent" explain />
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {cohorts.map((cohort) => (
-            <tr key={cohort.cohortId} className="border-b border-ink-900/10">
-              <th scope="row" className="py-1 font-medium">
-                {cohort.name}
+      {/* Six columns of words do not fit a phone: the table scrolls in its own box, not the page. */}
+      <div className="max-w-2xl overflow-x-auto">
+        <table className="w-full text-left text-sm">
+          <thead>
+            <tr className="border-b border-ink-900/20">
+              <th scope="col" className="py-1">
+                Cohort
               </th>
-              <td className="py-1 text-right tabular-nums">{cohort.students}</td>
-              <td className="py-1 text-right tabular-nums">{cohort.onTime}</td>
-              <td className="py-1 text-right tabular-nums">{cohort.late}</td>
-              <td className="py-1 text-right tabular-nums">{cohort.notDue}</td>
-              <td className="py-1 text-right tabular-nums">{cohort.missing}</td>
+              <th scope="col" className="py-1 text-right">
+                Students
+              </th>
+              <th scope="col" className="py-1 text-right">
+                On time
+              </th>
+              <th scope="col" className="py-1 text-right">
+                <StateMark state="after-due" explain />
+              </th>
+              <th scope="col" className="py-1 text-right">
+                <StateMark state="awaited" explain />
+              </th>
+              <th scope="col" className="py-1 text-right">
+                <StateMark state="absent" explain />
+              </th>
             </tr>
-          ))}
-        </tbody>
-      </table>
+          </thead>
+          <tbody>
+            {cohorts.map((cohort) => (
+              <tr key={cohort.cohortId} className="border-b border-ink-900/10">
+                <th scope="row" className="py-1 font-medium">
+                  {cohort.name}
+                </th>
+                <td className="py-1 text-right tabular-nums">{cohort.students}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.onTime}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.late}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.notDue}</td>
+                <td className="py-1 text-right tabular-nums">{cohort.missing}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
       <p className="mt-1 text-xs text-ink-700">
         Each student counts against their own due time: an extension&apos;s, else the lab&apos;s. No drop log: nothing handed in by then.
       </p>
