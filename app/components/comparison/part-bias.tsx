@@ -25,7 +25,7 @@ type Evidence = Pick<PartBiasView, "alpha" | "flagged" | "testsInFamily" | "comp
 const percent = (fraction: number) => `${fraction >= 0 ? "+" : "−"}${formatNumber(Math.abs(fraction) * 100, 2)} %`;
 
 /** One sentence per lab: the Welch test against the peers and Holm's verdict, or why there was no test. */
-function comparisonText(comparison: Evidence["comparisons"][number], alpha: number, testsInFamily: number): string {
+export function comparisonText(comparison: Evidence["comparisons"][number], alpha: number, testsInFamily: number): string {
   const used = `${counted(comparison.n, "hand-in", "hand-ins")} with this part`;
   if (comparison.t === null || comparison.pValue === null || comparison.degreesOfFreedom === null || comparison.relativeToPeers === null) {
     return `${used}; no test: it needs at least ${MINIMUM_HAND_INS_FOR_BIAS} hand-ins with this part and ${MINIMUM_HAND_INS_FOR_BIAS} with at least ${MINIMUM_PEER_PARTS} other parts of its kind in the lab, with some spread.`;
