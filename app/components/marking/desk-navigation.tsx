@@ -83,7 +83,7 @@ export function StateLegend({
   const entry = (status: DeskStatusFilter | null, body: React.ReactNode, count: number) => {
     const active = (filters.status ?? null) === status;
     return (
-      <li>
+      <li key={status ?? "everyone"}>
         <Link
           to={withParam("status", status)}
           preventScrollReset
