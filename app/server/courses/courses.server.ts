@@ -8,6 +8,7 @@ import type { CourseInput } from "~/lib/courses/course-input";
 import type { ReturnSettingsInput } from "~/lib/courses/return-settings-input";
 import { recordAudit } from "~/server/audit.server";
 import { isUniqueViolation, type Executor } from "~/server/db.server";
+import { inCohortOrder } from "~/server/courses/cohort-order.server";
 
 export type Course = typeof courses.$inferSelect;
 
@@ -162,7 +163,7 @@ export async function getCourseWithCohorts(executor: Executor, courseId: string)
       })
       .from(cohorts)
       .where(eq(cohorts.courseId, courseId))
-      .orderBy(asc(cohorts.position), asc(cohorts.name)),
+      .orderBy(...inCohortOrder),
     executor
       .select({
         membershipId: courseMemberships.id,

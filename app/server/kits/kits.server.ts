@@ -27,6 +27,7 @@ import { recordAudit } from "~/server/audit.server";
 import { reportKitProblem } from "~/server/kits/kit-problems.server";
 import { plural } from "~/lib/plural";
 import { formatCalendarDay } from "~/lib/format-date";
+import { inCohortOrder } from "~/server/courses/cohort-order.server";
 
 export type Kit = typeof kits.$inferSelect;
 export type Shipping = { carrier: string; trackingNumber: string; shippedOn: string };
@@ -579,5 +580,5 @@ export async function listStudentsWithoutKit(executor: Executor, courseId: strin
         isNull(kits.id),
       ),
     )
-    .orderBy(asc(cohorts.position), asc(cohorts.name), asc(users.name));
+    .orderBy(...inCohortOrder, asc(users.name));
 }

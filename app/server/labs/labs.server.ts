@@ -13,6 +13,7 @@ import type { Executor } from "~/server/db.server";
 import { uuidList } from "~/server/sql.server";
 import { recomputeLateness } from "./effective-window.server";
 import { scheduleLabReminders } from "./lab-reminders.server";
+import { inCohortOrder } from "~/server/courses/cohort-order.server";
 
 export type LabRecord = typeof labs.$inferSelect;
 export type LabWithCohorts = LabRecord & { cohortIds: string[] };
@@ -25,7 +26,7 @@ export async function getLabFormOptions(executor: Executor, courseId: string) {
       .select({ id: cohorts.id, name: cohorts.name })
       .from(cohorts)
       .where(eq(cohorts.courseId, courseId))
-      .orderBy(asc(cohorts.position), asc(cohorts.name)),
+      .orderBy(...inCohortOrder),
     executor
       .select({
         id: parts.id,

@@ -10,6 +10,7 @@ import type { CourseRole } from "~/server/auth/access.server";
 import { revokeTokensOfFormerStaff } from "~/server/auth/api-tokens.server";
 import { db } from "~/server/db.server";
 import { openInvitation } from "./open-invitation.server";
+import { inCohortOrder } from "~/server/courses/cohort-order.server";
 
 /** Every active member with their cohort, or the cohorts a TA marks: one statement. */
 export function listMembers(courseId: string) {
@@ -156,7 +157,7 @@ export function listCohorts(courseId: string) {
     .select({ id: cohorts.id, name: cohorts.name })
     .from(cohorts)
     .where(eq(cohorts.courseId, courseId))
-    .orderBy(asc(cohorts.position), asc(cohorts.name));
+    .orderBy(...inCohortOrder);
 }
 
 /**

@@ -12,6 +12,7 @@ import { recordAudit, type AuditInput } from "~/server/audit.server";
 import type { Database, Executor, Transaction } from "~/server/db.server";
 import { createInvitations, type Inviter } from "./invitations.server";
 import { openInvitation } from "./open-invitation.server";
+import { inCohortOrder } from "~/server/courses/cohort-order.server";
 
 export type RosterImportResult =
   | { ok: true; duplicate: false; invited: number; students: number; tas: number; updated: number; unchanged: number }
@@ -29,7 +30,7 @@ export async function rosterContext(
       .select({ id: cohorts.id, name: cohorts.name })
       .from(cohorts)
       .where(eq(cohorts.courseId, courseId))
-      .orderBy(asc(cohorts.position), asc(cohorts.name)),
+      .orderBy(...inCohortOrder),
     executor
       .select({
         id: courseMemberships.id,
