@@ -9,7 +9,15 @@ import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { createDatabase, createPool } from "~/server/db.server";
 import { DEMO_PASSWORD, buildDemoScenario, demoCourse } from "../../seeds/demo-scenario";
-import { axeViolations, openBrowser, seriousOrCritical, signInWithPassword, signOut, type BrowserSession } from "../support/browser";
+import {
+  axeViolations,
+  gotoHydrated,
+  openBrowser,
+  seriousOrCritical,
+  signInWithPassword,
+  signOut,
+  type BrowserSession,
+} from "../support/browser";
 
 const viewports = [
   { width: 1280, height: 800 },
@@ -139,17 +147,11 @@ async function measure(page: Page) {
 
 /** The page after React has hydrated it and its plots have measured their width. */
 async function openHydrated(page: Page, url: string) {
-  const response = await page.goto(url);
+  const status = await gotoHydrated(page, url);
   await page.waitForLoadState("networkidle");
-  // Polled through evaluate: waitForFunction compiles its predicate in the page, which the app's CSP refuses.
-  await expect
-    .poll(() => page.evaluate(() => Object.keys(document).some((key) => key.startsWith("__reactContainer"))), {
-      message: `${url} hydrates`,
-    })
-    .toBe(true);
   // Two frames: the plots' ResizeObserver reports, then React draws them at the measured width.
   await page.evaluate(() => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))));
-  return response?.status() ?? 0;
+  return status;
 }
 
 describe("layout at 1280×800 and 390×844 in Chromium", () => {

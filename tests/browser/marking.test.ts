@@ -6,6 +6,7 @@ import type { Page } from "playwright-core";
 import {
   axeViolations,
   emailTo,
+  gotoHydrated,
   openBrowser,
   seriousOrCritical,
   signInWithPassword,
@@ -58,7 +59,7 @@ describe("marking at the desk in Chromium", () => {
   it("a TA scores cards with number keys, moves with j and the arrows, is told off a level that does not exist, and takes a band in one go", async () => {
     const page = await browser.context.newPage();
     await signInWithPassword(page, base, ta, DEMO_PASSWORD);
-    await page.goto(deskUrl(lab.first_criterion));
+    await gotoHydrated(page, deskUrl(lab.first_criterion));
     const card = (index: number) => page.locator(`[data-card="${index}"]`);
     const idOf = async (index: number) => (await card(index).getAttribute("data-membership"))!;
     const [first, second] = [await idOf(0), await idOf(1)];
@@ -104,7 +105,7 @@ describe("marking at the desk in Chromium", () => {
     expect(await noSidewaysScroll(page)).toBe(true);
 
     // A 0–3 points criterion: 7 is refused at the keystroke, with the reason on the card.
-    await page.goto(deskUrl(lab.range_criterion));
+    await gotoHydrated(page, deskUrl(lab.range_criterion));
     await card(0).focus();
     await page.keyboard.press("7");
     await expect.poll(() => card(0).getByRole("status").textContent()).toBe("7 is outside this criterion's 0–3 points: nothing was saved.");
@@ -129,8 +130,8 @@ describe("marking at the desk in Chromium", () => {
 
   it("two pages save the same card: the second is told, shown the first one's level, and its change goes through when made again", async () => {
     const [one, two] = [await browser.context.newPage(), await browser.context.newPage()];
-    await one.goto(deskUrl(lab.first_criterion));
-    await two.goto(deskUrl(lab.first_criterion));
+    await gotoHydrated(one, deskUrl(lab.first_criterion));
+    await gotoHydrated(two, deskUrl(lab.first_criterion));
     // The last card: not in the band the first test changed, and the same student on both pages.
     const lastOf = (page: Page) => page.locator("[data-card]").last();
     const id = (await lastOf(one).getAttribute("data-membership"))!;

@@ -3,7 +3,15 @@ import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { createDatabase, createPool } from "~/server/db.server";
 import { buildDemoScenario, DEMO_PASSWORD, demoCourse } from "../../seeds/demo-scenario";
-import { axeViolations, openBrowser, seriousOrCritical, signInWithPassword, signOut, type BrowserSession } from "../support/browser";
+import {
+  axeViolations,
+  gotoHydrated,
+  openBrowser,
+  seriousOrCritical,
+  signInWithPassword,
+  signOut,
+  type BrowserSession,
+} from "../support/browser";
 
 /**
  * A TA goes from their overview's "next to mark" to a student's marking view and on through the
@@ -63,7 +71,7 @@ describe("a student's marking view and next to mark, with the keyboard, in Chrom
   it("opens a student's view from the overview, then the next ones to mark with Alt+N and its link", async () => {
     const page = await browser.context.newPage();
     await signInWithPassword(page, base, ta, DEMO_PASSWORD);
-    await page.goto(`${base}/courses/${lab.course_id}`);
+    await gotoHydrated(page, `${base}/courses/${lab.course_id}`);
     const list = page.getByRole("region", { name: "Next to mark" });
     const link = list.locator(`a[href*="/labs/${lab.id}/marking/students/"]`).first();
     await link.waitFor();
@@ -103,8 +111,7 @@ describe("a student's marking view and next to mark, with the keyboard, in Chrom
     const page = await browser.context.newPage();
     try {
       await signInWithPassword(page, base, demo.instructor.email, DEMO_PASSWORD);
-      // The keys work once the page is live: its scripts are all loaded.
-      await page.goto(viewOf(target!.id), { waitUntil: "networkidle" });
+      await gotoHydrated(page, viewOf(target!.id));
       await expect.poll(() => heading(page).textContent()).toBe(target!.name);
       const setUp = page.getByRole("group", { name: "Set-up and photos" });
       const timing = page.getByRole("group", { name: "Timing technique" });

@@ -7,6 +7,7 @@ import { createRequire } from "node:module";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { expect } from "vitest";
 import { CHROMIUM_PATH } from "../../scripts/lib/chromium";
 
 // Without the background-networking flags Chromium keeps dialling out, which this closed network refuses.
@@ -59,6 +60,21 @@ export async function axeViolations(page: Page): Promise<AxeViolation[]> {
 
 export function seriousOrCritical(violations: AxeViolation[]): AxeViolation[] {
   return violations.filter((violation) => violation.impact === "serious" || violation.impact === "critical");
+}
+
+/**
+ * Opens `url` and waits until React has hydrated the page: a key pressed before that reaches no
+ * handler (React does not replay it), so keyboard tests start here. Returns the response's status.
+ */
+export async function gotoHydrated(page: Page, url: string): Promise<number> {
+  const response = await page.goto(url);
+  // Polled through evaluate: waitForFunction compiles its predicate in the page, which the app's CSP refuses.
+  await expect
+    .poll(() => page.evaluate(() => Object.keys(document).some((key) => key.startsWith("__reactContainer"))), {
+      message: `${url} hydrates`,
+    })
+    .toBe(true);
+  return response?.status() ?? 0;
 }
 
 /** Signs in through the sign-in page with a password, as a person would. */
