@@ -5,6 +5,9 @@
  * answer), and a corrected second version. Prints hand-ins per second, latency percentiles and the CPU
  * the server, this load client and the rest of the machine used (they share the cores), then checks
  * that every accepted hand-in is stored exactly once. Bounded: 600 requests, 60 s.
+ *
+ * `BENCH_BUILD=<dir>` serves another build folder (see below). `BENCH_CPU_PROF=<dir>` runs the server under `node --cpu-prof` into that folder and prints where its
+ * CPU went during the load (bench/cpu-profile.ts): the top frames and packages by self time.
  */
 import { spawn, spawnSync } from "node:child_process";
 import { randomUUID } from "node:crypto";
@@ -14,6 +17,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { freePort, waitForHealth } from "../tests/support/app-server";
 import { bin } from "../scripts/lib/processes";
+import { formatCpuSummary, newestCpuProfile, readCpuProfile, summariseCpuProfile } from "./cpu-profile";
 import { startCpuAccount, createBenchDatabase } from "./support";
 
 const STUDENTS = 200;
@@ -21,10 +25,13 @@ const REQUEST_TIMEOUT_MS = 30_000;
 const OVERALL_DEADLINE_MS = 60_000;
 
 // A build older than the code would measure the code as it was: build again whenever app/ has changed since
-// (the demo build, which the test suites also use).
+// (the demo build, which the test suites also use). BENCH_BUILD names another build folder inside the
+// checkout (so that its imports find node_modules), served as it is: a copy of an earlier build, to
+// compare two builds in the same minutes of a shared machine.
+const buildDirectory = process.env.BENCH_BUILD ?? "build";
 const builtAt = existsSync("build/web.js") ? statSync("build/web.js").mtimeMs : 0;
 const appChanged = readdirSync("app", { recursive: true, encoding: "utf8" }).some((file) => statSync(`app/${file}`).mtimeMs > builtAt);
-if (appChanged) {
+if (buildDirectory === "build" && appChanged) {
   console.log("Building the app…");
   if (spawnSync(process.execPath, [bin.tsx, "scripts/build.ts", "--demo"], { stdio: "inherit" }).status !== 0)
     throw new Error("The build failed.");
@@ -148,7 +155,9 @@ const s3Objects = await mkdtemp(path.join(tmpdir(), "benchpost-bench-s3-"));
 const s3 = await startFakeS3({ port: 0, directory: s3Objects, bucket: FAKE_S3_BUCKET });
 const port = await freePort();
 const baseUrl = `http://127.0.0.1:${port}`;
-const server = spawn(process.execPath, ["build/web.js"], {
+const profileDirectory = process.env.BENCH_CPU_PROF ? path.resolve(process.env.BENCH_CPU_PROF) : null;
+const profiling = profileDirectory ? ["--cpu-prof", `--cpu-prof-dir=${profileDirectory}`] : [];
+const server = spawn(process.execPath, [...profiling, path.join(buildDirectory, "web.js")], {
   env: {
     ...process.env,
     NODE_ENV: "production",
@@ -202,10 +211,13 @@ async function handIn(student: (typeof students)[number], key: string, drops: nu
 
 const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
 let failed = false;
+// The load's span on the monotonic clock the profile's samples are stamped with, so the summary leaves start-up out.
+let loadSpan: { fromUs: number; toUs: number } | undefined;
 try {
   await waitForHealth(baseUrl, server);
   const cpuAccount = startCpuAccount(server.pid!);
   const started = performance.now();
+  const loadStartUs = Number(process.hrtime.bigint() / 1000n);
   // Every student at once; each one's own requests in order, as one phone would send them.
   await Promise.all(
     students.map(async (student) => {
@@ -222,6 +234,7 @@ try {
   );
   const seconds = (performance.now() - started) / 1000;
   const cpu = cpuAccount();
+  loadSpan = { fromUs: loadStartUs, toUs: Number(process.hrtime.bigint() / 1000n) };
 
   const accepted = outcomes.filter((outcome) => outcome.status === 201);
   const repeats = outcomes.filter((outcome) => outcome.status === 200);
@@ -265,5 +278,11 @@ try {
   await s3.close();
   await rm(s3Objects, { recursive: true, force: true });
   await bench.drop();
+}
+if (profileDirectory) {
+  // The server writes its profile as it exits (above).
+  const file = newestCpuProfile(profileDirectory);
+  console.log(`\n${file}`);
+  console.log(formatCpuSummary(summariseCpuProfile(readCpuProfile(file), loadSpan), { requests: outcomes.length }));
 }
 if (failed) process.exitCode = 1;

@@ -27,6 +27,11 @@ const schema = z.object({
   TEST_DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: "must be a postgresql:// address" }).optional(),
   BENCHPOST_PG_PORT: port.default(54329),
   DATABASE_POOL_SIZE: z.coerce.number().int().min(1).default(10),
+  /**
+   * Named (server-side) prepared statements on the hot paths; "off" sends every statement unnamed, for a
+   * transaction pooler that cannot keep them (PgBouncer before 1.21, or without max_prepared_statements).
+   */
+  DATABASE_PREPARED_STATEMENTS: z.enum(["on", "off"], { error: "must be on or off" }).default("on"),
   ALLOW_SIGN_UP: z.stringbool({ error: "must be true or false" }).optional(),
   RESEND_API_KEY: z.string().optional(),
   EMAIL_FROM: z
@@ -111,9 +116,17 @@ export function parseEnvironment(source: Record<string, string | undefined>): En
   };
 }
 
-/** This process's environment, read afresh on each call (a handful of lookups): tests change variables between cases. */
+let lastRead: { values: string; environment: Environment } | null = null;
+
+/**
+ * This process's environment, read afresh on each call: tests change variables between cases. The
+ * variables are compared with the last call's and parsed again only when one changed, since every
+ * request asks (zod's parse of them all showed in the hand-in benchmark's profile).
+ */
 export function environment(): Environment {
-  return parseEnvironment(process.env);
+  const values = names.map((name) => process.env[name] ?? "").join("\0");
+  if (lastRead?.values !== values) lastRead = { values, environment: parseEnvironment(process.env) };
+  return lastRead.environment;
 }
 
 /** For entry points (web server, worker, scripts): the checked environment, or the list of problems and exit code 1. */

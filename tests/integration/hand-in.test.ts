@@ -392,19 +392,19 @@ describe("idempotent hand-in", () => {
 });
 
 describe("a hand-in's statements", () => {
-  it("are ten for a new version and six for a repeat, begin and commit included", async () => {
+  it("are six for a new version and five for a repeat, begin and commit included", async () => {
     // At the deadline every hand-in pays per statement, so the budget is pinned here: the lab and the
-    // kit (two), then begin, the drop log created or locked, the look-up of the key, the version, the
-    // latest-version pointer with the photos and the receipt's outbox row, the relabel job, the
-    // receipt's delivery job (the one statement the receipt adds) and commit. A repeat stops at the look-up.
+    // kit (two, side by side), then begin, the drop log created or locked with the lab's marking lock
+    // and its versions read, one statement that stores the version with its photos, first revision,
+    // receipt, relabel and delivery jobs, and commit. A repeat stops after the lock.
     const lab = await createLab();
     const args = { access: accessOf("ownStudent"), labId: lab.id, input: inputFor(fixture.sphereId), idempotencyKey: "statement-budget-1" };
     const first = await countAllStatements(() => handInDropLog(db, args));
     expect(first.result.duplicate).toBe(false);
-    expect(first.statements).toBe(10);
+    expect(first.statements).toBe(6);
     const repeat = await countAllStatements(() => handInDropLog(db, args));
     expect(repeat.result).toEqual({ version: first.result.version, duplicate: true });
-    expect(repeat.statements).toBe(6);
+    expect(repeat.statements).toBe(5);
   });
 });
 

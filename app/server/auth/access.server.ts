@@ -11,6 +11,7 @@ import { createContext, data, redirect, type MiddlewareFunction, type RouterCont
 import { cohorts, courseMemberships, courses, taCohortAssignments } from "~/db/schema";
 import { recordAudit } from "~/server/audit.server";
 import { db } from "~/server/db.server";
+import { preparedStatement } from "~/server/prepared-statements.server";
 import { apiErrorResponse, isApiRequest } from "./api-errors.server";
 import { authenticateApiToken, readBearerToken } from "./api-tokens.server";
 import { readRequestSession, type SessionUser, type SessionValidation } from "./session.server";
@@ -117,9 +118,12 @@ function notFound(request: Request): never {
   throw data("Not found", { status: 404 });
 }
 
-/** The course and the user's active membership in it, with the cohorts that membership opens, in one query. */
-async function loadCourseAccess(userId: string, courseId: string) {
-  const [row] = await db
+/**
+ * The course and the user's active membership in it, with the cohorts that membership opens, in one
+ * query that every course page and API call runs: built once, and a named statement where the switch allows.
+ */
+const courseAccessLookup = preparedStatement("course_access", (name) =>
+  db
     .select({
       course: {
         id: courses.id,
@@ -141,9 +145,18 @@ async function loadCourseAccess(userId: string, courseId: string) {
     .from(courses)
     .leftJoin(
       courseMemberships,
-      and(eq(courseMemberships.courseId, courses.id), eq(courseMemberships.userId, userId), isNull(courseMemberships.removedAt)),
+      and(
+        eq(courseMemberships.courseId, courses.id),
+        eq(courseMemberships.userId, sql.placeholder("userId")),
+        isNull(courseMemberships.removedAt),
+      ),
     )
-    .where(eq(courses.id, courseId));
+    .where(eq(courses.id, sql.placeholder("courseId")))
+    .prepare(name),
+);
+
+async function loadCourseAccess(userId: string, courseId: string) {
+  const [row] = await courseAccessLookup().execute({ userId, courseId });
   return row;
 }
 type CourseAccessRow = Awaited<ReturnType<typeof loadCourseAccess>>;

@@ -3,11 +3,12 @@
  * than 15 remain, expired rows deleted when met. A request's session is looked up once and shared
  * by the middleware and every loader of that request.
  */
-import { and, eq, ne } from "drizzle-orm";
+import { and, eq, ne, sql } from "drizzle-orm";
 import { sessions, users } from "~/db/schema";
 import { isProduction } from "~/server/config.server";
 import { db, type Executor } from "~/server/db.server";
 import { clientIp } from "~/server/http.server";
+import { preparedStatement } from "~/server/prepared-statements.server";
 import { generateToken, hashToken } from "./tokens.server";
 
 const DAY_MS = 24 * 60 * 60 * 1000;
@@ -30,16 +31,22 @@ export async function createSession(executor: Executor, userId: string, request:
   return { token, session };
 }
 
-export async function validateSessionToken(token: string, now = new Date()): Promise<SessionValidation | null> {
-  const sessionId = hashToken(token);
-  const [row] = await db
+/** Every request with a cookie asks this first: built once, and a named statement where the switch allows. */
+const sessionLookup = preparedStatement("session_lookup", (name) =>
+  db
     .select({
       session: { id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt },
       user: { id: users.id, email: users.email, name: users.name, mayCreateCourses: users.mayCreateCourses },
     })
     .from(sessions)
     .innerJoin(users, eq(users.id, sessions.userId))
-    .where(eq(sessions.id, sessionId));
+    .where(eq(sessions.id, sql.placeholder("sessionId")))
+    .prepare(name),
+);
+
+export async function validateSessionToken(token: string, now = new Date()): Promise<SessionValidation | null> {
+  const sessionId = hashToken(token);
+  const [row] = await sessionLookup().execute({ sessionId });
   if (!row) return null;
   if (now.getTime() >= row.session.expiresAt.getTime()) {
     await db.delete(sessions).where(eq(sessions.id, sessionId));

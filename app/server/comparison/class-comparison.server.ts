@@ -30,7 +30,7 @@ import type { CourseAccess } from "~/server/auth/access.server";
 import { insertMany } from "~/server/bulk-insert.server";
 import type { Executor, Transaction } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
-import { enqueuer, queues, transactionAdapter } from "~/server/jobs/boss.server";
+import { enqueuer, queues, transactionAdapter, type JobRequest } from "~/server/jobs/boss.server";
 import { uuidList } from "~/server/sql.server";
 
 export type ComparisonLab = {
@@ -409,13 +409,18 @@ export const RELABEL_DEBOUNCE_SECONDS = 5;
 export type ClassComparisonJob = { labId: string };
 
 /**
- * Asks for the lab to be relabelled, on the caller's transaction: a hand-in's (one line in
- * `handInDropLog`) or a method change's. A plain job, so concurrent hand-ins never wait on each other;
+ * Asks for the lab to be relabelled, on the caller's transaction: a re-reduction's or a method change's
+ * (a hand-in writes `classComparisonRequest` into its own statement). A plain job, so concurrent hand-ins never wait on each other;
  * the worker turns the requests into one debounced relabel per lab.
  */
 export async function queueClassComparison(tx: Transaction, labId: string): Promise<void> {
-  await enqueuer().send(queues.classComparisonRequested, { labId } satisfies ClassComparisonJob, { db: transactionAdapter(tx) });
+  const { name, data } = classComparisonRequest(labId);
+  await enqueuer().send(name, data, { db: transactionAdapter(tx) });
 }
+
+/** The job that asks for a lab's relabel, for a caller that inserts it inside a statement of its own (`jobsInsert`). */
+export const classComparisonRequest = (labId: string) =>
+  ({ name: queues.classComparisonRequested, data: { labId } satisfies ClassComparisonJob }) satisfies JobRequest;
 
 /**
  * The worker's side of a request: one relabel job per lab and time slot (singletonKey = lab id,

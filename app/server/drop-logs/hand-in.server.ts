@@ -5,6 +5,7 @@
  * queue behind one lock (it also holds the lab's marking lock shared, which only a release, taking
  * it exclusively, waits for: a hand-in then sees whether that release covered the student's mark).
  */
+import { randomUUID } from "node:crypto";
 import { AppError, type ErrorIssue } from "~/lib/app-error";
 import { and, asc, desc, eq, getTableColumns, sql, type SQLWrapper } from "drizzle-orm";
 import { z } from "zod";
@@ -15,14 +16,15 @@ import { reduceDropLog, type DropLogReduction, type KitRecordsInput } from "~/li
 import type { AllowedPartKind } from "~/lib/labs/lab-input";
 import { ReductionInputError } from "~/lib/reduction";
 import type { CourseAccess } from "~/server/auth/access.server";
-import { comparisonLabColumns, queueClassComparison } from "~/server/comparison/class-comparison.server";
+import { classComparisonRequest, comparisonLabColumns } from "~/server/comparison/class-comparison.server";
 import { appUrl } from "~/server/config.server";
 import type { Executor } from "~/server/db.server";
 import { outboxEntry } from "~/server/email/send-email.server";
-import { enqueuer, transactionAdapter } from "~/server/jobs/boss.server";
+import { jobsInsert } from "~/server/jobs/boss.server";
 import { jsonRows } from "~/server/json-rows.server";
 import { labRefusal } from "~/server/labs/lab-access.server";
 import { markingLock } from "~/server/marking/marks.server";
+import { executePrepared, statementName } from "~/server/prepared-statements.server";
 import { isEntityId } from "~/lib/forms/ids";
 
 export type HandInRefusalCode =
@@ -115,7 +117,9 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
       })
       .from(labs)
       .innerJoin(courses, eq(courses.id, labs.courseId))
-      .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id))),
+      .where(and(eq(labs.id, labId), eq(labs.courseId, access.course.id)))
+      .prepare(statementName("student_lab"))
+      .execute(),
     executor
       .select({
         id: parts.id,
@@ -143,7 +147,9 @@ export async function loadStudentLab(executor: Executor, access: CourseAccess, l
       .innerJoin(kitParts, eq(kitParts.kitId, kits.id))
       .innerJoin(parts, eq(parts.id, kitParts.partId))
       .where(eq(kits.holderMembershipId, access.membership.id))
-      .orderBy(asc(parts.label)),
+      .orderBy(asc(parts.label))
+      .prepare(statementName("student_kit_parts"))
+      .execute(),
   ]);
   const row = labRows[0];
   // The same rule as every lab page's: a draft lab answers like a lab that does not exist.
@@ -295,42 +301,51 @@ export async function handInDropLog(
   if (lab.status !== "published") throw labClosed();
   const { reduction, kitRecords, normalisedFigure, warnings } = reduceFor(context, parsed);
   const warningCount = warnings.filter((warning) => warning.level !== "info").length;
-
+  const handInWindow = context.window;
+  const timing = handInTiming(handInWindow, now);
   return executor.transaction(async (tx) => {
     // The only row a hand-in locks: this student's own drop log, which the upsert creates or locks (as
-    // ON CONFLICT DO UPDATE does) in one statement. Versions are numbered under it.
+    // ON CONFLICT DO UPDATE does) in one statement. Versions are numbered under it. The same statement
+    // takes the lab's marking lock, shared (hand-ins never wait for each other): a release under way
+    // finishes first, so the next statement sees whether it released this mark.
     const [dropLog] = await tx
       .insert(dropLogs)
       .values({ labId, membershipId: access.membership.id })
       .onConflictDoUpdate({ target: [dropLogs.labId, dropLogs.membershipId], set: { labId: sql`excluded.lab_id` } })
-      // The lab's marking lock, shared (hand-ins never wait for each other), taken in this statement: a
-      // release under way finishes first, so the statements below see whether it released this mark.
-      .returning({ id: dropLogs.id, marking: sql`(${markingLock(labId, "shared")}) is null` });
-    const [earlier] = await tx
-      .select({
-        id: dropLogVersions.id,
-        version: dropLogVersions.version,
-        late: dropLogVersions.late,
-        submittedAt: dropLogVersions.submittedAt,
+      .returning({
+        id: dropLogs.id,
+        marking: sql`(${markingLock(labId, "shared")}) is null`,
+        // The locked row as it is now, which the statement's snapshot (taken before the lock) may predate.
+        latestVersionId: dropLogs.latestVersionId,
+        ...storedVersions(keyCheck.data),
       })
-      .from(dropLogVersions)
-      .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
+      .prepare(statementName("hand_in_lock_drop_log"))
+      .execute();
+    // Every version is stored with its drop log's pointer to it, under the lock: when the snapshot's newest
+    // version is the row's, the snapshot holds them all. Otherwise a hand-in committed while this one
+    // waited for the lock (a double tap with two keys), and a new statement sees it.
+    const stored =
+      dropLog.seenLatestVersionId === dropLog.latestVersionId
+        ? dropLog
+        : (await tx.select(storedVersions(keyCheck.data)).from(dropLogs).where(eq(dropLogs.id, dropLog.id)))[0];
     // A repeat is answered before the clock is read: a retry arriving after the cut-off still gets its version.
-    if (earlier) return { version: earlier, duplicate: true };
+    if (stored.earlier) return { version: { ...stored.earlier, submittedAt: new Date(stored.earlier.submittedAt) }, duplicate: true };
 
-    const handInWindow = context.window;
-    const timing = handInTiming(handInWindow, now);
     if (timing === "not-open") throw handInRefusal("not_open", `This lab opens for hand-ins on ${handInWindow.opensAt.toISOString()}.`);
     if (timing === "closed") throw pastCutoff(handInWindow);
-    const [inserted] = await tx
+    // Everything the version's statement writes is known here, its id and number included, so that the
+    // receipt (whose subject names the number) and the jobs are written in that same statement.
+    const version = { id: randomUUID(), version: stored.nextVersion, late: timing === "late", submittedAt: now };
+    const reopen = lab.afterReleaseHandIns === "reopen";
+    const receipt = receiptEmail(tx, access, { id: labId, title: lab.title }, version);
+    const jobs = await jobsInsert([classComparisonRequest(labId), ...(receipt.job ? [receipt.job] : [])]);
+    const inserted = tx
       .insert(dropLogVersions)
       .values({
+        ...version,
         dropLogId: dropLog.id,
-        version: sql`(select coalesce(max(${dropLogVersions.version}), 0) + 1 from ${dropLogVersions} where ${dropLogVersions.dropLogId} = ${dropLog.id})`,
         idempotencyKey: keyCheck.data,
         submittedById: access.user.id,
-        submittedAt: now,
-        late: timing === "late",
         sphereId: kitRecords.sphere.id,
         fluidLotId: kitRecords.fluidLot.id,
         columnId: kitRecords.column.id,
@@ -346,50 +361,63 @@ export async function handInDropLog(
         viscosityPaS: reduction.mode === "viscometry" ? reduction.viscosity : reduction.fluidViscosity,
         warningCount,
       })
-      .onConflictDoNothing({ target: [dropLogVersions.dropLogId, dropLogVersions.idempotencyKey] })
+      // Read by the first revision below: a statement's own inserts are not in its snapshot.
       .returning({
         id: dropLogVersions.id,
-        version: dropLogVersions.version,
-        late: dropLogVersions.late,
+        kitRecords: dropLogVersions.kitRecords,
+        reduction: dropLogVersions.reduction,
+        normalisedFigure: dropLogVersions.normalisedFigure,
+        reynolds: dropLogVersions.reynolds,
+        dragCoefficient: dropLogVersions.dragCoefficient,
+        viscosityPaS: dropLogVersions.viscosityPaS,
+        warningCount: dropLogVersions.warningCount,
         submittedAt: dropLogVersions.submittedAt,
       });
-    if (!inserted) {
-      // Only reachable if the lock was bypassed (another writer without it); the stored version still wins.
-      const [stored] = await tx
-        .select({
-          id: dropLogVersions.id,
-          version: dropLogVersions.version,
-          late: dropLogVersions.late,
-          submittedAt: dropLogVersions.submittedAt,
-        })
-        .from(dropLogVersions)
-        .where(and(eq(dropLogVersions.dropLogId, dropLog.id), eq(dropLogVersions.idempotencyKey, keyCheck.data)));
-      return { version: stored, duplicate: true };
-    }
-    // The new version counts, takes the draft's photos with it and gets its reduction revision 1 (a copy
-    // of what was just stored): one statement for the three tables. It also says whether the student's
-    // mark is released: "refuse" then rolls the hand-in back, "reopen" reopens that mark (which keeps the
-    // version it was marked on) in the same statement.
-    const reopen = lab.afterReleaseHandIns === "reopen";
-    // The student's receipt is written in the same statement (the builder parenthesises it); it rolls back with a refused hand-in.
-    const receipt = receiptEmail(tx, access, { id: labId, title: lab.title }, inserted);
-    // Raw: data-modifying CTEs over four tables in one statement; the builder writes one table per statement.
-    const counted = await tx.execute<{ markReleased: boolean }>(sql`
-      with attached as (update drop_log_photos set version_id = ${inserted.id} where drop_log_id = ${dropLog.id} and version_id is null),
+    // One statement stores the version and everything that goes with it: it counts (the latest-version
+    // pointer), takes the draft's photos, gets its reduction revision 1 (a copy of what it stores), the
+    // student's receipt with its delivery job, and the relabel request. It also says whether the
+    // student's mark is released: "refuse" then rolls the hand-in back, "reopen" reopens that mark
+    // (which keeps the version it was marked on) in the same statement.
+    // Raw: data-modifying CTEs over seven tables in one statement; the builder writes one table per statement.
+    const counted = await executePrepared<{ markReleased: boolean }>(
+      tx,
+      reopen ? "hand_in_store_reopen" : "hand_in_store",
+      sql`
+      with inserted as ${inserted},
+      attached as (update drop_log_photos set version_id = ${version.id} where drop_log_id = ${dropLog.id} and version_id is null),
       receipt as ${receipt.insert},
+      jobs as (${jobs}),
       first_revision as (
         insert into reduction_revisions (version_id, revision, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, created_at)
-        select id, 1, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, submitted_at
-        from drop_log_versions where id = ${inserted.id})
+        select id, 1, kit_records, reduction, normalised_figure, reynolds, drag_coefficient, viscosity_pa_s, warning_count, submitted_at from inserted)
       ${reopen ? sql`, reopened as (update marks set reopened_at = ${now.toISOString()}::timestamptz where lab_id = ${labId} and membership_id = ${access.membership.id} and released_at is not null)` : sql``}
-      update drop_logs set latest_version_id = ${inserted.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}
-      returning ${markReleased(labId, access.membership.id)} as "markReleased"`);
+      update drop_logs set latest_version_id = ${version.id}, draft = null, draft_saved_at = null where id = ${dropLog.id}
+      returning ${markReleased(labId, access.membership.id)} as "markReleased"`,
+    );
     if (counted.rows[0].markReleased && !reopen) throw handInRefusal("mark_released", markReleasedMessage);
-    await queueClassComparison(tx, labId);
-    if (receipt.job) await enqueuer().insert([receipt.job], { db: transactionAdapter(tx) });
-    return { version: inserted, duplicate: false };
+    return { version, duplicate: false };
   });
 }
+
+/** A version as json_build_object returns it: the timestamp arrives as a string. */
+type StoredVersionRow = { id: string; version: number; late: boolean; submittedAt: string };
+
+/**
+ * What a hand-in reads of its drop log's versions (in the statement's snapshot), beside the drop_logs
+ * row: the version stored under this idempotency key, the number the next one gets, and the newest
+ * version's id. The row's id is written qualified: a single-table statement names its columns bare,
+ * which inside these subqueries would mean drop_log_versions' own id.
+ */
+const storedVersions = (key: string) => {
+  const dropLogId = sql`${dropLogs}.id`;
+  return {
+    earlier: sql<StoredVersionRow | null>`(select json_build_object('id', v.id, 'version', v.version, 'late', v.late, 'submittedAt', v.submitted_at) from drop_log_versions v where v.drop_log_id = ${dropLogId} and v.idempotency_key = ${key})`,
+    nextVersion: sql<number>`(select coalesce(max(v.version), 0) + 1 from drop_log_versions v where v.drop_log_id = ${dropLogId})::int`,
+    seenLatestVersionId: sql<
+      string | null
+    >`(select v.id from drop_log_versions v where v.drop_log_id = ${dropLogId} order by v.version desc limit 1)`,
+  };
+};
 
 /**
  * The hand-in's receipt to the student, once per version (its dedupe key names the version): a

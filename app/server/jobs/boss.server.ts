@@ -2,7 +2,7 @@
  * pg-boss, our job queue in PostgreSQL: the queue names, their retry policies and the one place that
  * creates them. Later work (deadline reminders, class-comparison jobs) adds its queues here.
  */
-import { sql } from "drizzle-orm";
+import { sql, type SQL } from "drizzle-orm";
 import PgBoss from "pg-boss";
 import type { Transaction } from "~/server/db.server";
 import { environment } from "~/server/env.server";
@@ -97,6 +97,12 @@ export function enqueuer(): PgBoss {
   return (globalForBoss.benchpostEnqueuer ??= createBoss());
 }
 
+/** pg-boss's numbered-parameter SQL as Drizzle SQL: split() with a capture group alternates text and parameter numbers ("a $1 b" → ["a ", "1", " b"]). */
+function bossSql(text: string, values: unknown[]): SQL {
+  const pieces = text.split(/\$(\d+)/);
+  return sql.join(pieces.map((piece, index) => (index % 2 === 0 ? sql.raw(piece) : sql.param(values[Number(piece) - 1]))));
+}
+
 /**
  * pg-boss accepts a caller's database adapter for `send`. This one runs pg-boss's numbered-parameter SQL
  * through Drizzle on the caller's transaction, so the job insert commits or rolls back with it.
@@ -104,11 +110,29 @@ export function enqueuer(): PgBoss {
 export function transactionAdapter(tx: Transaction) {
   return {
     async executeSql(text: string, values: unknown[] = []) {
-      // split() with a capture group alternates text and parameter numbers: "a $1 b" → ["a ", "1", " b"].
-      const pieces = text.split(/\$(\d+)/);
-      const query = sql.join(pieces.map((piece, index) => (index % 2 === 0 ? sql.raw(piece) : sql.param(values[Number(piece) - 1]))));
-      const result = await tx.execute<Record<string, unknown>>(query);
+      const result = await tx.execute<Record<string, unknown>>(bossSql(text, values));
       return { rows: result.rows };
     },
   };
+}
+
+export type JobRequest = { name: (typeof queues)[keyof typeof queues]; data: object };
+
+/**
+ * pg-boss's own insert of `jobs` (each with its queue's policy), as a statement for the caller to run
+ * inside one of its own (a data-modifying CTE), instead of a round trip of its own: the hand-in's
+ * statements are budgeted. pg-boss writes the SQL; an adapter that runs nothing catches it.
+ */
+export async function jobsInsert(jobs: JobRequest[]): Promise<SQL> {
+  let statement: SQL | null = null;
+  await enqueuer().insert(jobs, {
+    db: {
+      async executeSql(text: string, values: unknown[] = []) {
+        statement = bossSql(text, values);
+        return { rows: [] };
+      },
+    },
+  });
+  if (!statement) throw new Error("pg-boss wrote no insert for the jobs.");
+  return statement;
 }
