@@ -56,6 +56,18 @@ export default defineConfig({
           hookTimeout: 120_000,
         },
       },
+      {
+        resolve,
+        test: {
+          // The production build behind PgBouncer in transaction mode, two of each process; after the production check.
+          name: "scale",
+          include: ["tests/scale/**/*.test.ts"],
+          globalSetup: ["tests/support/global-setup.ts"],
+          // Each wait inside has its own bound, shorter than these.
+          testTimeout: 200_000,
+          hookTimeout: 180_000,
+        },
+      },
     ],
   },
 });

@@ -40,113 +40,10 @@ if (buildDirectory === "build" && appChanged) {
 const bench = await createBenchDatabase();
 const { sql } = await import("drizzle-orm");
 const { db } = await import("~/server/db.server");
-const schema = await import("~/db/schema");
-const { insertMany } = await import("~/server/bulk-insert.server");
-const { createSession, SESSION_COOKIE } = await import("~/server/auth/session.server");
+const { seedHandInClass, dropTimes } = await import("../tests/support/hand-in-class");
 
-// The class: one course, one cohort, a published lab due in ten minutes, a kit per student.
 const label = `bench-${randomUUID().slice(0, 8)}`;
-const [course] = await db
-  .insert(schema.courses)
-  .values({ title: "Deadline rush", code: label, term: "Bench", timeZone: "UTC" })
-  .returning();
-const [cohort] = await db.insert(schema.cohorts).values({ courseId: course.id, name: "Everyone" }).returning();
-const [lab] = await db
-  .insert(schema.labs)
-  .values({
-    courseId: course.id,
-    title: "Drag on a settling sphere",
-    kind: "drag",
-    status: "published",
-    opensAt: new Date(Date.now() - 86_400_000),
-    dueAt: new Date(Date.now() + 600_000),
-    resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 },
-    publishedAt: new Date(),
-  })
-  .returning();
-await db.insert(schema.labCohorts).values({ labId: lab.id, cohortId: cohort.id });
-const [fluidLot] = await db
-  .insert(schema.parts)
-  .values({
-    courseId: course.id,
-    kind: "fluid_lot",
-    label: "GLY-B",
-    fluidName: "glycerol",
-    densityKgM3: 1260,
-    calibration: [
-      { temperatureC: 20, viscosityPaS: 1.41 },
-      { temperatureC: 25, viscosityPaS: 0.94 },
-    ],
-  })
-  .returning();
-const students = Array.from({ length: STUDENTS }, (_, index) => ({
-  index,
-  userId: randomUUID(),
-  membershipId: randomUUID(),
-  kitId: randomUUID(),
-  sphereId: randomUUID(),
-  columnId: randomUUID(),
-}));
-await insertMany(
-  db,
-  schema.users,
-  students.map((s) => ({ id: s.userId, email: `student${s.index}@${label}.example`, name: `Student ${s.index}` })),
-);
-await insertMany(
-  db,
-  schema.courseMemberships,
-  students.map((s) => ({ id: s.membershipId, courseId: course.id, userId: s.userId, role: "student" as const, cohortId: cohort.id })),
-);
-// Two inserts: every row of an insertMany must name the same columns.
-await insertMany(
-  db,
-  schema.parts,
-  students.map((s) => ({
-    id: s.sphereId,
-    courseId: course.id,
-    kind: "sphere" as const,
-    label: `S-${s.index}`,
-    material: "steel",
-    diameterMm: 3,
-    massG: 0.11,
-  })),
-);
-await insertMany(
-  db,
-  schema.parts,
-  students.map((s) => ({
-    id: s.columnId,
-    courseId: course.id,
-    kind: "column" as const,
-    label: `C-${s.index}`,
-    innerDiameterMm: 40,
-    timedDistanceMm: 200,
-    runInMm: 100,
-  })),
-);
-await insertMany(
-  db,
-  schema.kits,
-  students.map((s) => ({
-    id: s.kitId,
-    courseId: course.id,
-    number: `K-${s.index}`,
-    state: "at_home" as const,
-    holderMembershipId: s.membershipId,
-  })),
-);
-await insertMany(db, schema.kitParts, [
-  ...students.flatMap((s) => [
-    { kitId: s.kitId, partId: s.sphereId, exclusive: true },
-    { kitId: s.kitId, partId: s.columnId, exclusive: true },
-  ]),
-  ...students.map((s) => ({ kitId: s.kitId, partId: fluidLot.id, exclusive: false })),
-]);
-const cookies = new Map<number, string>();
-for (const s of students) {
-  const { token } = await createSession(db, s.userId, new Request("http://127.0.0.1/"));
-  cookies.set(s.index, `${SESSION_COOKIE}=${token}`);
-}
+const { labId, students } = await seedHandInClass(db, { students: STUDENTS, label });
 
 // The server: the node binary itself (so the PID is the server's), loopback only. A production
 // process needs its photo bucket, though no hand-in here sends a photo: the local fake's.
@@ -187,9 +84,9 @@ const deadline = Date.now() + OVERALL_DEADLINE_MS;
 async function handIn(student: (typeof students)[number], key: string, drops: number[]): Promise<void> {
   if (Date.now() > deadline) throw new Error("The benchmark ran past its 60 s bound.");
   const started = performance.now();
-  const response = await fetch(`${baseUrl}/api/v1/labs/${lab.id}/drop-logs`, {
+  const response = await fetch(`${baseUrl}/api/v1/labs/${labId}/drop-logs`, {
     method: "POST",
-    headers: { Cookie: cookies.get(student.index)!, Origin: baseUrl, "Content-Type": "application/json", "Idempotency-Key": key },
+    headers: { Cookie: student.cookie, Origin: baseUrl, "Content-Type": "application/json", "Idempotency-Key": key },
     body: JSON.stringify({ sphereId: student.sphereId, temperatureC: 21.5, drops }),
     signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS),
   });
@@ -221,7 +118,7 @@ try {
   // Every student at once; each one's own requests in order, as one phone would send them.
   await Promise.all(
     students.map(async (student) => {
-      const drops = Array.from({ length: 10 }, (_, drop) => Number((7.45 + (((student.index * 7 + drop * 3) % 11) - 5) * 0.01).toFixed(2)));
+      const drops = dropTimes(student.index);
       const first = `${label}-${student.index}-a`;
       await handIn(student, first, drops);
       await handIn(student, first, drops);
@@ -259,7 +156,7 @@ try {
   // Exactly once: one stored version per accepted answer, each repeat answered with its first version.
   const stored = await db.execute<{ versions: number; keys: number; logs: number }>(sql`
     select count(*)::int as versions, count(distinct (v.drop_log_id, v.idempotency_key))::int as keys, count(distinct v.drop_log_id)::int as logs
-    from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${lab.id}`);
+    from drop_log_versions v join drop_logs d on d.id = v.drop_log_id where d.lab_id = ${labId}`);
   const { versions, keys, logs } = stored.rows[0];
   const firstVersion = new Map(accepted.map((outcome) => [outcome.key, outcome.versionId]));
   const repeatsMatch = repeats.every((outcome) => outcome.duplicate === true && firstVersion.get(outcome.key) === outcome.versionId);

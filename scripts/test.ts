@@ -6,6 +6,7 @@ import { migrateDatabase } from "~/server/migrate.server";
 import { PRODUCTION_CHECK_DIRECTORY, buildApp } from "./lib/build";
 import { ensureChromium } from "./lib/chromium";
 import { testDatabaseUrl } from "./lib/database-url";
+import { ensurePgBouncer } from "./lib/pgbouncer";
 import { SetupError, ensureDatabases } from "./lib/postgres";
 import { bin, runStep } from "./lib/processes";
 
@@ -16,6 +17,7 @@ try {
   await ensureDatabases();
   await migrateDatabase(testDatabaseUrl());
   ensureChromium();
+  ensurePgBouncer();
 } catch (error) {
   console.error(error instanceof SetupError ? error.message : error);
   process.exit(1);
@@ -33,4 +35,6 @@ runStep("Browser tests (Chromium)", bin.vitest, ["run", "--project", "browser"],
 // run as a deployment runs it (tests/production/).
 await buildApp({ demo: false, directory: PRODUCTION_CHECK_DIRECTORY, quiet: true });
 runStep("Production build: release step, web server, worker", bin.vitest, ["run", "--project", "production"], env);
+// The same build scaled out behind PgBouncer in transaction mode (tests/scale/; alone: npm run test:scale).
+runStep("Scale-out behind PgBouncer: two web processes, two workers", bin.vitest, ["run", "--project", "scale"], env);
 console.log("\nAll checks passed.");

@@ -24,6 +24,11 @@ const schema = z.object({
   APP_URL: z.url({ protocol: /^https?$/, error: "must be an http(s) address" }).optional(),
   TRUST_PROXY: z.enum(["0", "1"], { error: "must be 0 or 1" }).optional(),
   DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: "must be a postgresql:// address" }).optional(),
+  /**
+   * The release step's own connection to PostgreSQL, not through a transaction-mode pooler
+   * (`npm run db:migrate`): its advisory lock is held by the session. Unset, DATABASE_URL.
+   */
+  DATABASE_DIRECT_URL: z.url({ protocol: /^postgres(ql)?$/, error: "must be a postgresql:// address" }).optional(),
   TEST_DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: "must be a postgresql:// address" }).optional(),
   BENCHPOST_PG_PORT: port.default(54329),
   DATABASE_POOL_SIZE: z.coerce.number().int().min(1).default(10),

@@ -11,7 +11,9 @@ export const migrationsFolder = path.resolve("drizzle");
 /**
  * Applies every migration in `drizzle/` that the database has not seen yet, then pg-boss's schema and
  * queues. The whole run holds a PostgreSQL advisory lock, so that the release steps of several
- * instances started at once take turns: the later ones find nothing left to do.
+ * instances started at once take turns: the later ones find nothing left to do. The lock belongs to
+ * the session, so `connectionString` must reach PostgreSQL directly or through a pooler that keeps
+ * sessions: a transaction-mode pooler would leave it held on a server connection after we are gone.
  */
 export async function migrateDatabase(connectionString: string): Promise<void> {
   const client = new pg.Client({ connectionString });

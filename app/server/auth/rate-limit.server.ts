@@ -23,12 +23,22 @@ const settings: Record<LimitName, { points: number; durationSeconds: number }> =
 
 const limiters = new Map<LimitName, RateLimiterPostgres>();
 
+/**
+ * The library names its statements, and a named prepared statement lives in one server session: behind
+ * a transaction-mode pooler (PgBouncer before 1.21) the next use lands on a server connection that has
+ * it already ("already exists") or not at all ("does not exist"). So its queries go unnamed, planned
+ * each time: one-row upserts and lookups by key, cheap to plan.
+ */
+const unnamedStatements = {
+  query: ({ text, values }: { text: string; values?: unknown[] }) => pool.query(text, values),
+};
+
 function limiter(name: LimitName): RateLimiterPostgres {
   let existing = limiters.get(name);
   if (!existing) {
     const { points, durationSeconds } = settings[name];
     existing = new RateLimiterPostgres({
-      storeClient: pool,
+      storeClient: unnamedStatements,
       storeType: "pool",
       tableName: "rate_limits",
       // The table comes from our migrations; the library's timer-driven clean-up would keep the process alive.
