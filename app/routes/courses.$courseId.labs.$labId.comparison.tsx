@@ -11,9 +11,11 @@ import { PageHeader } from "~/components/ui/page-header";
 import { comparisonSettings } from "~/lib/comparison/comparison-settings";
 import { parseSubmission } from "~/lib/forms/submission";
 import {
+  COMPARISON_TABLE_PAGE_SIZE,
   comparisonJson,
   getLabComparison,
   loadComparisonLab,
+  plotPointsOf,
   previewLabSettings,
   readComparisonFilters,
   updateComparisonSettings,
@@ -23,6 +25,12 @@ import { requireLabAccess } from "~/server/labs/lab-access.server";
 import { staffRoles } from "~/server/auth/access.server";
 import { formAction } from "~/server/errors.server";
 import { counted } from "~/lib/plural";
+import { pagingSearch } from "~/lib/forms/search-params";
+import { readSearchParams } from "~/server/http.server";
+import { Pager } from "~/components/ui/data-table";
+
+/** The hand-in table's page (`?page=`), in links that work without JavaScript. */
+const tableSearch = z.object(pagingSearch(COMPARISON_TABLE_PAGE_SIZE));
 
 /** The method form, sent to count ("preview") or to save. */
 const methodSubmission = comparisonSettings.extend({ intent: z.enum(["preview", "save"], { error: "Unknown request." }) });
@@ -30,8 +38,19 @@ const methodSubmission = comparisonSettings.extend({ intent: z.enum(["preview", 
 export async function loader({ request, context, params }: Route.LoaderArgs) {
   const { access, lab } = await requireLabAccess({ request, context }, params, staffRoles, loadComparisonLab);
   const filters = readComparisonFilters(request);
-  const comparison = await getLabComparison(db, access, lab, filters);
-  return { ...comparisonJson(comparison), filters, courseId: access.course.id, mayEdit: access.membership.role === "instructor" };
+  const { page, size } = readSearchParams(request, tableSearch);
+  const { handIns, ...comparison } = comparisonJson(await getLabComparison(db, access, lab, filters));
+  // The plots and counts cover every hand-in shown; the table only its page, so the page's weight follows the table's size, not the class's.
+  const shownPage = Math.min(page, Math.max(1, Math.ceil(handIns.length / size)));
+  return {
+    ...comparison,
+    points: plotPointsOf(handIns),
+    handIns: handIns.slice((shownPage - 1) * size, shownPage * size),
+    pageInfo: { page: shownPage, pageSize: size, total: handIns.length },
+    filters,
+    courseId: access.course.id,
+    mayEdit: access.membership.role === "instructor",
+  };
 }
 
 export const action = formAction(async ({ request, context, params, formData }: Route.ActionArgs & { formData: FormData }) => {
@@ -50,7 +69,7 @@ export const action = formAction(async ({ request, context, params, formData }: 
 });
 
 export default function ComparisonPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { lab, method, classSize, counts, handIns, courseId, filters, cohorts, limits, mayEdit } = loaderData;
+  const { lab, method, classSize, counts, points, handIns, pageInfo, courseId, filters, cohorts, limits, mayEdit } = loaderData;
   const base = `/courses/${courseId}/labs/${lab.id}`;
   const filterQuery = new URLSearchParams({
     ...(filters.cohortId ? { cohort: filters.cohortId } : {}),
@@ -79,8 +98,11 @@ export default function ComparisonPage({ loaderData, actionData }: Route.Compone
 
       <ComparisonFilters cohorts={cohorts} filters={filters} />
       <LabelCountList counts={counts} />
-      <ComparisonPlots lab={lab} handIns={handIns} limits={limits} />
-      <HandInTable handIns={handIns} />
+      <ComparisonPlots courseId={courseId} lab={lab} points={points} limits={limits} />
+      <div className="flex flex-col gap-2">
+        <HandInTable handIns={handIns} />
+        {pageInfo.total > pageInfo.pageSize ? <Pager pageInfo={pageInfo} /> : null}
+      </div>
       <MethodForm
         method={method}
         mayEdit={mayEdit}

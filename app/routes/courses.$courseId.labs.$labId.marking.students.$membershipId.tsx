@@ -12,6 +12,7 @@ import { CriterionMarks } from "~/components/marking/criterion-marks";
 import { HandInEvidence } from "~/components/marking/hand-in-evidence";
 import { markSaves } from "~/components/marking/mark-saves";
 import { useMarkSaver } from "~/components/marking/use-mark-saver";
+import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
 import { isEntityId } from "~/lib/forms/ids";
@@ -63,7 +64,7 @@ export default function MarkingStudentPage({ loaderData }: Route.ComponentProps)
   const navigate = useNavigate();
   const deskHref = markingDeskHref(courseId, lab.id);
   const studentHref = (membershipId: string) => markingStudentHref(courseId, lab.id, membershipId, search);
-  const [saves, dispatch] = useReducer(markSaves, {});
+  const [saves, dispatch] = useReducer(markSaves<MarkingDeskRow>, {});
   const { row, saveState, save, retry } = useMarkSaver({
     action: deskHref,
     rubric: lab.rubric,

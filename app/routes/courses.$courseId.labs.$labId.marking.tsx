@@ -1,8 +1,10 @@
 /**
  * The marking desk of a lab, for its instructors and the TAs of its cohorts: one criterion at a time
  * across the class. The criterion, the cohort, a hand-in state and the page travel in the URL and are
- * served by the loader; marks are saved card by card through fetchers (a save does not reload the
- * desk: its answer carries the student's new row), and a bulk action reloads it.
+ * served by the loader, which sends one page of compact cards and nothing that grows with the class
+ * (the next card to score beyond the page is asked for with `?after=`, a bulk action names the
+ * filters rather than every id); marks are saved card by card through fetchers (a save does not
+ * reload the desk: its answer carries the student's new card), and a bulk action reloads it.
  */
 import { data, Link, redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
@@ -14,14 +16,14 @@ import { ButtonLink } from "~/components/ui/button";
 import { counted } from "~/lib/plural";
 import { Notice } from "~/components/ui/notice";
 import { PageHeader } from "~/components/ui/page-header";
-import { markingDeskSearch, MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
+import { deskStatusFilters, markingDeskSearch, MAX_BULK_STUDENTS } from "~/lib/marking/desk-filters";
 import { AppError } from "~/lib/app-error";
 import { isEntityId } from "~/lib/forms/ids";
 import { markingStudentHref } from "~/lib/marking/links";
 import { markChange } from "~/lib/marking/marks";
 import { db } from "~/server/db.server";
 import { readSearchParams } from "~/server/http.server";
-import { loadMarkingDesk } from "~/server/marking/marking-desk.server";
+import { deskCardOf, loadMarkingDesk, selectedMembershipIds } from "~/server/marking/marking-desk.server";
 import { throwAsResponse } from "~/server/errors.server";
 import { applyToMany, saveMark } from "~/server/marking/marks.server";
 import { requireLabAccess } from "~/server/labs/lab-access.server";
@@ -56,16 +58,15 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
     cohorts: desk.cohorts,
     criterion: desk.criterion,
     criteria: desk.criteria,
-    rows: desk.rows,
+    cards: desk.rows.map((row) => deskCardOf(row, desk.criterion?.id ?? null)),
     bands: desk.bands,
-    groups: desk.groups,
+    groups: desk.groups.map((group) => ({ key: group.key, title: group.title, count: group.membershipIds.length })),
     counts: desk.counts,
     page: desk.page,
     pageCount: desk.pageCount,
     totalRows: desk.totalRows,
-    matchingIds: desk.matchingIds,
-    toMarkIds: desk.toMarkIds,
     openId: desk.openId,
+    noneToScore: desk.noneToScore,
     maxTotal: desk.maxTotal,
     canEdit: desk.canEdit,
     filters: { cohort: url.searchParams.get("cohort"), status: url.searchParams.get("status") },
@@ -73,11 +74,29 @@ export async function loader({ request, context, params }: Route.LoaderArgs) {
 }
 
 const reason = z.string().trim().max(500, "Keep the reason under 500 characters.").nullish();
+const someIds = z.array(z.uuid()).max(MAX_BULK_STUDENTS);
 const deskAction = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("save"), membershipId: z.uuid(), expectedVersion: z.int().min(0), change: markChange, reason }),
+  z.object({
+    intent: z.literal("save"),
+    membershipId: z.uuid(),
+    expectedVersion: z.int().min(0),
+    change: markChange,
+    reason,
+    /** The desk's cards answer as a card of the criterion they mark; the student's view takes the whole row. */
+    view: z.object({ criterionId: z.uuid() }).nullish(),
+  }),
   z.object({
     intent: z.literal("bulk"),
-    membershipIds: z.array(z.uuid()).min(1, "Select at least one student.").max(MAX_BULK_STUDENTS),
+    /** The desk's filters and what was chosen within them (see `DeskSelection`). */
+    selection: z.object({
+      criterionId: z.uuid(),
+      cohortId: z.uuid().nullish(),
+      status: z.enum(deskStatusFilters).nullish(),
+      all: z.boolean(),
+      bands: z.array(z.string().max(40)).max(20),
+      ids: someIds,
+      except: someIds,
+    }),
     change: markChange,
     reason,
   }),
@@ -113,12 +132,26 @@ export async function action({ request, context, params }: Route.ActionArgs) {
         change: input.change,
         reason: input.reason,
       });
-      return { intent: "save" as const, status: result.status, row: result.row };
+      const row = input.view ? deskCardOf(result.row, input.view.criterionId) : result.row;
+      return { intent: "save" as const, status: result.status, row };
     }
+    const { selection } = input;
+    // The students as the desk finds them now: those passing its filters that the selection takes.
+    const desk = await loadMarkingDesk(db, {
+      access,
+      lab,
+      filters: {
+        criterionId: selection.criterionId,
+        cohortId: selection.cohortId ?? undefined,
+        status: selection.status ?? undefined,
+        page: 1,
+        pageSize: 1,
+      },
+    });
     const result = await applyToMany(db, {
       access,
       labId: lab.id,
-      membershipIds: input.membershipIds,
+      membershipIds: selectedMembershipIds(desk, selection),
       change: input.change,
       reason: input.reason,
     });
@@ -211,12 +244,14 @@ export default function MarkingPage({ loaderData }: Route.ComponentProps) {
           {criterion ? (
             <MarkingDesk
               desk={{ courseId, labId: lab.id, kind: lab.kind, timeZone, rubric: lab.rubric, criterion, canEdit }}
-              rows={loaderData.rows}
+              cards={loaderData.cards}
               bands={loaderData.bands}
               groups={loaderData.groups}
-              matchingIds={loaderData.matchingIds}
-              toMarkIds={loaderData.toMarkIds}
+              totalRows={loaderData.totalRows}
+              filters={{ cohortId: filters.cohort, status: filters.status }}
               openId={loaderData.openId}
+              noneToScore={loaderData.noneToScore}
+              paged={loaderData.pageCount > 1}
             />
           ) : null}
           <Pages page={loaderData.page} pageCount={loaderData.pageCount} totalRows={loaderData.totalRows} />

@@ -9,6 +9,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { comparisonLabelChanges, comparisonLabels, kitParts, kits, labCohorts, labs, parts } from "~/db/schema";
 import type { CourseAccess } from "~/server/auth/access.server";
 import {
+  COMPARISON_TABLE_PAGE_SIZE,
   getLabComparison,
   loadComparisonLab,
   previewLabSettings,
@@ -300,11 +301,20 @@ describe("the comparison page", () => {
         members: quietClass(size).map((figure) => ({ figure })),
         label: `size${size}`,
       });
-      const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/comparison?label=consistent`, { cookie });
+      // The second page of the table, as its link (no JavaScript needed) asks for it.
+      const request = appRequest(`/courses/${fixture.courseId}/labs/${lab.id}/comparison?label=consistent&page=2`, { cookie });
       const { statements, result } = await countStatements(() =>
         loader({ request, params: { courseId: fixture.courseId, labId: lab.id }, context: new RouterContextProvider() } as never),
       );
-      expect(result.handIns).toHaveLength(size);
+      // The plots take every hand-in; the table one page of them.
+      expect(result.points).toHaveLength(size);
+      const onPage = size > COMPARISON_TABLE_PAGE_SIZE ? Math.min(size - COMPARISON_TABLE_PAGE_SIZE, COMPARISON_TABLE_PAGE_SIZE) : size;
+      expect(result.handIns).toHaveLength(onPage);
+      expect(result.pageInfo).toEqual({
+        page: size > COMPARISON_TABLE_PAGE_SIZE ? 2 : 1,
+        pageSize: COMPARISON_TABLE_PAGE_SIZE,
+        total: size,
+      });
       return statements;
     };
     const small = await statementsFor(10);

@@ -425,7 +425,9 @@ describe("the desk over HTTP", () => {
     expect(await refused.text()).toContain("Give between 0 and 4 points.");
     expect(await markCount(lab.id)).toBe(0);
 
-    const bulk = await post({ intent: "bulk", membershipIds, change: change(3) });
+    // The band by its key, as the desk names it: the server finds its students.
+    const selection = { criterionId: discussion.id, cohortId: null, status: null, all: false, bands: ["clean"], ids: [], except: [] };
+    const bulk = await post({ intent: "bulk", selection, change: change(3) });
     expect(bulk.status).toBe(200);
     expect(await markCount(lab.id)).toBe(6);
   });

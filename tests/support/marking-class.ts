@@ -1,7 +1,8 @@
 /**
  * A class to mark, written straight into the database in a constant number of bulk statements: the
- * comparison's class (users, memberships, drop logs, one version each) with a drop count in each
- * reduction, for the marking tests and benchmark. Figures and lateness are chosen by the caller.
+ * comparison's class (users, memberships, drop logs, one version each) with its drop times in each
+ * input and their count in each reduction, as a hand-in stores them, for the marking tests and
+ * benchmarks. Figures and lateness are chosen by the caller.
  */
 import { sql } from "drizzle-orm";
 import type { Executor } from "~/server/db.server";
@@ -31,7 +32,9 @@ export async function seedMarkingClass(
   const lateLogs = dropLogIds.filter((_, index) => late(index));
   const result = await executor.execute<{ drop_log_id: string; membership_id: string }>(sql`
     update drop_log_versions v
-    set reduction = jsonb_build_object('mode', 'drag', 'drops', jsonb_build_object('n', ${dropCount}::int, 'strayDrops', '[]'::jsonb)),
+    -- Times a hand stopwatch reads over a 20 cm column, the same for every student (the tests read their count, not their values).
+    set input = v.input || jsonb_build_object('drops', (select jsonb_agg(to_jsonb(to_char(4.1 + (i % 7) * 0.07, 'FM0.00'))) from generate_series(1, ${dropCount}::int) i)),
+      reduction = jsonb_build_object('mode', 'drag', 'drops', jsonb_build_object('n', ${dropCount}::int, 'strayDrops', '[]'::jsonb)),
       late = v.drop_log_id in (select value::uuid from json_array_elements_text(${JSON.stringify(lateLogs)}::json))
     from drop_logs d
     where d.id = v.drop_log_id and d.id in (select value::uuid from json_array_elements_text(${JSON.stringify(dropLogIds)}::json))

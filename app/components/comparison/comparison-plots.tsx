@@ -1,20 +1,15 @@
 /** The class comparison's plots: the lab's own curve (drag or viscometry) and the strip of normalised figures. */
 import { DragCurveChart, FigureStripChart, ViscometryChart, type ComparisonPoint } from "~/components/comparison/comparison-charts";
-import type { ComparisonJson } from "~/server/comparison/class-comparison.server";
+import { handInHref } from "~/lib/comparison/links";
+import type { ComparisonJson, PlotPoint } from "~/server/comparison/class-comparison.server";
 
-export function ComparisonPlots({ lab, handIns, limits }: Pick<ComparisonJson, "lab" | "handIns" | "limits">) {
-  const points: ComparisonPoint[] = handIns.map((handIn) => ({
-    id: handIn.dropLogId,
-    href: handIn.href,
-    studentName: handIn.student.name,
-    label: handIn.label,
-    figure: handIn.figure,
-    reynolds: handIn.reynolds,
-    dragCoefficient: handIn.dragCoefficient,
-    viscosityPaS: handIn.viscosityPaS,
-    referenceViscosityPaS: handIn.referenceViscosityPaS,
-    temperatureC: handIn.temperatureC,
-  }));
+export function ComparisonPlots({
+  courseId,
+  lab,
+  points: plotted,
+  limits,
+}: Pick<ComparisonJson, "lab" | "limits"> & { courseId: string; points: PlotPoint[] }) {
+  const points: ComparisonPoint[] = plotted.map((point) => ({ ...point, href: handInHref(courseId, lab.id, point.id) }));
   return (
     <section aria-labelledby="plots-heading" className="flex flex-col gap-8">
       <h2 id="plots-heading" className="text-lg font-semibold">

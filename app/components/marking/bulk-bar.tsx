@@ -1,8 +1,10 @@
 /**
  * One change for every selected student: a level or points of the criterion being marked (or another),
  * a late penalty, or a comment.
- * The server applies it in one transaction, all or nothing; the bar shows the work under way and what
- * came of it.
+ * The selection goes as the desk's filters and what was chosen among them (everything, whole bands,
+ * cards one by one, cards taken out), so that "every hand-in shown" never ships every student's id;
+ * the server finds the students and applies the change in one transaction, all or nothing. The bar
+ * shows the work under way and what came of it.
  */
 import { useEffect, useRef, useState } from "react";
 import { useFetcher, useLocation } from "react-router";
@@ -16,18 +18,30 @@ export type BulkResponse =
   | { intent: "bulk"; status: "refused"; error: { code: string; message: string; membershipIds: string[] } }
   | { status: "failed"; message: string };
 
+/** The selection as the bulk action takes it (see `DeskSelection`), with the filters it is made within and its size. */
+export type BulkTarget = {
+  criterionId: string;
+  cohortId: string | null;
+  status: string | null;
+  all: boolean;
+  bands: string[];
+  ids: string[];
+  except: string[];
+  count: number;
+};
+
 const control = "max-w-full rounded border border-ink-900/20 bg-white px-2 py-1.5 text-sm";
 
 export function BulkBar({
   rubric,
   criterion: marking,
-  selectedIds,
+  target,
   clear,
 }: {
   rubric: RubricCriterion[];
   /** The criterion the desk is marking: what the bar changes unless told otherwise. */
   criterion: RubricCriterion;
-  selectedIds: string[];
+  target: BulkTarget;
   clear: () => void;
 }) {
   const fetcher = useFetcher<BulkResponse>({ key: "bulk-marks" });
@@ -45,7 +59,8 @@ export function BulkBar({
     if (result && "intent" in result && result.status === "applied") clear();
   }, [result, clear]);
 
-  if (selectedIds.length === 0 && !busy && !result) return null;
+  const selected = target.count;
+  if (selected === 0 && !busy && !result) return null;
 
   const changeFor = (): MarkChange | string => {
     const number = typedPoints(value);
@@ -74,14 +89,15 @@ export function BulkBar({
           const change = changeFor();
           if (typeof change === "string") return setLocalError(change);
           setLocalError(null);
-          sentCount.current = selectedIds.length;
+          sentCount.current = selected;
+          const { count: _count, ...selection } = target;
           fetcher.submit(
-            { intent: "bulk", membershipIds: selectedIds, change, reason: reason.trim() || null },
+            { intent: "bulk", selection, change, reason: reason.trim() || null },
             { method: "post", action, encType: "application/json" },
           );
         }}
       >
-        <span className="self-center font-medium">{counted(selectedIds.length, "card", "cards")} selected</span>
+        <span className="self-center font-medium">{counted(selected, "card", "cards")} selected</span>
         <label className="flex min-w-0 max-w-full flex-col gap-1">
           <span>Change</span>
           <select className={control} value={what} onChange={(event) => (setWhat(event.target.value), setValue(""))}>
@@ -127,10 +143,10 @@ export function BulkBar({
         </label>
         <button
           type="submit"
-          disabled={busy || selectedIds.length === 0}
+          disabled={busy || selected === 0}
           className="rounded bg-ink-800 px-4 py-2 font-medium text-paper-50 hover:bg-ink-700 disabled:opacity-60"
         >
-          Apply to {counted(selectedIds.length, "card", "cards")}
+          Apply to {counted(selected, "card", "cards")}
         </button>
         <button type="button" onClick={clear} className="rounded px-3 py-2 underline">
           Clear the selection

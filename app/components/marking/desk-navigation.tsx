@@ -8,9 +8,9 @@ import type { DeskStatusFilter } from "~/lib/marking/desk-filters";
 import { stateFamilies, stateFamilyTitles, stateWords } from "~/lib/marking/status-words";
 import { counted } from "~/lib/plural";
 import type { MarkingDesk } from "~/server/marking/marking-desk.server";
-import { StateShapeIcon } from "./state-mark";
+import { StateShapeIcon, StateShapeSymbols } from "./state-mark";
 
-/** The current search with `key` set (or removed); a new choice starts at its first page, not at a student's card. */
+/** The current search with `key` set (or removed); a new choice starts at its first page, not at a student's card or the next to score. */
 function useWithParam() {
   const location = useLocation();
   return (key: string, value: string | null) => {
@@ -19,6 +19,7 @@ function useWithParam() {
     else params.delete(key);
     params.delete("page");
     params.delete("student");
+    params.delete("after");
     return `?${params}`;
   };
 }
@@ -101,6 +102,8 @@ export function StateLegend({
       aria-label="Show hand-ins by state"
       className="no-print flex flex-col gap-3 rounded-lg bg-paper-50 p-3 text-sm ring-1 ring-ink-900/10"
     >
+      {/* Once for the legend and every card of the desk. */}
+      <StateShapeSymbols />
       {cohorts.length > 1 ? (
         <label className="flex flex-col gap-1">
           <span className="text-xs font-medium text-ink-700">Cohort</span>
@@ -131,7 +134,7 @@ export function StateLegend({
                 entry(
                   state,
                   <>
-                    <StateShapeIcon state={state} />
+                    <StateShapeIcon state={state} shared />
                     <span title={stateWords[state].sentence}>{stateWords[state].word}</span>
                   </>,
                   counts[state],
@@ -151,6 +154,7 @@ export function Pages({ page, pageCount, totalRows }: { page: number; pageCount:
   const to = (target: number) => {
     const params = new URLSearchParams(location.search);
     params.delete("student");
+    params.delete("after");
     params.set("page", String(target));
     return `?${params}`;
   };

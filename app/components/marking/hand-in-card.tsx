@@ -4,17 +4,17 @@
  * The card saves itself as the marker works (see `mark-saves`): number keys on the focused card set a
  * level or points, 0 clears, and an entry the criterion cannot take is explained here, not sent.
  */
-import { useEffect, useState, type Dispatch, type KeyboardEvent } from "react";
+import { useCallback, useEffect, useMemo, useState, type Dispatch, type KeyboardEvent } from "react";
 import { Link, useLocation } from "react-router";
 import { ClassLabelTag } from "~/components/comparison/class-label";
 import { figure } from "~/components/drop-logs/reduction-summary";
 import { ExtendedTo } from "~/components/labs/extended-to";
+import { cardRow, type DeskCard, type DeskCardRow } from "~/lib/marking/desk-card";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import { markingStudentHref } from "~/lib/marking/links";
 import { handInStatesOf } from "~/lib/marking/status-words";
 import { counted } from "~/lib/plural";
 import { formatWithUncertainty } from "~/lib/round-to-uncertainty";
-import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
 import { OverrideForm } from "./auto-override";
 import { DropStrip } from "./drop-strip";
 import { PointsInput, SaveStatus } from "./mark-inputs";
@@ -32,13 +32,16 @@ export type CardDesk = {
   canEdit: boolean;
 };
 
-/** The whole points a criterion's keys can give directly: its levels, or a small whole range. */
+/**
+ * The whole points a criterion's keys can give directly: its levels, or a small whole range. A level's
+ * description is said once above the cards (`LevelLegend`), not on every card's key.
+ */
 function keysOf(criterion: RubricCriterion): { key: number; label: string; title: string }[] {
   if (criterion.kind === "levels")
     return (criterion.levels ?? []).map((level, index) => ({
       key: index + 1,
       label: `${index + 1}`,
-      title: `Level ${index + 1}, ${counted(level.points, "point", "points")}: ${level.description}`,
+      title: `Level ${index + 1}, ${counted(level.points, "point", "points")}`,
     }));
   if (criterion.kind === "range" && Number.isInteger(criterion.minPoints) && Number.isInteger(criterion.maxPoints))
     if (criterion.maxPoints <= 9)
@@ -66,9 +69,9 @@ export function HandInCard({
   onMove,
 }: {
   desk: CardDesk;
-  base: MarkingDeskRow;
-  saves: RowSaves | undefined;
-  dispatch: Dispatch<MarkSaveEvent>;
+  base: DeskCardRow;
+  saves: RowSaves<DeskCardRow> | undefined;
+  dispatch: Dispatch<MarkSaveEvent<DeskCardRow>>;
   index: number;
   selected: boolean;
   onSelect: (selected: boolean) => void;
@@ -78,14 +81,16 @@ export function HandInCard({
   const { criterion, canEdit } = desk;
   const location = useLocation();
   const action = location.pathname;
-  const { row, saveState, save, retry } = useMarkSaver({ action, rubric: desk.rubric, base, saves, dispatch });
+  const view = useMemo(() => ({ criterionId: criterion.id }), [criterion.id]);
+  const rowOf = useCallback((card: DeskCard) => cardRow(desk.rubric, card), [desk.rubric]);
+  const { row, saveState, save, retry } = useMarkSaver({ action, rubric: desk.rubric, base, saves, dispatch, view, rowOf });
   const [explanation, setExplanation] = useState<string | null>(null);
   // A mark changed elsewhere (a bulk action) answers whatever the last keystroke was told.
   useEffect(() => setExplanation(null), [base.expectedVersion]);
   const cell = row.cells[criterion.id];
   const keys = keysOf(criterion);
   const handIn = row.handIn;
-  const titleId = `card-${row.membershipId}`;
+  const titleId = `card-${index}-title`;
 
   const give = (points: number | null) => {
     setExplanation(null);
@@ -145,9 +150,8 @@ export function HandInCard({
           .forEach((card) => card !== event.currentTarget && (card.tabIndex = -1));
         event.currentTarget.tabIndex = 0;
       }}
-      className={`flex min-w-0 flex-col gap-2 rounded-lg bg-white p-3 text-sm shadow-sm ring-1 outline-offset-2 focus:outline-2 focus:outline-amber-500 ${
-        selected ? "ring-2 ring-ink-700" : "ring-ink-900/10"
-      }`}
+      className="desk-card"
+      data-selected={selected || undefined}
     >
       <header className="flex items-start gap-2">
         {canEdit ? (
@@ -169,19 +173,22 @@ export function HandInCard({
             </Link>
           </h3>
           <span className="text-xs text-ink-700">
-            {row.cohortName}
-            {handIn ? ` · version ${handIn.version}` : ""}
-            {handIn?.dropCount != null ? ` · ${counted(handIn.dropCount, "drop", "drops")}` : ""}
-            {handIn?.strayDropCount ? ` (${counted(handIn.strayDropCount, "stray", "strays")})` : ""}
+            {[
+              row.cohortName,
+              handIn ? ` · version ${handIn.version}` : "",
+              handIn?.dropCount != null ? ` · ${counted(handIn.dropCount, "drop", "drops")}` : "",
+              handIn?.strayDropCount ? ` (${counted(handIn.strayDropCount, "stray", "strays")})` : "",
+            ].join("")}
           </span>
-          <ExtendedTo deadline={row.deadline} timeZone={desk.timeZone} />
+          {row.deadline ? <ExtendedTo deadline={row.deadline} timeZone={desk.timeZone} /> : null}
         </div>
       </header>
 
       <ul className="flex flex-wrap gap-x-3 gap-y-1 text-xs text-ink-800" aria-label="State">
         {states.map((state) => (
           <li key={state}>
-            <StateMark state={state} explain />
+            {/* The desk's legend holds the shapes. */}
+            <StateMark state={state} explain shared />
           </li>
         ))}
       </ul>
@@ -220,7 +227,7 @@ export function HandInCard({
   );
 }
 
-function Flags({ row }: { row: MarkingDeskRow }) {
+function Flags({ row }: { row: DeskCardRow }) {
   const handIn = row.handIn!;
   const flags: React.ReactNode[] = [];
   if (row.classLabel)
@@ -235,15 +242,13 @@ function Flags({ row }: { row: MarkingDeskRow }) {
   if (row.handInChangedSinceMarked)
     flags.push(
       <span key="version">
-        {row.markedHandIn ? `scored on version ${row.markedHandIn.version}` : "scored before any hand-in"}; version {handIn.version} is
-        newer
+        {`${row.markedVersion ? `scored on version ${row.markedVersion}` : "scored before any hand-in"}; version ${handIn.version} is newer`}
       </span>,
     );
   if (row.resultChangedSinceMarked)
     flags.push(
       <span key="result" data-testid="result-changed">
-        result changed since it was marked: {figure(row.resultChangedSinceMarked.oldFigure, 3)} →{" "}
-        {figure(row.resultChangedSinceMarked.newFigure, 3)} × ref
+        {`result changed since it was marked: ${figure(row.resultChangedSinceMarked.oldFigure, 3)} → ${figure(row.resultChangedSinceMarked.newFigure, 3)} × ref`}
       </span>,
     );
   if (flags.length === 0) return null;
@@ -261,7 +266,7 @@ function CriterionKeys({
   cellLevel,
 }: {
   desk: CardDesk;
-  row: MarkingDeskRow;
+  row: DeskCardRow;
   keys: ReturnType<typeof keysOf>;
   give: (points: number | null) => void;
   save: ReturnType<typeof useMarkSaver>["save"];
@@ -286,14 +291,11 @@ function CriterionKeys({
           key={key.key}
           type="button"
           disabled={!canEdit}
-          title={key.title}
           aria-label={`${key.label}: ${key.title}`}
           aria-pressed={current === key.key}
           onClick={() => give(key.key)}
           tabIndex={-1}
-          className={`min-h-9 min-w-9 rounded-md px-2 font-medium tabular-nums ring-1 ${
-            current === key.key ? "bg-ink-800 text-paper-50 ring-ink-800" : "bg-paper-50 ring-ink-900/25 hover:bg-paper-100"
-          }`}
+          className="desk-key"
         >
           {key.label}
         </button>
@@ -309,10 +311,7 @@ function CriterionKeys({
           />
         ) : null
       ) : null}
-      <span className="text-xs text-ink-700">
-        {criterion.kind === "levels" && cellLevel ? `level ${cellLevel} · ` : ""}
-        {pointsWord}
-      </span>
+      <span className="text-xs text-ink-700">{`${criterion.kind === "levels" && cellLevel ? `level ${cellLevel} · ` : ""}${pointsWord}`}</span>
     </div>
   );
 }
@@ -325,7 +324,7 @@ function AutoScore({
   canEdit,
 }: {
   criterion: RubricCriterion;
-  row: MarkingDeskRow;
+  row: DeskCardRow;
   save: ReturnType<typeof useMarkSaver>["save"];
   canEdit: boolean;
 }) {
@@ -366,5 +365,20 @@ function AutoScore({
         )
       ) : null}
     </div>
+  );
+}
+
+/** A levels criterion's levels in words, once above the cards: each card's keys name only the level's number and points. */
+export function LevelLegend({ criterion }: { criterion: RubricCriterion }) {
+  if (criterion.kind !== "levels" || !criterion.levels?.length) return null;
+  return (
+    <ol aria-label={`The levels of “${criterion.title}”`} className="flex flex-col gap-0.5 text-sm text-ink-800">
+      {criterion.levels.map((level, index) => (
+        <li key={index}>
+          <kbd className="rounded bg-ink-900/5 px-1.5 font-mono text-xs">{index + 1}</kbd>
+          {` ${counted(level.points, "point", "points")}: ${level.description}`}
+        </li>
+      ))}
+    </ol>
   );
 }

@@ -8,8 +8,29 @@
  */
 import { AppError } from "~/lib/app-error";
 import { applyMarkChange, markProgress, markTotals, type MarkChange, type MarkContent } from "~/lib/marking/marks";
+import type { AutoSuggestion } from "~/lib/marking/automatic-criteria";
+import type { MarkScores, MarkTotals, MarkProgress } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
 import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
+
+/**
+ * What a save reads and rewrites of a row: a desk card (`DeskCardRow`) or a student's whole row on
+ * their marking view (`MarkingDeskRow`).
+ */
+export type SavableRow = {
+  membershipId: string;
+  expectedVersion: number;
+  mark: {
+    scores: MarkScores;
+    latePenaltyPoints: number;
+    feedback?: string;
+    releasedAt: string | null;
+    markedBy: { name: string } | null;
+  } | null;
+  suggestions: Record<string, AutoSuggestion>;
+  resultChangedSinceMarked: unknown;
+  progress: MarkProgress;
+} & Pick<MarkTotals, "cells" | "subtotal" | "total" | "complete">;
 
 /** One change as the marker made it, with the reason a released mark's change needs. */
 export type MarkEdit = { change: MarkChange; reason: string | null };
@@ -23,16 +44,16 @@ export type SaveState =
   | ({ status: "failed"; message: string; retryable: boolean } & MarkEdit);
 
 /** What the desk's action answers to one save; `failed` is the client action's word for a lost connection. */
-export type SaveResponse =
-  | { intent: "save"; status: "saved" | "conflict"; row: MarkingDeskRow }
+export type SaveResponse<Row extends SavableRow = MarkingDeskRow> =
+  | { intent: "save"; status: "saved" | "conflict"; row: Row }
   | { intent: "save"; status: "refused"; error: { code: string; message: string; field: string } }
   | { status: "failed"; message: string };
 
-export type RowSaves = {
+export type RowSaves<Row extends SavableRow = MarkingDeskRow> = {
   /** The row as the server last confirmed it: the version the next save names. */
-  confirmed: MarkingDeskRow;
+  confirmed: Row;
   /** The row on screen: the confirmed one with the changes not saved yet. */
-  shown: MarkingDeskRow;
+  shown: Row;
   /** The save on its way. A new object each time one is due, so the effect runner sends each once. */
   inFlight: (MarkEdit & { expectedVersion: number }) | null;
   /** Changes made while a save was on its way, sent one after another from the version it returns. */
@@ -43,20 +64,21 @@ export type RowSaves = {
 };
 
 /** The rows with saves of their own; a row not here shows what the loader read. */
-export type MarkSaves = Readonly<Record<string, RowSaves>>;
+export type MarkSaves<Row extends SavableRow = MarkingDeskRow> = Readonly<Record<string, RowSaves<Row>>>;
 
-export type MarkSaveEvent =
+export type MarkSaveEvent<Row extends SavableRow = MarkingDeskRow> =
   /** The loader read the row again (after a bulk action, or paging back). */
-  | { type: "loaded"; row: MarkingDeskRow }
-  | ({ type: "changed"; rubric: readonly RubricCriterion[]; base: MarkingDeskRow } & MarkEdit)
-  | { type: "answered"; membershipId: string; rubric: readonly RubricCriterion[]; response: SaveResponse }
+  | { type: "loaded"; row: Row }
+  | ({ type: "changed"; rubric: readonly RubricCriterion[]; base: Row } & MarkEdit)
+  | { type: "answered"; membershipId: string; rubric: readonly RubricCriterion[]; response: SaveResponse<Row> }
   | { type: "retried"; membershipId: string; rubric: readonly RubricCriterion[] };
 
-const contentOf = (row: MarkingDeskRow): MarkContent | null =>
-  row.mark ? { scores: row.mark.scores, feedback: row.mark.feedback, latePenaltyPoints: row.mark.latePenaltyPoints } : null;
+// A desk card has no feedback: it never changes it, and the server applies a change to the stored mark.
+const contentOf = (row: SavableRow): MarkContent | null =>
+  row.mark ? { scores: row.mark.scores, feedback: row.mark.feedback ?? "", latePenaltyPoints: row.mark.latePenaltyPoints } : null;
 
 /** The row as it will be once `change` is saved; throws an `AppError` for a value the rubric refuses. */
-export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskRow, change: MarkChange): MarkingDeskRow {
+export function withChange<Row extends SavableRow>(rubric: readonly RubricCriterion[], row: Row, change: MarkChange): Row {
   const content = applyMarkChange(rubric, contentOf(row), change, { released: row.mark?.releasedAt != null });
   const totals = markTotals(rubric, content, row.suggestions);
   const mark = row.mark
@@ -76,7 +98,7 @@ export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskR
         releasedAt: null,
         releasedSnapshot: null,
         reopenedAt: null,
-      } satisfies NonNullable<MarkingDeskRow["mark"]>);
+      } satisfies NonNullable<MarkingDeskRow["mark"]> as NonNullable<Row["mark"]>);
   // A save rests the mark on the result shown now, so a "result changed since it was marked" flag goes.
   return {
     ...row,
@@ -93,17 +115,24 @@ export function withChange(rubric: readonly RubricCriterion[], row: MarkingDeskR
 const idle: SaveState = { status: "idle" };
 
 /** What a row shows and how its save stands: its saves, or else the loader's `base` row. */
-export const rowView = (saves: RowSaves | undefined, base: MarkingDeskRow) => ({ row: saves?.shown ?? base, save: saves?.save ?? idle });
+export const rowView = <Row extends SavableRow>(saves: RowSaves<Row> | undefined, base: Row) => ({
+  row: saves?.shown ?? base,
+  save: saves?.save ?? idle,
+});
 
-const withRow = (saves: MarkSaves, membershipId: string, entry: RowSaves | undefined): MarkSaves => {
+const withRow = <Row extends SavableRow>(saves: MarkSaves<Row>, membershipId: string, entry: RowSaves<Row> | undefined): MarkSaves<Row> => {
   const next = { ...saves };
   if (entry) next[membershipId] = entry;
   else delete next[membershipId];
   return next;
 };
 
-function edit(rubric: readonly RubricCriterion[], entry: RowSaves, { change, reason }: MarkEdit): RowSaves {
-  let shown: MarkingDeskRow;
+function edit<Row extends SavableRow>(
+  rubric: readonly RubricCriterion[],
+  entry: RowSaves<Row>,
+  { change, reason }: MarkEdit,
+): RowSaves<Row> {
+  let shown: Row;
   try {
     shown = withChange(rubric, entry.shown, change);
   } catch (error) {
@@ -114,7 +143,11 @@ function edit(rubric: readonly RubricCriterion[], entry: RowSaves, { change, rea
   return { ...entry, shown, save: { status: "saving" }, inFlight: { change, reason, expectedVersion: entry.confirmed.expectedVersion } };
 }
 
-function answer(rubric: readonly RubricCriterion[], entry: RowSaves, response: SaveResponse): RowSaves {
+function answer<Row extends SavableRow>(
+  rubric: readonly RubricCriterion[],
+  entry: RowSaves<Row>,
+  response: SaveResponse<Row>,
+): RowSaves<Row> {
   const sent = entry.inFlight!;
   if ("intent" in response && response.status === "saved") {
     const [waiting, ...rest] = entry.queue;
@@ -140,7 +173,7 @@ function answer(rubric: readonly RubricCriterion[], entry: RowSaves, response: S
   return { ...entry, inFlight: null, queue: [], save: { status: "failed", message, retryable, change: sent.change, reason: sent.reason } };
 }
 
-export function markSaves(saves: MarkSaves, event: MarkSaveEvent): MarkSaves {
+export function markSaves<Row extends SavableRow>(saves: MarkSaves<Row>, event: MarkSaveEvent<Row>): MarkSaves<Row> {
   if (event.type === "loaded") {
     const entry = saves[event.row.membershipId];
     if (!entry) return saves;
@@ -151,7 +184,7 @@ export function markSaves(saves: MarkSaves, event: MarkSaveEvent): MarkSaves {
     return confirmed === entry.confirmed ? saves : withRow(saves, event.row.membershipId, { ...entry, confirmed });
   }
   if (event.type === "changed") {
-    const entry = saves[event.base.membershipId] ?? {
+    const entry: RowSaves<Row> = saves[event.base.membershipId] ?? {
       confirmed: event.base,
       shown: event.base,
       inFlight: null,
@@ -168,7 +201,7 @@ export function markSaves(saves: MarkSaves, event: MarkSaveEvent): MarkSaves {
   return withRow(saves, event.membershipId, { ...edit(event.rubric, entry, entry.save), retries: entry.retries + 1 });
 }
 
-function safeWithChange(rubric: readonly RubricCriterion[], row: MarkingDeskRow, change: MarkChange): MarkingDeskRow | null {
+function safeWithChange<Row extends SavableRow>(rubric: readonly RubricCriterion[], row: Row, change: MarkChange): Row | null {
   try {
     return withChange(rubric, row, change);
   } catch {

@@ -41,21 +41,49 @@ function Shape({ shape }: { shape: StateShape }) {
   }
 }
 
-/** The state's shape alone (decorative: the word beside it, or the title, names it). */
-export function StateShapeIcon({ state, className = "h-3.5 w-3.5" }: { state: HandInState; className?: string }) {
+const symbolId = (shape: StateShape) => `state-shape-${shape}`;
+
+/**
+ * Every state's shape once, as SVG symbols, for a page that draws many (the marking desk's legend
+ * holds them): its marks then refer to a shape (`shared`) instead of drawing it again on every card.
+ */
+export function StateShapeSymbols() {
+  const shapes = [...new Set(Object.values(stateWords).map((entry) => entry.shape))];
+  return (
+    <svg className="hidden" aria-hidden="true">
+      {shapes.map((shape) => (
+        <symbol key={shape} id={symbolId(shape)} viewBox="0 0 14 14">
+          <Shape shape={shape} />
+        </symbol>
+      ))}
+    </svg>
+  );
+}
+
+/** The state's shape alone (decorative: the word beside it, or the title, names it); `shared` refers to `StateShapeSymbols`. */
+export function StateShapeIcon({
+  state,
+  className = "h-3.5 w-3.5",
+  shared = false,
+}: {
+  state: HandInState;
+  className?: string;
+  shared?: boolean;
+}) {
+  const { shape } = stateWords[state];
   return (
     <svg viewBox="0 0 14 14" className={`shrink-0 ${className}`} aria-hidden="true">
-      <Shape shape={stateWords[state].shape} />
+      {shared ? <use href={`#${symbolId(shape)}`} /> : <Shape shape={shape} />}
     </svg>
   );
 }
 
 /** The shape and the word; the sentence as a tooltip and for screen readers when `explain` is set. */
-export function StateMark({ state, explain = false }: { state: HandInState; explain?: boolean }) {
+export function StateMark({ state, explain = false, shared = false }: { state: HandInState; explain?: boolean; shared?: boolean }) {
   const { word, sentence } = stateWords[state];
   return (
     <span className="inline-flex items-center gap-1 whitespace-nowrap" title={sentence}>
-      <StateShapeIcon state={state} />
+      <StateShapeIcon state={state} shared={shared} />
       {word}
       {explain ? <span className="sr-only">: {sentence}</span> : null}
     </span>

@@ -6,30 +6,35 @@ import { useCallback, useEffect, useRef, type Dispatch } from "react";
 import { useFetcher } from "react-router";
 import type { MarkChange } from "~/lib/marking/marks";
 import type { RubricCriterion } from "~/lib/marking/rubric";
-import type { MarkingDeskRow } from "~/server/marking/mark-rows.server";
-import { rowView, type MarkSaveEvent, type RowSaves, type SaveResponse } from "./mark-saves";
+import { rowView, type MarkSaveEvent, type RowSaves, type SavableRow, type SaveResponse } from "./mark-saves";
 
-export function useMarkSaver({
+export function useMarkSaver<Row extends SavableRow, Answered = Row>({
   action,
   rubric,
   base,
   saves,
   dispatch,
+  view,
+  rowOf,
 }: {
   action: string;
   rubric: readonly RubricCriterion[];
   /** The row as the page's loader last read it. */
-  base: MarkingDeskRow;
+  base: Row;
   /** This row's saves in the desk's `markSaves` state. */
-  saves: RowSaves | undefined;
-  dispatch: Dispatch<MarkSaveEvent>;
+  saves: RowSaves<Row> | undefined;
+  dispatch: Dispatch<MarkSaveEvent<Row>>;
+  /** Sent with each save: the desk's cards ask for their answer as a card of the criterion they mark. */
+  view?: { criterionId: string };
+  /** The row in an answer, as the page keeps it (a card gets its cells computed). */
+  rowOf?: (answered: Answered) => Row;
 }) {
   const { membershipId } = base;
-  const fetcher = useFetcher<SaveResponse>({ key: `mark:${membershipId}` });
+  const fetcher = useFetcher<SaveResponse<Row> | SaveResponse<Row & Answered>>({ key: `mark:${membershipId}` });
   const inFlight = saves?.inFlight ?? null;
   // A save already in flight when the row mounts was sent before it was last unmounted (paging away).
   const submitted = useRef(inFlight);
-  const handled = useRef<SaveResponse | undefined>(undefined);
+  const handled = useRef<unknown>(undefined);
 
   useEffect(() => dispatch({ type: "loaded", row: base }), [base, dispatch]);
 
@@ -37,18 +42,26 @@ export function useMarkSaver({
     if (!inFlight || inFlight === submitted.current) return;
     submitted.current = inFlight;
     fetcher.submit(
-      { intent: "save", membershipId, expectedVersion: inFlight.expectedVersion, change: inFlight.change, reason: inFlight.reason },
+      {
+        intent: "save",
+        membershipId,
+        expectedVersion: inFlight.expectedVersion,
+        change: inFlight.change,
+        reason: inFlight.reason,
+        view: view ?? null,
+      },
       { method: "post", action, encType: "application/json" },
     );
     // Each save the reducer puts in flight is sent once; `fetcher` changes identity as it submits.
-  }, [inFlight, membershipId, action]);
+  }, [inFlight, membershipId, action, view]);
 
   useEffect(() => {
     const response = fetcher.data;
     if (fetcher.state !== "idle" || !response || response === handled.current) return;
     handled.current = response;
-    dispatch({ type: "answered", membershipId, rubric, response });
-  }, [fetcher.state, fetcher.data, membershipId, rubric, dispatch]);
+    const answered = "row" in response && rowOf ? { ...response, row: rowOf(response.row as Answered) } : (response as SaveResponse<Row>);
+    dispatch({ type: "answered", membershipId, rubric, response: answered });
+  }, [fetcher.state, fetcher.data, membershipId, rubric, dispatch, rowOf]);
 
   const save = useCallback(
     (change: MarkChange, reason: string | null = null) => dispatch({ type: "changed", rubric, base, change, reason }),

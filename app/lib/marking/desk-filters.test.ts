@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { markingDeskSearch, markingDeskSearchParams } from "./desk-filters";
+import { DEFAULT_DESK_PAGE_SIZE, markingDeskSearch, markingDeskSearchParams } from "./desk-filters";
 
 describe("the desk's choices in the URL", () => {
   it("read back what they write, defaults left out", () => {
@@ -10,13 +10,14 @@ describe("the desk's choices in the URL", () => {
       page: 2,
       pageSize: 100,
       studentId: undefined,
+      afterId: undefined,
     };
     const params = markingDeskSearchParams(filters);
     expect(params.toString()).toBe(
       "criterion=00000000-0000-4000-8000-000000000002&cohort=00000000-0000-4000-8000-000000000001&status=after-due&page=2&pageSize=100",
     );
     expect(markingDeskSearch.parse(Object.fromEntries(params))).toEqual(filters);
-    expect(markingDeskSearchParams({ page: 1, pageSize: 30 }).toString()).toBe("");
+    expect(markingDeskSearchParams({ page: 1, pageSize: DEFAULT_DESK_PAGE_SIZE }).toString()).toBe("");
   });
 
   it("refuse values they do not know, and pages no desk has", () => {
@@ -37,8 +38,9 @@ describe("the desk's choices in the URL", () => {
       cohortId: undefined,
       status: undefined,
       page: 1,
-      pageSize: 30,
+      pageSize: DEFAULT_DESK_PAGE_SIZE,
       studentId: undefined,
+      afterId: undefined,
     });
   });
 });

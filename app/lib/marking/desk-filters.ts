@@ -20,8 +20,10 @@ export type MarkingDeskFilters = {
   /** 1-based. */
   page: number;
   pageSize: number;
-  /** A student whose card to show: the page shown is theirs (the desk's "next to score" key goes here). */
+  /** A student whose card to show: the page shown is theirs. */
   studentId?: string;
+  /** "Next to score": the page and card of the first student after this one still to score on the criterion. */
+  afterId?: string;
 };
 
 /**
@@ -37,14 +39,17 @@ export const isToScoreFor = (
   criterionId: string,
 ) => row.handIn !== null && (row.cells[criterionId]?.points == null || row.needsRemarking);
 
-/** Cards per page: a class of 45 fits on two light pages, each card carrying only its drop times and key figures. */
-export const DEFAULT_DESK_PAGE_SIZE = 30;
+/**
+ * Cards per page: a screenful at a time (four rows of four on a laptop), so that a page weighs the same for 45 students or
+ * 2,000 (each card carrying only its drop times, key figures and the criterion's score).
+ */
+export const DEFAULT_DESK_PAGE_SIZE = 16;
 export const MAX_DESK_PAGE_SIZE = 200;
 /** Most students one bulk action may name. */
 export const MAX_BULK_STUDENTS = 5000;
 
 /**
- * The desk's choices from the URL (`?criterion=…&cohort=…&status=after-due&page=2&pageSize=50`), as
+ * The desk's choices from the URL (`?criterion=…&cohort=…&status=after-due&page=2&pageSize=50`, or `&after=…` for the next card to score), as
  * `MarkingDeskFilters`. A value it does not know is refused (the loader answers 400), never guessed at.
  */
 export const markingDeskSearch = z
@@ -55,6 +60,7 @@ export const markingDeskSearch = z
     page: pageNumber.default(1),
     pageSize: z.coerce.number().int().min(1).max(MAX_DESK_PAGE_SIZE).default(DEFAULT_DESK_PAGE_SIZE),
     student: z.uuid().optional(),
+    after: z.uuid().optional(),
   })
   .transform((parsed): MarkingDeskFilters => ({
     criterionId: parsed.criterion,
@@ -63,6 +69,7 @@ export const markingDeskSearch = z
     page: parsed.page,
     pageSize: parsed.pageSize,
     studentId: parsed.student,
+    afterId: parsed.after,
   }));
 
 /** The search string for filters (defaults left out), the inverse of `markingDeskSearch`. */
@@ -74,5 +81,6 @@ export function markingDeskSearchParams(filters: Partial<MarkingDeskFilters>): U
   if (filters.page && filters.page > 1) params.set("page", String(filters.page));
   if (filters.pageSize && filters.pageSize !== DEFAULT_DESK_PAGE_SIZE) params.set("pageSize", String(filters.pageSize));
   if (filters.studentId) params.set("student", filters.studentId);
+  if (filters.afterId) params.set("after", filters.afterId);
   return params;
 }

@@ -265,6 +265,31 @@ export function comparisonJson(comparison: LabComparison) {
 }
 export type ComparisonJson = ReturnType<typeof comparisonJson>;
 
+/** Rows of the comparison page's hand-in table per page; its plots and counts cover every hand-in shown. */
+export const COMPARISON_TABLE_PAGE_SIZE = 25;
+
+const plotted = (value: number | null) => (value === null ? null : Number(value.toPrecision(6)));
+
+/**
+ * The hand-ins as the page's plots draw them: every one that passes the filters, with only what a
+ * marker and its tooltip show, at six significant digits (more than a plot can resolve). The link
+ * to each hand-in is made on the page from its drop log's id.
+ */
+export function plotPointsOf(handIns: ComparisonJson["handIns"]) {
+  return handIns.map((handIn) => ({
+    id: handIn.dropLogId,
+    studentName: handIn.student.name,
+    label: handIn.label,
+    figure: plotted(handIn.figure)!,
+    reynolds: plotted(handIn.reynolds),
+    dragCoefficient: plotted(handIn.dragCoefficient),
+    viscosityPaS: plotted(handIn.viscosityPaS),
+    referenceViscosityPaS: plotted(handIn.referenceViscosityPaS),
+    temperatureC: plotted(handIn.temperatureC),
+  }));
+}
+export type PlotPoint = ReturnType<typeof plotPointsOf>[number];
+
 export type LabComparison = {
   lab: ComparisonLab;
   description: string;

@@ -7,6 +7,7 @@
  * by side.
  */
 import { orderForCriterion, type Band } from "~/lib/marking/criterion-order";
+import type { DeskCard } from "~/lib/marking/desk-card";
 import {
   deskStatusFilters,
   isToMark,
@@ -35,6 +36,12 @@ export {
 /** A band of the criterion's order, with every student in it on every page: what "the whole group" selects. */
 export type DeskGroup = Band & { membershipIds: string[] };
 
+/**
+ * Which students a bulk action takes, as the desk's page knows them without holding every id: every
+ * student passing the filters (`all`), whole bands, students picked one by one, minus those taken out.
+ */
+export type DeskSelection = { all: boolean; bands: string[]; ids: string[]; except: string[] };
+
 /** A criterion as the switcher shows it: how many of the hand-ins shown have its points. */
 export type CriterionProgress = Pick<RubricCriterion, "id" | "title" | "kind" | "maxPoints"> & { scored: number; handedIn: number };
 
@@ -52,12 +59,17 @@ export type MarkingDesk = {
   groups: DeskGroup[];
   /** Rows passing the filters (all pages). */
   totalRows: number;
-  /** Every student passing the filters, on every page, in order: what "select all that match" selects. */
+  /**
+   * Every student passing the filters, on every page, in order, and those of them still to score on this
+   * criterion: for the server (a selection, a student's place in the order), never sent to the page,
+   * whose weight must not grow with the class.
+   */
   matchingIds: string[];
-  /** Those of them still to score on this criterion, in the same order: where the "next to score" key goes beyond this page. */
   toMarkIds: string[];
-  /** The student asked for in the URL, when they pass the filters: their card takes the focus. */
+  /** The student asked for (or the next to score after the one named by `afterId`), when they pass the filters: their card takes the focus. */
   openId: string | null;
+  /** `afterId` was given and no other hand-in passing the filters is still to score on this criterion. */
+  noneToScore: boolean;
   page: number;
   pageSize: number;
   pageCount: number;
@@ -124,7 +136,19 @@ export async function loadMarkingDesk(
   }));
   const pageSize = Math.min(Math.max(1, Math.floor(filters.pageSize)), MAX_DESK_PAGE_SIZE);
   const pageCount = Math.max(1, Math.ceil(ordered.rows.length / pageSize));
-  const asked = filters.studentId ? ordered.rows.findIndex((entry) => entry.row.membershipId === filters.studentId) : -1;
+  // Without a rubric there is no criterion to score, but a hand-in still waits for its mark.
+  const toScore = (row: MarkingDeskRow) => (criterion ? isToScoreFor(row, criterion.id) : isToMark(row));
+  const indexOf = (membershipId: string | undefined) =>
+    membershipId ? ordered.rows.findIndex((entry) => entry.row.membershipId === membershipId) : -1;
+  const from = indexOf(filters.afterId);
+  // "Next to score": the first after `afterId` in the desk's order, wrapping round, never that card itself.
+  const next = filters.afterId
+    ? [...ordered.rows.keys()]
+        .map((step) => (from + 1 + step) % ordered.rows.length)
+        .find((index) => index !== from && toScore(ordered.rows[index].row))
+    : undefined;
+  const noneToScore = filters.afterId !== undefined && next === undefined;
+  const asked = filters.afterId ? (next ?? from) : indexOf(filters.studentId);
   const page = asked >= 0 ? Math.floor(asked / pageSize) + 1 : Math.min(Math.max(1, Math.floor(filters.page)), pageCount);
   const shown = ordered.rows.slice((page - 1) * pageSize, page * pageSize);
   return {
@@ -137,16 +161,74 @@ export async function loadMarkingDesk(
     groups,
     totalRows: ordered.rows.length,
     matchingIds: ordered.rows.map((entry) => entry.row.membershipId),
-    // Without a rubric there is no criterion to score, but a hand-in still waits for its mark.
-    toMarkIds: ordered.rows
-      .filter((entry) => (criterion ? isToScoreFor(entry.row, criterion.id) : isToMark(entry.row)))
-      .map((entry) => entry.row.membershipId),
+    toMarkIds: ordered.rows.filter((entry) => toScore(entry.row)).map((entry) => entry.row.membershipId),
     openId: asked >= 0 ? ordered.rows[asked].row.membershipId : null,
+    noneToScore,
     page,
     pageSize,
     pageCount,
     counts,
     maxTotal: maxTotalOf(lab.rubric),
     canEdit: access.membership.role === "instructor" || lab.marking.readyAt === null,
+  };
+}
+
+/** The students of `desk` that `selection` takes, in the desk's order: only those passing its filters. */
+export function selectedMembershipIds(desk: Pick<MarkingDesk, "groups" | "matchingIds">, selection: DeskSelection): string[] {
+  const bands = new Set(selection.bands);
+  const inBands = new Set(desk.groups.filter((group) => bands.has(group.key)).flatMap((group) => group.membershipIds));
+  const picked = new Set(selection.ids);
+  const except = new Set(selection.except);
+  return desk.matchingIds.filter((id) => (selection.all || inBands.has(id) || picked.has(id)) && !except.has(id));
+}
+
+/** Shown figures keep six significant digits: more than any card prints, far fewer bytes than a double's seventeen. */
+const shown = (value: number | null) => (value === null ? null : Number(value.toPrecision(6)));
+
+/** `row` as a desk card for marking `criterionId` (see `DeskCard`). */
+export function deskCardOf(row: MarkingDeskRow, criterionId: string | null): DeskCard {
+  const { handIn, mark } = row;
+  return {
+    membershipId: row.membershipId,
+    studentName: row.studentName,
+    cohortName: row.cohortName,
+    deadline: row.deadline.extendedBy ? row.deadline : null,
+    status: row.status,
+    handIn: handIn && {
+      version: handIn.version,
+      dropCount: handIn.dropCount,
+      strayDropCount: handIn.strayDropCount,
+      dropTimes: handIn.dropTimes,
+      strayDrops: handIn.strayDrops,
+      warningCount: handIn.warningCount,
+      kitNotAtHome: handIn.kitNotAtHome,
+      figure: shown(handIn.figure),
+      figureExpanded: shown(handIn.figureExpanded),
+      dragCoefficient: shown(handIn.dragCoefficient),
+      reynolds: shown(handIn.reynolds),
+      viscosityPaS: shown(handIn.viscosityPaS),
+    },
+    markedVersion: row.handInChangedSinceMarked ? (row.markedHandIn?.version ?? null) : null,
+    classLabel: row.classLabel,
+    flagged: row.flagged,
+    mark: mark && {
+      scores: mark.scores,
+      latePenaltyPoints: mark.latePenaltyPoints,
+      releasedAt: mark.releasedAt,
+      markedBy: mark.markedBy && { name: mark.markedBy.name },
+    },
+    expectedVersion: row.expectedVersion,
+    suggestions: Object.fromEntries(
+      Object.entries(row.suggestions).map(([id, suggestion]) => [
+        id,
+        id === criterionId ? suggestion : { points: suggestion.points, reason: "" },
+      ]),
+    ),
+    handInChangedSinceMarked: row.handInChangedSinceMarked,
+    needsRemarking: row.needsRemarking,
+    resultChangedSinceMarked: row.resultChangedSinceMarked && {
+      oldFigure: shown(row.resultChangedSinceMarked.oldFigure),
+      newFigure: shown(row.resultChangedSinceMarked.newFigure),
+    },
   };
 }
