@@ -71,7 +71,7 @@ export function DropLogForm({
   const handInButton = { type: "submit", name: "intent", value: "hand-in", disabled: !canHandIn || handingIn } as const;
 
   return (
-    <Form method="post" className="flex flex-col gap-5" aria-labelledby="drop-log-heading">
+    <Form method="post" className="flex flex-col gap-5" aria-labelledby="drop-log-heading" onSubmit={draftSave.cancel}>
       {/* The form's default button, first in it: Enter in a field hands in, never the row buttons below. */}
       <button {...handInButton} className="sr-only" tabIndex={-1} aria-hidden="true">
         Hand in
