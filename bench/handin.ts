@@ -6,162 +6,34 @@
  * the server, this load client and the rest of the machine used (they share the cores), then checks
  * that every accepted hand-in is stored exactly once. Bounded: 600 requests, 60 s.
  */
-import { spawn, spawnSync } from "node:child_process";
-import { randomUUID } from "node:crypto";
-import { existsSync, readdirSync, statSync } from "node:fs";
-import { mkdtemp, rm } from "node:fs/promises";
-import { tmpdir } from "node:os";
-import path from "node:path";
-import { freePort, waitForHealth } from "../tests/support/app-server";
-import { bin } from "../scripts/lib/processes";
-import { startCpuAccount, createBenchDatabase } from "./support";
+import { sql } from "drizzle-orm";
+import {
+  buildAppIfChanged,
+  createBenchDatabase,
+  dropTimes,
+  postHandIn,
+  seedDeadlineClass,
+  startAppServer,
+  startCpuAccount,
+  type BenchStudent,
+} from "./support";
 
 const STUDENTS = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
 const OVERALL_DEADLINE_MS = 60_000;
 
-// A build older than the code would measure the code as it was: build again whenever app/ has changed since
-// (the demo build, which the test suites also use).
-const builtAt = existsSync("build/web.js") ? statSync("build/web.js").mtimeMs : 0;
-const appChanged = readdirSync("app", { recursive: true, encoding: "utf8" }).some((file) => statSync(`app/${file}`).mtimeMs > builtAt);
-if (appChanged) {
-  console.log("Building the app…");
-  if (spawnSync(process.execPath, [bin.tsx, "scripts/build.ts", "--demo"], { stdio: "inherit" }).status !== 0)
-    throw new Error("The build failed.");
-}
-
+buildAppIfChanged();
 const bench = await createBenchDatabase();
-const { sql } = await import("drizzle-orm");
 const { db } = await import("~/server/db.server");
-const schema = await import("~/db/schema");
-const { insertMany } = await import("~/server/bulk-insert.server");
-const { createSession, SESSION_COOKIE } = await import("~/server/auth/session.server");
 
 // The class: one course, one cohort, a published lab due in ten minutes, a kit per student.
-const label = `bench-${randomUUID().slice(0, 8)}`;
-const [course] = await db
-  .insert(schema.courses)
-  .values({ title: "Deadline rush", code: label, term: "Bench", timeZone: "UTC" })
-  .returning();
-const [cohort] = await db.insert(schema.cohorts).values({ courseId: course.id, name: "Everyone" }).returning();
-const [lab] = await db
-  .insert(schema.labs)
-  .values({
-    courseId: course.id,
-    title: "Drag on a settling sphere",
-    kind: "drag",
-    status: "published",
-    opensAt: new Date(Date.now() - 86_400_000),
-    dueAt: new Date(Date.now() + 600_000),
-    resolutions: { diameterMm: 0.01, massG: 0.001, distanceMm: 1, timeS: 0.01, temperatureC: 0.5 },
-    publishedAt: new Date(),
-  })
-  .returning();
-await db.insert(schema.labCohorts).values({ labId: lab.id, cohortId: cohort.id });
-const [fluidLot] = await db
-  .insert(schema.parts)
-  .values({
-    courseId: course.id,
-    kind: "fluid_lot",
-    label: "GLY-B",
-    fluidName: "glycerol",
-    densityKgM3: 1260,
-    calibration: [
-      { temperatureC: 20, viscosityPaS: 1.41 },
-      { temperatureC: 25, viscosityPaS: 0.94 },
-    ],
-  })
-  .returning();
-const students = Array.from({ length: STUDENTS }, (_, index) => ({
-  index,
-  userId: randomUUID(),
-  membershipId: randomUUID(),
-  kitId: randomUUID(),
-  sphereId: randomUUID(),
-  columnId: randomUUID(),
-}));
-await insertMany(
-  db,
-  schema.users,
-  students.map((s) => ({ id: s.userId, email: `student${s.index}@${label}.example`, name: `Student ${s.index}` })),
-);
-await insertMany(
-  db,
-  schema.courseMemberships,
-  students.map((s) => ({ id: s.membershipId, courseId: course.id, userId: s.userId, role: "student" as const, cohortId: cohort.id })),
-);
-// Two inserts: every row of an insertMany must name the same columns.
-await insertMany(
-  db,
-  schema.parts,
-  students.map((s) => ({
-    id: s.sphereId,
-    courseId: course.id,
-    kind: "sphere" as const,
-    label: `S-${s.index}`,
-    material: "steel",
-    diameterMm: 3,
-    massG: 0.11,
-  })),
-);
-await insertMany(
-  db,
-  schema.parts,
-  students.map((s) => ({
-    id: s.columnId,
-    courseId: course.id,
-    kind: "column" as const,
-    label: `C-${s.index}`,
-    innerDiameterMm: 40,
-    timedDistanceMm: 200,
-    runInMm: 100,
-  })),
-);
-await insertMany(
-  db,
-  schema.kits,
-  students.map((s) => ({
-    id: s.kitId,
-    courseId: course.id,
-    number: `K-${s.index}`,
-    state: "at_home" as const,
-    holderMembershipId: s.membershipId,
-  })),
-);
-await insertMany(db, schema.kitParts, [
-  ...students.flatMap((s) => [
-    { kitId: s.kitId, partId: s.sphereId, exclusive: true },
-    { kitId: s.kitId, partId: s.columnId, exclusive: true },
-  ]),
-  ...students.map((s) => ({ kitId: s.kitId, partId: fluidLot.id, exclusive: false })),
-]);
-const cookies = new Map<number, string>();
-for (const s of students) {
-  const { token } = await createSession(db, s.userId, new Request("http://127.0.0.1/"));
-  cookies.set(s.index, `${SESSION_COOKIE}=${token}`);
-}
-
-// The server: the node binary itself (so the PID is the server's), loopback only. A production
-// process needs its photo bucket, though no hand-in here sends a photo: the local fake's.
-const { startFakeS3, FAKE_S3_BUCKET } = await import("~/server/storage/fake-s3.server");
-const s3Objects = await mkdtemp(path.join(tmpdir(), "benchpost-bench-s3-"));
-const s3 = await startFakeS3({ port: 0, directory: s3Objects, bucket: FAKE_S3_BUCKET });
-const port = await freePort();
-const baseUrl = `http://127.0.0.1:${port}`;
-const server = spawn(process.execPath, ["build/web.js"], {
-  env: {
-    ...process.env,
-    NODE_ENV: "production",
-    PORT: String(port),
-    HOST: "127.0.0.1",
-    APP_URL: baseUrl,
-    TRUST_PROXY: "0",
-    DATABASE_URL: bench.url,
-    SMTP_URL: "smtp://127.0.0.1:1025",
-    ...s3.environment,
-  },
-  stdio: ["ignore", "ignore", "inherit"],
-});
+const {
+  label,
+  labs: [lab],
+  students,
+} = await seedDeadlineClass({ students: STUDENTS, dueInMs: 600_000 });
+const server = await startAppServer(bench.url);
+const { baseUrl } = server;
 
 type Outcome = {
   student: number;
@@ -175,49 +47,25 @@ type Outcome = {
 const outcomes: Outcome[] = [];
 const deadline = Date.now() + OVERALL_DEADLINE_MS;
 
-async function handIn(student: (typeof students)[number], key: string, drops: number[]): Promise<void> {
+async function handIn(student: BenchStudent, key: string, drops: number[]): Promise<void> {
   if (Date.now() > deadline) throw new Error("The benchmark ran past its 60 s bound.");
   const started = performance.now();
-  const response = await fetch(`${baseUrl}/api/v1/labs/${lab.id}/drop-logs`, {
-    method: "POST",
-    headers: { Cookie: cookies.get(student.index)!, Origin: baseUrl, "Content-Type": "application/json", "Idempotency-Key": key },
-    body: JSON.stringify({ sphereId: student.sphereId, temperatureC: 21.5, drops }),
-    signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS),
-  });
-  const body = (await response.json().catch(() => null)) as {
-    version?: { id: string };
-    duplicate?: boolean;
-    error?: { code: string };
-  } | null;
-  outcomes.push({
-    student: student.index,
-    key,
-    status: response.status,
-    versionId: body?.version?.id ?? null,
-    duplicate: body?.duplicate ?? null,
-    error: body?.error?.code ?? null,
-    ms: performance.now() - started,
-  });
+  const answer = await postHandIn(baseUrl, { labId: lab.id, student, key, drops, signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS) });
+  outcomes.push({ student: student.index, key, ...answer, ms: performance.now() - started });
 }
 
 const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
 let failed = false;
 try {
-  await waitForHealth(baseUrl, server);
-  const cpuAccount = startCpuAccount(server.pid!);
+  const cpuAccount = startCpuAccount(server.process.pid!);
   const started = performance.now();
   // Every student at once; each one's own requests in order, as one phone would send them.
   await Promise.all(
     students.map(async (student) => {
-      const drops = Array.from({ length: 10 }, (_, drop) => Number((7.45 + (((student.index * 7 + drop * 3) % 11) - 5) * 0.01).toFixed(2)));
       const first = `${label}-${student.index}-a`;
-      await handIn(student, first, drops);
-      await handIn(student, first, drops);
-      await handIn(
-        student,
-        `${label}-${student.index}-b`,
-        drops.map((time) => Number((time + 0.02).toFixed(2))),
-      );
+      await handIn(student, first, dropTimes(student.index));
+      await handIn(student, first, dropTimes(student.index));
+      await handIn(student, `${label}-${student.index}-b`, dropTimes(student.index, 1));
     }),
   );
   const seconds = (performance.now() - started) / 1000;
@@ -260,10 +108,7 @@ try {
   for (const [name, ok] of checks) console.log(`${ok ? "PASS" : "FAIL"} ${name}`);
   failed = checks.some(([, ok]) => !ok);
 } finally {
-  server.kill("SIGTERM");
-  await new Promise((resolve) => (server.exitCode !== null ? resolve(null) : server.once("exit", resolve)));
-  await s3.close();
-  await rm(s3Objects, { recursive: true, force: true });
+  await server.stop();
   await bench.drop();
 }
 if (failed) process.exitCode = 1;
