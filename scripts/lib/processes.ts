@@ -39,6 +39,7 @@ export function startService(name: string, script: string, args: string[], env: 
 
 export const bin = {
   reactRouter: "node_modules/@react-router/dev/bin.js",
+  reactRouterServe: "node_modules/@react-router/serve/bin.js",
   tsc: "node_modules/typescript/bin/tsc",
   vitest: "node_modules/vitest/vitest.mjs",
   tsx: "node_modules/tsx/dist/cli.mjs",

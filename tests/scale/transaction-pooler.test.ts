@@ -20,6 +20,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import { dropTimes } from "../support/drop-times";
 import type { HandInClass, HandInStudent } from "../support/hand-in-class";
 import { PRODUCTION_CHECK_DIRECTORY } from "../../scripts/lib/build";
 import { type PgBouncer, ensurePgBouncer, startPgBouncer } from "../../scripts/lib/pgbouncer";
@@ -245,7 +246,7 @@ describe("behind PgBouncer in transaction mode", () => {
       await Promise.all(
         klass.students.map(async (student) => {
           const [first, other] = [webs[student.index % 2], webs[(student.index + 1) % 2]];
-          const drops = app.handInClass.dropTimes(student.index);
+          const drops = dropTimes(student.index);
           const key = keyOf(student, "a");
           // An answer lost on the way back: the phone sends again, to whichever replica, before the first is done.
           outcomes.push(...(await Promise.all([handIn(first, student, key, drops), handIn(other, student, key, drops)])));

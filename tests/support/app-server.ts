@@ -14,12 +14,13 @@ export function freePort(): Promise<number> {
   });
 }
 
-export async function waitForHealth(baseUrl: string, server: ChildProcess): Promise<void> {
+/** Polls `path` (the app's health check, or any page of another server) until it answers 2xx. */
+export async function waitForHealth(baseUrl: string, server: ChildProcess, path = "/healthz"): Promise<void> {
   const deadline = Date.now() + 30_000;
   while (Date.now() < deadline) {
     if (server.exitCode !== null) throw new Error(`The app server exited with code ${server.exitCode}`);
     try {
-      if ((await fetch(`${baseUrl}/healthz`)).ok) return;
+      if ((await fetch(`${baseUrl}${path}`)).ok) return;
     } catch {
       // not listening yet
     }
