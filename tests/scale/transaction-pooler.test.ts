@@ -325,7 +325,8 @@ describe("behind PgBouncer in transaction mode", () => {
       headers: { ...headers, "Content-Type": "application/json" },
       body: JSON.stringify({
         intent: "bulk",
-        membershipIds: klass.students.map((student) => student.membershipId),
+        // Every hand-in the desk shows for the criterion, on all its pages: the class.
+        selection: { criterionId: criterion.id, cohortId: null, status: null, all: true, bands: [], ids: [], except: [] },
         change: { kind: "score", criterionId: criterion.id, level: 2 },
       }),
       signal: AbortSignal.timeout(WAIT_MS),
