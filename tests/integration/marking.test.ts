@@ -28,7 +28,7 @@ import { db } from "~/server/db.server";
 import { listFailedEmails } from "~/server/email/failed-emails.server";
 import { handInDropLog, loadStudentLab } from "~/server/drop-logs/hand-in.server";
 import { loadMarkLines, loadMarkSummary, loadMarksJson } from "~/server/marking/mark-export.server";
-import { loadMarkingDesk, markingDeskSearch, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
+import { loadMarkingDesk, markingDeskSearch, selectedMembershipIds, type MarkingDeskFilters } from "~/server/marking/marking-desk.server";
 import { loadMarkingLab, type MarkingLab } from "~/server/marking/marking-lab.server";
 import { applyToMany, markingLock, saveMark, saveMarkCell } from "~/server/marking/marks.server";
 import { listMarkChanges, loadModeration, markLabReady, releaseMarks } from "~/server/marking/moderation.server";
@@ -618,6 +618,14 @@ describe("cohorts", () => {
     expect(seen).not.toContain(fixture.membershipIds.otherCohortStudent);
     expect(desk.rows.every((row) => row.cohortId === fixture.cohortId)).toBe(true);
     expect(desk.cohorts.map((cohort) => cohort.id)).toEqual([fixture.cohortId]);
+    // The addresses the desk makes name students too: "next after" another cohort's student opens none of
+    // theirs, and a bulk "everything shown", even with that student named by hand, takes only the TA's own.
+    const after = await loadMarkingDesk(db, { access: ta, lab, filters: page({ afterId: fixture.membershipIds.otherCohortStudent }) });
+    expect(after.rows.map((row) => row.membershipId)).not.toContain(fixture.membershipIds.otherCohortStudent);
+    expect(after.openId).not.toBe(fixture.membershipIds.otherCohortStudent);
+    const chosen = selectedMembershipIds(desk, { all: true, bands: [], ids: [fixture.membershipIds.otherCohortStudent], except: [] });
+    expect(chosen).toContain(fixture.membershipIds.ownStudent);
+    expect(chosen).not.toContain(fixture.membershipIds.otherCohortStudent);
     // Filtering for another cohort is a URL made by hand: refused as bad input (400), nothing shown.
     expect(await refusal(loadMarkingDesk(db, { access: ta, lab, filters: page({ cohortId: fixture.otherCohortId }) }))).toMatchObject({
       code: "invalid_value",
