@@ -129,7 +129,8 @@ let lastRead: { values: string; environment: Environment } | null = null;
  * request asks (zod's parse of them all showed in the hand-in benchmark's profile).
  */
 export function environment(): Environment {
-  const values = names.map((name) => process.env[name] ?? "").join("\0");
+  // Unset reads apart from empty: the schema may treat them differently.
+  const values = names.map((name) => (name in process.env ? `=${process.env[name]}` : "-")).join("\0");
   if (lastRead?.values !== values) lastRead = { values, environment: parseEnvironment(process.env) };
   return lastRead.environment;
 }
